@@ -1,0 +1,77 @@
+/**
+ * The stable JSON documents other programs depend on: the CLI's --json output
+ * and the service's responses use exactly these shapes. Add keys freely;
+ * never rename or remove one.
+ */
+import type { BaselineChoice, Candidate } from './choose.js';
+import type { ExcludedPeriod, ModelName } from './types.js';
+import type { SavingsResult } from './savings.js';
+
+export interface CandidateDocument {
+  model: ModelName;
+  verdict: Candidate['verdict'];
+  accepted: boolean;
+  reasons: string[];
+  /** Every parameter by name (slopes as dy/dx, use per day per degree). */
+  parameters: Record<string, number>;
+  coefficients: { name: string; estimate: number; standardError: number; tStat: number }[];
+  changepoints: { name: string; estimate: number; standardError: number | null }[];
+  segmentCounts: Record<string, number>;
+  temperatureRange: { min: number; max: number } | null;
+  sse: number | null;
+  n: number;
+  p: number;
+  aicc: number | null;
+  stats: {
+    r2: number;
+    adjustedR2: number;
+    rmse: number;
+    cvrmse: number;
+    nmbe: number;
+    autocorrelation: number;
+    durbinWatson: number;
+  } | null;
+  guideline14: Candidate['guideline14'];
+}
+
+export interface FitDocument {
+  selected: ModelName;
+  candidates: CandidateDocument[];
+  periods: { used: number; excluded: ExcludedPeriod[] };
+  settings: BaselineChoice['settings'];
+}
+
+export function candidateDocument(candidate: Candidate): CandidateDocument {
+  const fit = candidate.fit;
+  return {
+    model: candidate.model,
+    verdict: candidate.verdict,
+    accepted: candidate.accepted,
+    reasons: candidate.reasons,
+    parameters: fit ? { ...fit.parameters } : {},
+    coefficients: fit ? fit.coefficients.map((c) => ({ ...c })) : [],
+    changepoints: fit ? fit.changepointEstimates.map((c) => ({ ...c })) : [],
+    segmentCounts: fit ? { ...fit.segmentCounts } : {},
+    temperatureRange: fit ? { ...fit.temperatureRange } : null,
+    sse: fit ? fit.sse : null,
+    n: candidate.n,
+    p: candidate.p,
+    aicc: candidate.aicc,
+    stats: fit ? { ...fit.stats } : null,
+    guideline14: candidate.guideline14,
+  };
+}
+
+export function fitDocument(choice: BaselineChoice, periodsUsed: number, excluded: readonly ExcludedPeriod[]): FitDocument {
+  return {
+    selected: choice.selected,
+    candidates: choice.candidates.map(candidateDocument),
+    periods: { used: periodsUsed, excluded: [...excluded] },
+    settings: choice.settings,
+  };
+}
+
+export interface SavingsDocument extends SavingsResult {
+  baseline: { selected: ModelName; reportingMonths: number; guideline14: Candidate['guideline14'] };
+  excluded: { baseline: ExcludedPeriod[]; reporting: ExcludedPeriod[] };
+}

@@ -1,0 +1,53 @@
+/**
+ * ASHRAE Guideline 14 acceptance of a baseline model.
+ *
+ * The limits are FROM MEMORY of the 2002 and 2014 editions, not checked
+ * against the document: CV(RMSE) at most 20% with under 12 months of
+ * reporting data, 25% for 12–60 months, 30% beyond; net determination bias
+ * (NMBE) within 0.005%. They are configurable; verify them against the
+ * edition named in the contract's M&V plan.
+ */
+import type { FitStatistics } from './fit/fit-shape.js';
+
+export interface Guideline14Limits {
+  /** Largest acceptable CV(RMSE), as a fraction. */
+  cvrmse: number;
+  /** Largest acceptable |NMBE|, as a fraction. */
+  nmbe: number;
+  /** Where the limits come from, shown beside every verdict. */
+  source: string;
+}
+
+export const GUIDELINE14_SOURCE = 'ASHRAE Guideline 14 whole-facility regression limits (from memory of the 2002/2014 editions; verify against the edition in the M&V plan)';
+
+/** Defaults: the strictest CV(RMSE) limit (under 12 reporting months) and the 0.005% bias limit. */
+export const DEFAULT_GUIDELINE14_LIMITS: Guideline14Limits = {
+  cvrmse: 0.2,
+  nmbe: 0.00005,
+  source: GUIDELINE14_SOURCE,
+};
+
+/** The CV(RMSE) limit for a reporting period of the given length (from memory, see above). */
+export function cvrmseLimitForReportingMonths(months: number): number {
+  if (months < 12) return 0.2;
+  if (months <= 60) return 0.25;
+  return 0.3;
+}
+
+export interface Guideline14Check {
+  cvrmse: { value: number; limit: number; pass: boolean };
+  nmbe: { value: number; limit: number; pass: boolean };
+  pass: boolean;
+  source: string;
+}
+
+export function guideline14Check(stats: Pick<FitStatistics, 'cvrmse' | 'nmbe'>, limits: Guideline14Limits): Guideline14Check {
+  const cvPass = stats.cvrmse <= limits.cvrmse;
+  const nmbePass = Math.abs(stats.nmbe) <= limits.nmbe;
+  return {
+    cvrmse: { value: stats.cvrmse, limit: limits.cvrmse, pass: cvPass },
+    nmbe: { value: stats.nmbe, limit: limits.nmbe, pass: nmbePass },
+    pass: cvPass && nmbePass,
+    source: limits.source,
+  };
+}

@@ -1,0 +1,87 @@
+/**
+ * The engine's public surface: what the CLI, the service and the reports
+ * call. Pure computation: no HTTP, no SQL, no files, no clocks.
+ *
+ * Typical use:
+ *   const problems = [...checkReadings(readings), ...checkWeather(weather, 'F')];
+ *   const baseline = analyseBaseline(readings, weather);
+ *   const savings = analyseSavings(baseline, reportingReadings, weather, { confidence: 0.9 });
+ */
+import type { DailyTemperature, ExcludedPeriod, ModelName, Period, Reading } from './types.js';
+import { alignPeriods, type AlignmentOptions } from './periods.js';
+import { chooseBaseline, type BaselineChoice, type SelectionOptions } from './choose.js';
+import { computeSavings, type SavingsOptions } from './savings.js';
+import { cvrmseLimitForReportingMonths, guideline14Check } from './guideline14.js';
+import { fitDocument, type FitDocument, type SavingsDocument } from './documents.js';
+
+export * from './types.js';
+export { alignPeriods, indexWeather, DEFAULT_MIN_COVERAGE, type AlignmentOptions } from './periods.js';
+export { checkReadings, checkWeather, type InputProblem } from './validate.js';
+export { chooseBaseline, nestedFTest, DEFAULT_SIGNIFICANCE_LEVEL, DEFAULT_MIN_POINTS_PER_SEGMENT } from './choose.js';
+export type { BaselineChoice, Candidate, SelectionOptions, Verdict } from './choose.js';
+export { fitShape } from './fit/fit-shape.js';
+export type { ShapeFit, ShapeFitResult, ShapeFitFailure, Coefficient, ChangepointEstimate, FitStatistics } from './fit/fit-shape.js';
+export { designRow, predictPerDay } from './fit/shape-model.js';
+export { computeSavings, CONFIDENCE_LEVELS, SIGNIFICANCE_RULE } from './savings.js';
+export type { SavingsOptions, SavingsResult, SavingsPeriod, SavingsTotals, Uncertainty } from './savings.js';
+export { DEFAULT_GUIDELINE14_LIMITS, GUIDELINE14_SOURCE, cvrmseLimitForReportingMonths, guideline14Check } from './guideline14.js';
+export type { Guideline14Check, Guideline14Limits } from './guideline14.js';
+export { candidateDocument, fitDocument } from './documents.js';
+export type { CandidateDocument, FitDocument, SavingsDocument } from './documents.js';
+export { daysBetween, addDays, isIsoDate, parseIsoDate } from './dates.js';
+export { fahrenheitToCelsius, celsiusToFahrenheit, isPlausibleTemperature, unitSymbol } from './units.js';
+
+/** Average length of a calendar month in days (365.25 / 12), for counting reporting months. */
+export const DAYS_PER_MONTH = 365.25 / 12;
+
+export interface BaselineAnalysis {
+  periods: Period[];
+  excluded: ExcludedPeriod[];
+  choice: BaselineChoice;
+  document: FitDocument;
+}
+
+export type BaselineOptions = AlignmentOptions & SelectionOptions;
+
+/**
+ * Align baseline readings with weather, fit every shape and choose one.
+ * Throws RangeError when fewer than 2 periods are usable.
+ */
+export function analyseBaseline(
+  readings: readonly Reading[],
+  weather: readonly DailyTemperature[] | ReadonlyMap<string, number>,
+  options: BaselineOptions = {},
+): BaselineAnalysis {
+  const { periods, excluded } = alignPeriods(readings, weather, options);
+  const choice = chooseBaseline(periods, options);
+  return { periods, excluded, choice, document: fitDocument(choice, periods.length, excluded) };
+}
+
+export interface ReportingOptions extends SavingsOptions, AlignmentOptions {
+  /** Use this shape instead of the selected one (an engineer's override); it must have been fitted. */
+  model?: ModelName;
+}
+
+/**
+ * Savings of reporting-period readings against a baseline analysis. The
+ * Guideline 14 CV(RMSE) limit follows the reporting length (see guideline14.ts).
+ */
+export function analyseSavings(
+  baseline: BaselineAnalysis,
+  reportingReadings: readonly Reading[],
+  weather: readonly DailyTemperature[] | ReadonlyMap<string, number>,
+  options: ReportingOptions = {},
+): SavingsDocument {
+  const model = options.model ?? baseline.choice.selected;
+  const candidate = baseline.choice.candidates.find((c) => c.model === model);
+  if (!candidate?.fit) throw new RangeError(`the ${model} shape could not be fitted to this baseline`);
+  const { periods, excluded } = alignPeriods(reportingReadings, weather, options);
+  const result = computeSavings(candidate.fit, periods, options);
+  const reportingMonths = periods.reduce((days, p) => days + p.days, 0) / DAYS_PER_MONTH;
+  const limits = { ...baseline.choice.settings.guideline14, cvrmse: cvrmseLimitForReportingMonths(reportingMonths) };
+  return {
+    ...result,
+    baseline: { selected: model, reportingMonths, guideline14: guideline14Check(candidate.fit.stats, limits) },
+    excluded: { baseline: baseline.excluded, reporting: excluded },
+  };
+}

@@ -1,0 +1,76 @@
+/**
+ * Billing periods against daily weather. A reading covers [start, end), so
+ * days = end − start; its temperature is the mean of the daily means over the
+ * days that have weather. A period with too few such days (below the
+ * coverage threshold, 90% by default: common practice, not a standard) is
+ * left out with its reason stated, never silently.
+ */
+import type { AlignedPeriods, DailyTemperature, ExcludedPeriod, Period, Reading } from './types.js';
+import { addDays, daysBetween } from './dates.js';
+
+export interface AlignmentOptions {
+  /** Minimum share of a period's days that must have a temperature (0..1). Default 0.9. */
+  minCoverage?: number;
+}
+
+export const DEFAULT_MIN_COVERAGE = 0.9;
+
+/** Index daily temperatures by date (the last value wins for a repeated date). */
+export function indexWeather(weather: readonly DailyTemperature[]): Map<string, number> {
+  const byDate = new Map<string, number>();
+  for (const day of weather) byDate.set(day.date, day.temp);
+  return byDate;
+}
+
+/**
+ * Align readings with daily weather. Readings are assumed valid (see
+ * validate.ts); output periods keep the input order.
+ */
+export function alignPeriods(
+  readings: readonly Reading[],
+  weather: readonly DailyTemperature[] | ReadonlyMap<string, number>,
+  options: AlignmentOptions = {},
+): AlignedPeriods {
+  const minCoverage = options.minCoverage ?? DEFAULT_MIN_COVERAGE;
+  if (!(minCoverage > 0 && minCoverage <= 1)) throw new RangeError(`minCoverage must lie in (0, 1], got ${minCoverage}`);
+  const byDate = weather instanceof Map ? weather : indexWeather(weather as readonly DailyTemperature[]);
+  const periods: Period[] = [];
+  const excluded: ExcludedPeriod[] = [];
+  readings.forEach((reading, index) => {
+    const days = daysBetween(reading.start, reading.end);
+    let covered = 0;
+    let sum = 0;
+    for (let d = 0; d < days; d++) {
+      const temp = byDate.get(addDays(reading.start, d));
+      if (temp !== undefined) {
+        covered++;
+        sum += temp;
+      }
+    }
+    const coverage = covered / days;
+    if (coverage < minCoverage) {
+      excluded.push({
+        start: reading.start,
+        end: reading.end,
+        index,
+        reason: `weather covers ${covered} of ${days} days (${formatPercent(coverage)} < ${formatPercent(minCoverage)} required)`,
+      });
+      return;
+    }
+    periods.push({
+      start: reading.start,
+      end: reading.end,
+      days,
+      quantity: reading.quantity,
+      usePerDay: reading.quantity / days,
+      meanTemp: sum / covered,
+      coverage,
+      estimated: reading.estimated ?? false,
+    });
+  });
+  return { periods, excluded };
+}
+
+function formatPercent(fraction: number): string {
+  return `${(fraction * 100).toFixed(fraction * 100 === Math.round(fraction * 100) ? 0 : 1)}%`;
+}

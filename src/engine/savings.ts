@@ -1,0 +1,150 @@
+/**
+ * Avoided energy: project the frozen baseline onto reporting-period weather.
+ *
+ * Adjusted baseline per period = days × f(meanTemp); avoided energy
+ * S = Σ adjusted baseline − Σ actual; fraction saved F = S / Σ adjusted
+ * baseline. The uncertainty of S is stated two ways (see
+ * stats/savings-uncertainty.ts): the ASHRAE Guideline 14 Annex B formula and
+ * the exact regression variance with the changepoints held fixed.
+ */
+import type { ModelName, Period } from './types.js';
+import type { ShapeFit } from './fit/fit-shape.js';
+import { designRow, predictPerDay } from './fit/shape-model.js';
+import { twoSidedTCritical } from './stats/distributions.js';
+import { effectiveSampleSize, exactSavingsVariance, guideline14FractionalUncertainty } from './stats/savings-uncertainty.js';
+
+/** Confidence levels offered to users (two-sided). */
+export const CONFIDENCE_LEVELS = [0.68, 0.8, 0.9, 0.95] as const;
+
+/** The Guideline 14 test of meaningful savings: uncertainty under 50% of savings at 68% confidence. */
+export const SIGNIFICANCE_RULE = { confidence: 0.68, maxFractionalUncertainty: 0.5 } as const;
+
+export interface SavingsOptions {
+  /** Two-sided confidence of the stated uncertainty. Default 0.68. */
+  confidence?: number;
+  /** Widen for autocorrelated residuals by n/n′ (default true). */
+  autocorrelationCorrection?: boolean;
+}
+
+export interface SavingsPeriod {
+  start: string;
+  end: string;
+  days: number;
+  meanTemp: number;
+  actual: number;
+  adjustedBaseline: number;
+  savings: number;
+  /** The period's temperature lies outside the baseline's range: the model is extrapolating. */
+  outsideBaselineRange: boolean;
+}
+
+export interface Uncertainty {
+  /** ΔS/S as a positive fraction (Infinity when S = 0). */
+  fractional: number;
+  /** ΔS in the meter's unit. */
+  absolute: number;
+}
+
+export interface SavingsTotals {
+  actual: number;
+  adjustedBaseline: number;
+  savings: number;
+  fractionSaved: number;
+  confidence: number;
+  uncertainty: { guideline14: Uncertainty; exact: Uncertainty };
+  /** Savings distinguishable from zero under the 50%-at-68% rule, by the more cautious of the two formulas. */
+  significant: boolean;
+  /** Share of the adjusted baseline from periods outside the baseline's temperature range. */
+  outsideRangeShare: number;
+}
+
+export interface SavingsResult {
+  model: ModelName;
+  periods: SavingsPeriod[];
+  totals: SavingsTotals;
+  significance: {
+    rule: string;
+    fractionalAt68: { guideline14: number; exact: number };
+  };
+  baselineTemperatureRange: { min: number; max: number };
+  /** Inputs of the uncertainty formulas, for audit. */
+  uncertaintyInputs: { n: number; nPrime: number; m: number; p: number; t: number; autocorrelation: number; cvrmse: number };
+}
+
+/**
+ * Savings of `reporting` periods against a fitted baseline model.
+ * Throws when there is no reporting period.
+ */
+export function computeSavings(baseline: ShapeFit, reporting: readonly Period[], options: SavingsOptions = {}): SavingsResult {
+  const confidence = options.confidence ?? SIGNIFICANCE_RULE.confidence;
+  if (!(confidence > 0 && confidence < 1)) throw new RangeError(`confidence must lie in (0, 1), got ${confidence}`);
+  if (reporting.length === 0) throw new RangeError('no reporting periods to compute savings for');
+  const ordered = [...reporting].sort((a, b) => (a.start < b.start ? -1 : a.start > b.start ? 1 : 0));
+  const range = baseline.temperatureRange;
+
+  const periods: SavingsPeriod[] = ordered.map((period) => {
+    const adjustedBaseline = period.days * predictPerDay(baseline.model, baseline.changepoints, baseline.rawCoefficients, period.meanTemp);
+    return {
+      start: period.start,
+      end: period.end,
+      days: period.days,
+      meanTemp: period.meanTemp,
+      actual: period.quantity,
+      adjustedBaseline,
+      savings: adjustedBaseline - period.quantity,
+      outsideBaselineRange: period.meanTemp < range.min || period.meanTemp > range.max,
+    };
+  });
+
+  const actual = sum(periods.map((p) => p.actual));
+  const adjustedBaseline = sum(periods.map((p) => p.adjustedBaseline));
+  const savings = adjustedBaseline - actual;
+  const fractionSaved = savings / adjustedBaseline;
+  const outside = sum(periods.filter((p) => p.outsideBaselineRange).map((p) => p.adjustedBaseline));
+
+  const n = baseline.n;
+  const rho = baseline.stats.autocorrelation;
+  const correct = options.autocorrelationCorrection ?? true;
+  const nPrime = correct ? effectiveSampleSize(n, rho) : n;
+  const rows = ordered.map((period) => ({ days: period.days, designRow: designRow(baseline.model, baseline.changepoints, period.meanTemp) }));
+  const variance = exactSavingsVariance(baseline.unscaledCovariance, baseline.residualVariance, rows, n / nPrime);
+
+  const uncertaintyAt = (level: number) => {
+    const t = twoSidedTCritical(level, n - baseline.p);
+    const g14Fractional = guideline14FractionalUncertainty({ t, cvrmse: baseline.stats.cvrmse, n, nPrime, m: periods.length, fractionSaved });
+    const exactAbsolute = t * Math.sqrt(variance);
+    return {
+      t,
+      guideline14: { fractional: g14Fractional, absolute: g14Fractional * Math.abs(savings) },
+      exact: { fractional: exactAbsolute / Math.abs(savings), absolute: exactAbsolute },
+    };
+  };
+  const chosen = uncertaintyAt(confidence);
+  const at68 = uncertaintyAt(SIGNIFICANCE_RULE.confidence);
+  const worstAt68 = Math.max(at68.guideline14.fractional, at68.exact.fractional);
+
+  return {
+    model: baseline.model,
+    periods,
+    totals: {
+      actual,
+      adjustedBaseline,
+      savings,
+      fractionSaved,
+      confidence,
+      uncertainty: { guideline14: chosen.guideline14, exact: chosen.exact },
+      significant: worstAt68 < SIGNIFICANCE_RULE.maxFractionalUncertainty,
+      outsideRangeShare: adjustedBaseline !== 0 ? outside / adjustedBaseline : 0,
+    },
+    significance: {
+      rule: 'ASHRAE Guideline 14: savings are meaningful when their uncertainty is below 50% of the savings at 68% confidence; judged here by the larger of the two formulas',
+      fractionalAt68: { guideline14: at68.guideline14.fractional, exact: at68.exact.fractional },
+    },
+    baselineTemperatureRange: { ...range },
+    uncertaintyInputs: { n, nPrime, m: periods.length, p: baseline.p, t: chosen.t, autocorrelation: rho, cvrmse: baseline.stats.cvrmse },
+  };
+}
+
+function sum(values: readonly number[]): number {
+  return values.reduce((total, value) => total + value, 0);
+}

@@ -1,0 +1,28 @@
+import jstatModule from 'jstat';
+
+// jstat is CommonJS; under ESM its namespace arrives as the default export.
+const jStat = (jstatModule as unknown as { jStat?: typeof jstatModule }).jStat ?? jstatModule;
+
+/** Two-sided Student t critical value: P(|T| ≤ t) = confidence with `dof` degrees of freedom. */
+export function twoSidedTCritical(confidence: number, dof: number): number {
+  if (!(confidence > 0 && confidence < 1)) throw new RangeError(`confidence must lie in (0, 1), got ${confidence}`);
+  if (!(dof > 0)) return Number.POSITIVE_INFINITY;
+  return jStat.studentt.inv((1 + confidence) / 2, dof);
+}
+
+/** Two-sided p-value of a t statistic with `dof` degrees of freedom. */
+export function twoSidedTPValue(t: number, dof: number): number {
+  if (!Number.isFinite(t)) return Number.isNaN(t) ? Number.NaN : 0;
+  return 2 * (1 - jStat.studentt.cdf(Math.abs(t), dof));
+}
+
+/** Upper critical value of the F distribution: P(F ≤ f) = 1 − level. */
+export function fCritical(level: number, df1: number, df2: number): number {
+  return jStat.centralF.inv(1 - level, df1, df2);
+}
+
+/** Upper-tail probability of an F statistic. */
+export function fPValue(f: number, df1: number, df2: number): number {
+  if (!Number.isFinite(f)) return f > 0 ? 0 : Number.NaN;
+  return 1 - jStat.centralF.cdf(f, df1, df2);
+}

@@ -1,0 +1,67 @@
+/**
+ * Shared data shapes of the engine. Everything here is plain data: no HTTP,
+ * no SQL, no files. Dates are ISO calendar dates (YYYY-MM-DD); a reading
+ * covers [start, end), so `days = end − start`.
+ */
+
+/** The six changepoint shapes, named as ASHRAE Guideline 14 names them. */
+export type ModelName = '1P' | '2P' | '3PC' | '3PH' | '4P' | '5P';
+
+/** Every shape, simplest first. */
+export const MODEL_NAMES: readonly ModelName[] = ['1P', '2P', '3PC', '3PH', '4P', '5P'];
+
+/** Parameter count p of each shape, changepoints included. */
+export const PARAMETER_COUNT: Readonly<Record<ModelName, number>> = {
+  '1P': 1,
+  '2P': 2,
+  '3PC': 3,
+  '3PH': 3,
+  '4P': 4,
+  '5P': 5,
+};
+
+export type TemperatureUnit = 'F' | 'C';
+
+/** One meter reading (a bill, or a day of interval data). */
+export interface Reading {
+  start: string;
+  end: string;
+  quantity: number;
+  estimated?: boolean;
+}
+
+/** One day of weather: the daily mean outdoor dry-bulb temperature. */
+export interface DailyTemperature {
+  date: string;
+  temp: number;
+}
+
+/**
+ * A reading aligned with its weather: the point the regression sees.
+ * x = mean temperature over the period's days, y = use per day, w = days.
+ */
+export interface Period {
+  start: string;
+  end: string;
+  days: number;
+  quantity: number;
+  usePerDay: number;
+  meanTemp: number;
+  /** Share of the period's days that have a temperature (0..1). */
+  coverage: number;
+  estimated: boolean;
+}
+
+/** A reading that could not be used, and why (never dropped silently). */
+export interface ExcludedPeriod {
+  start: string;
+  end: string;
+  /** Index of the reading in the input list. */
+  index: number;
+  reason: string;
+}
+
+export interface AlignedPeriods {
+  periods: Period[];
+  excluded: ExcludedPeriod[];
+}

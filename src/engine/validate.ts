@@ -1,0 +1,75 @@
+/**
+ * Checks on readings and weather before any fit. Each problem names the
+ * record (its index in the input) and the field, so a caller can point at a
+ * CSV row or a JSON path. The engine never repairs input.
+ */
+import type { DailyTemperature, Reading, TemperatureUnit } from './types.js';
+import { parseIsoDate } from './dates.js';
+import { isPlausibleTemperature, PLAUSIBLE_TEMPERATURE_F, fahrenheitToCelsius, unitSymbol } from './units.js';
+
+export interface InputProblem {
+  /** Index of the offending record in the input list. */
+  index: number;
+  field: string;
+  message: string;
+}
+
+/** Problems in a list of readings: bad dates, end ≤ start, bad quantities, duplicates and overlaps. */
+export function checkReadings(readings: readonly Reading[]): InputProblem[] {
+  const problems: InputProblem[] = [];
+  const valid: { index: number; start: number; end: number }[] = [];
+  readings.forEach((reading, index) => {
+    const start = parseIsoDate(reading.start);
+    const end = parseIsoDate(reading.end);
+    if (start === null) problems.push({ index, field: 'start', message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(reading.start)}` });
+    if (end === null) problems.push({ index, field: 'end', message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(reading.end)}` });
+    if (!Number.isFinite(reading.quantity)) problems.push({ index, field: 'quantity', message: 'not a finite number' });
+    else if (reading.quantity < 0) problems.push({ index, field: 'quantity', message: `negative (${reading.quantity})` });
+    if (start !== null && end !== null) {
+      if (end <= start) problems.push({ index, field: 'end', message: `end ${reading.end} is not after start ${reading.start}` });
+      else valid.push({ index, start, end });
+    }
+  });
+  valid.sort((a, b) => a.start - b.start || a.end - b.end);
+  for (let i = 1; i < valid.length; i++) {
+    const previous = valid[i - 1]!;
+    const current = valid[i]!;
+    const earlier = readings[previous.index]!;
+    if (current.start === previous.start && current.end === previous.end) {
+      problems.push({ index: current.index, field: 'start', message: `duplicates the period ${earlier.start}..${earlier.end} of record ${previous.index + 1}` });
+    } else if (current.start < previous.end) {
+      problems.push({ index: current.index, field: 'start', message: `overlaps the period ${earlier.start}..${earlier.end} of record ${previous.index + 1}` });
+    }
+  }
+  return problems.sort((a, b) => a.index - b.index);
+}
+
+/** Problems in daily weather: bad dates, repeated dates, implausible temperatures. */
+export function checkWeather(weather: readonly DailyTemperature[], unit: TemperatureUnit): InputProblem[] {
+  const problems: InputProblem[] = [];
+  const seen = new Map<string, number>();
+  const low = unit === 'F' ? PLAUSIBLE_TEMPERATURE_F.min : fahrenheitToCelsius(PLAUSIBLE_TEMPERATURE_F.min);
+  const high = unit === 'F' ? PLAUSIBLE_TEMPERATURE_F.max : fahrenheitToCelsius(PLAUSIBLE_TEMPERATURE_F.max);
+  weather.forEach((day, index) => {
+    if (parseIsoDate(day.date) === null) {
+      problems.push({ index, field: 'date', message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(day.date)}` });
+    } else if (seen.has(day.date)) {
+      problems.push({ index, field: 'date', message: `repeats ${day.date} of record ${seen.get(day.date)! + 1}` });
+    } else {
+      seen.set(day.date, index);
+    }
+    if (!Number.isFinite(day.temp)) problems.push({ index, field: 'temp', message: 'not a finite number' });
+    else if (!isPlausibleTemperature(day.temp, unit)) {
+      problems.push({
+        index,
+        field: 'temp',
+        message: `${day.temp} ${unitSymbol(unit)} is outside the plausible range ${round1(low)}…${round1(high)} ${unitSymbol(unit)}`,
+      });
+    }
+  });
+  return problems;
+}
+
+function round1(value: number): number {
+  return Math.round(value * 10) / 10;
+}
