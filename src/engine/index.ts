@@ -60,6 +60,8 @@ export function analyseBaseline(
 export interface ReportingOptions extends SavingsOptions, AlignmentOptions {
   /** Use this shape instead of the selected one (an engineer's override); it must have been fitted. */
   model?: ModelName;
+  /** CV(RMSE) limit for the acceptance check; by default it follows the reporting length. */
+  cvrmseLimit?: number;
 }
 
 /**
@@ -78,7 +80,7 @@ export function analyseSavings(
   const { periods, excluded } = alignPeriods(reportingReadings, weather, options);
   const result = computeSavings(candidate.fit, periods, options);
   const reportingMonths = periods.reduce((days, p) => days + p.days, 0) / DAYS_PER_MONTH;
-  const limits = { ...baseline.choice.settings.guideline14, cvrmse: cvrmseLimitForReportingMonths(reportingMonths) };
+  const limits = { ...baseline.choice.settings.guideline14, cvrmse: options.cvrmseLimit ?? cvrmseLimitForReportingMonths(reportingMonths) };
   return {
     ...result,
     baseline: { selected: model, reportingMonths, guideline14: guideline14Check(candidate.fit.stats, limits) },

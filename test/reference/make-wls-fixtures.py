@@ -72,6 +72,8 @@ def fit(name, design, y, weights, reporting, groups, df_resid=None, note=""):
             mean = float(frame["mean"].iloc[0])
             entry["mean"] = mean
             entry["obsHalfWidth%d" % round(conf * 100)] = float(frame["obs_ci_upper"].iloc[0]) - mean
+            # The two-sided t quantile statsmodels uses for that interval (df = df_resid).
+            entry["tCritical%d" % round(conf * 100)] = float(scipy.stats.t.ppf(1.0 - (1.0 - conf) / 2.0, res.df_resid))
         single.append(entry)
     multi = []
     for indices in groups:
