@@ -197,7 +197,7 @@ export function nestedFTest(simpler: ShapeFit, richer: ShapeFit, alpha: number):
   const passes = f > critical;
   return {
     passes,
-    text: `F = ${formatNumber(f)} ${passes ? '>' : '≤'} ${critical.toFixed(2)} (α = ${alpha}; ${df1}, ${df2} degrees of freedom; p = ${formatP(fPValue(f, df1, df2))})`,
+    text: `F = ${formatNumber(f)} ${passes ? '>' : '≤'} ${critical.toFixed(2)} (α = ${alpha}; ${df1}, ${df2} degrees of freedom; p ${formatP(fPValue(f, df1, df2))})`,
   };
 }
 
@@ -209,6 +209,6 @@ function formatNumber(value: number): string {
 }
 
 function formatP(p: number): string {
-  return p < 1e-4 ? '< 0.0001' : p.toFixed(4);
+  return p < 1e-4 ? '< 0.0001' : `= ${p.toFixed(4)}`;
 }
 

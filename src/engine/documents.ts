@@ -38,7 +38,7 @@ export interface FitDocument {
   selected: ModelName;
   candidates: CandidateDocument[];
   periods: { used: number; excluded: ExcludedPeriod[] };
-  settings: BaselineChoice['settings'];
+  settings: BaselineChoice['settings'] & { minCoverage: number };
 }
 
 export function candidateDocument(candidate: Candidate): CandidateDocument {
@@ -62,12 +62,17 @@ export function candidateDocument(candidate: Candidate): CandidateDocument {
   };
 }
 
-export function fitDocument(choice: BaselineChoice, periodsUsed: number, excluded: readonly ExcludedPeriod[]): FitDocument {
+export function fitDocument(
+  choice: BaselineChoice,
+  periodsUsed: number,
+  excluded: readonly ExcludedPeriod[],
+  minCoverage: number,
+): FitDocument {
   return {
     selected: choice.selected,
     candidates: choice.candidates.map(candidateDocument),
     periods: { used: periodsUsed, excluded: [...excluded] },
-    settings: choice.settings,
+    settings: { ...choice.settings, minCoverage },
   };
 }
 

@@ -8,7 +8,7 @@
  *   const savings = analyseSavings(baseline, reportingReadings, weather, { confidence: 0.9 });
  */
 import type { DailyTemperature, ExcludedPeriod, ModelName, Period, Reading } from './types.js';
-import { alignPeriods, type AlignmentOptions } from './periods.js';
+import { alignPeriods, DEFAULT_MIN_COVERAGE, type AlignmentOptions } from './periods.js';
 import { chooseBaseline, type BaselineChoice, type SelectionOptions } from './choose.js';
 import { computeSavings, type SavingsOptions } from './savings.js';
 import { cvrmseLimitForReportingMonths, guideline14Check } from './guideline14.js';
@@ -54,7 +54,7 @@ export function analyseBaseline(
 ): BaselineAnalysis {
   const { periods, excluded } = alignPeriods(readings, weather, options);
   const choice = chooseBaseline(periods, options);
-  return { periods, excluded, choice, document: fitDocument(choice, periods.length, excluded) };
+  return { periods, excluded, choice, document: fitDocument(choice, periods.length, excluded, options.minCoverage ?? DEFAULT_MIN_COVERAGE) };
 }
 
 export interface ReportingOptions extends SavingsOptions, AlignmentOptions {

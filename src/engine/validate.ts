@@ -12,6 +12,8 @@ export interface InputProblem {
   index: number;
   field: string;
   message: string;
+  /** Index of another record the problem refers to (the one duplicated or overlapped). */
+  relatedIndex?: number;
 }
 
 /** Problems in a list of readings: bad dates, end ≤ start, bad quantities, duplicates and overlaps. */
@@ -36,9 +38,9 @@ export function checkReadings(readings: readonly Reading[]): InputProblem[] {
     const current = valid[i]!;
     const earlier = readings[previous.index]!;
     if (current.start === previous.start && current.end === previous.end) {
-      problems.push({ index: current.index, field: 'start', message: `duplicates the period ${earlier.start}..${earlier.end} of record ${previous.index + 1}` });
+      problems.push({ index: current.index, field: 'start', message: `duplicates the period ${earlier.start}..${earlier.end}`, relatedIndex: previous.index });
     } else if (current.start < previous.end) {
-      problems.push({ index: current.index, field: 'start', message: `overlaps the period ${earlier.start}..${earlier.end} of record ${previous.index + 1}` });
+      problems.push({ index: current.index, field: 'start', message: `overlaps the period ${earlier.start}..${earlier.end}`, relatedIndex: previous.index });
     }
   }
   return problems.sort((a, b) => a.index - b.index);
@@ -54,7 +56,7 @@ export function checkWeather(weather: readonly DailyTemperature[], unit: Tempera
     if (parseIsoDate(day.date) === null) {
       problems.push({ index, field: 'date', message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(day.date)}` });
     } else if (seen.has(day.date)) {
-      problems.push({ index, field: 'date', message: `repeats ${day.date} of record ${seen.get(day.date)! + 1}` });
+      problems.push({ index, field: 'date', message: `repeats the date ${day.date}`, relatedIndex: seen.get(day.date)! });
     } else {
       seen.set(day.date, index);
     }

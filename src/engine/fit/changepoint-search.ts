@@ -76,6 +76,28 @@ function suffixLines(s: SortedSums): LineFits {
 }
 
 /**
+ * A lower bound on the SSE of any 5P whose heating segment is the first
+ * `heatingEnd` points, cooling segment the points from `coolingStart` on and
+ * the rest flat: the three segments fitted apart, with no continuity (a
+ * segment too narrow for a line gets its constant fit, which a line cannot
+ * beat there). Used only to skip placements that cannot win.
+ */
+function separateFitBound(s: SortedSums, prefix: LineFits, suffix: LineFits, heatingEnd: number, coolingStart: number): number {
+  return boundOfLine(prefix.sse[heatingEnd]!, s, 0, heatingEnd) + constantSse(s, heatingEnd, coolingStart) + boundOfLine(suffix.sse[coolingStart]!, s, coolingStart, s.n);
+}
+
+function constantSse(s: SortedSums, from: number, to: number): number {
+  const W = s.W[to]! - s.W[from]!;
+  if (!(W > 0)) return 0;
+  const Y = s.Y[to]! - s.Y[from]!;
+  return Math.max(0, s.YY[to]! - s.YY[from]! - (Y * Y) / W);
+}
+
+function boundOfLine(lineSse: number, s: SortedSums, from: number, to: number): number {
+  return Number.isFinite(lineSse) ? Math.max(0, lineSse) : constantSse(s, from, to);
+}
+
+/**
  * Weighted SSE of y = b0 + bh·(cH − x)₊ + bq·(x − cC)₊ with the changepoints
  * held fixed. `heatingEnd` is the count of sorted points below cH, and
  * `coolingStart` the first sorted index above cC (points on a changepoint
@@ -252,6 +274,7 @@ function searchFivePoint(s: SortedSums, k: number): Best {
     const below = groups[g]!;
     const atOrBelow = groups[g + 1]!;
     if (atOrBelow < k || below === 0) continue;
+    if (boundOfLine(prefix.sse[below]!, s, 0, below) >= best.sse) continue;
     const cH = s.x[below]!;
     const left = segmentSums(s, 0, below);
     const Sh = cH * left.W - left.X;
@@ -260,6 +283,7 @@ function searchFivePoint(s: SortedSums, k: number): Best {
     for (const s2 of splits) {
       if (s2 < atOrBelow || s2 - below < k) continue;
       if (n - s2 < k) break;
+      if (separateFitBound(s, prefix, suffix, below, s2) >= best.sse) continue;
       const wLM = s.W[s2]!;
       const yLM = s.Y[s2]!;
       const det = wLM * Shh - Sh * Sh;
@@ -277,6 +301,7 @@ function searchFivePoint(s: SortedSums, k: number): Best {
     const below = groups[g]!;
     const atOrBelow = groups[g + 1]!;
     if (n - below < k || atOrBelow === n) continue;
+    if (boundOfLine(suffix.sse[atOrBelow]!, s, atOrBelow, n) >= best.sse) continue;
     const cC = s.x[below]!;
     const right = segmentSums(s, atOrBelow, n);
     const Sq = right.X - cC * right.W;
@@ -285,6 +310,7 @@ function searchFivePoint(s: SortedSums, k: number): Best {
     for (const s1 of splits) {
       if (s1 > below) break;
       if (s1 < k || atOrBelow - s1 < k) continue;
+      if (separateFitBound(s, prefix, suffix, s1, atOrBelow) >= best.sse) continue;
       const wMR = s.W[n]! - s.W[s1]!;
       const yMR = s.Y[n]! - s.Y[s1]!;
       const det = wMR * Sqq - Sq * Sq;
@@ -301,12 +327,14 @@ function searchFivePoint(s: SortedSums, k: number): Best {
   for (let g1 = 0; g1 < groupCount; g1++) {
     const below1 = groups[g1]!;
     if (groups[g1 + 1]! < k) continue;
+    if (boundOfLine(prefix.sse[below1]!, s, 0, below1) >= best.sse) continue;
     const cH = s.x[below1]!;
     for (let g2 = g1; g2 < groupCount; g2++) {
       const below2 = groups[g2]!;
       const atOrBelow2 = groups[g2 + 1]!;
       if (n - below2 < k) break;
       if (atOrBelow2 - below1 < k) continue;
+      if (separateFitBound(s, prefix, suffix, below1, atOrBelow2) >= best.sse) continue;
       best.offer(fixedHingeSse(s, cH, below1, s.x[below2]!, atOrBelow2), cH, s.x[below2]!);
     }
   }

@@ -1,0 +1,30 @@
+/** The baseline analysis both commands start from, with too-few-periods turned into an input error. */
+import { analyseBaseline, type BaselineAnalysis } from '../../engine/index.js';
+import type { CommonOptions } from '../options.js';
+import type { ReadingsFile } from '../input/readings-file.js';
+import type { WeatherFile } from '../input/weather-file.js';
+import { explainTooFewPeriods } from './too-few-periods.js';
+
+/** The engine's minimum number of usable baseline periods (analyseBaseline throws below it). */
+const MIN_BASELINE_PERIODS = 2;
+
+export function fitBaseline(readings: ReadingsFile, weather: WeatherFile, options: CommonOptions): BaselineAnalysis {
+  try {
+    return analyseBaseline(readings.readings, weather.weather, {
+      minCoverage: options.minCoverage,
+      significanceLevel: options.significanceLevel,
+      minPointsPerSegment: options.minPointsPerSegment,
+    });
+  } catch (error) {
+    if (error instanceof RangeError) {
+      const explained = explainTooFewPeriods(readings, weather, options.minCoverage, MIN_BASELINE_PERIODS, error.message);
+      if (explained) throw explained;
+    }
+    throw error;
+  }
+}
+
+/** File line of a reading by index, for the reports. */
+export function lineLookup(readings: ReadingsFile): (index: number) => number {
+  return (index) => readings.lines[index] ?? readings.headerLine;
+}

@@ -1,0 +1,23 @@
+/** `mvledger fit`: fit every shape to the baseline readings and choose one. */
+import type { FitOptions } from '../options.js';
+import { loadReadings } from '../input/readings-file.js';
+import { loadWeather } from '../input/weather-file.js';
+import { toJsonDocument } from '../format/json.js';
+import { renderFitReport } from '../format/fit-report.js';
+import { fitBaseline, lineLookup } from './baseline.js';
+
+/** The command's whole stdout text; throws on bad input so nothing is printed halfway. */
+export async function runFit(options: FitOptions): Promise<string> {
+  const readings = await loadReadings(options.readings);
+  const weather = await loadWeather(options.weather, options.unit);
+  const analysis = fitBaseline(readings, weather, options);
+  if (options.json) return toJsonDocument(analysis.document);
+  return renderFitReport(analysis.document, {
+    readingsFile: readings.file,
+    weatherFile: weather.file,
+    weatherSource: weather.source,
+    unit: weather.unit,
+    minCoverage: options.minCoverage,
+    lineOf: lineLookup(readings),
+  });
+}

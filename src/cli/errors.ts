@@ -1,0 +1,39 @@
+/**
+ * Failures the user can fix, each told in one line. Anything else that
+ * escapes a command is an internal error (exit code 1).
+ */
+
+/** Exit code for bad usage or bad input: the user can fix it. */
+export const EXIT_BAD_INPUT = 2;
+/** Exit code for an unexpected internal failure. */
+export const EXIT_INTERNAL = 1;
+
+/** A problem with the command line (unknown option, bad value). */
+export class UsageError extends Error {
+  override name = 'UsageError';
+}
+
+/** A problem in an input file, located at a CSV row (the line number in the file, header = 1) and a field. */
+export class InputFileError extends Error {
+  override name = 'InputFileError';
+  constructor(
+    readonly file: string,
+    readonly line: number | null,
+    readonly field: string | null,
+    readonly detail: string,
+  ) {
+    super(describeLocation(file, line, field) + ': ' + detail);
+  }
+}
+
+function describeLocation(file: string, line: number | null, field: string | null): string {
+  let where = file;
+  if (line !== null) where += ` row ${line}`;
+  if (field !== null) where += `${line !== null ? ',' : ''} field "${field}"`;
+  return where;
+}
+
+/** Keep a message on one line, whatever the engine or the system put in it. */
+export function oneLine(text: string): string {
+  return text.replace(/\s*[\r\n]+\s*/g, ' ').trim();
+}

@@ -1,0 +1,93 @@
+/**
+ * The plain-text report of `mvledger fit`: one row per candidate shape,
+ * each candidate's reasons, the periods left out, and the Guideline 14
+ * acceptance of the selected shape.
+ */
+import type { FitDocument, TemperatureUnit } from '../../engine/index.js';
+import { unitSymbol } from '../../engine/index.js';
+import { CAUTION } from './caution.js';
+import { guideline14Lines } from './guideline14-lines.js';
+import { formatFixed, formatPercent, formatSignificant } from './numbers.js';
+import { parameterLegend, parameterSummary } from './parameters.js';
+import { renderTable } from './table.js';
+
+export interface FitReportContext {
+  readingsFile: string;
+  weatherFile: string;
+  weatherSource: string;
+  unit: TemperatureUnit;
+  minCoverage: number;
+  /** File line of the reading with this index. */
+  lineOf(index: number): number;
+}
+
+export function renderFitReport(document: FitDocument, context: FitReportContext): string {
+  const symbol = unitSymbol(context.unit);
+  const excluded = document.periods.excluded;
+  const settings = document.settings;
+  const lines: string[] = [
+    'Baseline fit',
+    `  readings: ${context.readingsFile} (${document.periods.used} periods used, ${excluded.length} left out)`,
+    `  weather:  ${context.weatherFile} (daily mean from ${context.weatherSource}, ${symbol})`,
+    `  settings: α = ${settings.significanceLevel}, at least ${settings.minPointsPerSegment} points per segment, weather coverage at least ${formatPercent(context.minCoverage, 0)}`,
+    '',
+    `Selected shape: ${document.selected}`,
+    '',
+  ];
+
+  const rows = document.candidates.map((c) => [
+    c.model,
+    c.verdict,
+    String(c.n),
+    String(c.p),
+    formatFixed(c.stats?.r2, 3),
+    formatFixed(c.stats ? c.stats.cvrmse * 100 : null, 2),
+    formatFixed(c.stats ? c.stats.nmbe * 100 : null, 3),
+    formatSse(c.sse),
+    parameterSummary(c.parameters, symbol),
+  ]);
+  lines.push(
+    ...renderTable(
+      [
+        { title: 'Model', align: 'left' },
+        { title: 'Verdict', align: 'left' },
+        { title: 'n', align: 'right' },
+        { title: 'p', align: 'right' },
+        { title: 'R²', align: 'right' },
+        { title: 'CV(RMSE) %', align: 'right' },
+        { title: 'NMBE %', align: 'right' },
+        { title: 'SSE', align: 'right' },
+        { title: 'Parameters', align: 'left' },
+      ],
+      rows,
+    ),
+    parameterLegend(symbol),
+    '',
+    'Reasons',
+  );
+  for (const c of document.candidates) {
+    lines.push(`  ${c.model} (${c.verdict})`, ...c.reasons.map((reason) => `    - ${reason}`));
+  }
+
+  lines.push('', 'Periods left out of the fit');
+  if (excluded.length === 0) lines.push('  none');
+  const rowWidth = Math.max(0, ...excluded.map((period) => String(context.lineOf(period.index)).length));
+  for (const period of excluded) {
+    lines.push(`  row ${String(context.lineOf(period.index)).padStart(rowWidth)}  ${period.start} to ${period.end}: ${period.reason}`);
+  }
+
+  const selected = document.candidates.find((c) => c.model === document.selected);
+  lines.push(
+    '',
+    ...guideline14Lines(selected?.guideline14 ?? null, `Guideline 14 acceptance of the selected shape (${document.selected})`),
+    '  The CV(RMSE) limit here is the one for under 12 reporting months; `mvledger savings` applies the limit for the reporting length.',
+    '',
+    CAUTION,
+  );
+  return `${lines.join('\n')}\n`;
+}
+
+/** SSE grows with the square of the meter's unit: whole numbers once it is large, significant digits when small. */
+function formatSse(sse: number | null): string {
+  return sse !== null && Math.abs(sse) >= 100 ? formatFixed(sse, 0) : formatSignificant(sse);
+}

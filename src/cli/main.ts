@@ -1,0 +1,54 @@
+/**
+ * The `mvledger` command line. Library code: it writes only through `io` and
+ * returns the exit code (0 ok, 2 bad usage or input, 1 internal error), so
+ * tests can run it in-process. bin/mvledger.js is the thin launcher.
+ */
+import { EXIT_BAD_INPUT, EXIT_INTERNAL, InputFileError, UsageError, oneLine } from './errors.js';
+import { parseFitOptions, parseSavingsOptions } from './options.js';
+import { runFit } from './commands/fit.js';
+import { runSavings } from './commands/savings.js';
+import { FIT_USAGE, GENERAL_USAGE, SAVINGS_USAGE } from './usage.js';
+
+export interface CliIO {
+  stdout(text: string): void;
+  stderr(text: string): void;
+}
+
+const HELP_WORDS = new Set(['help', '--help', '-h']);
+
+export async function main(argv: string[], io: CliIO): Promise<number> {
+  const [command, ...rest] = argv;
+  try {
+    if (command === undefined || HELP_WORDS.has(command)) {
+      io.stdout(helpFor(rest[0]));
+      return 0;
+    }
+    if (command === 'fit') {
+      const options = parseFitOptions(rest);
+      // The whole output is built first: on an error stdout stays empty.
+      io.stdout(options.help ? FIT_USAGE : await runFit(options));
+      return 0;
+    }
+    if (command === 'savings') {
+      const options = parseSavingsOptions(rest);
+      io.stdout(options.help ? SAVINGS_USAGE : await runSavings(options));
+      return 0;
+    }
+    io.stderr(`mvledger: unknown command ${JSON.stringify(command)} (commands: fit, savings, help)\n`);
+    return EXIT_BAD_INPUT;
+  } catch (error) {
+    if (error instanceof UsageError || error instanceof InputFileError) {
+      io.stderr(`mvledger: ${oneLine(error.message)}\n`);
+      return EXIT_BAD_INPUT;
+    }
+    const message = error instanceof Error ? error.message : String(error);
+    io.stderr(`mvledger: internal error: ${oneLine(message)}\n`);
+    return EXIT_INTERNAL;
+  }
+}
+
+function helpFor(topic: string | undefined): string {
+  if (topic === 'fit') return FIT_USAGE;
+  if (topic === 'savings') return SAVINGS_USAGE;
+  return GENERAL_USAGE;
+}

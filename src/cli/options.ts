@@ -1,0 +1,150 @@
+/**
+ * Command-line options of `fit` and `savings`, checked before any file is
+ * read: every bad value is a UsageError (exit code 2).
+ */
+import { parseArgs } from 'node:util';
+import {
+  CONFIDENCE_LEVELS,
+  DEFAULT_MIN_COVERAGE,
+  DEFAULT_MIN_POINTS_PER_SEGMENT,
+  DEFAULT_SIGNIFICANCE_LEVEL,
+  MODEL_NAMES,
+  SIGNIFICANCE_RULE,
+  type ModelName,
+  type TemperatureUnit,
+} from '../engine/index.js';
+import { UsageError, oneLine } from './errors.js';
+
+export interface CommonOptions {
+  weather: string;
+  json: boolean;
+  unit: TemperatureUnit;
+  minCoverage: number;
+  significanceLevel: number;
+  minPointsPerSegment: number;
+}
+
+export interface FitOptions extends CommonOptions {
+  readings: string;
+}
+
+export interface SavingsCommandOptions extends CommonOptions {
+  baseline: string;
+  reporting: string;
+  confidence: number;
+  /** The engineer's choice of shape, overriding the selected one. */
+  model: ModelName | null;
+}
+
+export type Parsed<T> = { help: true } | ({ help: false } & T);
+
+const COMMON_SPEC = {
+  weather: { type: 'string' },
+  json: { type: 'boolean' },
+  unit: { type: 'string' },
+  coverage: { type: 'string' },
+  alpha: { type: 'string' },
+  'min-points': { type: 'string' },
+  help: { type: 'boolean', short: 'h' },
+} as const;
+
+const FIT_SPEC = { ...COMMON_SPEC, readings: { type: 'string' } } as const;
+
+const SAVINGS_SPEC = {
+  ...COMMON_SPEC,
+  baseline: { type: 'string' },
+  reporting: { type: 'string' },
+  confidence: { type: 'string' },
+  model: { type: 'string' },
+} as const;
+
+type Values = Record<string, string | boolean | undefined>;
+
+export function parseFitOptions(args: readonly string[]): Parsed<FitOptions> {
+  const values = parseStrict(args, FIT_SPEC);
+  if (values.help) return { help: true };
+  return { help: false, readings: requireFile(values, 'readings'), ...commonOptions(values) };
+}
+
+export function parseSavingsOptions(args: readonly string[]): Parsed<SavingsCommandOptions> {
+  const values = parseStrict(args, SAVINGS_SPEC);
+  if (values.help) return { help: true };
+  return {
+    help: false,
+    baseline: requireFile(values, 'baseline'),
+    reporting: requireFile(values, 'reporting'),
+    confidence: confidenceOption(values.confidence),
+    model: modelOption(values.model),
+    ...commonOptions(values),
+  };
+}
+
+function parseStrict(args: readonly string[], options: typeof FIT_SPEC | typeof SAVINGS_SPEC): Values {
+  try {
+    return parseArgs({ args: [...args], options, strict: true, allowPositionals: false }).values as Values;
+  } catch (error) {
+    throw new UsageError(describeParseError(error));
+  }
+}
+
+function commonOptions(values: Values): CommonOptions {
+  return {
+    weather: requireFile(values, 'weather'),
+    json: values.json === true,
+    unit: unitOption(values.unit),
+    minCoverage: numberOption(values.coverage, 'coverage', DEFAULT_MIN_COVERAGE, (v) => v > 0 && v <= 1, 'a fraction in (0, 1], e.g. 0.9'),
+    significanceLevel: numberOption(values.alpha, 'alpha', DEFAULT_SIGNIFICANCE_LEVEL, (v) => v > 0 && v < 1, 'a level in (0, 1), e.g. 0.05'),
+    minPointsPerSegment: numberOption(values['min-points'], 'min-points', DEFAULT_MIN_POINTS_PER_SEGMENT, (v) => Number.isInteger(v) && v >= 1, 'a whole number of at least 1'),
+  };
+}
+
+function requireFile(values: Values, name: string): string {
+  const value = values[name];
+  if (typeof value !== 'string' || value === '') throw new UsageError(`--${name} FILE is required`);
+  return value;
+}
+
+function unitOption(value: string | boolean | undefined): TemperatureUnit {
+  if (value === undefined) return 'F';
+  const unit = String(value).toUpperCase();
+  if (unit === 'F' || unit === 'C') return unit;
+  throw new UsageError(`--unit must be F or C, got ${JSON.stringify(value)}`);
+}
+
+function numberOption(value: string | boolean | undefined, name: string, fallback: number, valid: (v: number) => boolean, expected: string): number {
+  if (value === undefined) return fallback;
+  const text = String(value).trim();
+  const number = text === '' ? Number.NaN : Number(text);
+  if (!Number.isFinite(number) || !valid(number)) throw new UsageError(`--${name} must be ${expected}, got ${JSON.stringify(value)}`);
+  return number;
+}
+
+function confidenceOption(value: string | boolean | undefined): number {
+  const allowed: readonly number[] = CONFIDENCE_LEVELS;
+  const confidence = numberOption(value, 'confidence', SIGNIFICANCE_RULE.confidence, (v) => allowed.includes(v), `one of ${allowed.join(', ')}`);
+  return confidence;
+}
+
+function modelOption(value: string | boolean | undefined): ModelName | null {
+  if (value === undefined) return null;
+  const name = String(value).toUpperCase();
+  const model = MODEL_NAMES.find((m) => m === name);
+  if (!model) throw new UsageError(`--model must be one of ${MODEL_NAMES.join(', ')}, got ${JSON.stringify(value)}`);
+  return model;
+}
+
+function describeParseError(error: unknown): string {
+  const code = (error as { code?: unknown })?.code;
+  const message = error instanceof Error ? error.message : String(error);
+  const quoted = /'([^']+)'/.exec(message)?.[1];
+  switch (code) {
+    case 'ERR_PARSE_ARGS_UNKNOWN_OPTION':
+      return `unknown option ${quoted ?? ''}`.trim();
+    case 'ERR_PARSE_ARGS_UNEXPECTED_POSITIONAL':
+      return `unexpected argument ${quoted ?? ''}`.trim();
+    case 'ERR_PARSE_ARGS_INVALID_OPTION_VALUE':
+      return quoted && /argument missing/.test(message) ? `option ${quoted.replace(/ <value>$/, '')} needs a value` : oneLine(message);
+    default:
+      return oneLine(message.split('\n')[0] ?? message);
+  }
+}

@@ -1,0 +1,43 @@
+/** Usage texts of the command line. */
+import { CONFIDENCE_LEVELS, MODEL_NAMES } from '../engine/index.js';
+
+const COMMON_OPTIONS = `  --weather FILE      daily weather CSV: date,temp or date,tmin,tmax (mean = (tmin+tmax)/2);
+                      an empty temperature cell is a missing day
+  --unit F|C          the weather station's unit (default F)
+  --coverage X        share of a period's days that must have weather (default 0.9)
+  --alpha X           two-sided level of the slope t-tests and the F-test (default 0.05)
+  --min-points N      minimum periods in each segment of a changepoint shape (default 3)
+  --json              print one JSON document instead of the text report`;
+
+export const FIT_USAGE = `Usage: mvledger fit --readings FILE --weather FILE [options]
+
+Fit the ${MODEL_NAMES.join(', ')} shapes to baseline readings and choose one.
+
+  --readings FILE     baseline readings CSV: start,end,quantity[,estimated]
+                      (a reading covers [start, end); other columns are ignored)
+${COMMON_OPTIONS}
+`;
+
+export const SAVINGS_USAGE = `Usage: mvledger savings --baseline FILE --reporting FILE --weather FILE [options]
+
+Avoided energy of the reporting period against the fitted baseline, with its uncertainty.
+
+  --baseline FILE     baseline readings CSV: start,end,quantity[,estimated]
+  --reporting FILE    reporting-period readings CSV, same columns
+  --confidence X      confidence of the stated uncertainty: ${CONFIDENCE_LEVELS.join(', ')} (default 0.68)
+  --model SHAPE       use this shape instead of the selected one: ${MODEL_NAMES.join(', ')}
+${COMMON_OPTIONS}
+`;
+
+export const GENERAL_USAGE = `mvledger: weather-normalised baselines and avoided energy (IPMVP whole-facility option, ASHRAE Guideline 14 methods)
+
+Usage:
+  mvledger fit --readings FILE --weather FILE [options]
+  mvledger savings --baseline FILE --reporting FILE --weather FILE [options]
+  mvledger help [fit|savings]
+
+Dates are ISO (YYYY-MM-DD). Bad input is reported as one line naming the file,
+the CSV row (header = row 1) and the field, with exit code 2.
+
+${FIT_USAGE}
+${SAVINGS_USAGE}`;
