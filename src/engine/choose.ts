@@ -5,8 +5,10 @@
  * rejected when
  *   - a slope has the wrong physical sign (use must rise as it gets colder on
  *     a heating branch and as it gets warmer on a cooling branch; a 4P must
- *     bend upward, its slope below the changepoint lower than above it; a 5P
- *     needs a flat band of positive width), or
+ *     bend upward, its slope below the changepoint lower than above it, and by
+ *     default be a heating slope meeting a cooling slope, because averaging
+ *     bills over their days rounds a single 3PC or 3PH knee into a same-signed
+ *     4P; a 5P needs a flat band of positive width), or
  *   - a slope is not significant: |t| below the two-sided Student t critical
  *     value at level α (default 0.05) with n − p degrees of freedom, or
  *   - a segment holds fewer than the minimum number of points (default 3).
@@ -36,6 +38,12 @@ export interface SelectionOptions {
   minPointsPerSegment?: number;
   /** Guideline 14 acceptance limits. */
   guideline14?: Partial<Guideline14Limits>;
+  /**
+   * Accept a 4P whose two slopes have the same sign (one branch that bends).
+   * Default false: averaging bills over their days rounds a single 3PC or 3PH
+   * knee into exactly that shape, so it is read as one branch, not two.
+   */
+  allowSameSignFourPoint?: boolean;
   /** Shapes to consider (default all six). */
   models?: readonly ModelName[];
 }
@@ -77,7 +85,8 @@ export function chooseBaseline(periods: readonly Period[], options: SelectionOpt
   if (periods.length < 2) throw new RangeError(`at least 2 usable periods are needed to fit a baseline, got ${periods.length}`);
 
   const models = (options.models ?? MODEL_NAMES).includes('1P') ? (options.models ?? MODEL_NAMES) : ['1P' as const, ...(options.models ?? [])];
-  const candidates = models.map((model) => screen(fitShape(periods, model, minPoints), alpha, minPoints, limits));
+  const rules: ScreeningRules = { alpha, minPoints, allowSameSignFourPoint: options.allowSameSignFourPoint ?? false };
+  const candidates = models.map((model) => screen(fitShape(periods, model, minPoints), rules, limits));
 
   let current = candidates.find((c) => c.model === '1P' && c.accepted)!;
   const byP = [...new Set(candidates.map((c) => c.p))].sort((a, b) => a - b);
@@ -106,7 +115,14 @@ export function chooseBaseline(periods: readonly Period[], options: SelectionOpt
   return { selected: current.model, candidates, settings: { significanceLevel: alpha, minPointsPerSegment: minPoints, guideline14: limits } };
 }
 
-function screen(result: ShapeFitResult, alpha: number, minPoints: number, limits: Guideline14Limits): Candidate {
+interface ScreeningRules {
+  alpha: number;
+  minPoints: number;
+  allowSameSignFourPoint: boolean;
+}
+
+function screen(result: ShapeFitResult, rules: ScreeningRules, limits: Guideline14Limits): Candidate {
+  const { alpha, minPoints } = rules;
   if (!result.ok) {
     return { model: result.model, verdict: 'not-fitted', accepted: false, reasons: [`could not be fitted: ${result.reason}`], n: result.n, p: result.p, fit: null, aicc: null, guideline14: null };
   }
@@ -137,6 +153,10 @@ function screen(result: ShapeFitResult, alpha: number, minPoints: number, limits
     const above = fit.parameters.slopeAbove!;
     if (!(below < above)) {
       reasons.push(`bends the wrong way: slope below the changepoint (${formatNumber(below)}) is not lower than above it (${formatNumber(above)})`);
+    } else if (!rules.allowSameSignFourPoint && !(below < 0 && above > 0)) {
+      reasons.push(
+        `both slopes are ${above <= 0 ? 'heating' : 'cooling'} slopes (${formatNumber(below)} and ${formatNumber(above)}): one branch with a rounded knee, as bill averaging makes it, is left to ${above <= 0 ? '3PH' : '3PC'}`,
+      );
     }
   }
   if (fit.model === '5P' && !(fit.changepoints.heating! < fit.changepoints.cooling!)) {

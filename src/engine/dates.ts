@@ -10,8 +10,10 @@ export function parseIsoDate(text: string): number | null {
   const match = ISO_DATE.exec(text);
   if (!match) return null;
   const [year, month, day] = [Number(match[1]), Number(match[2]), Number(match[3])];
-  const ms = Date.UTC(year, month - 1, day);
-  const back = new Date(ms);
+  // setUTCFullYear, unlike Date.UTC, does not map years 0–99 to 1900–1999.
+  const back = new Date(0);
+  back.setUTCFullYear(year, month - 1, day);
+  const ms = back.getTime();
   if (back.getUTCFullYear() !== year || back.getUTCMonth() !== month - 1 || back.getUTCDate() !== day) return null;
   return ms / MS_PER_DAY;
 }

@@ -33,15 +33,19 @@ export function checkReadings(readings: readonly Reading[]): InputProblem[] {
     }
   });
   valid.sort((a, b) => a.start - b.start || a.end - b.end);
-  for (let i = 1; i < valid.length; i++) {
-    const previous = valid[i - 1]!;
-    const current = valid[i]!;
-    const earlier = readings[previous.index]!;
-    if (current.start === previous.start && current.end === previous.end) {
-      problems.push({ index: current.index, field: 'start', message: `duplicates the period ${earlier.start}..${earlier.end}`, relatedIndex: previous.index });
-    } else if (current.start < previous.end) {
-      problems.push({ index: current.index, field: 'start', message: `overlaps the period ${earlier.start}..${earlier.end}`, relatedIndex: previous.index });
+  // Compare each period with the one reaching furthest so far, so a long bill
+  // is caught against every shorter bill inside it, not only the next one.
+  let reach: (typeof valid)[number] | undefined;
+  for (const current of valid) {
+    if (reach) {
+      const earlier = readings[reach.index]!;
+      if (current.start === reach.start && current.end === reach.end) {
+        problems.push({ index: current.index, field: 'start', message: `duplicates the period ${earlier.start}..${earlier.end}`, relatedIndex: reach.index });
+      } else if (current.start < reach.end) {
+        problems.push({ index: current.index, field: 'start', message: `overlaps the period ${earlier.start}..${earlier.end}`, relatedIndex: reach.index });
+      }
     }
+    if (!reach || current.end > reach.end) reach = current;
   }
   return problems.sort((a, b) => a.index - b.index);
 }

@@ -13,14 +13,17 @@ export interface GridOptimum {
   sse: number;
 }
 
-/** Segment-size rule shared with the exact search: ≥ k points at or below / at or above each changepoint. */
-function feasible(x: readonly number[], k: number, cH: number | null, cC: number | null): boolean {
+/**
+ * Segment-size rule shared with the exact search: ≥ k points at or below the
+ * lower changepoint, at or above the upper one, and (5P) between them.
+ */
+function feasible(x: readonly number[], k: number, cH: number | null, cC: number | null, model5P: boolean): boolean {
   const low = cH ?? cC!;
   const high = cC ?? cH!;
   const atOrBelow = x.filter((v) => v <= low).length;
   const atOrAbove = x.filter((v) => v >= high).length;
   if (atOrBelow < k || atOrAbove < k) return false;
-  if (cH !== null && cC !== null && cH !== cC) return x.filter((v) => v >= cH && v <= cC).length >= k;
+  if (model5P) return x.filter((v) => v >= cH! && v <= cC!).length >= k;
   return true;
 }
 
@@ -47,7 +50,7 @@ export function gridSearch(
 ): GridOptimum | null {
   let best: GridOptimum | null = null;
   const offer = (cH: number | null, cC: number | null): void => {
-    if (!feasible(x, minPoints, cH, cC)) return;
+    if (!feasible(x, minPoints, cH, cC, model === '5P')) return;
     const sse = sseAt(model, x, y, w, cH, cC);
     if (!best || sse < best.sse) best = { heating: cH, cooling: cC, sse };
   };

@@ -178,10 +178,26 @@ export function searchChangepoints(s: SortedSums, shape: HingeShape, minPoints: 
   const best = shape === '5P' ? searchFivePoint(s, k) : searchOneChangepoint(s, shape, k);
   if (!Number.isFinite(best.sse)) return null;
   return {
-    heatingChangepoint: best.heating === null ? null : best.heating + s.xShift,
-    coolingChangepoint: best.cooling === null ? null : best.cooling + s.xShift,
+    heatingChangepoint: best.heating === null ? null : toOriginalUnits(s, best.heating),
+    coolingChangepoint: best.cooling === null ? null : toOriginalUnits(s, best.cooling),
     sse: Math.max(0, best.sse),
   };
+}
+
+/**
+ * Undo the centring. A changepoint on a data point comes back as that exact
+ * data value (adding the mean back can round it off by an ulp, which would
+ * move the point out of a segment it belongs to).
+ */
+function toOriginalUnits(s: SortedSums, centred: number): number {
+  let low = 0;
+  let high = s.n - 1;
+  while (low < high) {
+    const mid = (low + high) >> 1;
+    if (s.x[mid]! < centred) low = mid + 1;
+    else high = mid;
+  }
+  return s.x[low] === centred ? s.xOriginal[low]! : centred + s.xShift;
 }
 
 function searchOneChangepoint(s: SortedSums, shape: '3PC' | '3PH' | '4P', k: number): Best {

@@ -10,6 +10,8 @@ export interface SortedSums {
   n: number;
   /** Centred temperatures, ascending. */
   x: Float64Array;
+  /** The same temperatures as given (not centred), ascending. */
+  xOriginal: Float64Array;
   /** Centred use per day, in the same order. */
   y: Float64Array;
   w: Float64Array;
@@ -55,11 +57,13 @@ export function buildSortedSums(x: readonly number[], y: readonly number[], w: r
   const xShift = totalW > 0 ? sumX / totalW : 0;
   const yShift = totalW > 0 ? sumY / totalW : 0;
   const xs = new Float64Array(n);
+  const xOriginal = new Float64Array(n);
   const ys = new Float64Array(n);
   const ws = new Float64Array(n);
   for (let k = 0; k < n; k++) {
     const i = order[k]!;
     xs[k] = x[i]! - xShift;
+    xOriginal[k] = x[i]!;
     ys[k] = y[i]! - yShift;
     ws[k] = w[i]!;
   }
@@ -92,6 +96,7 @@ export function buildSortedSums(x: readonly number[], y: readonly number[], w: r
   return {
     n,
     x: xs,
+    xOriginal,
     y: ys,
     w: ws,
     W,
