@@ -13,25 +13,7 @@ export class UsageError extends Error {
   override name = 'UsageError';
 }
 
-/** A problem in an input file, located at a CSV row (the line number in the file, header = 1) and a field. */
-export class InputFileError extends Error {
-  override name = 'InputFileError';
-  constructor(
-    readonly file: string,
-    readonly line: number | null,
-    readonly field: string | null,
-    readonly detail: string,
-  ) {
-    super(describeLocation(file, line, field) + ': ' + detail);
-  }
-}
-
-function describeLocation(file: string, line: number | null, field: string | null): string {
-  let where = file;
-  if (line !== null) where += ` row ${line}`;
-  if (field !== null) where += `${line !== null ? ',' : ''} field "${field}"`;
-  return where;
-}
+export { InputFileError } from '../lib/csv/input-error.js';
 
 /** Keep a message on one line, whatever the engine or the system put in it. */
 export function oneLine(text: string): string {

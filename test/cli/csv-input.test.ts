@@ -1,6 +1,6 @@
 /** The CSV layer on its own: header handling, line numbers, cells. Synthetic: each test writes its own small file text. */
 import { describe, expect, it } from 'vitest';
-import { parseCsvTable } from '../../src/cli/input/csv-table.js';
+import { parseCsvTable } from '../../src/lib/csv/csv-table.js';
 import { readingsFromTable } from '../../src/cli/input/readings-file.js';
 import { weatherFromTable } from '../../src/cli/input/weather-file.js';
 import { InputFileError } from '../../src/cli/errors.js';

@@ -4,8 +4,8 @@
  * quantity, duplicates and overlaps) after the cells themselves are read.
  */
 import { checkReadings, type Reading } from '../../engine/index.js';
-import { cell, readCsvTable, requireColumns, type CsvTable } from './csv-table.js';
-import { parseFlagCell, parseNumberCell } from './cells.js';
+import { cell, readCsvTable, requireColumns, type CsvTable } from '../../lib/csv/csv-table.js';
+import { parseFlagCell, parseNumberCell } from '../../lib/csv/cells.js';
 import { locateProblems, throwFirstProblem, type LocatedProblem } from './problems.js';
 
 export interface ReadingsFile {

@@ -5,8 +5,8 @@
  * engine's coverage rule decides whether the periods around it stay usable.
  */
 import { checkWeather, isIsoDate, type DailyTemperature, type TemperatureUnit } from '../../engine/index.js';
-import { cell, readCsvTable, requireColumns, type CsvRow, type CsvTable } from './csv-table.js';
-import { parseNumberCell } from './cells.js';
+import { cell, readCsvTable, requireColumns, type CsvRow, type CsvTable } from '../../lib/csv/csv-table.js';
+import { parseNumberCell } from '../../lib/csv/cells.js';
 import { locateProblems, throwFirstProblem, type LocatedProblem } from './problems.js';
 
 export interface WeatherFile {

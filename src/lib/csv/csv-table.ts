@@ -5,7 +5,7 @@
  */
 import { readFile } from 'node:fs/promises';
 import { parse } from 'csv-parse/sync';
-import { InputFileError } from '../errors.js';
+import { InputFileError } from './input-error.js';
 
 export interface CsvRow {
   /** Line number in the file where the record ends (the same line unless a quoted cell spans lines). */

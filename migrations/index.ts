@@ -1,0 +1,10 @@
+/**
+ * Every migration, by name, in order. Listed statically (not read from the
+ * folder) so the same list works from TypeScript sources and from dist/.
+ */
+import type { Migration } from 'kysely';
+import * as ledger0001 from './0001_ledger.js';
+
+export const migrations: Record<string, Migration> = {
+  '0001_ledger': ledger0001,
+};

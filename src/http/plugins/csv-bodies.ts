@@ -1,0 +1,87 @@
+/**
+ * text/csv request bodies. A route that takes CSV names its collection in
+ * config.csvBody; the CSV text is turned into the same JSON body the route's
+ * zod schema validates (cells that look like numbers become numbers, the
+ * rest stay text for the schema to reject), and each record's file line is
+ * remembered so errors say "row 5, field end" instead of a JSON path.
+ */
+import type { FastifyInstance } from 'fastify';
+import { parseCsvTable } from '../../lib/csv/csv-table.js';
+import { parseFlagCell } from '../../lib/csv/cells.js';
+import { InputFileError } from '../../lib/csv/input-error.js';
+import { Problem } from '../problem.js';
+
+export type CsvCollection = 'readings' | 'observations';
+
+declare module 'fastify' {
+  interface FastifyContextConfig {
+    /** The route also takes text/csv; its rows become body[collection]. */
+    csvBody?: CsvCollection;
+  }
+}
+
+const COLUMNS: Record<CsvCollection, { required: string[][]; optional: string[]; flags: string[] }> = {
+  readings: { required: [['start', 'end', 'quantity']], optional: ['estimated', 'cost'], flags: ['estimated'] },
+  observations: { required: [['date', 'temp'], ['date', 'tmin', 'tmax']], optional: [], flags: [] },
+};
+
+const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+const BODY = 'request body';
+
+function cellValue(text: string, flag: boolean): unknown {
+  if (flag) {
+    const parsed = parseFlagCell(text);
+    return parsed.ok ? parsed.value : text;
+  }
+  return DECIMAL.test(text) ? Number(text) : text;
+}
+
+/** CSV text → { [collection]: records }, with each record's line. */
+export function csvToBody(collection: CsvCollection, text: string): { body: Record<string, unknown>; lines: number[] } {
+  const spec = COLUMNS[collection];
+  let table;
+  try {
+    table = parseCsvTable(BODY, text);
+  } catch (error) {
+    if (error instanceof InputFileError) throw csvProblem(error);
+    throw error;
+  }
+  const present = new Set(table.columns.filter((c) => c !== ''));
+  const layout = spec.required.find((set) => set.every((c) => present.has(c)));
+  if (!layout) {
+    const wanted = spec.required.map((set) => set.join(',')).join(' or ');
+    throw new Problem('validation', `row ${table.headerLine}: the CSV header must have ${wanted}`, [{ field: `row ${table.headerLine}`, message: `header needs ${wanted}` }]);
+  }
+  const allowed = new Set([...spec.required.flat(), ...spec.optional]);
+  const unknown = [...present].filter((c) => !allowed.has(c));
+  if (unknown.length > 0) {
+    throw new Problem('validation', `row ${table.headerLine}: unknown column ${unknown.map((c) => `"${c}"`).join(', ')}`, [
+      { field: `row ${table.headerLine}`, message: `unknown column ${unknown.join(', ')}` },
+    ]);
+  }
+  const records = table.rows.map((row) => {
+    const record: Record<string, unknown> = {};
+    for (const [column, text] of row.cells) {
+      if (text === '' || !allowed.has(column)) continue;
+      record[column] = column === 'date' || column === 'start' || column === 'end' ? text : cellValue(text, spec.flags.includes(column));
+    }
+    return record;
+  });
+  return { body: { [collection]: records }, lines: table.rows.map((row) => row.line) };
+}
+
+function csvProblem(error: InputFileError): Problem {
+  const where = error.line === null ? 'CSV body' : `row ${error.line}${error.field ? `, field ${error.field}` : ''}`;
+  return new Problem('validation', `${where}: ${error.detail}`, [{ field: where, message: error.detail }]);
+}
+
+export function installCsvBodies(app: FastifyInstance): void {
+  app.addContentTypeParser(['text/csv', 'application/csv'], { parseAs: 'string' }, (_request, body, done) => done(null, body));
+  app.addHook('preValidation', async (request) => {
+    const collection = request.routeOptions.config?.csvBody;
+    if (!collection || typeof request.body !== 'string') return;
+    const { body, lines } = csvToBody(collection, request.body);
+    request.body = body;
+    request.csvLines = { collection, lines };
+  });
+}

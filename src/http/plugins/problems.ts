@@ -1,0 +1,77 @@
+/**
+ * Every error leaves as RFC 9457 problem+json naming the field or row. Schema
+ * failures name the JSON path (readings[3].end), or for CSV bodies the file
+ * row (row 5, field end). Unexpected errors are logged with the request id and
+ * answered with a bare 500: no stack, no internals.
+ */
+import type { FastifyError, FastifyInstance, FastifyReply, FastifyRequest } from 'fastify';
+import { hasZodFastifySchemaValidationErrors } from 'fastify-type-provider-zod';
+import { Problem, PROBLEM_CONTENT_TYPE, type FieldError } from '../problem.js';
+
+/** Set by the CSV body parser: maps a record index to its line in the CSV text. */
+declare module 'fastify' {
+  interface FastifyRequest {
+    csvLines?: { collection: string; lines: number[] };
+  }
+}
+
+export function sendProblem(request: FastifyRequest, reply: FastifyReply, problem: Problem): FastifyReply {
+  return reply.code(problem.status).type(PROBLEM_CONTENT_TYPE).send(problem.body(request.url.split('?')[0]));
+}
+
+/** "/readings/3/end" → "readings[3].end", or "row 5, field end" for a CSV body. */
+export function describePath(instancePath: string, request?: FastifyRequest): string {
+  const parts = instancePath.split('/').filter((p) => p.length > 0);
+  const csv = request?.csvLines;
+  if (csv && parts[0] === csv.collection && parts.length >= 2 && /^\d+$/.test(parts[1]!)) {
+    const line = csv.lines[Number(parts[1])];
+    const rest = parts.slice(2).join('.');
+    return rest ? `row ${line}, field ${rest}` : `row ${line}`;
+  }
+  let out = '';
+  for (const part of parts) out += /^\d+$/.test(part) ? `[${part}]` : out ? `.${part}` : part;
+  return out || '(body)';
+}
+
+function validationProblem(error: FastifyError & { validation: { instancePath: string; message?: string }[] }, request: FastifyRequest): Problem {
+  const context = (error as { validationContext?: string }).validationContext ?? 'body';
+  const where = context === 'querystring' ? 'query' : context === 'params' ? 'path' : context;
+  const errors: FieldError[] = error.validation.map((issue) => ({
+    field: where === 'body' ? describePath(issue.instancePath, request) : `${where}.${describePath(issue.instancePath)}`,
+    message: issue.message ?? 'invalid',
+  }));
+  const first = errors[0]!;
+  const more = errors.length > 1 ? ` (and ${errors.length - 1} more)` : '';
+  return new Problem('validation', `${first.field}: ${first.message}${more}`, errors);
+}
+
+export function installProblemHandling(app: FastifyInstance): void {
+  app.setErrorHandler((error: FastifyError, request, reply) => {
+    if (error instanceof Problem) return sendProblem(request, reply, error);
+    if (hasZodFastifySchemaValidationErrors(error)) return sendProblem(request, reply, validationProblem(error, request));
+    switch (error.code) {
+      case 'FST_ERR_CTP_INVALID_MEDIA_TYPE':
+        return sendProblem(request, reply, new Problem('unsupported-media-type', `send application/json${request.routeOptions.config?.csvBody ? ' or text/csv' : ''}`));
+      case 'FST_ERR_CTP_BODY_TOO_LARGE':
+        return sendProblem(request, reply, new Problem('payload-too-large', `the body exceeds ${app.initialConfig.bodyLimit} bytes; send smaller batches`));
+      case 'FST_ERR_CTP_EMPTY_JSON_BODY':
+        return sendProblem(request, reply, new Problem('validation', 'the JSON body is empty', [{ field: '(body)', message: 'empty' }]));
+      case 'FST_ERR_CTP_INVALID_CONTENT_LENGTH':
+        return sendProblem(request, reply, new Problem('validation', 'the Content-Length does not match the body'));
+      default:
+        break;
+    }
+    if (error.statusCode === 400 && error instanceof SyntaxError) {
+      return sendProblem(request, reply, new Problem('validation', 'the body is not valid JSON', [{ field: '(body)', message: 'not valid JSON' }]));
+    }
+    if (typeof error.statusCode === 'number' && error.statusCode >= 400 && error.statusCode < 500) {
+      return sendProblem(request, reply, new Problem('validation', error.message.replace(/\s+/g, ' ').slice(0, 300)));
+    }
+    request.log.error({ err: { type: error.name, message: error.message, code: error.code } }, 'unexpected error');
+    return sendProblem(request, reply, new Problem('internal', `unexpected error; quote request id ${request.id} when reporting it`));
+  });
+
+  app.setNotFoundHandler((request, reply) =>
+    sendProblem(request, reply, new Problem('not-found', `no route ${request.method} ${request.url.split('?')[0]}`)),
+  );
+}

@@ -1,0 +1,84 @@
+/**
+ * RFC 9457 problem details: every error the API returns is
+ * application/problem+json with a stable `type`, a human `title`, a `detail`
+ * naming the field or row, and for validation errors an `errors` list.
+ */
+export interface FieldError {
+  /** Where: a JSON path such as readings[3].end, or a CSV row such as row 4, field end. */
+  field: string;
+  message: string;
+}
+
+export type ProblemKind =
+  | 'validation'
+  | 'unauthorized'
+  | 'forbidden'
+  | 'not-found'
+  | 'conflict'
+  | 'frozen'
+  | 'idempotency-mismatch'
+  | 'idempotency-in-flight'
+  | 'unsupported-media-type'
+  | 'payload-too-large'
+  | 'unprocessable'
+  | 'internal';
+
+const TITLES: Record<ProblemKind, [number, string]> = {
+  validation: [400, 'The request is not valid'],
+  unauthorized: [401, 'A valid API key is required'],
+  forbidden: [403, 'This key may not do that'],
+  'not-found': [404, 'Not found'],
+  conflict: [409, 'Conflicts with what is stored'],
+  frozen: [409, 'A frozen baseline cannot be changed'],
+  'idempotency-mismatch': [422, 'Idempotency-Key reused with a different request'],
+  'idempotency-in-flight': [409, 'A request with this Idempotency-Key is still in progress'],
+  'unsupported-media-type': [415, 'Unsupported content type'],
+  'payload-too-large': [413, 'Request body too large'],
+  unprocessable: [422, 'The request cannot be carried out on the stored data'],
+  internal: [500, 'Internal error'],
+};
+
+export const PROBLEM_CONTENT_TYPE = 'application/problem+json';
+
+export class Problem extends Error {
+  readonly status: number;
+  readonly title: string;
+  readonly type: string;
+
+  constructor(
+    readonly kind: ProblemKind,
+    readonly detail: string,
+    readonly errors?: FieldError[],
+    readonly extra?: Record<string, unknown>,
+  ) {
+    super(detail);
+    const [status, title] = TITLES[kind];
+    this.status = status;
+    this.title = title;
+    this.type = `urn:mvledger:problem:${kind}`;
+  }
+
+  body(instance?: string): ProblemBody {
+    return {
+      type: this.type,
+      title: this.title,
+      status: this.status,
+      detail: this.detail,
+      ...(instance ? { instance } : {}),
+      ...(this.errors?.length ? { errors: this.errors } : {}),
+      ...this.extra,
+    };
+  }
+}
+
+export interface ProblemBody {
+  type: string;
+  title: string;
+  status: number;
+  detail: string;
+  instance?: string;
+  errors?: FieldError[];
+  [key: string]: unknown;
+}
+
+export const notFound = (what: string, id: string): Problem => new Problem('not-found', `${what} ${id} was not found`);

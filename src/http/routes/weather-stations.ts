@@ -1,0 +1,44 @@
+/** /v1/weather-stations: where daily temperatures come from. */
+import { z } from 'zod';
+import type { RouteDeps } from '../app.js';
+import { createStation, getStationRow, listStations, toStation } from '../../services/weather-stations.js';
+import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
+import { createStationBody, stationSchema } from '../schemas/weather-stations.js';
+import { serviceContext } from './context.js';
+import type { ApiApp } from './types.js';
+
+export function weatherStationRoutes(app: ApiApp, deps: RouteDeps): void {
+  app.post(
+    '/v1/weather-stations',
+    {
+      config: { permission: 'ledger' },
+      schema: {
+        tags: ['weather'],
+        summary: 'Create a weather station',
+        security: bearer,
+        headers: idempotencyHeaders,
+        body: createStationBody,
+        response: { 201: stationSchema, ...writeProblems },
+      },
+    },
+    async (request, reply) => reply.code(201).send(await createStation(serviceContext(request, deps), request.body)),
+  );
+
+  app.get(
+    '/v1/weather-stations',
+    {
+      config: { permission: 'read' },
+      schema: { tags: ['weather'], summary: 'List weather stations', security: bearer, response: { 200: z.object({ stations: z.array(stationSchema) }), ...authProblems } },
+    },
+    async (request) => ({ stations: await listStations(deps.store.db, request.principal!.organisationId) }),
+  );
+
+  app.get(
+    '/v1/weather-stations/:id',
+    {
+      config: { permission: 'read' },
+      schema: { tags: ['weather'], summary: 'One weather station', security: bearer, params: idParams, response: { 200: stationSchema, ...authProblems } },
+    },
+    async (request) => toStation(await getStationRow(deps.store.db, request.principal!.organisationId, request.params.id)),
+  );
+}

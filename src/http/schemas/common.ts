@@ -1,0 +1,55 @@
+/**
+ * Schema pieces shared by every resource. zod is the single source of
+ * validation, TypeScript types and the OpenAPI document.
+ */
+import { z } from 'zod';
+import { isIsoDate } from '../../engine/index.js';
+
+/** A real calendar date, YYYY-MM-DD (2025-02-30 is refused). */
+export const isoDate = z
+  .string()
+  .regex(/^\d{4}-\d{2}-\d{2}$/, 'must be a date as YYYY-MM-DD')
+  .refine(isIsoDate, 'is not a real calendar date')
+  .meta({ format: 'date', example: '2025-01-31' });
+
+/** A finite number (JSON has no NaN or Infinity, but say so plainly). */
+export const finite = z.number().refine(Number.isFinite, 'must be a finite number');
+
+export const name = z.string().trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters');
+
+export const idParams = z.object({ id: z.string().min(1).max(100) });
+
+export const problemSchema = z
+  .object({
+    type: z.string(),
+    title: z.string(),
+    status: z.number().int(),
+    detail: z.string(),
+    instance: z.string().optional(),
+    errors: z.array(z.object({ field: z.string(), message: z.string() })).optional(),
+  })
+  .loose()
+  .meta({ id: 'Problem', description: 'RFC 9457 problem details' });
+
+/** The error responses every authenticated route can give. */
+export const authProblems = {
+  400: problemSchema,
+  401: problemSchema,
+  403: problemSchema,
+  404: problemSchema,
+} as const;
+
+export const writeProblems = {
+  ...authProblems,
+  409: problemSchema,
+  413: problemSchema,
+  415: problemSchema,
+  422: problemSchema,
+} as const;
+
+export const bearer = [{ bearerAuth: [] as string[] }];
+
+/** Idempotency-Key accepted on every POST. */
+export const idempotencyHeaders = z.object({
+  'idempotency-key': z.string().optional().describe('Replays return the first response; a different request with the same key is refused (422).'),
+});

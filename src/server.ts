@@ -1,0 +1,60 @@
+/**
+ * Starts the service: configuration, database (migrated), optional bootstrap
+ * key, HTTP. Stops cleanly on SIGINT/SIGTERM, finishing requests in flight.
+ */
+import { pathToFileURL } from 'node:url';
+import type { FastifyInstance } from 'fastify';
+import { loadConfig, type Config } from './config.js';
+import { openStore, type Store } from './store/connect.js';
+import { migrateToLatest } from './store/migrate.js';
+import { bootstrapIfEmpty } from './services/organisations.js';
+import { buildApp, LOG_REDACTIONS } from './http/app.js';
+
+export interface RunningService {
+  app: FastifyInstance;
+  store: Store;
+  url: string;
+  stop(): Promise<void>;
+}
+
+export async function startService(config: Config): Promise<RunningService> {
+  const store = openStore(config.databaseUrl);
+  await migrateToLatest(store.db);
+  const bootstrapped = await bootstrapIfEmpty(store.db, config.bootstrapKey, new Date().toISOString());
+  const app = await buildApp({ store, logger: { level: config.logLevel, redact: LOG_REDACTIONS } });
+  if (bootstrapped) app.log.info('new database: created the bootstrap organisation and its admin key');
+  const address = await app.listen({ port: config.port, host: config.host });
+  app.log.info({ database: store.location }, 'mvledger is listening');
+  let stopping: Promise<void> | null = null;
+  const stop = () =>
+    (stopping ??= (async () => {
+      await app.close();
+      await store.close();
+    })());
+  return { app, store, url: address, stop };
+}
+
+async function main(): Promise<void> {
+  let config: Config;
+  try {
+    config = loadConfig();
+  } catch (error) {
+    process.stderr.write(`mvledger: ${error instanceof Error ? error.message : String(error)}\n`);
+    process.exitCode = 2;
+    return;
+  }
+  const service = await startService(config);
+  for (const signal of ['SIGINT', 'SIGTERM'] as const) {
+    process.once(signal, () => {
+      service.app.log.info({ signal }, 'stopping');
+      void service.stop().then(() => process.exit(0));
+    });
+  }
+}
+
+if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {
+  main().catch((error: unknown) => {
+    process.stderr.write(`mvledger: could not start: ${error instanceof Error ? error.message : String(error)}\n`);
+    process.exit(1);
+  });
+}

@@ -1,0 +1,113 @@
+/**
+ * The audit trail: every write appends one row in the same transaction,
+ * recording who, when, what, and the entity before and after. Rows are
+ * chained: hash = SHA-256(prev_hash + "\n" + canonical JSON of the row), so
+ * editing or deleting a row breaks the chain at that point. (Cutting rows off
+ * the end leaves a shorter valid chain: keep the reported head hash outside
+ * the database to detect that.)
+ */
+import type { Kysely, Transaction } from 'kysely';
+import { canonicalJson, sha256Hex } from '../lib/canonical-json.js';
+import type { AuditRow, Database } from './schema.js';
+
+export const GENESIS_HASH = '0'.repeat(64);
+
+export interface AuditEntry {
+  organisationId: string | null;
+  /** API key id, or "system". */
+  actor: string;
+  at: string;
+  action: string;
+  entityType: string;
+  entityId: string;
+  before?: unknown;
+  after?: unknown;
+}
+
+type Executor = Kysely<Database> | Transaction<Database>;
+
+function rowDigest(prevHash: string, row: Omit<AuditRow, 'hash' | 'prev_hash'>): string {
+  return sha256Hex(
+    `${prevHash}\n${canonicalJson({
+      seq: row.seq,
+      organisation_id: row.organisation_id,
+      actor: row.actor,
+      at: row.at,
+      action: row.action,
+      entity_type: row.entity_type,
+      entity_id: row.entity_id,
+      before_json: row.before_json,
+      after_json: row.after_json,
+    })}`,
+  );
+}
+
+/** Append one entry; call inside the transaction that makes the change. */
+export async function appendAudit(trx: Executor, entry: AuditEntry): Promise<AuditRow> {
+  const last = await trx.selectFrom('audit_log').select(['seq', 'hash']).orderBy('seq', 'desc').limit(1).executeTakeFirst();
+  const base = {
+    seq: (last?.seq ?? 0) + 1,
+    organisation_id: entry.organisationId,
+    actor: entry.actor,
+    at: entry.at,
+    action: entry.action,
+    entity_type: entry.entityType,
+    entity_id: entry.entityId,
+    before_json: entry.before === undefined ? null : canonicalJson(entry.before),
+    after_json: entry.after === undefined ? null : canonicalJson(entry.after),
+  };
+  const prevHash = last?.hash ?? GENESIS_HASH;
+  const row: AuditRow = { ...base, prev_hash: prevHash, hash: rowDigest(prevHash, base) };
+  await trx.insertInto('audit_log').values(row).execute();
+  return row;
+}
+
+export interface ChainVerdict {
+  ok: boolean;
+  /** Rows checked. */
+  checked: number;
+  /** Hash of the last row: record it elsewhere to detect a cut-off tail later. */
+  headHash: string;
+  headSeq: number;
+  /** First row where the chain breaks, and why. */
+  broken?: { seq: number; reason: string };
+}
+
+/** Walk the whole chain in sequence order, a page at a time. */
+export async function verifyAuditChain(db: Executor, pageSize = 2000): Promise<ChainVerdict> {
+  let expectedSeq = 1;
+  let prevHash = GENESIS_HASH;
+  let checked = 0;
+  for (;;) {
+    const page = await db.selectFrom('audit_log').selectAll().where('seq', '>=', expectedSeq).orderBy('seq').limit(pageSize).execute();
+    for (const row of page) {
+      const fail = (reason: string): ChainVerdict => ({ ok: false, checked, headHash: prevHash, headSeq: expectedSeq - 1, broken: { seq: row.seq, reason } });
+      if (row.seq !== expectedSeq) return fail(`row ${expectedSeq} is missing (next row is ${row.seq})`);
+      if (row.prev_hash !== prevHash) return fail('its previous-hash does not match the row before it');
+      if (rowDigest(prevHash, row) !== row.hash) return fail('its content does not match its hash (the row was edited)');
+      prevHash = row.hash;
+      expectedSeq++;
+      checked++;
+    }
+    if (page.length < pageSize) break;
+  }
+  return { ok: true, checked, headHash: prevHash, headSeq: expectedSeq - 1 };
+}
+
+export interface AuditQuery {
+  organisationId: string;
+  entityType?: string;
+  entityId?: string;
+  since?: string;
+  limit: number;
+  afterSeq?: number;
+}
+
+export async function listAudit(db: Executor, query: AuditQuery): Promise<AuditRow[]> {
+  let q = db.selectFrom('audit_log').selectAll().where('organisation_id', '=', query.organisationId);
+  if (query.entityType) q = q.where('entity_type', '=', query.entityType);
+  if (query.entityId) q = q.where('entity_id', '=', query.entityId);
+  if (query.since) q = q.where('at', '>=', query.since);
+  if (query.afterSeq !== undefined) q = q.where('seq', '>', query.afterSeq);
+  return q.orderBy('seq').limit(query.limit).execute();
+}
