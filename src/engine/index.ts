@@ -11,7 +11,8 @@ import type { DailyTemperature, ExcludedPeriod, ModelName, Period, Reading } fro
 import { alignPeriods, DEFAULT_MIN_COVERAGE, type AlignmentOptions } from './periods.js';
 import { chooseBaseline, type BaselineChoice, type SelectionOptions } from './choose.js';
 import { computeSavings, type SavingsOptions } from './savings.js';
-import { cvrmseLimitForReportingMonths, guideline14Check } from './guideline14.js';
+import { cvrmseLimitForReportingMonths, guideline14Check, type Guideline14Limits } from './guideline14.js';
+import type { ShapeFit } from './fit/fit-shape.js';
 import { fitDocument, type FitDocument, type SavingsDocument } from './documents.js';
 
 export * from './types.js';
@@ -77,13 +78,34 @@ export function analyseSavings(
   const model = options.model ?? baseline.choice.selected;
   const candidate = baseline.choice.candidates.find((c) => c.model === model);
   if (!candidate?.fit) throw new RangeError(`the ${model} shape could not be fitted to this baseline`);
+  return savingsFromFit(candidate.fit, { limits: baseline.choice.settings.guideline14, excluded: baseline.excluded }, reportingReadings, weather, options);
+}
+
+export interface StoredBaselineContext {
+  /** The Guideline 14 limits the baseline was judged by (the CV(RMSE) limit is reset by reporting length). */
+  limits: Guideline14Limits;
+  /** Baseline readings that were left out of the fit. */
+  excluded: readonly ExcludedPeriod[];
+}
+
+/**
+ * Savings of reporting-period readings against an already-fitted (for
+ * example frozen and stored) model: no refit, the model is used as given.
+ */
+export function savingsFromFit(
+  fit: ShapeFit,
+  baseline: StoredBaselineContext,
+  reportingReadings: readonly Reading[],
+  weather: readonly DailyTemperature[] | ReadonlyMap<string, number>,
+  options: SavingsOptions & AlignmentOptions & { cvrmseLimit?: number } = {},
+): SavingsDocument {
   const { periods, excluded } = alignPeriods(reportingReadings, weather, options);
-  const result = computeSavings(candidate.fit, periods, options);
+  const result = computeSavings(fit, periods, options);
   const reportingMonths = periods.reduce((days, p) => days + p.days, 0) / DAYS_PER_MONTH;
-  const limits = { ...baseline.choice.settings.guideline14, cvrmse: options.cvrmseLimit ?? cvrmseLimitForReportingMonths(reportingMonths) };
+  const limits = { ...baseline.limits, cvrmse: options.cvrmseLimit ?? cvrmseLimitForReportingMonths(reportingMonths) };
   return {
     ...result,
-    baseline: { selected: model, reportingMonths, guideline14: guideline14Check(candidate.fit.stats, limits) },
-    excluded: { baseline: baseline.excluded, reporting: excluded },
+    baseline: { selected: fit.model, reportingMonths, guideline14: guideline14Check(fit.stats, limits) },
+    excluded: { baseline: [...baseline.excluded], reporting: excluded },
   };
 }

@@ -2,9 +2,25 @@
 import type { RouteDeps } from '../app.js';
 import { healthRoutes } from './health.js';
 import { weatherStationRoutes } from './weather-stations.js';
+import { facilitiesRoutes } from './facilities.js';
+import { metersRoutes } from './meters.js';
+import { readingsRoutes } from './readings.js';
+import { observationsRoutes } from './observations.js';
+import { baselinesRoutes } from './baselines.js';
+import { savingsRoutes } from './savings.js';
+import { auditRoutes } from './audit.js';
+import { apiKeysRoutes } from './api-keys.js';
 import type { ApiApp } from './types.js';
 
 export async function registerRoutes(app: ApiApp, deps: RouteDeps): Promise<void> {
   healthRoutes(app, deps);
   weatherStationRoutes(app, deps);
+  facilitiesRoutes(app, deps);
+  metersRoutes(app, deps);
+  readingsRoutes(app, deps);
+  observationsRoutes(app, deps);
+  baselinesRoutes(app, deps);
+  savingsRoutes(app, deps);
+  auditRoutes(app, deps);
+  apiKeysRoutes(app, deps);
 }

@@ -1,0 +1,5 @@
+/** Routes of this resource: to be written. */
+import type { RouteDeps } from '../app.js';
+import type { ApiApp } from './types.js';
+
+export function apiKeysRoutes(_app: ApiApp, _deps: RouteDeps): void {}
