@@ -7,7 +7,8 @@ import { EXIT_BAD_INPUT, EXIT_INTERNAL, InputFileError, UsageError, oneLine } fr
 import { parseFitOptions, parseSavingsOptions } from './options.js';
 import { runFit } from './commands/fit.js';
 import { runSavings } from './commands/savings.js';
-import { FIT_USAGE, GENERAL_USAGE, SAVINGS_USAGE } from './usage.js';
+import { runKeys } from './commands/keys.js';
+import { FIT_USAGE, GENERAL_USAGE, KEYS_USAGE, SAVINGS_USAGE } from './usage.js';
 
 export interface CliIO {
   stdout(text: string): void;
@@ -34,7 +35,17 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
       io.stdout(options.help ? SAVINGS_USAGE : await runSavings(options));
       return 0;
     }
-    io.stderr(`mvledger: unknown command ${JSON.stringify(command)} (commands: fit, savings, help)\n`);
+    if (command === 'keys') {
+      if (rest.some((word) => HELP_WORDS.has(word))) {
+        io.stdout(KEYS_USAGE);
+        return 0;
+      }
+      const output = await runKeys(rest);
+      io.stdout(output.stdout);
+      if (output.note) io.stderr(output.note);
+      return 0;
+    }
+    io.stderr(`mvledger: unknown command ${JSON.stringify(command)} (commands: fit, savings, keys, help)\n`);
     return EXIT_BAD_INPUT;
   } catch (error) {
     if (error instanceof UsageError || error instanceof InputFileError) {
@@ -50,5 +61,6 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
 function helpFor(topic: string | undefined): string {
   if (topic === 'fit') return FIT_USAGE;
   if (topic === 'savings') return SAVINGS_USAGE;
+  if (topic === 'keys') return KEYS_USAGE;
   return GENERAL_USAGE;
 }

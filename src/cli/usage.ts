@@ -29,15 +29,34 @@ Avoided energy of the reporting period against the fitted baseline, with its unc
 ${COMMON_OPTIONS}
 `;
 
+export const KEYS_USAGE = `Usage: mvledger keys create (--org ID | --org-name NAME) --role ROLE --name NAME
+       mvledger keys list [--org ID]
+       mvledger keys revoke ID
+
+Manage API keys directly in the database named by DATABASE_URL
+(default sqlite:./var/mvledger.sqlite), bringing its schema up to date first.
+
+  create              make a key in an existing organisation (--org ID) or in a new
+                      one (--org-name NAME); prints the token alone on stdout, once:
+                      it is not stored and cannot be shown again
+  --role ROLE         admin, engineer, analyst or integration
+  --name NAME         what the key is for
+  list                every key (or one organisation's): id, org, name, role,
+                      created, revoked; never a token
+  revoke ID           the key answers 401 from then on
+`;
+
 export const GENERAL_USAGE = `mvledger: weather-normalised baselines and avoided energy (IPMVP whole-facility option, ASHRAE Guideline 14 methods)
 
 Usage:
   mvledger fit --readings FILE --weather FILE [options]
   mvledger savings --baseline FILE --reporting FILE --weather FILE [options]
-  mvledger help [fit|savings]
+  mvledger keys create|list|revoke ...
+  mvledger help [fit|savings|keys]
 
 Dates are ISO (YYYY-MM-DD). Bad input is reported as one line naming the file,
 the CSV row (header = row 1) and the field, with exit code 2.
 
 ${FIT_USAGE}
-${SAVINGS_USAGE}`;
+${SAVINGS_USAGE}
+${KEYS_USAGE}`;

@@ -7,7 +7,7 @@ import { randomUUID } from 'node:crypto';
 import Fastify, { type FastifyInstance, type FastifyServerOptions } from 'fastify';
 import swagger from '@fastify/swagger';
 import swaggerUi from '@fastify/swagger-ui';
-import { jsonSchemaTransform, serializerCompiler, validatorCompiler, type ZodTypeProvider } from 'fastify-type-provider-zod';
+import { jsonSchemaTransform, jsonSchemaTransformObject, serializerCompiler, validatorCompiler, type ZodTypeProvider } from 'fastify-type-provider-zod';
 import type { Store } from '../store/connect.js';
 import { installProblemHandling } from './plugins/problems.js';
 import { installAuth } from './plugins/auth.js';
@@ -70,6 +70,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
       components: { securitySchemes: { bearerAuth: { type: 'http', scheme: 'bearer', description: 'An API key: mvl_<id>_<secret>' } } },
     },
     transform: jsonSchemaTransform,
+    transformObject: jsonSchemaTransformObject,
   });
   await app.register(swaggerUi, { routePrefix: '/docs', uiConfig: { docExpansion: 'list' } });
 

@@ -1,5 +1,74 @@
-/** Routes of this resource: to be written. */
+/**
+ * /v1/api-keys: an organisation's admins make, list and revoke its keys. The
+ * token is in the create response only; Idempotency-Key is refused on
+ * create, because a replay store would have to keep the token.
+ */
+import type { FastifyRequest } from 'fastify';
+import { z } from 'zod';
 import type { RouteDeps } from '../app.js';
+import { createApiKey, listApiKeys, revokeApiKey } from '../../services/api-keys.js';
+import { IDEMPOTENCY_HEADER } from '../plugins/idempotency.js';
+import { Problem } from '../problem.js';
+import { authProblems, bearer, idParams, idempotencyHeaders, problemSchema, writeProblems } from '../schemas/common.js';
+import { apiKeySchema, createApiKeyBody, createdApiKeySchema } from '../schemas/api-keys.js';
+import { serviceContext } from './context.js';
 import type { ApiApp } from './types.js';
 
-export function apiKeysRoutes(_app: ApiApp, _deps: RouteDeps): void {}
+/** A preValidation hook: it runs before the idempotency plugin's preHandler, so no replay row is ever written. */
+async function refuseIdempotencyKey(request: FastifyRequest): Promise<void> {
+  if (request.headers[IDEMPOTENCY_HEADER] !== undefined) {
+    throw new Problem('validation', 'Idempotency-Key is not accepted on API-key routes: the response holds a secret that is never stored', [
+      { field: 'header.idempotency-key', message: 'not accepted here' },
+    ]);
+  }
+}
+
+export function apiKeysRoutes(app: ApiApp, deps: RouteDeps): void {
+  app.post(
+    '/v1/api-keys',
+    {
+      config: { permission: 'keys' },
+      preValidation: refuseIdempotencyKey,
+      schema: {
+        tags: ['api-keys'],
+        summary: 'Create an API key',
+        description: 'The response holds the token, shown this once: it is not stored and cannot be shown again. Idempotency-Key is not accepted.',
+        security: bearer,
+        body: createApiKeyBody,
+        response: { 201: createdApiKeySchema, ...writeProblems },
+      },
+    },
+    async (request, reply) => reply.code(201).send(await createApiKey(serviceContext(request, deps), request.body)),
+  );
+
+  app.get(
+    '/v1/api-keys',
+    {
+      config: { permission: 'keys' },
+      schema: {
+        tags: ['api-keys'],
+        summary: "List the organisation's API keys",
+        security: bearer,
+        response: { 200: z.object({ keys: z.array(apiKeySchema) }), ...authProblems },
+      },
+    },
+    async (request) => ({ keys: await listApiKeys(deps.store.db, request.principal!.organisationId) }),
+  );
+
+  app.delete(
+    '/v1/api-keys/:id',
+    {
+      config: { permission: 'keys' },
+      schema: {
+        tags: ['api-keys'],
+        summary: 'Revoke an API key',
+        description: 'The key answers 401 from then on. The key making the request cannot revoke itself (409). Revoking a revoked key changes nothing.',
+        security: bearer,
+        params: idParams,
+        headers: idempotencyHeaders,
+        response: { 200: apiKeySchema, ...authProblems, 409: problemSchema },
+      },
+    },
+    async (request) => revokeApiKey(serviceContext(request, deps), request.params.id),
+  );
+}

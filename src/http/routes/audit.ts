@@ -1,5 +1,49 @@
-/** Routes of this resource: to be written. */
+/** /v1/audit: the organisation's audit trail, and a check of the whole hash chain. */
 import type { RouteDeps } from '../app.js';
+import { listAuditEntries, verifyAudit } from '../../services/audit.js';
+import { authProblems, bearer } from '../schemas/common.js';
+import { auditPageSchema, auditQuery, chainVerdictSchema } from '../schemas/audit.js';
 import type { ApiApp } from './types.js';
 
-export function auditRoutes(_app: ApiApp, _deps: RouteDeps): void {}
+export function auditRoutes(app: ApiApp, deps: RouteDeps): void {
+  app.get(
+    '/v1/audit',
+    {
+      config: { permission: 'read' },
+      schema: {
+        tags: ['audit'],
+        summary: "The organisation's audit trail, oldest first",
+        description: 'Every write, in sequence order: who (API key id or "system"), when, what, and the entity before and after. Page with `after`.',
+        security: bearer,
+        querystring: auditQuery,
+        response: { 200: auditPageSchema, ...authProblems },
+      },
+    },
+    async (request) => {
+      const { entity, entityId, since, limit, after } = request.query;
+      return listAuditEntries(deps.store.db, request.principal!.organisationId, {
+        limit,
+        ...(entity !== undefined ? { entityType: entity } : {}),
+        ...(entityId !== undefined ? { entityId } : {}),
+        ...(since !== undefined ? { since } : {}),
+        ...(after !== undefined ? { afterSeq: after } : {}),
+      });
+    },
+  );
+
+  app.get(
+    '/v1/audit/verify',
+    {
+      config: { permission: 'read' },
+      schema: {
+        tags: ['audit'],
+        summary: 'Check the audit hash chain',
+        description:
+          'Walks the whole chain (every organisation shares one chain) and names the first row whose content or link does not match. Record headHash elsewhere: a later run can then also detect rows cut off the end.',
+        security: bearer,
+        response: { 200: chainVerdictSchema, ...authProblems },
+      },
+    },
+    async () => verifyAudit(deps.store.db),
+  );
+}

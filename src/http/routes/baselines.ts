@@ -1,5 +1,123 @@
-/** Routes of this resource: to be written. */
+/** Baselines: fit a meter's baseline window, choose a shape, freeze it, read its history and its energy signature. */
+import { z } from 'zod';
 import type { RouteDeps } from '../app.js';
+import {
+  baselineSignatureSvg,
+  chooseModel,
+  createBaseline,
+  freezeBaseline,
+  getBaseline,
+  listBaselines,
+} from '../../services/baselines.js';
+import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
+import { baselineHistorySchema, baselineSchema, chooseBody, createBaselineBody, freezeBody, verifiedBaselineSchema } from '../schemas/baselines.js';
+import { serviceContext } from './context.js';
 import type { ApiApp } from './types.js';
 
-export function baselinesRoutes(_app: ApiApp, _deps: RouteDeps): void {}
+export const SVG_CONTENT_TYPE = 'image/svg+xml; charset=utf-8';
+
+export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
+  app.post(
+    '/v1/meters/:id/baselines',
+    {
+      config: { permission: 'ledger' },
+      schema: {
+        tags: ['baselines'],
+        summary: 'Fit a baseline draft',
+        description:
+          'Fits every changepoint shape to the meter’s readings lying fully inside [start, end) against its station’s daily weather, selects one, and keeps the result as a draft (the next version of the meter’s baseline). 422 when too few periods are usable, with the reasons.',
+        security: bearer,
+        headers: idempotencyHeaders,
+        params: idParams,
+        body: createBaselineBody,
+        response: { 201: baselineSchema, ...writeProblems },
+      },
+    },
+    async (request, reply) => reply.code(201).send(await createBaseline(serviceContext(request, deps), request.params.id, request.body)),
+  );
+
+  app.get(
+    '/v1/meters/:id/baselines',
+    {
+      config: { permission: 'read' },
+      schema: {
+        tags: ['baselines'],
+        summary: 'The meter’s baseline history, newest version first',
+        security: bearer,
+        params: idParams,
+        response: { 200: baselineHistorySchema, ...authProblems },
+      },
+    },
+    async (request) => ({ baselines: await listBaselines(deps.store.db, request.principal!.organisationId, request.params.id) }),
+  );
+
+  app.get(
+    '/v1/baselines/:id',
+    {
+      config: { permission: 'read' },
+      schema: {
+        tags: ['baselines'],
+        summary: 'One baseline, with its fit and a fresh check of its content hash',
+        security: bearer,
+        params: idParams,
+        response: { 200: verifiedBaselineSchema, ...authProblems },
+      },
+    },
+    async (request) => getBaseline(deps.store.db, request.principal!.organisationId, request.params.id),
+  );
+
+  app.post(
+    '/v1/baselines/:id/choose',
+    {
+      config: { permission: 'ledger' },
+      schema: {
+        tags: ['baselines'],
+        summary: 'Choose the shape of a draft',
+        description: 'Any fitted shape may be chosen; a shape that failed screening is allowed but noted in warnings. 409 once frozen.',
+        security: bearer,
+        headers: idempotencyHeaders,
+        params: idParams,
+        body: chooseBody,
+        response: { 200: baselineSchema, ...writeProblems },
+      },
+    },
+    async (request) => chooseModel(serviceContext(request, deps), request.params.id, request.body),
+  );
+
+  app.post(
+    '/v1/baselines/:id/freeze',
+    {
+      config: { permission: 'ledger' },
+      schema: {
+        tags: ['baselines'],
+        summary: 'Freeze a draft',
+        description:
+          'Seals the draft under a SHA-256 content hash. When the meter already has a frozen baseline, supersedeReason is required and that baseline becomes superseded. A frozen baseline can never be changed (409).',
+        security: bearer,
+        headers: idempotencyHeaders,
+        params: idParams,
+        body: freezeBody,
+        response: { 200: baselineSchema, ...writeProblems },
+      },
+    },
+    async (request) => freezeBaseline(serviceContext(request, deps), request.params.id, request.body),
+  );
+
+  app.get(
+    '/v1/baselines/:id/signature.svg',
+    {
+      config: { permission: 'read' },
+      schema: {
+        tags: ['baselines'],
+        summary: 'The energy signature chart (SVG)',
+        description: 'Use per day against mean outdoor temperature: baseline periods, the chosen model’s line, and reporting periods once the baseline is frozen.',
+        security: bearer,
+        params: idParams,
+        produces: ['image/svg+xml'],
+        response: { 200: z.string().describe('An SVG image'), ...authProblems },
+      },
+    },
+    async (request, reply) =>
+      reply.type(SVG_CONTENT_TYPE).send(await baselineSignatureSvg(deps.store.db, request.principal!.organisationId, request.params.id)),
+  );
+}

@@ -1,5 +1,49 @@
-/** Routes of this resource: to be written. */
+/** /v1/facilities: the buildings or sites a contract covers. */
+import { z } from 'zod';
 import type { RouteDeps } from '../app.js';
+import { createFacility, getFacilityRow, listFacilities, toFacility } from '../../services/facilities.js';
+import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
+import { createFacilityBody, facilitySchema } from '../schemas/facilities.js';
+import { serviceContext } from './context.js';
 import type { ApiApp } from './types.js';
 
-export function facilitiesRoutes(_app: ApiApp, _deps: RouteDeps): void {}
+export function facilitiesRoutes(app: ApiApp, deps: RouteDeps): void {
+  app.post(
+    '/v1/facilities',
+    {
+      config: { permission: 'ledger' },
+      schema: {
+        tags: ['facilities'],
+        summary: 'Create a facility',
+        security: bearer,
+        headers: idempotencyHeaders,
+        body: createFacilityBody,
+        response: { 201: facilitySchema, ...writeProblems },
+      },
+    },
+    async (request, reply) => reply.code(201).send(await createFacility(serviceContext(request, deps), request.body)),
+  );
+
+  app.get(
+    '/v1/facilities',
+    {
+      config: { permission: 'read' },
+      schema: {
+        tags: ['facilities'],
+        summary: 'List facilities',
+        security: bearer,
+        response: { 200: z.object({ facilities: z.array(facilitySchema) }), ...authProblems },
+      },
+    },
+    async (request) => ({ facilities: await listFacilities(deps.store.db, request.principal!.organisationId) }),
+  );
+
+  app.get(
+    '/v1/facilities/:id',
+    {
+      config: { permission: 'read' },
+      schema: { tags: ['facilities'], summary: 'One facility', security: bearer, params: idParams, response: { 200: facilitySchema, ...authProblems } },
+    },
+    async (request) => toFacility(await getFacilityRow(deps.store.db, request.principal!.organisationId, request.params.id)),
+  );
+}

@@ -1,5 +1,51 @@
-/** Routes of this resource: to be written. */
+/** Meters of a facility (/v1/facilities/{id}/meters) and each meter by id (/v1/meters/{id}). */
+import { z } from 'zod';
 import type { RouteDeps } from '../app.js';
+import { createMeter, getMeterRow, listMeters, toMeter } from '../../services/meters.js';
+import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
+import { createMeterBody, meterSchema } from '../schemas/meters.js';
+import { serviceContext } from './context.js';
 import type { ApiApp } from './types.js';
 
-export function metersRoutes(_app: ApiApp, _deps: RouteDeps): void {}
+export function metersRoutes(app: ApiApp, deps: RouteDeps): void {
+  app.post(
+    '/v1/facilities/:id/meters',
+    {
+      config: { permission: 'ledger' },
+      schema: {
+        tags: ['meters'],
+        summary: 'Add a meter to a facility',
+        security: bearer,
+        params: idParams,
+        headers: idempotencyHeaders,
+        body: createMeterBody,
+        response: { 201: meterSchema, ...writeProblems },
+      },
+    },
+    async (request, reply) => reply.code(201).send(await createMeter(serviceContext(request, deps), request.params.id, request.body)),
+  );
+
+  app.get(
+    '/v1/facilities/:id/meters',
+    {
+      config: { permission: 'read' },
+      schema: {
+        tags: ['meters'],
+        summary: "List a facility's meters",
+        security: bearer,
+        params: idParams,
+        response: { 200: z.object({ meters: z.array(meterSchema) }), ...authProblems },
+      },
+    },
+    async (request) => ({ meters: await listMeters(deps.store.db, request.principal!.organisationId, request.params.id) }),
+  );
+
+  app.get(
+    '/v1/meters/:id',
+    {
+      config: { permission: 'read' },
+      schema: { tags: ['meters'], summary: 'One meter', security: bearer, params: idParams, response: { 200: meterSchema, ...authProblems } },
+    },
+    async (request) => toMeter(await getMeterRow(deps.store.db, request.principal!.organisationId, request.params.id)),
+  );
+}

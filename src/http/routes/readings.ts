@@ -1,5 +1,62 @@
-/** Routes of this resource: to be written. */
+/** /v1/meters/{id}/readings: bills and interval data, posted in batches (JSON or CSV). */
+import type { FastifyRequest } from 'fastify';
 import type { RouteDeps } from '../app.js';
+import { listReadings, postReadings, type RecordLocator } from '../../services/readings.js';
+import { describePath } from '../plugins/problems.js';
+import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
+import { dateRangeQuery, postReadingsBody, postReadingsQuery, postReadingsResult, readingsList } from '../schemas/readings.js';
+import { serviceContext } from './context.js';
 import type { ApiApp } from './types.js';
 
-export function readingsRoutes(_app: ApiApp, _deps: RouteDeps): void {}
+/** Names a record as a JSON path, or as its CSV row when the body came as CSV. */
+export function recordLocator(request: FastifyRequest, collection: string): RecordLocator {
+  return (index, field) => describePath(`/${collection}/${index}${field ? `/${field}` : ''}`, request);
+}
+
+export function readingsRoutes(app: ApiApp, deps: RouteDeps): void {
+  app.post(
+    '/v1/meters/:id/readings',
+    {
+      config: { permission: 'data', csvBody: 'readings' },
+      schema: {
+        tags: ['readings'],
+        summary: 'Post a batch of readings',
+        description:
+          'All or nothing. A reading identical to the stored one with the same start and end is counted unchanged; a different one is a correction and needs a correctionReason. A new period overlapping a stored one, or any change inside a frozen baseline window, is refused (409).',
+        security: bearer,
+        params: idParams,
+        headers: idempotencyHeaders,
+        querystring: postReadingsQuery,
+        body: postReadingsBody,
+        response: { 200: postReadingsResult, 201: postReadingsResult, ...writeProblems },
+      },
+    },
+    async (request, reply) => {
+      const correctionReason = request.body.correctionReason ?? request.query.correctionReason;
+      const result = await postReadings(
+        serviceContext(request, deps),
+        request.params.id,
+        { readings: request.body.readings, ...(correctionReason !== undefined ? { correctionReason } : {}) },
+        recordLocator(request, 'readings'),
+      );
+      return reply.code(result.created + result.corrected > 0 ? 201 : 200).send(result);
+    },
+  );
+
+  app.get(
+    '/v1/meters/:id/readings',
+    {
+      config: { permission: 'read' },
+      schema: {
+        tags: ['readings'],
+        summary: "A meter's readings",
+        description: 'Readings whose period overlaps [from, to), by start.',
+        security: bearer,
+        params: idParams,
+        querystring: dateRangeQuery,
+        response: { 200: readingsList, ...authProblems },
+      },
+    },
+    async (request) => listReadings(deps.store.db, request.principal!.organisationId, request.params.id, request.query),
+  );
+}

@@ -1,0 +1,146 @@
+/**
+ * `npm run demo`: the service on a fresh demo database, seeded through its
+ * own API with the invented Quillfen school district (see scenario.ts), then
+ * left running with an admin key and the URLs to try printed.
+ *
+ *   --seed-only   seed, print, and stop (used by the tests)
+ *   PORT, HOST    as for the service (default 127.0.0.1:8080)
+ */
+import { rmSync } from 'node:fs';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { loadConfig } from '../config.js';
+import { startService, type RunningService } from '../server.js';
+import { generateApiKey } from '../store/api-keys.js';
+import {
+  BASELINE_END,
+  BASELINE_START,
+  DEMO_FACILITIES,
+  DEMO_STATION,
+  REPORTING_END,
+  demoBills,
+  demoWeather,
+} from './scenario.js';
+
+export const DEMO_DATABASE = join('var', 'demo', 'mvledger-demo.sqlite');
+
+export interface DemoSeed {
+  adminKey: string;
+  analystKey: string;
+  integrationKey: string;
+  stationId: string;
+  facilities: { id: string; name: string; meters: { id: string; name: string; unit: string; baselineId: string; model: string }[] }[];
+}
+
+type Call = (method: string, path: string, body?: unknown) => Promise<any>;
+
+function client(base: string, token: string): Call {
+  return async (method, path, body) => {
+    const response = await fetch(`${base}${path}`, {
+      method,
+      headers: { authorization: `Bearer ${token}`, ...(body === undefined ? {} : { 'content-type': 'application/json' }) },
+      ...(body === undefined ? {} : { body: JSON.stringify(body) }),
+    });
+    const text = await response.text();
+    if (!response.ok) throw new Error(`${method} ${path} answered ${response.status}: ${text.slice(0, 300)}`);
+    return text ? JSON.parse(text) : undefined;
+  };
+}
+
+/** Seed the running service through its API, as an engineer and a billing system would. */
+export async function seedDemo(base: string, adminKey: string): Promise<DemoSeed> {
+  const call = client(base, adminKey);
+  const analyst = await call('POST', '/v1/api-keys', { name: 'finance analyst (demo)', role: 'analyst' });
+  const integration = await call('POST', '/v1/api-keys', { name: 'billing system (demo)', role: 'integration' });
+  const billing = client(base, integration.token);
+
+  const weather = demoWeather();
+  const weatherByDate = new Map(weather.map((day) => [day.date, day.temp]));
+  const station = await call('POST', '/v1/weather-stations', { name: DEMO_STATION, temperatureUnit: 'F' });
+  await billing('PUT', `/v1/weather-stations/${station.id}/observations`, { observations: weather });
+
+  const facilities: DemoSeed['facilities'] = [];
+  let seed = 1;
+  for (const plan of DEMO_FACILITIES) {
+    const facility = await call('POST', '/v1/facilities', { name: plan.name, address: plan.address, floorArea: plan.floorArea });
+    const meters: DemoSeed['facilities'][number]['meters'] = [];
+    for (const meterPlan of plan.meters) {
+      const meter = await call('POST', `/v1/facilities/${facility.id}/meters`, {
+        name: meterPlan.name,
+        fuel: meterPlan.fuel,
+        unit: meterPlan.unit,
+        weatherStationId: station.id,
+      });
+      const baselineBills = demoBills(meterPlan, weatherByDate, BASELINE_START, BASELINE_END, 0, seed++);
+      const reportingBills = demoBills(meterPlan, weatherByDate, BASELINE_END, REPORTING_END, meterPlan.reportingSaving, seed++);
+      await call('POST', `/v1/meters/${meter.id}/readings`, { readings: baselineBills });
+      const baseline = await call('POST', `/v1/meters/${meter.id}/baselines`, { start: BASELINE_START, end: BASELINE_END });
+      await call('POST', `/v1/baselines/${baseline.id}/freeze`, { note: 'Baseline agreed in the M&V plan (demo)' });
+      await billing('POST', `/v1/meters/${meter.id}/readings`, { readings: reportingBills });
+      meters.push({ id: meter.id, name: meterPlan.name, unit: meterPlan.unit, baselineId: baseline.id, model: baseline.chosen });
+    }
+    facilities.push({ id: facility.id, name: plan.name, meters });
+  }
+  return { adminKey, analystKey: analyst.token, integrationKey: integration.token, stationId: station.id, facilities };
+}
+
+export function describeDemo(base: string, seed: DemoSeed): string {
+  const first = seed.facilities[0]!.meters[0]!;
+  const lines = [
+    '',
+    'mvledger demo: the invented Quillfen School District (three schools, electricity and gas,',
+    `baseline ${BASELINE_START}..${BASELINE_END}, reporting year 2025)`,
+    '',
+    `  admin key:        ${seed.adminKey}`,
+    `  analyst key:      ${seed.analystKey}`,
+    `  integration key:  ${seed.integrationKey}`,
+    '',
+    `  API docs:         ${base}/docs`,
+    `  facilities:       ${base}/v1/facilities`,
+  ];
+  for (const facility of seed.facilities) {
+    for (const meter of facility.meters) {
+      lines.push(`  ${facility.name}, ${meter.name} (${meter.model}):`);
+      lines.push(`    savings:        ${base}/v1/meters/${meter.id}/savings?confidence=0.9`);
+      lines.push(`    signature:      ${base}/v1/baselines/${meter.baselineId}/signature.svg`);
+    }
+  }
+  lines.push(`  audit check:      ${base}/v1/audit/verify`);
+  lines.push('');
+  lines.push('Try:');
+  lines.push(`  curl -H "Authorization: Bearer ${seed.analystKey}" "${base}/v1/meters/${first.id}/savings?confidence=0.9"`);
+  lines.push(`  curl -H "Authorization: Bearer ${seed.analystKey}" -o signature.svg "${base}/v1/baselines/${first.baselineId}/signature.svg"`);
+  lines.push('');
+  lines.push('The figures are estimates under the contract\'s M&V plan and the cited methods; contractual and');
+  lines.push('engineering decisions rest with the parties and a licensed professional, under local rules.');
+  lines.push('');
+  return lines.join('\n');
+}
+
+export async function runDemo(options: { seedOnly: boolean; databaseFile?: string; port?: number }): Promise<{ service: RunningService; seed: DemoSeed }> {
+  const databaseFile = options.databaseFile ?? DEMO_DATABASE;
+  for (const suffix of ['', '-wal', '-shm']) rmSync(`${databaseFile}${suffix}`, { force: true });
+  const { token } = generateApiKey();
+  const config = { ...loadConfig(), databaseUrl: `sqlite:${databaseFile}`, bootstrapKey: token, logLevel: 'warn' as const };
+  if (options.port !== undefined) config.port = options.port;
+  const service = await startService(config);
+  const base = service.url.replace('[::1]', 'localhost');
+  const seed = await seedDemo(base, token);
+  process.stdout.write(describeDemo(base, seed));
+  if (options.seedOnly) await service.stop();
+  else process.stdout.write('Serving until Ctrl-C.\n');
+  return { service, seed };
+}
+
+if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {
+  const seedOnly = process.argv.includes('--seed-only');
+  runDemo({ seedOnly })
+    .then(({ service }) => {
+      if (seedOnly) return;
+      for (const signal of ['SIGINT', 'SIGTERM'] as const) process.once(signal, () => void service.stop().then(() => process.exit(0)));
+    })
+    .catch((error: unknown) => {
+      process.stderr.write(`mvledger demo: ${error instanceof Error ? error.message : String(error)}\n`);
+      process.exit(1);
+    });
+}

@@ -1,0 +1,61 @@
+import { z } from 'zod';
+import { isIsoDate } from '../../engine/index.js';
+
+const DATE_TIME = /^(\d{4}-\d{2}-\d{2})T\d{2}:\d{2}(:\d{2}(\.\d{1,9})?)?(Z|[+-]\d{2}:\d{2})$/;
+
+/** YYYY-MM-DD (midnight UTC) or a date-time with its offset. */
+export function isDateOrDateTime(text: string): boolean {
+  if (isIsoDate(text)) return true;
+  const match = DATE_TIME.exec(text);
+  return match !== null && isIsoDate(match[1]!) && Number.isFinite(Date.parse(text));
+}
+
+export const auditQuery = z
+  .object({
+    entity: z
+      .string()
+      .regex(/^[a-z][a-z-]{0,49}$/, 'must be an entity type such as facility, meter, weather-station, baseline, api-key')
+      .optional()
+      .describe('Only rows about this entity type'),
+    entityId: z.string().min(1).max(100).optional().describe('Only rows about this entity'),
+    since: z
+      .string()
+      .refine(isDateOrDateTime, 'must be a date (YYYY-MM-DD) or a date-time with an offset (2026-01-31T12:00:00Z)')
+      .optional()
+      .describe('Only rows written at or after this time; a date means its midnight UTC'),
+    limit: z.coerce.number().int('must be a whole number').min(1, 'must be at least 1').max(1000, 'must be at most 1000').default(100),
+    after: z.coerce.number().int('must be a whole number').min(0, 'must be 0 or more').optional().describe('Continue after this sequence number (the `next` of the previous page)'),
+  })
+  .strict();
+
+export const auditEntrySchema = z
+  .object({
+    seq: z.number().int(),
+    at: z.string(),
+    actor: z.string().describe('The API key id that made the change, or "system"'),
+    action: z.string(),
+    entityType: z.string(),
+    entityId: z.string(),
+    before: z.unknown().describe('The entity before the change (null when it was created)'),
+    after: z.unknown().describe('The entity after the change (null when it was removed)'),
+    hash: z.string(),
+    prevHash: z.string(),
+  })
+  .meta({ id: 'AuditEntry' });
+
+export const auditPageSchema = z
+  .object({
+    entries: z.array(auditEntrySchema),
+    next: z.number().int().optional().describe('Pass as `after` to get the next page; absent on the last page'),
+  })
+  .meta({ id: 'AuditPage' });
+
+export const chainVerdictSchema = z
+  .object({
+    ok: z.boolean(),
+    checked: z.number().int().describe('Rows checked'),
+    headSeq: z.number().int(),
+    headHash: z.string().describe('Hash of the last row: keep it outside the database to detect a cut-off tail later'),
+    broken: z.object({ seq: z.number().int(), reason: z.string() }).optional().describe('The first row where the chain breaks'),
+  })
+  .meta({ id: 'AuditChainVerdict' });

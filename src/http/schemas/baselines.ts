@@ -1,0 +1,124 @@
+/** Baselines: request bodies and the fit document as the API returns it. */
+import { z } from 'zod';
+import { MODEL_NAMES } from '../../engine/index.js';
+import { isoDate } from './common.js';
+
+/** A statistic: JSON has no NaN or Infinity, so a non-finite value is sent as null. */
+export const stat = z.number().nullable();
+
+export const modelName = z.enum(MODEL_NAMES).describe('A changepoint shape, named as ASHRAE Guideline 14 names it');
+
+const text = (max: number) => z.string().trim().min(1, 'must not be empty').max(max, `must be at most ${max} characters`);
+
+export const baselineOptions = z
+  .object({
+    minCoverage: z.number().gt(0, 'must be above 0').lte(1, 'must be at most 1').optional().describe('Share of a period’s days that must have weather (default 0.9)'),
+    significanceLevel: z.number().gt(0, 'must be above 0').lt(1, 'must be below 1').optional().describe('Two-sided α of the slope t-tests and the F-test (default 0.05)'),
+    minPointsPerSegment: z.number().int('must be a whole number').min(1, 'must be at least 1').max(1000).optional().describe('Fewest periods in each segment of a changepoint shape (default 3)'),
+    allowSameSignFourPoint: z.boolean().optional().describe('Accept a 4P whose two slopes have the same sign (default false)'),
+  })
+  .strict();
+
+export const createBaselineBody = z
+  .object({
+    start: isoDate.describe('First day of the baseline'),
+    end: isoDate.describe('Day after the baseline (end exclusive)'),
+    options: baselineOptions.optional(),
+  })
+  .strict()
+  .refine((body) => body.end > body.start, { path: ['end'], message: 'must be after start' });
+
+export const chooseBody = z
+  .object({
+    model: modelName,
+    reason: text(2000).describe('Why the engineer chose this shape (kept in the baseline and the audit trail)'),
+  })
+  .strict();
+
+export const freezeBody = z
+  .object({
+    note: text(2000).describe('What the freeze rests on, e.g. the M&V plan clause'),
+    supersedeReason: text(2000).optional().describe('Required when the meter already has a frozen baseline: why it is replaced'),
+  })
+  .strict();
+
+const limitCheck = z.object({ value: stat, limit: stat, pass: z.boolean() });
+export const guideline14CheckSchema = z
+  .object({ cvrmse: limitCheck, nmbe: limitCheck, pass: z.boolean(), source: z.string() })
+  .meta({ id: 'Guideline14Check', description: 'ASHRAE Guideline 14 acceptance of a model (limits from memory; see source)' });
+
+export const excludedPeriodSchema = z
+  .object({ start: z.string(), end: z.string(), index: z.number().int(), reason: z.string() })
+  .meta({ id: 'ExcludedPeriod', description: 'A reading left out, and why' });
+
+const candidateSchema = z
+  .object({
+    model: modelName,
+    verdict: z.enum(['selected', 'accepted', 'rejected', 'not-fitted']),
+    accepted: z.boolean(),
+    reasons: z.array(z.string()),
+    parameters: z.record(z.string(), stat),
+    coefficients: z.array(z.object({ name: z.string(), estimate: stat, standardError: stat, tStat: stat })),
+    changepoints: z.array(z.object({ name: z.string(), estimate: stat, standardError: stat })),
+    segmentCounts: z.record(z.string(), z.number()),
+    temperatureRange: z.object({ min: stat, max: stat }).nullable(),
+    sse: stat,
+    n: z.number().int(),
+    p: z.number().int(),
+    aicc: stat,
+    stats: z
+      .object({ r2: stat, adjustedR2: stat, rmse: stat, cvrmse: stat, nmbe: stat, autocorrelation: stat, durbinWatson: stat })
+      .nullable(),
+    guideline14: guideline14CheckSchema.nullable(),
+  })
+  .meta({ id: 'Candidate', description: 'One fitted shape with its verdict and reasons' });
+
+export const fitDocumentSchema = z
+  .object({
+    selected: modelName,
+    candidates: z.array(candidateSchema),
+    periods: z.object({ used: z.number().int(), excluded: z.array(excludedPeriodSchema) }),
+    settings: z.object({
+      significanceLevel: z.number(),
+      minPointsPerSegment: z.number().int(),
+      guideline14: z.object({ cvrmse: z.number(), nmbe: z.number(), source: z.string() }),
+      minCoverage: z.number(),
+    }),
+  })
+  .meta({ id: 'FitDocument', description: 'Every candidate shape, the selection and the settings: the same document as the command line’s fit --json' });
+
+const baselineFields = {
+  id: z.string(),
+  meterId: z.string(),
+  version: z.number().int(),
+  status: z.enum(['draft', 'frozen', 'superseded']),
+  start: z.string(),
+  end: z.string(),
+  options: baselineOptions,
+  selected: modelName.describe('The shape the engine selected'),
+  chosen: modelName.describe('The shape savings use: the selection unless an engineer chose another'),
+  choiceReason: z.string().nullable(),
+  warnings: z.array(z.string()).describe('Notes on the choice, e.g. that the chosen shape failed screening'),
+  contentHash: z.string().nullable().describe('SHA-256 of the frozen content; null while a draft'),
+  note: z.string().nullable(),
+  frozenAt: z.string().nullable(),
+  frozenBy: z.string().nullable(),
+  supersedes: z.string().nullable(),
+  supersedeReason: z.string().nullable(),
+  createdAt: z.string(),
+  createdBy: z.string(),
+};
+
+export const baselineSummarySchema = z.object(baselineFields).meta({ id: 'BaselineSummary', description: 'A baseline without its fit document' });
+
+export const baselineSchema = z.object({ ...baselineFields, fit: fitDocumentSchema }).meta({ id: 'Baseline' });
+
+export const verifiedBaselineSchema = z
+  .object({
+    ...baselineFields,
+    fit: fitDocumentSchema,
+    verified: z.boolean().describe('The stored content still hashes to contentHash (false for a draft, which has no hash)'),
+  })
+  .meta({ id: 'VerifiedBaseline' });
+
+export const baselineHistorySchema = z.object({ baselines: z.array(baselineSummarySchema) }).meta({ id: 'BaselineHistory' });

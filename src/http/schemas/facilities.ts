@@ -1,0 +1,19 @@
+import { z } from 'zod';
+import { name } from './common.js';
+
+export const createFacilityBody = z
+  .object({
+    name,
+    address: z.string().trim().min(1, 'must not be empty').max(500, 'must be at most 500 characters').nullable().optional(),
+    floorArea: z
+      .number()
+      .positive('must be greater than 0')
+      .nullable()
+      .optional()
+      .describe('Conditioned floor area, in the unit the organisation uses throughout (ft² or m²)'),
+  })
+  .strict();
+
+export const facilitySchema = z
+  .object({ id: z.string(), name: z.string(), address: z.string().nullable(), floorArea: z.number().nullable(), createdAt: z.string() })
+  .meta({ id: 'Facility' });

@@ -1,0 +1,64 @@
+import { z } from 'zod';
+import { finite, isoDate } from './common.js';
+
+/** Largest batch in one request; the service enforces the same limit. */
+export const MAX_BATCH = 50_000;
+
+const nonNegative = finite.refine((value) => value >= 0, 'must not be negative');
+
+export const readingInput = z
+  .object({
+    start: isoDate.describe('First day of the period'),
+    end: isoDate.describe('Day after the last day of the period (the next read date)'),
+    quantity: nonNegative.describe("Energy over the period, in the meter's unit"),
+    estimated: z.boolean().optional().describe('The reading is an estimate, not an actual read (default false)'),
+    cost: nonNegative.nullable().optional().describe('Billed cost of the period, if known'),
+  })
+  .strict();
+
+const correctionReason = z.string().trim().min(1, 'must not be empty').max(1000, 'must be at most 1000 characters');
+
+export const postReadingsBody = z
+  .object({
+    readings: z.array(readingInput).min(1, 'at least one reading is needed').max(MAX_BATCH, `at most ${MAX_BATCH} readings per request`),
+    correctionReason: correctionReason.optional().describe('Why stored readings are being changed; required when the batch changes any'),
+  })
+  .strict()
+  .describe(
+    'Also accepted as text/csv with the header start,end,quantity[,estimated,cost]; the correction reason then comes as the correctionReason query parameter.',
+  );
+
+export const postReadingsQuery = z.object({
+  correctionReason: correctionReason.optional().describe('For text/csv bodies: why stored readings are being changed'),
+});
+
+export const postReadingsResult = z
+  .object({
+    meterId: z.string(),
+    received: z.number().int(),
+    created: z.number().int(),
+    corrected: z.number().int(),
+    unchanged: z.number().int().describe('Readings identical to what is stored under the same start and end'),
+  })
+  .meta({ id: 'ReadingsPosted' });
+
+/** Both ends optional; `to` must be after `from`. */
+export const dateRangeQuery = z.object({
+  from: isoDate.optional(),
+  to: isoDate.optional(),
+});
+
+export const storedReading = z
+  .object({
+    start: z.string(),
+    end: z.string(),
+    days: z.number().int(),
+    quantity: z.number(),
+    estimated: z.boolean(),
+    cost: z.number().nullable(),
+  })
+  .meta({ id: 'Reading' });
+
+export const readingsList = z
+  .object({ meterId: z.string(), unit: z.string(), readings: z.array(storedReading) })
+  .meta({ id: 'Readings' });

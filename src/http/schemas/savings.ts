@@ -1,0 +1,59 @@
+/** Savings: the query and the savings document as the API returns it. */
+import { z } from 'zod';
+import { CONFIDENCE_LEVELS } from '../../engine/index.js';
+import { isoDate } from './common.js';
+import { excludedPeriodSchema, guideline14CheckSchema, modelName, stat } from './baselines.js';
+
+const confidenceText = CONFIDENCE_LEVELS.join(', ');
+
+export const savingsQuery = z
+  .object({
+    from: isoDate.optional().describe('Only reporting readings starting on or after this date'),
+    to: isoDate.optional().describe('Only reporting readings ending on or before this date (end exclusive)'),
+    confidence: z.coerce
+      .number()
+      .refine((value) => (CONFIDENCE_LEVELS as readonly number[]).includes(value), `must be one of ${confidenceText}`)
+      .optional()
+      .describe(`Two-sided confidence of the stated uncertainty: ${confidenceText} (default 0.68)`),
+  })
+  .strict()
+  .refine((query) => query.from === undefined || query.to === undefined || query.to > query.from, { path: ['to'], message: 'must be after from' });
+
+const uncertainty = z.object({ fractional: stat.describe('ΔS/S as a positive fraction'), absolute: stat.describe('ΔS in the meter’s unit') });
+
+export const savingsSchema = z
+  .object({
+    model: modelName,
+    periods: z.array(
+      z.object({
+        start: z.string(),
+        end: z.string(),
+        days: z.number().int(),
+        meanTemp: stat,
+        actual: stat,
+        adjustedBaseline: stat,
+        savings: stat,
+        outsideBaselineRange: z.boolean(),
+      }),
+    ),
+    totals: z.object({
+      actual: stat,
+      adjustedBaseline: stat,
+      savings: stat.describe('Avoided energy: adjusted baseline − actual'),
+      fractionSaved: stat,
+      confidence: z.number(),
+      uncertainty: z.object({ guideline14: uncertainty, exact: uncertainty }),
+      significant: z.boolean(),
+      outsideRangeShare: stat,
+    }),
+    significance: z.object({ rule: z.string(), fractionalAt68: z.object({ guideline14: stat, exact: stat }) }),
+    baselineTemperatureRange: z.object({ min: stat, max: stat }),
+    uncertaintyInputs: z.object({ n: z.number().int(), nPrime: stat, m: z.number().int(), p: z.number().int(), t: stat, autocorrelation: stat, cvrmse: stat }),
+    baseline: z.object({ selected: modelName, reportingMonths: stat, guideline14: guideline14CheckSchema.nullable() }),
+    excluded: z.object({ baseline: z.array(excludedPeriodSchema), reporting: z.array(excludedPeriodSchema) }),
+    meterId: z.string(),
+    baselineId: z.string(),
+    baselineVersion: z.number().int(),
+    baselineContentHash: z.string(),
+  })
+  .meta({ id: 'Savings', description: 'Avoided energy against the frozen baseline: the same document as the command line’s savings --json, plus the baseline it rests on' });

@@ -1,0 +1,91 @@
+/**
+ * API keys of an organisation, managed by its admins over HTTP or by the
+ * operator from the command line. The token (mvl_<id>_<secret>) is returned
+ * once, by create; only the secret's hash is stored, and neither the token
+ * nor the hash ever goes into the audit trail.
+ */
+import type { Kysely } from 'kysely';
+import { insertApiKey, publicKey } from '../store/api-keys.js';
+import { appendAudit } from '../store/audit.js';
+import type { ApiKeyRow, Database, Role } from '../store/schema.js';
+import { notFound, Problem } from '../http/problem.js';
+import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
+
+export type ApiKeyView = ReturnType<typeof publicKey>;
+
+export async function createApiKey(ctx: ServiceContext, input: { name: string; role: Role }): Promise<{ key: ApiKeyView; token: string }> {
+  return inTransaction(ctx, async (trx) => {
+    const { row, token } = await insertApiKey(trx, { organisationId: ctx.principal.organisationId, name: input.name, role: input.role, at: ctx.now });
+    const key = publicKey(row);
+    await audit(trx, ctx, { action: 'create', entityType: 'api-key', entityId: row.id, after: key });
+    return { key, token };
+  });
+}
+
+export async function listApiKeys(db: Executor, organisationId: string): Promise<ApiKeyView[]> {
+  const rows = await db.selectFrom('api_keys').selectAll().where('organisation_id', '=', organisationId).orderBy('created_at').orderBy('id').execute();
+  return rows.map(publicKey);
+}
+
+/**
+ * Revoke one of the organisation's keys. The key making the request cannot
+ * revoke itself, so an admin cannot lock the organisation out by accident.
+ * Revoking a revoked key changes nothing and answers the key as it is.
+ */
+export async function revokeApiKey(ctx: ServiceContext, id: string): Promise<ApiKeyView> {
+  return inTransaction(ctx, async (trx) => {
+    const row = await trx.selectFrom('api_keys').selectAll().where('id', '=', id).where('organisation_id', '=', ctx.principal.organisationId).executeTakeFirst();
+    if (!row) throw notFound('API key', id);
+    if (row.id === ctx.principal.keyId) {
+      throw new Problem('conflict', `API key ${id} is the key making this request; revoke it with another admin key`, [
+        { field: 'id', message: 'is the key in use' },
+      ]);
+    }
+    if (row.revoked_at !== null) return publicKey(row);
+    const revoked = await markRevoked(trx, row, ctx.now);
+    await audit(trx, ctx, { action: 'revoke', entityType: 'api-key', entityId: row.id, before: publicKey(row), after: revoked });
+    return revoked;
+  });
+}
+
+async function markRevoked(trx: Tx, row: ApiKeyRow, at: string): Promise<ApiKeyView> {
+  await trx.updateTable('api_keys').set({ revoked_at: at }).where('id', '=', row.id).execute();
+  return publicKey({ ...row, revoked_at: at });
+}
+
+/** A key with its organisation, as the operator's listing shows it. */
+export interface OperatorKeyView extends ApiKeyView {
+  organisationId: string;
+  organisationName: string;
+}
+
+/** Every key (or one organisation's), for the operator's command line. */
+export async function listKeysForOperator(db: Kysely<Database>, organisationId?: string): Promise<OperatorKeyView[]> {
+  let query = db
+    .selectFrom('api_keys')
+    .innerJoin('organisations', 'organisations.id', 'api_keys.organisation_id')
+    .selectAll('api_keys')
+    .select('organisations.name as organisation_name');
+  if (organisationId !== undefined) query = query.where('api_keys.organisation_id', '=', organisationId);
+  const rows = await query.orderBy('api_keys.organisation_id').orderBy('api_keys.created_at').orderBy('api_keys.id').execute();
+  return rows.map((row) => ({ ...publicKey(row), organisationId: row.organisation_id, organisationName: row.organisation_name }));
+}
+
+export type OperatorRevoke = { outcome: 'revoked' | 'already-revoked'; key: OperatorKeyView } | { outcome: 'not-found' };
+
+/**
+ * The operator revokes any key, by id, with the actor "system": the way back
+ * in when an organisation has lost its last admin key.
+ */
+export async function revokeKeyAsOperator(db: Kysely<Database>, id: string, at: string): Promise<OperatorRevoke> {
+  return db.transaction().execute(async (trx) => {
+    const row = await trx.selectFrom('api_keys').selectAll().where('id', '=', id).executeTakeFirst();
+    if (!row) return { outcome: 'not-found' };
+    const organisation = await trx.selectFrom('organisations').select('name').where('id', '=', row.organisation_id).executeTakeFirstOrThrow();
+    const withOrganisation = (key: ApiKeyView): OperatorKeyView => ({ ...key, organisationId: row.organisation_id, organisationName: organisation.name });
+    if (row.revoked_at !== null) return { outcome: 'already-revoked', key: withOrganisation(publicKey(row)) };
+    const revoked = await markRevoked(trx, row, at);
+    await appendAudit(trx, { organisationId: row.organisation_id, actor: 'system', at, action: 'revoke', entityType: 'api-key', entityId: row.id, before: publicKey(row), after: revoked });
+    return { outcome: 'revoked', key: withOrganisation(revoked) };
+  });
+}

@@ -1,0 +1,74 @@
+/**
+ * Reading the audit trail back: an organisation sees its own rows in
+ * sequence order; anyone may check that the whole chain is intact.
+ */
+import { isIsoDate } from '../engine/index.js';
+import { listAudit, verifyAuditChain, type ChainVerdict } from '../store/audit.js';
+import type { AuditRow } from '../store/schema.js';
+import type { Executor } from './context.js';
+
+export interface AuditEntryView {
+  seq: number;
+  at: string;
+  actor: string;
+  action: string;
+  entityType: string;
+  entityId: string;
+  before: unknown;
+  after: unknown;
+  hash: string;
+  prevHash: string;
+}
+
+export interface AuditFilter {
+  entityType?: string;
+  entityId?: string;
+  /** A date (its midnight UTC) or a date-time with an offset. */
+  since?: string;
+  limit: number;
+  afterSeq?: number;
+}
+
+export interface AuditPage {
+  entries: AuditEntryView[];
+  /** The `after` of the next page, when there is one. */
+  next?: number;
+}
+
+export function toAuditEntry(row: AuditRow): AuditEntryView {
+  return {
+    seq: row.seq,
+    at: row.at,
+    actor: row.actor,
+    action: row.action,
+    entityType: row.entity_type,
+    entityId: row.entity_id,
+    before: row.before_json === null ? null : JSON.parse(row.before_json),
+    after: row.after_json === null ? null : JSON.parse(row.after_json),
+    hash: row.hash,
+    prevHash: row.prev_hash,
+  };
+}
+
+/** Stored times are UTC ISO strings, so `since` is brought to the same form to compare as text. */
+export function sinceAsStoredTime(since: string): string {
+  return isIsoDate(since) ? `${since}T00:00:00.000Z` : new Date(since).toISOString();
+}
+
+export async function listAuditEntries(db: Executor, organisationId: string, filter: AuditFilter): Promise<AuditPage> {
+  const rows = await listAudit(db, {
+    organisationId,
+    limit: filter.limit + 1, // one more than asked tells whether another page follows
+    ...(filter.entityType !== undefined ? { entityType: filter.entityType } : {}),
+    ...(filter.entityId !== undefined ? { entityId: filter.entityId } : {}),
+    ...(filter.since !== undefined ? { since: sinceAsStoredTime(filter.since) } : {}),
+    ...(filter.afterSeq !== undefined ? { afterSeq: filter.afterSeq } : {}),
+  });
+  const page = rows.slice(0, filter.limit).map(toAuditEntry);
+  const last = page[page.length - 1];
+  return rows.length > filter.limit && last ? { entries: page, next: last.seq } : { entries: page };
+}
+
+export function verifyAudit(db: Executor): Promise<ChainVerdict> {
+  return verifyAuditChain(db);
+}

@@ -1,0 +1,472 @@
+/**
+ * Baselines: the engine fits a meter's baseline window and the result is
+ * kept as a draft; an engineer may choose another fitted shape; freezing
+ * seals it under a content hash, so savings always project with exactly the
+ * model that was agreed. A frozen baseline is never changed again: a new
+ * version supersedes it and the history keeps both.
+ */
+import {
+  alignPeriods,
+  analyseBaseline,
+  checkReadings,
+  predictPerDay,
+  type BaselineAnalysis,
+  type DailyTemperature,
+  type FitDocument,
+  type ModelName,
+  type Period,
+  type Reading,
+  type ShapeFit,
+  type TemperatureUnit,
+} from '../engine/index.js';
+import { canonicalJson, sha256Hex } from '../lib/canonical-json.js';
+import { newId } from '../store/ids.js';
+import type { BaselineRow, BaselineStatus } from '../store/schema.js';
+import { notFound, Problem } from '../http/problem.js';
+import { renderSignatureSvg, type SignaturePoint } from '../reports/svg/signature.js';
+import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
+import { getMeterRow } from './meters.js';
+import { loadDailyWeather, loadReadings, loadWeatherFor, stationUnit } from './meter-data.js';
+
+export interface BaselineFitOptions {
+  minCoverage?: number;
+  significanceLevel?: number;
+  minPointsPerSegment?: number;
+  allowSameSignFourPoint?: boolean;
+}
+
+/** Exactly what the fit saw: kept with the baseline so it can be re-run and checked. */
+export interface BaselineInputs {
+  readings: Reading[];
+  weather: DailyTemperature[];
+  temperatureUnit: TemperatureUnit;
+}
+
+export interface BaselineSummary {
+  id: string;
+  meterId: string;
+  version: number;
+  status: BaselineStatus;
+  start: string;
+  end: string;
+  options: BaselineFitOptions;
+  selected: ModelName;
+  chosen: ModelName;
+  choiceReason: string | null;
+  warnings: string[];
+  contentHash: string | null;
+  note: string | null;
+  frozenAt: string | null;
+  frozenBy: string | null;
+  supersedes: string | null;
+  supersedeReason: string | null;
+  createdAt: string;
+  createdBy: string;
+}
+
+export interface Baseline extends BaselineSummary {
+  /** The engine's fit document, non-finite numbers as null. */
+  fit: FitDocument;
+}
+
+// ---------------------------------------------------------------------------
+// Stored JSON. Fits may hold NaN or ±Infinity (a t-statistic of an exact fit,
+// an undefined autocorrelation); plain JSON would turn them into null and a
+// stored model would no longer be the fitted one. They are stored as
+// {"$nonFinite": "NaN"} and restored on reading; keys are sorted so equal
+// content gives equal text.
+
+const NON_FINITE = '$nonFinite';
+
+function tagNonFinite(value: unknown): unknown {
+  if (typeof value === 'number') return Number.isFinite(value) ? value : { [NON_FINITE]: String(value) };
+  if (Array.isArray(value)) return value.map(tagNonFinite);
+  if (value !== null && typeof value === 'object') {
+    const out: Record<string, unknown> = {};
+    for (const [key, entry] of Object.entries(value)) out[key] = tagNonFinite(entry);
+    return out;
+  }
+  return value;
+}
+
+function isNonFiniteTag(value: unknown): value is Record<typeof NON_FINITE, string> {
+  if (value === null || typeof value !== 'object' || Array.isArray(value)) return false;
+  const keys = Object.keys(value);
+  return keys.length === 1 && keys[0] === NON_FINITE && typeof (value as Record<string, unknown>)[NON_FINITE] === 'string';
+}
+
+/** Canonical JSON that keeps NaN and ±Infinity. */
+export function toStoredJson(value: unknown): string {
+  return canonicalJson(tagNonFinite(value));
+}
+
+/** Parse stored JSON back to the exact values, non-finite numbers restored. */
+export function fromStoredJson<T>(text: string): T {
+  return JSON.parse(text, (_key, value: unknown) => (isNonFiniteTag(value) ? Number(value[NON_FINITE]) : value)) as T;
+}
+
+/** Parse stored JSON for an API response: non-finite numbers become null (JSON has no NaN). */
+function forResponse<T>(text: string): T {
+  return JSON.parse(text, (_key, value: unknown) => (isNonFiniteTag(value) ? null : value)) as T;
+}
+
+/** A deep copy with every non-finite number replaced by null, for JSON responses. */
+export function nonFiniteToNull<T>(value: T): T {
+  if (typeof value === 'number') return (Number.isFinite(value) ? value : null) as T;
+  if (Array.isArray(value)) return value.map(nonFiniteToNull) as T;
+  if (value !== null && typeof value === 'object') {
+    const out: Record<string, unknown> = {};
+    for (const [key, entry] of Object.entries(value)) out[key] = nonFiniteToNull(entry);
+    return out as T;
+  }
+  return value;
+}
+
+// ---------------------------------------------------------------------------
+// Content hash: SHA-256 of the canonical JSON of everything the frozen
+// baseline's figures rest on, read back from the stored columns:
+// { meterId, start, end, options, inputs, document, chosen: { model, reason, fit } }.
+
+export function baselineContentHash(row: BaselineRow): string {
+  const fits = JSON.parse(row.fits_json) as Record<string, unknown>;
+  return sha256Hex(
+    canonicalJson({
+      meterId: row.meter_id,
+      start: row.period_start,
+      end: row.period_end,
+      options: JSON.parse(row.options_json),
+      inputs: JSON.parse(row.inputs_json),
+      document: JSON.parse(row.document_json),
+      chosen: { model: row.chosen_model, reason: row.choice_reason, fit: fits[row.chosen_model] ?? null },
+    }),
+  );
+}
+
+/** True when the row has a content hash and its stored content still gives it. */
+export function verifyBaselineContent(row: BaselineRow): boolean {
+  if (row.content_hash === null) return false;
+  try {
+    return baselineContentHash(row) === row.content_hash;
+  } catch {
+    return false; // a column that no longer parses has been tampered with
+  }
+}
+
+// ---------------------------------------------------------------------------
+// Views.
+
+function choiceWarnings(row: BaselineRow, document: FitDocument): string[] {
+  const warnings: string[] = [];
+  if (row.chosen_model !== row.selected_model) {
+    warnings.push(`the chosen shape ${row.chosen_model} is an engineer's choice; the engine selected ${row.selected_model}`);
+  }
+  const chosen = document.candidates.find((c) => c.model === row.chosen_model);
+  if (chosen?.verdict === 'rejected') {
+    warnings.push(`the chosen shape ${row.chosen_model} was rejected by screening: ${chosen.reasons.join('; ')}`);
+  }
+  return warnings;
+}
+
+function summaryOf(row: BaselineRow, document: FitDocument): BaselineSummary {
+  return {
+    id: row.id,
+    meterId: row.meter_id,
+    version: row.version,
+    status: row.status,
+    start: row.period_start,
+    end: row.period_end,
+    options: JSON.parse(row.options_json) as BaselineFitOptions,
+    selected: row.selected_model as ModelName,
+    chosen: row.chosen_model as ModelName,
+    choiceReason: row.choice_reason,
+    warnings: choiceWarnings(row, document),
+    contentHash: row.content_hash,
+    note: row.note,
+    frozenAt: row.frozen_at,
+    frozenBy: row.frozen_by,
+    supersedes: row.supersedes_id,
+    supersedeReason: row.supersede_reason,
+    createdAt: row.created_at,
+    createdBy: row.created_by,
+  };
+}
+
+function viewOf(row: BaselineRow): Baseline {
+  const document = forResponse<FitDocument>(row.document_json);
+  return { ...summaryOf(row, document), fit: document };
+}
+
+export function toBaselineSummary(row: BaselineRow): BaselineSummary {
+  return summaryOf(row, forResponse<FitDocument>(row.document_json));
+}
+
+// ---------------------------------------------------------------------------
+// Reads.
+
+/** The organisation's baseline, or a 404 (another organisation's id included). */
+export async function getBaselineRow(db: Executor, organisationId: string, id: string): Promise<BaselineRow> {
+  const row = await db.selectFrom('baselines').selectAll().where('id', '=', id).where('organisation_id', '=', organisationId).executeTakeFirst();
+  if (!row) throw notFound('baseline', id);
+  return row;
+}
+
+export async function getBaseline(db: Executor, organisationId: string, id: string): Promise<Baseline & { verified: boolean }> {
+  const row = await getBaselineRow(db, organisationId, id);
+  return { ...viewOf(row), verified: verifyBaselineContent(row) };
+}
+
+/** Every baseline version of the meter, newest first. */
+export async function listBaselines(db: Executor, organisationId: string, meterId: string): Promise<BaselineSummary[]> {
+  const meter = await getMeterRow(db, organisationId, meterId);
+  const rows = await db.selectFrom('baselines').selectAll().where('meter_id', '=', meter.id).orderBy('version', 'desc').execute();
+  return rows.map(toBaselineSummary);
+}
+
+// ---------------------------------------------------------------------------
+// Writes.
+
+function describeReading(reading: { start: string; end: string }): string {
+  return `reading ${reading.start}..${reading.end}`;
+}
+
+/** Run the engine on the window, or say plainly why it cannot be fitted (422). */
+function analyseWindow(
+  meterId: string,
+  window: { start: string; end: string },
+  readings: readonly Reading[],
+  weather: readonly DailyTemperature[],
+  options: BaselineFitOptions,
+): BaselineAnalysis {
+  const span = `${window.start}..${window.end} (end exclusive)`;
+  if (readings.length === 0) {
+    throw new Problem('unprocessable', `start: no reading of meter ${meterId} lies fully inside ${span}; post the baseline readings first`, [
+      { field: 'start', message: `no readings inside ${span}` },
+    ]);
+  }
+  const problems = checkReadings(readings);
+  if (problems.length > 0) {
+    const errors = problems.map((p) => ({ field: describeReading(readings[p.index]!), message: `${p.field}: ${p.message}` }));
+    throw new Problem('unprocessable', `${errors[0]!.field}: ${errors[0]!.message}; the stored readings in ${span} must be fixed before a fit`, errors);
+  }
+  try {
+    return analyseBaseline(readings, weather, options);
+  } catch (error) {
+    if (!(error instanceof RangeError)) throw error;
+    const { excluded } = alignPeriods(readings, weather, options);
+    const left = excluded.length > 0 ? `; ${excluded.length} of ${readings.length} readings in ${span} were left out: ${excluded.map((p) => `${describeReading(p)}: ${p.reason}`).join('; ')}` : '';
+    throw new Problem(
+      'unprocessable',
+      `${error.message}${left}`,
+      excluded.map((p) => ({ field: describeReading(p), message: p.reason })),
+    );
+  }
+}
+
+/** Fit the meter's readings inside [start, end) against its station's weather and keep the result as a draft. */
+export async function createBaseline(
+  ctx: ServiceContext,
+  meterId: string,
+  input: { start: string; end: string; options?: BaselineFitOptions },
+): Promise<Baseline> {
+  const organisationId = ctx.principal.organisationId;
+  const db = ctx.store.db;
+  if (!(input.end > input.start)) {
+    throw new Problem('validation', 'end: must be after start', [{ field: 'end', message: 'must be after start' }]);
+  }
+  const meter = await getMeterRow(db, organisationId, meterId);
+  const options = input.options ?? {};
+  const temperatureUnit = await stationUnit(db, organisationId, meter.weather_station_id);
+  const readings = await loadReadings(db, meter.id, { startOnOrAfter: input.start, endOnOrBefore: input.end });
+  const weather = await loadDailyWeather(db, meter.weather_station_id, input.start, input.end);
+  const analysis = analyseWindow(meterId, input, readings, weather, options);
+
+  const fits: Partial<Record<ModelName, ShapeFit>> = {};
+  for (const candidate of analysis.choice.candidates) if (candidate.fit) fits[candidate.model] = candidate.fit;
+  const inputs: BaselineInputs = { readings, weather, temperatureUnit };
+
+  return inTransaction(ctx, async (trx) => {
+    const last = await trx
+      .selectFrom('baselines')
+      .select((eb) => eb.fn.max<number>('version').as('version'))
+      .where('meter_id', '=', meter.id)
+      .executeTakeFirst();
+    const row: BaselineRow = {
+      id: newId('bsl'),
+      organisation_id: organisationId,
+      meter_id: meter.id,
+      version: (last?.version ?? 0) + 1,
+      period_start: input.start,
+      period_end: input.end,
+      status: 'draft',
+      options_json: toStoredJson(options),
+      document_json: toStoredJson(analysis.document),
+      fits_json: toStoredJson(fits),
+      inputs_json: toStoredJson(inputs),
+      selected_model: analysis.choice.selected,
+      chosen_model: analysis.choice.selected,
+      choice_reason: null,
+      content_hash: null,
+      note: null,
+      frozen_at: null,
+      frozen_by: null,
+      supersedes_id: null,
+      supersede_reason: null,
+      created_at: ctx.now,
+      created_by: ctx.principal.keyId,
+    };
+    await trx.insertInto('baselines').values(row).execute();
+    const baseline = viewOf(row);
+    const { fit: _fit, ...summary } = baseline;
+    await audit(trx, ctx, { action: 'create', entityType: 'baseline', entityId: row.id, after: summary });
+    return baseline;
+  });
+}
+
+function assertDraft(row: BaselineRow): void {
+  if (row.status === 'draft') return;
+  throw new Problem(
+    'frozen',
+    `baseline ${row.id} is ${row.status} (content hash ${row.content_hash}); it cannot be changed: fit a new baseline version and freeze it with a supersedeReason`,
+    undefined,
+    { baselineId: row.id, baselineStatus: row.status },
+  );
+}
+
+/** The engineer's choice of shape on a draft: any fitted shape, its verdict recorded beside it. */
+export async function chooseModel(ctx: ServiceContext, baselineId: string, input: { model: ModelName; reason: string }): Promise<Baseline> {
+  return inTransaction(ctx, async (trx) => {
+    const row = await getBaselineRow(trx, ctx.principal.organisationId, baselineId);
+    assertDraft(row);
+    const document = fromStoredJson<FitDocument>(row.document_json);
+    const candidate = document.candidates.find((c) => c.model === input.model);
+    const fits = fromStoredJson<Partial<Record<ModelName, ShapeFit>>>(row.fits_json);
+    if (!candidate || candidate.verdict === 'not-fitted' || !fits[input.model]) {
+      const fitted = document.candidates.filter((c) => c.verdict !== 'not-fitted').map((c) => c.model);
+      const why = candidate ? ` (${candidate.reasons.join('; ')})` : '';
+      throw new Problem('unprocessable', `model: the ${input.model} shape was not fitted to baseline ${row.id}${why}; fitted shapes: ${fitted.join(', ')}`, [
+        { field: 'model', message: `${input.model} was not fitted` },
+      ]);
+    }
+    const updated: BaselineRow = { ...row, chosen_model: input.model, choice_reason: input.reason };
+    await trx.updateTable('baselines').set({ chosen_model: updated.chosen_model, choice_reason: updated.choice_reason }).where('id', '=', row.id).where('status', '=', 'draft').execute();
+    await audit(trx, ctx, { action: 'choose', entityType: 'baseline', entityId: row.id, before: toBaselineSummary(row), after: toBaselineSummary(updated) });
+    return viewOf(updated);
+  });
+}
+
+/**
+ * Freeze a draft. When the meter already has a frozen baseline, a reason is
+ * required and that baseline becomes superseded in the same transaction; its
+ * content and hash are kept as they were.
+ */
+export async function freezeBaseline(ctx: ServiceContext, baselineId: string, input: { note: string; supersedeReason?: string }): Promise<Baseline> {
+  return inTransaction(ctx, async (trx) => {
+    const row = await getBaselineRow(trx, ctx.principal.organisationId, baselineId);
+    assertDraft(row);
+    const current = await trx.selectFrom('baselines').selectAll().where('meter_id', '=', row.meter_id).where('status', '=', 'frozen').executeTakeFirst();
+    if (current && input.supersedeReason === undefined) {
+      throw new Problem(
+        'conflict',
+        `supersedeReason: meter ${row.meter_id} already has frozen baseline ${current.id} (version ${current.version}, frozen ${current.frozen_at}); send supersedeReason to supersede it`,
+        [{ field: 'supersedeReason', message: `required to supersede baseline ${current.id}` }],
+        { currentBaselineId: current.id },
+      );
+    }
+    if (!current && input.supersedeReason !== undefined) {
+      throw new Problem('validation', `supersedeReason: meter ${row.meter_id} has no frozen baseline to supersede; leave it out`, [
+        { field: 'supersedeReason', message: 'nothing to supersede' },
+      ]);
+    }
+    const frozen: BaselineRow = {
+      ...row,
+      status: 'frozen',
+      note: input.note,
+      frozen_at: ctx.now,
+      frozen_by: ctx.principal.keyId,
+      supersedes_id: current?.id ?? null,
+      supersede_reason: input.supersedeReason ?? null,
+    };
+    frozen.content_hash = baselineContentHash(frozen);
+
+    if (current) {
+      const superseded: BaselineRow = { ...current, status: 'superseded' };
+      await trx.updateTable('baselines').set({ status: 'superseded' }).where('id', '=', current.id).where('status', '=', 'frozen').execute();
+      await audit(trx, ctx, {
+        action: 'supersede',
+        entityType: 'baseline',
+        entityId: current.id,
+        before: toBaselineSummary(current),
+        after: { ...toBaselineSummary(superseded), supersededBy: frozen.id, supersedeReason: input.supersedeReason },
+      });
+    }
+    await trx
+      .updateTable('baselines')
+      .set({
+        status: frozen.status,
+        note: frozen.note,
+        frozen_at: frozen.frozen_at,
+        frozen_by: frozen.frozen_by,
+        supersedes_id: frozen.supersedes_id,
+        supersede_reason: frozen.supersede_reason,
+        content_hash: frozen.content_hash,
+      })
+      .where('id', '=', row.id)
+      .where('status', '=', 'draft')
+      .execute();
+    await audit(trx, ctx, { action: 'freeze', entityType: 'baseline', entityId: row.id, before: toBaselineSummary(row), after: toBaselineSummary(frozen) });
+    return viewOf(frozen);
+  });
+}
+
+// ---------------------------------------------------------------------------
+// The energy-signature chart.
+
+function chartPoint(period: Period, unit: TemperatureUnit, useUnit: string): SignaturePoint {
+  const degree = unit === 'F' ? '°F' : '°C';
+  return {
+    temp: period.meanTemp,
+    usePerDay: period.usePerDay,
+    label: `${period.start} to ${period.end}: ${period.meanTemp.toFixed(1)} ${degree}, ${period.usePerDay.toPrecision(4)} ${useUnit}/day`,
+  };
+}
+
+/** The model's vertices over the baseline's temperature range: its ends and any changepoint between them. */
+function fittedVertices(fit: ShapeFit): SignaturePoint[] {
+  const { min, max } = fit.temperatureRange;
+  const inside = [fit.changepoints.heating, fit.changepoints.cooling].filter((c): c is number => c !== null && c > min && c < max);
+  const temps = [...new Set([min, ...inside, max])].sort((a, b) => a - b);
+  return temps.map((temp) => ({ temp, usePerDay: predictPerDay(fit.model, fit.changepoints, fit.rawCoefficients, temp) }));
+}
+
+/** The baseline's energy signature as SVG; reporting periods are added once it has been frozen. */
+export async function baselineSignatureSvg(db: Executor, organisationId: string, baselineId: string): Promise<string> {
+  const row = await getBaselineRow(db, organisationId, baselineId);
+  const meter = await getMeterRow(db, organisationId, row.meter_id);
+  const inputs = fromStoredJson<BaselineInputs>(row.inputs_json);
+  const options = fromStoredJson<BaselineFitOptions>(row.options_json);
+  const fit = fromStoredJson<Partial<Record<ModelName, ShapeFit>>>(row.fits_json)[row.chosen_model as ModelName];
+  if (!fit) throw new Problem('unprocessable', `baseline ${row.id} holds no fit of its chosen shape ${row.chosen_model}`);
+  const alignment = { minCoverage: options.minCoverage };
+  const baseline = alignPeriods(inputs.readings, inputs.weather, alignment).periods;
+
+  let reporting: Period[] = [];
+  if (row.status !== 'draft') {
+    const readings = await loadReadings(db, meter.id, { startOnOrAfter: row.period_end });
+    const weather = await loadWeatherFor(db, meter.weather_station_id, readings);
+    reporting = alignPeriods(readings, weather, alignment).periods;
+  }
+  const unit = inputs.temperatureUnit;
+  return renderSignatureSvg({
+    meterName: meter.name,
+    model: row.chosen_model,
+    version: row.version,
+    status: row.status,
+    baselineStart: row.period_start,
+    baselineEnd: row.period_end,
+    temperatureUnit: unit,
+    useUnit: meter.unit,
+    baseline: baseline.map((p) => chartPoint(p, unit, meter.unit)),
+    fittedLine: fittedVertices(fit),
+    reporting: reporting.map((p) => chartPoint(p, unit, meter.unit)),
+  });
+}

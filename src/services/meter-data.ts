@@ -1,0 +1,62 @@
+/**
+ * A meter's readings and its station's daily weather, loaded as the engine
+ * takes them (Reading[], DailyTemperature[]). Queries read only the window
+ * asked for, so a savings request touches the reporting period and nothing
+ * else.
+ */
+import type { DailyTemperature, Reading, TemperatureUnit } from '../engine/index.js';
+import { notFound } from '../http/problem.js';
+import type { Executor } from './context.js';
+
+export interface ReadingWindow {
+  /** Only readings with start ≥ this date. */
+  startOnOrAfter?: string;
+  /** Only readings with end ≤ this date (end is exclusive, so a reading ending here lies inside). */
+  endOnOrBefore?: string;
+}
+
+/** The meter's readings in the window, in start order. */
+export async function loadReadings(db: Executor, meterId: string, window: ReadingWindow = {}): Promise<Reading[]> {
+  let query = db.selectFrom('readings').select(['period_start', 'period_end', 'quantity', 'estimated']).where('meter_id', '=', meterId);
+  if (window.startOnOrAfter !== undefined) query = query.where('period_start', '>=', window.startOnOrAfter);
+  if (window.endOnOrBefore !== undefined) query = query.where('period_end', '<=', window.endOnOrBefore);
+  const rows = await query.orderBy('period_start').orderBy('period_end').execute();
+  return rows.map((row) => ({ start: row.period_start, end: row.period_end, quantity: row.quantity, estimated: row.estimated === 1 }));
+}
+
+/** Daily mean temperatures of the station on [from, to), in date order. */
+export async function loadDailyWeather(db: Executor, stationId: string, from: string, to: string): Promise<DailyTemperature[]> {
+  const rows = await db
+    .selectFrom('weather_observations')
+    .select(['date', 'temp'])
+    .where('station_id', '=', stationId)
+    .where('date', '>=', from)
+    .where('date', '<', to)
+    .orderBy('date')
+    .execute();
+  return rows.map((row) => ({ date: row.date, temp: row.temp }));
+}
+
+/** The daily weather covering every day of `readings` (empty when there are none). */
+export async function loadWeatherFor(db: Executor, stationId: string, readings: readonly Reading[]): Promise<DailyTemperature[]> {
+  if (readings.length === 0) return [];
+  let from = readings[0]!.start;
+  let to = readings[0]!.end;
+  for (const reading of readings) {
+    if (reading.start < from) from = reading.start;
+    if (reading.end > to) to = reading.end;
+  }
+  return loadDailyWeather(db, stationId, from, to);
+}
+
+/** The temperature unit of a station of the organisation. */
+export async function stationUnit(db: Executor, organisationId: string, stationId: string): Promise<TemperatureUnit> {
+  const row = await db
+    .selectFrom('weather_stations')
+    .select('temperature_unit')
+    .where('id', '=', stationId)
+    .where('organisation_id', '=', organisationId)
+    .executeTakeFirst();
+  if (!row) throw notFound('weather station', stationId);
+  return row.temperature_unit;
+}

@@ -1,0 +1,214 @@
+/**
+ * Daily weather observations of a station: a batch is checked whole in the
+ * station's unit, upserted by date in one transaction or not at all, and may
+ * not touch a day inside the window of a frozen baseline of any meter read
+ * against the station.
+ */
+import { addDays, checkWeather, type TemperatureUnit } from '../engine/index.js';
+import type { Insertable } from 'kysely';
+import type { WeatherObservationsTable } from '../store/schema.js';
+import { Problem, type FieldError } from '../http/problem.js';
+import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
+import { getStationRow } from './weather-stations.js';
+import { assertOutsideFrozenWindows, frozenWindowsForStation } from './frozen-windows.js';
+import { checkDateRange, jsonLocator, type DateRange, type RecordLocator } from './readings.js';
+
+/** Largest batch one request may carry (more than a century of days). */
+export const MAX_OBSERVATIONS_PER_BATCH = 50_000;
+/** Rows per upsert statement: 6 columns × 1000 stays far below SQLite's 32,766 parameters. */
+const UPSERT_CHUNK_ROWS = 1000;
+const MAX_LISTED_ERRORS = 100;
+
+/** A day given as its mean, or as its minimum and maximum. */
+export interface ObservationInput {
+  date: string;
+  temp?: number;
+  tmin?: number;
+  tmax?: number;
+}
+
+export interface Observation {
+  date: string;
+  /** Daily mean: as given, or (tmin + tmax)/2. */
+  temp: number;
+  tmin: number | null;
+  tmax: number | null;
+}
+
+export interface PutObservationsResult {
+  stationId: string;
+  received: number;
+  created: number;
+  updated: number;
+  unchanged: number;
+}
+
+type ObservationRow = Insertable<WeatherObservationsTable>;
+type AuditedValues = { temp: number; tmin?: number | null; tmax?: number | null };
+
+export async function putObservations(
+  ctx: ServiceContext,
+  stationId: string,
+  input: { observations: readonly ObservationInput[] },
+  locate: RecordLocator = jsonLocator('observations'),
+): Promise<PutObservationsResult> {
+  return inTransaction(ctx, async (trx) => {
+    const station = await getStationRow(trx, ctx.principal.organisationId, stationId);
+    const days = checkObservations(input.observations, station.temperature_unit, locate);
+
+    const stored = await storedBetween(trx, stationId, days);
+    const writes: { index: number; observation: Observation }[] = [];
+    const before: Record<string, AuditedValues> = {};
+    let created = 0;
+    let unchanged = 0;
+    days.forEach((observation, index) => {
+      const old = stored.get(observation.date);
+      if (old && sameObservation(old, observation)) {
+        unchanged++;
+        return;
+      }
+      if (old) before[old.date] = compact(old);
+      else created++;
+      writes.push({ index, observation });
+    });
+
+    assertOutsideFrozenWindows(
+      await frozenWindowsForStation(trx, stationId),
+      writes.map(({ index, observation }) => ({ index, start: observation.date, end: addDays(observation.date, 1) })),
+      (write) => locate(write.index),
+      'these observations',
+    );
+
+    await upsertChunked(
+      trx,
+      writes.map(({ observation }) => ({ station_id: stationId, ...observation, updated_at: ctx.now })),
+    );
+    const result: PutObservationsResult = { stationId, received: days.length, created, updated: writes.length - created, unchanged };
+    // Nothing changed, nothing written: no audit row.
+    if (writes.length > 0) {
+      const after: Record<string, AuditedValues> = {};
+      for (const { observation } of writes) after[observation.date] = compact(observation);
+      await audit(trx, ctx, { action: 'upsert-observations', entityType: 'weather-station', entityId: stationId, before, after });
+    }
+    return result;
+  });
+}
+
+/**
+ * Every record checked in the station's unit: one form of temperature,
+ * tmin ≤ tmax, plausible values, real and unrepeated dates. Returns the days
+ * with their means.
+ */
+function checkObservations(records: readonly ObservationInput[], unit: TemperatureUnit, locate: RecordLocator): Observation[] {
+  if (records.length === 0) {
+    throw new Problem('validation', 'observations: at least one observation is needed', [{ field: 'observations', message: 'empty' }]);
+  }
+  if (records.length > MAX_OBSERVATIONS_PER_BATCH) {
+    throw new Problem('validation', `observations: at most ${MAX_OBSERVATIONS_PER_BATCH} per request (got ${records.length}); send smaller batches`, [
+      { field: 'observations', message: 'too many' },
+    ]);
+  }
+  const errors: { index: number; error: FieldError }[] = [];
+  const problem = (index: number, field: string, message: string) => errors.push({ index, error: { field: locate(index, field), message } });
+  const days: Observation[] = [];
+  /** Records whose mean the engine judges: the ones given as temp. */
+  const givenAsMean = new Set<number>();
+  /** Each given minimum and maximum, judged by the engine as a temperature of its own. */
+  const extremes: { date: string; temp: number }[] = [];
+  const extremeOwners: { index: number; field: 'tmin' | 'tmax' }[] = [];
+  records.forEach((record, index) => {
+    const { date, temp, tmin, tmax } = record;
+    if (temp !== undefined) {
+      if (tmin !== undefined || tmax !== undefined) problem(index, 'temp', 'give either temp or tmin and tmax, not both');
+      givenAsMean.add(index);
+      days.push({ date, temp, tmin: null, tmax: null });
+      return;
+    }
+    if (tmin === undefined && tmax === undefined) problem(index, 'temp', 'a temperature is needed: temp, or tmin and tmax');
+    else if (tmin === undefined) problem(index, 'tmin', 'tmin is needed with tmax');
+    else if (tmax === undefined) problem(index, 'tmax', 'tmax is needed with tmin');
+    else {
+      extremes.push({ date, temp: tmin }, { date, temp: tmax });
+      extremeOwners.push({ index, field: 'tmin' }, { index, field: 'tmax' });
+      if (tmin > tmax) problem(index, 'tmin', `tmin ${tmin} is above tmax ${tmax}`);
+    }
+    // The mean of the day's minimum and maximum: common practice for daily means.
+    days.push({ date, temp: ((tmin ?? NaN) + (tmax ?? NaN)) / 2, tmin: tmin ?? null, tmax: tmax ?? null });
+  });
+  for (const found of checkWeather(days, unit)) {
+    if (found.field === 'temp' && !givenAsMean.has(found.index)) continue;
+    const related = found.relatedIndex === undefined ? '' : ` (${locate(found.relatedIndex)})`;
+    problem(found.index, found.field, `${found.message}${related}`);
+  }
+  for (const found of checkWeather(extremes, unit)) {
+    if (found.field !== 'temp') continue;
+    const owner = extremeOwners[found.index]!;
+    problem(owner.index, owner.field, found.message);
+  }
+  if (errors.length > 0) {
+    const listed = errors.sort((a, b) => a.index - b.index).map((e) => e.error);
+    const more = listed.length > 1 ? ` (and ${listed.length - 1} more)` : '';
+    throw new Problem('validation', `${listed[0]!.field}: ${listed[0]!.message}${more}`, listed.slice(0, MAX_LISTED_ERRORS));
+  }
+  return days;
+}
+
+async function storedBetween(trx: Tx, stationId: string, days: readonly Observation[]): Promise<Map<string, Observation>> {
+  let first = days[0]!.date;
+  let last = first;
+  for (const day of days) {
+    if (day.date < first) first = day.date;
+    if (day.date > last) last = day.date;
+  }
+  const rows = await trx
+    .selectFrom('weather_observations')
+    .select(['date', 'temp', 'tmin', 'tmax'])
+    .where('station_id', '=', stationId)
+    .where('date', '>=', first)
+    .where('date', '<=', last)
+    .execute();
+  return new Map(rows.map((row) => [row.date, row]));
+}
+
+function sameObservation(a: Observation, b: Observation): boolean {
+  return a.temp === b.temp && a.tmin === b.tmin && a.tmax === b.tmax;
+}
+
+/** The audit keeps tmin and tmax only where they were given. */
+function compact(observation: Observation): AuditedValues {
+  const { temp, tmin, tmax } = observation;
+  return tmin === null && tmax === null ? { temp } : { temp, tmin, tmax };
+}
+
+async function upsertChunked(trx: Tx, rows: readonly ObservationRow[]): Promise<void> {
+  for (let i = 0; i < rows.length; i += UPSERT_CHUNK_ROWS) {
+    await trx
+      .insertInto('weather_observations')
+      .values(rows.slice(i, i + UPSERT_CHUNK_ROWS))
+      .onConflict((oc) =>
+        oc.columns(['station_id', 'date']).doUpdateSet((eb) => ({
+          temp: eb.ref('excluded.temp'),
+          tmin: eb.ref('excluded.tmin'),
+          tmax: eb.ref('excluded.tmax'),
+          updated_at: eb.ref('excluded.updated_at'),
+        })),
+      )
+      .execute();
+  }
+}
+
+/** Observations on dates in [from, to), by date. */
+export async function listObservations(
+  db: Executor,
+  organisationId: string,
+  stationId: string,
+  query: DateRange = {},
+): Promise<{ stationId: string; temperatureUnit: TemperatureUnit; observations: Observation[] }> {
+  checkDateRange(query);
+  const station = await getStationRow(db, organisationId, stationId);
+  let q = db.selectFrom('weather_observations').select(['date', 'temp', 'tmin', 'tmax']).where('station_id', '=', stationId);
+  if (query.from !== undefined) q = q.where('date', '>=', query.from);
+  if (query.to !== undefined) q = q.where('date', '<', query.to);
+  const observations = await q.orderBy('date').execute();
+  return { stationId, temperatureUnit: station.temperature_unit, observations };
+}

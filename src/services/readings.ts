@@ -1,0 +1,332 @@
+/**
+ * Meter readings: a batch is checked whole, compared with what is stored
+ * under the natural key (meter, start, end), and written in one transaction
+ * or not at all. Re-posting the same reading is harmless; changing a stored
+ * one needs a stated reason; no period may overlap another; nothing inside a
+ * frozen baseline's window may change.
+ */
+import { checkReadings, daysBetween, parseIsoDate } from '../engine/index.js';
+import type { NewReadingRow, ReadingRow } from '../store/schema.js';
+import { Problem, type FieldError } from '../http/problem.js';
+import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
+import { getMeterRow } from './meters.js';
+import { assertOutsideFrozenWindows, frozenWindowsForMeter } from './frozen-windows.js';
+
+/** Largest batch one request may carry. */
+export const MAX_READINGS_PER_BATCH = 50_000;
+/**
+ * Rows per insert statement (8 parameters each, far below SQLite's 32,766):
+ * a few hundred measured fastest, as preparing very long statements costs more.
+ */
+export const INSERT_CHUNK_ROWS = 400;
+/** Problems listed in one error response; the detail says how many there were. */
+const MAX_LISTED_ERRORS = 100;
+
+export interface ReadingInput {
+  start: string;
+  end: string;
+  quantity: number;
+  estimated?: boolean;
+  cost?: number | null;
+}
+
+export interface PostReadingsInput {
+  readings: readonly ReadingInput[];
+  /** Required when the batch changes a stored reading. */
+  correctionReason?: string;
+}
+
+export interface PostReadingsResult {
+  meterId: string;
+  received: number;
+  created: number;
+  corrected: number;
+  unchanged: number;
+}
+
+export interface StoredReading {
+  start: string;
+  end: string;
+  days: number;
+  quantity: number;
+  estimated: boolean;
+  cost: number | null;
+}
+
+/**
+ * Names record `index` (and optionally one of its fields) for messages. The
+ * HTTP layer passes one that says "row 5, field end" for CSV bodies.
+ */
+export type RecordLocator = (index: number, field?: string) => string;
+
+export const jsonLocator =
+  (collection: string): RecordLocator =>
+  (index, field) =>
+    field ? `${collection}[${index}].${field}` : `${collection}[${index}]`;
+
+/** The values a reading carries besides its key, as stored. */
+interface ReadingValues {
+  quantity: number;
+  estimated: number;
+  cost: number | null;
+}
+
+interface Classified {
+  created: { index: number; row: NewReadingRow }[];
+  corrected: { index: number; before: ReadingRow; after: ReadingValues }[];
+  unchanged: number;
+}
+
+export async function postReadings(
+  ctx: ServiceContext,
+  meterId: string,
+  input: PostReadingsInput,
+  locate: RecordLocator = jsonLocator('readings'),
+): Promise<PostReadingsResult> {
+  const readings = input.readings;
+  checkBatch(readings, locate);
+  const reason = input.correctionReason?.trim() || undefined;
+
+  return inTransaction(ctx, async (trx) => {
+    await getMeterRow(trx, ctx.principal.organisationId, meterId);
+    const stored = await storedAround(trx, meterId, readings);
+    const classified = classify(readings, stored, ctx.now, meterId, locate);
+
+    const writes = [
+      ...classified.created.map(({ index, row }) => ({ index, start: row.period_start, end: row.period_end })),
+      ...classified.corrected.map(({ index, before }) => ({ index, start: before.period_start, end: before.period_end })),
+    ];
+    assertOutsideFrozenWindows(await frozenWindowsForMeter(trx, meterId), writes, (write) => locate(write.index), 'this batch');
+    if (classified.corrected.length > 0 && !reason) {
+      const errors = classified.corrected.slice(0, MAX_LISTED_ERRORS).map(({ index, before, after }) => ({
+        field: locate(index, 'quantity'),
+        message: `differs from the stored reading ${before.period_start}..${before.period_end} (${describeValues(before)} stored, ${describeValues(after)} sent)`,
+      }));
+      throw new Problem(
+        'conflict',
+        `${errors[0]!.field}: ${errors[0]!.message}${andMore(classified.corrected.length)}; to correct stored readings, give a correctionReason`,
+        errors,
+      );
+    }
+
+    await insertChunked(trx, classified.created.map((c) => c.row));
+    for (const { before, after } of classified.corrected) {
+      await trx
+        .updateTable('readings')
+        .set({ ...after, updated_at: ctx.now })
+        .where('meter_id', '=', meterId)
+        .where('period_start', '=', before.period_start)
+        .where('period_end', '=', before.period_end)
+        .execute();
+    }
+
+    const result: PostReadingsResult = {
+      meterId,
+      received: readings.length,
+      created: classified.created.length,
+      corrected: classified.corrected.length,
+      unchanged: classified.unchanged,
+    };
+    // A batch that changed nothing wrote nothing, so it has nothing to audit.
+    if (result.created + result.corrected > 0) {
+      await audit(trx, ctx, {
+        action: 'post-readings',
+        entityType: 'meter',
+        entityId: meterId,
+        after: {
+          received: result.received,
+          unchanged: result.unchanged,
+          // [start, end, quantity, estimated 0/1, cost]: compact, since a batch may hold 50,000.
+          created: classified.created.map(({ row }) => [row.period_start, row.period_end, row.quantity, row.estimated, row.cost]),
+          corrected: classified.corrected.map(({ before, after }) => ({
+            start: before.period_start,
+            end: before.period_end,
+            before: { quantity: before.quantity, estimated: before.estimated, cost: before.cost },
+            after,
+          })),
+          ...(classified.corrected.length > 0 ? { correctionReason: reason } : {}),
+        },
+      });
+    }
+    return result;
+  });
+}
+
+/** Field checks and in-batch duplicates and overlaps, by the engine's rules, plus cost. */
+function checkBatch(readings: readonly ReadingInput[], locate: RecordLocator): void {
+  if (readings.length === 0) {
+    throw new Problem('validation', 'readings: at least one reading is needed', [{ field: 'readings', message: 'empty' }]);
+  }
+  if (readings.length > MAX_READINGS_PER_BATCH) {
+    throw new Problem('validation', `readings: at most ${MAX_READINGS_PER_BATCH} per request (got ${readings.length}); send smaller batches`, [
+      { field: 'readings', message: 'too many' },
+    ]);
+  }
+  const errors: FieldError[] = [];
+  for (const problem of checkReadings(readings)) {
+    const related = problem.relatedIndex === undefined ? '' : ` (${locate(problem.relatedIndex)})`;
+    errors.push({ field: locate(problem.index, problem.field), message: `${problem.message}${related}` });
+  }
+  for (let i = 0; i < readings.length; i++) {
+    const cost = readings[i]!.cost;
+    if (cost === undefined || cost === null) continue;
+    if (!Number.isFinite(cost)) errors.push({ field: locate(i, 'cost'), message: 'not a finite number' });
+    else if (cost < 0) errors.push({ field: locate(i, 'cost'), message: `negative (${cost})` });
+  }
+  if (errors.length > 0) {
+    throw new Problem('validation', `${errors[0]!.field}: ${errors[0]!.message}${andMore(errors.length)}`, errors.slice(0, MAX_LISTED_ERRORS));
+  }
+}
+
+/**
+ * Stored readings that could share a key with, or overlap, a reading of the
+ * batch. Stored periods never overlap one another, so ordered by start they
+ * are ordered by end too: only those starting inside the batch's span can
+ * meet it, plus the last one starting before it (which may reach into it).
+ * Both lookups run on the primary key.
+ */
+async function storedAround(trx: Tx, meterId: string, readings: readonly ReadingInput[]): Promise<ReadingRow[]> {
+  let first = readings[0]!.start;
+  let last = readings[0]!.end;
+  for (const reading of readings) {
+    if (reading.start < first) first = reading.start;
+    if (reading.end > last) last = reading.end;
+  }
+  const before = await trx
+    .selectFrom('readings')
+    .selectAll()
+    .where('meter_id', '=', meterId)
+    .where('period_start', '<', first)
+    .orderBy('period_start', 'desc')
+    .limit(1)
+    .executeTakeFirst();
+  const inside = await trx
+    .selectFrom('readings')
+    .selectAll()
+    .where('meter_id', '=', meterId)
+    .where('period_start', '>=', first)
+    .where('period_start', '<', last)
+    .orderBy('period_start')
+    .orderBy('period_end')
+    .execute();
+  return before ? [before, ...inside] : inside;
+}
+
+function valuesOf(reading: ReadingInput): ReadingValues {
+  return { quantity: reading.quantity, estimated: reading.estimated ? 1 : 0, cost: reading.cost ?? null };
+}
+
+function sameValues(stored: ReadingRow, sent: ReadingValues): boolean {
+  return stored.quantity === sent.quantity && stored.estimated === sent.estimated && stored.cost === sent.cost;
+}
+
+/**
+ * Sort each reading into created, corrected or unchanged; a new period that
+ * overlaps a stored one is a conflict naming the stored periods.
+ */
+function classify(readings: readonly ReadingInput[], stored: readonly ReadingRow[], now: string, meterId: string, locate: RecordLocator): Classified {
+  const byKey = new Map<string, ReadingRow>();
+  for (const row of stored) byKey.set(`${row.period_start}/${row.period_end}`, row);
+  const out: Classified = { created: [], corrected: [], unchanged: 0 };
+  const overlaps: FieldError[] = [];
+  let overlapCount = 0;
+  for (let index = 0; index < readings.length; index++) {
+    const reading = readings[index]!;
+    const values = valuesOf(reading);
+    const existing = byKey.get(`${reading.start}/${reading.end}`);
+    if (existing) {
+      if (sameValues(existing, values)) out.unchanged++;
+      else out.corrected.push({ index, before: existing, after: values });
+      continue;
+    }
+    const clashes = overlapping(stored, reading.start, reading.end);
+    if (clashes.length > 0) {
+      overlapCount++;
+      if (overlaps.length < MAX_LISTED_ERRORS) {
+        overlaps.push({
+          field: locate(index, 'start'),
+          message: `${reading.start}..${reading.end} overlaps the stored period${clashes.length > 1 ? 's' : ''} ${clashes.map((r) => `${r.period_start}..${r.period_end}`).join(', ')}`,
+        });
+      }
+      continue;
+    }
+    out.created.push({
+      index,
+      row: { meter_id: meterId, period_start: reading.start, period_end: reading.end, ...values, created_at: now, updated_at: now },
+    });
+  }
+  if (overlaps.length > 0) {
+    throw new Problem('conflict', `${overlaps[0]!.field}: ${overlaps[0]!.message}${andMore(overlapCount)}`, overlaps);
+  }
+  return out;
+}
+
+/** Stored periods meeting [start, end): a binary search for the first that ends after start, then a short walk. */
+function overlapping(stored: readonly ReadingRow[], start: string, end: string): ReadingRow[] {
+  let low = 0;
+  let high = stored.length;
+  while (low < high) {
+    const mid = (low + high) >>> 1;
+    if (stored[mid]!.period_end <= start) low = mid + 1;
+    else high = mid;
+  }
+  const found: ReadingRow[] = [];
+  for (let i = low; i < stored.length && stored[i]!.period_start < end; i++) found.push(stored[i]!);
+  return found;
+}
+
+async function insertChunked(trx: Tx, rows: readonly NewReadingRow[]): Promise<void> {
+  for (let i = 0; i < rows.length; i += INSERT_CHUNK_ROWS) {
+    await trx.insertInto('readings').values(rows.slice(i, i + INSERT_CHUNK_ROWS)).execute();
+  }
+}
+
+function describeValues(values: ReadingValues): string {
+  const cost = values.cost === null ? '' : `, cost ${values.cost}`;
+  return `quantity ${values.quantity}${values.estimated ? ' (estimated)' : ''}${cost}`;
+}
+
+function andMore(count: number): string {
+  return count > 1 ? ` (and ${count - 1} more)` : '';
+}
+
+/** A date range [from, to); either end may be open. */
+export interface DateRange {
+  from?: string;
+  to?: string;
+}
+
+/** Readings whose period overlaps [from, to), by start. */
+export async function listReadings(db: Executor, organisationId: string, meterId: string, query: DateRange = {}): Promise<{ meterId: string; unit: string; readings: StoredReading[] }> {
+  checkDateRange(query);
+  const meter = await getMeterRow(db, organisationId, meterId);
+  let q = db.selectFrom('readings').select(['period_start', 'period_end', 'quantity', 'estimated', 'cost']).where('meter_id', '=', meterId);
+  if (query.to !== undefined) q = q.where('period_start', '<', query.to);
+  if (query.from !== undefined) q = q.where('period_end', '>', query.from);
+  const rows = await q.orderBy('period_start').orderBy('period_end').execute();
+  return {
+    meterId,
+    unit: meter.unit,
+    readings: rows.map((row) => ({
+      start: row.period_start,
+      end: row.period_end,
+      days: daysBetween(row.period_start, row.period_end),
+      quantity: row.quantity,
+      estimated: row.estimated === 1,
+      cost: row.cost,
+    })),
+  };
+}
+
+/** A from/to pair must be real dates with from before to. */
+export function checkDateRange(query: DateRange): void {
+  if (query.from !== undefined && parseIsoDate(query.from) === null) {
+    throw new Problem('validation', `query.from: not a valid date (YYYY-MM-DD): ${JSON.stringify(query.from)}`, [{ field: 'query.from', message: 'not a date' }]);
+  }
+  if (query.to !== undefined && parseIsoDate(query.to) === null) {
+    throw new Problem('validation', `query.to: not a valid date (YYYY-MM-DD): ${JSON.stringify(query.to)}`, [{ field: 'query.to', message: 'not a date' }]);
+  }
+  if (query.from !== undefined && query.to !== undefined && query.to <= query.from) {
+    throw new Problem('validation', `query.to: ${query.to} is not after from ${query.from}`, [{ field: 'query.to', message: 'not after from' }]);
+  }
+}

@@ -1,0 +1,115 @@
+/**
+ * Avoided energy of a meter against its active frozen baseline. The stored
+ * fit of the chosen shape is projected onto the reporting period's weather
+ * as it was frozen: never refitted. A frozen row never changes, so its
+ * parsed model is kept in memory keyed by baseline id and content hash.
+ */
+import {
+  alignPeriods,
+  savingsFromFit,
+  type ExcludedPeriod,
+  type FitDocument,
+  type Guideline14Limits,
+  type ModelName,
+  type SavingsDocument,
+  type ShapeFit,
+} from '../engine/index.js';
+import { Problem } from '../http/problem.js';
+import type { BaselineRow } from '../store/schema.js';
+import { fromStoredJson, nonFiniteToNull, verifyBaselineContent, type BaselineFitOptions } from './baselines.js';
+import type { Executor } from './context.js';
+import { getMeterRow } from './meters.js';
+import { loadReadings, loadWeatherFor } from './meter-data.js';
+
+export interface SavingsQuery {
+  from?: string;
+  to?: string;
+  confidence?: number;
+}
+
+export interface MeterSavings extends SavingsDocument {
+  meterId: string;
+  baselineId: string;
+  baselineVersion: number;
+  baselineContentHash: string;
+}
+
+interface FrozenModel {
+  fit: ShapeFit;
+  limits: Guideline14Limits;
+  excluded: ExcludedPeriod[];
+  minCoverage: number;
+}
+
+const MODEL_CACHE_SIZE = 512;
+const modelCache = new Map<string, FrozenModel>();
+
+/** Parse (and check against its hash) the frozen baseline's chosen fit, once per baseline. */
+async function frozenModel(db: Executor, baselineId: string, contentHash: string): Promise<FrozenModel> {
+  const key = `${baselineId}:${contentHash}`;
+  const cached = modelCache.get(key);
+  if (cached) return cached;
+  const row = (await db.selectFrom('baselines').selectAll().where('id', '=', baselineId).executeTakeFirstOrThrow()) as BaselineRow;
+  if (!verifyBaselineContent(row)) {
+    throw new Problem(
+      'unprocessable',
+      `baseline ${baselineId}: its stored content no longer matches its content hash ${contentHash}; savings are refused until this is investigated (see the audit trail)`,
+    );
+  }
+  const document = fromStoredJson<FitDocument>(row.document_json);
+  const options = fromStoredJson<BaselineFitOptions>(row.options_json);
+  const fit = fromStoredJson<Partial<Record<ModelName, ShapeFit>>>(row.fits_json)[row.chosen_model as ModelName];
+  if (!fit) throw new Problem('unprocessable', `baseline ${baselineId} holds no fit of its chosen shape ${row.chosen_model}`);
+  const model: FrozenModel = {
+    fit,
+    limits: document.settings.guideline14,
+    excluded: document.periods.excluded,
+    minCoverage: options.minCoverage ?? document.settings.minCoverage,
+  };
+  if (modelCache.size >= MODEL_CACHE_SIZE) modelCache.delete(modelCache.keys().next().value!);
+  modelCache.set(key, model);
+  return model;
+}
+
+function windowText(start: string, to: string | undefined): string {
+  return to === undefined ? `starting on or after ${start}` : `lying in ${start}..${to}`;
+}
+
+export async function meterSavings(db: Executor, organisationId: string, meterId: string, query: SavingsQuery): Promise<MeterSavings> {
+  const meter = await getMeterRow(db, organisationId, meterId);
+  const baseline = await db
+    .selectFrom('baselines')
+    .select(['id', 'version', 'content_hash', 'period_end'])
+    .where('meter_id', '=', meter.id)
+    .where('status', '=', 'frozen')
+    .executeTakeFirst();
+  if (!baseline || baseline.content_hash === null) {
+    throw new Problem('unprocessable', `meter ${meterId} has no frozen baseline: freeze a baseline first (POST /v1/baselines/{id}/freeze)`);
+  }
+  const model = await frozenModel(db, baseline.id, baseline.content_hash);
+
+  const start = query.from !== undefined && query.from > baseline.period_end ? query.from : baseline.period_end;
+  const readings = await loadReadings(db, meter.id, { startOnOrAfter: start, endOnOrBefore: query.to });
+  if (readings.length === 0) {
+    throw new Problem(
+      'unprocessable',
+      `meter ${meterId} has no reporting readings ${windowText(start, query.to)}; reporting readings start on or after the baseline's end ${baseline.period_end}`,
+    );
+  }
+  const weather = await loadWeatherFor(db, meter.weather_station_id, readings);
+  const options = { confidence: query.confidence, minCoverage: model.minCoverage };
+  let document: SavingsDocument;
+  try {
+    document = savingsFromFit(model.fit, { limits: model.limits, excluded: model.excluded }, readings, weather, options);
+  } catch (error) {
+    if (!(error instanceof RangeError)) throw error;
+    const { excluded } = alignPeriods(readings, weather, options);
+    const reasons = excluded.map((p) => `reading ${p.start}..${p.end}: ${p.reason}`).join('; ');
+    throw new Problem(
+      'unprocessable',
+      `${error.message}${reasons ? `: ${reasons}` : ''}`,
+      excluded.map((p) => ({ field: `reading ${p.start}..${p.end}`, message: p.reason })),
+    );
+  }
+  return nonFiniteToNull({ ...document, meterId: meter.id, baselineId: baseline.id, baselineVersion: baseline.version, baselineContentHash: baseline.content_hash });
+}

@@ -1,0 +1,204 @@
+/**
+ * Service benchmark (npm run bench): the HTTP service in its own process on
+ * loopback, on a fresh SQLite file.
+ *
+ * 1. Ingest 100,000 daily readings (10 meters × 10,000 days) in batches
+ *    through POST /v1/meters/{id}/readings; beside it, the plain reference:
+ *    the same rows inserted by one prepared better-sqlite3 statement in one
+ *    transaction (the floor no API can beat).
+ * 2. Serve GET /v1/meters/{id}/savings for a 36-month meter (24 baseline and
+ *    12 reporting bills) under concurrent load with autocannon; beside it, the
+ *    same savings computed in-process by the engine alone.
+ * Invented data only. Prints a table and writes results/service-latest.json.
+ */
+import { spawn, type ChildProcess } from 'node:child_process';
+import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
+import { createServer } from 'node:net';
+import { join } from 'node:path';
+import { performance } from 'node:perf_hooks';
+import autocannon from 'autocannon';
+import SQLite from 'better-sqlite3';
+import { addDays, analyseBaseline, savingsFromFit } from '../../src/engine/index.js';
+import { BASELINE_END, BASELINE_START, DEMO_FACILITIES, REPORTING_END, demoBills, demoWeather } from '../../src/demo/scenario.js';
+import { median, quantile } from './timing.js';
+
+const ROOT = join(import.meta.dirname, '..', '..');
+const WORK = join(ROOT, 'var', 'bench');
+const BOOTSTRAP_KEY = `mvl_benchkey_${'b'.repeat(40)}`;
+const METERS = 10;
+const DAYS_PER_METER = 10_000;
+const BATCH = 2_500;
+const LOAD_SECONDS = 10;
+const CONNECTIONS = 10;
+
+async function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const server = createServer();
+    server.listen(0, '127.0.0.1', () => {
+      const address = server.address();
+      server.close(() => (typeof address === 'object' && address ? resolve(address.port) : reject(new Error('no port'))));
+    });
+  });
+}
+
+async function startServer(databaseFile: string): Promise<{ child: ChildProcess; base: string }> {
+  const port = await freePort();
+  const child = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'src', 'server.ts')], {
+    env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', DATABASE_URL: `sqlite:${databaseFile}`, LOG_LEVEL: 'warn', MVLEDGER_BOOTSTRAP_KEY: BOOTSTRAP_KEY },
+    stdio: ['ignore', 'inherit', 'inherit'],
+  });
+  const base = `http://127.0.0.1:${port}`;
+  for (let attempt = 0; attempt < 200; attempt++) {
+    try {
+      if ((await fetch(`${base}/readyz`)).ok) return { child, base };
+    } catch {
+      // not listening yet
+    }
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  child.kill('SIGKILL');
+  throw new Error('the service did not become ready');
+}
+
+async function api(base: string, method: string, path: string, body?: unknown): Promise<any> {
+  const response = await fetch(`${base}${path}`, {
+    method,
+    headers: { authorization: `Bearer ${BOOTSTRAP_KEY}`, ...(body === undefined ? {} : { 'content-type': 'application/json' }) },
+    ...(body === undefined ? {} : { body: JSON.stringify(body) }),
+  });
+  const text = await response.text();
+  if (!response.ok) throw new Error(`${method} ${path} → ${response.status}: ${text.slice(0, 300)}`);
+  return text ? JSON.parse(text) : undefined;
+}
+
+function dailyReadings(meterIndex: number): { start: string; end: string; quantity: number }[] {
+  const out = [];
+  for (let d = 0; d < DAYS_PER_METER; d++) {
+    const start = addDays('1990-01-01', d);
+    out.push({ start, end: addDays(start, 1), quantity: 1000 + ((d * 37 + meterIndex * 11) % 400) });
+  }
+  return out;
+}
+
+function referenceInsert(file: string): number {
+  const db = new SQLite(file);
+  db.pragma('journal_mode = WAL');
+  db.exec('create table readings (meter_id text, period_start text, period_end text, quantity real, estimated integer, cost real, created_at text, updated_at text, primary key (meter_id, period_start, period_end))');
+  const insert = db.prepare('insert into readings values (?, ?, ?, ?, 0, null, ?, ?)');
+  const started = performance.now();
+  const now = new Date().toISOString();
+  for (let m = 0; m < METERS; m++) {
+    const rows = dailyReadings(m);
+    db.transaction(() => {
+      for (const r of rows) insert.run(`m${m}`, r.start, r.end, r.quantity, now, now);
+    })();
+  }
+  const ms = performance.now() - started;
+  db.close();
+  return ms;
+}
+
+async function main(): Promise<void> {
+  rmSync(WORK, { recursive: true, force: true });
+  mkdirSync(WORK, { recursive: true });
+  const { child, base } = await startServer(join(WORK, 'service.sqlite'));
+  try {
+    const station = await api(base, 'POST', '/v1/weather-stations', { name: 'Bench station (invented)', temperatureUnit: 'F' });
+    const facility = await api(base, 'POST', '/v1/facilities', { name: 'Bench facility (invented)' });
+
+    // 1. Ingestion.
+    const meters: string[] = [];
+    for (let m = 0; m < METERS; m++) {
+      const meter = await api(base, 'POST', `/v1/facilities/${facility.id}/meters`, { name: `Bench meter ${m}`, fuel: 'electricity', unit: 'kWh', weatherStationId: station.id });
+      meters.push(meter.id);
+    }
+    const batchMs: number[] = [];
+    const ingestStart = performance.now();
+    for (let m = 0; m < METERS; m++) {
+      const rows = dailyReadings(m);
+      for (let i = 0; i < rows.length; i += BATCH) {
+        const started = performance.now();
+        await api(base, 'POST', `/v1/meters/${meters[m]}/readings`, { readings: rows.slice(i, i + BATCH) });
+        batchMs.push(performance.now() - started);
+      }
+    }
+    const ingestMs = performance.now() - ingestStart;
+    const total = METERS * DAYS_PER_METER;
+    const referenceMs = referenceInsert(join(WORK, 'reference.sqlite'));
+
+    // 2. Savings under load: one demo meter, 24 baseline + 12 reporting bills.
+    const weather = demoWeather();
+    const weatherByDate = new Map(weather.map((w) => [w.date, w.temp]));
+    await api(base, 'PUT', `/v1/weather-stations/${station.id}/observations`, { observations: weather });
+    const demoMeter = DEMO_FACILITIES[1]!.meters[0]!;
+    const savingsMeter = await api(base, 'POST', `/v1/facilities/${facility.id}/meters`, { name: 'Bench 36-month meter', fuel: 'electricity', unit: 'kWh', weatherStationId: station.id });
+    const baselineBills = demoBills(demoMeter, weatherByDate, BASELINE_START, BASELINE_END, 0, 1);
+    const reportingBills = demoBills(demoMeter, weatherByDate, BASELINE_END, REPORTING_END, demoMeter.reportingSaving, 2);
+    await api(base, 'POST', `/v1/meters/${savingsMeter.id}/readings`, { readings: baselineBills });
+    const baseline = await api(base, 'POST', `/v1/meters/${savingsMeter.id}/baselines`, { start: BASELINE_START, end: BASELINE_END });
+    await api(base, 'POST', `/v1/baselines/${baseline.id}/freeze`, { note: 'benchmark' });
+    await api(base, 'POST', `/v1/meters/${savingsMeter.id}/readings`, { readings: reportingBills });
+    const url = `${base}/v1/meters/${savingsMeter.id}/savings?confidence=0.9`;
+    await api(base, 'GET', `/v1/meters/${savingsMeter.id}/savings?confidence=0.9`);
+    const load = await autocannon({ url, connections: CONNECTIONS, duration: LOAD_SECONDS, headers: { authorization: `Bearer ${BOOTSTRAP_KEY}` } });
+
+    // Reference: the engine alone, in-process, on the same data.
+    const analysis = analyseBaseline(baselineBills, weather);
+    const fit = analysis.choice.candidates.find((c) => c.model === analysis.choice.selected)!.fit!;
+    const engineMs: number[] = [];
+    for (let i = 0; i < 2000; i++) {
+      const started = performance.now();
+      savingsFromFit(fit, { limits: analysis.choice.settings.guideline14, excluded: analysis.excluded }, reportingBills, weatherByDate, { confidence: 0.9 });
+      engineMs.push(performance.now() - started);
+    }
+
+    const results = {
+      node: process.version,
+      ingestion: {
+        readings: total,
+        batchSize: BATCH,
+        seconds: ingestMs / 1000,
+        readingsPerSecond: total / (ingestMs / 1000),
+        medianBatchMs: median(batchMs),
+        referenceReadingsPerSecond: total / (referenceMs / 1000),
+        ratioToReference: referenceMs / ingestMs,
+        target: '≥ 50,000 readings/s',
+        pass: total / (ingestMs / 1000) >= 50_000,
+      },
+      savings: {
+        connections: CONNECTIONS,
+        seconds: LOAD_SECONDS,
+        requests: load.requests.total,
+        requestsPerSecond: load.requests.average,
+        p50Ms: load.latency.p50,
+        p99Ms: load.latency.p99,
+        non2xx: load.non2xx,
+        errors: load.errors,
+        engineAloneMedianMs: median(engineMs),
+        engineAloneP99Ms: quantile(engineMs, 0.99),
+        target: '≥ 1,000 requests/s with p99 < 25 ms',
+        pass: load.requests.average >= 1000 && load.latency.p99 < 25 && load.non2xx === 0,
+      },
+    };
+    const i = results.ingestion;
+    const s = results.savings;
+    process.stdout.write(
+      [
+        'Service benchmark (loopback, SQLite file, service in its own process; invented data)',
+        `  ingestion: ${i.readings.toLocaleString('en-US')} daily readings in batches of ${i.batchSize}: ${i.seconds.toFixed(2)} s → ${Math.round(i.readingsPerSecond).toLocaleString('en-US')} readings/s (median batch ${i.medianBatchMs.toFixed(1)} ms)`,
+        `    reference (one prepared statement, one transaction per meter, no HTTP, no checks): ${Math.round(i.referenceReadingsPerSecond).toLocaleString('en-US')} readings/s; API at ${(i.ratioToReference * 100).toFixed(0)}% of it`,
+        `    target ${i.target}: ${i.pass ? 'PASS' : 'MISS'}`,
+        `  savings: ${s.connections} connections for ${s.seconds} s: ${Math.round(s.requestsPerSecond).toLocaleString('en-US')} requests/s, p50 ${s.p50Ms} ms, p99 ${s.p99Ms} ms, non-2xx ${s.non2xx}, errors ${s.errors}`,
+        `    reference (the engine alone, in-process): median ${s.engineAloneMedianMs.toFixed(3)} ms, p99 ${s.engineAloneP99Ms.toFixed(3)} ms per savings computation`,
+        `    target ${s.target}: ${s.pass ? 'PASS' : 'MISS'}`,
+        '',
+      ].join('\n'),
+    );
+    mkdirSync(join(import.meta.dirname, 'results'), { recursive: true });
+    writeFileSync(join(import.meta.dirname, 'results', 'service-latest.json'), `${JSON.stringify(results, null, 2)}\n`);
+  } finally {
+    child.kill('SIGTERM');
+  }
+}
+
+await main();

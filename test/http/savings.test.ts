@@ -1,0 +1,226 @@
+import { describe, it, expect, beforeAll, afterAll } from 'vitest';
+import { analyseBaseline, analyseSavings, savingsFromFit, type DailyTemperature, type ModelName, type Reading } from '../../src/engine/index.js';
+import { toJsonDocument } from '../../src/cli/format/json.js';
+import { createFacility } from '../../src/services/facilities.js';
+import { createMeter } from '../../src/services/meters.js';
+import { makeTestApi, type TestApi } from '../support/api.js';
+import { databaseDigest } from '../support/db-digest.js';
+import { CLIMATES, SAMPLE_BUILDING, dailyWeather, monthlyReadings, seededRandom } from '../support/synthetic.js';
+
+// synthetic: the test sets the truth. An invented building in an invented
+// temperate climate: 24 monthly baseline bills, then 12 bills after measures
+// that lower its base load and heating rate.
+const random = seededRandom(23);
+const WEATHER = dailyWeather(CLIMATES.temperate, '2023-01-01', 1096, random);
+const BASELINE = monthlyReadings(SAMPLE_BUILDING, WEATHER, '2023-01-01', 24, random);
+const REPORTING = monthlyReadings({ ...SAMPLE_BUILDING, base: 255, heatingRate: 6.5 }, WEATHER, '2025-01-01', 12, random);
+const WINDOW = { start: '2023-01-01', end: '2025-01-01' };
+const EXTRA_KEYS = ['meterId', 'baselineId', 'baselineVersion', 'baselineContentHash'];
+
+const ENGINE = analyseBaseline(BASELINE, WEATHER);
+
+/** The CLI's savings --json document of the same data and model: the engine itself. */
+function engineSavings(model: ModelName, reporting: readonly Reading[], confidence?: number, baseline = ENGINE, weather: readonly DailyTemperature[] = WEATHER): unknown {
+  const fit = baseline.choice.candidates.find((c) => c.model === model)!.fit!;
+  const document = savingsFromFit(fit, { limits: baseline.choice.settings.guideline14, excluded: baseline.excluded }, reporting, weather, { confidence });
+  return JSON.parse(toJsonDocument(document));
+}
+
+function withoutBaselineKeys(body: Record<string, unknown>): Record<string, unknown> {
+  return Object.fromEntries(Object.entries(body).filter(([key]) => !EXTRA_KEYS.includes(key)));
+}
+
+let api: TestApi;
+
+async function seedMeter(readings: readonly Reading[] = [...BASELINE, ...REPORTING], weather: readonly DailyTemperature[] = WEATHER): Promise<string> {
+  const station = await api.call('POST', '/v1/weather-stations', { body: { name: 'Invented ridge station', temperatureUnit: 'F' } });
+  for (let i = 0; i < weather.length; i += 400) {
+    const rows = weather.slice(i, i + 400).map((d) => ({ station_id: station.json.id, date: d.date, temp: d.temp, tmin: null, tmax: null, updated_at: '2026-01-01T00:00:00Z' }));
+    await api.store.db.insertInto('weather_observations').values(rows).execute();
+  }
+  const principal = { keyId: api.keys.admin.split('_')[1]!, organisationId: api.organisationId, role: 'admin' as const };
+  const ctx = { store: api.store, principal, now: '2026-01-01T00:00:00.000Z' };
+  const facility = await createFacility(ctx, { name: 'Test depot 3 (invented)' });
+  const meter = await createMeter(ctx, facility.id, { name: 'Depot main electric (invented)', fuel: 'electricity', unit: 'kWh', weatherStationId: station.json.id });
+  if (readings.length > 0) {
+    const at = '2026-01-01T00:00:00Z';
+    await api.store.db
+      .insertInto('readings')
+      .values(readings.map((r) => ({ meter_id: meter.id, period_start: r.start, period_end: r.end, quantity: r.quantity, estimated: 0, cost: null, created_at: at, updated_at: at })))
+      .execute();
+  }
+  return meter.id;
+}
+
+/** Fit, optionally choose, and freeze a baseline through the API. */
+async function frozenBaseline(meterId: string, choose?: ModelName, window = WINDOW): Promise<any> {
+  const draft = await api.call('POST', `/v1/meters/${meterId}/baselines`, { as: 'engineer', body: window });
+  expect(draft.status).toBe(201);
+  if (choose) {
+    const chosen = await api.call('POST', `/v1/baselines/${draft.json.id}/choose`, { as: 'engineer', body: { model: choose, reason: 'Engineer’s review (test)' } });
+    expect(chosen.status).toBe(200);
+  }
+  const frozen = await api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { as: 'engineer', body: { note: 'Agreed (test)' } });
+  expect(frozen.status).toBe(200);
+  return frozen.json;
+}
+
+const savings = (meterId: string, query = '', as: 'admin' | 'engineer' | 'analyst' | 'integration' | 'other' | 'none' = 'analyst') =>
+  api.call('GET', `/v1/meters/${meterId}/savings${query}`, { as });
+
+beforeAll(async () => {
+  api = await makeTestApi();
+});
+afterAll(async () => {
+  await api.close();
+});
+
+describe('GET /v1/meters/{id}/savings', () => {
+  let meterId: string;
+  let baseline: any;
+
+  beforeAll(async () => {
+    meterId = await seedMeter();
+    baseline = await frozenBaseline(meterId);
+  });
+
+  it('states avoided energy from the frozen fit exactly as the engine does', async () => {
+    const response = await savings(meterId);
+    expect(response.status).toBe(200);
+    expect(response.json).toMatchObject({ meterId, baselineId: baseline.id, baselineVersion: 1, baselineContentHash: baseline.contentHash });
+    const expected = engineSavings(ENGINE.choice.selected, REPORTING) as Record<string, unknown>; // the engine itself
+    expect(withoutBaselineKeys(response.json)).toEqual(expected);
+    expect(Object.keys(response.json).sort()).toEqual([...Object.keys(expected), ...EXTRA_KEYS].sort()); // exactly the CLI's keys, plus the baseline's
+    expect(JSON.parse(toJsonDocument(analyseSavings(ENGINE, REPORTING, WEATHER)))).toEqual(expected); // the engine itself, refitting path: same numbers
+    expect(response.json.periods).toHaveLength(12); // synthetic: 12 reporting bills
+    expect(response.json.totals.confidence).toBe(0.68); // the default (ASHRAE Guideline 14's 68% rule, from memory)
+    expect(response.json.totals.savings).toBeGreaterThan(0); // synthetic: the measures lowered use
+  });
+
+  it('states the uncertainty at every offered confidence', async () => {
+    for (const confidence of [0.8, 0.9, 0.95]) {
+      const response = await savings(meterId, `?confidence=${confidence}`);
+      expect(response.status).toBe(200);
+      expect(withoutBaselineKeys(response.json)).toEqual(engineSavings(ENGINE.choice.selected, REPORTING, confidence)); // the engine itself
+    }
+  });
+
+  it('limits the reporting period to from..to, and never reaches into the baseline', async () => {
+    const inside = REPORTING.filter((r) => r.start >= '2025-04-01' && r.end <= '2025-10-01');
+    expect(inside).toHaveLength(6); // synthetic: April to September
+    const response = await savings(meterId, '?from=2025-04-01&to=2025-10-01&confidence=0.9');
+    expect(withoutBaselineKeys(response.json)).toEqual(engineSavings(ENGINE.choice.selected, inside, 0.9)); // the engine itself
+
+    const early = await savings(meterId, '?from=2024-06-01');
+    expect(withoutBaselineKeys(early.json)).toEqual(engineSavings(ENGINE.choice.selected, REPORTING)); // the engine itself: baseline bills stay out
+  });
+
+  it('projects the stored fit: editing baseline readings afterwards changes nothing', async () => {
+    const before = await savings(meterId);
+    await api.store.db.updateTable('readings').set({ quantity: 1 }).where('meter_id', '=', meterId).where('period_end', '<=', WINDOW.end).execute();
+    const after = await savings(meterId);
+    expect(after.json).toEqual(before.json);
+  });
+
+  it('answers 400 naming the query field, storing nothing', async () => {
+    const digest = await databaseDigest(api.store.db);
+    for (const [query, field] of [
+      ['?confidence=0.5', 'query.confidence'],
+      ['?confidence=abc', 'query.confidence'],
+      ['?confidence=', 'query.confidence'],
+      ['?from=2025-13-01', 'query.from'],
+      ['?from=2025-06-01&to=2025-06-01', 'query.to'],
+      ['?to=2025-06-01&from=2025-07-01', 'query.to'],
+      ['?confidance=0.9', 'confidance'],
+    ] as const) {
+      const response = await savings(meterId, query);
+      expect(response.status, query).toBe(400);
+      expect(response.json.detail, query).toContain(field);
+    }
+    expect(await databaseDigest(api.store.db)).toBe(digest);
+  });
+
+  it('is open to analysts and integrations, closed to others', async () => {
+    expect((await savings(meterId, '', 'integration')).status).toBe(200);
+    expect((await savings(meterId, '', 'engineer')).status).toBe(200);
+    expect((await savings(meterId, '', 'none')).status).toBe(401);
+    expect((await savings(meterId, '', 'other')).status).toBe(404);
+    expect((await savings('mtr_unknown')).status).toBe(404);
+  });
+});
+
+describe('savings against another shape, a newer baseline, or none', () => {
+  it('uses the shape the engineer chose', async () => {
+    const other = ENGINE.document.candidates.find((c) => c.verdict === 'accepted' || (c.verdict === 'rejected' && c.model !== '1P'))!.model; // the engine itself
+    const meterId = await seedMeter();
+    await frozenBaseline(meterId, other);
+    const response = await savings(meterId);
+    expect(response.json.model).toBe(other);
+    expect(withoutBaselineKeys(response.json)).toEqual(engineSavings(other, REPORTING)); // the engine itself
+  });
+
+  it('follows the supersede to the newer version', async () => {
+    const meterId = await seedMeter();
+    const first = await frozenBaseline(meterId);
+    const draft = await api.call('POST', `/v1/meters/${meterId}/baselines`, { body: { start: '2024-01-01', end: '2025-01-01' } });
+    const second = await api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { body: { note: 'Second year only', supersedeReason: 'Tenant change in 2023' } });
+    expect(second.json.supersedes).toBe(first.id);
+    const response = await savings(meterId);
+    expect(response.json.baselineVersion).toBe(2);
+    const secondYear = analyseBaseline(BASELINE.slice(12), WEATHER); // the engine itself
+    expect(withoutBaselineKeys(response.json)).toEqual(engineSavings(secondYear.choice.selected, REPORTING, undefined, secondYear));
+  });
+
+  it('asks for a frozen baseline first', async () => {
+    const meterId = await seedMeter();
+    const none = await savings(meterId);
+    expect(none.status).toBe(422);
+    expect(none.json.detail).toContain('freeze a baseline first');
+    await api.call('POST', `/v1/meters/${meterId}/baselines`, { body: WINDOW });
+    const draftOnly = await savings(meterId);
+    expect(draftOnly.status).toBe(422);
+    expect(draftOnly.json.detail).toContain('freeze a baseline first');
+  });
+
+  it('says so when there is no reporting reading', async () => {
+    const meterId = await seedMeter(BASELINE);
+    await frozenBaseline(meterId);
+    const response = await savings(meterId);
+    expect(response.status).toBe(422);
+    expect(response.json.detail).toContain('no reporting readings');
+    expect(response.json.detail).toContain('2025-01-01');
+  });
+
+  it('says so when no reporting reading has enough weather', async () => {
+    const meterId = await seedMeter(undefined, WEATHER.filter((d) => d.date < '2025-01-01'));
+    await frozenBaseline(meterId);
+    const response = await savings(meterId);
+    expect(response.status).toBe(422);
+    expect(response.json.detail).toContain('weather covers 0 of 31 days'); // the engine itself: no weather after the baseline
+  });
+
+  it('refuses savings from a frozen baseline whose stored fit was edited behind the API', async () => {
+    const meterId = await seedMeter();
+    const frozen = await frozenBaseline(meterId);
+    const row = await api.store.db.selectFrom('baselines').select(['fits_json', 'chosen_model']).where('id', '=', frozen.id).executeTakeFirstOrThrow();
+    const fits = JSON.parse(row.fits_json);
+    fits[row.chosen_model].rawCoefficients[0] *= 1.1;
+    await api.store.db.updateTable('baselines').set({ fits_json: JSON.stringify(fits) }).where('id', '=', frozen.id).execute();
+    const response = await savings(meterId);
+    expect(response.status).toBe(422);
+    expect(response.json.detail).toContain('no longer matches its content hash');
+  });
+
+  it('answers non-finite figures as null, as the command line does', async () => {
+    // synthetic: exactly 100 kWh every day, before and after: zero residuals and zero savings, so ΔS/S is 0/0.
+    const flat = (readings: readonly Reading[]) => readings.map((r) => ({ ...r, quantity: 100 * ((Date.parse(r.end) - Date.parse(r.start)) / 864e5) }));
+    const meterId = await seedMeter([...flat(BASELINE.slice(0, 12)), ...flat(REPORTING.slice(0, 3))]);
+    await frozenBaseline(meterId, undefined, { start: '2023-01-01', end: '2024-01-01' });
+    const response = await savings(meterId);
+    expect(response.status).toBe(200);
+    expect(response.json.totals.savings).toBe(0); // synthetic: the test sets the truth
+    expect(response.json.totals.uncertainty.guideline14.fractional).toBeNull(); // the engine itself: NaN
+    const flatBaseline = analyseBaseline(flat(BASELINE.slice(0, 12)), WEATHER);
+    expect(withoutBaselineKeys(response.json)).toEqual(engineSavings(flatBaseline.choice.selected, flat(REPORTING.slice(0, 3)), undefined, flatBaseline)); // the engine itself
+  });
+});
