@@ -10,12 +10,30 @@ export function parseIsoDate(text: string): number | null {
   const match = ISO_DATE.exec(text);
   if (!match) return null;
   const [year, month, day] = [Number(match[1]), Number(match[2]), Number(match[3])];
-  // setUTCFullYear, unlike Date.UTC, does not map years 0–99 to 1900–1999.
-  const back = new Date(0);
-  back.setUTCFullYear(year, month - 1, day);
-  const ms = back.getTime();
-  if (back.getUTCFullYear() !== year || back.getUTCMonth() !== month - 1 || back.getUTCDate() !== day) return null;
-  return ms / MS_PER_DAY;
+  if (month < 1 || month > 12 || day < 1 || day > daysInMonth(year, month)) return null;
+  return daysFromCivil(year, month, day);
+}
+
+function isLeapYear(year: number): boolean {
+  return (year % 4 === 0 && year % 100 !== 0) || year % 400 === 0;
+}
+
+function daysInMonth(year: number, month: number): number {
+  return month === 2 ? (isLeapYear(year) ? 29 : 28) : [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31][month - 1]!;
+}
+
+/**
+ * Days since 1970-01-01 in the proleptic Gregorian calendar, by plain integer
+ * arithmetic (the era algorithm of H. Hinnant, "chrono-compatible low-level
+ * date algorithms"): no Date objects on the hot path of bulk ingestion.
+ */
+function daysFromCivil(year: number, month: number, day: number): number {
+  const y = month <= 2 ? year - 1 : year;
+  const era = Math.floor(y / 400);
+  const yearOfEra = y - era * 400;
+  const dayOfYear = Math.floor((153 * (month + (month > 2 ? -3 : 9)) + 2) / 5) + day - 1;
+  const dayOfEra = yearOfEra * 365 + Math.floor(yearOfEra / 4) - Math.floor(yearOfEra / 100) + dayOfYear;
+  return era * 146097 + dayOfEra - 719468;
 }
 
 export function isIsoDate(text: string): boolean {

@@ -99,7 +99,7 @@ export async function postReadings(
     assertOutsideFrozenWindows(await frozenWindowsForMeter(trx, meterId), writes, (write) => locate(write.index), 'this batch');
     if (classified.corrected.length > 0 && !reason) {
       const errors = classified.corrected.slice(0, MAX_LISTED_ERRORS).map(({ index, before, after }) => ({
-        field: locate(index, 'quantity'),
+        field: locate(index, firstDifference(before, after)),
         message: `differs from the stored reading ${before.period_start}..${before.period_end} (${describeValues(before)} stored, ${describeValues(after)} sent)`,
       }));
       throw new Problem(
@@ -218,6 +218,11 @@ function valuesOf(reading: ReadingInput): ReadingValues {
 
 function sameValues(stored: ReadingRow, sent: ReadingValues): boolean {
   return stored.quantity === sent.quantity && stored.estimated === sent.estimated && stored.cost === sent.cost;
+}
+
+function firstDifference(stored: ReadingRow, sent: ReadingValues): keyof ReadingValues {
+  if (stored.quantity !== sent.quantity) return 'quantity';
+  return stored.estimated !== sent.estimated ? 'estimated' : 'cost';
 }
 
 /**

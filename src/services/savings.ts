@@ -2,7 +2,9 @@
  * Avoided energy of a meter against its active frozen baseline. The stored
  * fit of the chosen shape is projected onto the reporting period's weather
  * as it was frozen: never refitted. A frozen row never changes, so its
- * parsed model is kept in memory keyed by baseline id and content hash.
+ * parsed model is kept in memory keyed by baseline id and content hash; and
+ * since the engine is a pure function, its document is kept keyed by a
+ * digest of its exact inputs (a changed reading or temperature is a new key).
  */
 import {
   alignPeriods,
@@ -14,6 +16,7 @@ import {
   type SavingsDocument,
   type ShapeFit,
 } from '../engine/index.js';
+import { sha256Hex } from '../lib/canonical-json.js';
 import { Problem } from '../http/problem.js';
 import type { BaselineRow } from '../store/schema.js';
 import { fromStoredJson, nonFiniteToNull, verifyBaselineContent, type BaselineFitOptions } from './baselines.js';
@@ -41,8 +44,42 @@ interface FrozenModel {
   minCoverage: number;
 }
 
-const MODEL_CACHE_SIZE = 512;
-const modelCache = new Map<string, FrozenModel>();
+/** Recent values up to a total weight, the least recently used dropped first. */
+class BoundedCache<T> {
+  private readonly entries = new Map<string, { value: T; weight: number }>();
+  private total = 0;
+
+  constructor(
+    private readonly budget: number,
+    private readonly weigh: (value: T) => number,
+  ) {}
+
+  get(key: string): T | undefined {
+    const entry = this.entries.get(key);
+    if (!entry) return undefined;
+    this.entries.delete(key);
+    this.entries.set(key, entry);
+    return entry.value;
+  }
+
+  set(key: string, value: T): T {
+    const weight = this.weigh(value);
+    if (weight > this.budget || this.entries.has(key)) return value;
+    while (this.total + weight > this.budget) {
+      const [oldest, entry] = this.entries.entries().next().value!;
+      this.entries.delete(oldest);
+      this.total -= entry.weight;
+    }
+    this.entries.set(key, { value, weight });
+    this.total += weight;
+    return value;
+  }
+}
+
+/** Parsed frozen models, by baseline id and content hash (a frozen row never changes). */
+const modelCache = new BoundedCache<FrozenModel>(500_000, (model) => 100 + model.fit.n);
+/** Savings documents, by a digest of their exact inputs; weighed by period count to bound memory for daily meters. */
+const resultCache = new BoundedCache<MeterSavings>(100_000, (result) => 20 + result.periods.length);
 
 /** Parse (and check against its hash) the frozen baseline's chosen fit, once per baseline. */
 async function frozenModel(db: Executor, baselineId: string, contentHash: string): Promise<FrozenModel> {
@@ -66,9 +103,7 @@ async function frozenModel(db: Executor, baselineId: string, contentHash: string
     excluded: document.periods.excluded,
     minCoverage: options.minCoverage ?? document.settings.minCoverage,
   };
-  if (modelCache.size >= MODEL_CACHE_SIZE) modelCache.delete(modelCache.keys().next().value!);
-  modelCache.set(key, model);
-  return model;
+  return modelCache.set(key, model);
 }
 
 function windowText(start: string, to: string | undefined): string {
@@ -98,6 +133,9 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
   }
   const weather = await loadWeatherFor(db, meter.weather_station_id, readings);
   const options = { confidence: query.confidence, minCoverage: model.minCoverage };
+  const inputsKey = sha256Hex(JSON.stringify([meter.id, baseline.id, baseline.version, baseline.content_hash, options.confidence ?? null, options.minCoverage, readings, weather]));
+  const known = resultCache.get(inputsKey);
+  if (known) return known;
   let document: SavingsDocument;
   try {
     document = savingsFromFit(model.fit, { limits: model.limits, excluded: model.excluded }, readings, weather, options);
@@ -111,5 +149,6 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
       excluded.map((p) => ({ field: `reading ${p.start}..${p.end}`, message: p.reason })),
     );
   }
-  return nonFiniteToNull({ ...document, meterId: meter.id, baselineId: baseline.id, baselineVersion: baseline.version, baselineContentHash: baseline.content_hash });
+  const result = nonFiniteToNull({ ...document, meterId: meter.id, baselineId: baseline.id, baselineVersion: baseline.version, baselineContentHash: baseline.content_hash });
+  return resultCache.set(inputsKey, result);
 }

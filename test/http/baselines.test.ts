@@ -1,9 +1,15 @@
+/**
+ * Baselines over HTTP: fit a draft, choose a shape, freeze, supersede,
+ * verify the content hash, and draw the energy signature. Check values: the
+ * engine itself (the fit document of the same readings and weather, as the
+ * command line's fit --json gives it), the API contract (status codes, field
+ * names, permissions, one audit row per write), hand-worked counts, and
+ * synthetic inputs whose truth the test sets.
+ */
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { analyseBaseline, type DailyTemperature, type Reading } from '../../src/engine/index.js';
+import { analyseBaseline, type Reading } from '../../src/engine/index.js';
 import { toJsonDocument } from '../../src/cli/format/json.js';
 import { canonicalJson, sha256Hex } from '../../src/lib/canonical-json.js';
-import { createFacility } from '../../src/services/facilities.js';
-import { createMeter } from '../../src/services/meters.js';
 import type { Role } from '../../src/store/schema.js';
 import { makeTestApi, type CallOptions, type TestApi } from '../support/api.js';
 import { databaseDigest } from '../support/db-digest.js';
@@ -28,37 +34,23 @@ function keyIdOf(role: Role): string {
   return api.keys[role].split('_')[1]!;
 }
 
-async function insertWeather(stationId: string, weather: readonly DailyTemperature[]): Promise<void> {
-  for (let i = 0; i < weather.length; i += 400) {
-    const rows = weather.slice(i, i + 400).map((d) => ({ station_id: stationId, date: d.date, temp: d.temp, tmin: null, tmax: null, updated_at: '2026-01-01T00:00:00Z' }));
-    await api.store.db.insertInto('weather_observations').values(rows).execute();
-  }
-}
-
-async function insertReadings(meterId: string, readings: readonly Reading[]): Promise<void> {
-  const rows = readings.map((r) => ({
-    meter_id: meterId,
-    period_start: r.start,
-    period_end: r.end,
-    quantity: r.quantity,
-    estimated: 0,
-    cost: null,
-    created_at: '2026-01-01T00:00:00Z',
-    updated_at: '2026-01-01T00:00:00Z',
-  }));
-  await api.store.db.insertInto('readings').values(rows).execute();
-}
-
-/** A station (through the API) with weather, and a facility and meter (through their services) with readings. */
+/** A station with daily weather, a facility, and a meter with readings, all through the API. */
 async function seedMeter(options: { name?: string; weather?: boolean; readings?: readonly Reading[] } = {}): Promise<string> {
-  const station = await api.call('POST', '/v1/weather-stations', { body: { name: 'Invented valley station', temperatureUnit: 'F' } });
+  const station = await api.call('POST', '/v1/weather-stations', { as: 'engineer', body: { name: 'Invented valley station', temperatureUnit: 'F' } });
   expect(station.status).toBe(201);
-  if (options.weather ?? true) await insertWeather(station.json.id, WEATHER);
-  const ctx = { store: api.store, principal: { keyId: keyIdOf('admin'), organisationId: api.organisationId, role: 'admin' as const }, now: '2026-01-01T00:00:00.000Z' };
-  const facility = await createFacility(ctx, { name: 'Test building 7 (invented)' });
-  const meter = await createMeter(ctx, facility.id, { name: options.name ?? 'Main electric (invented)', fuel: 'electricity', unit: 'kWh', weatherStationId: station.json.id });
-  await insertReadings(meter.id, options.readings ?? [...BASELINE, ...REPORTING]);
-  return meter.id;
+  if (options.weather ?? true) {
+    const observations = WEATHER.map((d) => ({ date: d.date, temp: d.temp }));
+    expect((await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, { as: 'integration', body: { observations } })).status).toBe(200);
+  }
+  const facility = await api.call('POST', '/v1/facilities', { as: 'engineer', body: { name: 'Test building 7 (invented)' } });
+  const meter = await api.call('POST', `/v1/facilities/${facility.json.id}/meters`, {
+    as: 'engineer',
+    body: { name: options.name ?? 'Main electric (invented)', fuel: 'electricity', unit: 'kWh', weatherStationId: station.json.id },
+  });
+  expect(meter.status).toBe(201);
+  const readings = (options.readings ?? [...BASELINE, ...REPORTING]).map((r) => ({ start: r.start, end: r.end, quantity: r.quantity }));
+  expect((await api.call('POST', `/v1/meters/${meter.json.id}/readings`, { as: 'integration', body: { readings } })).status).toBe(201);
+  return meter.json.id;
 }
 
 async function fitDraft(meterId: string, body: unknown = WINDOW, as: CallOptions['as'] = 'engineer') {

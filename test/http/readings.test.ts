@@ -7,7 +7,8 @@ import { parseApiKey } from '../../src/store/api-keys.js';
 import { verifyAuditChain } from '../../src/store/audit.js';
 import type { BaselineStatus } from '../../src/store/schema.js';
 
-// Every scenario here is invented; the test sets the truth unless a comment says otherwise.
+// Check values: synthetic (the test sets the truth) unless a comment beside one names another source.
+// Every name and scenario here is invented.
 
 let api: TestApi;
 let meterId: string;
@@ -15,8 +16,8 @@ let url: string;
 
 async function makeMeter(target: TestApi): Promise<string> {
   const ctx = { store: target.store, principal: { keyId: parseApiKey(target.keys.admin)!.id, organisationId: target.organisationId, role: 'admin' as const }, now: '2026-01-01T00:00:00.000Z' };
-  const station = await target.call('POST', '/v1/weather-stations', { body: { name: 'Hillfold yard station (invented)', temperatureUnit: 'F' } });
-  const facility = await createFacility(ctx, { name: 'Hillfold depot (invented)' });
+  const station = await target.call('POST', '/v1/weather-stations', { body: { name: 'Station S1 (invented)', temperatureUnit: 'F' } });
+  const facility = await createFacility(ctx, { name: 'Depot D1 (invented)' });
   const meter = await createMeter(ctx, facility.id, { name: 'Main supply', fuel: 'electricity', unit: 'kWh', weatherStationId: station.json.id });
   return meter.id;
 }

@@ -113,8 +113,10 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
         description: 'Use per day against mean outdoor temperature: baseline periods, the chosen model’s line, and reporting periods once the baseline is frozen.',
         security: bearer,
         params: idParams,
-        produces: ['image/svg+xml'],
-        response: { 200: z.string().describe('An SVG image'), ...authProblems },
+        response: {
+          200: { description: 'The energy signature, an SVG image', content: { 'image/svg+xml': { schema: z.string().describe('SVG markup') } } },
+          ...authProblems,
+        },
       },
     },
     async (request, reply) =>

@@ -1,3 +1,8 @@
+/**
+ * The energy-signature chart as a pure function. Check values: synthetic
+ * chart data whose truth the test sets, hand-worked axis ticks, and common
+ * practice (XML 1.0's predefined entities and well-formedness rules).
+ */
 import { describe, it, expect } from 'vitest';
 import { renderSignatureSvg, type SignatureChartData } from '../../../src/reports/svg/signature.js';
 import { axisScale, tickLabel } from '../../../src/reports/svg/ticks.js';
