@@ -6,7 +6,7 @@
  * left out with its reason stated, never silently.
  */
 import type { AlignedPeriods, DailyTemperature, ExcludedPeriod, Period, Reading } from './types.js';
-import { addDays, daysBetween } from './dates.js';
+import { parseIsoDate } from './dates.js';
 
 export interface AlignmentOptions {
   /** Minimum share of a period's days that must have a temperature (0..1). Default 0.9. */
@@ -33,15 +33,16 @@ export function alignPeriods(
 ): AlignedPeriods {
   const minCoverage = options.minCoverage ?? DEFAULT_MIN_COVERAGE;
   if (!(minCoverage > 0 && minCoverage <= 1)) throw new RangeError(`minCoverage must lie in (0, 1], got ${minCoverage}`);
-  const byDate = weather instanceof Map ? weather : indexWeather(weather as readonly DailyTemperature[]);
+  const byDay = indexByDayNumber(weather);
   const periods: Period[] = [];
   const excluded: ExcludedPeriod[] = [];
   readings.forEach((reading, index) => {
-    const days = daysBetween(reading.start, reading.end);
+    const first = parseIsoDate(reading.start)!;
+    const days = parseIsoDate(reading.end)! - first;
     let covered = 0;
     let sum = 0;
-    for (let d = 0; d < days; d++) {
-      const temp = byDate.get(addDays(reading.start, d));
+    for (let d = first; d < first + days; d++) {
+      const temp = byDay.get(d);
       if (temp !== undefined) {
         covered++;
         sum += temp;
@@ -69,6 +70,18 @@ export function alignPeriods(
     });
   });
   return { periods, excluded };
+}
+
+/** Daily temperatures keyed by day number, so a period's days are looked up without building date strings. */
+function indexByDayNumber(weather: readonly DailyTemperature[] | ReadonlyMap<string, number>): Map<number, number> {
+  const byDay = new Map<number, number>();
+  const add = (date: string, temp: number) => {
+    const day = parseIsoDate(date);
+    if (day !== null) byDay.set(day, temp);
+  };
+  if (weather instanceof Map) for (const [date, temp] of weather as ReadonlyMap<string, number>) add(date, temp);
+  else for (const day of weather as readonly DailyTemperature[]) add(day.date, day.temp);
+  return byDay;
 }
 
 function formatPercent(fraction: number): string {
