@@ -117,7 +117,13 @@ export function describeDemo(base: string, seed: DemoSeed): string {
   return lines.join('\n');
 }
 
-export async function runDemo(options: { seedOnly: boolean; databaseFile?: string; port?: number }): Promise<{ service: RunningService; seed: DemoSeed }> {
+export async function runDemo(options: {
+  seedOnly: boolean;
+  databaseFile?: string;
+  port?: number;
+  print?: (text: string) => void;
+}): Promise<{ service: RunningService; seed: DemoSeed; base: string }> {
+  const print = options.print ?? ((text: string) => process.stdout.write(text));
   const databaseFile = options.databaseFile ?? DEMO_DATABASE;
   for (const suffix of ['', '-wal', '-shm']) rmSync(`${databaseFile}${suffix}`, { force: true });
   const { token } = generateApiKey();
@@ -126,10 +132,10 @@ export async function runDemo(options: { seedOnly: boolean; databaseFile?: strin
   const service = await startService(config);
   const base = service.url.replace('[::1]', 'localhost');
   const seed = await seedDemo(base, token);
-  process.stdout.write(describeDemo(base, seed));
+  print(describeDemo(base, seed));
   if (options.seedOnly) await service.stop();
-  else process.stdout.write('Serving until Ctrl-C.\n');
-  return { service, seed };
+  else print('Serving until Ctrl-C.\n');
+  return { service, seed, base };
 }
 
 if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {
