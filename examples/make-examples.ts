@@ -11,29 +11,10 @@
  * again rewrites the same files byte for byte.
  */
 import { writeFileSync } from 'node:fs';
+import { seededRandom } from '../src/lib/seeded-random.js';
 
 const MS_PER_DAY = 86_400_000;
 const OUTPUT = new URL('./', import.meta.url);
-
-/** mulberry32: a small seeded generator, good enough for invented noise. */
-function seededRandom(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-/** Standard normal draws by the Box–Muller transform. */
-function normalSource(random: () => number): () => number {
-  return () => {
-    const u = Math.max(random(), Number.EPSILON);
-    return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * random());
-  };
-}
 
 function dayNumber(date: string): number {
   return Date.parse(`${date}T00:00:00Z`) / MS_PER_DAY;
@@ -49,7 +30,7 @@ function monthStart(year: number, monthIndex: number): string {
 
 // ---- Weather: a seasonal cycle (coldest late January) plus day-to-day
 // persistence (AR(1) noise), in the range of a temperate inland town.
-const normal = normalSource(seededRandom(20220101));
+const normal = seededRandom(20220101).normal;
 const firstDay = dayNumber('2022-01-01');
 const lastDay = dayNumber('2025-06-30');
 const temperatures = new Map<string, number>();
@@ -71,7 +52,7 @@ function usePerDay(temp: number): number {
 }
 
 const RATE_PER_KWH = 0.14; // invented tariff, only to show that extra columns are ignored
-const billNoise = normalSource(seededRandom(424242));
+const billNoise = seededRandom(424242).normal;
 
 function bills(fromYear: number, months: number, useFactor: number): string[] {
   const rows = ['start,end,quantity,cost,estimated'];

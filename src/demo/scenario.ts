@@ -6,23 +6,8 @@
  * retrofit. Deterministic: the same seed gives the same data.
  */
 import { addDays, daysBetween } from '../engine/index.js';
+import { seededRandom } from '../lib/seeded-random.js';
 
-/** Small seeded generator (mulberry32): fast, deterministic, good enough for invented data. */
-export function seededRandom(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-function normal(random: () => number): number {
-  const u = Math.max(random(), 1e-12);
-  return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * random());
-}
 
 export interface DemoUse {
   /** Use per day in the flat band. */
@@ -105,7 +90,7 @@ export function demoWeather(seed = 2023): { date: string; temp: number }[] {
   const out: { date: string; temp: number }[] = [];
   let spell = 0;
   for (let d = 0; d < days; d++) {
-    spell = 0.7 * spell + 4.5 * normal(random);
+    spell = 0.7 * spell + 4.5 * random.normal();
     const seasonal = 54 - 24 * Math.cos((2 * Math.PI * (d - 15)) / 365.25);
     out.push({ date: addDays(WEATHER_START, d), temp: Math.round((seasonal + spell) * 10) / 10 });
   }
@@ -136,13 +121,13 @@ export function demoBills(meter: DemoMeter, weather: ReadonlyMap<string, number>
   let start = from;
   while (start < to) {
     const [year, month] = [Number(start.slice(0, 4)), Number(start.slice(5, 7))];
-    const next = new Date(Date.UTC(year, month, 1 + Math.floor(random() * 4))).toISOString().slice(0, 10);
+    const next = new Date(Date.UTC(year, month, 1 + random.integer(0, 3))).toISOString().slice(0, 10);
     const end = next > to ? to : next;
     let quantity = 0;
     for (let d = 0; d < daysBetween(start, end); d++) {
       const temp = weather.get(addDays(start, d))!;
       const day = usePerDay(meter.use, temp) * (1 - saving);
-      quantity += day * (1 + meter.use.noise * normal(random));
+      quantity += day * (1 + meter.use.noise * random.normal());
     }
     const rounded = Math.round(quantity);
     bills.push({ start, end, quantity: rounded, cost: Math.round(rounded * meter.price * 100) / 100 });

@@ -8,32 +8,8 @@
 import { addDays, daysBetween } from '../../src/engine/dates.js';
 import type { DailyTemperature, Period, Reading } from '../../src/engine/types.js';
 
-/** A small seeded generator (mulberry32) so every run sees the same data. */
-export interface Random {
-  /** Uniform on [0, 1). */
-  uniform(): number;
-  /** Standard normal (Box–Muller). */
-  normal(): number;
-  /** Integer in [min, max]. */
-  integer(min: number, max: number): number;
-}
-
-export function seededRandom(seed: number): Random {
-  let state = seed >>> 0;
-  const uniform = (): number => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  const normal = (): number => {
-    const u = 1 - uniform(); // (0, 1]: keeps log finite
-    const v = uniform();
-    return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * v);
-  };
-  return { uniform, normal, integer: (min, max) => min + Math.floor(uniform() * (max - min + 1)) };
-}
+export { seededRandom, type Random } from '../../src/lib/seeded-random.js';
+import type { Random } from '../../src/lib/seeded-random.js';
 
 /**
  * An invented building: use per day = base + heatingRate·(heatingBelow − T)₊
