@@ -107,8 +107,8 @@ export async function up(db: Kysely<unknown>): Promise<void> {
 
   await db.schema
     .createTable('audit_log')
-    .addColumn('seq', 'integer', (c) => c.primaryKey())
-    .addColumn('organisation_id', 'text')
+    .addColumn('organisation_id', 'text', (c) => c.notNull())
+    .addColumn('seq', 'integer', (c) => c.notNull())
     .addColumn('actor', 'text', (c) => c.notNull())
     .addColumn('at', 'text', (c) => c.notNull())
     .addColumn('action', 'text', (c) => c.notNull())
@@ -118,6 +118,7 @@ export async function up(db: Kysely<unknown>): Promise<void> {
     .addColumn('after_json', 'text')
     .addColumn('prev_hash', 'text', (c) => c.notNull())
     .addColumn('hash', 'text', (c) => c.notNull())
+    .addPrimaryKeyConstraint('audit_log_pk', ['organisation_id', 'seq'])
     .execute();
   await db.schema.createIndex('audit_log_entity').on('audit_log').columns(['entity_type', 'entity_id']).execute();
   await db.schema.createIndex('audit_log_org_at').on('audit_log').columns(['organisation_id', 'at']).execute();

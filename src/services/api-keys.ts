@@ -7,6 +7,7 @@
 import type { Kysely } from 'kysely';
 import { insertApiKey, publicKey } from '../store/api-keys.js';
 import { appendAudit } from '../store/audit.js';
+import { lockOrganisation } from '../store/connect.js';
 import type { ApiKeyRow, Database, Role } from '../store/schema.js';
 import { notFound, Problem } from '../http/problem.js';
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
@@ -79,8 +80,11 @@ export type OperatorRevoke = { outcome: 'revoked' | 'already-revoked'; key: Oper
  */
 export async function revokeKeyAsOperator(db: Kysely<Database>, id: string, at: string): Promise<OperatorRevoke> {
   return db.transaction().execute(async (trx) => {
-    const row = await trx.selectFrom('api_keys').selectAll().where('id', '=', id).executeTakeFirst();
-    if (!row) return { outcome: 'not-found' };
+    const found = await trx.selectFrom('api_keys').select('organisation_id').where('id', '=', id).executeTakeFirst();
+    if (!found) return { outcome: 'not-found' };
+    await lockOrganisation(trx, found.organisation_id);
+    // Read again under the lock: another instance may have revoked it meanwhile.
+    const row = await trx.selectFrom('api_keys').selectAll().where('id', '=', id).executeTakeFirstOrThrow();
     const organisation = await trx.selectFrom('organisations').select('name').where('id', '=', row.organisation_id).executeTakeFirstOrThrow();
     const withOrganisation = (key: ApiKeyView): OperatorKeyView => ({ ...key, organisationId: row.organisation_id, organisationName: organisation.name });
     if (row.revoked_at !== null) return { outcome: 'already-revoked', key: withOrganisation(publicKey(row)) };

@@ -1,6 +1,6 @@
 /**
  * Reading the audit trail back: an organisation sees its own rows in
- * sequence order; anyone may check that the whole chain is intact.
+ * sequence order and checks that its own chain is intact.
  */
 import { isIsoDate } from '../engine/index.js';
 import { listAudit, verifyAuditChain, type ChainVerdict } from '../store/audit.js';
@@ -69,6 +69,7 @@ export async function listAuditEntries(db: Executor, organisationId: string, fil
   return rows.length > filter.limit && last ? { entries: page, next: last.seq } : { entries: page };
 }
 
-export function verifyAudit(db: Executor): Promise<ChainVerdict> {
-  return verifyAuditChain(db);
+/** Verify the organisation's own chain (other organisations' activity stays invisible). */
+export function verifyAudit(db: Executor, organisationId: string): Promise<ChainVerdict> {
+  return verifyAuditChain(db, organisationId);
 }

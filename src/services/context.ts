@@ -4,7 +4,7 @@
  * baselines) and call the engine; routes only translate HTTP to these calls.
  */
 import type { Kysely, Transaction } from 'kysely';
-import type { Store } from '../store/connect.js';
+import { writeTransaction, type Store } from '../store/connect.js';
 import type { Database } from '../store/schema.js';
 import type { Principal } from '../http/principal.js';
 import { appendAudit, type AuditEntry } from '../store/audit.js';
@@ -19,9 +19,13 @@ export interface ServiceContext {
 export type Tx = Transaction<Database>;
 export type Executor = Kysely<Database> | Transaction<Database>;
 
-/** Run `work` in one transaction: every write in it, audit rows included, lands or none does. */
+/**
+ * Run `work` in one transaction: every write in it, audit rows included,
+ * lands or none does; writes of one organisation are serialised across
+ * instances (see writeTransaction).
+ */
 export function inTransaction<T>(ctx: ServiceContext, work: (trx: Tx) => Promise<T>): Promise<T> {
-  return ctx.store.db.transaction().execute(work);
+  return writeTransaction(ctx.store.db, ctx.principal.organisationId, work);
 }
 
 /** Append the audit row for a write made by this context's principal. */

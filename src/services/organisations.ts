@@ -6,12 +6,13 @@
 import type { Kysely } from 'kysely';
 import type { Database, Role } from '../store/schema.js';
 import { newId } from '../store/ids.js';
+import { writeTransaction } from '../store/connect.js';
 import { appendAudit } from '../store/audit.js';
 import { insertApiKey, publicKey } from '../store/api-keys.js';
 
 export async function createOrganisation(db: Kysely<Database>, name: string, at: string): Promise<{ id: string; name: string }> {
-  return db.transaction().execute(async (trx) => {
-    const row = { id: newId('org'), name, created_at: at };
+  const row = { id: newId('org'), name, created_at: at };
+  return writeTransaction(db, row.id, async (trx) => {
     await trx.insertInto('organisations').values(row).execute();
     await appendAudit(trx, { organisationId: row.id, actor: 'system', at, action: 'create', entityType: 'organisation', entityId: row.id, after: { id: row.id, name } });
     return { id: row.id, name };
@@ -22,7 +23,7 @@ export async function createKey(
   db: Kysely<Database>,
   input: { organisationId: string; name: string; role: Role; at: string; actor?: string; token?: string },
 ): Promise<{ token: string; key: ReturnType<typeof publicKey> }> {
-  return db.transaction().execute(async (trx) => {
+  return writeTransaction(db, input.organisationId, async (trx) => {
     const { row, token } = await insertApiKey(trx, input);
     const key = publicKey(row);
     await appendAudit(trx, { organisationId: input.organisationId, actor: input.actor ?? 'system', at: input.at, action: 'create', entityType: 'api-key', entityId: row.id, after: key });

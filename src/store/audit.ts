@@ -1,10 +1,13 @@
 /**
  * The audit trail: every write appends one row in the same transaction,
- * recording who, when, what, and the entity before and after. Rows are
- * chained: hash = SHA-256(prev_hash + "\n" + canonical JSON of the row), so
- * editing or deleting a row breaks the chain at that point. (Cutting rows off
- * the end leaves a shorter valid chain: keep the reported head hash outside
- * the database to detect that.)
+ * recording who, when, what, and the entity before and after. Each
+ * organisation has its own chain, numbered 1, 2, 3, …: hash =
+ * SHA-256(prev_hash + "\n" + canonical JSON of the row), so editing or
+ * deleting a row breaks the chain at that point, and an organisation's chain
+ * can be exported, moved and verified on its own. (Cutting rows off the end
+ * leaves a shorter valid chain: keep the reported head hash outside the
+ * database to detect that.) Appends are serialised per organisation by the
+ * write transaction (store/connect.ts).
  */
 import type { Kysely, Transaction } from 'kysely';
 import { canonicalJson, sha256Hex } from '../lib/canonical-json.js';
@@ -13,7 +16,7 @@ import type { AuditRow, Database } from './schema.js';
 export const GENESIS_HASH = '0'.repeat(64);
 
 export interface AuditEntry {
-  organisationId: string | null;
+  organisationId: string;
   /** API key id, or "system". */
   actor: string;
   at: string;
@@ -44,7 +47,13 @@ function rowDigest(prevHash: string, row: Omit<AuditRow, 'hash' | 'prev_hash'>):
 
 /** Append one entry; call inside the transaction that makes the change. */
 export async function appendAudit(trx: Executor, entry: AuditEntry): Promise<AuditRow> {
-  const last = await trx.selectFrom('audit_log').select(['seq', 'hash']).orderBy('seq', 'desc').limit(1).executeTakeFirst();
+  const last = await trx
+    .selectFrom('audit_log')
+    .select(['seq', 'hash'])
+    .where('organisation_id', '=', entry.organisationId)
+    .orderBy('seq', 'desc')
+    .limit(1)
+    .executeTakeFirst();
   const base = {
     seq: (last?.seq ?? 0) + 1,
     organisation_id: entry.organisationId,
@@ -70,18 +79,25 @@ export interface ChainVerdict {
   headHash: string;
   headSeq: number;
   /** First row where the chain breaks, and why. */
-  broken?: { seq: number; reason: string };
+  broken?: { organisationId: string; seq: number; reason: string };
 }
 
-/** Walk the whole chain in sequence order, a page at a time. */
-export async function verifyAuditChain(db: Executor, pageSize = 2000): Promise<ChainVerdict> {
+/** Walk one organisation's chain in sequence order, a page at a time. */
+export async function verifyAuditChain(db: Executor, organisationId: string, pageSize = 2000): Promise<ChainVerdict> {
   let expectedSeq = 1;
   let prevHash = GENESIS_HASH;
   let checked = 0;
   for (;;) {
-    const page = await db.selectFrom('audit_log').selectAll().where('seq', '>=', expectedSeq).orderBy('seq').limit(pageSize).execute();
+    const page = await db
+      .selectFrom('audit_log')
+      .selectAll()
+      .where('organisation_id', '=', organisationId)
+      .where('seq', '>=', expectedSeq)
+      .orderBy('seq')
+      .limit(pageSize)
+      .execute();
     for (const row of page) {
-      const fail = (reason: string): ChainVerdict => ({ ok: false, checked, headHash: prevHash, headSeq: expectedSeq - 1, broken: { seq: row.seq, reason } });
+      const fail = (reason: string): ChainVerdict => ({ ok: false, checked, headHash: prevHash, headSeq: expectedSeq - 1, broken: { organisationId, seq: row.seq, reason } });
       if (row.seq !== expectedSeq) return fail(`row ${expectedSeq} is missing (next row is ${row.seq})`);
       if (row.prev_hash !== prevHash) return fail('its previous-hash does not match the row before it');
       if (rowDigest(prevHash, row) !== row.hash) return fail('its content does not match its hash (the row was edited)');
@@ -92,6 +108,18 @@ export async function verifyAuditChain(db: Executor, pageSize = 2000): Promise<C
     if (page.length < pageSize) break;
   }
   return { ok: true, checked, headHash: prevHash, headSeq: expectedSeq - 1 };
+}
+
+/** Every organisation's chain; the first break found is reported. */
+export async function verifyAllAuditChains(db: Executor): Promise<{ ok: boolean; chains: number; checked: number; broken?: ChainVerdict['broken'] }> {
+  const organisations = await db.selectFrom('organisations').select('id').orderBy('id').execute();
+  let checked = 0;
+  for (const { id } of organisations) {
+    const verdict = await verifyAuditChain(db, id);
+    checked += verdict.checked;
+    if (!verdict.ok) return { ok: false, chains: organisations.length, checked, ...(verdict.broken ? { broken: verdict.broken } : {}) };
+  }
+  return { ok: true, chains: organisations.length, checked };
 }
 
 export interface AuditQuery {

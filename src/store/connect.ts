@@ -3,11 +3,16 @@
  * `sqlite:./var/mvledger.sqlite` (a file, created with its folder) or
  * `sqlite::memory:`. Each SQLite connection runs in WAL mode with foreign keys
  * enforced and a busy timeout, so a second process waits instead of failing.
+ *
+ * `postgres://user@host:port/database` selects PostgreSQL through pg's pool;
+ * an extra `schema=NAME` query parameter puts every table in that schema
+ * (created if missing), which is how tests give every run its own.
  */
 import { mkdirSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import SQLite from 'better-sqlite3';
-import { Kysely, SqliteDialect } from 'kysely';
+import { Kysely, PostgresAdapter, PostgresDialect, SqliteDialect, sql, type Transaction } from 'kysely';
+import pg from 'pg';
 import type { Database } from './schema.js';
 
 export type Dialect = 'sqlite' | 'postgres';
@@ -39,10 +44,69 @@ export function parseDatabaseUrl(url: string): { dialect: Dialect; location: str
 
 export function openStore(url: string): Store {
   const { dialect, location } = parseDatabaseUrl(url);
-  if (dialect === 'postgres') {
-    throw new DatabaseUrlError('DATABASE_URL: PostgreSQL is not supported by this build yet; use sqlite:PATH');
+  return dialect === 'postgres' ? openPostgres(location) : openSqlite(location);
+}
+
+const SCHEMA_NAME = /^[a-z_][a-z0-9_]{0,62}$/;
+
+/** The connection URL without our `schema` parameter, and that schema. */
+export function splitPostgresUrl(url: string): { connectionString: string; schema: string | null } {
+  const parsed = new URL(url);
+  const schema = parsed.searchParams.get('schema');
+  parsed.searchParams.delete('schema');
+  if (schema !== null && !SCHEMA_NAME.test(schema)) {
+    throw new DatabaseUrlError('DATABASE_URL: schema must be lower-case letters, digits and _ (at most 63)');
   }
-  return openSqlite(location);
+  return { connectionString: parsed.toString(), schema };
+}
+
+/** A URL fit for messages: the password replaced. */
+function withoutPassword(url: string): string {
+  const parsed = new URL(url);
+  if (parsed.password) parsed.password = '***';
+  return parsed.toString();
+}
+
+function openPostgres(url: string): Store {
+  const { connectionString, schema } = splitPostgresUrl(url);
+  const pool = new pg.Pool({
+    connectionString,
+    max: 10,
+    ...(schema ? { options: `-c search_path=${schema}` } : {}),
+  });
+  // A pooled connection that drops is replaced; the error must not crash the process.
+  pool.on('error', () => {});
+  const db = new Kysely<Database>({
+    dialect: new PostgresDialect({
+      pool: async () => {
+        if (schema) await pool.query(`create schema if not exists ${schema}`);
+        return pool;
+      },
+    }),
+  });
+  return { db, dialect: 'postgres', location: `postgresql ${withoutPassword(url)}`, close: () => db.destroy() };
+}
+
+/**
+ * Run `work` as one write transaction of an organisation. On PostgreSQL it
+ * first takes a transaction-scoped advisory lock on the organisation, so
+ * writes of one organisation from any number of service instances go one at
+ * a time: the audit chain stays one chain, and checks such as "no overlapping
+ * reading" or "one frozen baseline" cannot race. (SQLite already runs one
+ * write transaction at a time.)
+ */
+export function writeTransaction<T>(db: Kysely<Database>, organisationId: string, work: (trx: Transaction<Database>) => Promise<T>): Promise<T> {
+  return db.transaction().execute(async (trx) => {
+    await lockOrganisation(trx, organisationId);
+    return work(trx);
+  });
+}
+
+/** Take the organisation's write lock inside a transaction (PostgreSQL; a no-op on SQLite). */
+export async function lockOrganisation(trx: Transaction<Database>, organisationId: string): Promise<void> {
+  if (trx.getExecutor().adapter instanceof PostgresAdapter) {
+    await sql`select pg_advisory_xact_lock(hashtext(${organisationId}))`.execute(trx);
+  }
 }
 
 function openSqlite(location: string): Store {

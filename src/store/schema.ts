@@ -106,9 +106,10 @@ export interface BaselinesTable {
   created_by: string;
 }
 
+/** One hash chain per organisation: (organisation_id, seq) is the key. */
 export interface AuditLogTable {
+  organisation_id: string;
   seq: number;
-  organisation_id: string | null;
   /** API key id, or "system". */
   actor: string;
   at: string;

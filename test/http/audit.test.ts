@@ -101,15 +101,22 @@ describe('verifying the chain', () => {
   it('reports an intact chain with its head', async () => {
     const response = await api.call('GET', '/v1/audit/verify', { as: 'analyst' });
     expect(response.status).toBe(200);
-    const total = await api.store.db.selectFrom('audit_log').select(sql<number>`count(*)`.as('n')).executeTakeFirstOrThrow();
-    const last = await api.store.db.selectFrom('audit_log').select(['seq', 'hash']).orderBy('seq', 'desc').limit(1).executeTakeFirstOrThrow();
+    // the organisation's own chain only: another organisation's rows are neither counted nor shown
+    const own = api.store.db.selectFrom('audit_log').where('organisation_id', '=', api.organisationId);
+    const total = await own.select(sql<number>`count(*)`.as('n')).executeTakeFirstOrThrow();
+    const last = await own.select(['seq', 'hash']).orderBy('seq', 'desc').limit(1).executeTakeFirstOrThrow();
     expect(response.json).toEqual({ ok: true, checked: Number(total.n), headSeq: last.seq, headHash: last.hash });
   });
 
   it('names the first edited row', async () => {
     const all: Entry[] = (await api.call('GET', '/v1/audit?entity=facility')).json.entries;
     const target = all[1]!;
-    await api.store.db.updateTable('audit_log').set({ after_json: '{"name":"Edited"}' }).where('seq', '=', target.seq).execute();
+    await api.store.db
+      .updateTable('audit_log')
+      .set({ after_json: '{"name":"Edited"}' })
+      .where('organisation_id', '=', api.organisationId)
+      .where('seq', '=', target.seq)
+      .execute();
     const response = await api.call('GET', '/v1/audit/verify');
     expect(response.status).toBe(200);
     expect(response.json.ok).toBe(false);

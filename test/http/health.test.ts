@@ -1,6 +1,7 @@
 /** /healthz and /readyz. Check values: the API contract (bodies and status codes, no key needed). */
 import { describe, expect, it } from 'vitest';
 import { makeTestApi } from '../support/api.js';
+import { testDialect } from '../support/database.js';
 
 describe('health', () => {
   it('answers /healthz and /readyz without a key', async () => {
@@ -11,7 +12,7 @@ describe('health', () => {
       expect(live.json).toEqual({ status: 'ok' });
       const ready = await api.call('GET', '/readyz', { as: 'none' });
       expect(ready.status).toBe(200);
-      expect(ready.json).toEqual({ status: 'ready', database: 'sqlite' });
+      expect(ready.json).toEqual({ status: 'ready', database: testDialect() });
       expect(ready.headers['x-request-id']).toEqual(expect.any(String));
     } finally {
       await api.close();

@@ -4,7 +4,7 @@ import { databaseDigest } from '../support/db-digest.js';
 import { createFacility } from '../../src/services/facilities.js';
 import { createMeter } from '../../src/services/meters.js';
 import { parseApiKey } from '../../src/store/api-keys.js';
-import { verifyAuditChain } from '../../src/store/audit.js';
+import { verifyAllAuditChains } from '../../src/store/audit.js';
 
 // Check values: synthetic (the test sets the truth) unless a comment beside one names another source.
 // Every name and scenario here is invented.
@@ -66,7 +66,7 @@ beforeEach(async () => {
 });
 
 afterEach(async () => {
-  expect((await verifyAuditChain(api.store.db)).ok).toBe(true);
+  expect((await verifyAllAuditChains(api.store.db)).ok).toBe(true);
   await api.close();
 });
 

@@ -4,7 +4,7 @@ import { databaseDigest } from '../support/db-digest.js';
 import { createFacility } from '../../src/services/facilities.js';
 import { createMeter } from '../../src/services/meters.js';
 import { parseApiKey } from '../../src/store/api-keys.js';
-import { verifyAuditChain } from '../../src/store/audit.js';
+import { verifyAllAuditChains } from '../../src/store/audit.js';
 import type { BaselineStatus } from '../../src/store/schema.js';
 
 // Check values: synthetic (the test sets the truth) unless a comment beside one names another source.
@@ -79,7 +79,7 @@ beforeEach(async () => {
 
 afterEach(async () => {
   // Whatever a test did, the audit chain must still verify.
-  expect((await verifyAuditChain(api.store.db)).ok).toBe(true);
+  expect((await verifyAllAuditChains(api.store.db)).ok).toBe(true);
   await api.close();
 });
 

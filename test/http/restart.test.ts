@@ -1,5 +1,5 @@
 /**
- * Restarting the service on the same SQLite file keeps everything: the
+ * Restarting the service on the same database (SQLite file or PostgreSQL schema) keeps everything: the
  * ledger, the frozen baseline with its hash, the keys, the audit chain and
  * the savings (byte for byte). Synthetic data: the test sets the truth.
  */
@@ -12,11 +12,16 @@ import { openStore } from '../../src/store/connect.js';
 import { migrateToLatest } from '../../src/store/migrate.js';
 import { makeTestApi, steppingClock } from '../support/api.js';
 import { databaseDigest } from '../support/db-digest.js';
+import { dropTestDatabase, freshTestDatabaseUrl, testDialect } from '../support/database.js';
 import { CLIMATES, SAMPLE_BUILDING, dailyWeather, monthlyReadings, seededRandom } from '../support/synthetic.js';
 
 const folder = mkdtempSync(join(tmpdir(), 'mvledger-restart-'));
-const databaseUrl = `sqlite:${join(folder, 'ledger.sqlite')}`;
-afterAll(() => rmSync(folder, { recursive: true, force: true }));
+// The same file (SQLite) or the same schema (PostgreSQL) is opened twice.
+const databaseUrl = testDialect() === 'postgres' ? freshTestDatabaseUrl() : `sqlite:${join(folder, 'ledger.sqlite')}`;
+afterAll(async () => {
+  rmSync(folder, { recursive: true, force: true });
+  await dropTestDatabase(databaseUrl);
+});
 
 describe('restart on the same database file', () => {
   it('keeps every row, the keys, the audit chain and the savings', async () => {

@@ -10,7 +10,7 @@ import { INSERT_CHUNK_ROWS, listReadings, postReadings } from '../../src/service
 import { assertOutsideFrozenWindows, frozenWindowsForMeter, frozenWindowsForStation, type FrozenWindow } from '../../src/services/frozen-windows.js';
 import { createStation } from '../../src/services/weather-stations.js';
 import { parseApiKey } from '../../src/store/api-keys.js';
-import { verifyAuditChain } from '../../src/store/audit.js';
+import { verifyAllAuditChains } from '../../src/store/audit.js';
 import type { BaselineStatus } from '../../src/store/schema.js';
 
 // Check values: synthetic (the test sets the truth) unless a comment beside one names another source.
@@ -78,7 +78,7 @@ beforeEach(async () => {
 });
 
 afterEach(async () => {
-  expect((await verifyAuditChain(api.store.db)).ok).toBe(true);
+  expect((await verifyAllAuditChains(api.store.db)).ok).toBe(true);
   await api.close();
 });
 

@@ -9,6 +9,7 @@ import { migrateToLatest } from '../../src/store/migrate.js';
 import { buildApp } from '../../src/http/app.js';
 import { createKey, createOrganisation } from '../../src/services/organisations.js';
 import type { Role } from '../../src/store/schema.js';
+import { dropTestDatabase, freshTestDatabaseUrl } from './database.js';
 
 export interface TestApi {
   app: FastifyInstance;
@@ -46,8 +47,14 @@ export function steppingClock(start = Date.parse('2026-01-01T00:00:00.000Z')): (
   return () => new Date(start + clockTick++).toISOString();
 }
 
+/**
+ * `databaseUrl` defaults to a fresh database of the project under test
+ * (in-memory SQLite, or a new PostgreSQL schema that close() drops); a
+ * given URL is left in place on close.
+ */
 export async function makeTestApi(options: { databaseUrl?: string; now?: () => string } = {}): Promise<TestApi> {
-  const store = openStore(options.databaseUrl ?? 'sqlite::memory:');
+  const databaseUrl = options.databaseUrl ?? freshTestDatabaseUrl();
+  const store = openStore(databaseUrl);
   await migrateToLatest(store.db);
   const now = options.now ?? steppingClock();
   const org = await createOrganisation(store.db, 'Organisation A (test)', now());
@@ -93,6 +100,7 @@ export async function makeTestApi(options: { databaseUrl?: string; now?: () => s
     close: async () => {
       await app.close();
       await store.close();
+      if (options.databaseUrl === undefined) await dropTestDatabase(databaseUrl);
     },
   };
 }

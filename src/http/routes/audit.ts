@@ -44,6 +44,6 @@ export function auditRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: chainVerdictSchema, ...authProblems },
       },
     },
-    async () => verifyAudit(deps.store.db),
+    async (request) => verifyAudit(deps.store.db, request.principal!.organisationId),
   );
 }
