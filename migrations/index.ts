@@ -4,7 +4,9 @@
  */
 import type { Migration } from 'kysely';
 import * as ledger0001 from './0001_ledger.js';
+import * as oneFrozen0002 from './0002_one_frozen_baseline.js';
 
 export const migrations: Record<string, Migration> = {
   '0001_ledger': ledger0001,
+  '0002_one_frozen_baseline': oneFrozen0002,
 };

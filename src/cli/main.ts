@@ -8,7 +8,8 @@ import { parseFitOptions, parseSavingsOptions } from './options.js';
 import { runFit } from './commands/fit.js';
 import { runSavings } from './commands/savings.js';
 import { runKeys } from './commands/keys.js';
-import { FIT_USAGE, GENERAL_USAGE, KEYS_USAGE, SAVINGS_USAGE } from './usage.js';
+import { runExport, runImport } from './commands/transfer.js';
+import { EXPORT_USAGE, FIT_USAGE, GENERAL_USAGE, IMPORT_USAGE, KEYS_USAGE, SAVINGS_USAGE } from './usage.js';
 
 export interface CliIO {
   stdout(text: string): void;
@@ -45,7 +46,14 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
       if (output.note) io.stderr(output.note);
       return 0;
     }
-    io.stderr(`mvledger: unknown command ${JSON.stringify(command)} (commands: fit, savings, keys, help)\n`);
+    if (command === 'export' || command === 'import') {
+      // The whole document is built and checked first: on an error stdout stays empty.
+      const output = command === 'export' ? await runExport(rest) : await runImport(rest);
+      io.stdout(output.stdout);
+      if (output.note) io.stderr(output.note);
+      return 0;
+    }
+    io.stderr(`mvledger: unknown command ${JSON.stringify(command)} (commands: fit, savings, keys, export, import, help)\n`);
     return EXIT_BAD_INPUT;
   } catch (error) {
     if (error instanceof UsageError || error instanceof InputFileError) {
@@ -62,5 +70,7 @@ function helpFor(topic: string | undefined): string {
   if (topic === 'fit') return FIT_USAGE;
   if (topic === 'savings') return SAVINGS_USAGE;
   if (topic === 'keys') return KEYS_USAGE;
+  if (topic === 'export') return EXPORT_USAGE;
+  if (topic === 'import') return IMPORT_USAGE;
   return GENERAL_USAGE;
 }

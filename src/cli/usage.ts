@@ -46,17 +46,48 @@ Manage API keys directly in the database named by DATABASE_URL
   revoke ID           the key answers 401 from then on
 `;
 
+export const EXPORT_USAGE = `Usage: mvledger export --org ID [--out FILE]
+
+Write one organisation of the database named by DATABASE_URL (default
+sqlite:./var/mvledger.sqlite; its schema is brought up to date first) as one
+JSON document, format mvledger-export version 1: every row of its API keys,
+weather stations and observations, facilities, meters, readings, baselines and
+audit trail, exactly as stored, with the head of its audit chain. API keys
+travel as hashes only; idempotency keys stay behind. A row count per table goes
+to stderr.
+
+  --org ID            the organisation to export
+  --out FILE          write the document to FILE (default: stdout)
+`;
+
+export const IMPORT_USAGE = `Usage: mvledger import --in FILE
+
+Add an organisation written by mvledger export to the database named by
+DATABASE_URL (default sqlite:./var/mvledger.sqlite), bringing its schema up to
+date first. The document is checked before anything is stored: its audit chain
+must recompute to the head it states and every frozen baseline must match its
+content hash. An organisation already in the database is refused. Everything is
+stored in one transaction and checked again there, or nothing is stored. API
+keys keep working. A row count per table goes to stderr.
+
+  --in FILE           the document to import
+`;
+
 export const GENERAL_USAGE = `mvledger: weather-normalised baselines and avoided energy (IPMVP whole-facility option, ASHRAE Guideline 14 methods)
 
 Usage:
   mvledger fit --readings FILE --weather FILE [options]
   mvledger savings --baseline FILE --reporting FILE --weather FILE [options]
   mvledger keys create|list|revoke ...
-  mvledger help [fit|savings|keys]
+  mvledger export --org ID [--out FILE]
+  mvledger import --in FILE
+  mvledger help [fit|savings|keys|export|import]
 
 Dates are ISO (YYYY-MM-DD). Bad input is reported as one line naming the file,
 the CSV row (header = row 1) and the field, with exit code 2.
 
 ${FIT_USAGE}
 ${SAVINGS_USAGE}
-${KEYS_USAGE}`;
+${KEYS_USAGE}
+${EXPORT_USAGE}
+${IMPORT_USAGE}`;

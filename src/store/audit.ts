@@ -82,6 +82,33 @@ export interface ChainVerdict {
   broken?: { organisationId: string; seq: number; reason: string };
 }
 
+/** Why `row` cannot follow a chain whose last row is `expectedSeq - 1` with hash `prevHash`; null when it can. */
+function auditRowFault(row: AuditRow, expectedSeq: number, prevHash: string): string | null {
+  if (row.seq !== expectedSeq) return `row ${expectedSeq} is missing (next row is ${row.seq})`;
+  if (row.prev_hash !== prevHash) return 'its previous-hash does not match the row before it';
+  if (rowDigest(prevHash, row) !== row.hash) return 'its content does not match its hash (the row was edited)';
+  return null;
+}
+
+/**
+ * The same walk over rows held in memory (an export file's audit_log), in
+ * the order given, which must be sequence order. A row of another
+ * organisation breaks the chain.
+ */
+export function verifyAuditRows(organisationId: string, rows: Iterable<AuditRow>): ChainVerdict {
+  let expectedSeq = 1;
+  let prevHash = GENESIS_HASH;
+  let checked = 0;
+  for (const row of rows) {
+    const reason = row.organisation_id !== organisationId ? `it belongs to organisation ${row.organisation_id}` : auditRowFault(row, expectedSeq, prevHash);
+    if (reason !== null) return { ok: false, checked, headHash: prevHash, headSeq: expectedSeq - 1, broken: { organisationId, seq: row.seq, reason } };
+    prevHash = row.hash;
+    expectedSeq++;
+    checked++;
+  }
+  return { ok: true, checked, headHash: prevHash, headSeq: expectedSeq - 1 };
+}
+
 /** Walk one organisation's chain in sequence order, a page at a time. */
 export async function verifyAuditChain(db: Executor, organisationId: string, pageSize = 2000): Promise<ChainVerdict> {
   let expectedSeq = 1;
@@ -97,10 +124,8 @@ export async function verifyAuditChain(db: Executor, organisationId: string, pag
       .limit(pageSize)
       .execute();
     for (const row of page) {
-      const fail = (reason: string): ChainVerdict => ({ ok: false, checked, headHash: prevHash, headSeq: expectedSeq - 1, broken: { organisationId, seq: row.seq, reason } });
-      if (row.seq !== expectedSeq) return fail(`row ${expectedSeq} is missing (next row is ${row.seq})`);
-      if (row.prev_hash !== prevHash) return fail('its previous-hash does not match the row before it');
-      if (rowDigest(prevHash, row) !== row.hash) return fail('its content does not match its hash (the row was edited)');
+      const reason = auditRowFault(row, expectedSeq, prevHash);
+      if (reason !== null) return { ok: false, checked, headHash: prevHash, headSeq: expectedSeq - 1, broken: { organisationId, seq: row.seq, reason } };
       prevHash = row.hash;
       expectedSeq++;
       checked++;

@@ -118,11 +118,42 @@ function openSqlite(location: string): Store {
   connection.pragma('foreign_keys = ON');
   connection.pragma(`busy_timeout = ${SQLITE_BUSY_TIMEOUT_MS}`);
   connection.pragma('synchronous = NORMAL');
-  const db = new Kysely<Database>({ dialect: new SqliteDialect({ database: connection }) });
+  const db = new Kysely<Database>({ dialect: new SqliteDialect({ database: withStatementCache(connection) }) });
   return {
     db,
     dialect: 'sqlite',
     location: inMemory ? 'sqlite (in memory)' : `sqlite file ${path}`,
     close: () => db.destroy(),
   };
+}
+
+/** How many distinct SQL texts keep a prepared statement (the API issues a few dozen shapes). */
+const STATEMENT_CACHE_SIZE = 500;
+
+/**
+ * kysely prepares every query afresh; better-sqlite3 statements can be reused
+ * (the driver runs each one to completion before the next), so keep the
+ * prepared statement per SQL text, least recently used dropped first.
+ */
+function withStatementCache(connection: SQLite.Database): SQLite.Database {
+  const cache = new Map<string, SQLite.Statement>();
+  const prepare = (source: string): SQLite.Statement => {
+    const cached = cache.get(source);
+    if (cached) {
+      cache.delete(source);
+      cache.set(source, cached);
+      return cached;
+    }
+    const statement = connection.prepare(source);
+    cache.set(source, statement);
+    if (cache.size > STATEMENT_CACHE_SIZE) cache.delete(cache.keys().next().value!);
+    return statement;
+  };
+  return new Proxy(connection, {
+    get(target, property, receiver) {
+      if (property === 'prepare') return prepare;
+      const value = Reflect.get(target, property, receiver);
+      return typeof value === 'function' ? value.bind(target) : value;
+    },
+  });
 }

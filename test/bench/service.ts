@@ -1,11 +1,13 @@
 /**
  * Service benchmark (npm run bench): the HTTP service in its own process on
- * loopback, on a fresh SQLite file.
+ * loopback, on a fresh SQLite file and, when a server answers, on a fresh
+ * PostgreSQL schema: the same load on both, reported side by side.
  *
  * 1. Ingest 100,000 daily readings (10 meters × 10,000 days) in batches
  *    through POST /v1/meters/{id}/readings; beside it, the plain reference:
- *    the same rows inserted by one prepared better-sqlite3 statement in one
- *    transaction (the floor no API can beat).
+ *    the same rows written straight into the same database with no HTTP and
+ *    no checks (one prepared statement for SQLite, multi-row INSERTs for
+ *    PostgreSQL), one transaction per meter.
  * 2. Serve GET /v1/meters/{id}/savings for a 36-month meter (24 baseline and
  *    12 reporting bills) under concurrent load with autocannon; beside it, the
  *    same savings computed in-process by the engine alone.
@@ -18,9 +20,11 @@ import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import autocannon from 'autocannon';
 import SQLite from 'better-sqlite3';
+import pg from 'pg';
 import { addDays, analyseBaseline, savingsFromFit } from '../../src/engine/index.js';
 import { BASELINE_END, BASELINE_START, DEMO_FACILITIES, REPORTING_END, demoBills, demoWeather } from '../../src/demo/scenario.js';
 import { median, quantile } from './timing.js';
+import { postgresReachable, testPostgresUrl } from '../support/database.js';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const WORK = join(ROOT, 'var', 'bench');
@@ -41,10 +45,10 @@ async function freePort(): Promise<number> {
   });
 }
 
-async function startServer(databaseFile: string): Promise<{ child: ChildProcess; base: string }> {
+async function startServer(databaseUrl: string): Promise<{ child: ChildProcess; base: string }> {
   const port = await freePort();
   const child = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'src', 'server.ts')], {
-    env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', DATABASE_URL: `sqlite:${databaseFile}`, LOG_LEVEL: 'warn', MVLEDGER_BOOTSTRAP_KEY: BOOTSTRAP_KEY },
+    env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', DATABASE_URL: databaseUrl, LOG_LEVEL: 'warn', MVLEDGER_BOOTSTRAP_KEY: BOOTSTRAP_KEY },
     stdio: ['ignore', 'inherit', 'inherit'],
   });
   const base = `http://127.0.0.1:${port}`;
@@ -80,7 +84,7 @@ function dailyReadings(meterIndex: number): { start: string; end: string; quanti
   return out;
 }
 
-function referenceInsert(file: string): number {
+function referenceInsertSqlite(file: string): number {
   const db = new SQLite(file);
   db.pragma('journal_mode = WAL');
   db.exec('create table readings (meter_id text, period_start text, period_end text, quantity real, estimated integer, cost real, created_at text, updated_at text, primary key (meter_id, period_start, period_end))');
@@ -98,10 +102,67 @@ function referenceInsert(file: string): number {
   return ms;
 }
 
+async function referenceInsertPostgres(url: string, schema: string): Promise<number> {
+  const client = new pg.Client({ connectionString: url });
+  await client.connect();
+  try {
+    await client.query(`create schema ${schema}`);
+    await client.query(`create table ${schema}.readings (meter_id text, period_start text, period_end text, quantity double precision, estimated integer, cost double precision, created_at text, updated_at text, primary key (meter_id, period_start, period_end))`);
+    const now = new Date().toISOString();
+    const started = performance.now();
+    for (let m = 0; m < METERS; m++) {
+      const rows = dailyReadings(m);
+      await client.query('begin');
+      for (let i = 0; i < rows.length; i += 1000) {
+        const chunk = rows.slice(i, i + 1000);
+        const values: unknown[] = [];
+        const tuples = chunk.map((r, k) => {
+          values.push(`m${m}`, r.start, r.end, r.quantity, now, now);
+          const b = k * 6;
+          return `($${b + 1}, $${b + 2}, $${b + 3}, $${b + 4}, 0, null, $${b + 5}, $${b + 6})`;
+        });
+        await client.query(`insert into ${schema}.readings values ${tuples.join(', ')}`, values);
+      }
+      await client.query('commit');
+    }
+    return performance.now() - started;
+  } finally {
+    await client.query(`drop schema if exists ${schema} cascade`).catch(() => {});
+    await client.end();
+  }
+}
+
+interface ScenarioResult {
+  database: string;
+  ingestion: Record<string, unknown> & { readingsPerSecond: number; referenceReadingsPerSecond: number; ratioToReference: number; medianBatchMs: number; seconds: number; pass: boolean };
+  savings: Record<string, unknown> & { requestsPerSecond: number; p50Ms: number; p99Ms: number; non2xx: number; errors: number; pass: boolean };
+}
+
 async function main(): Promise<void> {
   rmSync(WORK, { recursive: true, force: true });
   mkdirSync(WORK, { recursive: true });
-  const { child, base } = await startServer(join(WORK, 'service.sqlite'));
+  const runs: ScenarioResult[] = [];
+  runs.push(await scenario('SQLite', `sqlite:${join(WORK, 'service.sqlite')}`, () => Promise.resolve(referenceInsertSqlite(join(WORK, 'reference.sqlite')))));
+  if (await postgresReachable()) {
+    const suffix = `${process.pid}_${Date.now().toString(36)}`;
+    const url = new URL(testPostgresUrl());
+    url.searchParams.set('schema', `mvl_bench_${suffix}`);
+    try {
+      runs.push(await scenario('PostgreSQL', url.toString(), () => referenceInsertPostgres(testPostgresUrl(), `mvl_benchref_${suffix}`)));
+    } finally {
+      const client = new pg.Client({ connectionString: testPostgresUrl() });
+      await client.connect();
+      await client.query(`drop schema if exists mvl_bench_${suffix} cascade`);
+      await client.end();
+    }
+  } else {
+    process.stdout.write(`PostgreSQL does not answer at ${testPostgresUrl()}: the service benchmark ran on SQLite only\n`);
+  }
+  report(runs);
+}
+
+async function scenario(database: string, databaseUrl: string, reference: () => Promise<number>): Promise<ScenarioResult> {
+  const { child, base } = await startServer(databaseUrl);
   try {
     const station = await api(base, 'POST', '/v1/weather-stations', { name: 'Bench station (invented)', temperatureUnit: 'F' });
     const facility = await api(base, 'POST', '/v1/facilities', { name: 'Bench facility (invented)' });
@@ -124,7 +185,7 @@ async function main(): Promise<void> {
     }
     const ingestMs = performance.now() - ingestStart;
     const total = METERS * DAYS_PER_METER;
-    const referenceMs = referenceInsert(join(WORK, 'reference.sqlite'));
+    const referenceMs = await reference();
 
     // 2. Savings under load: one demo meter, 24 baseline + 12 reporting bills.
     const weather = demoWeather();
@@ -152,8 +213,8 @@ async function main(): Promise<void> {
       engineMs.push(performance.now() - started);
     }
 
-    const results = {
-      node: process.version,
+    const results: ScenarioResult = {
+      database,
       ingestion: {
         readings: total,
         batchSize: BATCH,
@@ -180,25 +241,30 @@ async function main(): Promise<void> {
         pass: load.requests.average >= 1000 && load.latency.p99 < 25 && load.non2xx === 0,
       },
     };
-    const i = results.ingestion;
-    const s = results.savings;
-    process.stdout.write(
-      [
-        'Service benchmark (loopback, SQLite file, service in its own process; invented data)',
-        `  ingestion: ${i.readings.toLocaleString('en-US')} daily readings in batches of ${i.batchSize}: ${i.seconds.toFixed(2)} s → ${Math.round(i.readingsPerSecond).toLocaleString('en-US')} readings/s (median batch ${i.medianBatchMs.toFixed(1)} ms)`,
-        `    reference (one prepared statement, one transaction per meter, no HTTP, no checks): ${Math.round(i.referenceReadingsPerSecond).toLocaleString('en-US')} readings/s; API at ${(i.ratioToReference * 100).toFixed(0)}% of it`,
-        `    target ${i.target}: ${i.pass ? 'PASS' : 'MISS'}`,
-        `  savings: ${s.connections} connections for ${s.seconds} s: ${Math.round(s.requestsPerSecond).toLocaleString('en-US')} requests/s, p50 ${s.p50Ms} ms, p99 ${s.p99Ms} ms, non-2xx ${s.non2xx}, errors ${s.errors}`,
-        `    reference (the engine alone, in-process): median ${s.engineAloneMedianMs.toFixed(3)} ms, p99 ${s.engineAloneP99Ms.toFixed(3)} ms per savings computation`,
-        `    target ${s.target}: ${s.pass ? 'PASS' : 'MISS'}`,
-        '',
-      ].join('\n'),
-    );
-    mkdirSync(join(import.meta.dirname, 'results'), { recursive: true });
-    writeFileSync(join(import.meta.dirname, 'results', 'service-latest.json'), `${JSON.stringify(results, null, 2)}\n`);
+    return results;
   } finally {
     child.kill('SIGTERM');
   }
+}
+
+function report(runs: ScenarioResult[]): void {
+  const lines = ['Service benchmark (loopback; the service in its own process; invented data)'];
+  for (const run of runs) {
+    const i = run.ingestion;
+    const v = run.savings;
+    lines.push(`  ${run.database}`);
+    lines.push(
+      `    ingestion: ${(i.readings as number).toLocaleString('en-US')} daily readings in batches of ${i.batchSize}: ${i.seconds.toFixed(2)} s → ${Math.round(i.readingsPerSecond).toLocaleString('en-US')} readings/s (median batch ${i.medianBatchMs.toFixed(1)} ms)`,
+    );
+    lines.push(`      reference (the same rows written straight in, no HTTP, no checks): ${Math.round(i.referenceReadingsPerSecond).toLocaleString('en-US')} readings/s; the API reaches ${(i.ratioToReference * 100).toFixed(0)}% of it`);
+    lines.push(`      target ${i.target}: ${i.pass ? 'PASS' : 'MISS'}`);
+    lines.push(`    savings: ${v.connections} connections for ${v.seconds} s: ${Math.round(v.requestsPerSecond).toLocaleString('en-US')} requests/s, p50 ${v.p50Ms} ms, p99 ${v.p99Ms} ms, non-2xx ${v.non2xx}, errors ${v.errors}`);
+    lines.push(`      reference (the engine alone, in-process): median ${(v.engineAloneMedianMs as number).toFixed(3)} ms, p99 ${(v.engineAloneP99Ms as number).toFixed(3)} ms per savings computation`);
+    lines.push(`      target ${v.target}: ${v.pass ? 'PASS' : 'MISS'}`);
+  }
+  process.stdout.write(`${lines.join('\n')}\n`);
+  mkdirSync(join(import.meta.dirname, 'results'), { recursive: true });
+  writeFileSync(join(import.meta.dirname, 'results', 'service-latest.json'), `${JSON.stringify({ node: process.version, ranAt: new Date().toISOString(), runs }, null, 2)}\n`);
 }
 
 await main();
