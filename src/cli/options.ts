@@ -13,7 +13,8 @@ import {
   type ModelName,
   type TemperatureUnit,
 } from '../engine/index.js';
-import { UsageError, oneLine } from './errors.js';
+import { UsageError } from './errors.js';
+import { describeParseError } from './shared.js';
 
 export interface CommonOptions {
   weather: string;
@@ -131,20 +132,4 @@ function modelOption(value: string | boolean | undefined): ModelName | null {
   const model = MODEL_NAMES.find((m) => m === name);
   if (!model) throw new UsageError(`--model must be one of ${MODEL_NAMES.join(', ')}, got ${JSON.stringify(value)}`);
   return model;
-}
-
-function describeParseError(error: unknown): string {
-  const code = (error as { code?: unknown })?.code;
-  const message = error instanceof Error ? error.message : String(error);
-  const quoted = /'([^']+)'/.exec(message)?.[1];
-  switch (code) {
-    case 'ERR_PARSE_ARGS_UNKNOWN_OPTION':
-      return `unknown option ${quoted ?? ''}`.trim();
-    case 'ERR_PARSE_ARGS_UNEXPECTED_POSITIONAL':
-      return `unexpected argument ${quoted ?? ''}`.trim();
-    case 'ERR_PARSE_ARGS_INVALID_OPTION_VALUE':
-      return quoted && /argument missing/.test(message) ? `option ${quoted.replace(/ <value>$/, '')} needs a value` : oneLine(message);
-    default:
-      return oneLine(message.split('\n')[0] ?? message);
-  }
 }

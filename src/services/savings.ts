@@ -19,7 +19,8 @@ import {
 } from '../engine/index.js';
 import { Problem } from '../http/problem.js';
 import type { BaselineRow } from '../store/schema.js';
-import { fromStoredJson, nonFiniteToNull, verifyBaselineContent, type BaselineFitOptions } from './baselines.js';
+import { fromStoredJson, nonFiniteToNull, verifyBaselineContent } from '../store/baseline-content.js';
+import type { BaselineFitOptions } from './baselines.js';
 import type { Executor } from './context.js';
 import { getMeterRow } from './meters.js';
 import { loadReadings, loadWeatherFor } from './meter-data.js';

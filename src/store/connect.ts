@@ -79,12 +79,27 @@ function openPostgres(url: string): Store {
   const db = new Kysely<Database>({
     dialect: new PostgresDialect({
       pool: async () => {
-        if (schema) await pool.query(`create schema if not exists ${schema}`);
+        if (schema) await createSchemaIfMissing(pool, schema);
         return pool;
       },
     }),
   });
   return { db, dialect: 'postgres', location: `postgresql ${withoutPassword(url)}`, close: () => db.destroy() };
+}
+
+/**
+ * `create schema if not exists` still fails (unique violation on the schema
+ * name) when another process creates the same schema at that moment, as
+ * instances starting together on a new schema do; the schema then exists,
+ * which is all that is needed.
+ */
+async function createSchemaIfMissing(pool: pg.Pool, schema: string): Promise<void> {
+  try {
+    await pool.query(`create schema if not exists ${schema}`);
+  } catch (error) {
+    const found = await pool.query('select 1 from pg_namespace where nspname = $1', [schema]);
+    if (found.rowCount === 0) throw error;
+  }
 }
 
 /**

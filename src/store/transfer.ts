@@ -13,7 +13,7 @@
  * Idempotency keys are transient and stay behind.
  */
 import { PostgresAdapter, type Kysely, type Transaction } from 'kysely';
-import { verifyBaselineContent } from '../services/baselines.js';
+import { verifyBaselineContent } from './baseline-content.js';
 import { ROLES } from './api-keys.js';
 import { GENESIS_HASH, verifyAuditChain, verifyAuditRows, type ChainVerdict } from './audit.js';
 import { writeTransaction } from './connect.js';

@@ -18,7 +18,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runDemo, type DemoSeed } from '../../src/demo/main.js';
 import { buildApp } from '../../src/http/app.js';
 import { canonicalJson } from '../../src/lib/canonical-json.js';
-import { verifyBaselineContent } from '../../src/services/baselines.js';
+import { verifyBaselineContent } from '../../src/store/baseline-content.js';
 import { authenticate } from '../../src/store/api-keys.js';
 import { verifyAuditChain } from '../../src/store/audit.js';
 import { openStore, type Store } from '../../src/store/connect.js';

@@ -5,15 +5,14 @@
  * changes are audited with the actor "system". The token is printed once,
  * alone on stdout, so `TOKEN=$(mvledger keys create ...)` captures it.
  */
-import { parseArgs } from 'node:util';
-import { DatabaseUrlError, openStore, type Store } from '../../store/connect.js';
-import { migrateToLatest } from '../../store/migrate.js';
+import type { Store } from '../../store/connect.js';
 import { ROLES } from '../../store/api-keys.js';
 import type { Role } from '../../store/schema.js';
 import { createKey, createOrganisation } from '../../services/organisations.js';
 import { listKeysForOperator, revokeKeyAsOperator } from '../../services/api-keys.js';
 import { renderTable } from '../format/table.js';
-import { UsageError, oneLine } from '../errors.js';
+import { UsageError } from '../errors.js';
+import { parseOptions, withDatabase } from '../shared.js';
 
 export const DEFAULT_DATABASE_URL = 'sqlite:./var/mvledger.sqlite';
 const MAX_NAME_LENGTH = 200;
@@ -60,17 +59,7 @@ export async function runKeys(args: readonly string[], env: NodeJS.ProcessEnv = 
 }
 
 function parseStrict(args: readonly string[], subcommand: Subcommand): { values: Values; positionals: string[] } {
-  try {
-    const parsed = parseArgs({ args: [...args], options: SPECS[subcommand], strict: true, allowPositionals: true });
-    return { values: parsed.values as Values, positionals: parsed.positionals };
-  } catch (error) {
-    const message = error instanceof Error ? error.message : String(error);
-    const quoted = /'([^']+)'/.exec(message)?.[1];
-    const code = (error as { code?: unknown }).code;
-    if (code === 'ERR_PARSE_ARGS_UNKNOWN_OPTION') throw new UsageError(`unknown option ${quoted ?? ''}`.trim());
-    if (code === 'ERR_PARSE_ARGS_INVALID_OPTION_VALUE' && quoted) throw new UsageError(`option ${quoted.replace(/ <value>$/, '')} needs a value`);
-    throw new UsageError(oneLine(message.split('\n')[0] ?? message));
-  }
+  return parseOptions(args, SPECS[subcommand], true);
 }
 
 function noPositionals(positionals: readonly string[]): void {
@@ -109,20 +98,8 @@ function createInput(values: Values, positionals: readonly string[]): CreateInpu
   return { organisation: orgId !== undefined ? { id: orgId } : { newName: orgName! }, role, name };
 }
 
-async function withStore(env: NodeJS.ProcessEnv, work: (store: Store) => Promise<KeysOutput>): Promise<KeysOutput> {
-  let store: Store;
-  try {
-    store = openStore(env.DATABASE_URL ?? DEFAULT_DATABASE_URL);
-  } catch (error) {
-    if (error instanceof DatabaseUrlError) throw new UsageError(error.message);
-    throw error;
-  }
-  try {
-    await migrateToLatest(store.db);
-    return await work(store);
-  } finally {
-    await store.close();
-  }
+function withStore(env: NodeJS.ProcessEnv, work: (store: Store) => Promise<KeysOutput>): Promise<KeysOutput> {
+  return withDatabase(env.DATABASE_URL ?? DEFAULT_DATABASE_URL, work);
 }
 
 async function create(store: Store, input: CreateInput, at: string): Promise<KeysOutput> {

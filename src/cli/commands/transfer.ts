@@ -6,13 +6,12 @@
  * reports one line per table on stderr (row counts only, never a secret).
  */
 import { existsSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs';
-import { parseArgs } from 'node:util';
-import { DatabaseUrlError, openStore, parseDatabaseUrl, type Store } from '../../store/connect.js';
-import { migrateToLatest } from '../../store/migrate.js';
+import { DatabaseUrlError, parseDatabaseUrl, type Store } from '../../store/connect.js';
 import { TRANSFER_TABLES, TransferInputError, exportOrganisation, importOrganisation, type TransferTable } from '../../store/transfer.js';
-import { UsageError, oneLine } from '../errors.js';
+import { UsageError } from '../errors.js';
 import { EXPORT_USAGE, IMPORT_USAGE } from '../usage.js';
 import { DEFAULT_DATABASE_URL } from './keys.js';
+import { parseOptions, withDatabase } from '../shared.js';
 
 /** `stdout` is the result; `note` goes to stderr. */
 export interface TransferOutput {
@@ -77,19 +76,9 @@ function asUsage(prefix: string): (error: unknown) => never {
 }
 
 function parseStrict(args: readonly string[], spec: typeof EXPORT_SPEC | typeof IMPORT_SPEC): Values {
-  try {
-    const parsed = parseArgs({ args: [...args], options: spec, strict: true, allowPositionals: true });
-    if (parsed.positionals.length > 0) throw new UsageError(`unexpected argument ${parsed.positionals[0]}`);
-    return parsed.values as Values;
-  } catch (error) {
-    if (error instanceof UsageError) throw error;
-    const message = error instanceof Error ? error.message : String(error);
-    const quoted = /'([^']+)'/.exec(message)?.[1];
-    const code = (error as { code?: unknown }).code;
-    if (code === 'ERR_PARSE_ARGS_UNKNOWN_OPTION') throw new UsageError(`unknown option ${quoted ?? ''}`.trim());
-    if (code === 'ERR_PARSE_ARGS_INVALID_OPTION_VALUE' && quoted) throw new UsageError(`option ${quoted.replace(/ <value>$/, '')} needs a value`);
-    throw new UsageError(oneLine(message.split('\n')[0] ?? message));
-  }
+  const { values, positionals } = parseOptions(args, spec, true);
+  if (positionals.length > 0) throw new UsageError(`unexpected argument ${positionals[0]}`);
+  return values as Values;
 }
 
 function requiredText(values: Values, option: string, whenMissing: string): string {
@@ -142,18 +131,6 @@ function writeWhole(file: string, text: string): void {
   }
 }
 
-async function withStore(databaseUrl: string, work: (store: Store) => Promise<TransferOutput>): Promise<TransferOutput> {
-  let store: Store;
-  try {
-    store = openStore(databaseUrl);
-  } catch (error) {
-    if (error instanceof DatabaseUrlError) throw new UsageError(error.message);
-    throw error;
-  }
-  try {
-    await migrateToLatest(store.db);
-    return await work(store);
-  } finally {
-    await store.close();
-  }
+function withStore(databaseUrl: string, work: (store: Store) => Promise<TransferOutput>): Promise<TransferOutput> {
+  return withDatabase(databaseUrl, work);
 }

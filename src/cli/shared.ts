@@ -1,0 +1,58 @@
+/**
+ * Pieces the operator commands (keys, export, import) share: strict option
+ * parsing that turns node's errors into one-line usage errors, and opening
+ * the database named by DATABASE_URL (migrated first, closed after).
+ */
+import { parseArgs, type ParseArgsConfig } from 'node:util';
+import { DatabaseUrlError, openStore, type Store } from '../store/connect.js';
+import { migrateToLatest } from '../store/migrate.js';
+import { oneLine, UsageError } from './errors.js';
+
+export type OptionValues = Record<string, string | boolean | undefined>;
+
+/** parseArgs with strict options; every failure becomes a UsageError in plain words. */
+export function parseOptions(
+  args: readonly string[],
+  options: NonNullable<ParseArgsConfig['options']>,
+  allowPositionals: boolean,
+): { values: OptionValues; positionals: string[] } {
+  try {
+    const parsed = parseArgs({ args: [...args], options, strict: true, allowPositionals });
+    return { values: parsed.values as OptionValues, positionals: parsed.positionals };
+  } catch (error) {
+    throw new UsageError(describeParseError(error));
+  }
+}
+
+export function describeParseError(error: unknown): string {
+  const code = (error as { code?: unknown })?.code;
+  const message = error instanceof Error ? error.message : String(error);
+  const quoted = /'([^']+)'/.exec(message)?.[1];
+  switch (code) {
+    case 'ERR_PARSE_ARGS_UNKNOWN_OPTION':
+      return `unknown option ${quoted ?? ''}`.trim();
+    case 'ERR_PARSE_ARGS_UNEXPECTED_POSITIONAL':
+      return `unexpected argument ${quoted ?? ''}`.trim();
+    case 'ERR_PARSE_ARGS_INVALID_OPTION_VALUE':
+      return quoted ? `option ${quoted.replace(/ <value>$/, '')} needs a value` : oneLine(message);
+    default:
+      return oneLine(message.split('\n')[0] ?? message);
+  }
+}
+
+/** Open the database, bring its schema up to date, run `work`, close. A bad DATABASE_URL is a usage error. */
+export async function withDatabase<T>(databaseUrl: string, work: (store: Store) => Promise<T>): Promise<T> {
+  let store: Store;
+  try {
+    store = openStore(databaseUrl);
+  } catch (error) {
+    if (error instanceof DatabaseUrlError) throw new UsageError(error.message);
+    throw error;
+  }
+  try {
+    await migrateToLatest(store.db);
+    return await work(store);
+  } finally {
+    await store.close();
+  }
+}

@@ -1,0 +1,87 @@
+/**
+ * How a baseline is kept: its JSON columns and its content hash.
+ *
+ * Stored JSON. Fits may hold NaN or ±Infinity (a t-statistic of an exact fit,
+ * an undefined autocorrelation); plain JSON would turn them into null and a
+ * stored model would no longer be the fitted one. They are stored as
+ * {"$nonFinite": "NaN"} and restored on reading; keys are sorted so equal
+ * content gives equal text.
+ */
+import { canonicalJson, sha256Hex } from '../lib/canonical-json.js';
+import type { BaselineRow } from './schema.js';
+
+const NON_FINITE = '$nonFinite';
+
+function tagNonFinite(value: unknown): unknown {
+  if (typeof value === 'number') return Number.isFinite(value) ? value : { [NON_FINITE]: String(value) };
+  if (Array.isArray(value)) return value.map(tagNonFinite);
+  if (value !== null && typeof value === 'object') {
+    const out: Record<string, unknown> = {};
+    for (const [key, entry] of Object.entries(value)) out[key] = tagNonFinite(entry);
+    return out;
+  }
+  return value;
+}
+
+function isNonFiniteTag(value: unknown): value is Record<typeof NON_FINITE, string> {
+  if (value === null || typeof value !== 'object' || Array.isArray(value)) return false;
+  const keys = Object.keys(value);
+  return keys.length === 1 && keys[0] === NON_FINITE && typeof (value as Record<string, unknown>)[NON_FINITE] === 'string';
+}
+
+/** Canonical JSON that keeps NaN and ±Infinity. */
+export function toStoredJson(value: unknown): string {
+  return canonicalJson(tagNonFinite(value));
+}
+
+/** Parse stored JSON back to the exact values, non-finite numbers restored. */
+export function fromStoredJson<T>(text: string): T {
+  return JSON.parse(text, (_key, value: unknown) => (isNonFiniteTag(value) ? Number(value[NON_FINITE]) : value)) as T;
+}
+
+/** Parse stored JSON for an API response: non-finite numbers become null (JSON has no NaN). */
+export function forResponse<T>(text: string): T {
+  return JSON.parse(text, (_key, value: unknown) => (isNonFiniteTag(value) ? null : value)) as T;
+}
+
+/** A deep copy with every non-finite number replaced by null, for JSON responses. */
+export function nonFiniteToNull<T>(value: T): T {
+  if (typeof value === 'number') return (Number.isFinite(value) ? value : null) as T;
+  if (Array.isArray(value)) return value.map(nonFiniteToNull) as T;
+  if (value !== null && typeof value === 'object') {
+    const out: Record<string, unknown> = {};
+    for (const [key, entry] of Object.entries(value)) out[key] = nonFiniteToNull(entry);
+    return out as T;
+  }
+  return value;
+}
+
+/**
+ * Content hash: SHA-256 of the canonical JSON of everything the frozen
+ * baseline's figures rest on, read back from the stored columns:
+ * { meterId, start, end, options, inputs, document, chosen: { model, reason, fit } }.
+ */
+export function baselineContentHash(row: BaselineRow): string {
+  const fits = JSON.parse(row.fits_json) as Record<string, unknown>;
+  return sha256Hex(
+    canonicalJson({
+      meterId: row.meter_id,
+      start: row.period_start,
+      end: row.period_end,
+      options: JSON.parse(row.options_json),
+      inputs: JSON.parse(row.inputs_json),
+      document: JSON.parse(row.document_json),
+      chosen: { model: row.chosen_model, reason: row.choice_reason, fit: fits[row.chosen_model] ?? null },
+    }),
+  );
+}
+
+/** True when the row has a content hash and its stored content still gives it. */
+export function verifyBaselineContent(row: BaselineRow): boolean {
+  if (row.content_hash === null) return false;
+  try {
+    return baselineContentHash(row) === row.content_hash;
+  } catch {
+    return false; // a column that no longer parses has been tampered with
+  }
+}
