@@ -2,16 +2,29 @@
  * ISO calendar dates (YYYY-MM-DD) as whole UTC days: no time zones, no
  * clocks. A date that does not exist (2025-02-30) is not a date.
  */
-const ISO_DATE = /^(\d{4})-(\d{2})-(\d{2})$/;
 const MS_PER_DAY = 86_400_000;
 
 /** Day number since 1970-01-01 of a valid ISO date, or null. */
 export function parseIsoDate(text: string): number | null {
-  const match = ISO_DATE.exec(text);
-  if (!match) return null;
-  const [year, month, day] = [Number(match[1]), Number(match[2]), Number(match[3])];
-  if (month < 1 || month > 12 || day < 1 || day > daysInMonth(year, month)) return null;
+  // Read the ten characters directly (this runs once per day of weather on
+  // every savings request; a regular expression costs more than the rest).
+  if (text.length !== 10 || text.charCodeAt(4) !== 45 || text.charCodeAt(7) !== 45) return null;
+  const year = digits(text, 0, 4);
+  const month = digits(text, 5, 7);
+  const day = digits(text, 8, 10);
+  if (year < 0 || month < 1 || month > 12 || day < 1 || day > daysInMonth(year, month)) return null;
   return daysFromCivil(year, month, day);
+}
+
+/** The decimal number in text[from, to), or −1 if any character is not a digit. */
+function digits(text: string, from: number, to: number): number {
+  let value = 0;
+  for (let i = from; i < to; i++) {
+    const code = text.charCodeAt(i) - 48;
+    if (code < 0 || code > 9) return -1;
+    value = value * 10 + code;
+  }
+  return value;
 }
 
 function isLeapYear(year: number): boolean {
