@@ -12,6 +12,8 @@ const environmentSchema = z.object({
   HOST: z.string().min(1).default('127.0.0.1'),
   DATABASE_URL: z.string().min(1).default('sqlite:./var/mvledger.sqlite'),
   LOG_LEVEL: z.enum(LOG_LEVELS).default('info'),
+  RATE_LIMIT_PER_MINUTE: z.coerce.number().int().min(0).default(60_000),
+  MAX_BODY_BYTES: z.coerce.number().int().min(1024).max(256 * 1024 * 1024).default(16 * 1024 * 1024),
   MVLEDGER_BOOTSTRAP_KEY: z
     .string()
     .regex(/^mvl_[A-Za-z0-9]{8}_[A-Za-z0-9]{32,}$/, 'must look like mvl_<8 letters or digits>_<32 or more letters or digits>')
@@ -24,6 +26,10 @@ export interface Config {
   databaseUrl: string;
   logLevel: (typeof LOG_LEVELS)[number];
   bootstrapKey: string | undefined;
+  /** Requests per minute per API key (per address without one); 0 turns the limit off. */
+  rateLimitPerMinute: number;
+  /** Largest accepted request body. */
+  maxBodyBytes: number;
 }
 
 export class ConfigError extends Error {}
@@ -42,5 +48,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     databaseUrl: value.DATABASE_URL,
     logLevel: value.LOG_LEVEL,
     bootstrapKey: value.MVLEDGER_BOOTSTRAP_KEY,
+    rateLimitPerMinute: value.RATE_LIMIT_PER_MINUTE,
+    maxBodyBytes: value.MAX_BODY_BYTES,
   };
 }

@@ -21,7 +21,12 @@ export async function startService(config: Config): Promise<RunningService> {
   const store = openStore(config.databaseUrl);
   await migrateToLatest(store.db);
   const bootstrapped = await bootstrapIfEmpty(store.db, config.bootstrapKey, new Date().toISOString());
-  const app = await buildApp({ store, logger: { level: config.logLevel, redact: LOG_REDACTIONS } });
+  const app = await buildApp({
+    store,
+    logger: { level: config.logLevel, redact: LOG_REDACTIONS },
+    bodyLimit: config.maxBodyBytes,
+    rateLimitPerMinute: config.rateLimitPerMinute,
+  });
   if (bootstrapped) app.log.info('new database: created the bootstrap organisation and its admin key');
   const address = await app.listen({ port: config.port, host: config.host });
   app.log.info({ database: store.location }, 'mvledger is listening');

@@ -10,12 +10,36 @@ const BOOTSTRAP = `mvl_Abcd1234_${'Q'.repeat(32)}`; // synthetic: right shape, i
 
 describe('loadConfig', () => {
   it('falls back to the documented defaults', () => {
-    expect(loadConfig({})).toEqual({ port: 8080, host: '127.0.0.1', databaseUrl: 'sqlite:./var/mvledger.sqlite', logLevel: 'info', bootstrapKey: undefined });
+    expect(loadConfig({})).toEqual({
+      port: 8080,
+      host: '127.0.0.1',
+      databaseUrl: 'sqlite:./var/mvledger.sqlite',
+      logLevel: 'info',
+      bootstrapKey: undefined,
+      rateLimitPerMinute: 60_000,
+      maxBodyBytes: 16 * 1024 * 1024,
+    });
   });
 
   it('reads every variable', () => {
-    const config = loadConfig({ PORT: '9001', HOST: '0.0.0.0', DATABASE_URL: 'sqlite::memory:', LOG_LEVEL: 'debug', MVLEDGER_BOOTSTRAP_KEY: BOOTSTRAP });
-    expect(config).toEqual({ port: 9001, host: '0.0.0.0', databaseUrl: 'sqlite::memory:', logLevel: 'debug', bootstrapKey: BOOTSTRAP });
+    const config = loadConfig({
+      PORT: '9001',
+      HOST: '0.0.0.0',
+      DATABASE_URL: 'sqlite::memory:',
+      LOG_LEVEL: 'debug',
+      MVLEDGER_BOOTSTRAP_KEY: BOOTSTRAP,
+      RATE_LIMIT_PER_MINUTE: '0',
+      MAX_BODY_BYTES: '65536',
+    });
+    expect(config).toEqual({
+      port: 9001,
+      host: '0.0.0.0',
+      databaseUrl: 'sqlite::memory:',
+      logLevel: 'debug',
+      bootstrapKey: BOOTSTRAP,
+      rateLimitPerMinute: 0,
+      maxBodyBytes: 65536,
+    });
   });
 
   const bad: { env: Record<string, string>; names: string }[] = [
@@ -25,6 +49,8 @@ describe('loadConfig', () => {
     { env: { LOG_LEVEL: 'loud' }, names: 'LOG_LEVEL' },
     { env: { HOST: '' }, names: 'HOST' },
     { env: { DATABASE_URL: '' }, names: 'DATABASE_URL' },
+    { env: { RATE_LIMIT_PER_MINUTE: '-1' }, names: 'RATE_LIMIT_PER_MINUTE' },
+    { env: { MAX_BODY_BYTES: '12' }, names: 'MAX_BODY_BYTES' },
   ];
   for (const c of bad) {
     it(`refuses ${JSON.stringify(c.env)} with a ConfigError naming ${c.names}`, () => {

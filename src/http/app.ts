@@ -7,6 +7,8 @@ import { randomUUID } from 'node:crypto';
 import Fastify, { type FastifyInstance, type FastifyServerOptions } from 'fastify';
 import swagger from '@fastify/swagger';
 import swaggerUi from '@fastify/swagger-ui';
+import helmet from '@fastify/helmet';
+import rateLimit from '@fastify/rate-limit';
 import { jsonSchemaTransform, jsonSchemaTransformObject, serializerCompiler, validatorCompiler, type ZodTypeProvider } from 'fastify-type-provider-zod';
 import type { Store } from '../store/connect.js';
 import { installProblemHandling } from './plugins/problems.js';
@@ -14,6 +16,7 @@ import { installAuth } from './plugins/auth.js';
 import { installIdempotency } from './plugins/idempotency.js';
 import { installCsvBodies } from './plugins/csv-bodies.js';
 import { registerRoutes } from './routes/index.js';
+import { Problem } from './problem.js';
 
 /** What every route module receives. */
 export interface RouteDeps {
@@ -28,6 +31,8 @@ export interface AppOptions {
   now?: () => string;
   /** Largest accepted request body in bytes. */
   bodyLimit?: number;
+  /** Requests per minute per API key (per address without one); 0 or absent: no limit. */
+  rateLimitPerMinute?: number;
 }
 
 export const DEFAULT_BODY_LIMIT = 16 * 1024 * 1024;
@@ -54,7 +59,33 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
 
   const deps: RouteDeps = { store: options.store, now: options.now ?? (() => new Date().toISOString()) };
   installProblemHandling(app);
+  await app.register(helmet, {
+    // The API serves JSON, SVG and the docs page; nothing may be framed or sniffed.
+    contentSecurityPolicy: {
+      directives: {
+        defaultSrc: ["'self'"],
+        scriptSrc: ["'self'"],
+        styleSrc: ["'self'", "'unsafe-inline'"],
+        imgSrc: ["'self'", 'data:'],
+        frameAncestors: ["'none'"],
+        formAction: ["'self'"],
+      },
+    },
+    crossOriginResourcePolicy: { policy: 'same-origin' },
+  });
   installAuth(app, deps.store);
+  if (options.rateLimitPerMinute && options.rateLimitPerMinute > 0) {
+    await app.register(rateLimit, {
+      global: true,
+      // After authentication, so the bucket is the key itself (unknown keys never get this far).
+      hook: 'preHandler',
+      max: options.rateLimitPerMinute,
+      timeWindow: 60_000,
+      keyGenerator: (request) => (request.principal ? `key:${request.principal.keyId}` : `ip:${request.ip}`),
+      errorResponseBuilder: (_request, context) =>
+        new Problem('rate-limited', `more than ${context.max} requests a minute for this key; retry after ${Math.ceil(context.ttl / 1000)} s`),
+    });
+  }
   installCsvBodies(app);
   installIdempotency(app, deps.store, deps.now);
 

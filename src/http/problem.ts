@@ -21,6 +21,8 @@ export type ProblemKind =
   | 'unsupported-media-type'
   | 'payload-too-large'
   | 'unprocessable'
+  | 'rate-limited'
+  | 'unavailable'
   | 'internal';
 
 const TITLES: Record<ProblemKind, [number, string]> = {
@@ -35,6 +37,8 @@ const TITLES: Record<ProblemKind, [number, string]> = {
   'unsupported-media-type': [415, 'Unsupported content type'],
   'payload-too-large': [413, 'Request body too large'],
   unprocessable: [422, 'The request cannot be carried out on the stored data'],
+  'rate-limited': [429, 'Too many requests'],
+  unavailable: [503, 'Not available right now'],
   internal: [500, 'Internal error'],
 };
 

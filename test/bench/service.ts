@@ -48,7 +48,7 @@ async function freePort(): Promise<number> {
 async function startServer(databaseUrl: string): Promise<{ child: ChildProcess; base: string }> {
   const port = await freePort();
   const child = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'src', 'server.ts')], {
-    env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', DATABASE_URL: databaseUrl, LOG_LEVEL: 'warn', MVLEDGER_BOOTSTRAP_KEY: BOOTSTRAP_KEY },
+    env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', DATABASE_URL: databaseUrl, LOG_LEVEL: 'warn', MVLEDGER_BOOTSTRAP_KEY: BOOTSTRAP_KEY, RATE_LIMIT_PER_MINUTE: '0' },
     stdio: ['ignore', 'inherit', 'inherit'],
   });
   const base = `http://127.0.0.1:${port}`;
