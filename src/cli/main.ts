@@ -9,7 +9,8 @@ import { runFit } from './commands/fit.js';
 import { runSavings } from './commands/savings.js';
 import { runKeys } from './commands/keys.js';
 import { runExport, runImport } from './commands/transfer.js';
-import { EXPORT_USAGE, FIT_USAGE, GENERAL_USAGE, IMPORT_USAGE, KEYS_USAGE, SAVINGS_USAGE } from './usage.js';
+import { runBackup, runRestore } from './commands/backup.js';
+import { BACKUP_USAGE, EXPORT_USAGE, FIT_USAGE, GENERAL_USAGE, IMPORT_USAGE, KEYS_USAGE, RESTORE_USAGE, SAVINGS_USAGE } from './usage.js';
 
 export interface CliIO {
   stdout(text: string): void;
@@ -53,7 +54,13 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
       if (output.note) io.stderr(output.note);
       return 0;
     }
-    io.stderr(`mvledger: unknown command ${JSON.stringify(command)} (commands: fit, savings, keys, export, import, help)\n`);
+    if (command === 'backup' || command === 'restore') {
+      const output = command === 'backup' ? await runBackup(rest) : await runRestore(rest);
+      io.stdout(output.stdout);
+      if (output.note) io.stderr(output.note);
+      return output.code ?? 0;
+    }
+    io.stderr(`mvledger: unknown command ${JSON.stringify(command)} (commands: fit, savings, keys, export, import, backup, restore, help)\n`);
     return EXIT_BAD_INPUT;
   } catch (error) {
     if (error instanceof UsageError || error instanceof InputFileError) {
@@ -72,5 +79,7 @@ function helpFor(topic: string | undefined): string {
   if (topic === 'keys') return KEYS_USAGE;
   if (topic === 'export') return EXPORT_USAGE;
   if (topic === 'import') return IMPORT_USAGE;
+  if (topic === 'backup') return BACKUP_USAGE;
+  if (topic === 'restore') return RESTORE_USAGE;
   return GENERAL_USAGE;
 }

@@ -73,6 +73,36 @@ keys keep working. A row count per table goes to stderr.
   --in FILE           the document to import
 `;
 
+export const BACKUP_USAGE = `Usage: mvledger backup --out FILE
+
+Copy the SQLite database named by DATABASE_URL (default
+sqlite:./var/mvledger.sqlite) to FILE while the service keeps running: one
+consistent snapshot through SQLite's online backup, written beside FILE and
+renamed into place. The copy is then checked (every organisation's audit
+chain, every frozen baseline's content hash) and the verdict printed on one
+line; a copy of a ledger that does not verify is kept, with exit code 2.
+For a postgres:// DATABASE_URL it prints the pg_dump and pg_restore commands
+(password left out) and exits 2.
+
+  --out FILE          where to write the backup (replaced if it exists)
+`;
+
+export const RESTORE_USAGE = `Usage: mvledger restore --in FILE [--force]
+
+Put a file written by mvledger backup in place of the SQLite database named
+by DATABASE_URL (default sqlite:./var/mvledger.sqlite). Stop the service
+first: a database in use is refused. The backup is copied beside the
+database, brought up to the current schema and checked (every
+organisation's audit chain, every frozen baseline's content hash); only
+then is it renamed into place, so a backup that does not verify (exit code
+2) leaves the database as it was. The verdict is printed on one line.
+SQLite only: for a postgres:// DATABASE_URL it prints the pg_restore
+command and exits 2.
+
+  --in FILE           the backup to restore
+  --force             replace a database that already holds organisations
+`;
+
 export const GENERAL_USAGE = `mvledger: weather-normalised baselines and avoided energy (IPMVP whole-facility option, ASHRAE Guideline 14 methods)
 
 Usage:
@@ -81,7 +111,9 @@ Usage:
   mvledger keys create|list|revoke ...
   mvledger export --org ID [--out FILE]
   mvledger import --in FILE
-  mvledger help [fit|savings|keys|export|import]
+  mvledger backup --out FILE
+  mvledger restore --in FILE [--force]
+  mvledger help [fit|savings|keys|export|import|backup|restore]
 
 Dates are ISO (YYYY-MM-DD). Bad input is reported as one line naming the file,
 the CSV row (header = row 1) and the field, with exit code 2.
@@ -90,4 +122,6 @@ ${FIT_USAGE}
 ${SAVINGS_USAGE}
 ${KEYS_USAGE}
 ${EXPORT_USAGE}
-${IMPORT_USAGE}`;
+${IMPORT_USAGE}
+${BACKUP_USAGE}
+${RESTORE_USAGE}`;

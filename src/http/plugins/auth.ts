@@ -9,12 +9,22 @@ import { authenticate } from '../../store/api-keys.js';
 import { allows } from '../principal.js';
 import { Problem } from '../problem.js';
 
+const BEARER = /^Bearer +(\S+) *$/i;
+
+function authorizationLines(rawHeaders: readonly string[]): number {
+  let lines = 0;
+  for (let i = 0; i < rawHeaders.length; i += 2) if (rawHeaders[i]!.toLowerCase() === 'authorization') lines++;
+  return lines;
+}
+
 export function installAuth(app: FastifyInstance, store: Store): void {
   app.addHook('onRequest', async (request, reply) => {
     const permission = request.routeOptions.config?.permission;
     if (!permission) return;
     const header = request.headers.authorization;
-    const token = typeof header === 'string' && header.startsWith('Bearer ') ? header.slice(7).trim() : null;
+    // The scheme is case-insensitive (RFC 9110 §11.1). Two Authorization lines are
+    // ambiguous (node keeps only the first), so they authenticate nothing.
+    const token = typeof header === 'string' && authorizationLines(request.raw.rawHeaders) === 1 ? (BEARER.exec(header)?.[1] ?? null) : null;
     const key = token ? await authenticate(store.db, token) : null;
     if (!key) {
       reply.header('www-authenticate', 'Bearer realm="mvledger"');

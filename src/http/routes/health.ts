@@ -9,12 +9,14 @@ import type { ApiApp } from './types.js';
 export function healthRoutes(app: ApiApp, deps: RouteDeps): void {
   app.get(
     '/healthz',
-    { schema: { tags: ['health'], summary: 'The process is up', response: { 200: z.object({ status: z.literal('ok') }) } } },
+    { config: { rateLimit: false }, schema: { tags: ['health'], summary: 'The process is up', response: { 200: z.object({ status: z.literal('ok') }) } } },
     async () => ({ status: 'ok' as const }),
   );
   app.get(
     '/readyz',
     {
+      // Probes of a load balancer must never be refused for coming often.
+      config: { rateLimit: false },
       schema: {
         tags: ['health'],
         summary: 'The database answers',
