@@ -79,7 +79,10 @@ export type OperatorRevoke = { outcome: 'revoked' | 'already-revoked'; key: Oper
  * in when an organisation has lost its last admin key.
  */
 export async function revokeKeyAsOperator(db: Kysely<Database>, id: string, at: string): Promise<OperatorRevoke> {
-  return db.transaction().execute(async (trx) => {
+  return db
+    .transaction()
+    .setAccessMode('read write')
+    .execute(async (trx) => {
     const found = await trx.selectFrom('api_keys').select('organisation_id').where('id', '=', id).executeTakeFirst();
     if (!found) return { outcome: 'not-found' };
     await lockOrganisation(trx, found.organisation_id);

@@ -11,7 +11,20 @@
 import { mkdirSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import SQLite from 'better-sqlite3';
-import { Kysely, PostgresAdapter, PostgresDialect, SqliteDialect, sql, type Transaction } from 'kysely';
+import {
+  CompiledQuery,
+  Kysely,
+  PostgresAdapter,
+  PostgresDialect,
+  SqliteDialect,
+  SqliteDriver,
+  sql,
+  type DatabaseConnection,
+  type Driver,
+  type SqliteDialectConfig,
+  type Transaction,
+  type TransactionSettings,
+} from 'kysely';
 import pg from 'pg';
 import type { Database } from './schema.js';
 
@@ -108,10 +121,11 @@ async function createSchemaIfMissing(pool: pg.Pool, schema: string): Promise<voi
  * writes of one organisation from any number of service instances go one at
  * a time: the audit chain stays one chain, and checks such as "no overlapping
  * reading" or "one frozen baseline" cannot race. (SQLite already runs one
- * write transaction at a time.)
+ * write transaction at a time; the transaction takes its write lock first.)
  */
 export function writeTransaction<T>(db: Kysely<Database>, organisationId: string, work: (trx: Transaction<Database>) => Promise<T>): Promise<T> {
-  return db.transaction().execute(async (trx) => {
+  // 'read write' makes SQLite take its write lock at the start (see ImmediateWriteSqliteDriver).
+  return db.transaction().setAccessMode('read write').execute(async (trx) => {
     await lockOrganisation(trx, organisationId);
     return work(trx);
   });
@@ -133,13 +147,41 @@ function openSqlite(location: string): Store {
   connection.pragma('foreign_keys = ON');
   connection.pragma(`busy_timeout = ${SQLITE_BUSY_TIMEOUT_MS}`);
   connection.pragma('synchronous = NORMAL');
-  const db = new Kysely<Database>({ dialect: new SqliteDialect({ database: withStatementCache(connection) }) });
+  const db = new Kysely<Database>({ dialect: new ImmediateWriteSqliteDialect({ database: withStatementCache(connection) }) });
   return {
     db,
     dialect: 'sqlite',
     location: inMemory ? 'sqlite (in memory)' : `sqlite file ${path}`,
     close: () => db.destroy(),
   };
+}
+
+/**
+ * SQLite's plain BEGIN reads first and asks for the write lock at the first
+ * write. If another process (a second instance, the command line) wrote in
+ * between, that upgrade fails at once with SQLITE_BUSY or
+ * SQLITE_BUSY_SNAPSHOT, without waiting out the busy timeout (the request
+ * answered 500). A 'read write' transaction (every writeTransaction) starts
+ * with BEGIN IMMEDIATE instead: it waits for the write lock under the busy
+ * timeout, then reads. Other transactions (consistent read snapshots) keep
+ * BEGIN, so they never hold other processes' writers off.
+ */
+class ImmediateWriteSqliteDriver extends SqliteDriver {
+  override async beginTransaction(connection: DatabaseConnection, settings?: TransactionSettings): Promise<void> {
+    if (settings?.accessMode === 'read write') await connection.executeQuery(CompiledQuery.raw('begin immediate'));
+    else await super.beginTransaction(connection);
+  }
+}
+
+class ImmediateWriteSqliteDialect extends SqliteDialect {
+  readonly #config: SqliteDialectConfig;
+  constructor(config: SqliteDialectConfig) {
+    super(config);
+    this.#config = config;
+  }
+  override createDriver(): Driver {
+    return new ImmediateWriteSqliteDriver(this.#config);
+  }
 }
 
 /** How many distinct SQL texts keep a prepared statement (the API issues a few dozen shapes). */

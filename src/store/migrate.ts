@@ -20,10 +20,20 @@ export async function migrateToLatest(db: Kysely<any>): Promise<string[]> {
     migrationLockTableName: 'schema_migrations_lock',
     ...(schema ? { migrationTableSchema: schema } : {}),
   });
-  const { error, results } = await migrator.migrateToLatest();
-  if (error) {
-    const failed = results?.find((r) => r.status === 'Error')?.migrationName ?? 'unknown';
-    throw new Error(`database migration ${failed} failed: ${error instanceof Error ? error.message : String(error)}`);
+  // On SQLite the migrator has no lock between processes: two processes
+  // starting together on a new file can both try the same migration, and the
+  // slower one fails ("table already exists"). Its retry then finds the
+  // migration recorded and has nothing left to do. PostgreSQL locks instead.
+  const attempts = schema === undefined ? SQLITE_ATTEMPTS : 1;
+  for (let attempt = 1; ; attempt++) {
+    const { error, results } = await migrator.migrateToLatest();
+    if (!error) return (results ?? []).filter((r) => r.status === 'Success').map((r) => r.migrationName);
+    if (attempt >= attempts) {
+      const failed = results?.find((r) => r.status === 'Error')?.migrationName ?? 'unknown';
+      throw new Error(`database migration ${failed} failed: ${error instanceof Error ? error.message : String(error)}`);
+    }
+    await new Promise((resolve) => setTimeout(resolve, 50 * attempt + Math.random() * 100));
   }
-  return (results ?? []).filter((r) => r.status === 'Success').map((r) => r.migrationName);
 }
+
+const SQLITE_ATTEMPTS = 5;

@@ -64,6 +64,11 @@ export function installProblemHandling(app: FastifyInstance): void {
     if (error.statusCode === 400 && error instanceof SyntaxError) {
       return sendProblem(request, reply, new Problem('validation', 'the body is not valid JSON', [{ field: '(body)', message: 'not valid JSON' }]));
     }
+    if (typeof error.code === 'string' && error.code.startsWith('SQLITE_BUSY')) {
+      // Another process held the database past the busy timeout: nothing was stored; try again.
+      reply.header('retry-after', '1');
+      return sendProblem(request, reply, new Problem('unavailable', 'the database is busy with another writer; nothing was stored, retry shortly'));
+    }
     if (typeof error.statusCode === 'number' && error.statusCode >= 400 && error.statusCode < 500) {
       return sendProblem(request, reply, new Problem('validation', error.message.replace(/\s+/g, ' ').slice(0, 300)));
     }
