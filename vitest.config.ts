@@ -9,7 +9,7 @@ import { randomBytes } from 'node:crypto';
 import { defineConfig } from 'vitest/config';
 import { postgresReachable, testPostgresUrl } from './test/support/database.js';
 
-const SERVICE_TESTS = ['test/http/**/*.test.ts', 'test/services/**/*.test.ts', 'test/store/**/*.test.ts', 'test/multi-instance/**/*.test.ts', 'test/faults/**/*.test.ts'];
+const SERVICE_TESTS = ['test/http/**/*.test.ts', 'test/services/**/*.test.ts', 'test/store/**/*.test.ts', 'test/multi-instance/**/*.test.ts', 'test/faults/**/*.test.ts', 'test/fuzz/**/*.test.ts'];
 
 export default defineConfig(async () => {
   const wanted = process.env.MVLEDGER_TEST_POSTGRES ?? 'auto';

@@ -11,7 +11,7 @@ import helmet from '@fastify/helmet';
 import rateLimit from '@fastify/rate-limit';
 import { jsonSchemaTransform, jsonSchemaTransformObject, serializerCompiler, validatorCompiler, type ZodTypeProvider } from 'fastify-type-provider-zod';
 import type { Store } from '../store/connect.js';
-import { installProblemHandling } from './plugins/problems.js';
+import { installProblemHandling, sendProblem } from './plugins/problems.js';
 import { installAuth } from './plugins/auth.js';
 import { installIdempotency } from './plugins/idempotency.js';
 import { installCsvBodies } from './plugins/csv-bodies.js';
@@ -37,6 +37,8 @@ export interface AppOptions {
 
 export const DEFAULT_BODY_LIMIT = 16 * 1024 * 1024;
 const REQUEST_ID = /^[A-Za-z0-9._-]{1,64}$/;
+/** fastify's default maxParamLength, the same as the longest id idParams accepts. */
+const MAX_PARAM_LENGTH = 100;
 
 /** Keys and secrets never reach the logs. */
 export const LOG_REDACTIONS = ['req.headers.authorization', 'req.headers["idempotency-key"]', 'headers.authorization'];
@@ -45,10 +47,23 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
   const app = Fastify({
     logger: options.logger ?? false,
     bodyLimit: options.bodyLimit ?? DEFAULT_BODY_LIMIT,
+    routerOptions: { maxParamLength: MAX_PARAM_LENGTH },
     requestIdHeader: false,
     genReqId: (request) => {
       const given = request.headers['x-request-id'];
       return typeof given === 'string' && REQUEST_ID.test(given) ? given : randomUUID();
+    },
+    // The router refuses some URLs before any hook or error handler runs (broken
+    // percent-encoding, a path parameter over maxParamLength); those leave as problems too.
+    frameworkErrors: (error, request, reply) => {
+      reply.header('x-request-id', request.id);
+      if (error.code === 'FST_ERR_MAX_PARAM_LENGTH') {
+        return sendProblem(request, reply, new Problem('validation', `a path parameter is longer than ${MAX_PARAM_LENGTH} characters`, [{ field: 'path', message: 'too long' }]));
+      }
+      if (error.code === 'FST_ERR_BAD_URL') {
+        return sendProblem(request, reply, new Problem('validation', 'the URL is not valid: check its percent-encoding', [{ field: 'path', message: 'not a valid URL' }]));
+      }
+      return sendProblem(request, reply, new Problem('internal', `unexpected error; quote request id ${request.id} when reporting it`));
     },
   });
   app.setValidatorCompiler(validatorCompiler);
@@ -72,6 +87,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
       },
     },
     crossOriginResourcePolicy: { policy: 'same-origin' },
+    frameguard: { action: 'deny' },
   });
   installAuth(app, deps.store);
   if (options.rateLimitPerMinute && options.rateLimitPerMinute > 0) {
@@ -83,7 +99,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
       timeWindow: 60_000,
       keyGenerator: (request) => (request.principal ? `key:${request.principal.keyId}` : `ip:${request.ip}`),
       errorResponseBuilder: (_request, context) =>
-        new Problem('rate-limited', `more than ${context.max} requests a minute for this key; retry after ${Math.ceil(context.ttl / 1000)} s`),
+        new Problem('rate-limited', `more than ${context.max} requests a minute for this key (or, without a key, this address); retry after ${Math.ceil(context.ttl / 1000)} s`),
     });
   }
   installCsvBodies(app);

@@ -18,6 +18,10 @@ declare module 'fastify' {
     /** The route also takes text/csv; its rows become body[collection]. */
     csvBody?: CsvCollection;
   }
+  interface FastifyRequest {
+    /** The body came as text/csv (a JSON body that is a string is not CSV). */
+    sentAsCsv?: boolean;
+  }
 }
 
 const COLUMNS: Record<CsvCollection, { required: string[][]; optional: string[]; flags: string[] }> = {
@@ -76,10 +80,13 @@ function csvProblem(error: InputFileError): Problem {
 }
 
 export function installCsvBodies(app: FastifyInstance): void {
-  app.addContentTypeParser(['text/csv', 'application/csv'], { parseAs: 'string' }, (_request, body, done) => done(null, body));
+  app.addContentTypeParser(['text/csv', 'application/csv'], { parseAs: 'string' }, (request, body, done) => {
+    request.sentAsCsv = true;
+    done(null, body);
+  });
   app.addHook('preValidation', async (request) => {
     const collection = request.routeOptions.config?.csvBody;
-    if (!collection || typeof request.body !== 'string') return;
+    if (!collection || !request.sentAsCsv || typeof request.body !== 'string') return;
     const { body, lines } = csvToBody(collection, request.body);
     request.body = body;
     request.csvLines = { collection, lines };

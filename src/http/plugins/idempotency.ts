@@ -23,7 +23,15 @@ declare module 'fastify' {
 
 function requestHash(request: FastifyRequest): string {
   const path = request.url.split('?')[0];
-  return sha256Hex(`${request.method} ${path} ${canonicalJson(request.query ?? {})}\n${canonicalJson(request.body ?? null)}`);
+  let canonical: string;
+  try {
+    canonical = `${canonicalJson(request.query ?? {})}\n${canonicalJson(request.body ?? null)}`;
+  } catch (error) {
+    // A body no route schema looked at (a DELETE's) can nest deeper than the stack allows.
+    if (error instanceof RangeError) throw new Problem('validation', 'the body is nested too deeply', [{ field: '(body)', message: 'nested too deeply' }]);
+    throw error;
+  }
+  return sha256Hex(`${request.method} ${path} ${canonical}`);
 }
 
 export function installIdempotency(app: FastifyInstance, store: Store, now: () => string): void {

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { isIsoDate } from '../../engine/index.js';
+import { plainText } from './common.js';
 
 const DATE_TIME = /^(\d{4}-\d{2}-\d{2})T\d{2}:\d{2}(:\d{2}(\.\d{1,9})?)?(Z|[+-]\d{2}:\d{2})$/;
 
@@ -17,7 +18,7 @@ export const auditQuery = z
       .regex(/^[a-z][a-z-]{0,49}$/, 'must be an entity type such as facility, meter, weather-station, baseline, api-key')
       .optional()
       .describe('Only rows about this entity type'),
-    entityId: z.string().min(1).max(100).optional().describe('Only rows about this entity'),
+    entityId: plainText().min(1).max(100).optional().describe('Only rows about this entity'),
     since: z
       .string()
       .refine(isDateOrDateTime, 'must be a date (YYYY-MM-DD) or a date-time with an offset (2026-01-31T12:00:00Z)')

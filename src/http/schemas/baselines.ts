@@ -1,14 +1,14 @@
 /** Baselines: request bodies and the fit document as the API returns it. */
 import { z } from 'zod';
 import { MODEL_NAMES } from '../../engine/index.js';
-import { isoDate } from './common.js';
+import { isoDate, plainText } from './common.js';
 
 /** A statistic: JSON has no NaN or Infinity, so a non-finite value is sent as null. */
 export const stat = z.number().nullable();
 
 export const modelName = z.enum(MODEL_NAMES).describe('A changepoint shape, named as ASHRAE Guideline 14 names it');
 
-const text = (max: number) => z.string().trim().min(1, 'must not be empty').max(max, `must be at most ${max} characters`);
+const text = (max: number) => plainText().trim().min(1, 'must not be empty').max(max, `must be at most ${max} characters`);
 
 export const baselineOptions = z
   .object({

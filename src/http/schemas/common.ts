@@ -15,9 +15,15 @@ export const isoDate = z
 /** A finite number (JSON has no NaN or Infinity, but say so plainly). */
 export const finite = z.number().refine(Number.isFinite, 'must be a finite number');
 
-export const name = z.string().trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters');
+/**
+ * Text a client may send. PostgreSQL text cannot hold U+0000, so no text input
+ * may carry it (refused on SQLite too, so both databases answer alike).
+ */
+export const plainText = () => z.string().refine((text) => !text.includes('\u0000'), 'must not contain the NUL character (U+0000)');
 
-export const idParams = z.object({ id: z.string().min(1).max(100) });
+export const name = plainText().trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters');
+
+export const idParams = z.object({ id: plainText().min(1).max(100) });
 
 export const problemSchema = z
   .object({

@@ -1,10 +1,10 @@
 import { z } from 'zod';
-import { name } from './common.js';
+import { name, plainText } from './common.js';
 
 export const createFacilityBody = z
   .object({
     name,
-    address: z.string().trim().min(1, 'must not be empty').max(500, 'must be at most 500 characters').nullable().optional(),
+    address: plainText().trim().min(1, 'must not be empty').max(500, 'must be at most 500 characters').nullable().optional(),
     floorArea: z
       .number()
       .positive('must be greater than 0')

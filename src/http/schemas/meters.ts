@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { name } from './common.js';
+import { name, plainText } from './common.js';
 
 export const FUELS = ['electricity', 'natural-gas', 'fuel-oil', 'propane', 'district-heat', 'district-cooling', 'water', 'other'] as const;
 
@@ -9,13 +9,12 @@ export const createMeterBody = z
   .object({
     name,
     fuel,
-    unit: z
-      .string()
+    unit: plainText()
       .trim()
       .min(1, 'must not be empty')
       .max(40, 'must be at most 40 characters')
       .describe('The unit every reading of this meter is in, e.g. kWh, therm, MMBtu, GJ, m3'),
-    weatherStationId: z.string().min(1, 'must not be empty').max(100).describe('The station whose temperatures this meter is modelled against'),
+    weatherStationId: plainText().min(1, 'must not be empty').max(100).describe('The station whose temperatures this meter is modelled against'),
   })
   .strict();
 

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { finite, isoDate } from './common.js';
+import { finite, isoDate, plainText } from './common.js';
 
 /** Largest batch in one request; the service enforces the same limit. */
 export const MAX_BATCH = 50_000;
@@ -16,7 +16,7 @@ export const readingInput = z
   })
   .strict();
 
-const correctionReason = z.string().trim().min(1, 'must not be empty').max(1000, 'must be at most 1000 characters');
+const correctionReason = plainText().trim().min(1, 'must not be empty').max(1000, 'must be at most 1000 characters');
 
 export const postReadingsBody = z
   .object({
