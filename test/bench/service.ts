@@ -15,7 +15,6 @@
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import autocannon from 'autocannon';
@@ -25,6 +24,7 @@ import { addDays, analyseBaseline, savingsFromFit } from '../../src/engine/index
 import { BASELINE_END, BASELINE_START, DEMO_FACILITIES, REPORTING_END, demoBills, demoWeather } from '../../src/demo/scenario.js';
 import { median, quantile } from './timing.js';
 import { postgresReachable, testPostgresUrl } from '../support/database.js';
+import { freePort } from '../support/ports.js';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const WORK = join(ROOT, 'var', 'bench');
@@ -34,16 +34,6 @@ const DAYS_PER_METER = 10_000;
 const BATCH = 2_500;
 const LOAD_SECONDS = 10;
 const CONNECTIONS = 10;
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = createServer();
-    server.listen(0, '127.0.0.1', () => {
-      const address = server.address();
-      server.close(() => (typeof address === 'object' && address ? resolve(address.port) : reject(new Error('no port'))));
-    });
-  });
-}
 
 async function startServer(databaseUrl: string): Promise<{ child: ChildProcess; base: string }> {
   const port = await freePort();

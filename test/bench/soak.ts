@@ -10,7 +10,6 @@
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import autocannon from 'autocannon';
@@ -20,6 +19,7 @@ import { openStore } from '../../src/store/connect.js';
 import { verifyAllAuditChains } from '../../src/store/audit.js';
 import { median, quantile } from './timing.js';
 import { dropTestDatabase, freshTestDatabaseUrl, postgresReachable } from '../support/database.js';
+import { freePort } from '../support/ports.js';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const WORK = join(ROOT, 'var', 'soak');
@@ -31,16 +31,6 @@ const BATCH_DAYS = 500;
 const PAUSE_MS = Number(process.env.SOAK_PAUSE_MS ?? 50);
 /** Days per ingestion meter before the next one starts (keeps dates in range and checks cheap). */
 const DAYS_PER_METER = 20_000;
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = createServer();
-    server.listen(0, '127.0.0.1', () => {
-      const address = server.address();
-      server.close(() => (typeof address === 'object' && address ? resolve(address.port) : reject(new Error('no port'))));
-    });
-  });
-}
 
 function residentMb(pid: number): number {
   const status = readFileSync(`/proc/${pid}/status`, 'utf8');

@@ -6,8 +6,8 @@
  * worker itself exits first.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
-import { createServer } from 'node:net';
 import { join } from 'node:path';
+import { freePort } from '../support/ports.js';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const READY_TIMEOUT_MS = 30_000;
@@ -28,17 +28,6 @@ const running = new Set<ChildProcess>();
 process.once('exit', () => {
   for (const child of running) child.kill('SIGKILL');
 });
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = createServer();
-    server.once('error', reject);
-    server.listen(0, '127.0.0.1', () => {
-      const address = server.address();
-      server.close(() => (typeof address === 'object' && address ? resolve(address.port) : reject(new Error('no free port'))));
-    });
-  });
-}
 
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 

@@ -1,0 +1,13 @@
+/** A free TCP port on loopback, for starting a service process in a test or benchmark. */
+import { createServer } from 'node:net';
+
+export async function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const server = createServer();
+    server.once('error', reject);
+    server.listen(0, '127.0.0.1', () => {
+      const address = server.address();
+      server.close(() => (typeof address === 'object' && address ? resolve(address.port) : reject(new Error('no free port'))));
+    });
+  });
+}
