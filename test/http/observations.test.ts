@@ -5,6 +5,7 @@ import { createFacility } from '../../src/services/facilities.js';
 import { createMeter } from '../../src/services/meters.js';
 import { parseApiKey } from '../../src/store/api-keys.js';
 import { verifyAllAuditChains } from '../../src/store/audit.js';
+import { insertBareBaseline } from '../support/baseline-rows.js';
 
 // Check values: synthetic (the test sets the truth) unless a comment beside one names another source.
 // Every name and scenario here is invented.
@@ -23,33 +24,7 @@ async function frozenBaselineOn(target: TestApi, station: string, id: string, st
   const ctx = { store: target.store, principal: { keyId: parseApiKey(target.keys.admin)!.id, organisationId: target.organisationId, role: 'admin' as const }, now: '2026-01-01T00:00:00.000Z' };
   const facility = await createFacility(ctx, { name: 'School building B2 (invented)' });
   const meter = await createMeter(ctx, facility.id, { name: 'Gas', fuel: 'natural gas', unit: 'therm', weatherStationId: station });
-  await target.store.db
-    .insertInto('baselines')
-    .values({
-      id,
-      organisation_id: target.organisationId,
-      meter_id: meter.id,
-      version: 1,
-      period_start: start,
-      period_end: end,
-      status: 'frozen',
-      options_json: '{}',
-      document_json: '{}',
-      fits_json: '{}',
-      inputs_json: '{}',
-      selected_model: '3PH',
-      chosen_model: '3PH',
-      choice_reason: null,
-      content_hash: null,
-      note: null,
-      frozen_at: '2026-01-01T00:00:00.000Z',
-      frozen_by: 'test',
-      supersedes_id: null,
-      supersede_reason: null,
-      created_at: '2026-01-01T00:00:00.000Z',
-      created_by: 'test',
-    })
-    .execute();
+  await insertBareBaseline(target.store.db, { id, organisationId: target.organisationId, meterId: meter.id, start, end, status: 'frozen' });
 }
 
 async function refused(method: 'PUT' | 'GET', path: string, options: Parameters<TestApi['call']>[2]) {

@@ -6,6 +6,7 @@ import { createMeter } from '../../src/services/meters.js';
 import { parseApiKey } from '../../src/store/api-keys.js';
 import { verifyAllAuditChains } from '../../src/store/audit.js';
 import type { BaselineStatus } from '../../src/store/schema.js';
+import { insertBareBaseline } from '../support/baseline-rows.js';
 
 // Check values: synthetic (the test sets the truth) unless a comment beside one names another source.
 // Every name and scenario here is invented.
@@ -24,33 +25,7 @@ async function makeMeter(target: TestApi): Promise<string> {
 
 async function insertBaseline(target: TestApi, meter: string, id: string, start: string, end: string, status: BaselineStatus): Promise<void> {
   // Written straight to the table: the baselines API is not what is under test here.
-  await target.store.db
-    .insertInto('baselines')
-    .values({
-      id,
-      organisation_id: target.organisationId,
-      meter_id: meter,
-      version: 1,
-      period_start: start,
-      period_end: end,
-      status,
-      options_json: '{}',
-      document_json: '{}',
-      fits_json: '{}',
-      inputs_json: '{}',
-      selected_model: '3PH',
-      chosen_model: '3PH',
-      choice_reason: null,
-      content_hash: null,
-      note: null,
-      frozen_at: status === 'draft' ? null : '2026-01-01T00:00:00.000Z',
-      frozen_by: status === 'draft' ? null : 'test',
-      supersedes_id: null,
-      supersede_reason: null,
-      created_at: '2026-01-01T00:00:00.000Z',
-      created_by: 'test',
-    })
-    .execute();
+  await insertBareBaseline(target.store.db, { id, organisationId: target.organisationId, meterId: meter, start, end, status });
 }
 
 const BILLS = [

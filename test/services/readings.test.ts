@@ -12,6 +12,7 @@ import { createStation } from '../../src/services/weather-stations.js';
 import { parseApiKey } from '../../src/store/api-keys.js';
 import { verifyAllAuditChains } from '../../src/store/audit.js';
 import type { BaselineStatus } from '../../src/store/schema.js';
+import { insertBareBaseline } from '../support/baseline-rows.js';
 
 // Check values: synthetic (the test sets the truth) unless a comment beside one names another source.
 // Every name and scenario here is invented.
@@ -27,33 +28,7 @@ async function addMeter(station: string, name: string): Promise<string> {
 }
 
 async function addBaseline(meter: string, id: string, start: string, end: string, status: BaselineStatus, version = 1): Promise<void> {
-  await api.store.db
-    .insertInto('baselines')
-    .values({
-      id,
-      organisation_id: api.organisationId,
-      meter_id: meter,
-      version,
-      period_start: start,
-      period_end: end,
-      status,
-      options_json: '{}',
-      document_json: '{}',
-      fits_json: '{}',
-      inputs_json: '{}',
-      selected_model: '2P',
-      chosen_model: '2P',
-      choice_reason: null,
-      content_hash: null,
-      note: null,
-      frozen_at: null,
-      frozen_by: null,
-      supersedes_id: null,
-      supersede_reason: null,
-      created_at: ctx.now,
-      created_by: 'test',
-    })
-    .execute();
+  await insertBareBaseline(api.store.db, { id, organisationId: api.organisationId, meterId: meter, start, end, status, version, model: '2P', at: ctx.now });
 }
 
 /** The Problem a call rejects with (fails the test if it resolves). */

@@ -9,6 +9,7 @@ import { openStore } from '../../src/store/connect.js';
 import { migrateToLatest } from '../../src/store/migrate.js';
 import { migrations } from '../../migrations/index.js';
 import { dropTestDatabase, freshTestDatabaseUrl } from '../support/database.js';
+import { bareBaselineRow } from '../support/baseline-rows.js';
 
 const TABLES = ['api_keys', 'audit_log', 'baselines', 'facilities', 'idempotency_keys', 'meters', 'organisations', 'readings', 'weather_observations', 'weather_stations'];
 
@@ -36,30 +37,8 @@ describe('migrations', () => {
         .insertInto('meters')
         .values({ id: 'mtr_m', organisation_id: 'org_m', facility_id: 'fac_m', name: 'M', fuel: 'electricity', unit: 'kWh', weather_station_id: 'wst_m', created_at: at })
         .execute();
-      const baseline = (id: string, version: number, status: 'frozen' | 'superseded') => ({
-        id,
-        organisation_id: 'org_m',
-        meter_id: 'mtr_m',
-        version,
-        period_start: '2024-01-01',
-        period_end: '2025-01-01',
-        status,
-        options_json: '{}',
-        document_json: '{}',
-        fits_json: '{}',
-        inputs_json: '{}',
-        selected_model: '1P',
-        chosen_model: '1P',
-        choice_reason: null,
-        content_hash: 'x',
-        note: null,
-        frozen_at: at,
-        frozen_by: 'k',
-        supersedes_id: null,
-        supersede_reason: null,
-        created_at: at,
-        created_by: 'k',
-      });
+      const baseline = (id: string, version: number, status: 'frozen' | 'superseded') =>
+        bareBaselineRow({ id, organisationId: 'org_m', meterId: 'mtr_m', start: '2024-01-01', end: '2025-01-01', status, version, model: '1P', at });
       await db.insertInto('baselines').values(baseline('bsl_1', 1, 'superseded')).execute();
       await db.insertInto('baselines').values(baseline('bsl_2', 2, 'frozen')).execute();
       await expect(db.insertInto('baselines').values(baseline('bsl_3', 3, 'frozen')).execute()).rejects.toThrow();
