@@ -31,6 +31,13 @@ export { candidateDocument, fitDocument } from './documents.js';
 export type { CandidateDocument, FitDocument, SavingsDocument } from './documents.js';
 export { daysBetween, addDays, isIsoDate, parseIsoDate } from './dates.js';
 export { fahrenheitToCelsius, celsiusToFahrenheit, isPlausibleTemperature, unitSymbol } from './units.js';
+export * from './energy-units.js';
+export * from './adjustments.js';
+export * from './rates.js';
+export * from './rollup.js';
+export * from './normal-year.js';
+export * from './report-windows.js';
+export * from './normalised.js';
 
 /** Average length of a calendar month in days (365.25 / 12), for counting reporting months. */
 export const DAYS_PER_MONTH = 365.25 / 12;

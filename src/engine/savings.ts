@@ -1,9 +1,10 @@
 /**
  * Avoided energy: project the frozen baseline onto reporting-period weather.
  *
- * Adjusted baseline per period = days × f(meanTemp); avoided energy
- * S = Σ adjusted baseline − Σ actual; fraction saved F = S / Σ adjusted
- * baseline. The uncertainty of S is stated two ways (see
+ * Adjusted baseline per period = days × f(meanTemp) + the non-routine
+ * adjustments falling in the period; avoided energy S = Σ adjusted baseline
+ * − Σ actual; fraction saved F = S / Σ adjusted baseline. Adjustments are
+ * documented figures, not estimates: they move S but not its uncertainty. The uncertainty of S is stated two ways (see
  * stats/savings-uncertainty.ts): the ASHRAE Guideline 14 Annex B formula and
  * the exact regression variance with the changepoints held fixed.
  */
@@ -12,6 +13,7 @@ import type { ShapeFit } from './fit/fit-shape.js';
 import { designRow, predictPerDay } from './fit/shape-model.js';
 import { twoSidedTCritical } from './stats/distributions.js';
 import { effectiveSampleSize, exactSavingsVariance, guideline14FractionalUncertainty } from './stats/savings-uncertainty.js';
+import { adjustmentsForPeriod, type NonRoutineAdjustment } from './adjustments.js';
 
 /** Confidence levels offered to users (two-sided). */
 export const CONFIDENCE_LEVELS = [0.68, 0.8, 0.9, 0.95] as const;
@@ -24,6 +26,8 @@ export interface SavingsOptions {
   confidence?: number;
   /** Widen for autocorrelated residuals by n/n′ (default true). */
   autocorrelationCorrection?: boolean;
+  /** Non-routine adjustments; each adds its days' share to the adjusted baseline of the periods it covers. */
+  adjustments?: readonly NonRoutineAdjustment[];
 }
 
 export interface SavingsPeriod {
@@ -32,6 +36,11 @@ export interface SavingsPeriod {
   days: number;
   meanTemp: number;
   actual: number;
+  /** The frozen model's projection: days × f(meanTemp). */
+  modelBaseline: number;
+  /** Non-routine adjustments falling in the period (+ adds to the adjusted baseline). */
+  adjustment: number;
+  /** modelBaseline + adjustment. */
   adjustedBaseline: number;
   savings: number;
   /** The period's temperature lies outside the baseline's range: the model is extrapolating. */
@@ -47,6 +56,8 @@ export interface Uncertainty {
 
 export interface SavingsTotals {
   actual: number;
+  modelBaseline: number;
+  adjustments: number;
   adjustedBaseline: number;
   savings: number;
   fractionSaved: number;
@@ -54,7 +65,7 @@ export interface SavingsTotals {
   uncertainty: { guideline14: Uncertainty; exact: Uncertainty };
   /** Savings distinguishable from zero under the 50%-at-68% rule, by the more cautious of the two formulas. */
   significant: boolean;
-  /** Share of the adjusted baseline from periods outside the baseline's temperature range. */
+  /** Share of the model baseline from periods outside the baseline's temperature range. */
   outsideRangeShare: number;
 }
 
@@ -82,14 +93,19 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
   const ordered = [...reporting].sort((a, b) => (a.start < b.start ? -1 : a.start > b.start ? 1 : 0));
   const range = baseline.temperatureRange;
 
+  const adjustments = options.adjustments ?? [];
   const periods: SavingsPeriod[] = ordered.map((period) => {
-    const adjustedBaseline = period.days * predictPerDay(baseline.model, baseline.changepoints, baseline.rawCoefficients, period.meanTemp);
+    const modelBaseline = period.days * predictPerDay(baseline.model, baseline.changepoints, baseline.rawCoefficients, period.meanTemp);
+    const adjustment = adjustments.length > 0 ? adjustmentsForPeriod(adjustments, period.start, period.end) : 0;
+    const adjustedBaseline = modelBaseline + adjustment;
     return {
       start: period.start,
       end: period.end,
       days: period.days,
       meanTemp: period.meanTemp,
       actual: period.quantity,
+      modelBaseline,
+      adjustment,
       adjustedBaseline,
       savings: adjustedBaseline - period.quantity,
       outsideBaselineRange: period.meanTemp < range.min || period.meanTemp > range.max,
@@ -97,10 +113,14 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
   });
 
   const actual = sum(periods.map((p) => p.actual));
-  const adjustedBaseline = sum(periods.map((p) => p.adjustedBaseline));
+  const modelBaseline = sum(periods.map((p) => p.modelBaseline));
+  const adjustmentTotal = sum(periods.map((p) => p.adjustment));
+  const adjustedBaseline = modelBaseline + adjustmentTotal;
   const savings = adjustedBaseline - actual;
   const fractionSaved = savings / adjustedBaseline;
-  const outside = sum(periods.filter((p) => p.outsideBaselineRange).map((p) => p.adjustedBaseline));
+  // The Annex B formula is stated for the model's own savings; its absolute ΔS carries over unchanged.
+  const modelFraction = (modelBaseline - actual) / modelBaseline;
+  const outside = sum(periods.filter((p) => p.outsideBaselineRange).map((p) => p.modelBaseline));
 
   const n = baseline.n;
   const rho = baseline.stats.autocorrelation;
@@ -111,11 +131,13 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
 
   const uncertaintyAt = (level: number) => {
     const t = twoSidedTCritical(level, n - baseline.p);
-    const g14Fractional = guideline14FractionalUncertainty({ t, cvrmse: baseline.stats.cvrmse, n, nPrime, m: periods.length, fractionSaved });
+    const modelFractional = guideline14FractionalUncertainty({ t, cvrmse: baseline.stats.cvrmse, n, nPrime, m: periods.length, fractionSaved: modelFraction });
+    // ΔS = t·1.26·CV·sqrt(…)·Σ model baseline: the fractional form at F = 1, scaled (no 0/0 when S = 0).
+    const g14Absolute = guideline14FractionalUncertainty({ t, cvrmse: baseline.stats.cvrmse, n, nPrime, m: periods.length, fractionSaved: 1 }) * Math.abs(modelBaseline);
     const exactAbsolute = t * Math.sqrt(variance);
     return {
       t,
-      guideline14: { fractional: g14Fractional, absolute: g14Fractional * Math.abs(savings) },
+      guideline14: { fractional: adjustmentTotal === 0 ? modelFractional : g14Absolute / Math.abs(savings), absolute: g14Absolute },
       exact: { fractional: exactAbsolute / Math.abs(savings), absolute: exactAbsolute },
     };
   };
@@ -128,13 +150,15 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
     periods,
     totals: {
       actual,
+      modelBaseline,
+      adjustments: adjustmentTotal,
       adjustedBaseline,
       savings,
       fractionSaved,
       confidence,
       uncertainty: { guideline14: chosen.guideline14, exact: chosen.exact },
       significant: worstAt68 < SIGNIFICANCE_RULE.maxFractionalUncertainty,
-      outsideRangeShare: adjustedBaseline !== 0 ? outside / adjustedBaseline : 0,
+      outsideRangeShare: modelBaseline !== 0 ? outside / modelBaseline : 0,
     },
     significance: {
       rule: 'ASHRAE Guideline 14: savings are meaningful when their uncertainty is below 50% of the savings at 68% confidence; judged here by the larger of the two formulas',

@@ -87,6 +87,39 @@ describe('adjusted baseline and avoided energy (hand-worked with a 3PC)', () => 
     expect(result.model).toBe('3PC');
   });
 
+  it('non-routine adjustments enter the adjusted baseline of the periods they cover, not the uncertainty', () => {
+    // hand-worked: the periods run 2033-01-01..02-01..03-03..03-31..05-01.
+    // A: 200 over 2033-01-22..02-11 (20 days, 10 a day): 10 days in period 1 (+100), 10 in period 2 (+100).
+    // B: −5 a day over 2033-04-01..04-11 (10 days), all in period 4 (−50).
+    // Σ adjustments = 150; adjusted baseline = 17750 + 150 = 17900; avoided energy = 1400.
+    const adjustments = [
+      { id: 'A', start: '2033-01-22', end: '2033-02-11', quantity: 200, perDay: null, reason: 'added floor area (test)' },
+      { id: 'B', start: '2033-04-01', end: '2033-04-11', quantity: null, perDay: -5, reason: 'closed wing (test)' },
+    ];
+    const adjusted = computeSavings(exactBaseline(), reporting, { adjustments });
+    expect(adjusted.periods.map((p) => p.adjustment)).toEqual([100, 100, 0, -50].map((v) => expect.closeTo(v, 9)));
+    expect(adjusted.periods[0]!.adjustedBaseline).toBeCloseTo(4650 + 100, 6);
+    expect(adjusted.periods[0]!.modelBaseline).toBeCloseTo(4650, 6);
+    expect(adjusted.totals.modelBaseline).toBeCloseTo(17750, 6);
+    expect(adjusted.totals.adjustments).toBeCloseTo(150, 9);
+    expect(adjusted.totals.adjustedBaseline).toBeCloseTo(17900, 6);
+    expect(adjusted.totals.savings).toBeCloseTo(1400, 6);
+    expect(adjusted.totals.fractionSaved).toBeCloseTo(1400 / 17900, 12);
+    expect(adjusted.totals.outsideRangeShare).toBeCloseTo(10100 / 17750, 12); // share of the model's own projection
+    // A noisy baseline (synthetic), so the uncertainties are not zero: the adjustment moves S, not ΔS.
+    const noisy = noisyBaseline(6);
+    const year = reportingYear(0.1);
+    const plain = computeSavings(noisy, year);
+    const withAdjustment = computeSavings(noisy, year, { adjustments: [{ ...adjustments[0]!, start: year[0]!.start, end: year[1]!.end, quantity: 900 }] });
+    expect(withAdjustment.totals.savings).toBeCloseTo(plain.totals.savings + 900, 6);
+    for (const formula of ['guideline14', 'exact'] as const) {
+      const before = plain.totals.uncertainty[formula];
+      expect(before.absolute).toBeGreaterThan(1);
+      expect(withAdjustment.totals.uncertainty[formula].absolute).toBeCloseTo(before.absolute, 6);
+      expect(withAdjustment.totals.uncertainty[formula].fractional).toBeCloseTo(before.absolute / withAdjustment.totals.savings, 9);
+    }
+  });
+
   it('a period exactly at the edge of the baseline range is inside it', () => {
     const edges = periodsFromPoints([{ temp: 40, usePerDay: 100, days: 30 }, { temp: 90, usePerDay: 200, days: 30 }], '2033-01-01');
     const edgeResult = computeSavings(exactBaseline(), edges);

@@ -1,0 +1,88 @@
+/**
+ * Non-routine adjustments: changes to the adjusted baseline for events the
+ * baseline model does not know about (a wing closed for refurbishment, a new
+ * production line), each with its dates and reason, as IPMVP requires them
+ * to be documented. A positive adjustment adds to the adjusted baseline
+ * (the facility would have used more without the measures); a negative one
+ * takes away from it.
+ */
+import { parseIsoDate } from './dates.js';
+
+/**
+ * One non-routine adjustment over [start, end). Exactly one of `quantity`
+ * and `perDay` is non-null: `quantity` is a total spread evenly over the
+ * days of [start, end); `perDay` applies to every day.
+ */
+export interface NonRoutineAdjustment {
+  id: string;
+  start: string;
+  end: string;
+  quantity: number | null;
+  perDay: number | null;
+  reason: string;
+}
+
+/**
+ * The adjustment per day: `perDay`, or `quantity` / days. Throws RangeError
+ * when both or neither are set, the amount is not finite, or end ≤ start.
+ */
+export function adjustmentPerDay(a: NonRoutineAdjustment): number {
+  const days = spanDays(a);
+  const amount = amountOf(a);
+  return amount.kind === 'perDay' ? amount.value : amount.value / days;
+}
+
+/** Days that two [start, end) spans have in common (0 when disjoint). */
+export function adjustmentOverlap(a: { start: string; end: string }, b: { start: string; end: string }): number {
+  const start = Math.max(dayNumber(a.start), dayNumber(b.start));
+  const end = Math.min(dayNumber(a.end), dayNumber(b.end));
+  return Math.max(end - start, 0);
+}
+
+/**
+ * The total adjustment falling in [start, end): Σ perDay × days in common.
+ * Throws RangeError as adjustmentPerDay does for a malformed adjustment.
+ */
+export function adjustmentsForPeriod(adjustments: readonly NonRoutineAdjustment[], start: string, end: string): number {
+  const period = { start, end };
+  let total = 0;
+  for (const adjustment of adjustments) {
+    const days = spanDays(adjustment);
+    const amount = amountOf(adjustment);
+    const overlap = adjustmentOverlap(adjustment, period);
+    if (overlap === 0) continue;
+    // quantity × overlap / days rather than (quantity / days) × overlap: a
+    // period holding the whole adjustment gets back exactly its quantity.
+    total += amount.kind === 'perDay' ? amount.value * overlap : (amount.value * overlap) / days;
+  }
+  return total;
+}
+
+/** The first of `existing` sharing at least one day with `candidate`, or undefined. */
+export function findOverlappingAdjustment<T extends { start: string; end: string }>(
+  existing: readonly T[],
+  candidate: { start: string; end: string },
+): T | undefined {
+  return existing.find((item) => adjustmentOverlap(item, candidate) > 0);
+}
+
+function amountOf(a: NonRoutineAdjustment): { kind: 'quantity' | 'perDay'; value: number } {
+  if ((a.quantity === null) === (a.perDay === null)) {
+    throw new RangeError(`adjustment ${a.id}: exactly one of quantity and perDay must be set`);
+  }
+  const amount = a.quantity !== null ? { kind: 'quantity' as const, value: a.quantity } : { kind: 'perDay' as const, value: a.perDay! };
+  if (!Number.isFinite(amount.value)) throw new RangeError(`adjustment ${a.id}: ${amount.kind} is not a finite number`);
+  return amount;
+}
+
+function spanDays(a: NonRoutineAdjustment): number {
+  const days = dayNumber(a.end) - dayNumber(a.start);
+  if (days <= 0) throw new RangeError(`adjustment ${a.id}: end ${a.end} is not after start ${a.start}`);
+  return days;
+}
+
+function dayNumber(date: string): number {
+  const value = parseIsoDate(date);
+  if (value === null) throw new RangeError(`not an ISO date: ${JSON.stringify(date)}`);
+  return value;
+}

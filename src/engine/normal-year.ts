@@ -1,0 +1,90 @@
+/**
+ * A normal year: one long-term typical daily mean temperature for each of
+ * the 365 days of a year, per station. Feeding it to a model gives
+ * normalised use (what the facility uses in a typical year), the basis of
+ * normalised savings. Days are 'MM-DD'; 02-29 is left out, so every normal
+ * year has 365 days and each day weighs 1.
+ */
+import type { ShapeFit } from './fit/fit-shape.js';
+import { predictPerDay } from './fit/shape-model.js';
+import type { TemperatureUnit } from './types.js';
+import type { InputProblem } from './validate.js';
+import { addDays } from './dates.js';
+import { fahrenheitToCelsius, isPlausibleTemperature, PLAUSIBLE_TEMPERATURE_F, unitSymbol } from './units.js';
+
+/** The 365 'MM-DD' days of a year without 02-29, in order: '01-01' … '12-31'. */
+export const NORMAL_YEAR_DAYS: readonly string[] = Object.freeze(
+  // 2025 is a year without 02-29; any such year gives the same days.
+  Array.from({ length: 365 }, (_, i) => addDays('2025-01-01', i).slice(5)),
+);
+
+const DAY_INDEX = new Map(NORMAL_YEAR_DAYS.map((day, i) => [day, i]));
+
+/** How many missing days a message names before summing up the rest. */
+const MISSING_LISTED = 10;
+
+/**
+ * Problems in a normal year: each of the 365 days exactly once (unknown,
+ * repeated and missing days are refused; 02-29 is not a day of a normal
+ * year) and a plausible temperature for each. Missing days are one problem
+ * with index −1, as they belong to no record of the input.
+ */
+export function checkNormalYear(days: readonly { day: string; temp: number }[], unit: TemperatureUnit): InputProblem[] {
+  const problems: InputProblem[] = [];
+  const seen = new Map<string, number>();
+  days.forEach((entry, index) => {
+    if (entry.day === '02-29') {
+      problems.push({ index, field: 'day', message: '02-29 is not a day of a normal year: a normal year has 365 days and 02-29 is left out' });
+    } else if (!DAY_INDEX.has(entry.day)) {
+      problems.push({ index, field: 'day', message: `not a day of a normal year: ${JSON.stringify(entry.day)} (expected MM-DD; a normal year has 365 days and 02-29 is left out)` });
+    } else if (seen.has(entry.day)) {
+      problems.push({
+        index,
+        field: 'day',
+        message: `repeats the day ${entry.day}: a normal year has each of its 365 days exactly once`,
+        relatedIndex: seen.get(entry.day)!,
+      });
+    } else {
+      seen.set(entry.day, index);
+    }
+    if (!Number.isFinite(entry.temp)) problems.push({ index, field: 'temp', message: 'not a finite number' });
+    else if (!isPlausibleTemperature(entry.temp, unit)) {
+      problems.push({ index, field: 'temp', message: `${entry.temp} ${unitSymbol(unit)} is outside the plausible range ${plausibleRange(unit)}` });
+    }
+  });
+  const missing = NORMAL_YEAR_DAYS.filter((day) => !seen.has(day));
+  if (missing.length > 0) {
+    const listed = missing.slice(0, MISSING_LISTED).join(', ');
+    const more = missing.length > MISSING_LISTED ? ` and ${missing.length - MISSING_LISTED} more` : '';
+    problems.push({ index: -1, field: 'day', message: `missing days: ${listed}${more} (a normal year has all 365 days, 02-29 left out)` });
+  }
+  return problems;
+}
+
+/**
+ * Normalised use of a fitted model over a normal year: Σ over the days of
+ * the predicted use per day at that day's temperature (each day weighs 1),
+ * and how many days lie outside the temperatures the model was fitted on
+ * (there it extrapolates). `temps` are the daily temperatures, in the
+ * station's unit, usually the 365 of a checked normal year in order.
+ */
+export function normalYearUse(
+  fit: Pick<ShapeFit, 'model' | 'changepoints' | 'rawCoefficients' | 'temperatureRange'>,
+  temps: readonly number[],
+): { use: number; outsideRangeDays: number } {
+  let use = 0;
+  let outsideRangeDays = 0;
+  for (const temp of temps) {
+    use += predictPerDay(fit.model, fit.changepoints, fit.rawCoefficients, temp);
+    if (temp < fit.temperatureRange.min || temp > fit.temperatureRange.max) outsideRangeDays += 1;
+  }
+  return { use, outsideRangeDays };
+}
+
+/** The plausible range of units.ts in the station's unit, to one decimal. */
+function plausibleRange(unit: TemperatureUnit): string {
+  const { min, max } = PLAUSIBLE_TEMPERATURE_F;
+  const [low, high] = unit === 'F' ? [min, max] : [fahrenheitToCelsius(min), fahrenheitToCelsius(max)];
+  const round1 = (value: number): number => Math.round(value * 10) / 10;
+  return `${round1(low)}…${round1(high)} ${unitSymbol(unit)}`;
+}
