@@ -133,6 +133,55 @@ export interface IdempotencyKeysTable {
   created_at: string;
 }
 
+/** A non-routine adjustment: added to the adjusted baseline of the reporting days it covers. */
+export interface AdjustmentsTable {
+  id: string;
+  organisation_id: string;
+  meter_id: string;
+  period_start: string;
+  period_end: string;
+  /** A total spread evenly over [period_start, period_end), or null when per_day is given. */
+  quantity: number | null;
+  per_day: number | null;
+  reason: string;
+  created_at: string;
+  created_by: string;
+}
+
+/** One entry of a meter's contract rate schedule (currency per unit of the meter). */
+export interface RatesTable {
+  meter_id: string;
+  effective_from: string;
+  /** Exclusive; null for the open-ended last entry. */
+  effective_to: string | null;
+  price: number;
+  /** Yearly escalation as a fraction, applied on each anniversary of effective_from. */
+  escalation: number;
+  currency: string;
+  updated_at: string;
+}
+
+/** A facility's performance contract: its years and guaranteed savings (JSON list per year). */
+export interface ContractsTable {
+  facility_id: string;
+  organisation_id: string;
+  contract_start: string;
+  years: number;
+  currency: string | null;
+  energy_unit: string;
+  guarantees_json: string;
+  updated_at: string;
+}
+
+/** A station's normal (long-term typical) year: 365 daily means, JSON, with its content hash. */
+export interface NormalYearsTable {
+  station_id: string;
+  source: string;
+  temps_json: string;
+  content_hash: string;
+  updated_at: string;
+}
+
 export interface Database {
   organisations: OrganisationsTable;
   api_keys: ApiKeysTable;
@@ -144,6 +193,10 @@ export interface Database {
   baselines: BaselinesTable;
   audit_log: AuditLogTable;
   idempotency_keys: IdempotencyKeysTable;
+  adjustments: AdjustmentsTable;
+  rates: RatesTable;
+  contracts: ContractsTable;
+  normal_years: NormalYearsTable;
 }
 
 export type ReadingRow = Selectable<ReadingsTable>;

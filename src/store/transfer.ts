@@ -20,10 +20,26 @@ import { writeTransaction } from './connect.js';
 import type { AuditRow, BaselineRow, Database } from './schema.js';
 
 export const EXPORT_FORMAT = 'mvledger-export';
-export const EXPORT_VERSION = 1;
+export const EXPORT_VERSION = 2;
+/** Version 1 predates adjustments, rates, contracts and normal years: it is read with those tables empty. */
+const READABLE_VERSIONS = [1, 2] as const;
+const TABLES_SINCE_VERSION_2 = ['adjustments', 'rates', 'contracts', 'normal_years'] as const;
 
 /** The organisation's tables in foreign-key order: the order of insertion. */
-export const TRANSFER_TABLES = ['api_keys', 'weather_stations', 'weather_observations', 'facilities', 'meters', 'readings', 'baselines', 'audit_log'] as const;
+export const TRANSFER_TABLES = [
+  'api_keys',
+  'weather_stations',
+  'weather_observations',
+  'normal_years',
+  'facilities',
+  'contracts',
+  'meters',
+  'readings',
+  'rates',
+  'adjustments',
+  'baselines',
+  'audit_log',
+] as const;
 export type TransferTable = (typeof TRANSFER_TABLES)[number];
 
 export type Cell = string | number | null;
@@ -134,6 +150,42 @@ const TABLE_RULES: Record<TransferTable, TableRule> = {
       created_by: TEXT,
     },
   },
+  normal_years: {
+    key: ['station_id'],
+    columns: { station_id: TEXT, source: TEXT, temps_json: TEXT, content_hash: TEXT, updated_at: TEXT },
+  },
+  contracts: {
+    key: ['facility_id'],
+    columns: {
+      facility_id: TEXT,
+      organisation_id: TEXT,
+      contract_start: TEXT,
+      years: INTEGER,
+      currency: TEXT_OR_NULL,
+      energy_unit: TEXT,
+      guarantees_json: TEXT,
+      updated_at: TEXT,
+    },
+  },
+  rates: {
+    key: ['meter_id', 'effective_from'],
+    columns: { meter_id: TEXT, effective_from: TEXT, effective_to: TEXT_OR_NULL, price: REAL, escalation: REAL, currency: TEXT, updated_at: TEXT },
+  },
+  adjustments: {
+    key: ['id'],
+    columns: {
+      id: TEXT,
+      organisation_id: TEXT,
+      meter_id: TEXT,
+      period_start: TEXT,
+      period_end: TEXT,
+      quantity: REAL_OR_NULL,
+      per_day: REAL_OR_NULL,
+      reason: TEXT,
+      created_at: TEXT,
+      created_by: TEXT,
+    },
+  },
   audit_log: {
     key: ['seq'],
     columns: {
@@ -153,7 +205,7 @@ const TABLE_RULES: Record<TransferTable, TableRule> = {
 };
 
 /** Tables whose id is unique across the whole database, not only within the organisation. */
-const GLOBAL_ID_TABLES = ['api_keys', 'weather_stations', 'facilities', 'meters', 'baselines'] as const;
+const GLOBAL_ID_TABLES = ['api_keys', 'weather_stations', 'facilities', 'meters', 'baselines', 'adjustments'] as const;
 
 // ---------------------------------------------------------------------------
 // Export.
@@ -186,6 +238,10 @@ async function readOrganisation(trx: Transaction<Database>, organisationId: stri
     facilities: await trx.selectFrom('facilities').selectAll().where('organisation_id', '=', organisationId).execute(),
     meters: await trx.selectFrom('meters').selectAll().where('organisation_id', '=', organisationId).execute(),
     readings: await trx.selectFrom('readings').selectAll().where('meter_id', 'in', meters).execute(),
+    normal_years: await trx.selectFrom('normal_years').selectAll().where('station_id', 'in', stations).execute(),
+    contracts: await trx.selectFrom('contracts').selectAll().where('organisation_id', '=', organisationId).execute(),
+    rates: await trx.selectFrom('rates').selectAll().where('meter_id', 'in', meters).execute(),
+    adjustments: await trx.selectFrom('adjustments').selectAll().where('organisation_id', '=', organisationId).execute(),
     baselines: await trx.selectFrom('baselines').selectAll().where('organisation_id', '=', organisationId).execute(),
     audit_log: await trx.selectFrom('audit_log').selectAll().where('organisation_id', '=', organisationId).execute(),
   };
@@ -286,6 +342,10 @@ function checkReferences(tables: Record<TransferTable, ExportRow[]>): void {
   refer('meters', 'weather_station_id', stations, 'weather station');
   refer('readings', 'meter_id', meters, 'meter');
   refer('baselines', 'meter_id', meters, 'meter');
+  refer('normal_years', 'station_id', stations, 'weather station');
+  refer('contracts', 'facility_id', facilities, 'facility');
+  refer('rates', 'meter_id', meters, 'meter');
+  refer('adjustments', 'meter_id', meters, 'meter');
 
   const baselines = new Map(tables.baselines.map((row) => [row.id, row]));
   const versions = new Set<string>();
@@ -335,7 +395,9 @@ function checkBaselineHashes(rows: readonly ExportRow[]): void {
 export function checkDocument(value: unknown): ExportDocument {
   if (!isObject(value)) fail('document', `must be a JSON object, got ${shown(value)}`);
   if (value.format !== EXPORT_FORMAT) fail('format', `must be ${JSON.stringify(EXPORT_FORMAT)}, got ${shown(value.format)}`);
-  if (value.version !== EXPORT_VERSION) fail('version', `this mvledger reads version ${EXPORT_VERSION}, got ${shown(value.version)}`);
+  if (!(READABLE_VERSIONS as readonly unknown[]).includes(value.version)) {
+    fail('version', `this mvledger reads versions ${READABLE_VERSIONS.join(' and ')}, got ${shown(value.version)}`);
+  }
   if (typeof value.exportedAt !== 'string') fail('exportedAt', `must be text, got ${shown(value.exportedAt)}`);
   const organisation = checkRow('organisation', value.organisation, ORGANISATION_RULE, null) as unknown as OrganisationRecord;
   const head = value.auditHead;
@@ -343,11 +405,12 @@ export function checkDocument(value: unknown): ExportDocument {
   checkCell('auditHead.seq', head.seq, INTEGER);
   checkCell('auditHead.hash', head.hash, TEXT);
   if (!isObject(value.tables)) fail('tables', `must be an object of tables, got ${shown(value.tables)}`);
+  const known: readonly string[] = value.version === 1 ? TRANSFER_TABLES.filter((t) => !(TABLES_SINCE_VERSION_2 as readonly string[]).includes(t)) : TRANSFER_TABLES;
   for (const name of Object.keys(value.tables)) {
-    if (!(TRANSFER_TABLES as readonly string[]).includes(name)) fail(`tables.${name}`, `not a table of format version ${EXPORT_VERSION}`);
+    if (!known.includes(name)) fail(`tables.${name}`, `not a table of format version ${shown(value.version)}`);
   }
   const tables = {} as Record<TransferTable, ExportRow[]>;
-  for (const table of TRANSFER_TABLES) tables[table] = checkTable(table, value.tables[table], organisation.id);
+  for (const table of TRANSFER_TABLES) tables[table] = known.includes(table) ? checkTable(table, value.tables[table], organisation.id) : [];
   checkReferences(tables);
   const auditHead = { seq: head.seq as number, hash: head.hash as string };
   checkAuditTrail(organisation.id, tables.audit_log, auditHead);

@@ -11,7 +11,7 @@ import { migrations } from '../../migrations/index.js';
 import { dropTestDatabase, freshTestDatabaseUrl } from '../support/database.js';
 import { bareBaselineRow } from '../support/baseline-rows.js';
 
-const TABLES = ['api_keys', 'audit_log', 'baselines', 'facilities', 'idempotency_keys', 'meters', 'organisations', 'readings', 'weather_observations', 'weather_stations'];
+const TABLES = ['adjustments', 'api_keys', 'audit_log', 'baselines', 'contracts', 'facilities', 'idempotency_keys', 'meters', 'normal_years', 'organisations', 'rates', 'readings', 'weather_observations', 'weather_stations'];
 
 describe('migrations', () => {
   it('create every table, run once, and refuse a second frozen baseline per meter', async () => {

@@ -17,6 +17,10 @@ const TABLES = [
   'baselines',
   'audit_log',
   'idempotency_keys',
+  'adjustments',
+  'rates',
+  'contracts',
+  'normal_years',
 ] as const;
 
 export async function databaseDigest(db: Kysely<Database>): Promise<string> {
