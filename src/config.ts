@@ -14,6 +14,7 @@ const environmentSchema = z.object({
   LOG_LEVEL: z.enum(LOG_LEVELS).default('info'),
   RATE_LIMIT_PER_MINUTE: z.coerce.number().int().min(0).default(60_000),
   MAX_BODY_BYTES: z.coerce.number().int().min(1024).max(256 * 1024 * 1024).default(16 * 1024 * 1024),
+  MVLEDGER_BOOTSTRAP_ORGANISATION: z.string().trim().min(1).max(200).default('Bootstrap organisation'),
   MVLEDGER_BOOTSTRAP_KEY: z
     .string()
     .regex(/^mvl_[A-Za-z0-9]{8}_[A-Za-z0-9]{32,}$/, 'must look like mvl_<8 letters or digits>_<32 or more letters or digits>')
@@ -26,6 +27,8 @@ export interface Config {
   databaseUrl: string;
   logLevel: (typeof LOG_LEVELS)[number];
   bootstrapKey: string | undefined;
+  /** Name of the organisation a bootstrap creates. */
+  bootstrapOrganisation: string;
   /** Requests per minute per API key (per address without one); 0 turns the limit off. */
   rateLimitPerMinute: number;
   /** Largest accepted request body. */
@@ -48,6 +51,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     databaseUrl: value.DATABASE_URL,
     logLevel: value.LOG_LEVEL,
     bootstrapKey: value.MVLEDGER_BOOTSTRAP_KEY,
+    bootstrapOrganisation: value.MVLEDGER_BOOTSTRAP_ORGANISATION,
     rateLimitPerMinute: value.RATE_LIMIT_PER_MINUTE,
     maxBodyBytes: value.MAX_BODY_BYTES,
   };

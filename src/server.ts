@@ -20,7 +20,7 @@ export interface RunningService {
 export async function startService(config: Config): Promise<RunningService> {
   const store = openStore(config.databaseUrl);
   await migrateToLatest(store.db);
-  const bootstrapped = await bootstrapIfEmpty(store.db, config.bootstrapKey, new Date().toISOString());
+  const bootstrapped = await bootstrapIfEmpty(store.db, config.bootstrapKey, new Date().toISOString(), config.bootstrapOrganisation);
   const app = await buildApp({
     store,
     logger: { level: config.logLevel, redact: LOG_REDACTIONS },

@@ -16,6 +16,7 @@ describe('loadConfig', () => {
       databaseUrl: 'sqlite:./var/mvledger.sqlite',
       logLevel: 'info',
       bootstrapKey: undefined,
+      bootstrapOrganisation: 'Bootstrap organisation',
       rateLimitPerMinute: 60_000,
       maxBodyBytes: 16 * 1024 * 1024,
     });
@@ -37,6 +38,7 @@ describe('loadConfig', () => {
       databaseUrl: 'sqlite::memory:',
       logLevel: 'debug',
       bootstrapKey: BOOTSTRAP,
+      bootstrapOrganisation: 'Bootstrap organisation',
       rateLimitPerMinute: 0,
       maxBodyBytes: 65536,
     });

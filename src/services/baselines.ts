@@ -338,7 +338,7 @@ export async function freezeBaseline(ctx: ServiceContext, baselineId: string, in
 // ---------------------------------------------------------------------------
 // The energy-signature chart.
 
-function chartPoint(period: Period, unit: TemperatureUnit, useUnit: string): SignaturePoint {
+export function chartPoint(period: Period, unit: TemperatureUnit, useUnit: string): SignaturePoint {
   const degree = unit === 'F' ? '°F' : '°C';
   return {
     temp: period.meanTemp,
@@ -348,7 +348,7 @@ function chartPoint(period: Period, unit: TemperatureUnit, useUnit: string): Sig
 }
 
 /** The model's vertices over the baseline's temperature range: its ends and any changepoint between them. */
-function fittedVertices(fit: ShapeFit): SignaturePoint[] {
+export function fittedVertices(fit: ShapeFit): SignaturePoint[] {
   const { min, max } = fit.temperatureRange;
   const inside = [fit.changepoints.heating, fit.changepoints.cooling].filter((c): c is number => c !== null && c > min && c < max);
   const temps = [...new Set([min, ...inside, max])].sort((a, b) => a - b);

@@ -13,6 +13,10 @@ export interface ReadingWindow {
   startOnOrAfter?: string;
   /** Only readings with end ≤ this date (end is exclusive, so a reading ending here lies inside). */
   endOnOrBefore?: string;
+  /** Only readings with start < this date. */
+  startBefore?: string;
+  /** Only readings with end > this date. */
+  endAfter?: string;
 }
 
 /** The meter's readings in the window, in start order. */
@@ -20,6 +24,8 @@ export async function loadReadings(db: Executor, meterId: string, window: Readin
   let query = db.selectFrom('readings').select(['period_start', 'period_end', 'quantity', 'estimated']).where('meter_id', '=', meterId);
   if (window.startOnOrAfter !== undefined) query = query.where('period_start', '>=', window.startOnOrAfter);
   if (window.endOnOrBefore !== undefined) query = query.where('period_end', '<=', window.endOnOrBefore);
+  if (window.startBefore !== undefined) query = query.where('period_start', '<', window.startBefore);
+  if (window.endAfter !== undefined) query = query.where('period_end', '>', window.endAfter);
   const rows = await query.orderBy('period_start').orderBy('period_end').execute();
   return rows.map((row) => ({ start: row.period_start, end: row.period_end, quantity: row.quantity, estimated: row.estimated === 1 }));
 }

@@ -42,7 +42,7 @@ const BOOTSTRAP_LOCK = 'mvledger bootstrap';
  * and that key as its admin key, so a container can start ready to use.
  * Returns true when it did so.
  */
-export async function bootstrapIfEmpty(db: Kysely<Database>, bootstrapKey: string | undefined, at: string): Promise<boolean> {
+export async function bootstrapIfEmpty(db: Kysely<Database>, bootstrapKey: string | undefined, at: string, name = 'Bootstrap organisation'): Promise<boolean> {
   if (!bootstrapKey) return false;
   // One transaction under one lock: instances started together on an empty
   // database see each other's organisation, and exactly one bootstraps.
@@ -50,7 +50,7 @@ export async function bootstrapIfEmpty(db: Kysely<Database>, bootstrapKey: strin
     const any = await trx.selectFrom('organisations').select('id').limit(1).executeTakeFirst();
     if (any) return false;
     const id = newId('org');
-    await insertOrganisation(trx, id, 'Bootstrap organisation', at);
+    await insertOrganisation(trx, id, name, at);
     await insertKey(trx, { organisationId: id, name: 'bootstrap admin', role: 'admin', at, token: bootstrapKey });
     return true;
   });

@@ -14,16 +14,19 @@ import {
   type FitDocument,
   type Guideline14Limits,
   type ModelName,
+  type Period,
   type SavingsDocument,
+  type TemperatureUnit,
   type ShapeFit,
 } from '../engine/index.js';
 import { Problem } from '../http/problem.js';
 import type { BaselineRow } from '../store/schema.js';
 import { fromStoredJson, nonFiniteToNull, verifyBaselineContent } from '../store/baseline-content.js';
-import type { BaselineFitOptions } from './baselines.js';
+import type { BaselineFitOptions, BaselineInputs } from './baselines.js';
 import type { Executor } from './context.js';
 import { getMeterRow } from './meters.js';
 import { loadReadings, loadWeatherFor } from './meter-data.js';
+import { toAdjustment, toEngineAdjustment, type Adjustment } from './adjustments.js';
 
 export interface SavingsQuery {
   from?: string;
@@ -33,13 +36,18 @@ export interface SavingsQuery {
 
 export interface MeterSavings extends SavingsDocument {
   meterId: string;
+  /** The meter's non-routine adjustments that fall in the reporting periods. */
+  adjustments: Adjustment[];
   baselineId: string;
   baselineVersion: number;
   baselineContentHash: string;
 }
 
-interface FrozenModel {
+export interface FrozenModel {
   fit: ShapeFit;
+  /** The baseline's own periods as fitted (for the energy signature). */
+  baselinePeriods: Period[];
+  temperatureUnit: TemperatureUnit;
   limits: Guideline14Limits;
   excluded: ExcludedPeriod[];
   minCoverage: number;
@@ -78,10 +86,10 @@ class BoundedCache<T> {
 }
 
 /** Parsed frozen models, by baseline id and content hash (a frozen row never changes). */
-const modelCache = new BoundedCache<FrozenModel>(500_000, (model) => 100 + model.fit.n);
+const modelCache = new BoundedCache<FrozenModel>(500_000, (model) => 100 + 2 * model.fit.n);
 
 /** Parse (and check against its hash) the frozen baseline's chosen fit, once per baseline. */
-async function frozenModel(db: Executor, baselineId: string, contentHash: string): Promise<FrozenModel> {
+export async function frozenModel(db: Executor, baselineId: string, contentHash: string): Promise<FrozenModel> {
   const key = `${baselineId}:${contentHash}`;
   const cached = modelCache.get(key);
   if (cached) return cached;
@@ -96,11 +104,15 @@ async function frozenModel(db: Executor, baselineId: string, contentHash: string
   const options = fromStoredJson<BaselineFitOptions>(row.options_json);
   const fit = fromStoredJson<Partial<Record<ModelName, ShapeFit>>>(row.fits_json)[row.chosen_model as ModelName];
   if (!fit) throw new Problem('unprocessable', `baseline ${baselineId} holds no fit of its chosen shape ${row.chosen_model}`);
+  const inputs = fromStoredJson<BaselineInputs>(row.inputs_json);
+  const minCoverage = options.minCoverage ?? document.settings.minCoverage;
   const model: FrozenModel = {
     fit,
+    baselinePeriods: alignPeriods(inputs.readings, inputs.weather, { minCoverage }).periods,
+    temperatureUnit: inputs.temperatureUnit,
     limits: document.settings.guideline14,
     excluded: document.periods.excluded,
-    minCoverage: options.minCoverage ?? document.settings.minCoverage,
+    minCoverage,
   };
   return modelCache.set(key, model);
 }
@@ -131,7 +143,16 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
     );
   }
   const weather = await loadWeatherFor(db, meter.weather_station_id, readings);
-  const options = { confidence: query.confidence, minCoverage: model.minCoverage };
+  const last = readings.reduce((end, r) => (r.end > end ? r.end : end), start);
+  const adjustmentRows = await db
+    .selectFrom('adjustments')
+    .selectAll()
+    .where('meter_id', '=', meter.id)
+    .where('period_start', '<', last)
+    .where('period_end', '>', readings[0]!.start)
+    .orderBy('period_start')
+    .execute();
+  const options = { confidence: query.confidence, minCoverage: model.minCoverage, adjustments: adjustmentRows.map(toEngineAdjustment) };
   let document: SavingsDocument;
   try {
     document = savingsFromFit(model.fit, { limits: model.limits, excluded: model.excluded }, readings, weather, options);
@@ -145,5 +166,5 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
       excluded.map((p) => ({ field: `reading ${p.start}..${p.end}`, message: p.reason })),
     );
   }
-  return nonFiniteToNull({ ...document, meterId: meter.id, baselineId: baseline.id, baselineVersion: baseline.version, baselineContentHash: baseline.content_hash });
+  return nonFiniteToNull({ ...document, meterId: meter.id, adjustments: adjustmentRows.map(toAdjustment), baselineId: baseline.id, baselineVersion: baseline.version, baselineContentHash: baseline.content_hash });
 }

@@ -106,10 +106,15 @@ async function check(route: FuzzRoute | null, request: FuzzRequest, figures: Rou
 
 describe('every route, fuzzed', () => {
   it('finds the routes in the OpenAPI document', () => {
-    // The API contract: the documented surface (health, keys, audit, stations, facilities, meters, readings, baselines, savings).
-    expect(routes.length).toBeGreaterThanOrEqual(27);
-    // The API contract: the two routes documented as also taking text/csv.
-    expect(routes.filter((r) => r.takesCsv).map(routeName).sort()).toEqual(['POST /v1/meters/{id}/readings', 'PUT /v1/weather-stations/{id}/observations']);
+    // The API contract: the documented surface (health, keys, audit, stations, facilities, meters, readings, baselines, savings,
+    // adjustments, rates, contracts, normal years, reports).
+    expect(routes.length).toBeGreaterThanOrEqual(36);
+    // The API contract: the three routes documented as also taking text/csv.
+    expect(routes.filter((r) => r.takesCsv).map(routeName).sort()).toEqual([
+      'POST /v1/meters/{id}/readings',
+      'PUT /v1/weather-stations/{id}/normal-year',
+      'PUT /v1/weather-stations/{id}/observations',
+    ]);
   });
 
   for (const route of routes) {

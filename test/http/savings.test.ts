@@ -20,7 +20,7 @@ const WEATHER = dailyWeather(CLIMATES.temperate, '2023-01-01', 1096, random);
 const BASELINE = monthlyReadings(SAMPLE_BUILDING, WEATHER, '2023-01-01', 24, random);
 const REPORTING = monthlyReadings({ ...SAMPLE_BUILDING, base: 255, heatingRate: 6.5 }, WEATHER, '2025-01-01', 12, random);
 const WINDOW = { start: '2023-01-01', end: '2025-01-01' };
-const EXTRA_KEYS = ['meterId', 'baselineId', 'baselineVersion', 'baselineContentHash'];
+const EXTRA_KEYS = ['meterId', 'adjustments', 'baselineId', 'baselineVersion', 'baselineContentHash'];
 
 const ENGINE = analyseBaseline(BASELINE, WEATHER);
 

@@ -11,7 +11,10 @@ import { parseFlagCell } from '../../lib/csv/cells.js';
 import { InputFileError } from '../../lib/csv/input-error.js';
 import { Problem } from '../problem.js';
 
-export type CsvCollection = 'readings' | 'observations';
+export type CsvCollection = 'readings' | 'observations' | 'days';
+
+/** A CSV normal year carries its source in this header (the CSV itself holds only day,temp). */
+export const NORMAL_YEAR_SOURCE_HEADER = 'x-normal-year-source';
 
 declare module 'fastify' {
   interface FastifyContextConfig {
@@ -27,6 +30,7 @@ declare module 'fastify' {
 const COLUMNS: Record<CsvCollection, { required: string[][]; optional: string[]; flags: string[] }> = {
   readings: { required: [['start', 'end', 'quantity']], optional: ['estimated', 'cost'], flags: ['estimated'] },
   observations: { required: [['date', 'temp'], ['date', 'tmin', 'tmax']], optional: [], flags: [] },
+  days: { required: [['day', 'temp']], optional: [], flags: [] },
 };
 
 const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
@@ -67,7 +71,7 @@ export function csvToBody(collection: CsvCollection, text: string): { body: Reco
     const record: Record<string, unknown> = {};
     for (const [column, text] of row.cells) {
       if (text === '' || !allowed.has(column)) continue;
-      record[column] = column === 'date' || column === 'start' || column === 'end' ? text : cellValue(text, spec.flags.includes(column));
+      record[column] = column === 'date' || column === 'day' || column === 'start' || column === 'end' ? text : cellValue(text, spec.flags.includes(column));
     }
     return record;
   });
@@ -88,6 +92,8 @@ export function installCsvBodies(app: FastifyInstance): void {
     const collection = request.routeOptions.config?.csvBody;
     if (!collection || !request.sentAsCsv || typeof request.body !== 'string') return;
     const { body, lines } = csvToBody(collection, request.body);
+    const source = request.headers[NORMAL_YEAR_SOURCE_HEADER];
+    if (collection === 'days' && typeof source === 'string') body.source = source;
     request.body = body;
     request.csvLines = { collection, lines };
   });

@@ -10,6 +10,11 @@ import { baselinesRoutes } from './baselines.js';
 import { savingsRoutes } from './savings.js';
 import { auditRoutes } from './audit.js';
 import { apiKeysRoutes } from './api-keys.js';
+import { adjustmentsRoutes } from './adjustments.js';
+import { ratesRoutes } from './rates.js';
+import { contractsRoutes } from './contracts.js';
+import { normalYearsRoutes } from './normal-years.js';
+import { reportsRoutes } from './reports.js';
 import type { ApiApp } from './types.js';
 
 export async function registerRoutes(app: ApiApp, deps: RouteDeps): Promise<void> {
@@ -21,6 +26,11 @@ export async function registerRoutes(app: ApiApp, deps: RouteDeps): Promise<void
   observationsRoutes(app, deps);
   baselinesRoutes(app, deps);
   savingsRoutes(app, deps);
+  adjustmentsRoutes(app, deps);
+  ratesRoutes(app, deps);
+  contractsRoutes(app, deps);
+  normalYearsRoutes(app, deps);
+  reportsRoutes(app, deps);
   auditRoutes(app, deps);
   apiKeysRoutes(app, deps);
 }

@@ -2,6 +2,7 @@
 import { z } from 'zod';
 import { CONFIDENCE_LEVELS } from '../../engine/index.js';
 import { isoDate } from './common.js';
+import { adjustmentSchema } from './adjustments.js';
 import { excludedPeriodSchema, guideline14CheckSchema, modelName, stat } from './baselines.js';
 
 const confidenceText = CONFIDENCE_LEVELS.join(', ');
@@ -31,13 +32,17 @@ export const savingsSchema = z
         days: z.number().int(),
         meanTemp: stat,
         actual: stat,
-        adjustedBaseline: stat,
+        modelBaseline: stat.describe('The frozen model’s projection onto the period’s weather'),
+        adjustment: stat.describe('Non-routine adjustments falling in the period (+ adds to the adjusted baseline)'),
+        adjustedBaseline: stat.describe('modelBaseline + adjustment'),
         savings: stat,
         outsideBaselineRange: z.boolean(),
       }),
     ),
     totals: z.object({
       actual: stat,
+      modelBaseline: stat,
+      adjustments: stat,
       adjustedBaseline: stat,
       savings: stat.describe('Avoided energy: adjusted baseline − actual'),
       fractionSaved: stat,
@@ -52,6 +57,7 @@ export const savingsSchema = z
     baseline: z.object({ selected: modelName, reportingMonths: stat, guideline14: guideline14CheckSchema.nullable() }),
     excluded: z.object({ baseline: z.array(excludedPeriodSchema), reporting: z.array(excludedPeriodSchema) }),
     meterId: z.string(),
+    adjustments: z.array(adjustmentSchema),
     baselineId: z.string(),
     baselineVersion: z.number().int(),
     baselineContentHash: z.string(),

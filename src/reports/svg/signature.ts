@@ -7,6 +7,7 @@
  */
 import { coord, element, escapeXml, truncate } from './xml.js';
 import { axisScale, tickLabel, type AxisScale } from './ticks.js';
+import { FONT, PALETTE } from './chart-frame.js';
 
 export interface SignaturePoint {
   /** Mean outdoor temperature of the period, in the station's unit. */
@@ -34,23 +35,10 @@ export interface SignatureChartData {
   reporting: readonly SignaturePoint[];
 }
 
-/** Our own palette: slate frame, teal baseline, deep blue-green model line, amber reporting periods. */
-const PALETTE = {
-  paper: '#fbfaf6',
-  ink: '#0f172a',
-  frame: '#475569',
-  label: '#334155',
-  grid: '#e2e8f0',
-  baselineFill: '#14b8a6',
-  baselineStroke: '#0f766e',
-  fitLine: '#0f4c5c',
-  reporting: '#d97706',
-} as const;
 
 const WIDTH = 760;
 const HEIGHT = 520;
 const PLOT = { left: 88, right: WIDTH - 28, top: 78, bottom: HEIGHT - 100 } as const;
-const FONT = 'system-ui, -apple-system, Segoe UI, Helvetica, Arial, sans-serif';
 const MARK_RADIUS = 4.2;
 const DIAMOND = 5.6;
 
@@ -129,7 +117,7 @@ function axes(x: AxisScale, y: AxisScale, px: Project, py: Project, xTitle: stri
 function fittedLine(points: readonly SignaturePoint[], px: Project, py: Project): string {
   if (points.length < 2) return '';
   const coordinates = points.map((p) => `${coord(px(p.temp))},${coord(py(p.usePerDay))}`).join(' ');
-  return element('polyline', { class: 'fit-line', points: coordinates, fill: 'none', stroke: PALETTE.fitLine, 'stroke-width': 2.4, 'stroke-linejoin': 'round' });
+  return element('polyline', { class: 'fit-line', points: coordinates, fill: 'none', stroke: PALETTE.line, 'stroke-width': 2.4, 'stroke-linejoin': 'round' });
 }
 
 function tooltip(point: SignaturePoint): string | undefined {
@@ -166,7 +154,7 @@ function legend(data: SignatureChartData): string {
   };
   items.push(element('circle', { cx: cursor + 8, cy: rowY, r: MARK_RADIUS, fill: PALETTE.baselineFill, stroke: PALETTE.baselineStroke }));
   label(baseline);
-  items.push(element('line', { x1: cursor, y1: rowY, x2: cursor + 16, y2: rowY, stroke: PALETTE.fitLine, 'stroke-width': 2.4 }));
+  items.push(element('line', { x1: cursor, y1: rowY, x2: cursor + 16, y2: rowY, stroke: PALETTE.line, 'stroke-width': 2.4 }));
   label(line);
   if (data.reporting.length > 0) {
     items.push(element('path', { d: diamondPath(cursor + 8, rowY, DIAMOND), fill: PALETTE.paper, stroke: PALETTE.reporting, 'stroke-width': 1.8 }));

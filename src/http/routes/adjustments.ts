@@ -1,0 +1,37 @@
+/** /v1/meters/{id}/adjustments: non-routine adjustments of a meter's reporting period. */
+import type { RouteDeps } from '../app.js';
+import { createAdjustment, listAdjustments } from '../../services/adjustments.js';
+import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
+import { adjustmentList, adjustmentSchema, createAdjustmentBody } from '../schemas/adjustments.js';
+import { serviceContext } from './context.js';
+import type { ApiApp } from './types.js';
+
+export function adjustmentsRoutes(app: ApiApp, deps: RouteDeps): void {
+  app.post(
+    '/v1/meters/:id/adjustments',
+    {
+      config: { permission: 'ledger' },
+      schema: {
+        tags: ['adjustments'],
+        summary: 'Record a non-routine adjustment',
+        description:
+          'A documented change the weather model cannot see, over reporting days [start, end), as a total (quantity) or per day, in the meter’s unit; it enters the adjusted baseline of the periods it covers and every report lists it. 422 before a baseline is frozen or inside its window; 409 when it overlaps another adjustment of the meter.',
+        security: bearer,
+        headers: idempotencyHeaders,
+        params: idParams,
+        body: createAdjustmentBody,
+        response: { 201: adjustmentSchema, ...writeProblems },
+      },
+    },
+    async (request, reply) => reply.code(201).send(await createAdjustment(serviceContext(request, deps), request.params.id, request.body)),
+  );
+
+  app.get(
+    '/v1/meters/:id/adjustments',
+    {
+      config: { permission: 'read' },
+      schema: { tags: ['adjustments'], summary: 'A meter’s non-routine adjustments', security: bearer, params: idParams, response: { 200: adjustmentList, ...authProblems } },
+    },
+    async (request) => listAdjustments(deps.store.db, request.principal!.organisationId, request.params.id),
+  );
+}

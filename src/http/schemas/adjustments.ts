@@ -1,0 +1,32 @@
+/** Non-routine adjustments: the body of a new one and the stored record. */
+import { z } from 'zod';
+import { finite, isoDate, plainText } from './common.js';
+
+export const createAdjustmentBody = z
+  .object({
+    start: isoDate.describe('First day covered'),
+    end: isoDate.describe('Day after the last day covered (end exclusive)'),
+    quantity: finite.optional().describe('Total over [start, end), in the meter’s unit, spread evenly over the days; + adds to the adjusted baseline'),
+    perDay: finite.optional().describe('Or a figure per day, in the meter’s unit'),
+    reason: plainText().trim().min(3, 'must say why (at least 3 characters)').max(2000, 'must be at most 2000 characters').describe('The documented change the weather model cannot see'),
+  })
+  .strict()
+  .refine((body) => body.end > body.start, { path: ['end'], message: 'must be after start' })
+  .refine((body) => (body.quantity === undefined) !== (body.perDay === undefined), { path: ['quantity'], message: 'give either quantity or perDay' })
+  .describe('A non-routine adjustment: positive figures add to the adjusted baseline (added floor area), negative ones take away (a closed wing).');
+
+export const adjustmentSchema = z
+  .object({
+    id: z.string(),
+    meterId: z.string(),
+    start: z.string(),
+    end: z.string(),
+    quantity: z.number().nullable(),
+    perDay: z.number(),
+    reason: z.string(),
+    recordedAt: z.string(),
+    recordedBy: z.string(),
+  })
+  .meta({ id: 'Adjustment' });
+
+export const adjustmentList = z.object({ meterId: z.string(), unit: z.string(), adjustments: z.array(adjustmentSchema) }).meta({ id: 'Adjustments' });

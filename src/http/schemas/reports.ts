@@ -1,0 +1,39 @@
+/** The savings report query. The report itself is documented as its three media types. */
+import { z } from 'zod';
+import { CONFIDENCE_LEVELS } from '../../engine/index.js';
+import { isoDate, plainText } from './common.js';
+
+const confidenceText = CONFIDENCE_LEVELS.join(', ');
+
+export const REPORT_FORMATS = ['json', 'csv', 'html'] as const;
+
+export const reportQuery = z
+  .object({
+    from: isoDate.optional().describe('First day of the window (with to)'),
+    to: isoDate.optional().describe('Day after the last day of the window (exclusive)'),
+    quarter: z
+      .string()
+      .regex(/^\d{4}-Q[1-4]$/, 'must be a quarter such as 2026-Q3')
+      .optional()
+      .describe('A calendar quarter, e.g. 2026-Q3 (instead of from and to)'),
+    contractYear: z.coerce.number().int('must be a whole number').min(1, 'contract years count from 1').max(50).optional().describe('A contract year of the facilities’ contract'),
+    facilityId: plainText().min(1).max(100).optional().describe('Only this facility'),
+    format: z.enum(REPORT_FORMATS, { message: `must be one of ${REPORT_FORMATS.join(', ')}` }).optional().describe('json (default), csv or html'),
+    confidence: z.coerce
+      .number()
+      .refine((value) => (CONFIDENCE_LEVELS as readonly number[]).includes(value), `must be one of ${confidenceText}`)
+      .optional()
+      .describe(`Two-sided confidence of every ±: ${confidenceText} (default 0.68)`),
+  })
+  .strict();
+
+export const reportJsonSchema = z
+  .object({
+    format: z.literal('mvledger-savings-report'),
+    version: z.number().int(),
+    window: z.object({ from: z.string(), to: z.string(), kind: z.string(), label: z.string() }),
+    confidence: z.number(),
+    contentHash: z.string().describe('SHA-256 of the canonical JSON of every other field'),
+  })
+  .loose()
+  .meta({ id: 'SavingsReport', description: 'Portfolio, facility and meter savings with costs, guarantees, adjustments, normalised savings, method, sources and caution' });

@@ -1,0 +1,151 @@
+/**
+ * The savings report as one CSV table (RFC 4180, CRLF line ends) for
+ * spreadsheets and finance systems: a `record` column says what each row is
+ * (report, portfolio, facility, guarantee, meter, period, adjustment,
+ * notice, caution). Deterministic: numbers are written with at most six
+ * decimals and no exponent, so the same report gives the same bytes.
+ */
+import type { EnergyTotal, MeterReport, SavingsReport } from './savings-report.js';
+
+export const CSV_COLUMNS = [
+  'record',
+  'facility_id',
+  'facility',
+  'meter_id',
+  'meter',
+  'unit',
+  'start',
+  'end',
+  'days',
+  'mean_temp',
+  'actual',
+  'model_baseline',
+  'adjustment',
+  'adjusted_baseline',
+  'savings',
+  'fraction_saved',
+  'uncertainty',
+  'guaranteed',
+  'difference',
+  'currency',
+  'rate',
+  'cost_avoided',
+  'cost_uncertainty',
+  'outside_baseline_range',
+  'note',
+] as const;
+
+type Column = (typeof CSV_COLUMNS)[number];
+type Row = Partial<Record<Column, string | number | boolean | null>>;
+
+/** A number as plain decimal text: at most six decimals, no exponent, no "-0". */
+export function csvNumber(value: number): string {
+  if (!Number.isFinite(value)) return '';
+  const rounded = Math.round(value * 1e6) / 1e6;
+  if (rounded === 0) return '0';
+  const text = rounded.toFixed(6).replace(/\.?0+$/, '');
+  return text;
+}
+
+/** Quote where needed; a text cell that a spreadsheet would run as a formula is defused with a leading apostrophe. */
+export function csvText(text: string): string {
+  const safe = /^[=+\-@\t\r]/.test(text) ? `'${text}` : text;
+  return /[",\r\n]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe;
+}
+
+function cell(value: string | number | boolean | null | undefined): string {
+  if (value === null || value === undefined) return '';
+  if (typeof value === 'number') return csvNumber(value);
+  if (typeof value === 'boolean') return value ? 'true' : 'false';
+  return csvText(value);
+}
+
+function totalRow(total: EnergyTotal): Row {
+  return {
+    unit: total.unit,
+    actual: total.actual,
+    model_baseline: total.modelBaseline,
+    adjustment: total.adjustments,
+    adjusted_baseline: total.adjustedBaseline,
+    savings: total.savings,
+    fraction_saved: total.fractionSaved,
+    uncertainty: total.uncertainty,
+  };
+}
+
+export function renderReportCsv(report: SavingsReport): string {
+  const rows: Row[] = [];
+  const w = report.window;
+  rows.push({
+    record: 'report',
+    start: w.from,
+    end: w.to,
+    note: `${w.label}; confidence ${report.confidence}; content hash ${report.contentHash}; audit head ${report.dataAsOf.auditSeq} ${report.dataAsOf.auditHash}`,
+  });
+  for (const unit of ['MMBtu', 'GJ'] as const) rows.push({ record: 'portfolio', ...totalRow(report.portfolio.totals[unit]), start: w.from, end: w.to });
+  for (const cost of report.portfolio.cost) rows.push({ record: 'portfolio', start: w.from, end: w.to, currency: cost.currency, cost_avoided: cost.avoided, cost_uncertainty: cost.uncertainty });
+
+  for (const facility of report.facilities) {
+    const f = { facility_id: facility.id, facility: facility.name };
+    for (const unit of ['MMBtu', 'GJ'] as const) rows.push({ record: 'facility', ...f, ...totalRow(facility.totals[unit]), start: w.from, end: w.to });
+    for (const cost of facility.cost) rows.push({ record: 'facility', ...f, start: w.from, end: w.to, currency: cost.currency, cost_avoided: cost.avoided, cost_uncertainty: cost.uncertainty });
+    for (const g of facility.guarantees) {
+      const note = `contract year ${g.contractYear}${g.complete ? '' : ', not complete'}`;
+      if (g.energy) {
+        rows.push({ record: 'guarantee', ...f, unit: g.energy.unit, start: g.yearStart, end: g.measuredThrough, savings: g.energy.measured, uncertainty: g.energy.uncertainty, guaranteed: g.energy.guaranteed, difference: g.energy.difference, note });
+      }
+      if (g.cost) {
+        rows.push({ record: 'guarantee', ...f, currency: g.cost.currency, start: g.yearStart, end: g.measuredThrough, cost_avoided: g.cost.measured, cost_uncertainty: g.cost.uncertainty, guaranteed: g.cost.guaranteed, difference: g.cost.difference, note });
+      }
+    }
+    for (const meter of facility.meters) rows.push(...meterRows(f, meter, w));
+  }
+  for (const notice of report.notices) rows.push({ record: 'notice', note: notice });
+  rows.push({ record: 'caution', note: report.caution });
+
+  const lines = [CSV_COLUMNS.join(','), ...rows.map((row) => CSV_COLUMNS.map((column) => cell(row[column])).join(','))];
+  return `${lines.join('\r\n')}\r\n`;
+}
+
+function meterRows(f: Row, meter: MeterReport, w: { from: string; to: string }): Row[] {
+  const m = { ...f, meter_id: meter.id, meter: meter.name };
+  if (meter.missing !== null || meter.energy === null) return [{ record: 'meter', ...m, unit: meter.unit, start: w.from, end: w.to, note: `no figures: ${meter.missing}` }];
+  const rows: Row[] = [
+    {
+      record: 'meter',
+      ...m,
+      ...totalRow(meter.energy),
+      start: w.from,
+      end: w.to,
+      currency: meter.cost?.currency ?? null,
+      cost_avoided: meter.cost?.avoided ?? null,
+      cost_uncertainty: meter.cost?.uncertainty ?? null,
+      note: `baseline ${meter.baseline?.id} v${meter.baseline?.version} ${meter.baseline?.model} ${meter.baseline?.contentHash}; extrapolation share ${csvNumber(meter.extrapolationShare)}`,
+    },
+  ];
+  for (const p of meter.periods) {
+    rows.push({
+      record: 'period',
+      ...m,
+      unit: meter.unit,
+      start: p.start,
+      end: p.end,
+      days: p.days,
+      mean_temp: p.meanTemp,
+      actual: p.actual,
+      model_baseline: p.modelBaseline,
+      adjustment: p.adjustment,
+      adjusted_baseline: p.adjustedBaseline,
+      savings: p.savings,
+      currency: meter.cost?.currency ?? null,
+      rate: p.rate,
+      cost_avoided: p.costAvoided,
+      outside_baseline_range: p.outsideBaselineRange,
+      note: p.rate === null ? 'no contract rate for every day of the period' : null,
+    });
+  }
+  for (const a of meter.adjustments) {
+    rows.push({ record: 'adjustment', ...m, unit: meter.unit, start: a.start, end: a.end, adjustment: a.appliedInWindow, note: `${a.id}: ${a.reason}` });
+  }
+  return rows;
+}

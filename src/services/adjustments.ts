@@ -1,0 +1,120 @@
+/**
+ * Non-routine adjustments: documented changes the weather model cannot see
+ * (added floor area, a new data hall, a closed wing). Each covers reporting
+ * days of one meter, as a total or a rate per day, in the meter's unit; a
+ * positive figure adds to the adjusted baseline. They never overlap on one
+ * meter (one figure per day keeps every report unambiguous) and never reach
+ * back into the frozen baseline's window.
+ */
+import { adjustmentPerDay, daysBetween, findOverlappingAdjustment, type NonRoutineAdjustment } from '../engine/index.js';
+import { newId } from '../store/ids.js';
+import type { Selectable } from 'kysely';
+import type { AdjustmentsTable } from '../store/schema.js';
+import { Problem } from '../http/problem.js';
+import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
+import { getMeterRow } from './meters.js';
+
+export interface AdjustmentInput {
+  start: string;
+  end: string;
+  quantity?: number;
+  perDay?: number;
+  reason: string;
+}
+
+export interface Adjustment {
+  id: string;
+  meterId: string;
+  start: string;
+  end: string;
+  quantity: number | null;
+  perDay: number;
+  reason: string;
+  recordedAt: string;
+  recordedBy: string;
+}
+
+type AdjustmentRow = Selectable<AdjustmentsTable>;
+
+export function toAdjustment(row: AdjustmentRow): Adjustment {
+  return {
+    id: row.id,
+    meterId: row.meter_id,
+    start: row.period_start,
+    end: row.period_end,
+    quantity: row.quantity,
+    perDay: adjustmentPerDay(toEngineAdjustment(row)),
+    reason: row.reason,
+    recordedAt: row.created_at,
+    recordedBy: row.created_by,
+  };
+}
+
+export function toEngineAdjustment(row: AdjustmentRow): NonRoutineAdjustment {
+  return { id: row.id, start: row.period_start, end: row.period_end, quantity: row.quantity, perDay: row.per_day, reason: row.reason };
+}
+
+export async function createAdjustment(ctx: ServiceContext, meterId: string, input: AdjustmentInput): Promise<Adjustment> {
+  if (!(input.end > input.start)) throw new Problem('validation', 'end: must be after start', [{ field: 'end', message: 'must be after start' }]);
+  if ((input.quantity === undefined) === (input.perDay === undefined)) {
+    throw new Problem('validation', 'quantity: give either quantity (a total over the days) or perDay, not both and not neither', [
+      { field: 'quantity', message: 'give quantity or perDay' },
+    ]);
+  }
+  const organisationId = ctx.principal.organisationId;
+  return inTransaction(ctx, async (trx) => {
+    const meter = await getMeterRow(trx, organisationId, meterId);
+    const baseline = await trx.selectFrom('baselines').select(['id', 'period_end']).where('meter_id', '=', meter.id).where('status', '=', 'frozen').executeTakeFirst();
+    if (!baseline) {
+      throw new Problem('unprocessable', `meter ${meterId} has no frozen baseline: non-routine adjustments apply to reporting periods, after a baseline is frozen`);
+    }
+    if (input.start < baseline.period_end) {
+      throw new Problem('unprocessable', `start: ${input.start} lies inside the frozen baseline's window (it ends ${baseline.period_end}); adjustments apply to reporting days only`, [
+        { field: 'start', message: `must be on or after ${baseline.period_end}` },
+      ]);
+    }
+    const existing = await trx.selectFrom('adjustments').selectAll().where('meter_id', '=', meter.id).execute();
+    const clash = findOverlappingAdjustment(
+      existing.map((row) => ({ start: row.period_start, end: row.period_end, id: row.id })),
+      input,
+    );
+    if (clash) {
+      throw new Problem(
+        'conflict',
+        `start: ${input.start}..${input.end} overlaps adjustment ${clash.id} (${clash.start}..${clash.end}) of this meter; one adjustment per day keeps reports unambiguous: combine them or shorten one`,
+        [{ field: 'start', message: `overlaps adjustment ${clash.id}` }],
+      );
+    }
+    const row: AdjustmentRow = {
+      id: newId('adj'),
+      organisation_id: organisationId,
+      meter_id: meter.id,
+      period_start: input.start,
+      period_end: input.end,
+      quantity: input.quantity ?? null,
+      per_day: input.perDay ?? null,
+      reason: input.reason,
+      created_at: ctx.now,
+      created_by: ctx.principal.keyId,
+    };
+    await trx.insertInto('adjustments').values(row).execute();
+    const adjustment = toAdjustment(row);
+    await audit(trx, ctx, { action: 'create', entityType: 'adjustment', entityId: row.id, after: { ...adjustment, days: daysBetween(row.period_start, row.period_end) } });
+    return adjustment;
+  });
+}
+
+export async function listAdjustments(db: Executor, organisationId: string, meterId: string): Promise<{ meterId: string; unit: string; adjustments: Adjustment[] }> {
+  const meter = await getMeterRow(db, organisationId, meterId);
+  const rows = await db.selectFrom('adjustments').selectAll().where('meter_id', '=', meter.id).orderBy('period_start').execute();
+  return { meterId: meter.id, unit: meter.unit, adjustments: rows.map(toAdjustment) };
+}
+
+/** Every adjustment of the given meters, by meter, in date order. */
+export async function adjustmentRowsForMeters(db: Executor, meterIds: readonly string[]): Promise<Map<string, AdjustmentRow[]>> {
+  const byMeter = new Map<string, AdjustmentRow[]>();
+  if (meterIds.length === 0) return byMeter;
+  const rows = await db.selectFrom('adjustments').selectAll().where('meter_id', 'in', meterIds).orderBy('period_start').execute();
+  for (const row of rows) byMeter.set(row.meter_id, [...(byMeter.get(row.meter_id) ?? []), row]);
+  return byMeter;
+}

@@ -1,0 +1,104 @@
+/**
+ * A facility's performance contract: when it starts, how many contract years
+ * it runs, and the savings guaranteed in each year (energy in one common
+ * unit, cost in the contract's currency, or both). Replaced whole by each
+ * PUT, with the previous terms kept in the audit trail.
+ */
+import { canonicalEnergyUnit } from '../engine/index.js';
+import { fromStoredJson } from '../store/baseline-content.js';
+import { canonicalJson } from '../lib/canonical-json.js';
+import { notFound, Problem, type FieldError } from '../http/problem.js';
+import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
+import { getFacilityRow } from './facilities.js';
+
+export interface Guarantee {
+  year: number;
+  energy: number | null;
+  cost: number | null;
+}
+
+export interface ContractInput {
+  start: string;
+  years: number;
+  currency?: string | null;
+  energyUnit: string;
+  guarantees: readonly { year: number; energy?: number | null; cost?: number | null }[];
+}
+
+export interface Contract {
+  facilityId: string;
+  start: string;
+  years: number;
+  currency: string | null;
+  energyUnit: string;
+  guarantees: Guarantee[];
+  updatedAt: string;
+}
+
+type ContractRow = { facility_id: string; contract_start: string; years: number; currency: string | null; energy_unit: string; guarantees_json: string; updated_at: string };
+
+export function toContract(row: ContractRow): Contract {
+  return {
+    facilityId: row.facility_id,
+    start: row.contract_start,
+    years: row.years,
+    currency: row.currency,
+    energyUnit: row.energy_unit,
+    guarantees: fromStoredJson<Guarantee[]>(row.guarantees_json),
+    updatedAt: row.updated_at,
+  };
+}
+
+function checkContract(input: ContractInput): { energyUnit: string; guarantees: Guarantee[] } {
+  const errors: FieldError[] = [];
+  const energyUnit = canonicalEnergyUnit(input.energyUnit);
+  if (!energyUnit) errors.push({ field: 'energyUnit', message: `${input.energyUnit} has no standard energy factor; use kWh, MWh, therm, MMBtu, GJ or another standard energy unit` });
+  const seen = new Set<number>();
+  const guarantees: Guarantee[] = [];
+  input.guarantees.forEach((g, index) => {
+    if (g.year > input.years) errors.push({ field: `guarantees[${index}].year`, message: `contract year ${g.year} is beyond the contract's ${input.years} years` });
+    if (seen.has(g.year)) errors.push({ field: `guarantees[${index}].year`, message: `contract year ${g.year} is guaranteed twice` });
+    seen.add(g.year);
+    const energy = g.energy ?? null;
+    const cost = g.cost ?? null;
+    if (energy === null && cost === null) errors.push({ field: `guarantees[${index}]`, message: 'give energy, cost or both' });
+    if (cost !== null && !input.currency) errors.push({ field: `guarantees[${index}].cost`, message: 'a cost guarantee needs the contract currency' });
+    guarantees.push({ year: g.year, energy, cost });
+  });
+  if (errors.length > 0) {
+    const more = errors.length > 1 ? ` (and ${errors.length - 1} more)` : '';
+    throw new Problem('validation', `${errors[0]!.field}: ${errors[0]!.message}${more}`, errors);
+  }
+  return { energyUnit: energyUnit!, guarantees: guarantees.sort((a, b) => a.year - b.year) };
+}
+
+export async function putContract(ctx: ServiceContext, facilityId: string, input: ContractInput): Promise<Contract> {
+  const { energyUnit, guarantees } = checkContract(input);
+  const organisationId = ctx.principal.organisationId;
+  return inTransaction(ctx, async (trx) => {
+    const facility = await getFacilityRow(trx, organisationId, facilityId);
+    const old = await trx.selectFrom('contracts').selectAll().where('facility_id', '=', facility.id).executeTakeFirst();
+    const row = {
+      facility_id: facility.id,
+      organisation_id: organisationId,
+      contract_start: input.start,
+      years: input.years,
+      currency: input.currency ?? null,
+      energy_unit: energyUnit,
+      guarantees_json: canonicalJson(guarantees),
+      updated_at: ctx.now,
+    };
+    if (old) await trx.updateTable('contracts').set(row).where('facility_id', '=', facility.id).execute();
+    else await trx.insertInto('contracts').values(row).execute();
+    const contract = toContract(row);
+    await audit(trx, ctx, { action: 'put-contract', entityType: 'facility', entityId: facility.id, before: old ? toContract(old) : null, after: contract });
+    return contract;
+  });
+}
+
+export async function getContract(db: Executor, organisationId: string, facilityId: string): Promise<Contract> {
+  const facility = await getFacilityRow(db, organisationId, facilityId);
+  const row = await db.selectFrom('contracts').selectAll().where('facility_id', '=', facility.id).executeTakeFirst();
+  if (!row) throw notFound('contract of facility', facilityId);
+  return toContract(row);
+}

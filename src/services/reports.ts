@@ -1,0 +1,244 @@
+/**
+ * The savings report: resolve the window (dates, a quarter or a contract
+ * year), load each meter's frozen model, reporting readings, weather,
+ * adjustments and rates, let the engine compute, and hand the figures to
+ * the report assembly. Read-only: a report changes nothing it reads.
+ */
+import {
+  contractYearsOverlapping,
+  contractYearWindow,
+  inWindowByMidpoint,
+  normalisedSavings,
+  quarterWindow,
+  savingsFromFit,
+  SIGNIFICANCE_RULE,
+  type DateWindow,
+  type RateEntry,
+  type Reading,
+  type SavingsDocument,
+  type TemperatureUnit,
+} from '../engine/index.js';
+import { Problem } from '../http/problem.js';
+import { assembleReport, type FacilityInput } from '../reports/assemble.js';
+import { guaranteeStatus } from '../reports/guarantees.js';
+import { meterReport, missingMeterReport, type StoredAdjustment } from '../reports/meter-report.js';
+import type { ContractSummary, MeterReport, ReportWindow, SavingsReport, SignatureData } from '../reports/savings-report.js';
+import type { MeterRow } from '../store/schema.js';
+import { chartPoint, fittedVertices } from './baselines.js';
+import type { Executor } from './context.js';
+import { toContract } from './contracts.js';
+import { getFacilityRow } from './facilities.js';
+import { loadReadings, loadWeatherFor } from './meter-data.js';
+import { loadSchedule } from './rates.js';
+import { frozenModel, type FrozenModel } from './savings.js';
+
+export interface ReportQuery {
+  from?: string;
+  to?: string;
+  quarter?: string;
+  contractYear?: number;
+  facilityId?: string;
+  confidence?: number;
+}
+
+interface MeterContext {
+  meter: MeterRow;
+  temperatureUnit: TemperatureUnit;
+  baseline: { id: string; version: number; contentHash: string; start: string; end: string } | null;
+  model: FrozenModel | null;
+  rates: { currency: string | null; entries: RateEntry[] };
+  adjustments: StoredAdjustment[];
+  normalYear: { temps: number[]; contentHash: string; source: string } | null;
+}
+
+export async function savingsReport(db: Executor, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
+  const confidence = query.confidence ?? SIGNIFICANCE_RULE.confidence;
+  const organisation = await db.selectFrom('organisations').select(['id', 'name']).where('id', '=', organisationId).executeTakeFirstOrThrow();
+  const facilityRows = query.facilityId
+    ? [await getFacilityRow(db, organisationId, query.facilityId)]
+    : await db.selectFrom('facilities').selectAll().where('organisation_id', '=', organisationId).orderBy('created_at').orderBy('id').execute();
+  const contracts = new Map<string, ContractSummary>();
+  for (const row of await db.selectFrom('contracts').selectAll().where('organisation_id', '=', organisationId).execute()) {
+    const c = toContract(row);
+    contracts.set(c.facilityId, { start: c.start, years: c.years, currency: c.currency, energyUnit: c.energyUnit, guarantees: c.guarantees });
+  }
+  const window = resolveWindow(query, facilityRows.map((f) => contracts.get(f.id) ?? null));
+  const head = await db.selectFrom('audit_log').select(['seq', 'hash']).where('organisation_id', '=', organisationId).orderBy('seq', 'desc').limit(1).executeTakeFirst();
+
+  const normalYears = new Map<string, { stationId: string; contentHash: string; source: string }>();
+  const facilities: FacilityInput[] = [];
+  let reportingMeters = 0;
+  for (const facility of facilityRows) {
+    const contract = contracts.get(facility.id) ?? null;
+    const meterRows = await db.selectFrom('meters').selectAll().where('facility_id', '=', facility.id).orderBy('created_at').orderBy('id').execute();
+    const contexts = await Promise.all(meterRows.map((meter) => meterContext(db, meter)));
+    const meters: MeterReport[] = [];
+    for (const ctx of contexts) {
+      const report = await meterInWindow(db, ctx, window, confidence);
+      if (report.missing === null) reportingMeters++;
+      meters.push(report);
+      if (ctx.normalYear && report.normalised.available) normalYears.set(ctx.meter.weather_station_id, { stationId: ctx.meter.weather_station_id, contentHash: ctx.normalYear.contentHash, source: ctx.normalYear.source });
+    }
+    const guarantees = [];
+    if (contract) {
+      for (const year of contractYearsOverlapping(contract.start, contract.years, window)) {
+        const yearWindow = contractYearWindow(contract.start, contract.years, year);
+        const through = window.to < yearWindow.to ? window.to : yearWindow.to;
+        const sameWindow = yearWindow.from === window.from && through === window.to;
+        const yearMeters = sameWindow ? meters : await Promise.all(contexts.map((ctx) => meterInWindow(db, ctx, { from: yearWindow.from, to: through }, confidence)));
+        guarantees.push(
+          guaranteeStatus(contract, { contractYear: year, yearStart: yearWindow.from, yearEnd: yearWindow.to, measuredThrough: through, complete: through === yearWindow.to, meters: yearMeters }),
+        );
+      }
+    }
+    facilities.push({ id: facility.id, name: facility.name, address: facility.address, contract, meters, guarantees });
+  }
+  if (reportingMeters === 0) {
+    const scope = query.facilityId ? `facility ${query.facilityId}` : 'this organisation';
+    throw new Problem(
+      'unprocessable',
+      `no meter of ${scope} has reporting data in ${window.label} (${window.from}..${window.to}): nothing to report; readings count in the window that holds their midpoint`,
+    );
+  }
+  return assembleReport({
+    organisation,
+    window,
+    confidence,
+    dataAsOf: { auditSeq: head?.seq ?? 0, auditHash: head?.hash ?? '' },
+    facilities,
+    normalYears: [...normalYears.values()].sort((a, b) => (a.stationId < b.stationId ? -1 : 1)),
+  });
+}
+
+/** Exactly one of: from and to, quarter, contractYear. */
+export function resolveWindow(query: ReportQuery, contracts: readonly (ContractSummary | null)[]): ReportWindow {
+  const given = [query.from !== undefined || query.to !== undefined, query.quarter !== undefined, query.contractYear !== undefined].filter(Boolean).length;
+  if (given !== 1) {
+    throw new Problem('validation', 'from: give the window as from and to, or quarter (e.g. 2026-Q3), or contractYear; exactly one of them', [
+      { field: 'from', message: 'give from and to, quarter, or contractYear' },
+    ]);
+  }
+  if (query.quarter !== undefined) {
+    let w: DateWindow;
+    try {
+      w = quarterWindow(query.quarter);
+    } catch (error) {
+      throw new Problem('validation', `quarter: ${(error as Error).message}`, [{ field: 'quarter', message: (error as Error).message }]);
+    }
+    return { ...w, kind: 'quarter', label: query.quarter };
+  }
+  if (query.contractYear !== undefined) {
+    const present = contracts.filter((c): c is ContractSummary => c !== null);
+    if (present.length === 0) throw new Problem('unprocessable', 'contractYear: no facility in the report has a contract (PUT /v1/facilities/{id}/contract)', [{ field: 'contractYear', message: 'no contract' }]);
+    const starts = new Set(present.map((c) => c.start));
+    if (starts.size > 1) {
+      throw new Problem('unprocessable', `contractYear: the facilities' contracts start on different dates (${[...starts].sort().join(', ')}); give facilityId`, [
+        { field: 'contractYear', message: 'contracts differ: give facilityId' },
+      ]);
+    }
+    const years = Math.max(...present.map((c) => c.years));
+    if (query.contractYear > years) {
+      throw new Problem('unprocessable', `contractYear: the contract runs ${years} year(s); there is no contract year ${query.contractYear}`, [{ field: 'contractYear', message: `at most ${years}` }]);
+    }
+    const w = contractYearWindow(present[0]!.start, years, query.contractYear);
+    return { ...w, kind: 'contract-year', label: `contract year ${query.contractYear} (${w.from}..${w.to})` };
+  }
+  if (query.from === undefined || query.to === undefined) {
+    const field = query.from === undefined ? 'from' : 'to';
+    throw new Problem('validation', `${field}: a date window needs both from and to`, [{ field, message: 'needed with the other' }]);
+  }
+  if (!(query.to > query.from)) throw new Problem('validation', 'to: must be after from', [{ field: 'to', message: 'must be after from' }]);
+  return { from: query.from, to: query.to, kind: 'range', label: `${query.from}..${query.to}` };
+}
+
+async function meterContext(db: Executor, meter: MeterRow): Promise<MeterContext> {
+  const baseline = await db
+    .selectFrom('baselines')
+    .select(['id', 'version', 'content_hash', 'period_start', 'period_end'])
+    .where('meter_id', '=', meter.id)
+    .where('status', '=', 'frozen')
+    .executeTakeFirst();
+  const model = baseline?.content_hash ? await frozenModel(db, baseline.id, baseline.content_hash) : null;
+  const schedule = await loadSchedule(db, meter.id, meter.unit);
+  const adjustmentRows = await db.selectFrom('adjustments').selectAll().where('meter_id', '=', meter.id).orderBy('period_start').execute();
+  const normal = await db.selectFrom('normal_years').selectAll().where('station_id', '=', meter.weather_station_id).executeTakeFirst();
+  const station = await db.selectFrom('weather_stations').select('temperature_unit').where('id', '=', meter.weather_station_id).executeTakeFirstOrThrow();
+  return {
+    meter,
+    temperatureUnit: station.temperature_unit,
+    baseline: baseline?.content_hash
+      ? { id: baseline.id, version: baseline.version, contentHash: baseline.content_hash, start: baseline.period_start, end: baseline.period_end }
+      : null,
+    model,
+    rates: { currency: schedule.currency, entries: schedule.rates },
+    adjustments: adjustmentRows.map((row) => ({
+      id: row.id,
+      start: row.period_start,
+      end: row.period_end,
+      quantity: row.quantity,
+      perDay: row.per_day,
+      reason: row.reason,
+      recordedAt: row.created_at,
+      recordedBy: row.created_by,
+    })),
+    normalYear: normal ? { temps: JSON.parse(normal.temps_json) as number[], contentHash: normal.content_hash, source: normal.source } : null,
+  };
+}
+
+/** One meter's figures over `window`, or the reason it has none. */
+async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow, confidence: number): Promise<MeterReport> {
+  const { meter, baseline, model } = ctx;
+  const overlapping = ctx.adjustments.filter((a) => a.start < window.to && a.end > window.from);
+  const identity = { id: meter.id, name: meter.name, fuel: meter.fuel, unit: meter.unit, weatherStationId: meter.weather_station_id, temperatureUnit: ctx.temperatureUnit };
+  if (!baseline || !model) return missingMeterReport(identity, null, 'the meter has no frozen baseline', overlapping);
+  const baselineInfo = {
+    id: baseline.id,
+    version: baseline.version,
+    contentHash: baseline.contentHash,
+    model: model.fit.model,
+    start: baseline.start,
+    end: baseline.end,
+    temperatureRange: { ...model.fit.temperatureRange },
+    cvrmse: model.fit.stats.cvrmse,
+    meetsGuideline14: null as boolean | null,
+  };
+  const start = window.from > baseline.end ? window.from : baseline.end;
+  const candidates = await loadReadings(db, meter.id, { startOnOrAfter: baseline.end, startBefore: window.to, endAfter: start });
+  const readings: Reading[] = candidates.filter((r) => inWindowByMidpoint(r, window));
+  if (readings.length === 0) return missingMeterReport(identity, baselineInfo, `no reporting readings in ${window.from}..${window.to}`, overlapping);
+  const weather = await loadWeatherFor(db, meter.weather_station_id, readings);
+  let savings: SavingsDocument;
+  try {
+    savings = savingsFromFit(model.fit, { limits: model.limits, excluded: model.excluded }, readings, weather, {
+      confidence,
+      minCoverage: model.minCoverage,
+      adjustments: ctx.adjustments,
+    });
+  } catch (error) {
+    if (!(error instanceof RangeError)) throw error;
+    return missingMeterReport(identity, baselineInfo, `${error.message} (every reporting reading in the window lacks weather)`, overlapping);
+  }
+  baselineInfo.meetsGuideline14 = savings.baseline.guideline14?.pass ?? null;
+  const normalised = ctx.normalYear
+    ? normalisedSavings(model.fit, readings, weather, ctx.normalYear.temps, { minCoverage: model.minCoverage })
+    : { available: false as const, reason: 'the weather station has no normal year (PUT /v1/weather-stations/{id}/normal-year)' };
+  return meterReport({
+    meter: identity,
+    baseline: baselineInfo,
+    savings,
+    rates: ctx.rates,
+    adjustments: overlapping,
+    normalised,
+    signature: signatureData(model, savings, meter.unit),
+  });
+}
+
+function signatureData(model: FrozenModel, savings: SavingsDocument, unit: string): SignatureData {
+  const reporting = savings.periods.map((p) => chartPoint({ ...p, quantity: p.actual, usePerDay: p.actual / p.days, coverage: 1, estimated: false }, model.temperatureUnit, unit));
+  return {
+    temperatureUnit: model.temperatureUnit,
+    baseline: model.baselinePeriods.map((p) => chartPoint(p, model.temperatureUnit, unit)) as SignatureData['baseline'],
+    reporting: reporting as SignatureData['reporting'],
+    fittedLine: fittedVertices(model.fit).map((p) => ({ temp: p.temp, usePerDay: p.usePerDay })),
+  };
+}
