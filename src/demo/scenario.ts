@@ -27,8 +27,12 @@ export interface DemoMeter {
   use: DemoUse;
   /** Share of use saved in the reporting year by the invented retrofit. */
   reportingSaving: number;
-  /** Invented tariff, for the demo's cost column (currency per unit). */
+  /** Invented tariff, for the demo's cost column and contract rates (currency per unit). */
   price: number;
+  /** Invented yearly escalation of the contract rate. */
+  escalation: number;
+  /** An invented non-routine change in the reporting year: extra use per day the weather model cannot see. */
+  change?: { start: string; end: string; perDay: number; reason: string };
 }
 
 export interface DemoFacility {
@@ -36,6 +40,8 @@ export interface DemoFacility {
   address: string;
   floorArea: number;
   meters: DemoMeter[];
+  /** Invented guarantee for contract year 1, as a share of the savings the scenario builds in. */
+  guaranteeShare: number;
 }
 
 export const DEMO_DISTRICT = 'Quillfen School District (invented)';
@@ -45,21 +51,28 @@ export const WEATHER_END = '2026-01-01';
 export const BASELINE_START = '2023-01-01';
 export const BASELINE_END = '2025-01-01';
 export const REPORTING_END = '2026-01-01';
+export const CONTRACT_START = '2025-01-01';
+export const CONTRACT_YEARS = 10;
+export const CONTRACT_CURRENCY = 'USD';
+/** The quarter the demo prints its report for: the last full quarter of reporting data. */
+export const DEMO_QUARTER = '2025-Q4';
 
 export const DEMO_FACILITIES: DemoFacility[] = [
   {
     name: 'Quillfen Primary School',
     address: '1 Fernlow Lane, Quillfen (invented)',
     floorArea: 4200,
+    guaranteeShare: 0.75,
     meters: [
-      { name: 'Main electricity', fuel: 'electricity', unit: 'kWh', use: { base: 900, coolingAbove: 68, coolingRate: 45, noise: 0.05 }, reportingSaving: 0.12, price: 0.16 },
-      { name: 'Boiler gas', fuel: 'natural-gas', unit: 'therm', use: { base: 18, heatingBelow: 58, heatingRate: 6, noise: 0.06 }, reportingSaving: 0.15, price: 1.1 },
+      { name: 'Main electricity', fuel: 'electricity', unit: 'kWh', use: { base: 900, coolingAbove: 68, coolingRate: 45, noise: 0.05 }, reportingSaving: 0.12, price: 0.16, escalation: 0.03 },
+      { name: 'Boiler gas', fuel: 'natural-gas', unit: 'therm', use: { base: 18, heatingBelow: 58, heatingRate: 6, noise: 0.06 }, reportingSaving: 0.15, price: 1.1, escalation: 0.02 },
     ],
   },
   {
     name: 'Marrowick Middle School',
     address: '40 Cobbler Rise, Quillfen (invented)',
     floorArea: 7800,
+    guaranteeShare: 0.6,
     meters: [
       {
         name: 'Main electricity',
@@ -68,20 +81,33 @@ export const DEMO_FACILITIES: DemoFacility[] = [
         use: { base: 1500, heatingBelow: 48, heatingRate: 14, coolingAbove: 70, coolingRate: 70, noise: 0.05 },
         reportingSaving: 0.09,
         price: 0.15,
+        escalation: 0.03,
+        change: { start: '2025-09-01', end: '2026-01-01', perDay: 260, reason: 'New after-school sports hall opened in September (invented)' },
       },
-      { name: 'Boiler gas', fuel: 'natural-gas', unit: 'therm', use: { base: 25, heatingBelow: 60, heatingRate: 8, noise: 0.06 }, reportingSaving: 0.11, price: 1.05 },
+      { name: 'Boiler gas', fuel: 'natural-gas', unit: 'therm', use: { base: 25, heatingBelow: 60, heatingRate: 8, noise: 0.06 }, reportingSaving: 0.11, price: 1.05, escalation: 0.02 },
     ],
   },
   {
     name: 'Brindlecombe High School',
     address: '7 Orchard Steps, Quillfen (invented)',
     floorArea: 12500,
+    guaranteeShare: 1.15,
     meters: [
-      { name: 'Main electricity', fuel: 'electricity', unit: 'kWh', use: { base: 2500, coolingAbove: 66, coolingRate: 110, noise: 0.05 }, reportingSaving: 0.14, price: 0.15 },
-      { name: 'Boiler gas', fuel: 'natural-gas', unit: 'therm', use: { base: 40, heatingBelow: 57, heatingRate: 12, noise: 0.06 }, reportingSaving: 0.1, price: 1.05 },
+      { name: 'Main electricity', fuel: 'electricity', unit: 'kWh', use: { base: 2500, coolingAbove: 66, coolingRate: 110, noise: 0.05 }, reportingSaving: 0.14, price: 0.15, escalation: 0.03 },
+      { name: 'Boiler gas', fuel: 'natural-gas', unit: 'therm', use: { base: 40, heatingBelow: 57, heatingRate: 12, noise: 0.06 }, reportingSaving: 0.1, price: 1.05, escalation: 0.02 },
     ],
   },
 ];
+
+/** The invented valley's seasonal cycle (°F) on day `d` counted from 1 January. */
+function seasonalTemp(d: number): number {
+  return 54 - 24 * Math.cos((2 * Math.PI * (d - 15)) / 365.25);
+}
+
+/** The invented valley's normal year: its seasonal cycle without weather spells, 365 days. */
+export function demoNormalYear(days: readonly string[]): { day: string; temp: number }[] {
+  return days.map((day, d) => ({ day, temp: Math.round(seasonalTemp(d) * 10) / 10 }));
+}
 
 /** Daily mean temperatures (°F): a seasonal cycle with weather spells. */
 export function demoWeather(seed = 2023): { date: string; temp: number }[] {
@@ -91,7 +117,7 @@ export function demoWeather(seed = 2023): { date: string; temp: number }[] {
   let spell = 0;
   for (let d = 0; d < days; d++) {
     spell = 0.7 * spell + 4.5 * random.normal();
-    const seasonal = 54 - 24 * Math.cos((2 * Math.PI * (d - 15)) / 365.25);
+    const seasonal = seasonalTemp(d);
     out.push({ date: addDays(WEATHER_START, d), temp: Math.round((seasonal + spell) * 10) / 10 });
   }
   return out;
@@ -125,8 +151,10 @@ export function demoBills(meter: DemoMeter, weather: ReadonlyMap<string, number>
     const end = next > to ? to : next;
     let quantity = 0;
     for (let d = 0; d < daysBetween(start, end); d++) {
-      const temp = weather.get(addDays(start, d))!;
-      const day = usePerDay(meter.use, temp) * (1 - saving);
+      const date = addDays(start, d);
+      const temp = weather.get(date)!;
+      const change = saving > 0 && meter.change && date >= meter.change.start && date < meter.change.end ? meter.change.perDay : 0;
+      const day = usePerDay(meter.use, temp) * (1 - saving) + change;
       quantity += day * (1 + meter.use.noise * random.normal());
     }
     const rounded = Math.round(quantity);
@@ -134,4 +162,11 @@ export function demoBills(meter: DemoMeter, weather: ReadonlyMap<string, number>
     start = end;
   }
   return bills;
+}
+
+/** The use the invented retrofit takes away over [from, to), in the meter's unit (the truth the demo's guarantee is set from). */
+export function demoBuiltInSavings(meter: DemoMeter, weather: ReadonlyMap<string, number>, from: string, to: string): number {
+  let total = 0;
+  for (let d = 0; d < daysBetween(from, to); d++) total += usePerDay(meter.use, weather.get(addDays(from, d))!) * meter.reportingSaving;
+  return total;
 }
