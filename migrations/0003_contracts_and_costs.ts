@@ -19,6 +19,9 @@ export async function up(db: Kysely<unknown>): Promise<void> {
     .addColumn('reason', 'text', (c) => c.notNull())
     .addColumn('created_at', 'text', (c) => c.notNull())
     .addColumn('created_by', 'text', (c) => c.notNull())
+    .addColumn('withdrawn_at', 'text')
+    .addColumn('withdrawn_by', 'text')
+    .addColumn('withdraw_reason', 'text')
     .execute();
   await db.schema.createIndex('adjustments_meter').on('adjustments').columns(['meter_id', 'period_start']).execute();
 

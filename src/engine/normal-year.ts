@@ -72,13 +72,7 @@ export function normalYearUse(
   fit: Pick<ShapeFit, 'model' | 'changepoints' | 'rawCoefficients' | 'temperatureRange'>,
   temps: readonly number[],
 ): { use: number; outsideRangeDays: number } {
-  let use = 0;
-  let outsideRangeDays = 0;
-  for (const temp of temps) {
-    use += predictPerDay(fit.model, fit.changepoints, fit.rawCoefficients, temp);
-    if (temp < fit.temperatureRange.min || temp > fit.temperatureRange.max) outsideRangeDays += 1;
-  }
-  return { use, outsideRangeDays };
+  return normalPeriodsUse(fit, temps.map((meanTemp) => ({ days: 1, meanTemp })));
 }
 
 /** The plausible range of units.ts in the station's unit, to one decimal. */
@@ -87,4 +81,41 @@ function plausibleRange(unit: TemperatureUnit): string {
   const [low, high] = unit === 'F' ? [min, max] : [fahrenheitToCelsius(min), fahrenheitToCelsius(max)];
   const round1 = (value: number): number => Math.round(value * 10) / 10;
   return `${round1(low)}…${round1(high)} ${unitSymbol(unit)}`;
+}
+
+/** A stretch of the normal year as a model sees a reading: its days and their mean temperature. */
+export interface NormalPeriod {
+  days: number;
+  meanTemp: number;
+}
+
+/**
+ * The normal year as billing periods: one per calendar month, each the mean
+ * of its days. A model fitted to monthly bills has only ever seen period
+ * means, so it is applied to period means too; fed daily temperatures it
+ * would meet colder and warmer days than any bill it was fitted on.
+ */
+export function normalYearMonths(temps: readonly number[]): NormalPeriod[] {
+  const months: NormalPeriod[] = [];
+  NORMAL_YEAR_DAYS.forEach((day, i) => {
+    const month = Number(day.slice(0, 2)) - 1;
+    const current = (months[month] ??= { days: 0, meanTemp: 0 });
+    current.meanTemp = (current.meanTemp * current.days + temps[i]!) / (current.days + 1);
+    current.days += 1;
+  });
+  return months;
+}
+
+/** A model's use over normal-year periods (Σ days × per-day use at the period's mean), and the days of periods outside its temperature range. */
+export function normalPeriodsUse(
+  fit: Pick<ShapeFit, 'model' | 'changepoints' | 'rawCoefficients' | 'temperatureRange'>,
+  periods: readonly NormalPeriod[],
+): { use: number; outsideRangeDays: number } {
+  let use = 0;
+  let outsideRangeDays = 0;
+  for (const p of periods) {
+    use += p.days * predictPerDay(fit.model, fit.changepoints, fit.rawCoefficients, p.meanTemp);
+    if (p.meanTemp < fit.temperatureRange.min || p.meanTemp > fit.temperatureRange.max) outsideRangeDays += p.days;
+  }
+  return { use, outsideRangeDays };
 }

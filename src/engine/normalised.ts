@@ -8,7 +8,7 @@ import type { DailyTemperature, Reading } from './types.js';
 import type { ShapeFit } from './fit/fit-shape.js';
 import { alignPeriods } from './periods.js';
 import { chooseBaseline } from './choose.js';
-import { normalYearUse } from './normal-year.js';
+import { normalPeriodsUse, normalYearMonths, type NormalPeriod } from './normal-year.js';
 
 /**
  * A reporting-period model needs a full cycle of seasons before it says
@@ -16,6 +16,9 @@ import { normalYearUse } from './normal-year.js';
  * periods (common practice: about eleven months of a year's bills).
  */
 export const MIN_NORMALISED_REPORTING_DAYS = 330;
+
+/** Readings this long or longer (median days) are bills: the normal year is applied as calendar months, else day by day. */
+export const BILLING_PERIOD_DAYS = 7;
 
 export type NormalisedResult =
   | {
@@ -26,6 +29,8 @@ export type NormalisedResult =
       fractionSaved: number | null;
       reportingModel: string;
       reportingPeriods: number;
+      /** How the normal year was fed to the models: as calendar months (bills) or day by day (daily data). */
+      normalYearAs: 'months' | 'days';
       outsideRangeShare: number;
     }
   | { available: false; reason: string };
@@ -54,11 +59,21 @@ export function normalisedSavings(
   }
   const reportingFit = choice.candidates.find((c) => c.model === choice.selected)?.fit;
   if (!reportingFit) return { available: false, reason: 'no changepoint shape could be fitted to the reporting periods' };
-  const base = normalYearUse(baseline, normalTemps);
-  const reporting = normalYearUse(reportingFit, normalTemps);
-  const outside = normalTemps.filter(
-    (t) => t < baseline.temperatureRange.min || t > baseline.temperatureRange.max || t < reportingFit.temperatureRange.min || t > reportingFit.temperatureRange.max,
-  ).length;
+  const lengths = periods.map((p) => p.days).sort((a, b) => a - b);
+  const asMonths = (lengths[Math.floor(lengths.length / 2)] ?? 1) >= BILLING_PERIOD_DAYS;
+  const normal: NormalPeriod[] = asMonths ? normalYearMonths(normalTemps) : normalTemps.map((meanTemp) => ({ days: 1, meanTemp }));
+  // Days of the normal year outside either model's range, counted by the period the model sees.
+  const base = normalPeriodsUse(baseline, normal);
+  const reporting = normalPeriodsUse(reportingFit, normal);
+  const outside = normal
+    .filter(
+      (p) =>
+        p.meanTemp < baseline.temperatureRange.min ||
+        p.meanTemp > baseline.temperatureRange.max ||
+        p.meanTemp < reportingFit.temperatureRange.min ||
+        p.meanTemp > reportingFit.temperatureRange.max,
+    )
+    .reduce((days, p) => days + p.days, 0);
   const savings = base.use - reporting.use;
   return {
     available: true,
@@ -68,6 +83,7 @@ export function normalisedSavings(
     fractionSaved: base.use !== 0 ? savings / base.use : null,
     reportingModel: reportingFit.model,
     reportingPeriods: periods.length,
+    normalYearAs: asMonths ? 'months' : 'days',
     outsideRangeShare: normalTemps.length > 0 ? outside / normalTemps.length : 0,
   };
 }

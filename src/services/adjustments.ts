@@ -4,13 +4,14 @@
  * days of one meter, as a total or a rate per day, in the meter's unit; a
  * positive figure adds to the adjusted baseline. They never overlap on one
  * meter (one figure per day keeps every report unambiguous) and never reach
- * back into the frozen baseline's window.
+ * back into the frozen baseline's window. One recorded in error is
+ * withdrawn, with a reason: it then counts nowhere but stays on record.
  */
 import { adjustmentPerDay, daysBetween, findOverlappingAdjustment, type NonRoutineAdjustment } from '../engine/index.js';
 import { newId } from '../store/ids.js';
 import type { Selectable } from 'kysely';
 import type { AdjustmentsTable } from '../store/schema.js';
-import { Problem } from '../http/problem.js';
+import { notFound, Problem } from '../http/problem.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getMeterRow } from './meters.js';
 
@@ -32,6 +33,8 @@ export interface Adjustment {
   reason: string;
   recordedAt: string;
   recordedBy: string;
+  /** Null while the adjustment counts. */
+  withdrawn: { at: string; by: string; reason: string } | null;
 }
 
 type AdjustmentRow = Selectable<AdjustmentsTable>;
@@ -47,6 +50,7 @@ export function toAdjustment(row: AdjustmentRow): Adjustment {
     reason: row.reason,
     recordedAt: row.created_at,
     recordedBy: row.created_by,
+    withdrawn: row.withdrawn_at === null ? null : { at: row.withdrawn_at, by: row.withdrawn_by ?? '', reason: row.withdraw_reason ?? '' },
   };
 }
 
@@ -73,7 +77,7 @@ export async function createAdjustment(ctx: ServiceContext, meterId: string, inp
         { field: 'start', message: `must be on or after ${baseline.period_end}` },
       ]);
     }
-    const existing = await trx.selectFrom('adjustments').selectAll().where('meter_id', '=', meter.id).execute();
+    const existing = await trx.selectFrom('adjustments').selectAll().where('meter_id', '=', meter.id).where('withdrawn_at', 'is', null).execute();
     const clash = findOverlappingAdjustment(
       existing.map((row) => ({ start: row.period_start, end: row.period_end, id: row.id })),
       input,
@@ -96,11 +100,28 @@ export async function createAdjustment(ctx: ServiceContext, meterId: string, inp
       reason: input.reason,
       created_at: ctx.now,
       created_by: ctx.principal.keyId,
+      withdrawn_at: null,
+      withdrawn_by: null,
+      withdraw_reason: null,
     };
     await trx.insertInto('adjustments').values(row).execute();
     const adjustment = toAdjustment(row);
     await audit(trx, ctx, { action: 'create', entityType: 'adjustment', entityId: row.id, after: { ...adjustment, days: daysBetween(row.period_start, row.period_end) } });
     return adjustment;
+  });
+}
+
+/** Withdraw an adjustment recorded in error: it stops counting in savings and reports; the row and the audit trail keep it. */
+export async function withdrawAdjustment(ctx: ServiceContext, id: string, input: { reason: string }): Promise<Adjustment> {
+  return inTransaction(ctx, async (trx) => {
+    const row = await trx.selectFrom('adjustments').selectAll().where('id', '=', id).where('organisation_id', '=', ctx.principal.organisationId).executeTakeFirst();
+    if (!row) throw notFound('adjustment', id);
+    if (row.withdrawn_at !== null) throw new Problem('conflict', `adjustment ${id} was already withdrawn on ${row.withdrawn_at}`);
+    const update = { withdrawn_at: ctx.now, withdrawn_by: ctx.principal.keyId, withdraw_reason: input.reason };
+    await trx.updateTable('adjustments').set(update).where('id', '=', id).execute();
+    const after = toAdjustment({ ...row, ...update });
+    await audit(trx, ctx, { action: 'withdraw', entityType: 'adjustment', entityId: id, before: toAdjustment(row), after });
+    return after;
   });
 }
 

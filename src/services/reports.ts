@@ -160,7 +160,7 @@ async function meterContext(db: Executor, meter: MeterRow): Promise<MeterContext
     .executeTakeFirst();
   const model = baseline?.content_hash ? await frozenModel(db, baseline.id, baseline.content_hash) : null;
   const schedule = await loadSchedule(db, meter.id, meter.unit);
-  const adjustmentRows = await db.selectFrom('adjustments').selectAll().where('meter_id', '=', meter.id).orderBy('period_start').execute();
+  const adjustmentRows = await db.selectFrom('adjustments').selectAll().where('meter_id', '=', meter.id).where('withdrawn_at', 'is', null).orderBy('period_start').execute();
   const normal = await db.selectFrom('normal_years').selectAll().where('station_id', '=', meter.weather_station_id).executeTakeFirst();
   const station = await db.selectFrom('weather_stations').select('temperature_unit').where('id', '=', meter.weather_station_id).executeTakeFirstOrThrow();
   return {

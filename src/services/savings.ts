@@ -148,6 +148,7 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
     .selectFrom('adjustments')
     .selectAll()
     .where('meter_id', '=', meter.id)
+    .where('withdrawn_at', 'is', null)
     .where('period_start', '<', last)
     .where('period_end', '>', readings[0]!.start)
     .orderBy('period_start')

@@ -146,6 +146,10 @@ export interface AdjustmentsTable {
   reason: string;
   created_at: string;
   created_by: string;
+  /** Set when the adjustment was withdrawn (it then counts nowhere, but stays on record). */
+  withdrawn_at: string | null;
+  withdrawn_by: string | null;
+  withdraw_reason: string | null;
 }
 
 /** One entry of a meter's contract rate schedule (currency per unit of the meter). */

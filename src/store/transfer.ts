@@ -184,6 +184,9 @@ const TABLE_RULES: Record<TransferTable, TableRule> = {
       reason: TEXT,
       created_at: TEXT,
       created_by: TEXT,
+      withdrawn_at: TEXT_OR_NULL,
+      withdrawn_by: TEXT_OR_NULL,
+      withdraw_reason: TEXT_OR_NULL,
     },
   },
   audit_log: {

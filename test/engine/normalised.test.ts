@@ -6,8 +6,8 @@
  * project's own 330-day rule (common practice, stated in normalised.ts).
  */
 import { describe, expect, it } from 'vitest';
-import { analyseBaseline, MIN_NORMALISED_REPORTING_DAYS, NORMAL_YEAR_DAYS, normalisedSavings } from '../../src/engine/index.js';
-import { CLIMATES, SAMPLE_BUILDING, dailyReadings, dailyWeather, seededRandom } from '../support/synthetic.js';
+import { analyseBaseline, MIN_NORMALISED_REPORTING_DAYS, NORMAL_YEAR_DAYS, normalisedSavings, normalYearMonths, predictPerDay } from '../../src/engine/index.js';
+import { CLIMATES, SAMPLE_BUILDING, dailyReadings, dailyWeather, monthlyReadings, seededRandom } from '../support/synthetic.js';
 
 const random = seededRandom(77);
 const WEATHER = dailyWeather(CLIMATES.temperate, '2023-01-01', 1096, random);
@@ -45,5 +45,30 @@ describe('normalisedSavings', () => {
     const result = normalisedSavings(FIT, REPORTING, WEATHER, hot);
     if (!result.available) throw new Error(result.reason);
     expect(result.outsideRangeShare).toBeCloseTo(0.2, 12);
+  });
+});
+
+describe('normalisedSavings on bills', () => {
+  it('applies the normal year as calendar months to models fitted on bills', () => {
+    const random = seededRandom(78);
+    const weather = dailyWeather(CLIMATES.temperate, '2023-01-01', 1096, random);
+    const bills = monthlyReadings(SAMPLE_BUILDING, weather, '2023-01-01', 24, random);
+    const reporting = monthlyReadings({ ...SAMPLE_BUILDING, base: SAMPLE_BUILDING.base - 30 }, weather, '2025-01-01', 12, random);
+    const analysis = analyseBaseline(bills, weather);
+    const fit = analysis.choice.candidates.find((c) => c.model === analysis.choice.selected)!.fit!;
+    const result = normalisedSavings(fit, reporting, weather, NORMAL);
+    if (!result.available) throw new Error(result.reason);
+    expect(result.normalYearAs).toBe('months');
+    // hand-worked definition: Σ over the 12 months of days × f(the month's mean temperature)
+    const months = normalYearMonths(NORMAL);
+    expect(months.map((m) => m.days)).toEqual([31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31]);
+    expect(months[0]!.meanTemp).toBeCloseTo(NORMAL.slice(0, 31).reduce((a, t) => a + t, 0) / 31, 12);
+    const byHand = months.reduce((sum, m) => sum + m.days * predictPerDay(fit.model, fit.changepoints, fit.rawCoefficients, m.meanTemp), 0);
+    expect(result.baselineUse).toBeCloseTo(byHand, 6);
+  });
+
+  it('applies it day by day to daily readings', () => {
+    const result = normalisedSavings(FIT, REPORTING, WEATHER, NORMAL);
+    expect(result.available && result.normalYearAs).toBe('days');
   });
 });

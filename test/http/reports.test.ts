@@ -319,6 +319,24 @@ describe('adjustments, rates, contracts and normal years refuse bad input and st
     expect(read.json.contentHash).toBe(reply.json.contentHash);
   });
 
+  it('withdraws an adjustment recorded in error: it stops counting, stays on record, and frees its days', async () => {
+    const created = await ok('POST', `/v1/meters/${gasId}/adjustments`, { start: '2026-02-01', end: '2026-03-01', quantity: 560, reason: 'Recorded on the wrong meter (test)' });
+    const before = (await api.call('GET', `/v1/meters/${gasId}/savings?from=2026-02-01&to=2026-03-02`, { as: 'analyst' })).json;
+    expect(before.totals.adjustments).toBeCloseTo(560, 9); // hand-worked: the whole of February lies in the window
+    const withdrawn = await api.call('POST', `/v1/adjustments/${created.id}/withdraw`, { as: 'engineer', body: { reason: 'Belongs to another meter (test)' } });
+    expect(withdrawn.status, withdrawn.text).toBe(200);
+    expect(withdrawn.json.withdrawn).toMatchObject({ reason: 'Belongs to another meter (test)' });
+    const after = (await api.call('GET', `/v1/meters/${gasId}/savings?from=2026-02-01&to=2026-03-02`, { as: 'analyst' })).json;
+    expect(after.totals.adjustments).toBe(0);
+    expect(after.totals.savings).toBeCloseTo(before.totals.savings - 560, 6);
+    const listed = (await api.call('GET', `/v1/meters/${gasId}/adjustments`, { as: 'analyst' })).json.adjustments;
+    expect(listed.find((a: any) => a.id === created.id).withdrawn).not.toBeNull();
+    await refused('POST', `/v1/adjustments/${created.id}/withdraw`, { reason: 'Again (test)' }, 409, /already withdrawn/);
+    await refused('POST', `/v1/adjustments/adj_unknown/withdraw`, { reason: 'Nothing (test)' }, 404, /adjustment adj_unknown/);
+    // its days are free again
+    await ok('POST', `/v1/meters/${gasId}/adjustments`, { start: '2026-02-01', end: '2026-03-01', perDay: 1, reason: 'The right figure (test)' });
+  });
+
   it('reads back what was stored, and audits every change', async () => {
     expect((await api.call('GET', `/v1/meters/${gasId}/rates`, { as: 'analyst' })).json).toMatchObject({ currency: 'USD', rates: [{ from: '2025-04-01', to: '2026-01-01', price: 1.2, escalation: 0 }, { from: '2026-01-01', to: null }] });
     expect((await api.call('GET', `/v1/facilities/${plantId}/contract`, { as: 'analyst' })).json).toMatchObject({ start: '2025-01-01', years: 3, energyUnit: 'MMBtu' });

@@ -1,8 +1,8 @@
 /** /v1/meters/{id}/adjustments: non-routine adjustments of a meter's reporting period. */
 import type { RouteDeps } from '../app.js';
-import { createAdjustment, listAdjustments } from '../../services/adjustments.js';
+import { createAdjustment, listAdjustments, withdrawAdjustment } from '../../services/adjustments.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
-import { adjustmentList, adjustmentSchema, createAdjustmentBody } from '../schemas/adjustments.js';
+import { adjustmentList, adjustmentSchema, createAdjustmentBody, withdrawAdjustmentBody } from '../schemas/adjustments.js';
 import { serviceContext } from './context.js';
 import type { ApiApp } from './types.js';
 
@@ -24,6 +24,24 @@ export function adjustmentsRoutes(app: ApiApp, deps: RouteDeps): void {
       },
     },
     async (request, reply) => reply.code(201).send(await createAdjustment(serviceContext(request, deps), request.params.id, request.body)),
+  );
+
+  app.post(
+    '/v1/adjustments/:id/withdraw',
+    {
+      config: { permission: 'ledger' },
+      schema: {
+        tags: ['adjustments'],
+        summary: 'Withdraw an adjustment recorded in error',
+        description: 'With a reason. It stops counting in savings and reports but stays on record, with who withdrew it and why. 409 when already withdrawn.',
+        security: bearer,
+        headers: idempotencyHeaders,
+        params: idParams,
+        body: withdrawAdjustmentBody,
+        response: { 200: adjustmentSchema, ...writeProblems },
+      },
+    },
+    async (request) => withdrawAdjustment(serviceContext(request, deps), request.params.id, request.body),
   );
 
   app.get(

@@ -14,7 +14,7 @@ export function savingsRoutes(app: ApiApp, deps: RouteDeps): void {
         tags: ['savings'],
         summary: 'Avoided energy against the frozen baseline',
         description:
-          'Projects the frozen baseline’s chosen model (as stored, never refitted) onto the weather of the reporting readings (those starting on or after the baseline’s end, optionally within from..to) and states the uncertainty at the chosen confidence. 422 when there is no frozen baseline or no usable reporting reading.',
+          'Projects the frozen baseline’s chosen model (as stored, never refitted) onto the weather of the reporting readings (those starting on or after the baseline’s end, optionally within from..to), adds the meter’s non-routine adjustments to the adjusted baseline of the periods they cover, and states the uncertainty at the chosen confidence. 422 when there is no frozen baseline or no usable reporting reading.',
         security: bearer,
         params: idParams,
         querystring: savingsQuery,

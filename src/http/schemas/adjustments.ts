@@ -26,7 +26,12 @@ export const adjustmentSchema = z
     reason: z.string(),
     recordedAt: z.string(),
     recordedBy: z.string(),
+    withdrawn: z.object({ at: z.string(), by: z.string(), reason: z.string() }).nullable().describe('Null while the adjustment counts'),
   })
   .meta({ id: 'Adjustment' });
+
+export const withdrawAdjustmentBody = z
+  .object({ reason: plainText().trim().min(3, 'must say why (at least 3 characters)').max(2000, 'must be at most 2000 characters') })
+  .strict();
 
 export const adjustmentList = z.object({ meterId: z.string(), unit: z.string(), adjustments: z.array(adjustmentSchema) }).meta({ id: 'Adjustments' });

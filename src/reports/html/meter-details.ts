@@ -45,6 +45,7 @@ function normalised(n: NormalisedSavings, unit: string): string {
     [tag('th', { scope: 'row' }, text(`Normalised savings (${unit})`)), numberCell(n.savings, formatNumber(n.savings, digits))],
     [tag('th', { scope: 'row' }, text('Fraction saved')), numberCell(n.fractionSaved, formatPercent(n.fractionSaved))],
     [tag('th', { scope: 'row' }, text('Reporting periods fitted')), numberCell(n.reportingPeriods, String(n.reportingPeriods))],
+    [tag('th', { scope: 'row' }, text('Normal year applied as')), tag('td', { class: 'num' }, text(n.normalYearAs === 'months' ? 'calendar months (the model was fitted on bills)' : 'single days'))],
     [tag('th', { scope: 'row' }, text('Normal-year days outside either model’s range')), numberCell(n.outsideRangeShare, formatPercent(n.outsideRangeShare))],
   ];
   return table({ className: 'summary normalised', head: ['', { label: 'Value', numeric: true }], rows });
