@@ -105,6 +105,7 @@ function notices(facilities: readonly FacilityReport[]): string[] {
     }
     for (const status of facility.guarantees) {
       if (!status.complete) out.push(`${facility.name}: contract year ${status.contractYear} is not complete: measured through ${status.measuredThrough} against the whole year's guarantee`);
+      for (const note of status.notes) out.push(`${facility.name}, contract year ${status.contractYear}: ${note}`);
     }
   }
   return out;

@@ -25,6 +25,16 @@ export function guaranteeStatus(contract: ContractSummary, figures: ContractYear
   const toUnit = (mmbtu: number) => convertEnergy(mmbtu, 'MMBtu', contract.energyUnit);
   const costs = sumCosts(figures.meters.flatMap((m) => (m.cost ? [m.cost] : [])));
   const cost = costs.find((c) => c.currency === contract.currency);
+  const notes: string[] = [];
+  const withFigures = figures.meters.filter((m) => m.missing === null);
+  const leftOut = withFigures.filter((m) => m.common === null).map((m) => m.name);
+  if (guarantee?.energy != null && leftOut.length > 0) notes.push(`energy measured without ${leftOut.join(', ')} (no standard energy factor)`);
+  const priced = withFigures.filter((m) => m.cost?.currency === contract.currency);
+  if (guarantee?.cost != null && contract.currency !== null) {
+    if (priced.length === 0) notes.push(`the cost guarantee cannot be measured: no meter has contract rates in ${contract.currency}`);
+    else if (priced.length < withFigures.length) notes.push(`cost measured from ${priced.length} of ${withFigures.length} meters (the others have no rates in ${contract.currency})`);
+    if (cost && cost.periodsWithoutRate > 0) notes.push(`${cost.periodsWithoutRate} period(s) without a contract rate count no cost`);
+  }
 
   const energy =
     guarantee?.energy != null
@@ -37,13 +47,13 @@ export function guaranteeStatus(contract: ContractSummary, figures: ContractYear
         }
       : null;
   const costLine =
-    guarantee?.cost != null && contract.currency !== null
+    guarantee?.cost != null && contract.currency !== null && cost !== undefined
       ? {
           currency: contract.currency,
           guaranteed: guarantee.cost,
-          measured: cost?.avoided ?? 0,
-          uncertainty: cost?.uncertainty ?? 0,
-          difference: (cost?.avoided ?? 0) - guarantee.cost,
+          measured: cost.avoided,
+          uncertainty: cost.uncertainty,
+          difference: cost.avoided - guarantee.cost,
         }
       : null;
 
@@ -56,6 +66,7 @@ export function guaranteeStatus(contract: ContractSummary, figures: ContractYear
     energy,
     cost: costLine,
     cumulative: cumulativeSavings(inRollup, figures.meters, contract),
+    notes,
   };
 }
 

@@ -150,6 +150,8 @@ export interface GuaranteeStatus {
   cost: (GuaranteeLine & { currency: string }) | null;
   /** Cumulative measured savings by period end across the contract year, for the chart. */
   cumulative: { end: string; energy: number; cost: number | null }[];
+  /** What limits the comparison: meters left out of it, a guarantee that cannot be measured. */
+  notes: string[];
 }
 
 export interface ContractSummary {

@@ -23,7 +23,9 @@ import { assembleReport, type FacilityInput } from '../reports/assemble.js';
 import { guaranteeStatus } from '../reports/guarantees.js';
 import { meterReport, missingMeterReport, type StoredAdjustment } from '../reports/meter-report.js';
 import type { ContractSummary, MeterReport, ReportWindow, SavingsReport, SignatureData } from '../reports/savings-report.js';
-import type { MeterRow } from '../store/schema.js';
+import type { Kysely } from 'kysely';
+import { readSnapshot } from '../store/connect.js';
+import type { Database, MeterRow } from '../store/schema.js';
 import { chartPoint, fittedVertices } from './baselines.js';
 import type { Executor } from './context.js';
 import { toContract } from './contracts.js';
@@ -51,7 +53,12 @@ interface MeterContext {
   normalYear: { temps: number[]; contentHash: string; source: string } | null;
 }
 
-export async function savingsReport(db: Executor, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
+/** The report, read from one consistent snapshot so every figure and the audit head it names agree. */
+export function savingsReport(db: Kysely<Database>, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
+  return readSnapshot(db, (trx) => buildReport(trx, organisationId, query));
+}
+
+async function buildReport(db: Executor, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
   const confidence = query.confidence ?? SIGNIFICANCE_RULE.confidence;
   const organisation = await db.selectFrom('organisations').select(['id', 'name']).where('id', '=', organisationId).executeTakeFirstOrThrow();
   const facilityRows = query.facilityId

@@ -131,6 +131,18 @@ export function writeTransaction<T>(db: Kysely<Database>, organisationId: string
   });
 }
 
+/**
+ * Run `work` on one consistent snapshot of the database: repeatable read on
+ * PostgreSQL; on SQLite a plain (deferred) transaction, whose first read
+ * fixes the WAL snapshot and which holds this process's connection, so no
+ * write of this process lands between its queries either. For reads that
+ * must agree with each other (an export, a report and the audit head it names).
+ */
+export function readSnapshot<T>(db: Kysely<Database>, work: (trx: Transaction<Database>) => Promise<T>): Promise<T> {
+  const snapshot = db.getExecutor().adapter instanceof PostgresAdapter ? db.transaction().setIsolationLevel('repeatable read') : db.transaction();
+  return snapshot.execute(work);
+}
+
 /** Take the organisation's write lock inside a transaction (PostgreSQL; a no-op on SQLite). */
 export async function lockOrganisation(trx: Transaction<Database>, organisationId: string): Promise<void> {
   if (trx.getExecutor().adapter instanceof PostgresAdapter) {

@@ -12,11 +12,11 @@
  * API keys travel as their hashes, so a key keeps working after the move.
  * Idempotency keys are transient and stay behind.
  */
-import { PostgresAdapter, type Kysely, type Transaction } from 'kysely';
+import type { Kysely, Transaction } from 'kysely';
 import { verifyBaselineContent } from './baseline-content.js';
 import { ROLES } from './api-keys.js';
 import { GENESIS_HASH, verifyAuditChain, verifyAuditRows, type ChainVerdict } from './audit.js';
-import { writeTransaction } from './connect.js';
+import { readSnapshot, writeTransaction } from './connect.js';
 import type { AuditRow, BaselineRow, Database } from './schema.js';
 
 export const EXPORT_FORMAT = 'mvledger-export';
@@ -219,8 +219,7 @@ const GLOBAL_ID_TABLES = ['api_keys', 'weather_stations', 'facilities', 'meters'
  * whose audit chain or frozen baselines no longer verify is not exported.
  */
 export async function exportOrganisation(db: Kysely<Database>, organisationId: string, exportedAt: string): Promise<ExportDocument> {
-  const snapshot = db.getExecutor().adapter instanceof PostgresAdapter ? db.transaction().setIsolationLevel('repeatable read') : db.transaction();
-  const document = await snapshot.execute((trx) => readOrganisation(trx, organisationId, exportedAt));
+  const document = await readSnapshot(db, (trx) => readOrganisation(trx, organisationId, exportedAt));
   try {
     return checkDocument(document);
   } catch (error) {

@@ -125,6 +125,7 @@ describe('GET /v1/reports/savings', () => {
     expect(g.cost.measured).toBeCloseTo(m.cost.avoided, 9);
     expect(g.cost.difference).toBeCloseTo(m.cost.avoided - 2500, 9);
     expect(g.cumulative).toHaveLength(12);
+    expect(g.notes).toEqual([]);
     expect(g.cumulative.at(-1).energy).toBeCloseTo(g.energy.measured, 9);
 
     expect(body.baselines).toEqual([expect.objectContaining({ meterId: electricId, contentHash: expect.stringMatching(/^[0-9a-f]{64}$/) })]);
@@ -346,5 +347,17 @@ describe('adjustments, rates, contracts and normal years refuse bad input and st
     const actions = new Set(audit.json.entries.map((e: any) => e.action));
     for (const action of ['put-rates', 'put-contract', 'put-normal-year']) expect(actions).toContain(action);
     expect((await api.call('GET', '/v1/audit/verify', { as: 'admin' })).json.ok).toBe(true);
+  });
+
+  it('says what limits a guarantee comparison: meters left out, meters without rates, periods without a rate', async () => {
+    await ok('PUT', `/v1/facilities/${annexId}/contract`, { start: '2025-01-01', years: 2, currency: 'USD', energyUnit: 'MMBtu', guarantees: [{ year: 1, energy: 10, cost: 100 }] });
+    const body = (await report(`contractYear=1&facilityId=${annexId}`)).json;
+    const [g] = body.facilities[0].guarantees;
+    expect(g.notes).toEqual([
+      'energy measured without Annex gas by volume (no standard energy factor)',
+      'cost measured from 1 of 2 meters (the others have no rates in USD)',
+      '3 period(s) without a contract rate count no cost', // hand-worked: the gas meter's January to March 2025 bills
+    ]);
+    expect(body.notices).toContain(`Invented annex, contract year 1: ${g.notes[1]}`);
   });
 });

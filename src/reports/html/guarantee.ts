@@ -88,7 +88,13 @@ export function guaranteeBlock(facility: FacilityReport, status: GuaranteeStatus
   return tag(
     'div',
     { class: 'guarantee-status', 'data-contract-year': status.contractYear },
-    [tag('h4', {}, text(`Contract year ${status.contractYear}`)), tag('p', {}, text(yearSentence(status))), figures, chartFigure('guarantee-cumulative', chart, caption)].join('\n'),
+    [
+      tag('h4', {}, text(`Contract year ${status.contractYear}`)),
+      tag('p', {}, text(yearSentence(status))),
+      figures,
+      status.notes.length === 0 ? '' : tag('ul', { class: 'guarantee-notes' }, status.notes.map((note) => tag('li', {}, text(note))).join('')),
+      chartFigure('guarantee-cumulative', chart, caption),
+    ].join('\n'),
   );
 }
 
