@@ -22,7 +22,7 @@ import { Problem } from '../http/problem.js';
 import { assembleReport, type FacilityInput } from '../reports/assemble.js';
 import { guaranteeStatus } from '../reports/guarantees.js';
 import { meterReport, missingMeterReport, type StoredAdjustment } from '../reports/meter-report.js';
-import type { ContractSummary, MeterReport, ReportWindow, SavingsReport, SignatureData } from '../reports/savings-report.js';
+import type { ContractSummary, GuaranteeStatus, MeterReport, ReportWindow, SavingsReport, SignatureData } from '../reports/savings-report.js';
 import type { Kysely } from 'kysely';
 import { readSnapshot } from '../store/connect.js';
 import type { Database, MeterRow } from '../store/schema.js';
@@ -72,34 +72,14 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
   const window = resolveWindow(query, facilityRows.map((f) => contracts.get(f.id) ?? null));
   const head = await db.selectFrom('audit_log').select(['seq', 'hash']).where('organisation_id', '=', organisationId).orderBy('seq', 'desc').limit(1).executeTakeFirst();
 
-  const normalYears = new Map<string, { stationId: string; contentHash: string; source: string }>();
+  const normalYears = new Map<string, SavingsReport['normalYears'][number]>();
   const facilities: FacilityInput[] = [];
-  let reportingMeters = 0;
   for (const facility of facilityRows) {
-    const contract = contracts.get(facility.id) ?? null;
-    const meterRows = await db.selectFrom('meters').selectAll().where('facility_id', '=', facility.id).orderBy('created_at').orderBy('id').execute();
-    const contexts = await Promise.all(meterRows.map((meter) => meterContext(db, meter)));
-    const meters: MeterReport[] = [];
-    for (const ctx of contexts) {
-      const report = await meterInWindow(db, ctx, window, confidence);
-      if (report.missing === null) reportingMeters++;
-      meters.push(report);
-      if (ctx.normalYear && report.normalised.available) normalYears.set(ctx.meter.weather_station_id, { stationId: ctx.meter.weather_station_id, contentHash: ctx.normalYear.contentHash, source: ctx.normalYear.source });
-    }
-    const guarantees = [];
-    if (contract) {
-      for (const year of contractYearsOverlapping(contract.start, contract.years, window)) {
-        const yearWindow = contractYearWindow(contract.start, contract.years, year);
-        const through = window.to < yearWindow.to ? window.to : yearWindow.to;
-        const sameWindow = yearWindow.from === window.from && through === window.to;
-        const yearMeters = sameWindow ? meters : await Promise.all(contexts.map((ctx) => meterInWindow(db, ctx, { from: yearWindow.from, to: through }, confidence)));
-        guarantees.push(
-          guaranteeStatus(contract, { contractYear: year, yearStart: yearWindow.from, yearEnd: yearWindow.to, measuredThrough: through, complete: through === yearWindow.to, meters: yearMeters }),
-        );
-      }
-    }
-    facilities.push({ id: facility.id, name: facility.name, address: facility.address, contract, meters, guarantees });
+    const { input, usedNormalYears } = await facilityInWindow(db, facility, contracts.get(facility.id) ?? null, window, confidence);
+    facilities.push(input);
+    for (const used of usedNormalYears) normalYears.set(used.stationId, used);
   }
+  const reportingMeters = facilities.flatMap((f) => f.meters).filter((m) => m.missing === null).length;
   if (reportingMeters === 0) {
     const scope = query.facilityId ? `facility ${query.facilityId}` : 'this organisation';
     throw new Problem(
@@ -115,6 +95,34 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
     facilities,
     normalYears: [...normalYears.values()].sort((a, b) => (a.stationId < b.stationId ? -1 : 1)),
   });
+}
+
+/** One facility over the window: its meters, and its guarantee status for every contract year the window touches. */
+async function facilityInWindow(
+  db: Executor,
+  facility: { id: string; name: string; address: string | null },
+  contract: ContractSummary | null,
+  window: DateWindow,
+  confidence: number,
+): Promise<{ input: FacilityInput; usedNormalYears: SavingsReport['normalYears'] }> {
+  const meterRows = await db.selectFrom('meters').selectAll().where('facility_id', '=', facility.id).orderBy('created_at').orderBy('id').execute();
+  const contexts = await Promise.all(meterRows.map((meter) => meterContext(db, meter)));
+  const meters = await Promise.all(contexts.map((ctx) => meterInWindow(db, ctx, window, confidence)));
+  const usedNormalYears = contexts.flatMap((ctx, i) =>
+    ctx.normalYear && meters[i]!.normalised.available ? [{ stationId: ctx.meter.weather_station_id, contentHash: ctx.normalYear.contentHash, source: ctx.normalYear.source }] : [],
+  );
+  const guarantees: GuaranteeStatus[] = [];
+  for (const year of contract ? contractYearsOverlapping(contract.start, contract.years, window) : []) {
+    const yearWindow = contractYearWindow(contract!.start, contract!.years, year);
+    const through = window.to < yearWindow.to ? window.to : yearWindow.to;
+    // The year to date needs its own figures unless it is exactly the report's window.
+    const sameWindow = yearWindow.from === window.from && through === window.to;
+    const yearMeters = sameWindow ? meters : await Promise.all(contexts.map((ctx) => meterInWindow(db, ctx, { from: yearWindow.from, to: through }, confidence)));
+    guarantees.push(
+      guaranteeStatus(contract!, { contractYear: year, yearStart: yearWindow.from, yearEnd: yearWindow.to, measuredThrough: through, complete: through === yearWindow.to, meters: yearMeters }),
+    );
+  }
+  return { input: { id: facility.id, name: facility.name, address: facility.address, contract, meters, guarantees }, usedNormalYears };
 }
 
 /** Exactly one of: from and to, quarter, contractYear. */
