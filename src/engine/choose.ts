@@ -26,8 +26,8 @@
  * whose changepoint is not a regular linear parameter. AICc is reported
  * beside it for information only.
  */
-import { MODEL_NAMES, type ModelName, type Period } from './types.js';
-import { fitShape, type ShapeFit, type ShapeFitResult } from './fit/fit-shape.js';
+import { MODEL_NAMES, type ModelName, type Period, type TemperatureForm } from './types.js';
+import { fitShape, periodsHaveDays, type ShapeFit, type ShapeFitResult } from './fit/fit-shape.js';
 import { fCritical, fPValue, twoSidedTCritical } from './stats/distributions.js';
 import { guideline14Check, type Guideline14Check, type Guideline14Limits, DEFAULT_GUIDELINE14_LIMITS } from './guideline14.js';
 
@@ -46,6 +46,20 @@ export interface SelectionOptions {
   allowSameSignFourPoint?: boolean;
   /** Shapes to consider (default all six). */
   models?: readonly ModelName[];
+  /**
+   * How each reading's weather enters the fit. Default 'daily' (day-resolved)
+   * when every period carries its days' temperatures, as aligned readings do;
+   * 'mean' for periods that only have a mean temperature.
+   */
+  temperatureForm?: TemperatureForm;
+}
+
+/** The form a fit of these periods uses: the one asked for, else day-resolved wherever the days are known. */
+export function resolveTemperatureForm(periods: readonly Period[], asked: TemperatureForm | undefined): TemperatureForm {
+  if (asked === 'daily' && !periodsHaveDays(periods)) {
+    throw new RangeError('the day-resolved form needs the daily temperatures of every period (align the readings with alignPeriods)');
+  }
+  return asked ?? (periods.length > 0 && periodsHaveDays(periods) ? 'daily' : 'mean');
 }
 
 export const DEFAULT_SIGNIFICANCE_LEVEL = 0.05;
@@ -72,7 +86,7 @@ export interface Candidate {
 export interface BaselineChoice {
   selected: ModelName;
   candidates: Candidate[];
-  settings: { significanceLevel: number; minPointsPerSegment: number; guideline14: Guideline14Limits };
+  settings: { significanceLevel: number; minPointsPerSegment: number; guideline14: Guideline14Limits; temperatureForm: TemperatureForm };
 }
 
 /** Fit every shape to the baseline periods and choose one. Throws if there are fewer than 2 periods. */
@@ -85,8 +99,9 @@ export function chooseBaseline(periods: readonly Period[], options: SelectionOpt
   if (periods.length < 2) throw new RangeError(`at least 2 usable periods are needed to fit a baseline, got ${periods.length}`);
 
   const models = (options.models ?? MODEL_NAMES).includes('1P') ? (options.models ?? MODEL_NAMES) : ['1P' as const, ...(options.models ?? [])];
+  const form = resolveTemperatureForm(periods, options.temperatureForm);
   const rules: ScreeningRules = { alpha, minPoints, allowSameSignFourPoint: options.allowSameSignFourPoint ?? false };
-  const candidates = models.map((model) => screen(fitShape(periods, model, minPoints), rules, limits));
+  const candidates = models.map((model) => screen(fitShape(periods, model, minPoints, form), rules, limits));
 
   let current = candidates.find((c) => c.model === '1P' && c.accepted)!;
   const byP = [...new Set(candidates.map((c) => c.p))].sort((a, b) => a - b);
@@ -112,7 +127,7 @@ export function chooseBaseline(periods: readonly Period[], options: SelectionOpt
     if (c.accepted) c.verdict = c === current ? 'selected' : 'accepted';
   }
   if (current.model === '1P') current.reasons.push('no weather-dependent shape passed screening and earned its extra parameters');
-  return { selected: current.model, candidates, settings: { significanceLevel: alpha, minPointsPerSegment: minPoints, guideline14: limits } };
+  return { selected: current.model, candidates, settings: { significanceLevel: alpha, minPointsPerSegment: minPoints, guideline14: limits, temperatureForm: form } };
 }
 
 interface ScreeningRules {

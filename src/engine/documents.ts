@@ -4,7 +4,7 @@
  * never rename or remove one.
  */
 import type { BaselineChoice, Candidate } from './choose.js';
-import type { ExcludedPeriod, ModelName } from './types.js';
+import type { ExcludedPeriod, ModelName, TemperatureForm } from './types.js';
 import type { SavingsResult } from './savings.js';
 
 export interface CandidateDocument {
@@ -36,6 +36,8 @@ export interface CandidateDocument {
 
 export interface FitDocument {
   selected: ModelName;
+  /** How each reading's weather entered the fit: 'daily' (day-resolved) or 'mean'. */
+  temperatureForm: TemperatureForm;
   candidates: CandidateDocument[];
   periods: { used: number; excluded: ExcludedPeriod[] };
   settings: BaselineChoice['settings'] & { minCoverage: number };
@@ -70,6 +72,7 @@ export function fitDocument(
 ): FitDocument {
   return {
     selected: choice.selected,
+    temperatureForm: choice.settings.temperatureForm,
     candidates: choice.candidates.map(candidateDocument),
     periods: { used: periodsUsed, excluded: [...excluded] },
     settings: { ...choice.settings, minCoverage },
@@ -77,6 +80,6 @@ export function fitDocument(
 }
 
 export interface SavingsDocument extends SavingsResult {
-  baseline: { selected: ModelName; reportingMonths: number; guideline14: Candidate['guideline14'] };
+  baseline: { selected: ModelName; temperatureForm: TemperatureForm; reportingMonths: number; guideline14: Candidate['guideline14'] };
   excluded: { baseline: ExcludedPeriod[]; reporting: ExcludedPeriod[] };
 }

@@ -18,11 +18,12 @@ import { fitDocument, type FitDocument, type SavingsDocument } from './documents
 export * from './types.js';
 export { alignPeriods, indexWeather, DEFAULT_MIN_COVERAGE, type AlignmentOptions } from './periods.js';
 export { checkReadings, checkWeather, type InputProblem } from './validate.js';
-export { chooseBaseline, nestedFTest, DEFAULT_SIGNIFICANCE_LEVEL, DEFAULT_MIN_POINTS_PER_SEGMENT } from './choose.js';
+export { chooseBaseline, nestedFTest, resolveTemperatureForm, DEFAULT_SIGNIFICANCE_LEVEL, DEFAULT_MIN_POINTS_PER_SEGMENT } from './choose.js';
 export type { BaselineChoice, Candidate, SelectionOptions, Verdict } from './choose.js';
-export { fitShape } from './fit/fit-shape.js';
+export { fitShape, fitTemperatureForm, periodsHaveDays } from './fit/fit-shape.js';
 export type { ShapeFit, ShapeFitResult, ShapeFitFailure, Coefficient, ChangepointEstimate, FitStatistics } from './fit/fit-shape.js';
-export { designRow, predictPerDay } from './fit/shape-model.js';
+export { designRow, predictPerDay, periodDesignRow, predictPeriodPerDay, type PeriodWeather } from './fit/shape-model.js';
+export { heatingDegreeDaysPerDay, coolingDegreeDaysPerDay } from './fit/degree-days.js';
 export { computeSavings, CONFIDENCE_LEVELS, SIGNIFICANCE_RULE } from './savings.js';
 export type { SavingsOptions, SavingsResult, SavingsPeriod, SavingsTotals, Uncertainty } from './savings.js';
 export { DEFAULT_GUIDELINE14_LIMITS, GUIDELINE14_SOURCE, cvrmseLimitForReportingMonths, guideline14Check } from './guideline14.js';
@@ -112,7 +113,7 @@ export function savingsFromFit(
   const limits = { ...baseline.limits, cvrmse: options.cvrmseLimit ?? cvrmseLimitForReportingMonths(reportingMonths) };
   return {
     ...result,
-    baseline: { selected: fit.model, reportingMonths, guideline14: guideline14Check(fit.stats, limits) },
+    baseline: { selected: fit.model, temperatureForm: result.temperatureForm, reportingMonths, guideline14: guideline14Check(fit.stats, limits) },
     excluded: { baseline: [...baseline.excluded], reporting: excluded },
   };
 }

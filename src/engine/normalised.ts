@@ -3,9 +3,14 @@
  * (fitted the same way, to the reporting readings) both applied to a normal
  * year of weather; the difference is what the measures save in a typical
  * year, free of the reporting year's own weather.
+ *
+ * The reporting-period model is fitted in the baseline's temperature form.
+ * A day-resolved model is a daily response, so it meets the normal year day
+ * by day; a mean-form model fitted to bills has only seen period means and
+ * meets it as calendar months.
  */
 import type { DailyTemperature, Reading } from './types.js';
-import type { ShapeFit } from './fit/fit-shape.js';
+import { fitTemperatureForm, type ShapeFit } from './fit/fit-shape.js';
 import { alignPeriods } from './periods.js';
 import { chooseBaseline } from './choose.js';
 import { normalPeriodsUse, normalYearMonths, type NormalPeriod } from './normal-year.js';
@@ -29,7 +34,7 @@ export type NormalisedResult =
       fractionSaved: number | null;
       reportingModel: string;
       reportingPeriods: number;
-      /** How the normal year was fed to the models: as calendar months (bills) or day by day (daily data). */
+      /** How the normal year was fed to the models: day by day (day-resolved models, daily data) or as calendar months (mean-form models of bills). */
       normalYearAs: 'months' | 'days';
       outsideRangeShare: number;
     }
@@ -50,9 +55,10 @@ export function normalisedSavings(
       reason: `the window holds ${days} days of usable reporting periods; a reporting-period model needs at least ${MIN_NORMALISED_REPORTING_DAYS} (a full cycle of seasons)`,
     };
   }
+  const form = fitTemperatureForm(baseline);
   let choice;
   try {
-    choice = chooseBaseline(periods);
+    choice = chooseBaseline(periods, { temperatureForm: form });
   } catch (error) {
     if (error instanceof RangeError) return { available: false, reason: `no reporting-period model: ${error.message}` };
     throw error;
@@ -60,7 +66,7 @@ export function normalisedSavings(
   const reportingFit = choice.candidates.find((c) => c.model === choice.selected)?.fit;
   if (!reportingFit) return { available: false, reason: 'no changepoint shape could be fitted to the reporting periods' };
   const lengths = periods.map((p) => p.days).sort((a, b) => a - b);
-  const asMonths = (lengths[Math.floor(lengths.length / 2)] ?? 1) >= BILLING_PERIOD_DAYS;
+  const asMonths = form === 'mean' && (lengths[Math.floor(lengths.length / 2)] ?? 1) >= BILLING_PERIOD_DAYS;
   const normal: NormalPeriod[] = asMonths ? normalYearMonths(normalTemps) : normalTemps.map((meanTemp) => ({ days: 1, meanTemp }));
   // Days of the normal year outside either model's range, counted by the period the model sees.
   const base = normalPeriodsUse(baseline, normal);

@@ -1,7 +1,8 @@
 /**
  * Billing periods against daily weather. A reading covers [start, end), so
  * days = end − start; its temperature is the mean of the daily means over the
- * days that have weather. A period with too few such days (below the
+ * days that have weather, and those days' temperatures are kept with it for
+ * the day-resolved form of the fit. A period with too few such days (below the
  * coverage threshold, 90% by default: common practice, not a standard) is
  * left out with its reason stated, never silently.
  */
@@ -41,11 +42,13 @@ export function alignPeriods(
     const days = parseIsoDate(reading.end)! - first;
     let covered = 0;
     let sum = 0;
+    const dayTemps: number[] = [];
     for (let d = first; d < first + days; d++) {
       const temp = byDay.get(d);
       if (temp !== undefined) {
         covered++;
         sum += temp;
+        dayTemps.push(temp);
       }
     }
     const coverage = covered / days;
@@ -67,6 +70,7 @@ export function alignPeriods(
       meanTemp: sum / covered,
       coverage,
       estimated: reading.estimated ?? false,
+      dayTemps,
     });
   });
   return { periods, excluded };

@@ -1,16 +1,19 @@
 /**
  * Avoided energy: project the frozen baseline onto reporting-period weather.
  *
- * Adjusted baseline per period = days × f(meanTemp) + the non-routine
- * adjustments falling in the period; avoided energy S = Σ adjusted baseline
+ * Adjusted baseline per period = days × f(period) + the non-routine
+ * adjustments falling in the period, where f(period) is the frozen model's
+ * use per day in the form it was fitted in: the mean over the period's days
+ * of the daily response (day-resolved), or the response at the period's mean
+ * temperature (mean form); avoided energy S = Σ adjusted baseline
  * − Σ actual; fraction saved F = S / Σ adjusted baseline. Adjustments are
  * documented figures, not estimates: they move S but not its uncertainty. The uncertainty of S is stated two ways (see
  * stats/savings-uncertainty.ts): the ASHRAE Guideline 14 Annex B formula and
  * the exact regression variance with the changepoints held fixed.
  */
-import type { ModelName, Period } from './types.js';
-import type { ShapeFit } from './fit/fit-shape.js';
-import { designRow, predictPerDay } from './fit/shape-model.js';
+import type { ModelName, Period, TemperatureForm } from './types.js';
+import { fitTemperatureForm, type ShapeFit } from './fit/fit-shape.js';
+import { periodDesignRow, predictPeriodPerDay } from './fit/shape-model.js';
 import { twoSidedTCritical } from './stats/distributions.js';
 import { effectiveSampleSize, exactSavingsVariance, guideline14FractionalUncertainty } from './stats/savings-uncertainty.js';
 import { adjustmentsForPeriod, type NonRoutineAdjustment } from './adjustments.js';
@@ -36,7 +39,7 @@ export interface SavingsPeriod {
   days: number;
   meanTemp: number;
   actual: number;
-  /** The frozen model's projection: days × f(meanTemp). */
+  /** The frozen model's projection: days × f(period), in the fit's temperature form. */
   modelBaseline: number;
   /** Non-routine adjustments falling in the period (+ adds to the adjusted baseline). */
   adjustment: number;
@@ -71,6 +74,8 @@ export interface SavingsTotals {
 
 export interface SavingsResult {
   model: ModelName;
+  /** The frozen model's temperature form, which the projection follows. */
+  temperatureForm: TemperatureForm;
   periods: SavingsPeriod[];
   totals: SavingsTotals;
   significance: {
@@ -92,10 +97,11 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
   if (reporting.length === 0) throw new RangeError('no reporting periods to compute savings for');
   const ordered = [...reporting].sort((a, b) => (a.start < b.start ? -1 : a.start > b.start ? 1 : 0));
   const range = baseline.temperatureRange;
+  const form = fitTemperatureForm(baseline);
 
   const adjustments = options.adjustments ?? [];
   const periods: SavingsPeriod[] = ordered.map((period) => {
-    const modelBaseline = period.days * predictPerDay(baseline.model, baseline.changepoints, baseline.rawCoefficients, period.meanTemp);
+    const modelBaseline = period.days * predictPeriodPerDay(baseline.model, baseline.changepoints, baseline.rawCoefficients, period, form);
     const adjustment = adjustments.length > 0 ? adjustmentsForPeriod(adjustments, period.start, period.end) : 0;
     const adjustedBaseline = modelBaseline + adjustment;
     return {
@@ -126,7 +132,7 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
   const rho = baseline.stats.autocorrelation;
   const correct = options.autocorrelationCorrection ?? true;
   const nPrime = correct ? effectiveSampleSize(n, rho) : n;
-  const rows = ordered.map((period) => ({ days: period.days, designRow: designRow(baseline.model, baseline.changepoints, period.meanTemp) }));
+  const rows = ordered.map((period) => ({ days: period.days, designRow: periodDesignRow(baseline.model, baseline.changepoints, period, form) }));
   const variance = exactSavingsVariance(baseline.unscaledCovariance, baseline.residualVariance, rows, n / nPrime);
 
   const uncertaintyAt = (level: number) => {
@@ -147,6 +153,7 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
 
   return {
     model: baseline.model,
+    temperatureForm: form,
     periods,
     totals: {
       actual,

@@ -22,6 +22,19 @@ export const PARAMETER_COUNT: Readonly<Record<ModelName, number>> = {
 
 export type TemperatureUnit = 'F' | 'C';
 
+/**
+ * How a baseline sees a reading's weather.
+ * - 'daily': the day-resolved (variable-base degree-day) form: a reading's
+ *   expected use per day is the mean over its own days of the daily
+ *   changepoint response. For one-day readings it is the ordinary fit.
+ * - 'mean': the reading's mean temperature is fed to the response, as if
+ *   every day of the reading had that temperature.
+ */
+export type TemperatureForm = 'daily' | 'mean';
+
+/** Both forms; 'daily' is the default wherever the readings carry their days' temperatures. */
+export const TEMPERATURE_FORMS: readonly TemperatureForm[] = ['daily', 'mean'];
+
 /** One meter reading (a bill, or a day of interval data). */
 export interface Reading {
   start: string;
@@ -50,6 +63,13 @@ export interface Period {
   /** Share of the period's days that have a temperature (0..1). */
   coverage: number;
   estimated: boolean;
+  /**
+   * The daily mean temperatures of the period's days that have weather, in
+   * date order (alignPeriods fills it). The day-resolved form needs them;
+   * periods built from a mean temperature alone leave it out and can only be
+   * fitted in the mean form.
+   */
+  dayTemps?: readonly number[];
 }
 
 /** A reading that could not be used, and why (never dropped silently). */

@@ -108,13 +108,23 @@ function summaryOf(row: BaselineRow, document: FitDocument): BaselineSummary {
   };
 }
 
-function viewOf(row: BaselineRow): Baseline {
+/**
+ * The stored fit document as the API shows it. Documents stored before the
+ * day-resolved form existed do not name their form: they are mean-form fits.
+ */
+function fitDocumentOf(row: BaselineRow): FitDocument {
   const document = forResponse<FitDocument>(row.document_json);
+  const form = document.temperatureForm ?? 'mean';
+  return { ...document, temperatureForm: form, settings: { ...document.settings, temperatureForm: document.settings.temperatureForm ?? form } };
+}
+
+function viewOf(row: BaselineRow): Baseline {
+  const document = fitDocumentOf(row);
   return { ...summaryOf(row, document), fit: document };
 }
 
 export function toBaselineSummary(row: BaselineRow): BaselineSummary {
-  return summaryOf(row, forResponse<FitDocument>(row.document_json));
+  return summaryOf(row, fitDocumentOf(row));
 }
 
 // ---------------------------------------------------------------------------

@@ -49,12 +49,12 @@ describe('normalisedSavings', () => {
 });
 
 describe('normalisedSavings on bills', () => {
-  it('applies the normal year as calendar months to models fitted on bills', () => {
+  it('applies the normal year as calendar months to mean-form models fitted on bills', () => {
     const random = seededRandom(78);
     const weather = dailyWeather(CLIMATES.temperate, '2023-01-01', 1096, random);
     const bills = monthlyReadings(SAMPLE_BUILDING, weather, '2023-01-01', 24, random);
     const reporting = monthlyReadings({ ...SAMPLE_BUILDING, base: SAMPLE_BUILDING.base - 30 }, weather, '2025-01-01', 12, random);
-    const analysis = analyseBaseline(bills, weather);
+    const analysis = analyseBaseline(bills, weather, { temperatureForm: 'mean' });
     const fit = analysis.choice.candidates.find((c) => c.model === analysis.choice.selected)!.fit!;
     const result = normalisedSavings(fit, reporting, weather, NORMAL);
     if (!result.available) throw new Error(result.reason);
@@ -65,6 +65,25 @@ describe('normalisedSavings on bills', () => {
     expect(months[0]!.meanTemp).toBeCloseTo(NORMAL.slice(0, 31).reduce((a, t) => a + t, 0) / 31, 12);
     const byHand = months.reduce((sum, m) => sum + m.days * predictPerDay(fit.model, fit.changepoints, fit.rawCoefficients, m.meanTemp), 0);
     expect(result.baselineUse).toBeCloseTo(byHand, 6);
+  });
+
+  it('applies the normal year day by day to day-resolved models fitted on bills (the default)', () => {
+    const random = seededRandom(78);
+    const weather = dailyWeather(CLIMATES.temperate, '2023-01-01', 1096, random);
+    const bills = monthlyReadings(SAMPLE_BUILDING, weather, '2023-01-01', 24, random);
+    const reporting = monthlyReadings({ ...SAMPLE_BUILDING, base: SAMPLE_BUILDING.base - 30 }, weather, '2025-01-01', 12, random);
+    const analysis = analyseBaseline(bills, weather);
+    expect(analysis.document.temperatureForm).toBe('daily');
+    const fit = analysis.choice.candidates.find((c) => c.model === analysis.choice.selected)!.fit!;
+    const result = normalisedSavings(fit, reporting, weather, NORMAL);
+    if (!result.available) throw new Error(result.reason);
+    expect(result.normalYearAs).toBe('days');
+    // hand-worked definition: Σ over the 365 days of f(the day's temperature)
+    const byHand = NORMAL.reduce((sum, t) => sum + predictPerDay(fit.model, fit.changepoints, fit.rawCoefficients, t), 0);
+    expect(result.baselineUse).toBeCloseTo(byHand, 6);
+    // synthetic: the building's base fell by 30 per day, so a typical year saves about 30 × 365 (noise allows a few per cent)
+    expect(result.savings / (30 * 365)).toBeGreaterThan(0.9);
+    expect(result.savings / (30 * 365)).toBeLessThan(1.1);
   });
 
   it('applies it day by day to daily readings', () => {

@@ -21,7 +21,7 @@ describe('alignPeriods: [start, end) periods against daily weather', () => {
     const { periods, excluded } = alignPeriods([{ start: '2030-01-01', end: '2030-01-04', quantity: 300 }], weather);
     expect(excluded).toEqual([]);
     expect(periods).toEqual([
-      { start: '2030-01-01', end: '2030-01-04', days: 3, quantity: 300, usePerDay: 100, meanTemp: 2, coverage: 1, estimated: false },
+      { start: '2030-01-01', end: '2030-01-04', days: 3, quantity: 300, usePerDay: 100, meanTemp: 2, coverage: 1, estimated: false, dayTemps: [1, 2, 3] },
     ]);
   });
 

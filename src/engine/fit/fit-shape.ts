@@ -4,15 +4,18 @@
  * errors and t-statistics, then the changepoints' own standard errors from the
  * Gauss–Newton covariance of the full nonlinear model.
  */
-import { PARAMETER_COUNT, type ModelName, type Period } from '../types.js';
+import { PARAMETER_COUNT, type ModelName, type Period, type TemperatureForm } from '../types.js';
 import { invertMatrix } from './matrix.js';
 import { weightedLeastSquares } from './wls.js';
 import { buildSortedSums } from './sorted-sums.js';
-import { searchChangepoints } from './changepoint-search.js';
+import { searchChangepoints, type ChangepointOptimum } from './changepoint-search.js';
+import { buildBillDays, searchDayResolved, type BillDays } from './day-resolved/search.js';
+
 import {
+  changepointDerivatives,
   changepointNames,
   coefficientNames,
-  designRow,
+  periodDesignRow,
   slopeSign,
   type Changepoints,
 } from './shape-model.js';
@@ -48,6 +51,12 @@ export interface FitStatistics {
 export interface ShapeFit {
   ok: true;
   model: ModelName;
+  /**
+   * How the fit saw each reading's weather ('daily': day-resolved, 'mean':
+   * at its mean temperature). Fits stored before the day-resolved form
+   * existed lack it and are mean-form fits (see fitTemperatureForm).
+   */
+  temperatureForm: TemperatureForm;
   n: number;
   p: number;
   changepoints: Changepoints;
@@ -63,7 +72,10 @@ export interface ShapeFit {
   parameters: Record<string, number>;
   /** Points in each segment; a point on a changepoint counts in both. */
   segmentCounts: Record<string, number>;
+  /** Lowest and highest mean temperature of the baseline periods. */
   temperatureRange: { min: number; max: number };
+  /** Day-resolved fits: lowest and highest daily temperature the model saw (null in the mean form). */
+  dayTemperatureRange?: { min: number; max: number } | null;
   /** Σ days·(usePerDay − fitted)². */
   sse: number;
   stats: FitStatistics;
@@ -81,15 +93,30 @@ export interface ShapeFitFailure {
 
 export type ShapeFitResult = ShapeFit | ShapeFitFailure;
 
+/** The form of a fit; fits stored before the day-resolved form existed are mean-form fits. */
+export function fitTemperatureForm(fit: Pick<ShapeFit, 'temperatureForm'> | { temperatureForm?: TemperatureForm }): TemperatureForm {
+  return fit.temperatureForm ?? 'mean';
+}
+
+/** Do all periods carry their days' temperatures (so the day-resolved form can be fitted)? */
+export function periodsHaveDays(periods: readonly Period[]): boolean {
+  return periods.every((period) => period.dayTemps !== undefined && period.dayTemps.length > 0);
+}
+
 /**
  * Fit `model` to `periods` (any order; statistics use start-date order).
- * `minPointsPerSegment` bounds where changepoints may go.
+ * `minPointsPerSegment` bounds where changepoints may go. In the 'daily'
+ * form every period must carry its days' temperatures (alignPeriods does);
+ * for one-day periods both forms give the same fit.
  */
-export function fitShape(periods: readonly Period[], model: ModelName, minPointsPerSegment: number): ShapeFitResult {
+export function fitShape(periods: readonly Period[], model: ModelName, minPointsPerSegment: number, form: TemperatureForm = 'mean'): ShapeFitResult {
   const ordered = [...periods].sort((a, b) => (a.start < b.start ? -1 : a.start > b.start ? 1 : 0));
   const n = ordered.length;
   const p = PARAMETER_COUNT[model];
   const fail = (reason: string): ShapeFitFailure => ({ ok: false, model, n, p, reason });
+  if (form === 'daily' && !periodsHaveDays(ordered)) {
+    throw new RangeError('the day-resolved form needs the daily temperatures of every period (align the readings with alignPeriods)');
+  }
   if (n <= p) return fail(`needs more than ${p} periods, has ${n}`);
 
   const x = ordered.map((period) => period.meanTemp);
@@ -98,12 +125,12 @@ export function fitShape(periods: readonly Period[], model: ModelName, minPoints
 
   let changepoints: Changepoints = { heating: null, cooling: null };
   if (model === '3PC' || model === '3PH' || model === '4P' || model === '5P') {
-    const optimum = searchChangepoints(buildSortedSums(x, y, w), model, minPointsPerSegment);
+    const optimum = searchShape(periods, model, minPointsPerSegment, form, x, y, w);
     if (!optimum) return fail(`no changepoint leaves ${minPointsPerSegment} points in every segment`);
     changepoints = { heating: optimum.heatingChangepoint, cooling: optimum.coolingChangepoint };
   }
 
-  const design = x.map((value) => designRow(model, changepoints, value));
+  const design = ordered.map((period) => periodDesignRow(model, changepoints, period, form));
   const regression = weightedLeastSquares(design, y, w, n - p);
   if (!regression) return fail('the regression is singular (too little spread in temperature)');
 
@@ -117,7 +144,8 @@ export function fitShape(periods: readonly Period[], model: ModelName, minPoints
       tStat: sign * regression.tStats[j]!,
     };
   });
-  const changepointEstimates = estimateChangepointErrors(model, changepoints, x, w, design, regression.coefficients, regression.residualVariance);
+  const derivatives = ordered.map((period) => changepointDerivatives(model, changepoints, regression.coefficients, period, form));
+  const changepointEstimates = estimateChangepointErrors(model, changepoints, w, design, derivatives, regression.residualVariance);
 
   const parameters: Record<string, number> = {};
   for (const c of coefficients) parameters[c.name] = c.estimate;
@@ -128,6 +156,7 @@ export function fitShape(periods: readonly Period[], model: ModelName, minPoints
   return {
     ok: true,
     model,
+    temperatureForm: form,
     n,
     p,
     changepoints,
@@ -139,10 +168,54 @@ export function fitShape(periods: readonly Period[], model: ModelName, minPoints
     parameters,
     segmentCounts: countSegments(model, changepoints, x),
     temperatureRange: { min: Math.min(...x), max: Math.max(...x) },
+    dayTemperatureRange: form === 'daily' ? dayRange(ordered) : null,
     sse: regression.sse,
     stats: { ...fit, autocorrelation: lagOneAutocorrelation(residuals), durbinWatson: durbinWatson(residuals) },
     residuals,
   };
+}
+
+/**
+ * Exact changepoints: the running-sum (Hudson) search on period means for the
+ * mean form and for one-day periods (where both forms coincide), the
+ * day-resolved search for longer periods in the daily form.
+ */
+function searchShape(
+  periods: readonly Period[],
+  model: '3PC' | '3PH' | '4P' | '5P',
+  minPoints: number,
+  form: TemperatureForm,
+  x: readonly number[],
+  y: readonly number[],
+  w: readonly number[],
+): ChangepointOptimum | null {
+  const oneDayEach = periods.every((period) => period.dayTemps?.length === 1);
+  if (form === 'mean' || oneDayEach) return searchChangepoints(buildSortedSums(x, y, w), model, minPoints);
+  return searchDayResolved(billDaysOf(periods), model, minPoints);
+}
+
+/** The day-resolved search's view of a set of periods, built once for all the shapes fitted to it. */
+const billDaysCache = new WeakMap<readonly Period[], BillDays>();
+
+function billDaysOf(periods: readonly Period[]): BillDays {
+  let days = billDaysCache.get(periods);
+  if (!days) {
+    days = buildBillDays(periods);
+    billDaysCache.set(periods, days);
+  }
+  return days;
+}
+
+function dayRange(periods: readonly Period[]): { min: number; max: number } {
+  let min = Number.POSITIVE_INFINITY;
+  let max = Number.NEGATIVE_INFINITY;
+  for (const period of periods) {
+    for (const temp of period.dayTemps!) {
+      if (temp < min) min = temp;
+      if (temp > max) max = temp;
+    }
+  }
+  return { min, max };
 }
 
 function countSegments(model: ModelName, cp: Changepoints, x: readonly number[]): Record<string, number> {
@@ -166,38 +239,26 @@ function countSegments(model: ModelName, cp: Changepoints, x: readonly number[])
 
 /**
  * Gauss–Newton covariance σ²(JᵀWJ)⁻¹ of all parameters, changepoints
- * included: J holds the design columns plus ∂ŷ/∂c, which for bh·(cH − x)₊ is
- * bh·[x < cH] and for bq·(x − cC)₊ is −bq·[x > cC].
+ * included: J holds the design columns plus ∂ŷ/∂c for each changepoint
+ * (shape-model.ts: the slope times the share of the period's days on the
+ * hinge's active side; in the mean form that share is 0 or 1).
  */
 function estimateChangepointErrors(
   model: ModelName,
   cp: Changepoints,
-  x: readonly number[],
   w: readonly number[],
   design: readonly number[][],
-  raw: readonly number[],
+  derivatives: readonly number[][],
   residualVariance: number,
 ): ChangepointEstimate[] {
   const names = changepointNames(model);
   if (names.length === 0) return [];
   const cH = cp.heating ?? Number.NaN;
   const cC = cp.cooling ?? Number.NaN;
-  const derivativeColumns = (value: number): number[] => {
-    switch (model) {
-      case '3PC':
-        return [value > cC ? -raw[1]! : 0];
-      case '3PH':
-        return [value < cH ? raw[1]! : 0];
-      case '4P':
-        return [(value < cH ? raw[1]! : 0) - (value > cC ? raw[2]! : 0)];
-      default:
-        return [value < cH ? raw[1]! : 0, value > cC ? -raw[2]! : 0];
-    }
-  };
-  const jacobian = x.map((value, i) => [...design[i]!, ...derivativeColumns(value)]);
+  const jacobian = design.map((row, i) => [...row, ...derivatives[i]!]);
   const width = jacobian[0]!.length;
   const information = Array.from({ length: width }, () => new Array<number>(width).fill(0));
-  for (let i = 0; i < x.length; i++) {
+  for (let i = 0; i < jacobian.length; i++) {
     const row = jacobian[i]!;
     for (let a = 0; a < width; a++) for (let b = 0; b < width; b++) information[a]![b]! += w[i]! * row[a]! * row[b]!;
   }

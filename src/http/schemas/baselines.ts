@@ -1,12 +1,16 @@
 /** Baselines: request bodies and the fit document as the API returns it. */
 import { z } from 'zod';
-import { MODEL_NAMES } from '../../engine/index.js';
+import { MODEL_NAMES, TEMPERATURE_FORMS } from '../../engine/index.js';
 import { isoDate, plainText } from './common.js';
 
 /** A statistic: JSON has no NaN or Infinity, so a non-finite value is sent as null. */
 export const stat = z.number().nullable();
 
 export const modelName = z.enum(MODEL_NAMES).describe('A changepoint shape, named as ASHRAE Guideline 14 names it');
+
+export const temperatureForm = z
+  .enum(TEMPERATURE_FORMS)
+  .describe('How each reading’s weather enters the model: daily (day-resolved: the mean over its days of the daily response) or mean (the response at its mean temperature)');
 
 const text = (max: number) => plainText().trim().min(1, 'must not be empty').max(max, `must be at most ${max} characters`);
 
@@ -76,6 +80,7 @@ const candidateSchema = z
 export const fitDocumentSchema = z
   .object({
     selected: modelName,
+    temperatureForm,
     candidates: z.array(candidateSchema),
     periods: z.object({ used: z.number().int(), excluded: z.array(excludedPeriodSchema) }),
     settings: z.object({
@@ -83,6 +88,7 @@ export const fitDocumentSchema = z
       minPointsPerSegment: z.number().int(),
       guideline14: z.object({ cvrmse: z.number(), nmbe: z.number(), source: z.string() }),
       minCoverage: z.number(),
+      temperatureForm,
     }),
   })
   .meta({ id: 'FitDocument', description: 'Every candidate shape, the selection and the settings: the same document as the command line’s fit --json' });

@@ -3,7 +3,7 @@ import { z } from 'zod';
 import { CONFIDENCE_LEVELS } from '../../engine/index.js';
 import { isoDate } from './common.js';
 import { adjustmentSchema } from './adjustments.js';
-import { excludedPeriodSchema, guideline14CheckSchema, modelName, stat } from './baselines.js';
+import { excludedPeriodSchema, guideline14CheckSchema, modelName, stat, temperatureForm } from './baselines.js';
 
 const confidenceText = CONFIDENCE_LEVELS.join(', ');
 
@@ -25,6 +25,7 @@ const uncertainty = z.object({ fractional: stat.describe('ΔS/S as a positive fr
 export const savingsSchema = z
   .object({
     model: modelName,
+    temperatureForm,
     periods: z.array(
       z.object({
         start: z.string(),
@@ -54,7 +55,7 @@ export const savingsSchema = z
     significance: z.object({ rule: z.string(), fractionalAt68: z.object({ guideline14: stat, exact: stat }) }),
     baselineTemperatureRange: z.object({ min: stat, max: stat }),
     uncertaintyInputs: z.object({ n: z.number().int(), nPrime: stat, m: z.number().int(), p: z.number().int(), t: stat, autocorrelation: stat, cvrmse: stat }),
-    baseline: z.object({ selected: modelName, reportingMonths: stat, guideline14: guideline14CheckSchema.nullable() }),
+    baseline: z.object({ selected: modelName, temperatureForm, reportingMonths: stat, guideline14: guideline14CheckSchema.nullable() }),
     excluded: z.object({ baseline: z.array(excludedPeriodSchema), reporting: z.array(excludedPeriodSchema) }),
     meterId: z.string(),
     adjustments: z.array(adjustmentSchema),

@@ -1,0 +1,474 @@
+/**
+ * The 5P of the day-resolved form: two changepoints, searched exactly over
+ * pairs of breakpoint intervals.
+ *
+ * On a pair (heating interval, cooling interval) the model
+ * b0 + bh·(τh·s − S) + bq·(Q − τc·r) is linear in (b0, bh·τh, bh, bq, bq·τc),
+ * so the free five-column fit on {1, s, S, Q, r} bounds the pair from below
+ * and is its exact optimum when its implied τh and τc fall inside the
+ * intervals (Hudson's argument, carried over); otherwise the optimum lies on
+ * an edge, where one changepoint is fixed and the other is a one-hinge
+ * problem (gram.ts). Pairs are visited from a coordinate-descent incumbent
+ * and skipped when a lower bound cannot beat it.
+ */
+import { searchChangepoints } from '../changepoint-search.js';
+import { buildSortedSums } from '../sorted-sums.js';
+import { bestHingeOnInterval, gramLeastSquares, type HingeOptimum } from '../gram.js';
+import type { BillDays } from './bill-days.js';
+import { bothSidesFeasible, countMeans, fixedColumnsSse, hingeColumn, sweepHinge, type Side } from './hinge-sweep.js';
+
+/** Relative slack when comparing a lower bound with the incumbent: rounding must never prune the optimum. */
+const BOUND_SLACK = 1e-10;
+
+/** Relative pivot below which a column counts as a combination of the others. */
+const PIVOT = 1e-9;
+
+/** Rounds of coordinate descent for the starting incumbent (it only has to be good, not optimal). */
+const DESCENT_ROUNDS = 2;
+
+export interface FivePointOptimum {
+  heating: number;
+  cooling: number;
+  sse: number;
+}
+
+/** SSE of the 5P with both changepoints fixed (centred units). */
+export function fixedFivePointSse(days: BillDays, heating: number, cooling: number): number {
+  return fixedColumnsSse(days, [hingeColumn(days, 'heating', heating), hingeColumn(days, 'cooling', cooling)]);
+}
+
+/** Is the 5P with these (centred) changepoints allowed by the segment rule? */
+function fivePointFeasible(days: BillDays, heating: number, cooling: number, k: number): boolean {
+  return (
+    heating <= cooling &&
+    countMeans(days, (x) => x <= heating) >= k &&
+    countMeans(days, (x) => x >= heating && x <= cooling) >= k &&
+    countMeans(days, (x) => x >= cooling) >= k
+  );
+}
+
+/**
+ * A good feasible 5P to start from: from the one-changepoint optima and from
+ * the mean-form 5P, alternate exact one-hinge sweeps (heating with cooling
+ * fixed, then cooling with heating fixed) for a few rounds. Only the pruning
+ * depends on it; the pair search below finds the optimum from any start.
+ */
+function coordinateDescent(days: BillDays, k: number): FivePointOptimum | null {
+  const starts: [number, number][] = [];
+  const allowed = bothSidesFeasible(days, k);
+  const heatingOnly = sweepHinge(days, 'heating', null, allowed);
+  const coolingOnly = sweepHinge(days, 'cooling', null, allowed);
+  if (heatingOnly && coolingOnly && heatingOnly.tau <= coolingOnly.tau) starts.push([heatingOnly.tau, coolingOnly.tau]);
+  const meanForm = searchChangepoints(buildSortedSums(Array.from(days.mean), Array.from(days.y), Array.from(days.w)), '5P', k);
+  if (meanForm) starts.push([meanForm.heatingChangepoint!, meanForm.coolingChangepoint!]);
+  let start: FivePointOptimum | null = null;
+  for (const [heating, cooling] of starts) {
+    const sse = fivePointFeasible(days, heating, cooling, k) ? fixedFivePointSse(days, heating, cooling) : Number.POSITIVE_INFINITY;
+    if (start === null || sse < start.sse) start = { heating, cooling, sse };
+  }
+  if (start === null) return null;
+  let { heating, cooling, sse } = start;
+  for (let round = 0; round < DESCENT_ROUNDS; round++) {
+    const movedHeating = moveOneHinge(days, 'heating', heating, cooling, k);
+    if (movedHeating && movedHeating.sse < sse) ({ tau: heating, sse } = movedHeating);
+    const movedCooling = moveOneHinge(days, 'cooling', heating, cooling, k);
+    if (movedCooling && movedCooling.sse < sse) ({ tau: cooling, sse } = movedCooling);
+  }
+  return Number.isFinite(sse) ? { heating, cooling, sse } : null;
+}
+
+/** The best position of one changepoint of a 5P with the other held where it is. */
+export function moveOneHinge(days: BillDays, side: Side, heating: number, cooling: number, k: number): HingeOptimum | null {
+  const { n, meansAtOrBelow, meansAtOrAbove, breakpoints } = days;
+  const allowed = new Uint8Array(breakpoints.length);
+  if (side === 'heating') {
+    const atOrBelowCooling = countMeans(days, (x) => x <= cooling);
+    const coolCount = countMeans(days, (x) => x >= cooling);
+    for (let j = 0; j + 1 < breakpoints.length; j++) {
+      const flat = atOrBelowCooling - (n - meansAtOrAbove[j + 1]!);
+      allowed[j] = breakpoints[j + 1]! <= cooling && meansAtOrBelow[j]! >= k && flat >= k && coolCount >= k ? 1 : 0;
+    }
+    return sweepHinge(days, 'heating', hingeColumn(days, 'cooling', cooling), allowed);
+  }
+  const heatCount = countMeans(days, (x) => x <= heating);
+  const belowHeating = countMeans(days, (x) => x < heating);
+  for (let j = 0; j + 1 < breakpoints.length; j++) {
+    const flat = meansAtOrBelow[j]! - belowHeating;
+    allowed[j] = breakpoints[j]! >= heating && meansAtOrAbove[j + 1]! >= k && flat >= k && heatCount >= k ? 1 : 0;
+  }
+  return sweepHinge(days, 'cooling', hingeColumn(days, 'heating', heating), allowed);
+}
+
+/** Sums over readings of the cooling columns Q and r, and with y, at every breakpoint interval. */
+interface CoolingSums {
+  q: Float64Array;
+  r: Float64Array;
+  qq: Float64Array;
+  qr: Float64Array;
+  rr: Float64Array;
+  qy: Float64Array;
+  ry: Float64Array;
+}
+
+function coolingSumsByInterval(days: BillDays): CoolingSums {
+  const { n, w, y, mean, breakpoints, dayStart, dayBill, dayShare, dayTempShare } = days;
+  const count = breakpoints.length;
+  const sums: CoolingSums = {
+    q: new Float64Array(count),
+    r: new Float64Array(count),
+    qq: new Float64Array(count),
+    qr: new Float64Array(count),
+    rr: new Float64Array(count),
+    qy: new Float64Array(count),
+    ry: new Float64Array(count),
+  };
+  const q = Float64Array.from(mean);
+  const r = new Float64Array(n).fill(1);
+  let sq = 0, sr = 0, sqq = 0, sqr = 0, srr = 0, sqy = 0, sry = 0;
+  for (let b = 0; b < n; b++) {
+    sq += w[b]! * q[b]!;
+    sr += w[b]! * r[b]!;
+    sqq += w[b]! * q[b]! * q[b]!;
+    sqr += w[b]! * q[b]! * r[b]!;
+    srr += w[b]! * r[b]! * r[b]!;
+    sqy += w[b]! * q[b]! * y[b]!;
+    sry += w[b]! * r[b]! * y[b]!;
+  }
+  for (let j = 0; j < count; j++) {
+    for (let d = dayStart[j]!; d < dayStart[j + 1]!; d++) {
+      const b = dayBill[d]!;
+      const qNew = q[b]! - dayTempShare[d]!;
+      const rNew = r[b]! - dayShare[d]!;
+      const wb = w[b]!;
+      sq += wb * (qNew - q[b]!);
+      sr += wb * (rNew - r[b]!);
+      sqq += wb * (qNew * qNew - q[b]! * q[b]!);
+      sqr += wb * (qNew * rNew - q[b]! * r[b]!);
+      srr += wb * (rNew * rNew - r[b]! * r[b]!);
+      sqy += wb * y[b]! * (qNew - q[b]!);
+      sry += wb * y[b]! * (rNew - r[b]!);
+      q[b] = qNew;
+      r[b] = rNew;
+    }
+    sums.q[j] = sq;
+    sums.r[j] = sr;
+    sums.qq[j] = sqq;
+    sums.qr[j] = sqr;
+    sums.rr[j] = srr;
+    sums.qy[j] = sqy;
+    sums.ry[j] = sry;
+  }
+  return sums;
+}
+
+/**
+ * The Gram matrix of one pair of intervals over the basis [1, s, S, Q, r, y]
+ * (index 0–5), row-major 6×6: the five-column relaxation's data, and every
+ * edge problem's by linear combination.
+ */
+class PairGram {
+  readonly g = new Float64Array(36);
+  /** The edge problem's Gram matrix, [1, fixed hinge, u, v, y]. */
+  private readonly edge = new Float64Array(25);
+  private readonly edgeResult: HingeOptimum = { tau: Number.NaN, sse: Number.POSITIVE_INFINITY };
+
+  set(a: number, c: number, value: number): void {
+    this.g[a * 6 + c] = value;
+    this.g[c * 6 + a] = value;
+  }
+
+  private setEdge(a: number, c: number, value: number): void {
+    this.edge[a * 5 + c] = value;
+    this.edge[c * 5 + a] = value;
+  }
+
+  /**
+   * The edge τh = t: the heating hinge h = t·s − S is fixed and the cooling
+   * hinge Q − τ·r moves over [low, high] (u = Q, v = −r).
+   */
+  heatingEdge(t: number, low: number, high: number): HingeOptimum | null {
+    const g = this.g;
+    this.setEdge(0, 0, g[0]!);
+    this.setEdge(0, 1, t * g[1]! - g[2]!);
+    this.setEdge(1, 1, t * t * g[7]! - 2 * t * g[8]! + g[14]!);
+    this.setEdge(0, 2, g[3]!);
+    this.setEdge(0, 3, -g[4]!);
+    this.setEdge(1, 2, t * g[9]! - g[15]!);
+    this.setEdge(1, 3, -(t * g[10]! - g[16]!));
+    this.setEdge(2, 2, g[21]!);
+    this.setEdge(2, 3, -g[22]!);
+    this.setEdge(3, 3, g[28]!);
+    this.setEdge(0, 4, g[5]!);
+    this.setEdge(1, 4, t * g[11]! - g[17]!);
+    this.setEdge(2, 4, g[23]!);
+    this.setEdge(3, 4, -g[29]!);
+    this.setEdge(4, 4, g[35]!);
+    return bestHingeOnInterval(this.edge, 2, low, high, this.edgeResult) ? this.edgeResult : null;
+  }
+
+  /** The edge τc = t: the cooling hinge Q − t·r is fixed and the heating hinge −S + τ·s moves over [low, high]. */
+  coolingEdge(t: number, low: number, high: number): HingeOptimum | null {
+    const g = this.g;
+    this.setEdge(0, 0, g[0]!);
+    this.setEdge(0, 1, g[3]! - t * g[4]!);
+    this.setEdge(1, 1, g[21]! - 2 * t * g[22]! + t * t * g[28]!);
+    this.setEdge(0, 2, -g[2]!);
+    this.setEdge(0, 3, g[1]!);
+    this.setEdge(1, 2, -(g[15]! - t * g[16]!));
+    this.setEdge(1, 3, g[9]! - t * g[10]!);
+    this.setEdge(2, 2, g[14]!);
+    this.setEdge(2, 3, -g[8]!);
+    this.setEdge(3, 3, g[7]!);
+    this.setEdge(0, 4, g[5]!);
+    this.setEdge(1, 4, g[23]! - t * g[29]!);
+    this.setEdge(2, 4, -g[17]!);
+    this.setEdge(3, 4, g[11]!);
+    this.setEdge(4, 4, g[35]!);
+    return bestHingeOnInterval(this.edge, 2, low, high, this.edgeResult) ? this.edgeResult : null;
+  }
+}
+
+/**
+ * The exact optimum over one pair of intervals, given its Gram matrix and
+ * its free five-column fit: that fit if its changepoints fall inside the
+ * intervals, else the best of the four edges (a convex quadratic minimised
+ * over a closed set that excludes its unconstrained minimum attains the
+ * minimum on the set's boundary).
+ */
+function solvePair(
+  pair: PairGram,
+  heatLow: number,
+  heatHigh: number,
+  coolLow: number,
+  coolHigh: number,
+  relaxedSse: number,
+  coefficients: Float64Array,
+): FivePointOptimum | null {
+  const bh = -coefficients[2]!;
+  const bq = coefficients[3]!;
+  if (bh !== 0 && bq !== 0) {
+    const heating = coefficients[1]! / bh;
+    const cooling = -coefficients[4]! / bq;
+    if (heating >= heatLow && heating <= heatHigh && cooling >= coolLow && cooling <= coolHigh) {
+      return { heating, cooling, sse: relaxedSse };
+    }
+  }
+  let best: FivePointOptimum | null = null;
+  for (let e = 0; e < 4; e++) {
+    const fixed = e === 0 ? heatLow : e === 1 ? heatHigh : e === 2 ? coolLow : coolHigh;
+    const edge = e < 2 ? pair.heatingEdge(fixed, coolLow, coolHigh) : pair.coolingEdge(fixed, heatLow, heatHigh);
+    if (edge && (best === null || edge.sse < best.sse)) {
+      best = e < 2 ? { heating: fixed, cooling: edge.tau, sse: edge.sse } : { heating: edge.tau, cooling: fixed, sse: edge.sse };
+    }
+  }
+  return best;
+}
+
+/**
+ * The heating relaxation [1, s, S] fitted to a growing set of readings: its
+ * SSE only grows as readings are added, so once it exceeds the incumbent the
+ * rest of the row cannot win.
+ */
+class RowBound {
+  private readonly gram = new Float64Array(16);
+  private count = 0;
+  private cached = 0;
+  private stale = false;
+
+  reset(): void {
+    this.gram.fill(0);
+    this.count = 0;
+    this.cached = 0;
+    this.stale = false;
+  }
+
+  add(weight: number, s: number, S: number, y: number): void {
+    const g = this.gram;
+    g[0]! += weight;
+    g[1]! += weight * s;
+    g[2]! += weight * S;
+    g[3]! += weight * y;
+    g[5]! += weight * s * s;
+    g[6]! += weight * s * S;
+    g[7]! += weight * s * y;
+    g[10]! += weight * S * S;
+    g[11]! += weight * S * y;
+    g[15]! += weight * y * y;
+    this.count++;
+    this.stale = true;
+  }
+
+  sse(): number {
+    if (this.stale) {
+      this.stale = false;
+      const g = this.gram;
+      g[4] = g[1]!;
+      g[8] = g[2]!;
+      g[12] = g[3]!;
+      g[9] = g[6]!;
+      g[13] = g[7]!;
+      g[14] = g[11]!;
+      // Three or fewer readings are fitted exactly; a collinear set bounds nothing.
+      this.cached = this.count > 3 ? (gramLeastSquares(g, 4) ?? 0) : 0;
+    }
+    return this.cached;
+  }
+}
+
+/**
+ * Every pair of heating interval i and cooling interval j > i whose interior
+ * the segment rule admits. Along a row (fixed i) the inner products of the
+ * cooling columns with the heating columns are kept current day by day; the
+ * heating block's Cholesky factor is computed once per row, so a pair's
+ * free five-column fit costs a 2×2 Schur complement.
+ */
+export function searchFivePoint(days: BillDays, k: number): FivePointOptimum | null {
+  const { n, w, y, mean, breakpoints, dayStart, dayBill, dayShare, dayTempShare, meansAtOrBelow, meansAtOrAbove, totalSquares } = days;
+  const count = breakpoints.length;
+  let best = coordinateDescent(days, k);
+  let bestSse = best?.sse ?? Number.POSITIVE_INFINITY;
+  const slack = BOUND_SLACK * totalSquares;
+  const cooling = coolingSumsByInterval(days);
+  const byMax = Int32Array.from({ length: n }, (_, b) => b).sort((p, q) => days.maxTemp[p]! - days.maxTemp[q]!);
+
+  // Heating state: share and summed temperature of each reading's days at or below breakpoint i.
+  const sI = new Float64Array(n);
+  const SI = new Float64Array(n);
+  const pair = new PairGram();
+  const coefficients = new Float64Array(5);
+  const bound = new RowBound();
+  let totalWeight = 0;
+  for (let b = 0; b < n; b++) totalWeight += w[b]!;
+  let ss = 0, sS = 0, sss = 0, ssS = 0, sSS = 0, ssy = 0, sSy = 0;
+
+  for (let i = 0; i + 2 < count; i++) {
+    for (let d = dayStart[i]!; d < dayStart[i + 1]!; d++) {
+      const b = dayBill[d]!;
+      const sOld = sI[b]!;
+      const SOld = SI[b]!;
+      const sNew = sOld + dayShare[d]!;
+      const SNew = SOld + dayTempShare[d]!;
+      const wb = w[b]!;
+      ss += wb * (sNew - sOld);
+      sS += wb * (SNew - SOld);
+      sss += wb * (sNew * sNew - sOld * sOld);
+      ssS += wb * (sNew * SNew - sOld * SOld);
+      sSS += wb * (SNew * SNew - SOld * SOld);
+      ssy += wb * y[b]! * (sNew - sOld);
+      sSy += wb * y[b]! * (SNew - SOld);
+      sI[b] = sNew;
+      SI[b] = SNew;
+    }
+    if (meansAtOrBelow[i]! < k) continue;
+    const heatLow = breakpoints[i]!;
+    const heatHigh = breakpoints[i + 1]!;
+    const meansBelowRow = n - meansAtOrAbove[i + 1]!;
+
+    // Cholesky factor of the heating block [1, s, S], and y projected on it (Σw·y = 0: y is centred).
+    const l00 = Math.sqrt(totalWeight);
+    const l10 = ss / l00;
+    const l20 = sS / l00;
+    const d11 = sss - l10 * l10;
+    if (!(d11 > PIVOT * sss)) continue;
+    const l11 = Math.sqrt(d11);
+    const l21 = (ssS - l20 * l10) / l11;
+    const d22 = sSS - l20 * l20 - l21 * l21;
+    if (!(d22 > PIVOT * sSS)) continue;
+    const l22 = Math.sqrt(d22);
+    const zy1 = ssy / l11;
+    const zy2 = (sSy - l21 * zy1) / l22;
+    const rowSst = totalSquares - zy1 * zy1 - zy2 * zy2;
+
+    // The row's cooling state starts at the heating interval; its first cooling interval is i + 1.
+    let xsQ = 0, xsR = 0, xSQ = 0, xSR = 0;
+    for (let b = 0; b < n; b++) {
+      const ws = w[b]! * sI[b]!;
+      const wS = w[b]! * SI[b]!;
+      const q = mean[b]! - SI[b]!;
+      const r = 1 - sI[b]!;
+      xsQ += ws * q;
+      xsR += ws * r;
+      xSQ += wS * q;
+      xSR += wS * r;
+    }
+    bound.reset();
+    let included = 0;
+
+    for (let j = i + 1; j + 1 < count; j++) {
+      for (let d = dayStart[j]!; d < dayStart[j + 1]!; d++) {
+        const b = dayBill[d]!;
+        const wq = w[b]! * dayTempShare[d]!;
+        const wr = w[b]! * dayShare[d]!;
+        xsQ -= sI[b]! * wq;
+        xsR -= sI[b]! * wr;
+        xSQ -= SI[b]! * wq;
+        xSR -= SI[b]! * wr;
+      }
+      if (meansAtOrAbove[j + 1]! < k) break;
+      if (meansAtOrBelow[j]! - meansBelowRow < k) continue;
+
+      // Row bound: readings whose every day is at or below the cooling interval see only the heating hinge.
+      if (best !== null) {
+        while (included < n && days.maxTemp[byMax[included]!]! <= breakpoints[j]!) {
+          const b = byMax[included]!;
+          bound.add(w[b]!, sI[b]!, SI[b]!, y[b]!);
+          included++;
+        }
+        if (bound.sse() > bestSse + slack) break;
+      }
+
+      // The free five-column fit on [1, s, S, Q, r] through the Schur complement of the heating block.
+      const zq0 = cooling.q[j]! / l00;
+      const zq1 = (xsQ - l10 * zq0) / l11;
+      const zq2 = (xSQ - l20 * zq0 - l21 * zq1) / l22;
+      const zr0 = cooling.r[j]! / l00;
+      const zr1 = (xsR - l10 * zr0) / l11;
+      const zr2 = (xSR - l20 * zr0 - l21 * zr1) / l22;
+      const a11 = cooling.qq[j]! - zq0 * zq0 - zq1 * zq1 - zq2 * zq2;
+      const a12 = cooling.qr[j]! - zq0 * zr0 - zq1 * zr1 - zq2 * zr2;
+      const a22 = cooling.rr[j]! - zr0 * zr0 - zr1 * zr1 - zr2 * zr2;
+      const b1 = cooling.qy[j]! - zq1 * zy1 - zq2 * zy2;
+      const b2 = cooling.ry[j]! - zr1 * zy1 - zr2 * zy2;
+      const det = a11 * a22 - a12 * a12;
+      if (!(det > PIVOT * cooling.qq[j]! * cooling.rr[j]!)) continue;
+      const relaxed = Math.max(0, rowSst - (a22 * b1 * b1 - 2 * a12 * b1 * b2 + a11 * b2 * b2) / det);
+      if (relaxed > bestSse + slack) continue;
+
+      // Coefficients of the relaxation: the cooling pair from the Schur system, the heating block by back-substitution.
+      const betaQ = (a22 * b1 - a12 * b2) / det;
+      const betaR = (a11 * b2 - a12 * b1) / det;
+      coefficients[2] = (zy2 - zq2 * betaQ - zr2 * betaR) / l22;
+      coefficients[1] = (zy1 - zq1 * betaQ - zr1 * betaR - l21 * coefficients[2]!) / l11;
+      coefficients[0] = (-zq0 * betaQ - zr0 * betaR - l10 * coefficients[1]! - l20 * coefficients[2]!) / l00;
+      coefficients[3] = betaQ;
+      coefficients[4] = betaR;
+      pair.set(0, 0, totalWeight);
+      pair.set(0, 1, ss);
+      pair.set(0, 2, sS);
+      pair.set(0, 3, cooling.q[j]!);
+      pair.set(0, 4, cooling.r[j]!);
+      pair.set(0, 5, 0);
+      pair.set(1, 1, sss);
+      pair.set(1, 2, ssS);
+      pair.set(1, 3, xsQ);
+      pair.set(1, 4, xsR);
+      pair.set(1, 5, ssy);
+      pair.set(2, 2, sSS);
+      pair.set(2, 3, xSQ);
+      pair.set(2, 4, xSR);
+      pair.set(2, 5, sSy);
+      pair.set(3, 3, cooling.qq[j]!);
+      pair.set(3, 4, cooling.qr[j]!);
+      pair.set(3, 5, cooling.qy[j]!);
+      pair.set(4, 4, cooling.rr[j]!);
+      pair.set(4, 5, cooling.ry[j]!);
+      pair.set(5, 5, totalSquares);
+      const solved = solvePair(pair, heatLow, heatHigh, breakpoints[j]!, breakpoints[j + 1]!, relaxed, coefficients);
+      if (solved && solved.sse < bestSse) {
+        best = solved;
+        bestSse = solved.sse;
+      }
+    }
+  }
+  return best;
+}

@@ -1,0 +1,111 @@
+/**
+ * The plain reference the exact day-resolved search is checked and
+ * benchmarked against: every changepoint (pair) on a fixed temperature grid,
+ * each reading's degree-days per day computed from its days at that base,
+ * a weighted least-squares refit at each, then a local polish of the best
+ * grid point (golden-section steps on each changepoint within one grid step).
+ * Deliberately simple and slow. The feasibility rule is the engine's: every
+ * segment keeps at least k readings, a reading counted by its mean
+ * temperature (one on a changepoint counts in both).
+ */
+import { weightedLeastSquares } from '../../src/engine/fit/wls.js';
+import { periodDesignRow } from '../../src/engine/fit/shape-model.js';
+import type { Period } from '../../src/engine/types.js';
+
+export interface DayGridOptimum {
+  heating: number | null;
+  cooling: number | null;
+  sse: number;
+}
+
+type Shape = '3PC' | '3PH' | '4P' | '5P';
+
+function feasible(means: readonly number[], k: number, shape: Shape, cH: number | null, cC: number | null): boolean {
+  const low = cH ?? cC!;
+  const high = cC ?? cH!;
+  if (shape === '5P' && !(low <= high)) return false;
+  const atOrBelow = means.filter((v) => v <= low).length;
+  const atOrAbove = means.filter((v) => v >= high).length;
+  if (atOrBelow < k || atOrAbove < k) return false;
+  if (shape === '5P') return means.filter((v) => v >= low && v <= high).length >= k;
+  return true;
+}
+
+/** SSE of the day-resolved shape with its changepoints fixed, or +∞ where infeasible or singular. */
+export function dayResolvedSse(shape: Shape, periods: readonly Period[], cH: number | null, cC: number | null, k: number): number {
+  const means = periods.map((p) => p.meanTemp);
+  if (!feasible(means, k, shape, cH, cC)) return Number.POSITIVE_INFINITY;
+  const changepoints = { heating: cH, cooling: cC };
+  const design = periods.map((p) => periodDesignRow(shape, changepoints, p, 'daily'));
+  const fit = weightedLeastSquares(
+    design,
+    periods.map((p) => p.usePerDay),
+    periods.map((p) => p.days),
+  );
+  return fit?.sse ?? Number.POSITIVE_INFINITY;
+}
+
+function goldenMinimum(f: (x: number) => number, low: number, high: number, iterations: number): { x: number; value: number } {
+  const ratio = (Math.sqrt(5) - 1) / 2;
+  let a = low;
+  let b = high;
+  let c = b - ratio * (b - a);
+  let d = a + ratio * (b - a);
+  let fc = f(c);
+  let fd = f(d);
+  for (let i = 0; i < iterations; i++) {
+    if (fc < fd) {
+      b = d;
+      d = c;
+      fd = fc;
+      c = b - ratio * (b - a);
+      fc = f(c);
+    } else {
+      a = c;
+      c = d;
+      fc = fd;
+      d = a + ratio * (b - a);
+      fd = f(d);
+    }
+  }
+  return fc < fd ? { x: c, value: fc } : { x: d, value: fd };
+}
+
+/** Grid over the range of the days' temperatures, then a golden-section polish around the best point. */
+export function dayResolvedGridSearch(shape: Shape, periods: readonly Period[], step: number, k: number): DayGridOptimum | null {
+  const temps = periods.flatMap((p) => [...p.dayTemps!]);
+  const low = Math.floor(Math.min(...temps) / step);
+  const high = Math.ceil(Math.max(...temps) / step);
+  const grid = Array.from({ length: high - low + 1 }, (_, i) => (low + i) * step);
+  let best: DayGridOptimum | null = null;
+  const offer = (cH: number | null, cC: number | null): void => {
+    const sse = dayResolvedSse(shape, periods, cH, cC, k);
+    if (Number.isFinite(sse) && (!best || sse < best.sse)) best = { heating: cH, cooling: cC, sse };
+  };
+  if (shape === '5P') {
+    for (let i = 0; i < grid.length; i++) for (let j = i; j < grid.length; j++) offer(grid[i]!, grid[j]!);
+  } else {
+    for (const c of grid) offer(shape === '3PC' ? null : c, shape === '3PH' ? null : c);
+  }
+  if (!best) return null;
+  // Polish: golden-section on each changepoint in turn, within one grid step of where it is.
+  let current: DayGridOptimum = best;
+  for (let round = 0; round < (shape === '5P' ? 4 : 1); round++) {
+    if (current.heating !== null) {
+      const cC = shape === '4P' ? null : current.cooling;
+      const result = goldenMinimum(
+        (h) => dayResolvedSse(shape, periods, h, shape === '4P' ? h : cC, k),
+        current.heating - step,
+        current.heating + step,
+        60,
+      );
+      if (result.value < current.sse) current = { heating: result.x, cooling: shape === '4P' ? result.x : current.cooling, sse: result.value };
+    }
+    if (current.cooling !== null && shape !== '4P') {
+      const cH = current.heating;
+      const result = goldenMinimum((c) => dayResolvedSse(shape, periods, cH, c, k), current.cooling - step, current.cooling + step, 60);
+      if (result.value < current.sse) current = { heating: current.heating, cooling: result.x, sse: result.value };
+    }
+  }
+  return current;
+}
