@@ -21,6 +21,7 @@ import {
 } from './shape-model.js';
 import { energyResiduals, goodnessOfFit } from '../stats/goodness-of-fit.js';
 import { durbinWatson, lagOneAutocorrelation } from '../stats/autocorrelation.js';
+import { ar1VarianceInflation } from '../stats/autocorrelation-inflation.js';
 
 export interface Coefficient {
   name: string;
@@ -28,6 +29,13 @@ export interface Coefficient {
   estimate: number;
   standardError: number;
   tStat: number;
+  /**
+   * The t-statistic with the residuals' lag-1 autocorrelation allowed for:
+   * tStat / √κ, κ the coefficient's variance inflation under AR(1) errors
+   * (stats/autocorrelation-inflation.ts). Equal to tStat when the residuals
+   * are not positively autocorrelated.
+   */
+  tStatAdjusted: number;
 }
 
 export interface ChangepointEstimate {
@@ -64,6 +72,14 @@ export interface ShapeFit {
   rawCoefficients: number[];
   /** (XᵀWX)⁻¹ with the changepoints fixed. */
   unscaledCovariance: number[][];
+  /**
+   * Each coefficient's variance inflation κ under AR(1) errors with the
+   * residuals' lag-1 autocorrelation (1 when it is not positive), in design
+   * order. Fits stored before it existed lack it.
+   */
+  varianceInflation?: number[];
+  /** The lag-1 autocorrelation κ and tStatAdjusted were computed with (the fit's own, or the noise's as the shape choice estimates it). */
+  inflationAutocorrelation?: number;
   /** σ² = sse / (n − p). */
   residualVariance: number;
   coefficients: Coefficient[];
@@ -134,6 +150,9 @@ export function fitShape(periods: readonly Period[], model: ModelName, minPoints
   const regression = weightedLeastSquares(design, y, w, n - p);
   if (!regression) return fail('the regression is singular (too little spread in temperature)');
 
+  const residuals = energyResiduals({ quantity: ordered.map((q) => q.quantity), days: w, fittedPerDay: regression.fitted, p });
+  const autocorrelation = lagOneAutocorrelation(residuals);
+  const inflation = ar1VarianceInflation(design, w, autocorrelation);
   const names = coefficientNames(model);
   const coefficients: Coefficient[] = regression.coefficients.map((raw, j) => {
     const sign = slopeSign(model, j);
@@ -142,6 +161,7 @@ export function fitShape(periods: readonly Period[], model: ModelName, minPoints
       estimate: sign * raw,
       standardError: regression.standardErrors[j]!,
       tStat: sign * regression.tStats[j]!,
+      tStatAdjusted: (sign * regression.tStats[j]!) / Math.sqrt(inflation[j]!),
     };
   });
   const derivatives = ordered.map((period) => changepointDerivatives(model, changepoints, regression.coefficients, period, form));
@@ -151,7 +171,6 @@ export function fitShape(periods: readonly Period[], model: ModelName, minPoints
   for (const c of coefficients) parameters[c.name] = c.estimate;
   for (const c of changepointEstimates) parameters[c.name] = c.estimate;
 
-  const residuals = energyResiduals({ quantity: ordered.map((q) => q.quantity), days: w, fittedPerDay: regression.fitted, p });
   const fit = goodnessOfFit({ quantity: ordered.map((q) => q.quantity), days: w, fittedPerDay: regression.fitted, p });
   return {
     ok: true,
@@ -162,6 +181,8 @@ export function fitShape(periods: readonly Period[], model: ModelName, minPoints
     changepoints,
     rawCoefficients: regression.coefficients,
     unscaledCovariance: regression.unscaledCovariance,
+    varianceInflation: inflation,
+    inflationAutocorrelation: Math.max(0, Number.isFinite(autocorrelation) ? autocorrelation : 0),
     residualVariance: regression.residualVariance,
     coefficients,
     changepointEstimates,
@@ -170,7 +191,7 @@ export function fitShape(periods: readonly Period[], model: ModelName, minPoints
     temperatureRange: { min: Math.min(...x), max: Math.max(...x) },
     dayTemperatureRange: form === 'daily' ? dayRange(ordered) : null,
     sse: regression.sse,
-    stats: { ...fit, autocorrelation: lagOneAutocorrelation(residuals), durbinWatson: durbinWatson(residuals) },
+    stats: { ...fit, autocorrelation, durbinWatson: durbinWatson(residuals) },
     residuals,
   };
 }
@@ -269,4 +290,28 @@ function estimateChangepointErrors(
     const variance = inverse ? residualVariance * inverse[index]![index]! : Number.NaN;
     return { name, estimate: estimates[j]!, standardError: variance > 0 ? Math.sqrt(variance) : null };
   });
+}
+
+/**
+ * The fit with its variance inflation and adjusted t-statistics recomputed
+ * for a given residual autocorrelation: the shape choice uses the noise's
+ * own persistence (from the best-fitting shape) for every candidate, so
+ * that a shape's misfit, which also shows up as autocorrelated residuals, is
+ * not read as noise.
+ */
+export function withAutocorrelation(fit: ShapeFit, periods: readonly Period[], rho: number): ShapeFit {
+  const ordered = [...periods].sort((a, b) => (a.start < b.start ? -1 : a.start > b.start ? 1 : 0));
+  const form = fitTemperatureForm(fit);
+  const design = ordered.map((period) => periodDesignRow(fit.model, fit.changepoints, period, form));
+  const inflation = ar1VarianceInflation(
+    design,
+    ordered.map((period) => period.days),
+    rho,
+  );
+  return {
+    ...fit,
+    varianceInflation: inflation,
+    inflationAutocorrelation: Math.max(0, Number.isFinite(rho) ? rho : 0),
+    coefficients: fit.coefficients.map((c, j) => ({ ...c, tStatAdjusted: c.tStat / Math.sqrt(inflation[j]!) })),
+  };
 }

@@ -73,9 +73,18 @@ export interface HingeOptimum {
  *
  * Writes the optimum into `out` and returns true, or returns false when the
  * hinge is a combination of F everywhere on the interval. (An out-parameter
- * because the search calls this once per breakpoint interval.)
+ * because the search calls this once per breakpoint interval.) `onPoint`, if
+ * given, sees every point evaluated, in increasing τ: the SSE profile that
+ * the searched-changepoint tests read.
  */
-export function bestHingeOnInterval(gram: Float64Array, f: 1 | 2, low: number, high: number, out: HingeOptimum): boolean {
+export function bestHingeOnInterval(
+  gram: Float64Array,
+  f: 1 | 2,
+  low: number,
+  high: number,
+  out: HingeOptimum,
+  onPoint?: (tau: number, sse: number) => void,
+): boolean {
   const m = f + 3;
   const u = f;
   const v = f + 1;
@@ -117,18 +126,20 @@ export function bestHingeOnInterval(gram: Float64Array, f: 1 | 2, low: number, h
 
   let bestTau = Number.NaN;
   let bestSse = Number.POSITIVE_INFINITY;
-  // The two ends, then the stationary point when it lies strictly inside.
+  // The low end, the stationary point when it lies strictly inside, the high end.
   const slopeDenominator = b * B - a * C;
   const stationary = slopeDenominator !== 0 ? (a * B - b * A) / slopeDenominator : Number.NaN;
-  const candidates = stationary > low && stationary < high ? 3 : high !== low ? 2 : 1;
-  for (let c = 0; c < candidates; c++) {
-    const tau = c === 0 ? low : c === 1 ? high : stationary;
+  const inside = stationary > low && stationary < high;
+  for (let c = 0; c < 3; c++) {
+    if ((c === 1 && !inside) || (c === 2 && high === low)) continue;
+    const tau = c === 0 ? low : c === 1 ? stationary : high;
     const denominator = A + 2 * B * tau + C * tau * tau;
     // Norm of the hinge before F is taken out: a hinge almost inside span F carries no information.
     const raw = guu + 2 * tau * guv + tau * tau * gvv;
     if (!(denominator > PIVOT_TOLERANCE * raw)) continue;
     const numerator = a + b * tau;
     const sse = Math.max(0, sst - (numerator * numerator) / denominator);
+    if (onPoint) onPoint(tau, sse);
     if (sse < bestSse) {
       bestSse = sse;
       bestTau = tau;

@@ -26,3 +26,21 @@ export function fPValue(f: number, df1: number, df2: number): number {
   if (!Number.isFinite(f)) return f > 0 ? 0 : Number.NaN;
   return 1 - jStat.centralF.cdf(f, df1, df2);
 }
+
+/** Two-sided standard normal quantile: P(|Z| ≤ z) = confidence. */
+export function twoSidedNormalCritical(confidence: number): number {
+  if (!(confidence > 0 && confidence < 1)) throw new RangeError(`confidence must lie in (0, 1), got ${confidence}`);
+  return jStat.normal.inv((1 + confidence) / 2, 0, 1);
+}
+
+/**
+ * The χ² statistic with one degree of freedom whose upper tail is `p`:
+ * (Φ⁻¹(1 − p/2))². Infinity for p at or below the smallest tail double
+ * arithmetic resolves here (1e-15).
+ */
+export function chiSquareOneForTail(p: number): number {
+  if (!(p > 1e-15)) return Number.POSITIVE_INFINITY;
+  if (p >= 1) return 0;
+  const z = jStat.normal.inv(1 - p / 2, 0, 1);
+  return z * z;
+}

@@ -77,8 +77,12 @@ function coordinateDescent(days: BillDays, k: number): FivePointOptimum | null {
   return Number.isFinite(sse) ? { heating, cooling, sse } : null;
 }
 
-/** The best position of one changepoint of a 5P with the other held where it is. */
-export function moveOneHinge(days: BillDays, side: Side, heating: number, cooling: number, k: number): HingeOptimum | null {
+/**
+ * The intervals where one changepoint of a 5P may sit while the other is
+ * held at `heating` or `cooling` (centred): the moving one on its side of the
+ * fixed one, and every segment keeping k readings.
+ */
+export function movingHingeMask(days: BillDays, side: Side, heating: number, cooling: number, k: number): Uint8Array {
   const { n, meansAtOrBelow, meansAtOrAbove, breakpoints } = days;
   const allowed = new Uint8Array(breakpoints.length);
   if (side === 'heating') {
@@ -88,15 +92,22 @@ export function moveOneHinge(days: BillDays, side: Side, heating: number, coolin
       const flat = atOrBelowCooling - (n - meansAtOrAbove[j + 1]!);
       allowed[j] = breakpoints[j + 1]! <= cooling && meansAtOrBelow[j]! >= k && flat >= k && coolCount >= k ? 1 : 0;
     }
-    return sweepHinge(days, 'heating', hingeColumn(days, 'cooling', cooling), allowed);
+  } else {
+    const heatCount = countMeans(days, (x) => x <= heating);
+    const belowHeating = countMeans(days, (x) => x < heating);
+    for (let j = 0; j + 1 < breakpoints.length; j++) {
+      const flat = meansAtOrBelow[j]! - belowHeating;
+      allowed[j] = breakpoints[j]! >= heating && meansAtOrAbove[j + 1]! >= k && flat >= k && heatCount >= k ? 1 : 0;
+    }
   }
-  const heatCount = countMeans(days, (x) => x <= heating);
-  const belowHeating = countMeans(days, (x) => x < heating);
-  for (let j = 0; j + 1 < breakpoints.length; j++) {
-    const flat = meansAtOrBelow[j]! - belowHeating;
-    allowed[j] = breakpoints[j]! >= heating && meansAtOrAbove[j + 1]! >= k && flat >= k && heatCount >= k ? 1 : 0;
-  }
-  return sweepHinge(days, 'cooling', hingeColumn(days, 'heating', heating), allowed);
+  return allowed;
+}
+
+/** The best position of one changepoint of a 5P with the other held where it is. */
+export function moveOneHinge(days: BillDays, side: Side, heating: number, cooling: number, k: number): HingeOptimum | null {
+  const allowed = movingHingeMask(days, side, heating, cooling, k);
+  const fixed = side === 'heating' ? hingeColumn(days, 'cooling', cooling) : hingeColumn(days, 'heating', heating);
+  return sweepHinge(days, side, fixed, allowed);
 }
 
 /** Sums over readings of the cooling columns Q and r, and with y, at every breakpoint interval. */

@@ -26,7 +26,13 @@ export function bothSidesFeasible(days: BillDays, k: number): Uint8Array {
  * share of its days at or below the interval, S their temperatures summed
  * over its days). Each day passed adds 1/m to s and T/m to S, for both.
  */
-export function sweepHinge(days: BillDays, side: Side, extra: Float64Array | null, allowed: Uint8Array): HingeOptimum | null {
+export function sweepHinge(
+  days: BillDays,
+  side: Side,
+  extra: Float64Array | null,
+  allowed: Uint8Array,
+  onPoint?: (tau: number, sse: number) => void,
+): HingeOptimum | null {
   const { n, w, y, mean, breakpoints, dayStart, dayBill, dayShare, dayTempShare } = days;
   const f = extra ? 2 : 1;
   const m = f + 3;
@@ -108,7 +114,7 @@ export function sweepHinge(days: BillDays, side: Side, extra: Float64Array | nul
     gram[iv * m + iv] = gvv;
     gram[iu * m + iy] = gram[iy * m + iu] = guy;
     gram[iv * m + iy] = gram[iy * m + iv] = gvy;
-    if (bestHingeOnInterval(gram, f, breakpoints[j]!, breakpoints[j + 1]!, candidate) && candidate.sse < best.sse) {
+    if (bestHingeOnInterval(gram, f, breakpoints[j]!, breakpoints[j + 1]!, candidate, onPoint) && candidate.sse < best.sse) {
       best.tau = candidate.tau;
       best.sse = candidate.sse;
       found = true;
