@@ -80,29 +80,38 @@ export const CLIMATES = {
 /** Daily weather for `days` days from `start`, rounded to 0.1° as a station would report it. */
 export function dailyWeather(climate: Climate, start: string, days: number, random: Random): DailyTemperature[] {
   const startDayOfYear = daysBetween(`${start.slice(0, 4)}-01-01`, start);
-  const innovation = climate.dailySpread * Math.sqrt(1 - climate.persistence ** 2);
-  let departure = climate.dailySpread * random.normal();
-  const weather: DailyTemperature[] = [];
-  for (let d = 0; d < days; d++) {
-    const phase = (2 * Math.PI * (startDayOfYear + d - climate.coldestDay)) / 365.25;
-    const temp = climate.mean - climate.amplitude * Math.cos(phase) + departure;
-    weather.push({ date: addDays(start, d), temp: Math.round(temp * 10) / 10 });
-    departure = climate.persistence * departure + innovation * random.normal();
+  const departures = ar1Series(days, climate.dailySpread, climate.persistence, random);
+  return departures.map((departure, d) => {
+    const temp = seasonalTemperature(climate, startDayOfYear + d) + departure;
+    return { date: addDays(start, d), temp: Math.round(temp * 10) / 10 };
+  });
+}
+
+/** The climate's seasonal curve on day `dayOfYear` (0 = 1 Jan; later years continue the count): no day-to-day weather. */
+export function seasonalTemperature(climate: Climate, dayOfYear: number): number {
+  return climate.mean - climate.amplitude * Math.cos((2 * Math.PI * (dayOfYear - climate.coldestDay)) / 365.25);
+}
+
+/**
+ * A stationary AR(1) series: x₀ ~ N(0, sd²), xₜ = φ·xₜ₋₁ + sd·√(1 − φ²)·εₜ,
+ * so every value has standard deviation `sd` and lag-1 correlation φ. Draws
+ * length + 1 normals from `random` (the last one unused), in order.
+ */
+export function ar1Series(length: number, sd: number, persistence: number, random: Random): number[] {
+  if (!(persistence > -1 && persistence < 1)) throw new RangeError(`persistence must lie in (−1, 1), got ${persistence}`);
+  const innovation = sd * Math.sqrt(1 - persistence * persistence);
+  const series: number[] = [];
+  let current = sd * random.normal();
+  for (let i = 0; i < length; i++) {
+    series.push(current);
+    current = persistence * current + innovation * random.normal();
   }
-  return weather;
+  return series;
 }
 
 /** Day-to-day departures of use from the signature: AR(1) with the building's spread and persistence. */
 function useDepartures(building: Building, days: number, random: Random): number[] {
-  const rho = building.noisePersistence;
-  const innovation = building.dailyNoise * Math.sqrt(1 - rho * rho);
-  const departures: number[] = [];
-  let current = building.dailyNoise * random.normal();
-  for (let d = 0; d < days; d++) {
-    departures.push(current);
-    current = rho * current + innovation * random.normal();
-  }
-  return departures;
+  return ar1Series(days, building.dailyNoise, building.noisePersistence, random);
 }
 
 /** One reading per day: the building's use on that day's weather plus noise. */
