@@ -77,6 +77,14 @@ export const DEFAULT_MIN_POINTS_PER_SEGMENT = 3;
 
 export type Verdict = 'selected' | 'accepted' | 'rejected' | 'not-fitted';
 
+/**
+ * A candidate whose out-of-sample CV(RMSE) exceeds its in-sample CV(RMSE) by
+ * more than this factor is flagged as over-fitted (a limit of our own; for a
+ * well-specified shape the ratio is about √(1 + p/n), 1.1 for 5 parameters
+ * and 36 periods).
+ */
+export const OVERFIT_RATIO = 1.5;
+
 export interface Candidate {
   model: ModelName;
   verdict: Verdict;
@@ -90,6 +98,8 @@ export interface Candidate {
   fit: ShapeFit | null;
   /** Small-sample Akaike criterion n·ln(SSE/n) + 2p + 2p(p+1)/(n − p − 1), for information. */
   aicc: number | null;
+  /** Out-of-sample CV(RMSE) far above the in-sample one (OVERFIT_RATIO): the shape fits its own periods better than it predicts others. */
+  overFitted: boolean;
   guideline14: Guideline14Check | null;
 }
 
@@ -217,7 +227,7 @@ interface ScreeningRules {
 function screen(result: ShapeFitResult, rules: ScreeningRules, limits: Guideline14Limits): Candidate {
   const { alpha, minPoints } = rules;
   if (!result.ok) {
-    return { model: result.model, verdict: 'not-fitted', accepted: false, reasons: [`could not be fitted: ${result.reason}`], n: result.n, p: result.p, fit: null, aicc: null, guideline14: null };
+    return { model: result.model, verdict: 'not-fitted', accepted: false, reasons: [`could not be fitted: ${result.reason}`], n: result.n, p: result.p, fit: null, aicc: null, overFitted: false, guideline14: null };
   }
   const fit = result;
   const reasons: string[] = [];
@@ -276,6 +286,14 @@ function screen(result: ShapeFitResult, rules: ScreeningRules, limits: Guideline
 
   const accepted = reasons.length === 0;
   if (accepted) reasons.push('passes the sign, significance and points-per-segment checks');
+  const outOfSample = fit.stats.outOfSample;
+  const overFitted = outOfSample !== undefined && outOfSample.cvrmse > OVERFIT_RATIO * fit.stats.cvrmse;
+  if (overFitted) {
+    reasons.push(
+      `flagged as over-fitted: out-of-sample CV(RMSE) ${(outOfSample!.cvrmse * 100).toFixed(1)}% is ${(outOfSample!.cvrmse / fit.stats.cvrmse).toFixed(2)}× the in-sample ${(fit.stats.cvrmse * 100).toFixed(1)}% (${outOfSample!.method}; flagged above ${OVERFIT_RATIO}×)`,
+    );
+  }
+  if (outOfSample?.unavailable) reasons.push(`no out-of-sample statistics: ${outOfSample.unavailable}`);
   return {
     model: fit.model,
     verdict: accepted ? 'accepted' : 'rejected',
@@ -285,6 +303,7 @@ function screen(result: ShapeFitResult, rules: ScreeningRules, limits: Guideline
     p: fit.p,
     fit,
     aicc: aicc(fit),
+    overFitted,
     guideline14: guideline14Check(fit.stats, limits),
   };
 }

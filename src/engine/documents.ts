@@ -6,6 +6,7 @@
 import type { BaselineChoice, Candidate } from './choose.js';
 import type { ExcludedPeriod, ModelName, TemperatureForm } from './types.js';
 import type { SavingsResult } from './savings.js';
+import type { FitStatistics } from './fit/fit-shape.js';
 
 export interface CandidateDocument {
   model: ModelName;
@@ -14,7 +15,7 @@ export interface CandidateDocument {
   reasons: string[];
   /** Every parameter by name (slopes as dy/dx, use per day per degree). */
   parameters: Record<string, number>;
-  coefficients: { name: string; estimate: number; standardError: number; tStat: number }[];
+  coefficients: { name: string; estimate: number; standardError: number; tStat: number; tStatAdjusted: number }[];
   changepoints: { name: string; estimate: number; standardError: number | null }[];
   segmentCounts: Record<string, number>;
   temperatureRange: { min: number; max: number } | null;
@@ -22,6 +23,8 @@ export interface CandidateDocument {
   n: number;
   p: number;
   aicc: number | null;
+  /** Out-of-sample CV(RMSE) far above the in-sample one (see choose.ts). */
+  overFitted: boolean;
   stats: {
     r2: number;
     adjustedR2: number;
@@ -30,6 +33,7 @@ export interface CandidateDocument {
     nmbe: number;
     autocorrelation: number;
     durbinWatson: number;
+    outOfSample?: FitStatistics['outOfSample'];
   } | null;
   guideline14: Candidate['guideline14'];
 }
@@ -59,6 +63,7 @@ export function candidateDocument(candidate: Candidate): CandidateDocument {
     n: candidate.n,
     p: candidate.p,
     aicc: candidate.aicc,
+    overFitted: candidate.overFitted,
     stats: fit ? { ...fit.stats } : null,
     guideline14: candidate.guideline14,
   };

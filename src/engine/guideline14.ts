@@ -39,15 +39,29 @@ export interface Guideline14Check {
   nmbe: { value: number; limit: number; pass: boolean };
   pass: boolean;
   source: string;
+  /**
+   * The same statistics out of sample (stats/out-of-sample.ts), beside the
+   * in-sample values the Guideline defines; null where not computed.
+   */
+  outOfSample?: { cvrmse: number; nmbe: number; method: string } | null;
+  /** What the in-sample check can and cannot show. */
+  note?: string;
 }
 
-export function guideline14Check(stats: Pick<FitStatistics, 'cvrmse' | 'nmbe'>, limits: Guideline14Limits): Guideline14Check {
+/** Why the in-sample NMBE check always passes for these fits. */
+export const IN_SAMPLE_NMBE_NOTE =
+  'in-sample NMBE of a least-squares fit with an intercept is zero by construction, so that check cannot fail; the out-of-sample NMBE beside it can';
+
+export function guideline14Check(stats: Pick<FitStatistics, 'cvrmse' | 'nmbe' | 'outOfSample'>, limits: Guideline14Limits): Guideline14Check {
   const cvPass = stats.cvrmse <= limits.cvrmse;
   const nmbePass = Math.abs(stats.nmbe) <= limits.nmbe;
+  const outOfSample = stats.outOfSample;
   return {
     cvrmse: { value: stats.cvrmse, limit: limits.cvrmse, pass: cvPass },
     nmbe: { value: stats.nmbe, limit: limits.nmbe, pass: nmbePass },
     pass: cvPass && nmbePass,
     source: limits.source,
+    outOfSample: outOfSample ? { cvrmse: outOfSample.cvrmse, nmbe: outOfSample.nmbe, method: outOfSample.method } : null,
+    note: IN_SAMPLE_NMBE_NOTE,
   };
 }

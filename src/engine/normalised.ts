@@ -14,6 +14,10 @@ import { fitTemperatureForm, type ShapeFit } from './fit/fit-shape.js';
 import { alignPeriods } from './periods.js';
 import { chooseBaseline } from './choose.js';
 import { normalPeriodsUse, normalYearMonths, type NormalPeriod } from './normal-year.js';
+import { designRow } from './fit/shape-model.js';
+import { quadraticForm } from './fit/matrix.js';
+import { effectiveSampleSize } from './stats/savings-uncertainty.js';
+import { twoSidedTCritical } from './stats/distributions.js';
 
 /**
  * A reporting-period model needs a full cycle of seasons before it says
@@ -37,6 +41,13 @@ export type NormalisedResult =
       /** How the normal year was fed to the models: day by day (day-resolved models, daily data) or as calendar months (mean-form models of bills). */
       normalYearAs: 'months' | 'days';
       outsideRangeShare: number;
+      /**
+       * The band of the normalised saving: both models' prediction variance
+       * of their normal-year use (each (n/n′)·σ²·cᵀ(XᵀWX)⁻¹c, c the sum of
+       * the normal year's design rows), added, at the stated confidence.
+       * Parameter uncertainty only: a typical year has no noise of its own.
+       */
+      uncertainty: { confidence: number; absolute: number; fractional: number | null };
     }
   | { available: false; reason: string };
 
@@ -45,7 +56,7 @@ export function normalisedSavings(
   reportingReadings: readonly Reading[],
   weather: readonly DailyTemperature[] | ReadonlyMap<string, number>,
   normalTemps: readonly number[],
-  options: { minCoverage?: number } = {},
+  options: { minCoverage?: number; confidence?: number } = {},
 ): NormalisedResult {
   const { periods } = alignPeriods(reportingReadings, weather, options);
   const days = periods.reduce((total, p) => total + p.days, 0);
@@ -81,6 +92,10 @@ export function normalisedSavings(
     )
     .reduce((days, p) => days + p.days, 0);
   const savings = base.use - reporting.use;
+  const confidence = options.confidence ?? 0.68;
+  const variance = normalUseVariance(baseline, normal) + normalUseVariance(reportingFit, normal);
+  const t = twoSidedTCritical(confidence, Math.min(baseline.n - baseline.p, reportingFit.n - reportingFit.p));
+  const absolute = t * Math.sqrt(variance);
   return {
     available: true,
     baselineUse: base.use,
@@ -91,5 +106,23 @@ export function normalisedSavings(
     reportingPeriods: periods.length,
     normalYearAs: asMonths ? 'months' : 'days',
     outsideRangeShare: normalTemps.length > 0 ? outside / normalTemps.length : 0,
+    uncertainty: { confidence, absolute, fractional: savings !== 0 ? absolute / Math.abs(savings) : null },
   };
+}
+
+/**
+ * Variance of a model's predicted use over the normal year's periods:
+ * (n/n′)·σ²·cᵀ(XᵀWX)⁻¹c with c = Σ days × design row (changepoints held
+ * where the fit put them), as for the exact savings variance but with no
+ * noise term.
+ */
+function normalUseVariance(fit: ShapeFit, periods: readonly NormalPeriod[]): number {
+  const width = fit.unscaledCovariance.length;
+  const c = new Array<number>(width).fill(0);
+  for (const period of periods) {
+    const row = designRow(fit.model, fit.changepoints, period.meanTemp);
+    for (let j = 0; j < width; j++) c[j]! += period.days * row[j]!;
+  }
+  const nOverNPrime = fit.n / effectiveSampleSize(fit.n, fit.stats.autocorrelation);
+  return nOverNPrime * fit.residualVariance * quadraticForm(fit.unscaledCovariance, c);
 }

@@ -23,12 +23,15 @@ export async function migrateToLatest(db: Kysely<any>): Promise<string[]> {
   // On SQLite the migrator has no lock between processes: two processes
   // starting together on a new file can both try the same migration, and the
   // slower one fails ("table already exists"). Its retry then finds the
-  // migration recorded and has nothing left to do. PostgreSQL locks instead.
-  const attempts = schema === undefined ? SQLITE_ATTEMPTS : 1;
+  // migration recorded and has nothing left to do. PostgreSQL locks instead,
+  // but the migrator looks for its bookkeeping tables by listing the tables
+  // of every schema, and a schema dropped meanwhile by someone else (as test
+  // runs do) fails that listing; it is retried too.
+  const attempts = schema === undefined ? SQLITE_ATTEMPTS : POSTGRES_ATTEMPTS;
   for (let attempt = 1; ; attempt++) {
     const { error, results } = await migrator.migrateToLatest();
     if (!error) return (results ?? []).filter((r) => r.status === 'Success').map((r) => r.migrationName);
-    if (attempt >= attempts) {
+    if (attempt >= attempts || (schema !== undefined && !isConcurrentCatalogChange(error))) {
       const failed = results?.find((r) => r.status === 'Error')?.migrationName ?? 'unknown';
       throw new Error(`database migration ${failed} failed: ${error instanceof Error ? error.message : String(error)}`);
     }
@@ -37,3 +40,15 @@ export async function migrateToLatest(db: Kysely<any>): Promise<string[]> {
 }
 
 const SQLITE_ATTEMPTS = 5;
+const POSTGRES_ATTEMPTS = 5;
+
+/**
+ * A PostgreSQL error from the catalog changing under a query (another
+ * session dropped a schema or table that the listing was reading):
+ * invalid_schema_name (3F000), undefined_table (42P01), or an internal
+ * "cache lookup failed" (XX000).
+ */
+function isConcurrentCatalogChange(error: unknown): boolean {
+  const code = (error as { code?: unknown } | null)?.code;
+  return code === '3F000' || code === '42P01' || (code === 'XX000' && /cache lookup failed/.test(String((error as Error).message)));
+}

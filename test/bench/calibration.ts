@@ -342,7 +342,7 @@ say(
 const normalisedRows = normalisedWithoutRetrofit(nm);
 say(
   table(
-    ['class', 'noise', 'form', 'meters', 'available', `|F| > ${percent(NORMALISED_THRESHOLD, 0)}`, 'mean F ± SE'],
+    ['class', 'noise', 'form', 'meters', 'available', `|F| > ${percent(NORMALISED_THRESHOLD, 0)}`, 'mean F ± SE', 'band covers 0: 68%', '90%'],
     normalisedRows.map((r) => [
       r.meterClass,
       r.noise,
@@ -351,8 +351,10 @@ say(
       String(r.available),
       percent(r.beyondThreshold),
       `${signedPercent(r.meanFraction)} ± ${percent(r.standardError, 2)}`,
+      percent(r.covers68),
+      percent(r.covers90),
     ]),
-    [false, false, false, true, true, true, true],
+    [false, false, false, true, true, true, true, true, true],
   ),
 );
 say(`  (${lap()})`);

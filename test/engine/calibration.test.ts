@@ -5,12 +5,10 @@
  * the test: the saving is exactly 0, so any saving found is model-form
  * error. The full seeded study is `npm run bench:calibration`.
  *
- * Today's engine fits each bill against its mean temperature ('mean' form):
- * its model-form error is not zero (asserted below, sizes in the comments).
- * The day-resolved form ('daily': each bill against the mean of the daily
- * response over its days) reproduces noise-free data exactly; its
- * assertions wait in the skipped block until the engine honours
- * `temperatureForm`.
+ * Fitting each bill against its mean temperature ('mean' form) leaves a
+ * model-form error (asserted below, sizes in the comments). The day-resolved
+ * form ('daily', the default: each bill against the mean of the daily
+ * response over its days) reproduces noise-free data exactly.
  *
  * The last block checks the checker: the simulation's weather and noise
  * have the persistence and spread it states.
@@ -97,8 +95,7 @@ describe('noise-free invented buildings, no retrofit: the mean-temperature form'
   });
 });
 
-// Enable (remove `.skip`) when analyseBaseline honours temperatureForm: 'daily'.
-describe.skip('noise-free invented buildings, no retrofit: the day-resolved form (waits for temperatureForm)', () => {
+describe('noise-free invented buildings, no retrofit: the day-resolved form', () => {
   it.each(CASES)('$name: no false saving, an exact fit and the building recovered', (c) => {
     const { fit, savings, trueShapeFit } = runCase(c, 'daily');
     expect(Math.abs(savings.totals.savings)).toBeLessThanOrEqual(1e-6 * savings.totals.adjustedBaseline); // synthetic truth: 0

@@ -174,11 +174,18 @@ describe('monthly bills: the shape follows the weather seen (common practice)', 
      * The default screening reads a same-signed 4P as one rounded branch
      * (choose.ts), so the one-branch shape is chosen.
      */
-    it(`hot, ${months} bills → 3PC`, () => {
+    it(`hot, ${months} bills → the cooling branch, and a heating branch only where its days show it`, () => {
+      // The building heats below 55 °F; the hot climate has few such days, spread over a few winter
+      // bills. Day-resolved, those days can support a weak heating branch (measured when written over seeds 1–20 and both lengths:
+      // 5P on 1 of 40 seed-and-length runs, 3PC on the rest); the cooling branch is always found.
       for (const seed of SEEDS) {
         const fit = selectedFit(analyse(CLIMATES.hot, SAMPLE_BUILDING, { monthly: months }, seed));
-        expect(fit.model, `seed ${seed}`).toBe('3PC');
-        expect(branches(fit), `seed ${seed} ${JSON.stringify(fit.parameters)}`).toEqual({ heating: false, cooling: true });
+        expect(['3PC', '5P'], `seed ${seed}`).toContain(fit.model);
+        expect(branches(fit).cooling, `seed ${seed} ${JSON.stringify(fit.parameters)}`).toBe(true);
+        // synthetic truth: cooling 10 per degree above 68 °F
+        expect(fit.parameters.coolingSlope!, `seed ${seed}`).toBeGreaterThan(9);
+        expect(fit.parameters.coolingSlope!, `seed ${seed}`).toBeLessThan(11);
+        expect(Math.abs(fit.parameters.coolingChangepoint! - 68), `seed ${seed}`).toBeLessThan(1.5);
       }
     });
 

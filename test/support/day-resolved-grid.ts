@@ -5,8 +5,8 @@
  * a weighted least-squares refit at each, then a local polish of the best
  * grid point (golden-section steps on each changepoint within one grid step).
  * Deliberately simple and slow. The feasibility rule is the engine's: every
- * segment keeps at least k readings, a reading counted by its mean
- * temperature (one on a changepoint counts in both).
+ * segment keeps at least k readings' worth of days, each reading counted by
+ * the share of its days in the segment (a day on a changepoint in both).
  */
 import { weightedLeastSquares } from '../../src/engine/fit/wls.js';
 import { periodDesignRow } from '../../src/engine/fit/shape-model.js';
@@ -20,21 +20,23 @@ export interface DayGridOptimum {
 
 type Shape = '3PC' | '3PH' | '4P' | '5P';
 
-function feasible(means: readonly number[], k: number, shape: Shape, cH: number | null, cC: number | null): boolean {
+function weight(periods: readonly Period[], test: (t: number) => boolean): number {
+  return periods.reduce((sum, p) => sum + p.dayTemps!.filter(test).length / p.dayTemps!.length, 0);
+}
+
+function feasible(periods: readonly Period[], k: number, shape: Shape, cH: number | null, cC: number | null): boolean {
   const low = cH ?? cC!;
   const high = cC ?? cH!;
   if (shape === '5P' && !(low <= high)) return false;
-  const atOrBelow = means.filter((v) => v <= low).length;
-  const atOrAbove = means.filter((v) => v >= high).length;
-  if (atOrBelow < k || atOrAbove < k) return false;
-  if (shape === '5P') return means.filter((v) => v >= low && v <= high).length >= k;
+  const slack = 1e-9;
+  if (weight(periods, (v) => v <= low) < k - slack || weight(periods, (v) => v >= high) < k - slack) return false;
+  if (shape === '5P') return weight(periods, (v) => v >= low && v <= high) >= k - slack;
   return true;
 }
 
 /** SSE of the day-resolved shape with its changepoints fixed, or +∞ where infeasible or singular. */
 export function dayResolvedSse(shape: Shape, periods: readonly Period[], cH: number | null, cC: number | null, k: number): number {
-  const means = periods.map((p) => p.meanTemp);
-  if (!feasible(means, k, shape, cH, cC)) return Number.POSITIVE_INFINITY;
+  if (!feasible(periods, k, shape, cH, cC)) return Number.POSITIVE_INFINITY;
   const changepoints = { heating: cH, cooling: cC };
   const design = periods.map((p) => periodDesignRow(shape, changepoints, p, 'daily'));
   const fit = weightedLeastSquares(

@@ -9,7 +9,8 @@ import { invertMatrix } from './matrix.js';
 import { weightedLeastSquares } from './wls.js';
 import { buildSortedSums } from './sorted-sums.js';
 import { searchChangepoints, type ChangepointOptimum } from './changepoint-search.js';
-import { buildBillDays, searchDayResolved, type BillDays } from './day-resolved/search.js';
+import { searchDayResolved } from './day-resolved/search.js';
+import { billDaysOf } from './day-resolved/bill-days.js';
 
 import {
   changepointDerivatives,
@@ -22,6 +23,7 @@ import {
 import { energyResiduals, goodnessOfFit } from '../stats/goodness-of-fit.js';
 import { durbinWatson, lagOneAutocorrelation } from '../stats/autocorrelation.js';
 import { ar1VarianceInflation } from '../stats/autocorrelation-inflation.js';
+import { outOfSampleBlocks, outOfSampleFit, type OutOfSampleStatistics } from '../stats/out-of-sample.js';
 
 export interface Coefficient {
   name: string;
@@ -54,6 +56,12 @@ export interface FitStatistics {
   /** Lag-1 autocorrelation of the energy residuals in time order. */
   autocorrelation: number;
   durbinWatson: number;
+  /**
+   * CV(RMSE) and NMBE of out-of-sample predictions (stats/out-of-sample.ts):
+   * every period predicted without itself (bills) or without its calendar
+   * month (daily data). Fits stored before it existed lack it.
+   */
+  outOfSample?: OutOfSampleStatistics;
 }
 
 export interface ShapeFit {
@@ -172,6 +180,7 @@ export function fitShape(periods: readonly Period[], model: ModelName, minPoints
   for (const c of changepointEstimates) parameters[c.name] = c.estimate;
 
   const fit = goodnessOfFit({ quantity: ordered.map((q) => q.quantity), days: w, fittedPerDay: regression.fitted, p });
+  const blocks = outOfSampleBlocks(ordered);
   return {
     ok: true,
     model,
@@ -187,11 +196,16 @@ export function fitShape(periods: readonly Period[], model: ModelName, minPoints
     coefficients,
     changepointEstimates,
     parameters,
-    segmentCounts: countSegments(model, changepoints, x),
+    segmentCounts: form === 'daily' ? weighSegments(model, changepoints, ordered) : countSegments(model, changepoints, x),
     temperatureRange: { min: Math.min(...x), max: Math.max(...x) },
     dayTemperatureRange: form === 'daily' ? dayRange(ordered) : null,
     sse: regression.sse,
-    stats: { ...fit, autocorrelation, durbinWatson: durbinWatson(residuals) },
+    stats: {
+      ...fit,
+      autocorrelation,
+      durbinWatson: durbinWatson(residuals),
+      outOfSample: outOfSampleFit({ design, usePerDay: y, days: w, quantity: ordered.map((q) => q.quantity), blocks: blocks.blocks }, blocks.method),
+    },
     residuals,
   };
 }
@@ -215,18 +229,6 @@ function searchShape(
   return searchDayResolved(billDaysOf(periods), model, minPoints);
 }
 
-/** The day-resolved search's view of a set of periods, built once for all the shapes fitted to it. */
-const billDaysCache = new WeakMap<readonly Period[], BillDays>();
-
-function billDaysOf(periods: readonly Period[]): BillDays {
-  let days = billDaysCache.get(periods);
-  if (!days) {
-    days = buildBillDays(periods);
-    billDaysCache.set(periods, days);
-  }
-  return days;
-}
-
 function dayRange(periods: readonly Period[]): { min: number; max: number } {
   let min = Number.POSITIVE_INFINITY;
   let max = Number.NEGATIVE_INFINITY;
@@ -237,6 +239,40 @@ function dayRange(periods: readonly Period[]): { min: number; max: number } {
     }
   }
   return { min, max };
+}
+
+/**
+ * Segment weights of a day-resolved fit: each reading counts in a segment by
+ * the share of its days that fall in it (a day on a changepoint in both).
+ * For one-day readings these are the mean form's counts.
+ */
+function weighSegments(model: ModelName, cp: Changepoints, periods: readonly Period[]): Record<string, number> {
+  const weigh = (test: (temp: number) => boolean): number => {
+    let total = 0;
+    for (const period of periods) {
+      const temps = period.dayTemps!;
+      let inside = 0;
+      for (const temp of temps) if (test(temp)) inside++;
+      total += inside / temps.length;
+    }
+    // Shares of whole days: round off the sum's last bits so 3 readings' worth reads as 3.
+    return Math.round(total * 1e9) / 1e9;
+  };
+  const cH = cp.heating ?? Number.NaN;
+  const cC = cp.cooling ?? Number.NaN;
+  switch (model) {
+    case '1P':
+    case '2P':
+      return { all: periods.length };
+    case '3PC':
+      return { flat: weigh((v) => v <= cC), cooling: weigh((v) => v >= cC) };
+    case '3PH':
+      return { heating: weigh((v) => v <= cH), flat: weigh((v) => v >= cH) };
+    case '4P':
+      return { below: weigh((v) => v <= cH), above: weigh((v) => v >= cH) };
+    case '5P':
+      return { heating: weigh((v) => v <= cH), flat: weigh((v) => v >= cH && v <= cC), cooling: weigh((v) => v >= cC) };
+  }
 }
 
 function countSegments(model: ModelName, cp: Changepoints, x: readonly number[]): Record<string, number> {

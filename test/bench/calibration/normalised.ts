@@ -4,7 +4,8 @@
  * year (its seasonal curve, day by day), should agree when nothing changed:
  * count how often |normalised savings| exceeds 2% of the normal-year
  * baseline use, for electric-like meters (cooling-dominated and 5P) and
- * gas-like meters (heating-dominated), climates in turn.
+ * gas-like meters (heating-dominated), climates in turn; and how often the
+ * stated band of the normalised saving (at 68% and 90%) covers the true 0.
  */
 import { normalisedSavings } from '../../../src/engine/index.js';
 import {
@@ -38,6 +39,9 @@ export interface NormalisedRow {
   beyondThreshold: number;
   meanFraction: number;
   standardError: number;
+  /** Share of available meters whose normalised-savings band covers 0, at 68% and 90%. */
+  covers68: number;
+  covers90: number;
 }
 
 export interface NormalisedSettings {
@@ -47,7 +51,7 @@ export interface NormalisedSettings {
 }
 
 /** Options for normalisedSavings with the form; ignored by an engine that does not know it. */
-type NormalisedOptions = { minCoverage?: number } & { temperatureForm?: TemperatureForm };
+type NormalisedOptions = { minCoverage?: number; confidence?: number } & { temperatureForm?: TemperatureForm };
 
 export function normalisedWithoutRetrofit(settings: NormalisedSettings): NormalisedRow[] {
   const rows: NormalisedRow[] = [];
@@ -63,10 +67,16 @@ export function normalisedWithoutRetrofit(settings: NormalisedSettings): Normali
       for (const form of FORMS) {
         const options: NormalisedOptions = { temperatureForm: form };
         const fractions: number[] = [];
+        const covered: { at68: boolean; at90: boolean }[] = [];
         for (const { study, normalYear } of studies) {
           const fit = selectedFit(baselineInForm(study.baseline, study.weather, form));
           const result = normalisedSavings(fit, study.reporting, study.weather, normalYear, options);
-          if (result.available && result.fractionSaved !== null) fractions.push(result.fractionSaved);
+          if (result.available && result.fractionSaved !== null) {
+            fractions.push(result.fractionSaved);
+            const at90 = normalisedSavings(fit, study.reporting, study.weather, normalYear, { ...options, confidence: 0.9 });
+            const band = (r: typeof result): number => (r.available && 'uncertainty' in r ? (r as { uncertainty: { absolute: number } }).uncertainty.absolute : Number.NaN);
+            covered.push({ at68: Math.abs(result.savings) <= band(result), at90: at90.available && Math.abs(at90.savings) <= band(at90) });
+          }
         }
         const { mean, standardError } = meanWithError(fractions);
         rows.push({
@@ -78,6 +88,8 @@ export function normalisedWithoutRetrofit(settings: NormalisedSettings): Normali
           beyondThreshold: share(fractions, (f) => Math.abs(f) > NORMALISED_THRESHOLD),
           meanFraction: mean,
           standardError,
+          covers68: share(covered, (c) => c.at68),
+          covers90: share(covered, (c) => c.at90),
         });
       }
     });

@@ -6,6 +6,7 @@
  * one and measured on the same portfolios.
  */
 import { combineInQuadrature, type SavingsDocument } from '../../../src/engine/index.js';
+import { combineCorrelated, residualCorrelation } from '../../../src/engine/portfolio-correlation.js';
 
 export type PortfolioConfidence = 0.68 | 0.9;
 export const PORTFOLIO_CONFIDENCES: readonly PortfolioConfidence[] = [0.68, 0.9];
@@ -19,6 +20,8 @@ export interface PortfolioMeterResult {
   savings: Readonly<Record<PortfolioConfidence, SavingsDocument>>;
   /** Energy residuals of the meter's selected baseline fit, in time order; the portfolio's meters share their read dates. */
   baselineResiduals: readonly number[];
+  /** The same residuals with their periods, as the engine's correlation estimate takes them. */
+  baselinePeriods: readonly { start: string; end: string; residual: number }[];
 }
 
 export interface PortfolioCombiner {
@@ -33,5 +36,21 @@ export const IN_QUADRATURE: PortfolioCombiner = {
   halfWidth: (meters, confidence, formula) => combineInQuadrature(meters.map((m) => m.savings[confidence].totals.uncertainty[formula].absolute)),
 };
 
-/** The combiners measured; add a correlation-aware one here. */
-export const PORTFOLIO_COMBINERS: readonly PortfolioCombiner[] = [IN_QUADRATURE];
+/**
+ * The engine's correlation-aware roll-up: the pooled between-meter
+ * correlation of the baseline residuals (engine/portfolio-correlation.ts),
+ * every meter on the portfolio's one station.
+ */
+export const WITH_RESIDUAL_CORRELATION: PortfolioCombiner = {
+  name: 'with residual correlation',
+  halfWidth: (meters, confidence, formula) => {
+    const correlation = residualCorrelation(meters.map((m) => ({ group: 'station', periods: m.baselinePeriods })));
+    return combineCorrelated(
+      meters.map((m) => ({ value: m.savings[confidence].totals.uncertainty[formula].absolute, group: 'station' })),
+      correlation,
+    );
+  },
+};
+
+/** The combiners measured. */
+export const PORTFOLIO_COMBINERS: readonly PortfolioCombiner[] = [IN_QUADRATURE, WITH_RESIDUAL_CORRELATION];

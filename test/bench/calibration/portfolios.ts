@@ -142,7 +142,14 @@ export function portfolioBands(settings: PortfolioSettings): PortfolioRow[] {
           const results: PortfolioMeterResult[] = portfolio.meters.map((meter) => {
             const analysis = baselineInForm(meter.baseline, portfolio.weather, form);
             const [at68, at90] = savingsAt(analysis, meter.reporting, portfolio.weather, PORTFOLIO_CONFIDENCES);
-            return { savings: { 0.68: at68!, 0.9: at90! }, baselineResiduals: selectedFit(analysis).residuals };
+            const residuals = selectedFit(analysis).residuals;
+            // The fit's residuals are in start-date order, as are its periods.
+            const periods = [...analysis.periods].sort((a, b) => (a.start < b.start ? -1 : 1));
+            return {
+              savings: { 0.68: at68!, 0.9: at90! },
+              baselineResiduals: residuals,
+              baselinePeriods: periods.map((p, i) => ({ start: p.start, end: p.end, residual: residuals[i]! })),
+            };
           });
           outcomes[form].push(portfolioOutcome(results, combiners));
         }

@@ -4,11 +4,12 @@
  * by temperature, with the breakpoints where anything can change.
  *
  * A reading's heating term mean(τ − T_d)₊ is affine in τ between two
- * adjacent distinct daily temperatures, and the segment counts (readings
- * counted by their mean temperature) change only at reading means; so the
- * breakpoints are the union of both, and on each interval between two
- * adjacent breakpoints every column of every shape is affine in τ and every
- * feasibility rule is constant.
+ * adjacent distinct daily temperatures, and so is every other column; a
+ * segment's weight (each reading counted by the share of its days that fall
+ * in the segment, a day on a changepoint counting in both segments) changes
+ * only there too. So the breakpoints are the distinct daily temperatures, and
+ * on each interval between two adjacent ones every column of every shape is
+ * affine in τ and every segment rule is constant.
  *
  * Temperatures and use are centred on their weighted means, which keeps the
  * inner products well conditioned; the original breakpoint values are kept
@@ -36,21 +37,34 @@ export interface BillDays {
   /** Each sorted day's share of its reading (1/m) and its temperature's share (T/m): what one day adds to s and S. */
   dayShare: Float64Array;
   dayTempShare: Float64Array;
-  /** Distinct daily temperatures and reading means, ascending, centred. */
+  /** Distinct daily temperatures, ascending, centred. */
   breakpoints: Float64Array;
   /** The same breakpoints in the caller's units. */
   breakpointsOriginal: Float64Array;
   /** Days at breakpoint j are dayTemp[dayStart[j] .. dayStart[j + 1]). */
   dayStart: Int32Array;
-  /** Readings whose mean is at or below breakpoint j. */
-  meansAtOrBelow: Int32Array;
-  /** Readings whose mean is at or above breakpoint j. */
-  meansAtOrAbove: Int32Array;
+  /** Σ over readings of the share of their days at or below breakpoint j: the weight of a segment ending there. */
+  weightAtOrBelow: Float64Array;
+  /** Σ over readings of the share of their days at or above breakpoint j. */
+  weightAtOrAbove: Float64Array;
   /** Σw·y² of the centred use: the SSE of the mean model. */
   totalSquares: number;
   /** The weighted means removed. */
   tempShift: number;
   useShift: number;
+}
+
+/** Views already built, per periods array (the shapes of one choice share one). */
+const built = new WeakMap<readonly Period[], BillDays>();
+
+/** The search's view of these periods, built once per periods array. */
+export function billDaysOf(periods: readonly Period[]): BillDays {
+  let days = built.get(periods);
+  if (!days) {
+    days = buildBillDays(periods);
+    built.set(periods, days);
+  }
+  return days;
 }
 
 /** Build the search's view of periods that carry their days' temperatures. */
@@ -124,36 +138,30 @@ export function buildBillDays(periods: readonly Period[]): BillDays {
     if (dayTemp[i]! < minTemp[b]!) minTemp[b] = dayTemp[i]!;
   }
 
-  // Breakpoints: distinct day temperatures merged with distinct reading means.
-  const sortedMeans = Array.from(rawMean).sort((p, q) => p - q);
+  // Breakpoints: the distinct day temperatures, with the segment weights at each.
   const originals: number[] = [];
   const starts: number[] = [];
-  let i = 0;
-  let k = 0;
-  while (i < totalDays || k < n) {
-    const dayValue = i < totalDays ? originalDay[order[i]!]! : Number.POSITIVE_INFINITY;
-    const meanValue = k < n ? sortedMeans[k]! : Number.POSITIVE_INFINITY;
-    const value = Math.min(dayValue, meanValue);
+  for (let i = 0; i < totalDays; ) {
+    const value = originalDay[order[i]!]!;
     originals.push(value);
     starts.push(i);
     while (i < totalDays && originalDay[order[i]!]! === value) i++;
-    while (k < n && sortedMeans[k]! === value) k++;
   }
   starts.push(totalDays);
   const count = originals.length;
   const breakpoints = new Float64Array(count);
-  const meansAtOrBelow = new Int32Array(count);
-  const meansAtOrAbove = new Int32Array(count);
+  const weightAtOrBelow = new Float64Array(count);
+  const weightAtOrAbove = new Float64Array(count);
   let below = 0;
   for (let j = 0; j < count; j++) {
     breakpoints[j] = originals[j]! - tempShift;
-    while (below < n && sortedMeans[below]! <= originals[j]!) below++;
-    meansAtOrBelow[j] = below;
+    for (let d = starts[j]!; d < starts[j + 1]!; d++) below += dayShare[d]!;
+    weightAtOrBelow[j] = below;
   }
   let above = 0;
   for (let j = count - 1; j >= 0; j--) {
-    while (above < n && sortedMeans[n - 1 - above]! >= originals[j]!) above++;
-    meansAtOrAbove[j] = above;
+    for (let d = starts[j]!; d < starts[j + 1]!; d++) above += dayShare[d]!;
+    weightAtOrAbove[j] = above;
   }
   return {
     n,
@@ -170,8 +178,8 @@ export function buildBillDays(periods: readonly Period[]): BillDays {
     breakpoints,
     breakpointsOriginal: Float64Array.from(originals),
     dayStart: Int32Array.from(starts),
-    meansAtOrBelow,
-    meansAtOrAbove,
+    weightAtOrBelow,
+    weightAtOrAbove,
     totalSquares,
     tempShift,
     useShift,
@@ -193,4 +201,44 @@ export function originalTemperature(days: BillDays, centred: number): number {
     else high = mid;
   }
   return points[low] === centred ? days.breakpointsOriginal[low]! : centred + days.tempShift;
+}
+
+/** Rounding slack when a segment weight (a sum of day shares) is compared with a whole number of readings. */
+const WEIGHT_SLACK = 1e-9;
+
+/** Does a segment of this weight hold at least k readings' worth of days? */
+export function enough(weight: number, k: number): boolean {
+  return weight >= k - WEIGHT_SLACK;
+}
+
+/** Index of the last breakpoint at or below τ (centred), or −1. */
+function lastAtOrBelow(days: BillDays, tau: number): number {
+  const points = days.breakpoints;
+  let low = 0;
+  let high = points.length;
+  while (low < high) {
+    const mid = (low + high) >> 1;
+    if (points[mid]! <= tau) low = mid + 1;
+    else high = mid;
+  }
+  return low - 1;
+}
+
+/** Weight of the days at or below τ (centred). */
+export function weightAtOrBelowTemperature(days: BillDays, tau: number): number {
+  const j = lastAtOrBelow(days, tau);
+  return j < 0 ? 0 : days.weightAtOrBelow[j]!;
+}
+
+/** Weight of the days at or above τ (centred). */
+export function weightAtOrAboveTemperature(days: BillDays, tau: number): number {
+  const j = lastAtOrBelow(days, tau);
+  if (j >= 0 && days.breakpoints[j] === tau) return days.weightAtOrAbove[j]!;
+  return j + 1 < days.breakpoints.length ? days.weightAtOrAbove[j + 1]! : 0;
+}
+
+/** Weight of the days in [low, high] (centred). */
+export function weightBetween(days: BillDays, low: number, high: number): number {
+  if (!(low <= high)) return 0;
+  return Math.max(0, weightAtOrBelowTemperature(days, high) - (days.n - weightAtOrAboveTemperature(days, low)));
 }

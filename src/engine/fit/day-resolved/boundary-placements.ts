@@ -1,11 +1,11 @@
 /**
  * Placements that the segment rule admits only on a breakpoint.
  *
- * A reading on a changepoint counts in both segments it touches, so a
- * changepoint placed exactly on a reading's mean temperature can satisfy
- * two segment counts at once where no placement beside it does (say the one
- * reading that is both the third-warmest and the third reading of the flat
- * band). The interval searches look at open intervals and their closures, so
+ * A day on a changepoint counts in both segments it touches, so a
+ * changepoint placed exactly on a daily temperature can satisfy two segment
+ * weights at once where no placement beside it does (say the days that are
+ * both the last of the cooling segment's three readings' worth and the last
+ * of the flat band's). The interval searches look at open intervals and their closures, so
  * they miss such knife-edge placements; this module finds them: for the
  * one-changepoint shapes single points, for the 5P whole lines (one
  * changepoint on a reading's mean, the other free on an interval, solved by
@@ -13,27 +13,19 @@
  * bills, but exactness means the least-squares optimum over the feasible set
  * the rule defines, knife edges included.
  */
-import type { BillDays } from './bill-days.js';
+import { enough, type BillDays } from './bill-days.js';
 import { bothSidesFeasible, fixedColumnsSse, hingeColumn, sweepHinge, type Side } from './hinge-sweep.js';
 import { fixedFivePointSse, type FivePointOptimum } from './five-point.js';
-
-/** Breakpoint indices that are reading means, with how many readings share each. */
-function meanBreakpoints(days: BillDays): { index: number; readings: number }[] {
-  const out: { index: number; readings: number }[] = [];
-  for (let j = 0; j < days.breakpoints.length; j++) {
-    const readings = days.meansAtOrBelow[j]! - (j > 0 ? days.meansAtOrBelow[j - 1]! : 0);
-    if (readings > 0) out.push({ index: j, readings });
-  }
-  return out;
-}
 
 /** The best one-changepoint placement that sits exactly on a reading's mean where no interval beside it is allowed. */
 export function boundaryOnlyOneChangepoint(days: BillDays, shape: '3PC' | '3PH' | '4P', k: number): { tau: number; sse: number } | null {
   const allowed = bothSidesFeasible(days, k);
   const count = days.breakpoints.length;
   let best: { tau: number; sse: number } | null = null;
-  for (const { index: j } of meanBreakpoints(days)) {
-    if (days.meansAtOrBelow[j]! < k || days.meansAtOrAbove[j]! < k) continue;
+  const { heating, cooling } = crossings(days, k);
+  for (const j of new Set([heating, cooling])) {
+    if (j < 0) continue;
+    if (!enough(days.weightAtOrBelow[j]!, k) || !enough(days.weightAtOrAbove[j]!, k)) continue;
     const leftAllowed = j >= 1 && allowed[j - 1] === 1;
     const rightAllowed = j + 1 < count && allowed[j] === 1;
     if (leftAllowed || rightAllowed) continue;
@@ -51,63 +43,84 @@ export function boundaryOnlyOneChangepoint(days: BillDays, shape: '3PC' | '3PH' 
 }
 
 /**
+ * Where a segment weight reaches k readings' worth of days: the first
+ * breakpoint whose weight at or below it is enough, and the last whose
+ * weight at or above it is. A placement that is allowed only on a breakpoint
+ * must sit exactly there (moving off it loses that breakpoint's days from
+ * one of the segments, which then falls short), so these two are the only
+ * candidates.
+ */
+function crossings(days: BillDays, k: number): { heating: number; cooling: number } {
+  const count = days.breakpoints.length;
+  let heating = -1;
+  for (let j = 0; j < count; j++) {
+    if (enough(days.weightAtOrBelow[j]!, k)) {
+      heating = j;
+      break;
+    }
+  }
+  let cooling = -1;
+  for (let j = count - 1; j >= 0; j--) {
+    if (enough(days.weightAtOrAbove[j]!, k)) {
+      cooling = j;
+      break;
+    }
+  }
+  return { heating, cooling };
+}
+
+/**
  * The best 5P placement on a line or point that the segment rule admits but
- * no open pair of intervals next to it does.
+ * no open pair of intervals next to it does. On such a line one changepoint
+ * sits on a breakpoint whose days both its segments need, so it is the
+ * heating or the cooling crossing (see crossings); on such a point both are.
  */
 export function boundaryOnlyFivePoint(days: BillDays, k: number): FivePointOptimum | null {
-  const { n, breakpoints, meansAtOrBelow: atOrBelow, meansAtOrAbove: atOrAbove } = days;
+  const { n, breakpoints, weightAtOrBelow: atOrBelow, weightAtOrAbove: atOrAbove } = days;
   const count = breakpoints.length;
-  // Readings with mean in [bp[a], bp[b]] (a ≤ b); and in [bp[a+1], bp[b]] is flatBetween(a + 1, b).
+  // Weight of the days in [bp[a], bp[b]] (a ≤ b); in [bp[a+1], bp[b]] is flatBetween(a + 1, b).
   const flatBetween = (a: number, b: number): number => (a > b ? 0 : atOrBelow[b]! - (n - atOrAbove[a]!));
   // Open rectangle (heating interval i, cooling interval j > i) and open lines, as the pair search sees them.
   const rect = (i: number, j: number): boolean =>
-    i >= 0 && j > i && j + 1 < count && atOrBelow[i]! >= k && atOrAbove[j + 1]! >= k && flatBetween(i + 1, j) >= k;
+    i >= 0 && j > i && j + 1 < count && enough(atOrBelow[i]!, k) && enough(atOrAbove[j + 1]!, k) && enough(flatBetween(i + 1, j), k);
   // τc on breakpoint t, τh inside heating interval i.
   const coolingLine = (i: number, t: number): boolean =>
-    i >= 0 && i + 1 <= t && atOrBelow[i]! >= k && flatBetween(i + 1, t) >= k && atOrAbove[t]! >= k;
+    i >= 0 && i + 1 <= t && enough(atOrBelow[i]!, k) && enough(flatBetween(i + 1, t), k) && enough(atOrAbove[t]!, k);
   // τh on breakpoint t, τc inside cooling interval j.
   const heatingLine = (t: number, j: number): boolean =>
-    j >= t && j + 1 < count && atOrBelow[t]! >= k && flatBetween(t, j) >= k && atOrAbove[j + 1]! >= k;
+    t >= 0 && j >= t && j + 1 < count && enough(atOrBelow[t]!, k) && enough(flatBetween(t, j), k) && enough(atOrAbove[j + 1]!, k);
 
   let best: FivePointOptimum | null = null;
   const offer = (candidate: FivePointOptimum | null): void => {
     if (candidate && Number.isFinite(candidate.sse) && (best === null || candidate.sse < best.sse)) best = candidate;
   };
-  const means = meanBreakpoints(days);
+  const { heating: a, cooling: b } = crossings(days, k);
+  if (a < 0 || b < 0) return null;
 
-  for (const { index: t } of means) {
-    // Lines τc = bp[t]: heating intervals where the line is allowed but neither rectangle beside it is.
-    const heatingMask = new Uint8Array(count);
-    let any = false;
-    for (let i = 0; i + 1 <= t; i++) {
-      if (coolingLine(i, t) && !rect(i, t - 1) && !rect(i, t)) {
-        heatingMask[i] = 1;
-        any = true;
-      }
+  // The line τc = bp[b]: heating intervals where it is allowed but neither rectangle beside it is.
+  const heatingMask = new Uint8Array(count);
+  let any = false;
+  for (let i = 0; i + 1 <= b; i++) {
+    if (coolingLine(i, b) && !rect(i, b - 1) && !rect(i, b)) {
+      heatingMask[i] = 1;
+      any = true;
     }
-    if (any) offer(lineOptimum(days, 'heating', breakpoints[t]!, heatingMask));
-    // Lines τh = bp[t]: cooling intervals likewise.
-    const coolingMask = new Uint8Array(count);
-    any = false;
-    for (let j = t; j + 1 < count; j++) {
-      if (heatingLine(t, j) && !rect(t - 1, j) && !rect(t, j)) {
-        coolingMask[j] = 1;
-        any = true;
-      }
-    }
-    if (any) offer(lineOptimum(days, 'cooling', breakpoints[t]!, coolingMask));
   }
-
-  // Points: both changepoints on means, allowed there but on no open line next to them.
-  for (const { index: a } of means) {
-    for (const { index: b } of means) {
-      if (b < a) continue;
-      const pointAllowed = atOrBelow[a]! >= k && flatBetween(a, b) >= k && atOrAbove[b]! >= k;
-      if (!pointAllowed) continue;
-      const lineNearby = heatingLine(a, b) || heatingLine(a, b - 1) || coolingLine(a - 1, b) || coolingLine(a, b);
-      if (lineNearby) continue;
-      offer({ heating: breakpoints[a]!, cooling: breakpoints[b]!, sse: fixedFivePointSse(days, breakpoints[a]!, breakpoints[b]!) });
+  if (any) offer(lineOptimum(days, 'heating', breakpoints[b]!, heatingMask));
+  // The line τh = bp[a]: cooling intervals likewise.
+  const coolingMask = new Uint8Array(count);
+  any = false;
+  for (let j = a; j + 1 < count; j++) {
+    if (heatingLine(a, j) && !rect(a - 1, j) && !rect(a, j)) {
+      coolingMask[j] = 1;
+      any = true;
     }
+  }
+  if (any) offer(lineOptimum(days, 'cooling', breakpoints[a]!, coolingMask));
+  // The point (bp[a], bp[b]), allowed there but on no open line next to it.
+  if (a <= b && enough(atOrBelow[a]!, k) && enough(flatBetween(a, b), k) && enough(atOrAbove[b]!, k)) {
+    const lineNearby = heatingLine(a, b) || heatingLine(a, b - 1) || coolingLine(a - 1, b) || coolingLine(a, b);
+    if (!lineNearby) offer({ heating: breakpoints[a]!, cooling: breakpoints[b]!, sse: fixedFivePointSse(days, breakpoints[a]!, breakpoints[b]!) });
   }
   return best;
 }

@@ -14,8 +14,8 @@
 import { searchChangepoints } from '../changepoint-search.js';
 import { buildSortedSums } from '../sorted-sums.js';
 import { bestHingeOnInterval, gramLeastSquares, type HingeOptimum } from '../gram.js';
-import type { BillDays } from './bill-days.js';
-import { bothSidesFeasible, countMeans, fixedColumnsSse, hingeColumn, sweepHinge, type Side } from './hinge-sweep.js';
+import { enough, weightAtOrAboveTemperature, weightAtOrBelowTemperature, weightBetween, type BillDays } from './bill-days.js';
+import { bothSidesFeasible, fixedColumnsSse, hingeColumn, sweepHinge, type Side } from './hinge-sweep.js';
 
 /** Relative slack when comparing a lower bound with the incumbent: rounding must never prune the optimum. */
 const BOUND_SLACK = 1e-10;
@@ -41,9 +41,9 @@ export function fixedFivePointSse(days: BillDays, heating: number, cooling: numb
 function fivePointFeasible(days: BillDays, heating: number, cooling: number, k: number): boolean {
   return (
     heating <= cooling &&
-    countMeans(days, (x) => x <= heating) >= k &&
-    countMeans(days, (x) => x >= heating && x <= cooling) >= k &&
-    countMeans(days, (x) => x >= cooling) >= k
+    enough(weightAtOrBelowTemperature(days, heating), k) &&
+    enough(weightBetween(days, heating, cooling), k) &&
+    enough(weightAtOrAboveTemperature(days, cooling), k)
   );
 }
 
@@ -83,21 +83,21 @@ function coordinateDescent(days: BillDays, k: number): FivePointOptimum | null {
  * fixed one, and every segment keeping k readings.
  */
 export function movingHingeMask(days: BillDays, side: Side, heating: number, cooling: number, k: number): Uint8Array {
-  const { n, meansAtOrBelow, meansAtOrAbove, breakpoints } = days;
+  const { n, weightAtOrBelow, weightAtOrAbove, breakpoints } = days;
   const allowed = new Uint8Array(breakpoints.length);
   if (side === 'heating') {
-    const atOrBelowCooling = countMeans(days, (x) => x <= cooling);
-    const coolCount = countMeans(days, (x) => x >= cooling);
+    const atOrBelowCooling = weightAtOrBelowTemperature(days, cooling);
+    const coolWeight = weightAtOrAboveTemperature(days, cooling);
     for (let j = 0; j + 1 < breakpoints.length; j++) {
-      const flat = atOrBelowCooling - (n - meansAtOrAbove[j + 1]!);
-      allowed[j] = breakpoints[j + 1]! <= cooling && meansAtOrBelow[j]! >= k && flat >= k && coolCount >= k ? 1 : 0;
+      const flat = atOrBelowCooling - (n - weightAtOrAbove[j + 1]!);
+      allowed[j] = breakpoints[j + 1]! <= cooling && enough(weightAtOrBelow[j]!, k) && enough(flat, k) && enough(coolWeight, k) ? 1 : 0;
     }
   } else {
-    const heatCount = countMeans(days, (x) => x <= heating);
-    const belowHeating = countMeans(days, (x) => x < heating);
+    const heatWeight = weightAtOrBelowTemperature(days, heating);
+    const belowHeating = n - weightAtOrAboveTemperature(days, heating);
     for (let j = 0; j + 1 < breakpoints.length; j++) {
-      const flat = meansAtOrBelow[j]! - belowHeating;
-      allowed[j] = breakpoints[j]! >= heating && meansAtOrAbove[j + 1]! >= k && flat >= k && heatCount >= k ? 1 : 0;
+      const flat = weightAtOrBelow[j]! - belowHeating;
+      allowed[j] = breakpoints[j]! >= heating && enough(weightAtOrAbove[j + 1]!, k) && enough(flat, k) && enough(heatWeight, k) ? 1 : 0;
     }
   }
   return allowed;
@@ -334,7 +334,7 @@ class RowBound {
  * free five-column fit costs a 2×2 Schur complement.
  */
 export function searchFivePoint(days: BillDays, k: number): FivePointOptimum | null {
-  const { n, w, y, mean, breakpoints, dayStart, dayBill, dayShare, dayTempShare, meansAtOrBelow, meansAtOrAbove, totalSquares } = days;
+  const { n, w, y, mean, breakpoints, dayStart, dayBill, dayShare, dayTempShare, weightAtOrBelow, weightAtOrAbove, totalSquares } = days;
   const count = breakpoints.length;
   let best = coordinateDescent(days, k);
   let bestSse = best?.sse ?? Number.POSITIVE_INFINITY;
@@ -370,10 +370,10 @@ export function searchFivePoint(days: BillDays, k: number): FivePointOptimum | n
       sI[b] = sNew;
       SI[b] = SNew;
     }
-    if (meansAtOrBelow[i]! < k) continue;
+    if (!enough(weightAtOrBelow[i]!, k)) continue;
     const heatLow = breakpoints[i]!;
     const heatHigh = breakpoints[i + 1]!;
-    const meansBelowRow = n - meansAtOrAbove[i + 1]!;
+    const weightBelowRow = n - weightAtOrAbove[i + 1]!;
 
     // Cholesky factor of the heating block [1, s, S], and y projected on it (Σw·y = 0: y is centred).
     const l00 = Math.sqrt(totalWeight);
@@ -415,8 +415,8 @@ export function searchFivePoint(days: BillDays, k: number): FivePointOptimum | n
         xSQ -= SI[b]! * wq;
         xSR -= SI[b]! * wr;
       }
-      if (meansAtOrAbove[j + 1]! < k) break;
-      if (meansAtOrBelow[j]! - meansBelowRow < k) continue;
+      if (!enough(weightAtOrAbove[j + 1]!, k)) break;
+      if (!enough(weightAtOrBelow[j]! - weightBelowRow, k)) continue;
 
       // Row bound: readings whose every day is at or below the cooling interval see only the heating hinge.
       if (best !== null) {

@@ -7,14 +7,14 @@
  * boundary placements use.
  */
 import { bestHingeOnInterval, gramLeastSquares, type HingeOptimum } from '../gram.js';
-import type { BillDays } from './bill-days.js';
+import { enough, type BillDays } from './bill-days.js';
 
 export type Side = 'heating' | 'cooling';
 
-/** Interval j of a one-changepoint shape is allowed when both sides keep k readings (by their means). */
+/** Interval j of a one-changepoint shape is allowed when both sides keep k readings' worth of days. */
 export function bothSidesFeasible(days: BillDays, k: number): Uint8Array {
   const allowed = new Uint8Array(days.breakpoints.length);
-  for (let j = 0; j + 1 < allowed.length; j++) allowed[j] = days.meansAtOrBelow[j]! >= k && days.meansAtOrAbove[j + 1]! >= k ? 1 : 0;
+  for (let j = 0; j + 1 < allowed.length; j++) allowed[j] = enough(days.weightAtOrBelow[j]!, k) && enough(days.weightAtOrAbove[j + 1]!, k) ? 1 : 0;
   return allowed;
 }
 
@@ -150,11 +150,3 @@ export function fixedColumnsSse(days: BillDays, columns: readonly Float64Array[]
   }
   return gramLeastSquares(gram, m) ?? Number.POSITIVE_INFINITY;
 }
-
-/** Readings whose (centred) mean temperature passes `test`. */
-export function countMeans(days: BillDays, test: (mean: number) => boolean): number {
-  let count = 0;
-  for (let b = 0; b < days.n; b++) if (test(days.mean[b]!)) count++;
-  return count;
-}
-

@@ -6,7 +6,7 @@
  * temperature, where the day-resolved terms are the ordinary hinges.
  */
 import type { Period } from '../../types.js';
-import { buildBillDays, type BillDays } from './bill-days.js';
+import { billDaysOf, type BillDays } from './bill-days.js';
 import { sweepHinge, type Side } from './hinge-sweep.js';
 
 /** Points of a profile in increasing changepoint order (centred units), and how many separate stretches they fall into. */
@@ -33,6 +33,6 @@ export function hingeProfile(days: BillDays, side: Side, extra: Float64Array | n
  * the mean form.
  */
 export function billDaysForForm(periods: readonly Period[], form: 'daily' | 'mean'): BillDays {
-  if (form === 'daily') return buildBillDays(periods);
-  return buildBillDays(periods.map((period) => ({ ...period, dayTemps: [period.meanTemp] })));
+  if (form === 'daily') return billDaysOf(periods);
+  return billDaysOf(periods.map((period) => ({ ...period, dayTemps: [period.meanTemp] })));
 }

@@ -18,11 +18,14 @@
  * The 4P uses one changepoint for both hinges; since heating − cooling =
  * τ − mean temperature, it is the heating hinge beside the columns {1, mean}.
  *
- * Segment counts follow the same rule as the mean form: a reading counts in
- * the segment that holds its mean temperature, and a changepoint may only sit
- * where every segment keeps at least `minPoints` readings (a reading on a
- * changepoint counts in both segments; boundary-placements.ts covers the
- * knife edges this creates).
+ * Segment weights: a reading counts in each segment by the share of its days
+ * that fall in it (a day on a changepoint counts in both segments), and a
+ * changepoint may only sit where every segment keeps at least `minPoints`
+ * readings' worth of days. For one-day readings this is the mean form's rule
+ * (a period counted in the segment that holds its temperature); for bills it
+ * credits a shoulder-season bill to both the segments its days fall in.
+ * boundary-placements.ts covers the knife edges the on-changepoint rule
+ * creates.
  */
 import type { ChangepointOptimum, HingeShape } from '../changepoint-search.js';
 import { originalTemperature, type BillDays } from './bill-days.js';
