@@ -18,6 +18,7 @@ import { fitDocument, type FitDocument, type SavingsDocument } from './documents
 export * from './types.js';
 export { alignPeriods, indexWeather, DEFAULT_MIN_COVERAGE, type AlignmentOptions } from './periods.js';
 export { checkReadings, checkWeather, type InputProblem } from './validate.js';
+export * from './bounds.js';
 export { chooseBaseline, nestedFTest, DEFAULT_SIGNIFICANCE_LEVEL, DEFAULT_MIN_POINTS_PER_SEGMENT } from './choose.js';
 export type { BaselineChoice, Candidate, SelectionOptions, Verdict } from './choose.js';
 export { fitShape } from './fit/fit-shape.js';
