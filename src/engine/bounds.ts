@@ -75,6 +75,14 @@ export const MAX_GUARANTEE_COST: InputBound = { max: MAX_COST_PER_DAY.max * 366,
  */
 export const MAX_FLOOR_AREA: InputBound = { max: 1e9, per: 'ft² or m²', source: 'our own bound' };
 
+/**
+ * Our own bound: at most 1,000 periods required in each segment of a
+ * changepoint shape (a fitting option). Thirty years of daily readings
+ * split in two segments need fewer; beyond it every shape is refused
+ * anyway, so a larger figure is a typing error.
+ */
+export const MAX_POINTS_PER_SEGMENT = 1000;
+
 /** The bound as text: 1e12, 3.66e14. */
 export function boundText(max: number): string {
   return max.toExponential().replace('e+', 'e');
