@@ -85,7 +85,9 @@ export function keepRunningThroughDatabaseFaults(log: FastifyBaseLogger): void {
       log.warn({ database: faultRecord(error) }, 'database fault outside a request: ignored');
       return;
     }
-    log.fatal({ err: { type: error.name, message: error.message } }, 'uncaught exception: stopping');
+    // Anything can be thrown (a rejection re-thrown above may not be an Error).
+    const described = error instanceof Error ? { type: error.name, message: error.message } : { type: typeof error, message: String(error) };
+    log.fatal({ err: described }, 'uncaught exception: stopping');
     process.exit(1);
   });
 }
