@@ -24,11 +24,15 @@ export async function migrateToLatest(db: Kysely<any>): Promise<string[]> {
   // starting together on a new file can both try the same migration, and the
   // slower one fails ("table already exists"). Its retry then finds the
   // migration recorded and has nothing left to do. PostgreSQL locks instead.
-  const attempts = schema === undefined ? SQLITE_ATTEMPTS : 1;
+  // On PostgreSQL the migrator lists the tables of every schema it may use (has_schema_privilege on
+  // each); a schema another process drops at that moment fails the listing with invalid_schema_name
+  // (3F000), and only that is tried again.
+  const attempts = schema === undefined ? SQLITE_ATTEMPTS : POSTGRES_ATTEMPTS;
   for (let attempt = 1; ; attempt++) {
     const { error, results } = await migrator.migrateToLatest();
     if (!error) return (results ?? []).filter((r) => r.status === 'Success').map((r) => r.migrationName);
-    if (attempt >= attempts) {
+    const retry = schema === undefined || (error as { code?: unknown }).code === '3F000';
+    if (attempt >= attempts || !retry) {
       const failed = results?.find((r) => r.status === 'Error')?.migrationName ?? 'unknown';
       throw new Error(`database migration ${failed} failed: ${error instanceof Error ? error.message : String(error)}`);
     }
@@ -37,3 +41,4 @@ export async function migrateToLatest(db: Kysely<any>): Promise<string[]> {
 }
 
 const SQLITE_ATTEMPTS = 5;
+const POSTGRES_ATTEMPTS = 3;
