@@ -8,7 +8,7 @@ import { pathToFileURL } from 'node:url';
 import type { FastifyBaseLogger, FastifyInstance } from 'fastify';
 import { loadConfig, type Config } from './config.js';
 import { openStore, type Store } from './store/connect.js';
-import { databaseFault, faultRecord } from './store/faults.js';
+import { keepRunningThroughDatabaseFaults } from './process-guard.js';
 import { migrateToLatest } from './store/migrate.js';
 import { bootstrapIfEmpty } from './services/organisations.js';
 import { buildApp, LOG_REDACTIONS } from './http/app.js';
@@ -67,29 +67,6 @@ async function main(): Promise<void> {
       void service.stop().then(() => process.exit(0));
     });
   }
-}
-
-/**
- * The last line of defence: a database fault that escapes every handler
- * (an error event or a rejected promise nobody awaits) is logged, and the
- * process goes on serving; the database's return is seen by the next
- * request. Anything else still ends the process, as Node would.
- */
-export function keepRunningThroughDatabaseFaults(log: FastifyBaseLogger): void {
-  process.on('unhandledRejection', (reason) => {
-    if (databaseFault(reason) === null) throw reason;
-    log.warn({ database: faultRecord(reason) }, 'database fault in a promise nobody awaited: ignored');
-  });
-  process.on('uncaughtException', (error) => {
-    if (databaseFault(error) !== null) {
-      log.warn({ database: faultRecord(error) }, 'database fault outside a request: ignored');
-      return;
-    }
-    // Anything can be thrown (a rejection re-thrown above may not be an Error).
-    const described = error instanceof Error ? { type: error.name, message: error.message } : { type: typeof error, message: String(error) };
-    log.fatal({ err: described }, 'uncaught exception: stopping');
-    process.exit(1);
-  });
 }
 
 if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {

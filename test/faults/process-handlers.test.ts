@@ -1,5 +1,5 @@
 /**
- * The last line of defence of src/server.ts: a database fault that escapes
+ * The last line of defence of the service (src/process-guard.ts, installed by src/server.ts): a database fault that escapes
  * every handler (an 'error' event nobody listens to, a rejected promise
  * nobody awaits) is logged and the process goes on; any other uncaught
  * error still ends it, as Node would (exit code 1). Each case runs in a
@@ -19,7 +19,7 @@ const run = promisify(execFile);
 async function child(body: string): Promise<{ code: number; stdout: string }> {
   const script = `
     import { EventEmitter } from 'node:events';
-    import { keepRunningThroughDatabaseFaults } from ${JSON.stringify(join(ROOT, 'src', 'server.ts'))};
+    import { keepRunningThroughDatabaseFaults } from ${JSON.stringify(join(ROOT, 'src', 'process-guard.ts'))};
     const log = { warn: (o, m) => console.log('warn', m), fatal: (o, m) => console.log('fatal', m, JSON.stringify(o)) };
     keepRunningThroughDatabaseFaults(log);
     const fault = Object.assign(new Error('terminating connection due to administrator command'), { code: '57P01' });

@@ -71,7 +71,7 @@ describe('axisScale over the whole double range', () => {
       fc.property(anyDouble, anyDouble, fc.oneof(fc.constant(6), fc.integer({ min: -5, max: 1000 }), fc.double()), (a, b, target) => {
         checkScale(axisScale(a, b, target), a, b);
       }),
-      { seed: SEED, numRuns: 3000 },
+      { seed: SEED, numRuns: 1500 },
     );
   });
 
@@ -112,7 +112,7 @@ describe('dateTicks over the whole double range', () => {
           expect(tick.label).toMatch(/^[A-Z][a-z]{2}( \d{4})?$/);
         }
       }),
-      { seed: SEED, numRuns: 3000 },
+      { seed: SEED, numRuns: 1500 },
     );
   });
 
@@ -146,7 +146,7 @@ describe('charts drawn from extreme data', () => {
         expect(wellFormedProblems(svg)).toEqual([]);
         expect(nonFiniteTokens(svg)).toEqual([]);
       }),
-      { seed: SEED, numRuns: 400 },
+      { seed: SEED, numRuns: 250 },
     );
   });
 
@@ -175,7 +175,7 @@ describe('charts drawn from extreme data', () => {
         expect(wellFormedProblems(cumulative)).toEqual([]);
         expect(nonFiniteTokens(cumulative)).toEqual([]);
       }),
-      { seed: SEED, numRuns: 400 },
+      { seed: SEED, numRuns: 250 },
     );
   });
 });
