@@ -36,12 +36,18 @@ const UNREACHABLE_MESSAGES = [/^timeout exceeded when trying to connect/, /^Conn
  * or null for any other error: a constraint violation, a bad query or a
  * bug is not a fault of availability and must not be retried or hidden.
  */
-export function databaseFault(error: unknown): DatabaseFault | null {
-  for (let current = error, depth = 0; current instanceof Error && depth < 5; current = current.cause, depth++) {
-    const found = faultOf(current);
-    if (found) return found;
+export function databaseFault(error: unknown, depth = 0): DatabaseFault | null {
+  if (!(error instanceof Error) || depth > 5) return null;
+  const found = faultOf(error);
+  if (found) return found;
+  // A host name with several addresses fails as one AggregateError of the attempts.
+  if (error instanceof AggregateError) {
+    for (const inner of error.errors) {
+      const fault = databaseFault(inner, depth + 1);
+      if (fault) return fault;
+    }
   }
-  return null;
+  return databaseFault(error.cause, depth + 1);
 }
 
 function faultOf(error: Error): DatabaseFault | null {
