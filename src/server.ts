@@ -1,11 +1,14 @@
 /**
  * Starts the service: configuration, database (migrated), optional bootstrap
  * key, HTTP. Stops cleanly on SIGINT/SIGTERM, finishing requests in flight.
+ * A database fault while running (a restart, a failover, a terminated
+ * connection) never ends the process: requests get 503 until it is back.
  */
 import { pathToFileURL } from 'node:url';
-import type { FastifyInstance } from 'fastify';
+import type { FastifyBaseLogger, FastifyInstance } from 'fastify';
 import { loadConfig, type Config } from './config.js';
 import { openStore, type Store } from './store/connect.js';
+import { keepRunningThroughDatabaseFaults } from './process-guard.js';
 import { migrateToLatest } from './store/migrate.js';
 import { bootstrapIfEmpty } from './services/organisations.js';
 import { buildApp, LOG_REDACTIONS } from './http/app.js';
@@ -18,7 +21,14 @@ export interface RunningService {
 }
 
 export async function startService(config: Config): Promise<RunningService> {
-  const store = openStore(config.databaseUrl);
+  // The store is opened before the app (and its logger) exists: its events wait for the logger.
+  let log: FastifyBaseLogger | null = null;
+  const store = openStore(config.databaseUrl, {
+    onEvent: (event) => {
+      if (log) log.warn({ database: event }, event.event === 'connection-error' ? 'database connection lost (the pool replaces it)' : 'database connection lost: retried on a fresh connection');
+      else process.stderr.write(`mvledger: database ${event.event}: ${event.message}\n`);
+    },
+  });
   await migrateToLatest(store.db);
   const bootstrapped = await bootstrapIfEmpty(store.db, config.bootstrapKey, new Date().toISOString(), config.bootstrapOrganisation);
   const app = await buildApp({
@@ -27,6 +37,7 @@ export async function startService(config: Config): Promise<RunningService> {
     bodyLimit: config.maxBodyBytes,
     rateLimitPerMinute: config.rateLimitPerMinute,
   });
+  log = app.log;
   if (bootstrapped) app.log.info('new database: created the bootstrap organisation and its admin key');
   const address = await app.listen({ port: config.port, host: config.host });
   app.log.info({ database: store.location }, 'mvledger is listening');
@@ -49,6 +60,7 @@ async function main(): Promise<void> {
     return;
   }
   const service = await startService(config);
+  keepRunningThroughDatabaseFaults(service.app.log);
   for (const signal of ['SIGINT', 'SIGTERM'] as const) {
     process.once(signal, () => {
       service.app.log.info({ signal }, 'stopping');

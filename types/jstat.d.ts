@@ -8,7 +8,11 @@ declare module 'jstat' {
     inv(p: number, df1: number, df2: number): number;
     cdf(x: number, df1: number, df2: number): number;
   }
-  const jStat: { studentt: StudentT; centralF: CentralF };
+  interface Normal {
+    inv(p: number, mean: number, sd: number): number;
+    cdf(x: number, mean: number, sd: number): number;
+  }
+  const jStat: { studentt: StudentT; centralF: CentralF; normal: Normal };
   export default jStat;
   export { jStat };
 }

@@ -8,6 +8,7 @@ import {
   DEFAULT_MIN_COVERAGE,
   DEFAULT_MIN_POINTS_PER_SEGMENT,
   DEFAULT_SIGNIFICANCE_LEVEL,
+  MAX_POINTS_PER_SEGMENT,
   MODEL_NAMES,
   SIGNIFICANCE_RULE,
   type ModelName,
@@ -95,7 +96,13 @@ function commonOptions(values: Values): CommonOptions {
     unit: unitOption(values.unit),
     minCoverage: numberOption(values.coverage, 'coverage', DEFAULT_MIN_COVERAGE, (v) => v > 0 && v <= 1, 'a fraction in (0, 1], e.g. 0.9'),
     significanceLevel: numberOption(values.alpha, 'alpha', DEFAULT_SIGNIFICANCE_LEVEL, (v) => v > 0 && v < 1, 'a level in (0, 1), e.g. 0.05'),
-    minPointsPerSegment: numberOption(values['min-points'], 'min-points', DEFAULT_MIN_POINTS_PER_SEGMENT, (v) => Number.isInteger(v) && v >= 1, 'a whole number of at least 1'),
+    minPointsPerSegment: numberOption(
+      values['min-points'],
+      'min-points',
+      DEFAULT_MIN_POINTS_PER_SEGMENT,
+      (v) => Number.isInteger(v) && v >= 1 && v <= MAX_POINTS_PER_SEGMENT,
+      `a whole number from 1 to ${MAX_POINTS_PER_SEGMENT}`,
+    ),
   };
 }
 

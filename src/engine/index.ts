@@ -18,7 +18,8 @@ import { fitDocument, type FitDocument, type SavingsDocument } from './documents
 export * from './types.js';
 export { alignPeriods, indexWeather, DEFAULT_MIN_COVERAGE, type AlignmentOptions } from './periods.js';
 export { checkReadings, checkWeather, type InputProblem } from './validate.js';
-export { chooseBaseline, nestedFTest, resolveTemperatureForm, DEFAULT_SIGNIFICANCE_LEVEL, DEFAULT_MIN_POINTS_PER_SEGMENT } from './choose.js';
+export * from './bounds.js';
+export { chooseBaseline, nestedFTest, resolveTemperatureForm, OVERFIT_RATIO, DEFAULT_SIGNIFICANCE_LEVEL, DEFAULT_MIN_POINTS_PER_SEGMENT } from './choose.js';
 export type { BaselineChoice, Candidate, SelectionOptions, Verdict } from './choose.js';
 export { fitShape, fitTemperatureForm, periodsHaveDays } from './fit/fit-shape.js';
 export type { ShapeFit, ShapeFitResult, ShapeFitFailure, Coefficient, ChangepointEstimate, FitStatistics } from './fit/fit-shape.js';

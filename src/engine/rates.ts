@@ -7,6 +7,7 @@
 import { parseIsoDate, formatDayNumber } from './dates.js';
 import type { InputProblem } from './validate.js';
 import { addYears, wholeYearsBetween } from './report-windows.js';
+import { ESCALATION } from './bounds.js';
 
 /**
  * One effective-dated rate. It applies on [from, to); `to` null means
@@ -46,8 +47,8 @@ export function checkRateSchedule(entries: readonly RateEntry[]): InputProblem[]
     if (!Number.isFinite(entry.price)) problems.push({ index, field: 'price', message: 'not a finite number' });
     else if (entry.price < 0) problems.push({ index, field: 'price', message: `negative (${entry.price})` });
     if (!Number.isFinite(entry.escalation)) problems.push({ index, field: 'escalation', message: 'not a finite number' });
-    else if (entry.escalation <= -1 || entry.escalation > 1) {
-      problems.push({ index, field: 'escalation', message: `${entry.escalation} is outside the allowed range (−1, 1] of yearly fractions (0.03 = 3% a year)` });
+    else if (entry.escalation <= ESCALATION.min || entry.escalation > ESCALATION.max) {
+      problems.push({ index, field: 'escalation', message: `${entry.escalation} is outside the allowed range (${ESCALATION.min}, ${ESCALATION.max}] of yearly fractions (0.03 = 3% a year)` });
     }
     if (entry.to === null && index < entries.length - 1) {
       problems.push({ index, field: 'to', message: 'an open-ended entry (to = null) must be the last in the schedule' });

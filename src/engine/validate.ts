@@ -5,6 +5,7 @@
  */
 import type { DailyTemperature, Reading, TemperatureUnit } from './types.js';
 import { parseIsoDate } from './dates.js';
+import { beyondBoundPerDay, MAX_USE_PER_DAY } from './bounds.js';
 import { isPlausibleTemperature, PLAUSIBLE_TEMPERATURE_F, fahrenheitToCelsius, unitSymbol } from './units.js';
 
 export interface InputProblem {
@@ -16,7 +17,11 @@ export interface InputProblem {
   relatedIndex?: number;
 }
 
-/** Problems in a list of readings: bad dates, end ≤ start, bad quantities, duplicates and overlaps. */
+/**
+ * Problems in a list of readings: bad dates, end ≤ start, bad quantities
+ * (not finite, negative, or beyond the use-per-day bound of bounds.ts),
+ * duplicates and overlaps.
+ */
 export function checkReadings(readings: readonly Reading[]): InputProblem[] {
   const problems: InputProblem[] = [];
   const valid: { index: number; start: number; end: number }[] = [];
@@ -27,6 +32,10 @@ export function checkReadings(readings: readonly Reading[]): InputProblem[] {
     if (end === null) problems.push({ index, field: 'end', message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(reading.end)}` });
     if (!Number.isFinite(reading.quantity)) problems.push({ index, field: 'quantity', message: 'not a finite number' });
     else if (reading.quantity < 0) problems.push({ index, field: 'quantity', message: `negative (${reading.quantity})` });
+    else {
+      const beyond = beyondBoundPerDay(reading.quantity, reading.start, reading.end, MAX_USE_PER_DAY);
+      if (beyond) problems.push({ index, field: 'quantity', message: beyond });
+    }
     if (start !== null && end !== null) {
       if (end <= start) problems.push({ index, field: 'end', message: `end ${reading.end} is not after start ${reading.start}` });
       else valid.push({ index, start, end });

@@ -18,6 +18,7 @@ import {
   type SavingsReport,
 } from './savings-report.js';
 import { COMMON_UNITS, sumCommonTotals, sumCosts } from './totals.js';
+import { notAvailableNotices } from './not-available.js';
 
 export interface FacilityInput {
   id: string;
@@ -52,6 +53,12 @@ export function assembleReport(input: ReportInput): SavingsReport {
   const inRollup = meters.filter((m) => m.common !== null);
   const units = [...new Set([...meters.map((m) => canonicalEnergyUnit(m.unit)).filter((u): u is string => u !== undefined), ...COMMON_UNITS])].sort();
 
+  const portfolio = {
+    totals: sumCommonTotals(inRollup.map((m) => m.common!)),
+    cost: sumCosts(meters.flatMap((m) => (m.cost ? [m.cost] : []))),
+    meters: meters.length,
+    metersInRollup: inRollup.length,
+  };
   const body: Omit<SavingsReport, 'contentHash'> = {
     format: REPORT_FORMAT,
     version: REPORT_VERSION,
@@ -59,12 +66,7 @@ export function assembleReport(input: ReportInput): SavingsReport {
     window: input.window,
     confidence: input.confidence,
     dataAsOf: input.dataAsOf,
-    portfolio: {
-      totals: sumCommonTotals(inRollup.map((m) => m.common!)),
-      cost: sumCosts(meters.flatMap((m) => (m.cost ? [m.cost] : []))),
-      meters: meters.length,
-      metersInRollup: inRollup.length,
-    },
+    portfolio,
     facilities,
     baselines: meters.flatMap((m) => (m.baseline && m.missing === null ? [{ meterId: m.id, baselineId: m.baseline.id, version: m.baseline.version, contentHash: m.baseline.contentHash }] : [])),
     normalYears: input.normalYears,
@@ -74,7 +76,7 @@ export function assembleReport(input: ReportInput): SavingsReport {
       return { unit: f.unit, btu: f.btu, mmbtu: f.mmbtu, gj: f.gj };
     }),
     unitFactorSource: ENERGY_FACTOR_SOURCE,
-    notices: notices(facilities),
+    notices: [...notices(facilities), ...notAvailableNotices(facilities, portfolio)],
     caution: REPORT_CAUTION,
   };
   const clean = nonFiniteToNull(body) as Omit<SavingsReport, 'contentHash'>;

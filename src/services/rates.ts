@@ -5,7 +5,7 @@
  * or after a closed last entry have no rate, and reports flag them rather
  * than assume one.
  */
-import { checkRateSchedule, type RateEntry } from '../engine/index.js';
+import { checkRateBounds, checkRateSchedule, type RateEntry } from '../engine/index.js';
 import { Problem } from '../http/problem.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getMeterRow } from './meters.js';
@@ -27,7 +27,7 @@ export interface RateSchedule {
 
 export async function putRates(ctx: ServiceContext, meterId: string, input: { currency: string; rates: readonly RateInput[] }): Promise<RateSchedule> {
   const rates: RateEntry[] = input.rates.map((r) => ({ from: r.from, to: r.to ?? null, price: r.price, escalation: r.escalation ?? 0 }));
-  const problems = checkRateSchedule(rates);
+  const problems = [...checkRateSchedule(rates), ...checkRateBounds(rates)].sort((a, b) => a.index - b.index);
   if (problems.length > 0) {
     const errors = problems.map((p) => ({ field: `rates[${p.index}].${p.field}`, message: p.message }));
     const more = errors.length > 1 ? ` (and ${errors.length - 1} more)` : '';

@@ -5,7 +5,7 @@
  * one needs a stated reason; no period may overlap another; nothing inside a
  * frozen baseline's window may change.
  */
-import { checkReadings, daysBetween, parseIsoDate } from '../engine/index.js';
+import { beyondBoundPerDay, checkReadings, daysBetween, MAX_COST_PER_DAY, parseIsoDate } from '../engine/index.js';
 import type { NewReadingRow, ReadingRow } from '../store/schema.js';
 import { Problem, type FieldError } from '../http/problem.js';
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
@@ -152,7 +152,7 @@ export async function postReadings(
   });
 }
 
-/** Field checks and in-batch duplicates and overlaps, by the engine's rules, plus cost. */
+/** Field checks and in-batch duplicates and overlaps, by the engine's rules, plus cost (finite, not negative, within its bound per day). */
 function checkBatch(readings: readonly ReadingInput[], locate: RecordLocator): void {
   if (readings.length === 0) {
     throw new Problem('validation', 'readings: at least one reading is needed', [{ field: 'readings', message: 'empty' }]);
@@ -172,6 +172,10 @@ function checkBatch(readings: readonly ReadingInput[], locate: RecordLocator): v
     if (cost === undefined || cost === null) continue;
     if (!Number.isFinite(cost)) errors.push({ field: locate(i, 'cost'), message: 'not a finite number' });
     else if (cost < 0) errors.push({ field: locate(i, 'cost'), message: `negative (${cost})` });
+    else {
+      const beyond = beyondBoundPerDay(cost, readings[i]!.start, readings[i]!.end, MAX_COST_PER_DAY);
+      if (beyond) errors.push({ field: locate(i, 'cost'), message: beyond });
+    }
   }
   if (errors.length > 0) {
     throw new Problem('validation', `${errors[0]!.field}: ${errors[0]!.message}${andMore(errors.length)}`, errors.slice(0, MAX_LISTED_ERRORS));

@@ -6,7 +6,10 @@
  *
  * `postgres://user@host:port/database` selects PostgreSQL through pg's pool;
  * an extra `schema=NAME` query parameter puts every table in that schema
- * (created if missing), which is how tests give every run its own.
+ * (created if missing), which is how tests give every run its own. A
+ * PostgreSQL connection that dies never takes the process with it: the pool
+ * and every client have an error handler, and a read that lost its
+ * connection is retried once (faults.ts says which errors those are).
  */
 import { mkdirSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
@@ -21,12 +24,16 @@ import {
   sql,
   type DatabaseConnection,
   type Driver,
+  type PostgresDialectConfig,
+  type QueryCompiler,
+  type QueryResult,
   type SqliteDialectConfig,
   type Transaction,
   type TransactionSettings,
 } from 'kysely';
 import pg from 'pg';
 import type { Database } from './schema.js';
+import { databaseFault, faultRecord, type DatabaseFault } from './faults.js';
 
 export type Dialect = 'sqlite' | 'postgres';
 
@@ -37,6 +44,24 @@ export interface Store {
   location: string;
   close(): Promise<void>;
 }
+
+/** What the store reports about database faults it survived (a dropped connection, a retried read). */
+export interface StoreEvent {
+  event: 'connection-error' | 'read-retried' | 'transaction-start-retried';
+  fault: DatabaseFault | null;
+  code?: string;
+  message: string;
+}
+
+export interface StoreOptions {
+  /** Told of every database fault the store survives; for the log. Never given a secret. */
+  onEvent?: (event: StoreEvent) => void;
+}
+
+/** How long to wait for a new PostgreSQL connection before answering that the database is unreachable. */
+export const POSTGRES_CONNECT_TIMEOUT_MS = 5000;
+/** Pause before a read is retried on a fresh connection (our own figure: long enough for the pool to hear of its other dead connections). */
+const RETRY_PAUSE_MS = 50;
 
 export const SQLITE_BUSY_TIMEOUT_MS = 5000;
 
@@ -55,9 +80,9 @@ export function parseDatabaseUrl(url: string): { dialect: Dialect; location: str
   throw new DatabaseUrlError('DATABASE_URL must start with sqlite: (for example sqlite:./var/mvledger.sqlite)');
 }
 
-export function openStore(url: string): Store {
+export function openStore(url: string, options: StoreOptions = {}): Store {
   const { dialect, location } = parseDatabaseUrl(url);
-  return dialect === 'postgres' ? openPostgres(location) : openSqlite(location);
+  return dialect === 'postgres' ? openPostgres(location, options) : openSqlite(location);
 }
 
 const SCHEMA_NAME = /^[a-z_][a-z0-9_]{0,62}$/;
@@ -80,24 +105,159 @@ function withoutPassword(url: string): string {
   return parsed.toString();
 }
 
-function openPostgres(url: string): Store {
+function openPostgres(url: string, options: StoreOptions): Store {
   const { connectionString, schema } = splitPostgresUrl(url);
   const pool = new pg.Pool({
     connectionString,
     max: 10,
+    connectionTimeoutMillis: POSTGRES_CONNECT_TIMEOUT_MS,
     ...(schema ? { options: `-c search_path=${schema}` } : {}),
   });
-  // A pooled connection that drops is replaced; the error must not crash the process.
-  pool.on('error', () => {});
+  const tell = (event: StoreEvent['event'], error: unknown) => options.onEvent?.({ event, ...faultRecord(error) });
+  // A connection that dies (a terminated backend, a restart, a failover) emits 'error': on the pool
+  // while idle, on the client while it serves a query. Unheard, either event ends the process.
+  // The pool drops the dead client; the query it served fails and is answered (or retried).
+  pool.on('error', (error) => tell('connection-error', error));
+  pool.on('connect', (client) => client.on('error', (error) => tell('connection-error', error)));
   const db = new Kysely<Database>({
-    dialect: new PostgresDialect({
-      pool: async () => {
-        if (schema) await createSchemaIfMissing(pool, schema);
-        return pool;
+    dialect: new ReadRetryPostgresDialect(
+      {
+        pool: async () => {
+          if (schema) await createSchemaIfMissing(pool, schema);
+          return pool;
+        },
       },
-    }),
+      tell,
+    ),
   });
   return { db, dialect: 'postgres', location: `postgresql ${withoutPassword(url)}`, close: () => db.destroy() };
+}
+
+/**
+ * kysely's PostgreSQL dialect with one retry where a retry cannot store
+ * anything twice: a read-only statement outside a transaction whose
+ * connection died is run again, once, on a fresh connection; a transaction
+ * whose first statement (BEGIN) found its connection dead starts again on a
+ * fresh one. Anything else that fails on a dead connection (a statement in
+ * a transaction, a commit) fails, and the caller answers it.
+ */
+class ReadRetryPostgresDialect extends PostgresDialect {
+  readonly #tell: (event: StoreEvent['event'], error: unknown) => void;
+  constructor(config: PostgresDialectConfig, tell: (event: StoreEvent['event'], error: unknown) => void) {
+    super(config);
+    this.#tell = tell;
+  }
+  override createDriver(): Driver {
+    return new ReadRetryDriver(super.createDriver(), this.#tell);
+  }
+}
+
+/** The connection kysely sees: it can swap the pooled connection under it for a fresh one. */
+class SwappableConnection implements DatabaseConnection {
+  inTransaction = false;
+  constructor(
+    public current: DatabaseConnection,
+    private readonly driver: ReadRetryDriver,
+  ) {}
+
+  async executeQuery<R>(query: CompiledQuery): Promise<QueryResult<R>> {
+    try {
+      return await this.current.executeQuery<R>(query);
+    } catch (error) {
+      if (this.inTransaction || !isReadOnly(query) || !isConnectionLoss(error)) throw error;
+      this.driver.tell('read-retried', error);
+      await this.swap();
+      return this.current.executeQuery<R>(query);
+    }
+  }
+
+  streamQuery<R>(query: CompiledQuery, chunkSize?: number): AsyncIterableIterator<QueryResult<R>> {
+    return this.current.streamQuery<R>(query, chunkSize);
+  }
+
+  /**
+   * Hand back the dead connection (the pool drops a client that cannot
+   * query) and take a fresh one. The short pause first lets the pool hear of
+   * its other connections that died in the same event (a restart or a
+   * failover ends them all), so the fresh one is not one of them.
+   */
+  async swap(): Promise<void> {
+    const dead = this.current;
+    await new Promise((resolve) => setTimeout(resolve, RETRY_PAUSE_MS));
+    this.current = await this.driver.inner.acquireConnection();
+    await this.driver.inner.releaseConnection(dead).catch(() => {});
+  }
+}
+
+class ReadRetryDriver implements Driver {
+  constructor(
+    readonly inner: Driver,
+    readonly tell: (event: StoreEvent['event'], error: unknown) => void,
+  ) {}
+
+  init(): Promise<void> {
+    return this.inner.init();
+  }
+  async acquireConnection(): Promise<DatabaseConnection> {
+    return new SwappableConnection(await this.inner.acquireConnection(), this);
+  }
+  async beginTransaction(connection: DatabaseConnection, settings: TransactionSettings): Promise<void> {
+    const swappable = connection as SwappableConnection;
+    try {
+      await this.inner.beginTransaction(swappable.current, settings);
+    } catch (error) {
+      // Nothing has run in the transaction yet: starting it again on a fresh connection repeats nothing.
+      if (!isConnectionLoss(error)) throw error;
+      this.tell('transaction-start-retried', error);
+      await swappable.swap();
+      await this.inner.beginTransaction(swappable.current, settings);
+    }
+    swappable.inTransaction = true;
+  }
+  async commitTransaction(connection: DatabaseConnection): Promise<void> {
+    const swappable = connection as SwappableConnection;
+    try {
+      await this.inner.commitTransaction(swappable.current);
+    } finally {
+      swappable.inTransaction = false;
+    }
+  }
+  async rollbackTransaction(connection: DatabaseConnection): Promise<void> {
+    const swappable = connection as SwappableConnection;
+    swappable.inTransaction = false;
+    try {
+      await this.inner.rollbackTransaction(swappable.current);
+    } catch (error) {
+      // A dead connection's transaction is already rolled back by the server; the error that ended it is the one to report.
+      if (!databaseFault(error)) throw error;
+    }
+  }
+  async savepoint(connection: DatabaseConnection, name: string, compile: QueryCompiler['compileQuery']): Promise<void> {
+    await this.inner.savepoint!((connection as SwappableConnection).current, name, compile);
+  }
+  async rollbackToSavepoint(connection: DatabaseConnection, name: string, compile: QueryCompiler['compileQuery']): Promise<void> {
+    await this.inner.rollbackToSavepoint!((connection as SwappableConnection).current, name, compile);
+  }
+  async releaseSavepoint(connection: DatabaseConnection, name: string, compile: QueryCompiler['compileQuery']): Promise<void> {
+    await this.inner.releaseSavepoint!((connection as SwappableConnection).current, name, compile);
+  }
+  releaseConnection(connection: DatabaseConnection): Promise<void> {
+    return this.inner.releaseConnection((connection as SwappableConnection).current);
+  }
+  destroy(): Promise<void> {
+    return this.inner.destroy();
+  }
+}
+
+/** A connection that died under a statement (not one that could never be made: retrying that at once finds the same). */
+function isConnectionLoss(error: unknown): boolean {
+  return databaseFault(error) === 'connection-lost';
+}
+
+/** A statement that only reads: a SELECT built by kysely, or raw SQL that is a plain SELECT. */
+function isReadOnly(query: CompiledQuery): boolean {
+  if (query.query.kind === 'SelectQueryNode') return true;
+  return query.query.kind === 'RawNode' && /^\s*select\b/i.test(query.sql) && !/\bfor\s+(update|share|no\s+key|key)\b/i.test(query.sql);
 }
 
 /**
@@ -138,9 +298,15 @@ export function writeTransaction<T>(db: Kysely<Database>, organisationId: string
  * write of this process lands between its queries either. For reads that
  * must agree with each other (an export, a report and the audit head it names).
  */
-export function readSnapshot<T>(db: Kysely<Database>, work: (trx: Transaction<Database>) => Promise<T>): Promise<T> {
-  const snapshot = db.getExecutor().adapter instanceof PostgresAdapter ? db.transaction().setIsolationLevel('repeatable read') : db.transaction();
-  return snapshot.execute(work);
+export async function readSnapshot<T>(db: Kysely<Database>, work: (trx: Transaction<Database>) => Promise<T>): Promise<T> {
+  const run = () => (db.getExecutor().adapter instanceof PostgresAdapter ? db.transaction().setIsolationLevel('repeatable read') : db.transaction()).execute(work);
+  try {
+    return await run();
+  } catch (error) {
+    // Read-only by contract: when its connection died, the whole snapshot is read again, once.
+    if (databaseFault(error) !== 'connection-lost') throw error;
+    return run();
+  }
 }
 
 /** Take the organisation's write lock inside a transaction (PostgreSQL; a no-op on SQLite). */

@@ -4,7 +4,8 @@
  * file, header = 1) and the field. Synthetic: each case plants one fault in
  * otherwise good data, so the test sets the expected row and field. The
  * message patterns are the engine's wording (validate.ts) or the CLI's own
- * (src/cli/input); the plausible range -80…140 °F is the engine's bound.
+ * (src/cli/input); the plausible range -80…140 °F and the use-per-day
+ * bound of 1e12 are the engine's bounds.
  */
 import { afterAll, describe, expect, it } from 'vitest';
 import { makeTempFolder, readingsCsv, runCli, syntheticBills, syntheticWeather, weatherCsv } from './helpers.js';
@@ -40,6 +41,8 @@ const readingsCases: BadCase[] = [
   { name: 'overlapping periods', readings: withLine(goodReadingLines, 5, '2022-03-27,2022-05-01,30000'), row: 5, field: 'start', says: /overlaps the period 2022-03-01\.\.2022-04-01 \(row 4\)$/m },
   { name: 'a duplicate period', readings: withLine(goodReadingLines, 6, '2022-04-01,2022-05-01,30000'), row: 6, field: 'start', says: /duplicates the period 2022-04-01\.\.2022-05-01 \(row 5\)$/m },
   { name: 'a negative quantity', readings: withLine(goodReadingLines, 3, '2022-02-01,2022-03-01,-5'), row: 3, field: 'quantity', says: /negative/ },
+  // our own bound (src/engine/bounds.ts): 1e12 a day; 28 days of 1.8e308 is far beyond it, and a bill at the bound itself is accepted elsewhere
+  { name: 'a quantity near the largest double', readings: withLine(goodReadingLines, 3, '2022-02-01,2022-03-01,1.7976931348623157e308'), row: 3, field: 'quantity', says: /a day, beyond the bound of 1e12/ },
   { name: 'a non-numeric quantity', readings: withLine(goodReadingLines, 9, '2022-08-01,2022-09-01,12a'), row: 9, field: 'quantity', says: /not a number: "12a"/ },
   { name: 'an empty quantity', readings: withLine(goodReadingLines, 9, '2022-08-01,2022-09-01,'), row: 9, field: 'quantity', says: /empty/ },
   { name: 'a quantity with thousands separators', readings: withLine(goodReadingLines, 9, '2022-08-01,2022-09-01,"31,000"'), row: 9, field: 'quantity', says: /thousands separators/ },

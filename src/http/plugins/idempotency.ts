@@ -10,6 +10,7 @@ import type { FastifyInstance, FastifyRequest } from 'fastify';
 import type { Store } from '../../store/connect.js';
 import { canonicalJson, sha256Hex } from '../../lib/canonical-json.js';
 import { Problem } from '../problem.js';
+import { databaseFault, faultRecord } from '../../store/faults.js';
 
 export const IDEMPOTENCY_HEADER = 'idempotency-key';
 const STALE_AFTER_MS = 60_000;
@@ -78,12 +79,19 @@ export function installIdempotency(app: FastifyInstance, store: Store, now: () =
     if (!pending) return payload;
     request.idempotency = undefined;
     const where = store.db.updateTable('idempotency_keys').where('organisation_id', '=', pending.organisationId).where('key', '=', pending.key);
-    if (reply.statusCode >= 200 && reply.statusCode < 300 && (typeof payload === 'string' || Buffer.isBuffer(payload))) {
-      await where
-        .set({ status_code: reply.statusCode, response_body: payload.toString(), content_type: String(reply.getHeader('content-type') ?? '') })
-        .execute();
-    } else {
-      await store.db.deleteFrom('idempotency_keys').where('organisation_id', '=', pending.organisationId).where('key', '=', pending.key).execute();
+    try {
+      if (reply.statusCode >= 200 && reply.statusCode < 300 && (typeof payload === 'string' || Buffer.isBuffer(payload))) {
+        await where
+          .set({ status_code: reply.statusCode, response_body: payload.toString(), content_type: String(reply.getHeader('content-type') ?? '') })
+          .execute();
+      } else {
+        await store.db.deleteFrom('idempotency_keys').where('organisation_id', '=', pending.organisationId).where('key', '=', pending.key).execute();
+      }
+    } catch (error) {
+      // The answer stands: a write already committed is not undone by losing its key's record. The key
+      // stays in flight and is freed after STALE_AFTER_MS; a replay before then is told to retry.
+      if (databaseFault(error) === null) throw error;
+      request.log.warn({ database: faultRecord(error) }, 'idempotency key not recorded: the database is not available');
     }
     return payload;
   });

@@ -1,12 +1,14 @@
 /**
  * Every error leaves as RFC 9457 problem+json naming the field or row. Schema
  * failures name the JSON path (readings[3].end), or for CSV bodies the file
- * row (row 5, field end). Unexpected errors are logged with the request id and
- * answered with a bare 500: no stack, no internals.
+ * row (row 5, field end). A database that is busy, unreachable or lost its
+ * connection is a 503 with Retry-After. Unexpected errors are logged with the
+ * request id and answered with a bare 500: no stack, no internals.
  */
 import type { FastifyError, FastifyInstance, FastifyReply, FastifyRequest } from 'fastify';
 import { hasZodFastifySchemaValidationErrors } from 'fastify-type-provider-zod';
 import { Problem, PROBLEM_CONTENT_TYPE, type FieldError } from '../problem.js';
+import { databaseFault, type DatabaseFault } from '../../store/faults.js';
 
 /** Set by the CSV body parser: maps a record index to its line in the CSV text. */
 declare module 'fastify' {
@@ -45,6 +47,22 @@ function validationProblem(error: FastifyError & { validation: { instancePath: s
   return new Problem('validation', `${first.field}: ${first.message}${more}`, errors);
 }
 
+/** Seconds a client should wait before retrying, by fault: a busy SQLite file frees in moments; a restarting server takes longer. */
+const RETRY_AFTER_SECONDS: Record<DatabaseFault, number> = { busy: 1, 'connection-lost': 2, unreachable: 5 };
+
+/**
+ * A database that is not available right now (store/faults.ts): 503 with
+ * Retry-After, never a 500. Writes run in one transaction, so a write that
+ * failed this way stored all of its rows or none of them.
+ */
+function unavailableProblem(fault: DatabaseFault, request: FastifyRequest): Problem {
+  request.log.warn({ database: fault }, 'database not available: answered 503');
+  if (fault === 'busy') return new Problem('unavailable', 'the database is busy with another writer; nothing was stored, retry shortly');
+  const what = fault === 'unreachable' ? 'cannot be reached' : 'connection was lost';
+  const write = request.method === 'GET' || request.method === 'HEAD' ? '' : '; a write is stored whole or not at all, so send it again (a reading batch already stored is reported unchanged)';
+  return new Problem('unavailable', `the database ${what}; retry shortly${write}`, undefined, { database: fault === 'unreachable' ? 'unreachable' : 'connection-lost' });
+}
+
 export function installProblemHandling(app: FastifyInstance): void {
   app.setErrorHandler((error: FastifyError, request, reply) => {
     if (error instanceof Problem) return sendProblem(request, reply, error);
@@ -64,11 +82,8 @@ export function installProblemHandling(app: FastifyInstance): void {
     if (error.statusCode === 400 && error instanceof SyntaxError) {
       return sendProblem(request, reply, new Problem('validation', 'the body is not valid JSON', [{ field: '(body)', message: 'not valid JSON' }]));
     }
-    if (typeof error.code === 'string' && error.code.startsWith('SQLITE_BUSY')) {
-      // Another process held the database past the busy timeout: nothing was stored; try again.
-      reply.header('retry-after', '1');
-      return sendProblem(request, reply, new Problem('unavailable', 'the database is busy with another writer; nothing was stored, retry shortly'));
-    }
+    const fault = databaseFault(error);
+    if (fault !== null) return sendProblem(request, reply.header('retry-after', String(RETRY_AFTER_SECONDS[fault])), unavailableProblem(fault, request));
     if (typeof error.statusCode === 'number' && error.statusCode >= 400 && error.statusCode < 500) {
       return sendProblem(request, reply, new Problem('validation', error.message.replace(/\s+/g, ' ').slice(0, 300)));
     }

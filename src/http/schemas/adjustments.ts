@@ -1,18 +1,25 @@
 /** Non-routine adjustments: the body of a new one and the stored record. */
 import { z } from 'zod';
-import { finite, isoDate, plainText } from './common.js';
+import { beyondBoundPerDay, boundText, MAX_USE_PER_DAY } from '../../engine/index.js';
+import { boundedNumber, finite, isoDate, plainText } from './common.js';
 
 export const createAdjustmentBody = z
   .object({
     start: isoDate.describe('First day covered'),
     end: isoDate.describe('Day after the last day covered (end exclusive)'),
-    quantity: finite.optional().describe('Total over [start, end), in the meter’s unit, spread evenly over the days; + adds to the adjusted baseline'),
-    perDay: finite.optional().describe('Or a figure per day, in the meter’s unit'),
+    quantity: finite
+      .optional()
+      .describe(`Total over [start, end), in the meter’s unit, spread evenly over the days; + adds to the adjusted baseline; at most ±${boundText(MAX_USE_PER_DAY.max)} a day`),
+    perDay: boundedNumber(MAX_USE_PER_DAY).optional().describe('Or a figure per day, in the meter’s unit'),
     reason: plainText().trim().min(3, 'must say why (at least 3 characters)').max(2000, 'must be at most 2000 characters').describe('The documented change the weather model cannot see'),
   })
   .strict()
   .refine((body) => body.end > body.start, { path: ['end'], message: 'must be after start' })
   .refine((body) => (body.quantity === undefined) !== (body.perDay === undefined), { path: ['quantity'], message: 'give either quantity or perDay' })
+  .superRefine((body, ctx) => {
+    const beyond = body.quantity === undefined ? null : beyondBoundPerDay(body.quantity, body.start, body.end, MAX_USE_PER_DAY);
+    if (beyond) ctx.addIssue({ code: 'custom', path: ['quantity'], message: beyond });
+  })
   .describe('A non-routine adjustment: positive figures add to the adjusted baseline (added floor area), negative ones take away (a closed wing).');
 
 export const adjustmentSchema = z

@@ -1,6 +1,6 @@
 /** Baselines: request bodies and the fit document as the API returns it. */
 import { z } from 'zod';
-import { MODEL_NAMES, TEMPERATURE_FORMS } from '../../engine/index.js';
+import { MAX_POINTS_PER_SEGMENT, MODEL_NAMES, TEMPERATURE_FORMS } from '../../engine/index.js';
 import { isoDate, plainText } from './common.js';
 
 /** A statistic: JSON has no NaN or Infinity, so a non-finite value is sent as null. */
@@ -18,7 +18,7 @@ export const baselineOptions = z
   .object({
     minCoverage: z.number().gt(0, 'must be above 0').lte(1, 'must be at most 1').optional().describe('Share of a period’s days that must have weather (default 0.9)'),
     significanceLevel: z.number().gt(0, 'must be above 0').lt(1, 'must be below 1').optional().describe('Two-sided α of the slope t-tests and the F-test (default 0.05)'),
-    minPointsPerSegment: z.number().int('must be a whole number').min(1, 'must be at least 1').max(1000).optional().describe('Fewest periods in each segment of a changepoint shape (default 3)'),
+    minPointsPerSegment: z.number().int('must be a whole number').min(1, 'must be at least 1').max(MAX_POINTS_PER_SEGMENT, `must be at most ${MAX_POINTS_PER_SEGMENT}`).optional().describe('Fewest periods in each segment of a changepoint shape (default 3)'),
     allowSameSignFourPoint: z.boolean().optional().describe('Accept a 4P whose two slopes have the same sign (default false)'),
   })
   .strict();

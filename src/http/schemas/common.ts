@@ -3,7 +3,7 @@
  * validation, TypeScript types and the OpenAPI document.
  */
 import { z } from 'zod';
-import { isIsoDate } from '../../engine/index.js';
+import { boundText, isIsoDate, type InputBound } from '../../engine/index.js';
 
 /** A real calendar date, YYYY-MM-DD (2025-02-30 is refused). */
 export const isoDate = z
@@ -14,6 +14,20 @@ export const isoDate = z
 
 /** A finite number (JSON has no NaN or Infinity, but say so plainly). */
 export const finite = z.number().refine(Number.isFinite, 'must be a finite number');
+
+/**
+ * A finite number within one of the engine's input bounds (src/engine/bounds.ts),
+ * not negative when `nonNegative`; the bound shows in the OpenAPI document
+ * as the minimum and maximum.
+ */
+export function boundedNumber(bound: InputBound, options: { nonNegative?: boolean } = {}) {
+  const beyond = `must be within ±${boundText(bound.max)} ${bound.per} (a larger figure is taken as a typing or unit error)`;
+  return z
+    .number()
+    .refine(Number.isFinite, 'must be a finite number')
+    .min(options.nonNegative ? 0 : -bound.max, options.nonNegative ? 'must not be negative' : beyond)
+    .max(bound.max, beyond);
+}
 
 /**
  * Text a client may send. PostgreSQL text cannot hold U+0000, so no text input

@@ -1,13 +1,14 @@
 /** A facility's performance contract and its guaranteed savings per contract year. */
 import { z } from 'zod';
-import { isoDate, plainText } from './common.js';
+import { MAX_GUARANTEE_COST, MAX_GUARANTEE_ENERGY } from '../../engine/index.js';
+import { boundedNumber, isoDate, plainText } from './common.js';
 import { currency } from './rates.js';
 
 const guarantee = z
   .object({
     year: z.number().int().min(1, 'contract years count from 1'),
-    energy: z.number().refine(Number.isFinite, 'must be a finite number').nullable().optional().describe('Guaranteed avoided energy in the contract’s energyUnit'),
-    cost: z.number().refine(Number.isFinite, 'must be a finite number').nullable().optional().describe('Guaranteed cost avoided in the contract currency'),
+    energy: boundedNumber(MAX_GUARANTEE_ENERGY).nullable().optional().describe('Guaranteed avoided energy in the contract’s energyUnit'),
+    cost: boundedNumber(MAX_GUARANTEE_COST).nullable().optional().describe('Guaranteed cost avoided in the contract currency'),
   })
   .strict();
 

@@ -1,12 +1,12 @@
 import { z } from 'zod';
-import { name, plainText } from './common.js';
+import { MAX_FLOOR_AREA } from '../../engine/index.js';
+import { boundedNumber, name, plainText } from './common.js';
 
 export const createFacilityBody = z
   .object({
     name,
     address: plainText().trim().min(1, 'must not be empty').max(500, 'must be at most 500 characters').nullable().optional(),
-    floorArea: z
-      .number()
+    floorArea: boundedNumber(MAX_FLOOR_AREA)
       .positive('must be greater than 0')
       .nullable()
       .optional()

@@ -1,6 +1,7 @@
 /** Contract rates of a meter: an effective-dated schedule with a yearly escalation. */
 import { z } from 'zod';
-import { finite, isoDate } from './common.js';
+import { boundText, ESCALATION, MAX_PRICE } from '../../engine/index.js';
+import { boundedNumber, finite, isoDate } from './common.js';
 
 export const currency = z.string().regex(/^[A-Z]{3}$/, 'must be a three-letter ISO 4217 code such as USD or EUR');
 
@@ -8,8 +9,10 @@ const rateEntry = z
   .object({
     from: isoDate.describe('First day the rate applies'),
     to: isoDate.nullable().optional().describe('Day after the last (exclusive); omit or null for the open-ended last entry'),
-    price: finite.describe('Currency per unit of the meter'),
-    escalation: finite.optional().describe('Yearly escalation as a fraction (0.03 = 3% a year), applied on each anniversary of from; default 0'),
+    price: boundedNumber(MAX_PRICE, { nonNegative: true }).describe(`Currency per unit of the meter (at most ${boundText(MAX_PRICE.max)})`),
+    escalation: finite
+      .optional()
+      .describe(`Yearly escalation as a fraction (0.03 = 3% a year), applied on each anniversary of from; above ${ESCALATION.min} and at most ${ESCALATION.max}; default 0`),
   })
   .strict();
 

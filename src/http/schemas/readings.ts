@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { boundText, MAX_COST_PER_DAY, MAX_USE_PER_DAY } from '../../engine/index.js';
 import { finite, isoDate, plainText } from './common.js';
 
 /** Largest batch in one request; the service enforces the same limit. */
@@ -10,9 +11,9 @@ export const readingInput = z
   .object({
     start: isoDate.describe('First day of the period'),
     end: isoDate.describe('Day after the last day of the period (the next read date)'),
-    quantity: nonNegative.describe("Energy over the period, in the meter's unit"),
+    quantity: nonNegative.describe(`Energy over the period, in the meter's unit; at most ${boundText(MAX_USE_PER_DAY.max)} a day (quantity / days)`),
     estimated: z.boolean().optional().describe('The reading is an estimate, not an actual read (default false)'),
-    cost: nonNegative.nullable().optional().describe('Billed cost of the period, if known'),
+    cost: nonNegative.nullable().optional().describe(`Billed cost of the period, if known; at most ${boundText(MAX_COST_PER_DAY.max)} a day (cost / days)`),
   })
   .strict();
 

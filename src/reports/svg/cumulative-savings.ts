@@ -6,7 +6,7 @@
  * so a year not yet complete shows how much of it is still to come.
  */
 import { coord, element, escapeXml, truncate } from './xml.js';
-import { axisScale, tickLabel } from './ticks.js';
+import { axisFraction, axisScale, finiteExtent, tickLabel } from './ticks.js';
 import { chartOpen, legendRow, plotNote, PALETTE, valueAxis, valueGrid, type LegendItem, type PlotBox } from './chart-frame.js';
 import { dateTicks, dayOf, type DateTick } from './date-axis.js';
 
@@ -42,14 +42,14 @@ export function renderCumulativeSavingsSvg(data: CumulativeSavingsData): string 
 
   const values = [0, ...points.map((p) => p.value)];
   if (guaranteed !== null) values.push(guaranteed);
-  if (last !== null && uncertainty !== null) values.push(last.value - uncertainty, last.value + uncertainty);
+  // A band reaching past the largest double is drawn to the axis's end.
+  if (last !== null && uncertainty !== null) values.push(held(last.value - uncertainty), held(last.value + uncertainty));
   // With nothing but zeros to show, a 0..1 axis reads better than one centred on zero.
   // Headroom above the highest value keeps the guarantee's label inside the plot.
-  const low = Math.min(...values);
-  const high = Math.max(...values);
-  const y = axisScale(low, high > low ? high + 0.06 * (high - low) : low + 1);
+  const { min: low, max: high } = finiteExtent(values) ?? { min: 0, max: 0 };
+  const y = axisScale(low, high > low ? held(high + 0.06 * (high / 2 - low / 2) * 2) : low + 1);
   const px = (day: number) => BOX.left + ((day - span.start) / (span.end - span.start)) * (BOX.right - BOX.left);
-  const py = (v: number) => BOX.bottom - ((v - y.min) / (y.max - y.min)) * (BOX.bottom - BOX.top);
+  const py = (v: number) => BOX.bottom - axisFraction(y, v) * (BOX.bottom - BOX.top);
 
   const title = truncate(data.title, 70);
   const latest = last === null ? 'no periods counted yet' : `${amount(last.value)} ${data.unit}${uncertainty === null ? '' : ` ± ${amount(uncertainty)}`} to date`;
@@ -76,6 +76,12 @@ export function renderCumulativeSavingsSvg(data: CumulativeSavingsData): string 
   return `${parts.filter((p) => p !== '').join('\n')}\n`;
 }
 
+/** A sum held to the finite range (±Number.MAX_VALUE). */
+function held(value: number): number {
+  if (Number.isNaN(value)) return 0;
+  return Math.min(Math.max(value, -Number.MAX_VALUE), Number.MAX_VALUE);
+}
+
 /** A value as a short grouped label, with decimals to suit its size. */
 function amount(value: number): string {
   return tickLabel(Number(value.toFixed(decimals(value))), decimals(value));
@@ -90,13 +96,12 @@ function decimals(value: number): number {
 function xSpan(data: CumulativeSavingsData, points: readonly { day: number }[]): { start: number; end: number } {
   const start = dayOf(data.yearStart);
   const end = dayOf(data.yearEnd);
+  const days = finiteExtent(points.map((p) => p.day));
   if (start !== null && end !== null && end > start) {
-    const lastDay = Math.max(end, ...points.map((p) => p.day));
-    return { start: Math.min(start, ...points.map((p) => p.day)), end: lastDay };
+    return { start: Math.min(start, days?.min ?? start), end: Math.max(end, days?.max ?? end) };
   }
-  const days = points.map((p) => p.day);
-  const low = days.length > 0 ? Math.min(...days) : 0;
-  const high = days.length > 0 ? Math.max(...days) : 1;
+  const low = days?.min ?? 0;
+  const high = days?.max ?? 1;
   return high > low ? { start: low, end: high } : { start: low - 1, end: low + 1 };
 }
 
@@ -131,8 +136,8 @@ function guaranteeLine(guaranteed: number | null, unit: string, py: (v: number) 
 
 function band(last: { day: number; value: number }, uncertainty: number, unit: string, px: (day: number) => number, py: (v: number) => number): string {
   const x = px(last.day);
-  const top = py(last.value + uncertainty);
-  const bottom = py(last.value - uncertainty);
+  const top = py(held(last.value + uncertainty));
+  const bottom = py(held(last.value - uncertainty));
   const tip = `± ${amount(uncertainty)} ${unit} around the latest cumulative total`;
   return [
     element(

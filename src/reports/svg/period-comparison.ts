@@ -6,7 +6,7 @@
  * band with a marker above, because the model extrapolates there.
  */
 import { coord, element, escapeXml, truncate } from './xml.js';
-import { axisScale, tickLabel } from './ticks.js';
+import { axisFraction, axisScale, finiteExtent, tickLabel } from './ticks.js';
 import { chartOpen, legendRow, plotNote, PALETTE, valueAxis, valueGrid, type LegendItem, type PlotBox } from './chart-frame.js';
 import { dayOf } from './date-axis.js';
 import { formatDayNumber } from '../../engine/dates.js';
@@ -33,10 +33,10 @@ const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', '
 /** The chart as SVG text; a pure function of its data. */
 export function renderPeriodComparisonSvg(data: PeriodComparisonData): string {
   const periods = data.periods;
-  const values = periods.flatMap((p) => [p.actual, p.adjustedBaseline]).filter(Number.isFinite);
+  const values = finiteExtent(periods.flatMap((p) => [p.actual, p.adjustedBaseline]));
   // Bars start at zero, so the scale always includes it.
-  const y = axisScale(Math.min(0, ...values), Math.max(0, ...values));
-  const py = (v: number) => BOX.bottom - ((finite(v) - y.min) / (y.max - y.min)) * (BOX.bottom - BOX.top);
+  const y = axisScale(Math.min(0, values?.min ?? 0), Math.max(0, values?.max ?? 0));
+  const py = (v: number) => BOX.bottom - axisFraction(y, finite(v)) * (BOX.bottom - BOX.top);
   const outside = periods.filter((p) => p.outsideBaselineRange).length;
 
   const title = truncate(data.title, 70);

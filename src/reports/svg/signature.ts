@@ -6,7 +6,7 @@
  * engine call; the caller hands in points the engine has already computed.
  */
 import { coord, element, escapeXml, truncate } from './xml.js';
-import { axisScale, tickLabel, type AxisScale } from './ticks.js';
+import { axisFraction, axisScale, finiteExtent, tickLabel, type AxisScale } from './ticks.js';
 import { FONT, PALETTE } from './chart-frame.js';
 
 export interface SignaturePoint {
@@ -44,13 +44,13 @@ const DIAMOND = 5.6;
 
 export function renderSignatureSvg(data: SignatureChartData): string {
   const all = [...data.baseline, ...data.fittedLine, ...data.reporting];
-  const temps = all.map((p) => p.temp).filter(Number.isFinite);
-  const uses = all.map((p) => p.usePerDay).filter(Number.isFinite);
-  const x = axisScale(Math.min(...temps), Math.max(...temps));
+  const temps = finiteExtent(all.map((p) => p.temp));
+  const uses = finiteExtent(all.map((p) => p.usePerDay));
+  const x = axisScale(temps?.min ?? Number.NaN, temps?.max ?? Number.NaN);
   // Use per day starts at zero so the base load reads in proportion.
-  const y = axisScale(Math.min(0, ...uses), Math.max(...uses));
-  const px = (t: number) => PLOT.left + ((t - x.min) / (x.max - x.min)) * (PLOT.right - PLOT.left);
-  const py = (u: number) => PLOT.bottom - ((u - y.min) / (y.max - y.min)) * (PLOT.bottom - PLOT.top);
+  const y = axisScale(Math.min(0, uses?.min ?? 0), uses?.max ?? Number.NaN);
+  const px = (t: number) => PLOT.left + axisFraction(x, t) * (PLOT.right - PLOT.left);
+  const py = (u: number) => PLOT.bottom - axisFraction(y, u) * (PLOT.bottom - PLOT.top);
 
   const degree = data.temperatureUnit === 'F' ? '°F' : '°C';
   const title = `${truncate(data.meterName, 60)}: energy signature`;
@@ -114,7 +114,13 @@ function axes(x: AxisScale, y: AxisScale, px: Project, py: Project, xTitle: stri
   ].join('');
 }
 
-function fittedLine(points: readonly SignaturePoint[], px: Project, py: Project): string {
+/** Only points with both coordinates finite are drawn (a chart never invents a position). */
+function drawable(points: readonly SignaturePoint[]): SignaturePoint[] {
+  return points.filter((p) => Number.isFinite(p.temp) && Number.isFinite(p.usePerDay));
+}
+
+function fittedLine(all: readonly SignaturePoint[], px: Project, py: Project): string {
+  const points = drawable(all);
   if (points.length < 2) return '';
   const coordinates = points.map((p) => `${coord(px(p.temp))},${coord(py(p.usePerDay))}`).join(' ');
   return element('polyline', { class: 'fit-line', points: coordinates, fill: 'none', stroke: PALETTE.line, 'stroke-width': 2.4, 'stroke-linejoin': 'round' });
@@ -125,7 +131,7 @@ function tooltip(point: SignaturePoint): string | undefined {
 }
 
 function baselineMarks(points: readonly SignaturePoint[], px: Project, py: Project): string {
-  const marks = points.map((p) => element('circle', { class: 'mark-baseline', cx: px(p.temp), cy: py(p.usePerDay), r: MARK_RADIUS }, tooltip(p)));
+  const marks = drawable(points).map((p) => element('circle', { class: 'mark-baseline', cx: px(p.temp), cy: py(p.usePerDay), r: MARK_RADIUS }, tooltip(p)));
   return `<g fill="${PALETTE.baselineFill}" fill-opacity="0.85" stroke="${PALETTE.baselineStroke}" stroke-width="1">${marks.join('')}</g>`;
 }
 
@@ -135,7 +141,7 @@ function diamondPath(cx: number, cy: number, size: number): string {
 
 function reportingMarks(points: readonly SignaturePoint[], px: Project, py: Project): string {
   if (points.length === 0) return '';
-  const marks = points.map((p) => element('path', { class: 'mark-reporting', d: diamondPath(px(p.temp), py(p.usePerDay), DIAMOND) }, tooltip(p)));
+  const marks = drawable(points).map((p) => element('path', { class: 'mark-reporting', d: diamondPath(px(p.temp), py(p.usePerDay), DIAMOND) }, tooltip(p)));
   return `<g fill="${PALETTE.paper}" fill-opacity="0.6" stroke="${PALETTE.reporting}" stroke-width="1.8">${marks.join('')}</g>`;
 }
 

@@ -8,10 +8,14 @@ export function escapeXml(text: string): string {
   return text.replace(/[\u0000-\u0008\u000b\u000c\u000e-\u001f]/g, '').replace(/[&<>"']/g, (c) => ENTITIES[c]!);
 }
 
-/** A coordinate with at most two decimals (sub-pixel precision is invisible and bloats the file). */
+/** Coordinates are held within ±COORDINATE_LIMIT pixels: far outside any chart, yet always written as a plain decimal. */
+const COORDINATE_LIMIT = 1e6;
+
+/** A coordinate with at most two decimals (sub-pixel precision is invisible and bloats the file); always finite. */
 export function coord(value: number): string {
   if (!Number.isFinite(value)) return '0';
-  return String(Math.round(value * 100) / 100);
+  const held = Math.min(Math.max(value, -COORDINATE_LIMIT), COORDINATE_LIMIT);
+  return String(Math.round(held * 100) / 100);
 }
 
 /** Shorten text to `max` characters with an ellipsis (before escaping). */
