@@ -1,7 +1,8 @@
 import { describe, it, expect } from 'vitest';
 import { chooseBaseline, type BaselineChoice, type Candidate } from '../../src/engine/choose.js';
 import type { ModelName, Period } from '../../src/engine/types.js';
-import { hinge, periodsFromPoints, seededRandom } from '../support/synthetic.js';
+import { hinge, periodsFromPoints, seededRandom, dailyWeather, dailyReadings, monthlyReadings, CLIMATES, type Building } from '../support/synthetic.js';
+import { alignPeriods } from '../../src/engine/periods.js';
 
 function candidate(choice: BaselineChoice, model: ModelName): Candidate {
   const found = choice.candidates.find((c) => c.model === model);
@@ -276,5 +277,32 @@ describe('options', () => {
     expect(selected.guideline14!.cvrmse.limit).toBe(0.0001);
     expect(selected.guideline14!.cvrmse.pass).toBe(false);
     expect(selected.guideline14!.source).toMatch(/from memory/);
+  });
+});
+
+describe('the choice holds its level on meters without weather dependence (seeded simulation; the simulation sets the truth)', () => {
+  const flat: Building = { base: 300, heatingBelow: 55, heatingRate: 0, coolingAbove: 68, coolingRate: 0, dailyNoise: 30, noisePersistence: 0 };
+
+  /** Share of meters given a weather shape, each on its own invented weather. */
+  function weatherShapeShare(meters: number, persistence: number, kind: 'daily' | 'bills'): number {
+    let weatherShapes = 0;
+    for (let seed = 1; seed <= meters; seed++) {
+      const random = seededRandom(7000 + seed);
+      const weather = dailyWeather(CLIMATES.temperate, '2030-01-01', 760, random);
+      const building = { ...flat, noisePersistence: persistence };
+      const readings = kind === 'daily' ? dailyReadings(building, weather.slice(0, 365), random) : monthlyReadings(building, weather, '2030-01-01', 24, random);
+      if (chooseBaseline(alignPeriods(readings, weather).periods).selected !== '1P') weatherShapes++;
+    }
+    return weatherShapes / meters;
+  }
+
+  it('bills: a weather shape on at most 5% + Monte Carlo slack of meters', () => {
+    // 100 meters: a true 5% rate exceeds 11% with probability under 1% (binomial).
+    expect(weatherShapeShare(100, 0, 'bills')).toBeLessThanOrEqual(0.11);
+  });
+
+  it('daily data whose noise persists day to day (φ = 0.6): still at most 5% + slack, where plain F-tests pick a shape in about half', () => {
+    // 60 meters: a true 5% rate exceeds 13% with probability under 1% (binomial).
+    expect(weatherShapeShare(60, 0.6, 'daily')).toBeLessThanOrEqual(0.13);
   });
 });
