@@ -56,3 +56,24 @@ describe('outOfSampleBlocks', () => {
       .toEqual({ method: 'blocked-by-month', blocks: ['2030-01', '2030-02'] });
   });
 });
+
+describe('out-of-sample figures of a fitted shape', () => {
+  it('daily readings with a gap in the middle of a month: the month is left out with the days it holds, and the figures say how they were made', async () => {
+    const { alignPeriods } = await import('../../../src/engine/periods.js');
+    const { fitShape } = await import('../../../src/engine/fit/fit-shape.js');
+    const { dailyWeather, dailyReadings, SAMPLE_BUILDING, CLIMATES } = await import('../../support/synthetic.js');
+    const random = seededRandom(21);
+    const weather = dailyWeather(CLIMATES.temperate, '2030-01-01', 400, random);
+    // synthetic: a year of daily readings with 10 days missing from the middle of March
+    const readings = dailyReadings(SAMPLE_BUILDING, weather.slice(0, 365), random).filter((r) => !(r.start >= '2030-03-10' && r.start < '2030-03-20'));
+    const fit = fitShape(alignPeriods(readings, weather).periods, '5P', 3, 'daily');
+    if (!fit.ok) throw new Error(fit.reason);
+    const outOfSample = fit.stats.outOfSample!;
+    expect(outOfSample.method).toBe('blocked-by-month');
+    expect(outOfSample.blocks).toBe(12);
+    expect(outOfSample.unavailable).toBeNull();
+    // Held-out months are predicted, not fitted: the out-of-sample figure is not far below the in-sample one (which divides by n − p).
+    expect(outOfSample.cvrmse).toBeGreaterThan(fit.stats.cvrmse * 0.9);
+    expect(Number.isFinite(outOfSample.nmbe)).toBe(true);
+  });
+});
