@@ -39,6 +39,8 @@ export * from './rollup.js';
 export * from './normal-year.js';
 export * from './report-windows.js';
 export * from './normalised.js';
+export * from './sufficiency.js';
+export { twoSidedNormalQuantile } from './normal-quantile.js';
 
 /** Average length of a calendar month in days (365.25 / 12), for counting reporting months. */
 export const DAYS_PER_MONTH = 365.25 / 12;
