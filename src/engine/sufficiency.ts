@@ -27,7 +27,7 @@ export const BASELINE_SUFFICIENCY_SOURCE = 'common practice: a full year of bill
 
 /** Largest share of reporting days outside the baseline's weather before a projection is refused (a limit of our own; configurable). */
 export const DEFAULT_EXTRAPOLATION_LIMIT = 0.1;
-export const EXTRAPOLATION_LIMIT_SOURCE = 'a limit of our own (10% of the reporting days), not a published standard';
+export const EXTRAPOLATION_LIMIT_SOURCE = 'a limit of our own, not a published standard';
 
 export interface BaselineSufficiency {
   /** True when every rule is met. */
