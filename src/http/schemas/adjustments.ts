@@ -8,6 +8,10 @@ export const createAdjustmentBody = z
     end: isoDate.describe('Day after the last day covered (end exclusive)'),
     quantity: finite.optional().describe('Total over [start, end), in the meter’s unit, spread evenly over the days; + adds to the adjusted baseline'),
     perDay: finite.optional().describe('Or a figure per day, in the meter’s unit'),
+    uncertainty: finite
+      .refine((value) => value >= 0, 'must be at least 0')
+      .optional()
+      .describe('The engineer’s standard uncertainty (one standard deviation) of the adjustment’s total over [start, end), in the meter’s unit; combined in quadrature with the other adjustments’ and shown beside the model’s ±'),
     reason: plainText().trim().min(3, 'must say why (at least 3 characters)').max(2000, 'must be at most 2000 characters').describe('The documented change the weather model cannot see'),
   })
   .strict()
@@ -24,6 +28,7 @@ export const adjustmentSchema = z
     quantity: z.number().nullable(),
     perDay: z.number(),
     reason: z.string(),
+    uncertainty: z.number().nullable().describe('Standard uncertainty (one standard deviation) of the total, in the meter’s unit; null when none was stated'),
     recordedAt: z.string(),
     recordedBy: z.string(),
     withdrawn: z.object({ at: z.string(), by: z.string(), reason: z.string() }).nullable().describe('Null while the adjustment counts'),
