@@ -10,7 +10,9 @@ import {
   DEFAULT_SIGNIFICANCE_LEVEL,
   MODEL_NAMES,
   SIGNIFICANCE_RULE,
+  TEMPERATURE_FORMS,
   type ModelName,
+  type TemperatureForm,
   type TemperatureUnit,
 } from '../engine/index.js';
 import { UsageError } from './errors.js';
@@ -23,6 +25,8 @@ export interface CommonOptions {
   minCoverage: number;
   significanceLevel: number;
   minPointsPerSegment: number;
+  /** How each reading's weather enters the fit; null: the engine's default (day-resolved wherever the days' weather is known). */
+  temperatureForm: TemperatureForm | null;
 }
 
 export interface FitOptions extends CommonOptions {
@@ -35,6 +39,10 @@ export interface SavingsCommandOptions extends CommonOptions {
   confidence: number;
   /** The engineer's choice of shape, overriding the selected one. */
   model: ModelName | null;
+  /** The reason for projecting from a baseline shorter than a full cycle of seasons (else refused). */
+  allowShortBaseline: string | null;
+  /** The reason for projecting beyond the extrapolation limit (else refused). */
+  allowExtrapolation: string | null;
 }
 
 export type Parsed<T> = { help: true } | ({ help: false } & T);
@@ -46,6 +54,7 @@ const COMMON_SPEC = {
   coverage: { type: 'string' },
   alpha: { type: 'string' },
   'min-points': { type: 'string' },
+  temperature: { type: 'string' },
   help: { type: 'boolean', short: 'h' },
 } as const;
 
@@ -57,6 +66,8 @@ const SAVINGS_SPEC = {
   reporting: { type: 'string' },
   confidence: { type: 'string' },
   model: { type: 'string' },
+  'allow-short-baseline': { type: 'string' },
+  'allow-extrapolation': { type: 'string' },
 } as const;
 
 type Values = Record<string, string | boolean | undefined>;
@@ -76,6 +87,8 @@ export function parseSavingsOptions(args: readonly string[]): Parsed<SavingsComm
     reporting: requireFile(values, 'reporting'),
     confidence: confidenceOption(values.confidence),
     model: modelOption(values.model),
+    allowShortBaseline: reasonOption(values['allow-short-baseline'], 'allow-short-baseline'),
+    allowExtrapolation: reasonOption(values['allow-extrapolation'], 'allow-extrapolation'),
     ...commonOptions(values),
   };
 }
@@ -96,7 +109,24 @@ function commonOptions(values: Values): CommonOptions {
     minCoverage: numberOption(values.coverage, 'coverage', DEFAULT_MIN_COVERAGE, (v) => v > 0 && v <= 1, 'a fraction in (0, 1], e.g. 0.9'),
     significanceLevel: numberOption(values.alpha, 'alpha', DEFAULT_SIGNIFICANCE_LEVEL, (v) => v > 0 && v < 1, 'a level in (0, 1), e.g. 0.05'),
     minPointsPerSegment: numberOption(values['min-points'], 'min-points', DEFAULT_MIN_POINTS_PER_SEGMENT, (v) => Number.isInteger(v) && v >= 1, 'a whole number of at least 1'),
+    temperatureForm: temperatureOption(values.temperature),
   };
+}
+
+function temperatureOption(value: string | boolean | undefined): TemperatureForm | null {
+  if (value === undefined) return null;
+  const form = TEMPERATURE_FORMS.find((f) => f === String(value).toLowerCase());
+  if (!form) throw new UsageError(`--temperature must be ${TEMPERATURE_FORMS.join(' or ')}, got ${JSON.stringify(value)}`);
+  return form;
+}
+
+/** An override's reason: required text, on one line, at most 2,000 characters. */
+function reasonOption(value: string | boolean | undefined, name: string): string | null {
+  if (value === undefined) return null;
+  const reason = String(value).replace(/\s+/g, ' ').trim();
+  if (reason === '') throw new UsageError(`--${name} needs a REASON: say why the check may be passed over`);
+  if (reason.length > 2000) throw new UsageError(`--${name}: the reason must be at most 2000 characters, got ${reason.length}`);
+  return reason;
 }
 
 function requireFile(values: Values, name: string): string {
