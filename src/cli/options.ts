@@ -11,7 +11,9 @@ import {
   MAX_POINTS_PER_SEGMENT,
   MODEL_NAMES,
   SIGNIFICANCE_RULE,
+  TEMPERATURE_FORMS,
   type ModelName,
+  type TemperatureForm,
   type TemperatureUnit,
 } from '../engine/index.js';
 import { UsageError } from './errors.js';
@@ -24,6 +26,8 @@ export interface CommonOptions {
   minCoverage: number;
   significanceLevel: number;
   minPointsPerSegment: number;
+  /** How each reading's weather enters the fit; null: the engine's default (day-resolved wherever the days' weather is known). */
+  temperatureForm: TemperatureForm | null;
 }
 
 export interface FitOptions extends CommonOptions {
@@ -36,6 +40,10 @@ export interface SavingsCommandOptions extends CommonOptions {
   confidence: number;
   /** The engineer's choice of shape, overriding the selected one. */
   model: ModelName | null;
+  /** The reason for projecting from a baseline shorter than a full cycle of seasons (else refused). */
+  allowShortBaseline: string | null;
+  /** The reason for projecting beyond the extrapolation limit (else refused). */
+  allowExtrapolation: string | null;
 }
 
 export type Parsed<T> = { help: true } | ({ help: false } & T);
@@ -47,6 +55,7 @@ const COMMON_SPEC = {
   coverage: { type: 'string' },
   alpha: { type: 'string' },
   'min-points': { type: 'string' },
+  temperature: { type: 'string' },
   help: { type: 'boolean', short: 'h' },
 } as const;
 
@@ -58,6 +67,8 @@ const SAVINGS_SPEC = {
   reporting: { type: 'string' },
   confidence: { type: 'string' },
   model: { type: 'string' },
+  'allow-short-baseline': { type: 'string' },
+  'allow-extrapolation': { type: 'string' },
 } as const;
 
 type Values = Record<string, string | boolean | undefined>;
@@ -77,6 +88,8 @@ export function parseSavingsOptions(args: readonly string[]): Parsed<SavingsComm
     reporting: requireFile(values, 'reporting'),
     confidence: confidenceOption(values.confidence),
     model: modelOption(values.model),
+    allowShortBaseline: reasonOption(values['allow-short-baseline'], 'allow-short-baseline'),
+    allowExtrapolation: reasonOption(values['allow-extrapolation'], 'allow-extrapolation'),
     ...commonOptions(values),
   };
 }
@@ -103,7 +116,24 @@ function commonOptions(values: Values): CommonOptions {
       (v) => Number.isInteger(v) && v >= 1 && v <= MAX_POINTS_PER_SEGMENT,
       `a whole number from 1 to ${MAX_POINTS_PER_SEGMENT}`,
     ),
+    temperatureForm: temperatureOption(values.temperature),
   };
+}
+
+function temperatureOption(value: string | boolean | undefined): TemperatureForm | null {
+  if (value === undefined) return null;
+  const form = TEMPERATURE_FORMS.find((f) => f === String(value).toLowerCase());
+  if (!form) throw new UsageError(`--temperature must be ${TEMPERATURE_FORMS.join(' or ')}, got ${JSON.stringify(value)}`);
+  return form;
+}
+
+/** An override's reason: required text, on one line, at most 2,000 characters. */
+function reasonOption(value: string | boolean | undefined, name: string): string | null {
+  if (value === undefined) return null;
+  const reason = String(value).replace(/\s+/g, ' ').trim();
+  if (reason === '') throw new UsageError(`--${name} needs a REASON: say why the check may be passed over`);
+  if (reason.length > 2000) throw new UsageError(`--${name}: the reason must be at most 2000 characters, got ${reason.length}`);
+  return reason;
 }
 
 function requireFile(values: Values, name: string): string {

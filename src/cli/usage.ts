@@ -1,5 +1,5 @@
 /** Usage texts of the command line. */
-import { CONFIDENCE_LEVELS, MODEL_NAMES } from '../engine/index.js';
+import { CONFIDENCE_LEVELS, DEFAULT_EXTRAPOLATION_LIMIT, MIN_BASELINE_BILLS, MIN_BASELINE_DAYS, MODEL_NAMES } from '../engine/index.js';
 
 const COMMON_OPTIONS = `  --weather FILE      daily weather CSV: date,temp or date,tmin,tmax (mean = (tmin+tmax)/2);
                       an empty temperature cell is a missing day
@@ -7,6 +7,10 @@ const COMMON_OPTIONS = `  --weather FILE      daily weather CSV: date,temp or da
   --coverage X        share of a period's days that must have weather (default 0.9)
   --alpha X           two-sided level of the slope t-tests and the F-test (default 0.05)
   --min-points N      minimum periods in each segment of a changepoint shape (default 3)
+  --temperature daily|mean
+                      how each reading's weather enters the fit: daily (day-resolved:
+                      each bill against the mean over its days of the daily response)
+                      or mean (the response at its mean temperature); default daily
   --json              print one JSON document instead of the text report`;
 
 export const FIT_USAGE = `Usage: mvledger fit --readings FILE --weather FILE [options]
@@ -26,6 +30,13 @@ Avoided energy of the reporting period against the fitted baseline, with its unc
   --reporting FILE    reporting-period readings CSV, same columns
   --confidence X      confidence of the stated uncertainty: ${CONFIDENCE_LEVELS.join(', ')} (default 0.68)
   --model SHAPE       use this shape instead of the selected one: ${MODEL_NAMES.join(', ')}
+  --allow-short-baseline REASON
+                      project from a baseline shorter than a full cycle of seasons
+                      (${MIN_BASELINE_DAYS} days and, for bills, ${MIN_BASELINE_BILLS} of them), refused otherwise
+  --allow-extrapolation REASON
+                      project even when more than ${Math.round(DEFAULT_EXTRAPOLATION_LIMIT * 100)}% of the reporting days have
+                      weather outside what the baseline saw, refused otherwise
+                      (an override and its reason are printed with the result)
 ${COMMON_OPTIONS}
 `;
 
@@ -50,9 +61,10 @@ export const EXPORT_USAGE = `Usage: mvledger export --org ID [--out FILE]
 
 Write one organisation of the database named by DATABASE_URL (default
 sqlite:./var/mvledger.sqlite; its schema is brought up to date first) as one
-JSON document, format mvledger-export version 1: every row of its API keys,
-weather stations and observations, facilities, meters, readings, baselines and
-audit trail, exactly as stored, with the head of its audit chain. API keys
+JSON document, format mvledger-export version 3 (versions 1 and 2 are still
+read): every row of its API keys, weather stations and observations, normal
+years, facilities, contracts, meters, readings, rates, adjustments, baselines
+and audit trail, exactly as stored, with the head of its audit chain. API keys
 travel as hashes only; idempotency keys stay behind. A row count per table goes
 to stderr.
 

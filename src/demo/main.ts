@@ -98,8 +98,8 @@ export async function seedDemo(base: string, adminKey: string, reportFolder = di
         rates: [{ from: BASELINE_END, price: meterPlan.price, escalation: meterPlan.escalation }],
       });
       if (meterPlan.change) {
-        const { start, end, perDay, reason } = meterPlan.change;
-        await call('POST', `/v1/meters/${meter.id}/adjustments`, { start, end, perDay, reason });
+        const { start, end, perDay, reason, uncertainty } = meterPlan.change;
+        await call('POST', `/v1/meters/${meter.id}/adjustments`, { start, end, perDay, reason, uncertainty });
       }
       const builtIn = demoBuiltInSavings(meterPlan, weatherByDate, BASELINE_END, REPORTING_END);
       builtInMMBtu += convertEnergy(builtIn, meterPlan.unit, 'MMBtu');

@@ -31,8 +31,12 @@ export interface DemoMeter {
   price: number;
   /** Invented yearly escalation of the contract rate. */
   escalation: number;
-  /** An invented non-routine change in the reporting year: extra use per day the weather model cannot see. */
-  change?: { start: string; end: string; perDay: number; reason: string };
+  /**
+   * An invented non-routine change in the reporting year: extra use per day
+   * the weather model cannot see, and the engineer's standard uncertainty of
+   * its total (the demo's adjustment states its own ±).
+   */
+  change?: { start: string; end: string; perDay: number; reason: string; uncertainty?: number };
 }
 
 export interface DemoFacility {
@@ -82,7 +86,8 @@ export const DEMO_FACILITIES: DemoFacility[] = [
         reportingSaving: 0.09,
         price: 0.15,
         escalation: 0.03,
-        change: { start: '2025-09-01', end: '2026-01-01', perDay: 260, reason: 'New after-school sports hall opened in September (invented)' },
+        // 260 a day over 122 days is 31,720 kWh; the invented engineer puts its total at ± 4,800 kWh (about 15%).
+        change: { start: '2025-09-01', end: '2026-01-01', perDay: 260, reason: 'New after-school sports hall opened in September (invented)', uncertainty: 4800 },
       },
       { name: 'Boiler gas', fuel: 'natural-gas', unit: 'therm', use: { base: 25, heatingBelow: 60, heatingRate: 8, noise: 0.06 }, reportingSaving: 0.11, price: 1.05, escalation: 0.02 },
     ],

@@ -7,6 +7,7 @@
  * takes away from it.
  */
 import { parseIsoDate } from './dates.js';
+import { combineInQuadrature } from './rollup.js';
 
 /**
  * One non-routine adjustment over [start, end). Exactly one of `quantity`
@@ -20,6 +21,12 @@ export interface NonRoutineAdjustment {
   quantity: number | null;
   perDay: number | null;
   reason: string;
+  /**
+   * The engineer's standard uncertainty (one standard deviation) of the
+   * adjustment's total over [start, end), in the meter's unit; absent or
+   * null when none was stated (the figure is then taken as exact).
+   */
+  uncertainty?: number | null;
 }
 
 /**
@@ -58,6 +65,32 @@ export function adjustmentsForPeriod(adjustments: readonly NonRoutineAdjustment[
   return total;
 }
 
+/**
+ * The standard uncertainty of the part of one adjustment that falls in the
+ * periods: its stated uncertainty × (days in the periods / its days). An
+ * estimated total has one error, shared by its days, so a part carries that
+ * share of it (not the square root of the share, as independent daily
+ * errors would). The periods must not overlap one another. Throws
+ * RangeError for a malformed adjustment or an uncertainty that is negative
+ * or not finite.
+ */
+export function adjustmentUncertaintyInPeriods(adjustment: NonRoutineAdjustment, periods: readonly { start: string; end: string }[]): number {
+  const days = spanDays(adjustment);
+  const stated = statedUncertainty(adjustment);
+  if (stated === 0) return 0;
+  const inside = periods.reduce((sum, period) => sum + adjustmentOverlap(adjustment, period), 0);
+  return (stated * inside) / days;
+}
+
+/**
+ * The combined standard uncertainty of the adjustments falling in the
+ * periods: each one's part (adjustmentUncertaintyInPeriods) combined in
+ * quadrature, the adjustments' errors taken as independent of one another.
+ */
+export function adjustmentsUncertaintyInPeriods(adjustments: readonly NonRoutineAdjustment[], periods: readonly { start: string; end: string }[]): number {
+  return combineInQuadrature(adjustments.map((adjustment) => adjustmentUncertaintyInPeriods(adjustment, periods)));
+}
+
 /** The first of `existing` sharing at least one day with `candidate`, or undefined. */
 export function findOverlappingAdjustment<T extends { start: string; end: string }>(
   existing: readonly T[],
@@ -73,6 +106,12 @@ function amountOf(a: NonRoutineAdjustment): { kind: 'quantity' | 'perDay'; value
   const amount = a.quantity !== null ? { kind: 'quantity' as const, value: a.quantity } : { kind: 'perDay' as const, value: a.perDay! };
   if (!Number.isFinite(amount.value)) throw new RangeError(`adjustment ${a.id}: ${amount.kind} is not a finite number`);
   return amount;
+}
+
+function statedUncertainty(a: NonRoutineAdjustment): number {
+  const value = a.uncertainty ?? 0;
+  if (!(Number.isFinite(value) && value >= 0)) throw new RangeError(`adjustment ${a.id}: uncertainty must be a finite number of at least 0, got ${value}`);
+  return value;
 }
 
 function spanDays(a: NonRoutineAdjustment): number {

@@ -40,6 +40,9 @@ export * from './rollup.js';
 export * from './normal-year.js';
 export * from './report-windows.js';
 export * from './normalised.js';
+export * from './sufficiency.js';
+export * from './checked-savings.js';
+export { twoSidedNormalQuantile } from './stats/distributions.js';
 
 /** Average length of a calendar month in days (365.25 / 12), for counting reporting months. */
 export const DAYS_PER_MONTH = 365.25 / 12;

@@ -6,17 +6,23 @@
  * use per day in the form it was fitted in: the mean over the period's days
  * of the daily response (day-resolved), or the response at the period's mean
  * temperature (mean form); avoided energy S = Σ adjusted baseline
- * − Σ actual; fraction saved F = S / Σ adjusted baseline. Adjustments are
- * documented figures, not estimates: they move S but not its uncertainty. The uncertainty of S is stated two ways (see
- * stats/savings-uncertainty.ts): the ASHRAE Guideline 14 Annex B formula and
- * the exact regression variance with the changepoints held fixed.
+ * − Σ actual; fraction saved F = S / Σ adjusted baseline. The model's
+ * uncertainty of S is stated two ways (see stats/savings-uncertainty.ts):
+ * the ASHRAE Guideline 14 Annex B formula and the exact regression variance
+ * with the changepoints held fixed. Non-routine adjustments move S; an
+ * adjustment the engineer gave a standard uncertainty adds its own ±
+ * (adjustments.ts: the share inside the reporting periods, the adjustments
+ * in quadrature, scaled to the confidence by the normal quantile), shown
+ * separately and combined in quadrature with the larger of the model's two.
  */
 import type { ModelName, Period, TemperatureForm } from './types.js';
 import { fitTemperatureForm, type ShapeFit } from './fit/fit-shape.js';
 import { periodDesignRow, predictPeriodPerDay } from './fit/shape-model.js';
 import { twoSidedTCritical } from './stats/distributions.js';
 import { effectiveSampleSize, exactSavingsVariance, guideline14FractionalUncertainty } from './stats/savings-uncertainty.js';
-import { adjustmentsForPeriod, type NonRoutineAdjustment } from './adjustments.js';
+import { adjustmentsForPeriod, adjustmentsUncertaintyInPeriods, type NonRoutineAdjustment } from './adjustments.js';
+import { twoSidedNormalQuantile } from './stats/distributions.js';
+import { combineInQuadrature } from './rollup.js';
 
 /** Confidence levels offered to users (two-sided). */
 export const CONFIDENCE_LEVELS = [0.68, 0.8, 0.9, 0.95] as const;
@@ -65,7 +71,22 @@ export interface SavingsTotals {
   savings: number;
   fractionSaved: number;
   confidence: number;
-  uncertainty: { guideline14: Uncertainty; exact: Uncertainty };
+  uncertainty: {
+    guideline14: Uncertainty;
+    exact: Uncertainty;
+    /**
+     * The non-routine adjustments' own ± at `confidence`: their stated
+     * standard uncertainties (the share of each inside the reporting
+     * periods, combined in quadrature) × the two-sided normal quantile.
+     * 0 when no adjustment states one.
+     */
+    adjustments: { absolute: number };
+    /**
+     * The larger of the model's two ± combined in quadrature with the
+     * adjustments' ±; fractional = absolute / |savings|.
+     */
+    combined: Uncertainty;
+  };
   /** Savings distinguishable from zero under the 50%-at-68% rule, by the more cautious of the two formulas. */
   significant: boolean;
   /** Share of the model baseline from periods outside the baseline's temperature range. */
@@ -148,6 +169,10 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
     };
   };
   const chosen = uncertaintyAt(confidence);
+  const adjustmentsAbsolute = adjustments.length > 0 ? twoSidedNormalQuantile(confidence) * adjustmentsUncertaintyInPeriods(adjustments, ordered) : 0;
+  const modelValues = [chosen.guideline14.absolute, chosen.exact.absolute].filter(Number.isFinite);
+  const modelAbsolute = modelValues.length > 0 ? Math.max(...modelValues) : Number.NaN;
+  const combinedAbsolute = combineInQuadrature([modelAbsolute, adjustmentsAbsolute]);
   const at68 = uncertaintyAt(SIGNIFICANCE_RULE.confidence);
   const worstAt68 = Math.max(at68.guideline14.fractional, at68.exact.fractional);
 
@@ -163,7 +188,12 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
       savings,
       fractionSaved,
       confidence,
-      uncertainty: { guideline14: chosen.guideline14, exact: chosen.exact },
+      uncertainty: {
+        guideline14: chosen.guideline14,
+        exact: chosen.exact,
+        adjustments: { absolute: adjustmentsAbsolute },
+        combined: { fractional: combinedAbsolute / Math.abs(savings), absolute: combinedAbsolute },
+      },
       significant: worstAt68 < SIGNIFICANCE_RULE.maxFractionalUncertainty,
       outsideRangeShare: modelBaseline !== 0 ? outside / modelBaseline : 0,
     },

@@ -95,6 +95,7 @@ function notices(facilities: readonly FacilityReport[]): string[] {
     for (const meter of facility.meters) {
       const where = `${facility.name}, ${meter.name}`;
       if (meter.missing !== null) out.push(`${where}: no figures in this window: ${meter.missing}`);
+      for (const note of meter.notes) out.push(`${where}: ${note}`);
       if (meter.commonNote !== null) out.push(`${where}: ${meter.commonNote}`);
       if (meter.missing === null && meter.cost === null) out.push(`${where}: no contract rates: cost avoided is not stated`);
       for (const gap of meter.missingRates) {

@@ -4,6 +4,8 @@
  * (report, portfolio, facility, guarantee, meter, period, adjustment,
  * notice, caution). Deterministic: numbers are written with at most six
  * decimals and no exponent, so the same report gives the same bytes.
+ * Columns are only ever added at the end, so a reader that counts them keeps
+ * working: temperature_form (a meter row's frozen form, daily or mean).
  */
 import type { EnergyTotal, MeterReport, SavingsReport } from './savings-report.js';
 
@@ -33,6 +35,7 @@ export const CSV_COLUMNS = [
   'cost_uncertainty',
   'outside_baseline_range',
   'note',
+  'temperature_form',
 ] as const;
 
 type Column = (typeof CSV_COLUMNS)[number];
@@ -107,9 +110,24 @@ export function renderReportCsv(report: SavingsReport): string {
   return `${lines.join('\r\n')}\r\n`;
 }
 
+/** The parts of a meter's combined ± when adjustments carry one of their own. */
+function adjustmentsUncertaintyText(meter: MeterReport): string {
+  const parts = meter.uncertaintyParts;
+  if (parts === null || parts.adjustments === 0) return '';
+  return `; uncertainty combines the model's ${csvNumber(parts.model)} and the adjustments' ${csvNumber(parts.adjustments)} in quadrature`;
+}
+
+/** A meter's baseline notes (overrides and their reasons, a short baseline) as one text, led by "; ". */
+function notesText(meter: MeterReport): string {
+  return meter.notes.map((note) => `; ${note}`).join('');
+}
+
 function meterRows(f: Row, meter: MeterReport, w: { from: string; to: string }): Row[] {
   const m = { ...f, meter_id: meter.id, meter: meter.name };
-  if (meter.missing !== null || meter.energy === null) return [{ record: 'meter', ...m, unit: meter.unit, start: w.from, end: w.to, note: `no figures: ${meter.missing}` }];
+  const form = meter.baseline?.temperatureForm ?? null;
+  if (meter.missing !== null || meter.energy === null) {
+    return [{ record: 'meter', ...m, unit: meter.unit, start: w.from, end: w.to, note: `no figures: ${meter.missing}${notesText(meter)}`, temperature_form: form }];
+  }
   const rows: Row[] = [
     {
       record: 'meter',
@@ -120,7 +138,8 @@ function meterRows(f: Row, meter: MeterReport, w: { from: string; to: string }):
       currency: meter.cost?.currency ?? null,
       cost_avoided: meter.cost?.avoided ?? null,
       cost_uncertainty: meter.cost?.uncertainty ?? null,
-      note: `baseline ${meter.baseline?.id} v${meter.baseline?.version} ${meter.baseline?.model} ${meter.baseline?.contentHash}; extrapolation share ${csvNumber(meter.extrapolationShare)}`,
+      note: `baseline ${meter.baseline?.id} v${meter.baseline?.version} ${meter.baseline?.model} ${meter.baseline?.contentHash}; extrapolation share ${csvNumber(meter.extrapolationShare)}${adjustmentsUncertaintyText(meter)}${notesText(meter)}`,
+      temperature_form: form,
     },
   ];
   for (const p of meter.periods) {
@@ -145,7 +164,8 @@ function meterRows(f: Row, meter: MeterReport, w: { from: string; to: string }):
     });
   }
   for (const a of meter.adjustments) {
-    rows.push({ record: 'adjustment', ...m, unit: meter.unit, start: a.start, end: a.end, adjustment: a.appliedInWindow, note: `${a.id}: ${a.reason}` });
+    const stated = a.uncertainty === null ? '' : ` (stated standard uncertainty of its total: ${csvNumber(a.uncertainty)} ${meter.unit})`;
+    rows.push({ record: 'adjustment', ...m, unit: meter.unit, start: a.start, end: a.end, adjustment: a.appliedInWindow, note: `${a.id}: ${a.reason}${stated}` });
   }
   return rows;
 }

@@ -11,6 +11,7 @@ import {
   periodRate,
   type NonRoutineAdjustment,
   type RateEntry,
+  type ReportingExtrapolation,
   type SavingsDocument,
 } from '../engine/index.js';
 import type { CostTotal, MeterReport, NormalisedSavings, ReportAdjustment, ReportPeriod, SignatureData } from './savings-report.js';
@@ -29,12 +30,44 @@ export interface MeterReportInput {
   adjustments: readonly StoredAdjustment[];
   normalised: NormalisedSavings;
   signature: SignatureData;
+  /** The window's reporting days against the weather the baseline saw. */
+  extrapolation: ReportingExtrapolation;
 }
 
-/** The more cautious of the two stated uncertainties (a formula that cannot be evaluated is passed over). */
+/** The more cautious of the model's two stated uncertainties (a formula that cannot be evaluated is passed over). */
 export function cautiousUncertainty(savings: SavingsDocument): number {
   const values = [savings.totals.uncertainty.guideline14.absolute, savings.totals.uncertainty.exact.absolute].filter(Number.isFinite);
   return values.length > 0 ? Math.max(...values) : Number.NaN;
+}
+
+/**
+ * The meter's ±: the model's more cautious ± combined in quadrature with the
+ * non-routine adjustments' own ± (the engine's combined uncertainty).
+ */
+export function meterUncertainty(savings: SavingsDocument): number {
+  return savings.totals.uncertainty.combined.absolute;
+}
+
+/**
+ * What a reader must know about the baseline a meter's figures rest on, in
+ * words: each override with the reason given at freeze, and a baseline that
+ * does not cover a full cycle of seasons.
+ */
+export function baselineNotes(baseline: MeterReport['baseline'], extrapolation: ReportingExtrapolation | null): string[] {
+  if (baseline === null) return [];
+  const notes: string[] = [];
+  const { sufficiency, overrides } = baseline;
+  const short = sufficiency.reasons.join('; ');
+  if (overrides.shortBaseline !== null) {
+    notes.push(`frozen with a short-baseline override, reason: “${overrides.shortBaseline.reason}”${sufficiency.sufficient ? '' : ` (the baseline does not cover a full cycle of seasons: ${short})`}`);
+  } else if (!sufficiency.sufficient) {
+    notes.push(`the baseline does not cover a full cycle of seasons (${short}); it was frozen before that was enforced`);
+  }
+  if (overrides.extrapolation !== null) {
+    const here = extrapolation === null ? '' : extrapolation.exceedsLimit ? `; used in this window: ${extrapolation.summary}` : `; not needed in this window (${(extrapolation.share * 100).toFixed(1)}% of the reporting days outside what the baseline saw)`;
+    notes.push(`frozen with an extrapolation override, reason: “${overrides.extrapolation.reason}”${here}`);
+  }
+  return notes;
 }
 
 export function meterReport(input: MeterReportInput): MeterReport {
@@ -47,7 +80,7 @@ export function meterReport(input: MeterReportInput): MeterReport {
   });
 
   const t = savings.totals;
-  const uncertainty = cautiousUncertainty(savings);
+  const uncertainty = meterUncertainty(savings);
   const energy = energyTotal(meter.unit, {
     actual: t.actual,
     modelBaseline: t.modelBaseline,
@@ -71,6 +104,9 @@ export function meterReport(input: MeterReportInput): MeterReport {
     cost: rates.currency === null ? null : meterCost(rates.currency, periods, uncertainty),
     missingRates: mergeRanges(missingRates),
     extrapolationShare: t.outsideRangeShare,
+    extrapolation: input.extrapolation,
+    notes: baselineNotes(input.baseline, input.extrapolation),
+    uncertaintyParts: { model: cautiousUncertainty(savings), adjustments: t.uncertainty.adjustments.absolute },
     significant: t.significant,
     adjustments: input.adjustments.map((a) => reportAdjustment(a, periods)),
     normalised: input.normalised,
@@ -100,6 +136,7 @@ function reportAdjustment(a: StoredAdjustment, periods: readonly ReportPeriod[])
     quantity: a.quantity,
     perDay,
     reason: a.reason,
+    uncertainty: a.uncertainty ?? null,
     appliedInWindow: periods.reduce((acc, p) => acc + perDay * adjustmentOverlap(a, p), 0),
     recordedAt: a.recordedAt,
     recordedBy: a.recordedBy,
@@ -120,7 +157,13 @@ export function mergeRanges(ranges: readonly { start: string; end: string }[]): 
 }
 
 /** A meter that has no figures in the window, and why. */
-export function missingMeterReport(meter: MeterReportInput['meter'], baseline: MeterReport['baseline'], reason: string, adjustments: readonly StoredAdjustment[]): MeterReport {
+export function missingMeterReport(
+  meter: MeterReportInput['meter'],
+  baseline: MeterReport['baseline'],
+  reason: string,
+  adjustments: readonly StoredAdjustment[],
+  extrapolation: ReportingExtrapolation | null = null,
+): MeterReport {
   return {
     ...meter,
     baseline,
@@ -133,6 +176,9 @@ export function missingMeterReport(meter: MeterReportInput['meter'], baseline: M
     cost: null,
     missingRates: [],
     extrapolationShare: 0,
+    extrapolation,
+    notes: baselineNotes(baseline, extrapolation),
+    uncertaintyParts: null,
     significant: false,
     adjustments: adjustments.map((a) => reportAdjustment(a, [])),
     normalised: { available: false, reason },

@@ -9,7 +9,7 @@
  * request on the same data gives the same bytes.
  */
 
-import type { NormalisedResult, SavingsPeriod } from '../engine/index.js';
+import type { NormalisedResult, ProjectionOverrides, ReportingExtrapolation, SavingsPeriod, TemperatureForm } from '../engine/index.js';
 
 export const REPORT_FORMAT = 'mvledger-savings-report';
 export const REPORT_VERSION = 1;
@@ -67,6 +67,8 @@ export interface ReportAdjustment {
   quantity: number | null;
   perDay: number;
   reason: string;
+  /** The engineer's standard uncertainty (one standard deviation) of its whole total, as recorded; null when none was stated. */
+  uncertainty: number | null;
   /** The part of it that falls in this report's reporting periods. */
   appliedInWindow: number;
   recordedAt: string;
@@ -81,8 +83,12 @@ export interface SignatureData {
   temperatureUnit: 'F' | 'C';
   baseline: { temp: number; usePerDay: number; label: string }[];
   reporting: { temp: number; usePerDay: number; label: string }[];
-  /** Vertices of the frozen model's line over the baseline's temperature range. */
+  /** Vertices of the frozen model's line over the baseline's temperature range (a day-resolved model: over the daily temperatures it saw). */
   fittedLine: { temp: number; usePerDay: number }[];
+  /** The frozen model's form: a day-resolved model's line is its daily response. */
+  temperatureForm: TemperatureForm;
+  /** Day-resolved models: each bill's expected use per day (the daily response averaged over its days), at its mean temperature; empty otherwise. */
+  expected: { temp: number; usePerDay: number; label: string }[];
 }
 
 export interface MeterReport {
@@ -104,6 +110,12 @@ export interface MeterReport {
     cvrmse: number;
     /** Guideline 14 CV(RMSE) and NMBE check for the reporting length; null when it cannot be judged. */
     meetsGuideline14: boolean | null;
+    /** The form the baseline was frozen in, which its projections keep: 'daily' (day-resolved) or 'mean'. */
+    temperatureForm: TemperatureForm;
+    /** Whether it covers a full cycle of seasons, and if not why. */
+    sufficiency: { sufficient: boolean; reasons: string[] };
+    /** What was allowed when it was frozen, each with the reason given. */
+    overrides: ProjectionOverrides;
   } | null;
   /** Why this meter has no figures in the window (no frozen baseline, no reporting readings); null when it has them. */
   missing: string | null;
@@ -121,6 +133,16 @@ export interface MeterReport {
   missingRates: { start: string; end: string }[];
   /** Share of the model baseline from periods outside the baseline's temperature range. */
   extrapolationShare: number;
+  /** Share of the window's reporting days whose weather lies outside what the baseline saw, against its limit; null when there are no reporting periods. */
+  extrapolation: ReportingExtrapolation | null;
+  /** What a reader must know about the baseline this meter's figures rest on: overrides with their reasons, a short baseline. */
+  notes: string[];
+  /**
+   * The parts of the meter's ± (energy.uncertainty, the combined one): the
+   * model's larger ± and the non-routine adjustments' own ±, at the report's
+   * confidence, in the meter's unit; null when missing.
+   */
+  uncertaintyParts: { model: number; adjustments: number } | null;
   /** Uncertainty below 50% of savings at 68% confidence (Guideline 14), by the more cautious formula. */
   significant: boolean;
   adjustments: ReportAdjustment[];
@@ -198,6 +220,10 @@ export interface SavingsReport {
   method: {
     summary: string;
     readingsInWindow: string;
+    /** How each meter's baseline sees the weather: day-resolved or mean form, kept as frozen. */
+    temperatureForm: string;
+    /** The checks between a baseline and its projection: a full cycle of seasons, the extrapolation limit, overrides. */
+    checks: string;
     adjustments: string;
     costs: string;
     uncertainty: string;

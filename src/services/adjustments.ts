@@ -21,6 +21,8 @@ export interface AdjustmentInput {
   quantity?: number;
   perDay?: number;
   reason: string;
+  /** The engineer's standard uncertainty (one standard deviation) of the total, in the meter's unit. */
+  uncertainty?: number;
 }
 
 export interface Adjustment {
@@ -31,6 +33,8 @@ export interface Adjustment {
   quantity: number | null;
   perDay: number;
   reason: string;
+  /** The engineer's standard uncertainty (one standard deviation) of the adjustment's total over [start, end), in the meter's unit; null when none was stated. */
+  uncertainty: number | null;
   recordedAt: string;
   recordedBy: string;
   /** Null while the adjustment counts. */
@@ -48,6 +52,7 @@ export function toAdjustment(row: AdjustmentRow): Adjustment {
     quantity: row.quantity,
     perDay: adjustmentPerDay(toEngineAdjustment(row)),
     reason: row.reason,
+    uncertainty: row.uncertainty,
     recordedAt: row.created_at,
     recordedBy: row.created_by,
     withdrawn: row.withdrawn_at === null ? null : { at: row.withdrawn_at, by: row.withdrawn_by ?? '', reason: row.withdraw_reason ?? '' },
@@ -55,7 +60,7 @@ export function toAdjustment(row: AdjustmentRow): Adjustment {
 }
 
 export function toEngineAdjustment(row: AdjustmentRow): NonRoutineAdjustment {
-  return { id: row.id, start: row.period_start, end: row.period_end, quantity: row.quantity, perDay: row.per_day, reason: row.reason };
+  return { id: row.id, start: row.period_start, end: row.period_end, quantity: row.quantity, perDay: row.per_day, reason: row.reason, uncertainty: row.uncertainty };
 }
 
 export async function createAdjustment(ctx: ServiceContext, meterId: string, input: AdjustmentInput): Promise<Adjustment> {
@@ -103,6 +108,7 @@ export async function createAdjustment(ctx: ServiceContext, meterId: string, inp
       withdrawn_at: null,
       withdrawn_by: null,
       withdraw_reason: null,
+      uncertainty: input.uncertainty ?? null,
     };
     await trx.insertInto('adjustments').values(row).execute();
     const adjustment = toAdjustment(row);

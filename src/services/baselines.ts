@@ -8,22 +8,26 @@
 import {
   alignPeriods,
   analyseBaseline,
+  baselineSufficiency,
   checkReadings,
-  predictPerDay,
   type BaselineAnalysis,
+  type BaselineSufficiency,
   type DailyTemperature,
   type FitDocument,
   type ModelName,
   type Period,
+  type ProjectionOverrides,
   type Reading,
   type ShapeFit,
+  type TemperatureForm,
   type TemperatureUnit,
 } from '../engine/index.js';
 import { baselineContentHash, forResponse, fromStoredJson, toStoredJson, verifyBaselineContent } from '../store/baseline-content.js';
 import { newId } from '../store/ids.js';
 import type { BaselineRow, BaselineStatus } from '../store/schema.js';
 import { notFound, Problem } from '../http/problem.js';
-import { renderSignatureSvg, type SignaturePoint } from '../reports/svg/signature.js';
+import { renderSignatureSvg } from '../reports/svg/signature.js';
+import { signatureChartPoints } from '../reports/svg/signature-points.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getMeterRow } from './meters.js';
 import { loadDailyWeather, loadReadings, loadWeatherFor, stationUnit } from './meter-data.js';
@@ -33,6 +37,17 @@ export interface BaselineFitOptions {
   significanceLevel?: number;
   minPointsPerSegment?: number;
   allowSameSignFourPoint?: boolean;
+  /** How each reading's weather enters the fit; default: day-resolved wherever daily weather covers the readings. */
+  temperature?: TemperatureForm;
+}
+
+/** What was allowed when the baseline was frozen, each with the reason given; null where nothing was. */
+export type BaselineOverrides = ProjectionOverrides;
+
+export interface FreezeInput {
+  note: string;
+  supersedeReason?: string;
+  overrides?: { shortBaseline?: { reason: string }; extrapolation?: { reason: string } };
 }
 
 /** Exactly what the fit saw: kept with the baseline so it can be re-run and checked. */
@@ -50,6 +65,11 @@ export interface BaselineSummary {
   start: string;
   end: string;
   options: BaselineFitOptions;
+  /** The form the baseline was fitted in, which its projections keep: 'daily' (day-resolved) or 'mean'. */
+  temperatureForm: TemperatureForm;
+  /** Whether it covers a full cycle of seasons (null for a row without its inputs). */
+  sufficiency: BaselineSufficiency | null;
+  overrides: BaselineOverrides;
   selected: ModelName;
   chosen: ModelName;
   choiceReason: string | null;
@@ -72,8 +92,12 @@ export interface Baseline extends BaselineSummary {
 // ---------------------------------------------------------------------------
 // Views.
 
-function choiceWarnings(row: BaselineRow, document: FitDocument): string[] {
+function choiceWarnings(row: BaselineRow, document: FitDocument, sufficiency: BaselineSufficiency | null): string[] {
   const warnings: string[] = [];
+  if (sufficiency && !sufficiency.sufficient) {
+    const how = row.status === 'draft' ? 'it is too short to freeze without overrides.shortBaseline.reason' : row.short_baseline_override !== null ? 'it was frozen with a short-baseline override' : 'it was frozen before the rule was enforced';
+    warnings.push(`the baseline does not cover a full cycle of seasons (${sufficiency.reasons.join('; ')}): ${how}`);
+  }
   if (row.chosen_model !== row.selected_model) {
     warnings.push(`the chosen shape ${row.chosen_model} is an engineer's choice; the engine selected ${row.selected_model}`);
   }
@@ -84,7 +108,25 @@ function choiceWarnings(row: BaselineRow, document: FitDocument): string[] {
   return warnings;
 }
 
+/** The baseline's own usable periods, re-aligned from its stored inputs (null for a row without inputs). */
+export function storedBaselinePeriods(row: Pick<BaselineRow, 'inputs_json' | 'options_json' | 'document_json'>): Period[] | null {
+  const inputs = fromStoredJson<Partial<BaselineInputs>>(row.inputs_json);
+  if (!Array.isArray(inputs.readings) || !Array.isArray(inputs.weather)) return null;
+  const options = fromStoredJson<BaselineFitOptions>(row.options_json);
+  const document = fromStoredJson<Partial<FitDocument>>(row.document_json);
+  return alignPeriods(inputs.readings, inputs.weather, { minCoverage: options.minCoverage ?? document.settings?.minCoverage }).periods;
+}
+
+export function overridesOf(row: Pick<BaselineRow, 'short_baseline_override' | 'extrapolation_override'>): BaselineOverrides {
+  return {
+    shortBaseline: row.short_baseline_override === null ? null : { reason: row.short_baseline_override },
+    extrapolation: row.extrapolation_override === null ? null : { reason: row.extrapolation_override },
+  };
+}
+
 function summaryOf(row: BaselineRow, document: FitDocument): BaselineSummary {
+  const periods = storedBaselinePeriods(row);
+  const sufficiency = periods === null ? null : baselineSufficiency(periods);
   return {
     id: row.id,
     meterId: row.meter_id,
@@ -93,10 +135,13 @@ function summaryOf(row: BaselineRow, document: FitDocument): BaselineSummary {
     start: row.period_start,
     end: row.period_end,
     options: JSON.parse(row.options_json) as BaselineFitOptions,
+    temperatureForm: row.temperature_form,
+    sufficiency,
+    overrides: overridesOf(row),
     selected: row.selected_model as ModelName,
     chosen: row.chosen_model as ModelName,
     choiceReason: row.choice_reason,
-    warnings: choiceWarnings(row, document),
+    warnings: choiceWarnings(row, document, sufficiency),
     contentHash: row.content_hash,
     note: row.note,
     frozenAt: row.frozen_at,
@@ -175,8 +220,9 @@ function analyseWindow(
     const errors = problems.map((p) => ({ field: describeReading(readings[p.index]!), message: `${p.field}: ${p.message}` }));
     throw new Problem('unprocessable', `${errors[0]!.field}: ${errors[0]!.message}; the stored readings in ${span} must be fixed before a fit`, errors);
   }
+  const { temperature, ...rest } = options;
   try {
-    return analyseBaseline(readings, weather, options);
+    return analyseBaseline(readings, weather, { ...rest, temperatureForm: temperature });
   } catch (error) {
     if (!(error instanceof RangeError)) throw error;
     const { excluded } = alignPeriods(readings, weather, options);
@@ -240,6 +286,9 @@ export async function createBaseline(
       supersede_reason: null,
       created_at: ctx.now,
       created_by: ctx.principal.keyId,
+      temperature_form: analysis.document.temperatureForm,
+      short_baseline_override: null,
+      extrapolation_override: null,
     };
     await trx.insertInto('baselines').values(row).execute();
     const baseline = viewOf(row);
@@ -282,11 +331,39 @@ export async function chooseModel(ctx: ServiceContext, baselineId: string, input
 }
 
 /**
+ * A draft shorter than a full cycle of seasons is refused (422, the reasons
+ * in words) unless the freeze carries overrides.shortBaseline with a reason;
+ * an override with nothing to override is refused too (400), so a recorded
+ * override always meant something.
+ */
+function checkSufficiency(row: BaselineRow, input: FreezeInput): void {
+  const periods = storedBaselinePeriods(row);
+  if (periods === null) return;
+  const sufficiency = baselineSufficiency(periods);
+  const override = input.overrides?.shortBaseline;
+  if (!sufficiency.sufficient && override === undefined) {
+    throw new Problem(
+      'unprocessable',
+      `baseline ${row.id} is too short to freeze: ${sufficiency.reasons.join('; ')}. Fit a window that covers a full cycle of seasons, or freeze with overrides.shortBaseline.reason saying why this baseline may be projected from (the reason is kept with the baseline and shown on every document that uses it)`,
+      [{ field: 'overrides.shortBaseline.reason', message: `required to freeze a baseline shorter than a full cycle of seasons (${sufficiency.periods} periods, ${sufficiency.days} days)` }],
+      { sufficiency },
+    );
+  }
+  if (sufficiency.sufficient && override !== undefined) {
+    throw new Problem('validation', `overrides.shortBaseline: baseline ${row.id} covers a full cycle of seasons (${sufficiency.periods} periods, ${sufficiency.days} days); there is nothing to override: leave it out`, [
+      { field: 'overrides.shortBaseline', message: 'nothing to override' },
+    ]);
+  }
+}
+
+/**
  * Freeze a draft. When the meter already has a frozen baseline, a reason is
  * required and that baseline becomes superseded in the same transaction; its
- * content and hash are kept as they were.
+ * content and hash are kept as they were. Overrides given here (a short
+ * baseline, projection beyond the extrapolation limit) are kept with the
+ * baseline under its content hash.
  */
-export async function freezeBaseline(ctx: ServiceContext, baselineId: string, input: { note: string; supersedeReason?: string }): Promise<Baseline> {
+export async function freezeBaseline(ctx: ServiceContext, baselineId: string, input: FreezeInput): Promise<Baseline> {
   return inTransaction(ctx, async (trx) => {
     const row = await getBaselineRow(trx, ctx.principal.organisationId, baselineId);
     assertDraft(row);
@@ -304,6 +381,7 @@ export async function freezeBaseline(ctx: ServiceContext, baselineId: string, in
         { field: 'supersedeReason', message: 'nothing to supersede' },
       ]);
     }
+    checkSufficiency(row, input);
     const frozen: BaselineRow = {
       ...row,
       status: 'frozen',
@@ -312,6 +390,8 @@ export async function freezeBaseline(ctx: ServiceContext, baselineId: string, in
       frozen_by: ctx.principal.keyId,
       supersedes_id: current?.id ?? null,
       supersede_reason: input.supersedeReason ?? null,
+      short_baseline_override: input.overrides?.shortBaseline?.reason ?? null,
+      extrapolation_override: input.overrides?.extrapolation?.reason ?? null,
     };
     frozen.content_hash = baselineContentHash(frozen);
 
@@ -335,6 +415,8 @@ export async function freezeBaseline(ctx: ServiceContext, baselineId: string, in
         frozen_by: frozen.frozen_by,
         supersedes_id: frozen.supersedes_id,
         supersede_reason: frozen.supersede_reason,
+        short_baseline_override: frozen.short_baseline_override,
+        extrapolation_override: frozen.extrapolation_override,
         content_hash: frozen.content_hash,
       })
       .where('id', '=', row.id)
@@ -347,23 +429,6 @@ export async function freezeBaseline(ctx: ServiceContext, baselineId: string, in
 
 // ---------------------------------------------------------------------------
 // The energy-signature chart.
-
-export function chartPoint(period: Period, unit: TemperatureUnit, useUnit: string): SignaturePoint {
-  const degree = unit === 'F' ? '°F' : '°C';
-  return {
-    temp: period.meanTemp,
-    usePerDay: period.usePerDay,
-    label: `${period.start} to ${period.end}: ${period.meanTemp.toFixed(1)} ${degree}, ${period.usePerDay.toPrecision(4)} ${useUnit}/day`,
-  };
-}
-
-/** The model's vertices over the baseline's temperature range: its ends and any changepoint between them. */
-export function fittedVertices(fit: ShapeFit): SignaturePoint[] {
-  const { min, max } = fit.temperatureRange;
-  const inside = [fit.changepoints.heating, fit.changepoints.cooling].filter((c): c is number => c !== null && c > min && c < max);
-  const temps = [...new Set([min, ...inside, max])].sort((a, b) => a - b);
-  return temps.map((temp) => ({ temp, usePerDay: predictPerDay(fit.model, fit.changepoints, fit.rawCoefficients, temp) }));
-}
 
 /** The baseline's energy signature as SVG; reporting periods are added once it has been frozen. */
 export async function baselineSignatureSvg(db: Executor, organisationId: string, baselineId: string): Promise<string> {
@@ -392,8 +457,6 @@ export async function baselineSignatureSvg(db: Executor, organisationId: string,
     baselineEnd: row.period_end,
     temperatureUnit: unit,
     useUnit: meter.unit,
-    baseline: baseline.map((p) => chartPoint(p, unit, meter.unit)),
-    fittedLine: fittedVertices(fit),
-    reporting: reporting.map((p) => chartPoint(p, unit, meter.unit)),
+    ...signatureChartPoints(fit, baseline, reporting, unit, meter.unit),
   });
 }

@@ -7,9 +7,12 @@
 import {
   contractYearsOverlapping,
   contractYearWindow,
+  alignPeriods,
   inWindowByMidpoint,
   normalisedSavings,
+  projectionRefusals,
   quarterWindow,
+  reportingExtrapolation,
   savingsFromFit,
   SIGNIFICANCE_RULE,
   type DateWindow,
@@ -26,7 +29,7 @@ import type { ContractSummary, GuaranteeStatus, MeterReport, ReportWindow, Savin
 import type { Kysely } from 'kysely';
 import { readSnapshot } from '../store/connect.js';
 import type { Database, MeterRow } from '../store/schema.js';
-import { chartPoint, fittedVertices } from './baselines.js';
+import { signatureChartPoints } from '../reports/svg/signature-points.js';
 import type { Executor } from './context.js';
 import { toContract } from './contracts.js';
 import { getFacilityRow } from './facilities.js';
@@ -46,7 +49,7 @@ export interface ReportQuery {
 interface MeterContext {
   meter: MeterRow;
   temperatureUnit: TemperatureUnit;
-  baseline: { id: string; version: number; contentHash: string; start: string; end: string } | null;
+  baseline: { id: string; version: number; contentHash: string; start: string; end: string; temperatureForm: 'daily' | 'mean' } | null;
   model: FrozenModel | null;
   rates: { currency: string | null; entries: RateEntry[] };
   adjustments: StoredAdjustment[];
@@ -169,7 +172,7 @@ export function resolveWindow(query: ReportQuery, contracts: readonly (ContractS
 async function meterContext(db: Executor, meter: MeterRow): Promise<MeterContext> {
   const baseline = await db
     .selectFrom('baselines')
-    .select(['id', 'version', 'content_hash', 'period_start', 'period_end'])
+    .select(['id', 'version', 'content_hash', 'period_start', 'period_end', 'temperature_form'])
     .where('meter_id', '=', meter.id)
     .where('status', '=', 'frozen')
     .executeTakeFirst();
@@ -182,7 +185,7 @@ async function meterContext(db: Executor, meter: MeterRow): Promise<MeterContext
     meter,
     temperatureUnit: station.temperature_unit,
     baseline: baseline?.content_hash
-      ? { id: baseline.id, version: baseline.version, contentHash: baseline.content_hash, start: baseline.period_start, end: baseline.period_end }
+      ? { id: baseline.id, version: baseline.version, contentHash: baseline.content_hash, start: baseline.period_start, end: baseline.period_end, temperatureForm: baseline.temperature_form }
       : null,
     model,
     rates: { currency: schedule.currency, entries: schedule.rates },
@@ -193,6 +196,7 @@ async function meterContext(db: Executor, meter: MeterRow): Promise<MeterContext
       quantity: row.quantity,
       perDay: row.per_day,
       reason: row.reason,
+      uncertainty: row.uncertainty,
       recordedAt: row.created_at,
       recordedBy: row.created_by,
     })),
@@ -216,6 +220,9 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     temperatureRange: { ...model.fit.temperatureRange },
     cvrmse: model.fit.stats.cvrmse,
     meetsGuideline14: null as boolean | null,
+    temperatureForm: baseline.temperatureForm,
+    sufficiency: { sufficient: model.sufficiency.sufficient, reasons: model.sufficiency.reasons },
+    overrides: model.overrides,
   };
   const start = window.from > baseline.end ? window.from : baseline.end;
   const candidates = await loadReadings(db, meter.id, { startOnOrAfter: baseline.end, startBefore: window.to, endAfter: start });
@@ -233,6 +240,11 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     if (!(error instanceof RangeError)) throw error;
     return missingMeterReport(identity, baselineInfo, `${error.message} (every reporting reading in the window lacks weather)`, overlapping);
   }
+  const extrapolation = reportingExtrapolation(model.fit, alignPeriods(readings, weather, { minCoverage: model.minCoverage }).periods);
+  const refusal = projectionRefusals({ sufficiency: model.sufficiency, extrapolation, overrides: model.overrides }, { requireSufficiency: false })[0];
+  if (refusal) {
+    return missingMeterReport(identity, baselineInfo, `savings refused: ${refusal.reason}; the frozen baseline carries no extrapolation override`, overlapping, extrapolation);
+  }
   baselineInfo.meetsGuideline14 = savings.baseline.guideline14?.pass ?? null;
   const normalised = ctx.normalYear
     ? normalisedSavings(model.fit, readings, weather, ctx.normalYear.temps, { minCoverage: model.minCoverage })
@@ -245,15 +257,21 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     adjustments: overlapping,
     normalised,
     signature: signatureData(model, savings, meter.unit),
+    extrapolation,
   });
 }
 
 function signatureData(model: FrozenModel, savings: SavingsDocument, unit: string): SignatureData {
-  const reporting = savings.periods.map((p) => chartPoint({ ...p, quantity: p.actual, usePerDay: p.actual / p.days, coverage: 1, estimated: false }, model.temperatureUnit, unit));
+  // A reporting period's expected use per day is the model's projection of it: its model baseline over its days.
+  const reporting = savings.periods.map((p) => ({ ...p, usePerDay: p.actual / p.days, expectedPerDay: p.modelBaseline / p.days }));
+  const series = signatureChartPoints(model.fit, model.baselinePeriods, reporting, model.temperatureUnit, unit);
+  const labelled = (points: typeof series.baseline) => points.map((p) => ({ temp: p.temp, usePerDay: p.usePerDay, label: p.label ?? '' }));
   return {
     temperatureUnit: model.temperatureUnit,
-    baseline: model.baselinePeriods.map((p) => chartPoint(p, model.temperatureUnit, unit)) as SignatureData['baseline'],
-    reporting: reporting as SignatureData['reporting'],
-    fittedLine: fittedVertices(model.fit).map((p) => ({ temp: p.temp, usePerDay: p.usePerDay })),
+    baseline: labelled(series.baseline),
+    reporting: labelled(series.reporting),
+    fittedLine: series.fittedLine.map((p) => ({ temp: p.temp, usePerDay: p.usePerDay })),
+    temperatureForm: series.temperatureForm,
+    expected: labelled(series.expected),
   };
 }

@@ -9,12 +9,19 @@
  */
 import {
   alignPeriods,
+  baselineSufficiency,
+  projectionRefusals,
+  reportingExtrapolation,
   savingsFromFit,
+  withProjectionChecks,
+  type BaselineSufficiency,
+  type CheckedSavingsDocument,
   type ExcludedPeriod,
   type FitDocument,
   type Guideline14Limits,
   type ModelName,
   type Period,
+  type ProjectionOverrides,
   type SavingsDocument,
   type TemperatureUnit,
   type ShapeFit,
@@ -22,7 +29,7 @@ import {
 import { Problem } from '../http/problem.js';
 import type { BaselineRow } from '../store/schema.js';
 import { fromStoredJson, nonFiniteToNull, verifyBaselineContent } from '../store/baseline-content.js';
-import type { BaselineFitOptions, BaselineInputs } from './baselines.js';
+import { overridesOf, type BaselineFitOptions, type BaselineInputs } from './baselines.js';
 import type { Executor } from './context.js';
 import { getMeterRow } from './meters.js';
 import { loadReadings, loadWeatherFor } from './meter-data.js';
@@ -34,7 +41,7 @@ export interface SavingsQuery {
   confidence?: number;
 }
 
-export interface MeterSavings extends SavingsDocument {
+export interface MeterSavings extends CheckedSavingsDocument {
   meterId: string;
   /** The meter's non-routine adjustments that fall in the reporting periods. */
   adjustments: Adjustment[];
@@ -51,6 +58,10 @@ export interface FrozenModel {
   limits: Guideline14Limits;
   excluded: ExcludedPeriod[];
   minCoverage: number;
+  /** Whether the baseline covers a full cycle of seasons. */
+  sufficiency: BaselineSufficiency;
+  /** What was allowed when it was frozen (kept under its content hash). */
+  overrides: ProjectionOverrides;
 }
 
 /** Recent values up to a total weight, the least recently used dropped first. */
@@ -106,13 +117,16 @@ export async function frozenModel(db: Executor, baselineId: string, contentHash:
   if (!fit) throw new Problem('unprocessable', `baseline ${baselineId} holds no fit of its chosen shape ${row.chosen_model}`);
   const inputs = fromStoredJson<BaselineInputs>(row.inputs_json);
   const minCoverage = options.minCoverage ?? document.settings.minCoverage;
+  const baselinePeriods = alignPeriods(inputs.readings, inputs.weather, { minCoverage }).periods;
   const model: FrozenModel = {
     fit,
-    baselinePeriods: alignPeriods(inputs.readings, inputs.weather, { minCoverage }).periods,
+    baselinePeriods,
     temperatureUnit: inputs.temperatureUnit,
     limits: document.settings.guideline14,
     excluded: document.periods.excluded,
     minCoverage,
+    sufficiency: baselineSufficiency(baselinePeriods),
+    overrides: overridesOf(row),
   };
   return modelCache.set(key, model);
 }
@@ -167,5 +181,18 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
       excluded.map((p) => ({ field: `reading ${p.start}..${p.end}`, message: p.reason })),
     );
   }
-  return nonFiniteToNull({ ...document, meterId: meter.id, adjustments: adjustmentRows.map(toAdjustment), baselineId: baseline.id, baselineVersion: baseline.version, baselineContentHash: baseline.content_hash });
+  const checks = { sufficiency: model.sufficiency, extrapolation: reportingExtrapolation(model.fit, alignPeriods(readings, weather, options).periods), overrides: model.overrides };
+  // A baseline frozen short carries its override (freezing refuses it otherwise); one frozen before that rule is shown, not refused.
+  const refusal = projectionRefusals(checks, { requireSufficiency: false })[0];
+  if (refusal) {
+    const e = checks.extrapolation;
+    throw new Problem(
+      'unprocessable',
+      `meter ${meterId}: savings ${windowText(start, query.to)} are refused: ${refusal.reason}. Frozen baseline ${baseline.id} (version ${baseline.version}) never saw that weather: fit and freeze a baseline that covers it, or freeze one with overrides.extrapolation.reason saying why it may be projected this far`,
+      undefined,
+      { extrapolation: { share: e.share, limit: e.limit, outsideDays: e.outsideDays, days: e.days, basis: e.basis } },
+    );
+  }
+  const checked = withProjectionChecks(document, checks);
+  return nonFiniteToNull({ ...checked, meterId: meter.id, adjustments: adjustmentRows.map(toAdjustment), baselineId: baseline.id, baselineVersion: baseline.version, baselineContentHash: baseline.content_hash });
 }

@@ -56,31 +56,66 @@ export function nonFiniteToNull<T>(value: T): T {
   return value;
 }
 
+/** The columns the content hash and its checks read. */
+export type HashedBaseline = Pick<
+  BaselineRow,
+  | 'meter_id'
+  | 'period_start'
+  | 'period_end'
+  | 'options_json'
+  | 'inputs_json'
+  | 'document_json'
+  | 'fits_json'
+  | 'chosen_model'
+  | 'choice_reason'
+  | 'content_hash'
+  | 'temperature_form'
+  | 'short_baseline_override'
+  | 'extrapolation_override'
+>;
+
 /**
  * Content hash: SHA-256 of the canonical JSON of everything the frozen
  * baseline's figures rest on, read back from the stored columns:
- * { meterId, start, end, options, inputs, document, chosen: { model, reason, fit } }.
+ * { meterId, start, end, options, inputs, document, chosen: { model, reason, fit } },
+ * plus overrides: { shortBaseline, extrapolation } (the reasons, null where
+ * none) only when the baseline carries one, so the hash of every baseline
+ * frozen without an override (all of those frozen before overrides existed)
+ * is what it always was. The temperature form is not hashed separately: the
+ * hashed fit document states it (see verifyBaselineContent).
  */
-export function baselineContentHash(row: BaselineRow): string {
+export function baselineContentHash(row: HashedBaseline): string {
   const fits = JSON.parse(row.fits_json) as Record<string, unknown>;
-  return sha256Hex(
-    canonicalJson({
-      meterId: row.meter_id,
-      start: row.period_start,
-      end: row.period_end,
-      options: JSON.parse(row.options_json),
-      inputs: JSON.parse(row.inputs_json),
-      document: JSON.parse(row.document_json),
-      chosen: { model: row.chosen_model, reason: row.choice_reason, fit: fits[row.chosen_model] ?? null },
-    }),
-  );
+  const content: Record<string, unknown> = {
+    meterId: row.meter_id,
+    start: row.period_start,
+    end: row.period_end,
+    options: JSON.parse(row.options_json),
+    inputs: JSON.parse(row.inputs_json),
+    document: JSON.parse(row.document_json),
+    chosen: { model: row.chosen_model, reason: row.choice_reason, fit: fits[row.chosen_model] ?? null },
+  };
+  const shortBaseline = row.short_baseline_override ?? null;
+  const extrapolation = row.extrapolation_override ?? null;
+  if (shortBaseline !== null || extrapolation !== null) content.overrides = { shortBaseline, extrapolation };
+  return sha256Hex(canonicalJson(content));
 }
 
-/** True when the row has a content hash and its stored content still gives it. */
-export function verifyBaselineContent(row: BaselineRow): boolean {
+/** The temperature form the stored fit document states; documents from before the form existed are mean-form fits. */
+export function documentTemperatureForm(documentJson: string): 'daily' | 'mean' {
+  const document = JSON.parse(documentJson) as { temperatureForm?: unknown };
+  return document.temperatureForm === 'daily' ? 'daily' : 'mean';
+}
+
+/**
+ * True when the row has a content hash, its stored content still gives it,
+ * and its temperature_form column agrees with the form its hashed fit
+ * document states (so the column cannot be changed unseen either).
+ */
+export function verifyBaselineContent(row: HashedBaseline): boolean {
   if (row.content_hash === null) return false;
   try {
-    return baselineContentHash(row) === row.content_hash;
+    return baselineContentHash(row) === row.content_hash && row.temperature_form === documentTemperatureForm(row.document_json);
   } catch {
     return false; // a column that no longer parses has been tampered with
   }

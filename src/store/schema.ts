@@ -104,6 +104,12 @@ export interface BaselinesTable {
   supersede_reason: string | null;
   created_at: string;
   created_by: string;
+  /** How the fit saw each reading's weather: 'daily' (day-resolved) or 'mean'; 'mean' for every baseline stored before the form existed. */
+  temperature_form: 'daily' | 'mean';
+  /** The reason given at freeze for projecting from a baseline shorter than a full cycle of seasons; null when none was needed or given. */
+  short_baseline_override: string | null;
+  /** The reason given at freeze for projecting beyond the extrapolation limit; null when none was given. */
+  extrapolation_override: string | null;
 }
 
 /** One hash chain per organisation: (organisation_id, seq) is the key. */
@@ -150,6 +156,8 @@ export interface AdjustmentsTable {
   withdrawn_at: string | null;
   withdrawn_by: string | null;
   withdraw_reason: string | null;
+  /** The engineer's standard uncertainty (one standard deviation) of the adjustment's total, in the meter's unit; null when none was stated. */
+  uncertainty: number | null;
 }
 
 /** One entry of a meter's contract rate schedule (currency per unit of the meter). */

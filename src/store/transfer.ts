@@ -1,7 +1,7 @@
 /**
  * Moving one organisation between databases: `exportOrganisation` reads every
  * row of it, exactly as stored, into one document (our own format,
- * "mvledger-export" version 1); `importOrganisation` checks such a document
+ * "mvledger-export" version 3); `importOrganisation` checks such a document
  * and stores it in another database in one transaction, or stores nothing.
  *
  * What the checks can prove: the audit trail inside the document recomputes
@@ -13,16 +13,20 @@
  * Idempotency keys are transient and stay behind.
  */
 import type { Kysely, Transaction } from 'kysely';
-import { verifyBaselineContent } from './baseline-content.js';
+import { documentTemperatureForm, verifyBaselineContent } from './baseline-content.js';
 import { ROLES } from './api-keys.js';
 import { GENESIS_HASH, verifyAuditChain, verifyAuditRows, type ChainVerdict } from './audit.js';
 import { readSnapshot, writeTransaction } from './connect.js';
 import type { AuditRow, BaselineRow, Database } from './schema.js';
 
 export const EXPORT_FORMAT = 'mvledger-export';
-export const EXPORT_VERSION = 2;
-/** Version 1 predates adjustments, rates, contracts and normal years: it is read with those tables empty. */
-const READABLE_VERSIONS = [1, 2] as const;
+export const EXPORT_VERSION = 3;
+/**
+ * Version 1 predates adjustments, rates, contracts and normal years: it is
+ * read with those tables empty. Versions 1 and 2 predate the columns of
+ * COLUMNS_SINCE_VERSION_3: they are read with those columns defaulted.
+ */
+const READABLE_VERSIONS = [1, 2, 3] as const;
 const TABLES_SINCE_VERSION_2 = ['adjustments', 'rates', 'contracts', 'normal_years'] as const;
 
 /** The organisation's tables in foreign-key order: the order of insertion. */
@@ -74,6 +78,8 @@ interface ColumnRule {
   type: 'text' | 'real' | 'integer';
   nullable?: boolean;
   oneOf?: readonly Cell[];
+  /** Smallest allowed number. */
+  min?: number;
 }
 
 interface TableRule {
@@ -148,6 +154,9 @@ const TABLE_RULES: Record<TransferTable, TableRule> = {
       supersede_reason: TEXT_OR_NULL,
       created_at: TEXT,
       created_by: TEXT,
+      temperature_form: { type: 'text', oneOf: ['daily', 'mean'] },
+      short_baseline_override: TEXT_OR_NULL,
+      extrapolation_override: TEXT_OR_NULL,
     },
   },
   normal_years: {
@@ -187,6 +196,7 @@ const TABLE_RULES: Record<TransferTable, TableRule> = {
       withdrawn_at: TEXT_OR_NULL,
       withdrawn_by: TEXT_OR_NULL,
       withdraw_reason: TEXT_OR_NULL,
+      uncertainty: { type: 'real', nullable: true, min: 0 },
     },
   },
   audit_log: {
@@ -206,6 +216,37 @@ const TABLE_RULES: Record<TransferTable, TableRule> = {
     },
   },
 };
+
+/**
+ * Columns added in format version 3, and the value an older document's row
+ * gets: a baseline's temperature form is the one its fit document states
+ * (mean for documents from before the form existed); no override; no
+ * stated ± on an adjustment.
+ */
+const COLUMNS_SINCE_VERSION_3: Partial<Record<TransferTable, Record<string, (row: ExportRow) => Cell>>> = {
+  baselines: {
+    temperature_form: (row) => formOfDocument(row.document_json),
+    short_baseline_override: () => null,
+    extrapolation_override: () => null,
+  },
+  adjustments: { uncertainty: () => null },
+};
+
+function formOfDocument(documentJson: Cell | undefined): Cell {
+  try {
+    return typeof documentJson === 'string' ? documentTemperatureForm(documentJson) : 'mean';
+  } catch {
+    return 'mean'; // a document that does not parse fails its content-hash check anyway
+  }
+}
+
+/** The rule of a table in a document of `version`: older versions lack the columns added since. */
+function ruleFor(table: TransferTable, version: number): TableRule {
+  const rule = TABLE_RULES[table];
+  const added = COLUMNS_SINCE_VERSION_3[table];
+  if (version >= 3 || !added) return rule;
+  return { key: rule.key, columns: Object.fromEntries(Object.entries(rule.columns).filter(([column]) => !Object.hasOwn(added, column))) };
+}
 
 /** Tables whose id is unique across the whole database, not only within the organisation. */
 const GLOBAL_ID_TABLES = ['api_keys', 'weather_stations', 'facilities', 'meters', 'baselines', 'adjustments'] as const;
@@ -300,14 +341,15 @@ function checkCell(path: string, value: unknown, rule: ColumnRule): void {
   if (rule.type === 'text' && typeof value !== 'string') fail(path, `must be text, got ${shown(value)}`);
   if (rule.type === 'real' && !(typeof value === 'number' && Number.isFinite(value))) fail(path, `must be a finite number, got ${shown(value)}`);
   if (rule.type === 'integer' && !Number.isSafeInteger(value)) fail(path, `must be a whole number, got ${shown(value)}`);
+  if (rule.min !== undefined && (value as number) < rule.min) fail(path, `must be at least ${rule.min}, got ${shown(value)}`);
   if (rule.oneOf && !rule.oneOf.includes(value as Cell)) fail(path, `must be one of ${rule.oneOf.join(', ')}, got ${shown(value)}`);
 }
 
-function checkRow(path: string, value: unknown, rule: TableRule, organisationId: string | null): ExportRow {
+function checkRow(path: string, value: unknown, rule: TableRule, organisationId: string | null, version: number): ExportRow {
   if (!isObject(value)) fail(path, `must be an object, got ${shown(value)}`);
   for (const [column, columnRule] of Object.entries(rule.columns)) checkCell(`${path}.${column}`, value[column], columnRule);
   for (const column of Object.keys(value)) {
-    if (!Object.hasOwn(rule.columns, column)) fail(`${path}.${column}`, `not a column of format version ${EXPORT_VERSION}`);
+    if (!Object.hasOwn(rule.columns, column)) fail(`${path}.${column}`, `not a column of format version ${version}`);
   }
   if (organisationId !== null && 'organisation_id' in value && value.organisation_id !== organisationId) {
     fail(`${path}.organisation_id`, `must be the exported organisation ${organisationId}, got ${shown(value.organisation_id)}`);
@@ -315,12 +357,14 @@ function checkRow(path: string, value: unknown, rule: TableRule, organisationId:
   return value as ExportRow;
 }
 
-function checkTable(table: TransferTable, value: unknown, organisationId: string): ExportRow[] {
+function checkTable(table: TransferTable, value: unknown, organisationId: string, version: number): ExportRow[] {
   if (!Array.isArray(value)) fail(`tables.${table}`, `must be a list of rows, got ${shown(value)}`);
-  const rule = TABLE_RULES[table];
+  const rule = ruleFor(table, version);
+  const added = version >= 3 ? undefined : COLUMNS_SINCE_VERSION_3[table];
   const seen = new Set<string>();
   return value.map((entry, index) => {
-    const row = checkRow(`tables.${table}[${index}]`, entry, rule, organisationId);
+    const checked = checkRow(`tables.${table}[${index}]`, entry, rule, organisationId, version);
+    const row = added ? { ...checked, ...Object.fromEntries(Object.entries(added).map(([column, fill]) => [column, fill(checked)])) } : checked;
     const key = JSON.stringify(rule.key.map((column) => row[column]));
     if (seen.has(key)) fail(`tables.${table}[${index}]`, `a second row with the key ${rule.key.join(', ')} = ${key}`);
     seen.add(key);
@@ -398,10 +442,11 @@ export function checkDocument(value: unknown): ExportDocument {
   if (!isObject(value)) fail('document', `must be a JSON object, got ${shown(value)}`);
   if (value.format !== EXPORT_FORMAT) fail('format', `must be ${JSON.stringify(EXPORT_FORMAT)}, got ${shown(value.format)}`);
   if (!(READABLE_VERSIONS as readonly unknown[]).includes(value.version)) {
-    fail('version', `this mvledger reads versions ${READABLE_VERSIONS.join(' and ')}, got ${shown(value.version)}`);
+    fail('version', `this mvledger reads versions ${READABLE_VERSIONS.slice(0, -1).join(', ')} and ${READABLE_VERSIONS.at(-1)}, got ${shown(value.version)}`);
   }
   if (typeof value.exportedAt !== 'string') fail('exportedAt', `must be text, got ${shown(value.exportedAt)}`);
-  const organisation = checkRow('organisation', value.organisation, ORGANISATION_RULE, null) as unknown as OrganisationRecord;
+  const version = value.version as number;
+  const organisation = checkRow('organisation', value.organisation, ORGANISATION_RULE, null, version) as unknown as OrganisationRecord;
   const head = value.auditHead;
   if (!isObject(head)) fail('auditHead', `must be an object { seq, hash }, got ${shown(head)}`);
   checkCell('auditHead.seq', head.seq, INTEGER);
@@ -412,7 +457,7 @@ export function checkDocument(value: unknown): ExportDocument {
     if (!known.includes(name)) fail(`tables.${name}`, `not a table of format version ${shown(value.version)}`);
   }
   const tables = {} as Record<TransferTable, ExportRow[]>;
-  for (const table of TRANSFER_TABLES) tables[table] = known.includes(table) ? checkTable(table, value.tables[table], organisation.id) : [];
+  for (const table of TRANSFER_TABLES) tables[table] = known.includes(table) ? checkTable(table, value.tables[table], organisation.id, version) : [];
   checkReferences(tables);
   const auditHead = { seq: head.seq as number, hash: head.hash as string };
   checkAuditTrail(organisation.id, tables.audit_log, auditHead);

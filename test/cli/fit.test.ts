@@ -51,6 +51,30 @@ describe('mvledger fit --json', () => {
   });
 });
 
+describe('mvledger fit --temperature', () => {
+  it('fits day-resolved by default and in the mean form when asked, stating the form in JSON and text', async () => {
+    const daily = JSON.parse((await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile, '--json'])).stdout) as { temperatureForm: string };
+    expect(daily.temperatureForm).toBe('daily'); // the engine's default for bills with daily weather
+    const run = await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile, '--json', '--temperature', 'mean']);
+    expect(run.code).toBe(0);
+    // Source: the engine itself in the mean form.
+    expect(JSON.parse(run.stdout)).toEqual(asJson(analyseBaseline(baseline, weather, { temperatureForm: 'mean' }).document));
+    const text = await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile, '--temperature', 'MEAN']);
+    expect(text.stdout).toContain('  temperature form: mean (each period at its mean temperature)');
+    expect((await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile])).stdout).toContain('  temperature form: daily (day-resolved');
+  });
+
+  it('says when the baseline is too short to project from, and still fits it', async () => {
+    // Synthetic: five bills of 2022 (151 days).
+    const short = folder.write('five-bills.csv', readingsCsv(baseline.slice(0, 5)));
+    const run = await runCli(['fit', '--readings', short, '--weather', weatherFile]);
+    expect(run.code).toBe(0);
+    expect(run.stdout).toContain('  baseline length: 5 periods, 151 days: too short to project from');
+    expect(run.stdout).toContain('refuses it without --allow-short-baseline REASON');
+    expect((await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile])).stdout).toContain('  baseline length: 24 periods, 730 days: covers a full cycle of seasons'); // hand-worked: 2022 and 2023, 365 days each
+  });
+});
+
 describe('mvledger fit, text report', () => {
   it('shows a row per shape, the reasons, the Guideline 14 check and the caution', async () => {
     const run = await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile]);

@@ -51,6 +51,10 @@ describe('bad options', () => {
     { args: ['savings', '--baseline', 'b.csv', '--reporting', 'r.csv', '--weather', 'w.csv', '--model', '6P'], says: 'mvledger: --model must be one of 1P, 2P, 3PC, 3PH, 4P, 5P, got "6P"\n' },
     { args: ['savings', '--baseline', 'b.csv', '--reporting', 'r.csv', '--weather', 'w.csv', '--confidence', '68'], says: 'mvledger: --confidence must be one of 0.68, 0.8, 0.9, 0.95, got "68"\n' },
     { args: ['savings', '--baseline', 'b.csv', '--weather', 'w.csv'], says: 'mvledger: --reporting FILE is required\n' },
+    { args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--temperature', 'hourly'], says: 'mvledger: --temperature must be daily or mean, got "hourly"\n' },
+    { args: ['savings', '--baseline', 'b.csv', '--reporting', 'r.csv', '--weather', 'w.csv', '--temperature', ''], says: 'mvledger: --temperature must be daily or mean, got ""\n' },
+    { args: ['savings', '--baseline', 'b.csv', '--reporting', 'r.csv', '--weather', 'w.csv', '--allow-extrapolation'], says: 'mvledger: option --allow-extrapolation needs a value\n' },
+    { args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--allow-short-baseline', 'x'], says: 'mvledger: unknown option --allow-short-baseline\n' },
   ];
   for (const c of cases) {
     it(`refuses ${c.args.slice(1).join(' ')}`, async () => {

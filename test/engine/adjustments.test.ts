@@ -3,6 +3,8 @@ import {
   adjustmentOverlap,
   adjustmentPerDay,
   adjustmentsForPeriod,
+  adjustmentsUncertaintyInPeriods,
+  adjustmentUncertaintyInPeriods,
   findOverlappingAdjustment,
   type NonRoutineAdjustment,
 } from '../../src/engine/adjustments.js';
@@ -93,5 +95,38 @@ describe('findOverlappingAdjustment', () => {
   it('is undefined when the candidate only touches or fills a gap', () => {
     expect(findOverlappingAdjustment(existing, { start: '2025-02-01', end: '2025-03-01' })).toBeUndefined();
     expect(findOverlappingAdjustment([], { start: '2025-02-01', end: '2025-03-01' })).toBeUndefined();
+  });
+});
+
+describe('the uncertainty an adjustment carries into the reporting periods', () => {
+  // The closure: 3,000 over [04-10, 05-10), 30 days, ± 600 (one standard deviation of the total, stated by the engineer).
+  const closure = adjustment({ id: 'closure', start: '2025-04-10', end: '2025-05-10', quantity: 3000, uncertainty: 600 });
+  // The new line: −25 a day over [04-20, 06-01), 42 days, ± 800 on its total of −1,050.
+  const newLine = adjustment({ id: 'line', start: '2025-04-20', end: '2025-06-01', perDay: -25, uncertainty: 800 });
+  const april = { start: '2025-04-01', end: '2025-05-01' };
+  const may = { start: '2025-05-01', end: '2025-06-01' };
+
+  it('is the share of its days inside the periods times its stated ± (hand-worked)', () => {
+    expect(adjustmentUncertaintyInPeriods(closure, [april])).toBeCloseTo((600 * 21) / 30, 12); // 21 of 30 days: 420
+    expect(adjustmentUncertaintyInPeriods(closure, [may])).toBeCloseTo((600 * 9) / 30, 12); // 9 of 30 days: 180
+    // One error shared by its days: the parts add linearly back to the whole (420 + 180 = 600), not in quadrature.
+    expect(adjustmentUncertaintyInPeriods(closure, [april, may])).toBeCloseTo(600, 12);
+    expect(adjustmentUncertaintyInPeriods(newLine, [april])).toBeCloseTo((800 * 11) / 42, 12); // 11 of 42 days
+  });
+
+  it('combines different adjustments in quadrature (hand-worked: √(600² + 800²) = 1,000 over April and May)', () => {
+    expect(adjustmentsUncertaintyInPeriods([closure, newLine], [april, may])).toBeCloseTo(1000, 9);
+  });
+
+  it('is 0 for an adjustment without a stated ±, outside the periods, or for none', () => {
+    expect(adjustmentUncertaintyInPeriods(adjustment({ start: '2025-04-10', end: '2025-05-10', quantity: 3000 }), [april])).toBe(0);
+    expect(adjustmentUncertaintyInPeriods(adjustment({ start: '2025-04-10', end: '2025-05-10', quantity: 3000, uncertainty: null }), [april])).toBe(0);
+    expect(adjustmentUncertaintyInPeriods(closure, [{ start: '2025-07-01', end: '2025-08-01' }])).toBe(0);
+    expect(adjustmentsUncertaintyInPeriods([], [april])).toBe(0);
+  });
+
+  it('refuses a negative or non-finite ±', () => {
+    expect(() => adjustmentUncertaintyInPeriods({ ...closure, uncertainty: -1 }, [april])).toThrow(/uncertainty must be a finite number of at least 0/);
+    expect(() => adjustmentUncertaintyInPeriods({ ...closure, uncertainty: Number.POSITIVE_INFINITY }, [april])).toThrow(RangeError);
   });
 });

@@ -120,6 +120,35 @@ describe('adjusted baseline and avoided energy (hand-worked with a 3PC)', () => 
     }
   });
 
+  it('an adjustment’s own ± is shown at the confidence and combined with the model’s larger ±', () => {
+    // The reporting year runs 2033-01-01..2033-12-27 (12 periods of 30 days); a noisy baseline (synthetic).
+    // hand-worked: A lies wholly inside, ± 300 → 300; B covers [12-17, 2034-01-16), 30 days, ± 1,200, of which
+    // 10 days fall in the year → 1,200 × 10/30 = 400; together √(300² + 400²) = 500 (one standard deviation).
+    // At 90% confidence × z = 1.6448536269514715 (Python's statistics.NormalDist, test/reference/normal-quantiles.py).
+    const noisy = noisyBaseline(6);
+    const year = reportingYear(0.1);
+    const adjustments = [
+      { id: 'A', start: '2033-01-01', end: '2033-01-31', quantity: 900, perDay: null, reason: 'added floor area (test)', uncertainty: 300 },
+      { id: 'B', start: '2033-12-17', end: '2034-01-16', quantity: null, perDay: 10, reason: 'new equipment (test)', uncertainty: 1200 },
+    ];
+    const plain = computeSavings(noisy, year, { confidence: 0.9, adjustments: adjustments.map(({ uncertainty: _u, ...a }) => a) });
+    const result = computeSavings(noisy, year, { confidence: 0.9, adjustments });
+    const u = result.totals.uncertainty;
+    expect(u.adjustments.absolute).toBeCloseTo(500 * 1.6448536269514715, 9);
+    expect(plain.totals.uncertainty.adjustments.absolute).toBe(0);
+    // The model's own ± are untouched by the adjustments' ±.
+    expect(u.guideline14).toEqual(plain.totals.uncertainty.guideline14);
+    expect(u.exact).toEqual(plain.totals.uncertainty.exact);
+    const model = Math.max(u.guideline14.absolute, u.exact.absolute);
+    expect(model).toBeGreaterThan(1);
+    expect(u.combined.absolute).toBeCloseTo(Math.sqrt(model ** 2 + (500 * 1.6448536269514715) ** 2), 9);
+    expect(u.combined.fractional).toBeCloseTo(u.combined.absolute / Math.abs(result.totals.savings), 12);
+    // Without stated ±, the combined ± is the model's larger one.
+    expect(plain.totals.uncertainty.combined.absolute).toBeCloseTo(Math.max(plain.totals.uncertainty.guideline14.absolute, plain.totals.uncertainty.exact.absolute), 9);
+    // At 68% the same 500 scales by z = 0.9944578832097535 (the same reference).
+    expect(computeSavings(noisy, year, { adjustments }).totals.uncertainty.adjustments.absolute).toBeCloseTo(500 * 0.9944578832097535, 9);
+  });
+
   it('a period exactly at the edge of the baseline range is inside it', () => {
     const edges = periodsFromPoints([{ temp: 40, usePerDay: 100, days: 30 }, { temp: 90, usePerDay: 200, days: 30 }], '2033-01-01');
     const edgeResult = computeSavings(exactBaseline(), edges);

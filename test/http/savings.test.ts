@@ -6,7 +6,19 @@
  * truth the test sets.
  */
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { analyseBaseline, analyseSavings, savingsFromFit, type DailyTemperature, type ModelName, type Reading } from '../../src/engine/index.js';
+import {
+  alignPeriods,
+  analyseBaseline,
+  analyseSavings,
+  baselineSufficiency,
+  NO_OVERRIDES,
+  reportingExtrapolation,
+  savingsFromFit,
+  withProjectionChecks,
+  type DailyTemperature,
+  type ModelName,
+  type Reading,
+} from '../../src/engine/index.js';
 import { toJsonDocument } from '../../src/cli/format/json.js';
 import { makeTestApi, type TestApi } from '../support/api.js';
 import { databaseDigest } from '../support/db-digest.js';
@@ -28,7 +40,9 @@ const ENGINE = analyseBaseline(BASELINE, WEATHER);
 function engineSavings(model: ModelName, reporting: readonly Reading[], confidence?: number, baseline = ENGINE, weather: readonly DailyTemperature[] = WEATHER): unknown {
   const fit = baseline.choice.candidates.find((c) => c.model === model)!.fit!;
   const document = savingsFromFit(fit, { limits: baseline.choice.settings.guideline14, excluded: baseline.excluded }, reporting, weather, { confidence });
-  return JSON.parse(toJsonDocument(document));
+  // The checks between baseline and projection, as the engine states them (the CLI's savings --json carries the same).
+  const checks = { sufficiency: baselineSufficiency(baseline.periods), extrapolation: reportingExtrapolation(fit, alignPeriods(reporting, weather).periods), overrides: NO_OVERRIDES };
+  return JSON.parse(toJsonDocument(withProjectionChecks(document, checks)));
 }
 
 function withoutBaselineKeys(body: Record<string, unknown>): Record<string, unknown> {
@@ -92,7 +106,10 @@ describe('GET /v1/meters/{id}/savings', () => {
     const expected = engineSavings(ENGINE.choice.selected, REPORTING) as Record<string, unknown>; // the engine itself
     expect(withoutBaselineKeys(response.json)).toEqual(expected);
     expect(Object.keys(response.json).sort()).toEqual([...Object.keys(expected), ...EXTRA_KEYS].sort()); // exactly the CLI's keys, plus the baseline's
-    expect(JSON.parse(toJsonDocument(analyseSavings(ENGINE, REPORTING, WEATHER)))).toEqual(expected); // the engine itself, refitting path: same numbers
+    // The engine itself, refitting path: same numbers (with the same checks stated).
+    const refit = analyseSavings(ENGINE, REPORTING, WEATHER);
+    const refitChecks = { sufficiency: baselineSufficiency(ENGINE.periods), extrapolation: reportingExtrapolation(ENGINE.choice.candidates.find((c) => c.model === refit.model)!.fit!, alignPeriods(REPORTING, WEATHER).periods), overrides: NO_OVERRIDES };
+    expect(JSON.parse(toJsonDocument(withProjectionChecks(refit, refitChecks)))).toEqual(expected);
     expect(response.json.periods).toHaveLength(12); // synthetic: 12 reporting bills
     expect(response.json.totals.confidence).toBe(0.68); // the default (ASHRAE Guideline 14's 68% rule, from memory)
     expect(response.json.totals.savings).toBeGreaterThan(0); // synthetic: the measures lowered use

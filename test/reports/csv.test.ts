@@ -5,7 +5,8 @@
  * hand-worked number text.
  */
 import { describe, expect, it } from 'vitest';
-import { csvNumber, csvText, CSV_COLUMNS } from '../../src/reports/csv.js';
+import { csvNumber, csvText, CSV_COLUMNS, renderReportCsv } from '../../src/reports/csv.js';
+import { IDS, LIBRARY_OVERRIDE_REASON, SAMPLE_REPORT } from './fixtures/sample-report.js';
 
 describe('csvNumber', () => {
   it('writes at most six decimals, without exponent or trailing zeros', () => {
@@ -42,5 +43,25 @@ describe('the columns', () => {
   it('start with the record kind and name every figure once', () => {
     expect(CSV_COLUMNS[0]).toBe('record');
     expect(new Set(CSV_COLUMNS).size).toBe(CSV_COLUMNS.length);
+  });
+});
+
+describe('a meter row of the sample report', () => {
+  // Synthetic: the hand-built sample report sets the truth.
+  const rows = renderReportCsv(SAMPLE_REPORT).split('\r\n');
+  const meterRow = (id: string) => rows.find((row) => row.startsWith('meter,') && row.includes(id))!;
+
+  it('ends with the temperature_form column, added after every earlier column', () => {
+    expect(CSV_COLUMNS.slice(-2)).toEqual(['note', 'temperature_form']);
+    expect(meterRow(IDS.libraryElectricity).endsWith(',daily')).toBe(true);
+    expect(meterRow(IDS.hallGas).endsWith(',mean')).toBe(true);
+    expect(meterRow(IDS.libraryGas).endsWith(',')).toBe(true); // no baseline, no form
+  });
+
+  it('carries the baseline notes (an override and its reason) and the parts of the combined ±', () => {
+    const library = meterRow(IDS.libraryElectricity);
+    expect(library).toContain(`frozen with an extrapolation override, reason: “${LIBRARY_OVERRIDE_REASON}”`);
+    expect(library).toContain("uncertainty combines the model's 9000 and the adjustments' "); // synthetic: the fixture's parts
+    expect(rows.find((row) => row.startsWith('adjustment,') && row.includes(IDS.libraryAdjustment))).toContain('stated standard uncertainty of its total: 600 kWh');
   });
 });

@@ -4,6 +4,7 @@
  * a second frozen baseline for one meter. Check values: the schema as written
  * in migrations/ (the source of truth).
  */
+import type { Kysely } from 'kysely';
 import { describe, expect, it } from 'vitest';
 import { openStore } from '../../src/store/connect.js';
 import { migrateToLatest } from '../../src/store/migrate.js';
@@ -42,6 +43,54 @@ describe('migrations', () => {
       await db.insertInto('baselines').values(baseline('bsl_1', 1, 'superseded')).execute();
       await db.insertInto('baselines').values(baseline('bsl_2', 2, 'frozen')).execute();
       await expect(db.insertInto('baselines').values(baseline('bsl_3', 3, 'frozen')).execute()).rejects.toThrow();
+      const stored = await db.selectFrom('baselines').select(['temperature_form', 'short_baseline_override', 'extrapolation_override']).where('id', '=', 'bsl_1').executeTakeFirstOrThrow();
+      expect(stored).toEqual({ temperature_form: 'mean', short_baseline_override: null, extrapolation_override: null });
+    } finally {
+      await store.close();
+      await dropTestDatabase(url);
+    }
+  });
+
+  it('records the form of the baselines stored before it: mean, unless the fit document names the day-resolved form', async () => {
+    const url = freshTestDatabaseUrl();
+    const store = openStore(url);
+    // eslint-disable-next-line @typescript-eslint/no-explicit-any
+    const db = store.db as Kysely<any>;
+    try {
+      const names = Object.keys(migrations);
+      const formMigration = '0004_baseline_form_and_overrides';
+      for (const name of names.slice(0, names.indexOf(formMigration))) await migrations[name]!.up(db);
+      const at = '2026-01-01T00:00:00.000Z';
+      await db.insertInto('organisations').values({ id: 'org_m', name: 'Migration test org', created_at: at }).execute();
+      await db.insertInto('weather_stations').values({ id: 'wst_m', organisation_id: 'org_m', name: 'S', temperature_unit: 'F', created_at: at }).execute();
+      await db.insertInto('facilities').values({ id: 'fac_m', organisation_id: 'org_m', name: 'F', address: null, floor_area: null, created_at: at }).execute();
+      await db
+        .insertInto('meters')
+        .values({ id: 'mtr_m', organisation_id: 'org_m', facility_id: 'fac_m', name: 'M', fuel: 'electricity', unit: 'kWh', weather_station_id: 'wst_m', created_at: at })
+        .execute();
+      const oldRow = (id: string, version: number, documentJson: string) => {
+        const { temperature_form: _f, short_baseline_override: _s, extrapolation_override: _e, ...row } = bareBaselineRow({
+          id,
+          organisationId: 'org_m',
+          meterId: 'mtr_m',
+          start: '2024-01-01',
+          end: '2025-01-01',
+          status: 'draft',
+          version,
+        });
+        return { ...row, document_json: documentJson };
+      };
+      // Stored fit documents are canonical JSON: a pre-form fit names no form; one written by a build that knew it does.
+      await db.insertInto('baselines').values(oldRow('bsl_old', 1, '{"candidates":[],"selected":"3PH"}')).execute();
+      await db.insertInto('baselines').values(oldRow('bsl_day', 2, '{"candidates":[],"selected":"3PH","settings":{"temperatureForm":"daily"},"temperatureForm":"daily"}')).execute();
+      await db.insertInto('adjustments').values({ id: 'adj_m', organisation_id: 'org_m', meter_id: 'mtr_m', period_start: '2025-01-01', period_end: '2025-02-01', quantity: 10, per_day: null, reason: 'test', created_at: at, created_by: 'test', withdrawn_at: null, withdrawn_by: null, withdraw_reason: null }).execute();
+      await migrations[formMigration]!.up(db);
+      const forms = await db.selectFrom('baselines').select(['id', 'temperature_form', 'short_baseline_override', 'extrapolation_override']).orderBy('id').execute();
+      expect(forms).toEqual([
+        { id: 'bsl_day', temperature_form: 'daily', short_baseline_override: null, extrapolation_override: null },
+        { id: 'bsl_old', temperature_form: 'mean', short_baseline_override: null, extrapolation_override: null },
+      ]);
+      expect(await db.selectFrom('adjustments').select('uncertainty').executeTakeFirstOrThrow()).toEqual({ uncertainty: null });
     } finally {
       await store.close();
       await dropTestDatabase(url);

@@ -44,6 +44,9 @@ export function bareBaselineRow(b: BareBaseline): BaselineRow {
     supersede_reason: null,
     created_at: at,
     created_by: 'test',
+    temperature_form: 'mean',
+    short_baseline_override: null,
+    extrapolation_override: null,
   };
 }
 

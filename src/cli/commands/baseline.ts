@@ -14,6 +14,7 @@ export function fitBaseline(readings: ReadingsFile, weather: WeatherFile, option
       minCoverage: options.minCoverage,
       significanceLevel: options.significanceLevel,
       minPointsPerSegment: options.minPointsPerSegment,
+      ...(options.temperatureForm === null ? {} : { temperatureForm: options.temperatureForm }),
     });
   } catch (error) {
     if (error instanceof RangeError) {

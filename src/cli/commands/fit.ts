@@ -1,4 +1,5 @@
 /** `mvledger fit`: fit every shape to the baseline readings and choose one. */
+import { baselineSufficiency } from '../../engine/index.js';
 import type { FitOptions } from '../options.js';
 import { loadReadings } from '../input/readings-file.js';
 import { loadWeather } from '../input/weather-file.js';
@@ -19,5 +20,6 @@ export async function runFit(options: FitOptions): Promise<string> {
     unit: weather.unit,
     minCoverage: options.minCoverage,
     lineOf: lineLookup(readings),
+    sufficiency: baselineSufficiency(analysis.periods),
   });
 }

@@ -3,13 +3,14 @@
  * each candidate's reasons, the periods left out, and the Guideline 14
  * acceptance of the selected shape.
  */
-import type { FitDocument, TemperatureUnit } from '../../engine/index.js';
+import type { BaselineSufficiency, FitDocument, TemperatureUnit } from '../../engine/index.js';
 import { unitSymbol } from '../../engine/index.js';
 import { CAUTION } from './caution.js';
 import { guideline14Lines } from './guideline14-lines.js';
 import { formatFixed, formatPercent, formatSignificant } from './numbers.js';
 import { parameterLegend, parameterSummary } from './parameters.js';
 import { renderTable } from './table.js';
+import { describeTemperatureForm } from './savings-report.js';
 
 export interface FitReportContext {
   readingsFile: string;
@@ -19,6 +20,8 @@ export interface FitReportContext {
   minCoverage: number;
   /** File line of the reading with this index. */
   lineOf(index: number): number;
+  /** Whether the baseline covers a full cycle of seasons. */
+  sufficiency: BaselineSufficiency;
 }
 
 export function renderFitReport(document: FitDocument, context: FitReportContext): string {
@@ -30,6 +33,12 @@ export function renderFitReport(document: FitDocument, context: FitReportContext
     `  readings: ${context.readingsFile} (${document.periods.used} periods used, ${excluded.length} left out)`,
     `  weather:  ${context.weatherFile} (daily mean from ${context.weatherSource}, ${symbol})`,
     `  settings: α = ${settings.significanceLevel}, at least ${settings.minPointsPerSegment} points per segment, weather coverage at least ${formatPercent(context.minCoverage, 0)}`,
+    `  temperature form: ${describeTemperatureForm(document.temperatureForm)}`,
+    `  baseline length: ${context.sufficiency.periods} periods, ${context.sufficiency.days} days: ${
+      context.sufficiency.sufficient
+        ? 'covers a full cycle of seasons'
+        : `too short to project from (${context.sufficiency.reasons.join('; ')}); \`mvledger savings\` refuses it without --allow-short-baseline REASON`
+    }`,
     '',
     `Selected shape: ${document.selected}`,
     '',

@@ -27,8 +27,14 @@ export function fPValue(f: number, df1: number, df2: number): number {
   return 1 - jStat.centralF.cdf(f, df1, df2);
 }
 
-/** Two-sided standard normal quantile: P(|Z| ≤ z) = confidence. */
-export function twoSidedNormalCritical(confidence: number): number {
+/**
+ * The standard normal distribution's two-sided quantile z, P(|Z| ≤ z) =
+ * confidence: for figures given as a standard uncertainty (one standard
+ * deviation) rather than estimated from a regression, the half-width at
+ * confidence c is z·σ.
+ * @example twoSidedNormalQuantile(0.95) // 1.959963…
+ */
+export function twoSidedNormalQuantile(confidence: number): number {
   if (!(confidence > 0 && confidence < 1)) throw new RangeError(`confidence must lie in (0, 1), got ${confidence}`);
   return jStat.normal.inv((1 + confidence) / 2, 0, 1);
 }

@@ -15,7 +15,7 @@ export function adjustmentsRoutes(app: ApiApp, deps: RouteDeps): void {
         tags: ['adjustments'],
         summary: 'Record a non-routine adjustment',
         description:
-          'A documented change the weather model cannot see, over reporting days [start, end), as a total (quantity) or per day, in the meter’s unit; it enters the adjusted baseline of the periods it covers and every report lists it. 422 before a baseline is frozen or inside its window; 409 when it overlaps another adjustment of the meter.',
+          'A documented change the weather model cannot see, over reporting days [start, end), as a total (quantity) or per day, in the meter’s unit, optionally with the engineer’s standard uncertainty of its total; it enters the adjusted baseline of the periods it covers (its ± the combined ± of the savings) and every report lists it. 422 before a baseline is frozen or inside its window; 409 when it overlaps another adjustment of the meter.',
         security: bearer,
         headers: idempotencyHeaders,
         params: idParams,

@@ -92,7 +92,7 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
         tags: ['baselines'],
         summary: 'Freeze a draft',
         description:
-          'Seals the draft under a SHA-256 content hash. When the meter already has a frozen baseline, supersedeReason is required and that baseline becomes superseded. A frozen baseline can never be changed (409).',
+          'Seals the draft under a SHA-256 content hash. When the meter already has a frozen baseline, supersedeReason is required and that baseline becomes superseded. A draft shorter than a full cycle of seasons (330 days of usable periods and, for bills, 12 of them) is refused (422) unless overrides.shortBaseline carries a reason; overrides.extrapolation lets savings project beyond the extrapolation limit. Overrides are kept under the content hash and shown on every document that uses the baseline. A frozen baseline can never be changed (409).',
         security: bearer,
         headers: idempotencyHeaders,
         params: idParams,
@@ -110,7 +110,8 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
       schema: {
         tags: ['baselines'],
         summary: 'The energy signature chart (SVG)',
-        description: 'Use per day against mean outdoor temperature: baseline periods, the chosen model’s line, and reporting periods once the baseline is frozen.',
+        description:
+          'Use per day against mean outdoor temperature: baseline periods, the chosen model’s line, and reporting periods once the baseline is frozen. For a day-resolved model the line is its daily response over the daily temperatures it saw, and each bill’s own expected use is marked beside it.',
         security: bearer,
         params: idParams,
         response: {

@@ -14,7 +14,7 @@ export function savingsRoutes(app: ApiApp, deps: RouteDeps): void {
         tags: ['savings'],
         summary: 'Avoided energy against the frozen baseline',
         description:
-          'Projects the frozen baseline’s chosen model (as stored, never refitted) onto the weather of the reporting readings (those starting on or after the baseline’s end, optionally within from..to), adds the meter’s non-routine adjustments to the adjusted baseline of the periods they cover, and states the uncertainty at the chosen confidence. 422 when there is no frozen baseline or no usable reporting reading.',
+          'Projects the frozen baseline’s chosen model (as stored, never refitted) onto the weather of the reporting readings (those starting on or after the baseline’s end, optionally within from..to), adds the meter’s non-routine adjustments to the adjusted baseline of the periods they cover, and states the uncertainty at the chosen confidence (the model’s two, the adjustments’ own and the combined ±). The projection keeps the baseline’s temperature form. 422 when there is no frozen baseline or no usable reporting reading, and when more of the reporting days than the extrapolation limit (10%) have weather outside what the baseline saw, unless the baseline was frozen with overrides.extrapolation (the document then states the override).',
         security: bearer,
         params: idParams,
         querystring: savingsQuery,

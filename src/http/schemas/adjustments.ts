@@ -11,6 +11,10 @@ export const createAdjustmentBody = z
       .optional()
       .describe(`Total over [start, end), in the meter’s unit, spread evenly over the days; + adds to the adjusted baseline; at most ±${boundText(MAX_USE_PER_DAY.max)} a day`),
     perDay: boundedNumber(MAX_USE_PER_DAY).optional().describe('Or a figure per day, in the meter’s unit'),
+    uncertainty: finite
+      .refine((value) => value >= 0, 'must be at least 0')
+      .optional()
+      .describe(`The engineer’s standard uncertainty (one standard deviation) of the adjustment’s total over [start, end), in the meter’s unit; combined in quadrature with the other adjustments’ and shown beside the model’s ±; at most ${boundText(MAX_USE_PER_DAY.max)} a day`),
     reason: plainText().trim().min(3, 'must say why (at least 3 characters)').max(2000, 'must be at most 2000 characters').describe('The documented change the weather model cannot see'),
   })
   .strict()
@@ -19,6 +23,8 @@ export const createAdjustmentBody = z
   .superRefine((body, ctx) => {
     const beyond = body.quantity === undefined ? null : beyondBoundPerDay(body.quantity, body.start, body.end, MAX_USE_PER_DAY);
     if (beyond) ctx.addIssue({ code: 'custom', path: ['quantity'], message: beyond });
+    const beyondUncertainty = body.uncertainty === undefined ? null : beyondBoundPerDay(body.uncertainty, body.start, body.end, MAX_USE_PER_DAY);
+    if (beyondUncertainty) ctx.addIssue({ code: 'custom', path: ['uncertainty'], message: beyondUncertainty });
   })
   .describe('A non-routine adjustment: positive figures add to the adjusted baseline (added floor area), negative ones take away (a closed wing).');
 
@@ -31,6 +37,7 @@ export const adjustmentSchema = z
     quantity: z.number().nullable(),
     perDay: z.number(),
     reason: z.string(),
+    uncertainty: z.number().nullable().describe('Standard uncertainty (one standard deviation) of the total, in the meter’s unit; null when none was stated'),
     recordedAt: z.string(),
     recordedBy: z.string(),
     withdrawn: z.object({ at: z.string(), by: z.string(), reason: z.string() }).nullable().describe('Null while the adjustment counts'),

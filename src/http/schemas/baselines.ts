@@ -20,6 +20,11 @@ export const baselineOptions = z
     significanceLevel: z.number().gt(0, 'must be above 0').lt(1, 'must be below 1').optional().describe('Two-sided α of the slope t-tests and the F-test (default 0.05)'),
     minPointsPerSegment: z.number().int('must be a whole number').min(1, 'must be at least 1').max(MAX_POINTS_PER_SEGMENT, `must be at most ${MAX_POINTS_PER_SEGMENT}`).optional().describe('Fewest periods in each segment of a changepoint shape (default 3)'),
     allowSameSignFourPoint: z.boolean().optional().describe('Accept a 4P whose two slopes have the same sign (default false)'),
+    temperature: temperatureForm
+      .optional()
+      .describe(
+        'How each reading’s weather enters the fit: daily (day-resolved: each bill against the mean over its days of the daily response, the variable-base degree-day method) or mean (the response at its mean temperature). Default: daily wherever daily weather covers the readings. A frozen baseline keeps its form.',
+      ),
   })
   .strict();
 
@@ -39,16 +44,55 @@ export const chooseBody = z
   })
   .strict();
 
+const overrideReason = z
+  .object({ reason: text(2000).describe('Why the check may be passed over: kept with the baseline under its content hash, on the audit trail, and shown on every document that uses it') })
+  .strict();
+
 export const freezeBody = z
   .object({
     note: text(2000).describe('What the freeze rests on, e.g. the M&V plan clause'),
     supersedeReason: text(2000).optional().describe('Required when the meter already has a frozen baseline: why it is replaced'),
+    overrides: z
+      .object({
+        shortBaseline: overrideReason.optional().describe('Freeze a baseline shorter than a full cycle of seasons (refused otherwise: 422)'),
+        extrapolation: overrideReason.optional().describe('Let savings project onto reporting weather beyond the extrapolation limit (refused otherwise: 422)'),
+      })
+      .strict()
+      .optional()
+      .describe('Checks passed over at freeze, each with its reason'),
   })
   .strict();
 
+export const sufficiencySchema = z
+  .object({
+    sufficient: z.boolean(),
+    reasons: z.array(z.string()).describe('Each unmet rule in words'),
+    periods: z.number().int(),
+    days: z.number().int(),
+    billed: z.boolean().describe('Median period of 7 days or more: the 12-bill rule applies'),
+    rule: z.object({ minDays: z.number().int(), minBills: z.number().int(), source: z.string() }),
+  })
+  .meta({ id: 'BaselineSufficiency', description: 'Whether the baseline covers a full cycle of seasons (common practice: a full year of bills)' });
+
+const overrideSchema = z.object({ reason: z.string() }).nullable();
+export const overridesSchema = z
+  .object({ shortBaseline: overrideSchema, extrapolation: overrideSchema })
+  .meta({ id: 'BaselineOverrides', description: 'Checks passed over when the baseline was frozen, each with its reason; null where none' });
+
 const limitCheck = z.object({ value: stat, limit: stat, pass: z.boolean() });
 export const guideline14CheckSchema = z
-  .object({ cvrmse: limitCheck, nmbe: limitCheck, pass: z.boolean(), source: z.string() })
+  .object({
+    cvrmse: limitCheck,
+    nmbe: limitCheck,
+    pass: z.boolean(),
+    source: z.string(),
+    outOfSample: z
+      .object({ cvrmse: stat, nmbe: stat, method: z.string() })
+      .nullable()
+      .optional()
+      .describe('The same statistics out of sample (each bill left out, or each calendar month of daily data), beside the in-sample values the Guideline defines'),
+    note: z.string().optional().describe('What the in-sample check can and cannot show'),
+  })
   .meta({ id: 'Guideline14Check', description: 'ASHRAE Guideline 14 acceptance of a model (limits from memory; see source)' });
 
 export const excludedPeriodSchema = z
@@ -62,7 +106,15 @@ const candidateSchema = z
     accepted: z.boolean(),
     reasons: z.array(z.string()),
     parameters: z.record(z.string(), stat),
-    coefficients: z.array(z.object({ name: z.string(), estimate: stat, standardError: stat, tStat: stat })),
+    coefficients: z.array(
+      z.object({
+        name: z.string(),
+        estimate: stat,
+        standardError: stat,
+        tStat: stat,
+        tStatAdjusted: stat.optional().describe('t with the residuals’ lag-1 autocorrelation allowed for (what screening uses)'),
+      }),
+    ),
     changepoints: z.array(z.object({ name: z.string(), estimate: stat, standardError: stat })),
     segmentCounts: z.record(z.string(), z.number()),
     temperatureRange: z.object({ min: stat, max: stat }).nullable(),
@@ -70,8 +122,27 @@ const candidateSchema = z
     n: z.number().int(),
     p: z.number().int(),
     aicc: stat,
+    overFitted: z.boolean().optional().describe('Out-of-sample CV(RMSE) far above the in-sample one'),
     stats: z
-      .object({ r2: stat, adjustedR2: stat, rmse: stat, cvrmse: stat, nmbe: stat, autocorrelation: stat, durbinWatson: stat })
+      .object({
+        r2: stat,
+        adjustedR2: stat,
+        rmse: stat,
+        cvrmse: stat,
+        nmbe: stat,
+        autocorrelation: stat,
+        durbinWatson: stat,
+        outOfSample: z
+          .object({
+            method: z.enum(['leave-one-period-out', 'blocked-by-month']),
+            blocks: z.number().int(),
+            cvrmse: stat,
+            nmbe: stat,
+            unavailable: z.string().nullable(),
+          })
+          .optional()
+          .describe('CV(RMSE) and NMBE of predictions of periods left out of the fit (changepoints held)'),
+      })
       .nullable(),
     guideline14: guideline14CheckSchema.nullable(),
   })
@@ -101,6 +172,9 @@ const baselineFields = {
   start: z.string(),
   end: z.string(),
   options: baselineOptions,
+  temperatureForm: temperatureForm.describe('The form the baseline was fitted in; its projections keep it (mean for baselines stored before the day-resolved form)'),
+  sufficiency: sufficiencySchema.nullable().describe('Whether it covers a full cycle of seasons; a draft that does not is refused at freeze without overrides.shortBaseline'),
+  overrides: overridesSchema,
   selected: modelName.describe('The shape the engine selected'),
   chosen: modelName.describe('The shape savings use: the selection unless an engineer chose another'),
   choiceReason: z.string().nullable(),

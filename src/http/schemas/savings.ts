@@ -3,7 +3,7 @@ import { z } from 'zod';
 import { CONFIDENCE_LEVELS } from '../../engine/index.js';
 import { isoDate } from './common.js';
 import { adjustmentSchema } from './adjustments.js';
-import { excludedPeriodSchema, guideline14CheckSchema, modelName, stat, temperatureForm } from './baselines.js';
+import { excludedPeriodSchema, guideline14CheckSchema, modelName, overridesSchema, stat, sufficiencySchema, temperatureForm } from './baselines.js';
 
 const confidenceText = CONFIDENCE_LEVELS.join(', ');
 
@@ -48,14 +48,38 @@ export const savingsSchema = z
       savings: stat.describe('Avoided energy: adjusted baseline − actual'),
       fractionSaved: stat,
       confidence: z.number(),
-      uncertainty: z.object({ guideline14: uncertainty, exact: uncertainty }),
+      uncertainty: z.object({
+        guideline14: uncertainty,
+        exact: uncertainty,
+        adjustments: z.object({ absolute: stat.describe('The non-routine adjustments’ own ± at the confidence, in the meter’s unit (0 when none states one)') }),
+        combined: uncertainty.describe('The larger of the model’s two ± combined in quadrature with the adjustments’ ±'),
+      }),
       significant: z.boolean(),
       outsideRangeShare: stat,
     }),
     significance: z.object({ rule: z.string(), fractionalAt68: z.object({ guideline14: stat, exact: stat }) }),
     baselineTemperatureRange: z.object({ min: stat, max: stat }),
     uncertaintyInputs: z.object({ n: z.number().int(), nPrime: stat, m: z.number().int(), p: z.number().int(), t: stat, autocorrelation: stat, cvrmse: stat }),
-    baseline: z.object({ selected: modelName, temperatureForm, reportingMonths: stat, guideline14: guideline14CheckSchema.nullable() }),
+    baseline: z.object({
+      selected: modelName,
+      temperatureForm,
+      reportingMonths: stat,
+      guideline14: guideline14CheckSchema.nullable(),
+      sufficiency: sufficiencySchema,
+      overrides: overridesSchema,
+    }),
+    extrapolation: z
+      .object({
+        share: stat.describe('Share of the reporting days whose weather lies outside what the baseline saw'),
+        outsideDays: z.number().int(),
+        days: z.number().int(),
+        basis: z.enum(['daily', 'mean']).describe('daily: each day against the daily range a day-resolved baseline saw; mean: each period mean against the range of baseline means'),
+        range: z.object({ min: stat, max: stat }),
+        limit: z.number(),
+        exceedsLimit: z.boolean().describe('Above the limit: savings are refused (422) unless the baseline was frozen with overrides.extrapolation'),
+        summary: z.string(),
+      })
+      .meta({ id: 'ReportingExtrapolation' }),
     excluded: z.object({ baseline: z.array(excludedPeriodSchema), reporting: z.array(excludedPeriodSchema) }),
     meterId: z.string(),
     adjustments: z.array(adjustmentSchema),

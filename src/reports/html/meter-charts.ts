@@ -59,6 +59,12 @@ function signature(meter: MeterReport): string {
     baseline: s.baseline,
     fittedLine: s.fittedLine,
     reporting: s.reporting,
+    temperatureForm: s.temperatureForm,
+    expected: s.expected,
   });
-  return chartFigure('signature', svg, `Energy signature: use per day against mean outdoor temperature, baseline periods around the frozen ${b.model} model and this window's reporting periods.`);
+  const caption =
+    s.temperatureForm === 'daily'
+      ? `Energy signature: use per day against mean outdoor temperature, baseline periods and this window's reporting periods around the frozen ${b.model} model's daily response (drawn over the daily temperatures it saw); a tick marks each bill's expected use, the daily response averaged over its own days.`
+      : `Energy signature: use per day against mean outdoor temperature, baseline periods around the frozen ${b.model} model and this window's reporting periods.`;
+  return chartFigure('signature', svg, caption);
 }

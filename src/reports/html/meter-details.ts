@@ -69,14 +69,16 @@ function excluded(meter: MeterReport): string {
 function adjustments(list: readonly ReportAdjustment[], unit: string): string {
   if (list.length === 0) return tag('p', {}, text('None recorded for this window.'));
   const rows = list.map((a) => {
-    const recorded = a.quantity !== null ? `${formatNumber(a.quantity, decimalsFor([a.quantity]))} ${unit} in total` : `${formatNumber(a.perDay, decimalsFor([a.perDay]))} ${unit} per day`;
+    const amount = a.quantity !== null ? `${formatNumber(a.quantity, decimalsFor([a.quantity]))} ${unit} in total` : `${formatNumber(a.perDay, decimalsFor([a.perDay]))} ${unit} per day`;
+    // The stated ± on a line of its own (a block span): the cell does not wrap.
+    const stated = a.uncertainty === null ? '' : `${tag('span', { class: 'stated-uncertainty', title: 'the engineer’s standard uncertainty (one standard deviation) of the whole total' }, text(`± ${formatNumber(a.uncertainty, decimalsFor([a.uncertainty]))} (1 s.d.)`))}`;
     return tag(
       'tr',
       { 'data-adjustment-id': a.id },
       [
         tag('td', {}, code(a.id)),
         cell(`${a.start} to ${a.end}`),
-        cell(recorded, 'num'),
+        tag('td', { class: 'num' }, text(amount) + stated),
         numberCell(a.appliedInWindow, formatNumber(a.appliedInWindow, decimalsFor([a.appliedInWindow]))),
         cell(a.reason, 'adjustment-reason'),
         cell(`${a.recordedAt} by ${a.recordedBy}`),

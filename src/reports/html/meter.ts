@@ -47,12 +47,21 @@ function baselineFacts(meter: MeterReport): string {
   if (b === null) return tag('p', {}, text('No frozen baseline.'));
   const degree = degreeOf(meter);
   const g14 = b.meetsGuideline14 === null ? 'cannot be judged for this reporting length' : b.meetsGuideline14 ? 'meets the CV(RMSE) and NMBE targets' : 'does not meet the CV(RMSE) and NMBE targets';
-  return facts([
+  const form =
+    b.temperatureForm === 'daily'
+      ? 'day-resolved: each bill against the mean over its days of the daily response (variable-base degree-days)'
+      : 'mean: each period at its mean temperature';
+  const rows: [string, string][] = [
     ['Frozen baseline', `${text(`${b.model} model, version ${b.version}, ${b.start} to ${b.end} (end exclusive)`)}`],
+    ['Temperature form', tag('span', { 'data-temperature-form': b.temperatureForm }, text(form))],
     ['Baseline temperature range', text(`${formatNumber(b.temperatureRange.min, 1)} to ${formatNumber(b.temperatureRange.max, 1)}${degree === '' ? '' : ` ${degree}`}`)],
     ['CV(RMSE)', text(`${formatPercent(b.cvrmse)}; ASHRAE Guideline 14: ${g14}`)],
     ['Baseline id and content hash', `${code(b.id)} ${code(b.contentHash, 'hash')}`],
-  ]);
+  ];
+  if (meter.notes.length > 0) {
+    rows.push(['Baseline notes', tag('ul', { class: 'plain baseline-notes' }, meter.notes.map((n) => tag('li', { 'data-baseline-note': 'true' }, text(n))).join(''))]);
+  }
+  return facts(rows);
 }
 
 function currencyOf(meter: MeterReport): string {
@@ -160,6 +169,10 @@ function meterTotals(meter: MeterReport, confidenceLabel: string): string {
   if (meter.common === null && meter.commonNote !== null) notes.push(`Not in the MMBtu and GJ roll-up: ${meter.commonNote}.`);
   if (meter.cost !== null && meter.cost.periodsWithoutRate > 0) notes.push(`${meter.cost.periodsWithoutRate} period${meter.cost.periodsWithoutRate === 1 ? '' : 's'} without a contract rate left out of the cost.`);
   if (meter.cost === null) notes.push('No cost avoided: no contract rate applies to this meter in the window.');
+  const parts = meter.uncertaintyParts;
+  if (parts !== null && parts.adjustments > 0) {
+    notes.push(`The ± combines in quadrature the model’s ± ${formatNumber(parts.model, digits)} and the non-routine adjustments’ own ± ${formatNumber(parts.adjustments, digits)} (${e.unit}).`);
+  }
   const head = ['', { label: 'Avoided', numeric: true }, { label: `± (${confidenceLabel})`, numeric: true }, { label: 'Fraction saved', numeric: true }];
   return table({ className: 'summary meter-totals', head, rows }) + notes.map((n) => tag('p', { class: 'note' }, text(n))).join('');
 }

@@ -14,6 +14,8 @@ export function methodsSection(report: SavingsReport): string {
   const paragraphs: [string, string][] = [
     ['Method', m.summary],
     ['Readings in the window', m.readingsInWindow],
+    ['Temperature form', m.temperatureForm],
+    ['Baseline length and extrapolation', m.checks],
     ['Non-routine adjustments', m.adjustments],
     ['Costs', m.costs],
     ['Uncertainty', m.uncertainty],

@@ -34,6 +34,7 @@ th, td { padding: 3px 7px; text-align: left; vertical-align: top; border-bottom:
 thead th { background: var(--pale); border-bottom: 1.5px solid var(--ink); font-weight: 600; vertical-align: bottom; }
 tbody th { font-weight: 500; }
 .num { text-align: right; white-space: nowrap; }
+.stated-uncertainty { display: block; }
 thead th.num { white-space: normal; }
 td.date { white-space: nowrap; }
 table.periods { font-size: 9pt; }

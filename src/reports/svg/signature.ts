@@ -3,7 +3,13 @@
  * temperature, one mark per baseline period, the fitted baseline model as a
  * line over the baseline's temperature range, and the reporting periods in
  * a second, hollow mark. A pure function of plain data: no database, no
- * engine call; the caller hands in points the engine has already computed.
+ * engine call; the caller hands in points the engine has already computed
+ * (signature-points.ts).
+ *
+ * A day-resolved model's line is its daily response, drawn over the daily
+ * temperatures it saw; each bill keeps its mark at its mean temperature and
+ * gets a short tick at its own expected use (the response averaged over its
+ * days), with a note saying why bills near a changepoint sit above the line.
  */
 import { coord, element, escapeXml, truncate } from './xml.js';
 import { axisFraction, axisScale, finiteExtent, tickLabel, type AxisScale } from './ticks.js';
@@ -33,7 +39,15 @@ export interface SignatureChartData {
   /** Vertices of the fitted model, in temperature order. */
   fittedLine: readonly SignaturePoint[];
   reporting: readonly SignaturePoint[];
+  /** The model's form; 'daily' draws the daily response with each bill's expected use. Default 'mean'. */
+  temperatureForm?: 'daily' | 'mean';
+  /** Day-resolved models: each bill's expected use per day at its mean temperature. */
+  expected?: readonly SignaturePoint[];
 }
+
+/** The chart's note on a day-resolved model: why a bill's expected use sits above the line. */
+export const DAY_RESOLVED_NOTE =
+  'Near a changepoint a bill’s expected use (tick) sits above the line: it averages days on both sides, and the response is convex.';
 
 
 const WIDTH = 760;
@@ -41,9 +55,12 @@ const HEIGHT = 520;
 const PLOT = { left: 88, right: WIDTH - 28, top: 78, bottom: HEIGHT - 100 } as const;
 const MARK_RADIUS = 4.2;
 const DIAMOND = 5.6;
+const TICK_HALF = 7;
 
 export function renderSignatureSvg(data: SignatureChartData): string {
-  const all = [...data.baseline, ...data.fittedLine, ...data.reporting];
+  const daily = data.temperatureForm === 'daily';
+  const expected = daily ? (data.expected ?? []) : [];
+  const all = [...data.baseline, ...data.fittedLine, ...data.reporting, ...expected];
   const temps = finiteExtent(all.map((p) => p.temp));
   const uses = finiteExtent(all.map((p) => p.usePerDay));
   const x = axisScale(temps?.min ?? Number.NaN, temps?.max ?? Number.NaN);
@@ -54,8 +71,12 @@ export function renderSignatureSvg(data: SignatureChartData): string {
 
   const degree = data.temperatureUnit === 'F' ? '°F' : '°C';
   const title = `${truncate(data.meterName, 60)}: energy signature`;
-  const subtitle = `Baseline version ${data.version} (${data.status}), ${data.model} model, ${data.baselineStart} to ${data.baselineEnd} (end exclusive)`;
-  const description = `${data.baseline.length} baseline periods, ${data.reporting.length} reporting periods, fitted ${data.model} line; use per day in ${data.useUnit}/day against mean outdoor temperature in ${degree}.`;
+  const subtitle = daily
+    ? `Baseline version ${data.version} (${data.status}), ${data.model} model, day-resolved, ${data.baselineStart} to ${data.baselineEnd} (end exclusive)`
+    : `Baseline version ${data.version} (${data.status}), ${data.model} model, ${data.baselineStart} to ${data.baselineEnd} (end exclusive)`;
+  const description = daily
+    ? `${data.baseline.length} baseline periods, ${data.reporting.length} reporting periods, the ${data.model} model's daily response over the daily temperatures it saw, and ${expected.length} bills' expected use (the response averaged over each bill's days); use per day in ${data.useUnit}/day against mean outdoor temperature in ${degree}.`
+    : `${data.baseline.length} baseline periods, ${data.reporting.length} reporting periods, fitted ${data.model} line; use per day in ${data.useUnit}/day against mean outdoor temperature in ${degree}.`;
 
   const parts: string[] = [
     `<svg xmlns="http://www.w3.org/2000/svg" width="${WIDTH}" height="${HEIGHT}" viewBox="0 0 ${WIDTH} ${HEIGHT}" role="img" font-family="${escapeXml(FONT)}">`,
@@ -69,7 +90,9 @@ export function renderSignatureSvg(data: SignatureChartData): string {
     fittedLine(data.fittedLine, px, py),
     baselineMarks(data.baseline, px, py),
     reportingMarks(data.reporting, px, py),
-    legend(data),
+    expectedMarks(expected, px, py),
+    daily ? dailyLegend(data, expected.length) : legend(data),
+    daily && expected.length > 0 ? note(DAY_RESOLVED_NOTE) : '',
     '</svg>',
   ];
   return `${parts.join('\n')}\n`;
@@ -143,6 +166,48 @@ function reportingMarks(points: readonly SignaturePoint[], px: Project, py: Proj
   if (points.length === 0) return '';
   const marks = drawable(points).map((p) => element('path', { class: 'mark-reporting', d: diamondPath(px(p.temp), py(p.usePerDay), DIAMOND) }, tooltip(p)));
   return `<g fill="${PALETTE.paper}" fill-opacity="0.6" stroke="${PALETTE.reporting}" stroke-width="1.8">${marks.join('')}</g>`;
+}
+
+/** Each bill's expected use: a short horizontal tick in ink, centred on the bill's mean temperature. */
+function expectedMarks(points: readonly SignaturePoint[], px: Project, py: Project): string {
+  if (points.length === 0) return '';
+  const marks = points.map((p) => {
+    const x = px(p.temp);
+    const y = py(p.usePerDay);
+    return element('path', { class: 'mark-expected', d: `M${coord(x - TICK_HALF)} ${coord(y)}H${coord(x + TICK_HALF)}` }, tooltip(p));
+  });
+  return `<g fill="none" stroke="${PALETTE.ink}" stroke-width="2.2" stroke-linecap="round">${marks.join('')}</g>`;
+}
+
+/** The note on a day-resolved chart, on the bottom line, its size fitted to the width (about 0.52 em per character of running text). */
+function note(text: string): string {
+  const fontSize = Math.min(11, (WIDTH - 48) / (text.length * 0.52));
+  return element('text', { class: 'chart-note', x: 24, y: HEIGHT - 6, fill: PALETTE.frame, 'font-size': Number(fontSize.toFixed(2)) }, escapeXml(text));
+}
+
+/** The day-resolved chart's legend: four items from the left edge, a little smaller. */
+function dailyLegend(data: SignatureChartData, expected: number): string {
+  const fontSize = 11;
+  const rowY = HEIGHT - 30;
+  let cursor = 24;
+  const items: string[] = [];
+  const label = (text: string) => {
+    items.push(element('text', { x: cursor + 22, y: rowY, dy: '0.32em', fill: PALETTE.label, 'font-size': fontSize }, escapeXml(text)));
+    cursor += 22 + text.length * fontSize * 0.56 + 22;
+  };
+  items.push(element('circle', { cx: cursor + 8, cy: rowY, r: MARK_RADIUS, fill: PALETTE.baselineFill, stroke: PALETTE.baselineStroke }));
+  label(`Baseline periods (${data.baseline.length})`);
+  items.push(element('line', { x1: cursor, y1: rowY, x2: cursor + 16, y2: rowY, stroke: PALETTE.line, 'stroke-width': 2.4 }));
+  label(`${data.model} daily response`);
+  if (data.reporting.length > 0) {
+    items.push(element('path', { d: diamondPath(cursor + 8, rowY, DIAMOND), fill: PALETTE.paper, stroke: PALETTE.reporting, 'stroke-width': 1.8 }));
+    label(`Reporting periods (${data.reporting.length})`);
+  }
+  if (expected > 0) {
+    items.push(element('path', { d: `M${coord(cursor + 8 - TICK_HALF)} ${coord(rowY)}H${coord(cursor + 8 + TICK_HALF)}`, stroke: PALETTE.ink, 'stroke-width': 2.2, 'stroke-linecap': 'round' }));
+    label(`Expected use of each bill (${expected})`);
+  }
+  return `<g class="legend">${items.join('')}</g>`;
 }
 
 /** A one-row legend under the x-axis title; text widths are estimated (about 0.56 em per character). */

@@ -7,7 +7,7 @@
 import { describe, it, expect } from 'vitest';
 import { renderReportHtml } from '../../../src/reports/html/render-report.js';
 import { escapeXml } from '../../../src/reports/svg/xml.js';
-import { CAUTION, HOSTILE_FACILITY_NAME, HOSTILE_REASON, IDS, MISSING_REASON, SAMPLE_REPORT } from '../fixtures/sample-report.js';
+import { CAUTION, HOSTILE_FACILITY_NAME, HOSTILE_REASON, IDS, LIBRARY_OVERRIDE_REASON, MISSING_REASON, SAMPLE_REPORT } from '../fixtures/sample-report.js';
 import { expectedTotals } from '../fixtures/expected-totals.js';
 import { count, wellFormedProblems } from '../svg/xml-checks.js';
 
@@ -134,6 +134,25 @@ describe('renderReportHtml', () => {
     expect(library).toContain('data-significant="true"');
     expect(library).toContain('from 2 periods outside the baseline'); // synthetic: December and January lie below 31 °F
     expect(library).toContain('class="summary normalised"');
+  });
+
+  it('states each baseline’s temperature form, its notes with the override’s reason, and the parts of a combined ±', () => {
+    const library = elementAt(html, `<article class="meter" id="meter-${IDS.libraryElectricity}"`, 'article');
+    expect(library).toContain('data-temperature-form="daily"');
+    expect(library).toContain('day-resolved: each bill against the mean over its days of the daily response');
+    expect(library).toContain('class="plain baseline-notes"');
+    expect(library).toContain(escapeXml(`frozen with an extrapolation override, reason: “${LIBRARY_OVERRIDE_REASON}”`));
+    expect(library).toContain('combines in quadrature the model’s ± 9,000'); // synthetic: the fixture's parts
+    expect(library).toContain('class="stated-uncertainty"');
+    // Its signature chart draws the day-resolved model with each bill's expected use.
+    expect(count(library, 'class="mark-expected"')).toBe(24); // synthetic: 24 expected values in the fixture
+    expect(library).toContain('class="chart-note"');
+    const hall = elementAt(html, `<article class="meter" id="meter-${IDS.hallGas}"`, 'article');
+    expect(hall).toContain('data-temperature-form="mean"');
+    expect(hall).not.toContain('baseline-notes');
+    expect(hall).not.toContain('mark-expected');
+    expect(html).toContain('data-method="Temperature form"');
+    expect(html).toContain('data-method="Baseline length and extrapolation"');
   });
 
   it('carries the caution at the top and again at the end', () => {

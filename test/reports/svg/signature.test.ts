@@ -4,7 +4,7 @@
  * practice (XML 1.0's predefined entities and well-formedness rules).
  */
 import { describe, it, expect } from 'vitest';
-import { renderSignatureSvg, type SignatureChartData } from '../../../src/reports/svg/signature.js';
+import { DAY_RESOLVED_NOTE, renderSignatureSvg, type SignatureChartData } from '../../../src/reports/svg/signature.js';
 import { axisScale, tickLabel } from '../../../src/reports/svg/ticks.js';
 import { escapeXml } from '../../../src/reports/svg/xml.js';
 import { wellFormedProblems } from './xml-checks.js';
@@ -91,6 +91,68 @@ describe('renderSignatureSvg', () => {
     const hostile = renderSignatureSvg({ ...CHART, meterName: `]]><script>alert('x')</script>\u0001&#`, baseline: [], fittedLine: [], reporting: [] });
     expect(wellFormedProblems(hostile)).toEqual([]);
     expect(hostile).not.toContain('<script>');
+  });
+});
+
+describe('renderSignatureSvg of a day-resolved model', () => {
+  // synthetic: the same building as a day-resolved model; its line runs over the daily temperatures it saw
+  // (wider than the bills' means), and each bill's expected use is marked at its mean temperature.
+  const DAILY: SignatureChartData = {
+    ...CHART,
+    temperatureForm: 'daily',
+    fittedLine: [
+      { temp: 8.1, usePerDay: 75.0 },
+      { temp: 60.5, usePerDay: 12.0 },
+      { temp: 88.2, usePerDay: 12.0 },
+    ],
+    expected: [
+      { temp: 22.4, usePerDay: 61.1, label: 'baseline 2030-01-01 to 2030-02-01: expected' },
+      { temp: 48.6, usePerDay: 28.0 },
+      { temp: 63.0, usePerDay: 13.9 },
+      { temp: 74.8, usePerDay: 12.1 },
+      { temp: 70.2, usePerDay: 12.4 },
+    ],
+  };
+  const svg = renderSignatureSvg(DAILY);
+
+  it('is well-formed, with finite coordinates everywhere', () => {
+    expect(wellFormedProblems(svg)).toEqual([]);
+    const numbers = [...svg.matchAll(/ (?:x|y|x1|y1|x2|y2|cx|cy|r)="([^"]*)"/g)].map((m) => Number(m[1]));
+    expect(numbers.length).toBeGreaterThan(20);
+    for (const value of numbers) expect(Number.isFinite(value)).toBe(true);
+    for (const path of [...svg.matchAll(/ (?:d|points)="([^"]*)"/g)].map((m) => m[1]!)) expect(path).not.toMatch(/NaN|Infinity/);
+  });
+
+  it('marks each bill’s expected use with a tick of its own, beside the period marks', () => {
+    expect(count(svg, 'class="mark-expected"')).toBe(5); // synthetic: five expected values given
+    expect(count(svg, '<path class="mark-expected" d="M')).toBe(5);
+    expect(count(svg, 'class="mark-baseline"')).toBe(5);
+    expect(count(svg, 'class="mark-reporting"')).toBe(3);
+    // A tick is a horizontal stroke: M x y H x′.
+    expect(/<path class="mark-expected" d="M[\d.]+ [\d.]+H[\d.]+"/.test(svg)).toBe(true);
+  });
+
+  it('names the daily response and the expected use in its legend, and says why bills sit above the line', () => {
+    expect(svg).toContain('3PH daily response');
+    expect(svg).toContain('Expected use of each bill (5)');
+    expect(svg).toContain('day-resolved');
+    expect(svg).toContain(`class="chart-note"`);
+    expect(svg).toContain(escapeXml(DAY_RESOLVED_NOTE));
+    expect(DAY_RESOLVED_NOTE).toContain('sits above the line');
+    expect(DAY_RESOLVED_NOTE).toContain('convex');
+  });
+
+  it('leaves a mean-form chart exactly as it was, expected values or not', () => {
+    expect(renderSignatureSvg({ ...CHART, expected: DAILY.expected })).toBe(renderSignatureSvg(CHART));
+    expect(renderSignatureSvg({ ...CHART, temperatureForm: 'mean' })).toBe(renderSignatureSvg(CHART));
+    expect(renderSignatureSvg(CHART)).not.toContain('mark-expected');
+  });
+
+  it('draws no note when there is no bill to mark (daily readings sit on the line)', () => {
+    const plain = renderSignatureSvg({ ...DAILY, expected: [] });
+    expect(wellFormedProblems(plain)).toEqual([]);
+    expect(plain).not.toContain('chart-note');
+    expect(plain).not.toContain('Expected use of each bill');
   });
 });
 
