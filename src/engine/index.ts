@@ -37,6 +37,7 @@ export * from './energy-units.js';
 export * from './adjustments.js';
 export * from './rates.js';
 export * from './rollup.js';
+export * from './portfolio-correlation.js';
 export * from './normal-year.js';
 export * from './report-windows.js';
 export * from './normalised.js';

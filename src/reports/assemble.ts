@@ -17,7 +17,8 @@ import {
   type ReportWindow,
   type SavingsReport,
 } from './savings-report.js';
-import { COMMON_UNITS, sumCommonTotals, sumCosts } from './totals.js';
+import { COMMON_UNITS, commonParts, costParts, sumCommonTotals, sumCosts, type Rollup } from './totals.js';
+import type { ResidualCorrelation } from '../engine/index.js';
 import { notAvailableNotices } from './not-available.js';
 
 export interface FacilityInput {
@@ -36,26 +37,28 @@ export interface ReportInput {
   dataAsOf: { auditSeq: number; auditHash: string };
   facilities: FacilityInput[];
   normalYears: SavingsReport['normalYears'];
+  /** The pooled between-meter correlation of the report's meters' baseline residuals. */
+  correlation: ResidualCorrelation;
 }
 
-export function facilityReport(input: FacilityInput): FacilityReport {
-  const inRollup = input.meters.filter((m) => m.common !== null);
+export function facilityReport(input: FacilityInput, rollup: Rollup): FacilityReport {
   return {
     ...input,
-    totals: sumCommonTotals(inRollup.map((m) => m.common!)),
-    cost: sumCosts(input.meters.flatMap((m) => (m.cost ? [m.cost] : []))),
+    totals: sumCommonTotals(commonParts(input.meters), rollup),
+    cost: sumCosts(costParts(input.meters), rollup),
   };
 }
 
 export function assembleReport(input: ReportInput): SavingsReport {
-  const facilities = input.facilities.map(facilityReport);
+  const rollup: Rollup = { correlation: input.correlation };
+  const facilities = input.facilities.map((facility) => facilityReport(facility, rollup));
   const meters = facilities.flatMap((f) => f.meters);
   const inRollup = meters.filter((m) => m.common !== null);
   const units = [...new Set([...meters.map((m) => canonicalEnergyUnit(m.unit)).filter((u): u is string => u !== undefined), ...COMMON_UNITS])].sort();
 
   const portfolio = {
-    totals: sumCommonTotals(inRollup.map((m) => m.common!)),
-    cost: sumCosts(meters.flatMap((m) => (m.cost ? [m.cost] : []))),
+    totals: sumCommonTotals(commonParts(meters), rollup),
+    cost: sumCosts(costParts(meters), rollup),
     meters: meters.length,
     metersInRollup: inRollup.length,
   };
@@ -70,6 +73,12 @@ export function assembleReport(input: ReportInput): SavingsReport {
     facilities,
     baselines: meters.flatMap((m) => (m.baseline && m.missing === null ? [{ meterId: m.id, baselineId: m.baseline.id, version: m.baseline.version, contentHash: m.baseline.contentHash }] : [])),
     normalYears: input.normalYears,
+    rollup: {
+      withinStation: input.correlation.withinGroup,
+      acrossStations: input.correlation.acrossGroups,
+      pairsWithinStation: input.correlation.pairsWithin,
+      pairsAcrossStations: input.correlation.pairsAcross,
+    },
     method: reportMethod(input.confidence),
     unitFactors: units.map((unit) => {
       const f = energyFactor(unit)!;

@@ -6,7 +6,7 @@
  */
 import { convertEnergy } from '../engine/index.js';
 import type { ContractSummary, GuaranteeStatus, MeterReport } from './savings-report.js';
-import { sumCommonTotals, sumCosts } from './totals.js';
+import { commonParts, costParts, IN_QUADRATURE, sumCommonTotals, sumCosts, type Rollup } from './totals.js';
 
 export interface ContractYearFigures {
   contractYear: number;
@@ -18,12 +18,11 @@ export interface ContractYearFigures {
   meters: readonly MeterReport[];
 }
 
-export function guaranteeStatus(contract: ContractSummary, figures: ContractYearFigures): GuaranteeStatus {
+export function guaranteeStatus(contract: ContractSummary, figures: ContractYearFigures, rollup: Rollup = IN_QUADRATURE): GuaranteeStatus {
   const guarantee = contract.guarantees.find((g) => g.year === figures.contractYear);
-  const inRollup = figures.meters.filter((m) => m.common !== null);
-  const totals = sumCommonTotals(inRollup.map((m) => m.common!));
+  const totals = sumCommonTotals(commonParts(figures.meters), rollup);
   const toUnit = (mmbtu: number) => convertEnergy(mmbtu, 'MMBtu', contract.energyUnit);
-  const costs = sumCosts(figures.meters.flatMap((m) => (m.cost ? [m.cost] : [])));
+  const costs = sumCosts(costParts(figures.meters), rollup);
   const cost = costs.find((c) => c.currency === contract.currency);
   const notes: string[] = [];
   const withFigures = figures.meters.filter((m) => m.missing === null);
@@ -65,7 +64,7 @@ export function guaranteeStatus(contract: ContractSummary, figures: ContractYear
     complete: figures.complete,
     energy,
     cost: costLine,
-    cumulative: cumulativeSavings(inRollup, figures.meters, contract),
+    cumulative: cumulativeSavings(figures.meters.filter((m) => m.common !== null), figures.meters, contract),
     notes,
   };
 }

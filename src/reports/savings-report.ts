@@ -217,6 +217,12 @@ export interface SavingsReport {
   baselines: { meterId: string; baselineId: string; version: number; contentHash: string }[];
   /** Normal years used for normalised savings, by station. */
   normalYears: { stationId: string; contentHash: string; source: string }[];
+  /**
+   * How the meters' ± were combined: the pooled correlation of their baseline
+   * residuals within a weather station and across stations (null where no
+   * two meters share enough months; then 0), and the pairs behind each.
+   */
+  rollup: { withinStation: number | null; acrossStations: number | null; pairsWithinStation: number; pairsAcrossStations: number };
   method: {
     summary: string;
     readingsInWindow: string;

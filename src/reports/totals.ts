@@ -1,10 +1,28 @@
 /**
  * Totals of the report: one meter's figures in its own unit and converted
  * to the common units, and sums across meters with their uncertainties
- * combined in quadrature (independence between meters assumed).
+ * combined with the between-meter correlation of their baseline residuals
+ * (engine/portfolio-correlation.ts; without a correlation, in quadrature).
  */
-import { combineInQuadrature, convertEnergy } from '../engine/index.js';
+import { combineCorrelated, convertEnergy, type ResidualCorrelation } from '../engine/index.js';
 import type { CommonEnergyUnit, CostTotal, EnergyTotal } from './savings-report.js';
+
+/**
+ * How meters' ± combine: the pooled correlation within and across weather
+ * stations, and each meter's station. Null correlations mean independence.
+ */
+export interface Rollup {
+  correlation: Pick<ResidualCorrelation, 'withinGroup' | 'acrossGroups'>;
+}
+
+/** Independence: the ± of different meters in quadrature. */
+export const IN_QUADRATURE: Rollup = { correlation: { withinGroup: null, acrossGroups: null } };
+
+/** A meter's total with the station it is read on. */
+export interface StationTotal<T> {
+  total: T;
+  station: string;
+}
 
 export const COMMON_UNITS: readonly CommonEnergyUnit[] = ['MMBtu', 'GJ'];
 
@@ -26,34 +44,51 @@ export function convertTotal(total: EnergyTotal, to: string): EnergyTotal {
   });
 }
 
-/** Sum of totals in one unit; the ± in quadrature. */
-export function sumTotals(unit: string, totals: readonly EnergyTotal[]): EnergyTotal {
-  const sum = (pick: (t: EnergyTotal) => number) => totals.reduce((acc, t) => acc + pick(t), 0);
+/** Sum of meters' totals in one unit; the ± combined by the roll-up's correlation. */
+export function sumTotals(unit: string, parts: readonly StationTotal<EnergyTotal>[], rollup: Rollup = IN_QUADRATURE): EnergyTotal {
+  const sum = (pick: (t: EnergyTotal) => number) => parts.reduce((acc, p) => acc + pick(p.total), 0);
   return energyTotal(unit, {
     actual: sum((t) => t.actual),
     modelBaseline: sum((t) => t.modelBaseline),
     adjustments: sum((t) => t.adjustments),
     adjustedBaseline: sum((t) => t.adjustedBaseline),
     savings: sum((t) => t.savings),
-    uncertainty: combineInQuadrature(totals.map((t) => t.uncertainty)),
+    uncertainty: combineCorrelated(
+      parts.map((p) => ({ value: p.total.uncertainty, group: p.station })),
+      rollup.correlation,
+    ),
   });
 }
 
-export function sumCommonTotals(totals: readonly Record<CommonEnergyUnit, EnergyTotal>[]): Record<CommonEnergyUnit, EnergyTotal> {
-  return { MMBtu: sumTotals('MMBtu', totals.map((t) => t.MMBtu)), GJ: sumTotals('GJ', totals.map((t) => t.GJ)) };
+export function sumCommonTotals(parts: readonly StationTotal<Record<CommonEnergyUnit, EnergyTotal>>[], rollup: Rollup = IN_QUADRATURE): Record<CommonEnergyUnit, EnergyTotal> {
+  const inUnit = (unit: CommonEnergyUnit) => parts.map((p) => ({ total: p.total[unit], station: p.station }));
+  return { MMBtu: sumTotals('MMBtu', inUnit('MMBtu'), rollup), GJ: sumTotals('GJ', inUnit('GJ'), rollup) };
 }
 
-/** Costs summed per currency (in currency order); the ± in quadrature. */
-export function sumCosts(costs: readonly CostTotal[]): CostTotal[] {
-  const byCurrency = new Map<string, CostTotal[]>();
-  for (const cost of costs) byCurrency.set(cost.currency, [...(byCurrency.get(cost.currency) ?? []), cost]);
+/** Costs summed per currency (in currency order); the ± combined by the roll-up's correlation. */
+export function sumCosts(parts: readonly StationTotal<CostTotal>[], rollup: Rollup = IN_QUADRATURE): CostTotal[] {
+  const byCurrency = new Map<string, StationTotal<CostTotal>[]>();
+  for (const part of parts) byCurrency.set(part.total.currency, [...(byCurrency.get(part.total.currency) ?? []), part]);
   return [...byCurrency.keys()].sort().map((currency) => {
     const group = byCurrency.get(currency)!;
     return {
       currency,
-      avoided: group.reduce((acc, c) => acc + c.avoided, 0),
-      uncertainty: combineInQuadrature(group.map((c) => c.uncertainty)),
-      periodsWithoutRate: group.reduce((acc, c) => acc + c.periodsWithoutRate, 0),
+      avoided: group.reduce((acc, c) => acc + c.total.avoided, 0),
+      uncertainty: combineCorrelated(
+        group.map((c) => ({ value: c.total.uncertainty, group: c.station })),
+        rollup.correlation,
+      ),
+      periodsWithoutRate: group.reduce((acc, c) => acc + c.total.periodsWithoutRate, 0),
     };
   });
+}
+
+/** Each meter's common-unit totals with its station (meters outside the roll-up left out). */
+export function commonParts(meters: readonly { common: Record<CommonEnergyUnit, EnergyTotal> | null; weatherStationId: string }[]) {
+  return meters.flatMap((m) => (m.common ? [{ total: m.common, station: m.weatherStationId }] : []));
+}
+
+/** Each meter's cost with its station. */
+export function costParts(meters: readonly { cost: CostTotal | null; weatherStationId: string }[]) {
+  return meters.flatMap((m) => (m.cost ? [{ total: m.cost, station: m.weatherStationId }] : []));
 }

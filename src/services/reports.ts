@@ -14,6 +14,8 @@ import {
   quarterWindow,
   reportingExtrapolation,
   savingsFromFit,
+  residualCorrelation,
+  type MeterResiduals,
   SIGNIFICANCE_RULE,
   type DateWindow,
   type RateEntry,
@@ -23,6 +25,7 @@ import {
 } from '../engine/index.js';
 import { Problem } from '../http/problem.js';
 import { assembleReport, type FacilityInput } from '../reports/assemble.js';
+import type { Rollup } from '../reports/totals.js';
 import { guaranteeStatus } from '../reports/guarantees.js';
 import { meterReport, missingMeterReport, type StoredAdjustment } from '../reports/meter-report.js';
 import type { ContractSummary, GuaranteeStatus, MeterReport, ReportWindow, SavingsReport, SignatureData } from '../reports/savings-report.js';
@@ -75,10 +78,19 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
   const window = resolveWindow(query, facilityRows.map((f) => contracts.get(f.id) ?? null));
   const head = await db.selectFrom('audit_log').select(['seq', 'hash']).where('organisation_id', '=', organisationId).orderBy('seq', 'desc').limit(1).executeTakeFirst();
 
+  // Every meter's context first: the roll-up's correlation comes from all the report's meters.
+  const contextsByFacility = new Map<string, MeterContext[]>();
+  for (const facility of facilityRows) {
+    const meterRows = await db.selectFrom('meters').selectAll().where('facility_id', '=', facility.id).orderBy('created_at').orderBy('id').execute();
+    contextsByFacility.set(facility.id, await Promise.all(meterRows.map((meter) => meterContext(db, meter))));
+  }
+  const correlation = residualCorrelation([...contextsByFacility.values()].flat().flatMap(baselineResiduals));
+  const rollup: Rollup = { correlation };
+
   const normalYears = new Map<string, SavingsReport['normalYears'][number]>();
   const facilities: FacilityInput[] = [];
   for (const facility of facilityRows) {
-    const { input, usedNormalYears } = await facilityInWindow(db, facility, contracts.get(facility.id) ?? null, window, confidence);
+    const { input, usedNormalYears } = await facilityInWindow(db, facility, contextsByFacility.get(facility.id)!, contracts.get(facility.id) ?? null, window, confidence, rollup);
     facilities.push(input);
     for (const used of usedNormalYears) normalYears.set(used.stationId, used);
   }
@@ -97,19 +109,30 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
     dataAsOf: { auditSeq: head?.seq ?? 0, auditHash: head?.hash ?? '' },
     facilities,
     normalYears: [...normalYears.values()].sort((a, b) => (a.stationId < b.stationId ? -1 : 1)),
+    correlation,
   });
+}
+
+/** A meter's frozen baseline residuals with their periods and its station, for the roll-up's correlation (none without a frozen baseline). */
+function baselineResiduals(ctx: MeterContext): MeterResiduals[] {
+  const model = ctx.model;
+  if (!model) return [];
+  // The fit's residuals are in start-date order; its periods are the aligned baseline readings.
+  const periods = [...model.baselinePeriods].sort((a, b) => (a.start < b.start ? -1 : a.start > b.start ? 1 : 0));
+  if (periods.length !== model.fit.residuals.length) return [];
+  return [{ group: ctx.meter.weather_station_id, periods: periods.map((p, i) => ({ start: p.start, end: p.end, residual: model.fit.residuals[i]! })) }];
 }
 
 /** One facility over the window: its meters, and its guarantee status for every contract year the window touches. */
 async function facilityInWindow(
   db: Executor,
   facility: { id: string; name: string; address: string | null },
+  contexts: readonly MeterContext[],
   contract: ContractSummary | null,
   window: DateWindow,
   confidence: number,
+  rollup: Rollup,
 ): Promise<{ input: FacilityInput; usedNormalYears: SavingsReport['normalYears'] }> {
-  const meterRows = await db.selectFrom('meters').selectAll().where('facility_id', '=', facility.id).orderBy('created_at').orderBy('id').execute();
-  const contexts = await Promise.all(meterRows.map((meter) => meterContext(db, meter)));
   const meters = await Promise.all(contexts.map((ctx) => meterInWindow(db, ctx, window, confidence)));
   const usedNormalYears = contexts.flatMap((ctx, i) =>
     ctx.normalYear && meters[i]!.normalised.available ? [{ stationId: ctx.meter.weather_station_id, contentHash: ctx.normalYear.contentHash, source: ctx.normalYear.source }] : [],
@@ -122,7 +145,11 @@ async function facilityInWindow(
     const sameWindow = yearWindow.from === window.from && through === window.to;
     const yearMeters = sameWindow ? meters : await Promise.all(contexts.map((ctx) => meterInWindow(db, ctx, { from: yearWindow.from, to: through }, confidence)));
     guarantees.push(
-      guaranteeStatus(contract!, { contractYear: year, yearStart: yearWindow.from, yearEnd: yearWindow.to, measuredThrough: through, complete: through === yearWindow.to, meters: yearMeters }),
+      guaranteeStatus(
+        contract!,
+        { contractYear: year, yearStart: yearWindow.from, yearEnd: yearWindow.to, measuredThrough: through, complete: through === yearWindow.to, meters: yearMeters },
+        rollup,
+      ),
     );
   }
   return { input: { id: facility.id, name: facility.name, address: facility.address, contract, meters, guarantees }, usedNormalYears };
@@ -247,7 +274,7 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
   }
   baselineInfo.meetsGuideline14 = savings.baseline.guideline14?.pass ?? null;
   const normalised = ctx.normalYear
-    ? normalisedSavings(model.fit, readings, weather, ctx.normalYear.temps, { minCoverage: model.minCoverage })
+    ? normalisedSavings(model.fit, readings, weather, ctx.normalYear.temps, { minCoverage: model.minCoverage, confidence })
     : { available: false as const, reason: 'the weather station has no normal year (PUT /v1/weather-stations/{id}/normal-year)' };
   return meterReport({
     meter: identity,

@@ -132,7 +132,7 @@ describe('GET /v1/reports/savings', () => {
     expect(body.caution).toMatch(/estimates .* M&V plan.*licensed professional/);
   });
 
-  it('rolls meters up to facilities and the organisation in quadrature, leaving out a unit with no standard factor', async () => {
+  it('rolls meters up to facilities and the organisation with their residual correlation, leaving out a unit with no standard factor', async () => {
     const body = (await report('quarter=2025-Q3')).json;
     expect(body.window).toMatchObject({ from: '2025-07-01', to: '2025-10-01', kind: 'quarter', label: '2025-Q3' });
     const meters = body.facilities.flatMap((f: any) => f.meters);
@@ -147,11 +147,18 @@ describe('GET /v1/reports/savings', () => {
     expect(body.portfolio).toMatchObject({ meters: 3, metersInRollup: 2 });
     const inRollup = meters.filter((m: any) => m.common !== null);
     const total = inRollup.reduce((s: number, m: any) => s + m.common.MMBtu.savings, 0);
-    const quadrature = Math.sqrt(inRollup.reduce((s: number, m: any) => s + m.common.MMBtu.uncertainty ** 2, 0)); // hand-worked definition
+    // hand-worked definition: √(Σv² + Σ_{i≠j} ρ·vᵢ·vⱼ) with the report's pooled correlation (by station)
+    const within = body.rollup.withinStation ?? 0;
+    const across = body.rollup.acrossStations ?? 0;
+    const v = inRollup.map((m: any) => ({ value: m.common.MMBtu.uncertainty, station: m.weatherStationId }));
+    let variance = 0;
+    for (const a of v) for (const b of v) variance += a === b ? a.value ** 2 : (a.station === b.station ? within : across) * a.value * b.value;
     expect(body.portfolio.totals.MMBtu.savings).toBeCloseTo(total, 9);
-    expect(body.portfolio.totals.MMBtu.uncertainty).toBeCloseTo(quadrature, 9);
+    expect(body.portfolio.totals.MMBtu.uncertainty).toBeCloseTo(Math.sqrt(variance), 9);
+    expect(body.portfolio.totals.MMBtu.uncertainty).toBeGreaterThanOrEqual(Math.sqrt(v.reduce((s: number, p: any) => s + p.value ** 2, 0)) - 1e-9); // never narrower than quadrature
+    expect(body.rollup.pairsWithinStation + body.rollup.pairsAcrossStations).toBeGreaterThanOrEqual(1);
     expect(body.notices.some((n: string) => n.includes('Annex gas by volume') && n.includes('m3'))).toBe(true);
-    expect(body.method.independence).toMatch(/quadrature.*independent/);
+    expect(body.method.independence).toMatch(/pooled correlation of the report’s meters’ baseline residuals/);
     // a quarter is too short for a reporting-period model: said, not guessed
     expect(meters[0].normalised).toEqual({ available: false, reason: expect.stringMatching(/at least 330/) });
     // the plant's contract year 1 is not over at the end of Q3

@@ -5,6 +5,9 @@
  */
 import { describe, expect, it } from 'vitest';
 import { convertTotal, energyTotal, sumCosts, sumTotals } from '../../src/reports/totals.js';
+
+/** Parts on one station unless said otherwise. */
+const on = <T>(total: T, station = 'wst_a') => ({ total, station });
 import { mergeRanges } from '../../src/reports/meter-report.js';
 
 const total = (savings: number, uncertainty: number, unit = 'MMBtu') =>
@@ -12,11 +15,16 @@ const total = (savings: number, uncertainty: number, unit = 'MMBtu') =>
 
 describe('sumTotals', () => {
   it('adds the figures and combines the ± in quadrature', () => {
-    const sum = sumTotals('MMBtu', [total(10, 3), total(20, 4)]);
+    const sum = sumTotals('MMBtu', [on(total(10, 3)), on(total(20, 4))]);
     expect(sum.savings).toBe(30);
     expect(sum.adjustedBaseline).toBe(200);
     expect(sum.uncertainty).toBeCloseTo(5, 12); // hand-worked: √(9 + 16)
     expect(sum.fractionSaved).toBeCloseTo(0.15, 12); // 30 / 200, derived, never summed
+  });
+  it('combines the ± with the roll-up’s correlation: within a station and across stations (hand-worked)', () => {
+    const parts = [on(total(10, 3), 'a'), on(total(20, 4), 'a'), on(total(5, 12), 'b')];
+    // 9 + 16 + 144 + 2·0.5·3·4 (within a) + 2·0.25·(3·12 + 4·12) (across) = 169 + 12 + 42 = 223
+    expect(sumTotals('MMBtu', parts, { correlation: { withinGroup: 0.5, acrossGroups: 0.25 } }).uncertainty).toBeCloseTo(Math.sqrt(223), 12);
   });
   it('gives zeros and no fraction for nothing', () => {
     expect(sumTotals('GJ', [])).toMatchObject({ savings: 0, uncertainty: 0, fractionSaved: null });
@@ -37,9 +45,9 @@ describe('convertTotal', () => {
 describe('sumCosts', () => {
   it('sums per currency in currency order, the ± in quadrature', () => {
     const costs = sumCosts([
-      { currency: 'USD', avoided: 100, uncertainty: 6, periodsWithoutRate: 1 },
-      { currency: 'EUR', avoided: 50, uncertainty: 2, periodsWithoutRate: 0 },
-      { currency: 'USD', avoided: 20, uncertainty: 8, periodsWithoutRate: 2 },
+      on({ currency: 'USD', avoided: 100, uncertainty: 6, periodsWithoutRate: 1 }),
+      on({ currency: 'EUR', avoided: 50, uncertainty: 2, periodsWithoutRate: 0 }),
+      on({ currency: 'USD', avoided: 20, uncertainty: 8, periodsWithoutRate: 2 }),
     ]);
     expect(costs).toEqual([
       { currency: 'EUR', avoided: 50, uncertainty: 2, periodsWithoutRate: 0 },

@@ -43,6 +43,14 @@ function normalised(n: NormalisedSavings, unit: string): string {
     [tag('th', { scope: 'row' }, text(`Frozen baseline over the normal year (${unit})`)), numberCell(n.baselineUse, formatNumber(n.baselineUse, digits))],
     [tag('th', { scope: 'row' }, text(`Reporting-period ${n.reportingModel} model over the normal year (${unit})`)), numberCell(n.reportingUse, formatNumber(n.reportingUse, digits))],
     [tag('th', { scope: 'row' }, text(`Normalised savings (${unit})`)), numberCell(n.savings, formatNumber(n.savings, digits))],
+    ...(n.uncertainty
+      ? [
+          [
+            tag('th', { scope: 'row' }, text(`± at ${Math.round(n.uncertainty.confidence * 100)}% (both models’ prediction variance on the normal year, ${unit})`)),
+            numberCell(n.uncertainty.absolute, formatNumber(n.uncertainty.absolute, digits)),
+          ],
+        ]
+      : []),
     [tag('th', { scope: 'row' }, text('Fraction saved')), numberCell(n.fractionSaved, formatPercent(n.fractionSaved))],
     [tag('th', { scope: 'row' }, text('Reporting periods fitted')), numberCell(n.reportingPeriods, String(n.reportingPeriods))],
     [tag('th', { scope: 'row' }, text('Normal year applied as')), tag('td', { class: 'num' }, text(n.normalYearAs === 'months' ? 'calendar months (the model was fitted on bills)' : 'single days'))],

@@ -1,6 +1,6 @@
 /**
  * The closing part of the report: how the figures were made (the method
- * texts, sources, unit factors and the independence assumption), the
+ * texts, sources, unit factors and how meters were combined), the
  * notices, every frozen baseline used with its content hash, the normal
  * years, and the caution once more.
  */
@@ -19,7 +19,7 @@ export function methodsSection(report: SavingsReport): string {
     ['Non-routine adjustments', m.adjustments],
     ['Costs', m.costs],
     ['Uncertainty', m.uncertainty],
-    ['Independence assumption', m.independence],
+    ['Combining meters', `${m.independence} ${rollupFigures(report)}`],
     ['Normalised savings', m.normalised],
   ];
   const parts = [
@@ -39,6 +39,14 @@ export function methodsSection(report: SavingsReport): string {
     tag('section', { class: 'baselines' }, `${tag('h2', {}, text('Frozen baselines used'))}${baselines(report)}`),
     tag('footer', { class: 'closing' }, caution(report.caution)),
   ].join('\n');
+}
+
+/** The roll-up's correlation figures in words. */
+function rollupFigures(report: SavingsReport): string {
+  const r = report.rollup;
+  const figure = (value: number | null, pairs: number, where: string): string =>
+    value === null ? `no two meters ${where} share enough months (taken as 0)` : `${value.toFixed(2)} ${where} (${pairs} meter pair${pairs === 1 ? '' : 's'})`;
+  return `In this report: ${figure(r.withinStation, r.pairsWithinStation, 'on the same station')}; ${figure(r.acrossStations, r.pairsAcrossStations, 'across stations')}.`;
 }
 
 function unitFactors(report: SavingsReport): string {
