@@ -341,6 +341,20 @@ export function searchFivePoint(days: BillDays, k: number): FivePointOptimum | n
   const slack = BOUND_SLACK * totalSquares;
   const cooling = coolingSumsByInterval(days);
   const byMax = Int32Array.from({ length: n }, (_, b) => b).sort((p, q) => days.maxTemp[p]! - days.maxTemp[q]!);
+  // Readings whose every day is at or below breakpoint j (they see no cooling while τc is in interval j).
+  const belowCount = new Int32Array(count);
+  for (let j = 0, c = 0; j < count; j++) {
+    while (c < n && days.maxTemp[byMax[c]!]! <= breakpoints[j]!) c++;
+    belowCount[j] = c;
+  }
+  // What one day adds to the cross sums, weighted: w·T/m for Q and w/m for r.
+  const dayWeightedTemp = new Float64Array(dayBill.length);
+  const dayWeightedShare = new Float64Array(dayBill.length);
+  for (let d = 0; d < dayBill.length; d++) {
+    dayWeightedTemp[d] = w[dayBill[d]!]! * dayTempShare[d]!;
+    dayWeightedShare[d] = w[dayBill[d]!]! * dayShare[d]!;
+  }
+  const { q: coolQ, r: coolR, qq: coolQQ, qr: coolQR, rr: coolRR, qy: coolQY, ry: coolRY } = cooling;
 
   // Heating state: share and summed temperature of each reading's days at or below breakpoint i.
   const sI = new Float64Array(n);
@@ -386,8 +400,12 @@ export function searchFivePoint(days: BillDays, k: number): FivePointOptimum | n
     const d22 = sSS - l20 * l20 - l21 * l21;
     if (!(d22 > PIVOT * sSS)) continue;
     const l22 = Math.sqrt(d22);
-    const zy1 = ssy / l11;
-    const zy2 = (sSy - l21 * zy1) / l22;
+    // Reciprocals: the pair loop below multiplies instead of dividing.
+    const i00 = 1 / l00;
+    const i11 = 1 / l11;
+    const i22 = 1 / l22;
+    const zy1 = ssy * i11;
+    const zy2 = (sSy - l21 * zy1) * i22;
     const rowSst = totalSquares - zy1 * zy1 - zy2 * zy2;
 
     // The row's cooling state starts at the heating interval; its first cooling interval is i + 1.
@@ -406,58 +424,66 @@ export function searchFivePoint(days: BillDays, k: number): FivePointOptimum | n
     let included = 0;
 
     for (let j = i + 1; j + 1 < count; j++) {
-      for (let d = dayStart[j]!; d < dayStart[j + 1]!; d++) {
+      for (let d = dayStart[j]!, end = dayStart[j + 1]!; d < end; d++) {
         const b = dayBill[d]!;
-        const wq = w[b]! * dayTempShare[d]!;
-        const wr = w[b]! * dayShare[d]!;
-        xsQ -= sI[b]! * wq;
-        xsR -= sI[b]! * wr;
-        xSQ -= SI[b]! * wq;
-        xSR -= SI[b]! * wr;
+        const wq = dayWeightedTemp[d]!;
+        const wr = dayWeightedShare[d]!;
+        const sb = sI[b]!;
+        const Sb = SI[b]!;
+        xsQ -= sb * wq;
+        xsR -= sb * wr;
+        xSQ -= Sb * wq;
+        xSR -= Sb * wr;
       }
       if (!enough(weightAtOrAbove[j + 1]!, k)) break;
       if (!enough(weightAtOrBelow[j]! - weightBelowRow, k)) continue;
 
       // Row bound: readings whose every day is at or below the cooling interval see only the heating hinge.
       if (best !== null) {
-        while (included < n && days.maxTemp[byMax[included]!]! <= breakpoints[j]!) {
-          const b = byMax[included]!;
-          bound.add(w[b]!, sI[b]!, SI[b]!, y[b]!);
-          included++;
+        if (included < belowCount[j]!) {
+          while (included < belowCount[j]!) {
+            const b = byMax[included]!;
+            bound.add(w[b]!, sI[b]!, SI[b]!, y[b]!);
+            included++;
+          }
+          if (bound.sse() > bestSse + slack) break;
         }
-        if (bound.sse() > bestSse + slack) break;
       }
 
       // The free five-column fit on [1, s, S, Q, r] through the Schur complement of the heating block.
-      const zq0 = cooling.q[j]! / l00;
-      const zq1 = (xsQ - l10 * zq0) / l11;
-      const zq2 = (xSQ - l20 * zq0 - l21 * zq1) / l22;
-      const zr0 = cooling.r[j]! / l00;
-      const zr1 = (xsR - l10 * zr0) / l11;
-      const zr2 = (xSR - l20 * zr0 - l21 * zr1) / l22;
-      const a11 = cooling.qq[j]! - zq0 * zq0 - zq1 * zq1 - zq2 * zq2;
-      const a12 = cooling.qr[j]! - zq0 * zr0 - zq1 * zr1 - zq2 * zr2;
-      const a22 = cooling.rr[j]! - zr0 * zr0 - zr1 * zr1 - zr2 * zr2;
-      const b1 = cooling.qy[j]! - zq1 * zy1 - zq2 * zy2;
-      const b2 = cooling.ry[j]! - zr1 * zy1 - zr2 * zy2;
+      const qq = coolQQ[j]!;
+      const rr = coolRR[j]!;
+      const zq0 = coolQ[j]! * i00;
+      const zq1 = (xsQ - l10 * zq0) * i11;
+      const zq2 = (xSQ - l20 * zq0 - l21 * zq1) * i22;
+      const zr0 = coolR[j]! * i00;
+      const zr1 = (xsR - l10 * zr0) * i11;
+      const zr2 = (xSR - l20 * zr0 - l21 * zr1) * i22;
+      const a11 = qq - zq0 * zq0 - zq1 * zq1 - zq2 * zq2;
+      const a12 = coolQR[j]! - zq0 * zr0 - zq1 * zr1 - zq2 * zr2;
+      const a22 = rr - zr0 * zr0 - zr1 * zr1 - zr2 * zr2;
+      const b1 = coolQY[j]! - zq1 * zy1 - zq2 * zy2;
+      const b2 = coolRY[j]! - zr1 * zy1 - zr2 * zy2;
       const det = a11 * a22 - a12 * a12;
-      if (!(det > PIVOT * cooling.qq[j]! * cooling.rr[j]!)) continue;
-      const relaxed = Math.max(0, rowSst - (a22 * b1 * b1 - 2 * a12 * b1 * b2 + a11 * b2 * b2) / det);
-      if (relaxed > bestSse + slack) continue;
+      if (!(det > PIVOT * qq * rr)) continue;
+      // relaxed = rowSst − bᵀA⁻¹b > incumbent ⇔ (rowSst − incumbent)·det > bᵀ adj(A) b (det > 0): no division on the way out.
+      const explained = a22 * b1 * b1 - 2 * a12 * b1 * b2 + a11 * b2 * b2;
+      if ((rowSst - bestSse - slack) * det > explained) continue;
+      const relaxed = Math.max(0, rowSst - explained / det);
 
       // Coefficients of the relaxation: the cooling pair from the Schur system, the heating block by back-substitution.
       const betaQ = (a22 * b1 - a12 * b2) / det;
       const betaR = (a11 * b2 - a12 * b1) / det;
-      coefficients[2] = (zy2 - zq2 * betaQ - zr2 * betaR) / l22;
-      coefficients[1] = (zy1 - zq1 * betaQ - zr1 * betaR - l21 * coefficients[2]!) / l11;
-      coefficients[0] = (-zq0 * betaQ - zr0 * betaR - l10 * coefficients[1]! - l20 * coefficients[2]!) / l00;
+      coefficients[2] = (zy2 - zq2 * betaQ - zr2 * betaR) * i22;
+      coefficients[1] = (zy1 - zq1 * betaQ - zr1 * betaR - l21 * coefficients[2]!) * i11;
+      coefficients[0] = (-zq0 * betaQ - zr0 * betaR - l10 * coefficients[1]! - l20 * coefficients[2]!) * i00;
       coefficients[3] = betaQ;
       coefficients[4] = betaR;
       pair.set(0, 0, totalWeight);
       pair.set(0, 1, ss);
       pair.set(0, 2, sS);
-      pair.set(0, 3, cooling.q[j]!);
-      pair.set(0, 4, cooling.r[j]!);
+      pair.set(0, 3, coolQ[j]!);
+      pair.set(0, 4, coolR[j]!);
       pair.set(0, 5, 0);
       pair.set(1, 1, sss);
       pair.set(1, 2, ssS);
@@ -468,11 +494,11 @@ export function searchFivePoint(days: BillDays, k: number): FivePointOptimum | n
       pair.set(2, 3, xSQ);
       pair.set(2, 4, xSR);
       pair.set(2, 5, sSy);
-      pair.set(3, 3, cooling.qq[j]!);
-      pair.set(3, 4, cooling.qr[j]!);
-      pair.set(3, 5, cooling.qy[j]!);
-      pair.set(4, 4, cooling.rr[j]!);
-      pair.set(4, 5, cooling.ry[j]!);
+      pair.set(3, 3, qq);
+      pair.set(3, 4, coolQR[j]!);
+      pair.set(3, 5, coolQY[j]!);
+      pair.set(4, 4, rr);
+      pair.set(4, 5, coolRY[j]!);
       pair.set(5, 5, totalSquares);
       const solved = solvePair(pair, heatLow, heatHigh, breakpoints[j]!, breakpoints[j + 1]!, relaxed, coefficients);
       if (solved && solved.sse < bestSse) {
