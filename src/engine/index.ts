@@ -7,7 +7,7 @@
  *   const baseline = analyseBaseline(readings, weather);
  *   const savings = analyseSavings(baseline, reportingReadings, weather, { confidence: 0.9 });
  */
-import type { DailyTemperature, ExcludedPeriod, ModelName, Period, Reading } from './types.js';
+import type { AlignedPeriods, DailyTemperature, ExcludedPeriod, ModelName, Period, Reading } from './types.js';
 import { alignPeriods, DEFAULT_MIN_COVERAGE, type AlignmentOptions } from './periods.js';
 import { chooseBaseline, type BaselineChoice, type SelectionOptions } from './choose.js';
 import { computeSavings, type SavingsOptions } from './savings.js';
@@ -112,7 +112,20 @@ export function savingsFromFit(
   weather: readonly DailyTemperature[] | ReadonlyMap<string, number>,
   options: SavingsOptions & AlignmentOptions & { cvrmseLimit?: number } = {},
 ): SavingsDocument {
-  const { periods, excluded } = alignPeriods(reportingReadings, weather, options);
+  return savingsFromAligned(fit, baseline, alignPeriods(reportingReadings, weather, options), options);
+}
+
+/**
+ * The same from readings already aligned with their weather (alignPeriods),
+ * for callers that need the periods themselves too (the extrapolation check).
+ */
+export function savingsFromAligned(
+  fit: ShapeFit,
+  baseline: StoredBaselineContext,
+  aligned: AlignedPeriods,
+  options: SavingsOptions & { cvrmseLimit?: number } = {},
+): SavingsDocument {
+  const { periods, excluded } = aligned;
   const result = computeSavings(fit, periods, options);
   const reportingMonths = periods.reduce((days, p) => days + p.days, 0) / DAYS_PER_MONTH;
   const limits = { ...baseline.limits, cvrmse: options.cvrmseLimit ?? cvrmseLimitForReportingMonths(reportingMonths) };

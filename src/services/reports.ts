@@ -13,7 +13,7 @@ import {
   projectionRefusals,
   quarterWindow,
   reportingExtrapolation,
-  savingsFromFit,
+  savingsFromAligned,
   residualCorrelation,
   type MeterResiduals,
   SIGNIFICANCE_RULE,
@@ -256,18 +256,15 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
   const readings: Reading[] = candidates.filter((r) => inWindowByMidpoint(r, window));
   if (readings.length === 0) return missingMeterReport(identity, baselineInfo, `no reporting readings in ${window.from}..${window.to}`, overlapping);
   const weather = await loadWeatherFor(db, meter.weather_station_id, readings);
+  const aligned = alignPeriods(readings, weather, { minCoverage: model.minCoverage });
   let savings: SavingsDocument;
   try {
-    savings = savingsFromFit(model.fit, { limits: model.limits, excluded: model.excluded }, readings, weather, {
-      confidence,
-      minCoverage: model.minCoverage,
-      adjustments: ctx.adjustments,
-    });
+    savings = savingsFromAligned(model.fit, { limits: model.limits, excluded: model.excluded }, aligned, { confidence, adjustments: ctx.adjustments });
   } catch (error) {
     if (!(error instanceof RangeError)) throw error;
     return missingMeterReport(identity, baselineInfo, `${error.message} (every reporting reading in the window lacks weather)`, overlapping);
   }
-  const extrapolation = reportingExtrapolation(model.fit, alignPeriods(readings, weather, { minCoverage: model.minCoverage }).periods);
+  const extrapolation = reportingExtrapolation(model.fit, aligned.periods);
   const refusal = projectionRefusals({ sufficiency: model.sufficiency, extrapolation, overrides: model.overrides }, { requireSufficiency: false })[0];
   if (refusal) {
     return missingMeterReport(identity, baselineInfo, `savings refused: ${refusal.reason}; the frozen baseline carries no extrapolation override`, overlapping, extrapolation);

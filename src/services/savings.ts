@@ -12,7 +12,7 @@ import {
   baselineSufficiency,
   projectionRefusals,
   reportingExtrapolation,
-  savingsFromFit,
+  savingsFromAligned,
   withProjectionChecks,
   type BaselineSufficiency,
   type CheckedSavingsDocument,
@@ -168,12 +168,13 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
     .orderBy('period_start')
     .execute();
   const options = { confidence: query.confidence, minCoverage: model.minCoverage, adjustments: adjustmentRows.map(toEngineAdjustment) };
+  const aligned = alignPeriods(readings, weather, options);
   let document: SavingsDocument;
   try {
-    document = savingsFromFit(model.fit, { limits: model.limits, excluded: model.excluded }, readings, weather, options);
+    document = savingsFromAligned(model.fit, { limits: model.limits, excluded: model.excluded }, aligned, options);
   } catch (error) {
     if (!(error instanceof RangeError)) throw error;
-    const { excluded } = alignPeriods(readings, weather, options);
+    const { excluded } = aligned;
     const reasons = excluded.map((p) => `reading ${p.start}..${p.end}: ${p.reason}`).join('; ');
     throw new Problem(
       'unprocessable',
@@ -181,7 +182,7 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
       excluded.map((p) => ({ field: `reading ${p.start}..${p.end}`, message: p.reason })),
     );
   }
-  const checks = { sufficiency: model.sufficiency, extrapolation: reportingExtrapolation(model.fit, alignPeriods(readings, weather, options).periods), overrides: model.overrides };
+  const checks = { sufficiency: model.sufficiency, extrapolation: reportingExtrapolation(model.fit, aligned.periods), overrides: model.overrides };
   // A baseline frozen short carries its override (freezing refuses it otherwise); one frozen before that rule is shown, not refused.
   const refusal = projectionRefusals(checks, { requireSufficiency: false })[0];
   if (refusal) {
