@@ -15,6 +15,7 @@
  * part of that file (`dayResolved` and its targets).
  */
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { join, relative } from 'node:path';
 import { cpus, loadavg } from 'node:os';
 import { deepStrictEqual } from 'node:assert/strict';
 import { performance } from 'node:perf_hooks';
@@ -33,6 +34,7 @@ import {
 } from './grid-comparison.js';
 import { changepoints, count, ms, round, sse, table, targetLine, times, verdict, type TargetResult } from './report.js';
 import { runDayResolvedSection } from './day-resolved-comparison.js';
+import { RESULTS_DIR, RUNTIME } from './paths.js';
 
 const SETTINGS = {
   monthlySeed: 20_210_105,
@@ -63,7 +65,7 @@ function checkTarget(result: TargetResult): void {
 }
 
 const targetRecord = (t: TargetResult) => ({ name: t.name, target: t.target, measured: t.measured, result: verdict(t.pass), ...(t.caveat ? { caveat: t.caveat } : {}) });
-const resultsFile = new URL('./results/engine-latest.json', import.meta.url);
+const resultsFile = join(RESULTS_DIR, 'engine-latest.json');
 
 const onlySection = process.env.ENGINE_BENCH_ONLY;
 if (onlySection !== undefined && onlySection !== 'day-resolved') {
@@ -98,9 +100,9 @@ function runDayResolvedAlone(): void {
   };
   merged.targets = [...kept, ...section.targets.map(targetRecord)];
   if (previous.runtimeSeconds !== undefined) merged.runtimeSeconds = previous.runtimeSeconds;
-  mkdirSync(new URL('./results/', import.meta.url), { recursive: true });
+  mkdirSync(RESULTS_DIR, { recursive: true });
   writeFileSync(resultsFile, `${JSON.stringify(merged, null, 2)}\n`);
-  say(`  updated dayResolved in ${resultsFile.pathname.replace(`${process.cwd()}/`, '')}`);
+  say(`  updated dayResolved in ${relative(process.cwd(), resultsFile)}`);
 }
 
 // ---- data -----------------------------------------------------------------
@@ -122,6 +124,7 @@ deepStrictEqual(withoutDays(alignPeriods(daily.readings!, daily.weather!).period
 const cpuList = cpus();
 say('Engine benchmark (invented, seeded data; medians of individually timed runs)');
 say(`  node ${process.version}, ${cpuList[0]?.model ?? 'unknown CPU'} × ${cpuList.length}, load average at start ${loadAtStart.map((v) => v.toFixed(2)).join(' ')}`);
+say(`  runs: ${RUNTIME}`);
 const b = BENCH_BUILDING;
 say(
   `  invented building: flat ${b.baseUsePerDay} kWh/day; heating ${b.heatingSlope} kWh/day per °F below ${b.heatingChangepoint} °F; ` +
@@ -371,6 +374,7 @@ const record = {
     cores: cpuList.length,
     loadAverageAtStart: loadAtStart.map((v) => v.toFixed(2)).join(' '),
     loadAverageAtEnd: loadAtEnd.map((v) => v.toFixed(2)).join(' '),
+    runs: RUNTIME,
   },
   data: {
     note: 'invented building and climate from a seeded generator (test/bench/synthetic-building.ts)',
@@ -402,6 +406,6 @@ const record = {
   targets: targets.map(targetRecord),
   runtimeSeconds: round(runtimeS, 3),
 };
-mkdirSync(new URL('./results/', import.meta.url), { recursive: true });
+mkdirSync(RESULTS_DIR, { recursive: true });
 writeFileSync(resultsFile, `${JSON.stringify(record, null, 2)}\n`);
-say(`  wrote ${resultsFile.pathname.replace(`${process.cwd()}/`, '')}`);
+say(`  wrote ${relative(process.cwd(), resultsFile)}`);

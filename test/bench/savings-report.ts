@@ -10,7 +10,7 @@
  *   - the report over HTTP (sequential requests, loopback).
  * No target is set by the issue; the figures go to the README.
  */
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
@@ -21,6 +21,7 @@ import { renderReportCsv } from '../../src/reports/csv.js';
 import { renderReportHtml } from '../../src/reports/html/render-report.js';
 import { openStore } from '../../src/store/connect.js';
 import { median, quantile } from './timing.js';
+import { RESULTS_DIR } from './paths.js';
 
 const REPS = 40;
 const WARM_UP = 5;
@@ -78,7 +79,8 @@ async function main(): Promise<void> {
       `  over HTTP, contract-year HTML: median ${results.httpContractYearHtml.medianMs.toFixed(2)} ms (p90 ${results.httpContractYearHtml.p90Ms.toFixed(2)})`,
     ];
     process.stdout.write(`${lines.join('\n')}\n`);
-    writeFileSync(new URL('./results/report-latest.json', import.meta.url), `${JSON.stringify({ measuredAt: new Date().toISOString(), node: process.version, ...results, ratioToReference: ratio }, null, 2)}\n`);
+    mkdirSync(RESULTS_DIR, { recursive: true });
+    writeFileSync(join(RESULTS_DIR, 'report-latest.json'), `${JSON.stringify({ measuredAt: new Date().toISOString(), node: process.version, ...results, ratioToReference: ratio }, null, 2)}\n`);
   } finally {
     await store.close();
     await service.stop();

@@ -25,8 +25,9 @@ import { BASELINE_END, BASELINE_START, DEMO_FACILITIES, REPORTING_END, demoBills
 import { median, quantile } from './timing.js';
 import { postgresReachable, testPostgresUrl } from '../support/database.js';
 import { freePort } from '../support/ports.js';
+import { REPO_ROOT, RESULTS_DIR, serverArguments } from './paths.js';
 
-const ROOT = join(import.meta.dirname, '..', '..');
+const ROOT = REPO_ROOT;
 const WORK = join(ROOT, 'var', 'bench');
 const BOOTSTRAP_KEY = `mvl_benchkey_${'b'.repeat(40)}`;
 const METERS = 10;
@@ -37,7 +38,7 @@ const CONNECTIONS = 10;
 
 async function startServer(databaseUrl: string): Promise<{ child: ChildProcess; base: string }> {
   const port = await freePort();
-  const child = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'src', 'server.ts')], {
+  const child = spawn(process.execPath, serverArguments(), {
     env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', DATABASE_URL: databaseUrl, LOG_LEVEL: 'warn', MVLEDGER_BOOTSTRAP_KEY: BOOTSTRAP_KEY, RATE_LIMIT_PER_MINUTE: '0' },
     stdio: ['ignore', 'inherit', 'inherit'],
   });
@@ -253,8 +254,8 @@ function report(runs: ScenarioResult[]): void {
     lines.push(`      target ${v.target}: ${v.pass ? 'PASS' : 'MISS'}`);
   }
   process.stdout.write(`${lines.join('\n')}\n`);
-  mkdirSync(join(import.meta.dirname, 'results'), { recursive: true });
-  writeFileSync(join(import.meta.dirname, 'results', 'service-latest.json'), `${JSON.stringify({ node: process.version, ranAt: new Date().toISOString(), runs }, null, 2)}\n`);
+  mkdirSync(RESULTS_DIR, { recursive: true });
+  writeFileSync(join(RESULTS_DIR, 'service-latest.json'), `${JSON.stringify({ node: process.version, ranAt: new Date().toISOString(), runs }, null, 2)}\n`);
 }
 
 await main();

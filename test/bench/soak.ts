@@ -20,8 +20,9 @@ import { verifyAllAuditChains } from '../../src/store/audit.js';
 import { median, quantile } from './timing.js';
 import { dropTestDatabase, freshTestDatabaseUrl, postgresReachable } from '../support/database.js';
 import { freePort } from '../support/ports.js';
+import { REPO_ROOT, RESULTS_DIR, serverArguments } from './paths.js';
 
-const ROOT = join(import.meta.dirname, '..', '..');
+const ROOT = REPO_ROOT;
 const WORK = join(ROOT, 'var', 'soak');
 const KEY = `mvl_soakkey1_${'s'.repeat(40)}`;
 const SECONDS = Number(process.env.SOAK_SECONDS ?? 60);
@@ -46,7 +47,7 @@ async function main(): Promise<void> {
   if (usePostgres) process.env.MVLEDGER_TEST_DIALECT = 'postgres';
   const databaseUrl = usePostgres ? freshTestDatabaseUrl() : `sqlite:${join(WORK, 'soak.sqlite')}`;
   const port = await freePort();
-  const child: ChildProcess = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'src', 'server.ts')], {
+  const child: ChildProcess = spawn(process.execPath, serverArguments(), {
     env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', DATABASE_URL: databaseUrl, LOG_LEVEL: 'warn', MVLEDGER_BOOTSTRAP_KEY: KEY, RATE_LIMIT_PER_MINUTE: '0' },
     stdio: ['ignore', 'inherit', 'inherit'],
   });
@@ -174,8 +175,8 @@ async function main(): Promise<void> {
         '',
       ].join('\n'),
     );
-    mkdirSync(join(import.meta.dirname, 'results'), { recursive: true });
-    writeFileSync(join(import.meta.dirname, 'results', `soak-${usePostgres ? 'postgres' : 'sqlite'}-latest.json`), `${JSON.stringify(results, null, 2)}\n`);
+    mkdirSync(RESULTS_DIR, { recursive: true });
+    writeFileSync(join(RESULTS_DIR, `soak-${usePostgres ? 'postgres' : 'sqlite'}-latest.json`), `${JSON.stringify(results, null, 2)}\n`);
     if (missing > 0 || !chain.ok || load.non2xx > 0 || failures.length > 0) process.exitCode = 1;
   } finally {
     child.kill('SIGTERM');

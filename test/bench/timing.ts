@@ -44,7 +44,7 @@ export function timeOnce<T>(run: () => T): { ms: number; result: T } {
   return { ms, result };
 }
 
-// `npm run bench` runs plain `tsx`, without --expose-gc; turn it on here so
+// `npm run bench` runs plain node (or tsx), without --expose-gc; turn it on here so
 // heap figures can be read after a full collection rather than mid-garbage.
 setFlagsFromString('--expose-gc');
 const gc = runInNewContext('gc') as () => void;

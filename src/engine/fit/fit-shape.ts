@@ -204,7 +204,12 @@ export function fitShape(periods: readonly Period[], model: ModelName, minPoints
       ...fit,
       autocorrelation,
       durbinWatson: durbinWatson(residuals),
-      outOfSample: outOfSampleFit({ design, usePerDay: y, days: w, quantity: ordered.map((q) => q.quantity), blocks: blocks.blocks }, blocks.method),
+      outOfSample: outOfSampleFit(
+        { design, usePerDay: y, days: w, quantity: ordered.map((q) => q.quantity), blocks: blocks.blocks },
+        blocks.method,
+        regression.unscaledCovariance,
+        regression.coefficients,
+      ),
     },
     residuals,
   };

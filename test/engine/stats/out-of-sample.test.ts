@@ -5,7 +5,7 @@ import { seededRandom } from '../../support/synthetic.js';
 
 describe('outOfSampleFit', () => {
   it('the example in its doc comment: a mean of 1, 2, 3 left out one at a time (hand-worked)', () => {
-    const result = outOfSampleFit({ design: [[1], [1], [1]], usePerDay: [1, 2, 3], days: [1, 1, 1], quantity: [1, 2, 3], blocks: ['a', 'b', 'c'] }, 'leave-one-period-out');
+    const result = outOfSampleFit({ design: [[1], [1], [1]], usePerDay: [1, 2, 3], days: [1, 1, 1], quantity: [1, 2, 3], blocks: ['a', 'b', 'c'] }, 'leave-one-period-out', [[1 / 3]], [2]);
     expect(result.cvrmse).toBeCloseTo(Math.sqrt(4.5 / 3) / 2, 12);
     expect(result.nmbe).toBeCloseTo(0, 12);
     expect(result.unavailable).toBeNull();
@@ -19,7 +19,8 @@ describe('outOfSampleFit', () => {
     const usePerDay = design.map((row) => 300 + 8 * row[1]! + 10 * row[2]! + 15 * random.normal());
     const quantity = usePerDay.map((u, i) => u * days[i]!);
     const blocks = Array.from({ length: n }, (_, i) => `m${Math.floor(i / 3)}`);
-    const result = outOfSampleFit({ design, usePerDay, days, quantity, blocks }, 'blocked-by-month');
+    const full = weightedLeastSquares(design, usePerDay, days)!;
+    const result = outOfSampleFit({ design, usePerDay, days, quantity, blocks }, 'blocked-by-month', full.unscaledCovariance, full.coefficients);
     let squares = 0;
     let total = 0;
     for (const block of new Set(blocks)) {
@@ -39,9 +40,13 @@ describe('outOfSampleFit', () => {
 
   it('says which block leaves the model unidentified instead of failing', () => {
     // The only period with a non-zero second column is left out: its coefficient cannot be estimated.
+    const design = [[1, 0], [1, 0], [1, 5], [1, 0]];
+    const full = weightedLeastSquares(design, [1, 2, 9, 1], [1, 1, 1, 1])!;
     const result = outOfSampleFit(
-      { design: [[1, 0], [1, 0], [1, 5], [1, 0]], usePerDay: [1, 2, 9, 1], days: [1, 1, 1, 1], quantity: [1, 2, 9, 1], blocks: ['2030-01-01', '2030-01-02', '2030-01-03', '2030-01-04'] },
+      { design, usePerDay: [1, 2, 9, 1], days: [1, 1, 1, 1], quantity: [1, 2, 9, 1], blocks: ['2030-01-01', '2030-01-02', '2030-01-03', '2030-01-04'] },
       'leave-one-period-out',
+      full.unscaledCovariance,
+      full.coefficients,
     );
     expect(result.cvrmse).toBeNaN();
     expect(result.unavailable).toMatch(/without the period starting 2030-01-03 the model is not identified/);
