@@ -24,6 +24,7 @@
  */
 import { performance } from 'node:perf_hooks';
 import type { Period } from '../../src/engine/index.js';
+import { goldenMinimum } from '../support/golden-section.js';
 
 export type HingeShape = '3PC' | '3PH' | '4P' | '5P';
 
@@ -246,32 +247,6 @@ function sseAt(readings: Readings, shape: HingeShape, heating: number | null, co
 
 // ---- the polish -----------------------------------------------------------------
 
-/** Golden-section minimum of f on [low, high]. */
-function goldenMinimum(f: (x: number) => number, low: number, high: number, iterations: number): { x: number; value: number } {
-  const ratio = (Math.sqrt(5) - 1) / 2;
-  let a = low;
-  let b = high;
-  let c = b - ratio * (b - a);
-  let d = a + ratio * (b - a);
-  let fc = f(c);
-  let fd = f(d);
-  for (let i = 0; i < iterations; i++) {
-    if (fc < fd) {
-      b = d;
-      d = c;
-      fd = fc;
-      c = b - ratio * (b - a);
-      fc = f(c);
-    } else {
-      a = c;
-      c = d;
-      fc = fd;
-      d = a + ratio * (b - a);
-      fd = f(d);
-    }
-  }
-  return fc < fd ? { x: c, value: fc } : { x: d, value: fd };
-}
 
 /** Golden-section steps per changepoint, and rounds over the changepoints (the 5P's two interact). */
 const POLISH_ITERATIONS = 60;

@@ -11,6 +11,7 @@
 import { weightedLeastSquares } from '../../src/engine/fit/wls.js';
 import { periodDesignRow } from '../../src/engine/fit/shape-model.js';
 import type { Period } from '../../src/engine/types.js';
+import { goldenMinimum } from './golden-section.js';
 
 export interface DayGridOptimum {
   heating: number | null;
@@ -47,31 +48,6 @@ export function dayResolvedSse(shape: Shape, periods: readonly Period[], cH: num
   return fit?.sse ?? Number.POSITIVE_INFINITY;
 }
 
-function goldenMinimum(f: (x: number) => number, low: number, high: number, iterations: number): { x: number; value: number } {
-  const ratio = (Math.sqrt(5) - 1) / 2;
-  let a = low;
-  let b = high;
-  let c = b - ratio * (b - a);
-  let d = a + ratio * (b - a);
-  let fc = f(c);
-  let fd = f(d);
-  for (let i = 0; i < iterations; i++) {
-    if (fc < fd) {
-      b = d;
-      d = c;
-      fd = fc;
-      c = b - ratio * (b - a);
-      fc = f(c);
-    } else {
-      a = c;
-      c = d;
-      fc = fd;
-      d = a + ratio * (b - a);
-      fd = f(d);
-    }
-  }
-  return fc < fd ? { x: c, value: fc } : { x: d, value: fd };
-}
 
 /** Grid over the range of the days' temperatures, then a golden-section polish around the best point. */
 export function dayResolvedGridSearch(shape: Shape, periods: readonly Period[], step: number, k: number): DayGridOptimum | null {

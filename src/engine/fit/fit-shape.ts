@@ -196,7 +196,7 @@ export function fitShape(periods: readonly Period[], model: ModelName, minPoints
     coefficients,
     changepointEstimates,
     parameters,
-    segmentCounts: form === 'daily' ? weighSegments(model, changepoints, ordered) : countSegments(model, changepoints, x),
+    segmentCounts: segmentCounts(model, changepoints, ordered, form),
     temperatureRange: { min: Math.min(...x), max: Math.max(...x) },
     dayTemperatureRange: form === 'daily' ? dayRange(ordered) : null,
     sse: regression.sse,
@@ -247,14 +247,19 @@ function dayRange(periods: readonly Period[]): { min: number; max: number } {
 }
 
 /**
- * Segment weights of a day-resolved fit: each reading counts in a segment by
- * the share of its days that fall in it (a day on a changepoint in both).
- * For one-day readings these are the mean form's counts.
+ * Readings in each segment. In the mean form a reading counts in the segment
+ * that holds its mean temperature; in the day-resolved form by the share of
+ * its days that fall in it (for one-day readings the same). A reading or day
+ * on a changepoint counts in both segments it touches.
  */
-function weighSegments(model: ModelName, cp: Changepoints, periods: readonly Period[]): Record<string, number> {
-  const weigh = (test: (temp: number) => boolean): number => {
+function segmentCounts(model: ModelName, cp: Changepoints, periods: readonly Period[], form: TemperatureForm): Record<string, number> {
+  const measure = (test: (temp: number) => boolean): number => {
     let total = 0;
     for (const period of periods) {
+      if (form === 'mean') {
+        if (test(period.meanTemp)) total += 1;
+        continue;
+      }
       const temps = period.dayTemps!;
       let inside = 0;
       for (const temp of temps) if (test(temp)) inside++;
@@ -270,32 +275,13 @@ function weighSegments(model: ModelName, cp: Changepoints, periods: readonly Per
     case '2P':
       return { all: periods.length };
     case '3PC':
-      return { flat: weigh((v) => v <= cC), cooling: weigh((v) => v >= cC) };
+      return { flat: measure((v) => v <= cC), cooling: measure((v) => v >= cC) };
     case '3PH':
-      return { heating: weigh((v) => v <= cH), flat: weigh((v) => v >= cH) };
+      return { heating: measure((v) => v <= cH), flat: measure((v) => v >= cH) };
     case '4P':
-      return { below: weigh((v) => v <= cH), above: weigh((v) => v >= cH) };
+      return { below: measure((v) => v <= cH), above: measure((v) => v >= cH) };
     case '5P':
-      return { heating: weigh((v) => v <= cH), flat: weigh((v) => v >= cH && v <= cC), cooling: weigh((v) => v >= cC) };
-  }
-}
-
-function countSegments(model: ModelName, cp: Changepoints, x: readonly number[]): Record<string, number> {
-  const count = (test: (value: number) => boolean): number => x.filter(test).length;
-  const cH = cp.heating ?? Number.NaN;
-  const cC = cp.cooling ?? Number.NaN;
-  switch (model) {
-    case '1P':
-    case '2P':
-      return { all: x.length };
-    case '3PC':
-      return { flat: count((v) => v <= cC), cooling: count((v) => v >= cC) };
-    case '3PH':
-      return { heating: count((v) => v <= cH), flat: count((v) => v >= cH) };
-    case '4P':
-      return { below: count((v) => v <= cH), above: count((v) => v >= cH) };
-    case '5P':
-      return { heating: count((v) => v <= cH), flat: count((v) => v >= cH && v <= cC), cooling: count((v) => v >= cC) };
+      return { heating: measure((v) => v <= cH), flat: measure((v) => v >= cH && v <= cC), cooling: measure((v) => v >= cC) };
   }
 }
 
