@@ -9,12 +9,20 @@ import { randomBytes } from 'node:crypto';
 import { defineConfig } from 'vitest/config';
 import { postgresReachable, testPostgresUrl } from './test/support/database.js';
 
-const SERVICE_TESTS = ['test/http/**/*.test.ts', 'test/services/**/*.test.ts', 'test/store/**/*.test.ts', 'test/multi-instance/**/*.test.ts', 'test/faults/**/*.test.ts', 'test/fuzz/**/*.test.ts'];
+const SERVICE_TESTS = [
+  'test/http/**/*.test.ts',
+  'test/services/**/*.test.ts',
+  'test/store/**/*.test.ts',
+  'test/multi-instance/**/*.test.ts',
+  'test/faults/**/*.test.ts',
+  'test/fuzz/**/*.test.ts',
+];
 
 export default defineConfig(async () => {
   const wanted = process.env.MVLEDGER_TEST_POSTGRES ?? 'auto';
   const reachable = wanted !== 'off' && (await postgresReachable());
-  if (wanted === 'required' && !reachable) throw new Error(`MVLEDGER_TEST_POSTGRES=required but no PostgreSQL answers at ${testPostgresUrl()}`);
+  if (wanted === 'required' && !reachable)
+    throw new Error(`MVLEDGER_TEST_POSTGRES=required but no PostgreSQL answers at ${testPostgresUrl()}`);
   // Every schema of this run starts mvl_test_<run>_ (test/support/database.ts); workers inherit the id.
   process.env.MVLEDGER_TEST_RUN ??= randomBytes(3).toString('hex');
   if (!reachable && wanted !== 'off') console.warn(`PostgreSQL not reachable at ${testPostgresUrl()}: running the SQLite project only`);
@@ -28,7 +36,12 @@ export default defineConfig(async () => {
           ? [
               {
                 extends: true,
-                test: { name: 'postgres', include: SERVICE_TESTS, env: { MVLEDGER_TEST_DIALECT: 'postgres' }, globalSetup: ['test/support/postgres-run.ts'] },
+                test: {
+                  name: 'postgres',
+                  include: SERVICE_TESTS,
+                  env: { MVLEDGER_TEST_DIALECT: 'postgres' },
+                  globalSetup: ['test/support/postgres-run.ts'],
+                },
               },
             ]
           : []),

@@ -15,7 +15,10 @@
 import { sql, type Kysely } from 'kysely';
 
 export async function up(db: Kysely<unknown>): Promise<void> {
-  await db.schema.alterTable('baselines').addColumn('temperature_form', 'text', (c) => c.notNull().defaultTo('mean')).execute();
+  await db.schema
+    .alterTable('baselines')
+    .addColumn('temperature_form', 'text', (c) => c.notNull().defaultTo('mean'))
+    .execute();
   await db.schema.alterTable('baselines').addColumn('short_baseline_override', 'text').execute();
   await db.schema.alterTable('baselines').addColumn('extrapolation_override', 'text').execute();
   await db.schema.alterTable('adjustments').addColumn('uncertainty', 'double precision').execute();

@@ -13,7 +13,12 @@ const environmentSchema = z.object({
   DATABASE_URL: z.string().min(1).default('sqlite:./var/mvledger.sqlite'),
   LOG_LEVEL: z.enum(LOG_LEVELS).default('info'),
   RATE_LIMIT_PER_MINUTE: z.coerce.number().int().min(0).default(60_000),
-  MAX_BODY_BYTES: z.coerce.number().int().min(1024).max(256 * 1024 * 1024).default(16 * 1024 * 1024),
+  MAX_BODY_BYTES: z.coerce
+    .number()
+    .int()
+    .min(1024)
+    .max(256 * 1024 * 1024)
+    .default(16 * 1024 * 1024),
   MVLEDGER_BOOTSTRAP_ORGANISATION: z.string().trim().min(1).max(200).default('Bootstrap organisation'),
   MVLEDGER_BOOTSTRAP_KEY: z
     .string()

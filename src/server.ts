@@ -25,7 +25,13 @@ export async function startService(config: Config): Promise<RunningService> {
   let log: FastifyBaseLogger | null = null;
   const store = openStore(config.databaseUrl, {
     onEvent: (event) => {
-      if (log) log.warn({ database: event }, event.event === 'connection-error' ? 'database connection lost (the pool replaces it)' : 'database connection lost: retried on a fresh connection');
+      if (log)
+        log.warn(
+          { database: event },
+          event.event === 'connection-error'
+            ? 'database connection lost (the pool replaces it)'
+            : 'database connection lost: retried on a fresh connection',
+        );
       else process.stderr.write(`mvledger: database ${event.event}: ${event.message}\n`);
     },
   });

@@ -60,7 +60,9 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
       if (output.note) io.stderr(output.note);
       return output.code ?? 0;
     }
-    io.stderr(`mvledger: unknown command ${JSON.stringify(command)} (commands: fit, savings, keys, export, import, backup, restore, help)\n`);
+    io.stderr(
+      `mvledger: unknown command ${JSON.stringify(command)} (commands: fit, savings, keys, export, import, backup, restore, help)\n`,
+    );
     return EXIT_BAD_INPUT;
   } catch (error) {
     if (error instanceof UsageError || error instanceof InputFileError) {

@@ -108,7 +108,13 @@ function commonOptions(values: Values): CommonOptions {
     json: values.json === true,
     unit: unitOption(values.unit),
     minCoverage: numberOption(values.coverage, 'coverage', DEFAULT_MIN_COVERAGE, (v) => v > 0 && v <= 1, 'a fraction in (0, 1], e.g. 0.9'),
-    significanceLevel: numberOption(values.alpha, 'alpha', DEFAULT_SIGNIFICANCE_LEVEL, (v) => v > 0 && v < 1, 'a level in (0, 1), e.g. 0.05'),
+    significanceLevel: numberOption(
+      values.alpha,
+      'alpha',
+      DEFAULT_SIGNIFICANCE_LEVEL,
+      (v) => v > 0 && v < 1,
+      'a level in (0, 1), e.g. 0.05',
+    ),
     minPointsPerSegment: numberOption(
       values['min-points'],
       'min-points',
@@ -149,7 +155,13 @@ function unitOption(value: string | boolean | undefined): TemperatureUnit {
   throw new UsageError(`--unit must be F or C, got ${JSON.stringify(value)}`);
 }
 
-function numberOption(value: string | boolean | undefined, name: string, fallback: number, valid: (v: number) => boolean, expected: string): number {
+function numberOption(
+  value: string | boolean | undefined,
+  name: string,
+  fallback: number,
+  valid: (v: number) => boolean,
+  expected: string,
+): number {
   if (value === undefined) return fallback;
   const text = String(value).trim();
   const number = text === '' ? Number.NaN : Number(text);
@@ -159,7 +171,13 @@ function numberOption(value: string | boolean | undefined, name: string, fallbac
 
 function confidenceOption(value: string | boolean | undefined): number {
   const allowed: readonly number[] = CONFIDENCE_LEVELS;
-  const confidence = numberOption(value, 'confidence', SIGNIFICANCE_RULE.confidence, (v) => allowed.includes(v), `one of ${allowed.join(', ')}`);
+  const confidence = numberOption(
+    value,
+    'confidence',
+    SIGNIFICANCE_RULE.confidence,
+    (v) => allowed.includes(v),
+    `one of ${allowed.join(', ')}`,
+  );
   return confidence;
 }
 

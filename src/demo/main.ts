@@ -113,13 +113,27 @@ export async function seedDemo(base: string, adminKey: string, reportFolder = di
       years: CONTRACT_YEARS,
       currency: CONTRACT_CURRENCY,
       energyUnit: 'MMBtu',
-      guarantees: Array.from({ length: CONTRACT_YEARS }, (_, i) => ({ year: i + 1, energy: guarantee(builtInMMBtu, 10), cost: guarantee(builtInCost, 100) })),
+      guarantees: Array.from({ length: CONTRACT_YEARS }, (_, i) => ({
+        year: i + 1,
+        energy: guarantee(builtInMMBtu, 10),
+        cost: guarantee(builtInCost, 100),
+      })),
     });
     facilities.push({ id: facility.id, name: plan.name, meters });
   }
   const reports = {
-    quarter: await saveReport(base, analyst.token, `quarter=${DEMO_QUARTER}&format=html`, join(reportFolder, `savings-report-${DEMO_QUARTER}.html`)),
-    contractYear: await saveReport(base, analyst.token, 'contractYear=1&format=html&confidence=0.9', join(reportFolder, 'savings-report-contract-year-1.html')),
+    quarter: await saveReport(
+      base,
+      analyst.token,
+      `quarter=${DEMO_QUARTER}&format=html`,
+      join(reportFolder, `savings-report-${DEMO_QUARTER}.html`),
+    ),
+    contractYear: await saveReport(
+      base,
+      analyst.token,
+      'contractYear=1&format=html&confidence=0.9',
+      join(reportFolder, 'savings-report-contract-year-1.html'),
+    ),
   };
   return { adminKey, analystKey: analyst.token, integrationKey: integration.token, stationId: station.id, facilities, reports };
 }
@@ -168,10 +182,14 @@ export function describeDemo(base: string, seed: DemoSeed): string {
   lines.push('');
   lines.push('Try:');
   lines.push(`  curl -H "Authorization: Bearer ${seed.analystKey}" "${base}/v1/meters/${first.id}/savings?confidence=0.9"`);
-  lines.push(`  curl -H "Authorization: Bearer ${seed.analystKey}" -o signature.svg "${base}/v1/baselines/${first.baselineId}/signature.svg"`);
-  lines.push(`  curl -H "Authorization: Bearer ${seed.analystKey}" -o report.html "${base}/v1/reports/savings?quarter=${DEMO_QUARTER}&format=html"`);
+  lines.push(
+    `  curl -H "Authorization: Bearer ${seed.analystKey}" -o signature.svg "${base}/v1/baselines/${first.baselineId}/signature.svg"`,
+  );
+  lines.push(
+    `  curl -H "Authorization: Bearer ${seed.analystKey}" -o report.html "${base}/v1/reports/savings?quarter=${DEMO_QUARTER}&format=html"`,
+  );
   lines.push('');
-  lines.push('The figures are estimates under the contract\'s M&V plan and the cited methods; contractual and');
+  lines.push("The figures are estimates under the contract's M&V plan and the cited methods; contractual and");
   lines.push('engineering decisions rest with the parties and a licensed professional, under local rules.');
   lines.push('');
   return lines.join('\n');
@@ -187,7 +205,13 @@ export async function runDemo(options: {
   const databaseFile = options.databaseFile ?? DEMO_DATABASE;
   for (const suffix of ['', '-wal', '-shm']) rmSync(`${databaseFile}${suffix}`, { force: true });
   const { token } = generateApiKey();
-  const config = { ...loadConfig(), databaseUrl: `sqlite:${databaseFile}`, bootstrapKey: token, bootstrapOrganisation: DEMO_DISTRICT, logLevel: 'warn' as const };
+  const config = {
+    ...loadConfig(),
+    databaseUrl: `sqlite:${databaseFile}`,
+    bootstrapKey: token,
+    bootstrapOrganisation: DEMO_DISTRICT,
+    logLevel: 'warn' as const,
+  };
   if (options.port !== undefined) config.port = options.port;
   const service = await startService(config);
   const base = service.url.replace('[::1]', 'localhost');

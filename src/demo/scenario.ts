@@ -8,7 +8,6 @@
 import { addDays, daysBetween } from '../engine/index.js';
 import { seededRandom } from '../lib/seeded-random.js';
 
-
 export interface DemoUse {
   /** Use per day in the flat band. */
   base: number;
@@ -68,8 +67,24 @@ export const DEMO_FACILITIES: DemoFacility[] = [
     floorArea: 4200,
     guaranteeShare: 0.75,
     meters: [
-      { name: 'Main electricity', fuel: 'electricity', unit: 'kWh', use: { base: 900, coolingAbove: 68, coolingRate: 45, noise: 0.05 }, reportingSaving: 0.12, price: 0.16, escalation: 0.03 },
-      { name: 'Boiler gas', fuel: 'natural-gas', unit: 'therm', use: { base: 18, heatingBelow: 58, heatingRate: 6, noise: 0.06 }, reportingSaving: 0.15, price: 1.1, escalation: 0.02 },
+      {
+        name: 'Main electricity',
+        fuel: 'electricity',
+        unit: 'kWh',
+        use: { base: 900, coolingAbove: 68, coolingRate: 45, noise: 0.05 },
+        reportingSaving: 0.12,
+        price: 0.16,
+        escalation: 0.03,
+      },
+      {
+        name: 'Boiler gas',
+        fuel: 'natural-gas',
+        unit: 'therm',
+        use: { base: 18, heatingBelow: 58, heatingRate: 6, noise: 0.06 },
+        reportingSaving: 0.15,
+        price: 1.1,
+        escalation: 0.02,
+      },
     ],
   },
   {
@@ -87,9 +102,23 @@ export const DEMO_FACILITIES: DemoFacility[] = [
         price: 0.15,
         escalation: 0.03,
         // 260 a day over 122 days is 31,720 kWh; the invented engineer puts its total at ± 4,800 kWh (about 15%).
-        change: { start: '2025-09-01', end: '2026-01-01', perDay: 260, reason: 'New after-school sports hall opened in September (invented)', uncertainty: 4800 },
+        change: {
+          start: '2025-09-01',
+          end: '2026-01-01',
+          perDay: 260,
+          reason: 'New after-school sports hall opened in September (invented)',
+          uncertainty: 4800,
+        },
       },
-      { name: 'Boiler gas', fuel: 'natural-gas', unit: 'therm', use: { base: 25, heatingBelow: 60, heatingRate: 8, noise: 0.06 }, reportingSaving: 0.11, price: 1.05, escalation: 0.02 },
+      {
+        name: 'Boiler gas',
+        fuel: 'natural-gas',
+        unit: 'therm',
+        use: { base: 25, heatingBelow: 60, heatingRate: 8, noise: 0.06 },
+        reportingSaving: 0.11,
+        price: 1.05,
+        escalation: 0.02,
+      },
     ],
   },
   {
@@ -98,8 +127,24 @@ export const DEMO_FACILITIES: DemoFacility[] = [
     floorArea: 12500,
     guaranteeShare: 1.15,
     meters: [
-      { name: 'Main electricity', fuel: 'electricity', unit: 'kWh', use: { base: 2500, coolingAbove: 66, coolingRate: 110, noise: 0.05 }, reportingSaving: 0.14, price: 0.15, escalation: 0.03 },
-      { name: 'Boiler gas', fuel: 'natural-gas', unit: 'therm', use: { base: 40, heatingBelow: 57, heatingRate: 12, noise: 0.06 }, reportingSaving: 0.1, price: 1.05, escalation: 0.02 },
+      {
+        name: 'Main electricity',
+        fuel: 'electricity',
+        unit: 'kWh',
+        use: { base: 2500, coolingAbove: 66, coolingRate: 110, noise: 0.05 },
+        reportingSaving: 0.14,
+        price: 0.15,
+        escalation: 0.03,
+      },
+      {
+        name: 'Boiler gas',
+        fuel: 'natural-gas',
+        unit: 'therm',
+        use: { base: 40, heatingBelow: 57, heatingRate: 12, noise: 0.06 },
+        reportingSaving: 0.1,
+        price: 1.05,
+        escalation: 0.02,
+      },
     ],
   },
 ];
@@ -146,7 +191,14 @@ export interface DemoBill {
  * Monthly bills from `from` to `to`, read on an irregular day early in each
  * month (as meter readers do), each the sum of simulated days.
  */
-export function demoBills(meter: DemoMeter, weather: ReadonlyMap<string, number>, from: string, to: string, saving: number, seed: number): DemoBill[] {
+export function demoBills(
+  meter: DemoMeter,
+  weather: ReadonlyMap<string, number>,
+  from: string,
+  to: string,
+  saving: number,
+  seed: number,
+): DemoBill[] {
   const random = seededRandom(seed);
   const bills: DemoBill[] = [];
   let start = from;

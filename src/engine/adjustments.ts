@@ -74,7 +74,10 @@ export function adjustmentsForPeriod(adjustments: readonly NonRoutineAdjustment[
  * RangeError for a malformed adjustment or an uncertainty that is negative
  * or not finite.
  */
-export function adjustmentUncertaintyInPeriods(adjustment: NonRoutineAdjustment, periods: readonly { start: string; end: string }[]): number {
+export function adjustmentUncertaintyInPeriods(
+  adjustment: NonRoutineAdjustment,
+  periods: readonly { start: string; end: string }[],
+): number {
   const days = spanDays(adjustment);
   const stated = statedUncertainty(adjustment);
   if (stated === 0) return 0;
@@ -87,7 +90,10 @@ export function adjustmentUncertaintyInPeriods(adjustment: NonRoutineAdjustment,
  * periods: each one's part (adjustmentUncertaintyInPeriods) combined in
  * quadrature, the adjustments' errors taken as independent of one another.
  */
-export function adjustmentsUncertaintyInPeriods(adjustments: readonly NonRoutineAdjustment[], periods: readonly { start: string; end: string }[]): number {
+export function adjustmentsUncertaintyInPeriods(
+  adjustments: readonly NonRoutineAdjustment[],
+  periods: readonly { start: string; end: string }[],
+): number {
   return combineInQuadrature(adjustments.map((adjustment) => adjustmentUncertaintyInPeriods(adjustment, periods)));
 }
 
@@ -110,7 +116,8 @@ function amountOf(a: NonRoutineAdjustment): { kind: 'quantity' | 'perDay'; value
 
 function statedUncertainty(a: NonRoutineAdjustment): number {
   const value = a.uncertainty ?? 0;
-  if (!(Number.isFinite(value) && value >= 0)) throw new RangeError(`adjustment ${a.id}: uncertainty must be a finite number of at least 0, got ${value}`);
+  if (!(Number.isFinite(value) && value >= 0))
+    throw new RangeError(`adjustment ${a.id}: uncertainty must be a finite number of at least 0, got ${value}`);
   return value;
 }
 

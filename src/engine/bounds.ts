@@ -51,7 +51,7 @@ export const MAX_COST_PER_DAY: InputBound = { max: 1e14, per: 'currency units pe
  * dollars per MMBtu or 5,000 per MWh); in a currency of 10⁶ to the dollar
  * that is 5·10⁹ per MWh, below the bound.
  */
-export const MAX_PRICE: InputBound = { max: 1e10, per: "currency units per unit of the meter", source: 'our own bound' };
+export const MAX_PRICE: InputBound = { max: 1e10, per: 'currency units per unit of the meter', source: 'our own bound' };
 
 /**
  * Yearly escalation of a rate as a fraction: above −1 (the rate would
@@ -64,10 +64,18 @@ export const ESCALATION = { min: -1, minExclusive: true, max: 1, per: 'fraction 
  * Our own bound: a contract year's energy guarantee is at most a year
  * (366 days) of the largest use per day, in the contract's energy unit.
  */
-export const MAX_GUARANTEE_ENERGY: InputBound = { max: MAX_USE_PER_DAY.max * 366, per: "of the contract's energy unit per contract year", source: 'our own bound' };
+export const MAX_GUARANTEE_ENERGY: InputBound = {
+  max: MAX_USE_PER_DAY.max * 366,
+  per: "of the contract's energy unit per contract year",
+  source: 'our own bound',
+};
 
 /** Our own bound: a contract year's cost guarantee is at most a year (366 days) of the largest cost per day. */
-export const MAX_GUARANTEE_COST: InputBound = { max: MAX_COST_PER_DAY.max * 366, per: 'currency units per contract year', source: 'our own bound' };
+export const MAX_GUARANTEE_COST: InputBound = {
+  max: MAX_COST_PER_DAY.max * 366,
+  per: 'currency units per contract year',
+  source: 'our own bound',
+};
 
 /**
  * Our own bound: 10⁹ ft² or m². The largest buildings have about 2·10⁷ ft²

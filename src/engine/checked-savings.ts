@@ -42,10 +42,16 @@ export function projectionRefusals(
 ): ProjectionRefusal[] {
   const refusals: ProjectionRefusal[] = [];
   if (options.requireSufficiency && !checks.sufficiency.sufficient && checks.overrides.shortBaseline === null) {
-    refusals.push({ check: 'shortBaseline', reason: `the baseline is too short to project from: ${checks.sufficiency.reasons.join('; ')}` });
+    refusals.push({
+      check: 'shortBaseline',
+      reason: `the baseline is too short to project from: ${checks.sufficiency.reasons.join('; ')}`,
+    });
   }
   if (checks.extrapolation.exceedsLimit && checks.overrides.extrapolation === null) {
-    refusals.push({ check: 'extrapolation', reason: `the reporting weather lies outside what the baseline saw: ${checks.extrapolation.summary}` });
+    refusals.push({
+      check: 'extrapolation',
+      reason: `the reporting weather lies outside what the baseline saw: ${checks.extrapolation.summary}`,
+    });
   }
   return refusals;
 }

@@ -105,8 +105,12 @@ export function weatherDependenceTest(
   const lead = pOne <= pTwo ? one! : two!;
   const pValue = Math.min(pOne, pTwo);
   const parts = [
-    one ? `one-slope shapes (2P, 3PC, 3PH): F = ${formatNumber(one.f)} (1, ${one.df2}), p ${formatP(one.pValue)} of its share ${ONE_SLOPE_SHARE}·α` : null,
-    two ? `4P: F = ${formatNumber(two.f)} (2, ${two.df2}), p ${formatP(two.pValue)} of its share ${formatNumber(1 - ONE_SLOPE_SHARE)}·α` : null,
+    one
+      ? `one-slope shapes (2P, 3PC, 3PH): F = ${formatNumber(one.f)} (1, ${one.df2}), p ${formatP(one.pValue)} of its share ${ONE_SLOPE_SHARE}·α`
+      : null,
+    two
+      ? `4P: F = ${formatNumber(two.f)} (2, ${two.df2}), p ${formatP(two.pValue)} of its share ${formatNumber(1 - ONE_SLOPE_SHARE)}·α`
+      : null,
   ].filter((part): part is string => part !== null);
   const adjusted = lead.inflation > 1 ? ` (F divided by ${formatNumber(lead.inflation)} for autocorrelated residuals)` : '';
   return {
@@ -189,7 +193,10 @@ export function bendTest(context: ChoiceContext, line: ShapeFit, fourPoint: Shap
   const kappa = slopeInflation(context, fourPoint);
   const path = profileF(hingeProfile(days, 'heating', days.mean, bothSidesFeasible(days, minPoints)), line.sse, df2, kappa);
   const observed = fStatistic(line.sse, fourPoint.sse, df2) / kappa;
-  return finish({ f: observed, df2, inflation: kappa, pValue: searchedChangepointPValue({ path, observed, df2 }), method: 'searched' }, '2P');
+  return finish(
+    { f: observed, df2, inflation: kappa, pValue: searchedChangepointPValue({ path, observed, df2 }), method: 'searched' },
+    '2P',
+  );
 }
 
 /**

@@ -115,10 +115,13 @@ export function chooseBaseline(periods: readonly Period[], options: SelectionOpt
   const minPoints = options.minPointsPerSegment ?? DEFAULT_MIN_POINTS_PER_SEGMENT;
   const limits: Guideline14Limits = { ...DEFAULT_GUIDELINE14_LIMITS, ...options.guideline14 };
   if (!(alpha > 0 && alpha < 1)) throw new RangeError(`significanceLevel must lie in (0, 1), got ${alpha}`);
-  if (!Number.isInteger(minPoints) || minPoints < 1) throw new RangeError(`minPointsPerSegment must be a positive integer, got ${minPoints}`);
+  if (!Number.isInteger(minPoints) || minPoints < 1)
+    throw new RangeError(`minPointsPerSegment must be a positive integer, got ${minPoints}`);
   if (periods.length < 2) throw new RangeError(`at least 2 usable periods are needed to fit a baseline, got ${periods.length}`);
 
-  const models = (options.models ?? MODEL_NAMES).includes('1P') ? (options.models ?? MODEL_NAMES) : ['1P' as const, ...(options.models ?? [])];
+  const models = (options.models ?? MODEL_NAMES).includes('1P')
+    ? (options.models ?? MODEL_NAMES)
+    : ['1P' as const, ...(options.models ?? [])];
   const form = resolveTemperatureForm(periods, options.temperatureForm);
   const rules: ScreeningRules = { alpha, minPoints, allowSameSignFourPoint: options.allowSameSignFourPoint ?? false };
   const fitted = models.map((model) => fitShape(periods, model, minPoints, form));
@@ -128,7 +131,9 @@ export function chooseBaseline(periods: readonly Period[], options: SelectionOpt
   const flexible = models.includes('5P') ? [] : [fitShape(periods, '5P', minPoints, form)];
   const best = [...fitted, ...flexible].filter((f): f is ShapeFit => f.ok).sort((a, b) => a.sse - b.sse)[0];
   const noiseAutocorrelation = best ? best.stats.autocorrelation : 0;
-  const candidates = fitted.map((result) => screen(result.ok ? withAutocorrelation(result, periods, noiseAutocorrelation) : result, rules, limits));
+  const candidates = fitted.map((result) =>
+    screen(result.ok ? withAutocorrelation(result, periods, noiseAutocorrelation) : result, rules, limits),
+  );
 
   const context: ChoiceContext = { days: billDaysForForm(periods, form), minPoints, inflation: (fit) => fit.varianceInflation ?? [] };
   const current = selectShape(candidates, context, alpha);
@@ -136,7 +141,11 @@ export function chooseBaseline(periods: readonly Period[], options: SelectionOpt
     if (c.accepted) c.verdict = c === current ? 'selected' : 'accepted';
     if (c.fit && c.model !== '1P') c.reasons.push(`AICc ${formatNumber(c.aicc ?? Number.NaN)} (for information)`);
   }
-  return { selected: current.model, candidates, settings: { significanceLevel: alpha, minPointsPerSegment: minPoints, guideline14: limits, temperatureForm: form } };
+  return {
+    selected: current.model,
+    candidates,
+    settings: { significanceLevel: alpha, minPointsPerSegment: minPoints, guideline14: limits, temperatureForm: form },
+  };
 }
 
 /**
@@ -161,7 +170,12 @@ function selectShape(candidates: Candidate[], context: ChoiceContext, alpha: num
     return passes;
   };
 
-  const gate = weatherDependenceTest(context, mean.fit!, { line: fitOf('2P'), heating: fitOf('3PH'), cooling: fitOf('3PC'), fourPoint: fitOf('4P') });
+  const gate = weatherDependenceTest(context, mean.fit!, {
+    line: fitOf('2P'),
+    heating: fitOf('3PH'),
+    cooling: fitOf('3PC'),
+    fourPoint: fitOf('4P'),
+  });
   if (!gate || !(gate.pValue < alpha)) {
     mean.reasons.push(gate ? `no weather dependence: ${gate.text} (α = ${alpha})` : 'too few periods to test for weather dependence');
     for (const model of ['2P', '3PC', '3PH', '4P', '5P'] as const) {
@@ -173,9 +187,13 @@ function selectShape(candidates: Candidate[], context: ChoiceContext, alpha: num
   mean.reasons.push(`weather dependence: the mean model is rejected ${gate.text} (α = ${alpha})`);
 
   // One slope: 3PC or 3PH by the lower SSE, over the line only if the line bends.
-  const threes = (['3PC', '3PH'] as const).map(screened).filter((c): c is Candidate => c !== undefined).sort((a, b) => a.fit!.sse - b.fit!.sse);
+  const threes = (['3PC', '3PH'] as const)
+    .map(screened)
+    .filter((c): c is Candidate => c !== undefined)
+    .sort((a, b) => a.fit!.sse - b.fit!.sse);
   const three = threes[0];
-  for (const other of threes.slice(1)) other.reasons.push(`fits worse than ${three!.model} (SSE ${formatNumber(other.fit!.sse)} > ${formatNumber(three!.fit!.sse)})`);
+  for (const other of threes.slice(1))
+    other.reasons.push(`fits worse than ${three!.model} (SSE ${formatNumber(other.fit!.sse)} > ${formatNumber(three!.fit!.sse)})`);
   const line = screened('2P');
   let current: Candidate | undefined;
   if (three && line) {
@@ -186,7 +204,9 @@ function selectShape(candidates: Candidate[], context: ChoiceContext, alpha: num
       line.reasons.push(`not taken: the relationship bends (see ${three.model})`);
       current = three;
     } else {
-      three.reasons.push(bends ? `not taken: the line does not bend enough ${bends.text} (α = ${alpha})` : 'not taken: no bend could be tested');
+      three.reasons.push(
+        bends ? `not taken: the line does not bend enough ${bends.text} (α = ${alpha})` : 'not taken: no bend could be tested',
+      );
       current = line;
     }
   } else {
@@ -202,7 +222,11 @@ function selectShape(candidates: Candidate[], context: ChoiceContext, alpha: num
     current.reasons.push('taken: weather dependence is significant and no one-slope shape passed screening');
     return current;
   }
-  current.reasons.push(current.model === '2P' ? 'taken: weather dependence is significant' : `taken: weather dependence is significant and ${current.model} fits best of the one-slope shapes`);
+  current.reasons.push(
+    current.model === '2P'
+      ? 'taken: weather dependence is significant'
+      : `taken: weather dependence is significant and ${current.model} fits best of the one-slope shapes`,
+  );
   if (current.model === '2P') {
     for (const model of ['4P', '5P'] as const) screened(model)?.reasons.push('not taken: the straight line does not bend (see 3PC/3PH)');
     return current;
@@ -212,7 +236,8 @@ function selectShape(candidates: Candidate[], context: ChoiceContext, alpha: num
   if (four && record(four, regularTest(context, current.fit!, four.fit!), current.model)) current = four;
   const five = screened('5P');
   if (five) {
-    const test = current.model === '4P' ? regularTest(context, current.fit!, five.fit!) : secondBranchTest(context, current.fit!, five.fit!);
+    const test =
+      current.model === '4P' ? regularTest(context, current.fit!, five.fit!) : secondBranchTest(context, current.fit!, five.fit!);
     if (record(five, test, current.model)) current = five;
   }
   return current;
@@ -227,7 +252,18 @@ interface ScreeningRules {
 function screen(result: ShapeFitResult, rules: ScreeningRules, limits: Guideline14Limits): Candidate {
   const { alpha, minPoints } = rules;
   if (!result.ok) {
-    return { model: result.model, verdict: 'not-fitted', accepted: false, reasons: [`could not be fitted: ${result.reason}`], n: result.n, p: result.p, fit: null, aicc: null, overFitted: false, guideline14: null };
+    return {
+      model: result.model,
+      verdict: 'not-fitted',
+      accepted: false,
+      reasons: [`could not be fitted: ${result.reason}`],
+      n: result.n,
+      p: result.p,
+      fit: null,
+      aicc: null,
+      overFitted: false,
+      guideline14: null,
+    };
   }
   const fit = result;
   const reasons: string[] = [];
@@ -255,7 +291,9 @@ function screen(result: ShapeFitResult, rules: ScreeningRules, limits: Guideline
     const below = fit.parameters.slopeBelow!;
     const above = fit.parameters.slopeAbove!;
     if (!(below < above)) {
-      reasons.push(`bends the wrong way: slope below the changepoint (${formatNumber(below)}) is not lower than above it (${formatNumber(above)})`);
+      reasons.push(
+        `bends the wrong way: slope below the changepoint (${formatNumber(below)}) is not lower than above it (${formatNumber(above)})`,
+      );
     } else if (!rules.allowSameSignFourPoint && !(below < 0 && above > 0)) {
       reasons.push(
         `both slopes are ${above <= 0 ? 'heating' : 'cooling'} slopes (${formatNumber(below)} and ${formatNumber(above)}): one branch with a rounded knee, as bill averaging makes it, is left to ${above <= 0 ? '3PH' : '3PC'}`,
@@ -272,8 +310,13 @@ function screen(result: ShapeFitResult, rules: ScreeningRules, limits: Guideline
     if (!words) continue;
     const t = Math.abs(coefficient(c.name).tStatAdjusted ?? coefficient(c.name).tStat);
     if (!(t >= tCritical)) {
-      const adjusted = t !== Math.abs(c.tStat) ? `; t adjusted for residual autocorrelation ρ = ${(fit.inflationAutocorrelation ?? 0).toFixed(2)} from ${Math.abs(c.tStat).toFixed(2)}` : '';
-      reasons.push(`${words} not significant: |t| = ${t.toFixed(2)} < ${tCritical.toFixed(2)} (two-sided, α = ${alpha}, ${dof} degrees of freedom${adjusted})`);
+      const adjusted =
+        t !== Math.abs(c.tStat)
+          ? `; t adjusted for residual autocorrelation ρ = ${(fit.inflationAutocorrelation ?? 0).toFixed(2)} from ${Math.abs(c.tStat).toFixed(2)}`
+          : '';
+      reasons.push(
+        `${words} not significant: |t| = ${t.toFixed(2)} < ${tCritical.toFixed(2)} (two-sided, α = ${alpha}, ${dof} degrees of freedom${adjusted})`,
+      );
     }
   }
 
@@ -350,4 +393,3 @@ function formatNumber(value: number): string {
 function formatP(p: number): string {
   return p < 1e-4 ? '< 0.0001' : `= ${p.toFixed(4)}`;
 }
-

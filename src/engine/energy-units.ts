@@ -86,7 +86,9 @@ export function energyFactor(unit: string): { unit: string; btu: number; mmbtu: 
 function sizeOf(unit: string): { unit: string; base: 'J' | 'Btu'; size: number } {
   const canonical = canonicalEnergyUnit(unit);
   if (canonical === undefined) {
-    throw new RangeError(`no standard energy factor for the unit ${JSON.stringify(unit)} (known: ${Object.keys(UNIT_SIZES).join(', ')}; volumes need a heating value)`);
+    throw new RangeError(
+      `no standard energy factor for the unit ${JSON.stringify(unit)} (known: ${Object.keys(UNIT_SIZES).join(', ')}; volumes need a heating value)`,
+    );
   }
   return { unit: canonical, ...UNIT_SIZES[canonical]! };
 }

@@ -18,7 +18,8 @@ export interface Guideline14Limits {
   source: string;
 }
 
-export const GUIDELINE14_SOURCE = 'ASHRAE Guideline 14 whole-facility regression limits (from memory of the 2002/2014 editions; verify against the edition in the M&V plan)';
+export const GUIDELINE14_SOURCE =
+  'ASHRAE Guideline 14 whole-facility regression limits (from memory of the 2002/2014 editions; verify against the edition in the M&V plan)';
 
 /** Defaults: the strictest CV(RMSE) limit (under 12 reporting months) and the 0.005% bias limit. */
 export const DEFAULT_GUIDELINE14_LIMITS: Guideline14Limits = {
@@ -52,7 +53,10 @@ export interface Guideline14Check {
 export const IN_SAMPLE_NMBE_NOTE =
   'in-sample NMBE of a least-squares fit with an intercept is zero by construction, so that check cannot fail; the out-of-sample NMBE beside it can';
 
-export function guideline14Check(stats: Pick<FitStatistics, 'cvrmse' | 'nmbe' | 'outOfSample'>, limits: Guideline14Limits): Guideline14Check {
+export function guideline14Check(
+  stats: Pick<FitStatistics, 'cvrmse' | 'nmbe' | 'outOfSample'>,
+  limits: Guideline14Limits,
+): Guideline14Check {
   const cvPass = stats.cvrmse <= limits.cvrmse;
   const nmbePass = Math.abs(stats.nmbe) <= limits.nmbe;
   const outOfSample = stats.outOfSample;

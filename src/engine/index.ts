@@ -19,7 +19,14 @@ export * from './types.js';
 export { alignPeriods, indexWeather, DEFAULT_MIN_COVERAGE, type AlignmentOptions } from './periods.js';
 export { checkReadings, checkWeather, type InputProblem } from './validate.js';
 export * from './bounds.js';
-export { chooseBaseline, nestedFTest, resolveTemperatureForm, OVERFIT_RATIO, DEFAULT_SIGNIFICANCE_LEVEL, DEFAULT_MIN_POINTS_PER_SEGMENT } from './choose.js';
+export {
+  chooseBaseline,
+  nestedFTest,
+  resolveTemperatureForm,
+  OVERFIT_RATIO,
+  DEFAULT_SIGNIFICANCE_LEVEL,
+  DEFAULT_MIN_POINTS_PER_SEGMENT,
+} from './choose.js';
 export type { BaselineChoice, Candidate, SelectionOptions, Verdict } from './choose.js';
 export { fitShape, fitTemperatureForm, periodsHaveDays } from './fit/fit-shape.js';
 export type { ShapeFit, ShapeFitResult, ShapeFitFailure, Coefficient, ChangepointEstimate, FitStatistics } from './fit/fit-shape.js';
@@ -68,7 +75,12 @@ export function analyseBaseline(
 ): BaselineAnalysis {
   const { periods, excluded } = alignPeriods(readings, weather, options);
   const choice = chooseBaseline(periods, options);
-  return { periods, excluded, choice, document: fitDocument(choice, periods.length, excluded, options.minCoverage ?? DEFAULT_MIN_COVERAGE) };
+  return {
+    periods,
+    excluded,
+    choice,
+    document: fitDocument(choice, periods.length, excluded, options.minCoverage ?? DEFAULT_MIN_COVERAGE),
+  };
 }
 
 export interface ReportingOptions extends SavingsOptions, AlignmentOptions {
@@ -91,7 +103,13 @@ export function analyseSavings(
   const model = options.model ?? baseline.choice.selected;
   const candidate = baseline.choice.candidates.find((c) => c.model === model);
   if (!candidate?.fit) throw new RangeError(`the ${model} shape could not be fitted to this baseline`);
-  return savingsFromFit(candidate.fit, { limits: baseline.choice.settings.guideline14, excluded: baseline.excluded }, reportingReadings, weather, options);
+  return savingsFromFit(
+    candidate.fit,
+    { limits: baseline.choice.settings.guideline14, excluded: baseline.excluded },
+    reportingReadings,
+    weather,
+    options,
+  );
 }
 
 export interface StoredBaselineContext {
@@ -131,7 +149,12 @@ export function savingsFromAligned(
   const limits = { ...baseline.limits, cvrmse: options.cvrmseLimit ?? cvrmseLimitForReportingMonths(reportingMonths) };
   return {
     ...result,
-    baseline: { selected: fit.model, temperatureForm: result.temperatureForm, reportingMonths, guideline14: guideline14Check(fit.stats, limits) },
+    baseline: {
+      selected: fit.model,
+      temperatureForm: result.temperatureForm,
+      reportingMonths,
+      guideline14: guideline14Check(fit.stats, limits),
+    },
     excluded: { baseline: [...baseline.excluded], reporting: excluded },
   };
 }

@@ -34,9 +34,17 @@ export function checkNormalYear(days: readonly { day: string; temp: number }[], 
   const seen = new Map<string, number>();
   days.forEach((entry, index) => {
     if (entry.day === '02-29') {
-      problems.push({ index, field: 'day', message: '02-29 is not a day of a normal year: a normal year has 365 days and 02-29 is left out' });
+      problems.push({
+        index,
+        field: 'day',
+        message: '02-29 is not a day of a normal year: a normal year has 365 days and 02-29 is left out',
+      });
     } else if (!DAY_INDEX.has(entry.day)) {
-      problems.push({ index, field: 'day', message: `not a day of a normal year: ${JSON.stringify(entry.day)} (expected MM-DD; a normal year has 365 days and 02-29 is left out)` });
+      problems.push({
+        index,
+        field: 'day',
+        message: `not a day of a normal year: ${JSON.stringify(entry.day)} (expected MM-DD; a normal year has 365 days and 02-29 is left out)`,
+      });
     } else if (seen.has(entry.day)) {
       problems.push({
         index,
@@ -49,7 +57,11 @@ export function checkNormalYear(days: readonly { day: string; temp: number }[], 
     }
     if (!Number.isFinite(entry.temp)) problems.push({ index, field: 'temp', message: 'not a finite number' });
     else if (!isPlausibleTemperature(entry.temp, unit)) {
-      problems.push({ index, field: 'temp', message: `${entry.temp} ${unitSymbol(unit)} is outside the plausible range ${plausibleRange(unit)}` });
+      problems.push({
+        index,
+        field: 'temp',
+        message: `${entry.temp} ${unitSymbol(unit)} is outside the plausible range ${plausibleRange(unit)}`,
+      });
     }
   });
   const missing = NORMAL_YEAR_DAYS.filter((day) => !seen.has(day));
@@ -72,7 +84,10 @@ export function normalYearUse(
   fit: Pick<ShapeFit, 'model' | 'changepoints' | 'rawCoefficients' | 'temperatureRange'>,
   temps: readonly number[],
 ): { use: number; outsideRangeDays: number } {
-  return normalPeriodsUse(fit, temps.map((meanTemp) => ({ days: 1, meanTemp })));
+  return normalPeriodsUse(
+    fit,
+    temps.map((meanTemp) => ({ days: 1, meanTemp })),
+  );
 }
 
 /** The plausible range of units.ts in the station's unit, to one decimal. */

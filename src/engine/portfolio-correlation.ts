@@ -79,7 +79,10 @@ function standardised(months: Map<string, number>): Map<string, number> | null {
 export function residualCorrelation(meters: readonly MeterResiduals[]): ResidualCorrelation {
   const series = meters.map((m) => ({ group: m.group, z: standardised(monthlyResiduals(m.periods)) })).filter((s) => s.z !== null);
   // For every month: Σz and Σz² over all meters present, and per group.
-  const byMonth = new Map<string, { sum: number; squares: number; count: number; groups: Map<string, { sum: number; squares: number; count: number }> }>();
+  const byMonth = new Map<
+    string,
+    { sum: number; squares: number; count: number; groups: Map<string, { sum: number; squares: number; count: number }> }
+  >();
   const metersPerGroup = new Map<string, number>();
   for (const { group, z } of series) {
     for (const [month, value] of z!) {

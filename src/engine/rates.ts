@@ -48,7 +48,11 @@ export function checkRateSchedule(entries: readonly RateEntry[]): InputProblem[]
     else if (entry.price < 0) problems.push({ index, field: 'price', message: `negative (${entry.price})` });
     if (!Number.isFinite(entry.escalation)) problems.push({ index, field: 'escalation', message: 'not a finite number' });
     else if (entry.escalation <= ESCALATION.min || entry.escalation > ESCALATION.max) {
-      problems.push({ index, field: 'escalation', message: `${entry.escalation} is outside the allowed range (${ESCALATION.min}, ${ESCALATION.max}] of yearly fractions (0.03 = 3% a year)` });
+      problems.push({
+        index,
+        field: 'escalation',
+        message: `${entry.escalation} is outside the allowed range (${ESCALATION.min}, ${ESCALATION.max}] of yearly fractions (0.03 = 3% a year)`,
+      });
     }
     if (entry.to === null && index < entries.length - 1) {
       problems.push({ index, field: 'to', message: 'an open-ended entry (to = null) must be the last in the schedule' });
@@ -59,7 +63,11 @@ export function checkRateSchedule(entries: readonly RateEntry[]): InputProblem[]
       return;
     }
     if (previousFrom !== undefined && from < previousFrom) {
-      problems.push({ index, field: 'from', message: `from ${entry.from} is before the previous entry's from ${formatDayNumber(previousFrom)}: entries must be in ascending order of from` });
+      problems.push({
+        index,
+        field: 'from',
+        message: `from ${entry.from} is before the previous entry's from ${formatDayNumber(previousFrom)}: entries must be in ascending order of from`,
+      });
       previousFrom = from;
       return;
     }
@@ -67,7 +75,12 @@ export function checkRateSchedule(entries: readonly RateEntry[]): InputProblem[]
     if (reach) {
       const earlier = entries[reach.index]!;
       if (from < reach.to) {
-        problems.push({ index, field: 'from', message: `overlaps entry ${reach.index} (${earlier.from}..${earlier.to ?? 'open-ended'})`, relatedIndex: reach.index });
+        problems.push({
+          index,
+          field: 'from',
+          message: `overlaps entry ${reach.index} (${earlier.from}..${earlier.to ?? 'open-ended'})`,
+          relatedIndex: reach.index,
+        });
       } else if (from > reach.to) {
         problems.push({
           index,

@@ -153,14 +153,26 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
   const rho = baseline.stats.autocorrelation;
   const correct = options.autocorrelationCorrection ?? true;
   const nPrime = correct ? effectiveSampleSize(n, rho) : n;
-  const rows = ordered.map((period) => ({ days: period.days, designRow: periodDesignRow(baseline.model, baseline.changepoints, period, form) }));
+  const rows = ordered.map((period) => ({
+    days: period.days,
+    designRow: periodDesignRow(baseline.model, baseline.changepoints, period, form),
+  }));
   const variance = exactSavingsVariance(baseline.unscaledCovariance, baseline.residualVariance, rows, n / nPrime);
 
   const uncertaintyAt = (level: number) => {
     const t = twoSidedTCritical(level, n - baseline.p);
-    const modelFractional = guideline14FractionalUncertainty({ t, cvrmse: baseline.stats.cvrmse, n, nPrime, m: periods.length, fractionSaved: modelFraction });
+    const modelFractional = guideline14FractionalUncertainty({
+      t,
+      cvrmse: baseline.stats.cvrmse,
+      n,
+      nPrime,
+      m: periods.length,
+      fractionSaved: modelFraction,
+    });
     // ΔS = t·1.26·CV·sqrt(…)·Σ model baseline: the fractional form at F = 1, scaled (no 0/0 when S = 0).
-    const g14Absolute = guideline14FractionalUncertainty({ t, cvrmse: baseline.stats.cvrmse, n, nPrime, m: periods.length, fractionSaved: 1 }) * Math.abs(modelBaseline);
+    const g14Absolute =
+      guideline14FractionalUncertainty({ t, cvrmse: baseline.stats.cvrmse, n, nPrime, m: periods.length, fractionSaved: 1 }) *
+      Math.abs(modelBaseline);
     const exactAbsolute = t * Math.sqrt(variance);
     return {
       t,
@@ -169,7 +181,8 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
     };
   };
   const chosen = uncertaintyAt(confidence);
-  const adjustmentsAbsolute = adjustments.length > 0 ? twoSidedNormalQuantile(confidence) * adjustmentsUncertaintyInPeriods(adjustments, ordered) : 0;
+  const adjustmentsAbsolute =
+    adjustments.length > 0 ? twoSidedNormalQuantile(confidence) * adjustmentsUncertaintyInPeriods(adjustments, ordered) : 0;
   const modelValues = [chosen.guideline14.absolute, chosen.exact.absolute].filter(Number.isFinite);
   const modelAbsolute = modelValues.length > 0 ? Math.max(...modelValues) : Number.NaN;
   const combinedAbsolute = combineInQuadrature([modelAbsolute, adjustmentsAbsolute]);

@@ -54,10 +54,14 @@ export function baselineSufficiency(periods: readonly Pick<Period, 'days'>[]): B
   const billed = (lengths[Math.floor(lengths.length / 2)] ?? 0) >= BILLED_MEDIAN_DAYS;
   const reasons: string[] = [];
   if (days < MIN_BASELINE_DAYS) {
-    reasons.push(`the baseline's usable periods cover ${days} days; a full cycle of seasons needs at least ${MIN_BASELINE_DAYS} (${BASELINE_SUFFICIENCY_SOURCE})`);
+    reasons.push(
+      `the baseline's usable periods cover ${days} days; a full cycle of seasons needs at least ${MIN_BASELINE_DAYS} (${BASELINE_SUFFICIENCY_SOURCE})`,
+    );
   }
   if (billed && periods.length < MIN_BASELINE_BILLS) {
-    reasons.push(`the baseline has ${periods.length} usable bills; at least ${MIN_BASELINE_BILLS} are needed (${BASELINE_SUFFICIENCY_SOURCE})`);
+    reasons.push(
+      `the baseline has ${periods.length} usable bills; at least ${MIN_BASELINE_BILLS} are needed (${BASELINE_SUFFICIENCY_SOURCE})`,
+    );
   }
   return {
     sufficient: reasons.length === 0,

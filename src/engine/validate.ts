@@ -28,7 +28,8 @@ export function checkReadings(readings: readonly Reading[]): InputProblem[] {
   readings.forEach((reading, index) => {
     const start = parseIsoDate(reading.start);
     const end = parseIsoDate(reading.end);
-    if (start === null) problems.push({ index, field: 'start', message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(reading.start)}` });
+    if (start === null)
+      problems.push({ index, field: 'start', message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(reading.start)}` });
     if (end === null) problems.push({ index, field: 'end', message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(reading.end)}` });
     if (!Number.isFinite(reading.quantity)) problems.push({ index, field: 'quantity', message: 'not a finite number' });
     else if (reading.quantity < 0) problems.push({ index, field: 'quantity', message: `negative (${reading.quantity})` });
@@ -49,9 +50,19 @@ export function checkReadings(readings: readonly Reading[]): InputProblem[] {
     if (reach) {
       const earlier = readings[reach.index]!;
       if (current.start === reach.start && current.end === reach.end) {
-        problems.push({ index: current.index, field: 'start', message: `duplicates the period ${earlier.start}..${earlier.end}`, relatedIndex: reach.index });
+        problems.push({
+          index: current.index,
+          field: 'start',
+          message: `duplicates the period ${earlier.start}..${earlier.end}`,
+          relatedIndex: reach.index,
+        });
       } else if (current.start < reach.end) {
-        problems.push({ index: current.index, field: 'start', message: `overlaps the period ${earlier.start}..${earlier.end}`, relatedIndex: reach.index });
+        problems.push({
+          index: current.index,
+          field: 'start',
+          message: `overlaps the period ${earlier.start}..${earlier.end}`,
+          relatedIndex: reach.index,
+        });
       }
     }
     if (!reach || current.end > reach.end) reach = current;

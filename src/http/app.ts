@@ -9,7 +9,13 @@ import swagger from '@fastify/swagger';
 import swaggerUi from '@fastify/swagger-ui';
 import helmet from '@fastify/helmet';
 import rateLimit from '@fastify/rate-limit';
-import { jsonSchemaTransform, jsonSchemaTransformObject, serializerCompiler, validatorCompiler, type ZodTypeProvider } from 'fastify-type-provider-zod';
+import {
+  jsonSchemaTransform,
+  jsonSchemaTransformObject,
+  serializerCompiler,
+  validatorCompiler,
+  type ZodTypeProvider,
+} from 'fastify-type-provider-zod';
 import type { Store } from '../store/connect.js';
 import { installProblemHandling, sendProblem } from './plugins/problems.js';
 import { installAuth } from './plugins/auth.js';
@@ -58,10 +64,20 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     frameworkErrors: (error, request, reply) => {
       reply.header('x-request-id', request.id);
       if (error.code === 'FST_ERR_MAX_PARAM_LENGTH') {
-        return sendProblem(request, reply, new Problem('validation', `a path parameter is longer than ${MAX_PARAM_LENGTH} characters`, [{ field: 'path', message: 'too long' }]));
+        return sendProblem(
+          request,
+          reply,
+          new Problem('validation', `a path parameter is longer than ${MAX_PARAM_LENGTH} characters`, [
+            { field: 'path', message: 'too long' },
+          ]),
+        );
       }
       if (error.code === 'FST_ERR_BAD_URL') {
-        return sendProblem(request, reply, new Problem('validation', 'the URL is not valid: check its percent-encoding', [{ field: 'path', message: 'not a valid URL' }]));
+        return sendProblem(
+          request,
+          reply,
+          new Problem('validation', 'the URL is not valid: check its percent-encoding', [{ field: 'path', message: 'not a valid URL' }]),
+        );
       }
       return sendProblem(request, reply, new Problem('internal', `unexpected error; quote request id ${request.id} when reporting it`));
     },
@@ -99,7 +115,10 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
       timeWindow: 60_000,
       keyGenerator: (request) => (request.principal ? `key:${request.principal.keyId}` : `ip:${request.ip}`),
       errorResponseBuilder: (_request, context) =>
-        new Problem('rate-limited', `more than ${context.max} requests a minute for this key (or, without a key, this address); retry after ${Math.ceil(context.ttl / 1000)} s`),
+        new Problem(
+          'rate-limited',
+          `more than ${context.max} requests a minute for this key (or, without a key, this address); retry after ${Math.ceil(context.ttl / 1000)} s`,
+        ),
     });
   }
   installCsvBodies(app);

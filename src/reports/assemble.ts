@@ -54,7 +54,9 @@ export function assembleReport(input: ReportInput): SavingsReport {
   const facilities = input.facilities.map((facility) => facilityReport(facility, rollup));
   const meters = facilities.flatMap((f) => f.meters);
   const inRollup = meters.filter((m) => m.common !== null);
-  const units = [...new Set([...meters.map((m) => canonicalEnergyUnit(m.unit)).filter((u): u is string => u !== undefined), ...COMMON_UNITS])].sort();
+  const units = [
+    ...new Set([...meters.map((m) => canonicalEnergyUnit(m.unit)).filter((u): u is string => u !== undefined), ...COMMON_UNITS]),
+  ].sort();
 
   const portfolio = {
     totals: sumCommonTotals(commonParts(meters), rollup),
@@ -71,7 +73,11 @@ export function assembleReport(input: ReportInput): SavingsReport {
     dataAsOf: input.dataAsOf,
     portfolio,
     facilities,
-    baselines: meters.flatMap((m) => (m.baseline && m.missing === null ? [{ meterId: m.id, baselineId: m.baseline.id, version: m.baseline.version, contentHash: m.baseline.contentHash }] : [])),
+    baselines: meters.flatMap((m) =>
+      m.baseline && m.missing === null
+        ? [{ meterId: m.id, baselineId: m.baseline.id, version: m.baseline.version, contentHash: m.baseline.contentHash }]
+        : [],
+    ),
     normalYears: input.normalYears,
     rollup: {
       withinStation: input.correlation.withinGroup,
@@ -110,13 +116,19 @@ function notices(facilities: readonly FacilityReport[]): string[] {
       for (const gap of meter.missingRates) {
         if (meter.cost !== null) out.push(`${where}: no contract rate for ${gap.start}..${gap.end}: those periods have no cost avoided`);
       }
-      if (meter.excluded.length > 0) out.push(`${where}: ${meter.excluded.length} reporting reading(s) left out for want of weather (listed in the meter's section)`);
+      if (meter.excluded.length > 0)
+        out.push(`${where}: ${meter.excluded.length} reporting reading(s) left out for want of weather (listed in the meter's section)`);
       if (meter.extrapolationShare > 0) {
-        out.push(`${where}: ${(meter.extrapolationShare * 100).toFixed(1)}% of the model baseline comes from periods outside the baseline's temperature range (extrapolation)`);
+        out.push(
+          `${where}: ${(meter.extrapolationShare * 100).toFixed(1)}% of the model baseline comes from periods outside the baseline's temperature range (extrapolation)`,
+        );
       }
     }
     for (const status of facility.guarantees) {
-      if (!status.complete) out.push(`${facility.name}: contract year ${status.contractYear} is not complete: measured through ${status.measuredThrough} against the whole year's guarantee`);
+      if (!status.complete)
+        out.push(
+          `${facility.name}: contract year ${status.contractYear} is not complete: measured through ${status.measuredThrough} against the whole year's guarantee`,
+        );
       for (const note of status.notes) out.push(`${facility.name}, contract year ${status.contractYear}: ${note}`);
     }
   }

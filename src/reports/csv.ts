@@ -85,20 +85,61 @@ export function renderReportCsv(report: SavingsReport): string {
     end: w.to,
     note: `${w.label}; confidence ${report.confidence}; content hash ${report.contentHash}; audit head ${report.dataAsOf.auditSeq} ${report.dataAsOf.auditHash}`,
   });
-  for (const unit of ['MMBtu', 'GJ'] as const) rows.push({ record: 'portfolio', ...totalRow(report.portfolio.totals[unit]), start: w.from, end: w.to });
-  for (const cost of report.portfolio.cost) rows.push({ record: 'portfolio', start: w.from, end: w.to, currency: cost.currency, cost_avoided: cost.avoided, cost_uncertainty: cost.uncertainty });
+  for (const unit of ['MMBtu', 'GJ'] as const)
+    rows.push({ record: 'portfolio', ...totalRow(report.portfolio.totals[unit]), start: w.from, end: w.to });
+  for (const cost of report.portfolio.cost)
+    rows.push({
+      record: 'portfolio',
+      start: w.from,
+      end: w.to,
+      currency: cost.currency,
+      cost_avoided: cost.avoided,
+      cost_uncertainty: cost.uncertainty,
+    });
 
   for (const facility of report.facilities) {
     const f = { facility_id: facility.id, facility: facility.name };
-    for (const unit of ['MMBtu', 'GJ'] as const) rows.push({ record: 'facility', ...f, ...totalRow(facility.totals[unit]), start: w.from, end: w.to });
-    for (const cost of facility.cost) rows.push({ record: 'facility', ...f, start: w.from, end: w.to, currency: cost.currency, cost_avoided: cost.avoided, cost_uncertainty: cost.uncertainty });
+    for (const unit of ['MMBtu', 'GJ'] as const)
+      rows.push({ record: 'facility', ...f, ...totalRow(facility.totals[unit]), start: w.from, end: w.to });
+    for (const cost of facility.cost)
+      rows.push({
+        record: 'facility',
+        ...f,
+        start: w.from,
+        end: w.to,
+        currency: cost.currency,
+        cost_avoided: cost.avoided,
+        cost_uncertainty: cost.uncertainty,
+      });
     for (const g of facility.guarantees) {
       const note = `contract year ${g.contractYear}${g.complete ? '' : ', not complete'}`;
       if (g.energy) {
-        rows.push({ record: 'guarantee', ...f, unit: g.energy.unit, start: g.yearStart, end: g.measuredThrough, savings: g.energy.measured, uncertainty: g.energy.uncertainty, guaranteed: g.energy.guaranteed, difference: g.energy.difference, note });
+        rows.push({
+          record: 'guarantee',
+          ...f,
+          unit: g.energy.unit,
+          start: g.yearStart,
+          end: g.measuredThrough,
+          savings: g.energy.measured,
+          uncertainty: g.energy.uncertainty,
+          guaranteed: g.energy.guaranteed,
+          difference: g.energy.difference,
+          note,
+        });
       }
       if (g.cost) {
-        rows.push({ record: 'guarantee', ...f, currency: g.cost.currency, start: g.yearStart, end: g.measuredThrough, cost_avoided: g.cost.measured, cost_uncertainty: g.cost.uncertainty, guaranteed: g.cost.guaranteed, difference: g.cost.difference, note });
+        rows.push({
+          record: 'guarantee',
+          ...f,
+          currency: g.cost.currency,
+          start: g.yearStart,
+          end: g.measuredThrough,
+          cost_avoided: g.cost.measured,
+          cost_uncertainty: g.cost.uncertainty,
+          guaranteed: g.cost.guaranteed,
+          difference: g.cost.difference,
+          note,
+        });
       }
     }
     for (const meter of facility.meters) rows.push(...meterRows(f, meter, w));
@@ -126,7 +167,17 @@ function meterRows(f: Row, meter: MeterReport, w: { from: string; to: string }):
   const m = { ...f, meter_id: meter.id, meter: meter.name };
   const form = meter.baseline?.temperatureForm ?? null;
   if (meter.missing !== null || meter.energy === null) {
-    return [{ record: 'meter', ...m, unit: meter.unit, start: w.from, end: w.to, note: `no figures: ${meter.missing}${notesText(meter)}`, temperature_form: form }];
+    return [
+      {
+        record: 'meter',
+        ...m,
+        unit: meter.unit,
+        start: w.from,
+        end: w.to,
+        note: `no figures: ${meter.missing}${notesText(meter)}`,
+        temperature_form: form,
+      },
+    ];
   }
   const rows: Row[] = [
     {
@@ -165,7 +216,15 @@ function meterRows(f: Row, meter: MeterReport, w: { from: string; to: string }):
   }
   for (const a of meter.adjustments) {
     const stated = a.uncertainty === null ? '' : ` (stated standard uncertainty of its total: ${csvNumber(a.uncertainty)} ${meter.unit})`;
-    rows.push({ record: 'adjustment', ...m, unit: meter.unit, start: a.start, end: a.end, adjustment: a.appliedInWindow, note: `${a.id}: ${a.reason}${stated}` });
+    rows.push({
+      record: 'adjustment',
+      ...m,
+      unit: meter.unit,
+      start: a.start,
+      end: a.end,
+      adjustment: a.appliedInWindow,
+      note: `${a.id}: ${a.reason}${stated}`,
+    });
   }
   return rows;
 }

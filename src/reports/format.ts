@@ -27,7 +27,14 @@ export function formatNumber(value: number | null | undefined, digits: number): 
 /** As formatNumber, with an explicit plus sign on positive values (differences). */
 export function formatSigned(value: number | null | undefined, digits: number): string {
   const text = formatNumber(value, digits);
-  return value !== null && value !== undefined && Number.isFinite(value) && text !== NO_VALUE && !text.startsWith(MINUS) && /[1-9]/.test(text) ? `+${text}` : text;
+  return value !== null &&
+    value !== undefined &&
+    Number.isFinite(value) &&
+    text !== NO_VALUE &&
+    !text.startsWith(MINUS) &&
+    /[1-9]/.test(text)
+    ? `+${text}`
+    : text;
 }
 
 /** A fraction as a percentage, e.g. 0.1234 → "12.3%". */

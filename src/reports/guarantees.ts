@@ -27,11 +27,13 @@ export function guaranteeStatus(contract: ContractSummary, figures: ContractYear
   const notes: string[] = [];
   const withFigures = figures.meters.filter((m) => m.missing === null);
   const leftOut = withFigures.filter((m) => m.common === null).map((m) => m.name);
-  if (guarantee?.energy != null && leftOut.length > 0) notes.push(`energy measured without ${leftOut.join(', ')} (no standard energy factor)`);
+  if (guarantee?.energy != null && leftOut.length > 0)
+    notes.push(`energy measured without ${leftOut.join(', ')} (no standard energy factor)`);
   const priced = withFigures.filter((m) => m.cost?.currency === contract.currency);
   if (guarantee?.cost != null && contract.currency !== null) {
     if (priced.length === 0) notes.push(`the cost guarantee cannot be measured: no meter has contract rates in ${contract.currency}`);
-    else if (priced.length < withFigures.length) notes.push(`cost measured from ${priced.length} of ${withFigures.length} meters (the others have no rates in ${contract.currency})`);
+    else if (priced.length < withFigures.length)
+      notes.push(`cost measured from ${priced.length} of ${withFigures.length} meters (the others have no rates in ${contract.currency})`);
     if (cost && cost.periodsWithoutRate > 0) notes.push(`${cost.periodsWithoutRate} period(s) without a contract rate count no cost`);
   }
 
@@ -64,13 +66,21 @@ export function guaranteeStatus(contract: ContractSummary, figures: ContractYear
     complete: figures.complete,
     energy,
     cost: costLine,
-    cumulative: cumulativeSavings(figures.meters.filter((m) => m.common !== null), figures.meters, contract),
+    cumulative: cumulativeSavings(
+      figures.meters.filter((m) => m.common !== null),
+      figures.meters,
+      contract,
+    ),
     notes,
   };
 }
 
 /** Running totals by period end, in the contract's energy unit and currency. */
-function cumulativeSavings(inRollup: readonly MeterReport[], all: readonly MeterReport[], contract: ContractSummary): GuaranteeStatus['cumulative'] {
+function cumulativeSavings(
+  inRollup: readonly MeterReport[],
+  all: readonly MeterReport[],
+  contract: ContractSummary,
+): GuaranteeStatus['cumulative'] {
   const steps = new Map<string, { energy: number; cost: number }>();
   const step = (end: string) => steps.get(end) ?? { energy: 0, cost: 0 };
   for (const meter of inRollup) {
@@ -97,4 +107,3 @@ function cumulativeSavings(inRollup: readonly MeterReport[], all: readonly Meter
     return { end, energy, cost: contract.currency === null ? null : cost };
   });
 }
-

@@ -59,12 +59,19 @@ export function baselineNotes(baseline: MeterReport['baseline'], extrapolation: 
   const { sufficiency, overrides } = baseline;
   const short = sufficiency.reasons.join('; ');
   if (overrides.shortBaseline !== null) {
-    notes.push(`frozen with a short-baseline override, reason: “${overrides.shortBaseline.reason}”${sufficiency.sufficient ? '' : ` (the baseline does not cover a full cycle of seasons: ${short})`}`);
+    notes.push(
+      `frozen with a short-baseline override, reason: “${overrides.shortBaseline.reason}”${sufficiency.sufficient ? '' : ` (the baseline does not cover a full cycle of seasons: ${short})`}`,
+    );
   } else if (!sufficiency.sufficient) {
     notes.push(`the baseline does not cover a full cycle of seasons (${short}); it was frozen before that was enforced`);
   }
   if (overrides.extrapolation !== null) {
-    const here = extrapolation === null ? '' : extrapolation.exceedsLimit ? `; used in this window: ${extrapolation.summary}` : `; not needed in this window (${(extrapolation.share * 100).toFixed(1)}% of the reporting days outside what the baseline saw)`;
+    const here =
+      extrapolation === null
+        ? ''
+        : extrapolation.exceedsLimit
+          ? `; used in this window: ${extrapolation.summary}`
+          : `; not needed in this window (${(extrapolation.share * 100).toFixed(1)}% of the reporting days outside what the baseline saw)`;
     notes.push(`frozen with an extrapolation override, reason: “${overrides.extrapolation.reason}”${here}`);
   }
   return notes;
@@ -74,7 +81,8 @@ export function meterReport(input: MeterReportInput): MeterReport {
   const { meter, savings, rates } = input;
   const missingRates: { start: string; end: string }[] = [];
   const periods: ReportPeriod[] = savings.periods.map((p) => {
-    const priced = rates.currency === null ? { rate: null, missing: [{ start: p.start, end: p.end }] } : periodRate(rates.entries, p.start, p.end);
+    const priced =
+      rates.currency === null ? { rate: null, missing: [{ start: p.start, end: p.end }] } : periodRate(rates.entries, p.start, p.end);
     missingRates.push(...priced.missing);
     return { ...p, rate: priced.rate, costAvoided: priced.rate === null ? null : p.savings * priced.rate };
   });
@@ -100,7 +108,10 @@ export function meterReport(input: MeterReportInput): MeterReport {
     excluded: savings.excluded.reporting.map((e) => ({ start: e.start, end: e.end, reason: e.reason })),
     energy,
     common,
-    commonNote: common === null ? `unit ${meter.unit} has no standard energy factor (known units: ${Object.keys(ENERGY_UNIT_JOULES).join(', ')}; others need a heating value, never assumed); this meter stays out of the ${COMMON_UNITS.join(' and ')} totals` : null,
+    commonNote:
+      common === null
+        ? `unit ${meter.unit} has no standard energy factor (known units: ${Object.keys(ENERGY_UNIT_JOULES).join(', ')}; others need a heating value, never assumed); this meter stays out of the ${COMMON_UNITS.join(' and ')} totals`
+        : null,
     cost: rates.currency === null ? null : meterCost(rates.currency, periods, uncertainty),
     missingRates: mergeRanges(missingRates),
     extrapolationShare: t.outsideRangeShare,

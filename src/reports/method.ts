@@ -1,5 +1,11 @@
 /** The words every savings report carries: its method, sources and caution. */
-import { DEFAULT_EXTRAPOLATION_LIMIT, ENERGY_FACTOR_SOURCE, MIN_BASELINE_BILLS, MIN_BASELINE_DAYS, MIN_NORMALISED_REPORTING_DAYS } from '../engine/index.js';
+import {
+  DEFAULT_EXTRAPOLATION_LIMIT,
+  ENERGY_FACTOR_SOURCE,
+  MIN_BASELINE_BILLS,
+  MIN_BASELINE_DAYS,
+  MIN_NORMALISED_REPORTING_DAYS,
+} from '../engine/index.js';
 import type { SavingsReport } from './savings-report.js';
 
 export const REPORT_CAUTION =

@@ -26,7 +26,13 @@ function meterFigures(meter: MeterReport): Record<string, unknown> {
     energy: meter.energy,
     common: meter.common,
     cost: meter.cost,
-    periods: meter.periods.map((p) => ({ actual: p.actual, adjustedBaseline: p.adjustedBaseline, savings: p.savings, rate: p.rate, costAvoided: p.costAvoided })),
+    periods: meter.periods.map((p) => ({
+      actual: p.actual,
+      adjustedBaseline: p.adjustedBaseline,
+      savings: p.savings,
+      rate: p.rate,
+      costAvoided: p.costAvoided,
+    })),
     adjustments: meter.adjustments.map((a) => ({ appliedInWindow: a.appliedInWindow })),
   };
 }
@@ -35,11 +41,16 @@ function notice(where: string, paths: readonly string[]): string[] {
   if (paths.length === 0) return [];
   const listed = paths.slice(0, LISTED).join(', ');
   const more = paths.length > LISTED ? ` and ${paths.length - LISTED} more` : '';
-  return [`${where}: not available, as no finite number results (too large to compute, or undefined for these data; check the inputs the figure rests on, such as a rate escalating over many years): ${listed}${more}`];
+  return [
+    `${where}: not available, as no finite number results (too large to compute, or undefined for these data; check the inputs the figure rests on, such as a rate escalating over many years): ${listed}${more}`,
+  ];
 }
 
 /** One notice per meter, facility and the portfolio that has figures it cannot state. */
-export function notAvailableNotices(facilities: readonly FacilityReport[], portfolio: Pick<SavingsReport['portfolio'], 'totals' | 'cost'>): string[] {
+export function notAvailableNotices(
+  facilities: readonly FacilityReport[],
+  portfolio: Pick<SavingsReport['portfolio'], 'totals' | 'cost'>,
+): string[] {
   const out: string[] = [];
   for (const facility of facilities) {
     for (const meter of facility.meters) out.push(...notice(`${facility.name}, ${meter.name}`, nonFinitePaths(meterFigures(meter))));

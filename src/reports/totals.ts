@@ -60,7 +60,10 @@ export function sumTotals(unit: string, parts: readonly StationTotal<EnergyTotal
   });
 }
 
-export function sumCommonTotals(parts: readonly StationTotal<Record<CommonEnergyUnit, EnergyTotal>>[], rollup: Rollup = IN_QUADRATURE): Record<CommonEnergyUnit, EnergyTotal> {
+export function sumCommonTotals(
+  parts: readonly StationTotal<Record<CommonEnergyUnit, EnergyTotal>>[],
+  rollup: Rollup = IN_QUADRATURE,
+): Record<CommonEnergyUnit, EnergyTotal> {
   const inUnit = (unit: CommonEnergyUnit) => parts.map((p) => ({ total: p.total[unit], station: p.station }));
   return { MMBtu: sumTotals('MMBtu', inUnit('MMBtu'), rollup), GJ: sumTotals('GJ', inUnit('GJ'), rollup) };
 }

@@ -60,11 +60,20 @@ export function toAdjustment(row: AdjustmentRow): Adjustment {
 }
 
 export function toEngineAdjustment(row: AdjustmentRow): NonRoutineAdjustment {
-  return { id: row.id, start: row.period_start, end: row.period_end, quantity: row.quantity, perDay: row.per_day, reason: row.reason, uncertainty: row.uncertainty };
+  return {
+    id: row.id,
+    start: row.period_start,
+    end: row.period_end,
+    quantity: row.quantity,
+    perDay: row.per_day,
+    reason: row.reason,
+    uncertainty: row.uncertainty,
+  };
 }
 
 export async function createAdjustment(ctx: ServiceContext, meterId: string, input: AdjustmentInput): Promise<Adjustment> {
-  if (!(input.end > input.start)) throw new Problem('validation', 'end: must be after start', [{ field: 'end', message: 'must be after start' }]);
+  if (!(input.end > input.start))
+    throw new Problem('validation', 'end: must be after start', [{ field: 'end', message: 'must be after start' }]);
   if ((input.quantity === undefined) === (input.perDay === undefined)) {
     throw new Problem('validation', 'quantity: give either quantity (a total over the days) or perDay, not both and not neither', [
       { field: 'quantity', message: 'give quantity or perDay' },
@@ -73,16 +82,31 @@ export async function createAdjustment(ctx: ServiceContext, meterId: string, inp
   const organisationId = ctx.principal.organisationId;
   return inTransaction(ctx, async (trx) => {
     const meter = await getMeterRow(trx, organisationId, meterId);
-    const baseline = await trx.selectFrom('baselines').select(['id', 'period_end']).where('meter_id', '=', meter.id).where('status', '=', 'frozen').executeTakeFirst();
+    const baseline = await trx
+      .selectFrom('baselines')
+      .select(['id', 'period_end'])
+      .where('meter_id', '=', meter.id)
+      .where('status', '=', 'frozen')
+      .executeTakeFirst();
     if (!baseline) {
-      throw new Problem('unprocessable', `meter ${meterId} has no frozen baseline: non-routine adjustments apply to reporting periods, after a baseline is frozen`);
+      throw new Problem(
+        'unprocessable',
+        `meter ${meterId} has no frozen baseline: non-routine adjustments apply to reporting periods, after a baseline is frozen`,
+      );
     }
     if (input.start < baseline.period_end) {
-      throw new Problem('unprocessable', `start: ${input.start} lies inside the frozen baseline's window (it ends ${baseline.period_end}); adjustments apply to reporting days only`, [
-        { field: 'start', message: `must be on or after ${baseline.period_end}` },
-      ]);
+      throw new Problem(
+        'unprocessable',
+        `start: ${input.start} lies inside the frozen baseline's window (it ends ${baseline.period_end}); adjustments apply to reporting days only`,
+        [{ field: 'start', message: `must be on or after ${baseline.period_end}` }],
+      );
     }
-    const existing = await trx.selectFrom('adjustments').selectAll().where('meter_id', '=', meter.id).where('withdrawn_at', 'is', null).execute();
+    const existing = await trx
+      .selectFrom('adjustments')
+      .selectAll()
+      .where('meter_id', '=', meter.id)
+      .where('withdrawn_at', 'is', null)
+      .execute();
     const clash = findOverlappingAdjustment(
       existing.map((row) => ({ start: row.period_start, end: row.period_end, id: row.id })),
       input,
@@ -112,7 +136,12 @@ export async function createAdjustment(ctx: ServiceContext, meterId: string, inp
     };
     await trx.insertInto('adjustments').values(row).execute();
     const adjustment = toAdjustment(row);
-    await audit(trx, ctx, { action: 'create', entityType: 'adjustment', entityId: row.id, after: { ...adjustment, days: daysBetween(row.period_start, row.period_end) } });
+    await audit(trx, ctx, {
+      action: 'create',
+      entityType: 'adjustment',
+      entityId: row.id,
+      after: { ...adjustment, days: daysBetween(row.period_start, row.period_end) },
+    });
     return adjustment;
   });
 }
@@ -120,7 +149,12 @@ export async function createAdjustment(ctx: ServiceContext, meterId: string, inp
 /** Withdraw an adjustment recorded in error: it stops counting in savings and reports; the row and the audit trail keep it. */
 export async function withdrawAdjustment(ctx: ServiceContext, id: string, input: { reason: string }): Promise<Adjustment> {
   return inTransaction(ctx, async (trx) => {
-    const row = await trx.selectFrom('adjustments').selectAll().where('id', '=', id).where('organisation_id', '=', ctx.principal.organisationId).executeTakeFirst();
+    const row = await trx
+      .selectFrom('adjustments')
+      .selectAll()
+      .where('id', '=', id)
+      .where('organisation_id', '=', ctx.principal.organisationId)
+      .executeTakeFirst();
     if (!row) throw notFound('adjustment', id);
     if (row.withdrawn_at !== null) throw new Problem('conflict', `adjustment ${id} was already withdrawn on ${row.withdrawn_at}`);
     const update = { withdrawn_at: ctx.now, withdrawn_by: ctx.principal.keyId, withdraw_reason: input.reason };
@@ -131,7 +165,11 @@ export async function withdrawAdjustment(ctx: ServiceContext, id: string, input:
   });
 }
 
-export async function listAdjustments(db: Executor, organisationId: string, meterId: string): Promise<{ meterId: string; unit: string; adjustments: Adjustment[] }> {
+export async function listAdjustments(
+  db: Executor,
+  organisationId: string,
+  meterId: string,
+): Promise<{ meterId: string; unit: string; adjustments: Adjustment[] }> {
   const meter = await getMeterRow(db, organisationId, meterId);
   const rows = await db.selectFrom('adjustments').selectAll().where('meter_id', '=', meter.id).orderBy('period_start').execute();
   return { meterId: meter.id, unit: meter.unit, adjustments: rows.map(toAdjustment) };

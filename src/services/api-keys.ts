@@ -16,7 +16,12 @@ export type ApiKeyView = ReturnType<typeof publicKey>;
 
 export async function createApiKey(ctx: ServiceContext, input: { name: string; role: Role }): Promise<{ key: ApiKeyView; token: string }> {
   return inTransaction(ctx, async (trx) => {
-    const { row, token } = await insertApiKey(trx, { organisationId: ctx.principal.organisationId, name: input.name, role: input.role, at: ctx.now });
+    const { row, token } = await insertApiKey(trx, {
+      organisationId: ctx.principal.organisationId,
+      name: input.name,
+      role: input.role,
+      at: ctx.now,
+    });
     const key = publicKey(row);
     await audit(trx, ctx, { action: 'create', entityType: 'api-key', entityId: row.id, after: key });
     return { key, token };
@@ -24,7 +29,13 @@ export async function createApiKey(ctx: ServiceContext, input: { name: string; r
 }
 
 export async function listApiKeys(db: Executor, organisationId: string): Promise<ApiKeyView[]> {
-  const rows = await db.selectFrom('api_keys').selectAll().where('organisation_id', '=', organisationId).orderBy('created_at').orderBy('id').execute();
+  const rows = await db
+    .selectFrom('api_keys')
+    .selectAll()
+    .where('organisation_id', '=', organisationId)
+    .orderBy('created_at')
+    .orderBy('id')
+    .execute();
   return rows.map(publicKey);
 }
 
@@ -35,7 +46,12 @@ export async function listApiKeys(db: Executor, organisationId: string): Promise
  */
 export async function revokeApiKey(ctx: ServiceContext, id: string): Promise<ApiKeyView> {
   return inTransaction(ctx, async (trx) => {
-    const row = await trx.selectFrom('api_keys').selectAll().where('id', '=', id).where('organisation_id', '=', ctx.principal.organisationId).executeTakeFirst();
+    const row = await trx
+      .selectFrom('api_keys')
+      .selectAll()
+      .where('id', '=', id)
+      .where('organisation_id', '=', ctx.principal.organisationId)
+      .executeTakeFirst();
     if (!row) throw notFound('API key', id);
     if (row.id === ctx.principal.keyId) {
       throw new Problem('conflict', `API key ${id} is the key making this request; revoke it with another admin key`, [
@@ -83,16 +99,33 @@ export async function revokeKeyAsOperator(db: Kysely<Database>, id: string, at: 
     .transaction()
     .setAccessMode('read write')
     .execute(async (trx) => {
-    const found = await trx.selectFrom('api_keys').select('organisation_id').where('id', '=', id).executeTakeFirst();
-    if (!found) return { outcome: 'not-found' };
-    await lockOrganisation(trx, found.organisation_id);
-    // Read again under the lock: another instance may have revoked it meanwhile.
-    const row = await trx.selectFrom('api_keys').selectAll().where('id', '=', id).executeTakeFirstOrThrow();
-    const organisation = await trx.selectFrom('organisations').select('name').where('id', '=', row.organisation_id).executeTakeFirstOrThrow();
-    const withOrganisation = (key: ApiKeyView): OperatorKeyView => ({ ...key, organisationId: row.organisation_id, organisationName: organisation.name });
-    if (row.revoked_at !== null) return { outcome: 'already-revoked', key: withOrganisation(publicKey(row)) };
-    const revoked = await markRevoked(trx, row, at);
-    await appendAudit(trx, { organisationId: row.organisation_id, actor: 'system', at, action: 'revoke', entityType: 'api-key', entityId: row.id, before: publicKey(row), after: revoked });
-    return { outcome: 'revoked', key: withOrganisation(revoked) };
-  });
+      const found = await trx.selectFrom('api_keys').select('organisation_id').where('id', '=', id).executeTakeFirst();
+      if (!found) return { outcome: 'not-found' };
+      await lockOrganisation(trx, found.organisation_id);
+      // Read again under the lock: another instance may have revoked it meanwhile.
+      const row = await trx.selectFrom('api_keys').selectAll().where('id', '=', id).executeTakeFirstOrThrow();
+      const organisation = await trx
+        .selectFrom('organisations')
+        .select('name')
+        .where('id', '=', row.organisation_id)
+        .executeTakeFirstOrThrow();
+      const withOrganisation = (key: ApiKeyView): OperatorKeyView => ({
+        ...key,
+        organisationId: row.organisation_id,
+        organisationName: organisation.name,
+      });
+      if (row.revoked_at !== null) return { outcome: 'already-revoked', key: withOrganisation(publicKey(row)) };
+      const revoked = await markRevoked(trx, row, at);
+      await appendAudit(trx, {
+        organisationId: row.organisation_id,
+        actor: 'system',
+        at,
+        action: 'revoke',
+        entityType: 'api-key',
+        entityId: row.id,
+        before: publicKey(row),
+        after: revoked,
+      });
+      return { outcome: 'revoked', key: withOrganisation(revoked) };
+    });
 }

@@ -95,7 +95,12 @@ export interface Baseline extends BaselineSummary {
 function choiceWarnings(row: BaselineRow, document: FitDocument, sufficiency: BaselineSufficiency | null): string[] {
   const warnings: string[] = [];
   if (sufficiency && !sufficiency.sufficient) {
-    const how = row.status === 'draft' ? 'it is too short to freeze without overrides.shortBaseline.reason' : row.short_baseline_override !== null ? 'it was frozen with a short-baseline override' : 'it was frozen before the rule was enforced';
+    const how =
+      row.status === 'draft'
+        ? 'it is too short to freeze without overrides.shortBaseline.reason'
+        : row.short_baseline_override !== null
+          ? 'it was frozen with a short-baseline override'
+          : 'it was frozen before the rule was enforced';
     warnings.push(`the baseline does not cover a full cycle of seasons (${sufficiency.reasons.join('; ')}): ${how}`);
   }
   if (row.chosen_model !== row.selected_model) {
@@ -160,7 +165,11 @@ function summaryOf(row: BaselineRow, document: FitDocument): BaselineSummary {
 function fitDocumentOf(row: BaselineRow): FitDocument {
   const document = forResponse<FitDocument>(row.document_json);
   const form = document.temperatureForm ?? 'mean';
-  return { ...document, temperatureForm: form, settings: { ...document.settings, temperatureForm: document.settings.temperatureForm ?? form } };
+  return {
+    ...document,
+    temperatureForm: form,
+    settings: { ...document.settings, temperatureForm: document.settings.temperatureForm ?? form },
+  };
 }
 
 function viewOf(row: BaselineRow): Baseline {
@@ -177,7 +186,12 @@ export function toBaselineSummary(row: BaselineRow): BaselineSummary {
 
 /** The organisation's baseline, or a 404 (another organisation's id included). */
 export async function getBaselineRow(db: Executor, organisationId: string, id: string): Promise<BaselineRow> {
-  const row = await db.selectFrom('baselines').selectAll().where('id', '=', id).where('organisation_id', '=', organisationId).executeTakeFirst();
+  const row = await db
+    .selectFrom('baselines')
+    .selectAll()
+    .where('id', '=', id)
+    .where('organisation_id', '=', organisationId)
+    .executeTakeFirst();
   if (!row) throw notFound('baseline', id);
   return row;
 }
@@ -211,14 +225,20 @@ function analyseWindow(
 ): BaselineAnalysis {
   const span = `${window.start}..${window.end} (end exclusive)`;
   if (readings.length === 0) {
-    throw new Problem('unprocessable', `start: no reading of meter ${meterId} lies fully inside ${span}; post the baseline readings first`, [
-      { field: 'start', message: `no readings inside ${span}` },
-    ]);
+    throw new Problem(
+      'unprocessable',
+      `start: no reading of meter ${meterId} lies fully inside ${span}; post the baseline readings first`,
+      [{ field: 'start', message: `no readings inside ${span}` }],
+    );
   }
   const problems = checkReadings(readings);
   if (problems.length > 0) {
     const errors = problems.map((p) => ({ field: describeReading(readings[p.index]!), message: `${p.field}: ${p.message}` }));
-    throw new Problem('unprocessable', `${errors[0]!.field}: ${errors[0]!.message}; the stored readings in ${span} must be fixed before a fit`, errors);
+    throw new Problem(
+      'unprocessable',
+      `${errors[0]!.field}: ${errors[0]!.message}; the stored readings in ${span} must be fixed before a fit`,
+      errors,
+    );
   }
   const { temperature, ...rest } = options;
   try {
@@ -226,7 +246,10 @@ function analyseWindow(
   } catch (error) {
     if (!(error instanceof RangeError)) throw error;
     const { excluded } = alignPeriods(readings, weather, options);
-    const left = excluded.length > 0 ? `; ${excluded.length} of ${readings.length} readings in ${span} were left out: ${excluded.map((p) => `${describeReading(p)}: ${p.reason}`).join('; ')}` : '';
+    const left =
+      excluded.length > 0
+        ? `; ${excluded.length} of ${readings.length} readings in ${span} were left out: ${excluded.map((p) => `${describeReading(p)}: ${p.reason}`).join('; ')}`
+        : '';
     throw new Problem(
       'unprocessable',
       `${error.message}${left}`,
@@ -319,13 +342,26 @@ export async function chooseModel(ctx: ServiceContext, baselineId: string, input
     if (!candidate || candidate.verdict === 'not-fitted' || !fits[input.model]) {
       const fitted = document.candidates.filter((c) => c.verdict !== 'not-fitted').map((c) => c.model);
       const why = candidate ? ` (${candidate.reasons.join('; ')})` : '';
-      throw new Problem('unprocessable', `model: the ${input.model} shape was not fitted to baseline ${row.id}${why}; fitted shapes: ${fitted.join(', ')}`, [
-        { field: 'model', message: `${input.model} was not fitted` },
-      ]);
+      throw new Problem(
+        'unprocessable',
+        `model: the ${input.model} shape was not fitted to baseline ${row.id}${why}; fitted shapes: ${fitted.join(', ')}`,
+        [{ field: 'model', message: `${input.model} was not fitted` }],
+      );
     }
     const updated: BaselineRow = { ...row, chosen_model: input.model, choice_reason: input.reason };
-    await trx.updateTable('baselines').set({ chosen_model: updated.chosen_model, choice_reason: updated.choice_reason }).where('id', '=', row.id).where('status', '=', 'draft').execute();
-    await audit(trx, ctx, { action: 'choose', entityType: 'baseline', entityId: row.id, before: toBaselineSummary(row), after: toBaselineSummary(updated) });
+    await trx
+      .updateTable('baselines')
+      .set({ chosen_model: updated.chosen_model, choice_reason: updated.choice_reason })
+      .where('id', '=', row.id)
+      .where('status', '=', 'draft')
+      .execute();
+    await audit(trx, ctx, {
+      action: 'choose',
+      entityType: 'baseline',
+      entityId: row.id,
+      before: toBaselineSummary(row),
+      after: toBaselineSummary(updated),
+    });
     return viewOf(updated);
   });
 }
@@ -345,14 +381,21 @@ function checkSufficiency(row: BaselineRow, input: FreezeInput): void {
     throw new Problem(
       'unprocessable',
       `baseline ${row.id} is too short to freeze: ${sufficiency.reasons.join('; ')}. Fit a window that covers a full cycle of seasons, or freeze with overrides.shortBaseline.reason saying why this baseline may be projected from (the reason is kept with the baseline and shown on every document that uses it)`,
-      [{ field: 'overrides.shortBaseline.reason', message: `required to freeze a baseline shorter than a full cycle of seasons (${sufficiency.periods} periods, ${sufficiency.days} days)` }],
+      [
+        {
+          field: 'overrides.shortBaseline.reason',
+          message: `required to freeze a baseline shorter than a full cycle of seasons (${sufficiency.periods} periods, ${sufficiency.days} days)`,
+        },
+      ],
       { sufficiency },
     );
   }
   if (sufficiency.sufficient && override !== undefined) {
-    throw new Problem('validation', `overrides.shortBaseline: baseline ${row.id} covers a full cycle of seasons (${sufficiency.periods} periods, ${sufficiency.days} days); there is nothing to override: leave it out`, [
-      { field: 'overrides.shortBaseline', message: 'nothing to override' },
-    ]);
+    throw new Problem(
+      'validation',
+      `overrides.shortBaseline: baseline ${row.id} covers a full cycle of seasons (${sufficiency.periods} periods, ${sufficiency.days} days); there is nothing to override: leave it out`,
+      [{ field: 'overrides.shortBaseline', message: 'nothing to override' }],
+    );
   }
 }
 
@@ -367,7 +410,12 @@ export async function freezeBaseline(ctx: ServiceContext, baselineId: string, in
   return inTransaction(ctx, async (trx) => {
     const row = await getBaselineRow(trx, ctx.principal.organisationId, baselineId);
     assertDraft(row);
-    const current = await trx.selectFrom('baselines').selectAll().where('meter_id', '=', row.meter_id).where('status', '=', 'frozen').executeTakeFirst();
+    const current = await trx
+      .selectFrom('baselines')
+      .selectAll()
+      .where('meter_id', '=', row.meter_id)
+      .where('status', '=', 'frozen')
+      .executeTakeFirst();
     if (current && input.supersedeReason === undefined) {
       throw new Problem(
         'conflict',
@@ -397,7 +445,12 @@ export async function freezeBaseline(ctx: ServiceContext, baselineId: string, in
 
     if (current) {
       const superseded: BaselineRow = { ...current, status: 'superseded' };
-      await trx.updateTable('baselines').set({ status: 'superseded' }).where('id', '=', current.id).where('status', '=', 'frozen').execute();
+      await trx
+        .updateTable('baselines')
+        .set({ status: 'superseded' })
+        .where('id', '=', current.id)
+        .where('status', '=', 'frozen')
+        .execute();
       await audit(trx, ctx, {
         action: 'supersede',
         entityType: 'baseline',
@@ -422,7 +475,13 @@ export async function freezeBaseline(ctx: ServiceContext, baselineId: string, in
       .where('id', '=', row.id)
       .where('status', '=', 'draft')
       .execute();
-    await audit(trx, ctx, { action: 'freeze', entityType: 'baseline', entityId: row.id, before: toBaselineSummary(row), after: toBaselineSummary(frozen) });
+    await audit(trx, ctx, {
+      action: 'freeze',
+      entityType: 'baseline',
+      entityId: row.id,
+      before: toBaselineSummary(row),
+      after: toBaselineSummary(frozen),
+    });
     return viewOf(frozen);
   });
 }

@@ -35,7 +35,15 @@ export interface Contract {
   updatedAt: string;
 }
 
-type ContractRow = { facility_id: string; contract_start: string; years: number; currency: string | null; energy_unit: string; guarantees_json: string; updated_at: string };
+type ContractRow = {
+  facility_id: string;
+  contract_start: string;
+  years: number;
+  currency: string | null;
+  energy_unit: string;
+  guarantees_json: string;
+  updated_at: string;
+};
 
 export function toContract(row: ContractRow): Contract {
   return {
@@ -52,17 +60,23 @@ export function toContract(row: ContractRow): Contract {
 function checkContract(input: ContractInput): { energyUnit: string; guarantees: Guarantee[] } {
   const errors: FieldError[] = [];
   const energyUnit = canonicalEnergyUnit(input.energyUnit);
-  if (!energyUnit) errors.push({ field: 'energyUnit', message: `${input.energyUnit} has no standard energy factor; use kWh, MWh, therm, MMBtu, GJ or another standard energy unit` });
+  if (!energyUnit)
+    errors.push({
+      field: 'energyUnit',
+      message: `${input.energyUnit} has no standard energy factor; use kWh, MWh, therm, MMBtu, GJ or another standard energy unit`,
+    });
   const seen = new Set<number>();
   const guarantees: Guarantee[] = [];
   input.guarantees.forEach((g, index) => {
-    if (g.year > input.years) errors.push({ field: `guarantees[${index}].year`, message: `contract year ${g.year} is beyond the contract's ${input.years} years` });
+    if (g.year > input.years)
+      errors.push({ field: `guarantees[${index}].year`, message: `contract year ${g.year} is beyond the contract's ${input.years} years` });
     if (seen.has(g.year)) errors.push({ field: `guarantees[${index}].year`, message: `contract year ${g.year} is guaranteed twice` });
     seen.add(g.year);
     const energy = g.energy ?? null;
     const cost = g.cost ?? null;
     if (energy === null && cost === null) errors.push({ field: `guarantees[${index}]`, message: 'give energy, cost or both' });
-    if (cost !== null && !input.currency) errors.push({ field: `guarantees[${index}].cost`, message: 'a cost guarantee needs the contract currency' });
+    if (cost !== null && !input.currency)
+      errors.push({ field: `guarantees[${index}].cost`, message: 'a cost guarantee needs the contract currency' });
     guarantees.push({ year: g.year, energy, cost });
   });
   if (errors.length > 0) {
@@ -91,7 +105,13 @@ export async function putContract(ctx: ServiceContext, facilityId: string, input
     if (old) await trx.updateTable('contracts').set(row).where('facility_id', '=', facility.id).execute();
     else await trx.insertInto('contracts').values(row).execute();
     const contract = toContract(row);
-    await audit(trx, ctx, { action: 'put-contract', entityType: 'facility', entityId: facility.id, before: old ? toContract(old) : null, after: contract });
+    await audit(trx, ctx, {
+      action: 'put-contract',
+      entityType: 'facility',
+      entityId: facility.id,
+      before: old ? toContract(old) : null,
+      after: contract,
+    });
     return contract;
   });
 }

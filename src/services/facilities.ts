@@ -17,7 +17,10 @@ export function toFacility(row: FacilityRow): Facility {
   return { id: row.id, name: row.name, address: row.address, floorArea: row.floor_area, createdAt: row.created_at };
 }
 
-export async function createFacility(ctx: ServiceContext, input: { name: string; address?: string | null; floorArea?: number | null }): Promise<Facility> {
+export async function createFacility(
+  ctx: ServiceContext,
+  input: { name: string; address?: string | null; floorArea?: number | null },
+): Promise<Facility> {
   const row = {
     id: newId('fac'),
     organisation_id: ctx.principal.organisationId,
@@ -36,12 +39,23 @@ export async function createFacility(ctx: ServiceContext, input: { name: string;
 
 /** The organisation's facility, or a 404 (another organisation's id included). */
 export async function getFacilityRow(db: Executor, organisationId: string, id: string) {
-  const row = await db.selectFrom('facilities').selectAll().where('id', '=', id).where('organisation_id', '=', organisationId).executeTakeFirst();
+  const row = await db
+    .selectFrom('facilities')
+    .selectAll()
+    .where('id', '=', id)
+    .where('organisation_id', '=', organisationId)
+    .executeTakeFirst();
   if (!row) throw notFound('facility', id);
   return row;
 }
 
 export async function listFacilities(db: Executor, organisationId: string): Promise<Facility[]> {
-  const rows = await db.selectFrom('facilities').selectAll().where('organisation_id', '=', organisationId).orderBy('created_at').orderBy('id').execute();
+  const rows = await db
+    .selectFrom('facilities')
+    .selectAll()
+    .where('organisation_id', '=', organisationId)
+    .orderBy('created_at')
+    .orderBy('id')
+    .execute();
   return rows.map(toFacility);
 }

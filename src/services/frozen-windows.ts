@@ -89,7 +89,10 @@ export function assertOutsideFrozenWindows<W extends ProtectedWrite>(
   const first = hits[0];
   if (!first) return;
   const baselines = [...new Set(hits.map((hit) => hit.window.baselineId))];
-  const named = hits.slice(0, NAMED_IN_DETAIL).map((hit) => `${name(hit.write)} (${describeSpan(hit.write)})`).join(', ');
+  const named = hits
+    .slice(0, NAMED_IN_DETAIL)
+    .map((hit) => `${name(hit.write)} (${describeSpan(hit.write)})`)
+    .join(', ');
   const more = hits.length > NAMED_IN_DETAIL ? ` (and ${hits.length - NAMED_IN_DETAIL} more)` : '';
   const errors: FieldError[] = hits.slice(0, MAX_LISTED).map(({ write, window }) => ({
     field: name(write),

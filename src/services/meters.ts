@@ -16,7 +16,15 @@ export interface Meter {
 }
 
 export function toMeter(row: MeterRow): Meter {
-  return { id: row.id, facilityId: row.facility_id, name: row.name, fuel: row.fuel, unit: row.unit, weatherStationId: row.weather_station_id, createdAt: row.created_at };
+  return {
+    id: row.id,
+    facilityId: row.facility_id,
+    name: row.name,
+    fuel: row.fuel,
+    unit: row.unit,
+    weatherStationId: row.weather_station_id,
+    createdAt: row.created_at,
+  };
 }
 
 export async function createMeter(
@@ -27,7 +35,12 @@ export async function createMeter(
   const organisationId = ctx.principal.organisationId;
   return inTransaction(ctx, async (trx) => {
     await getFacilityRow(trx, organisationId, facilityId);
-    const station = await trx.selectFrom('weather_stations').select('id').where('id', '=', input.weatherStationId).where('organisation_id', '=', organisationId).executeTakeFirst();
+    const station = await trx
+      .selectFrom('weather_stations')
+      .select('id')
+      .where('id', '=', input.weatherStationId)
+      .where('organisation_id', '=', organisationId)
+      .executeTakeFirst();
     if (!station) {
       throw new Problem('validation', `weatherStationId: no weather station ${input.weatherStationId} in this organisation`, [
         { field: 'weatherStationId', message: 'no such weather station' },
@@ -52,13 +65,24 @@ export async function createMeter(
 
 /** The organisation's meter, or a 404 (another organisation's id included). */
 export async function getMeterRow(db: Executor, organisationId: string, id: string): Promise<MeterRow> {
-  const row = await db.selectFrom('meters').selectAll().where('id', '=', id).where('organisation_id', '=', organisationId).executeTakeFirst();
+  const row = await db
+    .selectFrom('meters')
+    .selectAll()
+    .where('id', '=', id)
+    .where('organisation_id', '=', organisationId)
+    .executeTakeFirst();
   if (!row) throw notFound('meter', id);
   return row;
 }
 
 export async function listMeters(db: Executor, organisationId: string, facilityId: string): Promise<Meter[]> {
   await getFacilityRow(db, organisationId, facilityId);
-  const rows = await db.selectFrom('meters').selectAll().where('facility_id', '=', facilityId).orderBy('created_at').orderBy('id').execute();
+  const rows = await db
+    .selectFrom('meters')
+    .selectAll()
+    .where('facility_id', '=', facilityId)
+    .orderBy('created_at')
+    .orderBy('id')
+    .execute();
   return rows.map(toMeter);
 }

@@ -43,8 +43,18 @@ export async function putNormalYear(
     }
     const byDay = new Map(input.days.map((d) => [d.day, d.temp]));
     const temps = NORMAL_YEAR_DAYS.map((day) => byDay.get(day)!);
-    const row = { station_id: station.id, source: input.source, temps_json: canonicalJson(temps), content_hash: normalYearHash(input.source, temps), updated_at: ctx.now };
-    const old = await trx.selectFrom('normal_years').select(['source', 'content_hash']).where('station_id', '=', station.id).executeTakeFirst();
+    const row = {
+      station_id: station.id,
+      source: input.source,
+      temps_json: canonicalJson(temps),
+      content_hash: normalYearHash(input.source, temps),
+      updated_at: ctx.now,
+    };
+    const old = await trx
+      .selectFrom('normal_years')
+      .select(['source', 'content_hash'])
+      .where('station_id', '=', station.id)
+      .executeTakeFirst();
     if (old) await trx.updateTable('normal_years').set(row).where('station_id', '=', station.id).execute();
     else await trx.insertInto('normal_years').values(row).execute();
     await audit(trx, ctx, {

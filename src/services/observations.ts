@@ -104,12 +104,15 @@ function checkObservations(records: readonly ObservationInput[], unit: Temperatu
     throw new Problem('validation', 'observations: at least one observation is needed', [{ field: 'observations', message: 'empty' }]);
   }
   if (records.length > MAX_OBSERVATIONS_PER_BATCH) {
-    throw new Problem('validation', `observations: at most ${MAX_OBSERVATIONS_PER_BATCH} per request (got ${records.length}); send smaller batches`, [
-      { field: 'observations', message: 'too many' },
-    ]);
+    throw new Problem(
+      'validation',
+      `observations: at most ${MAX_OBSERVATIONS_PER_BATCH} per request (got ${records.length}); send smaller batches`,
+      [{ field: 'observations', message: 'too many' }],
+    );
   }
   const errors: { index: number; error: FieldError }[] = [];
-  const problem = (index: number, field: string, message: string) => errors.push({ index, error: { field: locate(index, field), message } });
+  const problem = (index: number, field: string, message: string) =>
+    errors.push({ index, error: { field: locate(index, field), message } });
   const days: Observation[] = [];
   /** Records whose mean the engine judges: the ones given as temp. */
   const givenAsMean = new Set<number>();

@@ -23,14 +23,30 @@ export async function createKey(db: Kysely<Database>, input: NewKeyInput): Promi
 
 async function insertOrganisation(trx: Transaction<Database>, id: string, name: string, at: string): Promise<{ id: string; name: string }> {
   await trx.insertInto('organisations').values({ id, name, created_at: at }).execute();
-  await appendAudit(trx, { organisationId: id, actor: 'system', at, action: 'create', entityType: 'organisation', entityId: id, after: { id, name } });
+  await appendAudit(trx, {
+    organisationId: id,
+    actor: 'system',
+    at,
+    action: 'create',
+    entityType: 'organisation',
+    entityId: id,
+    after: { id, name },
+  });
   return { id, name };
 }
 
 async function insertKey(trx: Transaction<Database>, input: NewKeyInput): Promise<{ token: string; key: ReturnType<typeof publicKey> }> {
   const { row, token } = await insertApiKey(trx, input);
   const key = publicKey(row);
-  await appendAudit(trx, { organisationId: input.organisationId, actor: input.actor ?? 'system', at: input.at, action: 'create', entityType: 'api-key', entityId: row.id, after: key });
+  await appendAudit(trx, {
+    organisationId: input.organisationId,
+    actor: input.actor ?? 'system',
+    at: input.at,
+    action: 'create',
+    entityType: 'api-key',
+    entityId: row.id,
+    after: key,
+  });
   return { token, key };
 }
 
@@ -42,7 +58,12 @@ const BOOTSTRAP_LOCK = 'mvledger bootstrap';
  * and that key as its admin key, so a container can start ready to use.
  * Returns true when it did so.
  */
-export async function bootstrapIfEmpty(db: Kysely<Database>, bootstrapKey: string | undefined, at: string, name = 'Bootstrap organisation'): Promise<boolean> {
+export async function bootstrapIfEmpty(
+  db: Kysely<Database>,
+  bootstrapKey: string | undefined,
+  at: string,
+  name = 'Bootstrap organisation',
+): Promise<boolean> {
   if (!bootstrapKey) return false;
   // One transaction under one lock: instances started together on an empty
   // database see each other's organisation, and exactly one bootstraps.

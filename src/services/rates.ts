@@ -25,7 +25,11 @@ export interface RateSchedule {
   rates: RateEntry[];
 }
 
-export async function putRates(ctx: ServiceContext, meterId: string, input: { currency: string; rates: readonly RateInput[] }): Promise<RateSchedule> {
+export async function putRates(
+  ctx: ServiceContext,
+  meterId: string,
+  input: { currency: string; rates: readonly RateInput[] },
+): Promise<RateSchedule> {
   const rates: RateEntry[] = input.rates.map((r) => ({ from: r.from, to: r.to ?? null, price: r.price, escalation: r.escalation ?? 0 }));
   const problems = [...checkRateSchedule(rates), ...checkRateBounds(rates)].sort((a, b) => a.index - b.index);
   if (problems.length > 0) {
@@ -55,7 +59,13 @@ export async function putRates(ctx: ServiceContext, meterId: string, input: { cu
         .execute();
     }
     const after: RateSchedule = { meterId: meter.id, unit: meter.unit, currency: rates.length > 0 ? input.currency : null, rates };
-    await audit(trx, ctx, { action: 'put-rates', entityType: 'meter', entityId: meter.id, before: { currency: before.currency, rates: before.rates }, after: { currency: after.currency, rates } });
+    await audit(trx, ctx, {
+      action: 'put-rates',
+      entityType: 'meter',
+      entityId: meter.id,
+      before: { currency: before.currency, rates: before.rates },
+      after: { currency: after.currency, rates },
+    });
     return after;
   });
 }

@@ -109,7 +109,10 @@ export async function postReadings(
       );
     }
 
-    await insertChunked(trx, classified.created.map((c) => c.row));
+    await insertChunked(
+      trx,
+      classified.created.map((c) => c.row),
+    );
     for (const { before, after } of classified.corrected) {
       await trx
         .updateTable('readings')
@@ -158,9 +161,11 @@ function checkBatch(readings: readonly ReadingInput[], locate: RecordLocator): v
     throw new Problem('validation', 'readings: at least one reading is needed', [{ field: 'readings', message: 'empty' }]);
   }
   if (readings.length > MAX_READINGS_PER_BATCH) {
-    throw new Problem('validation', `readings: at most ${MAX_READINGS_PER_BATCH} per request (got ${readings.length}); send smaller batches`, [
-      { field: 'readings', message: 'too many' },
-    ]);
+    throw new Problem(
+      'validation',
+      `readings: at most ${MAX_READINGS_PER_BATCH} per request (got ${readings.length}); send smaller batches`,
+      [{ field: 'readings', message: 'too many' }],
+    );
   }
   const errors: FieldError[] = [];
   for (const problem of checkReadings(readings)) {
@@ -178,7 +183,11 @@ function checkBatch(readings: readonly ReadingInput[], locate: RecordLocator): v
     }
   }
   if (errors.length > 0) {
-    throw new Problem('validation', `${errors[0]!.field}: ${errors[0]!.message}${andMore(errors.length)}`, errors.slice(0, MAX_LISTED_ERRORS));
+    throw new Problem(
+      'validation',
+      `${errors[0]!.field}: ${errors[0]!.message}${andMore(errors.length)}`,
+      errors.slice(0, MAX_LISTED_ERRORS),
+    );
   }
 }
 
@@ -233,7 +242,13 @@ function firstDifference(stored: ReadingRow, sent: ReadingValues): keyof Reading
  * Sort each reading into created, corrected or unchanged; a new period that
  * overlaps a stored one is a conflict naming the stored periods.
  */
-function classify(readings: readonly ReadingInput[], stored: readonly ReadingRow[], now: string, meterId: string, locate: RecordLocator): Classified {
+function classify(
+  readings: readonly ReadingInput[],
+  stored: readonly ReadingRow[],
+  now: string,
+  meterId: string,
+  locate: RecordLocator,
+): Classified {
   const byKey = new Map<string, ReadingRow>();
   for (const row of stored) byKey.set(`${row.period_start}/${row.period_end}`, row);
   const out: Classified = { created: [], corrected: [], unchanged: 0 };
@@ -286,7 +301,10 @@ function overlapping(stored: readonly ReadingRow[], start: string, end: string):
 
 async function insertChunked(trx: Tx, rows: readonly NewReadingRow[]): Promise<void> {
   for (let i = 0; i < rows.length; i += INSERT_CHUNK_ROWS) {
-    await trx.insertInto('readings').values(rows.slice(i, i + INSERT_CHUNK_ROWS)).execute();
+    await trx
+      .insertInto('readings')
+      .values(rows.slice(i, i + INSERT_CHUNK_ROWS))
+      .execute();
   }
 }
 
@@ -306,7 +324,12 @@ export interface DateRange {
 }
 
 /** Readings whose period overlaps [from, to), by start. */
-export async function listReadings(db: Executor, organisationId: string, meterId: string, query: DateRange = {}): Promise<{ meterId: string; unit: string; readings: StoredReading[] }> {
+export async function listReadings(
+  db: Executor,
+  organisationId: string,
+  meterId: string,
+  query: DateRange = {},
+): Promise<{ meterId: string; unit: string; readings: StoredReading[] }> {
   checkDateRange(query);
   const meter = await getMeterRow(db, organisationId, meterId);
   let q = db.selectFrom('readings').select(['period_start', 'period_end', 'quantity', 'estimated', 'cost']).where('meter_id', '=', meterId);
@@ -330,12 +353,18 @@ export async function listReadings(db: Executor, organisationId: string, meterId
 /** A from/to pair must be real dates with from before to. */
 export function checkDateRange(query: DateRange): void {
   if (query.from !== undefined && parseIsoDate(query.from) === null) {
-    throw new Problem('validation', `query.from: not a valid date (YYYY-MM-DD): ${JSON.stringify(query.from)}`, [{ field: 'query.from', message: 'not a date' }]);
+    throw new Problem('validation', `query.from: not a valid date (YYYY-MM-DD): ${JSON.stringify(query.from)}`, [
+      { field: 'query.from', message: 'not a date' },
+    ]);
   }
   if (query.to !== undefined && parseIsoDate(query.to) === null) {
-    throw new Problem('validation', `query.to: not a valid date (YYYY-MM-DD): ${JSON.stringify(query.to)}`, [{ field: 'query.to', message: 'not a date' }]);
+    throw new Problem('validation', `query.to: not a valid date (YYYY-MM-DD): ${JSON.stringify(query.to)}`, [
+      { field: 'query.to', message: 'not a date' },
+    ]);
   }
   if (query.from !== undefined && query.to !== undefined && query.to <= query.from) {
-    throw new Problem('validation', `query.to: ${query.to} is not after from ${query.from}`, [{ field: 'query.to', message: 'not after from' }]);
+    throw new Problem('validation', `query.to: ${query.to} is not after from ${query.from}`, [
+      { field: 'query.to', message: 'not after from' },
+    ]);
   }
 }

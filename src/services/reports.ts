@@ -28,7 +28,14 @@ import { assembleReport, type FacilityInput } from '../reports/assemble.js';
 import type { Rollup } from '../reports/totals.js';
 import { guaranteeStatus } from '../reports/guarantees.js';
 import { meterReport, missingMeterReport, type StoredAdjustment } from '../reports/meter-report.js';
-import type { ContractSummary, GuaranteeStatus, MeterReport, ReportWindow, SavingsReport, SignatureData } from '../reports/savings-report.js';
+import type {
+  ContractSummary,
+  GuaranteeStatus,
+  MeterReport,
+  ReportWindow,
+  SavingsReport,
+  SignatureData,
+} from '../reports/savings-report.js';
 import type { Kysely } from 'kysely';
 import { readSnapshot } from '../store/connect.js';
 import type { Database, MeterRow } from '../store/schema.js';
@@ -66,22 +73,53 @@ export function savingsReport(db: Kysely<Database>, organisationId: string, quer
 
 async function buildReport(db: Executor, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
   const confidence = query.confidence ?? SIGNIFICANCE_RULE.confidence;
-  const organisation = await db.selectFrom('organisations').select(['id', 'name']).where('id', '=', organisationId).executeTakeFirstOrThrow();
+  const organisation = await db
+    .selectFrom('organisations')
+    .select(['id', 'name'])
+    .where('id', '=', organisationId)
+    .executeTakeFirstOrThrow();
   const facilityRows = query.facilityId
     ? [await getFacilityRow(db, organisationId, query.facilityId)]
-    : await db.selectFrom('facilities').selectAll().where('organisation_id', '=', organisationId).orderBy('created_at').orderBy('id').execute();
+    : await db
+        .selectFrom('facilities')
+        .selectAll()
+        .where('organisation_id', '=', organisationId)
+        .orderBy('created_at')
+        .orderBy('id')
+        .execute();
   const contracts = new Map<string, ContractSummary>();
   for (const row of await db.selectFrom('contracts').selectAll().where('organisation_id', '=', organisationId).execute()) {
     const c = toContract(row);
-    contracts.set(c.facilityId, { start: c.start, years: c.years, currency: c.currency, energyUnit: c.energyUnit, guarantees: c.guarantees });
+    contracts.set(c.facilityId, {
+      start: c.start,
+      years: c.years,
+      currency: c.currency,
+      energyUnit: c.energyUnit,
+      guarantees: c.guarantees,
+    });
   }
-  const window = resolveWindow(query, facilityRows.map((f) => contracts.get(f.id) ?? null));
-  const head = await db.selectFrom('audit_log').select(['seq', 'hash']).where('organisation_id', '=', organisationId).orderBy('seq', 'desc').limit(1).executeTakeFirst();
+  const window = resolveWindow(
+    query,
+    facilityRows.map((f) => contracts.get(f.id) ?? null),
+  );
+  const head = await db
+    .selectFrom('audit_log')
+    .select(['seq', 'hash'])
+    .where('organisation_id', '=', organisationId)
+    .orderBy('seq', 'desc')
+    .limit(1)
+    .executeTakeFirst();
 
   // Every meter's context first: the roll-up's correlation comes from all the report's meters.
   const contextsByFacility = new Map<string, MeterContext[]>();
   for (const facility of facilityRows) {
-    const meterRows = await db.selectFrom('meters').selectAll().where('facility_id', '=', facility.id).orderBy('created_at').orderBy('id').execute();
+    const meterRows = await db
+      .selectFrom('meters')
+      .selectAll()
+      .where('facility_id', '=', facility.id)
+      .orderBy('created_at')
+      .orderBy('id')
+      .execute();
     contextsByFacility.set(facility.id, await Promise.all(meterRows.map((meter) => meterContext(db, meter))));
   }
   const correlation = residualCorrelation([...contextsByFacility.values()].flat().flatMap(baselineResiduals));
@@ -90,7 +128,15 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
   const normalYears = new Map<string, SavingsReport['normalYears'][number]>();
   const facilities: FacilityInput[] = [];
   for (const facility of facilityRows) {
-    const { input, usedNormalYears } = await facilityInWindow(db, facility, contextsByFacility.get(facility.id)!, contracts.get(facility.id) ?? null, window, confidence, rollup);
+    const { input, usedNormalYears } = await facilityInWindow(
+      db,
+      facility,
+      contextsByFacility.get(facility.id)!,
+      contracts.get(facility.id) ?? null,
+      window,
+      confidence,
+      rollup,
+    );
     facilities.push(input);
     for (const used of usedNormalYears) normalYears.set(used.stationId, used);
   }
@@ -120,7 +166,12 @@ function baselineResiduals(ctx: MeterContext): MeterResiduals[] {
   // The fit's residuals are in start-date order; its periods are the aligned baseline readings.
   const periods = [...model.baselinePeriods].sort((a, b) => (a.start < b.start ? -1 : a.start > b.start ? 1 : 0));
   if (periods.length !== model.fit.residuals.length) return [];
-  return [{ group: ctx.meter.weather_station_id, periods: periods.map((p, i) => ({ start: p.start, end: p.end, residual: model.fit.residuals[i]! })) }];
+  return [
+    {
+      group: ctx.meter.weather_station_id,
+      periods: periods.map((p, i) => ({ start: p.start, end: p.end, residual: model.fit.residuals[i]! })),
+    },
+  ];
 }
 
 /** One facility over the window: its meters, and its guarantee status for every contract year the window touches. */
@@ -135,7 +186,9 @@ async function facilityInWindow(
 ): Promise<{ input: FacilityInput; usedNormalYears: SavingsReport['normalYears'] }> {
   const meters = await Promise.all(contexts.map((ctx) => meterInWindow(db, ctx, window, confidence)));
   const usedNormalYears = contexts.flatMap((ctx, i) =>
-    ctx.normalYear && meters[i]!.normalised.available ? [{ stationId: ctx.meter.weather_station_id, contentHash: ctx.normalYear.contentHash, source: ctx.normalYear.source }] : [],
+    ctx.normalYear && meters[i]!.normalised.available
+      ? [{ stationId: ctx.meter.weather_station_id, contentHash: ctx.normalYear.contentHash, source: ctx.normalYear.source }]
+      : [],
   );
   const guarantees: GuaranteeStatus[] = [];
   for (const year of contract ? contractYearsOverlapping(contract.start, contract.years, window) : []) {
@@ -143,11 +196,20 @@ async function facilityInWindow(
     const through = window.to < yearWindow.to ? window.to : yearWindow.to;
     // The year to date needs its own figures unless it is exactly the report's window.
     const sameWindow = yearWindow.from === window.from && through === window.to;
-    const yearMeters = sameWindow ? meters : await Promise.all(contexts.map((ctx) => meterInWindow(db, ctx, { from: yearWindow.from, to: through }, confidence)));
+    const yearMeters = sameWindow
+      ? meters
+      : await Promise.all(contexts.map((ctx) => meterInWindow(db, ctx, { from: yearWindow.from, to: through }, confidence)));
     guarantees.push(
       guaranteeStatus(
         contract!,
-        { contractYear: year, yearStart: yearWindow.from, yearEnd: yearWindow.to, measuredThrough: through, complete: through === yearWindow.to, meters: yearMeters },
+        {
+          contractYear: year,
+          yearStart: yearWindow.from,
+          yearEnd: yearWindow.to,
+          measuredThrough: through,
+          complete: through === yearWindow.to,
+          meters: yearMeters,
+        },
         rollup,
       ),
     );
@@ -157,11 +219,15 @@ async function facilityInWindow(
 
 /** Exactly one of: from and to, quarter, contractYear. */
 export function resolveWindow(query: ReportQuery, contracts: readonly (ContractSummary | null)[]): ReportWindow {
-  const given = [query.from !== undefined || query.to !== undefined, query.quarter !== undefined, query.contractYear !== undefined].filter(Boolean).length;
+  const given = [query.from !== undefined || query.to !== undefined, query.quarter !== undefined, query.contractYear !== undefined].filter(
+    Boolean,
+  ).length;
   if (given !== 1) {
-    throw new Problem('validation', 'from: give the window as from and to, or quarter (e.g. 2026-Q3), or contractYear; exactly one of them', [
-      { field: 'from', message: 'give from and to, quarter, or contractYear' },
-    ]);
+    throw new Problem(
+      'validation',
+      'from: give the window as from and to, or quarter (e.g. 2026-Q3), or contractYear; exactly one of them',
+      [{ field: 'from', message: 'give from and to, quarter, or contractYear' }],
+    );
   }
   if (query.quarter !== undefined) {
     let w: DateWindow;
@@ -174,16 +240,25 @@ export function resolveWindow(query: ReportQuery, contracts: readonly (ContractS
   }
   if (query.contractYear !== undefined) {
     const present = contracts.filter((c): c is ContractSummary => c !== null);
-    if (present.length === 0) throw new Problem('unprocessable', 'contractYear: no facility in the report has a contract (PUT /v1/facilities/{id}/contract)', [{ field: 'contractYear', message: 'no contract' }]);
+    if (present.length === 0)
+      throw new Problem('unprocessable', 'contractYear: no facility in the report has a contract (PUT /v1/facilities/{id}/contract)', [
+        { field: 'contractYear', message: 'no contract' },
+      ]);
     const starts = new Set(present.map((c) => c.start));
     if (starts.size > 1) {
-      throw new Problem('unprocessable', `contractYear: the facilities' contracts start on different dates (${[...starts].sort().join(', ')}); give facilityId`, [
-        { field: 'contractYear', message: 'contracts differ: give facilityId' },
-      ]);
+      throw new Problem(
+        'unprocessable',
+        `contractYear: the facilities' contracts start on different dates (${[...starts].sort().join(', ')}); give facilityId`,
+        [{ field: 'contractYear', message: 'contracts differ: give facilityId' }],
+      );
     }
     const years = Math.max(...present.map((c) => c.years));
     if (query.contractYear > years) {
-      throw new Problem('unprocessable', `contractYear: the contract runs ${years} year(s); there is no contract year ${query.contractYear}`, [{ field: 'contractYear', message: `at most ${years}` }]);
+      throw new Problem(
+        'unprocessable',
+        `contractYear: the contract runs ${years} year(s); there is no contract year ${query.contractYear}`,
+        [{ field: 'contractYear', message: `at most ${years}` }],
+      );
     }
     const w = contractYearWindow(present[0]!.start, years, query.contractYear);
     return { ...w, kind: 'contract-year', label: `contract year ${query.contractYear} (${w.from}..${w.to})` };
@@ -205,14 +280,31 @@ async function meterContext(db: Executor, meter: MeterRow): Promise<MeterContext
     .executeTakeFirst();
   const model = baseline?.content_hash ? await frozenModel(db, baseline.id, baseline.content_hash) : null;
   const schedule = await loadSchedule(db, meter.id, meter.unit);
-  const adjustmentRows = await db.selectFrom('adjustments').selectAll().where('meter_id', '=', meter.id).where('withdrawn_at', 'is', null).orderBy('period_start').execute();
+  const adjustmentRows = await db
+    .selectFrom('adjustments')
+    .selectAll()
+    .where('meter_id', '=', meter.id)
+    .where('withdrawn_at', 'is', null)
+    .orderBy('period_start')
+    .execute();
   const normal = await db.selectFrom('normal_years').selectAll().where('station_id', '=', meter.weather_station_id).executeTakeFirst();
-  const station = await db.selectFrom('weather_stations').select('temperature_unit').where('id', '=', meter.weather_station_id).executeTakeFirstOrThrow();
+  const station = await db
+    .selectFrom('weather_stations')
+    .select('temperature_unit')
+    .where('id', '=', meter.weather_station_id)
+    .executeTakeFirstOrThrow();
   return {
     meter,
     temperatureUnit: station.temperature_unit,
     baseline: baseline?.content_hash
-      ? { id: baseline.id, version: baseline.version, contentHash: baseline.content_hash, start: baseline.period_start, end: baseline.period_end, temperatureForm: baseline.temperature_form }
+      ? {
+          id: baseline.id,
+          version: baseline.version,
+          contentHash: baseline.content_hash,
+          start: baseline.period_start,
+          end: baseline.period_end,
+          temperatureForm: baseline.temperature_form,
+        }
       : null,
     model,
     rates: { currency: schedule.currency, entries: schedule.rates },
@@ -227,7 +319,9 @@ async function meterContext(db: Executor, meter: MeterRow): Promise<MeterContext
       recordedAt: row.created_at,
       recordedBy: row.created_by,
     })),
-    normalYear: normal ? { temps: JSON.parse(normal.temps_json) as number[], contentHash: normal.content_hash, source: normal.source } : null,
+    normalYear: normal
+      ? { temps: JSON.parse(normal.temps_json) as number[], contentHash: normal.content_hash, source: normal.source }
+      : null,
   };
 }
 
@@ -235,7 +329,14 @@ async function meterContext(db: Executor, meter: MeterRow): Promise<MeterContext
 async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow, confidence: number): Promise<MeterReport> {
   const { meter, baseline, model } = ctx;
   const overlapping = ctx.adjustments.filter((a) => a.start < window.to && a.end > window.from);
-  const identity = { id: meter.id, name: meter.name, fuel: meter.fuel, unit: meter.unit, weatherStationId: meter.weather_station_id, temperatureUnit: ctx.temperatureUnit };
+  const identity = {
+    id: meter.id,
+    name: meter.name,
+    fuel: meter.fuel,
+    unit: meter.unit,
+    weatherStationId: meter.weather_station_id,
+    temperatureUnit: ctx.temperatureUnit,
+  };
   if (!baseline || !model) return missingMeterReport(identity, null, 'the meter has no frozen baseline', overlapping);
   const baselineInfo = {
     id: baseline.id,
@@ -254,20 +355,38 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
   const start = window.from > baseline.end ? window.from : baseline.end;
   const candidates = await loadReadings(db, meter.id, { startOnOrAfter: baseline.end, startBefore: window.to, endAfter: start });
   const readings: Reading[] = candidates.filter((r) => inWindowByMidpoint(r, window));
-  if (readings.length === 0) return missingMeterReport(identity, baselineInfo, `no reporting readings in ${window.from}..${window.to}`, overlapping);
+  if (readings.length === 0)
+    return missingMeterReport(identity, baselineInfo, `no reporting readings in ${window.from}..${window.to}`, overlapping);
   const weather = await loadWeatherFor(db, meter.weather_station_id, readings);
   const aligned = alignPeriods(readings, weather, { minCoverage: model.minCoverage });
   let savings: SavingsDocument;
   try {
-    savings = savingsFromAligned(model.fit, { limits: model.limits, excluded: model.excluded }, aligned, { confidence, adjustments: ctx.adjustments });
+    savings = savingsFromAligned(model.fit, { limits: model.limits, excluded: model.excluded }, aligned, {
+      confidence,
+      adjustments: ctx.adjustments,
+    });
   } catch (error) {
     if (!(error instanceof RangeError)) throw error;
-    return missingMeterReport(identity, baselineInfo, `${error.message} (every reporting reading in the window lacks weather)`, overlapping);
+    return missingMeterReport(
+      identity,
+      baselineInfo,
+      `${error.message} (every reporting reading in the window lacks weather)`,
+      overlapping,
+    );
   }
   const extrapolation = reportingExtrapolation(model.fit, aligned.periods);
-  const refusal = projectionRefusals({ sufficiency: model.sufficiency, extrapolation, overrides: model.overrides }, { requireSufficiency: false })[0];
+  const refusal = projectionRefusals(
+    { sufficiency: model.sufficiency, extrapolation, overrides: model.overrides },
+    { requireSufficiency: false },
+  )[0];
   if (refusal) {
-    return missingMeterReport(identity, baselineInfo, `savings refused: ${refusal.reason}; the frozen baseline carries no extrapolation override`, overlapping, extrapolation);
+    return missingMeterReport(
+      identity,
+      baselineInfo,
+      `savings refused: ${refusal.reason}; the frozen baseline carries no extrapolation override`,
+      overlapping,
+      extrapolation,
+    );
   }
   baselineInfo.meetsGuideline14 = savings.baseline.guideline14?.pass ?? null;
   const normalised = ctx.normalYear

@@ -182,7 +182,11 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
       excluded.map((p) => ({ field: `reading ${p.start}..${p.end}`, message: p.reason })),
     );
   }
-  const checks = { sufficiency: model.sufficiency, extrapolation: reportingExtrapolation(model.fit, aligned.periods), overrides: model.overrides };
+  const checks = {
+    sufficiency: model.sufficiency,
+    extrapolation: reportingExtrapolation(model.fit, aligned.periods),
+    overrides: model.overrides,
+  };
   // A baseline frozen short carries its override (freezing refuses it otherwise); one frozen before that rule is shown, not refused.
   const refusal = projectionRefusals(checks, { requireSufficiency: false })[0];
   if (refusal) {
@@ -195,5 +199,12 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
     );
   }
   const checked = withProjectionChecks(document, checks);
-  return nonFiniteToNull({ ...checked, meterId: meter.id, adjustments: adjustmentRows.map(toAdjustment), baselineId: baseline.id, baselineVersion: baseline.version, baselineContentHash: baseline.content_hash });
+  return nonFiniteToNull({
+    ...checked,
+    meterId: meter.id,
+    adjustments: adjustmentRows.map(toAdjustment),
+    baselineId: baseline.id,
+    baselineVersion: baseline.version,
+    baselineContentHash: baseline.content_hash,
+  });
 }

@@ -17,8 +17,17 @@ export function toStation(row: StationRow): WeatherStation {
   return { id: row.id, name: row.name, temperatureUnit: row.temperature_unit, createdAt: row.created_at };
 }
 
-export async function createStation(ctx: ServiceContext, input: { name: string; temperatureUnit: TemperatureUnit }): Promise<WeatherStation> {
-  const row = { id: newId('wst'), organisation_id: ctx.principal.organisationId, name: input.name, temperature_unit: input.temperatureUnit, created_at: ctx.now };
+export async function createStation(
+  ctx: ServiceContext,
+  input: { name: string; temperatureUnit: TemperatureUnit },
+): Promise<WeatherStation> {
+  const row = {
+    id: newId('wst'),
+    organisation_id: ctx.principal.organisationId,
+    name: input.name,
+    temperature_unit: input.temperatureUnit,
+    created_at: ctx.now,
+  };
   return inTransaction(ctx, async (trx) => {
     await trx.insertInto('weather_stations').values(row).execute();
     const station = toStation(row);
@@ -29,12 +38,23 @@ export async function createStation(ctx: ServiceContext, input: { name: string; 
 
 /** The organisation's station, or a 404 (another organisation's id included). */
 export async function getStationRow(db: Executor, organisationId: string, id: string) {
-  const row = await db.selectFrom('weather_stations').selectAll().where('id', '=', id).where('organisation_id', '=', organisationId).executeTakeFirst();
+  const row = await db
+    .selectFrom('weather_stations')
+    .selectAll()
+    .where('id', '=', id)
+    .where('organisation_id', '=', organisationId)
+    .executeTakeFirst();
   if (!row) throw notFound('weather station', id);
   return row;
 }
 
 export async function listStations(db: Executor, organisationId: string): Promise<WeatherStation[]> {
-  const rows = await db.selectFrom('weather_stations').selectAll().where('organisation_id', '=', organisationId).orderBy('created_at').orderBy('id').execute();
+  const rows = await db
+    .selectFrom('weather_stations')
+    .selectAll()
+    .where('organisation_id', '=', organisationId)
+    .orderBy('created_at')
+    .orderBy('id')
+    .execute();
   return rows.map(toStation);
 }

@@ -100,8 +100,12 @@ export function verifyAuditRows(organisationId: string, rows: Iterable<AuditRow>
   let prevHash = GENESIS_HASH;
   let checked = 0;
   for (const row of rows) {
-    const reason = row.organisation_id !== organisationId ? `it belongs to organisation ${row.organisation_id}` : auditRowFault(row, expectedSeq, prevHash);
-    if (reason !== null) return { ok: false, checked, headHash: prevHash, headSeq: expectedSeq - 1, broken: { organisationId, seq: row.seq, reason } };
+    const reason =
+      row.organisation_id !== organisationId
+        ? `it belongs to organisation ${row.organisation_id}`
+        : auditRowFault(row, expectedSeq, prevHash);
+    if (reason !== null)
+      return { ok: false, checked, headHash: prevHash, headSeq: expectedSeq - 1, broken: { organisationId, seq: row.seq, reason } };
     prevHash = row.hash;
     expectedSeq++;
     checked++;
@@ -125,7 +129,8 @@ export async function verifyAuditChain(db: Executor, organisationId: string, pag
       .execute();
     for (const row of page) {
       const reason = auditRowFault(row, expectedSeq, prevHash);
-      if (reason !== null) return { ok: false, checked, headHash: prevHash, headSeq: expectedSeq - 1, broken: { organisationId, seq: row.seq, reason } };
+      if (reason !== null)
+        return { ok: false, checked, headHash: prevHash, headSeq: expectedSeq - 1, broken: { organisationId, seq: row.seq, reason } };
       prevHash = row.hash;
       expectedSeq++;
       checked++;
@@ -136,7 +141,9 @@ export async function verifyAuditChain(db: Executor, organisationId: string, pag
 }
 
 /** Every organisation's chain; the first break found is reported. */
-export async function verifyAllAuditChains(db: Executor): Promise<{ ok: boolean; chains: number; checked: number; broken?: ChainVerdict['broken'] }> {
+export async function verifyAllAuditChains(
+  db: Executor,
+): Promise<{ ok: boolean; chains: number; checked: number; broken?: ChainVerdict['broken'] }> {
   const organisations = await db.selectFrom('organisations').select('id').orderBy('id').execute();
   let checked = 0;
   for (const { id } of organisations) {

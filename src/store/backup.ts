@@ -45,7 +45,12 @@ export async function verifyLedger(db: Kysely<Database>): Promise<LedgerVerdict>
   const counts = { organisations: chains.chains, auditRows: chains.checked };
   if (!chains.ok) {
     const broken = chains.broken!;
-    return { ok: false, ...counts, baselines: 0, fault: `the audit chain of organisation ${broken.organisationId} breaks at seq ${broken.seq}: ${broken.reason}` };
+    return {
+      ok: false,
+      ...counts,
+      baselines: 0,
+      fault: `the audit chain of organisation ${broken.organisationId} breaks at seq ${broken.seq}: ${broken.reason}`,
+    };
   }
   const hashed = await db
     .selectFrom('baselines')
@@ -55,7 +60,12 @@ export async function verifyLedger(db: Kysely<Database>): Promise<LedgerVerdict>
     .execute();
   const tampered = hashed.find((row) => !verifyBaselineContent(row));
   if (tampered) {
-    return { ok: false, ...counts, baselines: hashed.length, fault: `baseline ${tampered.id} (${tampered.status}) does not match its content hash` };
+    return {
+      ok: false,
+      ...counts,
+      baselines: hashed.length,
+      fault: `baseline ${tampered.id} (${tampered.status}) does not match its content hash`,
+    };
   }
   return { ok: true, ...counts, baselines: hashed.length };
 }
@@ -88,7 +98,8 @@ const ALL_PAGES = 0x7fffffff;
 export async function backupSqlite(sourceFile: string, outFile: string): Promise<BackupSummary> {
   const source = resolve(sourceFile);
   const out = resolve(outFile);
-  if (['', '-wal', '-shm', '-journal'].some((suffix) => out === `${source}${suffix}`)) throw new BackupInputError(`--out ${outFile}: that is the database itself (or one of its files)`);
+  if (['', '-wal', '-shm', '-journal'].some((suffix) => out === `${source}${suffix}`))
+    throw new BackupInputError(`--out ${outFile}: that is the database itself (or one of its files)`);
   if (!existsSync(source)) throw new BackupInputError(`DATABASE_URL: no database file ${source} to back up`);
   mustBeWritableFileSpot('--out', outFile, out);
 
@@ -132,7 +143,9 @@ export async function restoreSqlite(inFile: string, targetFile: string, options:
   if (!existsSync(input)) throw new BackupInputError(`--in ${inFile}: cannot read it (ENOENT)`);
   if (statSync(input).isDirectory()) throw new BackupInputError(`--in ${inFile}: is a folder, not a backup file`);
   if (nonEmpty(`${input}-wal`)) {
-    throw new BackupInputError(`--in ${inFile}: a -wal file lies beside it, so the file alone is incomplete; use a file written by mvledger backup`);
+    throw new BackupInputError(
+      `--in ${inFile}: a -wal file lies beside it, so the file alone is incomplete; use a file written by mvledger backup`,
+    );
   }
 
   const replacedOrganisations = inspectTarget(target, options.force);
@@ -185,7 +198,9 @@ function inspectTarget(target: string, force: boolean): number {
     throw new BackupInputError(`DATABASE_URL: ${target} is in use (its -wal file stays open); stop the service before restoring`);
   }
   if (organisations > 0 && !force) {
-    throw new BackupInputError(`DATABASE_URL: ${target} already holds ${organisations} organisation${organisations === 1 ? '' : 's'}; add --force to replace it`);
+    throw new BackupInputError(
+      `DATABASE_URL: ${target} already holds ${organisations} organisation${organisations === 1 ? '' : 's'}; add --force to replace it`,
+    );
   }
   return organisations;
 }
@@ -208,7 +223,14 @@ export function postgresGuidance(databaseUrl: string, file: string): string {
   const url = new URL(connectionString);
   url.password = '';
   const target = shellWord(url.toString());
-  const dump = ['pg_dump', '--format=custom', '--no-owner', ...(schema ? [`--schema=${schema}`] : []), `--file=${shellWord(file)}`, `--dbname=${target}`];
+  const dump = [
+    'pg_dump',
+    '--format=custom',
+    '--no-owner',
+    ...(schema ? [`--schema=${schema}`] : []),
+    `--file=${shellWord(file)}`,
+    `--dbname=${target}`,
+  ];
   const restore = ['pg_restore', '--no-owner', '--single-transaction', `--dbname=${target}`, shellWord(file)];
   return [
     'mvledger backup and restore copy SQLite files only; for PostgreSQL use its own tools,',

@@ -283,12 +283,19 @@ async function createSchemaIfMissing(pool: pg.Pool, schema: string): Promise<voi
  * reading" or "one frozen baseline" cannot race. (SQLite already runs one
  * write transaction at a time; the transaction takes its write lock first.)
  */
-export function writeTransaction<T>(db: Kysely<Database>, organisationId: string, work: (trx: Transaction<Database>) => Promise<T>): Promise<T> {
+export function writeTransaction<T>(
+  db: Kysely<Database>,
+  organisationId: string,
+  work: (trx: Transaction<Database>) => Promise<T>,
+): Promise<T> {
   // 'read write' makes SQLite take its write lock at the start (see ImmediateWriteSqliteDriver).
-  return db.transaction().setAccessMode('read write').execute(async (trx) => {
-    await lockOrganisation(trx, organisationId);
-    return work(trx);
-  });
+  return db
+    .transaction()
+    .setAccessMode('read write')
+    .execute(async (trx) => {
+      await lockOrganisation(trx, organisationId);
+      return work(trx);
+    });
 }
 
 /**
@@ -299,7 +306,11 @@ export function writeTransaction<T>(db: Kysely<Database>, organisationId: string
  * must agree with each other (an export, a report and the audit head it names).
  */
 export async function readSnapshot<T>(db: Kysely<Database>, work: (trx: Transaction<Database>) => Promise<T>): Promise<T> {
-  const run = () => (db.getExecutor().adapter instanceof PostgresAdapter ? db.transaction().setIsolationLevel('repeatable read') : db.transaction()).execute(work);
+  const run = () =>
+    (db.getExecutor().adapter instanceof PostgresAdapter
+      ? db.transaction().setIsolationLevel('repeatable read')
+      : db.transaction()
+    ).execute(work);
   try {
     return await run();
   } catch (error) {

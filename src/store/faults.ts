@@ -28,8 +28,17 @@ const CONNECTION_LOST_ERRNOS = new Set(['ECONNRESET', 'EPIPE', 'ECONNABORTED']);
 const UNREACHABLE_ERRNOS = new Set(['ECONNREFUSED', 'ETIMEDOUT', 'EHOSTUNREACH', 'ENETUNREACH', 'ENOTFOUND', 'EAI_AGAIN']);
 
 /** Messages of the pg client and pool, which carry no code. */
-const CONNECTION_LOST_MESSAGES = [/^Connection terminated/, /is not queryable/, /^Postgres connection has been discarded/, /terminating connection/];
-const UNREACHABLE_MESSAGES = [/^timeout exceeded when trying to connect/, /^Connection terminated due to connection timeout/, /the database system is (starting up|shutting down|in recovery mode)/];
+const CONNECTION_LOST_MESSAGES = [
+  /^Connection terminated/,
+  /is not queryable/,
+  /^Postgres connection has been discarded/,
+  /terminating connection/,
+];
+const UNREACHABLE_MESSAGES = [
+  /^timeout exceeded when trying to connect/,
+  /^Connection terminated due to connection timeout/,
+  /the database system is (starting up|shutting down|in recovery mode)/,
+];
 
 /**
  * The kind of database fault `error` is (looking through `cause` as well),
@@ -67,6 +76,9 @@ function faultOf(error: Error): DatabaseFault | null {
 export function faultRecord(error: unknown): { fault: DatabaseFault | null; code?: string; message: string } {
   const raw = error instanceof Error ? (error as { code?: unknown }).code : undefined;
   const code = typeof raw === 'string' ? raw : undefined;
-  const message = (error instanceof Error ? error.message : String(error)).replace(/\w+:\/\/\S+/g, '(url)').replace(/\s+/g, ' ').slice(0, 200);
+  const message = (error instanceof Error ? error.message : String(error))
+    .replace(/\w+:\/\/\S+/g, '(url)')
+    .replace(/\s+/g, ' ')
+    .slice(0, 200);
   return { fault: databaseFault(error), ...(code ? { code } : {}), message };
 }

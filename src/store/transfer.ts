@@ -98,7 +98,15 @@ const ORGANISATION_RULE: TableRule = { key: ['id'], columns: { id: TEXT, name: T
 const TABLE_RULES: Record<TransferTable, TableRule> = {
   api_keys: {
     key: ['id'],
-    columns: { id: TEXT, organisation_id: TEXT, name: TEXT, role: { type: 'text', oneOf: ROLES }, secret_hash: TEXT, created_at: TEXT, revoked_at: TEXT_OR_NULL },
+    columns: {
+      id: TEXT,
+      organisation_id: TEXT,
+      name: TEXT,
+      role: { type: 'text', oneOf: ROLES },
+      secret_hash: TEXT,
+      created_at: TEXT,
+      revoked_at: TEXT_OR_NULL,
+    },
   },
   weather_stations: {
     key: ['id'],
@@ -114,7 +122,16 @@ const TABLE_RULES: Record<TransferTable, TableRule> = {
   },
   meters: {
     key: ['id'],
-    columns: { id: TEXT, organisation_id: TEXT, facility_id: TEXT, name: TEXT, fuel: TEXT, unit: TEXT, weather_station_id: TEXT, created_at: TEXT },
+    columns: {
+      id: TEXT,
+      organisation_id: TEXT,
+      facility_id: TEXT,
+      name: TEXT,
+      fuel: TEXT,
+      unit: TEXT,
+      weather_station_id: TEXT,
+      created_at: TEXT,
+    },
   },
   readings: {
     key: ['meter_id', 'period_start', 'period_end'],
@@ -178,7 +195,15 @@ const TABLE_RULES: Record<TransferTable, TableRule> = {
   },
   rates: {
     key: ['meter_id', 'effective_from'],
-    columns: { meter_id: TEXT, effective_from: TEXT, effective_to: TEXT_OR_NULL, price: REAL, escalation: REAL, currency: TEXT, updated_at: TEXT },
+    columns: {
+      meter_id: TEXT,
+      effective_from: TEXT,
+      effective_to: TEXT_OR_NULL,
+      price: REAL,
+      escalation: REAL,
+      currency: TEXT,
+      updated_at: TEXT,
+    },
   },
   adjustments: {
     key: ['id'],
@@ -264,7 +289,8 @@ export async function exportOrganisation(db: Kysely<Database>, organisationId: s
   try {
     return checkDocument(document);
   } catch (error) {
-    if (error instanceof TransferInputError) throw new TransferInputError(`organisation ${organisationId} cannot be exported as stored: ${error.message}`);
+    if (error instanceof TransferInputError)
+      throw new TransferInputError(`organisation ${organisationId} cannot be exported as stored: ${error.message}`);
     throw error;
   }
 }
@@ -339,7 +365,8 @@ function checkCell(path: string, value: unknown, rule: ColumnRule): void {
     return;
   }
   if (rule.type === 'text' && typeof value !== 'string') fail(path, `must be text, got ${shown(value)}`);
-  if (rule.type === 'real' && !(typeof value === 'number' && Number.isFinite(value))) fail(path, `must be a finite number, got ${shown(value)}`);
+  if (rule.type === 'real' && !(typeof value === 'number' && Number.isFinite(value)))
+    fail(path, `must be a finite number, got ${shown(value)}`);
   if (rule.type === 'integer' && !Number.isSafeInteger(value)) fail(path, `must be a whole number, got ${shown(value)}`);
   if (rule.min !== undefined && (value as number) < rule.min) fail(path, `must be at least ${rule.min}, got ${shown(value)}`);
   if (rule.oneOf && !rule.oneOf.includes(value as Cell)) fail(path, `must be one of ${rule.oneOf.join(', ')}, got ${shown(value)}`);
@@ -364,7 +391,9 @@ function checkTable(table: TransferTable, value: unknown, organisationId: string
   const seen = new Set<string>();
   return value.map((entry, index) => {
     const checked = checkRow(`tables.${table}[${index}]`, entry, rule, organisationId, version);
-    const row = added ? { ...checked, ...Object.fromEntries(Object.entries(added).map(([column, fill]) => [column, fill(checked)])) } : checked;
+    const row = added
+      ? { ...checked, ...Object.fromEntries(Object.entries(added).map(([column, fill]) => [column, fill(checked)])) }
+      : checked;
     const key = JSON.stringify(rule.key.map((column) => row[column]));
     if (seen.has(key)) fail(`tables.${table}[${index}]`, `a second row with the key ${rule.key.join(', ')} = ${key}`);
     seen.add(key);
@@ -408,7 +437,10 @@ function checkReferences(tables: Record<TransferTable, ExportRow[]>): void {
     if (row.supersedes_id === null) return;
     const older = baselines.get(row.supersedes_id!);
     if (!older || older.meter_id !== row.meter_id || (older.version as number) >= (row.version as number)) {
-      fail(`${path}.supersedes_id`, `${shown(row.supersedes_id)} is not an earlier version of meter ${row.meter_id}'s baseline in the document`);
+      fail(
+        `${path}.supersedes_id`,
+        `${shown(row.supersedes_id)} is not an earlier version of meter ${row.meter_id}'s baseline in the document`,
+      );
     }
   });
 }
@@ -420,7 +452,10 @@ function checkAuditTrail(organisationId: string, rows: readonly ExportRow[], hea
     fail(`tables.audit_log[${index}]`, `the audit chain breaks at seq ${verdict.broken!.seq}: ${verdict.broken!.reason}`);
   }
   if (verdict.headSeq !== head.seq || verdict.headHash !== head.hash) {
-    fail('auditHead', `the audit chain ends at seq ${verdict.headSeq} with hash ${verdict.headHash}, not at the stated seq ${head.seq} with hash ${head.hash}`);
+    fail(
+      'auditHead',
+      `the audit chain ends at seq ${verdict.headSeq} with hash ${verdict.headHash}, not at the stated seq ${head.seq} with hash ${head.hash}`,
+    );
   }
 }
 
@@ -442,7 +477,10 @@ export function checkDocument(value: unknown): ExportDocument {
   if (!isObject(value)) fail('document', `must be a JSON object, got ${shown(value)}`);
   if (value.format !== EXPORT_FORMAT) fail('format', `must be ${JSON.stringify(EXPORT_FORMAT)}, got ${shown(value.format)}`);
   if (!(READABLE_VERSIONS as readonly unknown[]).includes(value.version)) {
-    fail('version', `this mvledger reads versions ${READABLE_VERSIONS.slice(0, -1).join(', ')} and ${READABLE_VERSIONS.at(-1)}, got ${shown(value.version)}`);
+    fail(
+      'version',
+      `this mvledger reads versions ${READABLE_VERSIONS.slice(0, -1).join(', ')} and ${READABLE_VERSIONS.at(-1)}, got ${shown(value.version)}`,
+    );
   }
   if (typeof value.exportedAt !== 'string') fail('exportedAt', `must be text, got ${shown(value.exportedAt)}`);
   const version = value.version as number;
@@ -452,12 +490,14 @@ export function checkDocument(value: unknown): ExportDocument {
   checkCell('auditHead.seq', head.seq, INTEGER);
   checkCell('auditHead.hash', head.hash, TEXT);
   if (!isObject(value.tables)) fail('tables', `must be an object of tables, got ${shown(value.tables)}`);
-  const known: readonly string[] = value.version === 1 ? TRANSFER_TABLES.filter((t) => !(TABLES_SINCE_VERSION_2 as readonly string[]).includes(t)) : TRANSFER_TABLES;
+  const known: readonly string[] =
+    value.version === 1 ? TRANSFER_TABLES.filter((t) => !(TABLES_SINCE_VERSION_2 as readonly string[]).includes(t)) : TRANSFER_TABLES;
   for (const name of Object.keys(value.tables)) {
     if (!known.includes(name)) fail(`tables.${name}`, `not a table of format version ${shown(value.version)}`);
   }
   const tables = {} as Record<TransferTable, ExportRow[]>;
-  for (const table of TRANSFER_TABLES) tables[table] = known.includes(table) ? checkTable(table, value.tables[table], organisation.id, version) : [];
+  for (const table of TRANSFER_TABLES)
+    tables[table] = known.includes(table) ? checkTable(table, value.tables[table], organisation.id, version) : [];
   checkReferences(tables);
   const auditHead = { seq: head.seq as number, hash: head.hash as string };
   checkAuditTrail(organisation.id, tables.audit_log, auditHead);
@@ -528,7 +568,11 @@ async function insertRows(trx: Transaction<Database>, table: TransferTable, rows
   const columns = Object.keys(TABLE_RULES[table].columns).length;
   const size = Math.min(MAX_ROWS_PER_INSERT, Math.floor(MAX_PARAMETERS / columns));
   // The rows were checked against the table's columns in checkDocument.
-  for (const chunk of chunks(rows, size)) await trx.insertInto(table).values(chunk as never).execute();
+  for (const chunk of chunks(rows, size))
+    await trx
+      .insertInto(table)
+      .values(chunk as never)
+      .execute();
 }
 
 /** The target's own rows, read back inside the transaction: any mismatch rolls everything back. */
@@ -536,11 +580,16 @@ async function checkTarget(trx: Transaction<Database>, document: ExportDocument)
   const { id } = document.organisation;
   const verdict: ChainVerdict = await verifyAuditChain(trx, id);
   if (!verdict.ok || verdict.headSeq !== document.auditHead.seq || verdict.headHash !== document.auditHead.hash) {
-    const why = verdict.broken ? `breaks at seq ${verdict.broken.seq}: ${verdict.broken.reason}` : `ends at seq ${verdict.headSeq} with hash ${verdict.headHash}`;
+    const why = verdict.broken
+      ? `breaks at seq ${verdict.broken.seq}: ${verdict.broken.reason}`
+      : `ends at seq ${verdict.headSeq} with hash ${verdict.headHash}`;
     throw new Error(`after the import the target's audit chain of ${id} ${why}; nothing was stored`);
   }
   const baselines = await trx.selectFrom('baselines').selectAll().where('organisation_id', '=', id).execute();
-  if (baselines.length !== document.tables.baselines.length) throw new Error(`after the import the target holds ${baselines.length} baselines of ${id}, not ${document.tables.baselines.length}; nothing was stored`);
+  if (baselines.length !== document.tables.baselines.length)
+    throw new Error(
+      `after the import the target holds ${baselines.length} baselines of ${id}, not ${document.tables.baselines.length}; nothing was stored`,
+    );
   for (const row of baselines) {
     if (mustVerify(row as unknown as ExportRow) && !verifyBaselineContent(row)) {
       throw new Error(`after the import baseline ${row.id} in the target does not match its content hash; nothing was stored`);

@@ -27,7 +27,13 @@ import { performance } from 'node:perf_hooks';
 import { MODEL_NAMES, type ModelName } from '../../src/engine/index.js';
 import { INVENTED_CLIMATES, TWO_YEARS_THEN_ONE, deriveSeed, simulateMeterStudy } from '../support/simulation/index.js';
 import { detectFormSupport } from '../support/temperature-forms.js';
-import { falseSavingsAndCoverage, modelFormError, pooledRows, type FalseSavingsRow, type ModelFormRow } from './calibration/false-savings.js';
+import {
+  falseSavingsAndCoverage,
+  modelFormError,
+  pooledRows,
+  type FalseSavingsRow,
+  type ModelFormRow,
+} from './calibration/false-savings.js';
 import { choiceTiming, trueShapeRecovery, weatherFreeChoice, WEATHER_SHAPES } from './calibration/shape-choice.js';
 import { portfolioBands, type PortfolioRow } from './calibration/portfolios.js';
 import { NORMALISED_THRESHOLD, normalisedWithoutRetrofit } from './calibration/normalised.js';
@@ -82,7 +88,9 @@ const lap = (() => {
   };
 })();
 const shapes = (counts: Partial<Record<ModelName, number>>): string =>
-  MODEL_NAMES.filter((m) => counts[m]).map((m) => `${m} ${counts[m]}`).join(', ');
+  MODEL_NAMES.filter((m) => counts[m])
+    .map((m) => `${m} ${counts[m]}`)
+    .join(', ');
 /** Two decimals without a "-0.00". */
 const fixed2 = (value: number): string => (Math.abs(value) < 0.005 ? '0.00' : value.toFixed(2));
 const within = (value: number, range: { min: number; max: number }): boolean => value >= range.min && value <= range.max;
@@ -91,10 +99,18 @@ const span = (values: readonly number[]): string => `${percent(Math.min(...value
 // ---- header ------------------------------------------------------------------
 
 const cpuList = cpus();
-const probe = simulateMeterStudy({ archetype: 'heating', climate: INVENTED_CLIMATES.mild, noise: { persistence: 0 }, design: TWO_YEARS_THEN_ONE, seed: deriveSeed(1000) });
+const probe = simulateMeterStudy({
+  archetype: 'heating',
+  climate: INVENTED_CLIMATES.mild,
+  noise: { persistence: 0 },
+  design: TWO_YEARS_THEN_ONE,
+  seed: deriveSeed(1000),
+});
 const formsDiffer = detectFormSupport(probe.baseline, probe.weather);
 say('Calibration benchmark (invented meters, seeded simulation; no retrofit anywhere, so every saving is a false one)');
-say(`  node ${process.version}, ${cpuList[0]?.model ?? 'unknown CPU'} × ${cpuList.length}, load average at start ${loadAtStart.map((v) => v.toFixed(2)).join(' ')}`);
+say(
+  `  node ${process.version}, ${cpuList[0]?.model ?? 'unknown CPU'} × ${cpuList.length}, load average at start ${loadAtStart.map((v) => v.toFixed(2)).join(' ')}`,
+);
 say(`  runs: ${RUNTIME}`);
 say('  forms: mean = each bill against its mean temperature; daily = each bill against the mean of the daily response over its days');
 say(
@@ -103,7 +119,8 @@ say(
     : '  NOTE: the engine ignores temperatureForm (the day-resolved fit has not landed): both columns are the mean-temperature method',
 );
 say('  climates (°F; mean, seasonal amplitude, day-to-day spread, persistence):');
-for (const [name, c] of Object.entries(INVENTED_CLIMATES)) say(`    ${name.padEnd(12)} ${c.mean} ± ${c.amplitude}, spread ${c.dailySpread}, φ ${c.persistence}`);
+for (const [name, c] of Object.entries(INVENTED_CLIMATES))
+  say(`    ${name.padEnd(12)} ${c.mean} ± ${c.amplitude}, spread ${c.dailySpread}, φ ${c.persistence}`);
 say();
 
 // ---- A -----------------------------------------------------------------------
@@ -113,7 +130,9 @@ say(
   `A) False savings and band coverage: ${a.metersPerGroup} meters per group × ${a.archetypes.length} kinds × ${a.climates.length} climates = ` +
     `${a.metersPerGroup * a.archetypes.length * a.climates.length} buildings per noise level; 24 baseline bills then 12 reporting bills (28–33 days), no retrofit`,
 );
-say('  no combination skipped: where a climate seldom reaches a kind\'s changepoint (heating in hot, cooling in cold) the meter is kept, and the shapes chosen show what its bills reveal');
+say(
+  "  no combination skipped: where a climate seldom reaches a kind's changepoint (heating in hot, cooling in cold) the meter is kept, and the shapes chosen show what its bills reveal",
+);
 const falseRows = falseSavingsAndCoverage(a);
 const pooledFalse = pooledRows(falseRows);
 for (const noise of a.noiseLevels) {
@@ -230,7 +249,9 @@ say(`  (${lap()})`);
 say();
 
 const rec = SETTINGS.recovery;
-say(`B2) True-shape recovery: ${rec.metersPerTruth} buildings per true shape, ${rec.climate} climate, 24 bills; meters whose bills do not span every true segment (3 bills each) are left out`);
+say(
+  `B2) True-shape recovery: ${rec.metersPerTruth} buildings per true shape, ${rec.climate} climate, 24 bills; meters whose bills do not span every true segment (3 bills each) are left out`,
+);
 const recoveryRows = trueShapeRecovery(rec);
 say(
   table(
@@ -261,9 +282,17 @@ say(`  (${lap()})`);
 say();
 
 const tm = SETTINGS.timing;
-say(`B3) Time of analyseBaseline (align 36 bills with ~1,100 days of weather, fit all six shapes, choose): ${tm.meters} invented 5P meters × ${tm.runsPerMeter} runs after ${tm.warmUp} warm-up each`);
+say(
+  `B3) Time of analyseBaseline (align 36 bills with ~1,100 days of weather, fit all six shapes, choose): ${tm.meters} invented 5P meters × ${tm.runsPerMeter} runs after ${tm.warmUp} warm-up each`,
+);
 const timingRows = choiceTiming(tm);
-say(table(['form', 'bills', 'runs', 'median'], timingRows.map((r) => [r.form, String(r.bills), String(r.runs), ms(r.medianMs)]), [false, true, true, true]));
+say(
+  table(
+    ['form', 'bills', 'runs', 'median'],
+    timingRows.map((r) => [r.form, String(r.bills), String(r.runs), ms(r.medianMs)]),
+    [false, true, true, true],
+  ),
+);
 const dailyTiming = timingRows.find((r) => r.form === 'daily')!;
 checkTarget({
   name: 'B choice time',
@@ -292,7 +321,19 @@ for (const combiner of combinerNames) {
   }
   say(
     table(
-      ['ICC set', 'kind', 'form', 'ICC seen', 'portfolios', 'exact: outside 68%', 'outside 90%', 'rms S/h68', 'G14: outside 68%', 'outside 90%', 'rms S/h68'],
+      [
+        'ICC set',
+        'kind',
+        'form',
+        'ICC seen',
+        'portfolios',
+        'exact: outside 68%',
+        'outside 90%',
+        'rms S/h68',
+        'G14: outside 68%',
+        'outside 90%',
+        'rms S/h68',
+      ],
       [...byKey.values()].map(({ exact, guideline14 }) => {
         const r = (exact ?? guideline14)!;
         return [
@@ -331,7 +372,8 @@ for (const combiner of combinerNames) {
       pass: within(measured, range),
     };
     // The engine combines with the residual correlation; quadrature is the plain reference it replaced, shown, not judged.
-    if (combiner === 'in quadrature') say(`  reference (${result.target.replace(/^portfolios/, 'what quadrature gives')}): ${result.measured}`);
+    if (combiner === 'in quadrature')
+      say(`  reference (${result.target.replace(/^portfolios/, 'what quadrature gives')}): ${result.measured}`);
     else checkTarget(result);
   }
 }
@@ -348,7 +390,17 @@ say(
 const normalisedRows = normalisedWithoutRetrofit(nm);
 say(
   table(
-    ['class', 'noise', 'form', 'meters', 'available', `|F| > ${percent(NORMALISED_THRESHOLD, 0)}`, 'mean F ± SE', 'band covers 0: 68%', '90%'],
+    [
+      'class',
+      'noise',
+      'form',
+      'meters',
+      'available',
+      `|F| > ${percent(NORMALISED_THRESHOLD, 0)}`,
+      'mean F ± SE',
+      'band covers 0: 68%',
+      '90%',
+    ],
     normalisedRows.map((r) => [
       r.meterClass,
       r.noise,
@@ -369,7 +421,9 @@ say();
 // ---- record ------------------------------------------------------------------
 
 const runtimeS = (performance.now() - startedAt) / 1000;
-say(`Calibration benchmark done in ${runtimeS.toFixed(1)} s; targets met ${targets.filter((t) => t.pass).length} of ${targets.length} (judged on the daily column)`);
+say(
+  `Calibration benchmark done in ${runtimeS.toFixed(1)} s; targets met ${targets.filter((t) => t.pass).length} of ${targets.length} (judged on the daily column)`,
+);
 
 const roundDeep = (value: unknown): unknown => {
   if (typeof value === 'number') return round(value);
@@ -381,7 +435,13 @@ const record = {
   benchmark: 'calibration',
   command: 'npm run bench:calibration',
   ranAt: new Date().toISOString(),
-  machine: { node: process.version, cpu: cpuList[0]?.model ?? 'unknown', cores: cpuList.length, loadAverageAtStart: loadAtStart.map((v) => v.toFixed(2)).join(' '), runs: RUNTIME },
+  machine: {
+    node: process.version,
+    cpu: cpuList[0]?.model ?? 'unknown',
+    cores: cpuList.length,
+    loadAverageAtStart: loadAtStart.map((v) => v.toFixed(2)).join(' '),
+    runs: RUNTIME,
+  },
   note: 'invented meters and climates from a seeded simulation (test/support/simulation); no retrofit, so the true saving is 0; fractions, not percent',
   formsDiffer,
   settings: SETTINGS,

@@ -22,7 +22,17 @@
  * reference.
  */
 import { performance } from 'node:perf_hooks';
-import { alignPeriods, analyseBaseline, chooseBaseline, fitShape, MODEL_NAMES, type DailyTemperature, type ModelName, type Period, type Reading } from '../../src/engine/index.js';
+import {
+  alignPeriods,
+  analyseBaseline,
+  chooseBaseline,
+  fitShape,
+  MODEL_NAMES,
+  type DailyTemperature,
+  type ModelName,
+  type Period,
+  type Reading,
+} from '../../src/engine/index.js';
 import { buildBillDays, searchDayResolved } from '../../src/engine/fit/day-resolved/search.js';
 import { daysBetween } from '../../src/engine/dates.js';
 import {
@@ -47,7 +57,15 @@ export const DAY_RESOLVED_SETTINGS = {
   /** The invented continental-like climate of the simulation library (°F). */
   climate: INVENTED_CLIMATES.continental,
   /** Invented: heats below 52 °F, flat band, cools above 66 °F (kWh/day; rates per °F). */
-  building: { base: 420, heatingBelow: 52, heatingRate: 11, coolingAbove: 66, coolingRate: 16, dailyNoise: 35, noisePersistence: 0.5 } satisfies Building,
+  building: {
+    base: 420,
+    heatingBelow: 52,
+    heatingRate: 11,
+    coolingAbove: 66,
+    coolingRate: 16,
+    dailyNoise: 35,
+    noisePersistence: 0.5,
+  } satisfies Building,
   gridStep: 0.05,
   minPoints: 3,
   runs: 200,
@@ -106,7 +124,8 @@ type Form = 'daily' | 'mean';
 function timeForms(data: DayResolvedData): Record<Form, FormTimes> {
   const { runs, warmUp, minPoints } = DAY_RESOLVED_SETTINGS;
   const forms: Form[] = ['daily', 'mean'];
-  const empty = <K extends string>(keys: readonly K[]): Record<K, number[]> => Object.fromEntries(keys.map((key) => [key, [] as number[]])) as Record<K, number[]>;
+  const empty = <K extends string>(keys: readonly K[]): Record<K, number[]> =>
+    Object.fromEntries(keys.map((key) => [key, [] as number[]])) as Record<K, number[]>;
   const series = Object.fromEntries(
     forms.map((form) => [form, { analyse: [] as number[], choose: [] as number[], fit: empty(MODEL_NAMES), search: empty(HINGE_SHAPES) }]),
   ) as Record<Form, { analyse: number[]; choose: number[]; fit: Record<ModelName, number[]>; search: Record<HingeShape, number[]> }>;
@@ -117,11 +136,25 @@ function timeForms(data: DayResolvedData): Record<Form, FormTimes> {
     };
     for (const form of forms) {
       const into = series[form];
-      keep(into.analyse, timeEach(() => analyseBaseline(data.readings, data.weather, { temperatureForm: form }), 1, 0));
-      keep(into.choose, timeEach(() => chooseBaseline(data.periods.slice(), { temperatureForm: form }), 1, 0));
-      for (const model of MODEL_NAMES) keep(into.fit[model], timeEach(() => fitShape(data.periods.slice(), model, minPoints, form), 1, 0));
+      keep(
+        into.analyse,
+        timeEach(() => analyseBaseline(data.readings, data.weather, { temperatureForm: form }), 1, 0),
+      );
+      keep(
+        into.choose,
+        timeEach(() => chooseBaseline(data.periods.slice(), { temperatureForm: form }), 1, 0),
+      );
+      for (const model of MODEL_NAMES)
+        keep(
+          into.fit[model],
+          timeEach(() => fitShape(data.periods.slice(), model, minPoints, form), 1, 0),
+        );
       if (form === 'daily') {
-        for (const shape of HINGE_SHAPES) keep(into.search[shape], timeEach(() => searchDayResolved(buildBillDays(data.periods), shape, minPoints), 1, 0));
+        for (const shape of HINGE_SHAPES)
+          keep(
+            into.search[shape],
+            timeEach(() => searchDayResolved(buildBillDays(data.periods), shape, minPoints), 1, 0),
+          );
       }
     }
   }
@@ -131,7 +164,10 @@ function timeForms(data: DayResolvedData): Record<Form, FormTimes> {
     chooseMs: median(series[form].choose),
     chooseP90Ms: quantile(series[form].choose, 0.9),
     fitMs: Object.fromEntries(MODEL_NAMES.map((model) => [model, median(series[form].fit[model])])) as Record<ModelName, number>,
-    searchMs: form === 'daily' ? (Object.fromEntries(HINGE_SHAPES.map((shape) => [shape, median(series[form].search[shape])])) as Record<HingeShape, number>) : null,
+    searchMs:
+      form === 'daily'
+        ? (Object.fromEntries(HINGE_SHAPES.map((shape) => [shape, median(series[form].search[shape])])) as Record<HingeShape, number>)
+        : null,
     selected: chooseBaseline(data.periods, { temperatureForm: form }).selected,
   });
   return { daily: summarise('daily'), mean: summarise('mean') };
@@ -275,7 +311,9 @@ export function runDayResolvedSection(say: (text?: string) => void, checkTarget:
   const b = s.building;
   const c = s.climate;
 
-  say(`5) Day-resolved fits: ${s.bills} bills of ${Math.min(...lengths)}–${Math.max(...lengths)} days against ${count(dayTemps.length)} days of weather (${s.runs} runs after ${s.warmUp} warm-up)`);
+  say(
+    `5) Day-resolved fits: ${s.bills} bills of ${Math.min(...lengths)}–${Math.max(...lengths)} days against ${count(dayTemps.length)} days of weather (${s.runs} runs after ${s.warmUp} warm-up)`,
+  );
   say(
     `  invented building: ${b.base} kWh/day flat; heating ${b.heatingRate} kWh/day per °F below ${b.heatingBelow} °F; cooling ${b.coolingRate} kWh/day per °F above ${b.coolingAbove} °F; ` +
       `answering each day's temperature, noise ${b.dailyNoise} kWh/day with day-to-day persistence ${b.noisePersistence}`,
@@ -288,10 +326,34 @@ export function runDayResolvedSection(say: (text?: string) => void, checkTarget:
 
   const forms = timeForms(data);
   const timingRows: string[][] = [
-    ['analyseBaseline (alignment + six shapes + choice)', ms(forms.daily.analyseMs), ms(forms.daily.analyseP90Ms), ms(forms.mean.analyseMs), times(forms.daily.analyseMs / forms.mean.analyseMs)],
-    ['chooseBaseline (six shapes + choice)', ms(forms.daily.chooseMs), ms(forms.daily.chooseP90Ms), ms(forms.mean.chooseMs), times(forms.daily.chooseMs / forms.mean.chooseMs)],
-    ...MODEL_NAMES.map((model) => [`fitShape ${model}`, ms(forms.daily.fitMs[model]), '', ms(forms.mean.fitMs[model]), times(forms.daily.fitMs[model] / forms.mean.fitMs[model])]),
-    ...HINGE_SHAPES.map((shape) => [`  of which the ${shape} search alone (view of the days + search)`, ms(forms.daily.searchMs![shape]), '', '', '']),
+    [
+      'analyseBaseline (alignment + six shapes + choice)',
+      ms(forms.daily.analyseMs),
+      ms(forms.daily.analyseP90Ms),
+      ms(forms.mean.analyseMs),
+      times(forms.daily.analyseMs / forms.mean.analyseMs),
+    ],
+    [
+      'chooseBaseline (six shapes + choice)',
+      ms(forms.daily.chooseMs),
+      ms(forms.daily.chooseP90Ms),
+      ms(forms.mean.chooseMs),
+      times(forms.daily.chooseMs / forms.mean.chooseMs),
+    ],
+    ...MODEL_NAMES.map((model) => [
+      `fitShape ${model}`,
+      ms(forms.daily.fitMs[model]),
+      '',
+      ms(forms.mean.fitMs[model]),
+      times(forms.daily.fitMs[model] / forms.mean.fitMs[model]),
+    ]),
+    ...HINGE_SHAPES.map((shape) => [
+      `  of which the ${shape} search alone (view of the days + search)`,
+      ms(forms.daily.searchMs![shape]),
+      '',
+      '',
+      '',
+    ]),
   ];
   say(table(['call', 'daily median', 'daily p90', 'mean-form median', 'daily/mean'], timingRows, [false, true, true, true, true]));
   say(
@@ -307,14 +369,37 @@ export function runDayResolvedSection(say: (text?: string) => void, checkTarget:
   });
   say();
 
-  say(`  Exact day-resolved search vs. a plain ${s.gridStep}° grid (day-resolved-reference.ts), same segment rule (≥ ${s.minPoints} readings' worth of days per segment)`);
-  say('   reference = degree-day columns per grid value once, a weighted least-squares refit at every point (5P: every pair cH ≤ cC), golden-section polish within one step;');
-  say('   exact = median fitShape in the daily form from the loop above (search + regression + statistics). SSE = Σ days·(use per day − fitted)²;');
-  say(`   "exact ≤ grid" compares with the polished reference, allowing a relative rounding of ${SSE_RELATIVE_TOLERANCE}; "grid/search" sets the reference beside the engine's search alone.`);
+  say(
+    `  Exact day-resolved search vs. a plain ${s.gridStep}° grid (day-resolved-reference.ts), same segment rule (≥ ${s.minPoints} readings' worth of days per segment)`,
+  );
+  say(
+    '   reference = degree-day columns per grid value once, a weighted least-squares refit at every point (5P: every pair cH ≤ cC), golden-section polish within one step;',
+  );
+  say(
+    '   exact = median fitShape in the daily form from the loop above (search + regression + statistics). SSE = Σ days·(use per day − fitted)²;',
+  );
+  say(
+    `   "exact ≤ grid" compares with the polished reference, allowing a relative rounding of ${SSE_RELATIVE_TOLERANCE}; "grid/search" sets the reference beside the engine's search alone.`,
+  );
   const shapes = HINGE_SHAPES.map((shape) => compareShape(data, shape, forms.daily.fitMs[shape], forms.daily.searchMs![shape]));
   say(
     table(
-      ['shape', 'exact', 'search', 'grid+polish', 'grid timing', 'points', 'grid/exact', 'grid/search', 'exact SSE', 'grid SSE', 'grid+polish SSE', 'exact ≤ grid', 'exact changepoint(s) °F', 'grid+polish changepoint(s) °F'],
+      [
+        'shape',
+        'exact',
+        'search',
+        'grid+polish',
+        'grid timing',
+        'points',
+        'grid/exact',
+        'grid/search',
+        'exact SSE',
+        'grid SSE',
+        'grid+polish SSE',
+        'exact ≤ grid',
+        'exact changepoint(s) °F',
+        'grid+polish changepoint(s) °F',
+      ],
       shapes.map((f) => [
         f.shape,
         ms(f.exactMedianMs),
@@ -335,11 +420,16 @@ export function runDayResolvedSection(say: (text?: string) => void, checkTarget:
     ),
   );
   const gridValues = shapes[0]!.gridValues;
-  say(`  grid: ${count(gridValues)} values from ${dayRange.min.toFixed(1)} to ${dayRange.max.toFixed(1)} °F; "points" = grid points (5P: pairs) visited, of which the segment rule let through and refitted:`);
+  say(
+    `  grid: ${count(gridValues)} values from ${dayRange.min.toFixed(1)} to ${dayRange.max.toFixed(1)} °F; "points" = grid points (5P: pairs) visited, of which the segment rule let through and refitted:`,
+  );
   say(`  ${shapes.map((f) => `${f.shape} ${count(f.pointsRefitted)}`).join(', ')}`);
-  say(`  reference phases (median ms): ${shapes.map((f) => `${f.shape} columns ${ms(f.gridPhaseMs.columns)}, grid ${ms(f.gridPhaseMs.grid)}, polish ${ms(f.gridPhaseMs.polish)}`).join('; ')}`);
+  say(
+    `  reference phases (median ms): ${shapes.map((f) => `${f.shape} columns ${ms(f.gridPhaseMs.columns)}, grid ${ms(f.gridPhaseMs.grid)}, polish ${ms(f.gridPhaseMs.polish)}`).join('; ')}`,
+  );
   const five = shapes.find((f) => f.shape === '5P')!;
-  if (five.gridTiming !== 'median') say(`  5P grid timed once: its first run took ${ms(five.gridMs)} (> ${ms(s.fivePointLongMs)}), so it was not repeated`);
+  if (five.gridTiming !== 'median')
+    say(`  5P grid timed once: its first run took ${ms(five.gridMs)} (> ${ms(s.fivePointLongMs)}), so it was not repeated`);
   const exactCheck = Math.max(...shapes.map((f) => relativeDifference(f.exactSse, f.exactSseByReference)));
   const engineCheck = Math.max(...shapes.map((f) => relativeDifference(f.gridSse, f.gridSseByEngine)));
   say(
@@ -414,7 +504,13 @@ export function runDayResolvedSection(say: (text?: string) => void, checkTarget:
       exactPlacementsAllowedByReference: shapes.every((f) => Number.isFinite(f.exactSseByReference)),
       referenceSseByEngineMaxRelativeDifference: round(engineCheck, 3),
     },
-    targets: targets.map((t) => ({ name: t.name, target: t.target, measured: t.measured, result: verdict(t.pass), ...(t.caveat ? { caveat: t.caveat } : {}) })),
+    targets: targets.map((t) => ({
+      name: t.name,
+      target: t.target,
+      measured: t.measured,
+      result: verdict(t.pass),
+      ...(t.caveat ? { caveat: t.caveat } : {}),
+    })),
     runtimeSeconds: round(runtimeS, 3),
   };
   return { record, targets };

@@ -54,7 +54,8 @@ interface Readings {
 
 function readingsOf(periods: readonly Period[]): Readings {
   const temps = periods.map((period) => {
-    if (!period.dayTemps || period.dayTemps.length === 0) throw new RangeError('the reference needs the daily temperatures of every period');
+    if (!period.dayTemps || period.dayTemps.length === 0)
+      throw new RangeError('the reference needs the daily temperatures of every period');
     return Float64Array.from(period.dayTemps);
   });
   return {
@@ -144,7 +145,11 @@ const PIVOT = 1e-12;
 /** Weighted least squares of y on [1, h]: the SSE from the residuals, +∞ when singular. */
 function refitOne(readings: Readings, h: Float64Array, ho: number): number {
   const { n, w, y } = readings;
-  let s0 = 0, s1 = 0, s11 = 0, sy = 0, s1y = 0;
+  let s0 = 0,
+    s1 = 0,
+    s11 = 0,
+    sy = 0,
+    s1y = 0;
   for (let b = 0; b < n; b++) {
     const wb = w[b]!;
     const x = h[ho + b]!;
@@ -173,7 +178,15 @@ function refitOne(readings: Readings, h: Float64Array, ho: number): number {
  */
 function refitTwo(readings: Readings, h: Float64Array, ho: number, c: Float64Array, co: number): number {
   const { n, w, y } = readings;
-  let s0 = 0, sh = 0, sc = 0, shh = 0, shc = 0, scc = 0, sy = 0, shy = 0, scy = 0;
+  let s0 = 0,
+    sh = 0,
+    sc = 0,
+    shh = 0,
+    shc = 0,
+    scc = 0,
+    sy = 0,
+    shy = 0,
+    scy = 0;
   for (let b = 0; b < n; b++) {
     const wb = w[b]!;
     const xh = h[ho + b]!;
@@ -214,7 +227,13 @@ function refitTwo(readings: Readings, h: Float64Array, ho: number, c: Float64Arr
  * refit is singular. (The polish uses it; so does the bench's check of the
  * exact fit's SSE at its own changepoints.)
  */
-export function referenceSse(shape: HingeShape, periods: readonly Period[], heating: number | null, cooling: number | null, k: number): number {
+export function referenceSse(
+  shape: HingeShape,
+  periods: readonly Period[],
+  heating: number | null,
+  cooling: number | null,
+  k: number,
+): number {
   return sseAt(readingsOf(periods), shape, heating, cooling, k);
 }
 
@@ -246,7 +265,6 @@ function sseAt(readings: Readings, shape: HingeShape, heating: number | null, co
 }
 
 // ---- the polish -----------------------------------------------------------------
-
 
 /** Golden-section steps per changepoint, and rounds over the changepoints (the 5P's two interact). */
 const POLISH_ITERATIONS = 60;
@@ -322,7 +340,12 @@ export function referenceSearch(shape: HingeShape, periods: readonly Period[], s
     }
     if (current.cooling !== null && shape !== '4P') {
       const heating = current.heating;
-      const found = goldenMinimum((x) => sseAt(readings, shape, heating, x, k), current.cooling - step, current.cooling + step, POLISH_ITERATIONS);
+      const found = goldenMinimum(
+        (x) => sseAt(readings, shape, heating, x, k),
+        current.cooling - step,
+        current.cooling + step,
+        POLISH_ITERATIONS,
+      );
       if (found.value < current.sse) current = { heating: current.heating, cooling: found.x, sse: found.value };
     }
   }

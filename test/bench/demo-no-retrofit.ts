@@ -25,15 +25,28 @@ interface Outcome {
   model: string;
 }
 
-function noRetrofitYear(meterIndex: number, form: TemperatureForm, baselineSeed: number, reportingSeed: number, weather: readonly DailyTemperature[], byDate: ReadonlyMap<string, number>): Outcome {
+function noRetrofitYear(
+  meterIndex: number,
+  form: TemperatureForm,
+  baselineSeed: number,
+  reportingSeed: number,
+  weather: readonly DailyTemperature[],
+  byDate: ReadonlyMap<string, number>,
+): Outcome {
   const plan = DEMO_FACILITIES.flatMap((f) => f.meters)[meterIndex]!;
   const baseline = demoBills(plan, byDate, BASELINE_START, BASELINE_END, 0, baselineSeed);
   const reporting = demoBills(plan, byDate, BASELINE_END, REPORTING_END, 0, reportingSeed); // saving 0: no retrofit, no change
   const analysis = analyseBaseline(baseline, weather, { temperatureForm: form });
   const fit = analysis.choice.candidates.find((c) => c.model === analysis.choice.selected)!.fit!;
-  const savings = savingsFromFit(fit, { limits: analysis.choice.settings.guideline14, excluded: analysis.excluded }, reporting, weather, { confidence: 0.68 });
+  const savings = savingsFromFit(fit, { limits: analysis.choice.settings.guideline14, excluded: analysis.excluded }, reporting, weather, {
+    confidence: 0.68,
+  });
   const t = savings.totals;
-  return { fraction: t.fractionSaved, band: Math.max(t.uncertainty.guideline14.absolute, t.uncertainty.exact.absolute) / t.adjustedBaseline, model: fit.model };
+  return {
+    fraction: t.fractionSaved,
+    band: Math.max(t.uncertainty.guideline14.absolute, t.uncertainty.exact.absolute) / t.adjustedBaseline,
+    model: fit.model,
+  };
 }
 
 const pct = (value: number) => `${value >= 0 ? '+' : '−'}${Math.abs(value * 100).toFixed(2)}%`;
@@ -51,16 +64,22 @@ for (const form of FORMS) {
     const o = noRetrofitYear(i, form, 2 * i + 1, 2 * i + 2, weather, byDate);
     const outside = Math.abs(o.fraction) > o.band;
     if (outside) beyond++;
-    console.log(`  ${name.padEnd(48)} ${o.model.padEnd(3)} ${pct(o.fraction).padStart(8)} ± ${(o.band * 100).toFixed(2)}%${outside ? '  beyond its band' : ''}`);
+    console.log(
+      `  ${name.padEnd(48)} ${o.model.padEnd(3)} ${pct(o.fraction).padStart(8)} ± ${(o.band * 100).toFixed(2)}%${outside ? '  beyond its band' : ''}`,
+    );
   });
   console.log(`  ${beyond} of ${meters.length} beyond their ± at 68%\n`);
 }
 
-console.log(`Over ${EXTRA_SEEDS} further bill-noise seeds per meter (same weather): mean false saving, and the share of years beyond the ± at 68%`);
+console.log(
+  `Over ${EXTRA_SEEDS} further bill-noise seeds per meter (same weather): mean false saving, and the share of years beyond the ± at 68%`,
+);
 for (const form of FORMS) {
   console.log(`  ${form === 'daily' ? 'day-resolved' : 'mean'} form`);
   meters.forEach((name, i) => {
-    const outcomes = Array.from({ length: EXTRA_SEEDS }, (_, k) => noRetrofitYear(i, form, 1000 + 100 * i + 2 * k, 1001 + 100 * i + 2 * k, weather, byDate));
+    const outcomes = Array.from({ length: EXTRA_SEEDS }, (_, k) =>
+      noRetrofitYear(i, form, 1000 + 100 * i + 2 * k, 1001 + 100 * i + 2 * k, weather, byDate),
+    );
     const mean = outcomes.reduce((sum, o) => sum + o.fraction, 0) / outcomes.length;
     const beyond = outcomes.filter((o) => Math.abs(o.fraction) > o.band).length;
     console.log(`    ${name.padEnd(48)} mean ${pct(mean).padStart(8)}, beyond the band in ${beyond} of ${EXTRA_SEEDS}`);

@@ -66,7 +66,11 @@ function requireOptimum(optimum: GridOptimum | null, shape: HingeShape): GridOpt
   return optimum;
 }
 
-function compare(shape: HingeShape, exact: ExactSide, grid: Omit<ShapeComparison, 'shape' | 'exactMedianMs' | 'exactRuns' | 'ratio' | 'exactSse' | 'exactNotWorse' | 'exactChangepoints'>): ShapeComparison {
+function compare(
+  shape: HingeShape,
+  exact: ExactSide,
+  grid: Omit<ShapeComparison, 'shape' | 'exactMedianMs' | 'exactRuns' | 'ratio' | 'exactSse' | 'exactNotWorse' | 'exactChangepoints'>,
+): ShapeComparison {
   return {
     shape,
     exactMedianMs: exact.medianMs,
@@ -80,7 +84,13 @@ function compare(shape: HingeShape, exact: ExactSide, grid: Omit<ShapeComparison
 }
 
 /** Grid timed as the median of `gridRuns` runs after `gridWarmUp` untimed ones. */
-export function compareByMedian(periods: readonly Period[], shape: HingeShape, exact: ExactSide, gridRuns: number, gridWarmUp: number): ShapeComparison {
+export function compareByMedian(
+  periods: readonly Period[],
+  shape: HingeShape,
+  exact: ExactSide,
+  gridRuns: number,
+  gridWarmUp: number,
+): ShapeComparison {
   const { x, y, w } = columns(periods);
   const grid = temperatureGrid(x, GRID_STEP);
   const optimum = requireOptimum(gridSearch(shape, x, y, w, GRID_STEP, MIN_POINTS, grid), shape);

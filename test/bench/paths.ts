@@ -27,7 +27,9 @@ export const REPO_ROOT = findRoot();
 export const RESULTS_DIR = join(REPO_ROOT, 'test', 'bench', 'results');
 
 /** How the benchmark runs: for the printed header and the results file. */
-export const RUNTIME = COMPILED ? 'compiled with tsc, plain node (as shipped)' : 'tsx (TypeScript run directly; slower than the shipped build)';
+export const RUNTIME = COMPILED
+  ? 'compiled with tsc, plain node (as shipped)'
+  : 'tsx (TypeScript run directly; slower than the shipped build)';
 
 /** The node arguments that start the service: the built server when compiled, the TypeScript source under tsx otherwise. */
 export function serverArguments(): string[] {

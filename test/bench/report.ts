@@ -5,7 +5,10 @@
 export function table(headers: readonly string[], rows: readonly (readonly string[])[], rightAligned: readonly boolean[] = []): string {
   const widths = headers.map((h, j) => Math.max(h.length, ...rows.map((row) => (row[j] ?? '').length)));
   const line = (cells: readonly string[]): string =>
-    cells.map((cell, j) => (rightAligned[j] ? cell.padStart(widths[j]!) : cell.padEnd(widths[j]!))).join('  ').trimEnd();
+    cells
+      .map((cell, j) => (rightAligned[j] ? cell.padStart(widths[j]!) : cell.padEnd(widths[j]!)))
+      .join('  ')
+      .trimEnd();
   const rule = widths.map((w) => '-'.repeat(w)).join('  ');
   return [line(headers), rule, ...rows.map(line)].map((l) => `  ${l}`).join('\n');
 }

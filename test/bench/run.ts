@@ -64,7 +64,13 @@ function checkTarget(result: TargetResult): void {
   say(targetLine(result));
 }
 
-const targetRecord = (t: TargetResult) => ({ name: t.name, target: t.target, measured: t.measured, result: verdict(t.pass), ...(t.caveat ? { caveat: t.caveat } : {}) });
+const targetRecord = (t: TargetResult) => ({
+  name: t.name,
+  target: t.target,
+  measured: t.measured,
+  result: verdict(t.pass),
+  ...(t.caveat ? { caveat: t.caveat } : {}),
+});
 const resultsFile = join(RESULTS_DIR, 'engine-latest.json');
 
 const onlySection = process.env.ENGINE_BENCH_ONLY;
@@ -83,12 +89,16 @@ if (onlySection === 'day-resolved') {
 function runDayResolvedAlone(): void {
   const cpu = cpus();
   say('Engine benchmark, section 5 only (ENGINE_BENCH_ONLY=day-resolved; invented, seeded data; medians of individually timed runs)');
-  say(`  node ${process.version}, ${cpu[0]?.model ?? 'unknown CPU'} × ${cpu.length}, load average at start ${loadAtStart.map((v) => v.toFixed(2)).join(' ')}`);
+  say(
+    `  node ${process.version}, ${cpu[0]?.model ?? 'unknown CPU'} × ${cpu.length}, load average at start ${loadAtStart.map((v) => v.toFixed(2)).join(' ')}`,
+  );
   say();
   const section = runDayResolvedSection(say, checkTarget);
   const loadAtEnd = loadavg();
   say(`  load average at end ${loadAtEnd.map((v) => v.toFixed(2)).join(' ')}`);
-  const previous = existsSync(resultsFile) ? (JSON.parse(readFileSync(resultsFile, 'utf8')) as Record<string, unknown>) : { benchmark: 'engine', command: 'npm run bench' };
+  const previous = existsSync(resultsFile)
+    ? (JSON.parse(readFileSync(resultsFile, 'utf8')) as Record<string, unknown>)
+    : { benchmark: 'engine', command: 'npm run bench' };
   const names = new Set(section.targets.map((t) => t.name));
   const kept = Array.isArray(previous.targets) ? (previous.targets as { name?: string }[]).filter((t) => !names.has(t.name ?? '')) : [];
   const merged: Record<string, unknown> = { ...previous };
@@ -96,7 +106,11 @@ function runDayResolvedAlone(): void {
   delete merged.runtimeSeconds;
   merged.dayResolved = {
     ...section.record,
-    ranAlone: { ranAt: new Date().toISOString(), loadAverageAtStart: loadAtStart.map((v) => v.toFixed(2)).join(' '), loadAverageAtEnd: loadAtEnd.map((v) => v.toFixed(2)).join(' ') },
+    ranAlone: {
+      ranAt: new Date().toISOString(),
+      loadAverageAtStart: loadAtStart.map((v) => v.toFixed(2)).join(' '),
+      loadAverageAtEnd: loadAtEnd.map((v) => v.toFixed(2)).join(' '),
+    },
   };
   merged.targets = [...kept, ...section.targets.map(targetRecord)];
   if (previous.runtimeSeconds !== undefined) merged.runtimeSeconds = previous.runtimeSeconds;
@@ -123,7 +137,9 @@ deepStrictEqual(withoutDays(alignPeriods(daily.readings!, daily.weather!).period
 
 const cpuList = cpus();
 say('Engine benchmark (invented, seeded data; medians of individually timed runs)');
-say(`  node ${process.version}, ${cpuList[0]?.model ?? 'unknown CPU'} × ${cpuList.length}, load average at start ${loadAtStart.map((v) => v.toFixed(2)).join(' ')}`);
+say(
+  `  node ${process.version}, ${cpuList[0]?.model ?? 'unknown CPU'} × ${cpuList.length}, load average at start ${loadAtStart.map((v) => v.toFixed(2)).join(' ')}`,
+);
 say(`  runs: ${RUNTIME}`);
 const b = BENCH_BUILDING;
 say(
@@ -174,19 +190,35 @@ function printChoice(figures: ChoiceFigures): void {
   say(`  median ${ms(figures.medianMs)} per meter (p90 ${ms(figures.p90Ms)}); selected shape: ${figures.selected}`);
   const perShape = MODEL_NAMES.map((model) => `${model} ${ms(figures.fitMs[model])}`).join(', ');
   say(`  fitShape alone, median each (timed in the same loop): ${perShape}`);
-  say(`  six fits together ${ms(figures.sixFitsMs)}; the rest of the choice (screening, t and F tests, reasons; difference of medians) ≈ ${ms(Math.max(0, figures.medianMs - figures.sixFitsMs))}`);
+  say(
+    `  six fits together ${ms(figures.sixFitsMs)}; the rest of the choice (screening, t and F tests, reasons; difference of medians) ≈ ${ms(Math.max(0, figures.medianMs - figures.sixFitsMs))}`,
+  );
 }
 
-say(`1) Choose among all six shapes, ${monthly.periods.length} monthly periods (${count(SETTINGS.monthlyRuns)} runs after ${SETTINGS.monthlyWarmUp} warm-up)`);
+say(
+  `1) Choose among all six shapes, ${monthly.periods.length} monthly periods (${count(SETTINGS.monthlyRuns)} runs after ${SETTINGS.monthlyWarmUp} warm-up)`,
+);
 const monthlyChoice = measureChoice(monthly.periods, SETTINGS.monthlyRuns, SETTINGS.monthlyWarmUp);
 printChoice(monthlyChoice);
-checkTarget({ name: 'monthly choice', target: `≤ ${SETTINGS.targets.monthlyMs} ms per 36-period meter, all shapes`, measured: ms(monthlyChoice.medianMs), pass: monthlyChoice.medianMs <= SETTINGS.targets.monthlyMs });
+checkTarget({
+  name: 'monthly choice',
+  target: `≤ ${SETTINGS.targets.monthlyMs} ms per 36-period meter, all shapes`,
+  measured: ms(monthlyChoice.medianMs),
+  pass: monthlyChoice.medianMs <= SETTINGS.targets.monthlyMs,
+});
 say();
 
-say(`2) Choose among all six shapes, ${count(daily.periods.length)} daily periods (${SETTINGS.dailyRuns} runs after ${SETTINGS.dailyWarmUp} warm-up)`);
+say(
+  `2) Choose among all six shapes, ${count(daily.periods.length)} daily periods (${SETTINGS.dailyRuns} runs after ${SETTINGS.dailyWarmUp} warm-up)`,
+);
 const dailyChoice = measureChoice(daily.periods, SETTINGS.dailyRuns, SETTINGS.dailyWarmUp);
 printChoice(dailyChoice);
-checkTarget({ name: 'daily choice', target: `≤ ${SETTINGS.targets.dailyMs} ms for 1,096 daily periods incl. exact 5P`, measured: ms(dailyChoice.medianMs), pass: dailyChoice.medianMs <= SETTINGS.targets.dailyMs });
+checkTarget({
+  name: 'daily choice',
+  target: `≤ ${SETTINGS.targets.dailyMs} ms for 1,096 daily periods incl. exact 5P`,
+  measured: ms(dailyChoice.medianMs),
+  pass: dailyChoice.medianMs <= SETTINGS.targets.dailyMs,
+});
 say();
 
 // ---- 3: refit 10,000 meters -------------------------------------------------
@@ -225,13 +257,22 @@ const refit = {
   heapMb: { before: heapBefore, afterNoGc: heapAfter, sampledPeak: Math.max(heapPeak, heapAfter), afterGc: heapAfterGc },
 };
 say(`  total ${ms(refit.totalMs)}; median ${ms(refit.medianMs)} per meter (p90 ${ms(refit.p90Ms)}, slowest ${ms(refit.maxMs)})`);
-say(`  selected shapes: ${MODEL_NAMES.filter((m) => selectedCounts[m]).map((m) => `${m} ${count(selectedCounts[m]!)}`).join(', ')}`);
+say(
+  `  selected shapes: ${MODEL_NAMES.filter((m) => selectedCounts[m])
+    .map((m) => `${m} ${count(selectedCounts[m]!)}`)
+    .join(', ')}`,
+);
 say(
   `  heapUsed: ${mb(refit.heapMb.before)} MB before (after GC, input data already built) -> ${mb(refit.heapMb.afterNoGc)} MB right after ` +
     `(growth ${mb(refit.heapMb.afterNoGc - refit.heapMb.before)} MB, garbage not yet collected; sampled peak ${mb(refit.heapMb.sampledPeak)} MB) -> ` +
     `${mb(refit.heapMb.afterGc)} MB after GC (retained growth ${mb(refit.heapMb.afterGc - refit.heapMb.before)} MB)`,
 );
-checkTarget({ name: 'refit per meter', target: `≤ ${SETTINGS.targets.monthlyMs} ms per 36-period meter, all shapes`, measured: ms(refit.medianMs), pass: refit.medianMs <= SETTINGS.targets.monthlyMs });
+checkTarget({
+  name: 'refit per meter',
+  target: `≤ ${SETTINGS.targets.monthlyMs} ms per 36-period meter, all shapes`,
+  measured: ms(refit.medianMs),
+  pass: refit.medianMs <= SETTINGS.targets.monthlyMs,
+});
 meters.length = 0;
 say();
 
@@ -260,7 +301,19 @@ function printComparison(figures: GridFigures): void {
   ]);
   say(
     table(
-      ['shape', 'exact', 'grid', 'grid timing', 'grid pts', 'grid/exact', 'exact SSE', 'grid SSE', 'exact ≤ grid', 'exact changepoint(s) °F', 'grid changepoint(s) °F'],
+      [
+        'shape',
+        'exact',
+        'grid',
+        'grid timing',
+        'grid pts',
+        'grid/exact',
+        'exact SSE',
+        'grid SSE',
+        'exact ≤ grid',
+        'exact changepoint(s) °F',
+        'grid changepoint(s) °F',
+      ],
       rows,
       [false, true, true, false, true, true, true, true, false, false, false],
     ),
@@ -285,8 +338,12 @@ function gridTarget(label: string, figures: GridFigures): void {
   });
 }
 
-say(`4) Exact changepoint search vs. plain grid search at ${GRID_STEP}° steps (test/support/grid-search.ts: weighted least squares refitted at every grid point)`);
-say('   exact = median of the public fitShape from 1) and 2) (search + regression + statistics); grid = the changepoint search only; both keep ≥ 3 points per segment.');
+say(
+  `4) Exact changepoint search vs. plain grid search at ${GRID_STEP}° steps (test/support/grid-search.ts: weighted least squares refitted at every grid point)`,
+);
+say(
+  '   exact = median of the public fitShape from 1) and 2) (search + regression + statistics); grid = the changepoint search only; both keep ≥ 3 points per segment.',
+);
 say(`   SSE = Σ days·(use per day − fitted)²; "exact ≤ grid" allows a relative rounding of ${SSE_RELATIVE_TOLERANCE}.`);
 say(`  ${monthly.periods.length} monthly periods (grid: median of the runs shown, after ${SETTINGS.gridMonthlyWarmUp} warm-up)`);
 const monthlyGrid: GridFigures = (() => {
@@ -331,7 +388,12 @@ say();
 const loadAtEnd = loadavg();
 const runtimeS = (performance.now() - startedAt) / 1000;
 say('Targets');
-say(table(['target', 'measured', 'result'], targets.map((t) => [`${t.name}: ${t.target}`, t.measured, `${verdict(t.pass)}${t.caveat ? ` (${t.caveat})` : ''}`])));
+say(
+  table(
+    ['target', 'measured', 'result'],
+    targets.map((t) => [`${t.name}: ${t.target}`, t.measured, `${verdict(t.pass)}${t.caveat ? ` (${t.caveat})` : ''}`]),
+  ),
+);
 say(`  bench runtime ${runtimeS.toFixed(0)} s; load average at end ${loadAtEnd.map((v) => v.toFixed(2)).join(' ')}`);
 
 const shapeRecord = (c: ShapeComparison) => ({

@@ -64,7 +64,9 @@ async function main(): Promise<void> {
       ),
       httpContractYearHtml: summary(
         await timeAsync(async () => {
-          const response = await fetch(`${base}/v1/reports/savings?contractYear=1&format=html`, { headers: { authorization: `Bearer ${seed.analystKey}` } });
+          const response = await fetch(`${base}/v1/reports/savings?contractYear=1&format=html`, {
+            headers: { authorization: `Bearer ${seed.analystKey}` },
+          });
           await response.text();
         }),
       ),
@@ -80,7 +82,10 @@ async function main(): Promise<void> {
     ];
     process.stdout.write(`${lines.join('\n')}\n`);
     mkdirSync(RESULTS_DIR, { recursive: true });
-    writeFileSync(join(RESULTS_DIR, 'report-latest.json'), `${JSON.stringify({ measuredAt: new Date().toISOString(), node: process.version, ...results, ratioToReference: ratio }, null, 2)}\n`);
+    writeFileSync(
+      join(RESULTS_DIR, 'report-latest.json'),
+      `${JSON.stringify({ measuredAt: new Date().toISOString(), node: process.version, ...results, ratioToReference: ratio }, null, 2)}\n`,
+    );
   } finally {
     await store.close();
     await service.stop();

@@ -39,7 +39,15 @@ const CONNECTIONS = 10;
 async function startServer(databaseUrl: string): Promise<{ child: ChildProcess; base: string }> {
   const port = await freePort();
   const child = spawn(process.execPath, serverArguments(), {
-    env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', DATABASE_URL: databaseUrl, LOG_LEVEL: 'warn', MVLEDGER_BOOTSTRAP_KEY: BOOTSTRAP_KEY, RATE_LIMIT_PER_MINUTE: '0' },
+    env: {
+      ...process.env,
+      PORT: String(port),
+      HOST: '127.0.0.1',
+      DATABASE_URL: databaseUrl,
+      LOG_LEVEL: 'warn',
+      MVLEDGER_BOOTSTRAP_KEY: BOOTSTRAP_KEY,
+      RATE_LIMIT_PER_MINUTE: '0',
+    },
     stdio: ['ignore', 'inherit', 'inherit'],
   });
   const base = `http://127.0.0.1:${port}`;
@@ -78,7 +86,9 @@ function dailyReadings(meterIndex: number): { start: string; end: string; quanti
 function referenceInsertSqlite(file: string): number {
   const db = new SQLite(file);
   db.pragma('journal_mode = WAL');
-  db.exec('create table readings (meter_id text, period_start text, period_end text, quantity real, estimated integer, cost real, created_at text, updated_at text, primary key (meter_id, period_start, period_end))');
+  db.exec(
+    'create table readings (meter_id text, period_start text, period_end text, quantity real, estimated integer, cost real, created_at text, updated_at text, primary key (meter_id, period_start, period_end))',
+  );
   const insert = db.prepare('insert into readings values (?, ?, ?, ?, 0, null, ?, ?)');
   const started = performance.now();
   const now = new Date().toISOString();
@@ -98,7 +108,9 @@ async function referenceInsertPostgres(url: string, schema: string): Promise<num
   await client.connect();
   try {
     await client.query(`create schema ${schema}`);
-    await client.query(`create table ${schema}.readings (meter_id text, period_start text, period_end text, quantity double precision, estimated integer, cost double precision, created_at text, updated_at text, primary key (meter_id, period_start, period_end))`);
+    await client.query(
+      `create table ${schema}.readings (meter_id text, period_start text, period_end text, quantity double precision, estimated integer, cost double precision, created_at text, updated_at text, primary key (meter_id, period_start, period_end))`,
+    );
     const now = new Date().toISOString();
     const started = performance.now();
     for (let m = 0; m < METERS; m++) {
@@ -125,15 +137,33 @@ async function referenceInsertPostgres(url: string, schema: string): Promise<num
 
 interface ScenarioResult {
   database: string;
-  ingestion: Record<string, unknown> & { readingsPerSecond: number; referenceReadingsPerSecond: number; ratioToReference: number; medianBatchMs: number; seconds: number; pass: boolean };
-  savings: Record<string, unknown> & { requestsPerSecond: number; p50Ms: number; p99Ms: number; non2xx: number; errors: number; pass: boolean };
+  ingestion: Record<string, unknown> & {
+    readingsPerSecond: number;
+    referenceReadingsPerSecond: number;
+    ratioToReference: number;
+    medianBatchMs: number;
+    seconds: number;
+    pass: boolean;
+  };
+  savings: Record<string, unknown> & {
+    requestsPerSecond: number;
+    p50Ms: number;
+    p99Ms: number;
+    non2xx: number;
+    errors: number;
+    pass: boolean;
+  };
 }
 
 async function main(): Promise<void> {
   rmSync(WORK, { recursive: true, force: true });
   mkdirSync(WORK, { recursive: true });
   const runs: ScenarioResult[] = [];
-  runs.push(await scenario('SQLite', `sqlite:${join(WORK, 'service.sqlite')}`, () => Promise.resolve(referenceInsertSqlite(join(WORK, 'reference.sqlite')))));
+  runs.push(
+    await scenario('SQLite', `sqlite:${join(WORK, 'service.sqlite')}`, () =>
+      Promise.resolve(referenceInsertSqlite(join(WORK, 'reference.sqlite'))),
+    ),
+  );
   if (await postgresReachable()) {
     const suffix = `${process.pid}_${Date.now().toString(36)}`;
     const url = new URL(testPostgresUrl());
@@ -161,7 +191,12 @@ async function scenario(database: string, databaseUrl: string, reference: () => 
     // 1. Ingestion.
     const meters: string[] = [];
     for (let m = 0; m < METERS; m++) {
-      const meter = await api(base, 'POST', `/v1/facilities/${facility.id}/meters`, { name: `Bench meter ${m}`, fuel: 'electricity', unit: 'kWh', weatherStationId: station.id });
+      const meter = await api(base, 'POST', `/v1/facilities/${facility.id}/meters`, {
+        name: `Bench meter ${m}`,
+        fuel: 'electricity',
+        unit: 'kWh',
+        weatherStationId: station.id,
+      });
       meters.push(meter.id);
     }
     const batchMs: number[] = [];
@@ -183,7 +218,12 @@ async function scenario(database: string, databaseUrl: string, reference: () => 
     const weatherByDate = new Map(weather.map((w) => [w.date, w.temp]));
     await api(base, 'PUT', `/v1/weather-stations/${station.id}/observations`, { observations: weather });
     const demoMeter = DEMO_FACILITIES[1]!.meters[0]!;
-    const savingsMeter = await api(base, 'POST', `/v1/facilities/${facility.id}/meters`, { name: 'Bench 36-month meter', fuel: 'electricity', unit: 'kWh', weatherStationId: station.id });
+    const savingsMeter = await api(base, 'POST', `/v1/facilities/${facility.id}/meters`, {
+      name: 'Bench 36-month meter',
+      fuel: 'electricity',
+      unit: 'kWh',
+      weatherStationId: station.id,
+    });
     const baselineBills = demoBills(demoMeter, weatherByDate, BASELINE_START, BASELINE_END, 0, 1);
     const reportingBills = demoBills(demoMeter, weatherByDate, BASELINE_END, REPORTING_END, demoMeter.reportingSaving, 2);
     await api(base, 'POST', `/v1/meters/${savingsMeter.id}/readings`, { readings: baselineBills });
@@ -192,7 +232,12 @@ async function scenario(database: string, databaseUrl: string, reference: () => 
     await api(base, 'POST', `/v1/meters/${savingsMeter.id}/readings`, { readings: reportingBills });
     const url = `${base}/v1/meters/${savingsMeter.id}/savings?confidence=0.9`;
     await api(base, 'GET', `/v1/meters/${savingsMeter.id}/savings?confidence=0.9`);
-    const load = await autocannon({ url, connections: CONNECTIONS, duration: LOAD_SECONDS, headers: { authorization: `Bearer ${BOOTSTRAP_KEY}` } });
+    const load = await autocannon({
+      url,
+      connections: CONNECTIONS,
+      duration: LOAD_SECONDS,
+      headers: { authorization: `Bearer ${BOOTSTRAP_KEY}` },
+    });
 
     // Reference: the engine alone, in-process, on the same data.
     const analysis = analyseBaseline(baselineBills, weather);
@@ -200,7 +245,9 @@ async function scenario(database: string, databaseUrl: string, reference: () => 
     const engineMs: number[] = [];
     for (let i = 0; i < 2000; i++) {
       const started = performance.now();
-      savingsFromFit(fit, { limits: analysis.choice.settings.guideline14, excluded: analysis.excluded }, reportingBills, weatherByDate, { confidence: 0.9 });
+      savingsFromFit(fit, { limits: analysis.choice.settings.guideline14, excluded: analysis.excluded }, reportingBills, weatherByDate, {
+        confidence: 0.9,
+      });
       engineMs.push(performance.now() - started);
     }
 
@@ -247,15 +294,24 @@ function report(runs: ScenarioResult[]): void {
     lines.push(
       `    ingestion: ${(i.readings as number).toLocaleString('en-US')} daily readings in batches of ${i.batchSize}: ${i.seconds.toFixed(2)} s → ${Math.round(i.readingsPerSecond).toLocaleString('en-US')} readings/s (median batch ${i.medianBatchMs.toFixed(1)} ms)`,
     );
-    lines.push(`      reference (the same rows written straight in, no HTTP, no checks): ${Math.round(i.referenceReadingsPerSecond).toLocaleString('en-US')} readings/s; the API reaches ${(i.ratioToReference * 100).toFixed(0)}% of it`);
+    lines.push(
+      `      reference (the same rows written straight in, no HTTP, no checks): ${Math.round(i.referenceReadingsPerSecond).toLocaleString('en-US')} readings/s; the API reaches ${(i.ratioToReference * 100).toFixed(0)}% of it`,
+    );
     lines.push(`      target ${i.target}: ${i.pass ? 'PASS' : 'MISS'}`);
-    lines.push(`    savings: ${v.connections} connections for ${v.seconds} s: ${Math.round(v.requestsPerSecond).toLocaleString('en-US')} requests/s, p50 ${v.p50Ms} ms, p99 ${v.p99Ms} ms, non-2xx ${v.non2xx}, errors ${v.errors}`);
-    lines.push(`      reference (the engine alone, in-process): median ${(v.engineAloneMedianMs as number).toFixed(3)} ms, p99 ${(v.engineAloneP99Ms as number).toFixed(3)} ms per savings computation`);
+    lines.push(
+      `    savings: ${v.connections} connections for ${v.seconds} s: ${Math.round(v.requestsPerSecond).toLocaleString('en-US')} requests/s, p50 ${v.p50Ms} ms, p99 ${v.p99Ms} ms, non-2xx ${v.non2xx}, errors ${v.errors}`,
+    );
+    lines.push(
+      `      reference (the engine alone, in-process): median ${(v.engineAloneMedianMs as number).toFixed(3)} ms, p99 ${(v.engineAloneP99Ms as number).toFixed(3)} ms per savings computation`,
+    );
     lines.push(`      target ${v.target}: ${v.pass ? 'PASS' : 'MISS'}`);
   }
   process.stdout.write(`${lines.join('\n')}\n`);
   mkdirSync(RESULTS_DIR, { recursive: true });
-  writeFileSync(join(RESULTS_DIR, 'service-latest.json'), `${JSON.stringify({ node: process.version, ranAt: new Date().toISOString(), runs }, null, 2)}\n`);
+  writeFileSync(
+    join(RESULTS_DIR, 'service-latest.json'),
+    `${JSON.stringify({ node: process.version, ranAt: new Date().toISOString(), runs }, null, 2)}\n`,
+  );
 }
 
 await main();

@@ -48,7 +48,15 @@ async function main(): Promise<void> {
   const databaseUrl = usePostgres ? freshTestDatabaseUrl() : `sqlite:${join(WORK, 'soak.sqlite')}`;
   const port = await freePort();
   const child: ChildProcess = spawn(process.execPath, serverArguments(), {
-    env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', DATABASE_URL: databaseUrl, LOG_LEVEL: 'warn', MVLEDGER_BOOTSTRAP_KEY: KEY, RATE_LIMIT_PER_MINUTE: '0' },
+    env: {
+      ...process.env,
+      PORT: String(port),
+      HOST: '127.0.0.1',
+      DATABASE_URL: databaseUrl,
+      LOG_LEVEL: 'warn',
+      MVLEDGER_BOOTSTRAP_KEY: KEY,
+      RATE_LIMIT_PER_MINUTE: '0',
+    },
     stdio: ['ignore', 'inherit', 'inherit'],
   });
   const base = `http://127.0.0.1:${port}`;
@@ -84,15 +92,27 @@ async function main(): Promise<void> {
     await must('PUT', `/v1/weather-stations/${station.id}/observations`, { observations: weather });
     const facility = await must('POST', '/v1/facilities', { name: 'Soak facility (invented)' });
     const plan = DEMO_FACILITIES[0]!.meters[0]!;
-    const savingsMeter = await must('POST', `/v1/facilities/${facility.id}/meters`, { name: 'Savings meter', fuel: 'electricity', unit: 'kWh', weatherStationId: station.id });
+    const savingsMeter = await must('POST', `/v1/facilities/${facility.id}/meters`, {
+      name: 'Savings meter',
+      fuel: 'electricity',
+      unit: 'kWh',
+      weatherStationId: station.id,
+    });
     await must('POST', `/v1/meters/${savingsMeter.id}/readings`, { readings: demoBills(plan, byDate, BASELINE_START, BASELINE_END, 0, 1) });
     const baseline = await must('POST', `/v1/meters/${savingsMeter.id}/baselines`, { start: BASELINE_START, end: BASELINE_END });
     await must('POST', `/v1/baselines/${baseline.id}/freeze`, { note: 'soak' });
-    await must('POST', `/v1/meters/${savingsMeter.id}/readings`, { readings: demoBills(plan, byDate, BASELINE_END, REPORTING_END, 0.1, 2) });
+    await must('POST', `/v1/meters/${savingsMeter.id}/readings`, {
+      readings: demoBills(plan, byDate, BASELINE_END, REPORTING_END, 0.1, 2),
+    });
     const ingestMeters: string[] = [];
     const ingestMeter = async (index: number): Promise<string> => {
       while (ingestMeters.length <= index) {
-        const meter = await must('POST', `/v1/facilities/${facility.id}/meters`, { name: `Ingestion meter ${ingestMeters.length + 1}`, fuel: 'electricity', unit: 'kWh', weatherStationId: station.id });
+        const meter = await must('POST', `/v1/facilities/${facility.id}/meters`, {
+          name: `Ingestion meter ${ingestMeters.length + 1}`,
+          fuel: 'electricity',
+          unit: 'kWh',
+          weatherStationId: station.id,
+        });
         ingestMeters.push(meter.id);
       }
       return ingestMeters[index]!;
@@ -100,7 +120,10 @@ async function main(): Promise<void> {
 
     const memory: { second: number; residentMb: number }[] = [{ second: 0, residentMb: residentMb(child.pid!) }];
     const started = performance.now();
-    const sampler = setInterval(() => memory.push({ second: Math.round((performance.now() - started) / 1000), residentMb: residentMb(child.pid!) }), SAMPLE_SECONDS * 1000);
+    const sampler = setInterval(
+      () => memory.push({ second: Math.round((performance.now() - started) / 1000), residentMb: residentMb(child.pid!) }),
+      SAMPLE_SECONDS * 1000,
+    );
 
     // Billing system: back-to-back batches until time is up.
     const acknowledged: { meter: number; first: string; days: number }[] = [];
@@ -111,7 +134,11 @@ async function main(): Promise<void> {
       while (performance.now() - started < SECONDS * 1000) {
         const meter = Math.floor(day / DAYS_PER_METER);
         const first = addDays('1950-01-01', day % DAYS_PER_METER);
-        const readings = Array.from({ length: BATCH_DAYS }, (_, k) => ({ start: addDays(first, k), end: addDays(first, k + 1), quantity: 500 + ((day + k) % 97) }));
+        const readings = Array.from({ length: BATCH_DAYS }, (_, k) => ({
+          start: addDays(first, k),
+          end: addDays(first, k + 1),
+          quantity: 500 + ((day + k) % 97),
+        }));
         const meterId = await ingestMeter(meter);
         const t0 = performance.now();
         const answer = await call('POST', `/v1/meters/${meterId}/readings`, { readings });
@@ -122,7 +149,12 @@ async function main(): Promise<void> {
         await new Promise((r) => setTimeout(r, PAUSE_MS));
       }
     })();
-    const reads = autocannon({ url: `${base}/v1/meters/${savingsMeter.id}/savings?confidence=0.9`, connections: 8, duration: SECONDS, headers: { authorization: `Bearer ${KEY}` } });
+    const reads = autocannon({
+      url: `${base}/v1/meters/${savingsMeter.id}/savings?confidence=0.9`,
+      connections: 8,
+      duration: SECONDS,
+      headers: { authorization: `Bearer ${KEY}` },
+    });
     const [load] = await Promise.all([reads, ingestion]);
     clearInterval(sampler);
     memory.push({ second: Math.round((performance.now() - started) / 1000), residentMb: residentMb(child.pid!) });
@@ -134,7 +166,8 @@ async function main(): Promise<void> {
       const stored = await must('GET', `/v1/meters/${ingestMeters[meter]}/readings`);
       storedCount += stored.readings.length;
       const storedStarts = new Set<string>(stored.readings.map((r: { start: string }) => r.start));
-      for (const batch of acknowledged.filter((b) => b.meter === meter)) for (let k = 0; k < batch.days; k++) if (!storedStarts.has(addDays(batch.first, k))) missing++;
+      for (const batch of acknowledged.filter((b) => b.meter === meter))
+        for (let k = 0; k < batch.days; k++) if (!storedStarts.has(addDays(batch.first, k))) missing++;
     }
     const store = openStore(databaseUrl);
     const chain = await verifyAllAuditChains(store.db);
@@ -154,7 +187,14 @@ async function main(): Promise<void> {
         batchP99Ms: quantile(batchMs, 0.99),
         failures: failures.length,
       },
-      savings: { requests: load.requests.total, requestsPerSecond: load.requests.average, p50Ms: load.latency.p50, p99Ms: load.latency.p99, non2xx: load.non2xx, errors: load.errors },
+      savings: {
+        requests: load.requests.total,
+        requestsPerSecond: load.requests.average,
+        p50Ms: load.latency.p50,
+        p99Ms: load.latency.p99,
+        non2xx: load.non2xx,
+        errors: load.errors,
+      },
       memory: {
         startMb: memory[0]!.residentMb,
         peakMb: Math.max(...memory.map((m) => m.residentMb)),

@@ -83,7 +83,12 @@ interface MeterOptions {
  * use is the building's shape at that day's temperature plus noise; a
  * period's quantity is the sum over its days.
  */
-function meterFromPeriodLengths(random: SeededRandom, firstDate: string, lengths: readonly number[], options: MeterOptions): SyntheticMeter {
+function meterFromPeriodLengths(
+  random: SeededRandom,
+  firstDate: string,
+  lengths: readonly number[],
+  options: MeterOptions,
+): SyntheticMeter {
   const building = options.building ?? BENCH_BUILDING;
   const firstDay = dayNumber(firstDate);
   const totalDays = lengths.reduce((sum, days) => sum + days, 0);

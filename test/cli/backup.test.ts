@@ -20,7 +20,8 @@ import { makeTempFolder, runCli, type CliRun } from './helpers.js';
 const folder = makeTempFolder();
 const source = folder.path('source.sqlite');
 const backup = folder.path('backup.sqlite');
-const VERIFIED = /verified: 1 organisation, \d+ audit rows in unbroken chains, 6 frozen or superseded baselines match their content hashes\n$/; // the demo: one organisation, six meters
+const VERIFIED =
+  /verified: 1 organisation, \d+ audit rows in unbroken chains, 6 frozen or superseded baselines match their content hashes\n$/; // the demo: one organisation, six meters
 
 function cli(url: string, args: string[]): Promise<CliRun> {
   vi.stubEnv('DATABASE_URL', url);
@@ -81,7 +82,10 @@ describe('mvledger backup', () => {
   it('keeps a faithful copy of a ledger that does not verify, and exits 2 saying so', async () => {
     const damaged = editedCopy('damaged.sqlite', "update audit_log set action = 'edited' where seq = 2");
     const run = await cli(`sqlite:${damaged}`, ['backup', '--out', folder.path('damaged-copy.sqlite')]);
-    expectOneLineRefusal(run, /^mvledger: backed up .* but the ledger does not verify: the audit chain of organisation \S+ breaks at seq 2: /);
+    expectOneLineRefusal(
+      run,
+      /^mvledger: backed up .* but the ledger does not verify: the audit chain of organisation \S+ breaks at seq 2: /,
+    );
     expect(await digestOf(folder.path('damaged-copy.sqlite'))).toBe(await digestOf(damaged));
   });
 
@@ -89,12 +93,38 @@ describe('mvledger backup', () => {
     { what: 'without --out', args: () => ['backup'], says: /^mvledger: --out FILE is required/ },
     { what: 'an empty --out', args: () => ['backup', '--out', ' '], says: /^mvledger: --out must not be empty\n$/ },
     { what: 'an unknown option', args: () => ['backup', '--out', backup, '--gzip'], says: /^mvledger: unknown option --gzip\n$/ },
-    { what: 'a folder that does not exist', args: () => ['backup', '--out', folder.path('no/such/dir/b.sqlite')], says: /^mvledger: --out .*b\.sqlite: cannot write it \(ENOENT\)\n$/ },
-    { what: 'a path under a plain file', args: () => ['backup', '--out', `${source}/b.sqlite`], says: /^mvledger: --out .*b\.sqlite: cannot write it \(ENOTDIR\)\n$/ },
-    { what: 'a folder as --out', args: () => ['backup', '--out', folder.path('')], says: /^mvledger: --out .*: cannot write it \(EISDIR\)\n$/ },
-    { what: 'the database itself as --out', args: () => ['backup', '--out', source], says: /^mvledger: --out .*source\.sqlite: that is the database itself/ },
-    { what: 'an in-memory database', url: 'sqlite::memory:', args: () => ['backup', '--out', backup], says: /^mvledger: DATABASE_URL: sqlite::memory: is no file to back up\n$/ },
-    { what: 'a database file that is not SQLite', url: 'sqlite:NOTDB', args: () => ['backup', '--out', folder.path('x.sqlite')], says: /^mvledger: DATABASE_URL: .*not-a-database\.txt is not an SQLite database\n$/ },
+    {
+      what: 'a folder that does not exist',
+      args: () => ['backup', '--out', folder.path('no/such/dir/b.sqlite')],
+      says: /^mvledger: --out .*b\.sqlite: cannot write it \(ENOENT\)\n$/,
+    },
+    {
+      what: 'a path under a plain file',
+      args: () => ['backup', '--out', `${source}/b.sqlite`],
+      says: /^mvledger: --out .*b\.sqlite: cannot write it \(ENOTDIR\)\n$/,
+    },
+    {
+      what: 'a folder as --out',
+      args: () => ['backup', '--out', folder.path('')],
+      says: /^mvledger: --out .*: cannot write it \(EISDIR\)\n$/,
+    },
+    {
+      what: 'the database itself as --out',
+      args: () => ['backup', '--out', source],
+      says: /^mvledger: --out .*source\.sqlite: that is the database itself/,
+    },
+    {
+      what: 'an in-memory database',
+      url: 'sqlite::memory:',
+      args: () => ['backup', '--out', backup],
+      says: /^mvledger: DATABASE_URL: sqlite::memory: is no file to back up\n$/,
+    },
+    {
+      what: 'a database file that is not SQLite',
+      url: 'sqlite:NOTDB',
+      args: () => ['backup', '--out', folder.path('x.sqlite')],
+      says: /^mvledger: DATABASE_URL: .*not-a-database\.txt is not an SQLite database\n$/,
+    },
   ];
   for (const c of bad) {
     it(`refuses ${c.what} with exit 2 and one line`, async () => {
@@ -106,7 +136,10 @@ describe('mvledger backup', () => {
 
   it('refuses a database file that does not exist, without creating it', async () => {
     const missing = folder.path('missing.sqlite');
-    expectOneLineRefusal(await cli(`sqlite:${missing}`, ['backup', '--out', folder.path('m.sqlite')]), /^mvledger: DATABASE_URL: no database file .*missing\.sqlite to back up\n$/);
+    expectOneLineRefusal(
+      await cli(`sqlite:${missing}`, ['backup', '--out', folder.path('m.sqlite')]),
+      /^mvledger: DATABASE_URL: no database file .*missing\.sqlite to back up\n$/,
+    );
     expect(existsSync(missing)).toBe(false);
     expect(existsSync(folder.path('m.sqlite'))).toBe(false);
   });
@@ -119,15 +152,21 @@ describe('PostgreSQL: guidance, exit 2', () => {
     const run = await cli(url, ['backup', '--out', 'ledger.dump']);
     expect(run.code).toBe(2);
     expect(run.stdout).toBe('');
-    expect(run.stderr).toContain('pg_dump --format=custom --no-owner --schema=tenant_a --file=ledger.dump --dbname=postgres://ledger@db.invalid:5432/ledger\n');
-    expect(run.stderr).toContain('pg_restore --no-owner --single-transaction --dbname=postgres://ledger@db.invalid:5432/ledger ledger.dump\n');
+    expect(run.stderr).toContain(
+      'pg_dump --format=custom --no-owner --schema=tenant_a --file=ledger.dump --dbname=postgres://ledger@db.invalid:5432/ledger\n',
+    );
+    expect(run.stderr).toContain(
+      'pg_restore --no-owner --single-transaction --dbname=postgres://ledger@db.invalid:5432/ledger ledger.dump\n',
+    );
     expect(run.stderr).not.toContain('s3cret');
   });
 
   it('restore names pg_restore', async () => {
     const run = await cli(url, ['restore', '--in', 'ledger.dump']);
     expect(run.code).toBe(2);
-    expect(run.stderr).toContain('pg_restore --no-owner --single-transaction --dbname=postgres://ledger@db.invalid:5432/ledger ledger.dump\n');
+    expect(run.stderr).toContain(
+      'pg_restore --no-owner --single-transaction --dbname=postgres://ledger@db.invalid:5432/ledger ledger.dump\n',
+    );
     expect(run.stderr).not.toContain('s3cret');
   });
 
@@ -150,7 +189,10 @@ describe('mvledger restore', () => {
 
   it('refuses to replace a database that holds organisations unless --force', async () => {
     const before = fileHash(target);
-    expectOneLineRefusal(await cli(`sqlite:${target}`, ['restore', '--in', backup]), /^mvledger: DATABASE_URL: .*target\.sqlite already holds 1 organisation; add --force to replace it\n$/);
+    expectOneLineRefusal(
+      await cli(`sqlite:${target}`, ['restore', '--in', backup]),
+      /^mvledger: DATABASE_URL: .*target\.sqlite already holds 1 organisation; add --force to replace it\n$/,
+    );
     expect(fileHash(target)).toBe(before);
     const forced = await cli(`sqlite:${target}`, ['restore', '--in', backup, '--force']);
     expect(forced.code).toBe(0);
@@ -158,10 +200,26 @@ describe('mvledger restore', () => {
   });
 
   const refusals: { what: string; input: () => string; says: RegExp }[] = [
-    { what: 'a backup whose audit row was edited', input: () => editedCopy('tampered-audit.sqlite', "update audit_log set after_json = '{}' where seq = 4"), says: /^mvledger: --in .*tampered-audit\.sqlite does not verify: the audit chain of organisation \S+ breaks at seq 4: .*; .*target\.sqlite is left as it was\n$/ },
-    { what: 'a file that is not a database', input: () => folder.write('readings.csv', 'start,end,quantity\n2025-01-01,2025-02-01,1200\n'.repeat(40)), says: /^mvledger: --in .*readings\.csv: not an SQLite database\n$/ },
-    { what: 'an SQLite file that is not a ledger', input: () => foreignDatabase(), says: /^mvledger: --in .*foreign\.sqlite: not an mvledger backup/ },
-    { what: 'a file that does not exist', input: () => folder.path('nowhere.sqlite'), says: /^mvledger: --in .*nowhere\.sqlite: cannot read it \(ENOENT\)\n$/ },
+    {
+      what: 'a backup whose audit row was edited',
+      input: () => editedCopy('tampered-audit.sqlite', "update audit_log set after_json = '{}' where seq = 4"),
+      says: /^mvledger: --in .*tampered-audit\.sqlite does not verify: the audit chain of organisation \S+ breaks at seq 4: .*; .*target\.sqlite is left as it was\n$/,
+    },
+    {
+      what: 'a file that is not a database',
+      input: () => folder.write('readings.csv', 'start,end,quantity\n2025-01-01,2025-02-01,1200\n'.repeat(40)),
+      says: /^mvledger: --in .*readings\.csv: not an SQLite database\n$/,
+    },
+    {
+      what: 'an SQLite file that is not a ledger',
+      input: () => foreignDatabase(),
+      says: /^mvledger: --in .*foreign\.sqlite: not an mvledger backup/,
+    },
+    {
+      what: 'a file that does not exist',
+      input: () => folder.path('nowhere.sqlite'),
+      says: /^mvledger: --in .*nowhere\.sqlite: cannot read it \(ENOENT\)\n$/,
+    },
   ];
   for (const c of refusals) {
     it(`refuses ${c.what} with exit 2, even with --force, leaving the target untouched`, async () => {

@@ -8,7 +8,10 @@ import { formatFixed, formatPercent, formatSignificant } from '../../src/cli/for
 
 describe('CSV tables', () => {
   it('trims and lower-cases header names, strips a BOM and keeps file line numbers across blank lines', () => {
-    const table = parseCsvTable('r.csv', '\uFEFF Start ,END, Quantity ,Cost\r\n\r\n2024-01-01,2024-02-01,100,12.50\r\n\r\n2024-02-01,2024-03-01,90,11\r\n');
+    const table = parseCsvTable(
+      'r.csv',
+      '\uFEFF Start ,END, Quantity ,Cost\r\n\r\n2024-01-01,2024-02-01,100,12.50\r\n\r\n2024-02-01,2024-03-01,90,11\r\n',
+    );
     expect(table.columns).toEqual(['start', 'end', 'quantity', 'cost']);
     expect(table.rows.map((r) => r.line)).toEqual([3, 5]);
     const { readings, lines } = readingsFromTable(table);
@@ -27,7 +30,9 @@ describe('CSV tables', () => {
   });
 
   it('refuses a column named twice', () => {
-    expect(() => parseCsvTable('r.csv', 'start,end,quantity,Start\n')).toThrow(/r\.csv row 1, field "start": the column appears more than once/);
+    expect(() => parseCsvTable('r.csv', 'start,end,quantity,Start\n')).toThrow(
+      /r\.csv row 1, field "start": the column appears more than once/,
+    );
   });
 
   it('refuses an empty file', () => {

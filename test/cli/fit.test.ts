@@ -36,14 +36,28 @@ describe('mvledger fit --json', () => {
     const printed = JSON.parse(run.stdout) as { candidates: Record<string, unknown>[] };
     expect(printed.candidates.map((c) => c.model)).toEqual(['1P', '2P', '3PC', '3PH', '4P', '5P']); // the engine's six shapes
     for (const candidate of printed.candidates) {
-      for (const key of ['model', 'verdict', 'accepted', 'reasons', 'parameters', 'sse', 'n', 'p', 'stats']) expect(candidate).toHaveProperty(key);
+      for (const key of ['model', 'verdict', 'accepted', 'reasons', 'parameters', 'sse', 'n', 'p', 'stats'])
+        expect(candidate).toHaveProperty(key);
     }
     const stats = printed.candidates.find((c) => c.stats !== null)!.stats as Record<string, unknown>;
     for (const key of ['r2', 'cvrmse', 'nmbe', 'rmse', 'autocorrelation']) expect(stats).toHaveProperty(key);
   });
 
   it('passes --coverage, --alpha and --min-points to the engine', async () => {
-    const run = await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile, '--json', '--coverage', '0.8', '--alpha', '0.01', '--min-points', '4']);
+    const run = await runCli([
+      'fit',
+      '--readings',
+      readingsFile,
+      '--weather',
+      weatherFile,
+      '--json',
+      '--coverage',
+      '0.8',
+      '--alpha',
+      '0.01',
+      '--min-points',
+      '4',
+    ]);
     expect(run.code).toBe(0);
     // Source: the engine itself with the same options.
     const expected = analyseBaseline(baseline, weather, { minCoverage: 0.8, significanceLevel: 0.01, minPointsPerSegment: 4 }).document;
@@ -53,7 +67,9 @@ describe('mvledger fit --json', () => {
 
 describe('mvledger fit --temperature', () => {
   it('fits day-resolved by default and in the mean form when asked, stating the form in JSON and text', async () => {
-    const daily = JSON.parse((await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile, '--json'])).stdout) as { temperatureForm: string };
+    const daily = JSON.parse((await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile, '--json'])).stdout) as {
+      temperatureForm: string;
+    };
     expect(daily.temperatureForm).toBe('daily'); // the engine's default for bills with daily weather
     const run = await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile, '--json', '--temperature', 'mean']);
     expect(run.code).toBe(0);
@@ -61,7 +77,9 @@ describe('mvledger fit --temperature', () => {
     expect(JSON.parse(run.stdout)).toEqual(asJson(analyseBaseline(baseline, weather, { temperatureForm: 'mean' }).document));
     const text = await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile, '--temperature', 'MEAN']);
     expect(text.stdout).toContain('  temperature form: mean (each period at its mean temperature)');
-    expect((await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile])).stdout).toContain('  temperature form: daily (day-resolved');
+    expect((await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile])).stdout).toContain(
+      '  temperature form: daily (day-resolved',
+    );
   });
 
   it('says when the baseline is too short to project from, and still fits it', async () => {
@@ -71,7 +89,9 @@ describe('mvledger fit --temperature', () => {
     expect(run.code).toBe(0);
     expect(run.stdout).toContain('  baseline length: 5 periods, 151 days: too short to project from');
     expect(run.stdout).toContain('refuses it without --allow-short-baseline REASON');
-    expect((await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile])).stdout).toContain('  baseline length: 24 periods, 730 days: covers a full cycle of seasons'); // hand-worked: 2022 and 2023, 365 days each
+    expect((await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile])).stdout).toContain(
+      '  baseline length: 24 periods, 730 days: covers a full cycle of seasons',
+    ); // hand-worked: 2022 and 2023, 365 days each
   });
 });
 
@@ -126,7 +146,9 @@ describe('weather files', () => {
     expect(inCelsius.selected).toBe(inFahrenheit.selected);
     // Hand-worked: an affine change of x moves the least-squares changepoints the same way.
     const cp = (doc: typeof inCelsius, name: string) => doc.candidates.find((c) => c.model === inFahrenheit.selected)!.parameters[name]!;
-    const changepointNames = Object.keys(inFahrenheit.candidates.find((c) => c.model === inFahrenheit.selected)!.parameters).filter((n) => /changepoint/i.test(n));
+    const changepointNames = Object.keys(inFahrenheit.candidates.find((c) => c.model === inFahrenheit.selected)!.parameters).filter((n) =>
+      /changepoint/i.test(n),
+    );
     expect(changepointNames.length).toBeGreaterThan(0); // synthetic: the data have a changepoint shape
     for (const name of changepointNames) {
       expect(cp(inCelsius, name)).toBeCloseTo(fahrenheitToCelsius(cp(inFahrenheit as typeof inCelsius, name)), 6);
@@ -148,7 +170,10 @@ describe('weather files', () => {
     const file = folder.write('weather-gap.csv', ['date,temp', ...gappy].join('\n'));
     const run = await runCli(['fit', '--readings', readingsFile, '--weather', file, '--json']);
     expect(run.code).toBe(0);
-    const expected = analyseBaseline(baseline, weather.filter((_, k) => k !== 40)).document; // source: the engine itself
+    const expected = analyseBaseline(
+      baseline,
+      weather.filter((_, k) => k !== 40),
+    ).document; // source: the engine itself
     expect(JSON.parse(run.stdout)).toEqual(asJson(expected));
   });
 });

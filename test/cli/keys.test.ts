@@ -44,7 +44,16 @@ let adminToken: string;
 
 describe('mvledger keys', () => {
   it('creates a new organisation and its admin key, printing the token alone on stdout', async () => {
-    const run = await runCli(['keys', 'create', '--org-name', 'Harbourview Estates (invented)', '--role', 'admin', '--name', 'first admin']);
+    const run = await runCli([
+      'keys',
+      'create',
+      '--org-name',
+      'Harbourview Estates (invented)',
+      '--role',
+      'admin',
+      '--name',
+      'first admin',
+    ]);
     expect(run.code).toBe(0);
     expect(run.stdout).toMatch(/^mvl_[A-Za-z0-9]{8}_[A-Za-z0-9]{32,}\n$/); // contract: the token, once, alone
     adminToken = run.stdout.trim();
@@ -108,7 +117,10 @@ describe('mvledger keys', () => {
     { args: ['keys', 'create', '--role', 'admin', '--name', 'x'], says: /--org ID .* or --org-name NAME/ },
     { args: ['keys', 'create', '--org', 'org_a', '--org-name', 'B', '--role', 'admin', '--name', 'x'], says: /either --org ID/ },
     { args: ['keys', 'create', '--org-name', 'B', '--name', 'x'], says: /--role is required/ },
-    { args: ['keys', 'create', '--org-name', 'B', '--role', 'root', '--name', 'x'], says: /--role must be one of admin, engineer, analyst, integration, got "root"/ },
+    {
+      args: ['keys', 'create', '--org-name', 'B', '--role', 'root', '--name', 'x'],
+      says: /--role must be one of admin, engineer, analyst, integration, got "root"/,
+    },
     { args: ['keys', 'create', '--org-name', 'B', '--role', 'admin'], says: /--name is required/ },
     { args: ['keys', 'create', '--org-name', ' ', '--role', 'admin', '--name', 'x'], says: /--org-name must not be empty/ },
     { args: ['keys', 'create', '--org-name', 'B', '--role', 'admin', '--name', 'x', '--colour'], says: /unknown option --colour/ },
@@ -142,7 +154,10 @@ describe('mvledger keys', () => {
   });
 
   it('prints its usage for --help and `help keys`', async () => {
-    for (const args of [['keys', '--help'], ['help', 'keys']]) {
+    for (const args of [
+      ['keys', '--help'],
+      ['help', 'keys'],
+    ]) {
       const run = await runCli(args);
       expect(run.code).toBe(0);
       expect(run.stdout).toMatch(/^Usage: mvledger keys create/);

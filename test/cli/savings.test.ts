@@ -36,9 +36,19 @@ const weatherFile = folder.write('weather.csv', weatherCsv(weather));
 const files = ['--baseline', baselineFile, '--reporting', reportingFile, '--weather', weatherFile];
 
 /** The engine's document with the checks the command states beside it: the engine itself. */
-function checked(analysis: BaselineAnalysis, document: SavingsDocument, reporting: readonly Reading[], days: readonly DailyTemperature[] = weather, overrides: ProjectionOverrides = NO_OVERRIDES) {
+function checked(
+  analysis: BaselineAnalysis,
+  document: SavingsDocument,
+  reporting: readonly Reading[],
+  days: readonly DailyTemperature[] = weather,
+  overrides: ProjectionOverrides = NO_OVERRIDES,
+) {
   const fit = analysis.choice.candidates.find((c) => c.model === document.model)!.fit!;
-  return withProjectionChecks(document, { sufficiency: baselineSufficiency(analysis.periods), extrapolation: reportingExtrapolation(fit, alignPeriods(reporting, days).periods), overrides });
+  return withProjectionChecks(document, {
+    sufficiency: baselineSufficiency(analysis.periods),
+    extrapolation: reportingExtrapolation(fit, alignPeriods(reporting, days).periods),
+    overrides,
+  });
 }
 
 describe('mvledger savings --json', () => {
@@ -56,10 +66,24 @@ describe('mvledger savings --json', () => {
 
   it('has the documented period and totals keys, at the default 68% confidence', async () => {
     const run = await runCli(['savings', ...files, '--json']);
-    const printed = JSON.parse(run.stdout) as { periods: Record<string, unknown>[]; totals: Record<string, unknown> & { uncertainty: Record<string, Record<string, unknown>> } };
+    const printed = JSON.parse(run.stdout) as {
+      periods: Record<string, unknown>[];
+      totals: Record<string, unknown> & { uncertainty: Record<string, Record<string, unknown>> };
+    };
     expect(printed.periods).toHaveLength(12);
-    for (const key of ['start', 'end', 'days', 'meanTemp', 'actual', 'adjustedBaseline', 'savings', 'outsideBaselineRange']) expect(printed.periods[0]).toHaveProperty(key);
-    for (const key of ['actual', 'adjustedBaseline', 'savings', 'fractionSaved', 'confidence', 'uncertainty', 'significant', 'outsideRangeShare']) expect(printed.totals).toHaveProperty(key);
+    for (const key of ['start', 'end', 'days', 'meanTemp', 'actual', 'adjustedBaseline', 'savings', 'outsideBaselineRange'])
+      expect(printed.periods[0]).toHaveProperty(key);
+    for (const key of [
+      'actual',
+      'adjustedBaseline',
+      'savings',
+      'fractionSaved',
+      'confidence',
+      'uncertainty',
+      'significant',
+      'outsideRangeShare',
+    ])
+      expect(printed.totals).toHaveProperty(key);
     for (const formula of ['guideline14', 'exact']) {
       expect(printed.totals.uncertainty[formula]).toHaveProperty('fractional');
       expect(printed.totals.uncertainty[formula]).toHaveProperty('absolute');
@@ -114,9 +138,21 @@ describe('mvledger savings, text report', () => {
     const refused = await runCli(['savings', '--baseline', baselineFile, '--reporting', billFile, '--weather', hotFile]);
     expect(refused.code).toBe(2);
     expect(refused.stdout).toBe('');
-    expect(refused.stderr).toMatch(/^mvledger: savings refused: the reporting weather lies outside what the baseline saw: 100\.0% of the reporting days \(7 of 7\) .*the limit is 10\.0%.*; give --allow-extrapolation REASON to project anyway\n$/);
+    expect(refused.stderr).toMatch(
+      /^mvledger: savings refused: the reporting weather lies outside what the baseline saw: 100\.0% of the reporting days \(7 of 7\) .*the limit is 10\.0%.*; give --allow-extrapolation REASON to project anyway\n$/,
+    );
     const reason = 'Heat-wave week checked by hand (test)';
-    const run = await runCli(['savings', '--baseline', baselineFile, '--reporting', billFile, '--weather', hotFile, '--allow-extrapolation', reason]);
+    const run = await runCli([
+      'savings',
+      '--baseline',
+      baselineFile,
+      '--reporting',
+      billFile,
+      '--weather',
+      hotFile,
+      '--allow-extrapolation',
+      reason,
+    ]);
     expect(run.code).toBe(0);
     expect(run.stdout).toMatch(/2024-07-01 {2}2024-07-08 +7 +120\.0\*/);
     expect(run.stdout).toContain('Extrapolation: 100.0%'); // synthetic: the only period is outside the range
@@ -147,7 +183,6 @@ describe('JSON of non-finite numbers', () => {
     expect(printed.totals.uncertainty.exact.fractional).toBeNull(); // the engine gives Infinity: ΔS / 0
   });
 
-
   it('writes NaN and ±Infinity as null, keeping the document parseable', () => {
     // Hand-worked: JSON has no NaN or Infinity.
     const text = toJsonDocument({ a: Number.NaN, b: Number.POSITIVE_INFINITY, c: [Number.NEGATIVE_INFINITY, 1.5] });
@@ -158,7 +193,10 @@ describe('JSON of non-finite numbers', () => {
 
 describe('the temperature form', () => {
   it('fits day-resolved by default and in the mean form with --temperature mean, stating it in text and JSON', async () => {
-    const daily = JSON.parse((await runCli(['savings', ...files, '--json'])).stdout) as { temperatureForm: string; baseline: { temperatureForm: string } };
+    const daily = JSON.parse((await runCli(['savings', ...files, '--json'])).stdout) as {
+      temperatureForm: string;
+      baseline: { temperatureForm: string };
+    };
     expect(daily.temperatureForm).toBe('daily'); // the engine's default wherever daily weather covers the bills
     expect(daily.baseline.temperatureForm).toBe('daily');
     const run = await runCli(['savings', ...files, '--json', '--temperature', 'mean']);
@@ -188,7 +226,9 @@ describe('a baseline too short to project from', () => {
     const run = await runCli(['savings', ...spring]);
     expect(run.code).toBe(2);
     expect(run.stdout).toBe('');
-    expect(run.stderr).toMatch(/^mvledger: savings refused: the baseline is too short to project from: the baseline's usable periods cover 181 days; a full cycle of seasons needs at least 330/);
+    expect(run.stderr).toMatch(
+      /^mvledger: savings refused: the baseline is too short to project from: the baseline's usable periods cover 181 days; a full cycle of seasons needs at least 330/,
+    );
     expect(run.stderr).toContain('the baseline has 6 usable bills; at least 12 are needed');
     expect(run.stderr).toContain('give --allow-short-baseline REASON');
     expect(run.stderr.trimEnd().split('\n')).toHaveLength(1);
@@ -201,7 +241,9 @@ describe('a baseline too short to project from', () => {
     expect(text.code).toBe(0);
     expect(text.stdout).toContain(`Override --allow-short-baseline: ${reason}`);
     expect(text.stdout).toContain('Baseline length: 6 periods, 181 days: too short');
-    const json = JSON.parse((await runCli([...args, '--json'])).stdout) as { baseline: { overrides: unknown; sufficiency: { sufficient: boolean } } };
+    const json = JSON.parse((await runCli([...args, '--json'])).stdout) as {
+      baseline: { overrides: unknown; sufficiency: { sufficient: boolean } };
+    };
     expect(json.baseline.overrides).toEqual({ shortBaseline: { reason }, extrapolation: { reason: 'Pilot (test)' } });
     expect(json.baseline.sufficiency.sufficient).toBe(false);
   });

@@ -80,7 +80,8 @@ describe('mvledger export', () => {
     expect(content(toStdout.stdout)).toEqual(content(text));
     expect(JSON.parse(text)).toMatchObject({ format: 'mvledger-export', version: 3, organisation: { id: organisationId } }); // the format's own contract
     const document = JSON.parse(text) as { tables: Record<string, unknown[]> };
-    for (const [table, rows] of Object.entries(document.tables)) expect(toFile.stderr).toContain(`  ${table}: ${rows.length} ${rows.length === 1 ? 'row' : 'rows'}\n`);
+    for (const [table, rows] of Object.entries(document.tables))
+      expect(toFile.stderr).toContain(`  ${table}: ${rows.length} ${rows.length === 1 ? 'row' : 'rows'}\n`);
     expect(toFile.stderr).toContain(`${Buffer.byteLength(text)} bytes`);
     for (const token of [seed.adminKey, seed.analystKey, seed.integrationKey]) {
       expect(text).not.toContain(token.split('_')[2]); // only hashes travel
@@ -90,9 +91,21 @@ describe('mvledger export', () => {
 
   const bad: { what: string; args: () => string[]; says: RegExp }[] = [
     { what: 'without --org', args: () => ['export'], says: /^mvledger: --org ID is required/ },
-    { what: 'an unknown organisation', args: () => ['export', '--org', 'org_missing'], says: /^mvledger: --org: no organisation org_missing in sqlite file / },
-    { what: 'an unknown option', args: () => ['export', '--org', organisationId, '--pretty'], says: /^mvledger: unknown option --pretty\n$/ },
-    { what: 'a folder that does not exist', args: () => ['export', '--org', organisationId, '--out', folder.path('no/such/dir/x.json')], says: /^mvledger: --out .*x\.json: cannot write it \(ENOENT\)\n$/ },
+    {
+      what: 'an unknown organisation',
+      args: () => ['export', '--org', 'org_missing'],
+      says: /^mvledger: --org: no organisation org_missing in sqlite file /,
+    },
+    {
+      what: 'an unknown option',
+      args: () => ['export', '--org', organisationId, '--pretty'],
+      says: /^mvledger: unknown option --pretty\n$/,
+    },
+    {
+      what: 'a folder that does not exist',
+      args: () => ['export', '--org', organisationId, '--out', folder.path('no/such/dir/x.json')],
+      says: /^mvledger: --out .*x\.json: cannot write it \(ENOENT\)\n$/,
+    },
   ];
   for (const c of bad) {
     it(`refuses ${c.what} with exit 2 and one line`, async () => {
@@ -157,15 +170,35 @@ describe('mvledger import', () => {
 
   const bad: { what: string; args: () => string[]; says: RegExp | (() => RegExp) }[] = [
     { what: 'without --in', args: () => ['import'], says: /^mvledger: --in FILE is required/ },
-    { what: 'a file that cannot be read', args: () => ['import', '--in', folder.path('nowhere.json')], says: /^mvledger: --in .*nowhere\.json: cannot read it \(ENOENT\)\n$/ },
-    { what: 'a file that is not JSON', args: () => ['import', '--in', folder.write('broken.json', '{"format": "mvledger-export",')], says: /^mvledger: .*broken\.json: not a JSON document/ },
-    { what: 'another format', args: () => ['import', '--in', file('format.json', (d) => (d.format = 'ledger-dump'))], says: /^mvledger: .*format\.json: format: must be "mvledger-export", got "ledger-dump"\n$/ },
+    {
+      what: 'a file that cannot be read',
+      args: () => ['import', '--in', folder.path('nowhere.json')],
+      says: /^mvledger: --in .*nowhere\.json: cannot read it \(ENOENT\)\n$/,
+    },
+    {
+      what: 'a file that is not JSON',
+      args: () => ['import', '--in', folder.write('broken.json', '{"format": "mvledger-export",')],
+      says: /^mvledger: .*broken\.json: not a JSON document/,
+    },
+    {
+      what: 'another format',
+      args: () => ['import', '--in', file('format.json', (d) => (d.format = 'ledger-dump'))],
+      says: /^mvledger: .*format\.json: format: must be "mvledger-export", got "ledger-dump"\n$/,
+    },
     {
       what: 'an edited audit row',
-      args: () => ['import', '--in', file('tampered.json', (d) => (d.tables.audit_log[2].after_json = d.tables.audit_log[2].after_json.replace('demo', 'DEMO')))],
+      args: () => [
+        'import',
+        '--in',
+        file('tampered.json', (d) => (d.tables.audit_log[2].after_json = d.tables.audit_log[2].after_json.replace('demo', 'DEMO'))),
+      ],
       says: /^mvledger: .*tampered\.json: tables\.audit_log\[2\]: the audit chain breaks at seq 3: its content does not match its hash/,
     },
-    { what: 'an organisation the target already holds', args: () => ['import', '--in', exportFile], says: () => new RegExp(`^mvledger: .*export\\.json: organisation ${organisationId} already exists in the target database\n$`) },
+    {
+      what: 'an organisation the target already holds',
+      args: () => ['import', '--in', exportFile],
+      says: () => new RegExp(`^mvledger: .*export\\.json: organisation ${organisationId} already exists in the target database\n$`),
+    },
   ];
 
   describe('refusals', () => {
@@ -194,7 +227,9 @@ describe('mvledger import', () => {
     try {
       await migrateToLatest(store.db);
       // synthetic: the test makes the target refuse audit rows, the last table inserted
-      await sql`create trigger refuse_audit before insert on audit_log begin select raise(abort, 'synthetic failure'); end`.execute(store.db);
+      await sql`create trigger refuse_audit before insert on audit_log begin select raise(abort, 'synthetic failure'); end`.execute(
+        store.db,
+      );
     } finally {
       await store.close();
     }
@@ -206,7 +241,11 @@ describe('mvledger import', () => {
   });
 
   it('prints its usage for --help and `help import`', async () => {
-    for (const args of [['import', '--help'], ['help', 'import'], ['export', '-h']]) {
+    for (const args of [
+      ['import', '--help'],
+      ['help', 'import'],
+      ['export', '-h'],
+    ]) {
       const run = await runCli(args);
       expect(run.code).toBe(0);
       expect(run.stdout).toMatch(/^Usage: mvledger (import --in FILE|export --org ID)/);

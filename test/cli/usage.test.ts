@@ -40,21 +40,51 @@ describe('bad options', () => {
     { args: ['fit', '--weather', 'w.csv'], says: 'mvledger: --readings FILE is required\n' },
     { args: ['fit', '--readings', 'r.csv'], says: 'mvledger: --weather FILE is required\n' },
     { args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--colour'], says: 'mvledger: unknown option --colour\n' },
-    { args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', 'extra'], says: "mvledger: unexpected argument extra\n" },
+    { args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', 'extra'], says: 'mvledger: unexpected argument extra\n' },
     { args: ['fit', '--readings'], says: 'mvledger: option --readings needs a value\n' },
     { args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--unit', 'K'], says: 'mvledger: --unit must be F or C, got "K"\n' },
-    { args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--coverage', '1.5'], says: 'mvledger: --coverage must be a fraction in (0, 1], e.g. 0.9, got "1.5"\n' },
-    { args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--alpha', 'x'], says: 'mvledger: --alpha must be a level in (0, 1), e.g. 0.05, got "x"\n' },
-    { args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--min-points', '2.5'], says: 'mvledger: --min-points must be a whole number from 1 to 1000, got "2.5"\n' },
+    {
+      args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--coverage', '1.5'],
+      says: 'mvledger: --coverage must be a fraction in (0, 1], e.g. 0.9, got "1.5"\n',
+    },
+    {
+      args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--alpha', 'x'],
+      says: 'mvledger: --alpha must be a level in (0, 1), e.g. 0.05, got "x"\n',
+    },
+    {
+      args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--min-points', '2.5'],
+      says: 'mvledger: --min-points must be a whole number from 1 to 1000, got "2.5"\n',
+    },
     // our own bound (src/engine/bounds.ts), the same as the API's
-    { args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--min-points', '1e300'], says: 'mvledger: --min-points must be a whole number from 1 to 1000, got "1e300"\n' },
-    { args: ['savings', '--baseline', 'b.csv', '--reporting', 'r.csv', '--weather', 'w.csv', '--model', '6P'], says: 'mvledger: --model must be one of 1P, 2P, 3PC, 3PH, 4P, 5P, got "6P"\n' },
-    { args: ['savings', '--baseline', 'b.csv', '--reporting', 'r.csv', '--weather', 'w.csv', '--confidence', '68'], says: 'mvledger: --confidence must be one of 0.68, 0.8, 0.9, 0.95, got "68"\n' },
+    {
+      args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--min-points', '1e300'],
+      says: 'mvledger: --min-points must be a whole number from 1 to 1000, got "1e300"\n',
+    },
+    {
+      args: ['savings', '--baseline', 'b.csv', '--reporting', 'r.csv', '--weather', 'w.csv', '--model', '6P'],
+      says: 'mvledger: --model must be one of 1P, 2P, 3PC, 3PH, 4P, 5P, got "6P"\n',
+    },
+    {
+      args: ['savings', '--baseline', 'b.csv', '--reporting', 'r.csv', '--weather', 'w.csv', '--confidence', '68'],
+      says: 'mvledger: --confidence must be one of 0.68, 0.8, 0.9, 0.95, got "68"\n',
+    },
     { args: ['savings', '--baseline', 'b.csv', '--weather', 'w.csv'], says: 'mvledger: --reporting FILE is required\n' },
-    { args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--temperature', 'hourly'], says: 'mvledger: --temperature must be daily or mean, got "hourly"\n' },
-    { args: ['savings', '--baseline', 'b.csv', '--reporting', 'r.csv', '--weather', 'w.csv', '--temperature', ''], says: 'mvledger: --temperature must be daily or mean, got ""\n' },
-    { args: ['savings', '--baseline', 'b.csv', '--reporting', 'r.csv', '--weather', 'w.csv', '--allow-extrapolation'], says: 'mvledger: option --allow-extrapolation needs a value\n' },
-    { args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--allow-short-baseline', 'x'], says: 'mvledger: unknown option --allow-short-baseline\n' },
+    {
+      args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--temperature', 'hourly'],
+      says: 'mvledger: --temperature must be daily or mean, got "hourly"\n',
+    },
+    {
+      args: ['savings', '--baseline', 'b.csv', '--reporting', 'r.csv', '--weather', 'w.csv', '--temperature', ''],
+      says: 'mvledger: --temperature must be daily or mean, got ""\n',
+    },
+    {
+      args: ['savings', '--baseline', 'b.csv', '--reporting', 'r.csv', '--weather', 'w.csv', '--allow-extrapolation'],
+      says: 'mvledger: option --allow-extrapolation needs a value\n',
+    },
+    {
+      args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--allow-short-baseline', 'x'],
+      says: 'mvledger: unknown option --allow-short-baseline\n',
+    },
   ];
   for (const c of cases) {
     it(`refuses ${c.args.slice(1).join(' ')}`, async () => {

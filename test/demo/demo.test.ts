@@ -18,7 +18,12 @@ describe('npm run demo', () => {
   let printed = '';
 
   beforeAll(async () => {
-    ({ service, seed, base } = await runDemo({ seedOnly: false, databaseFile: join(folder, 'demo.sqlite'), port: 0, print: (text) => (printed += text) }));
+    ({ service, seed, base } = await runDemo({
+      seedOnly: false,
+      databaseFile: join(folder, 'demo.sqlite'),
+      port: 0,
+      print: (text) => (printed += text),
+    }));
   }, 60_000);
 
   afterAll(async () => {
@@ -44,7 +49,10 @@ describe('npm run demo', () => {
     for (const meter of seed.facilities.flatMap((f) => f.meters)) {
       const response = await get(`/v1/meters/${meter.id}/savings?confidence=0.9`, seed.analystKey);
       expect(response.status).toBe(200);
-      const body = (await response.json()) as { periods: unknown[]; totals: { savings: number; fractionSaved: number; significant: boolean } };
+      const body = (await response.json()) as {
+        periods: unknown[];
+        totals: { savings: number; fractionSaved: number; significant: boolean };
+      };
       expect(body.periods).toHaveLength(12); // the reporting year's monthly bills (synthetic: the scenario sets them)
       // synthetic: the scenario saves 9–15% of use in 2025; the fitted models should see a saving of that order
       expect(body.totals.fractionSaved).toBeGreaterThan(0.05);

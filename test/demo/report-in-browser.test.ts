@@ -66,7 +66,9 @@ describe.skipIf(!available)('the demo’s quarterly report in a browser', () => 
   });
 
   it('draws the charts: per meter, actual against adjusted baseline and the energy signature; per facility, savings against the guarantee', async () => {
-    const boxes = await page.locator('figure svg').evaluateAll((svgs) => svgs.map((svg) => svg.getBoundingClientRect()).map((r) => r.width * r.height));
+    const boxes = await page
+      .locator('figure svg')
+      .evaluateAll((svgs) => svgs.map((svg) => svg.getBoundingClientRect()).map((r) => r.width * r.height));
     const meters = report.facilities.flatMap((f) => f.meters).length;
     expect(boxes.length).toBeGreaterThanOrEqual(2 * meters + report.facilities.length);
     expect(boxes.every((area) => area > 10_000)).toBe(true);

@@ -94,7 +94,9 @@ const contextCopies = dockerfile.flatMap(copiesOf).filter((c) => c.from === null
 
 describe('the Dockerfile parser', () => {
   it('joins continuations, skips comments and splits stages', () => {
-    const text = ['# top', 'FROM base:1 AS one', 'RUN a \\', '  # inside', '  && b', '', 'FROM base:1', 'COPY --from=one x y /dst/'].join('\n');
+    const text = ['# top', 'FROM base:1 AS one', 'RUN a \\', '  # inside', '  && b', '', 'FROM base:1', 'COPY --from=one x y /dst/'].join(
+      '\n',
+    );
     const stages = splitStages(parseDockerfile(text));
     // synthetic: the test sets the truth
     expect(stages.map((s) => s.name)).toEqual(['one', null]);
@@ -143,7 +145,13 @@ describe('docker/Dockerfile', () => {
       .filter((c) => c.from === null)
       .flatMap((c) => c.sources.map((s) => s.replace(/^\.\//, '').replace(/\/$/, '')));
     // the repository: what tsconfig.build.json includes and extends
-    for (const needed of [...buildConfig.include, 'tsconfig.build.json', buildConfig.extends.replace(/^\.\//, ''), 'package.json', 'package-lock.json']) {
+    for (const needed of [
+      ...buildConfig.include,
+      'tsconfig.build.json',
+      buildConfig.extends.replace(/^\.\//, ''),
+      'package.json',
+      'package-lock.json',
+    ]) {
       expect(copied, needed).toContain(needed);
     }
   });
@@ -204,7 +212,9 @@ describe('docker/Dockerfile', () => {
 
 const environmentSchema = z.union([
   z.record(z.string(), z.union([z.string(), z.number()]).transform(String)),
-  z.array(z.string()).transform((list) => Object.fromEntries(list.map((entry) => [entry.split('=')[0] ?? '', entry.slice(entry.indexOf('=') + 1)]))),
+  z
+    .array(z.string())
+    .transform((list) => Object.fromEntries(list.map((entry) => [entry.split('=')[0] ?? '', entry.slice(entry.indexOf('=') + 1)]))),
 ]);
 const dependsOnSchema = z.record(z.string(), z.object({ condition: z.string() }));
 const serviceSchema = z.object({
@@ -301,7 +311,8 @@ describe('docker/compose.yaml', () => {
     for (const [name, definition] of Object.entries(compose.services)) {
       for (const [variable, value] of Object.entries(definition.environment)) {
         if (/PASSWORD|SECRET|TOKEN|KEY/.test(variable)) expect(value, `${name}.${variable}`).toMatch(REQUIRED_VARIABLE);
-        if (/^postgres(ql)?:\/\//.test(value)) expect(/:\/\/[^:/@]+:([^@]*)@/.exec(value)?.[1] ?? '', `${name}.${variable}`).toMatch(VARIABLE);
+        if (/^postgres(ql)?:\/\//.test(value))
+          expect(/:\/\/[^:/@]+:([^@]*)@/.exec(value)?.[1] ?? '', `${name}.${variable}`).toMatch(VARIABLE);
       }
     }
     expect(composeText).not.toMatch(/mvl_[A-Za-z0-9]{8}_[A-Za-z0-9]{32,}/); // the repository: the key shape in src/config.ts

@@ -120,13 +120,17 @@ describe('the uncertainty an adjustment carries into the reporting periods', () 
 
   it('is 0 for an adjustment without a stated ±, outside the periods, or for none', () => {
     expect(adjustmentUncertaintyInPeriods(adjustment({ start: '2025-04-10', end: '2025-05-10', quantity: 3000 }), [april])).toBe(0);
-    expect(adjustmentUncertaintyInPeriods(adjustment({ start: '2025-04-10', end: '2025-05-10', quantity: 3000, uncertainty: null }), [april])).toBe(0);
+    expect(
+      adjustmentUncertaintyInPeriods(adjustment({ start: '2025-04-10', end: '2025-05-10', quantity: 3000, uncertainty: null }), [april]),
+    ).toBe(0);
     expect(adjustmentUncertaintyInPeriods(closure, [{ start: '2025-07-01', end: '2025-08-01' }])).toBe(0);
     expect(adjustmentsUncertaintyInPeriods([], [april])).toBe(0);
   });
 
   it('refuses a negative or non-finite ±', () => {
-    expect(() => adjustmentUncertaintyInPeriods({ ...closure, uncertainty: -1 }, [april])).toThrow(/uncertainty must be a finite number of at least 0/);
+    expect(() => adjustmentUncertaintyInPeriods({ ...closure, uncertainty: -1 }, [april])).toThrow(
+      /uncertainty must be a finite number of at least 0/,
+    );
     expect(() => adjustmentUncertaintyInPeriods({ ...closure, uncertainty: Number.POSITIVE_INFINITY }, [april])).toThrow(RangeError);
   });
 });

@@ -48,7 +48,9 @@ describe('beyondBound and beyondBoundPerDay', () => {
 
   it('judge a total by its figure per day, so a long bill at the bound is accepted', () => {
     expect(beyondBoundPerDay(365e12, '2025-01-01', '2026-01-01', MAX_USE_PER_DAY)).toBeNull(); // hand-worked: 365 days × 1e12
-    expect(beyondBoundPerDay(366e12, '2025-01-01', '2026-01-01', MAX_USE_PER_DAY)).toMatch(/^3\.660e14 over 365 days is 1\.003e12 a day, beyond the bound of 1e12/);
+    expect(beyondBoundPerDay(366e12, '2025-01-01', '2026-01-01', MAX_USE_PER_DAY)).toMatch(
+      /^3\.660e14 over 365 days is 1\.003e12 a day, beyond the bound of 1e12/,
+    );
     expect(beyondBoundPerDay(Number.MAX_VALUE, '2025-01-01', '2025-01-02', MAX_USE_PER_DAY)).toMatch(/over 1 day is 1\.798e308 a day/);
     expect(beyondBoundPerDay(1e300, '2025-01-02', '2025-01-01', MAX_USE_PER_DAY)).toBeNull(); // end before start: another check names it
   });
@@ -61,12 +63,18 @@ describe('the checks that use them', () => {
       { start: '2025-02-01', end: '2025-03-01', quantity: 1.7976931348623157e308 },
       { start: '2025-03-01', end: '2025-04-01', quantity: Number.MIN_VALUE },
     ];
-    expect(checkReadings(readings)).toEqual([{ index: 1, field: 'quantity', message: expect.stringMatching(/over 28 days .* beyond the bound of 1e12/) }]);
+    expect(checkReadings(readings)).toEqual([
+      { index: 1, field: 'quantity', message: expect.stringMatching(/over 28 days .* beyond the bound of 1e12/) },
+    ]);
   });
 
   it('checkRateBounds refuses a price beyond the bound; the schedule check keeps the escalation range', () => {
-    expect(checkRateBounds([{ price: 1e10 }, { price: 2e10 }])).toEqual([{ index: 1, field: 'price', message: expect.stringMatching(/beyond the bound/) }]);
+    expect(checkRateBounds([{ price: 1e10 }, { price: 2e10 }])).toEqual([
+      { index: 1, field: 'price', message: expect.stringMatching(/beyond the bound/) },
+    ]);
     const schedule = [{ from: '2025-01-01', to: null, price: 1, escalation: 1.000001 }];
-    expect(checkRateSchedule(schedule)).toEqual([{ index: 0, field: 'escalation', message: expect.stringMatching(/outside the allowed range \(-1, 1\]/) }]);
+    expect(checkRateSchedule(schedule)).toEqual([
+      { index: 0, field: 'escalation', message: expect.stringMatching(/outside the allowed range \(-1, 1\]/) },
+    ]);
   });
 });

@@ -80,7 +80,13 @@ function runCase(c: Case, form: TemperatureForm) {
   const meter = simulateMeter(c.building, station, plan, random);
   const analysis = baselineInForm(meter.baseline, station.weather, form);
   const [savings] = savingsAt(analysis, meter.reporting, station.weather, [0.68]);
-  return { meter, analysis, fit: selectedFit(analysis), savings: savings!, trueShapeFit: analysis.choice.candidates.find((k) => k.model === c.truth)?.fit ?? null };
+  return {
+    meter,
+    analysis,
+    fit: selectedFit(analysis),
+    savings: savings!,
+    trueShapeFit: analysis.choice.candidates.find((k) => k.model === c.truth)?.fit ?? null,
+  };
 }
 
 describe('noise-free invented buildings, no retrofit: the mean-temperature form', () => {
@@ -132,7 +138,9 @@ describe('the simulation itself', () => {
     expect(station.weather).toHaveLength(daysBetween(plan.start, all[all.length - 1]!.end));
     // A bill is the sum of the building's use on the station's reported temperatures (noise-free here).
     const first = all[0]!;
-    const expected = station.weather.slice(0, daysBetween(first.start, first.end)).reduce((sum, day) => sum + signature(building, day.temp), 0);
+    const expected = station.weather
+      .slice(0, daysBetween(first.start, first.end))
+      .reduce((sum, day) => sum + signature(building, day.temp), 0);
     expect(first.quantity).toBeCloseTo(expected, 9);
     // The retrofit takes 10% off every reporting day (hand-worked from the definition).
     const reportingTotal = meter.reporting.reduce((sum, bill) => sum + bill.quantity, 0);
@@ -162,32 +170,38 @@ describe('the simulation itself', () => {
   const lagOneTolerance = (phi: number, n: number): number => 4 * Math.sqrt((1 - phi * phi) / n);
   const sdTolerance = (phi: number, n: number): number => 4 * Math.sqrt((1 + phi * phi) / (2 * n * (1 - phi * phi)));
 
-  it.each(Object.entries(INVENTED_CLIMATES))('%s weather departs from its seasonal curve with the stated persistence and spread', (_, climate) => {
-    const days = 20 * 365;
-    const weather = makeStation(climate, '2030-01-01', days, seededRandom(21)).weather;
-    // Departures from the seasonal curve; the 0.1° rounding adds a variance of 0.01/12, negligible here.
-    const departures = weather.map((day, d) => day.temp - seasonalTemperature(climate, d));
-    expect(Math.abs(lagOne(departures) - climate.persistence)).toBeLessThan(lagOneTolerance(climate.persistence, days)); // the climate's stated φ
-    expect(Math.abs(sd(departures) / climate.dailySpread - 1)).toBeLessThan(sdTolerance(climate.persistence, days)); // the climate's stated spread
-  });
+  it.each(Object.entries(INVENTED_CLIMATES))(
+    '%s weather departs from its seasonal curve with the stated persistence and spread',
+    (_, climate) => {
+      const days = 20 * 365;
+      const weather = makeStation(climate, '2030-01-01', days, seededRandom(21)).weather;
+      // Departures from the seasonal curve; the 0.1° rounding adds a variance of 0.01/12, negligible here.
+      const departures = weather.map((day, d) => day.temp - seasonalTemperature(climate, d));
+      expect(Math.abs(lagOne(departures) - climate.persistence)).toBeLessThan(lagOneTolerance(climate.persistence, days)); // the climate's stated φ
+      expect(Math.abs(sd(departures) / climate.dailySpread - 1)).toBeLessThan(sdTolerance(climate.persistence, days)); // the climate's stated spread
+    },
+  );
 
-  it.each([0, 0.6, 0.8])('meter noise with φ = %s and a station share of 0.4 has that persistence, its spread, and correlates 0.4 between meters', (phi) => {
-    const days = 20_000;
-    const random = seededRandom(31);
-    const shocks = stationShocks(days, phi, random);
-    const building: SimulatedBuilding = { ...CASES[0]!.building, dailyNoise: 5, noisePersistence: phi, stationShare: 0.4 };
-    const [a, b] = [meterNoise(building, days, random, shocks), meterNoise(building, days, random, shocks)];
-    for (const noise of [a!, b!]) {
-      expect(Math.abs(lagOne(noise) - phi)).toBeLessThan(lagOneTolerance(phi, days)); // stated φ
-      expect(Math.abs(sd(noise) / 5 - 1)).toBeLessThan(sdTolerance(phi, days)); // stated spread 5
-    }
-    // Cross-correlation of two AR(1) series of equal φ: variance about (1 + φ²)/(1 − φ²)·(1 + ρ²)/n, taken generously (from memory).
-    const mean = (v: readonly number[]) => v.reduce((s, x) => s + x, 0) / v.length;
-    const [ma, mb] = [mean(a!), mean(b!)];
-    const cov = a!.reduce((s, x, i) => s + (x - ma) * (b![i]! - mb), 0) / (days - 1);
-    const correlation = cov / (sd(a!) * sd(b!));
-    expect(Math.abs(correlation - 0.4)).toBeLessThan(4 * Math.sqrt(((1 + phi * phi) / (1 - phi * phi)) * (1 + 0.16) / days)); // stated share 0.4
-  });
+  it.each([0, 0.6, 0.8])(
+    'meter noise with φ = %s and a station share of 0.4 has that persistence, its spread, and correlates 0.4 between meters',
+    (phi) => {
+      const days = 20_000;
+      const random = seededRandom(31);
+      const shocks = stationShocks(days, phi, random);
+      const building: SimulatedBuilding = { ...CASES[0]!.building, dailyNoise: 5, noisePersistence: phi, stationShare: 0.4 };
+      const [a, b] = [meterNoise(building, days, random, shocks), meterNoise(building, days, random, shocks)];
+      for (const noise of [a!, b!]) {
+        expect(Math.abs(lagOne(noise) - phi)).toBeLessThan(lagOneTolerance(phi, days)); // stated φ
+        expect(Math.abs(sd(noise) / 5 - 1)).toBeLessThan(sdTolerance(phi, days)); // stated spread 5
+      }
+      // Cross-correlation of two AR(1) series of equal φ: variance about (1 + φ²)/(1 − φ²)·(1 + ρ²)/n, taken generously (from memory).
+      const mean = (v: readonly number[]) => v.reduce((s, x) => s + x, 0) / v.length;
+      const [ma, mb] = [mean(a!), mean(b!)];
+      const cov = a!.reduce((s, x, i) => s + (x - ma) * (b![i]! - mb), 0) / (days - 1);
+      const correlation = cov / (sd(a!) * sd(b!));
+      expect(Math.abs(correlation - 0.4)).toBeLessThan(4 * Math.sqrt((((1 + phi * phi) / (1 - phi * phi)) * (1 + 0.16)) / days)); // stated share 0.4
+    },
+  );
 
   it('ar1Series keeps its spread from the first value (a stationary start)', () => {
     // Across many short series, the first value's spread is the stated one: its sd over 4,000 draws has relative error about 1/√8000.

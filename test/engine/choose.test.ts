@@ -1,7 +1,16 @@
 import { describe, it, expect } from 'vitest';
 import { chooseBaseline, type BaselineChoice, type Candidate } from '../../src/engine/choose.js';
 import type { ModelName, Period } from '../../src/engine/types.js';
-import { hinge, periodsFromPoints, seededRandom, dailyWeather, dailyReadings, monthlyReadings, CLIMATES, type Building } from '../support/synthetic.js';
+import {
+  hinge,
+  periodsFromPoints,
+  seededRandom,
+  dailyWeather,
+  dailyReadings,
+  monthlyReadings,
+  CLIMATES,
+  type Building,
+} from '../support/synthetic.js';
 import { alignPeriods } from '../../src/engine/periods.js';
 
 function candidate(choice: BaselineChoice, model: ModelName): Candidate {
@@ -78,9 +87,7 @@ describe('screening: significance of slopes', () => {
    */
   function borderlineLine(s: number): Period[] {
     const pattern = [1, -1, -1, 1];
-    return periodsFromPoints(
-      Array.from({ length: 12 }, (_, i) => ({ temp: 40 + i, usePerDay: 100 + i + s * pattern[i % 4]!, days: 1 })),
-    );
+    return periodsFromPoints(Array.from({ length: 12 }, (_, i) => ({ temp: 40 + i, usePerDay: 100 + i + s * pattern[i % 4]!, days: 1 })));
   }
 
   it('the slope of the hand-worked line has t = 2.599 (hand-worked)', () => {
@@ -108,7 +115,9 @@ describe('screening: significance of slopes', () => {
     expect(loose.selected).toBe('2P');
     const strict = chooseBaseline(data, { models: ['1P', '2P'], significanceLevel: 0.01 });
     expect(candidate(strict, '2P').verdict).toBe('rejected');
-    expect(candidate(strict, '2P').reasons.join(' ')).toMatch(/slope not significant: \|t\| = 2\.60 < 3\.17 \(two-sided, α = 0\.01, 10 degrees of freedom\)/);
+    expect(candidate(strict, '2P').reasons.join(' ')).toMatch(
+      /slope not significant: \|t\| = 2\.60 < 3\.17 \(two-sided, α = 0\.01, 10 degrees of freedom\)/,
+    );
     expect(strict.selected).toBe('1P');
     expect(strict.settings.significanceLevel).toBe(0.01);
   });
@@ -123,8 +132,12 @@ describe('parsimony: a sequence of tests that hold their level', () => {
     expect(choice.selected).toBe('3PH');
     expect(candidate(choice, '4P').verdict).not.toBe('selected');
     expect(candidate(choice, '5P').verdict).not.toBe('selected');
-    expect(candidate(choice, '1P').reasons.join(' ')).toMatch(/weather dependence: the mean model is rejected against 1P: one-slope shapes \(2P, 3PC, 3PH\): F = [\d.e+]+ \(1, 33\)/);
-    expect(candidate(choice, '3PH').reasons.join(' ')).toMatch(/taken: weather dependence is significant and 3PH fits best of the one-slope shapes/);
+    expect(candidate(choice, '1P').reasons.join(' ')).toMatch(
+      /weather dependence: the mean model is rejected against 1P: one-slope shapes \(2P, 3PC, 3PH\): F = [\d.e+]+ \(1, 33\)/,
+    );
+    expect(candidate(choice, '3PH').reasons.join(' ')).toMatch(
+      /taken: weather dependence is significant and 3PH fits best of the one-slope shapes/,
+    );
     expect(candidate(choice, '4P').reasons.join(' ')).toMatch(/does not improve enough against 3PH|not significant|both slopes|wrong sign/);
   });
 
@@ -160,7 +173,11 @@ describe('parsimony: a sequence of tests that hold their level', () => {
     const f = (threePH.fit!.sse - fourP.fit!.sse) / (fourP.fit!.sse / (36 - 4)) / kappa;
     expect(f).toBeLessThan(4.15);
     const reason = fourP.reasons.find((r) => r.startsWith('does not improve enough against 3PH: '));
-    expect(reason).toMatch(new RegExp(`^does not improve enough against 3PH: F = ${Number(f.toPrecision(4))} \\(1, 32 degrees of freedom.*\\), p from the F distribution, p = 0\\.\\d{4} \\(α = 0\\.05\\)$`));
+    expect(reason).toMatch(
+      new RegExp(
+        `^does not improve enough against 3PH: F = ${Number(f.toPrecision(4))} \\(1, 32 degrees of freedom.*\\), p from the F distribution, p = 0\\.\\d{4} \\(α = 0\\.05\\)$`,
+      ),
+    );
     expect(choice.selected).toBe('3PH');
   });
 
@@ -179,7 +196,9 @@ describe('parsimony: a sequence of tests that hold their level', () => {
     for (const seed of [1, 2, 3]) {
       const choice = chooseBaseline(noisy(seed, 10, () => 250));
       expect(choice.selected, `seed ${seed}`).toBe('1P');
-      expect(candidate(choice, '1P').reasons.join(' ')).toMatch(/^passes .* no weather dependence: against 1P: one-slope shapes \(2P, 3PC, 3PH\): F = .*, p = 0\.\d{4} \(α = 0\.05\)$/);
+      expect(candidate(choice, '1P').reasons.join(' ')).toMatch(
+        /^passes .* no weather dependence: against 1P: one-slope shapes \(2P, 3PC, 3PH\): F = .*, p = 0\.\d{4} \(α = 0\.05\)$/,
+      );
     }
   });
 
@@ -196,7 +215,9 @@ describe('parsimony: a sequence of tests that hold their level', () => {
     const [winner, loser] = threePC.fit!.sse < threePH.fit!.sse ? [threePC, threePH] : [threePH, threePC];
     expect(choice.selected).toBe(winner.model);
     expect(candidate(choice, '1P').reasons.join(' ')).toMatch(/weather dependence: the mean model is rejected against 1P/);
-    expect(winner.reasons.join(' ')).toMatch(new RegExp(`taken: weather dependence is significant and ${winner.model} fits best of the one-slope shapes`));
+    expect(winner.reasons.join(' ')).toMatch(
+      new RegExp(`taken: weather dependence is significant and ${winner.model} fits best of the one-slope shapes`),
+    );
     expect(loser.reasons.join(' ')).toMatch(new RegExp(`fits worse than ${winner.model} \\(SSE .* > .*\\)`));
   });
 });
@@ -256,7 +277,10 @@ describe('options', () => {
   });
 
   it('models restricts the candidates, and 1P is always kept as the fallback', () => {
-    const choice = chooseBaseline(noisy(9, 10, (t) => hinge(t, { base: 300, heatingBelow: 55, heatingRate: 8 })), { models: ['3PC'] });
+    const choice = chooseBaseline(
+      noisy(9, 10, (t) => hinge(t, { base: 300, heatingBelow: 55, heatingRate: 8 })),
+      { models: ['3PC'] },
+    );
     expect(choice.candidates.map((c) => c.model)).toEqual(['1P', '3PC']); // choose.ts: 1P is the starting point of parsimony
   });
 
@@ -270,9 +294,12 @@ describe('options', () => {
   });
 
   it('guideline14 limits are applied to every fitted candidate, with their source', () => {
-    const choice = chooseBaseline(noisy(12, 10, (t) => hinge(t, { base: 300, heatingBelow: 55, heatingRate: 8 })), {
-      guideline14: { cvrmse: 0.0001 }, // synthetic limit, far below any real fit's CV(RMSE)
-    });
+    const choice = chooseBaseline(
+      noisy(12, 10, (t) => hinge(t, { base: 300, heatingBelow: 55, heatingRate: 8 })),
+      {
+        guideline14: { cvrmse: 0.0001 }, // synthetic limit, far below any real fit's CV(RMSE)
+      },
+    );
     const selected = candidate(choice, choice.selected);
     expect(selected.guideline14!.cvrmse.limit).toBe(0.0001);
     expect(selected.guideline14!.cvrmse.pass).toBe(false);
@@ -281,7 +308,15 @@ describe('options', () => {
 });
 
 describe('the choice holds its level on meters without weather dependence (seeded simulation; the simulation sets the truth)', () => {
-  const flat: Building = { base: 300, heatingBelow: 55, heatingRate: 0, coolingAbove: 68, coolingRate: 0, dailyNoise: 30, noisePersistence: 0 };
+  const flat: Building = {
+    base: 300,
+    heatingBelow: 55,
+    heatingRate: 0,
+    coolingAbove: 68,
+    coolingRate: 0,
+    dailyNoise: 30,
+    noisePersistence: 0,
+  };
 
   /** Share of meters given a weather shape, each on its own invented weather. */
   function weatherShapeShare(meters: number, persistence: number, kind: 'daily' | 'bills'): number {
@@ -290,7 +325,10 @@ describe('the choice holds its level on meters without weather dependence (seede
       const random = seededRandom(7000 + seed);
       const weather = dailyWeather(CLIMATES.temperate, '2030-01-01', 760, random);
       const building = { ...flat, noisePersistence: persistence };
-      const readings = kind === 'daily' ? dailyReadings(building, weather.slice(0, 365), random) : monthlyReadings(building, weather, '2030-01-01', 24, random);
+      const readings =
+        kind === 'daily'
+          ? dailyReadings(building, weather.slice(0, 365), random)
+          : monthlyReadings(building, weather, '2030-01-01', 24, random);
       if (chooseBaseline(alignPeriods(readings, weather).periods).selected !== '1P') weatherShapes++;
     }
     return weatherShapes / meters;

@@ -25,7 +25,17 @@ describe('parseIsoDate: calendar dates as whole days since 1970-01-01', () => {
   });
 
   it('refuses anything but YYYY-MM-DD', () => {
-    for (const text of ['2024-1-01', '2024-01-1', '20240101', '2024/01/01', '2024-01-01T00:00', ' 2024-01-01', '2024-01-01 ', '', '01-01-2024']) {
+    for (const text of [
+      '2024-1-01',
+      '2024-01-1',
+      '20240101',
+      '2024/01/01',
+      '2024-01-01T00:00',
+      ' 2024-01-01',
+      '2024-01-01 ',
+      '',
+      '01-01-2024',
+    ]) {
       expect(parseIsoDate(text), JSON.stringify(text)).toBeNull();
     }
   });
@@ -70,7 +80,11 @@ describe('daysBetween and addDays: [start, end) arithmetic', () => {
   });
 
   it('addDays and daysBetween agree', () => {
-    for (const [start, n] of [['2023-11-30', 95], ['1999-12-31', 1], ['2024-02-29', 365]] as const) {
+    for (const [start, n] of [
+      ['2023-11-30', 95],
+      ['1999-12-31', 1],
+      ['2024-02-29', 365],
+    ] as const) {
       expect(daysBetween(start, addDays(start, n))).toBe(n);
     }
   });

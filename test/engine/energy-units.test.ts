@@ -57,7 +57,7 @@ describe('ENERGY_UNIT_JOULES against published values', () => {
   });
 });
 
-describe('convertEnergy against the brief\'s standard values', () => {
+describe("convertEnergy against the brief's standard values", () => {
   it('1 kWh = 3,412.14 Btu (project brief; hand-worked: 3.6e6 / 1055.05585262 = 3412.1416)', () => {
     toStatedPrecision(convertEnergy(1, 'kWh', 'Btu'), 3412.14, 0.01);
   });

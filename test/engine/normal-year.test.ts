@@ -51,15 +51,25 @@ describe('checkNormalYear', () => {
   });
 
   it('refuses days that do not exist or are not MM-DD', () => {
-    const problems = checkNormalYear([...fullYear(), { day: '13-01', temp: 30 }, { day: '2025-01-01', temp: 30 }, { day: '04-31', temp: 30 }], 'F');
+    const problems = checkNormalYear(
+      [...fullYear(), { day: '13-01', temp: 30 }, { day: '2025-01-01', temp: 30 }, { day: '04-31', temp: 30 }],
+      'F',
+    );
     expect(problems.map((p) => p.index)).toEqual([365, 366, 367]);
-    expect(problems[0]!.message).toBe('not a day of a normal year: "13-01" (expected MM-DD; a normal year has 365 days and 02-29 is left out)');
+    expect(problems[0]!.message).toBe(
+      'not a day of a normal year: "13-01" (expected MM-DD; a normal year has 365 days and 02-29 is left out)',
+    );
   });
 
   it('refuses a repeated day, pointing at the first', () => {
     const problems = checkNormalYear([...fullYear(), { day: '07-04', temp: 80 }], 'F');
     expect(problems).toEqual([
-      { index: 365, field: 'day', message: 'repeats the day 07-04: a normal year has each of its 365 days exactly once', relatedIndex: 184 },
+      {
+        index: 365,
+        field: 'day',
+        message: 'repeats the day 07-04: a normal year has each of its 365 days exactly once',
+        relatedIndex: 184,
+      },
     ]);
   });
 
@@ -73,7 +83,9 @@ describe('checkNormalYear', () => {
     ]);
     const celsius = fullYear(10);
     celsius[2] = { day: '01-03', temp: -70 };
-    expect(checkNormalYear(celsius, 'C')).toEqual([{ index: 2, field: 'temp', message: '-70 °C is outside the plausible range -62.2…60 °C' }]);
+    expect(checkNormalYear(celsius, 'C')).toEqual([
+      { index: 2, field: 'temp', message: '-70 °C is outside the plausible range -62.2…60 °C' },
+    ]);
   });
 });
 
@@ -97,7 +109,12 @@ describe('normalYearUse', () => {
     // y = 10 + 0.5·x; day i has x = i / 10 for i = 0 … 364.
     // Σ = 365 × 10 + 0.5 × Σ i/10 = 3,650 + 0.05 × (364 × 365 / 2 = 66,430) = 3,650 + 3,321.5 = 6,971.5.
     // Range 0 … 30: days with i/10 > 30 are i = 301 … 364, 64 days.
-    const fit = { model: '2P' as const, changepoints: { heating: null, cooling: null }, rawCoefficients: [10, 0.5], temperatureRange: { min: 0, max: 30 } };
+    const fit = {
+      model: '2P' as const,
+      changepoints: { heating: null, cooling: null },
+      rawCoefficients: [10, 0.5],
+      temperatureRange: { min: 0, max: 30 },
+    };
     const temps = Array.from({ length: 365 }, (_, i) => i / 10);
     const result = normalYearUse(fit, temps);
     expect(result.use).toBeCloseTo(6971.5, 9);
@@ -105,7 +122,12 @@ describe('normalYearUse', () => {
   });
 
   it('counts the range bounds as inside', () => {
-    const fit = { model: '1P' as const, changepoints: { heating: null, cooling: null }, rawCoefficients: [3], temperatureRange: { min: 10, max: 20 } };
+    const fit = {
+      model: '1P' as const,
+      changepoints: { heating: null, cooling: null },
+      rawCoefficients: [3],
+      temperatureRange: { min: 10, max: 20 },
+    };
     // hand-worked: 3 days × 3 = 9; 10 and 20 are on the bounds, 9.9 and 20.1 outside
     expect(normalYearUse(fit, [10, 20, 15])).toEqual({ use: 9, outsideRangeDays: 0 });
     expect(normalYearUse(fit, [9.9, 20.1])).toEqual({ use: 6, outsideRangeDays: 2 });

@@ -6,7 +6,14 @@
  * project's own 330-day rule (common practice, stated in normalised.ts).
  */
 import { describe, expect, it } from 'vitest';
-import { analyseBaseline, MIN_NORMALISED_REPORTING_DAYS, NORMAL_YEAR_DAYS, normalisedSavings, normalYearMonths, predictPerDay } from '../../src/engine/index.js';
+import {
+  analyseBaseline,
+  MIN_NORMALISED_REPORTING_DAYS,
+  NORMAL_YEAR_DAYS,
+  normalisedSavings,
+  normalYearMonths,
+  predictPerDay,
+} from '../../src/engine/index.js';
 import { CLIMATES, SAMPLE_BUILDING, dailyReadings, dailyWeather, monthlyReadings, seededRandom } from '../support/synthetic.js';
 
 const random = seededRandom(77);

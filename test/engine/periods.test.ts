@@ -21,7 +21,17 @@ describe('alignPeriods: [start, end) periods against daily weather', () => {
     const { periods, excluded } = alignPeriods([{ start: '2030-01-01', end: '2030-01-04', quantity: 300 }], weather);
     expect(excluded).toEqual([]);
     expect(periods).toEqual([
-      { start: '2030-01-01', end: '2030-01-04', days: 3, quantity: 300, usePerDay: 100, meanTemp: 2, coverage: 1, estimated: false, dayTemps: [1, 2, 3] },
+      {
+        start: '2030-01-01',
+        end: '2030-01-04',
+        days: 3,
+        quantity: 300,
+        usePerDay: 100,
+        meanTemp: 2,
+        coverage: 1,
+        estimated: false,
+        dayTemps: [1, 2, 3],
+      },
     ]);
   });
 
@@ -46,7 +56,10 @@ describe('alignPeriods: [start, end) periods against daily weather', () => {
   });
 
   it('indexWeather keeps the last value of a repeated date', () => {
-    const index = indexWeather([{ date: '2030-01-01', temp: 1 }, { date: '2030-01-01', temp: 2 }]);
+    const index = indexWeather([
+      { date: '2030-01-01', temp: 1 },
+      { date: '2030-01-01', temp: 2 },
+    ]);
     expect(index.get('2030-01-01')).toBe(2);
   });
 });

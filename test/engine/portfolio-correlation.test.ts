@@ -61,7 +61,10 @@ describe('residualCorrelation', () => {
         }),
       };
     };
-    const meters = [...Array.from({ length: 8 }, (_, i) => meter('a', 1 + (i % 20))), ...Array.from({ length: 8 }, (_, i) => meter('b', 3 + (i % 20)))];
+    const meters = [
+      ...Array.from({ length: 8 }, (_, i) => meter('a', 1 + (i % 20))),
+      ...Array.from({ length: 8 }, (_, i) => meter('b', 3 + (i % 20))),
+    ];
     const result = residualCorrelation(meters);
     // Monthly sums of daily noise with a 40% station share correlate 0.4 between meters of a station, 0 across.
     expect(result.withinGroup!).toBeGreaterThan(0.3);
@@ -72,11 +75,23 @@ describe('residualCorrelation', () => {
 
 describe('combineCorrelated', () => {
   it('the example in its doc comment: fully correlated parts add (3 + 4 = 7)', () => {
-    expect(combineCorrelated([{ value: 3, group: 'a' }, { value: 4, group: 'a' }], { withinGroup: 1, acrossGroups: 0 })).toBeCloseTo(7, 12);
+    expect(
+      combineCorrelated(
+        [
+          { value: 3, group: 'a' },
+          { value: 4, group: 'a' },
+        ],
+        { withinGroup: 1, acrossGroups: 0 },
+      ),
+    ).toBeCloseTo(7, 12);
   });
 
   it('uncorrelated parts combine in quadrature; the across-group value applies only across groups (hand-worked)', () => {
-    const parts = [{ value: 3, group: 'a' }, { value: 4, group: 'b' }, { value: 12, group: 'b' }];
+    const parts = [
+      { value: 3, group: 'a' },
+      { value: 4, group: 'b' },
+      { value: 12, group: 'b' },
+    ];
     expect(combineCorrelated(parts, { withinGroup: 0, acrossGroups: 0 })).toBeCloseTo(combineInQuadrature([3, 4, 12]), 12);
     // 9 + 16 + 144 + 2·0.5·4·12 (within b) + 2·0.25·(3·4 + 3·12) (across) = 169 + 48 + 24 = 241
     expect(combineCorrelated(parts, { withinGroup: 0.5, acrossGroups: 0.25 })).toBeCloseTo(Math.sqrt(241), 12);

@@ -23,7 +23,7 @@ describe('rateOn: price × (1 + escalation)^k, k whole calendar years since from
     expect(rateOn([], '2025-07-01')).toBeUndefined();
   });
 
-  it('counts escalation from each entry\'s own from (hand-worked: 0.15 from 2025-07-01, × 1.02 from 2026-07-01 = 0.153)', () => {
+  it("counts escalation from each entry's own from (hand-worked: 0.15 from 2025-07-01, × 1.02 from 2026-07-01 = 0.153)", () => {
     const twoEntries: RateEntry[] = [
       { from: '2024-07-01', to: '2025-07-01', price: 0.12, escalation: 0.05 },
       { from: '2025-07-01', to: null, price: 0.15, escalation: 0.02 },
@@ -66,7 +66,7 @@ describe('periodRate: day-weighted mean over [start, end)', () => {
     expect(periodRate(schedule, '2025-06-16', '2025-07-16').rate).toBeCloseTo(0.135, 15);
   });
 
-  it('is the entry\'s rate for a period inside one rate year (hand-worked: 0.103 all 31 days)', () => {
+  it("is the entry's rate for a period inside one rate year (hand-worked: 0.103 all 31 days)", () => {
     expect(periodRate(escalating, '2025-05-01', '2025-06-01').rate).toBeCloseTo(0.103, 15);
   });
 
@@ -207,7 +207,9 @@ describe('checkRateSchedule', () => {
       { from: '2025-09-01', to: null, price: 0.1, escalation: Number.POSITIVE_INFINITY },
     ]);
     const fields = problems.map((p) => `${p.index}:${p.field}`);
-    expect(fields).toEqual(expect.arrayContaining(['0:to', '1:from', '2:to', '3:price', '4:price', '5:escalation', '6:escalation', '7:escalation']));
+    expect(fields).toEqual(
+      expect.arrayContaining(['0:to', '1:from', '2:to', '3:price', '4:price', '5:escalation', '6:escalation', '7:escalation']),
+    );
     expect(problems.find((p) => p.index === 0)!.message).toBe('to 2025-03-01 is not after from 2025-03-01');
     expect(problems.find((p) => p.index === 3)!.message).toBe('negative (-0.01)');
   });

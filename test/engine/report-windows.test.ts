@@ -141,7 +141,21 @@ describe('readingMidpoint and inWindowByMidpoint', () => {
   });
 
   it('puts every bill of a year in exactly one quarter (synthetic: read dates invented, 2nd–4th of each month)', () => {
-    const reads = ['2025-01-03', '2025-02-04', '2025-03-02', '2025-04-03', '2025-05-02', '2025-06-04', '2025-07-03', '2025-08-02', '2025-09-04', '2025-10-02', '2025-11-03', '2025-12-04', '2026-01-02'];
+    const reads = [
+      '2025-01-03',
+      '2025-02-04',
+      '2025-03-02',
+      '2025-04-03',
+      '2025-05-02',
+      '2025-06-04',
+      '2025-07-03',
+      '2025-08-02',
+      '2025-09-04',
+      '2025-10-02',
+      '2025-11-03',
+      '2025-12-04',
+      '2026-01-02',
+    ];
     const quarters = ['2025-Q1', '2025-Q2', '2025-Q3', '2025-Q4'].map(quarterWindow);
     const counts = [0, 0, 0, 0];
     for (let i = 0; i + 1 < reads.length; i++) {

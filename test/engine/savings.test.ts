@@ -80,7 +80,10 @@ describe('adjusted baseline and avoided energy (hand-worked with a 3PC)', () => 
     expect(result.totals.adjustedBaseline).toBeCloseTo(17750, 6);
     expect(result.totals.actual).toBeCloseTo(16500, 9);
     expect(result.totals.savings).toBeCloseTo(1250, 6);
-    expect(result.totals.savings).toBeCloseTo(result.periods.reduce((a, p) => a + p.savings, 0), 9);
+    expect(result.totals.savings).toBeCloseTo(
+      result.periods.reduce((a, p) => a + p.savings, 0),
+      9,
+    );
     expect(result.totals.fractionSaved).toBeCloseTo(1250 / 17750, 12);
     expect(result.totals.outsideRangeShare).toBeCloseTo(10100 / 17750, 12);
     expect(result.baselineTemperatureRange).toEqual({ min: 40, max: 90 });
@@ -110,7 +113,9 @@ describe('adjusted baseline and avoided energy (hand-worked with a 3PC)', () => 
     const noisy = noisyBaseline(6);
     const year = reportingYear(0.1);
     const plain = computeSavings(noisy, year);
-    const withAdjustment = computeSavings(noisy, year, { adjustments: [{ ...adjustments[0]!, start: year[0]!.start, end: year[1]!.end, quantity: 900 }] });
+    const withAdjustment = computeSavings(noisy, year, {
+      adjustments: [{ ...adjustments[0]!, start: year[0]!.start, end: year[1]!.end, quantity: 900 }],
+    });
     expect(withAdjustment.totals.savings).toBeCloseTo(plain.totals.savings + 900, 6);
     for (const formula of ['guideline14', 'exact'] as const) {
       const before = plain.totals.uncertainty[formula];
@@ -144,13 +149,22 @@ describe('adjusted baseline and avoided energy (hand-worked with a 3PC)', () => 
     expect(u.combined.absolute).toBeCloseTo(Math.sqrt(model ** 2 + (500 * 1.6448536269514715) ** 2), 9);
     expect(u.combined.fractional).toBeCloseTo(u.combined.absolute / Math.abs(result.totals.savings), 12);
     // Without stated ±, the combined ± is the model's larger one.
-    expect(plain.totals.uncertainty.combined.absolute).toBeCloseTo(Math.max(plain.totals.uncertainty.guideline14.absolute, plain.totals.uncertainty.exact.absolute), 9);
+    expect(plain.totals.uncertainty.combined.absolute).toBeCloseTo(
+      Math.max(plain.totals.uncertainty.guideline14.absolute, plain.totals.uncertainty.exact.absolute),
+      9,
+    );
     // At 68% the same 500 scales by z = 0.9944578832097535 (the same reference).
     expect(computeSavings(noisy, year, { adjustments }).totals.uncertainty.adjustments.absolute).toBeCloseTo(500 * 0.9944578832097535, 9);
   });
 
   it('a period exactly at the edge of the baseline range is inside it', () => {
-    const edges = periodsFromPoints([{ temp: 40, usePerDay: 100, days: 30 }, { temp: 90, usePerDay: 200, days: 30 }], '2033-01-01');
+    const edges = periodsFromPoints(
+      [
+        { temp: 40, usePerDay: 100, days: 30 },
+        { temp: 90, usePerDay: 200, days: 30 },
+      ],
+      '2033-01-01',
+    );
     const edgeResult = computeSavings(exactBaseline(), edges);
     expect(edgeResult.periods.map((p) => p.outsideBaselineRange)).toEqual([false, false]);
     expect(edgeResult.totals.outsideRangeShare).toBe(0);

@@ -80,8 +80,18 @@ describe('reportingExtrapolation', () => {
       { days: 5, meanTemp: 71.25, dayTemps: [50, 60, 85, 90] },
     ];
     const result = reportingExtrapolation(dailyFit, reporting);
-    expect(result).toMatchObject({ share: 0.5, outsideDays: 4, days: 8, basis: 'daily', range: { min: 30, max: 80 }, limit: 0.1, exceedsLimit: true });
-    expect(result.summary).toMatch(/^50\.0% of the reporting days \(4 of 8\) had a daily temperature outside the 30\.0 to 80\.0 the baseline saw day by day; the limit is 10\.0% \(a limit of our own/);
+    expect(result).toMatchObject({
+      share: 0.5,
+      outsideDays: 4,
+      days: 8,
+      basis: 'daily',
+      range: { min: 30, max: 80 },
+      limit: 0.1,
+      exceedsLimit: true,
+    });
+    expect(result.summary).toMatch(
+      /^50\.0% of the reporting days \(4 of 8\) had a daily temperature outside the 30\.0 to 80\.0 the baseline saw day by day; the limit is 10\.0% \(a limit of our own/,
+    );
   });
 
   it('counts a mean-form fit’s reporting days by their period’s mean (hand-worked)', () => {
@@ -117,7 +127,10 @@ describe('reportingExtrapolation', () => {
 
   it('judges real aligned bills against the daily range of a day-resolved baseline (synthetic: the test sets the weather)', () => {
     // A year of daily weather running 20 → 84.8 (°F), then a reporting month of 31 days at 10 °F, colder than any baseline day.
-    const weather = Array.from({ length: 365 }, (_, d) => ({ date: new Date(Date.UTC(2024, 0, 1 + d)).toISOString().slice(0, 10), temp: 20 + (d % 325) / 5 }));
+    const weather = Array.from({ length: 365 }, (_, d) => ({
+      date: new Date(Date.UTC(2024, 0, 1 + d)).toISOString().slice(0, 10),
+      temp: 20 + (d % 325) / 5,
+    }));
     const readings = Array.from({ length: 12 }, (_, m) => ({
       start: new Date(Date.UTC(2024, m, 1)).toISOString().slice(0, 10),
       end: new Date(Date.UTC(2024, m + 1, 1)).toISOString().slice(0, 10),
@@ -128,6 +141,12 @@ describe('reportingExtrapolation', () => {
     expect(fit.temperatureForm).toBe('daily');
     const cold = Array.from({ length: 31 }, (_, d) => ({ date: `2025-01-${String(d + 1).padStart(2, '0')}`, temp: 10 }));
     const { periods } = alignPeriods([{ start: '2025-01-01', end: '2025-02-01', quantity: 5000 }], cold);
-    expect(reportingExtrapolation(fit, periods)).toMatchObject({ share: 1, outsideDays: 31, days: 31, basis: 'daily', range: { min: 20, max: 84.8 } });
+    expect(reportingExtrapolation(fit, periods)).toMatchObject({
+      share: 1,
+      outsideDays: 31,
+      days: 31,
+      basis: 'daily',
+      range: { min: 20, max: 84.8 },
+    });
   });
 });

@@ -12,11 +12,7 @@ const bill = (start: string, end: string, quantity = 1000): Reading => ({ start,
 
 describe('checkReadings', () => {
   it('accepts consecutive bills that share their read dates, a zero bill and a leap day', () => {
-    const readings = [
-      bill('2024-01-15', '2024-02-14'),
-      bill('2024-02-14', '2024-02-29', 0),
-      bill('2024-02-29', '2024-03-15'),
-    ];
+    const readings = [bill('2024-01-15', '2024-02-14'), bill('2024-02-14', '2024-02-29', 0), bill('2024-02-29', '2024-03-15')];
     expect(checkReadings(readings)).toEqual([]);
   });
 

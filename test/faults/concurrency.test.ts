@@ -18,7 +18,18 @@ import { verifyAuditChain } from '../../src/store/audit.js';
 import { seededRandom } from '../support/synthetic.js';
 import { testDialect } from '../support/database.js';
 import { clientOf, describeOutputs, stopInstance, type Answer, type Client, type Instance } from '../multi-instance/support.js';
-import { BASELINE_WINDOW, BOOTSTRAP_KEY, auditRows, dailyBatch, freshFaultDatabase, seedLedger, startService, storedIn, sumOf, type Ledger } from './support.js';
+import {
+  BASELINE_WINDOW,
+  BOOTSTRAP_KEY,
+  auditRows,
+  dailyBatch,
+  freshFaultDatabase,
+  seedLedger,
+  startService,
+  storedIn,
+  sumOf,
+  type Ledger,
+} from './support.js';
 
 const onPostgres = testDialect() === 'postgres';
 /**
@@ -82,7 +93,9 @@ describe.each(PROCESS_COUNTS)(`many concurrent writers on ${testDialect()}, %i s
   it('loses, doubles and fails nothing, and audits each write once', async ({ onTestFailed }) => {
     onTestFailed(() => {
       const bad = answers.filter((a) => a.status >= 300).slice(0, 10);
-      console.error(`${bad.map((a) => `${a.instance} ${a.method} ${a.path} → ${a.status}: ${a.text.slice(0, 300)}`).join('\n')}\n${describeOutputs(instances)}`);
+      console.error(
+        `${bad.map((a) => `${a.instance} ${a.method} ${a.path} → ${a.status}: ${a.text.slice(0, 300)}`).join('\n')}\n${describeOutputs(instances)}`,
+      );
     });
     const random = seededRandom(4242);
     const via = (client: number): Client => clients[client % clients.length]!;
@@ -95,14 +108,16 @@ describe.each(PROCESS_COUNTS)(`many concurrent writers on ${testDialect()}, %i s
     );
     const readingClient = async (c: number) => {
       const results: Answer[] = [];
-      for (let b = 0; b < BATCHES_PER_CLIENT; b++) results.push(await via(c)('POST', readingsPath, { readings: readingBatches[c * BATCHES_PER_CLIENT + b] }));
+      for (let b = 0; b < BATCHES_PER_CLIENT; b++)
+        results.push(await via(c)('POST', readingsPath, { readings: readingBatches[c * BATCHES_PER_CLIENT + b] }));
       return results;
     };
 
     // Weather client w alternates its own new dates with the shared dates, each put with values of its own.
     const ownDays = (w: number, round: number) => addDays('1980-01-01', (w * WEATHER_ROUNDS + round) * OWN_DAYS);
     const tempOf = (w: number, round: number, d: number) => Math.round((5 + w * 3 + round + ((d * 7) % 11) / 10) * 10) / 10;
-    const days = (from: string, count: number, w: number, round: number) => Array.from({ length: count }, (_, d) => ({ date: addDays(from, d), temp: tempOf(w, round, d) }));
+    const days = (from: string, count: number, w: number, round: number) =>
+      Array.from({ length: count }, (_, d) => ({ date: addDays(from, d), temp: tempOf(w, round, d) }));
     const sharedPuts: { client: number; round: number; observations: { date: string; temp: number }[] }[] = [];
     const weatherClient = async (w: number) => {
       const results: { answer: Answer; shared: boolean }[] = [];
@@ -120,7 +135,8 @@ describe.each(PROCESS_COUNTS)(`many concurrent writers on ${testDialect()}, %i s
 
     const draftClient = async (c: number) => {
       const results: Answer[] = [];
-      for (let k = 0; k < DRAFTS_PER_CLIENT; k++) results.push(await via(c)('POST', `/v1/meters/${ledger.baselineMeterId}/baselines`, BASELINE_WINDOW));
+      for (let k = 0; k < DRAFTS_PER_CLIENT; k++)
+        results.push(await via(c)('POST', `/v1/meters/${ledger.baselineMeterId}/baselines`, BASELINE_WINDOW));
       return results;
     };
 
@@ -140,7 +156,12 @@ describe.each(PROCESS_COUNTS)(`many concurrent writers on ${testDialect()}, %i s
     const sent = readingBatches.flat();
     const span = { from: READINGS_FROM, to: addDays(READINGS_FROM, sent.length) };
     expect(await storedIn(store!, ledger.meterId, span.from, span.to)).toEqual({ count: sent.length, total: sumOf(sent) }); // synthetic: what was sent
-    const distinct = await store!.db.selectFrom('readings').select('period_start').distinct().where('meter_id', '=', ledger.meterId).execute();
+    const distinct = await store!.db
+      .selectFrom('readings')
+      .select('period_start')
+      .distinct()
+      .where('meter_id', '=', ledger.meterId)
+      .execute();
     expect(distinct).toHaveLength(sent.length); // no period twice
     const readingRows = (await auditRows(store!, 'post-readings')).filter((row) => row.entity_id === ledger.meterId);
     const auditedStarts = readingRows.map((row) => (JSON.parse(row.after_json ?? '{}').created as [string][])[0]![0]).sort();
@@ -153,7 +174,9 @@ describe.each(PROCESS_COUNTS)(`many concurrent writers on ${testDialect()}, %i s
       for (let round = 0; round < WEATHER_ROUNDS; round++) {
         const from = ownDays(w, round);
         const listed = await via(w)('GET', `${observationsPath}?from=${from}&to=${addDays(from, OWN_DAYS)}`);
-        expect(listed.json.observations.map((o: any) => [o.date, o.temp])).toEqual(days(from, OWN_DAYS, w, round).map((d) => [d.date, d.temp]));
+        expect(listed.json.observations.map((o: any) => [o.date, o.temp])).toEqual(
+          days(from, OWN_DAYS, w, round).map((d) => [d.date, d.temp]),
+        );
       }
     }
     // Weather, shared dates: created once, then updated by each later put; what is stored is one put

@@ -89,7 +89,14 @@ describe(`crash safety on ${testDialect()}: SIGKILL during writes, restart on th
     const batchMs = performance.now() - sentAt;
     expect(firstOutcome).toMatchObject({ kind: 'answered', status: 201 }); // the API contract: new readings
     writes++;
-    batches.push({ start: firstReadings[0]!.start, end: addDays(firstReadings[0]!.start, BATCH_READINGS), count: BATCH_READINGS, total: sumOf(firstReadings), outcome: firstOutcome, found: BATCH_READINGS });
+    batches.push({
+      start: firstReadings[0]!.start,
+      end: addDays(firstReadings[0]!.start, BATCH_READINGS),
+      count: BATCH_READINGS,
+      total: sumOf(firstReadings),
+      outcome: firstOutcome,
+      found: BATCH_READINGS,
+    });
 
     let cutMidRequest = 0;
     for (let k = 1; k <= BATCH_KILLS; k++) {
@@ -121,7 +128,10 @@ describe(`crash safety on ${testDialect()}: SIGKILL during writes, restart on th
     const freezeAt = async (note: string, supersedeReason?: string) => {
       const draft = await ok(call(base, 'POST', `/v1/meters/${ledger.baselineMeterId}/baselines`, BASELINE_WINDOW), 'draft');
       writes++;
-      return { draftId: draft.id as string, flight: send(base, 'POST', `/v1/baselines/${draft.id}/freeze`, { note, ...(supersedeReason ? { supersedeReason } : {}) }) };
+      return {
+        draftId: draft.id as string,
+        flight: send(base, 'POST', `/v1/baselines/${draft.id}/freeze`, { note, ...(supersedeReason ? { supersedeReason } : {}) }),
+      };
     };
     const first = await freezeAt('first freeze under test');
     await first.flight.sent;
@@ -176,7 +186,12 @@ describe(`crash safety on ${testDialect()}: SIGKILL during writes, restart on th
     });
     expect(audited).toEqual(present.map((b) => ({ start: b.start, count: b.count, total: b.total })));
 
-    const baselines = await store.db.selectFrom('baselines').selectAll().where('meter_id', '=', ledger.baselineMeterId).orderBy('version').execute();
+    const baselines = await store.db
+      .selectFrom('baselines')
+      .selectAll()
+      .where('meter_id', '=', ledger.baselineMeterId)
+      .orderBy('version')
+      .execute();
     expect(baselines).toHaveLength(FREEZE_KILLS + 1); // one draft per round
     for (const row of baselines) {
       if (row.status === 'draft') expect(row.content_hash).toBeNull();
@@ -186,7 +201,8 @@ describe(`crash safety on ${testDialect()}: SIGKILL during writes, restart on th
     expect((await auditRows(store, 'freeze')).map((r) => r.entity_id)).toEqual(frozenIds); // one row per committed freeze
     expect((await auditRows(store, 'supersede')).map((r) => r.entity_id)).toEqual(frozenIds.slice(0, -1));
 
-    const organisationId = readingRows[0]?.organisation_id ?? (await store.db.selectFrom('organisations').select('id').executeTakeFirstOrThrow()).id;
+    const organisationId =
+      readingRows[0]?.organisation_id ?? (await store.db.selectFrom('organisations').select('id').executeTakeFirstOrThrow()).id;
     const verdict = await verifyAuditChain(store.db, organisationId);
     expect(verdict.broken).toBeUndefined();
     expect(verdict).toMatchObject({ ok: true, checked: writes }); // counted by this test: synthetic
@@ -207,7 +223,9 @@ describe(`crash safety on ${testDialect()}: SIGKILL during writes, restart on th
     const after = await verifyAuditChain(store.db, organisationId);
     expect(after).toMatchObject({ ok: true, checked: writes });
     for (const batch of batches) {
-      expect(await storedIn(store, ledger.meterId, batch.start, batch.end)).toEqual(batch.found === 0 ? { count: 0, total: 0 } : { count: batch.count, total: batch.total });
+      expect(await storedIn(store, ledger.meterId, batch.start, batch.end)).toEqual(
+        batch.found === 0 ? { count: 0, total: 0 } : { count: batch.count, total: batch.total },
+      );
     }
 
     const frozenCount = killedFreezes.filter((f) => f.frozen).length;

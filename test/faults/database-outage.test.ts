@@ -80,8 +80,17 @@ describe.skipIf(unavailable !== null || wrongProject)('PostgreSQL connection los
     // synthetic: the test sets the truth. A reporting half-year with its weather, and the baseline frozen, so savings and reports have figures.
     const random = seededRandom(62);
     const weather = dailyWeather(CLIMATES.temperate, BASELINE_WINDOW.end, 181, random);
-    await ok(call(instance.base, 'PUT', `/v1/weather-stations/${ledger.stationId}/observations`, { observations: weather.map((d) => ({ date: d.date, temp: d.temp })) }), 'reporting weather');
-    const bills = monthlyReadings({ ...SAMPLE_BUILDING, base: 250 }, weather, BASELINE_WINDOW.end, 5, random).map((r) => ({ start: r.start, end: r.end, quantity: r.quantity }));
+    await ok(
+      call(instance.base, 'PUT', `/v1/weather-stations/${ledger.stationId}/observations`, {
+        observations: weather.map((d) => ({ date: d.date, temp: d.temp })),
+      }),
+      'reporting weather',
+    );
+    const bills = monthlyReadings({ ...SAMPLE_BUILDING, base: 250 }, weather, BASELINE_WINDOW.end, 5, random).map((r) => ({
+      start: r.start,
+      end: r.end,
+      quantity: r.quantity,
+    }));
     await ok(call(instance.base, 'POST', `/v1/meters/${ledger.baselineMeterId}/readings`, { readings: bills }), 'reporting bills');
     const draft = await ok(call(instance.base, 'POST', `/v1/meters/${ledger.baselineMeterId}/baselines`, BASELINE_WINDOW), 'baseline');
     await ok(call(instance.base, 'POST', `/v1/baselines/${draft.id}/freeze`, { note: 'Agreed in the invented M&V plan (test)' }), 'freeze');
@@ -94,7 +103,14 @@ describe.skipIf(unavailable !== null || wrongProject)('PostgreSQL connection los
   });
 
   it('answers 503 while the database is away, never exits, and loses no acknowledged write', async () => {
-    const tally: Tally = { probes: 0, byStatus: {}, unavailable: { 'up read': 0, 'up write': 0, 'restarting read': 0, 'restarting write': 0 }, otherServerErrors: [], badUnavailable: [], unanswered: [] };
+    const tally: Tally = {
+      probes: 0,
+      byStatus: {},
+      unavailable: { 'up read': 0, 'up write': 0, 'restarting read': 0, 'restarting write': 0 },
+      otherServerErrors: [],
+      badUnavailable: [],
+      unanswered: [],
+    };
     const acknowledged: Acknowledged[] = [];
     let loading = true;
     let phase: Phase = 'up';
@@ -110,9 +126,13 @@ describe.skipIf(unavailable !== null || wrongProject)('PostgreSQL connection los
         });
         const text = await response.text();
         tally.byStatus[response.status] = (tally.byStatus[response.status] ?? 0) + 1;
-        if (response.status >= 500 && response.status !== 503) tally.otherServerErrors.push({ what, status: response.status, text: text.slice(0, 300) });
+        if (response.status >= 500 && response.status !== 503)
+          tally.otherServerErrors.push({ what, status: response.status, text: text.slice(0, 300) });
         if (response.status === 503) tally.unavailable[`${phase} ${method === 'GET' ? 'read' : 'write'}`]++;
-        if (response.status === 503 && (!/^application\/problem\+json/.test(response.headers.get('content-type') ?? '') || !response.headers.get('retry-after'))) {
+        if (
+          response.status === 503 &&
+          (!/^application\/problem\+json/.test(response.headers.get('content-type') ?? '') || !response.headers.get('retry-after'))
+        ) {
           tally.badUnavailable.push(`${what}: ${response.headers.get('content-type')} retry-after ${response.headers.get('retry-after')}`);
         }
         let json: any;
@@ -143,7 +163,12 @@ describe.skipIf(unavailable !== null || wrongProject)('PostgreSQL connection los
       }
     };
     const reader = async (r: number) => {
-      const paths = [`/v1/meters/${ledger.baselineMeterId}/savings`, `/v1/reports/savings?from=2025-01-01&to=2025-06-01&facilityId=${ledger.facilityId}`, '/readyz', `/v1/meters/${ledger.meterId}/readings?from=1900-01-01&to=1900-03-01`];
+      const paths = [
+        `/v1/meters/${ledger.baselineMeterId}/savings`,
+        `/v1/reports/savings?from=2025-01-01&to=2025-06-01&facilityId=${ledger.facilityId}`,
+        '/readyz',
+        `/v1/meters/${ledger.meterId}/readings?from=1900-01-01&to=1900-03-01`,
+      ];
       for (let i = r; loading; i++) {
         await probe(`reader ${r}`, 'GET', paths[i % paths.length]!);
         await sleep(20);
@@ -228,7 +253,8 @@ describe.skipIf(unavailable !== null || wrongProject)('PostgreSQL connection los
     expect(faults.backendsEnded).toBeGreaterThan(0);
     expect(tally.byStatus['503'] ?? 0).toBeGreaterThan(0);
     expect(acknowledged.length).toBeGreaterThan(0);
-    for (const body of faults.readyWhileDown) expect(body).toMatchObject({ status: 503, database: 'unreachable', title: 'Not available right now' });
+    for (const body of faults.readyWhileDown)
+      expect(body).toMatchObject({ status: 503, database: 'unreachable', title: 'Not available right now' });
   }, 90_000);
 
   it('retries a read whose backend is terminated mid-query, once, and never a write', async () => {
@@ -249,7 +275,9 @@ describe.skipIf(unavailable !== null || wrongProject)('PostgreSQL connection los
       expect(events.filter((e) => e.event === 'read-retried')).toHaveLength(1);
 
       // A read snapshot (a report's reads): read again whole.
-      const snapshot = await midQuery(readSnapshot(own.db, async (trx) => (await sql<{ answer: number }>`select 8 as answer from pg_sleep(0.6)`.execute(trx)).rows));
+      const snapshot = await midQuery(
+        readSnapshot(own.db, async (trx) => (await sql<{ answer: number }>`select 8 as answer from pg_sleep(0.6)`.execute(trx)).rows),
+      );
       expect(snapshot).toEqual([{ answer: 8 }]);
 
       // A write: not retried; it fails as a lost connection, and nothing of it is stored.
@@ -257,7 +285,12 @@ describe.skipIf(unavailable !== null || wrongProject)('PostgreSQL connection los
         await sql`insert into outage_probe (n) values (1)`.execute(trx);
         await sql`select pg_sleep(0.6)`.execute(trx);
       });
-      const failed = await midQuery(write.then(() => null, (error: unknown) => error));
+      const failed = await midQuery(
+        write.then(
+          () => null,
+          (error: unknown) => error,
+        ),
+      );
       expect(databaseFault(failed)).toBe('connection-lost');
       expect((await sql<{ n: string }>`select count(*) as n from outage_probe`.execute(own.db)).rows[0]!.n).toBe('0');
       // Every dropped connection was heard (an unheard one would have ended this process).

@@ -35,7 +35,8 @@ export function postgresBinaries(): string | null {
 export function ownClusterUnavailable(): string | null {
   if (process.platform !== 'linux') return 'not on Linux';
   if (postgresBinaries() === null) return `no PostgreSQL binaries under ${ROOT}/<version>/bin (Debian's postgresql package)`;
-  if (process.getuid?.() === 0 && !existsSync('/usr/sbin/runuser') && !existsSync('/sbin/runuser')) return 'running as root without runuser to switch to the postgres user';
+  if (process.getuid?.() === 0 && !existsSync('/usr/sbin/runuser') && !existsSync('/sbin/runuser'))
+    return 'running as root without runuser to switch to the postgres user';
   return null;
 }
 

@@ -27,7 +27,10 @@ async function child(body: string): Promise<{ code: number; stdout: string }> {
     setTimeout(() => { console.log('still running'); process.exit(0); }, 200);
   `;
   try {
-    const { stdout } = await run(process.execPath, ['--import', 'tsx', '--input-type=module', '-e', script], { cwd: ROOT, timeout: 30_000 });
+    const { stdout } = await run(process.execPath, ['--import', 'tsx', '--input-type=module', '-e', script], {
+      cwd: ROOT,
+      timeout: 30_000,
+    });
     return { code: 0, stdout };
   } catch (error) {
     const failed = error as { code?: number; stdout?: string };

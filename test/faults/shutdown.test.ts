@@ -13,7 +13,19 @@ import { openStore, type Store } from '../../src/store/connect.js';
 import { verifyAuditChain } from '../../src/store/audit.js';
 import { testDialect } from '../support/database.js';
 import { describeOutputs, stopInstance, type Instance } from '../multi-instance/support.js';
-import { call, dailyBatch, exitOf, freshFaultDatabase, seedLedger, send, sleep, startService, storedIn, sumOf, type Outcome } from './support.js';
+import {
+  call,
+  dailyBatch,
+  exitOf,
+  freshFaultDatabase,
+  seedLedger,
+  send,
+  sleep,
+  startService,
+  storedIn,
+  sumOf,
+  type Outcome,
+} from './support.js';
 
 /** Batches in flight at the signal, each large enough to take a few hundred milliseconds. */
 const IN_FLIGHT = 3;
@@ -84,7 +96,10 @@ describe(`graceful shutdown on ${testDialect()}: SIGTERM with requests in flight
     store = openStore(database.url);
     for (const readings of batches) {
       const start = readings[0]!.start;
-      expect(await storedIn(store, ledger.meterId, start, addDays(start, BATCH_READINGS))).toEqual({ count: BATCH_READINGS, total: sumOf(readings) }); // synthetic: what was sent
+      expect(await storedIn(store, ledger.meterId, start, addDays(start, BATCH_READINGS))).toEqual({
+        count: BATCH_READINGS,
+        total: sumOf(readings),
+      }); // synthetic: what was sent
     }
     const organisation = await store.db.selectFrom('organisations').select('id').executeTakeFirstOrThrow();
     const verdict = await verifyAuditChain(store.db, organisation.id);

@@ -178,13 +178,25 @@ export const BASELINE_WINDOW = { start: '2023-01-01', end: '2025-01-01' } as con
 export async function seedLedger(base: string): Promise<Ledger> {
   const random = seededRandom(61);
   const weather = dailyWeather(CLIMATES.temperate, BASELINE_WINDOW.start, 731, random);
-  const station = await ok(call(base, 'POST', '/v1/weather-stations', { name: 'Invented fault-test station', temperatureUnit: 'F' }), 'station');
-  await ok(call(base, 'PUT', `/v1/weather-stations/${station.id}/observations`, { observations: weather.map((d) => ({ date: d.date, temp: d.temp })) }), 'weather');
+  const station = await ok(
+    call(base, 'POST', '/v1/weather-stations', { name: 'Invented fault-test station', temperatureUnit: 'F' }),
+    'station',
+  );
+  await ok(
+    call(base, 'PUT', `/v1/weather-stations/${station.id}/observations`, {
+      observations: weather.map((d) => ({ date: d.date, temp: d.temp })),
+    }),
+    'weather',
+  );
   const facility = await ok(call(base, 'POST', '/v1/facilities', { name: 'Fault-test hall (invented)' }), 'facility');
   const meterBody = (name: string) => ({ name, fuel: 'electricity', unit: 'kWh', weatherStationId: station.id });
   const meter = await ok(call(base, 'POST', `/v1/facilities/${facility.id}/meters`, meterBody('Batch meter')), 'meter');
   const baselineMeter = await ok(call(base, 'POST', `/v1/facilities/${facility.id}/meters`, meterBody('Baseline meter')), 'baseline meter');
-  const bills = monthlyReadings(SAMPLE_BUILDING, weather, BASELINE_WINDOW.start, 24, random).map((r) => ({ start: r.start, end: r.end, quantity: r.quantity }));
+  const bills = monthlyReadings(SAMPLE_BUILDING, weather, BASELINE_WINDOW.start, 24, random).map((r) => ({
+    start: r.start,
+    end: r.end,
+    quantity: r.quantity,
+  }));
   await ok(call(base, 'POST', `/v1/meters/${baselineMeter.id}/readings`, { readings: bills }), 'bills');
   // bootstrap (organisation, key) 2 + station, weather, facility, two meters, bills 6
   return { stationId: station.id, facilityId: facility.id, meterId: meter.id, baselineMeterId: baselineMeter.id, writes: 8 };

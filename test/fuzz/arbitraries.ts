@@ -14,14 +14,52 @@ import type { JsonSchema } from './openapi-routes.js';
 
 /** The edges of IEEE-754 doubles and of the integers JavaScript holds exactly. */
 export const EDGE_NUMBERS: readonly number[] = [
-  1e308, -1e308, 5e-324, -5e-324, -0, 0, 1, -1, 0.5, 1e-7, 2 ** 31, -(2 ** 31) - 1, 2 ** 53, 2 ** 53 + 2, -(2 ** 53), 1e21, 123456789.123456,
-  Number.MAX_VALUE, Number.EPSILON,
+  1e308,
+  -1e308,
+  5e-324,
+  -5e-324,
+  -0,
+  0,
+  1,
+  -1,
+  0.5,
+  1e-7,
+  2 ** 31,
+  -(2 ** 31) - 1,
+  2 ** 53,
+  2 ** 53 + 2,
+  -(2 ** 53),
+  1e21,
+  123456789.123456,
+  Number.MAX_VALUE,
+  Number.EPSILON,
 ];
 
 /** Tokens JSON does not allow as numbers, or allows with surprising values (1e999 parses as Infinity). */
 export const RAW_NUMBER_TOKENS: readonly string[] = [
-  'NaN', 'Infinity', '-Infinity', '+Infinity', '1e999', '-1e999', '1e-999', '-0', '-0.0', '0x10', '01', '.5', '+1', '1.', '1e', '1e+', '--1',
-  '9'.repeat(400), `0.${'0'.repeat(400)}1`, 'undefined', 'nil', 'None', 'True',
+  'NaN',
+  'Infinity',
+  '-Infinity',
+  '+Infinity',
+  '1e999',
+  '-1e999',
+  '1e-999',
+  '-0',
+  '-0.0',
+  '0x10',
+  '01',
+  '.5',
+  '+1',
+  '1.',
+  '1e',
+  '1e+',
+  '--1',
+  '9'.repeat(400),
+  `0.${'0'.repeat(400)}1`,
+  'undefined',
+  'nil',
+  'None',
+  'True',
 ];
 
 export const hostileNumber: fc.Arbitrary<number> = fc.oneof(
@@ -35,16 +73,55 @@ export const hostileNumber: fc.Arbitrary<number> = fc.oneof(
 
 /** Impossible, ambiguous or time-bearing dates for YYYY-MM-DD fields. */
 export const HOSTILE_DATES: readonly string[] = [
-  '2025-02-30', '2024-13-01', '0000-00-00', '2023-02-29', '2025-04-31', '2025-00-10', '2025-01-32', '2025-01-00', '99999-01-01', '-2025-01-01',
-  '+002025-01-01', '2025-1-1', '20250101', '2025/01/01', '01/02/2025', '2025-01-01T00:00:00+05:00', '2025-01-01T00:00:00Z',
-  '2025-01-01T23:59:60Z', '2025-01-01 00:00', '2025-01-01T24:00:00Z', '2025-W01-1', '2025-001', '0001-01-01', '9999-12-31', '1970-01-01',
-  '1900-02-29', '2000-02-29', '２０２５-０１-０１', '٢٠٢٥-٠١-٠١', '2025-01-01\n', ' 2025-01-01', '2025-01-01 ', '2025-01-01\u0000', '\u202e2025-01-01',
-  '2025-01-01T00:00:00.000000000001Z', 'today', 'now', 'Invalid Date', '',
+  '2025-02-30',
+  '2024-13-01',
+  '0000-00-00',
+  '2023-02-29',
+  '2025-04-31',
+  '2025-00-10',
+  '2025-01-32',
+  '2025-01-00',
+  '99999-01-01',
+  '-2025-01-01',
+  '+002025-01-01',
+  '2025-1-1',
+  '20250101',
+  '2025/01/01',
+  '01/02/2025',
+  '2025-01-01T00:00:00+05:00',
+  '2025-01-01T00:00:00Z',
+  '2025-01-01T23:59:60Z',
+  '2025-01-01 00:00',
+  '2025-01-01T24:00:00Z',
+  '2025-W01-1',
+  '2025-001',
+  '0001-01-01',
+  '9999-12-31',
+  '1970-01-01',
+  '1900-02-29',
+  '2000-02-29',
+  '２０２５-０１-０１',
+  '٢٠٢٥-٠١-٠١',
+  '2025-01-01\n',
+  ' 2025-01-01',
+  '2025-01-01 ',
+  '2025-01-01\u0000',
+  '\u202e2025-01-01',
+  '2025-01-01T00:00:00.000000000001Z',
+  'today',
+  'now',
+  'Invalid Date',
+  '',
 ];
 
 /** Real dates, mostly near the seeded ledger (2022–2027) and at month starts as bills are, some centuries away. */
 export const plausibleDate: fc.Arbitrary<string> = fc.oneof(
-  { weight: 3, arbitrary: fc.tuple(fc.integer({ min: 2022, max: 2027 }), fc.integer({ min: 1, max: 12 })).map(([y, m]) => `${y}-${String(m).padStart(2, '0')}-01`) },
+  {
+    weight: 3,
+    arbitrary: fc
+      .tuple(fc.integer({ min: 2022, max: 2027 }), fc.integer({ min: 1, max: 12 }))
+      .map(([y, m]) => `${y}-${String(m).padStart(2, '0')}-01`),
+  },
   {
     weight: 2,
     arbitrary: fc
@@ -53,25 +130,116 @@ export const plausibleDate: fc.Arbitrary<string> = fc.oneof(
   },
   { weight: 1, arbitrary: fc.constantFrom('2023-01-01', '2025-01-01', '2026-01-01', '2024-02-29', '2024-12-31') },
   // Real but far-off dates: centuries of days between two of them.
-  { weight: 1, arbitrary: fc.constantFrom('0001-01-01', '1000-03-01', '1900-01-01', '1970-01-01', '2000-02-29', '2100-01-01', '9999-12-31') },
+  {
+    weight: 1,
+    arbitrary: fc.constantFrom('0001-01-01', '1000-03-01', '1900-01-01', '1970-01-01', '2000-02-29', '2100-01-01', '9999-12-31'),
+  },
 );
 
 // ---------------------------------------------------------------- text
 
 /** Characters that break naive text handling: controls, NUL, bidi marks, joiners, combining marks, lone surrogates, quotes. */
 export const AWKWARD_CHARACTERS: readonly string[] = [
-  '\u0000', '\u0001', '\u0008', '\u001b', '\u001f', '\u007f', '\u0085', '\u200b', '\u200e', '\u200f', '\u202a', '\u202e', '\u2066', '\u2069',
-  '\ufeff', '\ufffd', '\ufffe', '\uffff', '\ud800', '\udfff', '\u0301', 'e\u0301', 'Z\u0351\u0360\u0489', '😀', '👩‍👩‍👧', '🏳️‍🌈', '𝔘', 'İ', 'ß', 'Ω',
-  'ﷺ', '\n', '\r', '\t', '\u2028', '\u2029', '"', '\\', "'", '`', '<', '>', '&', '%', '/', '.', ',', ';', ' ', 'a', '1',
+  '\u0000',
+  '\u0001',
+  '\u0008',
+  '\u001b',
+  '\u001f',
+  '\u007f',
+  '\u0085',
+  '\u200b',
+  '\u200e',
+  '\u200f',
+  '\u202a',
+  '\u202e',
+  '\u2066',
+  '\u2069',
+  '\ufeff',
+  '\ufffd',
+  '\ufffe',
+  '\uffff',
+  '\ud800',
+  '\udfff',
+  '\u0301',
+  'e\u0301',
+  'Z\u0351\u0360\u0489',
+  '😀',
+  '👩‍👩‍👧',
+  '🏳️‍🌈',
+  '𝔘',
+  'İ',
+  'ß',
+  'Ω',
+  'ﷺ',
+  '\n',
+  '\r',
+  '\t',
+  '\u2028',
+  '\u2029',
+  '"',
+  '\\',
+  "'",
+  '`',
+  '<',
+  '>',
+  '&',
+  '%',
+  '/',
+  '.',
+  ',',
+  ';',
+  ' ',
+  'a',
+  '1',
 ];
 
 /** SQL, path and prototype fragments, and strings that look like other types. */
 export const HOSTILE_STRINGS: readonly string[] = [
-  "'; drop table readings; --", '1 OR 1=1', "' OR '1'='1", '1; select * from api_keys', '") or ("1"="1', '%27%20OR%201=1', '\\x27',
-  '__proto__', 'constructor', 'prototype', 'toString', 'hasOwnProperty', '../', '../../etc/passwd', '..\\..\\windows', '%2e%2e%2f', '%00',
-  'NaN', 'Infinity', '-Infinity', '1e308', '-0', 'null', 'true', 'false', 'undefined', '0', '[]', '{}', '', ' ', '   ', '\t\n',
-  '=1+2', '@SUM(A1)', '+cmd', '<script>alert(1)</script>', '${7*7}', '{{7*7}}', '\u202egnp.exe', '\u0000', 'x'.repeat(201), 'y'.repeat(2001),
-  'é'.repeat(201), '😀'.repeat(101),
+  "'; drop table readings; --",
+  '1 OR 1=1',
+  "' OR '1'='1",
+  '1; select * from api_keys',
+  '") or ("1"="1',
+  '%27%20OR%201=1',
+  '\\x27',
+  '__proto__',
+  'constructor',
+  'prototype',
+  'toString',
+  'hasOwnProperty',
+  '../',
+  '../../etc/passwd',
+  '..\\..\\windows',
+  '%2e%2e%2f',
+  '%00',
+  'NaN',
+  'Infinity',
+  '-Infinity',
+  '1e308',
+  '-0',
+  'null',
+  'true',
+  'false',
+  'undefined',
+  '0',
+  '[]',
+  '{}',
+  '',
+  ' ',
+  '   ',
+  '\t\n',
+  '=1+2',
+  '@SUM(A1)',
+  '+cmd',
+  '<script>alert(1)</script>',
+  '${7*7}',
+  '{{7*7}}',
+  '\u202egnp.exe',
+  '\u0000',
+  'x'.repeat(201),
+  'y'.repeat(2001),
+  'é'.repeat(201),
+  '😀'.repeat(101),
 ];
 
 export const awkwardText: fc.Arbitrary<string> = fc.oneof(
@@ -83,18 +251,43 @@ export const awkwardText: fc.Arbitrary<string> = fc.oneof(
 
 /** Readable text, the kind a person would type into a name or a reason. */
 const readableText: fc.Arbitrary<string> = fc.oneof(
-  fc.constantFrom('Invented annex', 'North wing (invented)', 'Agreed in the M&V plan', 'Meter exchange', 'kWh', 'therm', 'm3', 'Re-read after audit'),
+  fc.constantFrom(
+    'Invented annex',
+    'North wing (invented)',
+    'Agreed in the M&V plan',
+    'Meter exchange',
+    'kWh',
+    'therm',
+    'm3',
+    'Re-read after audit',
+  ),
   fc.string({ unit: 'grapheme-ascii', minLength: 1, maxLength: 30 }),
 );
 
 // ---------------------------------------------------------------- structures
 
 /** Object keys that attack prototypes or confuse parsers. */
-export const HOSTILE_KEYS: readonly string[] = ['__proto__', 'constructor', 'prototype', 'toString', 'valueOf', '', ' ', '$where', '0', 'a.b', 'a[0]', '\u0000', '😀'];
+export const HOSTILE_KEYS: readonly string[] = [
+  '__proto__',
+  'constructor',
+  'prototype',
+  'toString',
+  'valueOf',
+  '',
+  ' ',
+  '$where',
+  '0',
+  'a.b',
+  'a[0]',
+  '\u0000',
+  '😀',
+];
 
 /** `[[[…]]]` or `{"a":{"a":…}}` nested `depth` deep. */
 export function deepNest(depth: number, kind: 'array' | 'object'): RawJson {
-  return kind === 'array' ? new RawJson(`${'['.repeat(depth)}${']'.repeat(depth)}`) : new RawJson(`${'{"a":'.repeat(depth)}1${'}'.repeat(depth)}`);
+  return kind === 'array'
+    ? new RawJson(`${'['.repeat(depth)}${']'.repeat(depth)}`)
+    : new RawJson(`${'{"a":'.repeat(depth)}1${'}'.repeat(depth)}`);
 }
 
 const deepNestArb: fc.Arbitrary<JsonValue> = fc
@@ -134,9 +327,12 @@ const clampLength = (min: number | undefined, max: number | undefined) => ({ min
 
 function validString(schema: JsonSchema, name: string, ctx: SchemaContext): fc.Arbitrary<string> {
   if (schema.format === 'date') return plausibleDate;
-  if (/Id$/.test(name) && ctx.realIds.length > 0) return fc.oneof({ weight: 3, arbitrary: fc.constantFrom(...ctx.realIds) }, { weight: 1, arbitrary: awkwardText });
+  if (/Id$/.test(name) && ctx.realIds.length > 0)
+    return fc.oneof({ weight: 3, arbitrary: fc.constantFrom(...ctx.realIds) }, { weight: 1, arbitrary: awkwardText });
   const { minLength, maxLength } = clampLength(schema.minLength, schema.maxLength);
-  return fc.oneof(readableText, awkwardText).filter((s) => s.length >= minLength && s.length <= maxLength && s.trim().length >= Math.min(minLength, 1));
+  return fc
+    .oneof(readableText, awkwardText)
+    .filter((s) => s.length >= minLength && s.length <= maxLength && s.trim().length >= Math.min(minLength, 1));
 }
 
 function validNumber(schema: JsonSchema, integer: boolean): fc.Arbitrary<number> {
@@ -182,7 +378,10 @@ function validValue(schema: JsonSchema, name: string, ctx: SchemaContext, hostil
       return validString(schema, name, ctx);
     case 'array': {
       const item = schema.items ?? {};
-      return fc.array(valueFor(item, name, ctx, hostility), { minLength: schema.minItems ?? 0, maxLength: Math.min(schema.maxItems ?? 3, 3) });
+      return fc.array(valueFor(item, name, ctx, hostility), {
+        minLength: schema.minItems ?? 0,
+        maxLength: Math.min(schema.maxItems ?? 3, 3),
+      });
     }
     case 'object':
       return objectValue(schema, ctx, hostility);
@@ -198,7 +397,9 @@ function objectValue(schema: JsonSchema, ctx: SchemaContext, hostility: number):
   const fields = properties.map(([key, property]) =>
     required.has(key)
       ? valueFor(property, key, ctx, hostility).map((v): [string, JsonValue][] => [[key, v]])
-      : fc.option(valueFor(property, key, ctx, hostility), { nil: undefined, freq: 2 }).map((v): [string, JsonValue][] => (v === undefined ? [] : [[key, v]])),
+      : fc
+          .option(valueFor(property, key, ctx, hostility), { nil: undefined, freq: 2 })
+          .map((v): [string, JsonValue][] => (v === undefined ? [] : [[key, v]])),
   );
   const base = fc.tuple(...fields).map((groups) => groups.flat());
   if (hostility === 0) return base.map((entries) => new JsonEntries(entries));
@@ -210,7 +411,14 @@ function objectValue(schema: JsonSchema, ctx: SchemaContext, hostility: number):
     {
       weight: scale,
       arbitrary: fc
-        .tuple(fc.oneof(fc.constantFrom(...HOSTILE_KEYS), fc.string({ maxLength: 10 }), fc.constantFrom(...properties.map(([k]) => `${k} `), 'x')), hostileValue)
+        .tuple(
+          fc.oneof(
+            fc.constantFrom(...HOSTILE_KEYS),
+            fc.string({ maxLength: 10 }),
+            fc.constantFrom(...properties.map(([k]) => `${k} `), 'x'),
+          ),
+          hostileValue,
+        )
         .map(([key, value]) => ({ kind: 'extra' as const, key, value })),
     },
   );

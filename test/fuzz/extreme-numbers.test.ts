@@ -67,7 +67,8 @@ function nextUp(x: number): number {
 /** A figure per day at the edges a bound admits: 0, the smallest subnormal, anything up to the bound, the bound itself. */
 const perDayEdge = (max: number) => fc.oneof(fc.constantFrom(0, Number.MIN_VALUE, max), fc.double({ min: 0, max, noNaN: true }));
 /** As perDayEdge, either sign. */
-const signedEdge = (max: number) => fc.oneof(fc.constantFrom(-max, max, -Number.MIN_VALUE, Number.MIN_VALUE), fc.double({ min: -max, max, noNaN: true }));
+const signedEdge = (max: number) =>
+  fc.oneof(fc.constantFrom(-max, max, -Number.MIN_VALUE, Number.MIN_VALUE), fc.double({ min: -max, max, noNaN: true }));
 /** Just beyond a bound: the next double up, a factor of 1 + 10⁻⁹, or the largest double. */
 const beyond = (max: number) => fc.constantFrom(nextUp(max), max * (1 + 1e-9), Number.MAX_VALUE);
 /** Just beyond a bound per day (the next double up could round back onto the bound once multiplied by the days and divided again). */
@@ -83,7 +84,10 @@ const scenario = fc.record({
   costPerDay: fc.array(fc.option(perDayEdge(MAX_COST_PER_DAY.max)), { minLength: 12, maxLength: 12 }),
   edgeTemps: fc.array(fc.constantFrom(COLDEST, HOTTEST), { minLength: 1, maxLength: 6 }),
   normalTemp: fc.constantFrom(COLDEST, HOTTEST),
-  floorArea: fc.oneof(fc.constantFrom(Number.MIN_VALUE, MAX_FLOOR_AREA.max), fc.double({ min: Number.MIN_VALUE, max: MAX_FLOOR_AREA.max, noNaN: true })),
+  floorArea: fc.oneof(
+    fc.constantFrom(Number.MIN_VALUE, MAX_FLOOR_AREA.max),
+    fc.double({ min: Number.MIN_VALUE, max: MAX_FLOOR_AREA.max, noNaN: true }),
+  ),
   options: fc.record({
     minCoverage: fc.constantFrom(Number.MIN_VALUE, 1),
     significanceLevel: fc.constantFrom(Number.MIN_VALUE, 1 - 2 ** -53),
@@ -92,7 +96,10 @@ const scenario = fc.record({
   price: fc.oneof(fc.constantFrom(0, Number.MIN_VALUE, MAX_PRICE.max), fc.double({ min: 0, max: MAX_PRICE.max, noNaN: true })),
   escalation: fc.constantFrom(1, 0, -1 + 2 ** -52, 0.5),
   rateFrom: fc.constantFrom('0001-01-01', '1900-01-01', '2025-01-01'),
-  adjustment: fc.oneof(fc.record({ perDay: signedEdge(MAX_USE_PER_DAY.max) }), fc.record({ quantityPerDay: signedEdge(MAX_USE_PER_DAY.max) })),
+  adjustment: fc.oneof(
+    fc.record({ perDay: signedEdge(MAX_USE_PER_DAY.max) }),
+    fc.record({ quantityPerDay: signedEdge(MAX_USE_PER_DAY.max) }),
+  ),
   energyGuarantee: signedEdge(MAX_GUARANTEE_ENERGY.max),
   costGuarantee: signedEdge(MAX_GUARANTEE_COST.max),
   beyondUse: beyondPerDay(MAX_USE_PER_DAY.max),
@@ -121,7 +128,12 @@ afterAll(async () => {
   await api?.close();
 });
 
-async function send(what: string, method: 'GET' | 'POST' | 'PUT', url: string, options: { body?: unknown; csv?: string; headers?: Record<string, string> } = {}): Promise<ApiResponse> {
+async function send(
+  what: string,
+  method: 'GET' | 'POST' | 'PUT',
+  url: string,
+  options: { body?: unknown; csv?: string; headers?: Record<string, string> } = {},
+): Promise<ApiResponse> {
   const reply = await api.call(method, url, { as: 'admin', ...options });
   answers.push({ what, status: reply.status });
   figures.requests++;
@@ -130,20 +142,34 @@ async function send(what: string, method: 'GET' | 'POST' | 'PUT', url: string, o
   return reply;
 }
 
-async function stored(what: string, method: 'POST' | 'PUT', url: string, options: { body?: unknown; csv?: string; headers?: Record<string, string> }): Promise<any> {
+async function stored(
+  what: string,
+  method: 'POST' | 'PUT',
+  url: string,
+  options: { body?: unknown; csv?: string; headers?: Record<string, string> },
+): Promise<any> {
   const reply = await send(what, method, url, options);
   expect([200, 201], `${what}: ${reply.text.slice(0, 400)}`).toContain(reply.status);
   return reply.json;
 }
 
 /** Send a value beyond a bound and expect a 400 that names `field` (a JSON path, or a CSV row and field). */
-async function refused(what: string, method: 'POST' | 'PUT', url: string, options: { body?: unknown; csv?: string; headers?: Record<string, string> }, field: RegExp): Promise<void> {
+async function refused(
+  what: string,
+  method: 'POST' | 'PUT',
+  url: string,
+  options: { body?: unknown; csv?: string; headers?: Record<string, string> },
+  field: RegExp,
+): Promise<void> {
   const reply = await send(what, method, url, options);
   figures.refused++;
   expect(reply.status, `${what}: ${reply.text.slice(0, 400)}`).toBe(400);
   expect(reply.headers['content-type']).toMatch(/^application\/problem\+json/);
   const named = [reply.json.detail as string, ...((reply.json.errors ?? []) as { field: string }[]).map((e) => e.field)];
-  expect(named.some((text) => field.test(text)), `${what} should name ${field}: ${reply.text.slice(0, 400)}`).toBe(true);
+  expect(
+    named.some((text) => field.test(text)),
+    `${what} should name ${field}: ${reply.text.slice(0, 400)}`,
+  ).toBe(true);
 }
 
 function nonFinite(text: string): string[] {
@@ -151,7 +177,10 @@ function nonFinite(text: string): string[] {
 }
 
 function csvOf(columns: string[], rows: (string | number | null | undefined)[][]): string {
-  return [columns.join(','), ...rows.map((row) => row.map((cell) => (cell === null || cell === undefined ? '' : String(cell))).join(','))].join('\n');
+  return [
+    columns.join(','),
+    ...rows.map((row) => row.map((cell) => (cell === null || cell === undefined ? '' : String(cell))).join(',')),
+  ].join('\n');
 }
 
 /** Days of [start, end). */
@@ -160,20 +189,42 @@ const daysOf = (r: { start: string; end: string }) => Math.round((Date.parse(r.e
 async function runScenario(s: Scenario, run: number): Promise<void> {
   figures.runs++;
   const tag = `run ${run}`;
-  const facility = await stored(`${tag} facility`, 'POST', '/v1/facilities', { body: { name: `Extreme works ${run} (invented)`, floorArea: s.floorArea } });
+  const facility = await stored(`${tag} facility`, 'POST', '/v1/facilities', {
+    body: { name: `Extreme works ${run} (invented)`, floorArea: s.floorArea },
+  });
 
   // Weather at the plausible extremes on a few reporting days, and a normal year all at one extreme.
-  const station = await stored(`${tag} station`, 'POST', '/v1/weather-stations', { body: { name: `Extreme station ${run}`, temperatureUnit: 'F' } });
+  const station = await stored(`${tag} station`, 'POST', '/v1/weather-stations', {
+    body: { name: `Extreme station ${run}`, temperatureUnit: 'F' },
+  });
   const days = weather.map((d, i) => (i >= 731 && i - 731 < s.edgeTemps.length ? { date: d.date, temp: s.edgeTemps[i - 731]! } : d));
   const observationsUrl = `/v1/weather-stations/${station.id}/observations`;
-  if (s.csv) await stored(`${tag} observations (CSV)`, 'PUT', observationsUrl, { csv: csvOf(['date', 'temp'], days.map((d) => [d.date, d.temp])) });
-  else await stored(`${tag} observations`, 'PUT', observationsUrl, { body: { observations: [...days.slice(0, -1), { date: days.at(-1)!.date, tmin: COLDEST, tmax: HOTTEST }] } });
+  if (s.csv)
+    await stored(`${tag} observations (CSV)`, 'PUT', observationsUrl, {
+      csv: csvOf(
+        ['date', 'temp'],
+        days.map((d) => [d.date, d.temp]),
+      ),
+    });
+  else
+    await stored(`${tag} observations`, 'PUT', observationsUrl, {
+      body: { observations: [...days.slice(0, -1), { date: days.at(-1)!.date, tmin: COLDEST, tmax: HOTTEST }] },
+    });
   const normalUrl = `/v1/weather-stations/${station.id}/normal-year`;
   const normal = NORMAL_YEAR_DAYS.map((day) => ({ day, temp: s.normalTemp }));
-  if (s.csv) await stored(`${tag} normal year (CSV)`, 'PUT', normalUrl, { csv: csvOf(['day', 'temp'], normal.map((d) => [d.day, d.temp])), headers: { 'x-normal-year-source': 'Invented extreme year (test)' } });
+  if (s.csv)
+    await stored(`${tag} normal year (CSV)`, 'PUT', normalUrl, {
+      csv: csvOf(
+        ['day', 'temp'],
+        normal.map((d) => [d.day, d.temp]),
+      ),
+      headers: { 'x-normal-year-source': 'Invented extreme year (test)' },
+    });
   else await stored(`${tag} normal year`, 'PUT', normalUrl, { body: { source: 'Invented extreme year (test)', days: normal } });
 
-  const meter = await stored(`${tag} meter`, 'POST', `/v1/facilities/${facility.id}/meters`, { body: { name: `Extreme meter ${run}`, fuel: 'electricity', unit: 'kWh', weatherStationId: station.id } });
+  const meter = await stored(`${tag} meter`, 'POST', `/v1/facilities/${facility.id}/meters`, {
+    body: { name: `Extreme meter ${run}`, fuel: 'electricity', unit: 'kWh', weatherStationId: station.id },
+  });
   // Two years of ordinary bills with one at the edge of the use-per-day bound, then a year of reporting bills all at edges.
   const random = seededRandom(run + 1);
   const baseline = monthlyReadings(SAMPLE_BUILDING, weather, '2023-01-01', 24, random).map((r, i) => ({
@@ -190,59 +241,216 @@ async function runScenario(s: Scenario, run: number): Promise<void> {
   }));
   const readings = [...baseline, ...reporting];
   const readingsUrl = `/v1/meters/${meter.id}/readings`;
-  if (s.csv) await stored(`${tag} readings (CSV)`, 'POST', readingsUrl, { csv: csvOf(['start', 'end', 'quantity', 'cost'], readings.map((r) => [r.start, r.end, r.quantity, r.cost])) });
-  else await stored(`${tag} readings`, 'POST', readingsUrl, { body: { readings: readings.map((r) => (r.cost === null ? { start: r.start, end: r.end, quantity: r.quantity } : r)) } });
+  if (s.csv)
+    await stored(`${tag} readings (CSV)`, 'POST', readingsUrl, {
+      csv: csvOf(
+        ['start', 'end', 'quantity', 'cost'],
+        readings.map((r) => [r.start, r.end, r.quantity, r.cost]),
+      ),
+    });
+  else
+    await stored(`${tag} readings`, 'POST', readingsUrl, {
+      body: { readings: readings.map((r) => (r.cost === null ? { start: r.start, end: r.end, quantity: r.quantity } : r)) },
+    });
 
   // A draft at the options' edges (it may fit or say why not), then the frozen baseline.
-  await send(`${tag} baseline at option edges`, 'POST', `/v1/meters/${meter.id}/baselines`, { body: { start: '2023-01-01', end: '2025-01-01', options: s.options } });
-  const draft = await send(`${tag} baseline`, 'POST', `/v1/meters/${meter.id}/baselines`, { body: { start: '2023-01-01', end: '2025-01-01' } });
+  await send(`${tag} baseline at option edges`, 'POST', `/v1/meters/${meter.id}/baselines`, {
+    body: { start: '2023-01-01', end: '2025-01-01', options: s.options },
+  });
+  const draft = await send(`${tag} baseline`, 'POST', `/v1/meters/${meter.id}/baselines`, {
+    body: { start: '2023-01-01', end: '2025-01-01' },
+  });
   let baselineId: string | null = null;
   if (draft.status === 201) {
     baselineId = draft.json.id;
-    await stored(`${tag} freeze`, 'POST', `/v1/baselines/${baselineId}/freeze`, { body: { note: 'Agreed in the invented M&V plan (test)' } });
+    await stored(`${tag} freeze`, 'POST', `/v1/baselines/${baselineId}/freeze`, {
+      body: { note: 'Agreed in the invented M&V plan (test)' },
+    });
     const adjustment =
       'perDay' in s.adjustment
         ? { perDay: s.adjustment.perDay }
-        : { quantity: Math.sign(s.adjustment.quantityPerDay) * Math.min(Math.abs(s.adjustment.quantityPerDay) * 28, MAX_USE_PER_DAY.max * 28) };
-    await stored(`${tag} adjustment`, 'POST', `/v1/meters/${meter.id}/adjustments`, { body: { start: '2025-02-01', end: '2025-03-01', ...adjustment, reason: 'Invented extreme change (test)' } });
+        : {
+            quantity:
+              Math.sign(s.adjustment.quantityPerDay) * Math.min(Math.abs(s.adjustment.quantityPerDay) * 28, MAX_USE_PER_DAY.max * 28),
+          };
+    await stored(`${tag} adjustment`, 'POST', `/v1/meters/${meter.id}/adjustments`, {
+      body: { start: '2025-02-01', end: '2025-03-01', ...adjustment, reason: 'Invented extreme change (test)' },
+    });
   } else {
     expect(draft.status, `${tag} baseline: ${draft.text.slice(0, 300)}`).toBe(422);
   }
-  await stored(`${tag} rates`, 'PUT', `/v1/meters/${meter.id}/rates`, { body: { currency: 'USD', rates: [{ from: s.rateFrom, price: s.price, escalation: s.escalation }] } });
+  await stored(`${tag} rates`, 'PUT', `/v1/meters/${meter.id}/rates`, {
+    body: { currency: 'USD', rates: [{ from: s.rateFrom, price: s.price, escalation: s.escalation }] },
+  });
   await stored(`${tag} contract`, 'PUT', `/v1/facilities/${facility.id}/contract`, {
-    body: { start: '2025-01-01', years: 2, currency: 'USD', energyUnit: 'kWh', guarantees: [{ year: 1, energy: s.energyGuarantee, cost: s.costGuarantee }, { year: 2, energy: -s.energyGuarantee }] },
+    body: {
+      start: '2025-01-01',
+      years: 2,
+      currency: 'USD',
+      energyUnit: 'kWh',
+      guarantees: [
+        { year: 1, energy: s.energyGuarantee, cost: s.costGuarantee },
+        { year: 2, energy: -s.energyGuarantee },
+      ],
+    },
   });
 
   // Just beyond every bound: refused, naming the field, and nothing stored.
   const before = await databaseDigest(api.store.db);
-  await refused(`${tag} floor area beyond`, 'POST', '/v1/facilities', { body: { name: 'Beyond', floorArea: s.beyondFloor } }, /^floorArea$/);
+  await refused(
+    `${tag} floor area beyond`,
+    'POST',
+    '/v1/facilities',
+    { body: { name: 'Beyond', floorArea: s.beyondFloor } },
+    /^floorArea$/,
+  );
   const bill = reporting[3]!;
   if (s.csv) {
-    await refused(`${tag} quantity beyond (CSV)`, 'POST', readingsUrl, { csv: csvOf(['start', 'end', 'quantity'], [['2026-06-01', '2026-06-02', 1], ['2026-06-02', '2026-06-03', s.beyondUse]]) }, /^row 3, field quantity$/);
-    await refused(`${tag} cost beyond (CSV)`, 'POST', readingsUrl, { csv: csvOf(['start', 'end', 'quantity', 'cost'], [['2026-06-01', '2026-06-03', 1, total(s.beyondCost, 2)]]) }, /^row 2, field cost$/);
-    await refused(`${tag} temperature beyond (CSV)`, 'PUT', observationsUrl, { csv: csvOf(['date', 'temp'], [['2026-06-01', 50], ['2026-06-02', s.beyondTemp]]) }, /^row 3, field temp$/);
+    await refused(
+      `${tag} quantity beyond (CSV)`,
+      'POST',
+      readingsUrl,
+      {
+        csv: csvOf(
+          ['start', 'end', 'quantity'],
+          [
+            ['2026-06-01', '2026-06-02', 1],
+            ['2026-06-02', '2026-06-03', s.beyondUse],
+          ],
+        ),
+      },
+      /^row 3, field quantity$/,
+    );
+    await refused(
+      `${tag} cost beyond (CSV)`,
+      'POST',
+      readingsUrl,
+      { csv: csvOf(['start', 'end', 'quantity', 'cost'], [['2026-06-01', '2026-06-03', 1, total(s.beyondCost, 2)]]) },
+      /^row 2, field cost$/,
+    );
+    await refused(
+      `${tag} temperature beyond (CSV)`,
+      'PUT',
+      observationsUrl,
+      {
+        csv: csvOf(
+          ['date', 'temp'],
+          [
+            ['2026-06-01', 50],
+            ['2026-06-02', s.beyondTemp],
+          ],
+        ),
+      },
+      /^row 3, field temp$/,
+    );
   } else {
-    await refused(`${tag} quantity beyond`, 'POST', readingsUrl, { body: { readings: [{ start: '2026-06-01', end: '2026-06-02', quantity: 1 }, { start: '2026-06-02', end: '2026-06-03', quantity: s.beyondUse }] } }, /^readings\[1\]\.quantity$/);
-    await refused(`${tag} quantity of a long bill beyond`, 'POST', readingsUrl, { body: { readings: [{ start: '2026-01-01', end: '2026-07-01', quantity: MAX_USE_PER_DAY.max * 181 * (1 + 1e-9) }] } }, /^readings\[0\]\.quantity$/);
-    await refused(`${tag} cost beyond`, 'POST', readingsUrl, { body: { readings: [{ start: bill.start, end: bill.end, quantity: bill.quantity, cost: total(s.beyondCost, daysOf(bill)) }], correctionReason: 'test' } }, /^readings\[0\]\.cost$/);
-    await refused(`${tag} temperature beyond`, 'PUT', observationsUrl, { body: { observations: [{ date: '2026-06-01', tmin: 20, tmax: s.beyondTemp }] } }, /^observations\[0\]\.tmax$/);
+    await refused(
+      `${tag} quantity beyond`,
+      'POST',
+      readingsUrl,
+      {
+        body: {
+          readings: [
+            { start: '2026-06-01', end: '2026-06-02', quantity: 1 },
+            { start: '2026-06-02', end: '2026-06-03', quantity: s.beyondUse },
+          ],
+        },
+      },
+      /^readings\[1\]\.quantity$/,
+    );
+    await refused(
+      `${tag} quantity of a long bill beyond`,
+      'POST',
+      readingsUrl,
+      { body: { readings: [{ start: '2026-01-01', end: '2026-07-01', quantity: MAX_USE_PER_DAY.max * 181 * (1 + 1e-9) }] } },
+      /^readings\[0\]\.quantity$/,
+    );
+    await refused(
+      `${tag} cost beyond`,
+      'POST',
+      readingsUrl,
+      {
+        body: {
+          readings: [{ start: bill.start, end: bill.end, quantity: bill.quantity, cost: total(s.beyondCost, daysOf(bill)) }],
+          correctionReason: 'test',
+        },
+      },
+      /^readings\[0\]\.cost$/,
+    );
+    await refused(
+      `${tag} temperature beyond`,
+      'PUT',
+      observationsUrl,
+      { body: { observations: [{ date: '2026-06-01', tmin: 20, tmax: s.beyondTemp }] } },
+      /^observations\[0\]\.tmax$/,
+    );
   }
-  await refused(`${tag} normal year beyond`, 'PUT', normalUrl, { body: { source: 'Beyond (test)', days: normal.map((d, i) => (i === 100 ? { ...d, temp: s.beyondTemp } : d)) } }, /^days\[100\]\.temp$/);
-  await refused(`${tag} price beyond`, 'PUT', `/v1/meters/${meter.id}/rates`, { body: { currency: 'USD', rates: [{ from: '2025-01-01', price: s.beyondPrice }] } }, /^rates\[0\]\.price$/);
-  await refused(`${tag} escalation beyond`, 'PUT', `/v1/meters/${meter.id}/rates`, { body: { currency: 'USD', rates: [{ from: '2025-01-01', price: 1, escalation: nextUp(1) }] } }, /^rates\[0\]\.escalation$/);
-  await refused(`${tag} perDay beyond`, 'POST', `/v1/meters/${meter.id}/adjustments`, { body: { start: '2026-02-01', end: '2026-03-01', perDay: -s.beyondUse, reason: 'Beyond (test)' } }, /^perDay$/);
-  await refused(`${tag} adjustment quantity beyond`, 'POST', `/v1/meters/${meter.id}/adjustments`, { body: { start: '2026-02-01', end: '2026-03-01', quantity: total(s.beyondUse, 28), reason: 'Beyond (test)' } }, /^quantity$/);
+  await refused(
+    `${tag} normal year beyond`,
+    'PUT',
+    normalUrl,
+    { body: { source: 'Beyond (test)', days: normal.map((d, i) => (i === 100 ? { ...d, temp: s.beyondTemp } : d)) } },
+    /^days\[100\]\.temp$/,
+  );
+  await refused(
+    `${tag} price beyond`,
+    'PUT',
+    `/v1/meters/${meter.id}/rates`,
+    { body: { currency: 'USD', rates: [{ from: '2025-01-01', price: s.beyondPrice }] } },
+    /^rates\[0\]\.price$/,
+  );
+  await refused(
+    `${tag} escalation beyond`,
+    'PUT',
+    `/v1/meters/${meter.id}/rates`,
+    { body: { currency: 'USD', rates: [{ from: '2025-01-01', price: 1, escalation: nextUp(1) }] } },
+    /^rates\[0\]\.escalation$/,
+  );
+  await refused(
+    `${tag} perDay beyond`,
+    'POST',
+    `/v1/meters/${meter.id}/adjustments`,
+    { body: { start: '2026-02-01', end: '2026-03-01', perDay: -s.beyondUse, reason: 'Beyond (test)' } },
+    /^perDay$/,
+  );
+  await refused(
+    `${tag} adjustment quantity beyond`,
+    'POST',
+    `/v1/meters/${meter.id}/adjustments`,
+    { body: { start: '2026-02-01', end: '2026-03-01', quantity: total(s.beyondUse, 28), reason: 'Beyond (test)' } },
+    /^quantity$/,
+  );
   await refused(
     `${tag} guarantees beyond`,
     'PUT',
     `/v1/facilities/${facility.id}/contract`,
-    { body: { start: '2025-01-01', years: 2, currency: 'USD', energyUnit: 'kWh', guarantees: [{ year: 1, energy: s.beyondEnergy }, { year: 2, cost: -s.beyondGuaranteeCost }] } },
+    {
+      body: {
+        start: '2025-01-01',
+        years: 2,
+        currency: 'USD',
+        energyUnit: 'kWh',
+        guarantees: [
+          { year: 1, energy: s.beyondEnergy },
+          { year: 2, cost: -s.beyondGuaranteeCost },
+        ],
+      },
+    },
     /^guarantees\[[01]\]\.(energy|cost)$/,
   );
   expect(await databaseDigest(api.store.db), `${tag}: a refused request stored something`).toBe(before);
 
   // Every reading of what was stored: lists, savings, the signature chart, the reports.
-  for (const url of [`/v1/facilities/${facility.id}`, `/v1/facilities/${facility.id}/contract`, readingsUrl, `/v1/meters/${meter.id}/rates`, `/v1/meters/${meter.id}/adjustments`, observationsUrl, normalUrl, `/v1/meters/${meter.id}/baselines`]) {
+  for (const url of [
+    `/v1/facilities/${facility.id}`,
+    `/v1/facilities/${facility.id}/contract`,
+    readingsUrl,
+    `/v1/meters/${meter.id}/rates`,
+    `/v1/meters/${meter.id}/adjustments`,
+    observationsUrl,
+    normalUrl,
+    `/v1/meters/${meter.id}/baselines`,
+  ]) {
     expect((await send(`${tag} GET ${url}`, 'GET', url)).status).toBe(200);
   }
   if (baselineId !== null) {
@@ -253,11 +461,16 @@ async function runScenario(s: Scenario, run: number): Promise<void> {
   }
   for (const window of ['quarter=2025-Q1', 'contractYear=1', 'from=2024-12-01&to=2026-02-01']) {
     for (const format of ['json', 'csv', 'html']) {
-      const reply = await send(`${tag} report ${window} ${format}`, 'GET', `/v1/reports/savings?${window}&facilityId=${facility.id}&format=${format}`);
+      const reply = await send(
+        `${tag} report ${window} ${format}`,
+        'GET',
+        `/v1/reports/savings?${window}&facilityId=${facility.id}&format=${format}`,
+      );
       figures.reports++;
       expect([200, 422], `${tag} report ${window} ${format}: ${reply.text.slice(0, 300)}`).toContain(reply.status);
       if (reply.status === 422) figures.unprocessable++;
-      if (reply.status === 200 && format === 'json') figures.notAvailableNotices += (reply.json.notices as string[]).filter((n) => n.includes('not available')).length;
+      if (reply.status === 200 && format === 'json')
+        figures.notAvailableNotices += (reply.json.notices as string[]).filter((n) => n.includes('not available')).length;
     }
   }
 }
@@ -270,9 +483,18 @@ describe(`extreme finite numbers on ${testDialect()}: stored at the bounds' edge
       const resolved = resolveRefs(schema, document.components?.schemas ?? {});
       const types = Array.isArray(resolved.type) ? resolved.type : [resolved.type];
       if (types.includes('number') || types.includes('integer')) return true;
-      return [...Object.values(resolved.properties ?? {}), ...(resolved.items ? [resolved.items] : []), ...(resolved.anyOf ?? []), ...(resolved.oneOf ?? []), ...(resolved.allOf ?? [])].some(takesNumber);
+      return [
+        ...Object.values(resolved.properties ?? {}),
+        ...(resolved.items ? [resolved.items] : []),
+        ...(resolved.anyOf ?? []),
+        ...(resolved.oneOf ?? []),
+        ...(resolved.allOf ?? []),
+      ].some(takesNumber);
     };
-    const withNumbers = routesFromOpenApi(document).filter((route) => takesNumber(route.body)).map(routeName).sort();
+    const withNumbers = routesFromOpenApi(document)
+      .filter((route) => takesNumber(route.body))
+      .map(routeName)
+      .sort();
     expect(withNumbers).toEqual([...DRIVEN].sort());
   });
 
@@ -290,7 +512,15 @@ describe(`extreme finite numbers on ${testDialect()}: stored at the bounds' edge
   it('labels a cost escalated past the finite range as not available', async () => {
     // synthetic: the test sets the truth. A price doubling every year since 0001 reaches 2^2024 by 2025: beyond any double.
     const scenarioValue: Scenario = fc.sample(scenario, { seed: SEED, numRuns: 1 })[0]!;
-    const fixed: Scenario = { ...scenarioValue, baselineUsePerDay: 300, rateFrom: '0001-01-01', escalation: 1, price: 1, usePerDay: scenarioValue.usePerDay.map(() => 100), costPerDay: scenarioValue.costPerDay.map(() => null) };
+    const fixed: Scenario = {
+      ...scenarioValue,
+      baselineUsePerDay: 300,
+      rateFrom: '0001-01-01',
+      escalation: 1,
+      price: 1,
+      usePerDay: scenarioValue.usePerDay.map(() => 100),
+      costPerDay: scenarioValue.costPerDay.map(() => null),
+    };
     const before = figures.notAvailableNotices;
     await runScenario(fixed, 1000);
     expect(figures.notAvailableNotices).toBeGreaterThan(before);

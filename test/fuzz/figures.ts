@@ -31,6 +31,12 @@ export function summaryLine(seed: number, all: readonly RouteFigures[], extra: R
     seed,
     requests: total,
     ...extra,
-    routes: all.map((f) => ({ route: f.route, runs: f.runs, ms: Math.round(f.milliseconds), statuses: f.statuses, unsendable: f.unsendable })),
+    routes: all.map((f) => ({
+      route: f.route,
+      runs: f.runs,
+      ms: Math.round(f.milliseconds),
+      statuses: f.statuses,
+      unsendable: f.unsendable,
+    })),
   })}`;
 }

@@ -50,13 +50,23 @@ async function seedLedger(api: TestApi): Promise<SeededIds> {
   const baseline: Reading[] = monthlyReadings(SAMPLE_BUILDING, weather, '2023-01-01', 24, random);
   const reporting: Reading[] = monthlyReadings({ ...SAMPLE_BUILDING, base: 255, heatingRate: 6.5 }, weather, '2025-01-01', 12, random);
 
-  const station = await expectStatus(api.call('POST', '/v1/weather-stations', { body: { name: 'Invented hill station', temperatureUnit: 'F' } }), 201, 'station');
+  const station = await expectStatus(
+    api.call('POST', '/v1/weather-stations', { body: { name: 'Invented hill station', temperatureUnit: 'F' } }),
+    201,
+    'station',
+  );
   await expectStatus(
-    api.call('PUT', `/v1/weather-stations/${station.id}/observations`, { body: { observations: weather.map((d) => ({ date: d.date, temp: d.temp })) } }),
+    api.call('PUT', `/v1/weather-stations/${station.id}/observations`, {
+      body: { observations: weather.map((d) => ({ date: d.date, temp: d.temp })) },
+    }),
     200,
     'observations',
   );
-  const facility = await expectStatus(api.call('POST', '/v1/facilities', { body: { name: 'Fuzz depot (invented)', floorArea: 12_500 } }), 201, 'facility');
+  const facility = await expectStatus(
+    api.call('POST', '/v1/facilities', { body: { name: 'Fuzz depot (invented)', floorArea: 12_500 } }),
+    201,
+    'facility',
+  );
   const meter = await expectStatus(
     api.call('POST', `/v1/facilities/${facility.id}/meters`, {
       body: { name: 'Depot main electric (invented)', fuel: 'electricity', unit: 'kWh', weatherStationId: station.id },
@@ -66,13 +76,27 @@ async function seedLedger(api: TestApi): Promise<SeededIds> {
   );
   const rows = [...baseline, ...reporting].map((r) => ({ start: r.start, end: r.end, quantity: Math.round(r.quantity * 10) / 10 }));
   await expectStatus(api.call('POST', `/v1/meters/${meter.id}/readings`, { body: { readings: rows } }), 201, 'readings');
-  const frozen = await expectStatus(api.call('POST', `/v1/meters/${meter.id}/baselines`, { body: { start: '2023-01-01', end: '2025-01-01' } }), 201, 'baseline');
-  await expectStatus(api.call('POST', `/v1/baselines/${frozen.id}/freeze`, { body: { note: 'Agreed in the invented M&V plan' } }), 200, 'freeze');
-  const draft = await expectStatus(api.call('POST', `/v1/meters/${meter.id}/baselines`, { body: { start: '2023-02-01', end: '2025-01-01' } }), 201, 'draft');
+  const frozen = await expectStatus(
+    api.call('POST', `/v1/meters/${meter.id}/baselines`, { body: { start: '2023-01-01', end: '2025-01-01' } }),
+    201,
+    'baseline',
+  );
+  await expectStatus(
+    api.call('POST', `/v1/baselines/${frozen.id}/freeze`, { body: { note: 'Agreed in the invented M&V plan' } }),
+    200,
+    'freeze',
+  );
+  const draft = await expectStatus(
+    api.call('POST', `/v1/meters/${meter.id}/baselines`, { body: { start: '2023-02-01', end: '2025-01-01' } }),
+    201,
+    'draft',
+  );
 
   const spareKeys: string[] = [];
   for (const role of ['analyst', 'integration'] as const) {
-    spareKeys.push((await expectStatus(api.call('POST', '/v1/api-keys', { body: { name: `spare ${role} key`, role } }), 201, 'key')).key.id);
+    spareKeys.push(
+      (await expectStatus(api.call('POST', '/v1/api-keys', { body: { name: `spare ${role} key`, role } }), 201, 'key')).key.id,
+    );
   }
   const otherStation = await expectStatus(
     api.call('POST', '/v1/weather-stations', { as: 'other', body: { name: 'Other organisation station', temperatureUnit: 'C' } }),

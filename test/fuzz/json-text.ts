@@ -25,4 +25,5 @@ export function jsonText(value: JsonValue): string {
 }
 
 /** The entries of an object value, or null when it is not one. */
-export const entriesOf = (value: JsonValue): readonly (readonly [string, JsonValue])[] | null => (value instanceof JsonEntries ? value.entries : null);
+export const entriesOf = (value: JsonValue): readonly (readonly [string, JsonValue])[] | null =>
+  value instanceof JsonEntries ? value.entries : null;

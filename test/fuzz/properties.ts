@@ -20,7 +20,12 @@ const LEAKS = [STACK_LINE, SOURCE_PATH, /node_modules/, /"stack"\s*:/];
 /** A readable account of the request, for failure messages (long parts cut). */
 export function describeRequest(request: FuzzRequest): string {
   const cut = (text: string) => (text.length > 400 ? `${text.slice(0, 400)}… (${text.length} chars)` : text);
-  const payload = request.payload === undefined ? '(none)' : Buffer.isBuffer(request.payload) ? `bytes ${request.payload.toString('hex').slice(0, 400)}` : JSON.stringify(cut(request.payload));
+  const payload =
+    request.payload === undefined
+      ? '(none)'
+      : Buffer.isBuffer(request.payload)
+        ? `bytes ${request.payload.toString('hex').slice(0, 400)}`
+        : JSON.stringify(cut(request.payload));
   return `${request.method} ${cut(request.url)}\nheaders: ${cut(JSON.stringify(request.headers))}\nbody: ${payload}\nkind: ${request.kind}`;
 }
 
@@ -35,7 +40,8 @@ export function contractViolation(request: FuzzRequest, response: FuzzResponse, 
   }
   const contentType = String(response.headers['content-type'] ?? '');
   if (status >= 400) {
-    if (!contentType.startsWith('application/problem+json')) return `a ${status} came as ${contentType || 'no content type'}: ${body.slice(0, 200)}`;
+    if (!contentType.startsWith('application/problem+json'))
+      return `a ${status} came as ${contentType || 'no content type'}: ${body.slice(0, 200)}`;
     let problem: Record<string, unknown>;
     try {
       problem = JSON.parse(body) as Record<string, unknown>;
@@ -43,11 +49,13 @@ export function contractViolation(request: FuzzRequest, response: FuzzResponse, 
       return `a ${status} problem body is not JSON: ${body.slice(0, 200)}`;
     }
     for (const member of ['type', 'title', 'detail'] as const) {
-      if (typeof problem[member] !== 'string' || (problem[member] as string).length === 0) return `the problem has no ${member}: ${body.slice(0, 200)}`;
+      if (typeof problem[member] !== 'string' || (problem[member] as string).length === 0)
+        return `the problem has no ${member}: ${body.slice(0, 200)}`;
     }
     if (problem.status !== status) return `the problem says status ${String(problem.status)} but the answer is ${status}`;
     if (problem.errors !== undefined) {
-      const ok = Array.isArray(problem.errors) && problem.errors.every((e) => typeof e?.field === 'string' && typeof e?.message === 'string');
+      const ok =
+        Array.isArray(problem.errors) && problem.errors.every((e) => typeof e?.field === 'string' && typeof e?.message === 'string');
       if (!ok) return `the problem's errors are not [{field, message}]: ${body.slice(0, 200)}`;
     }
     return null;

@@ -101,7 +101,10 @@ async function check(route: FuzzRoute | null, request: FuzzRequest, figures: Rou
   // SQLite says cheaply whether anything was written; elsewhere every rejected write is digested.
   const sampled = watch.checked % DIGEST_SAMPLE_EVERY === 0 || (service.api.store.dialect !== 'sqlite' && request.method !== 'GET');
   const changed = await watch.unchanged(sampled);
-  if (changed) throw new Error(`${accepted ? 'a read' : `a rejected request (${response.status})`} changed the database: ${changed}\n${describeRequest(request)}`);
+  if (changed)
+    throw new Error(
+      `${accepted ? 'a read' : `a rejected request (${response.status})`} changed the database: ${changed}\n${describeRequest(request)}`,
+    );
 }
 
 describe('every route, fuzzed', () => {
@@ -110,11 +113,12 @@ describe('every route, fuzzed', () => {
     // adjustments, rates, contracts, normal years, reports).
     expect(routes.length).toBeGreaterThanOrEqual(37);
     // The API contract: the three routes documented as also taking text/csv.
-    expect(routes.filter((r) => r.takesCsv).map(routeName).sort()).toEqual([
-      'POST /v1/meters/{id}/readings',
-      'PUT /v1/weather-stations/{id}/normal-year',
-      'PUT /v1/weather-stations/{id}/observations',
-    ]);
+    expect(
+      routes
+        .filter((r) => r.takesCsv)
+        .map(routeName)
+        .sort(),
+    ).toEqual(['POST /v1/meters/{id}/readings', 'PUT /v1/weather-stations/{id}/normal-year', 'PUT /v1/weather-stations/{id}/observations']);
   });
 
   for (const route of routes) {
@@ -141,7 +145,13 @@ describe('every route, fuzzed', () => {
         if (declared.has(method)) continue;
         await check(
           null,
-          { method, url: path.replace(/\{[^}]+\}/g, realId), headers: { authorization: `Bearer ${context.tokens.admin}`, 'content-type': 'application/json' }, payload: '{}', kind: 'method' },
+          {
+            method,
+            url: path.replace(/\{[^}]+\}/g, realId),
+            headers: { authorization: `Bearer ${context.tokens.admin}`, 'content-type': 'application/json' },
+            payload: '{}',
+            kind: 'method',
+          },
           figures,
         );
       }

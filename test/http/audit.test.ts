@@ -18,12 +18,23 @@ beforeAll(async () => {
   for (const name of ['North Wing', 'South Wing', 'East Wing']) {
     facilityIds.push((await api.call('POST', '/v1/facilities', { body: { name } })).json.id);
   }
-  stationId = (await api.call('POST', '/v1/weather-stations', { as: 'engineer', body: { name: 'Roof Sensor', temperatureUnit: 'C' } })).json.id;
+  stationId = (await api.call('POST', '/v1/weather-stations', { as: 'engineer', body: { name: 'Roof Sensor', temperatureUnit: 'C' } })).json
+    .id;
   await api.call('POST', '/v1/facilities', { as: 'other', body: { name: 'Not Ours' } });
 });
 afterAll(async () => api.close());
 
-type Entry = { seq: number; at: string; actor: string; entityType: string; entityId: string; before: unknown; after: unknown; hash: string; prevHash: string };
+type Entry = {
+  seq: number;
+  at: string;
+  actor: string;
+  entityType: string;
+  entityId: string;
+  before: unknown;
+  after: unknown;
+  hash: string;
+  prevHash: string;
+};
 
 describe('the audit trail', () => {
   it("lists the organisation's rows in sequence order, with before and after as JSON", async () => {
@@ -33,10 +44,25 @@ describe('the audit trail', () => {
     const seqs = entries.map((e) => e.seq);
     expect(seqs).toEqual([...seqs].sort((a, b) => a - b));
     // organisation, 4 keys, 3 facilities, 1 station: 9 rows (synthetic: the setup made them)
-    expect(entries.map((e) => e.entityType)).toEqual(['organisation', 'api-key', 'api-key', 'api-key', 'api-key', 'facility', 'facility', 'facility', 'weather-station']);
+    expect(entries.map((e) => e.entityType)).toEqual([
+      'organisation',
+      'api-key',
+      'api-key',
+      'api-key',
+      'api-key',
+      'facility',
+      'facility',
+      'facility',
+      'weather-station',
+    ]);
     expect(entries.some((e) => JSON.stringify(e).includes('Not Ours'))).toBe(false);
     const station = entries[8]!;
-    expect(station).toMatchObject({ action: 'create', entityId: stationId, before: null, after: { id: stationId, name: 'Roof Sensor', temperatureUnit: 'C' } });
+    expect(station).toMatchObject({
+      action: 'create',
+      entityId: stationId,
+      before: null,
+      after: { id: stationId, name: 'Roof Sensor', temperatureUnit: 'C' },
+    });
     expect(station.actor).toMatch(/^[A-Za-z0-9]{8}$/); // the engineer key's id
     expect(entries[0]!.actor).toBe('system');
     expect(response.json.next).toBeUndefined();
@@ -82,7 +108,17 @@ describe('the audit trail', () => {
     expect(seen).toEqual(all.map((e) => e.seq));
   });
 
-  const invalid = ['since=yesterday', 'since=2026-02-30', 'since=2026-03-01T10:00:00', 'limit=0', 'limit=5000', 'limit=two', 'after=-1', 'entity=Facility!', 'colour=red'];
+  const invalid = [
+    'since=yesterday',
+    'since=2026-02-30',
+    'since=2026-03-01T10:00:00',
+    'limit=0',
+    'limit=5000',
+    'limit=two',
+    'after=-1',
+    'entity=Facility!',
+    'colour=red',
+  ];
   for (const query of invalid) {
     it(`refuses ?${query} with 400 naming the parameter`, async () => {
       const response = await api.call('GET', `/v1/audit?${query}`);

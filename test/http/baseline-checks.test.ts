@@ -52,16 +52,23 @@ afterAll(async () => {
 });
 
 async function seedMeter(readings: readonly Reading[] = [...BASELINE, ...REPORTING]): Promise<string> {
-  const station = await api.call('POST', '/v1/weather-stations', { as: 'engineer', body: { name: 'Invented fen station', temperatureUnit: 'F' } });
+  const station = await api.call('POST', '/v1/weather-stations', {
+    as: 'engineer',
+    body: { name: 'Invented fen station', temperatureUnit: 'F' },
+  });
   const observations = WEATHER.map((d) => ({ date: d.date, temp: d.temp }));
-  expect((await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, { as: 'integration', body: { observations } })).status).toBe(200);
+  expect(
+    (await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, { as: 'integration', body: { observations } })).status,
+  ).toBe(200);
   const facility = await api.call('POST', '/v1/facilities', { as: 'engineer', body: { name: 'Test works 9 (invented)' } });
   const meter = await api.call('POST', `/v1/facilities/${facility.json.id}/meters`, {
     as: 'engineer',
     body: { name: 'Works main electric (invented)', fuel: 'electricity', unit: 'kWh', weatherStationId: station.json.id },
   });
   const rows = readings.map((r) => ({ start: r.start, end: r.end, quantity: r.quantity }));
-  expect((await api.call('POST', `/v1/meters/${meter.json.id}/readings`, { as: 'integration', body: { readings: rows } })).status).toBe(201);
+  expect((await api.call('POST', `/v1/meters/${meter.json.id}/readings`, { as: 'integration', body: { readings: rows } })).status).toBe(
+    201,
+  );
   return meter.json.id;
 }
 
@@ -78,7 +85,9 @@ async function expectRejected(send: () => Promise<{ status: number; json: any }>
 /** The engine's savings of the same data in the same form, with the document's checks as the service states them: the engine itself. */
 function engineSavings(analysis: BaselineAnalysis, reporting: readonly Reading[] = REPORTING): any {
   const fit = analysis.choice.candidates.find((c) => c.model === analysis.choice.selected)!.fit!;
-  return JSON.parse(toJsonDocument(savingsFromFit(fit, { limits: analysis.choice.settings.guideline14, excluded: analysis.excluded }, reporting, WEATHER)));
+  return JSON.parse(
+    toJsonDocument(savingsFromFit(fit, { limits: analysis.choice.settings.guideline14, excluded: analysis.excluded }, reporting, WEATHER)),
+  );
 }
 
 const freeze = (id: string, body: unknown) => api.call('POST', `/v1/baselines/${id}/freeze`, { as: 'engineer', body });
@@ -96,7 +105,11 @@ describe('the temperature form on record', () => {
     const frozen = await freeze(draft.json.id, { note: 'Agreed (test)' });
     expect(frozen.status).toBe(200);
     expect(frozen.json.temperatureForm).toBe('daily');
-    const row = await api.store.db.selectFrom('baselines').select('temperature_form').where('id', '=', draft.json.id).executeTakeFirstOrThrow();
+    const row = await api.store.db
+      .selectFrom('baselines')
+      .select('temperature_form')
+      .where('id', '=', draft.json.id)
+      .executeTakeFirstOrThrow();
     expect(row.temperature_form).toBe('daily');
 
     const savings = await api.call('GET', `/v1/meters/${meterId}/savings`, { as: 'analyst' });
@@ -115,7 +128,10 @@ describe('the temperature form on record', () => {
 
   it('fits, freezes and projects in the mean form when asked, and never refits', async () => {
     const meterId = await seedMeter();
-    const draft = await api.call('POST', `/v1/meters/${meterId}/baselines`, { as: 'engineer', body: { ...WINDOW, options: { temperature: 'mean' } } });
+    const draft = await api.call('POST', `/v1/meters/${meterId}/baselines`, {
+      as: 'engineer',
+      body: { ...WINDOW, options: { temperature: 'mean' } },
+    });
     expect(draft.status).toBe(201);
     expect(draft.json.temperatureForm).toBe('mean');
     expect(draft.json.options).toEqual({ temperature: 'mean' });
@@ -139,14 +155,21 @@ describe('the temperature form on record', () => {
 
   it('reads a fit stored before the form existed as a mean-form fit: its hash verifies and it projects in the mean form', async () => {
     const meterId = await seedMeter();
-    const draft = await api.call('POST', `/v1/meters/${meterId}/baselines`, { as: 'engineer', body: { ...WINDOW, options: { temperature: 'mean' } } });
+    const draft = await api.call('POST', `/v1/meters/${meterId}/baselines`, {
+      as: 'engineer',
+      body: { ...WINDOW, options: { temperature: 'mean' } },
+    });
     expect((await freeze(draft.json.id, { note: 'Agreed (test)' })).status).toBe(200);
     // Rewrite the row as a build without the form stored it: no form in the fit JSON, the hash over exactly those columns.
     const row = await api.store.db.selectFrom('baselines').selectAll().where('id', '=', draft.json.id).executeTakeFirstOrThrow();
     const strip = (value: any): any => {
       if (Array.isArray(value)) return value.map(strip);
       if (value === null || typeof value !== 'object') return value;
-      return Object.fromEntries(Object.entries(value).filter(([key]) => key !== 'temperatureForm' && key !== 'dayTemperatureRange').map(([key, entry]) => [key, strip(entry)]));
+      return Object.fromEntries(
+        Object.entries(value)
+          .filter(([key]) => key !== 'temperatureForm' && key !== 'dayTemperatureRange')
+          .map(([key, entry]) => [key, strip(entry)]),
+      );
     };
     const oldRow = {
       ...row,
@@ -159,7 +182,12 @@ describe('the temperature form on record', () => {
     const contentHash = baselineContentHash(oldRow);
     await api.store.db
       .updateTable('baselines')
-      .set({ document_json: oldRow.document_json, fits_json: oldRow.fits_json, options_json: oldRow.options_json, content_hash: contentHash })
+      .set({
+        document_json: oldRow.document_json,
+        fits_json: oldRow.fits_json,
+        options_json: oldRow.options_json,
+        content_hash: contentHash,
+      })
       .where('id', '=', row.id)
       .execute();
 
@@ -177,7 +205,12 @@ describe('the temperature form on record', () => {
 
   it('refuses an unknown form with a 400 naming the option, storing nothing', async () => {
     const meterId = await seedMeter();
-    const problem = await expectRejected(() => api.call('POST', `/v1/meters/${meterId}/baselines`, { as: 'engineer', body: { ...WINDOW, options: { temperature: 'weekly' } } }), 400, 'options.temperature');
+    const problem = await expectRejected(
+      () =>
+        api.call('POST', `/v1/meters/${meterId}/baselines`, { as: 'engineer', body: { ...WINDOW, options: { temperature: 'weekly' } } }),
+      400,
+      'options.temperature',
+    );
     expect(problem.errors[0].field).toBe('options.temperature');
   });
 });
@@ -244,7 +277,12 @@ describe('a baseline too short to project from', () => {
     expect((await api.call('GET', `/v1/baselines/${draftId}`)).json.verified).toBe(false);
     await api.store.db.updateTable('baselines').set({ short_baseline_override: reason }).where('id', '=', draftId).execute();
 
-    const audit = await api.store.db.selectFrom('audit_log').selectAll().where('entity_id', '=', draftId).where('action', '=', 'freeze').executeTakeFirstOrThrow();
+    const audit = await api.store.db
+      .selectFrom('audit_log')
+      .selectAll()
+      .where('entity_id', '=', draftId)
+      .where('action', '=', 'freeze')
+      .executeTakeFirstOrThrow();
     expect(JSON.parse(audit.after_json!).overrides).toEqual({ shortBaseline: { reason }, extrapolation: null });
     expect((await verifyAuditChain(api.store.db, api.organisationId)).ok).toBe(true);
   });
@@ -254,7 +292,11 @@ describe('a baseline too short to project from', () => {
     const reporting = [...BASELINE, ...REPORTING].filter((r) => r.start >= SHORT_WINDOW.end);
     const expected = reportingExtrapolation(shortFit, alignPeriods(reporting, WEATHER).periods);
     expect(expected.exceedsLimit).toBe(true); // synthetic: the winters lie far below a summer baseline
-    const problem = await expectRejected(() => api.call('GET', `/v1/meters/${meterId}/savings`, { as: 'analyst' }), 422, 'the limit is 10.0%');
+    const problem = await expectRejected(
+      () => api.call('GET', `/v1/meters/${meterId}/savings`, { as: 'analyst' }),
+      422,
+      'the limit is 10.0%',
+    );
     expect(problem.detail).toContain(expected.summary);
     expect(problem.extrapolation).toMatchObject({ share: expected.share, limit: 0.1, basis: 'daily' });
 
@@ -269,7 +311,10 @@ describe('a baseline too short to project from', () => {
     expect(frozen.status).toBe(200);
     const savings = await api.call('GET', `/v1/meters/${meterId}/savings`, { as: 'analyst' });
     expect(savings.status).toBe(200);
-    expect(savings.json.baseline.overrides).toEqual({ shortBaseline: { reason: 'Four months only (invented)' }, extrapolation: { reason: extrapolation } });
+    expect(savings.json.baseline.overrides).toEqual({
+      shortBaseline: { reason: 'Four months only (invented)' },
+      extrapolation: { reason: extrapolation },
+    });
     expect(savings.json.baseline.sufficiency.sufficient).toBe(false);
     expect(savings.json.extrapolation).toEqual(JSON.parse(JSON.stringify(expected)));
 
@@ -292,7 +337,11 @@ describe('a baseline too short to project from', () => {
   it('refuses a short-baseline override on a baseline that covers a full cycle of seasons (400), storing nothing', async () => {
     const other = await seedMeter();
     const draft = await api.call('POST', `/v1/meters/${other}/baselines`, { as: 'engineer', body: WINDOW });
-    await expectRejected(() => freeze(draft.json.id, { note: 'Agreed (test)', overrides: { shortBaseline: { reason: 'not needed' } } }), 400, 'nothing to override');
+    await expectRejected(
+      () => freeze(draft.json.id, { note: 'Agreed (test)', overrides: { shortBaseline: { reason: 'not needed' } } }),
+      400,
+      'nothing to override',
+    );
   });
 });
 
@@ -300,7 +349,10 @@ describe('a report of a meter beyond the extrapolation limit without an override
   it('reports the meter as not available, with the share and the limit', async () => {
     const meterId = await seedMeter();
     const draft = await api.call('POST', `/v1/meters/${meterId}/baselines`, { as: 'engineer', body: SHORT_WINDOW });
-    expect((await freeze(draft.json.id, { note: 'Agreed (test)', overrides: { shortBaseline: { reason: 'Four months only (invented)' } } })).status).toBe(200);
+    expect(
+      (await freeze(draft.json.id, { note: 'Agreed (test)', overrides: { shortBaseline: { reason: 'Four months only (invented)' } } }))
+        .status,
+    ).toBe(200);
     const report = await api.call('GET', '/v1/reports/savings?from=2025-01-01&to=2026-01-01', { as: 'analyst' });
     expect(report.status).toBe(200);
     const meter = report.json.facilities.flatMap((f: any) => f.meters).find((m: any) => m.id === meterId);
@@ -322,7 +374,11 @@ describe('adjustments with their own ±', () => {
   it('refuses a negative or non-numeric ± with a 400 naming the field, storing nothing', async () => {
     const body = { start: '2025-03-01', end: '2025-05-01', quantity: 6100, reason: 'Temporary site office (invented)' };
     for (const uncertainty of [-1, '12', null]) {
-      const problem = await expectRejected(() => api.call('POST', `/v1/meters/${meterId}/adjustments`, { as: 'engineer', body: { ...body, uncertainty } }), 400, 'uncertainty');
+      const problem = await expectRejected(
+        () => api.call('POST', `/v1/meters/${meterId}/adjustments`, { as: 'engineer', body: { ...body, uncertainty } }),
+        400,
+        'uncertainty',
+      );
       expect(problem.errors[0].field).toBe('uncertainty');
     }
   });
@@ -346,7 +402,11 @@ describe('adjustments with their own ±', () => {
     const model = Math.max(u.guideline14.absolute, u.exact.absolute);
     expect(u.combined.absolute).toBeCloseTo(Math.hypot(model, 1220 * 1.6448536269514715), 6);
 
-    const report = await api.call('GET', `/v1/reports/savings?from=2025-01-01&to=2026-01-01&confidence=0.9&facilityId=${(await api.call('GET', `/v1/meters/${meterId}`)).json.facilityId}`, { as: 'analyst' });
+    const report = await api.call(
+      'GET',
+      `/v1/reports/savings?from=2025-01-01&to=2026-01-01&confidence=0.9&facilityId=${(await api.call('GET', `/v1/meters/${meterId}`)).json.facilityId}`,
+      { as: 'analyst' },
+    );
     const meter = report.json.facilities[0].meters[0];
     expect(meter.energy.uncertainty).toBeCloseTo(u.combined.absolute, 6); // the report uses the combined ±
     expect(meter.uncertaintyParts.adjustments).toBeCloseTo(u.adjustments.absolute, 6);

@@ -36,11 +36,16 @@ function keyIdOf(role: Role): string {
 
 /** A station with daily weather, a facility, and a meter with readings, all through the API. */
 async function seedMeter(options: { name?: string; weather?: boolean; readings?: readonly Reading[] } = {}): Promise<string> {
-  const station = await api.call('POST', '/v1/weather-stations', { as: 'engineer', body: { name: 'Invented valley station', temperatureUnit: 'F' } });
+  const station = await api.call('POST', '/v1/weather-stations', {
+    as: 'engineer',
+    body: { name: 'Invented valley station', temperatureUnit: 'F' },
+  });
   expect(station.status).toBe(201);
   if (options.weather ?? true) {
     const observations = WEATHER.map((d) => ({ date: d.date, temp: d.temp }));
-    expect((await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, { as: 'integration', body: { observations } })).status).toBe(200);
+    expect(
+      (await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, { as: 'integration', body: { observations } })).status,
+    ).toBe(200);
   }
   const facility = await api.call('POST', '/v1/facilities', { as: 'engineer', body: { name: 'Test building 7 (invented)' } });
   const meter = await api.call('POST', `/v1/facilities/${facility.json.id}/meters`, {
@@ -58,8 +63,18 @@ async function fitDraft(meterId: string, body: unknown = WINDOW, as: CallOptions
 }
 
 async function auditActions(baselineId: string): Promise<{ action: string; before: any; after: any }[]> {
-  const rows = await api.store.db.selectFrom('audit_log').selectAll().where('entity_type', '=', 'baseline').where('entity_id', '=', baselineId).orderBy('seq').execute();
-  return rows.map((r) => ({ action: r.action, before: r.before_json && JSON.parse(r.before_json), after: r.after_json && JSON.parse(r.after_json) }));
+  const rows = await api.store.db
+    .selectFrom('audit_log')
+    .selectAll()
+    .where('entity_type', '=', 'baseline')
+    .where('entity_id', '=', baselineId)
+    .orderBy('seq')
+    .execute();
+  return rows.map((r) => ({
+    action: r.action,
+    before: r.before_json && JSON.parse(r.before_json),
+    after: r.after_json && JSON.parse(r.after_json),
+  }));
 }
 
 /** Expect a 400/409/422 problem naming `field`, with nothing stored. */
@@ -85,7 +100,17 @@ describe('POST /v1/meters/{id}/baselines', () => {
     const response = await fitDraft(meterId);
     expect(response.status).toBe(201);
     const body = response.json;
-    expect(body).toMatchObject({ meterId, version: 1, status: 'draft', start: WINDOW.start, end: WINDOW.end, contentHash: null, note: null, frozenAt: null, supersedes: null });
+    expect(body).toMatchObject({
+      meterId,
+      version: 1,
+      status: 'draft',
+      start: WINDOW.start,
+      end: WINDOW.end,
+      contentHash: null,
+      note: null,
+      frozenAt: null,
+      supersedes: null,
+    });
     expect(body.id).toMatch(/^bsl_/);
     expect(body.selected).toBe(ENGINE.choice.selected); // the engine itself
     expect(body.chosen).toBe(ENGINE.choice.selected); // the engine itself
@@ -97,7 +122,12 @@ describe('POST /v1/meters/{id}/baselines', () => {
     expect(inputs.readings).toHaveLength(24); // synthetic: 24 baseline bills, the 12 reporting bills lie outside the window
     expect(inputs.weather).toHaveLength(731); // hand-worked: 2023-01-01..2025-01-01 is 365 + 366 days
     expect(inputs.temperatureUnit).toBe('F');
-    expect(Object.keys(JSON.parse(row.fits_json)).sort()).toEqual(ENGINE.choice.candidates.filter((c) => c.fit).map((c) => c.model).sort()); // the engine itself
+    expect(Object.keys(JSON.parse(row.fits_json)).sort()).toEqual(
+      ENGINE.choice.candidates
+        .filter((c) => c.fit)
+        .map((c) => c.model)
+        .sort(),
+    ); // the engine itself
     expect((await auditActions(body.id)).map((a) => a.action)).toEqual(['create']);
 
     const second = await fitDraft(meterId, { ...WINDOW, options: { significanceLevel: 0.1 } });
@@ -115,7 +145,11 @@ describe('POST /v1/meters/{id}/baselines', () => {
     expect(response.status).toBe(201);
     const oneP = response.json.fit.candidates.find((c: any) => c.model === '1P');
     expect(oneP.stats.autocorrelation).toBeNull(); // the engine itself: NaN for zero residuals
-    const row = await api.store.db.selectFrom('baselines').select(['fits_json']).where('id', '=', response.json.id).executeTakeFirstOrThrow();
+    const row = await api.store.db
+      .selectFrom('baselines')
+      .select(['fits_json'])
+      .where('id', '=', response.json.id)
+      .executeTakeFirstOrThrow();
     expect(JSON.parse(row.fits_json)['1P'].stats.autocorrelation).toEqual({ $nonFinite: 'NaN' });
   });
 
@@ -153,14 +187,20 @@ describe('choosing and freezing', () => {
 
   it('lets the engineer choose any fitted shape, noting a rejected one, and audits before and after', async () => {
     const rejected = ENGINE.document.candidates.find((c) => c.verdict === 'rejected')!; // the engine itself
-    const response = await api.call('POST', `/v1/baselines/${baselineId}/choose`, { as: 'engineer', body: { model: rejected.model, reason: 'Trial of a rejected shape' } });
+    const response = await api.call('POST', `/v1/baselines/${baselineId}/choose`, {
+      as: 'engineer',
+      body: { model: rejected.model, reason: 'Trial of a rejected shape' },
+    });
     expect(response.status).toBe(200);
     expect(response.json.chosen).toBe(rejected.model);
     expect(response.json.selected).toBe(ENGINE.choice.selected);
     expect(response.json.choiceReason).toBe('Trial of a rejected shape');
     expect(response.json.warnings.join(' ')).toContain(`${rejected.model} was rejected by screening`);
 
-    const back = await api.call('POST', `/v1/baselines/${baselineId}/choose`, { as: 'engineer', body: { model: ENGINE.choice.selected, reason: 'The engine’s selection after review' } });
+    const back = await api.call('POST', `/v1/baselines/${baselineId}/choose`, {
+      as: 'engineer',
+      body: { model: ENGINE.choice.selected, reason: 'The engine’s selection after review' },
+    });
     expect(back.json.warnings).toEqual([]);
     const choices = (await auditActions(baselineId)).filter((a) => a.action === 'choose');
     expect(choices).toHaveLength(2);
@@ -170,19 +210,35 @@ describe('choosing and freezing', () => {
   });
 
   it('refuses a bad or unfitted model', async () => {
-    await expectRejected(() => api.call('POST', `/v1/baselines/${baselineId}/choose`, { body: { model: '6P', reason: 'x' } }), 400, 'model');
+    await expectRejected(
+      () => api.call('POST', `/v1/baselines/${baselineId}/choose`, { body: { model: '6P', reason: 'x' } }),
+      400,
+      'model',
+    );
     await expectRejected(() => api.call('POST', `/v1/baselines/${baselineId}/choose`, { body: { model: '2P' } }), 400, 'reason');
     // synthetic: 3 bills cannot carry a 5P (p = 5), so it is not fitted.
     const small = await seedMeter({ readings: BASELINE.slice(0, 3) });
     const draft = await fitDraft(small, { start: '2023-01-01', end: '2023-04-01' });
     expect(draft.status).toBe(201);
-    await expectRejected(() => api.call('POST', `/v1/baselines/${draft.json.id}/choose`, { body: { model: '5P', reason: 'x' } }), 422, 'model');
+    await expectRejected(
+      () => api.call('POST', `/v1/baselines/${draft.json.id}/choose`, { body: { model: '5P', reason: 'x' } }),
+      422,
+      'model',
+    );
   });
 
   it('freezes under a content hash that the stored columns reproduce', async () => {
-    const response = await api.call('POST', `/v1/baselines/${baselineId}/freeze`, { as: 'engineer', body: { note: 'Agreed in the M&V plan, section 4 (invented)' } });
+    const response = await api.call('POST', `/v1/baselines/${baselineId}/freeze`, {
+      as: 'engineer',
+      body: { note: 'Agreed in the M&V plan, section 4 (invented)' },
+    });
     expect(response.status).toBe(200);
-    expect(response.json).toMatchObject({ status: 'frozen', note: 'Agreed in the M&V plan, section 4 (invented)', frozenBy: keyIdOf('engineer'), supersedes: null });
+    expect(response.json).toMatchObject({
+      status: 'frozen',
+      note: 'Agreed in the M&V plan, section 4 (invented)',
+      frozenBy: keyIdOf('engineer'),
+      supersedes: null,
+    });
     expect(response.json.contentHash).toMatch(/^[0-9a-f]{64}$/);
 
     // hand-worked: the documented hash payload, rebuilt here from the row.
@@ -207,10 +263,22 @@ describe('choosing and freezing', () => {
 
   it('keeps a frozen baseline out of reach of every route', async () => {
     const hash = (await api.call('GET', `/v1/baselines/${baselineId}`)).json.contentHash;
-    const choose = await expectRejected(() => api.call('POST', `/v1/baselines/${baselineId}/choose`, { body: { model: '1P', reason: 'late change' } }), 409, 'cannot be changed');
+    const choose = await expectRejected(
+      () => api.call('POST', `/v1/baselines/${baselineId}/choose`, { body: { model: '1P', reason: 'late change' } }),
+      409,
+      'cannot be changed',
+    );
     expect(choose.type).toBe('urn:mvledger:problem:frozen');
-    await expectRejected(() => api.call('POST', `/v1/baselines/${baselineId}/freeze`, { body: { note: 'again' } }), 409, 'cannot be changed');
-    await expectRejected(() => api.call('POST', `/v1/baselines/${baselineId}/freeze`, { body: { note: 'again', supersedeReason: 'x' } }), 409, 'cannot be changed');
+    await expectRejected(
+      () => api.call('POST', `/v1/baselines/${baselineId}/freeze`, { body: { note: 'again' } }),
+      409,
+      'cannot be changed',
+    );
+    await expectRejected(
+      () => api.call('POST', `/v1/baselines/${baselineId}/freeze`, { body: { note: 'again', supersedeReason: 'x' } }),
+      409,
+      'cannot be changed',
+    );
     expect((await api.call('GET', `/v1/baselines/${baselineId}`)).json.contentHash).toBe(hash);
   });
 
@@ -219,11 +287,17 @@ describe('choosing and freezing', () => {
     const draft = await fitDraft(meterId, { start: '2023-02-01', end: '2025-01-01' });
     expect(draft.json.version).toBe(2);
 
-    const refused = await expectRejected(() => api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { body: { note: 'Second baseline' } }), 409, 'supersedeReason');
+    const refused = await expectRejected(
+      () => api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { body: { note: 'Second baseline' } }),
+      409,
+      'supersedeReason',
+    );
     expect(refused.detail).toContain(baselineId);
     expect(refused.currentBaselineId).toBe(baselineId);
 
-    const frozen = await api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { body: { note: 'Second baseline', supersedeReason: 'January 2023 bill was estimated' } });
+    const frozen = await api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, {
+      body: { note: 'Second baseline', supersedeReason: 'January 2023 bill was estimated' },
+    });
     expect(frozen.status).toBe(200);
     expect(frozen.json).toMatchObject({ status: 'frozen', supersedes: baselineId, supersedeReason: 'January 2023 bill was estimated' });
 
@@ -240,14 +314,22 @@ describe('choosing and freezing', () => {
       [1, 'superseded'],
     ]);
     const actions = await auditActions(baselineId);
-    expect(actions.at(-1)).toMatchObject({ action: 'supersede', before: { status: 'frozen' }, after: { status: 'superseded', supersededBy: draft.json.id } });
+    expect(actions.at(-1)).toMatchObject({
+      action: 'supersede',
+      before: { status: 'frozen' },
+      after: { status: 'superseded', supersededBy: draft.json.id },
+    });
     expect((await api.call('POST', `/v1/baselines/${baselineId}/freeze`, { body: { note: 'revive' } })).status).toBe(409);
   });
 
   it('refuses a supersedeReason when there is nothing to supersede', async () => {
     const other = await seedMeter();
     const draft = await fitDraft(other);
-    await expectRejected(() => api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { body: { note: 'n', supersedeReason: 'nothing' } }), 400, 'supersedeReason');
+    await expectRejected(
+      () => api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { body: { note: 'n', supersedeReason: 'nothing' } }),
+      400,
+      'supersedeReason',
+    );
     await expectRejected(() => api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { body: {} }), 400, 'note');
     await expectRejected(() => api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { body: { note: '  ' } }), 400, 'note');
   });
@@ -255,7 +337,8 @@ describe('choosing and freezing', () => {
   it('replays a freeze sent again with the same Idempotency-Key', async () => {
     const other = await seedMeter();
     const draft = await fitDraft(other);
-    const send = () => api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { body: { note: 'Agreed' }, headers: { 'idempotency-key': 'freeze-7' } });
+    const send = () =>
+      api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { body: { note: 'Agreed' }, headers: { 'idempotency-key': 'freeze-7' } });
     const first = await send();
     expect(first.status).toBe(200);
     const digest = await databaseDigest(api.store.db);
@@ -278,7 +361,11 @@ describe('the content hash', () => {
     const row = await api.store.db.selectFrom('baselines').select(['document_json']).where('id', '=', id).executeTakeFirstOrThrow();
     const document = JSON.parse(row.document_json);
     document.candidates[0].reasons.push('edited behind the API');
-    await api.store.db.updateTable('baselines').set({ document_json: JSON.stringify(document) }).where('id', '=', id).execute();
+    await api.store.db
+      .updateTable('baselines')
+      .set({ document_json: JSON.stringify(document) })
+      .where('id', '=', id)
+      .execute();
     const tampered = await api.call('GET', `/v1/baselines/${id}`);
     expect(tampered.status).toBe(200);
     expect(tampered.json.verified).toBe(false);
@@ -297,8 +384,16 @@ describe('who may do what', () => {
   it('lets analysts read but not fit; integrations neither', async () => {
     await expectRejected(() => fitDraft(meterId, WINDOW, 'analyst'), 403, 'ledger');
     await expectRejected(() => fitDraft(meterId, WINDOW, 'integration'), 403, 'ledger');
-    await expectRejected(() => api.call('POST', `/v1/baselines/${baselineId}/choose`, { as: 'analyst', body: { model: '1P', reason: 'x' } }), 403, 'ledger');
-    await expectRejected(() => api.call('POST', `/v1/baselines/${baselineId}/freeze`, { as: 'analyst', body: { note: 'x' } }), 403, 'ledger');
+    await expectRejected(
+      () => api.call('POST', `/v1/baselines/${baselineId}/choose`, { as: 'analyst', body: { model: '1P', reason: 'x' } }),
+      403,
+      'ledger',
+    );
+    await expectRejected(
+      () => api.call('POST', `/v1/baselines/${baselineId}/freeze`, { as: 'analyst', body: { note: 'x' } }),
+      403,
+      'ledger',
+    );
     expect((await api.call('GET', `/v1/baselines/${baselineId}`, { as: 'analyst' })).status).toBe(200);
     expect((await api.call('GET', `/v1/baselines/${baselineId}/signature.svg`, { as: 'analyst' })).status).toBe(200);
     expect((await api.call('GET', `/v1/baselines/${baselineId}`, { as: 'integration' })).status).toBe(403);
@@ -308,8 +403,16 @@ describe('who may do what', () => {
 
   it('answers 404 to another organisation', async () => {
     await expectRejected(() => fitDraft(meterId, WINDOW, 'other'), 404, meterId);
-    await expectRejected(() => api.call('POST', `/v1/baselines/${baselineId}/choose`, { as: 'other', body: { model: '1P', reason: 'x' } }), 404, baselineId);
-    await expectRejected(() => api.call('POST', `/v1/baselines/${baselineId}/freeze`, { as: 'other', body: { note: 'x' } }), 404, baselineId);
+    await expectRejected(
+      () => api.call('POST', `/v1/baselines/${baselineId}/choose`, { as: 'other', body: { model: '1P', reason: 'x' } }),
+      404,
+      baselineId,
+    );
+    await expectRejected(
+      () => api.call('POST', `/v1/baselines/${baselineId}/freeze`, { as: 'other', body: { note: 'x' } }),
+      404,
+      baselineId,
+    );
     expect((await api.call('GET', `/v1/baselines/${baselineId}`, { as: 'other' })).status).toBe(404);
     expect((await api.call('GET', `/v1/baselines/${baselineId}/signature.svg`, { as: 'other' })).status).toBe(404);
     expect((await api.call('GET', `/v1/meters/${meterId}/baselines`, { as: 'other' })).status).toBe(404);

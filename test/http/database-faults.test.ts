@@ -50,23 +50,41 @@ afterEach(async () => {
 
 async function answer(error: () => Error, url: string, method: 'GET' | 'POST' = 'GET') {
   app = await buildApp({ store: failingStore(error) });
-  const response = await app.inject({ method, url, headers: { authorization: `Bearer ${KEY}`, ...(method === 'POST' ? { 'content-type': 'application/json' } : {}) }, ...(method === 'POST' ? { payload: '{"name":"x"}' } : {}) });
+  const response = await app.inject({
+    method,
+    url,
+    headers: { authorization: `Bearer ${KEY}`, ...(method === 'POST' ? { 'content-type': 'application/json' } : {}) },
+    ...(method === 'POST' ? { payload: '{"name":"x"}' } : {}),
+  });
   return { status: response.statusCode, headers: response.headers, json: JSON.parse(response.body), text: response.body };
 }
 
 describe('database faults over HTTP', () => {
   it.each([
-    ['a terminated backend (57P01)', () => withCode('57P01', 'terminating connection due to administrator command'), 'connection-lost', '2'],
+    [
+      'a terminated backend (57P01)',
+      () => withCode('57P01', 'terminating connection due to administrator command'),
+      'connection-lost',
+      '2',
+    ],
     ['a connection that dropped', () => new Error('Connection terminated unexpectedly'), 'connection-lost', '2'],
     ['a refused connection', () => withCode('ECONNREFUSED', 'connect ECONNREFUSED 127.0.0.1:5432'), 'unreachable', '5'],
     ['a server shutting down (57P03)', () => withCode('57P03', 'the database system is shutting down'), 'unreachable', '5'],
   ])('answers %s with 503, Retry-After and problem+json, on reads and writes', async (_name, error, database, retryAfter) => {
-    for (const [method, url] of [['GET', '/v1/facilities'], ['POST', '/v1/facilities']] as const) {
+    for (const [method, url] of [
+      ['GET', '/v1/facilities'],
+      ['POST', '/v1/facilities'],
+    ] as const) {
       const reply = await answer(error, url, method);
       expect(reply.status, reply.text).toBe(503);
       expect(reply.headers['content-type']).toMatch(/^application\/problem\+json/);
       expect(reply.headers['retry-after']).toBe(retryAfter);
-      expect(reply.json).toMatchObject({ type: 'urn:mvledger:problem:unavailable', title: 'Not available right now', status: 503, database });
+      expect(reply.json).toMatchObject({
+        type: 'urn:mvledger:problem:unavailable',
+        title: 'Not available right now',
+        status: 503,
+        database,
+      });
       expect(reply.text).not.toMatch(/Internal error|ECONNREFUSED|127\.0\.0\.1|administrator/);
       if (method === 'POST') expect(reply.json.detail).toMatch(/stored whole or not at all/);
       await app!.close();
@@ -98,7 +116,12 @@ describe('database faults over HTTP', () => {
     expect(reply.status).toBe(503);
     expect(reply.headers['content-type']).toMatch(/^application\/problem\+json/);
     expect(reply.headers['retry-after']).toBe('5');
-    expect(reply.json).toMatchObject({ status: 503, title: 'Not available right now', database, detail: expect.stringContaining('database') });
+    expect(reply.json).toMatchObject({
+      status: 503,
+      title: 'Not available right now',
+      database,
+      detail: expect.stringContaining('database'),
+    });
     expect(reply.text).not.toMatch(/Internal error|ECONNREFUSED|does not exist/);
     expect((await app!.inject({ method: 'GET', url: '/healthz' })).statusCode).toBe(200);
   });

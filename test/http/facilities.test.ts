@@ -40,7 +40,13 @@ describe('facilities', () => {
     const created = await api.call('POST', '/v1/facilities', { as: 'engineer', body: { name: 'Audited Annex' } });
     const audit = await api.call('GET', `/v1/audit?entity=facility&entityId=${created.json.id}`, { as: 'analyst' });
     expect(audit.json.entries).toHaveLength(1); // contract: exactly one audit row per logical write
-    expect(audit.json.entries[0]).toMatchObject({ action: 'create', entityType: 'facility', entityId: created.json.id, before: null, after: created.json });
+    expect(audit.json.entries[0]).toMatchObject({
+      action: 'create',
+      entityType: 'facility',
+      entityId: created.json.id,
+      before: null,
+      after: created.json,
+    });
   });
 
   const invalid: { why: string; body: unknown; field: string }[] = [

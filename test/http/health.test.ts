@@ -26,7 +26,12 @@ describe('health', () => {
       const ready = await api.call('GET', '/readyz', { as: 'none' });
       expect(ready.status).toBe(503); // contract: not ready
       expect(ready.headers['content-type']).toMatch(/^application\/problem\+json/);
-      expect(ready.json).toMatchObject({ status: 503, title: 'Not available right now', database: 'failing', detail: expect.stringContaining('database') });
+      expect(ready.json).toMatchObject({
+        status: 503,
+        title: 'Not available right now',
+        database: 'failing',
+        detail: expect.stringContaining('database'),
+      });
       expect(ready.headers['retry-after']).toBe('5');
       expect((await api.call('GET', '/healthz', { as: 'none' })).status).toBe(200);
     } finally {

@@ -17,13 +17,25 @@ beforeAll(async () => {
 });
 afterAll(async () => api.close());
 
-const meterBody = (overrides: Record<string, unknown> = {}) => ({ name: 'Main electric', fuel: 'electricity', unit: 'kWh', weatherStationId: stationId, ...overrides });
+const meterBody = (overrides: Record<string, unknown> = {}) => ({
+  name: 'Main electric',
+  fuel: 'electricity',
+  unit: 'kWh',
+  weatherStationId: stationId,
+  ...overrides,
+});
 
 describe('meters', () => {
   it('adds a meter to a facility and reads it back', async () => {
     const created = await api.call('POST', `/v1/facilities/${facilityId}/meters`, { as: 'engineer', body: meterBody() });
     expect(created.status).toBe(201); // contract
-    expect(created.json).toMatchObject({ facilityId, name: 'Main electric', fuel: 'electricity', unit: 'kWh', weatherStationId: stationId });
+    expect(created.json).toMatchObject({
+      facilityId,
+      name: 'Main electric',
+      fuel: 'electricity',
+      unit: 'kWh',
+      weatherStationId: stationId,
+    });
     expect(created.json.id).toMatch(/^mtr_/);
 
     const one = await api.call('GET', `/v1/meters/${created.json.id}`, { as: 'analyst' });
@@ -37,13 +49,17 @@ describe('meters', () => {
   it('takes every fuel of the list', async () => {
     // contract: the fuel enum of the issue
     for (const fuel of ['electricity', 'natural-gas', 'fuel-oil', 'propane', 'district-heat', 'district-cooling', 'water', 'other']) {
-      const response = await api.call('POST', `/v1/facilities/${facilityId}/meters`, { body: meterBody({ name: `${fuel} meter`, fuel, unit: 'GJ' }) });
+      const response = await api.call('POST', `/v1/facilities/${facilityId}/meters`, {
+        body: meterBody({ name: `${fuel} meter`, fuel, unit: 'GJ' }),
+      });
       expect(response.status, fuel).toBe(201);
     }
   });
 
   it('audits the create with the meter as its after', async () => {
-    const created = await api.call('POST', `/v1/facilities/${facilityId}/meters`, { body: meterBody({ name: 'Gas', fuel: 'natural-gas', unit: 'therm' }) });
+    const created = await api.call('POST', `/v1/facilities/${facilityId}/meters`, {
+      body: meterBody({ name: 'Gas', fuel: 'natural-gas', unit: 'therm' }),
+    });
     const audit = await api.call('GET', `/v1/audit?entity=meter&entityId=${created.json.id}`);
     expect(audit.json.entries).toHaveLength(1); // contract: one audit row per write
     expect(audit.json.entries[0]).toMatchObject({ action: 'create', after: created.json });
@@ -68,13 +84,20 @@ describe('meters', () => {
   }
 
   it("refuses another organisation's weather station and answers 404 for its facility and meters", async () => {
-    const theirStation = (await api.call('POST', '/v1/weather-stations', { as: 'other', body: { name: 'Their Station', temperatureUnit: 'C' } })).json.id;
+    const theirStation = (
+      await api.call('POST', '/v1/weather-stations', { as: 'other', body: { name: 'Their Station', temperatureUnit: 'C' } })
+    ).json.id;
     const theirFacility = (await api.call('POST', '/v1/facilities', { as: 'other', body: { name: 'Their Site' } })).json.id;
-    const theirMeter = await api.call('POST', `/v1/facilities/${theirFacility}/meters`, { as: 'other', body: meterBody({ weatherStationId: theirStation }) });
+    const theirMeter = await api.call('POST', `/v1/facilities/${theirFacility}/meters`, {
+      as: 'other',
+      body: meterBody({ weatherStationId: theirStation }),
+    });
     expect(theirMeter.status).toBe(201);
 
     const before = await databaseDigest(api.store.db);
-    expect((await api.call('POST', `/v1/facilities/${facilityId}/meters`, { body: meterBody({ weatherStationId: theirStation }) })).status).toBe(400);
+    expect(
+      (await api.call('POST', `/v1/facilities/${facilityId}/meters`, { body: meterBody({ weatherStationId: theirStation }) })).status,
+    ).toBe(400);
     expect((await api.call('POST', `/v1/facilities/${theirFacility}/meters`, { body: meterBody() })).status).toBe(404); // contract: other organisation's ids are 404
     expect(await databaseDigest(api.store.db)).toBe(before);
     expect((await api.call('GET', `/v1/facilities/${theirFacility}/meters`)).status).toBe(404);

@@ -15,13 +15,19 @@ let stationId: string;
 let url: string;
 
 async function makeStation(target: TestApi, temperatureUnit: 'F' | 'C'): Promise<string> {
-  const station = await target.call('POST', '/v1/weather-stations', { body: { name: `Station S-${temperatureUnit} (invented)`, temperatureUnit } });
+  const station = await target.call('POST', '/v1/weather-stations', {
+    body: { name: `Station S-${temperatureUnit} (invented)`, temperatureUnit },
+  });
   return station.json.id;
 }
 
 /** A meter on the station with a baseline row written straight to the table (the baselines API is not under test here). */
 async function frozenBaselineOn(target: TestApi, station: string, id: string, start: string, end: string): Promise<void> {
-  const ctx = { store: target.store, principal: { keyId: parseApiKey(target.keys.admin)!.id, organisationId: target.organisationId, role: 'admin' as const }, now: '2026-01-01T00:00:00.000Z' };
+  const ctx = {
+    store: target.store,
+    principal: { keyId: parseApiKey(target.keys.admin)!.id, organisationId: target.organisationId, role: 'admin' as const },
+    now: '2026-01-01T00:00:00.000Z',
+  };
   const facility = await createFacility(ctx, { name: 'School building B2 (invented)' });
   const meter = await createMeter(ctx, facility.id, { name: 'Gas', fuel: 'natural gas', unit: 'therm', weatherStationId: station });
   await insertBareBaseline(target.store.db, { id, organisationId: target.organisationId, meterId: meter.id, start, end, status: 'frozen' });
@@ -90,11 +96,22 @@ describe('PUT /v1/weather-stations/{id}/observations', () => {
     expect(same.json).toEqual({ stationId, received: 2, created: 0, updated: 0, unchanged: 2 }); // synthetic: the same two days
 
     const changed = await api.call('PUT', url, {
-      body: { observations: [{ date: '2025-01-01', temp: 30 }, { date: '2025-01-02', tmin: 25, tmax: 35 }, { date: '2025-01-03', temp: 29 }] },
+      body: {
+        observations: [
+          { date: '2025-01-01', temp: 30 },
+          { date: '2025-01-02', tmin: 25, tmax: 35 },
+          { date: '2025-01-03', temp: 29 },
+        ],
+      },
     });
     expect(changed.json).toEqual({ stationId, received: 3, created: 1, updated: 1, unchanged: 1 }); // synthetic: one of each
 
-    const rows = await api.store.db.selectFrom('audit_log').selectAll().where('action', '=', 'upsert-observations').orderBy('seq').execute();
+    const rows = await api.store.db
+      .selectFrom('audit_log')
+      .selectAll()
+      .where('action', '=', 'upsert-observations')
+      .orderBy('seq')
+      .execute();
     expect(rows).toHaveLength(2); // synthetic: the unchanged request wrote no audit row
     const last = rows[1]!;
     expect(last.entity_type).toBe('weather-station');
@@ -124,7 +141,14 @@ describe('PUT /v1/weather-stations/{id}/observations', () => {
   });
 
   it('refuses a date repeated in one request, naming both records', async () => {
-    const response = await refused('PUT', url, { body: { observations: [{ date: '2025-01-01', temp: 30 }, { date: '2025-01-01', temp: 31 }] } });
+    const response = await refused('PUT', url, {
+      body: {
+        observations: [
+          { date: '2025-01-01', temp: 30 },
+          { date: '2025-01-01', temp: 31 },
+        ],
+      },
+    });
     expect(response.status).toBe(400);
     expect(response.json.errors[0]).toEqual({ field: 'observations[1].date', message: 'repeats the date 2025-01-01 (observations[0])' });
   });
@@ -181,14 +205,30 @@ describe('frozen baseline windows', () => {
   it('refuses days inside the window of a frozen baseline of a meter on the station, and accepts days outside', async () => {
     await frozenBaselineOn(api, stationId, 'bsl_school_2024', '2024-01-01', '2024-02-01');
     const inside = await refused('PUT', url, {
-      body: { observations: [{ date: '2024-02-01', temp: 30 }, { date: '2024-01-31', tmin: 20, tmax: 30 }] },
+      body: {
+        observations: [
+          { date: '2024-02-01', temp: 30 },
+          { date: '2024-01-31', tmin: 20, tmax: 30 },
+        ],
+      },
     });
     expect(inside.status).toBe(409);
     expect(inside.json.type).toBe('urn:mvledger:problem:frozen');
     expect(inside.json.detail).toContain('2024-01-31');
     expect(inside.json.detail).toContain('bsl_school_2024');
     // hand-worked: the window [2024-01-01, 2024-02-01) ends before 1 February.
-    expect((await api.call('PUT', url, { body: { observations: [{ date: '2024-02-01', temp: 30 }, { date: '2023-12-31', temp: 30 }] } })).status).toBe(200);
+    expect(
+      (
+        await api.call('PUT', url, {
+          body: {
+            observations: [
+              { date: '2024-02-01', temp: 30 },
+              { date: '2023-12-31', temp: 30 },
+            ],
+          },
+        })
+      ).status,
+    ).toBe(200);
   });
 
   it('refuses changing a stored day inside the window but accepts re-sending it unchanged', async () => {
@@ -200,7 +240,7 @@ describe('frozen baseline windows', () => {
     expect(same.json.unchanged).toBe(1); // synthetic: nothing changed
   });
 
-  it("ignores baselines of meters on other stations", async () => {
+  it('ignores baselines of meters on other stations', async () => {
     const elsewhere = await makeStation(api, 'F');
     await frozenBaselineOn(api, elsewhere, 'bsl_elsewhere', '2024-01-01', '2024-02-01');
     expect((await api.call('PUT', url, { body: { observations: [{ date: '2024-01-10', temp: 25 }] } })).status).toBe(200);

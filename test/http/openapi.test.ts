@@ -24,7 +24,9 @@ beforeAll(async () => {
 afterAll(async () => api.close());
 
 function operations(): { method: string; path: string; op: Operation }[] {
-  return Object.entries(document.paths).flatMap(([path, item]) => METHODS.filter((m) => item[m]).map((method) => ({ method, path, op: item[method]! })));
+  return Object.entries(document.paths).flatMap(([path, item]) =>
+    METHODS.filter((m) => item[m]).map((method) => ({ method, path, op: item[method]! })),
+  );
 }
 
 describe('the OpenAPI document', () => {
@@ -78,7 +80,10 @@ describe('the OpenAPI document', () => {
 
   it('serves the interactive documentation at /docs', async () => {
     const response = await api.app.inject({ method: 'GET', url: '/docs' });
-    const page = response.statusCode >= 300 && response.statusCode < 400 ? await api.app.inject({ method: 'GET', url: String(response.headers.location) }) : response;
+    const page =
+      response.statusCode >= 300 && response.statusCode < 400
+        ? await api.app.inject({ method: 'GET', url: String(response.headers.location) })
+        : response;
     expect(page.statusCode).toBe(200);
     expect(page.headers['content-type']).toMatch(/^text\/html/);
     expect(page.body.toLowerCase()).toContain('swagger-ui');

@@ -35,20 +35,30 @@ describe('problem+json for every kind of error', () => {
 
   it('answers invalid JSON with 400 and stores nothing', async () => {
     const before = await databaseDigest(api.store.db);
-    const response = await api.call('POST', '/v1/facilities', { body: '{"name": "Unclosed', headers: { 'content-type': 'application/json' } });
+    const response = await api.call('POST', '/v1/facilities', {
+      body: '{"name": "Unclosed',
+      headers: { 'content-type': 'application/json' },
+    });
     expectProblem(response, 400);
     expect(response.json.detail).toContain('JSON');
     expect(await databaseDigest(api.store.db)).toBe(before);
   });
 
   it('answers an empty JSON body with 400', async () => {
-    const response = await api.app.inject({ method: 'POST', url: '/v1/facilities', headers: { authorization: `Bearer ${api.keys.admin}`, 'content-type': 'application/json' } });
+    const response = await api.app.inject({
+      method: 'POST',
+      url: '/v1/facilities',
+      headers: { authorization: `Bearer ${api.keys.admin}`, 'content-type': 'application/json' },
+    });
     expectProblem({ status: response.statusCode, headers: response.headers, text: response.body, json: response.json() }, 400);
   });
 
   it('answers a content type the route does not take with 415', async () => {
     const before = await databaseDigest(api.store.db);
-    const response = await api.call('POST', '/v1/facilities', { body: 'name=Form Hall', headers: { 'content-type': 'application/x-www-form-urlencoded' } });
+    const response = await api.call('POST', '/v1/facilities', {
+      body: 'name=Form Hall',
+      headers: { 'content-type': 'application/x-www-form-urlencoded' },
+    });
     expectProblem(response, 415);
     expectProblem(await api.call('POST', '/v1/facilities', { body: '<facility/>', headers: { 'content-type': 'application/xml' } }), 415);
     expect(await databaseDigest(api.store.db)).toBe(before);
@@ -81,7 +91,9 @@ describe('a body over the size limit', () => {
 
   beforeAll(async () => {
     const organisation = await createOrganisation(api.store.db, 'Small Bodies Ltd (invented)', '2026-01-01T00:00:00.000Z');
-    token = (await createKey(api.store.db, { organisationId: organisation.id, name: 'admin', role: 'admin', at: '2026-01-01T00:00:00.000Z' })).token;
+    token = (
+      await createKey(api.store.db, { organisationId: organisation.id, name: 'admin', role: 'admin', at: '2026-01-01T00:00:00.000Z' })
+    ).token;
     app = await buildApp({ store: api.store, bodyLimit: LIMIT });
   });
   afterAll(async () => app.close());
@@ -89,12 +101,22 @@ describe('a body over the size limit', () => {
   it('is refused with 413, stores nothing, and a body under the limit still works', async () => {
     const before = await databaseDigest(api.store.db);
     const big = JSON.stringify({ name: 'Large Hall', address: 'x'.repeat(LIMIT) });
-    const response = await app.inject({ method: 'POST', url: '/v1/facilities', headers: { authorization: `Bearer ${token}`, 'content-type': 'application/json' }, payload: big });
+    const response = await app.inject({
+      method: 'POST',
+      url: '/v1/facilities',
+      headers: { authorization: `Bearer ${token}`, 'content-type': 'application/json' },
+      payload: big,
+    });
     expectProblem({ status: response.statusCode, headers: response.headers, text: response.body, json: response.json() }, 413);
     expect(response.json().detail).toContain(String(LIMIT));
     expect(await databaseDigest(api.store.db)).toBe(before);
 
-    const small = await app.inject({ method: 'POST', url: '/v1/facilities', headers: { authorization: `Bearer ${token}`, 'content-type': 'application/json' }, payload: { name: 'Small Hall' } });
+    const small = await app.inject({
+      method: 'POST',
+      url: '/v1/facilities',
+      headers: { authorization: `Bearer ${token}`, 'content-type': 'application/json' },
+      payload: { name: 'Small Hall' },
+    });
     expect(small.statusCode).toBe(201);
   });
 });

@@ -71,7 +71,8 @@ describe('a key over its limit', () => {
 
   it('is refused a write that then stores nothing, with or without an Idempotency-Key', async () => {
     const limited = await limitedApp();
-    for (let i = 0; i < LIMIT; i++) expect((await limited.inject(as('engineer', { method: 'GET', url: '/v1/facilities' }))).statusCode).toBe(200);
+    for (let i = 0; i < LIMIT; i++)
+      expect((await limited.inject(as('engineer', { method: 'GET', url: '/v1/facilities' }))).statusCode).toBe(200);
     const before = await databaseDigest(api.store.db);
     const write = { method: 'POST', url: '/v1/facilities', payload: { name: 'Refused Hall (invented)' } } as const;
     await expectRateLimited(await limited.inject(as('engineer', write)));
@@ -116,6 +117,8 @@ describe('requests without a key', () => {
     }
     // Neither the address nor the real key was charged for them.
     expect((await limited.inject({ method: 'GET', url: '/openapi.json' })).headers['x-ratelimit-remaining']).toBe(String(LIMIT - 1));
-    expect((await limited.inject(as('analyst', { method: 'GET', url: '/v1/facilities' }))).headers['x-ratelimit-remaining']).toBe(String(LIMIT - 1));
+    expect((await limited.inject(as('analyst', { method: 'GET', url: '/v1/facilities' }))).headers['x-ratelimit-remaining']).toBe(
+      String(LIMIT - 1),
+    );
   });
 });

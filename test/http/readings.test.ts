@@ -16,14 +16,30 @@ let meterId: string;
 let url: string;
 
 async function makeMeter(target: TestApi): Promise<string> {
-  const ctx = { store: target.store, principal: { keyId: parseApiKey(target.keys.admin)!.id, organisationId: target.organisationId, role: 'admin' as const }, now: '2026-01-01T00:00:00.000Z' };
+  const ctx = {
+    store: target.store,
+    principal: { keyId: parseApiKey(target.keys.admin)!.id, organisationId: target.organisationId, role: 'admin' as const },
+    now: '2026-01-01T00:00:00.000Z',
+  };
   const station = await target.call('POST', '/v1/weather-stations', { body: { name: 'Station S1 (invented)', temperatureUnit: 'F' } });
   const facility = await createFacility(ctx, { name: 'Depot D1 (invented)' });
-  const meter = await createMeter(ctx, facility.id, { name: 'Main supply', fuel: 'electricity', unit: 'kWh', weatherStationId: station.json.id });
+  const meter = await createMeter(ctx, facility.id, {
+    name: 'Main supply',
+    fuel: 'electricity',
+    unit: 'kWh',
+    weatherStationId: station.json.id,
+  });
   return meter.id;
 }
 
-async function insertBaseline(target: TestApi, meter: string, id: string, start: string, end: string, status: BaselineStatus): Promise<void> {
+async function insertBaseline(
+  target: TestApi,
+  meter: string,
+  id: string,
+  start: string,
+  end: string,
+  status: BaselineStatus,
+): Promise<void> {
   // Written straight to the table: the baselines API is not what is under test here.
   await insertBareBaseline(target.store.db, { id, organisationId: target.organisationId, meterId: meter, start, end, status });
 }
@@ -106,7 +122,9 @@ describe('POST /v1/meters/{id}/readings', () => {
     expect(conflict.json.detail).toContain('readings[0].quantity');
     expect(conflict.json.detail).toContain('correctionReason');
 
-    const corrected = await api.call('POST', url, { body: { readings: [...changed, BILLS[1]], correctionReason: 'meter re-read on site' } });
+    const corrected = await api.call('POST', url, {
+      body: { readings: [...changed, BILLS[1]], correctionReason: 'meter re-read on site' },
+    });
     expect(corrected.status).toBe(201);
     expect(corrected.json).toEqual({ meterId, received: 2, created: 0, corrected: 1, unchanged: 1 }); // synthetic: one changed, one identical
 
@@ -118,7 +136,14 @@ describe('POST /v1/meters/{id}/readings', () => {
     expect(JSON.parse(last.after_json!)).toMatchObject({
       correctionReason: 'meter re-read on site',
       created: [],
-      corrected: [{ start: '2025-01-01', end: '2025-02-01', before: { quantity: 31000, estimated: 0, cost: null }, after: { quantity: 31250, estimated: 0, cost: null } }],
+      corrected: [
+        {
+          start: '2025-01-01',
+          end: '2025-02-01',
+          before: { quantity: 31000, estimated: 0, cost: null },
+          after: { quantity: 31250, estimated: 0, cost: null },
+        },
+      ],
     });
     const listed = await api.call('GET', url);
     expect(listed.json.readings[0].quantity).toBe(31250); // synthetic: the corrected value
@@ -193,7 +218,11 @@ describe('POST /v1/meters/{id}/readings', () => {
     ['an unknown column', 'start,end,quantity,tariff\n2025-01-01,2025-02-01,5,A\n', 'row 1'],
     ['a missing column', 'start,end\n2025-01-01,2025-02-01\n', 'row 1'],
     ['an impossible date', 'start,end,quantity\n2025-01-01,2025-02-01,5\n2025-02-01,2025-02-30,5\n', 'row 3, field end'],
-    ['a quantity that is not a number', 'start,end,quantity\n2025-01-01,2025-02-01,5\n2025-02-01,2025-03-01,12kWh\n', 'row 3, field quantity'],
+    [
+      'a quantity that is not a number',
+      'start,end,quantity\n2025-01-01,2025-02-01,5\n2025-02-01,2025-03-01,12kWh\n',
+      'row 3, field quantity',
+    ],
     ['NaN', 'start,end,quantity\n2025-01-01,2025-02-01,NaN\n', 'row 2, field quantity'],
     ['a negative quantity', 'start,end,quantity\n2025-01-01,2025-02-01,-3\n', 'row 2, field quantity'],
     ['end before start', 'start,end,quantity\n2025-02-01,2025-01-01,3\n', 'row 2, field end'],
@@ -256,9 +285,15 @@ describe('frozen baseline windows', () => {
 
   it('refuses a period straddling the window end, and accepts one starting on it (end exclusive)', async () => {
     // hand-worked: [2024-12-15, 2025-01-15) meets [2024-01-01, 2025-01-01); [2025-01-01, …) does not.
-    expect((await refused('POST', url, { body: { readings: [{ start: '2024-12-15', end: '2025-01-15', quantity: 5 }] } })).status).toBe(409);
-    expect((await api.call('POST', url, { body: { readings: [{ start: '2025-01-01', end: '2025-02-01', quantity: 5 }] } })).status).toBe(201);
-    expect((await api.call('POST', url, { body: { readings: [{ start: '2023-12-01', end: '2024-01-01', quantity: 5 }] } })).status).toBe(201);
+    expect((await refused('POST', url, { body: { readings: [{ start: '2024-12-15', end: '2025-01-15', quantity: 5 }] } })).status).toBe(
+      409,
+    );
+    expect((await api.call('POST', url, { body: { readings: [{ start: '2025-01-01', end: '2025-02-01', quantity: 5 }] } })).status).toBe(
+      201,
+    );
+    expect((await api.call('POST', url, { body: { readings: [{ start: '2023-12-01', end: '2024-01-01', quantity: 5 }] } })).status).toBe(
+      201,
+    );
   });
 
   it('refuses a correction inside the window even with a reason, but allows an identical re-post', async () => {
@@ -267,7 +302,9 @@ describe('frozen baseline windows', () => {
     await api.call('POST', url, { body: { readings: [inside] } });
     await insertBaseline(api, meterId, 'bsl_frozen_again', '2024-01-01', '2025-01-01', 'frozen');
 
-    const correction = await refused('POST', url, { body: { readings: [{ ...inside, quantity: 950 }], correctionReason: 'late adjustment' } });
+    const correction = await refused('POST', url, {
+      body: { readings: [{ ...inside, quantity: 950 }], correctionReason: 'late adjustment' },
+    });
     expect(correction.status).toBe(409);
     expect(correction.json.detail).toContain('bsl_frozen_again');
     const same = await api.call('POST', url, { body: { readings: [inside] } });

@@ -45,7 +45,12 @@ async function ok(method: 'POST' | 'PUT', url: string, body: unknown, status = m
 }
 
 async function meter(facilityId: string, name: string, unit: string, reporting: readonly Reading[]): Promise<string> {
-  const created = await ok('POST', `/v1/facilities/${facilityId}/meters`, { name, fuel: unit === 'kWh' ? 'electricity' : 'natural-gas', unit, weatherStationId: stationId });
+  const created = await ok('POST', `/v1/facilities/${facilityId}/meters`, {
+    name,
+    fuel: unit === 'kWh' ? 'electricity' : 'natural-gas',
+    unit,
+    weatherStationId: stationId,
+  });
   const rows = [...BASELINE, ...reporting].map((r) => ({ start: r.start, end: r.end, quantity: r.quantity }));
   await ok('POST', `/v1/meters/${created.id}/readings`, { readings: rows });
   const draft = await ok('POST', `/v1/meters/${created.id}/baselines`, { start: '2023-01-01', end: '2025-01-01' });
@@ -53,12 +58,16 @@ async function meter(facilityId: string, name: string, unit: string, reporting: 
   return created.id;
 }
 
-const report = (query: string, as: 'analyst' | 'integration' | 'engineer' | 'other' = 'analyst') => api.call('GET', `/v1/reports/savings?${query}`, { as });
+const report = (query: string, as: 'analyst' | 'integration' | 'engineer' | 'other' = 'analyst') =>
+  api.call('GET', `/v1/reports/savings?${query}`, { as });
 
 /** A smooth invented normal year: the climate's seasonal curve without day-to-day weather. */
 function normalYear(): { day: string; temp: number }[] {
   const c = CLIMATES.temperate;
-  return NORMAL_YEAR_DAYS.map((day, i) => ({ day, temp: Math.round((c.mean - c.amplitude * Math.cos((2 * Math.PI * (i - c.coldestDay)) / 365)) * 10) / 10 }));
+  return NORMAL_YEAR_DAYS.map((day, i) => ({
+    day,
+    temp: Math.round((c.mean - c.amplitude * Math.cos((2 * Math.PI * (i - c.coldestDay)) / 365)) * 10) / 10,
+  }));
 }
 
 beforeAll(async () => {
@@ -72,13 +81,22 @@ beforeAll(async () => {
   waterId = await meter(annexId, 'Annex gas by volume', 'm3', GAS_REPORTING);
   await ok('PUT', `/v1/meters/${electricId}/rates`, { currency: 'USD', rates: [{ from: '2025-01-01', price: 0.1 }] });
   // No rate before 2025-04-01 for the gas meter: its first quarter has no cost.
-  await ok('PUT', `/v1/meters/${gasId}/rates`, { currency: 'USD', rates: [{ from: '2025-04-01', to: '2026-01-01', price: 1.2 }, { from: '2026-01-01', price: 1.3 }] });
+  await ok('PUT', `/v1/meters/${gasId}/rates`, {
+    currency: 'USD',
+    rates: [
+      { from: '2025-04-01', to: '2026-01-01', price: 1.2 },
+      { from: '2026-01-01', price: 1.3 },
+    ],
+  });
   await ok('PUT', `/v1/facilities/${plantId}/contract`, {
     start: '2025-01-01',
     years: 3,
     currency: 'USD',
     energyUnit: 'MMBtu',
-    guarantees: [{ year: 1, energy: 100, cost: 2500 }, { year: 2, energy: 120, cost: 3000 }],
+    guarantees: [
+      { year: 1, energy: 100, cost: 2500 },
+      { year: 2, energy: 120, cost: 3000 },
+    ],
   });
   await ok('POST', `/v1/meters/${electricId}/adjustments`, ADJUSTMENT);
   await ok('PUT', `/v1/weather-stations/${stationId}/normal-year`, { source: 'Invented 30-year mean (test)', days: normalYear() });
@@ -92,7 +110,12 @@ describe('GET /v1/reports/savings', () => {
     const reply = await report(`contractYear=1&facilityId=${plantId}&confidence=0.9`);
     expect(reply.status, reply.text).toBe(200);
     const body = reply.json;
-    expect(body.window).toEqual({ from: '2025-01-01', to: '2026-01-01', kind: 'contract-year', label: 'contract year 1 (2025-01-01..2026-01-01)' });
+    expect(body.window).toEqual({
+      from: '2025-01-01',
+      to: '2026-01-01',
+      kind: 'contract-year',
+      label: 'contract year 1 (2025-01-01..2026-01-01)',
+    });
     const m = body.facilities[0].meters[0];
 
     // the engine on the same data, model and adjustment
@@ -104,7 +127,10 @@ describe('GET /v1/reports/savings', () => {
     expect(m.energy.savings).toBeCloseTo(engine.totals.savings, 6);
     expect(m.energy.adjustments).toBeCloseTo(4600, 9); // hand-worked: 92 days × 50
     expect(m.energy.adjustedBaseline).toBeCloseTo(m.energy.modelBaseline + 4600, 6);
-    expect(m.energy.uncertainty).toBeCloseTo(Math.max(engine.totals.uncertainty.guideline14.absolute, engine.totals.uncertainty.exact.absolute), 6);
+    expect(m.energy.uncertainty).toBeCloseTo(
+      Math.max(engine.totals.uncertainty.guideline14.absolute, engine.totals.uncertainty.exact.absolute),
+      6,
+    );
     expect(m.adjustments).toEqual([expect.objectContaining({ reason: ADJUSTMENT.reason, perDay: 50, appliedInWindow: 4600 })]);
     expect(m.periods).toHaveLength(12);
     // hand-worked: one flat rate of 0.10 USD/kWh, so cost avoided = 0.1 × savings
@@ -115,11 +141,19 @@ describe('GET /v1/reports/savings', () => {
     expect(m.common.GJ.savings).toBeCloseTo(m.energy.savings * KWH_TO_GJ, 4);
     // normalised savings: 12 months of reporting data, with the normal year we uploaded
     expect(m.normalised).toMatchObject({ available: true, reportingPeriods: 12 });
-    expect(body.normalYears).toEqual([{ stationId, contentHash: expect.stringMatching(/^[0-9a-f]{64}$/), source: 'Invented 30-year mean (test)' }]);
+    expect(body.normalYears).toEqual([
+      { stationId, contentHash: expect.stringMatching(/^[0-9a-f]{64}$/), source: 'Invented 30-year mean (test)' },
+    ]);
 
     // measured against guaranteed, in the contract's unit and currency (hand-worked differences)
     const [g] = body.facilities[0].guarantees;
-    expect(g).toMatchObject({ contractYear: 1, yearStart: '2025-01-01', yearEnd: '2026-01-01', measuredThrough: '2026-01-01', complete: true });
+    expect(g).toMatchObject({
+      contractYear: 1,
+      yearStart: '2025-01-01',
+      yearEnd: '2026-01-01',
+      measuredThrough: '2026-01-01',
+      complete: true,
+    });
     expect(g.energy.measured).toBeCloseTo(m.common.MMBtu.savings, 9);
     expect(g.energy.difference).toBeCloseTo(g.energy.measured - 100, 9);
     expect(g.cost.measured).toBeCloseTo(m.cost.avoided, 9);
@@ -128,7 +162,9 @@ describe('GET /v1/reports/savings', () => {
     expect(g.notes).toEqual([]);
     expect(g.cumulative.at(-1).energy).toBeCloseTo(g.energy.measured, 9);
 
-    expect(body.baselines).toEqual([expect.objectContaining({ meterId: electricId, contentHash: expect.stringMatching(/^[0-9a-f]{64}$/) })]);
+    expect(body.baselines).toEqual([
+      expect.objectContaining({ meterId: electricId, contentHash: expect.stringMatching(/^[0-9a-f]{64}$/) }),
+    ]);
     expect(body.caution).toMatch(/estimates .* M&V plan.*licensed professional/);
   });
 
@@ -152,10 +188,13 @@ describe('GET /v1/reports/savings', () => {
     const across = body.rollup.acrossStations ?? 0;
     const v = inRollup.map((m: any) => ({ value: m.common.MMBtu.uncertainty, station: m.weatherStationId }));
     let variance = 0;
-    for (const a of v) for (const b of v) variance += a === b ? a.value ** 2 : (a.station === b.station ? within : across) * a.value * b.value;
+    for (const a of v)
+      for (const b of v) variance += a === b ? a.value ** 2 : (a.station === b.station ? within : across) * a.value * b.value;
     expect(body.portfolio.totals.MMBtu.savings).toBeCloseTo(total, 9);
     expect(body.portfolio.totals.MMBtu.uncertainty).toBeCloseTo(Math.sqrt(variance), 9);
-    expect(body.portfolio.totals.MMBtu.uncertainty).toBeGreaterThanOrEqual(Math.sqrt(v.reduce((s: number, p: any) => s + p.value ** 2, 0)) - 1e-9); // never narrower than quadrature
+    expect(body.portfolio.totals.MMBtu.uncertainty).toBeGreaterThanOrEqual(
+      Math.sqrt(v.reduce((s: number, p: any) => s + p.value ** 2, 0)) - 1e-9,
+    ); // never narrower than quadrature
     expect(body.rollup.pairsWithinStation + body.rollup.pairsAcrossStations).toBeGreaterThanOrEqual(1);
     expect(body.notices.some((n: string) => n.includes('Annex gas by volume') && n.includes('m3'))).toBe(true);
     expect(body.method.independence).toMatch(/pooled correlation of the report’s meters’ baseline residuals/);
@@ -196,7 +235,12 @@ describe('GET /v1/reports/savings', () => {
 
   it('changes its content hash and data-as-of when the data changes', async () => {
     const before = (await report('quarter=2025-Q4')).json;
-    await ok('POST', `/v1/meters/${gasId}/adjustments`, { start: '2025-11-01', end: '2025-12-01', quantity: -300, reason: 'East wing closed for the month (test)' });
+    await ok('POST', `/v1/meters/${gasId}/adjustments`, {
+      start: '2025-11-01',
+      end: '2025-12-01',
+      quantity: -300,
+      reason: 'East wing closed for the month (test)',
+    });
     const after = (await report('quarter=2025-Q4')).json;
     expect(after.dataAsOf.auditSeq).toBeGreaterThan(before.dataAsOf.auditSeq);
     expect(after.contentHash).not.toBe(before.contentHash);
@@ -291,17 +335,59 @@ describe('adjustments, rates, contracts and normal years refuse bad input and st
   };
 
   it('refuses an overlapping adjustment, one inside the baseline window, and one with both or neither figure', async () => {
-    await refused('POST', `/v1/meters/${electricId}/adjustments`, { start: '2025-08-15', end: '2025-10-01', perDay: 5, reason: 'Overlaps (test)' }, 409, /overlaps adjustment adj_/);
-    await refused('POST', `/v1/meters/${electricId}/adjustments`, { start: '2024-12-01', end: '2025-02-01', perDay: 5, reason: 'Too early (test)' }, 422, /frozen baseline's window/);
-    await refused('POST', `/v1/meters/${electricId}/adjustments`, { start: '2026-01-01', end: '2026-02-01', perDay: 5, quantity: 3, reason: 'Both (test)' }, 400, /quantity/);
-    await refused('POST', `/v1/meters/${electricId}/adjustments`, { start: '2026-01-01', end: '2026-02-01', reason: 'Neither (test)' }, 400, /quantity/);
-    await refused('POST', `/v1/meters/${electricId}/adjustments`, { start: '2026-02-01', end: '2026-01-01', perDay: 1, reason: 'Backwards (test)' }, 400, /end/);
+    await refused(
+      'POST',
+      `/v1/meters/${electricId}/adjustments`,
+      { start: '2025-08-15', end: '2025-10-01', perDay: 5, reason: 'Overlaps (test)' },
+      409,
+      /overlaps adjustment adj_/,
+    );
+    await refused(
+      'POST',
+      `/v1/meters/${electricId}/adjustments`,
+      { start: '2024-12-01', end: '2025-02-01', perDay: 5, reason: 'Too early (test)' },
+      422,
+      /frozen baseline's window/,
+    );
+    await refused(
+      'POST',
+      `/v1/meters/${electricId}/adjustments`,
+      { start: '2026-01-01', end: '2026-02-01', perDay: 5, quantity: 3, reason: 'Both (test)' },
+      400,
+      /quantity/,
+    );
+    await refused(
+      'POST',
+      `/v1/meters/${electricId}/adjustments`,
+      { start: '2026-01-01', end: '2026-02-01', reason: 'Neither (test)' },
+      400,
+      /quantity/,
+    );
+    await refused(
+      'POST',
+      `/v1/meters/${electricId}/adjustments`,
+      { start: '2026-02-01', end: '2026-01-01', perDay: 1, reason: 'Backwards (test)' },
+      400,
+      /end/,
+    );
   });
 
   it('refuses a rate schedule with a gap, an overlap or a bad currency, naming the entry', async () => {
-    const gap = { currency: 'USD', rates: [{ from: '2025-01-01', to: '2025-07-01', price: 0.1 }, { from: '2025-08-01', price: 0.11 }] };
+    const gap = {
+      currency: 'USD',
+      rates: [
+        { from: '2025-01-01', to: '2025-07-01', price: 0.1 },
+        { from: '2025-08-01', price: 0.11 },
+      ],
+    };
     await refused('PUT', `/v1/meters/${electricId}/rates`, gap, 400, /rates\[1\].*gap.*2025-07-01.*2025-08-01/);
-    const overlap = { currency: 'USD', rates: [{ from: '2025-01-01', to: '2025-09-01', price: 0.1 }, { from: '2025-08-01', price: 0.11 }] };
+    const overlap = {
+      currency: 'USD',
+      rates: [
+        { from: '2025-01-01', to: '2025-09-01', price: 0.1 },
+        { from: '2025-08-01', price: 0.11 },
+      ],
+    };
     await refused('PUT', `/v1/meters/${electricId}/rates`, overlap, 400, /rates\[1\]/);
     await refused('PUT', `/v1/meters/${electricId}/rates`, { currency: 'usd', rates: [] }, 400, /currency/);
     await refused('PUT', `/v1/meters/${electricId}/rates`, { currency: 'USD', rates: [{ from: '2025-01-01', price: -1 }] }, 400, /price/);
@@ -309,29 +395,74 @@ describe('adjustments, rates, contracts and normal years refuse bad input and st
 
   it('refuses a contract with a guarantee beyond its years, a repeated year, an unknown energy unit or a cost without currency', async () => {
     const base = { start: '2025-01-01', years: 2, currency: 'USD', energyUnit: 'MMBtu' };
-    await refused('PUT', `/v1/facilities/${annexId}/contract`, { ...base, guarantees: [{ year: 3, energy: 1 }] }, 400, /guarantees\[0\]\.year/);
-    await refused('PUT', `/v1/facilities/${annexId}/contract`, { ...base, guarantees: [{ year: 1, energy: 1 }, { year: 1, cost: 2 }] }, 400, /guaranteed twice/);
+    await refused(
+      'PUT',
+      `/v1/facilities/${annexId}/contract`,
+      { ...base, guarantees: [{ year: 3, energy: 1 }] },
+      400,
+      /guarantees\[0\]\.year/,
+    );
+    await refused(
+      'PUT',
+      `/v1/facilities/${annexId}/contract`,
+      {
+        ...base,
+        guarantees: [
+          { year: 1, energy: 1 },
+          { year: 1, cost: 2 },
+        ],
+      },
+      400,
+      /guaranteed twice/,
+    );
     await refused('PUT', `/v1/facilities/${annexId}/contract`, { ...base, energyUnit: 'm3', guarantees: [] }, 400, /energyUnit/);
-    await refused('PUT', `/v1/facilities/${annexId}/contract`, { ...base, currency: null, guarantees: [{ year: 1, cost: 5 }] }, 400, /currency/);
+    await refused(
+      'PUT',
+      `/v1/facilities/${annexId}/contract`,
+      { ...base, currency: null, guarantees: [{ year: 1, cost: 5 }] },
+      400,
+      /currency/,
+    );
   });
 
   it('refuses a normal year with a missing day or a leap day, and takes one as CSV with its source header', async () => {
     const days = normalYear();
     await refused('PUT', `/v1/weather-stations/${stationId}/normal-year`, { source: 'Short (test)', days: days.slice(1) }, 400, /01-01/);
-    await refused('PUT', `/v1/weather-stations/${stationId}/normal-year`, { source: 'Leap (test)', days: [...days, { day: '02-29', temp: 40 }] }, 400, /02-29/);
+    await refused(
+      'PUT',
+      `/v1/weather-stations/${stationId}/normal-year`,
+      { source: 'Leap (test)', days: [...days, { day: '02-29', temp: 40 }] },
+      400,
+      /02-29/,
+    );
     const csv = `day,temp\n${days.map((d) => `${d.day},${d.temp + 1}`).join('\n')}\n`;
-    const reply = await api.call('PUT', `/v1/weather-stations/${stationId}/normal-year`, { as: 'engineer', csv, headers: { 'x-normal-year-source': 'Invented warmer normals (test)' } });
+    const reply = await api.call('PUT', `/v1/weather-stations/${stationId}/normal-year`, {
+      as: 'engineer',
+      csv,
+      headers: { 'x-normal-year-source': 'Invented warmer normals (test)' },
+    });
     expect(reply.status, reply.text).toBe(200);
-    expect(reply.json).toMatchObject({ source: 'Invented warmer normals (test)', days: expect.arrayContaining([{ day: '01-01', temp: days[0]!.temp + 1 }]) });
+    expect(reply.json).toMatchObject({
+      source: 'Invented warmer normals (test)',
+      days: expect.arrayContaining([{ day: '01-01', temp: days[0]!.temp + 1 }]),
+    });
     const read = await api.call('GET', `/v1/weather-stations/${stationId}/normal-year`, { as: 'analyst' });
     expect(read.json.contentHash).toBe(reply.json.contentHash);
   });
 
   it('withdraws an adjustment recorded in error: it stops counting, stays on record, and frees its days', async () => {
-    const created = await ok('POST', `/v1/meters/${gasId}/adjustments`, { start: '2026-02-01', end: '2026-03-01', quantity: 560, reason: 'Recorded on the wrong meter (test)' });
+    const created = await ok('POST', `/v1/meters/${gasId}/adjustments`, {
+      start: '2026-02-01',
+      end: '2026-03-01',
+      quantity: 560,
+      reason: 'Recorded on the wrong meter (test)',
+    });
     const before = (await api.call('GET', `/v1/meters/${gasId}/savings?from=2026-02-01&to=2026-03-02`, { as: 'analyst' })).json;
     expect(before.totals.adjustments).toBeCloseTo(560, 9); // hand-worked: the whole of February lies in the window
-    const withdrawn = await api.call('POST', `/v1/adjustments/${created.id}/withdraw`, { as: 'engineer', body: { reason: 'Belongs to another meter (test)' } });
+    const withdrawn = await api.call('POST', `/v1/adjustments/${created.id}/withdraw`, {
+      as: 'engineer',
+      body: { reason: 'Belongs to another meter (test)' },
+    });
     expect(withdrawn.status, withdrawn.text).toBe(200);
     expect(withdrawn.json.withdrawn).toMatchObject({ reason: 'Belongs to another meter (test)' });
     const after = (await api.call('GET', `/v1/meters/${gasId}/savings?from=2026-02-01&to=2026-03-02`, { as: 'analyst' })).json;
@@ -342,12 +473,27 @@ describe('adjustments, rates, contracts and normal years refuse bad input and st
     await refused('POST', `/v1/adjustments/${created.id}/withdraw`, { reason: 'Again (test)' }, 409, /already withdrawn/);
     await refused('POST', `/v1/adjustments/adj_unknown/withdraw`, { reason: 'Nothing (test)' }, 404, /adjustment adj_unknown/);
     // its days are free again
-    await ok('POST', `/v1/meters/${gasId}/adjustments`, { start: '2026-02-01', end: '2026-03-01', perDay: 1, reason: 'The right figure (test)' });
+    await ok('POST', `/v1/meters/${gasId}/adjustments`, {
+      start: '2026-02-01',
+      end: '2026-03-01',
+      perDay: 1,
+      reason: 'The right figure (test)',
+    });
   });
 
   it('reads back what was stored, and audits every change', async () => {
-    expect((await api.call('GET', `/v1/meters/${gasId}/rates`, { as: 'analyst' })).json).toMatchObject({ currency: 'USD', rates: [{ from: '2025-04-01', to: '2026-01-01', price: 1.2, escalation: 0 }, { from: '2026-01-01', to: null }] });
-    expect((await api.call('GET', `/v1/facilities/${plantId}/contract`, { as: 'analyst' })).json).toMatchObject({ start: '2025-01-01', years: 3, energyUnit: 'MMBtu' });
+    expect((await api.call('GET', `/v1/meters/${gasId}/rates`, { as: 'analyst' })).json).toMatchObject({
+      currency: 'USD',
+      rates: [
+        { from: '2025-04-01', to: '2026-01-01', price: 1.2, escalation: 0 },
+        { from: '2026-01-01', to: null },
+      ],
+    });
+    expect((await api.call('GET', `/v1/facilities/${plantId}/contract`, { as: 'analyst' })).json).toMatchObject({
+      start: '2025-01-01',
+      years: 3,
+      energyUnit: 'MMBtu',
+    });
     expect((await api.call('GET', `/v1/meters/${electricId}/adjustments`, { as: 'analyst' })).json.adjustments).toHaveLength(1);
     expect((await api.call('GET', `/v1/facilities/${annexId}/contract`, { as: 'analyst' })).status).toBe(404);
     const audit = await api.call('GET', '/v1/audit?limit=500', { as: 'admin' });
@@ -357,7 +503,13 @@ describe('adjustments, rates, contracts and normal years refuse bad input and st
   });
 
   it('says what limits a guarantee comparison: meters left out, meters without rates, periods without a rate', async () => {
-    await ok('PUT', `/v1/facilities/${annexId}/contract`, { start: '2025-01-01', years: 2, currency: 'USD', energyUnit: 'MMBtu', guarantees: [{ year: 1, energy: 10, cost: 100 }] });
+    await ok('PUT', `/v1/facilities/${annexId}/contract`, {
+      start: '2025-01-01',
+      years: 2,
+      currency: 'USD',
+      energyUnit: 'MMBtu',
+      guarantees: [{ year: 1, energy: 10, cost: 100 }],
+    });
     const body = (await report(`contractYear=1&facilityId=${annexId}`)).json;
     const [g] = body.facilities[0].guarantees;
     expect(g.notes).toEqual([

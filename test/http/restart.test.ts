@@ -27,7 +27,10 @@ describe('restart on the same database file', () => {
   it('keeps every row, the keys, the audit chain and the savings', async () => {
     const random = seededRandom(5);
     const weather = dailyWeather(CLIMATES.temperate, '2023-01-01', 1096, random);
-    const readings = [...monthlyReadings(SAMPLE_BUILDING, weather, '2023-01-01', 24, random), ...monthlyReadings({ ...SAMPLE_BUILDING, base: 260 }, weather, '2025-01-01', 12, random)];
+    const readings = [
+      ...monthlyReadings(SAMPLE_BUILDING, weather, '2023-01-01', 24, random),
+      ...monthlyReadings({ ...SAMPLE_BUILDING, base: 260 }, weather, '2025-01-01', 12, random),
+    ];
 
     const first = await makeTestApi({ databaseUrl });
     const station = await first.call('POST', '/v1/weather-stations', { body: { name: 'Invented hill station', temperatureUnit: 'F' } });

@@ -68,7 +68,9 @@ beforeAll(async () => {
   expect((await api.call('DELETE', `/v1/api-keys/${made.json.key.id}`)).status).toBe(200);
   tokens.push(...Object.values(api.keys), api.otherKey, revokedToken);
 
-  const document = (await api.call('GET', '/openapi.json', { as: 'none' })).json as { paths: Record<string, Record<string, { security?: unknown[] }>> };
+  const document = (await api.call('GET', '/openapi.json', { as: 'none' })).json as {
+    paths: Record<string, Record<string, { security?: unknown[] }>>;
+  };
   operations = Object.entries(document.paths).flatMap(([path, item]) =>
     METHODS.filter((method) => item[method]).map((method) => ({ method, path, secured: (item[method]!.security ?? []).length > 0 })),
   );
@@ -121,7 +123,9 @@ describe('the role matrix over every route in the OpenAPI document', () => {
   it('answers 401 to no key, a malformed key, a forged secret and a revoked key on every /v1 route', () => {
     const wrong = operations
       .filter((op) => op.secured)
-      .flatMap((op) => KEYLESS.filter((caller) => statusOf(op, caller) !== 401).map((caller) => `${cell(op, caller)}: ${statusOf(op, caller)}`));
+      .flatMap((op) =>
+        KEYLESS.filter((caller) => statusOf(op, caller) !== 401).map((caller) => `${cell(op, caller)}: ${statusOf(op, caller)}`),
+      );
     expect(wrong).toEqual([]);
   });
 
@@ -135,15 +139,21 @@ describe('the role matrix over every route in the OpenAPI document', () => {
 
   it('lets each role through exactly when ROLE_PERMISSIONS grants one permission the route needs', () => {
     const inconsistent = operations.filter((op) => op.secured && observedPermission(op) === 'mixed');
-    const detail = inconsistent.map((op) => `${op.method.toUpperCase()} ${op.path}: ${ROLES.map((r) => `${r} ${statusOf(op, r)}`).join(', ')}`);
+    const detail = inconsistent.map(
+      (op) => `${op.method.toUpperCase()} ${op.path}: ${ROLES.map((r) => `${r} ${statusOf(op, r)}`).join(', ')}`,
+    );
     expect(detail).toEqual([]);
     // And no let-through role is refused for want of a key.
-    const unauthorised = operations.filter((op) => op.secured).flatMap((op) => [...ROLES, 'other' as const].filter((c) => statusOf(op, c) === 401).map((c) => cell(op, c)));
+    const unauthorised = operations
+      .filter((op) => op.secured)
+      .flatMap((op) => [...ROLES, 'other' as const].filter((c) => statusOf(op, c) === 401).map((c) => cell(op, c)));
     expect(unauthorised).toEqual([]);
   });
 
   it("lets another organisation's admin key through as an admin (its ids simply do not match ours)", () => {
-    const differ = operations.filter((op) => (statusOf(op, 'other') === 403) !== (statusOf(op, 'admin') === 403)).map((op) => cell(op, 'other'));
+    const differ = operations
+      .filter((op) => (statusOf(op, 'other') === 403) !== (statusOf(op, 'admin') === 403))
+      .map((op) => cell(op, 'other'));
     expect(differ).toEqual([]);
   });
 
@@ -151,7 +161,11 @@ describe('the role matrix over every route in the OpenAPI document', () => {
     // If a route legitimately differs, name it here with the reason.
     const mismatched = operations
       .filter((op) => op.secured)
-      .map((op) => ({ route: `${op.method.toUpperCase()} ${op.path}`, needs: observedPermission(op), expected: conventionalPermission(op) }))
+      .map((op) => ({
+        route: `${op.method.toUpperCase()} ${op.path}`,
+        needs: observedPermission(op),
+        expected: conventionalPermission(op),
+      }))
       .filter((row) => row.needs !== row.expected);
     expect(mismatched).toEqual([]);
   });
@@ -171,9 +185,7 @@ describe('secrets stay secret', () => {
   it('never puts a token, a secret or its stored hash in a response', async () => {
     const hashes = (await api.store.db.selectFrom('api_keys').select('secret_hash').execute()).map((row) => row.secret_hash);
     const secrets = tokens.map((token) => token.split('_')[2]!);
-    const leaks = [...outcomes]
-      .filter(([, o]) => [...secrets, ...hashes, 'secret_hash'].some((s) => o.text.includes(s)))
-      .map(([at]) => at);
+    const leaks = [...outcomes].filter(([, o]) => [...secrets, ...hashes, 'secret_hash'].some((s) => o.text.includes(s))).map(([at]) => at);
     expect(leaks).toEqual([]);
     const listing = await api.call('GET', '/v1/api-keys');
     expect([...secrets, ...hashes].some((s) => listing.text.includes(s))).toBe(false);
@@ -190,7 +202,12 @@ describe('secrets stay secret', () => {
     const app = await buildApp({ store: api.store, logger: { level: 'trace', stream, redact: LOG_REDACTIONS } });
     try {
       const send = async (method: 'GET' | 'POST', url: string, token: string, payload?: unknown, headers: Record<string, string> = {}) =>
-        app.inject({ method, url, headers: { authorization: `Bearer ${token}`, ...headers }, ...(payload ? { payload: payload as object } : {}) });
+        app.inject({
+          method,
+          url,
+          headers: { authorization: `Bearer ${token}`, ...headers },
+          ...(payload ? { payload: payload as object } : {}),
+        });
       const made = await send('POST', '/v1/api-keys', api.keys.admin, { name: 'logged?', role: 'analyst' });
       const madeToken = made.json().token as string;
       expect(madeToken).toMatch(/^mvl_/);

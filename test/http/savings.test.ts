@@ -37,11 +37,23 @@ const EXTRA_KEYS = ['meterId', 'adjustments', 'baselineId', 'baselineVersion', '
 const ENGINE = analyseBaseline(BASELINE, WEATHER);
 
 /** The CLI's savings --json document of the same data and model: the engine itself. */
-function engineSavings(model: ModelName, reporting: readonly Reading[], confidence?: number, baseline = ENGINE, weather: readonly DailyTemperature[] = WEATHER): unknown {
+function engineSavings(
+  model: ModelName,
+  reporting: readonly Reading[],
+  confidence?: number,
+  baseline = ENGINE,
+  weather: readonly DailyTemperature[] = WEATHER,
+): unknown {
   const fit = baseline.choice.candidates.find((c) => c.model === model)!.fit!;
-  const document = savingsFromFit(fit, { limits: baseline.choice.settings.guideline14, excluded: baseline.excluded }, reporting, weather, { confidence });
+  const document = savingsFromFit(fit, { limits: baseline.choice.settings.guideline14, excluded: baseline.excluded }, reporting, weather, {
+    confidence,
+  });
   // The checks between baseline and projection, as the engine states them (the CLI's savings --json carries the same).
-  const checks = { sufficiency: baselineSufficiency(baseline.periods), extrapolation: reportingExtrapolation(fit, alignPeriods(reporting, weather).periods), overrides: NO_OVERRIDES };
+  const checks = {
+    sufficiency: baselineSufficiency(baseline.periods),
+    extrapolation: reportingExtrapolation(fit, alignPeriods(reporting, weather).periods),
+    overrides: NO_OVERRIDES,
+  };
   return JSON.parse(toJsonDocument(withProjectionChecks(document, checks)));
 }
 
@@ -52,10 +64,18 @@ function withoutBaselineKeys(body: Record<string, unknown>): Record<string, unkn
 let api: TestApi;
 
 /** A station with daily weather, a facility, and a meter with readings, all through the API. */
-async function seedMeter(readings: readonly Reading[] = [...BASELINE, ...REPORTING], weather: readonly DailyTemperature[] = WEATHER): Promise<string> {
-  const station = await api.call('POST', '/v1/weather-stations', { as: 'engineer', body: { name: 'Invented ridge station', temperatureUnit: 'F' } });
+async function seedMeter(
+  readings: readonly Reading[] = [...BASELINE, ...REPORTING],
+  weather: readonly DailyTemperature[] = WEATHER,
+): Promise<string> {
+  const station = await api.call('POST', '/v1/weather-stations', {
+    as: 'engineer',
+    body: { name: 'Invented ridge station', temperatureUnit: 'F' },
+  });
   const observations = weather.map((d) => ({ date: d.date, temp: d.temp }));
-  expect((await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, { as: 'integration', body: { observations } })).status).toBe(200);
+  expect(
+    (await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, { as: 'integration', body: { observations } })).status,
+  ).toBe(200);
   const facility = await api.call('POST', '/v1/facilities', { as: 'engineer', body: { name: 'Test depot 3 (invented)' } });
   const meter = await api.call('POST', `/v1/facilities/${facility.json.id}/meters`, {
     as: 'engineer',
@@ -63,7 +83,9 @@ async function seedMeter(readings: readonly Reading[] = [...BASELINE, ...REPORTI
   });
   expect(meter.status).toBe(201);
   const rows = readings.map((r) => ({ start: r.start, end: r.end, quantity: r.quantity }));
-  expect((await api.call('POST', `/v1/meters/${meter.json.id}/readings`, { as: 'integration', body: { readings: rows } })).status).toBe(201);
+  expect((await api.call('POST', `/v1/meters/${meter.json.id}/readings`, { as: 'integration', body: { readings: rows } })).status).toBe(
+    201,
+  );
   return meter.json.id;
 }
 
@@ -72,7 +94,10 @@ async function frozenBaseline(meterId: string, choose?: ModelName, window = WIND
   const draft = await api.call('POST', `/v1/meters/${meterId}/baselines`, { as: 'engineer', body: window });
   expect(draft.status).toBe(201);
   if (choose) {
-    const chosen = await api.call('POST', `/v1/baselines/${draft.json.id}/choose`, { as: 'engineer', body: { model: choose, reason: 'Engineer’s review (test)' } });
+    const chosen = await api.call('POST', `/v1/baselines/${draft.json.id}/choose`, {
+      as: 'engineer',
+      body: { model: choose, reason: 'Engineer’s review (test)' },
+    });
     expect(chosen.status).toBe(200);
   }
   const frozen = await api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { as: 'engineer', body: { note: 'Agreed (test)' } });
@@ -102,13 +127,25 @@ describe('GET /v1/meters/{id}/savings', () => {
   it('states avoided energy from the frozen fit exactly as the engine does', async () => {
     const response = await savings(meterId);
     expect(response.status).toBe(200);
-    expect(response.json).toMatchObject({ meterId, baselineId: baseline.id, baselineVersion: 1, baselineContentHash: baseline.contentHash });
+    expect(response.json).toMatchObject({
+      meterId,
+      baselineId: baseline.id,
+      baselineVersion: 1,
+      baselineContentHash: baseline.contentHash,
+    });
     const expected = engineSavings(ENGINE.choice.selected, REPORTING) as Record<string, unknown>; // the engine itself
     expect(withoutBaselineKeys(response.json)).toEqual(expected);
     expect(Object.keys(response.json).sort()).toEqual([...Object.keys(expected), ...EXTRA_KEYS].sort()); // exactly the CLI's keys, plus the baseline's
     // The engine itself, refitting path: same numbers (with the same checks stated).
     const refit = analyseSavings(ENGINE, REPORTING, WEATHER);
-    const refitChecks = { sufficiency: baselineSufficiency(ENGINE.periods), extrapolation: reportingExtrapolation(ENGINE.choice.candidates.find((c) => c.model === refit.model)!.fit!, alignPeriods(REPORTING, WEATHER).periods), overrides: NO_OVERRIDES };
+    const refitChecks = {
+      sufficiency: baselineSufficiency(ENGINE.periods),
+      extrapolation: reportingExtrapolation(
+        ENGINE.choice.candidates.find((c) => c.model === refit.model)!.fit!,
+        alignPeriods(REPORTING, WEATHER).periods,
+      ),
+      overrides: NO_OVERRIDES,
+    };
     expect(JSON.parse(toJsonDocument(withProjectionChecks(refit, refitChecks)))).toEqual(expected);
     expect(response.json.periods).toHaveLength(12); // synthetic: 12 reporting bills
     expect(response.json.totals.confidence).toBe(0.68); // the default (ASHRAE Guideline 14's 68% rule, from memory)
@@ -134,7 +171,12 @@ describe('GET /v1/meters/{id}/savings', () => {
   });
 
   it('projects the stored fit: editing baseline readings afterwards changes nothing', async () => {
-    await api.store.db.updateTable('readings').set({ quantity: 1 }).where('meter_id', '=', meterId).where('period_end', '<=', WINDOW.end).execute();
+    await api.store.db
+      .updateTable('readings')
+      .set({ quantity: 1 })
+      .where('meter_id', '=', meterId)
+      .where('period_end', '<=', WINDOW.end)
+      .execute();
     // A query not asked before, so nothing computed earlier can answer it.
     const inside = REPORTING.filter((r) => r.end <= '2025-12-01');
     const after = await savings(meterId, '?to=2025-12-01&confidence=0.95');
@@ -142,10 +184,20 @@ describe('GET /v1/meters/{id}/savings', () => {
 
     // A reporting reading that changes is seen at once.
     const before = await savings(meterId);
-    await api.store.db.updateTable('readings').set({ quantity: REPORTING[0]!.quantity * 0.9 }).where('meter_id', '=', meterId).where('period_start', '=', REPORTING[0]!.start).execute();
+    await api.store.db
+      .updateTable('readings')
+      .set({ quantity: REPORTING[0]!.quantity * 0.9 })
+      .where('meter_id', '=', meterId)
+      .where('period_start', '=', REPORTING[0]!.start)
+      .execute();
     const changed = await savings(meterId);
     expect(changed.json.totals.actual).toBeCloseTo(before.json.totals.actual - REPORTING[0]!.quantity * 0.1, 6); // hand-worked: 10% less in the first bill
-    await api.store.db.updateTable('readings').set({ quantity: REPORTING[0]!.quantity }).where('meter_id', '=', meterId).where('period_start', '=', REPORTING[0]!.start).execute();
+    await api.store.db
+      .updateTable('readings')
+      .set({ quantity: REPORTING[0]!.quantity })
+      .where('meter_id', '=', meterId)
+      .where('period_start', '=', REPORTING[0]!.start)
+      .execute();
     expect((await savings(meterId)).json).toEqual(before.json);
   });
 
@@ -190,7 +242,9 @@ describe('savings against another shape, a newer baseline, or none', () => {
     const meterId = await seedMeter();
     const first = await frozenBaseline(meterId);
     const draft = await api.call('POST', `/v1/meters/${meterId}/baselines`, { body: { start: '2024-01-01', end: '2025-01-01' } });
-    const second = await api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { body: { note: 'Second year only', supersedeReason: 'Tenant change in 2023' } });
+    const second = await api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, {
+      body: { note: 'Second year only', supersedeReason: 'Tenant change in 2023' },
+    });
     expect(second.json.supersedes).toBe(first.id);
     const response = await savings(meterId);
     expect(response.json.baselineVersion).toBe(2);
@@ -219,7 +273,10 @@ describe('savings against another shape, a newer baseline, or none', () => {
   });
 
   it('says so when no reporting reading has enough weather', async () => {
-    const meterId = await seedMeter(undefined, WEATHER.filter((d) => d.date < '2025-01-01'));
+    const meterId = await seedMeter(
+      undefined,
+      WEATHER.filter((d) => d.date < '2025-01-01'),
+    );
     await frozenBaseline(meterId);
     const response = await savings(meterId);
     expect(response.status).toBe(422);
@@ -229,10 +286,18 @@ describe('savings against another shape, a newer baseline, or none', () => {
   it('refuses savings from a frozen baseline whose stored fit was edited behind the API', async () => {
     const meterId = await seedMeter();
     const frozen = await frozenBaseline(meterId);
-    const row = await api.store.db.selectFrom('baselines').select(['fits_json', 'chosen_model']).where('id', '=', frozen.id).executeTakeFirstOrThrow();
+    const row = await api.store.db
+      .selectFrom('baselines')
+      .select(['fits_json', 'chosen_model'])
+      .where('id', '=', frozen.id)
+      .executeTakeFirstOrThrow();
     const fits = JSON.parse(row.fits_json);
     fits[row.chosen_model].rawCoefficients[0] *= 1.1;
-    await api.store.db.updateTable('baselines').set({ fits_json: JSON.stringify(fits) }).where('id', '=', frozen.id).execute();
+    await api.store.db
+      .updateTable('baselines')
+      .set({ fits_json: JSON.stringify(fits) })
+      .where('id', '=', frozen.id)
+      .execute();
     const response = await savings(meterId);
     expect(response.status).toBe(422);
     expect(response.json.detail).toContain('no longer matches its content hash');
@@ -240,7 +305,8 @@ describe('savings against another shape, a newer baseline, or none', () => {
 
   it('answers non-finite figures as null, as the command line does', async () => {
     // synthetic: exactly 100 kWh every day, before and after: zero residuals and zero savings, so ΔS/S is 0/0.
-    const flat = (readings: readonly Reading[]) => readings.map((r) => ({ ...r, quantity: 100 * ((Date.parse(r.end) - Date.parse(r.start)) / 864e5) }));
+    const flat = (readings: readonly Reading[]) =>
+      readings.map((r) => ({ ...r, quantity: 100 * ((Date.parse(r.end) - Date.parse(r.start)) / 864e5) }));
     const meterId = await seedMeter([...flat(BASELINE.slice(0, 12)), ...flat(REPORTING.slice(0, 3))]);
     await frozenBaseline(meterId, undefined, { start: '2023-01-01', end: '2024-01-01' });
     const response = await savings(meterId);
@@ -248,6 +314,8 @@ describe('savings against another shape, a newer baseline, or none', () => {
     expect(response.json.totals.savings).toBe(0); // synthetic: the test sets the truth
     expect(response.json.totals.uncertainty.guideline14.fractional).toBeNull(); // the engine itself: NaN
     const flatBaseline = analyseBaseline(flat(BASELINE.slice(0, 12)), WEATHER);
-    expect(withoutBaselineKeys(response.json)).toEqual(engineSavings(flatBaseline.choice.selected, flat(REPORTING.slice(0, 3)), undefined, flatBaseline)); // the engine itself
+    expect(withoutBaselineKeys(response.json)).toEqual(
+      engineSavings(flatBaseline.choice.selected, flat(REPORTING.slice(0, 3)), undefined, flatBaseline),
+    ); // the engine itself
   });
 });

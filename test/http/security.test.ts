@@ -32,13 +32,21 @@ let baselineId: string;
 beforeAll(async () => {
   api = await makeTestApi();
   const station = await api.call('POST', '/v1/weather-stations', { body: { name: 'Invented hill station', temperatureUnit: 'F' } });
-  await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, { body: { observations: WEATHER.map((d) => ({ date: d.date, temp: d.temp })) } });
+  await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, {
+    body: { observations: WEATHER.map((d) => ({ date: d.date, temp: d.temp })) },
+  });
   const facility = await api.call('POST', '/v1/facilities', { body: { name: 'Guarded Hall (invented)' } });
   const meter = await api.call('POST', `/v1/facilities/${facility.json.id}/meters`, {
     body: { name: 'Main electric (invented)', fuel: 'electricity', unit: 'kWh', weatherStationId: station.json.id },
   });
   meterId = meter.json.id;
-  expect((await api.call('POST', `/v1/meters/${meterId}/readings`, { body: { readings: BILLS.map((r) => ({ start: r.start, end: r.end, quantity: r.quantity })) } })).status).toBe(201);
+  expect(
+    (
+      await api.call('POST', `/v1/meters/${meterId}/readings`, {
+        body: { readings: BILLS.map((r) => ({ start: r.start, end: r.end, quantity: r.quantity })) },
+      })
+    ).status,
+  ).toBe(201);
   const baseline = await api.call('POST', `/v1/meters/${meterId}/baselines`, { body: { start: '2023-01-01', end: '2025-01-01' } });
   expect(baseline.status).toBe(201);
   baselineId = baseline.json.id;
@@ -48,10 +56,25 @@ afterAll(async () => api?.close());
 describe('protective headers on every kind of response', () => {
   const kinds: { kind: string; send: () => Promise<ApiResponse>; status: number; type: string }[] = [
     { kind: 'JSON', send: () => api.call('GET', '/v1/facilities', { as: 'analyst' }), status: 200, type: 'application/json' },
-    { kind: 'SVG', send: () => api.call('GET', `/v1/baselines/${baselineId}/signature.svg`, { as: 'analyst' }), status: 200, type: 'image/svg+xml' },
-    { kind: 'problem (404)', send: () => api.call('GET', '/v1/meters/mtr_absent', { as: 'analyst' }), status: 404, type: 'application/problem+json' },
+    {
+      kind: 'SVG',
+      send: () => api.call('GET', `/v1/baselines/${baselineId}/signature.svg`, { as: 'analyst' }),
+      status: 200,
+      type: 'image/svg+xml',
+    },
+    {
+      kind: 'problem (404)',
+      send: () => api.call('GET', '/v1/meters/mtr_absent', { as: 'analyst' }),
+      status: 404,
+      type: 'application/problem+json',
+    },
     { kind: 'problem (401)', send: () => api.call('GET', '/v1/facilities', { as: 'none' }), status: 401, type: 'application/problem+json' },
-    { kind: 'problem (400)', send: () => api.call('POST', '/v1/facilities', { body: { name: 7 } }), status: 400, type: 'application/problem+json' },
+    {
+      kind: 'problem (400)',
+      send: () => api.call('POST', '/v1/facilities', { body: { name: 7 } }),
+      status: 400,
+      type: 'application/problem+json',
+    },
     { kind: 'docs page', send: () => api.call('GET', '/docs/', { as: 'none' }), status: 200, type: 'text/html' },
     { kind: 'health', send: () => api.call('GET', '/healthz', { as: 'none' }), status: 200, type: 'application/json' },
   ];
@@ -71,7 +94,11 @@ describe('protective headers on every kind of response', () => {
 
   it('gives the docs page a CSP that allows no inline or foreign script and no plugins', async () => {
     const csp = String((await api.call('GET', '/docs/', { as: 'none' })).headers['content-security-policy']);
-    const directive = (name: string) => csp.split(';').find((part) => part.trim().startsWith(`${name} `))?.trim();
+    const directive = (name: string) =>
+      csp
+        .split(';')
+        .find((part) => part.trim().startsWith(`${name} `))
+        ?.trim();
     expect(directive('script-src')).toBe("script-src 'self'");
     expect(directive('object-src')).toBe("object-src 'none'");
     expect(directive('frame-ancestors')).toBe("frame-ancestors 'none'");
@@ -88,8 +115,16 @@ describe('the request size limit', () => {
 
   // test/http/problems.test.ts covers a JSON facility; these are the bulk routes, JSON and CSV.
   const bodies: { what: string; contentType: string; payload: () => string }[] = [
-    { what: 'a JSON batch of readings', contentType: 'application/json', payload: () => JSON.stringify({ readings: manyReadings().map((r) => ({ start: r.start, end: r.end, quantity: r.quantity })) }) },
-    { what: 'a CSV batch of readings', contentType: 'text/csv', payload: () => ['start,end,quantity', ...manyReadings().map((r) => `${r.start},${r.end},${r.quantity}`)].join('\n') },
+    {
+      what: 'a JSON batch of readings',
+      contentType: 'application/json',
+      payload: () => JSON.stringify({ readings: manyReadings().map((r) => ({ start: r.start, end: r.end, quantity: r.quantity })) }),
+    },
+    {
+      what: 'a CSV batch of readings',
+      contentType: 'text/csv',
+      payload: () => ['start,end,quantity', ...manyReadings().map((r) => `${r.start},${r.end},${r.quantity}`)].join('\n'),
+    },
   ];
   for (const { what, contentType, payload } of bodies) {
     it(`refuses ${what} over the limit with 413 problem+json and stores nothing`, async () => {
@@ -99,7 +134,11 @@ describe('the request size limit', () => {
       const response = await small.inject({
         method: 'POST',
         url: `/v1/meters/${meterId}/readings`,
-        headers: { authorization: `Bearer ${api.keys.integration}`, 'content-type': contentType, 'idempotency-key': `too-big-${contentType}` },
+        headers: {
+          authorization: `Bearer ${api.keys.integration}`,
+          'content-type': contentType,
+          'idempotency-key': `too-big-${contentType}`,
+        },
         payload: body,
       });
       expect(response.statusCode).toBe(413);
@@ -112,7 +151,13 @@ describe('the request size limit', () => {
 
   /** 2025 bills of the same building: new periods, so only the size can refuse them. */
   function manyReadings() {
-    return monthlyReadings(SAMPLE_BUILDING, dailyWeather(CLIMATES.temperate, '2025-01-01', 365, seededRandom(62)), '2025-01-01', 12, seededRandom(63));
+    return monthlyReadings(
+      SAMPLE_BUILDING,
+      dailyWeather(CLIMATES.temperate, '2025-01-01', 365, seededRandom(62)),
+      '2025-01-01',
+      12,
+      seededRandom(63),
+    );
   }
 });
 
@@ -128,8 +173,20 @@ describe('a key leaves the service once, in the response that creates it', () =>
     // The service's own logger settings (src/server.ts), at the most talkative level.
     const app = await buildApp({ store: api.store, logger: { level: 'trace', stream, redact: LOG_REDACTIONS } });
     const exchanges: { step: string; status: number; headers: string; body: string }[] = [];
-    const send = async (step: string, method: 'GET' | 'POST' | 'DELETE', url: string, token: string, payload?: object, headers: Record<string, string> = {}) => {
-      const response = await app.inject({ method, url, headers: { authorization: `Bearer ${token}`, ...headers }, ...(payload ? { payload } : {}) });
+    const send = async (
+      step: string,
+      method: 'GET' | 'POST' | 'DELETE',
+      url: string,
+      token: string,
+      payload?: object,
+      headers: Record<string, string> = {},
+    ) => {
+      const response = await app.inject({
+        method,
+        url,
+        headers: { authorization: `Bearer ${token}`, ...headers },
+        ...(payload ? { payload } : {}),
+      });
       exchanges.push({ step, status: response.statusCode, headers: JSON.stringify(response.headers), body: response.body });
       return response;
     };
@@ -156,7 +213,8 @@ describe('a key leaves the service once, in the response that creates it', () =>
         'use after revoke 401',
       ]); // the API contract
 
-      const hash = (await api.store.db.selectFrom('api_keys').select('secret_hash').where('id', '=', keyId).executeTakeFirstOrThrow()).secret_hash;
+      const hash = (await api.store.db.selectFrom('api_keys').select('secret_hash').where('id', '=', keyId).executeTakeFirstOrThrow())
+        .secret_hash;
       const carrying = (needle: string) => exchanges.filter((e) => e.body.includes(needle)).map((e) => e.step);
       expect(carrying(secret)).toEqual(['create']);
       expect(exchanges.filter((e) => e.headers.includes(secret)).map((e) => e.step)).toEqual([]);
@@ -164,7 +222,11 @@ describe('a key leaves the service once, in the response that creates it', () =>
       expect(lines.length).toBeGreaterThan(exchanges.length); // the logger really was writing
       expect(lines.filter((line) => line.includes(secret) || line.includes(hash))).toEqual([]);
       // Nor is it kept anywhere but as its hash: the audit rows and stored replies never hold it.
-      const audit = await api.store.db.selectFrom('audit_log').select(['before_json', 'after_json']).where('entity_id', '=', keyId).execute();
+      const audit = await api.store.db
+        .selectFrom('audit_log')
+        .select(['before_json', 'after_json'])
+        .where('entity_id', '=', keyId)
+        .execute();
       expect(audit.length).toBeGreaterThan(0);
       expect(JSON.stringify(audit).includes(secret) || JSON.stringify(audit).includes(hash)).toBe(false);
       const replies = await api.store.db.selectFrom('idempotency_keys').select('response_body').execute();
@@ -191,7 +253,10 @@ describe('Authorization cases beyond test/http/roles.test.ts', () => {
     { what: 'the right id with a shorter wrong secret', headers: () => ({ authorization: `Bearer mvl_${analystId()}_${'z'.repeat(33)}` }) },
     { what: 'the right id with a longer wrong secret', headers: () => ({ authorization: `Bearer mvl_${analystId()}_${'z'.repeat(90)}` }) },
     { what: 'the right secret with one character more', headers: () => ({ authorization: `Bearer ${api.keys.analyst}A` }) },
-    { what: 'the right secret under another key id', headers: () => ({ authorization: `Bearer mvl_${api.keys.engineer.split('_')[1]}_${analystSecret()}` }) },
+    {
+      what: 'the right secret under another key id',
+      headers: () => ({ authorization: `Bearer mvl_${api.keys.engineer.split('_')[1]}_${analystSecret()}` }),
+    },
     { what: 'the key without a scheme', headers: () => ({ authorization: api.keys.analyst }) },
     { what: 'the key under the Basic scheme', headers: () => ({ authorization: `Basic ${api.keys.analyst}` }) },
     { what: 'the key in ?key= and no header', headers: () => ({}), url: () => `/v1/facilities?key=${api.keys.analyst}` },
@@ -210,14 +275,18 @@ describe('Authorization cases beyond test/http/roles.test.ts', () => {
 
   it('accepts the scheme in any case (RFC 9110 §11.1)', async () => {
     for (const scheme of ['bearer', 'BEARER', 'Bearer']) {
-      expect((await api.call('GET', '/v1/facilities', { as: 'none', headers: { authorization: `${scheme} ${api.keys.analyst}` } })).status).toBe(200);
+      expect(
+        (await api.call('GET', '/v1/facilities', { as: 'none', headers: { authorization: `${scheme} ${api.keys.analyst}` } })).status,
+      ).toBe(200);
     }
   });
 
   /** One raw HTTP/1.1 exchange, so header lines reach the server exactly as written. */
   function rawStatus(headerLines: string[]): Promise<number> {
     return new Promise((resolve, reject) => {
-      const socket = connect(port, '127.0.0.1', () => socket.write(['GET /v1/facilities HTTP/1.1', 'Host: 127.0.0.1', ...headerLines, 'Connection: close', '', ''].join('\r\n')));
+      const socket = connect(port, '127.0.0.1', () =>
+        socket.write(['GET /v1/facilities HTTP/1.1', 'Host: 127.0.0.1', ...headerLines, 'Connection: close', '', ''].join('\r\n')),
+      );
       let text = '';
       socket.on('data', (chunk) => (text += chunk));
       socket.on('end', () => resolve(Number(/^HTTP\/1\.1 (\d{3})/.exec(text)?.[1])));

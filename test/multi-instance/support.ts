@@ -34,10 +34,20 @@ const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 /** Start one service process and wait until /readyz answers 200 (or fail with its output). */
 export async function startInstance(options: { name: string; databaseUrl: string; bootstrapKey?: string }): Promise<Instance> {
   const port = await freePort();
-  const env: NodeJS.ProcessEnv = { ...process.env, PORT: String(port), HOST: '127.0.0.1', DATABASE_URL: options.databaseUrl, LOG_LEVEL: 'warn' };
+  const env: NodeJS.ProcessEnv = {
+    ...process.env,
+    PORT: String(port),
+    HOST: '127.0.0.1',
+    DATABASE_URL: options.databaseUrl,
+    LOG_LEVEL: 'warn',
+  };
   delete env.MVLEDGER_BOOTSTRAP_KEY;
   if (options.bootstrapKey) env.MVLEDGER_BOOTSTRAP_KEY = options.bootstrapKey;
-  const child = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'src', 'server.ts')], { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'pipe'] });
+  const child = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'src', 'server.ts')], {
+    cwd: ROOT,
+    env,
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
   running.add(child);
   let output = '';
   const keep = (chunk: Buffer) => {
@@ -64,7 +74,9 @@ export async function startInstance(options: { name: string; databaseUrl: string
     await sleep(100);
   }
   await stopInstance(instance);
-  throw new Error(`service ${options.name} did not become ready (${exited ?? `no answer within ${READY_TIMEOUT_MS} ms`}); its output:\n${output}`);
+  throw new Error(
+    `service ${options.name} did not become ready (${exited ?? `no answer within ${READY_TIMEOUT_MS} ms`}); its output:\n${output}`,
+  );
 }
 
 /** SIGTERM (the service finishes requests in flight), then SIGKILL if it lingers. */

@@ -131,7 +131,12 @@ describe('the Before fit (2P) against R lm(Gas ~ Temp)', () => {
   it('coefficient standard errors and t values', () => {
     line.coefficients.forEach((coefficient, j) => {
       expectRelativelyClose(coefficient.standardError, fixture.before.standardErrors[j]! / DAYS, LEAST_SQUARES, `SE ${coefficient.name}`); // R: summary(fit) Std. Error
-      expectRelativelyClose(coefficient.standardError, fixture.before.perDay.standardErrors[j]!, LEAST_SQUARES, `SE ${coefficient.name} per day`); // R: weighted per-day fit
+      expectRelativelyClose(
+        coefficient.standardError,
+        fixture.before.perDay.standardErrors[j]!,
+        LEAST_SQUARES,
+        `SE ${coefficient.name} per day`,
+      ); // R: weighted per-day fit
       expectRelativelyClose(coefficient.tStat, fixture.before.tValues[j]!, LEAST_SQUARES, `t ${coefficient.name}`); // R: summary(fit) t value
     });
   });
@@ -242,7 +247,12 @@ describe('the shape choice on the Before weeks', () => {
     // n − 2 df. The script states R's standard errors both ways.
     hinge.coefficients.forEach((c, j) => {
       expectRelativelyClose(c.standardError, heatingHinge.standardErrorsChangepointCounted[j]! / DAYS, LEAST_SQUARES, `3PH SE ${c.name}`);
-      expectRelativelyClose(c.standardError, (heatingHinge.standardErrors[j]! / DAYS) * Math.sqrt((hinge.n - 2) / (hinge.n - 3)), LEAST_SQUARES, `3PH SE ${c.name} rescaled`); // R: lm's SE × √((n − 2)/(n − 3))
+      expectRelativelyClose(
+        c.standardError,
+        (heatingHinge.standardErrors[j]! / DAYS) * Math.sqrt((hinge.n - 2) / (hinge.n - 3)),
+        LEAST_SQUARES,
+        `3PH SE ${c.name} rescaled`,
+      ); // R: lm's SE × √((n − 2)/(n − 3))
     });
   });
 

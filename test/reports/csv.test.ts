@@ -62,6 +62,8 @@ describe('a meter row of the sample report', () => {
     const library = meterRow(IDS.libraryElectricity);
     expect(library).toContain(`frozen with an extrapolation override, reason: “${LIBRARY_OVERRIDE_REASON}”`);
     expect(library).toContain("uncertainty combines the model's 9000 and the adjustments' "); // synthetic: the fixture's parts
-    expect(rows.find((row) => row.startsWith('adjustment,') && row.includes(IDS.libraryAdjustment))).toContain('stated standard uncertainty of its total: 600 kWh');
+    expect(rows.find((row) => row.startsWith('adjustment,') && row.includes(IDS.libraryAdjustment))).toContain(
+      'stated standard uncertainty of its total: 600 kWh',
+    );
   });
 });

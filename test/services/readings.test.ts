@@ -7,7 +7,12 @@ import type { ServiceContext } from '../../src/services/context.js';
 import { createFacility } from '../../src/services/facilities.js';
 import { createMeter } from '../../src/services/meters.js';
 import { INSERT_CHUNK_ROWS, listReadings, postReadings } from '../../src/services/readings.js';
-import { assertOutsideFrozenWindows, frozenWindowsForMeter, frozenWindowsForStation, type FrozenWindow } from '../../src/services/frozen-windows.js';
+import {
+  assertOutsideFrozenWindows,
+  frozenWindowsForMeter,
+  frozenWindowsForStation,
+  type FrozenWindow,
+} from '../../src/services/frozen-windows.js';
 import { createStation } from '../../src/services/weather-stations.js';
 import { parseApiKey } from '../../src/store/api-keys.js';
 import { verifyAllAuditChains } from '../../src/store/audit.js';
@@ -28,7 +33,17 @@ async function addMeter(station: string, name: string): Promise<string> {
 }
 
 async function addBaseline(meter: string, id: string, start: string, end: string, status: BaselineStatus, version = 1): Promise<void> {
-  await insertBareBaseline(api.store.db, { id, organisationId: api.organisationId, meterId: meter, start, end, status, version, model: '2P', at: ctx.now });
+  await insertBareBaseline(api.store.db, {
+    id,
+    organisationId: api.organisationId,
+    meterId: meter,
+    start,
+    end,
+    status,
+    version,
+    model: '2P',
+    at: ctx.now,
+  });
 }
 
 /** The Problem a call rejects with (fails the test if it resolves). */
@@ -60,7 +75,11 @@ afterEach(async () => {
 describe('postReadings', () => {
   it('inserts a batch larger than one insert statement holds, all in one audit row', async () => {
     const count = INSERT_CHUNK_ROWS * 2 + 1; // synthetic: forces three insert statements
-    const readings = Array.from({ length: count }, (_, d) => ({ start: addDays('2020-01-01', d), end: addDays('2020-01-01', d + 1), quantity: d }));
+    const readings = Array.from({ length: count }, (_, d) => ({
+      start: addDays('2020-01-01', d),
+      end: addDays('2020-01-01', d + 1),
+      quantity: d,
+    }));
     const result = await postReadings(ctx, meterId, { readings });
     expect(result).toEqual({ meterId, received: count, created: count, corrected: 0, unchanged: 0 });
     const stored = await listReadings(api.store.db, api.organisationId, meterId);
@@ -112,7 +131,9 @@ describe('postReadings', () => {
 
   it('treats a blank correction reason as none', async () => {
     await postReadings(ctx, meterId, { readings: [{ start: '2024-01-01', end: '2024-02-01', quantity: 1 }] });
-    const problem = await problemOf(postReadings(ctx, meterId, { readings: [{ start: '2024-01-01', end: '2024-02-01', quantity: 2 }], correctionReason: '   ' }));
+    const problem = await problemOf(
+      postReadings(ctx, meterId, { readings: [{ start: '2024-01-01', end: '2024-02-01', quantity: 2 }], correctionReason: '   ' }),
+    );
     expect(problem.kind).toBe('conflict');
   });
 
@@ -127,7 +148,9 @@ describe('postReadings', () => {
   });
 
   it('refuses a cost that is not finite', async () => {
-    const problem = await problemOf(postReadings(ctx, meterId, { readings: [{ start: '2024-01-01', end: '2024-02-01', quantity: 1, cost: Number.NaN }] }));
+    const problem = await problemOf(
+      postReadings(ctx, meterId, { readings: [{ start: '2024-01-01', end: '2024-02-01', quantity: 1, cost: Number.NaN }] }),
+    );
     expect(problem.kind).toBe('validation');
     expect(problem.errors?.[0]?.field).toBe('readings[0].cost');
   });
@@ -157,10 +180,26 @@ describe('frozen windows', () => {
     const windows: FrozenWindow[] = [{ baselineId: 'bsl_a', meterId: 'mtr_a', status: 'frozen', start: '2024-01-01', end: '2025-01-01' }];
     const name = (write: { start: string }) => `write ${write.start}`;
     // hand-worked: periods ending on the window start, or starting on its end, do not meet it.
-    expect(() => assertOutsideFrozenWindows(windows, [{ start: '2023-12-01', end: '2024-01-01' }, { start: '2025-01-01', end: '2025-01-02' }], name)).not.toThrow();
+    expect(() =>
+      assertOutsideFrozenWindows(
+        windows,
+        [
+          { start: '2023-12-01', end: '2024-01-01' },
+          { start: '2025-01-01', end: '2025-01-02' },
+        ],
+        name,
+      ),
+    ).not.toThrow();
     let caught: unknown;
     try {
-      assertOutsideFrozenWindows(windows, [{ start: '2023-12-15', end: '2024-01-15' }, { start: '2024-12-31', end: '2025-01-01' }], name);
+      assertOutsideFrozenWindows(
+        windows,
+        [
+          { start: '2023-12-15', end: '2024-01-15' },
+          { start: '2024-12-31', end: '2025-01-01' },
+        ],
+        name,
+      );
     } catch (error) {
       caught = error;
     }

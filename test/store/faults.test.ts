@@ -38,7 +38,14 @@ describe('databaseFault', () => {
   it('looks through an error’s cause, and the attempts of an AggregateError', () => {
     expect(databaseFault(new Error('query failed', { cause: withCode('57P01') }))).toBe('connection-lost');
     // Node's connection to a name with an IPv6 and an IPv4 address fails as one AggregateError.
-    expect(databaseFault(new AggregateError([withCode('ECONNREFUSED', 'connect ECONNREFUSED ::1:5432'), withCode('ECONNREFUSED', 'connect ECONNREFUSED 127.0.0.1:5432')]))).toBe('unreachable');
+    expect(
+      databaseFault(
+        new AggregateError([
+          withCode('ECONNREFUSED', 'connect ECONNREFUSED ::1:5432'),
+          withCode('ECONNREFUSED', 'connect ECONNREFUSED 127.0.0.1:5432'),
+        ]),
+      ),
+    ).toBe('unreachable');
   });
 
   it('leaves every other error alone', () => {

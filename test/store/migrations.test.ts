@@ -12,7 +12,22 @@ import { migrations } from '../../migrations/index.js';
 import { dropTestDatabase, freshTestDatabaseUrl } from '../support/database.js';
 import { bareBaselineRow } from '../support/baseline-rows.js';
 
-const TABLES = ['adjustments', 'api_keys', 'audit_log', 'baselines', 'contracts', 'facilities', 'idempotency_keys', 'meters', 'normal_years', 'organisations', 'rates', 'readings', 'weather_observations', 'weather_stations'];
+const TABLES = [
+  'adjustments',
+  'api_keys',
+  'audit_log',
+  'baselines',
+  'contracts',
+  'facilities',
+  'idempotency_keys',
+  'meters',
+  'normal_years',
+  'organisations',
+  'rates',
+  'readings',
+  'weather_observations',
+  'weather_stations',
+];
 
 describe('migrations', () => {
   it('create every table, run once, and refuse a second frozen baseline per meter', async () => {
@@ -32,18 +47,58 @@ describe('migrations', () => {
       const db = store.db;
       const at = '2026-01-01T00:00:00.000Z';
       await db.insertInto('organisations').values({ id: 'org_m', name: 'Migration test org', created_at: at }).execute();
-      await db.insertInto('weather_stations').values({ id: 'wst_m', organisation_id: 'org_m', name: 'S', temperature_unit: 'F', created_at: at }).execute();
-      await db.insertInto('facilities').values({ id: 'fac_m', organisation_id: 'org_m', name: 'F', address: null, floor_area: null, created_at: at }).execute();
+      await db
+        .insertInto('weather_stations')
+        .values({ id: 'wst_m', organisation_id: 'org_m', name: 'S', temperature_unit: 'F', created_at: at })
+        .execute();
+      await db
+        .insertInto('facilities')
+        .values({ id: 'fac_m', organisation_id: 'org_m', name: 'F', address: null, floor_area: null, created_at: at })
+        .execute();
       await db
         .insertInto('meters')
-        .values({ id: 'mtr_m', organisation_id: 'org_m', facility_id: 'fac_m', name: 'M', fuel: 'electricity', unit: 'kWh', weather_station_id: 'wst_m', created_at: at })
+        .values({
+          id: 'mtr_m',
+          organisation_id: 'org_m',
+          facility_id: 'fac_m',
+          name: 'M',
+          fuel: 'electricity',
+          unit: 'kWh',
+          weather_station_id: 'wst_m',
+          created_at: at,
+        })
         .execute();
       const baseline = (id: string, version: number, status: 'frozen' | 'superseded') =>
-        bareBaselineRow({ id, organisationId: 'org_m', meterId: 'mtr_m', start: '2024-01-01', end: '2025-01-01', status, version, model: '1P', at });
-      await db.insertInto('baselines').values(baseline('bsl_1', 1, 'superseded')).execute();
-      await db.insertInto('baselines').values(baseline('bsl_2', 2, 'frozen')).execute();
-      await expect(db.insertInto('baselines').values(baseline('bsl_3', 3, 'frozen')).execute()).rejects.toThrow();
-      const stored = await db.selectFrom('baselines').select(['temperature_form', 'short_baseline_override', 'extrapolation_override']).where('id', '=', 'bsl_1').executeTakeFirstOrThrow();
+        bareBaselineRow({
+          id,
+          organisationId: 'org_m',
+          meterId: 'mtr_m',
+          start: '2024-01-01',
+          end: '2025-01-01',
+          status,
+          version,
+          model: '1P',
+          at,
+        });
+      await db
+        .insertInto('baselines')
+        .values(baseline('bsl_1', 1, 'superseded'))
+        .execute();
+      await db
+        .insertInto('baselines')
+        .values(baseline('bsl_2', 2, 'frozen'))
+        .execute();
+      await expect(
+        db
+          .insertInto('baselines')
+          .values(baseline('bsl_3', 3, 'frozen'))
+          .execute(),
+      ).rejects.toThrow();
+      const stored = await db
+        .selectFrom('baselines')
+        .select(['temperature_form', 'short_baseline_override', 'extrapolation_override'])
+        .where('id', '=', 'bsl_1')
+        .executeTakeFirstOrThrow();
       expect(stored).toEqual({ temperature_form: 'mean', short_baseline_override: null, extrapolation_override: null });
     } finally {
       await store.close();
@@ -62,14 +117,34 @@ describe('migrations', () => {
       for (const name of names.slice(0, names.indexOf(formMigration))) await migrations[name]!.up(db);
       const at = '2026-01-01T00:00:00.000Z';
       await db.insertInto('organisations').values({ id: 'org_m', name: 'Migration test org', created_at: at }).execute();
-      await db.insertInto('weather_stations').values({ id: 'wst_m', organisation_id: 'org_m', name: 'S', temperature_unit: 'F', created_at: at }).execute();
-      await db.insertInto('facilities').values({ id: 'fac_m', organisation_id: 'org_m', name: 'F', address: null, floor_area: null, created_at: at }).execute();
+      await db
+        .insertInto('weather_stations')
+        .values({ id: 'wst_m', organisation_id: 'org_m', name: 'S', temperature_unit: 'F', created_at: at })
+        .execute();
+      await db
+        .insertInto('facilities')
+        .values({ id: 'fac_m', organisation_id: 'org_m', name: 'F', address: null, floor_area: null, created_at: at })
+        .execute();
       await db
         .insertInto('meters')
-        .values({ id: 'mtr_m', organisation_id: 'org_m', facility_id: 'fac_m', name: 'M', fuel: 'electricity', unit: 'kWh', weather_station_id: 'wst_m', created_at: at })
+        .values({
+          id: 'mtr_m',
+          organisation_id: 'org_m',
+          facility_id: 'fac_m',
+          name: 'M',
+          fuel: 'electricity',
+          unit: 'kWh',
+          weather_station_id: 'wst_m',
+          created_at: at,
+        })
         .execute();
       const oldRow = (id: string, version: number, documentJson: string) => {
-        const { temperature_form: _f, short_baseline_override: _s, extrapolation_override: _e, ...row } = bareBaselineRow({
+        const {
+          temperature_form: _f,
+          short_baseline_override: _s,
+          extrapolation_override: _e,
+          ...row
+        } = bareBaselineRow({
           id,
           organisationId: 'org_m',
           meterId: 'mtr_m',
@@ -81,11 +156,38 @@ describe('migrations', () => {
         return { ...row, document_json: documentJson };
       };
       // Stored fit documents are canonical JSON: a pre-form fit names no form; one written by a build that knew it does.
-      await db.insertInto('baselines').values(oldRow('bsl_old', 1, '{"candidates":[],"selected":"3PH"}')).execute();
-      await db.insertInto('baselines').values(oldRow('bsl_day', 2, '{"candidates":[],"selected":"3PH","settings":{"temperatureForm":"daily"},"temperatureForm":"daily"}')).execute();
-      await db.insertInto('adjustments').values({ id: 'adj_m', organisation_id: 'org_m', meter_id: 'mtr_m', period_start: '2025-01-01', period_end: '2025-02-01', quantity: 10, per_day: null, reason: 'test', created_at: at, created_by: 'test', withdrawn_at: null, withdrawn_by: null, withdraw_reason: null }).execute();
+      await db
+        .insertInto('baselines')
+        .values(oldRow('bsl_old', 1, '{"candidates":[],"selected":"3PH"}'))
+        .execute();
+      await db
+        .insertInto('baselines')
+        .values(oldRow('bsl_day', 2, '{"candidates":[],"selected":"3PH","settings":{"temperatureForm":"daily"},"temperatureForm":"daily"}'))
+        .execute();
+      await db
+        .insertInto('adjustments')
+        .values({
+          id: 'adj_m',
+          organisation_id: 'org_m',
+          meter_id: 'mtr_m',
+          period_start: '2025-01-01',
+          period_end: '2025-02-01',
+          quantity: 10,
+          per_day: null,
+          reason: 'test',
+          created_at: at,
+          created_by: 'test',
+          withdrawn_at: null,
+          withdrawn_by: null,
+          withdraw_reason: null,
+        })
+        .execute();
       await migrations[formMigration]!.up(db);
-      const forms = await db.selectFrom('baselines').select(['id', 'temperature_form', 'short_baseline_override', 'extrapolation_override']).orderBy('id').execute();
+      const forms = await db
+        .selectFrom('baselines')
+        .select(['id', 'temperature_form', 'short_baseline_override', 'extrapolation_override'])
+        .orderBy('id')
+        .execute();
       expect(forms).toEqual([
         { id: 'bsl_day', temperature_form: 'daily', short_baseline_override: null, extrapolation_override: null },
         { id: 'bsl_old', temperature_form: 'mean', short_baseline_override: null, extrapolation_override: null },

@@ -100,7 +100,10 @@ describe('exportOrganisation', () => {
     expect(document.organisation).toEqual(await source.db.selectFrom('organisations').selectAll().executeTakeFirstOrThrow());
     for (const table of TRANSFER_TABLES) {
       // The source holds one organisation, so its whole tables are the organisation's rows.
-      const { count } = await source.db.selectFrom(table).select((eb) => eb.fn.countAll<number>().as('count')).executeTakeFirstOrThrow();
+      const { count } = await source.db
+        .selectFrom(table)
+        .select((eb) => eb.fn.countAll<number>().as('count'))
+        .executeTakeFirstOrThrow();
       expect(document.tables[table], table).toHaveLength(Number(count));
     }
   });
@@ -111,7 +114,11 @@ describe('exportOrganisation', () => {
     expect(document.tables.audit_log.map((row) => row.seq)).toEqual(Array.from({ length: audit.headSeq }, (_, i) => i + 1));
     const readings = (await tableRows(source.db, 'readings')).map((text) => JSON.parse(text));
     expect(document.tables.readings).toEqual(readings);
-    const baseline = await source.db.selectFrom('baselines').selectAll().where('id', '=', seed.facilities[0]!.meters[0]!.baselineId).executeTakeFirstOrThrow();
+    const baseline = await source.db
+      .selectFrom('baselines')
+      .selectAll()
+      .where('id', '=', seed.facilities[0]!.meters[0]!.baselineId)
+      .executeTakeFirstOrThrow();
     expect(document.tables.baselines.find((row) => row.id === baseline.id)).toEqual(baseline);
   });
 
@@ -125,24 +132,92 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
   const cases: { what: string; change: (copy: any) => void; says: RegExp }[] = [
     { what: 'another format', change: (d) => (d.format = 'ledger-dump'), says: /^format: must be "mvledger-export"/ },
     { what: 'another version', change: (d) => (d.version = 4), says: /^version: this mvledger reads versions 1, 2 and 3, got 4/ },
-    { what: 'a version 1 document with a table of version 2', change: (d) => (d.version = 1), says: /^tables\.normal_years: not a table of format version 1/ },
-    { what: 'an edited audit row', change: (d) => (d.tables.audit_log[4].actor = 'someone else'), says: /^tables\.audit_log\[4\]: the audit chain breaks at seq 5: its content does not match its hash/ },
-    { what: 'a removed audit row', change: (d) => d.tables.audit_log.splice(2, 1), says: /^tables\.audit_log\[2\]: the audit chain breaks at seq 4: row 3 is missing/ },
-    { what: 'a cut-off audit tail', change: (d) => d.tables.audit_log.pop(), says: /^auditHead: the audit chain ends at seq \d+ with hash [0-9a-f]{64}, not at the stated seq/ },
-    { what: 'an edited frozen baseline', change: (d) => (d.tables.baselines[0].inputs_json = d.tables.baselines[0].inputs_json.replace(/"quantity":(\d)/, '"quantity":9$1')), says: /^tables\.baselines\[0\]: baseline bsl_\S+ \(frozen\) does not match its content hash/ },
+    {
+      what: 'a version 1 document with a table of version 2',
+      change: (d) => (d.version = 1),
+      says: /^tables\.normal_years: not a table of format version 1/,
+    },
+    {
+      what: 'an edited audit row',
+      change: (d) => (d.tables.audit_log[4].actor = 'someone else'),
+      says: /^tables\.audit_log\[4\]: the audit chain breaks at seq 5: its content does not match its hash/,
+    },
+    {
+      what: 'a removed audit row',
+      change: (d) => d.tables.audit_log.splice(2, 1),
+      says: /^tables\.audit_log\[2\]: the audit chain breaks at seq 4: row 3 is missing/,
+    },
+    {
+      what: 'a cut-off audit tail',
+      change: (d) => d.tables.audit_log.pop(),
+      says: /^auditHead: the audit chain ends at seq \d+ with hash [0-9a-f]{64}, not at the stated seq/,
+    },
+    {
+      what: 'an edited frozen baseline',
+      change: (d) => (d.tables.baselines[0].inputs_json = d.tables.baselines[0].inputs_json.replace(/"quantity":(\d)/, '"quantity":9$1')),
+      says: /^tables\.baselines\[0\]: baseline bsl_\S+ \(frozen\) does not match its content hash/,
+    },
     { what: 'a missing column', change: (d) => delete d.tables.readings[3].cost, says: /^tables\.readings\[3\]\.cost: missing/ },
-    { what: 'an unknown column', change: (d) => (d.tables.meters[0].colour = 'red'), says: /^tables\.meters\[0\]\.colour: not a column of format version 3/ },
-    { what: 'a version 2 document with a column of version 3', change: (d) => (d.version = 2), says: /^tables\.adjustments\[0\]\.uncertainty: not a column of format version 2/ },
-    { what: 'a frozen baseline whose temperature form was edited', change: (d) => (d.tables.baselines[0].temperature_form = 'mean'), says: /^tables\.baselines\[0\]: baseline bsl_\S+ \(frozen\) does not match its content hash/ },
-    { what: 'an override added to a frozen baseline', change: (d) => (d.tables.baselines[0].extrapolation_override = 'added later'), says: /^tables\.baselines\[0\]: baseline bsl_\S+ \(frozen\) does not match its content hash/ },
-    { what: 'an unknown temperature form', change: (d) => (d.tables.baselines[0].temperature_form = 'weekly'), says: /^tables\.baselines\[0\]\.temperature_form: must be one of daily, mean/ },
-    { what: 'a negative adjustment uncertainty', change: (d) => (d.tables.adjustments[0].uncertainty = -5), says: /^tables\.adjustments\[0\]\.uncertainty: must be at least 0, got -5/ },
-    { what: 'a quantity as text', change: (d) => (d.tables.readings[0].quantity = '12'), says: /^tables\.readings\[0\]\.quantity: must be a finite number, got "12"/ },
-    { what: 'an unknown role', change: (d) => (d.tables.api_keys[0].role = 'root'), says: /^tables\.api_keys\[0\]\.role: must be one of admin, engineer, analyst, integration/ },
-    { what: 'a row of another organisation', change: (d) => (d.tables.facilities[1].organisation_id = 'org_other'), says: /^tables\.facilities\[1\]\.organisation_id: must be the exported organisation/ },
-    { what: 'a reading of a meter not in the document', change: (d) => (d.tables.readings[0].meter_id = 'mtr_elsewhere'), says: /^tables\.readings\[0\]\.meter_id: "mtr_elsewhere" is not a meter in the document/ },
-    { what: 'a duplicated reading', change: (d) => d.tables.readings.push(d.tables.readings[0]), says: /^tables\.readings\[\d+\]: a second row with the key meter_id, period_start, period_end/ },
-    { what: 'idempotency keys', change: (d) => (d.tables.idempotency_keys = []), says: /^tables\.idempotency_keys: not a table of format version 3/ },
+    {
+      what: 'an unknown column',
+      change: (d) => (d.tables.meters[0].colour = 'red'),
+      says: /^tables\.meters\[0\]\.colour: not a column of format version 3/,
+    },
+    {
+      what: 'a version 2 document with a column of version 3',
+      change: (d) => (d.version = 2),
+      says: /^tables\.adjustments\[0\]\.uncertainty: not a column of format version 2/,
+    },
+    {
+      what: 'a frozen baseline whose temperature form was edited',
+      change: (d) => (d.tables.baselines[0].temperature_form = 'mean'),
+      says: /^tables\.baselines\[0\]: baseline bsl_\S+ \(frozen\) does not match its content hash/,
+    },
+    {
+      what: 'an override added to a frozen baseline',
+      change: (d) => (d.tables.baselines[0].extrapolation_override = 'added later'),
+      says: /^tables\.baselines\[0\]: baseline bsl_\S+ \(frozen\) does not match its content hash/,
+    },
+    {
+      what: 'an unknown temperature form',
+      change: (d) => (d.tables.baselines[0].temperature_form = 'weekly'),
+      says: /^tables\.baselines\[0\]\.temperature_form: must be one of daily, mean/,
+    },
+    {
+      what: 'a negative adjustment uncertainty',
+      change: (d) => (d.tables.adjustments[0].uncertainty = -5),
+      says: /^tables\.adjustments\[0\]\.uncertainty: must be at least 0, got -5/,
+    },
+    {
+      what: 'a quantity as text',
+      change: (d) => (d.tables.readings[0].quantity = '12'),
+      says: /^tables\.readings\[0\]\.quantity: must be a finite number, got "12"/,
+    },
+    {
+      what: 'an unknown role',
+      change: (d) => (d.tables.api_keys[0].role = 'root'),
+      says: /^tables\.api_keys\[0\]\.role: must be one of admin, engineer, analyst, integration/,
+    },
+    {
+      what: 'a row of another organisation',
+      change: (d) => (d.tables.facilities[1].organisation_id = 'org_other'),
+      says: /^tables\.facilities\[1\]\.organisation_id: must be the exported organisation/,
+    },
+    {
+      what: 'a reading of a meter not in the document',
+      change: (d) => (d.tables.readings[0].meter_id = 'mtr_elsewhere'),
+      says: /^tables\.readings\[0\]\.meter_id: "mtr_elsewhere" is not a meter in the document/,
+    },
+    {
+      what: 'a duplicated reading',
+      change: (d) => d.tables.readings.push(d.tables.readings[0]),
+      says: /^tables\.readings\[\d+\]: a second row with the key meter_id, period_start, period_end/,
+    },
+    {
+      what: 'idempotency keys',
+      change: (d) => (d.tables.idempotency_keys = []),
+      says: /^tables\.idempotency_keys: not a table of format version 3/,
+    },
     { what: 'a missing table', change: (d) => delete d.tables.baselines, says: /^tables\.baselines: must be a list of rows, got nothing/ },
   ];
   it('still reads a version 1 document (from before adjustments, rates, contracts and normal years), with those tables empty', () => {
@@ -150,7 +225,8 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
       d.version = 1;
       for (const table of ['adjustments', 'rates', 'contracts', 'normal_years']) delete d.tables[table];
     });
-    for (const row of (input as any).tables.baselines) for (const column of ['temperature_form', 'short_baseline_override', 'extrapolation_override']) delete row[column];
+    for (const row of (input as any).tables.baselines)
+      for (const column of ['temperature_form', 'short_baseline_override', 'extrapolation_override']) delete row[column];
     const checked = checkDocument(input);
     expect(checked.version).toBe(3);
     expect(checked.tables.rates).toEqual([]);
@@ -161,7 +237,8 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
   it('still reads a version 2 document, taking each baseline’s form from its fit document and no override or adjustment ±', () => {
     const input = edited(document, (d) => {
       d.version = 2;
-      for (const row of d.tables.baselines) for (const column of ['temperature_form', 'short_baseline_override', 'extrapolation_override']) delete row[column];
+      for (const row of d.tables.baselines)
+        for (const column of ['temperature_form', 'short_baseline_override', 'extrapolation_override']) delete row[column];
       for (const row of d.tables.adjustments) delete row.uncertainty;
     });
     const checked = checkDocument(input);
@@ -237,7 +314,11 @@ for (const target of targets) {
       const sourceApp = await buildApp({ store: source });
       try {
         for (const meter of seed.facilities.flatMap((f) => f.meters)) {
-          const request = { method: 'GET' as const, url: `/v1/meters/${meter.id}/savings?confidence=0.9`, headers: { authorization: `Bearer ${seed.analystKey}` } };
+          const request = {
+            method: 'GET' as const,
+            url: `/v1/meters/${meter.id}/savings?confidence=0.9`,
+            headers: { authorization: `Bearer ${seed.analystKey}` },
+          };
           // The target first: frozen models are cached in memory by baseline id and content hash.
           const fromTarget = await targetApp.inject(request);
           const fromSource = await sourceApp.inject(request);
@@ -252,7 +333,9 @@ for (const target of targets) {
 
     it('refuses the same organisation a second time and stores nothing', async () => {
       const before = await databaseDigest(store.db);
-      await expect(importOrganisation(store.db, asFile(document))).rejects.toThrow(new RegExp(`^organisation ${organisationId} already exists in the target database$`));
+      await expect(importOrganisation(store.db, asFile(document))).rejects.toThrow(
+        new RegExp(`^organisation ${organisationId} already exists in the target database$`),
+      );
       expect(await databaseDigest(store.db)).toBe(before);
     });
   });
@@ -265,9 +348,21 @@ describe('importOrganisation stores all or nothing', () => {
       await migrateToLatest(store.db);
       const facility = document.tables.facilities[0]!;
       await store.db.insertInto('organisations').values({ id: 'org_other', name: 'Other (invented)', created_at: EXPORTED_AT }).execute();
-      await store.db.insertInto('facilities').values({ id: facility.id as string, organisation_id: 'org_other', name: 'Same id', address: null, floor_area: null, created_at: EXPORTED_AT }).execute();
+      await store.db
+        .insertInto('facilities')
+        .values({
+          id: facility.id as string,
+          organisation_id: 'org_other',
+          name: 'Same id',
+          address: null,
+          floor_area: null,
+          created_at: EXPORTED_AT,
+        })
+        .execute();
       const before = await databaseDigest(store.db);
-      await expect(importOrganisation(store.db, asFile(document))).rejects.toThrow(`facilities id ${facility.id} already exists in the target database`);
+      await expect(importOrganisation(store.db, asFile(document))).rejects.toThrow(
+        `facilities id ${facility.id} already exists in the target database`,
+      );
       expect(await databaseDigest(store.db)).toBe(before);
     } finally {
       await store.close();
@@ -279,7 +374,9 @@ describe('importOrganisation stores all or nothing', () => {
     try {
       await migrateToLatest(store.db);
       // synthetic: the test makes the target refuse audit rows, the last table inserted
-      await sql`create trigger refuse_audit before insert on audit_log begin select raise(abort, 'synthetic failure'); end`.execute(store.db);
+      await sql`create trigger refuse_audit before insert on audit_log begin select raise(abort, 'synthetic failure'); end`.execute(
+        store.db,
+      );
       const before = await databaseDigest(store.db);
       const failure = await importOrganisation(store.db, asFile(document)).catch((error: unknown) => error);
       expect(failure).toBeInstanceOf(Error);

@@ -48,7 +48,6 @@ export function dayResolvedSse(shape: Shape, periods: readonly Period[], cH: num
   return fit?.sse ?? Number.POSITIVE_INFINITY;
 }
 
-
 /** Grid over the range of the days' temperatures, then a golden-section polish around the best point. */
 export function dayResolvedGridSearch(shape: Shape, periods: readonly Period[], step: number, k: number): DayGridOptimum | null {
   const temps = periods.flatMap((p) => [...p.dayTemps!]);
@@ -77,7 +76,8 @@ export function dayResolvedGridSearch(shape: Shape, periods: readonly Period[], 
         current.heating + step,
         60,
       );
-      if (result.value < current.sse) current = { heating: result.x, cooling: shape === '4P' ? result.x : current.cooling, sse: result.value };
+      if (result.value < current.sse)
+        current = { heating: result.x, cooling: shape === '4P' ? result.x : current.cooling, sse: result.value };
     }
     if (current.cooling !== null && shape !== '4P') {
       const cH = current.heating;

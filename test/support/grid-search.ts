@@ -27,7 +27,14 @@ function feasible(x: readonly number[], k: number, cH: number | null, cC: number
   return true;
 }
 
-function sseAt(model: ModelName, x: readonly number[], y: readonly number[], w: readonly number[], cH: number | null, cC: number | null): number {
+function sseAt(
+  model: ModelName,
+  x: readonly number[],
+  y: readonly number[],
+  w: readonly number[],
+  cH: number | null,
+  cC: number | null,
+): number {
   const design = x.map((v) => designRow(model, { heating: cH, cooling: cC }, v));
   return weightedLeastSquares(design, y, w)?.sse ?? Number.POSITIVE_INFINITY;
 }

@@ -63,5 +63,9 @@ export function savingsAt(
  */
 export function detectFormSupport(readings: readonly Reading[], weather: readonly DailyTemperature[]): boolean {
   const [mean, daily] = FORMS.map((form) => selectedFit(baselineInForm(readings, weather, form)));
-  return mean!.sse !== daily!.sse || mean!.model !== daily!.model || mean!.rawCoefficients.some((value, j) => value !== daily!.rawCoefficients[j]);
+  return (
+    mean!.sse !== daily!.sse ||
+    mean!.model !== daily!.model ||
+    mean!.rawCoefficients.some((value, j) => value !== daily!.rawCoefficients[j])
+  );
 }

@@ -43,13 +43,21 @@ export async function runRestore(args: readonly string[], env: NodeJS.ProcessEnv
   const database = sqliteFileOf(env, 'restore into');
   if (database.postgres !== undefined) return { stdout: '', note: postgresGuidance(database.postgres, input), code: EXIT_BAD_INPUT };
   const summary = await restoreSqlite(input, database.file, { force: values.force === true }).catch(asUsage);
-  const replaced = summary.replacedOrganisations > 0 ? `, replacing ${summary.replacedOrganisations} organisation${summary.replacedOrganisations === 1 ? '' : 's'}` : '';
+  const replaced =
+    summary.replacedOrganisations > 0
+      ? `, replacing ${summary.replacedOrganisations} organisation${summary.replacedOrganisations === 1 ? '' : 's'}`
+      : '';
   const migrated = summary.migrations.length > 0 ? `, migrated (${summary.migrations.join(', ')})` : '';
-  return { stdout: `restored ${summary.input} into sqlite file ${summary.target}${replaced}${migrated}; ${describeVerdict(summary.verdict)}\n` };
+  return {
+    stdout: `restored ${summary.input} into sqlite file ${summary.target}${replaced}${migrated}; ${describeVerdict(summary.verdict)}\n`,
+  };
 }
 
 /** The SQLite file DATABASE_URL names, or the PostgreSQL URL to give guidance for. */
-function sqliteFileOf(env: NodeJS.ProcessEnv, verb: string): { file: string; postgres?: undefined } | { file?: undefined; postgres: string } {
+function sqliteFileOf(
+  env: NodeJS.ProcessEnv,
+  verb: string,
+): { file: string; postgres?: undefined } | { file?: undefined; postgres: string } {
   const url = env.DATABASE_URL ?? DEFAULT_DATABASE_URL;
   let parsed: ReturnType<typeof parseDatabaseUrl>;
   try {

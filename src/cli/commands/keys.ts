@@ -37,10 +37,18 @@ function isSubcommand(word: string | undefined): word is Subcommand {
   return word !== undefined && Object.hasOwn(SPECS, word);
 }
 
-export async function runKeys(args: readonly string[], env: NodeJS.ProcessEnv = process.env, now: () => string = () => new Date().toISOString()): Promise<KeysOutput> {
+export async function runKeys(
+  args: readonly string[],
+  env: NodeJS.ProcessEnv = process.env,
+  now: () => string = () => new Date().toISOString(),
+): Promise<KeysOutput> {
   const [subcommand, ...rest] = args;
   if (!isSubcommand(subcommand)) {
-    throw new UsageError(subcommand === undefined ? 'keys needs a subcommand: create, list or revoke' : `unknown keys subcommand ${JSON.stringify(subcommand)} (create, list, revoke)`);
+    throw new UsageError(
+      subcommand === undefined
+        ? 'keys needs a subcommand: create, list or revoke'
+        : `unknown keys subcommand ${JSON.stringify(subcommand)} (create, list, revoke)`,
+    );
   }
   const { values, positionals } = parseStrict(rest, subcommand);
   // Every argument is checked before the database is opened.
@@ -105,7 +113,11 @@ function withStore(env: NodeJS.ProcessEnv, work: (store: Store) => Promise<KeysO
 async function create(store: Store, input: CreateInput, at: string): Promise<KeysOutput> {
   let organisation: { id: string; name: string };
   if ('id' in input.organisation) {
-    const found = await store.db.selectFrom('organisations').select(['id', 'name']).where('id', '=', input.organisation.id).executeTakeFirst();
+    const found = await store.db
+      .selectFrom('organisations')
+      .select(['id', 'name'])
+      .where('id', '=', input.organisation.id)
+      .executeTakeFirst();
     if (!found) throw new UsageError(`--org: no organisation ${input.organisation.id} in ${store.location}`);
     organisation = found;
   } else {

@@ -33,7 +33,9 @@ export async function runSavings(options: SavingsCommandOptions): Promise<string
   const model = options.model ?? baseline.choice.selected;
   const used = baseline.choice.candidates.find((c) => c.model === model);
   if (!used?.fit) {
-    throw new UsageError(`--model ${model}: the ${model} shape could not be fitted to this baseline (${used?.reasons.join('; ') ?? 'not a candidate'})`);
+    throw new UsageError(
+      `--model ${model}: the ${model} shape could not be fitted to this baseline (${used?.reasons.join('; ') ?? 'not a candidate'})`,
+    );
   }
   const plain = computeSavingsDocument(baseline, reportingReadings, weather, options, model);
   const document = checkProjection(plain, baseline, used.fit, reportingReadings, weather, options);
@@ -72,7 +74,10 @@ function checkProjection(
   };
   const checks = {
     sufficiency: baselineSufficiency(baseline.periods),
-    extrapolation: reportingExtrapolation(fit, alignPeriods(reporting.readings, weather.weather, { minCoverage: options.minCoverage }).periods),
+    extrapolation: reportingExtrapolation(
+      fit,
+      alignPeriods(reporting.readings, weather.weather, { minCoverage: options.minCoverage }).periods,
+    ),
     overrides,
   };
   const refusals = projectionRefusals(checks, { requireSufficiency: true });
@@ -91,7 +96,11 @@ function computeSavingsDocument(
   model: NonNullable<SavingsCommandOptions['model']>,
 ): SavingsDocument {
   try {
-    return analyseSavings(baseline, reporting.readings, weather.weather, { confidence: options.confidence, model, minCoverage: options.minCoverage });
+    return analyseSavings(baseline, reporting.readings, weather.weather, {
+      confidence: options.confidence,
+      model,
+      minCoverage: options.minCoverage,
+    });
   } catch (error) {
     if (error instanceof RangeError) {
       const explained = explainTooFewPeriods(reporting, weather, options.minCoverage, 1, error.message);

@@ -24,9 +24,22 @@ export function explainTooFewPeriods(
   }
   const first = excluded[0];
   if (first) {
-    const others = excluded.length > 1 ? ` (${excluded.length} periods in all are left out for want of weather in ${weather.file})` : ` (no weather for it in ${weather.file})`;
-    return new InputFileError(readings.file, readings.lines[first.index] ?? readings.headerLine, 'start', `${engineMessage}; this period is left out: ${first.reason}${others}`);
+    const others =
+      excluded.length > 1
+        ? ` (${excluded.length} periods in all are left out for want of weather in ${weather.file})`
+        : ` (no weather for it in ${weather.file})`;
+    return new InputFileError(
+      readings.file,
+      readings.lines[first.index] ?? readings.headerLine,
+      'start',
+      `${engineMessage}; this period is left out: ${first.reason}${others}`,
+    );
   }
   const lastLine = readings.lines[readings.lines.length - 1] ?? readings.headerLine;
-  return new InputFileError(readings.file, lastLine, 'start', `${engineMessage}; the file has only ${readings.readings.length} reading${readings.readings.length === 1 ? '' : 's'}`);
+  return new InputFileError(
+    readings.file,
+    lastLine,
+    'start',
+    `${engineMessage}; the file has only ${readings.readings.length} reading${readings.readings.length === 1 ? '' : 's'}`,
+  );
 }

@@ -24,7 +24,11 @@ type Values = Record<string, string | boolean | undefined>;
 const EXPORT_SPEC = { org: { type: 'string' }, out: { type: 'string' }, help: { type: 'boolean', short: 'h' } } as const;
 const IMPORT_SPEC = { in: { type: 'string' }, help: { type: 'boolean', short: 'h' } } as const;
 
-export async function runExport(args: readonly string[], env: NodeJS.ProcessEnv = process.env, now: () => string = () => new Date().toISOString()): Promise<TransferOutput> {
+export async function runExport(
+  args: readonly string[],
+  env: NodeJS.ProcessEnv = process.env,
+  now: () => string = () => new Date().toISOString(),
+): Promise<TransferOutput> {
   const values = parseStrict(args, EXPORT_SPEC);
   if (values.help) return { stdout: EXPORT_USAGE };
   const organisationId = requiredText(values, 'org', '--org ID is required (the organisation to export)');
@@ -39,7 +43,9 @@ export async function runExport(args: readonly string[], env: NodeJS.ProcessEnv 
     if (out !== undefined) writeWhole(out, text);
     const lines = [
       `exported organisation ${document.organisation.id} (${JSON.stringify(document.organisation.name)}) from ${store.location} to ${out ?? 'stdout'}: ${Buffer.byteLength(text)} bytes`,
-      ...tableLines(Object.fromEntries(TRANSFER_TABLES.map((table) => [table, document.tables[table].length])) as Record<TransferTable, number>),
+      ...tableLines(
+        Object.fromEntries(TRANSFER_TABLES.map((table) => [table, document.tables[table].length])) as Record<TransferTable, number>,
+      ),
       `audit head: seq ${document.auditHead.seq}, hash ${document.auditHead.hash}`,
     ];
     return { stdout: out === undefined ? text : '', note: `${lines.join('\n')}\n` };

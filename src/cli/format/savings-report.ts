@@ -88,7 +88,9 @@ export function renderSavingsReport(document: CheckedSavingsDocument, context: S
   const adjustmentsAbsolute = totals.uncertainty.adjustments.absolute;
   const inputs = document.uncertaintyInputs;
   const at68 = document.significance.fractionalAt68;
-  const width = Math.max(...[totals.adjustedBaseline, totals.actual, totals.savings, g14.absolute, exact.absolute].map((v) => amount(v).length));
+  const width = Math.max(
+    ...[totals.adjustedBaseline, totals.actual, totals.savings, g14.absolute, exact.absolute].map((v) => amount(v).length),
+  );
   const column = (value: number) => amount(value).padStart(width);
   lines.push(
     'Totals',
@@ -134,10 +136,16 @@ function checkLines(document: CheckedSavingsDocument): string[] {
   const { shortBaseline, extrapolation } = document.baseline.overrides;
   const length = s.sufficient ? 'covers a full cycle of seasons' : `too short: ${s.reasons.join('; ')}`;
   const lines = ['Checks', `  Baseline length: ${s.periods} periods, ${s.days} days: ${length}`];
-  lines.push(`  Extrapolation: ${document.extrapolation.exceedsLimit ? 'above' : 'within'} the limit of ${formatPercent(document.extrapolation.limit, 0)} of the reporting days`);
+  lines.push(
+    `  Extrapolation: ${document.extrapolation.exceedsLimit ? 'above' : 'within'} the limit of ${formatPercent(document.extrapolation.limit, 0)} of the reporting days`,
+  );
   if (shortBaseline === null && extrapolation === null) lines.push('  Overrides: none');
-  if (shortBaseline !== null) lines.push(`  Override --allow-short-baseline${s.sufficient ? ' (not needed here)' : ''}: ${shortBaseline.reason}`);
-  if (extrapolation !== null) lines.push(`  Override --allow-extrapolation${document.extrapolation.exceedsLimit ? '' : ' (not needed here)'}: ${extrapolation.reason}`);
+  if (shortBaseline !== null)
+    lines.push(`  Override --allow-short-baseline${s.sufficient ? ' (not needed here)' : ''}: ${shortBaseline.reason}`);
+  if (extrapolation !== null)
+    lines.push(
+      `  Override --allow-extrapolation${document.extrapolation.exceedsLimit ? '' : ' (not needed here)'}: ${extrapolation.reason}`,
+    );
   return lines;
 }
 
@@ -146,6 +154,8 @@ function excludedLines(label: string, excluded: readonly ExcludedPeriod[], file:
   const rowWidth = Math.max(...excluded.map((period) => String(lineOf(period.index)).length));
   return [
     `  ${label} (${file}):`,
-    ...excluded.map((period) => `    row ${String(lineOf(period.index)).padStart(rowWidth)}  ${period.start} to ${period.end}: ${period.reason}`),
+    ...excluded.map(
+      (period) => `    row ${String(lineOf(period.index)).padStart(rowWidth)}  ${period.start} to ${period.end}: ${period.reason}`,
+    ),
   ];
 }

@@ -12,10 +12,18 @@ export interface LocatedProblem {
 }
 
 /** Engine problems carry the record index; turn it into the record's line in the file. */
-export function locateProblems(problems: readonly InputProblem[], lines: readonly number[], renameField: (field: string) => string = (f) => f): LocatedProblem[] {
+export function locateProblems(
+  problems: readonly InputProblem[],
+  lines: readonly number[],
+  renameField: (field: string) => string = (f) => f,
+): LocatedProblem[] {
   return problems.map((p) => {
     const related = p.relatedIndex === undefined ? undefined : lines[p.relatedIndex];
-    return { line: lines[p.index] ?? 0, field: renameField(p.field), message: related === undefined ? p.message : `${p.message} (row ${related})` };
+    return {
+      line: lines[p.index] ?? 0,
+      field: renameField(p.field),
+      message: related === undefined ? p.message : `${p.message} (row ${related})`,
+    };
   });
 }
 

@@ -36,7 +36,8 @@ export function weatherFromTable(table: CsvTable, unit: TemperatureUnit): Weathe
     const date = cell(row, 'date');
     const values = readTemperatures(row, temperatureColumns, problems);
     if (values) days.push({ date, values, line: row.line });
-    else if (!isIsoDate(date)) problems.push({ line: row.line, field: 'date', message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(date)}` });
+    else if (!isIsoDate(date))
+      problems.push({ line: row.line, field: 'date', message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(date)}` });
   }
   const lines = days.map((d) => d.line);
   // The engine's plausibility check runs on each column as read, so a problem names that column.

@@ -83,7 +83,11 @@ function suffixLines(s: SortedSums): LineFits {
  * beat there). Used only to skip placements that cannot win.
  */
 function separateFitBound(s: SortedSums, prefix: LineFits, suffix: LineFits, heatingEnd: number, coolingStart: number): number {
-  return boundOfLine(prefix.sse[heatingEnd]!, s, 0, heatingEnd) + constantSse(s, heatingEnd, coolingStart) + boundOfLine(suffix.sse[coolingStart]!, s, coolingStart, s.n);
+  return (
+    boundOfLine(prefix.sse[heatingEnd]!, s, 0, heatingEnd) +
+    constantSse(s, heatingEnd, coolingStart) +
+    boundOfLine(suffix.sse[coolingStart]!, s, coolingStart, s.n)
+  );
 }
 
 function constantSse(s: SortedSums, from: number, to: number): number {
@@ -104,13 +108,7 @@ function boundOfLine(lineSse: number, s: SortedSums, from: number, to: number): 
  * have a zero hinge value, so either side may hold them). Pass null for an
  * absent column. All in centred coordinates.
  */
-export function fixedHingeSse(
-  s: SortedSums,
-  cH: number | null,
-  heatingEnd: number,
-  cC: number | null,
-  coolingStart: number,
-): number {
+export function fixedHingeSse(s: SortedSums, cH: number | null, heatingEnd: number, cC: number | null, coolingStart: number): number {
   const n = s.n;
   const W = s.W[n]!;
   const Y = s.Y[n]!;
@@ -205,8 +203,7 @@ function searchOneChangepoint(s: SortedSums, shape: '3PC' | '3PH' | '4P', k: num
   const best = new Best();
   const prefix = prefixLines(s);
   const suffix = suffixLines(s);
-  const label = (c: number): [number | null, number | null] =>
-    shape === '3PC' ? [null, c] : shape === '3PH' ? [c, null] : [c, c];
+  const label = (c: number): [number | null, number | null] => (shape === '3PC' ? [null, c] : shape === '3PH' ? [c, null] : [c, c]);
 
   // Joins exactly at a data point.
   const groups = s.groupStarts;

@@ -133,7 +133,12 @@ export function periodsHaveDays(periods: readonly Period[]): boolean {
  * form every period must carry its days' temperatures (alignPeriods does);
  * for one-day periods both forms give the same fit.
  */
-export function fitShape(periods: readonly Period[], model: ModelName, minPointsPerSegment: number, form: TemperatureForm = 'mean'): ShapeFitResult {
+export function fitShape(
+  periods: readonly Period[],
+  model: ModelName,
+  minPointsPerSegment: number,
+  form: TemperatureForm = 'mean',
+): ShapeFitResult {
   const ordered = [...periods].sort((a, b) => (a.start < b.start ? -1 : a.start > b.start ? 1 : 0));
   const n = ordered.length;
   const p = PARAMETER_COUNT[model];

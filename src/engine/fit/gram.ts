@@ -110,9 +110,12 @@ export function bestHingeOnInterval(
     const g11 = gram[m + 1]!;
     const det = g00 * g11 - g01 * g01;
     if (!(det > PIVOT_TOLERANCE * g00 * g11)) return false;
-    const u0 = gram[u]!, u1 = gram[m + u]!;
-    const v0 = gram[v]!, v1 = gram[m + v]!;
-    const y0 = gram[y]!, y1 = gram[m + y]!;
+    const u0 = gram[u]!,
+      u1 = gram[m + u]!;
+    const v0 = gram[v]!,
+      v1 = gram[m + v]!;
+    const y0 = gram[y]!,
+      y1 = gram[m + y]!;
     a = gram[u * m + y]! - (u0 * y0 * g11 - (u0 * y1 + u1 * y0) * g01 + u1 * y1 * g00) / det;
     b = gram[v * m + y]! - (v0 * y0 * g11 - (v0 * y1 + v1 * y0) * g01 + v1 * y1 * g00) / det;
     A = gram[u * m + u]! - (u0 * u0 * g11 - 2 * u0 * u1 * g01 + u1 * u1 * g00) / det;

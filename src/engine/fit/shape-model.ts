@@ -89,12 +89,7 @@ export function changepointNames(model: ModelName): string[] {
 }
 
 /** Predicted use per day at temperature x. */
-export function predictPerDay(
-  model: ModelName,
-  changepoints: Changepoints,
-  rawCoefficients: readonly number[],
-  x: number,
-): number {
+export function predictPerDay(model: ModelName, changepoints: Changepoints, rawCoefficients: readonly number[], x: number): number {
   return designRow(model, changepoints, x).reduce((sum, value, j) => sum + value * rawCoefficients[j]!, 0);
 }
 

@@ -129,7 +129,13 @@ export function outOfSampleFit(
   let totalQuantity = 0;
   for (const q of quantity) totalQuantity += q;
   const meanQuantity = totalQuantity / n;
-  return { method, blocks: members.size, cvrmse: Math.sqrt(sumSquares / n) / meanQuantity, nmbe: sum / (n * meanQuantity), unavailable: null };
+  return {
+    method,
+    blocks: members.size,
+    cvrmse: Math.sqrt(sumSquares / n) / meanQuantity,
+    nmbe: sum / (n * meanQuantity),
+    unavailable: null,
+  };
 }
 
 /** Solve M·x = b in place (x in b); false when M is singular to working precision. */

@@ -24,7 +24,8 @@ export function installAuth(app: FastifyInstance, store: Store): void {
     const header = request.headers.authorization;
     // The scheme is case-insensitive (RFC 9110 §11.1). Two Authorization lines are
     // ambiguous (node keeps only the first), so they authenticate nothing.
-    const token = typeof header === 'string' && authorizationLines(request.raw.rawHeaders) === 1 ? (BEARER.exec(header)?.[1] ?? null) : null;
+    const token =
+      typeof header === 'string' && authorizationLines(request.raw.rawHeaders) === 1 ? (BEARER.exec(header)?.[1] ?? null) : null;
     const key = token ? await authenticate(store.db, token) : null;
     if (!key) {
       reply.header('www-authenticate', 'Bearer realm="mvledger"');

@@ -29,7 +29,14 @@ declare module 'fastify' {
 
 const COLUMNS: Record<CsvCollection, { required: string[][]; optional: string[]; flags: string[] }> = {
   readings: { required: [['start', 'end', 'quantity']], optional: ['estimated', 'cost'], flags: ['estimated'] },
-  observations: { required: [['date', 'temp'], ['date', 'tmin', 'tmax']], optional: [], flags: [] },
+  observations: {
+    required: [
+      ['date', 'temp'],
+      ['date', 'tmin', 'tmax'],
+    ],
+    optional: [],
+    flags: [],
+  },
   days: { required: [['day', 'temp']], optional: [], flags: [] },
 };
 
@@ -58,7 +65,9 @@ export function csvToBody(collection: CsvCollection, text: string): { body: Reco
   const layout = spec.required.find((set) => set.every((c) => present.has(c)));
   if (!layout) {
     const wanted = spec.required.map((set) => set.join(',')).join(' or ');
-    throw new Problem('validation', `row ${table.headerLine}: the CSV header must have ${wanted}`, [{ field: `row ${table.headerLine}`, message: `header needs ${wanted}` }]);
+    throw new Problem('validation', `row ${table.headerLine}: the CSV header must have ${wanted}`, [
+      { field: `row ${table.headerLine}`, message: `header needs ${wanted}` },
+    ]);
   }
   const allowed = new Set([...spec.required.flat(), ...spec.optional]);
   const unknown = [...present].filter((c) => !allowed.has(c));
@@ -71,7 +80,10 @@ export function csvToBody(collection: CsvCollection, text: string): { body: Reco
     const record: Record<string, unknown> = {};
     for (const [column, text] of row.cells) {
       if (text === '' || !allowed.has(column)) continue;
-      record[column] = column === 'date' || column === 'day' || column === 'start' || column === 'end' ? text : cellValue(text, spec.flags.includes(column));
+      record[column] =
+        column === 'date' || column === 'day' || column === 'start' || column === 'end'
+          ? text
+          : cellValue(text, spec.flags.includes(column));
     }
     return record;
   });

@@ -29,7 +29,8 @@ function requestHash(request: FastifyRequest): string {
     canonical = `${canonicalJson(request.query ?? {})}\n${canonicalJson(request.body ?? null)}`;
   } catch (error) {
     // A body no route schema looked at (a DELETE's) can nest deeper than the stack allows.
-    if (error instanceof RangeError) throw new Problem('validation', 'the body is nested too deeply', [{ field: '(body)', message: 'nested too deeply' }]);
+    if (error instanceof RangeError)
+      throw new Problem('validation', 'the body is nested too deeply', [{ field: '(body)', message: 'nested too deeply' }]);
     throw error;
   }
   return sha256Hex(`${request.method} ${path} ${canonical}`);
@@ -41,29 +42,53 @@ export function installIdempotency(app: FastifyInstance, store: Store, now: () =
     if (header === undefined || !['POST', 'PUT', 'DELETE'].includes(request.method) || !request.principal) return;
     const key = Array.isArray(header) ? header[0]! : header;
     if (!KEY_PATTERN.test(key)) {
-      throw new Problem('validation', 'Idempotency-Key must be 1 to 200 visible ASCII characters', [{ field: 'header.idempotency-key', message: 'invalid' }]);
+      throw new Problem('validation', 'Idempotency-Key must be 1 to 200 visible ASCII characters', [
+        { field: 'header.idempotency-key', message: 'invalid' },
+      ]);
     }
     const organisationId = request.principal.organisationId;
     const hash = requestHash(request);
     const db = store.db;
     const inserted = await db
       .insertInto('idempotency_keys')
-      .values({ organisation_id: organisationId, key, request_hash: hash, status_code: null, response_body: null, content_type: null, created_at: now() })
+      .values({
+        organisation_id: organisationId,
+        key,
+        request_hash: hash,
+        status_code: null,
+        response_body: null,
+        content_type: null,
+        created_at: now(),
+      })
       .onConflict((oc) => oc.columns(['organisation_id', 'key']).doNothing())
       .executeTakeFirst();
     if (Number(inserted.numInsertedOrUpdatedRows ?? 0n) === 1) {
       request.idempotency = { organisationId, key };
       return;
     }
-    const existing = await db.selectFrom('idempotency_keys').selectAll().where('organisation_id', '=', organisationId).where('key', '=', key).executeTakeFirst();
+    const existing = await db
+      .selectFrom('idempotency_keys')
+      .selectAll()
+      .where('organisation_id', '=', organisationId)
+      .where('key', '=', key)
+      .executeTakeFirst();
     if (!existing) throw new Problem('idempotency-in-flight', 'retry the request');
     if (existing.request_hash !== hash) {
-      throw new Problem('idempotency-mismatch', 'this Idempotency-Key was first used with a different request; use a new key for a new request');
+      throw new Problem(
+        'idempotency-mismatch',
+        'this Idempotency-Key was first used with a different request; use a new key for a new request',
+      );
     }
     if (existing.status_code === null) {
       const age = Date.parse(now()) - Date.parse(existing.created_at);
-      if (age < STALE_AFTER_MS) throw new Problem('idempotency-in-flight', 'the first request with this key has not finished; retry shortly');
-      await db.updateTable('idempotency_keys').set({ created_at: now() }).where('organisation_id', '=', organisationId).where('key', '=', key).execute();
+      if (age < STALE_AFTER_MS)
+        throw new Problem('idempotency-in-flight', 'the first request with this key has not finished; retry shortly');
+      await db
+        .updateTable('idempotency_keys')
+        .set({ created_at: now() })
+        .where('organisation_id', '=', organisationId)
+        .where('key', '=', key)
+        .execute();
       request.idempotency = { organisationId, key };
       return;
     }
@@ -78,14 +103,25 @@ export function installIdempotency(app: FastifyInstance, store: Store, now: () =
     const pending = request.idempotency;
     if (!pending) return payload;
     request.idempotency = undefined;
-    const where = store.db.updateTable('idempotency_keys').where('organisation_id', '=', pending.organisationId).where('key', '=', pending.key);
+    const where = store.db
+      .updateTable('idempotency_keys')
+      .where('organisation_id', '=', pending.organisationId)
+      .where('key', '=', pending.key);
     try {
       if (reply.statusCode >= 200 && reply.statusCode < 300 && (typeof payload === 'string' || Buffer.isBuffer(payload))) {
         await where
-          .set({ status_code: reply.statusCode, response_body: payload.toString(), content_type: String(reply.getHeader('content-type') ?? '') })
+          .set({
+            status_code: reply.statusCode,
+            response_body: payload.toString(),
+            content_type: String(reply.getHeader('content-type') ?? ''),
+          })
           .execute();
       } else {
-        await store.db.deleteFrom('idempotency_keys').where('organisation_id', '=', pending.organisationId).where('key', '=', pending.key).execute();
+        await store.db
+          .deleteFrom('idempotency_keys')
+          .where('organisation_id', '=', pending.organisationId)
+          .where('key', '=', pending.key)
+          .execute();
       }
     } catch (error) {
       // The answer stands: a write already committed is not undone by losing its key's record. The key

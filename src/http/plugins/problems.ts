@@ -18,7 +18,10 @@ declare module 'fastify' {
 }
 
 export function sendProblem(request: FastifyRequest, reply: FastifyReply, problem: Problem): FastifyReply {
-  return reply.code(problem.status).type(PROBLEM_CONTENT_TYPE).send(problem.body(request.url.split('?')[0]));
+  return reply
+    .code(problem.status)
+    .type(PROBLEM_CONTENT_TYPE)
+    .send(problem.body(request.url.split('?')[0]));
 }
 
 /** "/readings/3/end" → "readings[3].end", or "row 5, field end" for a CSV body. */
@@ -35,7 +38,10 @@ export function describePath(instancePath: string, request?: FastifyRequest): st
   return out || '(body)';
 }
 
-function validationProblem(error: FastifyError & { validation: { instancePath: string; message?: string }[] }, request: FastifyRequest): Problem {
+function validationProblem(
+  error: FastifyError & { validation: { instancePath: string; message?: string }[] },
+  request: FastifyRequest,
+): Problem {
   const context = (error as { validationContext?: string }).validationContext ?? 'body';
   const where = context === 'querystring' ? 'query' : context === 'params' ? 'path' : context;
   const errors: FieldError[] = error.validation.map((issue) => ({
@@ -59,8 +65,13 @@ function unavailableProblem(fault: DatabaseFault, request: FastifyRequest): Prob
   request.log.warn({ database: fault }, 'database not available: answered 503');
   if (fault === 'busy') return new Problem('unavailable', 'the database is busy with another writer; nothing was stored, retry shortly');
   const what = fault === 'unreachable' ? 'cannot be reached' : 'connection was lost';
-  const write = request.method === 'GET' || request.method === 'HEAD' ? '' : '; a write is stored whole or not at all, so send it again (a reading batch already stored is reported unchanged)';
-  return new Problem('unavailable', `the database ${what}; retry shortly${write}`, undefined, { database: fault === 'unreachable' ? 'unreachable' : 'connection-lost' });
+  const write =
+    request.method === 'GET' || request.method === 'HEAD'
+      ? ''
+      : '; a write is stored whole or not at all, so send it again (a reading batch already stored is reported unchanged)';
+  return new Problem('unavailable', `the database ${what}; retry shortly${write}`, undefined, {
+    database: fault === 'unreachable' ? 'unreachable' : 'connection-lost',
+  });
 }
 
 export function installProblemHandling(app: FastifyInstance): void {
@@ -69,9 +80,17 @@ export function installProblemHandling(app: FastifyInstance): void {
     if (hasZodFastifySchemaValidationErrors(error)) return sendProblem(request, reply, validationProblem(error, request));
     switch (error.code) {
       case 'FST_ERR_CTP_INVALID_MEDIA_TYPE':
-        return sendProblem(request, reply, new Problem('unsupported-media-type', `send application/json${request.routeOptions.config?.csvBody ? ' or text/csv' : ''}`));
+        return sendProblem(
+          request,
+          reply,
+          new Problem('unsupported-media-type', `send application/json${request.routeOptions.config?.csvBody ? ' or text/csv' : ''}`),
+        );
       case 'FST_ERR_CTP_BODY_TOO_LARGE':
-        return sendProblem(request, reply, new Problem('payload-too-large', `the body exceeds ${app.initialConfig.bodyLimit} bytes; send smaller batches`));
+        return sendProblem(
+          request,
+          reply,
+          new Problem('payload-too-large', `the body exceeds ${app.initialConfig.bodyLimit} bytes; send smaller batches`),
+        );
       case 'FST_ERR_CTP_EMPTY_JSON_BODY':
         return sendProblem(request, reply, new Problem('validation', 'the JSON body is empty', [{ field: '(body)', message: 'empty' }]));
       case 'FST_ERR_CTP_INVALID_CONTENT_LENGTH':
@@ -80,10 +99,15 @@ export function installProblemHandling(app: FastifyInstance): void {
         break;
     }
     if (error.statusCode === 400 && error instanceof SyntaxError) {
-      return sendProblem(request, reply, new Problem('validation', 'the body is not valid JSON', [{ field: '(body)', message: 'not valid JSON' }]));
+      return sendProblem(
+        request,
+        reply,
+        new Problem('validation', 'the body is not valid JSON', [{ field: '(body)', message: 'not valid JSON' }]),
+      );
     }
     const fault = databaseFault(error);
-    if (fault !== null) return sendProblem(request, reply.header('retry-after', String(RETRY_AFTER_SECONDS[fault])), unavailableProblem(fault, request));
+    if (fault !== null)
+      return sendProblem(request, reply.header('retry-after', String(RETRY_AFTER_SECONDS[fault])), unavailableProblem(fault, request));
     if (typeof error.statusCode === 'number' && error.statusCode >= 400 && error.statusCode < 500) {
       return sendProblem(request, reply, new Problem('validation', error.message.replace(/\s+/g, ' ').slice(0, 300)));
     }

@@ -33,7 +33,8 @@ export function adjustmentsRoutes(app: ApiApp, deps: RouteDeps): void {
       schema: {
         tags: ['adjustments'],
         summary: 'Withdraw an adjustment recorded in error',
-        description: 'With a reason. It stops counting in savings and reports but stays on record, with who withdrew it and why. 409 when already withdrawn.',
+        description:
+          'With a reason. It stops counting in savings and reports but stays on record, with who withdrew it and why. 409 when already withdrawn.',
         security: bearer,
         headers: idempotencyHeaders,
         params: idParams,
@@ -48,7 +49,13 @@ export function adjustmentsRoutes(app: ApiApp, deps: RouteDeps): void {
     '/v1/meters/:id/adjustments',
     {
       config: { permission: 'read' },
-      schema: { tags: ['adjustments'], summary: 'A meter’s non-routine adjustments', security: bearer, params: idParams, response: { 200: adjustmentList, ...authProblems } },
+      schema: {
+        tags: ['adjustments'],
+        summary: 'A meter’s non-routine adjustments',
+        security: bearer,
+        params: idParams,
+        response: { 200: adjustmentList, ...authProblems },
+      },
     },
     async (request) => listAdjustments(deps.store.db, request.principal!.organisationId, request.params.id),
   );

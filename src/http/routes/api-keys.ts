@@ -32,7 +32,8 @@ export function apiKeysRoutes(app: ApiApp, deps: RouteDeps): void {
       schema: {
         tags: ['api-keys'],
         summary: 'Create an API key',
-        description: 'The response holds the token, shown this once: it is not stored and cannot be shown again. Idempotency-Key is not accepted.',
+        description:
+          'The response holds the token, shown this once: it is not stored and cannot be shown again. Idempotency-Key is not accepted.',
         security: bearer,
         body: createApiKeyBody,
         response: { 201: createdApiKeySchema, ...writeProblems },
@@ -62,7 +63,8 @@ export function apiKeysRoutes(app: ApiApp, deps: RouteDeps): void {
       schema: {
         tags: ['api-keys'],
         summary: 'Revoke an API key',
-        description: 'The key answers 401 from then on. The key making the request cannot revoke itself (409). Revoking a revoked key changes nothing.',
+        description:
+          'The key answers 401 from then on. The key making the request cannot revoke itself (409). Revoking a revoked key changes nothing.',
         security: bearer,
         params: idParams,
         headers: idempotencyHeaders,

@@ -13,7 +13,8 @@ export function auditRoutes(app: ApiApp, deps: RouteDeps): void {
       schema: {
         tags: ['audit'],
         summary: "The organisation's audit trail, oldest first",
-        description: 'Every write, in sequence order: who (API key id or "system"), when, what, and the entity before and after. Page with `after`.',
+        description:
+          'Every write, in sequence order: who (API key id or "system"), when, what, and the entity before and after. Page with `after`.',
         security: bearer,
         querystring: auditQuery,
         response: { 200: auditPageSchema, ...authProblems },

@@ -1,16 +1,16 @@
 /** Baselines: fit a meter's baseline window, choose a shape, freeze it, read its history and its energy signature. */
 import { z } from 'zod';
 import type { RouteDeps } from '../app.js';
-import {
-  baselineSignatureSvg,
-  chooseModel,
-  createBaseline,
-  freezeBaseline,
-  getBaseline,
-  listBaselines,
-} from '../../services/baselines.js';
+import { baselineSignatureSvg, chooseModel, createBaseline, freezeBaseline, getBaseline, listBaselines } from '../../services/baselines.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
-import { baselineHistorySchema, baselineSchema, chooseBody, createBaselineBody, freezeBody, verifiedBaselineSchema } from '../schemas/baselines.js';
+import {
+  baselineHistorySchema,
+  baselineSchema,
+  chooseBody,
+  createBaselineBody,
+  freezeBody,
+  verifiedBaselineSchema,
+} from '../schemas/baselines.js';
 import { serviceContext } from './context.js';
 import type { ApiApp } from './types.js';
 
@@ -115,7 +115,10 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
         security: bearer,
         params: idParams,
         response: {
-          200: { description: 'The energy signature, an SVG image', content: { 'image/svg+xml': { schema: z.string().describe('SVG markup') } } },
+          200: {
+            description: 'The energy signature, an SVG image',
+            content: { 'image/svg+xml': { schema: z.string().describe('SVG markup') } },
+          },
           ...authProblems,
         },
       },

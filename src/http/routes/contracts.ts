@@ -30,7 +30,13 @@ export function contractsRoutes(app: ApiApp, deps: RouteDeps): void {
     '/v1/facilities/:id/contract',
     {
       config: { permission: 'read' },
-      schema: { tags: ['contracts'], summary: 'The facility’s contract', security: bearer, params: idParams, response: { 200: contractSchema, ...authProblems } },
+      schema: {
+        tags: ['contracts'],
+        summary: 'The facility’s contract',
+        security: bearer,
+        params: idParams,
+        response: { 200: contractSchema, ...authProblems },
+      },
     },
     async (request) => getContract(deps.store.db, request.principal!.organisationId, request.params.id),
   );

@@ -42,7 +42,13 @@ export function facilitiesRoutes(app: ApiApp, deps: RouteDeps): void {
     '/v1/facilities/:id',
     {
       config: { permission: 'read' },
-      schema: { tags: ['facilities'], summary: 'One facility', security: bearer, params: idParams, response: { 200: facilitySchema, ...authProblems } },
+      schema: {
+        tags: ['facilities'],
+        summary: 'One facility',
+        security: bearer,
+        params: idParams,
+        response: { 200: facilitySchema, ...authProblems },
+      },
     },
     async (request) => toFacility(await getFacilityRow(deps.store.db, request.principal!.organisationId, request.params.id)),
   );

@@ -24,7 +24,10 @@ const DETAILS: Record<DatabaseState, string> = {
 export function healthRoutes(app: ApiApp, deps: RouteDeps): void {
   app.get(
     '/healthz',
-    { config: { rateLimit: false }, schema: { tags: ['health'], summary: 'The process is up', response: { 200: z.object({ status: z.literal('ok') }) } } },
+    {
+      config: { rateLimit: false },
+      schema: { tags: ['health'], summary: 'The process is up', response: { 200: z.object({ status: z.literal('ok') }) } },
+    },
     async () => ({ status: 'ok' as const }),
   );
   app.get(
@@ -35,10 +38,13 @@ export function healthRoutes(app: ApiApp, deps: RouteDeps): void {
       schema: {
         tags: ['health'],
         summary: 'The database answers',
-        description: 'Ready: 200. Not ready: 503 problem+json whose `database` names the state of the dependency that is down (unreachable, busy, not-answering, failing).',
+        description:
+          'Ready: 200. Not ready: 503 problem+json whose `database` names the state of the dependency that is down (unreachable, busy, not-answering, failing).',
         response: {
           200: z.object({ status: z.literal('ready'), database: z.string() }),
-          503: problemSchema.extend({ database: z.enum(DATABASE_STATES).describe('The state of the database, the dependency that is down') }),
+          503: problemSchema.extend({
+            database: z.enum(DATABASE_STATES).describe('The state of the database, the dependency that is down'),
+          }),
         },
       },
     },
@@ -46,7 +52,11 @@ export function healthRoutes(app: ApiApp, deps: RouteDeps): void {
       const state = await databaseState(deps);
       if (state === null) return { status: 'ready' as const, database: deps.store.dialect };
       const problem = new Problem('unavailable', DETAILS[state]);
-      return reply.code(503).header('retry-after', '5').type(PROBLEM_CONTENT_TYPE).send({ ...problem.body(request.url.split('?')[0]), database: state });
+      return reply
+        .code(503)
+        .header('retry-after', '5')
+        .type(PROBLEM_CONTENT_TYPE)
+        .send({ ...problem.body(request.url.split('?')[0]), database: state });
     },
   );
 

@@ -44,7 +44,13 @@ export function metersRoutes(app: ApiApp, deps: RouteDeps): void {
     '/v1/meters/:id',
     {
       config: { permission: 'read' },
-      schema: { tags: ['meters'], summary: 'One meter', security: bearer, params: idParams, response: { 200: meterSchema, ...authProblems } },
+      schema: {
+        tags: ['meters'],
+        summary: 'One meter',
+        security: bearer,
+        params: idParams,
+        response: { 200: meterSchema, ...authProblems },
+      },
     },
     async (request) => toMeter(await getMeterRow(deps.store.db, request.principal!.organisationId, request.params.id)),
   );

@@ -31,7 +31,13 @@ export function normalYearsRoutes(app: ApiApp, deps: RouteDeps): void {
     '/v1/weather-stations/:id/normal-year',
     {
       config: { permission: 'read' },
-      schema: { tags: ['weather'], summary: 'The station’s normal year', security: bearer, params: idParams, response: { 200: normalYearSchema, ...authProblems } },
+      schema: {
+        tags: ['weather'],
+        summary: 'The station’s normal year',
+        security: bearer,
+        params: idParams,
+        response: { 200: normalYearSchema, ...authProblems },
+      },
     },
     async (request) => getNormalYear(deps.store.db, request.principal!.organisationId, request.params.id),
   );

@@ -30,7 +30,13 @@ export function ratesRoutes(app: ApiApp, deps: RouteDeps): void {
     '/v1/meters/:id/rates',
     {
       config: { permission: 'read' },
-      schema: { tags: ['costs'], summary: 'The contract rate schedule', security: bearer, params: idParams, response: { 200: rateScheduleSchema, ...authProblems } },
+      schema: {
+        tags: ['costs'],
+        summary: 'The contract rate schedule',
+        security: bearer,
+        params: idParams,
+        response: { 200: rateScheduleSchema, ...authProblems },
+      },
     },
     async (request) => getRates(deps.store.db, request.principal!.organisationId, request.params.id),
   );

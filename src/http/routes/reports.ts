@@ -43,7 +43,8 @@ export function reportsRoutes(app: ApiApp, deps: RouteDeps): void {
     async (request, reply) => {
       const { format = 'json', ...query } = request.query;
       const report = await savingsReport(deps.store.db, request.principal!.organisationId, query);
-      const body = format === 'csv' ? renderReportCsv(report) : format === 'html' ? renderReportHtml(report) : `${JSON.stringify(report, null, 2)}\n`;
+      const body =
+        format === 'csv' ? renderReportCsv(report) : format === 'html' ? renderReportHtml(report) : `${JSON.stringify(report, null, 2)}\n`;
       return reply.type(CONTENT_TYPES[format]).header('x-report-content-hash', report.contentHash).send(body);
     },
   );

@@ -28,7 +28,12 @@ export function weatherStationRoutes(app: ApiApp, deps: RouteDeps): void {
     '/v1/weather-stations',
     {
       config: { permission: 'read' },
-      schema: { tags: ['weather'], summary: 'List weather stations', security: bearer, response: { 200: z.object({ stations: z.array(stationSchema) }), ...authProblems } },
+      schema: {
+        tags: ['weather'],
+        summary: 'List weather stations',
+        security: bearer,
+        response: { 200: z.object({ stations: z.array(stationSchema) }), ...authProblems },
+      },
     },
     async (request) => ({ stations: await listStations(deps.store.db, request.principal!.organisationId) }),
   );
@@ -37,7 +42,13 @@ export function weatherStationRoutes(app: ApiApp, deps: RouteDeps): void {
     '/v1/weather-stations/:id',
     {
       config: { permission: 'read' },
-      schema: { tags: ['weather'], summary: 'One weather station', security: bearer, params: idParams, response: { 200: stationSchema, ...authProblems } },
+      schema: {
+        tags: ['weather'],
+        summary: 'One weather station',
+        security: bearer,
+        params: idParams,
+        response: { 200: stationSchema, ...authProblems },
+      },
     },
     async (request) => toStation(await getStationRow(deps.store.db, request.principal!.organisationId, request.params.id)),
   );

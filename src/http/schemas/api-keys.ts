@@ -1,9 +1,9 @@
 import { z } from 'zod';
 import { name } from './common.js';
 
-export const role = z.enum(['admin', 'engineer', 'analyst', 'integration']).describe(
-  'admin: everything, keys included; engineer: read, savings, data, ledger; analyst: read, savings; integration: savings, data',
-);
+export const role = z
+  .enum(['admin', 'engineer', 'analyst', 'integration'])
+  .describe('admin: everything, keys included; engineer: read, savings, data, ledger; analyst: read, savings; integration: savings, data');
 
 export const createApiKeyBody = z.object({ name, role }).strict();
 
@@ -15,6 +15,8 @@ export const apiKeySchema = z
 export const createdApiKeySchema = z
   .object({
     key: apiKeySchema,
-    token: z.string().describe('The whole key, mvl_<id>_<secret>. Shown only in this response: it is not stored and cannot be shown again.'),
+    token: z
+      .string()
+      .describe('The whole key, mvl_<id>_<secret>. Shown only in this response: it is not stored and cannot be shown again.'),
   })
   .meta({ id: 'CreatedApiKey' });

@@ -25,7 +25,13 @@ export const auditQuery = z
       .optional()
       .describe('Only rows written at or after this time; a date means its midnight UTC'),
     limit: z.coerce.number().int('must be a whole number').min(1, 'must be at least 1').max(1000, 'must be at most 1000').default(100),
-    after: z.coerce.number().int('must be a whole number').min(0, 'must be 0 or more').max(Number.MAX_SAFE_INTEGER, `must be at most ${Number.MAX_SAFE_INTEGER}`).optional().describe('Continue after this sequence number (the `next` of the previous page)'),
+    after: z.coerce
+      .number()
+      .int('must be a whole number')
+      .min(0, 'must be 0 or more')
+      .max(Number.MAX_SAFE_INTEGER, `must be at most ${Number.MAX_SAFE_INTEGER}`)
+      .optional()
+      .describe('Continue after this sequence number (the `next` of the previous page)'),
   })
   .strict();
 

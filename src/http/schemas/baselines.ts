@@ -10,15 +10,33 @@ export const modelName = z.enum(MODEL_NAMES).describe('A changepoint shape, name
 
 export const temperatureForm = z
   .enum(TEMPERATURE_FORMS)
-  .describe('How each reading’s weather enters the model: daily (day-resolved: the mean over its days of the daily response) or mean (the response at its mean temperature)');
+  .describe(
+    'How each reading’s weather enters the model: daily (day-resolved: the mean over its days of the daily response) or mean (the response at its mean temperature)',
+  );
 
 const text = (max: number) => plainText().trim().min(1, 'must not be empty').max(max, `must be at most ${max} characters`);
 
 export const baselineOptions = z
   .object({
-    minCoverage: z.number().gt(0, 'must be above 0').lte(1, 'must be at most 1').optional().describe('Share of a period’s days that must have weather (default 0.9)'),
-    significanceLevel: z.number().gt(0, 'must be above 0').lt(1, 'must be below 1').optional().describe('Two-sided α of the slope t-tests and the F-test (default 0.05)'),
-    minPointsPerSegment: z.number().int('must be a whole number').min(1, 'must be at least 1').max(MAX_POINTS_PER_SEGMENT, `must be at most ${MAX_POINTS_PER_SEGMENT}`).optional().describe('Fewest periods in each segment of a changepoint shape (default 3)'),
+    minCoverage: z
+      .number()
+      .gt(0, 'must be above 0')
+      .lte(1, 'must be at most 1')
+      .optional()
+      .describe('Share of a period’s days that must have weather (default 0.9)'),
+    significanceLevel: z
+      .number()
+      .gt(0, 'must be above 0')
+      .lt(1, 'must be below 1')
+      .optional()
+      .describe('Two-sided α of the slope t-tests and the F-test (default 0.05)'),
+    minPointsPerSegment: z
+      .number()
+      .int('must be a whole number')
+      .min(1, 'must be at least 1')
+      .max(MAX_POINTS_PER_SEGMENT, `must be at most ${MAX_POINTS_PER_SEGMENT}`)
+      .optional()
+      .describe('Fewest periods in each segment of a changepoint shape (default 3)'),
     allowSameSignFourPoint: z.boolean().optional().describe('Accept a 4P whose two slopes have the same sign (default false)'),
     temperature: temperatureForm
       .optional()
@@ -45,7 +63,11 @@ export const chooseBody = z
   .strict();
 
 const overrideReason = z
-  .object({ reason: text(2000).describe('Why the check may be passed over: kept with the baseline under its content hash, on the audit trail, and shown on every document that uses it') })
+  .object({
+    reason: text(2000).describe(
+      'Why the check may be passed over: kept with the baseline under its content hash, on the audit trail, and shown on every document that uses it',
+    ),
+  })
   .strict();
 
 export const freezeBody = z
@@ -54,8 +76,12 @@ export const freezeBody = z
     supersedeReason: text(2000).optional().describe('Required when the meter already has a frozen baseline: why it is replaced'),
     overrides: z
       .object({
-        shortBaseline: overrideReason.optional().describe('Freeze a baseline shorter than a full cycle of seasons (refused otherwise: 422)'),
-        extrapolation: overrideReason.optional().describe('Let savings project onto reporting weather beyond the extrapolation limit (refused otherwise: 422)'),
+        shortBaseline: overrideReason
+          .optional()
+          .describe('Freeze a baseline shorter than a full cycle of seasons (refused otherwise: 422)'),
+        extrapolation: overrideReason
+          .optional()
+          .describe('Let savings project onto reporting weather beyond the extrapolation limit (refused otherwise: 422)'),
       })
       .strict()
       .optional()
@@ -72,7 +98,10 @@ export const sufficiencySchema = z
     billed: z.boolean().describe('Median period of 7 days or more: the 12-bill rule applies'),
     rule: z.object({ minDays: z.number().int(), minBills: z.number().int(), source: z.string() }),
   })
-  .meta({ id: 'BaselineSufficiency', description: 'Whether the baseline covers a full cycle of seasons (common practice: a full year of bills)' });
+  .meta({
+    id: 'BaselineSufficiency',
+    description: 'Whether the baseline covers a full cycle of seasons (common practice: a full year of bills)',
+  });
 
 const overrideSchema = z.object({ reason: z.string() }).nullable();
 export const overridesSchema = z
@@ -90,7 +119,9 @@ export const guideline14CheckSchema = z
       .object({ cvrmse: stat, nmbe: stat, method: z.string() })
       .nullable()
       .optional()
-      .describe('The same statistics out of sample (each bill left out, or each calendar month of daily data), beside the in-sample values the Guideline defines'),
+      .describe(
+        'The same statistics out of sample (each bill left out, or each calendar month of daily data), beside the in-sample values the Guideline defines',
+      ),
     note: z.string().optional().describe('What the in-sample check can and cannot show'),
   })
   .meta({ id: 'Guideline14Check', description: 'ASHRAE Guideline 14 acceptance of a model (limits from memory; see source)' });
@@ -162,7 +193,10 @@ export const fitDocumentSchema = z
       temperatureForm,
     }),
   })
-  .meta({ id: 'FitDocument', description: 'Every candidate shape, the selection and the settings: the same document as the command line’s fit --json' });
+  .meta({
+    id: 'FitDocument',
+    description: 'Every candidate shape, the selection and the settings: the same document as the command line’s fit --json',
+  });
 
 const baselineFields = {
   id: z.string(),
@@ -172,8 +206,12 @@ const baselineFields = {
   start: z.string(),
   end: z.string(),
   options: baselineOptions,
-  temperatureForm: temperatureForm.describe('The form the baseline was fitted in; its projections keep it (mean for baselines stored before the day-resolved form)'),
-  sufficiency: sufficiencySchema.nullable().describe('Whether it covers a full cycle of seasons; a draft that does not is refused at freeze without overrides.shortBaseline'),
+  temperatureForm: temperatureForm.describe(
+    'The form the baseline was fitted in; its projections keep it (mean for baselines stored before the day-resolved form)',
+  ),
+  sufficiency: sufficiencySchema
+    .nullable()
+    .describe('Whether it covers a full cycle of seasons; a draft that does not is refused at freeze without overrides.shortBaseline'),
   overrides: overridesSchema,
   selected: modelName.describe('The shape the engine selected'),
   chosen: modelName.describe('The shape savings use: the selection unless an engineer chose another'),
@@ -189,7 +227,9 @@ const baselineFields = {
   createdBy: z.string(),
 };
 
-export const baselineSummarySchema = z.object(baselineFields).meta({ id: 'BaselineSummary', description: 'A baseline without its fit document' });
+export const baselineSummarySchema = z
+  .object(baselineFields)
+  .meta({ id: 'BaselineSummary', description: 'A baseline without its fit document' });
 
 export const baselineSchema = z.object({ ...baselineFields, fit: fitDocumentSchema }).meta({ id: 'Baseline' });
 

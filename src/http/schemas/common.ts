@@ -71,5 +71,8 @@ export const bearer = [{ bearerAuth: [] as string[] }];
 
 /** Idempotency-Key accepted on every POST. */
 export const idempotencyHeaders = z.object({
-  'idempotency-key': z.string().optional().describe('Replays return the first response; a different request with the same key is refused (422).'),
+  'idempotency-key': z
+    .string()
+    .optional()
+    .describe('Replays return the first response; a different request with the same key is refused (422).'),
 });

@@ -17,7 +17,10 @@ export const putContractBody = z
     start: isoDate.describe('First day of contract year 1'),
     years: z.number().int().min(1, 'at least 1').max(50, 'at most 50'),
     currency: currency.nullable().optional(),
-    energyUnit: plainText().min(1).max(20).describe('Unit of the energy guarantees: a standard energy unit such as MMBtu, GJ, kWh or therm'),
+    energyUnit: plainText()
+      .min(1)
+      .max(20)
+      .describe('Unit of the energy guarantees: a standard energy unit such as MMBtu, GJ, kWh or therm'),
     guarantees: z.array(guarantee).max(50),
   })
   .strict()

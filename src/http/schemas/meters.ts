@@ -14,10 +14,21 @@ export const createMeterBody = z
       .min(1, 'must not be empty')
       .max(40, 'must be at most 40 characters')
       .describe('The unit every reading of this meter is in, e.g. kWh, therm, MMBtu, GJ, m3'),
-    weatherStationId: plainText().min(1, 'must not be empty').max(100).describe('The station whose temperatures this meter is modelled against'),
+    weatherStationId: plainText()
+      .min(1, 'must not be empty')
+      .max(100)
+      .describe('The station whose temperatures this meter is modelled against'),
   })
   .strict();
 
 export const meterSchema = z
-  .object({ id: z.string(), facilityId: z.string(), name: z.string(), fuel: z.string(), unit: z.string(), weatherStationId: z.string(), createdAt: z.string() })
+  .object({
+    id: z.string(),
+    facilityId: z.string(),
+    name: z.string(),
+    fuel: z.string(),
+    unit: z.string(),
+    weatherStationId: z.string(),
+    createdAt: z.string(),
+  })
   .meta({ id: 'Meter' });

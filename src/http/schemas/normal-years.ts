@@ -5,14 +5,27 @@ import { temperatureUnit } from './weather-stations.js';
 
 export const putNormalYearBody = z
   .object({
-    source: plainText().trim().min(3, 'must say where the normal year comes from').max(500).describe('Where the normal year comes from (e.g. a 30-year mean of the station’s records)'),
+    source: plainText()
+      .trim()
+      .min(3, 'must say where the normal year comes from')
+      .max(500)
+      .describe('Where the normal year comes from (e.g. a 30-year mean of the station’s records)'),
     days: z
-      .array(z.object({ day: z.string().regex(/^\d{2}-\d{2}$/, 'must be a day as MM-DD'), temp: finite.describe('Daily mean, in the station’s unit') }).strict())
+      .array(
+        z
+          .object({
+            day: z.string().regex(/^\d{2}-\d{2}$/, 'must be a day as MM-DD'),
+            temp: finite.describe('Daily mean, in the station’s unit'),
+          })
+          .strict(),
+      )
       .min(1, 'the 365 days of a normal year are needed')
       .max(366, 'a normal year has 365 days'),
   })
   .strict()
-  .describe('Every day 01-01..12-31 once (02-29 left out). Also accepted as text/csv with the header day,temp and the source in the X-Normal-Year-Source header.');
+  .describe(
+    'Every day 01-01..12-31 once (02-29 left out). Also accepted as text/csv with the header day,temp and the source in the X-Normal-Year-Source header.',
+  );
 
 export const normalYearSchema = z
   .object({

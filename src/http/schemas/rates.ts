@@ -12,7 +12,9 @@ const rateEntry = z
     price: boundedNumber(MAX_PRICE, { nonNegative: true }).describe(`Currency per unit of the meter (at most ${boundText(MAX_PRICE.max)})`),
     escalation: finite
       .optional()
-      .describe(`Yearly escalation as a fraction (0.03 = 3% a year), applied on each anniversary of from; above ${ESCALATION.min} and at most ${ESCALATION.max}; default 0`),
+      .describe(
+        `Yearly escalation as a fraction (0.03 = 3% a year), applied on each anniversary of from; above ${ESCALATION.min} and at most ${ESCALATION.max}; default 0`,
+      ),
   })
   .strict();
 
@@ -22,7 +24,9 @@ export const putRatesBody = z
     rates: z.array(rateEntry).max(1000, 'at most 1000 entries'),
   })
   .strict()
-  .describe('Replaces the whole schedule. Entries in date order, each ending where the next begins (no gaps, no overlaps); only the last may be open-ended. An empty list removes every rate.');
+  .describe(
+    'Replaces the whole schedule. Entries in date order, each ending where the next begins (no gaps, no overlaps); only the last may be open-ended. An empty list removes every rate.',
+  );
 
 export const rateScheduleSchema = z
   .object({

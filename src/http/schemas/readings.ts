@@ -11,9 +11,14 @@ export const readingInput = z
   .object({
     start: isoDate.describe('First day of the period'),
     end: isoDate.describe('Day after the last day of the period (the next read date)'),
-    quantity: nonNegative.describe(`Energy over the period, in the meter's unit; at most ${boundText(MAX_USE_PER_DAY.max)} a day (quantity / days)`),
+    quantity: nonNegative.describe(
+      `Energy over the period, in the meter's unit; at most ${boundText(MAX_USE_PER_DAY.max)} a day (quantity / days)`,
+    ),
     estimated: z.boolean().optional().describe('The reading is an estimate, not an actual read (default false)'),
-    cost: nonNegative.nullable().optional().describe(`Billed cost of the period, if known; at most ${boundText(MAX_COST_PER_DAY.max)} a day (cost / days)`),
+    cost: nonNegative
+      .nullable()
+      .optional()
+      .describe(`Billed cost of the period, if known; at most ${boundText(MAX_COST_PER_DAY.max)} a day (cost / days)`),
   })
   .strict();
 
@@ -60,6 +65,4 @@ export const storedReading = z
   })
   .meta({ id: 'Reading' });
 
-export const readingsList = z
-  .object({ meterId: z.string(), unit: z.string(), readings: z.array(storedReading) })
-  .meta({ id: 'Readings' });
+export const readingsList = z.object({ meterId: z.string(), unit: z.string(), readings: z.array(storedReading) }).meta({ id: 'Readings' });

@@ -16,9 +16,18 @@ export const reportQuery = z
       .regex(/^\d{4}-Q[1-4]$/, 'must be a quarter such as 2026-Q3')
       .optional()
       .describe('A calendar quarter, e.g. 2026-Q3 (instead of from and to)'),
-    contractYear: z.coerce.number().int('must be a whole number').min(1, 'contract years count from 1').max(50).optional().describe('A contract year of the facilities’ contract'),
+    contractYear: z.coerce
+      .number()
+      .int('must be a whole number')
+      .min(1, 'contract years count from 1')
+      .max(50)
+      .optional()
+      .describe('A contract year of the facilities’ contract'),
     facilityId: plainText().min(1).max(100).optional().describe('Only this facility'),
-    format: z.enum(REPORT_FORMATS, { message: `must be one of ${REPORT_FORMATS.join(', ')}` }).optional().describe('json (default), csv or html'),
+    format: z
+      .enum(REPORT_FORMATS, { message: `must be one of ${REPORT_FORMATS.join(', ')}` })
+      .optional()
+      .describe('json (default), csv or html'),
     confidence: z.coerce
       .number()
       .refine((value) => (CONFIDENCE_LEVELS as readonly number[]).includes(value), `must be one of ${confidenceText}`)
@@ -36,4 +45,8 @@ export const reportJsonSchema = z
     contentHash: z.string().describe('SHA-256 of the canonical JSON of every other field'),
   })
   .loose()
-  .meta({ id: 'SavingsReport', description: 'Portfolio, facility and meter savings with costs, guarantees, adjustments, normalised savings, method, sources and caution' });
+  .meta({
+    id: 'SavingsReport',
+    description:
+      'Portfolio, facility and meter savings with costs, guarantees, adjustments, normalised savings, method, sources and caution',
+  });

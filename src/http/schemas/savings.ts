@@ -3,7 +3,15 @@ import { z } from 'zod';
 import { CONFIDENCE_LEVELS } from '../../engine/index.js';
 import { isoDate } from './common.js';
 import { adjustmentSchema } from './adjustments.js';
-import { excludedPeriodSchema, guideline14CheckSchema, modelName, overridesSchema, stat, sufficiencySchema, temperatureForm } from './baselines.js';
+import {
+  excludedPeriodSchema,
+  guideline14CheckSchema,
+  modelName,
+  overridesSchema,
+  stat,
+  sufficiencySchema,
+  temperatureForm,
+} from './baselines.js';
 
 const confidenceText = CONFIDENCE_LEVELS.join(', ');
 
@@ -18,9 +26,15 @@ export const savingsQuery = z
       .describe(`Two-sided confidence of the stated uncertainty: ${confidenceText} (default 0.68)`),
   })
   .strict()
-  .refine((query) => query.from === undefined || query.to === undefined || query.to > query.from, { path: ['to'], message: 'must be after from' });
+  .refine((query) => query.from === undefined || query.to === undefined || query.to > query.from, {
+    path: ['to'],
+    message: 'must be after from',
+  });
 
-const uncertainty = z.object({ fractional: stat.describe('ΔS/S as a positive fraction'), absolute: stat.describe('ΔS in the meter’s unit') });
+const uncertainty = z.object({
+  fractional: stat.describe('ΔS/S as a positive fraction'),
+  absolute: stat.describe('ΔS in the meter’s unit'),
+});
 
 export const savingsSchema = z
   .object({
@@ -51,7 +65,9 @@ export const savingsSchema = z
       uncertainty: z.object({
         guideline14: uncertainty,
         exact: uncertainty,
-        adjustments: z.object({ absolute: stat.describe('The non-routine adjustments’ own ± at the confidence, in the meter’s unit (0 when none states one)') }),
+        adjustments: z.object({
+          absolute: stat.describe('The non-routine adjustments’ own ± at the confidence, in the meter’s unit (0 when none states one)'),
+        }),
         combined: uncertainty.describe('The larger of the model’s two ± combined in quadrature with the adjustments’ ±'),
       }),
       significant: z.boolean(),
@@ -59,7 +75,15 @@ export const savingsSchema = z
     }),
     significance: z.object({ rule: z.string(), fractionalAt68: z.object({ guideline14: stat, exact: stat }) }),
     baselineTemperatureRange: z.object({ min: stat, max: stat }),
-    uncertaintyInputs: z.object({ n: z.number().int(), nPrime: stat, m: z.number().int(), p: z.number().int(), t: stat, autocorrelation: stat, cvrmse: stat }),
+    uncertaintyInputs: z.object({
+      n: z.number().int(),
+      nPrime: stat,
+      m: z.number().int(),
+      p: z.number().int(),
+      t: stat,
+      autocorrelation: stat,
+      cvrmse: stat,
+    }),
     baseline: z.object({
       selected: modelName,
       temperatureForm,
@@ -73,10 +97,16 @@ export const savingsSchema = z
         share: stat.describe('Share of the reporting days whose weather lies outside what the baseline saw'),
         outsideDays: z.number().int(),
         days: z.number().int(),
-        basis: z.enum(['daily', 'mean']).describe('daily: each day against the daily range a day-resolved baseline saw; mean: each period mean against the range of baseline means'),
+        basis: z
+          .enum(['daily', 'mean'])
+          .describe(
+            'daily: each day against the daily range a day-resolved baseline saw; mean: each period mean against the range of baseline means',
+          ),
         range: z.object({ min: stat, max: stat }),
         limit: z.number(),
-        exceedsLimit: z.boolean().describe('Above the limit: savings are refused (422) unless the baseline was frozen with overrides.extrapolation'),
+        exceedsLimit: z
+          .boolean()
+          .describe('Above the limit: savings are refused (422) unless the baseline was frozen with overrides.extrapolation'),
         summary: z.string(),
       })
       .meta({ id: 'ReportingExtrapolation' }),
@@ -87,4 +117,8 @@ export const savingsSchema = z
     baselineVersion: z.number().int(),
     baselineContentHash: z.string(),
   })
-  .meta({ id: 'Savings', description: 'Avoided energy against the frozen baseline: the same document as the command line’s savings --json, plus the baseline it rests on' });
+  .meta({
+    id: 'Savings',
+    description:
+      'Avoided energy against the frozen baseline: the same document as the command line’s savings --json, plus the baseline it rests on',
+  });

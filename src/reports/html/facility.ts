@@ -34,14 +34,23 @@ export function facilitySection(facility: FacilityReport, context: { confidenceL
 
 function contractBlock(facility: FacilityReport): string {
   const contract = facility.contract;
-  if (contract === null) return tag('p', {}, text('No performance contract is recorded for this facility: its savings are reported without a guarantee.'));
+  if (contract === null)
+    return tag('p', {}, text('No performance contract is recorded for this facility: its savings are reported without a guarantee.'));
   const schedule =
     contract.guarantees.length === 0
       ? tag('p', { class: 'note' }, text('The contract lists no guaranteed figures.'))
       : table({
           className: 'compact guarantee-schedule',
-          head: [{ label: 'Contract year', numeric: true }, { label: `Guaranteed energy (${contract.energyUnit})`, numeric: true }, { label: `Guaranteed cost (${contract.currency ?? 'no currency'})`, numeric: true }],
-          rows: contract.guarantees.map((g) => [cell(String(g.year), 'num'), cell(formatNumber(g.energy, 1), 'num'), cell(formatNumber(g.cost, 2), 'num')]),
+          head: [
+            { label: 'Contract year', numeric: true },
+            { label: `Guaranteed energy (${contract.energyUnit})`, numeric: true },
+            { label: `Guaranteed cost (${contract.currency ?? 'no currency'})`, numeric: true },
+          ],
+          rows: contract.guarantees.map((g) => [
+            cell(String(g.year), 'num'),
+            cell(formatNumber(g.energy, 1), 'num'),
+            cell(formatNumber(g.cost, 2), 'num'),
+          ]),
         });
   return [
     facts([
@@ -56,7 +65,8 @@ function contractBlock(facility: FacilityReport): string {
 
 function guaranteeBlocks(facility: FacilityReport, confidenceLabel: string): string[] {
   if (facility.contract === null) return [];
-  if (facility.guarantees.length === 0) return [tag('p', { class: 'note' }, text('No contract year of this facility falls in the reporting window.'))];
+  if (facility.guarantees.length === 0)
+    return [tag('p', { class: 'note' }, text('No contract year of this facility falls in the reporting window.'))];
   return facility.guarantees.map((status) => guaranteeBlock(facility, status, confidenceLabel));
 }
 

@@ -38,8 +38,10 @@ export function guaranteeVerdict(line: GuaranteeLine, complete: boolean): { labe
 
 function linesOf(status: GuaranteeStatus, keyPrefix: string): Line[] {
   const lines: Line[] = [];
-  if (status.energy) lines.push({ measure: 'Energy', unit: status.energy.unit, digits: DIGITS, line: status.energy, key: `${keyPrefix}-energy` });
-  if (status.cost) lines.push({ measure: 'Cost', unit: status.cost.currency, digits: COST_DIGITS, line: status.cost, key: `${keyPrefix}-cost` });
+  if (status.energy)
+    lines.push({ measure: 'Energy', unit: status.energy.unit, digits: DIGITS, line: status.energy, key: `${keyPrefix}-energy` });
+  if (status.cost)
+    lines.push({ measure: 'Cost', unit: status.cost.currency, digits: COST_DIGITS, line: status.cost, key: `${keyPrefix}-cost` });
   return lines;
 }
 
@@ -71,7 +73,14 @@ export function guaranteeBlock(facility: FacilityReport, status: GuaranteeStatus
       ? tag('p', { class: 'note' }, text('The contract sets no guaranteed figure for this year.'))
       : table({
           className: 'compact guarantee',
-          head: ['', { label: 'Measured', numeric: true }, { label: `± (${confidenceLabel})`, numeric: true }, { label: 'Guaranteed', numeric: true }, { label: 'Difference', numeric: true }, 'Verdict'],
+          head: [
+            '',
+            { label: 'Measured', numeric: true },
+            { label: `± (${confidenceLabel})`, numeric: true },
+            { label: 'Guaranteed', numeric: true },
+            { label: 'Difference', numeric: true },
+            'Verdict',
+          ],
           rows,
         });
   const unit = status.energy?.unit ?? facility.contract?.energyUnit ?? '';
@@ -92,7 +101,9 @@ export function guaranteeBlock(facility: FacilityReport, status: GuaranteeStatus
       tag('h4', {}, text(`Contract year ${status.contractYear}`)),
       tag('p', {}, text(yearSentence(status))),
       figures,
-      status.notes.length === 0 ? '' : tag('ul', { class: 'guarantee-notes' }, status.notes.map((note) => tag('li', {}, text(note))).join('')),
+      status.notes.length === 0
+        ? ''
+        : tag('ul', { class: 'guarantee-notes' }, status.notes.map((note) => tag('li', {}, text(note))).join('')),
       chartFigure('guarantee-cumulative', chart, caption),
     ].join('\n'),
   );
@@ -119,10 +130,21 @@ export function guaranteesSummary(report: SavingsReport, confidenceLabel: string
       }
     }
   }
-  if (rows.length === 0) return tag('p', { class: 'note' }, text('No facility in this report has a guaranteed figure for a contract year in this window.'));
+  if (rows.length === 0)
+    return tag('p', { class: 'note' }, text('No facility in this report has a guaranteed figure for a contract year in this window.'));
   return table({
     className: 'guarantees-summary',
-    head: ['Facility', { label: 'Year', numeric: true }, 'Measure', { label: 'Measured', numeric: true }, { label: `± (${confidenceLabel})`, numeric: true }, { label: 'Guaranteed', numeric: true }, { label: 'Difference', numeric: true }, 'Verdict', 'Year status'],
+    head: [
+      'Facility',
+      { label: 'Year', numeric: true },
+      'Measure',
+      { label: 'Measured', numeric: true },
+      { label: `± (${confidenceLabel})`, numeric: true },
+      { label: 'Guaranteed', numeric: true },
+      { label: 'Difference', numeric: true },
+      'Verdict',
+      'Year status',
+    ],
     rows,
   });
 }

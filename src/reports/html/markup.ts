@@ -38,12 +38,23 @@ export type HeadCell = string | { label: string; numeric?: boolean };
  * A simple table: header cells (escaped), body rows and optional footer rows.
  * A row is a list of ready-made cells, or one string holding a complete `<tr>` (for rows with attributes).
  */
-export function table(options: { className?: string; caption?: string; head: readonly HeadCell[]; rows: readonly (readonly string[] | string)[]; foot?: readonly string[][] }): string {
+export function table(options: {
+  className?: string;
+  caption?: string;
+  head: readonly HeadCell[];
+  rows: readonly (readonly string[] | string)[];
+  foot?: readonly string[][];
+}): string {
   const head = options.head
-    .map((h) => (typeof h === 'string' ? tag('th', { scope: 'col' }, text(h)) : tag('th', { scope: 'col', class: h.numeric ? 'num' : undefined }, text(h.label))))
+    .map((h) =>
+      typeof h === 'string'
+        ? tag('th', { scope: 'col' }, text(h))
+        : tag('th', { scope: 'col', class: h.numeric ? 'num' : undefined }, text(h.label)),
+    )
     .join('');
   const body = options.rows.map((row) => (typeof row === 'string' ? row : tag('tr', {}, row.join('')))).join('\n');
-  const foot = options.foot && options.foot.length > 0 ? tag('tfoot', {}, options.foot.map((cells) => tag('tr', {}, cells.join(''))).join('\n')) : '';
+  const foot =
+    options.foot && options.foot.length > 0 ? tag('tfoot', {}, options.foot.map((cells) => tag('tr', {}, cells.join(''))).join('\n')) : '';
   const caption = options.caption === undefined ? '' : tag('caption', {}, text(options.caption));
   return tag('table', { class: options.className }, `${caption}${tag('thead', {}, tag('tr', {}, head))}\n${tag('tbody', {}, body)}${foot}`);
 }

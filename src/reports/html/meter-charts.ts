@@ -20,9 +20,19 @@ function periodComparison(meter: MeterReport): string {
   const svg = renderPeriodComparisonSvg({
     title: `${meter.name}: actual against adjusted baseline`,
     unit: meter.unit,
-    periods: meter.periods.map((p) => ({ start: p.start, end: p.end, actual: p.actual, adjustedBaseline: p.adjustedBaseline, outsideBaselineRange: p.outsideBaselineRange })),
+    periods: meter.periods.map((p) => ({
+      start: p.start,
+      end: p.end,
+      actual: p.actual,
+      adjustedBaseline: p.adjustedBaseline,
+      outsideBaselineRange: p.outsideBaselineRange,
+    })),
   });
-  return chartFigure('period-comparison', svg, `Use per reporting period in ${meter.unit}: the adjusted baseline (frozen model on the period's weather, plus non-routine adjustments) beside actual use.`);
+  return chartFigure(
+    'period-comparison',
+    svg,
+    `Use per reporting period in ${meter.unit}: the adjusted baseline (frozen model on the period's weather, plus non-routine adjustments) beside actual use.`,
+  );
 }
 
 function cumulative(meter: MeterReport, window: { from: string; to: string }): string {
@@ -39,13 +49,18 @@ function cumulative(meter: MeterReport, window: { from: string; to: string }): s
     uncertainty: meter.energy?.uncertainty ?? null,
     points,
   });
-  return chartFigure('cumulative-savings', svg, `Avoided energy of this meter summed period by period across the reporting window, in ${meter.unit}; the band is the ± of the window's total.`);
+  return chartFigure(
+    'cumulative-savings',
+    svg,
+    `Avoided energy of this meter summed period by period across the reporting window, in ${meter.unit}; the band is the ± of the window's total.`,
+  );
 }
 
 function signature(meter: MeterReport): string {
   const s = meter.signature;
   const b = meter.baseline;
-  if (s === null || b === null) return tag('p', { class: 'note', 'data-figure': 'signature-missing' }, text('No energy-signature data for this meter.'));
+  if (s === null || b === null)
+    return tag('p', { class: 'note', 'data-figure': 'signature-missing' }, text('No energy-signature data for this meter.'));
   const svg = renderSignatureSvg({
     meterName: meter.name,
     model: b.model,

@@ -17,7 +17,8 @@ export function meterFindings(meter: MeterReport): string {
     parts.push(tag('h4', {}, text('Days without a contract rate')), missingRates(meter));
   }
   if (meter.missing === null || meter.excluded.length > 0) parts.push(tag('h4', {}, text('Readings left out')), excluded(meter));
-  if (meter.missing === null || meter.adjustments.length > 0) parts.push(tag('h4', {}, text('Non-routine adjustments')), adjustments(meter.adjustments, meter.unit));
+  if (meter.missing === null || meter.adjustments.length > 0)
+    parts.push(tag('h4', {}, text('Non-routine adjustments')), adjustments(meter.adjustments, meter.unit));
   return parts.join('\n');
 }
 
@@ -40,21 +41,37 @@ function normalised(n: NormalisedSavings, unit: string): string {
   if (!n.available) return tag('p', { 'data-normalised': 'unavailable' }, text(`Not available: ${n.reason}`));
   const digits = decimalsFor([n.baselineUse, n.reportingUse]);
   const rows = [
-    [tag('th', { scope: 'row' }, text(`Frozen baseline over the normal year (${unit})`)), numberCell(n.baselineUse, formatNumber(n.baselineUse, digits))],
-    [tag('th', { scope: 'row' }, text(`Reporting-period ${n.reportingModel} model over the normal year (${unit})`)), numberCell(n.reportingUse, formatNumber(n.reportingUse, digits))],
+    [
+      tag('th', { scope: 'row' }, text(`Frozen baseline over the normal year (${unit})`)),
+      numberCell(n.baselineUse, formatNumber(n.baselineUse, digits)),
+    ],
+    [
+      tag('th', { scope: 'row' }, text(`Reporting-period ${n.reportingModel} model over the normal year (${unit})`)),
+      numberCell(n.reportingUse, formatNumber(n.reportingUse, digits)),
+    ],
     [tag('th', { scope: 'row' }, text(`Normalised savings (${unit})`)), numberCell(n.savings, formatNumber(n.savings, digits))],
     ...(n.uncertainty
       ? [
           [
-            tag('th', { scope: 'row' }, text(`± at ${Math.round(n.uncertainty.confidence * 100)}% (both models’ prediction variance on the normal year, ${unit})`)),
+            tag(
+              'th',
+              { scope: 'row' },
+              text(`± at ${Math.round(n.uncertainty.confidence * 100)}% (both models’ prediction variance on the normal year, ${unit})`),
+            ),
             numberCell(n.uncertainty.absolute, formatNumber(n.uncertainty.absolute, digits)),
           ],
         ]
       : []),
     [tag('th', { scope: 'row' }, text('Fraction saved')), numberCell(n.fractionSaved, formatPercent(n.fractionSaved))],
     [tag('th', { scope: 'row' }, text('Reporting periods fitted')), numberCell(n.reportingPeriods, String(n.reportingPeriods))],
-    [tag('th', { scope: 'row' }, text('Normal year applied as')), tag('td', { class: 'num' }, text(n.normalYearAs === 'months' ? 'calendar months (the model was fitted on bills)' : 'single days'))],
-    [tag('th', { scope: 'row' }, text('Normal-year days outside either model’s range')), numberCell(n.outsideRangeShare, formatPercent(n.outsideRangeShare))],
+    [
+      tag('th', { scope: 'row' }, text('Normal year applied as')),
+      tag('td', { class: 'num' }, text(n.normalYearAs === 'months' ? 'calendar months (the model was fitted on bills)' : 'single days')),
+    ],
+    [
+      tag('th', { scope: 'row' }, text('Normal-year days outside either model’s range')),
+      numberCell(n.outsideRangeShare, formatPercent(n.outsideRangeShare)),
+    ],
   ];
   return table({ className: 'summary normalised', head: ['', { label: 'Value', numeric: true }], rows });
 }
@@ -62,7 +79,10 @@ function normalised(n: NormalisedSavings, unit: string): string {
 function missingRates(meter: MeterReport): string {
   if (meter.missingRates.length === 0) return tag('p', {}, text('None: every day of the reporting periods has a contract rate.'));
   const items = meter.missingRates.map((r) => tag('li', {}, text(`${r.start} to ${r.end} (end exclusive)`)));
-  return tag('p', {}, text('No contract rate on these days; the periods touching them carry no cost avoided:')) + tag('ul', { class: 'plain missing-rates' }, items.join(''));
+  return (
+    tag('p', {}, text('No contract rate on these days; the periods touching them carry no cost avoided:')) +
+    tag('ul', { class: 'plain missing-rates' }, items.join(''))
+  );
 }
 
 function excluded(meter: MeterReport): string {
@@ -77,9 +97,15 @@ function excluded(meter: MeterReport): string {
 function adjustments(list: readonly ReportAdjustment[], unit: string): string {
   if (list.length === 0) return tag('p', {}, text('None recorded for this window.'));
   const rows = list.map((a) => {
-    const amount = a.quantity !== null ? `${formatNumber(a.quantity, decimalsFor([a.quantity]))} ${unit} in total` : `${formatNumber(a.perDay, decimalsFor([a.perDay]))} ${unit} per day`;
+    const amount =
+      a.quantity !== null
+        ? `${formatNumber(a.quantity, decimalsFor([a.quantity]))} ${unit} in total`
+        : `${formatNumber(a.perDay, decimalsFor([a.perDay]))} ${unit} per day`;
     // The stated ± on a line of its own (a block span): the cell does not wrap.
-    const stated = a.uncertainty === null ? '' : `${tag('span', { class: 'stated-uncertainty', title: 'the engineer’s standard uncertainty (one standard deviation) of the whole total' }, text(`± ${formatNumber(a.uncertainty, decimalsFor([a.uncertainty]))} (1 s.d.)`))}`;
+    const stated =
+      a.uncertainty === null
+        ? ''
+        : `${tag('span', { class: 'stated-uncertainty', title: 'the engineer’s standard uncertainty (one standard deviation) of the whole total' }, text(`± ${formatNumber(a.uncertainty, decimalsFor([a.uncertainty]))} (1 s.d.)`))}`;
     return tag(
       'tr',
       { 'data-adjustment-id': a.id },
@@ -95,7 +121,14 @@ function adjustments(list: readonly ReportAdjustment[], unit: string): string {
   });
   return table({
     className: 'adjustments',
-    head: ['Id', 'Dates (end exclusive)', { label: 'As recorded', numeric: true }, { label: `Applied in window (${unit})`, numeric: true }, 'Reason', 'Recorded'],
+    head: [
+      'Id',
+      'Dates (end exclusive)',
+      { label: 'As recorded', numeric: true },
+      { label: `Applied in window (${unit})`, numeric: true },
+      'Reason',
+      'Recorded',
+    ],
     rows,
   });
 }

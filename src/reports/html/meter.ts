@@ -29,13 +29,24 @@ export function meterSection(facility: FacilityReport, meter: MeterReport, conte
   ];
   if (meter.missing !== null || meter.energy === null) {
     const reason = meter.missing ?? 'the report carries no totals for this meter';
-    parts.push(tag('div', { class: 'missing', 'data-missing': 'true' }, `${tag('strong', {}, text('No figures in this window: '))}${text(reason)}`));
+    parts.push(
+      tag('div', { class: 'missing', 'data-missing': 'true' }, `${tag('strong', {}, text('No figures in this window: '))}${text(reason)}`),
+    );
   } else {
-    parts.push(tag('h4', {}, text('Reporting periods')), periodTable(meter), tag('h4', {}, text('Totals')), meterTotals(meter, context.confidenceLabel));
+    parts.push(
+      tag('h4', {}, text('Reporting periods')),
+      periodTable(meter),
+      tag('h4', {}, text('Totals')),
+      meterTotals(meter, context.confidenceLabel),
+    );
     parts.push(tag('h4', {}, text('Charts')), meterCharts(meter, context));
   }
   parts.push(meterFindings(meter));
-  return tag('article', { class: 'meter', id: `meter-${meter.id}`, 'data-meter-id': meter.id, 'data-facility-id': facility.id }, parts.join('\n'));
+  return tag(
+    'article',
+    { class: 'meter', id: `meter-${meter.id}`, 'data-meter-id': meter.id, 'data-facility-id': facility.id },
+    parts.join('\n'),
+  );
 }
 
 function degreeOf(meter: MeterReport): string {
@@ -46,7 +57,12 @@ function baselineFacts(meter: MeterReport): string {
   const b = meter.baseline;
   if (b === null) return tag('p', {}, text('No frozen baseline.'));
   const degree = degreeOf(meter);
-  const g14 = b.meetsGuideline14 === null ? 'cannot be judged for this reporting length' : b.meetsGuideline14 ? 'meets the CV(RMSE) and NMBE targets' : 'does not meet the CV(RMSE) and NMBE targets';
+  const g14 =
+    b.meetsGuideline14 === null
+      ? 'cannot be judged for this reporting length'
+      : b.meetsGuideline14
+        ? 'meets the CV(RMSE) and NMBE targets'
+        : 'does not meet the CV(RMSE) and NMBE targets';
   const form =
     b.temperatureForm === 'daily'
       ? 'day-resolved: each bill against the mean over its days of the daily response (variable-base degree-days)'
@@ -54,12 +70,18 @@ function baselineFacts(meter: MeterReport): string {
   const rows: [string, string][] = [
     ['Frozen baseline', `${text(`${b.model} model, version ${b.version}, ${b.start} to ${b.end} (end exclusive)`)}`],
     ['Temperature form', tag('span', { 'data-temperature-form': b.temperatureForm }, text(form))],
-    ['Baseline temperature range', text(`${formatNumber(b.temperatureRange.min, 1)} to ${formatNumber(b.temperatureRange.max, 1)}${degree === '' ? '' : ` ${degree}`}`)],
+    [
+      'Baseline temperature range',
+      text(`${formatNumber(b.temperatureRange.min, 1)} to ${formatNumber(b.temperatureRange.max, 1)}${degree === '' ? '' : ` ${degree}`}`),
+    ],
     ['CV(RMSE)', text(`${formatPercent(b.cvrmse)}; ASHRAE Guideline 14: ${g14}`)],
     ['Baseline id and content hash', `${code(b.id)} ${code(b.contentHash, 'hash')}`],
   ];
   if (meter.notes.length > 0) {
-    rows.push(['Baseline notes', tag('ul', { class: 'plain baseline-notes' }, meter.notes.map((n) => tag('li', { 'data-baseline-note': 'true' }, text(n))).join(''))]);
+    rows.push([
+      'Baseline notes',
+      tag('ul', { class: 'plain baseline-notes' }, meter.notes.map((n) => tag('li', { 'data-baseline-note': 'true' }, text(n))).join('')),
+    ]);
   }
   return facts(rows);
 }
@@ -88,9 +110,23 @@ function periodTable(meter: MeterReport): string {
       numberCell(p.savings, amount(p.savings)),
       numberCell(p.rate, formatNumber(p.rate, rateDigits)),
       numberCell(p.costAvoided, formatNumber(p.costAvoided, 2)),
-      tag('td', { class: 'range' }, p.outsideBaselineRange ? tag('span', { class: 'outside-mark', title: "Mean temperature outside the baseline's range: the model extrapolates" }, OUTSIDE_MARK) : ''),
+      tag(
+        'td',
+        { class: 'range' },
+        p.outsideBaselineRange
+          ? tag(
+              'span',
+              { class: 'outside-mark', title: "Mean temperature outside the baseline's range: the model extrapolates" },
+              OUTSIDE_MARK,
+            )
+          : '',
+      ),
     ];
-    return tag('tr', { class: p.outsideBaselineRange ? 'outside' : undefined, 'data-outside': p.outsideBaselineRange ? 'true' : undefined }, cells.join(''));
+    return tag(
+      'tr',
+      { class: p.outsideBaselineRange ? 'outside' : undefined, 'data-outside': p.outsideBaselineRange ? 'true' : undefined },
+      cells.join(''),
+    );
   });
   const e = meter.energy!;
   const days = meter.periods.reduce((sum, p) => sum + p.days, 0);
@@ -128,7 +164,11 @@ function periodTable(meter: MeterReport): string {
     rows,
     foot: [foot],
   });
-  const note = tag('p', { class: 'note' }, `${tag('span', { class: 'outside-mark' }, OUTSIDE_MARK)} ${text("marks a period whose mean temperature lies outside the baseline's range (shaded in the chart): the model extrapolates there. End dates are exclusive.")}`);
+  const note = tag(
+    'p',
+    { class: 'note' },
+    `${tag('span', { class: 'outside-mark' }, OUTSIDE_MARK)} ${text("marks a period whose mean temperature lies outside the baseline's range (shaded in the chart): the model extrapolates there. End dates are exclusive.")}`,
+  );
   return tableMarkup + note;
 }
 
@@ -167,12 +207,22 @@ function meterTotals(meter: MeterReport, confidenceLabel: string): string {
   }
   const notes: string[] = [];
   if (meter.common === null && meter.commonNote !== null) notes.push(`Not in the MMBtu and GJ roll-up: ${meter.commonNote}.`);
-  if (meter.cost !== null && meter.cost.periodsWithoutRate > 0) notes.push(`${meter.cost.periodsWithoutRate} period${meter.cost.periodsWithoutRate === 1 ? '' : 's'} without a contract rate left out of the cost.`);
+  if (meter.cost !== null && meter.cost.periodsWithoutRate > 0)
+    notes.push(
+      `${meter.cost.periodsWithoutRate} period${meter.cost.periodsWithoutRate === 1 ? '' : 's'} without a contract rate left out of the cost.`,
+    );
   if (meter.cost === null) notes.push('No cost avoided: no contract rate applies to this meter in the window.');
   const parts = meter.uncertaintyParts;
   if (parts !== null && parts.adjustments > 0) {
-    notes.push(`The ± combines in quadrature the model’s ± ${formatNumber(parts.model, digits)} and the non-routine adjustments’ own ± ${formatNumber(parts.adjustments, digits)} (${e.unit}).`);
+    notes.push(
+      `The ± combines in quadrature the model’s ± ${formatNumber(parts.model, digits)} and the non-routine adjustments’ own ± ${formatNumber(parts.adjustments, digits)} (${e.unit}).`,
+    );
   }
-  const head = ['', { label: 'Avoided', numeric: true }, { label: `± (${confidenceLabel})`, numeric: true }, { label: 'Fraction saved', numeric: true }];
+  const head = [
+    '',
+    { label: 'Avoided', numeric: true },
+    { label: `± (${confidenceLabel})`, numeric: true },
+    { label: 'Fraction saved', numeric: true },
+  ];
   return table({ className: 'summary meter-totals', head, rows }) + notes.map((n) => tag('p', { class: 'note' }, text(n))).join('');
 }

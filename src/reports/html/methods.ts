@@ -25,7 +25,9 @@ export function methodsSection(report: SavingsReport): string {
   const parts = [
     tag('h2', {}, text('Methods')),
     tag('h3', {}, text('How the figures were made')),
-    ...paragraphs.map(([title, body]) => tag('div', { class: 'method', 'data-method': title }, `${tag('h4', {}, text(title))}${tag('p', {}, text(body))}`)),
+    ...paragraphs.map(([title, body]) =>
+      tag('div', { class: 'method', 'data-method': title }, `${tag('h4', {}, text(title))}${tag('p', {}, text(body))}`),
+    ),
     tag('h3', {}, text('Sources')),
     tag('ol', { class: 'sources' }, m.sources.map((s) => tag('li', {}, text(s))).join('')),
     tag('h3', {}, text('Energy unit factors')),
@@ -45,7 +47,9 @@ export function methodsSection(report: SavingsReport): string {
 function rollupFigures(report: SavingsReport): string {
   const r = report.rollup;
   const figure = (value: number | null, pairs: number, where: string): string =>
-    value === null ? `no two meters ${where} share enough months (taken as 0)` : `${value.toFixed(2)} ${where} (${pairs} meter pair${pairs === 1 ? '' : 's'})`;
+    value === null
+      ? `no two meters ${where} share enough months (taken as 0)`
+      : `${value.toFixed(2)} ${where} (${pairs} meter pair${pairs === 1 ? '' : 's'})`;
   return `In this report: ${figure(r.withinStation, r.pairsWithinStation, 'on the same station')}; ${figure(r.acrossStations, r.pairsAcrossStations, 'across stations')}.`;
 }
 
@@ -55,7 +59,12 @@ function unitFactors(report: SavingsReport): string {
       ? tag('p', {}, text('No unit conversions were needed.'))
       : table({
           className: 'unit-factors',
-          head: ['Unit', { label: 'Btu per unit', numeric: true }, { label: 'MMBtu per unit', numeric: true }, { label: 'GJ per unit', numeric: true }],
+          head: [
+            'Unit',
+            { label: 'Btu per unit', numeric: true },
+            { label: 'MMBtu per unit', numeric: true },
+            { label: 'GJ per unit', numeric: true },
+          ],
           // Twelve significant digits hide binary rounding (0.0034121399999999997) yet show every digit a published factor has.
           rows: report.unitFactors.map((f) => [cell(f.unit), factorCell(f.btu), factorCell(f.mmbtu), factorCell(f.gj)]),
         });

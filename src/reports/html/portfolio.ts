@@ -40,7 +40,14 @@ function facilityBreakdown(report: SavingsReport): string {
   ]);
   return table({
     className: 'facility-breakdown',
-    head: ['Facility', { label: 'Meters', numeric: true }, { label: 'Avoided (MMBtu)', numeric: true }, { label: '±', numeric: true }, { label: 'Fraction saved', numeric: true }, { label: 'Cost avoided', numeric: true }],
+    head: [
+      'Facility',
+      { label: 'Meters', numeric: true },
+      { label: 'Avoided (MMBtu)', numeric: true },
+      { label: '±', numeric: true },
+      { label: 'Fraction saved', numeric: true },
+      { label: 'Cost avoided', numeric: true },
+    ],
     rows,
   });
 }

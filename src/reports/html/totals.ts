@@ -25,9 +25,15 @@ const ROWS: readonly { label: string; key: string; field: EnergyField | 'fractio
 
 /** A headline sentence: savings ± uncertainty in MMBtu and GJ, and the fraction saved. */
 export function energyHeadline(totals: Record<CommonEnergyUnit, EnergyTotal>, confidenceLabel: string): string {
-  const parts = UNITS.map((unit) => `${formatNumber(totals[unit].savings, ENERGY_DIGITS)} ± ${formatNumber(totals[unit].uncertainty, ENERGY_DIGITS)} ${unit}`);
+  const parts = UNITS.map(
+    (unit) => `${formatNumber(totals[unit].savings, ENERGY_DIGITS)} ± ${formatNumber(totals[unit].uncertainty, ENERGY_DIGITS)} ${unit}`,
+  );
   const fraction = totals.MMBtu.fractionSaved === null ? '' : ` (${formatPercent(totals.MMBtu.fractionSaved)} of the adjusted baseline)`;
-  return tag('p', { class: 'headline' }, `${tag('strong', {}, text('Avoided energy:'))} ${text(`${parts.join(' = ')}${fraction}, ± at ${confidenceLabel} confidence.`)}`);
+  return tag(
+    'p',
+    { class: 'headline' },
+    `${tag('strong', {}, text('Avoided energy:'))} ${text(`${parts.join(' = ')}${fraction}, ± at ${confidenceLabel} confidence.`)}`,
+  );
 }
 
 /** The common-unit totals, one column per unit. */
@@ -36,7 +42,8 @@ export function energyTotalsTable(prefix: string, totals: Record<CommonEnergyUni
     const label = row.field === 'uncertainty' ? `± uncertainty (${confidenceLabel})` : row.label;
     const cells = UNITS.map((unit) => {
       const total = totals[unit];
-      if (row.field === 'fractionSaved') return totalCell(`${prefix}-${row.key}-${unit}`, total.fractionSaved, formatPercent(total.fractionSaved));
+      if (row.field === 'fractionSaved')
+        return totalCell(`${prefix}-${row.key}-${unit}`, total.fractionSaved, formatPercent(total.fractionSaved));
       return totalCell(`${prefix}-${row.key}-${unit}`, total[row.field], formatNumber(total[row.field], ENERGY_DIGITS));
     });
     return [tag('th', { scope: 'row' }, text(label)), ...cells];
@@ -46,7 +53,8 @@ export function energyTotalsTable(prefix: string, totals: Record<CommonEnergyUni
 
 /** Cost avoided by currency; an empty list says so in words. */
 export function costTotalsTable(prefix: string, costs: readonly CostTotal[], confidenceLabel: string): string {
-  if (costs.length === 0) return tag('p', { class: 'note' }, text('No cost avoided: no contract rates apply to these meters in this window.'));
+  if (costs.length === 0)
+    return tag('p', { class: 'note' }, text('No cost avoided: no contract rates apply to these meters in this window.'));
   const rows = costs.map((c) => [
     tag('th', { scope: 'row' }, text(c.currency)),
     totalCell(`${prefix}-cost-${c.currency}`, c.avoided, formatNumber(c.avoided, COST_DIGITS)),
@@ -55,7 +63,12 @@ export function costTotalsTable(prefix: string, costs: readonly CostTotal[], con
   ]);
   return table({
     className: 'summary cost-totals',
-    head: ['Currency', { label: 'Cost avoided', numeric: true }, { label: `± (${confidenceLabel})`, numeric: true }, { label: 'Periods without a rate', numeric: true }],
+    head: [
+      'Currency',
+      { label: 'Cost avoided', numeric: true },
+      { label: `± (${confidenceLabel})`, numeric: true },
+      { label: 'Periods without a rate', numeric: true },
+    ],
     rows,
   });
 }

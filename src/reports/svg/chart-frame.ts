@@ -35,7 +35,14 @@ export interface PlotBox {
 }
 
 /** The root element, background, title and description (both escaped), and the visible heading. */
-export function chartOpen(options: { width: number; height: number; chart: string; title: string; subtitle: string; description: string }): string {
+export function chartOpen(options: {
+  width: number;
+  height: number;
+  chart: string;
+  title: string;
+  subtitle: string;
+  description: string;
+}): string {
   const { width, height } = options;
   return [
     `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}" role="img" data-chart="${escapeXml(options.chart)}" font-family="${escapeXml(FONT)}">`,
@@ -59,7 +66,11 @@ export function valueAxis(scale: AxisScale, box: PlotBox, py: (v: number) => num
   const ticks = scale.ticks.map(
     (t) =>
       element('line', { x1: box.left - tickLength, y1: py(t), x2: box.left, y2: py(t) }) +
-      element('text', { x: box.left - 9, y: py(t), dy: '0.32em', 'text-anchor': 'end', stroke: 'none', fill: PALETTE.label }, escapeXml(tickLabel(t, scale.decimals))),
+      element(
+        'text',
+        { x: box.left - 9, y: py(t), dy: '0.32em', 'text-anchor': 'end', stroke: 'none', fill: PALETTE.label },
+        escapeXml(tickLabel(t, scale.decimals)),
+      ),
   );
   const middleY = (box.top + box.bottom) / 2;
   return [
@@ -68,7 +79,16 @@ export function valueAxis(scale: AxisScale, box: PlotBox, py: (v: number) => num
     ...ticks,
     element(
       'text',
-      { class: 'axis-title', x: 24, y: middleY, transform: `rotate(-90 24 ${coord(middleY)})`, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.ink, 'font-size': 13 },
+      {
+        class: 'axis-title',
+        x: 24,
+        y: middleY,
+        transform: `rotate(-90 24 ${coord(middleY)})`,
+        'text-anchor': 'middle',
+        stroke: 'none',
+        fill: PALETTE.ink,
+        'font-size': 13,
+      },
       escapeXml(title),
     ),
     '</g>',
@@ -96,5 +116,16 @@ export function legendRow(items: readonly LegendItem[], x: number, y: number): s
 
 /** A centred note inside the plot area (e.g. "No reporting periods"). */
 export function plotNote(box: PlotBox, text: string): string {
-  return element('text', { class: 'plot-note', x: (box.left + box.right) / 2, y: (box.top + box.bottom) / 2, 'text-anchor': 'middle', fill: PALETTE.frame, 'font-size': 14 }, escapeXml(text));
+  return element(
+    'text',
+    {
+      class: 'plot-note',
+      x: (box.left + box.right) / 2,
+      y: (box.top + box.bottom) / 2,
+      'text-anchor': 'middle',
+      fill: PALETTE.frame,
+      'font-size': 14,
+    },
+    escapeXml(text),
+  );
 }

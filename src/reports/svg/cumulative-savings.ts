@@ -52,7 +52,10 @@ export function renderCumulativeSavingsSvg(data: CumulativeSavingsData): string 
   const py = (v: number) => BOX.bottom - axisFraction(y, v) * (BOX.bottom - BOX.top);
 
   const title = truncate(data.title, 70);
-  const latest = last === null ? 'no periods counted yet' : `${amount(last.value)} ${data.unit}${uncertainty === null ? '' : ` ± ${amount(uncertainty)}`} to date`;
+  const latest =
+    last === null
+      ? 'no periods counted yet'
+      : `${amount(last.value)} ${data.unit}${uncertainty === null ? '' : ` ± ${amount(uncertainty)}`} to date`;
   const subtitle = `${data.yearStart} to ${data.yearEnd} (end exclusive): ${latest}`;
   const description =
     `Cumulative measured savings in ${data.unit} at ${points.length} period ends across the year` +
@@ -65,7 +68,9 @@ export function renderCumulativeSavingsSvg(data: CumulativeSavingsData): string 
     dateGrid(ticks, px),
     valueAxis(y, BOX, py, `Cumulative savings (${data.unit})`),
     dateAxis(ticks, px),
-    y.min < 0 ? element('line', { class: 'zero-line', x1: BOX.left, y1: py(0), x2: BOX.right, y2: py(0), stroke: PALETTE.frame, 'stroke-width': 1 }) : '',
+    y.min < 0
+      ? element('line', { class: 'zero-line', x1: BOX.left, y1: py(0), x2: BOX.right, y2: py(0), stroke: PALETTE.frame, 'stroke-width': 1 })
+      : '',
     guaranteeLine(guaranteed, data.unit, py),
     last !== null && uncertainty !== null ? band(last, uncertainty, data.unit, px, py) : '',
     curve(points, span.start, px, py, data.unit),
@@ -114,11 +119,23 @@ function dateAxis(ticks: readonly DateTick[], px: (day: number) => number): stri
   const marks = ticks.map(
     (t) =>
       element('line', { x1: px(t.day), y1: BOX.bottom, x2: px(t.day), y2: BOX.bottom + 5 }) +
-      element('text', { x: px(t.day), y: BOX.bottom + 20, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.label }, escapeXml(t.label)),
+      element(
+        'text',
+        { x: px(t.day), y: BOX.bottom + 20, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.label },
+        escapeXml(t.label),
+      ),
   );
   const title = element(
     'text',
-    { class: 'axis-title', x: (BOX.left + BOX.right) / 2, y: BOX.bottom + 46, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.ink, 'font-size': 13 },
+    {
+      class: 'axis-title',
+      x: (BOX.left + BOX.right) / 2,
+      y: BOX.bottom + 46,
+      'text-anchor': 'middle',
+      stroke: 'none',
+      fill: PALETTE.ink,
+      'font-size': 13,
+    },
     escapeXml('Period end date'),
   );
   return `<g class="date-axis" stroke="${PALETTE.frame}" stroke-width="1.2" font-size="12">${marks.join('')}${title}</g>`;
@@ -129,12 +146,27 @@ function guaranteeLine(guaranteed: number | null, unit: string, py: (v: number) 
   const y = py(guaranteed);
   const label = `Guaranteed ${amount(guaranteed)} ${unit}`;
   return [
-    element('line', { class: 'guarantee-line', x1: BOX.left, y1: y, x2: BOX.right, y2: y, stroke: PALETTE.reportingDark, 'stroke-width': 1.8, 'stroke-dasharray': '7 5' }),
+    element('line', {
+      class: 'guarantee-line',
+      x1: BOX.left,
+      y1: y,
+      x2: BOX.right,
+      y2: y,
+      stroke: PALETTE.reportingDark,
+      'stroke-width': 1.8,
+      'stroke-dasharray': '7 5',
+    }),
     element('text', { x: BOX.left + 8, y: y - 7, fill: PALETTE.reportingDark, 'font-size': 12, 'font-weight': '600' }, escapeXml(label)),
   ].join('');
 }
 
-function band(last: { day: number; value: number }, uncertainty: number, unit: string, px: (day: number) => number, py: (v: number) => number): string {
+function band(
+  last: { day: number; value: number },
+  uncertainty: number,
+  unit: string,
+  px: (day: number) => number,
+  py: (v: number) => number,
+): string {
   const x = px(last.day);
   const top = py(held(last.value + uncertainty));
   const bottom = py(held(last.value - uncertainty));
@@ -142,18 +174,52 @@ function band(last: { day: number; value: number }, uncertainty: number, unit: s
   return [
     element(
       'rect',
-      { class: 'uncertainty-band', x: x - BAND_HALF_WIDTH, y: top, width: BAND_HALF_WIDTH * 2, height: Math.max(0, bottom - top), fill: PALETTE.baselineFill, 'fill-opacity': 0.22, stroke: PALETTE.baselineStroke, 'stroke-width': 1 },
+      {
+        class: 'uncertainty-band',
+        x: x - BAND_HALF_WIDTH,
+        y: top,
+        width: BAND_HALF_WIDTH * 2,
+        height: Math.max(0, bottom - top),
+        fill: PALETTE.baselineFill,
+        'fill-opacity': 0.22,
+        stroke: PALETTE.baselineStroke,
+        'stroke-width': 1,
+      },
       element('title', {}, escapeXml(tip)),
     ),
-    element('path', { d: `M${coord(x - BAND_HALF_WIDTH)} ${coord(top)}H${coord(x + BAND_HALF_WIDTH)}M${coord(x)} ${coord(top)}V${coord(bottom)}M${coord(x - BAND_HALF_WIDTH)} ${coord(bottom)}H${coord(x + BAND_HALF_WIDTH)}`, fill: 'none', stroke: PALETTE.baselineStroke, 'stroke-width': 1.2 }),
+    element('path', {
+      d: `M${coord(x - BAND_HALF_WIDTH)} ${coord(top)}H${coord(x + BAND_HALF_WIDTH)}M${coord(x)} ${coord(top)}V${coord(bottom)}M${coord(x - BAND_HALF_WIDTH)} ${coord(bottom)}H${coord(x + BAND_HALF_WIDTH)}`,
+      fill: 'none',
+      stroke: PALETTE.baselineStroke,
+      'stroke-width': 1.2,
+    }),
   ].join('');
 }
 
-function curve(points: readonly { day: number; value: number }[], startDay: number, px: (day: number) => number, py: (v: number) => number, unit: string): string {
+function curve(
+  points: readonly { day: number; value: number }[],
+  startDay: number,
+  px: (day: number) => number,
+  py: (v: number) => number,
+  unit: string,
+): string {
   if (points.length === 0) return '';
   const vertices = [{ day: startDay, value: 0 }, ...points].map((p) => `${coord(px(p.day))},${coord(py(p.value))}`).join(' ');
-  const line = element('polyline', { class: 'cumulative-line', points: vertices, fill: 'none', stroke: PALETTE.line, 'stroke-width': 2.4, 'stroke-linejoin': 'round' });
-  const marks = points.map((p) => element('circle', { class: 'mark-cumulative', cx: px(p.day), cy: py(p.value), r: MARK_RADIUS }, element('title', {}, escapeXml(`${amount(p.value)} ${unit}`))));
+  const line = element('polyline', {
+    class: 'cumulative-line',
+    points: vertices,
+    fill: 'none',
+    stroke: PALETTE.line,
+    'stroke-width': 2.4,
+    'stroke-linejoin': 'round',
+  });
+  const marks = points.map((p) =>
+    element(
+      'circle',
+      { class: 'mark-cumulative', cx: px(p.day), cy: py(p.value), r: MARK_RADIUS },
+      element('title', {}, escapeXml(`${amount(p.value)} ${unit}`)),
+    ),
+  );
   return `${line}<g fill="${PALETTE.baselineFill}" stroke="${PALETTE.baselineStroke}" stroke-width="1">${marks.join('')}</g>`;
 }
 
@@ -161,10 +227,30 @@ function legend(withGuarantee: boolean, withBand: boolean): string {
   const items: LegendItem[] = [
     {
       label: 'Cumulative measured savings',
-      swatch: (x, y) => element('line', { x1: x, y1: y, x2: x + 16, y2: y, stroke: PALETTE.line, 'stroke-width': 2.4 }) + element('circle', { cx: x + 8, cy: y, r: MARK_RADIUS, fill: PALETTE.baselineFill, stroke: PALETTE.baselineStroke }),
+      swatch: (x, y) =>
+        element('line', { x1: x, y1: y, x2: x + 16, y2: y, stroke: PALETTE.line, 'stroke-width': 2.4 }) +
+        element('circle', { cx: x + 8, cy: y, r: MARK_RADIUS, fill: PALETTE.baselineFill, stroke: PALETTE.baselineStroke }),
     },
   ];
-  if (withGuarantee) items.push({ label: 'Guaranteed', swatch: (x, y) => element('line', { x1: x, y1: y, x2: x + 16, y2: y, stroke: PALETTE.reportingDark, 'stroke-width': 1.8, 'stroke-dasharray': '5 3' }) });
-  if (withBand) items.push({ label: '± uncertainty of the latest total', swatch: (x, y) => element('rect', { x: x + 3, y: y - 8, width: 10, height: 16, fill: PALETTE.baselineFill, 'fill-opacity': 0.22, stroke: PALETTE.baselineStroke }) });
+  if (withGuarantee)
+    items.push({
+      label: 'Guaranteed',
+      swatch: (x, y) =>
+        element('line', { x1: x, y1: y, x2: x + 16, y2: y, stroke: PALETTE.reportingDark, 'stroke-width': 1.8, 'stroke-dasharray': '5 3' }),
+    });
+  if (withBand)
+    items.push({
+      label: '± uncertainty of the latest total',
+      swatch: (x, y) =>
+        element('rect', {
+          x: x + 3,
+          y: y - 8,
+          width: 10,
+          height: 16,
+          fill: PALETTE.baselineFill,
+          'fill-opacity': 0.22,
+          stroke: PALETTE.baselineStroke,
+        }),
+    });
   return legendRow(items, BOX.left, HEIGHT - 22);
 }

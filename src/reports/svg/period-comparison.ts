@@ -81,11 +81,24 @@ function outsideBands(data: PeriodComparisonData): string {
     const cx = s.x + s.width / 2;
     const top = BOX.top + 4;
     const tip = `${p.start} to ${p.end}: outside the baseline's temperature range (the model extrapolates)`;
-    marks.push(element('rect', { class: 'band-outside', x: s.x + 1, y: BOX.top, width: Math.max(0, s.width - 2), height: BOX.bottom - BOX.top, fill: PALETTE.outside }));
+    marks.push(
+      element('rect', {
+        class: 'band-outside',
+        x: s.x + 1,
+        y: BOX.top,
+        width: Math.max(0, s.width - 2),
+        height: BOX.bottom - BOX.top,
+        fill: PALETTE.outside,
+      }),
+    );
     marks.push(
       element(
         'path',
-        { class: 'mark-outside', d: `M${coord(cx - 5)} ${coord(top)}H${coord(cx + 5)}L${coord(cx)} ${coord(top + 8)}Z`, fill: PALETTE.frame },
+        {
+          class: 'mark-outside',
+          d: `M${coord(cx - 5)} ${coord(top)}H${coord(cx + 5)}L${coord(cx)} ${coord(top + 8)}Z`,
+          fill: PALETTE.frame,
+        },
         element('title', {}, escapeXml(tip)),
       ),
     );
@@ -94,7 +107,9 @@ function outsideBands(data: PeriodComparisonData): string {
 }
 
 function zeroLine(y: number | null): string {
-  return y === null ? '' : element('line', { class: 'zero-line', x1: BOX.left, y1: y, x2: BOX.right, y2: y, stroke: PALETTE.frame, 'stroke-width': 1 });
+  return y === null
+    ? ''
+    : element('line', { class: 'zero-line', x1: BOX.left, y1: y, x2: BOX.right, y2: y, stroke: PALETTE.frame, 'stroke-width': 1 });
 }
 
 function bars(data: PeriodComparisonData, py: (v: number) => number): string {
@@ -111,7 +126,13 @@ function bars(data: PeriodComparisonData, py: (v: number) => number): string {
       element(
         'rect',
         { class: cls, x, y: Math.min(py(value), zero), width: barWidth, height: Math.abs(py(value) - zero) },
-        element('title', {}, escapeXml(`${p.start} to ${p.end}: ${what} ${Number.isFinite(value) ? tickLabel(Number(value.toFixed(2)), 2) : 'n/a'} ${data.unit}`)),
+        element(
+          'title',
+          {},
+          escapeXml(
+            `${p.start} to ${p.end}: ${what} ${Number.isFinite(value) ? tickLabel(Number(value.toFixed(2)), 2) : 'n/a'} ${data.unit}`,
+          ),
+        ),
       );
     baselineBars.push(bar(p.adjustedBaseline, centre - gap / 2 - barWidth, 'bar-baseline', 'adjusted baseline'));
     actualBars.push(bar(p.actual, centre + gap / 2, 'bar-actual', 'actual'));
@@ -138,15 +159,31 @@ function periodLabels(data: PeriodComparisonData): string {
     const [year, month, dayOfMonth] = day === null ? ['', '', ''] : formatDayNumber(day).split('-');
     const first = day === null ? truncate(p.start, 12) : `${Number(dayOfMonth)} ${MONTHS[Number(month) - 1]}`;
     labels.push(element('line', { x1: cx, y1: BOX.bottom, x2: cx, y2: BOX.bottom + 5 }));
-    labels.push(element('text', { x: cx, y: BOX.bottom + 19, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.label }, escapeXml(first)));
+    labels.push(
+      element('text', { x: cx, y: BOX.bottom + 19, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.label }, escapeXml(first)),
+    );
     if (year !== undefined && year !== '' && year !== lastYear) {
-      labels.push(element('text', { x: cx, y: BOX.bottom + 34, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.frame, 'font-weight': '600' }, escapeXml(year)));
+      labels.push(
+        element(
+          'text',
+          { x: cx, y: BOX.bottom + 34, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.frame, 'font-weight': '600' },
+          escapeXml(year),
+        ),
+      );
       lastYear = year;
     }
   });
   const axisTitle = element(
     'text',
-    { class: 'axis-title', x: (BOX.left + BOX.right) / 2, y: BOX.bottom + 58, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.ink, 'font-size': 13 },
+    {
+      class: 'axis-title',
+      x: (BOX.left + BOX.right) / 2,
+      y: BOX.bottom + 58,
+      'text-anchor': 'middle',
+      stroke: 'none',
+      fill: PALETTE.ink,
+      'font-size': 13,
+    },
     escapeXml('Reporting period (start date)'),
   );
   return `<g class="period-labels" stroke="${PALETTE.frame}" stroke-width="1.2" font-size="11.5">${labels.join('')}${axisTitle}</g>`;
@@ -154,14 +191,30 @@ function periodLabels(data: PeriodComparisonData): string {
 
 function legend(withOutside: boolean): string {
   const items: LegendItem[] = [
-    { label: 'Adjusted baseline', swatch: (x, y) => element('rect', { x, y: y - 6, width: 16, height: 12, fill: PALETTE.baselinePale, stroke: PALETTE.baselineStroke, 'stroke-width': 1.2 }) },
-    { label: 'Actual use', swatch: (x, y) => element('rect', { x, y: y - 6, width: 16, height: 12, fill: PALETTE.reporting, stroke: PALETTE.reportingDark }) },
+    {
+      label: 'Adjusted baseline',
+      swatch: (x, y) =>
+        element('rect', {
+          x,
+          y: y - 6,
+          width: 16,
+          height: 12,
+          fill: PALETTE.baselinePale,
+          stroke: PALETTE.baselineStroke,
+          'stroke-width': 1.2,
+        }),
+    },
+    {
+      label: 'Actual use',
+      swatch: (x, y) => element('rect', { x, y: y - 6, width: 16, height: 12, fill: PALETTE.reporting, stroke: PALETTE.reportingDark }),
+    },
   ];
   if (withOutside) {
     items.push({
       label: "Outside the baseline's temperature range",
       swatch: (x, y) =>
-        element('rect', { x, y: y - 8, width: 16, height: 16, fill: PALETTE.outside }) + element('path', { d: `M${coord(x + 3)} ${coord(y - 5)}H${coord(x + 13)}L${coord(x + 8)} ${coord(y + 3)}Z`, fill: PALETTE.frame }),
+        element('rect', { x, y: y - 8, width: 16, height: 16, fill: PALETTE.outside }) +
+        element('path', { d: `M${coord(x + 3)} ${coord(y - 5)}H${coord(x + 13)}L${coord(x + 8)} ${coord(y + 3)}Z`, fill: PALETTE.frame }),
     });
   }
   return legendRow(items, BOX.left, HEIGHT - 20);

@@ -10,7 +10,15 @@
  * bill's own days (predictPeriodPerDay), which sits above the line at the
  * bill's mean temperature wherever the bill's days straddle a changepoint.
  */
-import { fitTemperatureForm, predictPerDay, predictPeriodPerDay, type Period, type ShapeFit, type TemperatureForm, type TemperatureUnit } from '../../engine/index.js';
+import {
+  fitTemperatureForm,
+  predictPerDay,
+  predictPeriodPerDay,
+  type Period,
+  type ShapeFit,
+  type TemperatureForm,
+  type TemperatureUnit,
+} from '../../engine/index.js';
 import type { SignaturePoint } from './signature.js';
 
 /** What the chart needs of a period; `expectedPerDay` is given when the caller has it already (a projection's model baseline ÷ days). */
@@ -79,7 +87,10 @@ export function signatureChartPoints(
   const expected: SignaturePoint[] = [];
   if (form === 'daily') {
     // One-day readings sit on the line by definition: only bills get a mark of their own.
-    for (const [kind, periods] of [['baseline', baseline], ['reporting', reporting]] as const) {
+    for (const [kind, periods] of [
+      ['baseline', baseline],
+      ['reporting', reporting],
+    ] as const) {
       for (const period of periods) {
         if (period.days <= 1) continue;
         const value = expectedPerDay(fit, period);

@@ -49,7 +49,6 @@ export interface SignatureChartData {
 export const DAY_RESOLVED_NOTE =
   'Near a changepoint a bill’s expected use (tick) sits above the line: it averages days on both sides, and the response is convex.';
 
-
 const WIDTH = 760;
 const HEIGHT = 520;
 const PLOT = { left: 88, right: WIDTH - 28, top: 78, bottom: HEIGHT - 100 } as const;
@@ -113,12 +112,20 @@ function axes(x: AxisScale, y: AxisScale, px: Project, py: Project, xTitle: stri
   const xTicks = x.ticks.map(
     (t) =>
       element('line', { x1: px(t), y1: PLOT.bottom, x2: px(t), y2: PLOT.bottom + tickLength }) +
-      element('text', { x: px(t), y: PLOT.bottom + 20, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.label }, escapeXml(tickLabel(t, x.decimals))),
+      element(
+        'text',
+        { x: px(t), y: PLOT.bottom + 20, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.label },
+        escapeXml(tickLabel(t, x.decimals)),
+      ),
   );
   const yTicks = y.ticks.map(
     (t) =>
       element('line', { x1: PLOT.left - tickLength, y1: py(t), x2: PLOT.left, y2: py(t) }) +
-      element('text', { x: PLOT.left - 9, y: py(t), dy: '0.32em', 'text-anchor': 'end', stroke: 'none', fill: PALETTE.label }, escapeXml(tickLabel(t, y.decimals))),
+      element(
+        'text',
+        { x: PLOT.left - 9, y: py(t), dy: '0.32em', 'text-anchor': 'end', stroke: 'none', fill: PALETTE.label },
+        escapeXml(tickLabel(t, y.decimals)),
+      ),
   );
   const middleX = (PLOT.left + PLOT.right) / 2;
   const middleY = (PLOT.top + PLOT.bottom) / 2;
@@ -127,10 +134,23 @@ function axes(x: AxisScale, y: AxisScale, px: Project, py: Project, xTitle: stri
     element('path', { d: `M${coord(PLOT.left)} ${coord(PLOT.top)}V${coord(PLOT.bottom)}H${coord(PLOT.right)}`, fill: 'none' }),
     ...xTicks,
     ...yTicks,
-    element('text', { class: 'axis-title', x: middleX, y: PLOT.bottom + 46, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.ink, 'font-size': 13 }, escapeXml(xTitle)),
     element(
       'text',
-      { class: 'axis-title', x: 24, y: middleY, transform: `rotate(-90 24 ${coord(middleY)})`, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.ink, 'font-size': 13 },
+      { class: 'axis-title', x: middleX, y: PLOT.bottom + 46, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.ink, 'font-size': 13 },
+      escapeXml(xTitle),
+    ),
+    element(
+      'text',
+      {
+        class: 'axis-title',
+        x: 24,
+        y: middleY,
+        transform: `rotate(-90 24 ${coord(middleY)})`,
+        'text-anchor': 'middle',
+        stroke: 'none',
+        fill: PALETTE.ink,
+        'font-size': 13,
+      },
       escapeXml(yTitle),
     ),
     '</g>',
@@ -146,7 +166,14 @@ function fittedLine(all: readonly SignaturePoint[], px: Project, py: Project): s
   const points = drawable(all);
   if (points.length < 2) return '';
   const coordinates = points.map((p) => `${coord(px(p.temp))},${coord(py(p.usePerDay))}`).join(' ');
-  return element('polyline', { class: 'fit-line', points: coordinates, fill: 'none', stroke: PALETTE.line, 'stroke-width': 2.4, 'stroke-linejoin': 'round' });
+  return element('polyline', {
+    class: 'fit-line',
+    points: coordinates,
+    fill: 'none',
+    stroke: PALETTE.line,
+    'stroke-width': 2.4,
+    'stroke-linejoin': 'round',
+  });
 }
 
 function tooltip(point: SignaturePoint): string | undefined {
@@ -154,7 +181,9 @@ function tooltip(point: SignaturePoint): string | undefined {
 }
 
 function baselineMarks(points: readonly SignaturePoint[], px: Project, py: Project): string {
-  const marks = drawable(points).map((p) => element('circle', { class: 'mark-baseline', cx: px(p.temp), cy: py(p.usePerDay), r: MARK_RADIUS }, tooltip(p)));
+  const marks = drawable(points).map((p) =>
+    element('circle', { class: 'mark-baseline', cx: px(p.temp), cy: py(p.usePerDay), r: MARK_RADIUS }, tooltip(p)),
+  );
   return `<g fill="${PALETTE.baselineFill}" fill-opacity="0.85" stroke="${PALETTE.baselineStroke}" stroke-width="1">${marks.join('')}</g>`;
 }
 
@@ -164,7 +193,9 @@ function diamondPath(cx: number, cy: number, size: number): string {
 
 function reportingMarks(points: readonly SignaturePoint[], px: Project, py: Project): string {
   if (points.length === 0) return '';
-  const marks = drawable(points).map((p) => element('path', { class: 'mark-reporting', d: diamondPath(px(p.temp), py(p.usePerDay), DIAMOND) }, tooltip(p)));
+  const marks = drawable(points).map((p) =>
+    element('path', { class: 'mark-reporting', d: diamondPath(px(p.temp), py(p.usePerDay), DIAMOND) }, tooltip(p)),
+  );
   return `<g fill="${PALETTE.paper}" fill-opacity="0.6" stroke="${PALETTE.reporting}" stroke-width="1.8">${marks.join('')}</g>`;
 }
 
@@ -182,7 +213,11 @@ function expectedMarks(points: readonly SignaturePoint[], px: Project, py: Proje
 /** The note on a day-resolved chart, on the bottom line, its size fitted to the width (about 0.52 em per character of running text). */
 function note(text: string): string {
   const fontSize = Math.min(11, (WIDTH - 48) / (text.length * 0.52));
-  return element('text', { class: 'chart-note', x: 24, y: HEIGHT - 6, fill: PALETTE.frame, 'font-size': Number(fontSize.toFixed(2)) }, escapeXml(text));
+  return element(
+    'text',
+    { class: 'chart-note', x: 24, y: HEIGHT - 6, fill: PALETTE.frame, 'font-size': Number(fontSize.toFixed(2)) },
+    escapeXml(text),
+  );
 }
 
 /** The day-resolved chart's legend: four items from the left edge, a little smaller. */
@@ -200,11 +235,20 @@ function dailyLegend(data: SignatureChartData, expected: number): string {
   items.push(element('line', { x1: cursor, y1: rowY, x2: cursor + 16, y2: rowY, stroke: PALETTE.line, 'stroke-width': 2.4 }));
   label(`${data.model} daily response`);
   if (data.reporting.length > 0) {
-    items.push(element('path', { d: diamondPath(cursor + 8, rowY, DIAMOND), fill: PALETTE.paper, stroke: PALETTE.reporting, 'stroke-width': 1.8 }));
+    items.push(
+      element('path', { d: diamondPath(cursor + 8, rowY, DIAMOND), fill: PALETTE.paper, stroke: PALETTE.reporting, 'stroke-width': 1.8 }),
+    );
     label(`Reporting periods (${data.reporting.length})`);
   }
   if (expected > 0) {
-    items.push(element('path', { d: `M${coord(cursor + 8 - TICK_HALF)} ${coord(rowY)}H${coord(cursor + 8 + TICK_HALF)}`, stroke: PALETTE.ink, 'stroke-width': 2.2, 'stroke-linecap': 'round' }));
+    items.push(
+      element('path', {
+        d: `M${coord(cursor + 8 - TICK_HALF)} ${coord(rowY)}H${coord(cursor + 8 + TICK_HALF)}`,
+        stroke: PALETTE.ink,
+        'stroke-width': 2.2,
+        'stroke-linecap': 'round',
+      }),
+    );
     label(`Expected use of each bill (${expected})`);
   }
   return `<g class="legend">${items.join('')}</g>`;
@@ -228,7 +272,9 @@ function legend(data: SignatureChartData): string {
   items.push(element('line', { x1: cursor, y1: rowY, x2: cursor + 16, y2: rowY, stroke: PALETTE.line, 'stroke-width': 2.4 }));
   label(line);
   if (data.reporting.length > 0) {
-    items.push(element('path', { d: diamondPath(cursor + 8, rowY, DIAMOND), fill: PALETTE.paper, stroke: PALETTE.reporting, 'stroke-width': 1.8 }));
+    items.push(
+      element('path', { d: diamondPath(cursor + 8, rowY, DIAMOND), fill: PALETTE.paper, stroke: PALETTE.reporting, 'stroke-width': 1.8 }),
+    );
     label(reporting);
   }
   return `<g class="legend">${items.join('')}</g>`;

@@ -89,7 +89,8 @@ function evenScale(low: number, high: number, wanted: number): AxisScale {
 export function axisFraction(scale: AxisScale, value: number): number {
   if (!Number.isFinite(value)) return 0;
   const span = scale.max - scale.min;
-  const fraction = Number.isFinite(span) && span > 0 ? (value - scale.min) / span : (value / 2 - scale.min / 2) / (scale.max / 2 - scale.min / 2);
+  const fraction =
+    Number.isFinite(span) && span > 0 ? (value - scale.min) / span : (value / 2 - scale.min / 2) / (scale.max / 2 - scale.min / 2);
   if (!Number.isFinite(fraction)) return 0;
   return Math.min(Math.max(fraction, -1), 2);
 }

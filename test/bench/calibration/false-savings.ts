@@ -72,7 +72,13 @@ export interface ModelFormRow {
 
 const CONFIDENCES = [0.68, 0.9] as const;
 
-function meterYear(archetype: Archetype, climate: ClimateName, noise: { persistence: number; scale?: number }, seed: number, form: TemperatureForm): MeterYear | null {
+function meterYear(
+  archetype: Archetype,
+  climate: ClimateName,
+  noise: { persistence: number; scale?: number },
+  seed: number,
+  form: TemperatureForm,
+): MeterYear | null {
   const study = simulateMeterStudy({ archetype, climate: INVENTED_CLIMATES[climate], noise, design: TWO_YEARS_THEN_ONE, seed });
   let analysis;
   try {
@@ -82,10 +88,16 @@ function meterYear(archetype: Archetype, climate: ClimateName, noise: { persiste
     throw error;
   }
   const [at68, at90] = savingsAt(analysis, study.reporting, study.weather, CONFIDENCES);
-  const covers = (doc: typeof at68, formula: 'exact' | 'guideline14') => Math.abs(doc!.totals.savings) <= doc!.totals.uncertainty[formula].absolute;
+  const covers = (doc: typeof at68, formula: 'exact' | 'guideline14') =>
+    Math.abs(doc!.totals.savings) <= doc!.totals.uncertainty[formula].absolute;
   return {
     falseSaving: at68!.totals.fractionSaved,
-    covers: { exact68: covers(at68, 'exact'), guideline68: covers(at68, 'guideline14'), exact90: covers(at90, 'exact'), guideline90: covers(at90, 'guideline14') },
+    covers: {
+      exact68: covers(at68, 'exact'),
+      guideline68: covers(at68, 'guideline14'),
+      exact90: covers(at90, 'exact'),
+      guideline90: covers(at90, 'guideline14'),
+    },
     selected: analysis.choice.selected,
   };
 }
@@ -174,7 +186,8 @@ export function pooledRows(rows: readonly FalseSavingsRow[]): Omit<FalseSavingsR
     const meters = part.reduce((sum, r) => sum + r.meters, 0);
     const weighted = (value: (r: FalseSavingsRow) => number): number => part.reduce((sum, r) => sum + r.meters * value(r), 0) / meters;
     const selected: Partial<Record<ModelName, number>> = {};
-    for (const r of part) for (const [model, count] of Object.entries(r.selected) as [ModelName, number][]) selected[model] = (selected[model] ?? 0) + count;
+    for (const r of part)
+      for (const [model, count] of Object.entries(r.selected) as [ModelName, number][]) selected[model] = (selected[model] ?? 0) + count;
     return {
       group: 'all groups',
       noise: part[0]!.noise,

@@ -61,7 +61,13 @@ export function normalisedWithoutRetrofit(settings: NormalisedSettings): Normali
         const climateName = CLIMATE_NAMES[i % CLIMATE_NAMES.length]!;
         const archetype = meterClass.archetypes[Math.floor(i / CLIMATE_NAMES.length) % meterClass.archetypes.length]!;
         const climate = INVENTED_CLIMATES[climateName];
-        const study = simulateMeterStudy({ archetype, climate, noise: { persistence: noise.persistence }, design: TWO_YEARS_THEN_ONE, seed: deriveSeed(settings.seed, c, k, i) });
+        const study = simulateMeterStudy({
+          archetype,
+          climate,
+          noise: { persistence: noise.persistence },
+          design: TWO_YEARS_THEN_ONE,
+          seed: deriveSeed(settings.seed, c, k, i),
+        });
         return { study, normalYear: normalYearTemperatures(climate) };
       });
       for (const form of FORMS) {
@@ -74,7 +80,8 @@ export function normalisedWithoutRetrofit(settings: NormalisedSettings): Normali
           if (result.available && result.fractionSaved !== null) {
             fractions.push(result.fractionSaved);
             const at90 = normalisedSavings(fit, study.reporting, study.weather, normalYear, { ...options, confidence: 0.9 });
-            const band = (r: typeof result): number => (r.available && 'uncertainty' in r ? (r as { uncertainty: { absolute: number } }).uncertainty.absolute : Number.NaN);
+            const band = (r: typeof result): number =>
+              r.available && 'uncertainty' in r ? (r as { uncertainty: { absolute: number } }).uncertainty.absolute : Number.NaN;
             covered.push({ at68: Math.abs(result.savings) <= band(result), at90: at90.available && Math.abs(at90.savings) <= band(at90) });
           }
         }

@@ -33,7 +33,8 @@ export interface PortfolioCombiner {
 /** The engine's roll-up: the meters' half-widths in quadrature, as if the meters were independent. */
 export const IN_QUADRATURE: PortfolioCombiner = {
   name: 'in quadrature',
-  halfWidth: (meters, confidence, formula) => combineInQuadrature(meters.map((m) => m.savings[confidence].totals.uncertainty[formula].absolute)),
+  halfWidth: (meters, confidence, formula) =>
+    combineInQuadrature(meters.map((m) => m.savings[confidence].totals.uncertainty[formula].absolute)),
 };
 
 /**

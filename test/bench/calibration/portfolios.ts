@@ -55,7 +55,11 @@ export const PORTFOLIO_KINDS: readonly { label: string; archetypes: readonly Arc
 ];
 
 /** Portfolio k of a kind: the climates in turn; the kind's archetypes in turn over its meters. */
-function portfolioMix(kind: (typeof PORTFOLIO_KINDS)[number], k: number, meters: number): { climate: ClimateName; archetypes: Archetype[] } {
+function portfolioMix(
+  kind: (typeof PORTFOLIO_KINDS)[number],
+  k: number,
+  meters: number,
+): { climate: ClimateName; archetypes: Archetype[] } {
   const climate = CLIMATE_NAMES[k % CLIMATE_NAMES.length]!;
   const archetypes = Array.from({ length: meters }, (_, i) => kind.archetypes[i % kind.archetypes.length]!);
   return { climate, archetypes };

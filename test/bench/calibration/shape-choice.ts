@@ -237,7 +237,9 @@ export function choiceTiming(settings: { seed: number; meters: number; runsPerMe
     }),
   );
   return FORMS.map((form) => {
-    const times = studies.flatMap((study) => timeEach(() => baselineInForm(study.baseline, study.weather, form), settings.runsPerMeter, settings.warmUp));
+    const times = studies.flatMap((study) =>
+      timeEach(() => baselineInForm(study.baseline, study.weather, form), settings.runsPerMeter, settings.warmUp),
+    );
     return { form, bills: 36, meters: studies.length, runs: times.length, medianMs: median(times) };
   });
 }

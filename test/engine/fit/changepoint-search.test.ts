@@ -83,7 +83,10 @@ function datasetArbitrary(shape: HingeShape, unitsPerDegree: number, maxSpanDegr
     .record({
       n: fc.integer({ min: 8, max: 40 }),
       low: fc.integer({ min: 0, max: top }),
-      span: fc.oneof(fc.integer({ min: 2, max: 5 * unitsPerDegree }), fc.integer({ min: 5 * unitsPerDegree, max: maxSpanDegrees * unitsPerDegree })),
+      span: fc.oneof(
+        fc.integer({ min: 2, max: 5 * unitsPerDegree }),
+        fc.integer({ min: 5 * unitsPerDegree, max: maxSpanDegrees * unitsPerDegree }),
+      ),
       seed: fc.integer({ min: 0, max: 2 ** 31 - 1 }),
       minPoints: fc.integer({ min: 1, max: 5 }),
       kind: fc.constantFrom('hinge', 'hinge', 'hinge-at-point', 'noiseless-at-point', 'pure-noise'),
@@ -127,7 +130,13 @@ function datasetArbitrary(shape: HingeShape, unitsPerDegree: number, maxSpanDegr
  * then. So 5P is compared here against the same plain grid with the engine's
  * rule: ≥ k points at or below cH, in [cH, cC], and at or above cC.
  */
-function fivePointGrid(x: readonly number[], y: readonly number[], w: readonly number[], grid: readonly number[], k: number): GridOptimum | null {
+function fivePointGrid(
+  x: readonly number[],
+  y: readonly number[],
+  w: readonly number[],
+  grid: readonly number[],
+  k: number,
+): GridOptimum | null {
   let best: GridOptimum | null = null;
   for (let i = 0; i < grid.length; i++) {
     const cH = grid[i]!;
@@ -136,7 +145,11 @@ function fivePointGrid(x: readonly number[], y: readonly number[], w: readonly n
       const cC = grid[j]!;
       if (x.filter((v) => v >= cC).length < k) break;
       if (x.filter((v) => v >= cH && v <= cC).length < k) continue;
-      const sse = weightedLeastSquares(x.map((v) => designRow('5P', { heating: cH, cooling: cC }, v)), y, w)?.sse;
+      const sse = weightedLeastSquares(
+        x.map((v) => designRow('5P', { heating: cH, cooling: cC }, v)),
+        y,
+        w,
+      )?.sse;
       if (sse !== undefined && Number.isFinite(sse) && (!best || sse < best.sse)) best = { heating: cH, cooling: cC, sse };
     }
   }
@@ -251,9 +264,7 @@ function noiselessArbitrary(shape: HingeShape): fc.Arbitrary<{ x: number[]; y: n
         [x[i], x[j]] = [x[j]!, x[i]!];
       }
       // 4P needs a bend: falling below (heating) and rising above (cooling) is the physical case.
-      const y = x.map(
-        (v) => base + (cH === null ? 0 : rateH * Math.max(cH - v, 0)) + (cC === null ? 0 : rateC * Math.max(v - cC, 0)),
-      );
+      const y = x.map((v) => base + (cH === null ? 0 : rateH * Math.max(cH - v, 0)) + (cC === null ? 0 : rateC * Math.max(v - cC, 0)));
       const w = x.map(() => random.integer(1, 31));
       return { x, y, w, truth: { heating: cH, cooling: cC }, minPoints };
     });

@@ -21,7 +21,11 @@ function fullRangePoints(seed: number, noise: number) {
 describe('coefficients are reported as dy/dx (use per day per degree)', () => {
   it('3PH: a heating slope of 8 per degree colder is reported as −8; the raw hinge coefficient is +8', () => {
     // synthetic: the test sets the truth — y = 300 + 8·(55 − x)₊
-    const points = [20, 28, 35, 41, 47, 52, 58, 63, 69, 75].map((temp) => ({ temp, usePerDay: 300 + 8 * Math.max(55 - temp, 0), days: 30 }));
+    const points = [20, 28, 35, 41, 47, 52, 58, 63, 69, 75].map((temp) => ({
+      temp,
+      usePerDay: 300 + 8 * Math.max(55 - temp, 0),
+      days: 30,
+    }));
     const fit = fitted(fitShape(periodsFromPoints(points), '3PH', 3));
     expect(fit.parameters.heatingSlope).toBeCloseTo(-8, 9);
     expect(fit.rawCoefficients[1]).toBeCloseTo(8, 9);
@@ -43,7 +47,11 @@ describe('coefficients are reported as dy/dx (use per day per degree)', () => {
     expect(Math.sign(five.coefficients[2]!.tStat)).toBe(1);
 
     // synthetic: a V with its bottom at 60: 200 + 5·(60 − x)₊ + 7·(x − 60)₊
-    const vee = [30, 36, 42, 48, 54, 58, 62, 66, 72, 78, 84, 90].map((temp) => ({ temp, usePerDay: 200 + 5 * Math.max(60 - temp, 0) + 7 * Math.max(temp - 60, 0), days: 30 }));
+    const vee = [30, 36, 42, 48, 54, 58, 62, 66, 72, 78, 84, 90].map((temp) => ({
+      temp,
+      usePerDay: 200 + 5 * Math.max(60 - temp, 0) + 7 * Math.max(temp - 60, 0),
+      days: 30,
+    }));
     const four = fitted(fitShape(periodsFromPoints(vee), '4P', 3));
     expect(four.parameters.slopeBelow).toBeCloseTo(-5, 8);
     expect(four.parameters.slopeAbove).toBeCloseTo(7, 8);

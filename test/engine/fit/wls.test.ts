@@ -23,9 +23,9 @@ interface FixtureDataset {
   normalizedCovParams: number[][];
 }
 
-const fixture = JSON.parse(
-  readFileSync(new URL('../../reference/wls-fixtures.json', import.meta.url), 'utf8'),
-) as { datasets: FixtureDataset[] };
+const fixture = JSON.parse(readFileSync(new URL('../../reference/wls-fixtures.json', import.meta.url), 'utf8')) as {
+  datasets: FixtureDataset[];
+};
 
 function expectRelativelyClose(actual: number, expected: number, tolerance: number): void {
   const scale = Math.max(Math.abs(expected), Number.MIN_VALUE);
@@ -41,12 +41,7 @@ const TOLERANCE = 1e-9;
 
 describe('weightedLeastSquares against statsmodels WLS (reference library: test/reference/make-wls-fixtures.py)', () => {
   it('fixture holds the expected datasets', () => {
-    expect(fixture.datasets.map((d) => d.name)).toEqual([
-      'monthly-hinge',
-      'monthly-hinge-cp-dof',
-      'monthly-line',
-      'daily-hinge',
-    ]);
+    expect(fixture.datasets.map((d) => d.name)).toEqual(['monthly-hinge', 'monthly-hinge-cp-dof', 'monthly-line', 'daily-hinge']);
   });
 
   for (const dataset of fixture.datasets) {
@@ -163,7 +158,25 @@ describe('weightedLeastSquares on hand-worked and degenerate inputs', () => {
 
   it('mismatched lengths and empty designs return null', () => {
     expect(weightedLeastSquares([], [], [])).toBeNull();
-    expect(weightedLeastSquares([[1, 0], [1, 1]], [1, 2, 3], [1, 1, 1])).toBeNull();
-    expect(weightedLeastSquares([[1, 0], [1, 1]], [1, 2], [1])).toBeNull();
+    expect(
+      weightedLeastSquares(
+        [
+          [1, 0],
+          [1, 1],
+        ],
+        [1, 2, 3],
+        [1, 1, 1],
+      ),
+    ).toBeNull();
+    expect(
+      weightedLeastSquares(
+        [
+          [1, 0],
+          [1, 1],
+        ],
+        [1, 2],
+        [1],
+      ),
+    ).toBeNull();
   });
 });

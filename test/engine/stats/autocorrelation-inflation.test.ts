@@ -7,11 +7,14 @@ import { seededRandom } from '../../support/synthetic.js';
 function plainSandwich(design: number[][], weights: number[], rho: number): number[] {
   const n = design.length;
   const k = design[0]!.length;
-  const bread = Array.from({ length: k }, (_, a) => Array.from({ length: k }, (_, b) => design.reduce((s, row, t) => s + weights[t]! * row[a]! * row[b]!, 0)));
+  const bread = Array.from({ length: k }, (_, a) =>
+    Array.from({ length: k }, (_, b) => design.reduce((s, row, t) => s + weights[t]! * row[a]! * row[b]!, 0)),
+  );
   const meat = Array.from({ length: k }, (_, a) =>
     Array.from({ length: k }, (_, b) => {
       let sum = 0;
-      for (let t = 0; t < n; t++) for (let s = 0; s < n; s++) sum += rho ** Math.abs(t - s) * Math.sqrt(weights[t]! * weights[s]!) * design[t]![a]! * design[s]![b]!;
+      for (let t = 0; t < n; t++)
+        for (let s = 0; s < n; s++) sum += rho ** Math.abs(t - s) * Math.sqrt(weights[t]! * weights[s]!) * design[t]![a]! * design[s]![b]!;
       return sum;
     }),
   );
@@ -29,7 +32,11 @@ describe('ar1VarianceInflation', () => {
     const rho = 0.6;
     let expected = 1;
     for (let h = 1; h < n; h++) expected += 2 * (1 - h / n) * rho ** h;
-    const [kappa] = ar1VarianceInflation(Array.from({ length: n }, () => [1]), new Array(n).fill(1), rho);
+    const [kappa] = ar1VarianceInflation(
+      Array.from({ length: n }, () => [1]),
+      new Array(n).fill(1),
+      rho,
+    );
     expect(kappa).toBeCloseTo(expected, 12);
   });
 
@@ -49,7 +56,12 @@ describe('ar1VarianceInflation', () => {
   });
 
   it('never narrows: negative or undefined autocorrelation leaves every coefficient at 1', () => {
-    const design = [[1, 1], [1, 2], [1, 3], [1, 5]];
+    const design = [
+      [1, 1],
+      [1, 2],
+      [1, 3],
+      [1, 5],
+    ];
     expect(ar1VarianceInflation(design, [1, 1, 1, 1], -0.4)).toEqual([1, 1]);
     expect(ar1VarianceInflation(design, [1, 1, 1, 1], Number.NaN)).toEqual([1, 1]);
   });

@@ -6,9 +6,7 @@ import { fCritical, twoSidedTCritical } from '../../../src/engine/stats/distribu
  * Quantiles against a published table and against scipy.stats (via
  * test/reference/make-wls-fixtures.py; see its header for versions).
  */
-const fixture = JSON.parse(
-  readFileSync(new URL('../../reference/wls-fixtures.json', import.meta.url), 'utf8'),
-) as {
+const fixture = JSON.parse(readFileSync(new URL('../../reference/wls-fixtures.json', import.meta.url), 'utf8')) as {
   tQuantiles: { confidence: number; dof: number; value: number }[];
   fQuantiles: { level: number; df1: number; df2: number; value: number }[];
 };

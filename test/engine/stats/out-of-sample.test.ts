@@ -5,7 +5,12 @@ import { seededRandom } from '../../support/synthetic.js';
 
 describe('outOfSampleFit', () => {
   it('the example in its doc comment: a mean of 1, 2, 3 left out one at a time (hand-worked)', () => {
-    const result = outOfSampleFit({ design: [[1], [1], [1]], usePerDay: [1, 2, 3], days: [1, 1, 1], quantity: [1, 2, 3], blocks: ['a', 'b', 'c'] }, 'leave-one-period-out', [[1 / 3]], [2]);
+    const result = outOfSampleFit(
+      { design: [[1], [1], [1]], usePerDay: [1, 2, 3], days: [1, 1, 1], quantity: [1, 2, 3], blocks: ['a', 'b', 'c'] },
+      'leave-one-period-out',
+      [[1 / 3]],
+      [2],
+    );
     expect(result.cvrmse).toBeCloseTo(Math.sqrt(4.5 / 3) / 2, 12);
     expect(result.nmbe).toBeCloseTo(0, 12);
     expect(result.unavailable).toBeNull();
@@ -20,12 +25,21 @@ describe('outOfSampleFit', () => {
     const quantity = usePerDay.map((u, i) => u * days[i]!);
     const blocks = Array.from({ length: n }, (_, i) => `m${Math.floor(i / 3)}`);
     const full = weightedLeastSquares(design, usePerDay, days)!;
-    const result = outOfSampleFit({ design, usePerDay, days, quantity, blocks }, 'blocked-by-month', full.unscaledCovariance, full.coefficients);
+    const result = outOfSampleFit(
+      { design, usePerDay, days, quantity, blocks },
+      'blocked-by-month',
+      full.unscaledCovariance,
+      full.coefficients,
+    );
     let squares = 0;
     let total = 0;
     for (const block of new Set(blocks)) {
       const keep = blocks.map((b) => b !== block);
-      const fit = weightedLeastSquares(design.filter((_, i) => keep[i]), usePerDay.filter((_, i) => keep[i]), days.filter((_, i) => keep[i]))!;
+      const fit = weightedLeastSquares(
+        design.filter((_, i) => keep[i]),
+        usePerDay.filter((_, i) => keep[i]),
+        days.filter((_, i) => keep[i]),
+      )!;
       blocks.forEach((b, i) => {
         if (b !== block) return;
         const residual = quantity[i]! - days[i]! * design[i]!.reduce((s, v, j) => s + v * fit.coefficients[j]!, 0);
@@ -40,10 +54,21 @@ describe('outOfSampleFit', () => {
 
   it('says which block leaves the model unidentified instead of failing', () => {
     // The only period with a non-zero second column is left out: its coefficient cannot be estimated.
-    const design = [[1, 0], [1, 0], [1, 5], [1, 0]];
+    const design = [
+      [1, 0],
+      [1, 0],
+      [1, 5],
+      [1, 0],
+    ];
     const full = weightedLeastSquares(design, [1, 2, 9, 1], [1, 1, 1, 1])!;
     const result = outOfSampleFit(
-      { design, usePerDay: [1, 2, 9, 1], days: [1, 1, 1, 1], quantity: [1, 2, 9, 1], blocks: ['2030-01-01', '2030-01-02', '2030-01-03', '2030-01-04'] },
+      {
+        design,
+        usePerDay: [1, 2, 9, 1],
+        days: [1, 1, 1, 1],
+        quantity: [1, 2, 9, 1],
+        blocks: ['2030-01-01', '2030-01-02', '2030-01-03', '2030-01-04'],
+      },
       'leave-one-period-out',
       full.unscaledCovariance,
       full.coefficients,
@@ -55,10 +80,18 @@ describe('outOfSampleFit', () => {
 
 describe('outOfSampleBlocks', () => {
   it('bills are left out one by one, daily data by calendar month (our own rule: a median of 7 days or more is a bill)', () => {
-    expect(outOfSampleBlocks([{ start: '2030-01-03', days: 30 }, { start: '2030-02-02', days: 29 }]))
-      .toEqual({ method: 'leave-one-period-out', blocks: ['2030-01-03', '2030-02-02'] });
-    expect(outOfSampleBlocks([{ start: '2030-01-31', days: 1 }, { start: '2030-02-01', days: 1 }]))
-      .toEqual({ method: 'blocked-by-month', blocks: ['2030-01', '2030-02'] });
+    expect(
+      outOfSampleBlocks([
+        { start: '2030-01-03', days: 30 },
+        { start: '2030-02-02', days: 29 },
+      ]),
+    ).toEqual({ method: 'leave-one-period-out', blocks: ['2030-01-03', '2030-02-02'] });
+    expect(
+      outOfSampleBlocks([
+        { start: '2030-01-31', days: 1 },
+        { start: '2030-02-01', days: 1 },
+      ]),
+    ).toEqual({ method: 'blocked-by-month', blocks: ['2030-01', '2030-02'] });
   });
 });
 
@@ -70,7 +103,9 @@ describe('out-of-sample figures of a fitted shape', () => {
     const random = seededRandom(21);
     const weather = dailyWeather(CLIMATES.temperate, '2030-01-01', 400, random);
     // synthetic: a year of daily readings with 10 days missing from the middle of March
-    const readings = dailyReadings(SAMPLE_BUILDING, weather.slice(0, 365), random).filter((r) => !(r.start >= '2030-03-10' && r.start < '2030-03-20'));
+    const readings = dailyReadings(SAMPLE_BUILDING, weather.slice(0, 365), random).filter(
+      (r) => !(r.start >= '2030-03-10' && r.start < '2030-03-20'),
+    );
     const fit = fitShape(alignPeriods(readings, weather).periods, '5P', 3, 'daily');
     if (!fit.ok) throw new Error(fit.reason);
     const outOfSample = fit.stats.outOfSample!;

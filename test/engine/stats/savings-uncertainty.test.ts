@@ -40,9 +40,9 @@ interface FixtureDataset {
   multiPeriodVariances: { rows: number[]; totalDays: number; variance: number }[];
 }
 
-const fixture = JSON.parse(
-  readFileSync(new URL('../../reference/wls-fixtures.json', import.meta.url), 'utf8'),
-) as { datasets: FixtureDataset[] };
+const fixture = JSON.parse(readFileSync(new URL('../../reference/wls-fixtures.json', import.meta.url), 'utf8')) as {
+  datasets: FixtureDataset[];
+};
 
 function expectRelativelyClose(actual: number, expected: number, tolerance: number): void {
   const scale = Math.max(Math.abs(expected), Number.MIN_VALUE);

@@ -71,7 +71,9 @@ describe.skipIf(!available)('the HTML report in headless Chromium', () => {
   });
 
   it('reads the totals back from the DOM exactly as the report has them', async () => {
-    const found = await page.$$eval('[data-total]', (cells) => cells.map((c) => [c.getAttribute('data-total')!, c.getAttribute('data-value')] as const));
+    const found = await page.$$eval('[data-total]', (cells) =>
+      cells.map((c) => [c.getAttribute('data-total')!, c.getAttribute('data-value')] as const),
+    );
     const values = new Map(found);
     expect(values.size).toBe(found.length);
     for (const [key, value] of expectedTotals(SAMPLE_REPORT)) {
@@ -92,7 +94,9 @@ describe.skipIf(!available)('the HTML report in headless Chromium', () => {
     await page.emulateMedia({ media: 'print' });
     await page.setViewportSize({ width: A4_CONTENT_WIDTH_PX, height: 1000 });
     // Page scripts as text: the project's TypeScript has no DOM library, and these run in the page.
-    const breaks = await page.evaluate("[...document.querySelectorAll('section.facility, section.methods')].map((s) => getComputedStyle(s).breakBefore)");
+    const breaks = await page.evaluate(
+      "[...document.querySelectorAll('section.facility, section.methods')].map((s) => getComputedStyle(s).breakBefore)",
+    );
     expect(breaks).toEqual(Array(SAMPLE_REPORT.facilities.length + 1).fill('page'));
     const overflow = await page.evaluate('document.documentElement.scrollWidth - document.documentElement.clientWidth');
     expect(overflow).toBeLessThanOrEqual(0);

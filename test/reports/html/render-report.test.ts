@@ -7,7 +7,15 @@
 import { describe, it, expect } from 'vitest';
 import { renderReportHtml } from '../../../src/reports/html/render-report.js';
 import { escapeXml } from '../../../src/reports/svg/xml.js';
-import { CAUTION, HOSTILE_FACILITY_NAME, HOSTILE_REASON, IDS, LIBRARY_OVERRIDE_REASON, MISSING_REASON, SAMPLE_REPORT } from '../fixtures/sample-report.js';
+import {
+  CAUTION,
+  HOSTILE_FACILITY_NAME,
+  HOSTILE_REASON,
+  IDS,
+  LIBRARY_OVERRIDE_REASON,
+  MISSING_REASON,
+  SAMPLE_REPORT,
+} from '../fixtures/sample-report.js';
 import { expectedTotals } from '../fixtures/expected-totals.js';
 import { count, wellFormedProblems } from '../svg/xml-checks.js';
 
@@ -30,7 +38,10 @@ function elementAt(markup: string, opening: string, name: string): string {
 
 /** All data-total keys with their data-value (absent value → null), in document order. */
 function totals(markup: string): [string, string | null][] {
-  return [...markup.matchAll(/<t[dh]\b[^>]*\bdata-total="([^"]*)"([^>]*)>/g)].map((m) => [m[1]!, /data-value="([^"]*)"/.exec(m[2]!)?.[1] ?? null]);
+  return [...markup.matchAll(/<t[dh]\b[^>]*\bdata-total="([^"]*)"([^>]*)>/g)].map((m) => [
+    m[1]!,
+    /data-value="([^"]*)"/.exec(m[2]!)?.[1] ?? null,
+  ]);
 }
 
 describe('renderReportHtml', () => {
@@ -83,7 +94,11 @@ describe('renderReportHtml', () => {
         }
         withFigures++;
         expect(count(article, '<figure class="chart"')).toBe(3);
-        expect([...article.matchAll(/data-figure="([^"]+)"/g)].map((m) => m[1])).toEqual(['period-comparison', 'cumulative-savings', 'signature']);
+        expect([...article.matchAll(/data-figure="([^"]+)"/g)].map((m) => m[1])).toEqual([
+          'period-comparison',
+          'cumulative-savings',
+          'signature',
+        ]);
         expect(count(article, 'data-chart="period-comparison"')).toBe(1);
         expect(count(article, 'data-chart="cumulative-savings"')).toBe(1);
         expect(count(article, 'class="bar-actual"')).toBe(meter.periods.length);
@@ -163,7 +178,8 @@ describe('renderReportHtml', () => {
 
   it('shows the methods, sources, unit factors, notices, normal years and every frozen baseline with its hash', () => {
     const tail = html.slice(html.indexOf('<section class="methods"'));
-    for (const paragraph of Object.values(report.method).filter((v): v is string => typeof v === 'string')) expect(tail).toContain(escapeXml(paragraph));
+    for (const paragraph of Object.values(report.method).filter((v): v is string => typeof v === 'string'))
+      expect(tail).toContain(escapeXml(paragraph));
     for (const source of report.method.sources) expect(tail).toContain(escapeXml(source));
     expect(tail).toContain(escapeXml(report.unitFactorSource));
     expect(tail).toContain('>0.00341214<'); // field brief: 1 kWh = 3,412.14 Btu, so 3,412.14 / 10^6 MMBtu

@@ -26,7 +26,32 @@ const SUBNORMAL = Number.MIN_VALUE; // 5e-324, the smallest positive double
 const SMALLEST_NORMAL = 2.2250738585072014e-308;
 
 /** The doubles that break naive axis code, named so every run tries them. */
-const EXTREMES = [0, -0, 1, -1, MAX, -MAX, MAX / 2, -MAX / 2, SUBNORMAL, -SUBNORMAL, 2 * SUBNORMAL, SMALLEST_NORMAL, -SMALLEST_NORMAL, 1e308, 1e-308, 1e21, 1e17, 1e17 + 32, 2 ** 53, 0.1, 1e-10, NaN, Infinity, -Infinity];
+const EXTREMES = [
+  0,
+  -0,
+  1,
+  -1,
+  MAX,
+  -MAX,
+  MAX / 2,
+  -MAX / 2,
+  SUBNORMAL,
+  -SUBNORMAL,
+  2 * SUBNORMAL,
+  SMALLEST_NORMAL,
+  -SMALLEST_NORMAL,
+  1e308,
+  1e-308,
+  1e21,
+  1e17,
+  1e17 + 32,
+  2 ** 53,
+  0.1,
+  1e-10,
+  NaN,
+  Infinity,
+  -Infinity,
+];
 
 /** Any double: the whole range (subnormals, ±MAX_VALUE, ±0, NaN and ±Infinity included) weighted toward the extremes. */
 const anyDouble = fc.oneof(fc.double(), fc.constantFrom(...EXTREMES), fc.double({ min: -1e6, max: 1e6, noNaN: true }));
@@ -129,23 +154,28 @@ describe('charts drawn from extreme data', () => {
   it('draws the energy signature, well-formed and without a non-finite token, for any values', () => {
     const point = fc.record({ temp: anyDouble, usePerDay: anyDouble });
     fc.assert(
-      fc.property(fc.array(point, { maxLength: 8 }), fc.array(point, { maxLength: 4 }), fc.array(point, { maxLength: 8 }), (baseline, fittedLine, reporting) => {
-        const svg = renderSignatureSvg({
-          meterName: 'Extreme meter (synthetic)',
-          model: '3PH',
-          version: 1,
-          status: 'frozen',
-          baselineStart: '2024-01-01',
-          baselineEnd: '2025-01-01',
-          temperatureUnit: 'F',
-          useUnit: 'kWh',
-          baseline,
-          fittedLine,
-          reporting,
-        });
-        expect(wellFormedProblems(svg)).toEqual([]);
-        expect(nonFiniteTokens(svg)).toEqual([]);
-      }),
+      fc.property(
+        fc.array(point, { maxLength: 8 }),
+        fc.array(point, { maxLength: 4 }),
+        fc.array(point, { maxLength: 8 }),
+        (baseline, fittedLine, reporting) => {
+          const svg = renderSignatureSvg({
+            meterName: 'Extreme meter (synthetic)',
+            model: '3PH',
+            version: 1,
+            status: 'frozen',
+            baselineStart: '2024-01-01',
+            baselineEnd: '2025-01-01',
+            temperatureUnit: 'F',
+            useUnit: 'kWh',
+            baseline,
+            fittedLine,
+            reporting,
+          });
+          expect(wellFormedProblems(svg)).toEqual([]);
+          expect(nonFiniteTokens(svg)).toEqual([]);
+        },
+      ),
       { seed: SEED, numRuns: 250 },
     );
   });

@@ -78,7 +78,15 @@ describe('renderPeriodComparisonSvg', () => {
     const odd = renderPeriodComparisonSvg({
       title: `]]><script>alert('x')</script>\u0001&#`,
       unit: 'm3 <gas>',
-      periods: [{ start: 'not a date', end: '2030-02-01', actual: Number.NaN, adjustedBaseline: Number.POSITIVE_INFINITY, outsideBaselineRange: true }],
+      periods: [
+        {
+          start: 'not a date',
+          end: '2030-02-01',
+          actual: Number.NaN,
+          adjustedBaseline: Number.POSITIVE_INFINITY,
+          outsideBaselineRange: true,
+        },
+      ],
     });
     expect(wellFormedProblems(odd)).toEqual([]);
     expect(odd).not.toContain('<script>');

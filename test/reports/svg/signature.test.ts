@@ -9,7 +9,6 @@ import { axisScale, tickLabel } from '../../../src/reports/svg/ticks.js';
 import { escapeXml } from '../../../src/reports/svg/xml.js';
 import { wellFormedProblems } from './xml-checks.js';
 
-
 const count = (text: string, needle: string) => text.split(needle).length - 1;
 
 // synthetic: the test sets the truth (an invented heating-dominated building).
@@ -88,7 +87,13 @@ describe('renderSignatureSvg', () => {
   });
 
   it('stays well-formed with a hostile name and an empty chart', () => {
-    const hostile = renderSignatureSvg({ ...CHART, meterName: `]]><script>alert('x')</script>\u0001&#`, baseline: [], fittedLine: [], reporting: [] });
+    const hostile = renderSignatureSvg({
+      ...CHART,
+      meterName: `]]><script>alert('x')</script>\u0001&#`,
+      baseline: [],
+      fittedLine: [],
+      reporting: [],
+    });
     expect(wellFormedProblems(hostile)).toEqual([]);
     expect(hostile).not.toContain('<script>');
   });

@@ -35,7 +35,13 @@ export interface MeterOptions {
 }
 
 /** The meter's readings over the plan. Draws only the meter's own noise from `random`. */
-export function simulateMeter(building: SimulatedBuilding, station: Station, plan: StudyPlan, random: Random, options: MeterOptions = {}): SimulatedMeter {
+export function simulateMeter(
+  building: SimulatedBuilding,
+  station: Station,
+  plan: StudyPlan,
+  random: Random,
+  options: MeterOptions = {},
+): SimulatedMeter {
   const offset = daysBetween(station.start, plan.start);
   if (offset < 0 || offset + plan.days > station.weather.length) throw new RangeError('the station weather does not cover the study');
   const temps = station.weather.slice(offset, offset + plan.days).map((day) => day.temp);

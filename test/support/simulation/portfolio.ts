@@ -37,7 +37,12 @@ export function simulatePortfolio(request: PortfolioRequest): SimulatedPortfolio
   const shared = request.intraClassCorrelation > 0 ? { persistence: request.persistence } : undefined;
   const station = makeStation(request.climate, plan.start, plan.days, random, shared);
   const meters = request.archetypes.map((archetype) => {
-    const building = drawBuilding(archetype, request.climate, { persistence: request.persistence, stationShare: request.intraClassCorrelation }, random);
+    const building = drawBuilding(
+      archetype,
+      request.climate,
+      { persistence: request.persistence, stationShare: request.intraClassCorrelation },
+      random,
+    );
     return simulateMeter(building, station, plan, random);
   });
   return { plan, weather: station.weather, meters };

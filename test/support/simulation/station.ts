@@ -22,7 +22,13 @@ export interface Station {
  * The station over `days` days from `start`. Weather is drawn first, then
  * the shared shocks (only when `sharedShocks` is given).
  */
-export function makeStation(climate: Climate, start: string, days: number, random: Random, sharedShocks?: { persistence: number }): Station {
+export function makeStation(
+  climate: Climate,
+  start: string,
+  days: number,
+  random: Random,
+  sharedShocks?: { persistence: number },
+): Station {
   const weather = stationWeather(climate, start, days, random);
   const shocks = sharedShocks ? stationShocks(days, sharedShocks.persistence, random) : null;
   return { climate, start, weather, shocks };

@@ -37,7 +37,8 @@ export const TWO_YEARS_THEN_ONE: StudyDesign = { baseline: { bills: 24 }, report
 export function planStudy(design: StudyDesign, random: Random): StudyPlan {
   const start = design.start ?? addDays('2030-01-01', random.integer(0, 364));
   const lengths = design.billLengths ?? BILL_LENGTHS;
-  const readsFor = (from: string, span: Span): string[] => ('bills' in span ? billReadDates(from, span.bills, random, lengths) : dailyReadDates(from, span.days));
+  const readsFor = (from: string, span: Span): string[] =>
+    'bills' in span ? billReadDates(from, span.bills, random, lengths) : dailyReadDates(from, span.days);
   const baselineReads = readsFor(start, design.baseline);
   const baselineEnd = baselineReads[baselineReads.length - 1]!;
   const reportingReads = design.reporting ? readsFor(baselineEnd, design.reporting) : [];

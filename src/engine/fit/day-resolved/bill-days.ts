@@ -141,7 +141,7 @@ export function buildBillDays(periods: readonly Period[]): BillDays {
   // Breakpoints: the distinct day temperatures, with the segment weights at each.
   const originals: number[] = [];
   const starts: number[] = [];
-  for (let i = 0; i < totalDays; ) {
+  for (let i = 0; i < totalDays;) {
     const value = originalDay[order[i]!]!;
     originals.push(value);
     starts.push(i);

@@ -120,7 +120,8 @@ export function boundaryOnlyFivePoint(days: BillDays, k: number): FivePointOptim
   // The point (bp[a], bp[b]), allowed there but on no open line next to it.
   if (a <= b && enough(atOrBelow[a]!, k) && enough(flatBetween(a, b), k) && enough(atOrAbove[b]!, k)) {
     const lineNearby = heatingLine(a, b) || heatingLine(a, b - 1) || coolingLine(a - 1, b) || coolingLine(a, b);
-    if (!lineNearby) offer({ heating: breakpoints[a]!, cooling: breakpoints[b]!, sse: fixedFivePointSse(days, breakpoints[a]!, breakpoints[b]!) });
+    if (!lineNearby)
+      offer({ heating: breakpoints[a]!, cooling: breakpoints[b]!, sse: fixedFivePointSse(days, breakpoints[a]!, breakpoints[b]!) });
   }
   return best;
 }
@@ -130,5 +131,7 @@ function lineOptimum(days: BillDays, moving: Side, fixedAt: number, mask: Uint8A
   const fixedSide: Side = moving === 'heating' ? 'cooling' : 'heating';
   const result = sweepHinge(days, moving, hingeColumn(days, fixedSide, fixedAt), mask);
   if (!result) return null;
-  return moving === 'heating' ? { heating: result.tau, cooling: fixedAt, sse: result.sse } : { heating: fixedAt, cooling: result.tau, sse: result.sse };
+  return moving === 'heating'
+    ? { heating: result.tau, cooling: fixedAt, sse: result.sse }
+    : { heating: fixedAt, cooling: result.tau, sse: result.sse };
 }

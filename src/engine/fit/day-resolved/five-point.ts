@@ -135,7 +135,13 @@ function coolingSumsByInterval(days: BillDays): CoolingSums {
   };
   const q = Float64Array.from(mean);
   const r = new Float64Array(n).fill(1);
-  let sq = 0, sr = 0, sqq = 0, sqr = 0, srr = 0, sqy = 0, sry = 0;
+  let sq = 0,
+    sr = 0,
+    sqq = 0,
+    sqr = 0,
+    srr = 0,
+    sqy = 0,
+    sry = 0;
   for (let b = 0; b < n; b++) {
     sq += w[b]! * q[b]!;
     sr += w[b]! * r[b]!;
@@ -364,7 +370,13 @@ export function searchFivePoint(days: BillDays, k: number): FivePointOptimum | n
   const bound = new RowBound();
   let totalWeight = 0;
   for (let b = 0; b < n; b++) totalWeight += w[b]!;
-  let ss = 0, sS = 0, sss = 0, ssS = 0, sSS = 0, ssy = 0, sSy = 0;
+  let ss = 0,
+    sS = 0,
+    sss = 0,
+    ssS = 0,
+    sSS = 0,
+    ssy = 0,
+    sSy = 0;
 
   for (let i = 0; i + 2 < count; i++) {
     for (let d = dayStart[i]!; d < dayStart[i + 1]!; d++) {
@@ -409,7 +421,10 @@ export function searchFivePoint(days: BillDays, k: number): FivePointOptimum | n
     const rowSst = totalSquares - zy1 * zy1 - zy2 * zy2;
 
     // The row's cooling state starts at the heating interval; its first cooling interval is i + 1.
-    let xsQ = 0, xsR = 0, xSQ = 0, xSR = 0;
+    let xsQ = 0,
+      xsR = 0,
+      xSQ = 0,
+      xSR = 0;
     for (let b = 0; b < n; b++) {
       const ws = w[b]! * sI[b]!;
       const wS = w[b]! * SI[b]!;

@@ -14,7 +14,8 @@ export type Side = 'heating' | 'cooling';
 /** Interval j of a one-changepoint shape is allowed when both sides keep k readings' worth of days. */
 export function bothSidesFeasible(days: BillDays, k: number): Uint8Array {
   const allowed = new Uint8Array(days.breakpoints.length);
-  for (let j = 0; j + 1 < allowed.length; j++) allowed[j] = enough(days.weightAtOrBelow[j]!, k) && enough(days.weightAtOrAbove[j + 1]!, k) ? 1 : 0;
+  for (let j = 0; j + 1 < allowed.length; j++)
+    allowed[j] = enough(days.weightAtOrBelow[j]!, k) && enough(days.weightAtOrAbove[j + 1]!, k) ? 1 : 0;
   return allowed;
 }
 
@@ -43,8 +44,19 @@ export function sweepHinge(
   const us = new Float64Array(n);
   const vs = new Float64Array(n);
 
-  let g1u = 0, g1v = 0, geu = 0, gev = 0, guu = 0, guv = 0, gvv = 0, guy = 0, gvy = 0;
-  let g11 = 0, g1e = 0, gee = 0, gey = 0;
+  let g1u = 0,
+    g1v = 0,
+    geu = 0,
+    gev = 0,
+    guu = 0,
+    guv = 0,
+    gvv = 0,
+    guy = 0,
+    gvy = 0;
+  let g11 = 0,
+    g1e = 0,
+    gee = 0,
+    gey = 0;
   for (let b = 0; b < n; b++) {
     const u = side === 'heating' ? 0 : mean[b]!;
     const v = side === 'heating' ? 0 : -1;

@@ -76,7 +76,9 @@ function readingsArbitrary(): fc.Arbitrary<Period[]> {
         const temps = Array.from({ length }, () => Math.round((centre + 12 * (random.uniform() - 0.5)) * 2) / 2);
         const cH = heatingBase / 2;
         const cC = cH + coolingGap / 2;
-        const response = pureNoise ? 100 : 100 + heating * heatingDegreeDaysPerDay(temps, cH) + cooling * coolingDegreeDaysPerDay(temps, cC);
+        const response = pureNoise
+          ? 100
+          : 100 + heating * heatingDegreeDaysPerDay(temps, cH) + cooling * coolingDegreeDaysPerDay(temps, cC);
         periods.push(periodFromDays(day, temps, response + noise * random.normal()));
         day += length;
       }
@@ -101,14 +103,18 @@ describe('exact day-resolved changepoints against a grid-and-polish reference (f
   for (const shape of ['3PC', '3PH', '4P'] as const) {
     it(`${shape}: never worse than the reference, and its SSE is the refit's`, () => {
       fc.assert(
-        fc.property(readingsArbitrary(), fc.integer({ min: 1, max: 3 }), (periods, minPoints) => checkAgainstReference(shape, periods, minPoints)),
+        fc.property(readingsArbitrary(), fc.integer({ min: 1, max: 3 }), (periods, minPoints) =>
+          checkAgainstReference(shape, periods, minPoints),
+        ),
         { numRuns: 40, seed: 20261202 },
       );
     });
   }
   it('5P: never worse than the reference, and its SSE is the refit’s', () => {
     fc.assert(
-      fc.property(readingsArbitrary(), fc.integer({ min: 1, max: 3 }), (periods, minPoints) => checkAgainstReference('5P', periods, minPoints)),
+      fc.property(readingsArbitrary(), fc.integer({ min: 1, max: 3 }), (periods, minPoints) =>
+        checkAgainstReference('5P', periods, minPoints),
+      ),
       { numRuns: 25, seed: 20261203 },
     );
   });
@@ -123,7 +129,15 @@ describe('day-resolved fits of invented buildings', () => {
   }
 
   it('recovers the changepoints and slopes of noiseless data exactly (synthetic)', () => {
-    const building: Building = { base: 20, heatingBelow: 58, heatingRate: 6, coolingAbove: 70, coolingRate: 4, dailyNoise: 0, noisePersistence: 0 };
+    const building: Building = {
+      base: 20,
+      heatingBelow: 58,
+      heatingRate: 6,
+      coolingAbove: 70,
+      coolingRate: 4,
+      dailyNoise: 0,
+      noisePersistence: 0,
+    };
     const periods = bills(building, CLIMATES.temperate, 5);
     const fit = fitShape(periods, '5P', 3, 'daily');
     if (!fit.ok) throw new Error(fit.reason);
@@ -136,7 +150,15 @@ describe('day-resolved fits of invented buildings', () => {
   });
 
   it('a heating-dominated meter in a mild climate: the day-resolved 3PH recovers 20 / −6 / 58 °F where the mean form cannot (synthetic)', () => {
-    const building: Building = { base: 20, heatingBelow: 58, heatingRate: 6, coolingAbove: 200, coolingRate: 0, dailyNoise: 0, noisePersistence: 0 };
+    const building: Building = {
+      base: 20,
+      heatingBelow: 58,
+      heatingRate: 6,
+      coolingAbove: 200,
+      coolingRate: 0,
+      dailyNoise: 0,
+      noisePersistence: 0,
+    };
     const periods = bills(building, CLIMATES.mild, 9);
     const daily = fitShape(periods, '3PH', 3, 'daily');
     const mean = fitShape(periods, '3PH', 3, 'mean');
@@ -152,7 +174,11 @@ describe('day-resolved fits of invented buildings', () => {
   it('for one-day readings the day-resolved fit is the mean-form fit', () => {
     const random = seededRandom(31);
     const weather = dailyWeather(CLIMATES.temperate, '2030-01-01', 400, random);
-    const readings = weather.map((d, i) => ({ start: d.date, end: weather[i + 1]?.date ?? '2031-02-05', quantity: 300 + 8 * Math.max(55 - d.temp, 0) + 10 * random.normal() }));
+    const readings = weather.map((d, i) => ({
+      start: d.date,
+      end: weather[i + 1]?.date ?? '2031-02-05',
+      quantity: 300 + 8 * Math.max(55 - d.temp, 0) + 10 * random.normal(),
+    }));
     const { periods } = alignPeriods(readings.slice(0, 399), weather);
     for (const shape of ['3PC', '3PH', '4P', '5P'] as const) {
       const daily = fitShape(periods, shape, 3, 'daily');
@@ -164,7 +190,15 @@ describe('day-resolved fits of invented buildings', () => {
   });
 
   it('finds the same optimum whatever order the readings come in (to rounding)', () => {
-    const building: Building = { base: 300, heatingBelow: 55, heatingRate: 8, coolingAbove: 68, coolingRate: 10, dailyNoise: 15, noisePersistence: 0.3 };
+    const building: Building = {
+      base: 300,
+      heatingBelow: 55,
+      heatingRate: 8,
+      coolingAbove: 68,
+      coolingRate: 10,
+      dailyNoise: 15,
+      noisePersistence: 0.3,
+    };
     const periods = bills(building, CLIMATES.temperate, 12);
     const reversed = [...periods].reverse();
     for (const shape of ['3PC', '3PH', '4P', '5P'] as const) {
