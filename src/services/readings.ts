@@ -229,6 +229,19 @@ function valuesOf(reading: ReadingInput): ReadingValues {
   return { quantity: reading.quantity, estimated: reading.estimated ? 1 : 0, cost: reading.cost ?? null };
 }
 
+/**
+ * A resent reading's values: a field the caller did not send keeps its stored
+ * value (a corrected quantity never silently erases the stored cost or the
+ * estimated flag); `cost: null` sent explicitly clears the cost.
+ */
+function valuesOver(stored: ReadingRow, reading: ReadingInput): ReadingValues {
+  return {
+    quantity: reading.quantity,
+    estimated: reading.estimated === undefined ? stored.estimated : reading.estimated ? 1 : 0,
+    cost: reading.cost === undefined ? stored.cost : reading.cost,
+  };
+}
+
 function sameValues(stored: ReadingRow, sent: ReadingValues): boolean {
   return stored.quantity === sent.quantity && stored.estimated === sent.estimated && stored.cost === sent.cost;
 }
@@ -256,9 +269,9 @@ function classify(
   let overlapCount = 0;
   for (let index = 0; index < readings.length; index++) {
     const reading = readings[index]!;
-    const values = valuesOf(reading);
     const existing = byKey.get(`${reading.start}/${reading.end}`);
     if (existing) {
+      const values = valuesOver(existing, reading);
       if (sameValues(existing, values)) out.unchanged++;
       else out.corrected.push({ index, before: existing, after: values });
       continue;
@@ -276,7 +289,14 @@ function classify(
     }
     out.created.push({
       index,
-      row: { meter_id: meterId, period_start: reading.start, period_end: reading.end, ...values, created_at: now, updated_at: now },
+      row: {
+        meter_id: meterId,
+        period_start: reading.start,
+        period_end: reading.end,
+        ...valuesOf(reading),
+        created_at: now,
+        updated_at: now,
+      },
     });
   }
   if (overlaps.length > 0) {

@@ -149,6 +149,43 @@ describe('POST /v1/meters/{id}/readings', () => {
     expect(listed.json.readings[0].quantity).toBe(31250); // synthetic: the corrected value
   });
 
+  it("correcting a bill's quantity without resending its cost no longer erases the stored cost", async () => {
+    await api.call('POST', url, { body: { readings: BILLS } });
+    // BILLS[2] carries cost 4160.5 and BILLS[1] the estimated flag; the corrections send neither.
+    const corrected = await api.call('POST', url, {
+      body: {
+        readings: [
+          { start: '2025-03-01', end: '2025-04-01', quantity: 26100 },
+          { start: '2025-02-01', end: '2025-03-01', quantity: 27400 },
+        ],
+        correctionReason: 'meter re-read on site',
+      },
+    });
+    expect(corrected.status).toBe(201);
+    expect(corrected.json.corrected).toBe(2); // synthetic: both quantities changed
+    const listed = (await api.call('GET', url)).json.readings;
+    expect(listed[2]).toMatchObject({ quantity: 26100, cost: 4160.5 }); // synthetic: the cost not sent is kept
+    expect(listed[1]).toMatchObject({ quantity: 27400, estimated: true }); // synthetic: the flag not sent is kept
+    const row = (await auditRows('post-readings'))[1]!;
+    expect(JSON.parse(row.after_json!).corrected[0]).toMatchObject({
+      before: { quantity: 26000, cost: 4160.5 },
+      after: { quantity: 26100, cost: 4160.5 },
+    });
+
+    // The same via CSV with the cost cell left empty; an explicit null in JSON is what clears a cost.
+    const csv = 'start,end,quantity,cost\n2025-03-01,2025-04-01,26200,\n';
+    expect((await api.call('POST', `${url}?correctionReason=re-read`, { csv })).status).toBe(201);
+    expect((await api.call('GET', url)).json.readings[2]).toMatchObject({ quantity: 26200, cost: 4160.5 }); // synthetic: kept
+    const cleared = await api.call('POST', url, {
+      body: {
+        readings: [{ start: '2025-03-01', end: '2025-04-01', quantity: 26200, cost: null }],
+        correctionReason: 'cost was billed twice',
+      },
+    });
+    expect(cleared.json.corrected).toBe(1); // synthetic: only the cost changed
+    expect((await api.call('GET', url)).json.readings[2].cost).toBeNull(); // synthetic: cleared on request
+  });
+
   it('takes the correction reason of a CSV batch from the query', async () => {
     await api.call('POST', url, { body: { readings: [BILLS[0]] } });
     const csv = 'start,end,quantity\n2025-01-01,2025-02-01,30990\n';

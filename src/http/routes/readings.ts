@@ -22,7 +22,7 @@ export function readingsRoutes(app: ApiApp, deps: RouteDeps): void {
         tags: ['readings'],
         summary: 'Post a batch of readings',
         description:
-          'All or nothing. A reading identical to the stored one with the same start and end is counted unchanged; a different one is a correction and needs a correctionReason. A new period overlapping a stored one, or any change inside a frozen baseline window, is refused (409).',
+          'All or nothing. A reading identical to the stored one with the same start and end is counted unchanged; a different one is a correction and needs a correctionReason. A correction changes only the fields it sends: a reading resent without cost or estimated keeps the stored cost and flag (send cost: null to clear a cost). A new period overlapping a stored one, or any change inside a frozen baseline window, is refused (409).',
         security: bearer,
         params: idParams,
         headers: idempotencyHeaders,
