@@ -20,7 +20,38 @@ export interface AuditEntryView {
   prevHash: string;
 }
 
+/**
+ * The entity names users see, mapped to how their rows are filed: readings,
+ * rates and a contract are written as changes to their meter or facility
+ * (the row's entity id is that meter or facility), observations and a
+ * normal year to their weather station. Plurals are accepted too. Any other
+ * name is taken as a stored entity type.
+ */
+export const AUDIT_ENTITY_NAMES: Readonly<Record<string, { entityType: string; actions?: readonly string[] }>> = {
+  reading: { entityType: 'meter', actions: ['post-readings'] },
+  readings: { entityType: 'meter', actions: ['post-readings'] },
+  rate: { entityType: 'meter', actions: ['put-rates'] },
+  rates: { entityType: 'meter', actions: ['put-rates'] },
+  observation: { entityType: 'weather-station', actions: ['upsert-observations'] },
+  observations: { entityType: 'weather-station', actions: ['upsert-observations'] },
+  weather: { entityType: 'weather-station', actions: ['upsert-observations'] },
+  'normal-year': { entityType: 'weather-station', actions: ['put-normal-year'] },
+  contract: { entityType: 'facility', actions: ['put-contract'] },
+  facilities: { entityType: 'facility' },
+  meters: { entityType: 'meter' },
+  'weather-stations': { entityType: 'weather-station' },
+  baselines: { entityType: 'baseline' },
+  adjustments: { entityType: 'adjustment' },
+  'api-keys': { entityType: 'api-key' },
+};
+
+/** How `entity` of a query is looked up: a user-facing name's stored type and actions, or the name itself. */
+export function resolveAuditEntity(entity: string): { entityType: string; actions?: readonly string[] } {
+  return AUDIT_ENTITY_NAMES[entity] ?? { entityType: entity };
+}
+
 export interface AuditFilter {
+  /** A stored entity type or a user-facing name (AUDIT_ENTITY_NAMES). */
   entityType?: string;
   entityId?: string;
   /** A date (its midnight UTC) or a date-time with an offset. */
@@ -59,7 +90,7 @@ export async function listAuditEntries(db: Executor, organisationId: string, fil
   const rows = await listAudit(db, {
     organisationId,
     limit: filter.limit + 1, // one more than asked tells whether another page follows
-    ...(filter.entityType !== undefined ? { entityType: filter.entityType } : {}),
+    ...(filter.entityType !== undefined ? resolveAuditEntity(filter.entityType) : {}),
     ...(filter.entityId !== undefined ? { entityId: filter.entityId } : {}),
     ...(filter.since !== undefined ? { since: sinceAsStoredTime(filter.since) } : {}),
     ...(filter.afterSeq !== undefined ? { afterSeq: filter.afterSeq } : {}),

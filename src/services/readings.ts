@@ -139,8 +139,14 @@ export async function postReadings(
         after: {
           received: result.received,
           unchanged: result.unchanged,
-          // [start, end, quantity, estimated 0/1, cost]: compact, since a batch may hold 50,000.
-          created: classified.created.map(({ row }) => [row.period_start, row.period_end, row.quantity, row.estimated, row.cost]),
+          // Named fields, so the trail reads without a key to its columns.
+          created: classified.created.map(({ row }) => ({
+            start: row.period_start,
+            end: row.period_end,
+            quantity: row.quantity,
+            estimated: row.estimated === 1,
+            cost: row.cost,
+          })),
           corrected: classified.corrected.map(({ before, after }) => ({
             start: before.period_start,
             end: before.period_end,

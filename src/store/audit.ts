@@ -157,6 +157,8 @@ export async function verifyAllAuditChains(
 export interface AuditQuery {
   organisationId: string;
   entityType?: string;
+  /** Only rows of these actions (how readings, rates, contracts... are found under the entity they are filed with). */
+  actions?: readonly string[];
   entityId?: string;
   since?: string;
   limit: number;
@@ -166,6 +168,7 @@ export interface AuditQuery {
 export async function listAudit(db: Executor, query: AuditQuery): Promise<AuditRow[]> {
   let q = db.selectFrom('audit_log').selectAll().where('organisation_id', '=', query.organisationId);
   if (query.entityType) q = q.where('entity_type', '=', query.entityType);
+  if (query.actions && query.actions.length > 0) q = q.where('action', 'in', [...query.actions]);
   if (query.entityId) q = q.where('entity_id', '=', query.entityId);
   if (query.since) q = q.where('at', '>=', query.since);
   if (query.afterSeq !== undefined) q = q.where('seq', '>', query.afterSeq);

@@ -164,7 +164,7 @@ describe.each(PROCESS_COUNTS)(`many concurrent writers on ${testDialect()}, %i s
       .execute();
     expect(distinct).toHaveLength(sent.length); // no period twice
     const readingRows = (await auditRows(store!, 'post-readings')).filter((row) => row.entity_id === ledger.meterId);
-    const auditedStarts = readingRows.map((row) => (JSON.parse(row.after_json ?? '{}').created as [string][])[0]![0]).sort();
+    const auditedStarts = readingRows.map((row) => (JSON.parse(row.after_json ?? '{}').created as { start: string }[])[0]!.start).sort();
     expect(auditedStarts).toEqual(readingBatches.map((batch) => batch[0]!.start).sort()); // one row per batch
 
     // Weather, own dates: exactly what each client put.

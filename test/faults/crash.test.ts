@@ -181,8 +181,8 @@ describe(`crash safety on ${testDialect()}: SIGKILL during writes, restart on th
     // Each committed batch has exactly one post-readings row, naming exactly its readings; no other has one.
     const readingRows = (await auditRows(store, 'post-readings')).filter((row) => row.entity_id === ledger.meterId);
     const audited = readingRows.map((row) => {
-      const created = JSON.parse(row.after_json ?? '{}').created as [string, string, number][];
-      return { start: created[0]![0], count: created.length, total: created.reduce((sum, c) => sum + c[2], 0) };
+      const created = JSON.parse(row.after_json ?? '{}').created as { start: string; quantity: number }[];
+      return { start: created[0]!.start, count: created.length, total: created.reduce((sum, c) => sum + c.quantity, 0) };
     });
     expect(audited).toEqual(present.map((b) => ({ start: b.start, count: b.count, total: b.total })));
 

@@ -186,6 +186,26 @@ describe('POST /v1/meters/{id}/readings', () => {
     expect((await api.call('GET', url)).json.readings[2].cost).toBeNull(); // synthetic: cleared on request
   });
 
+  it('GET /v1/audit?entity=reading returned nothing: readings filed under their meter are found by the name users see', async () => {
+    await api.call('POST', url, { body: { readings: BILLS } });
+    for (const entity of ['reading', 'readings']) {
+      const found = await api.call('GET', `/v1/audit?entity=${entity}&entityId=${meterId}`, { as: 'analyst' });
+      expect(found.status).toBe(200);
+      expect(found.json.entries.map((e: { action: string }) => e.action)).toEqual(['post-readings']); // synthetic: one batch posted
+      // Batch rows carry named fields, not bare arrays.
+      expect(found.json.entries[0].after.created[2]).toEqual({
+        start: '2025-03-01',
+        end: '2025-04-01',
+        quantity: 26000,
+        estimated: false,
+        cost: 4160.5,
+      }); // synthetic: BILLS[2]
+    }
+    // The meter's own rows still include its creation; reading rows are not the meter's creation.
+    const meterRows = await api.call('GET', `/v1/audit?entity=meter&entityId=${meterId}`);
+    expect(meterRows.json.entries.map((e: { action: string }) => e.action)).toEqual(['create', 'post-readings']); // synthetic
+  });
+
   it('takes the correction reason of a CSV batch from the query', async () => {
     await api.call('POST', url, { body: { readings: [BILLS[0]] } });
     const csv = 'start,end,quantity\n2025-01-01,2025-02-01,30990\n';

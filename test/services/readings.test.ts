@@ -87,7 +87,14 @@ describe('postReadings', () => {
     expect(stored.readings[count - 1]).toMatchObject({ start: addDays('2020-01-01', count - 1), days: 1, quantity: count - 1 });
     const audits = await api.store.db.selectFrom('audit_log').select('after_json').where('action', '=', 'post-readings').execute();
     expect(audits).toHaveLength(1); // one row per batch, never per reading
-    expect(JSON.parse(audits[0]!.after_json!).created[0]).toEqual(['2020-01-01', '2020-01-02', 0, 0, null]);
+    // synthetic: the first reading sent, with named fields
+    expect(JSON.parse(audits[0]!.after_json!).created[0]).toEqual({
+      start: '2020-01-01',
+      end: '2020-01-02',
+      quantity: 0,
+      estimated: false,
+      cost: null,
+    });
   });
 
   it('finds a stored period that starts before the batch and reaches into it', async () => {

@@ -17,7 +17,9 @@ export const auditQuery = z
       .string()
       .regex(/^[a-z][a-z-]{0,49}$/, 'must be an entity type such as facility, meter, weather-station, baseline, api-key')
       .optional()
-      .describe('Only rows about this entity type'),
+      .describe(
+        'Only rows about this kind of entity: facility, meter, weather-station, baseline, adjustment, api-key, or one filed under another entity: reading (rows of its meter), rate (its meter), observation (its weather station), normal-year (its weather station), contract (its facility); plurals are accepted',
+      ),
     entityId: plainText().min(1).max(100).optional().describe('Only rows about this entity'),
     since: z
       .string()
