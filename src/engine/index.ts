@@ -11,6 +11,7 @@ import type { AlignedPeriods, DailyTemperature, ExcludedPeriod, ModelName, Perio
 import { alignPeriods, DEFAULT_MIN_COVERAGE, type AlignmentOptions } from './periods.js';
 import { chooseBaseline, type BaselineChoice, type SelectionOptions } from './choose.js';
 import { computeSavings, type SavingsOptions } from './savings.js';
+import { calendarMonths } from './calendar-months.js';
 import { cvrmseLimitForReportingMonths, guideline14Check, type Guideline14Limits } from './guideline14.js';
 import type { ShapeFit } from './fit/fit-shape.js';
 import { fitDocument, type FitDocument, type SavingsDocument } from './documents.js';
@@ -52,8 +53,9 @@ export * from './sufficiency.js';
 export * from './checked-savings.js';
 export { twoSidedNormalQuantile } from './stats/distributions.js';
 
-/** Average length of a calendar month in days (365.25 / 12), for counting reporting months. */
+/** Average length of a calendar month in days (365.25 / 12): an average only; reporting months are counted by calendarMonths. */
 export const DAYS_PER_MONTH = 365.25 / 12;
+export { calendarMonths } from './calendar-months.js';
 
 export interface BaselineAnalysis {
   periods: Period[];
@@ -145,7 +147,8 @@ export function savingsFromAligned(
 ): SavingsDocument {
   const { periods, excluded } = aligned;
   const result = computeSavings(fit, periods, options);
-  const reportingMonths = periods.reduce((days, p) => days + p.days, 0) / DAYS_PER_MONTH;
+  // Calendar months, so a reporting year of 365 or 366 days is 12 months and judged by the 12–60-month limit.
+  const reportingMonths = calendarMonths(periods);
   const limits = { ...baseline.limits, cvrmse: options.cvrmseLimit ?? cvrmseLimitForReportingMonths(reportingMonths) };
   return {
     ...result,
