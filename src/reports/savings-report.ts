@@ -89,6 +89,8 @@ export interface SignatureData {
   temperatureForm: TemperatureForm;
   /** Day-resolved models: each bill's expected use per day (the daily response averaged over its days), at its mean temperature; empty otherwise. */
   expected: { temp: number; usePerDay: number; label: string }[];
+  /** The reporting points are actual use net of each period's non-routine adjustments, (actual − adjustment) / days; false when no period has one. */
+  reportingNetOfAdjustments: boolean;
 }
 
 export interface MeterReport {

@@ -6,6 +6,7 @@
  * version supersedes it and the history keeps both.
  */
 import {
+  adjustmentsForPeriod,
   alignPeriods,
   analyseBaseline,
   baselineSufficiency,
@@ -30,6 +31,7 @@ import { renderSignatureSvg } from '../reports/svg/signature.js';
 import { signatureChartPoints } from '../reports/svg/signature-points.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getMeterRow } from './meters.js';
+import { toEngineAdjustment } from './adjustments.js';
 import { loadDailyWeather, loadReadings, loadWeatherFor, stationUnit } from './meter-data.js';
 
 export interface BaselineFitOptions {
@@ -506,6 +508,17 @@ export async function baselineSignatureSvg(db: Executor, organisationId: string,
     const weather = await loadWeatherFor(db, meter.weather_station_id, readings);
     reporting = alignPeriods(readings, weather, alignment).periods;
   }
+  // Reporting periods are drawn net of their non-routine adjustments, as savings count them.
+  const adjustments =
+    reporting.length === 0
+      ? []
+      : (await db.selectFrom('adjustments').selectAll().where('meter_id', '=', meter.id).where('withdrawn_at', 'is', null).execute()).map(
+          toEngineAdjustment,
+        );
+  const charted = reporting.map((p) => ({
+    ...p,
+    adjustment: adjustments.length > 0 ? adjustmentsForPeriod(adjustments, p.start, p.end) : 0,
+  }));
   const unit = inputs.temperatureUnit;
   return renderSignatureSvg({
     meterName: meter.name,
@@ -516,6 +529,6 @@ export async function baselineSignatureSvg(db: Executor, organisationId: string,
     baselineEnd: row.period_end,
     temperatureUnit: unit,
     useUnit: meter.unit,
-    ...signatureChartPoints(fit, baseline, reporting, unit, meter.unit),
+    ...signatureChartPoints(fit, baseline, charted, unit, meter.unit),
   });
 }

@@ -406,7 +406,13 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
 
 function signatureData(model: FrozenModel, savings: SavingsDocument, unit: string): SignatureData {
   // A reporting period's expected use per day is the model's projection of it: its model baseline over its days.
-  const reporting = savings.periods.map((p) => ({ ...p, usePerDay: p.actual / p.days, expectedPerDay: p.modelBaseline / p.days }));
+  // Each reporting period is drawn net of its non-routine adjustments, so its mark sits against the line as its savings do.
+  const reporting = savings.periods.map((p) => ({
+    ...p,
+    usePerDay: p.actual / p.days,
+    expectedPerDay: p.modelBaseline / p.days,
+    adjustment: p.adjustment,
+  }));
   const series = signatureChartPoints(model.fit, model.baselinePeriods, reporting, model.temperatureUnit, unit);
   const labelled = (points: typeof series.baseline) => points.map((p) => ({ temp: p.temp, usePerDay: p.usePerDay, label: p.label ?? '' }));
   return {
@@ -416,5 +422,6 @@ function signatureData(model: FrozenModel, savings: SavingsDocument, unit: strin
     fittedLine: series.fittedLine.map((p) => ({ temp: p.temp, usePerDay: p.usePerDay })),
     temperatureForm: series.temperatureForm,
     expected: labelled(series.expected),
+    reportingNetOfAdjustments: series.reportingNetOfAdjustments,
   };
 }

@@ -76,10 +76,14 @@ function signature(meter: MeterReport): string {
     reporting: s.reporting,
     temperatureForm: s.temperatureForm,
     expected: s.expected,
+    reportingNetOfAdjustments: s.reportingNetOfAdjustments,
   });
+  const net = s.reportingNetOfAdjustments
+    ? ' Reporting periods are drawn net of their non-routine adjustments (actual − adjustment, per day), so each sits against the line as its avoided energy does.'
+    : '';
   const caption =
     s.temperatureForm === 'daily'
       ? `Energy signature: use per day against mean outdoor temperature, baseline periods and this window's reporting periods around the frozen ${b.model} model's daily response (drawn over the daily temperatures it saw); a tick marks each bill's expected use, the daily response averaged over its own days.`
       : `Energy signature: use per day against mean outdoor temperature, baseline periods around the frozen ${b.model} model and this window's reporting periods.`;
-  return chartFigure('signature', svg, caption);
+  return chartFigure('signature', svg, caption + net);
 }

@@ -30,6 +30,12 @@ export interface ChartPeriod {
   usePerDay: number;
   dayTemps?: readonly number[];
   expectedPerDay?: number;
+  /**
+   * Non-routine adjustments falling in the period (+ adds to the adjusted
+   * baseline). A reporting period is drawn net of it, (actual − adjustment)
+   * per day, so its mark sits against the model's line as its savings do.
+   */
+  adjustment?: number;
 }
 
 export interface SignatureSeries {
@@ -40,19 +46,31 @@ export interface SignatureSeries {
   fittedLine: SignaturePoint[];
   /** Day-resolved models: each bill's expected use per day (the model's mean over its days), at its mean temperature; empty otherwise. */
   expected: SignaturePoint[];
+  /** Reporting periods are drawn net of their non-routine adjustments (some period has one). */
+  reportingNetOfAdjustments: boolean;
 }
 
 function degreeOf(unit: TemperatureUnit): string {
   return unit === 'F' ? '°F' : '°C';
 }
 
-/** A period at its mean temperature, its dates and figures as the mark's tooltip. */
+/** A period at its mean temperature, its dates and figures as the mark's tooltip; net of its non-routine adjustments when it has any. */
 export function chartPoint(period: ChartPeriod, unit: TemperatureUnit, useUnit: string): SignaturePoint {
+  const where = `${period.start} to ${period.end}: ${period.meanTemp.toFixed(1)} ${degreeOf(unit)}`;
+  const adjustment = period.adjustment ?? 0;
+  if (adjustment === 0)
+    return { temp: period.meanTemp, usePerDay: period.usePerDay, label: `${where}, ${period.usePerDay.toPrecision(4)} ${useUnit}/day` };
+  const net = period.usePerDay - adjustment / period.days;
   return {
     temp: period.meanTemp,
-    usePerDay: period.usePerDay,
-    label: `${period.start} to ${period.end}: ${period.meanTemp.toFixed(1)} ${degreeOf(unit)}, ${period.usePerDay.toPrecision(4)} ${useUnit}/day`,
+    usePerDay: net,
+    label: `${where}, ${net.toPrecision(4)} ${useUnit}/day net of non-routine adjustments (actual ${period.usePerDay.toPrecision(4)}, adjustment ${(adjustment / period.days).toPrecision(4)} ${useUnit}/day)`,
   };
+}
+
+/** Whether any reporting period is drawn net of adjustments (the chart then says so). */
+export function anyAdjusted(periods: readonly ChartPeriod[]): boolean {
+  return periods.some((p) => (p.adjustment ?? 0) !== 0);
 }
 
 /**
@@ -109,5 +127,6 @@ export function signatureChartPoints(
     reporting: reporting.map((p) => chartPoint(p, unit, useUnit)),
     fittedLine: fittedVertices(fit),
     expected,
+    reportingNetOfAdjustments: anyAdjusted(reporting),
   };
 }

@@ -43,6 +43,18 @@ export interface SignatureChartData {
   temperatureForm?: 'daily' | 'mean';
   /** Day-resolved models: each bill's expected use per day at its mean temperature. */
   expected?: readonly SignaturePoint[];
+  /** The reporting points are actual use net of non-routine adjustments (the legend and a note say so). Default false. */
+  reportingNetOfAdjustments?: boolean;
+}
+
+/** The chart's note when reporting periods are drawn net of their non-routine adjustments. */
+export const NET_OF_ADJUSTMENTS_NOTE =
+  'Reporting periods are drawn net of their non-routine adjustments (actual − adjustment), so each sits against the line as its avoided energy does.';
+
+function reportingLabel(data: SignatureChartData): string {
+  return data.reportingNetOfAdjustments
+    ? `Reporting periods, net of adjustments (${data.reporting.length})`
+    : `Reporting periods (${data.reporting.length})`;
 }
 
 /** The chart's note on a day-resolved model: why a bill's expected use sits above the line. */
@@ -76,11 +88,12 @@ export function renderSignatureSvg(data: SignatureChartData): string {
   const description = daily
     ? `${data.baseline.length} baseline periods, ${data.reporting.length} reporting periods, the ${data.model} model's daily response over the daily temperatures it saw, and ${expected.length} bills' expected use (the response averaged over each bill's days); use per day in ${data.useUnit}/day against mean outdoor temperature in ${degree}.`
     : `${data.baseline.length} baseline periods, ${data.reporting.length} reporting periods, fitted ${data.model} line; use per day in ${data.useUnit}/day against mean outdoor temperature in ${degree}.`;
+  const netNote = data.reportingNetOfAdjustments ? ` ${NET_OF_ADJUSTMENTS_NOTE}` : '';
 
   const parts: string[] = [
     `<svg xmlns="http://www.w3.org/2000/svg" width="${WIDTH}" height="${HEIGHT}" viewBox="0 0 ${WIDTH} ${HEIGHT}" role="img" font-family="${escapeXml(FONT)}">`,
     element('title', {}, escapeXml(title)),
-    element('desc', {}, escapeXml(description)),
+    element('desc', {}, escapeXml(description + netNote)),
     element('rect', { x: 0, y: 0, width: WIDTH, height: HEIGHT, fill: PALETTE.paper }),
     element('text', { x: 24, y: 32, 'font-size': 18, 'font-weight': '600', fill: PALETTE.ink }, escapeXml(title)),
     element('text', { x: 24, y: 54, 'font-size': 12.5, fill: PALETTE.frame }, escapeXml(subtitle)),
@@ -91,13 +104,20 @@ export function renderSignatureSvg(data: SignatureChartData): string {
     reportingMarks(data.reporting, px, py),
     expectedMarks(expected, px, py),
     daily ? dailyLegend(data, expected.length) : legend(data),
-    daily && expected.length > 0 ? note(DAY_RESOLVED_NOTE) : '',
+    chartNote(daily && expected.length > 0, data.reportingNetOfAdjustments === true && data.reporting.length > 0),
     '</svg>',
   ];
   return `${parts.join('\n')}\n`;
 }
 
 type Project = (value: number) => number;
+
+/** The note under the legend: the day-resolved tick's meaning and/or that reporting marks are net of adjustments. */
+function chartNote(dayResolved: boolean, netOfAdjustments: boolean): string {
+  const texts = [dayResolved ? DAY_RESOLVED_NOTE : '', netOfAdjustments ? NET_OF_ADJUSTMENTS_NOTE : ''].filter((t) => t !== '');
+  // One line each, the last at the foot of the chart.
+  return texts.map((t, i) => note(t, HEIGHT - 6 - 13 * (texts.length - 1 - i))).join('');
+}
 
 function grid(x: AxisScale, y: AxisScale, px: Project, py: Project): string {
   const lines = [
@@ -211,13 +231,9 @@ function expectedMarks(points: readonly SignaturePoint[], px: Project, py: Proje
 }
 
 /** The note on a day-resolved chart, on the bottom line, its size fitted to the width (about 0.52 em per character of running text). */
-function note(text: string): string {
+function note(text: string, y: number = HEIGHT - 6): string {
   const fontSize = Math.min(11, (WIDTH - 48) / (text.length * 0.52));
-  return element(
-    'text',
-    { class: 'chart-note', x: 24, y: HEIGHT - 6, fill: PALETTE.frame, 'font-size': Number(fontSize.toFixed(2)) },
-    escapeXml(text),
-  );
+  return element('text', { class: 'chart-note', x: 24, y, fill: PALETTE.frame, 'font-size': Number(fontSize.toFixed(2)) }, escapeXml(text));
 }
 
 /** The day-resolved chart's legend: four items from the left edge, a little smaller. */
@@ -238,7 +254,7 @@ function dailyLegend(data: SignatureChartData, expected: number): string {
     items.push(
       element('path', { d: diamondPath(cursor + 8, rowY, DIAMOND), fill: PALETTE.paper, stroke: PALETTE.reporting, 'stroke-width': 1.8 }),
     );
-    label(`Reporting periods (${data.reporting.length})`);
+    label(reportingLabel(data));
   }
   if (expected > 0) {
     items.push(
@@ -258,7 +274,7 @@ function dailyLegend(data: SignatureChartData, expected: number): string {
 function legend(data: SignatureChartData): string {
   const baseline = `Baseline periods (${data.baseline.length})`;
   const line = `Fitted ${data.model} model`;
-  const reporting = `Reporting periods (${data.reporting.length})`;
+  const reporting = reportingLabel(data);
   const fontSize = 12;
   const rowY = HEIGHT - 26;
   let cursor = PLOT.left;

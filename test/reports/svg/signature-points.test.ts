@@ -6,6 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import { alignPeriods, analyseBaseline, predictPeriodPerDay, type ShapeFit } from '../../../src/engine/index.js';
 import { fittedVertices, signatureChartPoints, type ChartPeriod } from '../../../src/reports/svg/signature-points.js';
+import { NET_OF_ADJUSTMENTS_NOTE, renderSignatureSvg } from '../../../src/reports/svg/signature.js';
 import { CLIMATES, SAMPLE_BUILDING, dailyWeather, monthlyReadings, seededRandom } from '../../support/synthetic.js';
 
 // An invented day-resolved 3PH: 20 per day plus 6 per degree below 60 (raw coefficients [b0, b1] on (60 − T)₊).
@@ -77,5 +78,35 @@ describe('signatureChartPoints', () => {
     });
     expect(series.fittedLine[0]!.temp).toBe(fit.dayTemperatureRange!.min);
     expect(series.fittedLine.at(-1)!.temp).toBe(fit.dayTemperatureRange!.max);
+  });
+});
+
+describe('the signature chart contradicted the table when a non-routine adjustment applied', () => {
+  it('draws a reporting period net of its adjustment, so it sits below the line when the table says energy was saved (hand-worked)', () => {
+    const mean = { ...DAILY_3PH, temperatureForm: 'mean', dayTemperatureRange: null } as unknown as ShapeFit;
+    // At 50 degrees the line gives 20 + 6·10 = 80 a day. The period used 90 a day, but 620 over its 31 days (20 a day)
+    // is added load the adjustment accounts for: adjusted baseline 100 a day, 10 a day saved; net of it, 70 < 80.
+    const period: ChartPeriod = { start: '2031-01-01', end: '2031-02-01', days: 31, meanTemp: 50, usePerDay: 90, adjustment: 620 };
+    const plain: ChartPeriod = { start: '2031-02-01', end: '2031-03-01', days: 28, meanTemp: 50, usePerDay: 75 };
+    const series = signatureChartPoints(mean, [], [period, plain], 'F', 'kWh');
+    expect(series.reporting[0]!.usePerDay).toBeCloseTo(70, 12); // hand-worked: 90 − 620/31
+    expect(series.reporting[0]!.label).toContain('net of non-routine adjustments');
+    expect(series.reporting[1]!.usePerDay).toBe(75); // no adjustment: as metered
+    expect(series.reportingNetOfAdjustments).toBe(true);
+    expect(signatureChartPoints(mean, [], [plain], 'F', 'kWh').reportingNetOfAdjustments).toBe(false);
+
+    const svg = renderSignatureSvg({
+      meterName: 'Invented meter',
+      model: '3PH',
+      version: 1,
+      status: 'frozen',
+      baselineStart: '2030-01-01',
+      baselineEnd: '2031-01-01',
+      temperatureUnit: 'F',
+      useUnit: 'kWh',
+      ...series,
+    });
+    expect(svg).toContain('Reporting periods, net of adjustments (2)');
+    expect(svg).toContain(NET_OF_ADJUSTMENTS_NOTE.slice(0, 40));
   });
 });
