@@ -7,7 +7,7 @@
  * left out with its reason stated, never silently.
  */
 import type { AlignedPeriods, DailyTemperature, ExcludedPeriod, Period, Reading } from './types.js';
-import { parseIsoDate } from './dates.js';
+import { formatDayNumber, parseIsoDate } from './dates.js';
 
 export interface AlignmentOptions {
   /** Minimum share of a period's days that must have a temperature (0..1). Default 0.9. */
@@ -90,4 +90,41 @@ function indexByDayNumber(weather: readonly DailyTemperature[] | ReadonlyMap<str
 
 function formatPercent(fraction: number): string {
   return `${(fraction * 100).toFixed(fraction * 100 === Math.round(fraction * 100) ? 0 : 1)}%`;
+}
+
+/**
+ * The days of `periods` that have no daily temperature, as merged date
+ * ranges [start, end) in date order: what an error names when readings
+ * cannot be used for want of weather.
+ */
+export function missingWeatherDates(
+  periods: readonly { start: string; end: string }[],
+  weather: readonly DailyTemperature[] | ReadonlyMap<string, number>,
+): { start: string; end: string; days: number }[] {
+  const byDay = indexByDayNumber(weather);
+  const missing = new Set<number>();
+  for (const period of periods) {
+    const first = parseIsoDate(period.start);
+    const end = parseIsoDate(period.end);
+    if (first === null || end === null) continue;
+    for (let d = first; d < end; d++) if (!byDay.has(d)) missing.add(d);
+  }
+  const days = [...missing].sort((a, b) => a - b);
+  const ranges: { start: string; end: string; days: number }[] = [];
+  for (let i = 0; i < days.length; ) {
+    let j = i;
+    while (j + 1 < days.length && days[j + 1] === days[j]! + 1) j++;
+    ranges.push({ start: formatDayNumber(days[i]!), end: formatDayNumber(days[j]! + 1), days: j - i + 1 });
+    i = j + 1;
+  }
+  return ranges;
+}
+
+/** "2026-01-01..2026-02-01 (31 days), 2026-03-05..2026-03-06 (1 day)", at most `limit` ranges and how many more. */
+export function describeDateRanges(ranges: readonly { start: string; end: string; days: number }[], limit = 5): string {
+  const shown = ranges
+    .slice(0, limit)
+    .map((r) => `${r.start}..${r.end} (${r.days} day${r.days === 1 ? '' : 's'})`)
+    .join(', ');
+  return ranges.length > limit ? `${shown} and ${ranges.length - limit} more range(s)` : shown;
 }

@@ -5,7 +5,11 @@
  * notice, caution). Deterministic: numbers are written with at most six
  * decimals and no exponent, so the same report gives the same bytes.
  * Columns are only ever added at the end, so a reader that counts them keeps
- * working: temperature_form (a meter row's frozen form, daily or mean).
+ * working: temperature_form (a meter row's frozen form, daily or mean);
+ * cost_guaranteed and cost_difference (a cost guarantee's money, which
+ * before shared guaranteed and difference with energy). Energy and money
+ * never share a column: `unit` names the energy columns' unit, `currency`
+ * the money columns', and money is written to the currency's minor unit.
  */
 import type { EnergyTotal, MeterReport, SavingsReport } from './savings-report.js';
 
@@ -36,10 +40,39 @@ export const CSV_COLUMNS = [
   'outside_baseline_range',
   'note',
   'temperature_form',
+  'cost_guaranteed',
+  'cost_difference',
 ] as const;
 
 type Column = (typeof CSV_COLUMNS)[number];
+
 type Row = Partial<Record<Column, string | number | boolean | null>>;
+
+/** Money columns: written to the currency's minor unit (two decimals for USD, none for JPY, three for KWD). */
+const MONEY_COLUMNS: ReadonlySet<Column> = new Set<Column>(['cost_avoided', 'cost_uncertainty', 'cost_guaranteed', 'cost_difference']);
+
+/**
+ * Decimals of a currency's minor unit, from ISO 4217 as ICU carries it
+ * (Intl); 2 for a code ICU does not know.
+ */
+export function minorUnitDigits(currency: string): number {
+  try {
+    return new Intl.NumberFormat('en', { style: 'currency', currency }).resolvedOptions().maximumFractionDigits ?? 2;
+  } catch {
+    return 2;
+  }
+}
+
+/** An amount of money as plain decimal text at the currency's minor unit, halves away from zero, no "-0". */
+export function csvMoney(value: number, currency: string): string {
+  if (!Number.isFinite(value)) return '';
+  const digits = minorUnitDigits(currency);
+  const scale = 10 ** digits;
+  // Round the six-decimal text first, so 2.675 (stored as 2.67499…) is a half and goes up, as a reader expects.
+  const exact = Number(csvNumber(value));
+  const rounded = (Math.sign(exact) * Math.round(Math.abs(exact) * scale)) / scale;
+  return rounded === 0 ? (0).toFixed(digits) : rounded.toFixed(digits);
+}
 
 /** A number as plain decimal text: at most six decimals, no exponent, no "-0". */
 export function csvNumber(value: number): string {
@@ -136,8 +169,9 @@ export function renderReportCsv(report: SavingsReport): string {
           end: g.measuredThrough,
           cost_avoided: g.cost.measured,
           cost_uncertainty: g.cost.uncertainty,
-          guaranteed: g.cost.guaranteed,
-          difference: g.cost.difference,
+          // Money in its own columns: guaranteed and difference hold energy only.
+          cost_guaranteed: g.cost.guaranteed,
+          cost_difference: g.cost.difference,
           note,
         });
       }
@@ -147,8 +181,17 @@ export function renderReportCsv(report: SavingsReport): string {
   for (const notice of report.notices) rows.push({ record: 'notice', note: notice });
   rows.push({ record: 'caution', note: report.caution });
 
-  const lines = [CSV_COLUMNS.join(','), ...rows.map((row) => CSV_COLUMNS.map((column) => cell(row[column])).join(','))];
+  const lines = [CSV_COLUMNS.join(','), ...rows.map(line)];
   return `${lines.join('\r\n')}\r\n`;
+}
+
+/** One row's cells; money at its currency's minor unit. */
+function line(row: Row): string {
+  return CSV_COLUMNS.map((column) => {
+    const value = row[column];
+    if (MONEY_COLUMNS.has(column) && typeof value === 'number' && typeof row.currency === 'string') return csvMoney(value, row.currency);
+    return cell(value);
+  }).join(',');
 }
 
 /** The parts of a meter's combined ± when adjustments carry one of their own. */

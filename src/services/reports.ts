@@ -6,6 +6,8 @@
  */
 import {
   contractYearsOverlapping,
+  describeDateRanges,
+  missingWeatherDates,
   contractYearWindow,
   alignPeriods,
   inWindowByMidpoint,
@@ -143,9 +145,15 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
   const reportingMeters = facilities.flatMap((f) => f.meters).filter((m) => m.missing === null).length;
   if (reportingMeters === 0) {
     const scope = query.facilityId ? `facility ${query.facilityId}` : 'this organisation';
+    // Each meter's own reason, the ones missing weather first: that is the cause a user can fix.
+    const reasons = facilities
+      .flatMap((f) => f.meters.map((m) => ({ field: `meter ${m.id} (${m.name})`, message: m.missing ?? '' })))
+      .sort((a, b) => Number(b.message.startsWith('missing weather')) - Number(a.message.startsWith('missing weather')));
+    const first = reasons[0];
     throw new Problem(
       'unprocessable',
-      `no meter of ${scope} has reporting data in ${window.label} (${window.from}..${window.to}): nothing to report; readings count in the window that holds their midpoint`,
+      `no meter of ${scope} has reporting data in ${window.label} (${window.from}..${window.to})${first ? `: ${first.field}: ${first.message}${reasons.length > 1 ? ` (and ${reasons.length - 1} more meter(s), listed in errors)` : ''}` : ''}; readings count in the window that holds their midpoint`,
+      reasons.slice(0, 100),
     );
   }
   return assembleReport({
@@ -367,10 +375,12 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     });
   } catch (error) {
     if (!(error instanceof RangeError)) throw error;
+    // Name the real cause: the dates without weather at the meter's station.
+    const missingDates = describeDateRanges(missingWeatherDates(readings, weather));
     return missingMeterReport(
       identity,
       baselineInfo,
-      `${error.message} (every reporting reading in the window lacks weather)`,
+      `missing weather for dates ${missingDates} at weather station ${meter.weather_station_id}: every reporting reading in the window lacks enough weather (post observations to PUT /v1/weather-stations/${meter.weather_station_id}/observations)`,
       overlapping,
     );
   }

@@ -14,6 +14,8 @@ import {
   reportingExtrapolation,
   savingsFromAligned,
   withProjectionChecks,
+  describeDateRanges,
+  missingWeatherDates,
   type BaselineSufficiency,
   type CheckedSavingsDocument,
   type ExcludedPeriod,
@@ -176,9 +178,12 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
     if (!(error instanceof RangeError)) throw error;
     const { excluded } = aligned;
     const reasons = excluded.map((p) => `reading ${p.start}..${p.end}: ${p.reason}`).join('; ');
+    const missing = missingWeatherDates(excluded, weather);
+    const cause =
+      missing.length > 0 ? `missing weather for dates ${describeDateRanges(missing)} at weather station ${meter.weather_station_id}: ` : '';
     throw new Problem(
       'unprocessable',
-      `${error.message}${reasons ? `: ${reasons}` : ''}`,
+      `${cause}${error.message}${reasons ? `: ${reasons}` : ''}`,
       excluded.map((p) => ({ field: `reading ${p.start}..${p.end}`, message: p.reason })),
     );
   }

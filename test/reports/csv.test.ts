@@ -5,7 +5,8 @@
  * hand-worked number text.
  */
 import { describe, expect, it } from 'vitest';
-import { csvNumber, csvText, CSV_COLUMNS, renderReportCsv } from '../../src/reports/csv.js';
+import { parse } from 'csv-parse/sync';
+import { csvMoney, csvNumber, csvText, CSV_COLUMNS, minorUnitDigits, renderReportCsv } from '../../src/reports/csv.js';
 import { IDS, LIBRARY_OVERRIDE_REASON, SAMPLE_REPORT } from './fixtures/sample-report.js';
 
 describe('csvNumber', () => {
@@ -51,11 +52,12 @@ describe('a meter row of the sample report', () => {
   const rows = renderReportCsv(SAMPLE_REPORT).split('\r\n');
   const meterRow = (id: string) => rows.find((row) => row.startsWith('meter,') && row.includes(id))!;
 
-  it('ends with the temperature_form column, added after every earlier column', () => {
-    expect(CSV_COLUMNS.slice(-2)).toEqual(['note', 'temperature_form']);
-    expect(meterRow(IDS.libraryElectricity).endsWith(',daily')).toBe(true);
-    expect(meterRow(IDS.hallGas).endsWith(',mean')).toBe(true);
-    expect(meterRow(IDS.libraryGas).endsWith(',')).toBe(true); // no baseline, no form
+  it('has the temperature_form column after every earlier column, and the money columns added after it', () => {
+    expect(CSV_COLUMNS.slice(-4)).toEqual(['note', 'temperature_form', 'cost_guaranteed', 'cost_difference']);
+    const form = (id: string) => parse(meterRow(id))[0]![CSV_COLUMNS.indexOf('temperature_form')];
+    expect(form(IDS.libraryElectricity)).toBe('daily');
+    expect(form(IDS.hallGas)).toBe('mean');
+    expect(form(IDS.libraryGas)).toBe(''); // no baseline, no form
   });
 
   it('carries the baseline notes (an override and its reason) and the parts of the combined ±', () => {
@@ -65,5 +67,39 @@ describe('a meter row of the sample report', () => {
     expect(rows.find((row) => row.startsWith('adjustment,') && row.includes(IDS.libraryAdjustment))).toContain(
       'stated standard uncertainty of its total: 600 kWh',
     );
+  });
+});
+
+describe('CSV money carried sub-cent digits and shared columns with energy', () => {
+  it("writes money to the currency's minor unit (ISO 4217 minor units, as ICU carries them)", () => {
+    expect(minorUnitDigits('USD')).toBe(2); // ISO 4217: 2
+    expect(minorUnitDigits('JPY')).toBe(0); // ISO 4217: 0
+    expect(minorUnitDigits('KWD')).toBe(3); // ISO 4217: 3
+    expect(csvMoney(1234.5, 'USD')).toBe('1234.50');
+    expect(csvMoney(2.675, 'EUR')).toBe('2.68'); // hand-worked: a half goes away from zero
+    expect(csvMoney(-2.675, 'EUR')).toBe('-2.68');
+    expect(csvMoney(1234.5, 'JPY')).toBe('1235');
+    expect(csvMoney(-0.001, 'USD')).toBe('0.00'); // no "-0"
+  });
+
+  it('puts a cost guarantee in its own money columns and every money cell at two decimals (the sample is in USD)', () => {
+    const table = parse(renderReportCsv(SAMPLE_REPORT)) as string[][];
+    const column = (name: (typeof CSV_COLUMNS)[number]) => CSV_COLUMNS.indexOf(name);
+    const body = table.slice(1);
+    const guarantees = body.filter((r) => r[0] === 'guarantee');
+    const cost = guarantees.find((r) => r[column('currency')] !== '')!;
+    const energy = guarantees.find((r) => r[column('unit')] !== '')!;
+    expect(cost[column('guaranteed')]).toBe(''); // money never in an energy column
+    expect(cost[column('difference')]).toBe('');
+    expect(cost[column('cost_guaranteed')]).toMatch(/^-?\d+\.\d{2}$/);
+    expect(cost[column('cost_difference')]).toMatch(/^-?\d+\.\d{2}$/);
+    expect(energy[column('cost_guaranteed')]).toBe(''); // energy never in a money column
+    expect(energy[column('guaranteed')]).not.toBe('');
+    for (const row of body) {
+      for (const name of ['cost_avoided', 'cost_uncertainty', 'cost_guaranteed', 'cost_difference'] as const) {
+        const value = row[column(name)]!;
+        if (value !== '') expect(value, `${row[0]} ${name}`).toMatch(/^-?\d+\.\d{2}$/); // USD: two decimals
+      }
+    }
   });
 });
