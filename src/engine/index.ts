@@ -17,7 +17,14 @@ import type { ShapeFit } from './fit/fit-shape.js';
 import { fitDocument, type FitDocument, type SavingsDocument } from './documents.js';
 
 export * from './types.js';
-export { alignPeriods, indexWeather, DEFAULT_MIN_COVERAGE, missingWeatherDates, describeDateRanges, type AlignmentOptions } from './periods.js';
+export {
+  alignPeriods,
+  indexWeather,
+  DEFAULT_MIN_COVERAGE,
+  missingWeatherDates,
+  describeDateRanges,
+  type AlignmentOptions,
+} from './periods.js';
 export { checkReadings, checkWeather, type InputProblem } from './validate.js';
 export * from './bounds.js';
 export {

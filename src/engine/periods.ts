@@ -111,7 +111,7 @@ export function missingWeatherDates(
   }
   const days = [...missing].sort((a, b) => a - b);
   const ranges: { start: string; end: string; days: number }[] = [];
-  for (let i = 0; i < days.length; ) {
+  for (let i = 0; i < days.length;) {
     let j = i;
     while (j + 1 < days.length && days[j + 1] === days[j]! + 1) j++;
     ranges.push({ start: formatDayNumber(days[i]!), end: formatDayNumber(days[j]! + 1), days: j - i + 1 });

@@ -46,6 +46,7 @@ export function facilityReport(input: FacilityInput, rollup: Rollup): FacilityRe
     ...input,
     totals: sumCommonTotals(commonParts(input.meters), rollup),
     cost: sumCosts(costParts(input.meters), rollup),
+    metersWithData: input.meters.filter((m) => m.missing === null).length,
   };
 }
 
@@ -107,9 +108,13 @@ export function reportContentHash(report: Omit<SavingsReport, 'contentHash'> | S
 function notices(facilities: readonly FacilityReport[]): string[] {
   const out: string[] = [];
   for (const facility of facilities) {
+    if (facility.metersWithData === 0 && facility.meters.length > 0)
+      out.push(
+        `${facility.name}: no data in this window: no meter has reporting figures; the facility is left out of the portfolio's sums`,
+      );
     for (const meter of facility.meters) {
       const where = `${facility.name}, ${meter.name}`;
-      if (meter.missing !== null) out.push(`${where}: no figures in this window: ${meter.missing}`);
+      if (meter.missing !== null) out.push(`${where}: no data in this window, left out of the sums: ${meter.missing}`);
       for (const note of meter.notes) out.push(`${where}: ${note}`);
       if (meter.commonNote !== null) out.push(`${where}: ${meter.commonNote}`);
       if (meter.missing === null && meter.cost === null) out.push(`${where}: no contract rates: cost avoided is not stated`);
@@ -125,7 +130,11 @@ function notices(facilities: readonly FacilityReport[]): string[] {
       }
     }
     for (const status of facility.guarantees) {
-      if (!status.complete)
+      if (status.metersWithData === 0)
+        out.push(
+          `${facility.name}: contract year ${status.contractYear}: no data in this window: nothing measured, so no shortfall or surplus is stated`,
+        );
+      else if (!status.complete)
         out.push(
           `${facility.name}: contract year ${status.contractYear} is not complete: measured through ${status.measuredThrough} against the whole year's guarantee`,
         );

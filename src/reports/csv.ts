@@ -132,8 +132,11 @@ export function renderReportCsv(report: SavingsReport): string {
 
   for (const facility of report.facilities) {
     const f = { facility_id: facility.id, facility: facility.name };
-    for (const unit of ['MMBtu', 'GJ'] as const)
-      rows.push({ record: 'facility', ...f, ...totalRow(facility.totals[unit]), start: w.from, end: w.to });
+    if (facility.metersWithData === 0 && facility.meters.length > 0)
+      rows.push({ record: 'facility', ...f, start: w.from, end: w.to, note: 'no data in this window (left out of the sums)' });
+    else
+      for (const unit of ['MMBtu', 'GJ'] as const)
+        rows.push({ record: 'facility', ...f, ...totalRow(facility.totals[unit]), start: w.from, end: w.to });
     for (const cost of facility.cost)
       rows.push({
         record: 'facility',
@@ -146,6 +149,30 @@ export function renderReportCsv(report: SavingsReport): string {
       });
     for (const g of facility.guarantees) {
       const note = `contract year ${g.contractYear}${g.complete ? '' : ', not complete'}`;
+      if (g.metersWithData === 0) {
+        // Nothing measured: no figures, so no shortfall is read off an empty sum.
+        if (g.energy)
+          rows.push({
+            record: 'guarantee',
+            ...f,
+            unit: g.energy.unit,
+            start: g.yearStart,
+            end: g.measuredThrough,
+            guaranteed: g.energy.guaranteed,
+            note: `${note}; no data in this window`,
+          });
+        if (g.cost)
+          rows.push({
+            record: 'guarantee',
+            ...f,
+            currency: g.cost.currency,
+            start: g.yearStart,
+            end: g.measuredThrough,
+            cost_guaranteed: g.cost.guaranteed,
+            note: `${note}; no data in this window`,
+          });
+        continue;
+      }
       if (g.energy) {
         rows.push({
           record: 'guarantee',
@@ -217,7 +244,7 @@ function meterRows(f: Row, meter: MeterReport, w: { from: string; to: string }):
         unit: meter.unit,
         start: w.from,
         end: w.to,
-        note: `no figures: ${meter.missing}${notesText(meter)}`,
+        note: `no data in this window (left out of the sums): ${meter.missing}${notesText(meter)}`,
         temperature_form: form,
       },
     ];

@@ -72,6 +72,7 @@ export function guaranteeStatus(contract: ContractSummary, figures: ContractYear
       contract,
     ),
     notes,
+    metersWithData: withFigures.length,
   };
 }
 

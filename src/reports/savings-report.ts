@@ -176,6 +176,12 @@ export interface GuaranteeStatus {
   cumulative: { end: string; energy: number; cost: number | null }[];
   /** What limits the comparison: meters left out of it, a guarantee that cannot be measured. */
   notes: string[];
+  /**
+   * Meters with reporting figures in the year to date; 0 means no data in
+   * this window: `measured` and `difference` then stand for nothing and no
+   * shortfall or surplus is stated.
+   */
+  metersWithData: number;
 }
 
 export interface ContractSummary {
@@ -197,6 +203,12 @@ export interface FacilityReport {
   /** Cost by currency. */
   cost: CostTotal[];
   guarantees: GuaranteeStatus[];
+  /**
+   * Meters with reporting figures in the window; 0 means no data in this
+   * window: the totals are empty sums, shown as "no data in this window",
+   * and the facility adds nothing to the portfolio.
+   */
+  metersWithData: number;
 }
 
 export interface SavingsReport {

@@ -22,14 +22,23 @@ export function facilitySection(facility: FacilityReport, context: { confidenceL
     contractBlock(facility),
     ...guaranteeBlocks(facility, context.confidenceLabel),
     tag('h3', {}, text('Facility totals')),
-    energyHeadline(facility.totals, context.confidenceLabel),
-    energyTotalsTable(`facility-${facility.id}`, facility.totals, context.confidenceLabel),
-    costTotalsTable(`facility-${facility.id}`, facility.cost, context.confidenceLabel),
+    ...(facility.metersWithData === 0
+      ? [noDataInWindow('No meter of this facility has reporting figures in this window; it is left out of the portfolio’s sums.')]
+      : [
+          energyHeadline(facility.totals, context.confidenceLabel),
+          energyTotalsTable(`facility-${facility.id}`, facility.totals, context.confidenceLabel),
+          costTotalsTable(`facility-${facility.id}`, facility.cost, context.confidenceLabel),
+        ]),
     tag('h3', {}, text('Meters')),
     meterOverview(facility.meters),
     ...facility.meters.map((meter) => meterSection(facility, meter, context)),
   ];
   return tag('section', { class: 'facility', id: `facility-${facility.id}`, 'data-facility-id': facility.id }, parts.join('\n'));
+}
+
+/** The words a reader sees where a facility or contract year has nothing to sum: never 0.0 ± 0.0. */
+export function noDataInWindow(detail: string): string {
+  return tag('div', { class: 'missing', 'data-no-data': 'true' }, `${tag('strong', {}, text('No data in this window. '))}${text(detail)}`);
 }
 
 function contractBlock(facility: FacilityReport): string {
@@ -84,7 +93,11 @@ function meterOverview(meters: readonly MeterReport[]): string {
     cell(m.baseline === null ? 'none' : `${m.baseline.model}, version ${m.baseline.version}, ${m.baseline.start} to ${m.baseline.end}`),
     cell(m.baseline === null ? NO_VALUE : formatPercent(m.baseline.cvrmse), 'num'),
     cell(m.baseline === null ? NO_VALUE : g14Label(m.baseline.meetsGuideline14)),
-    cell(m.missing === null ? `${m.periods.length} reporting period${m.periods.length === 1 ? '' : 's'}` : 'no figures (see below)'),
+    cell(
+      m.missing === null
+        ? `${m.periods.length} reporting period${m.periods.length === 1 ? '' : 's'}`
+        : 'no data in this window (see below)',
+    ),
   ]);
   return table({
     className: 'meter-overview',

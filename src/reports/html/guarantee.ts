@@ -56,6 +56,21 @@ export function yearSentence(status: GuaranteeStatus): string {
 /** One facility's status for one contract year: sentence, figures and the cumulative chart. */
 export function guaranteeBlock(facility: FacilityReport, status: GuaranteeStatus, confidenceLabel: string): string {
   const keyPrefix = `facility-${facility.id}-guarantee-${status.contractYear}`;
+  if (status.metersWithData === 0) {
+    return tag(
+      'div',
+      { class: 'guarantee-status', 'data-contract-year': status.contractYear },
+      [
+        tag('h4', {}, text(`Contract year ${status.contractYear}`)),
+        tag('p', {}, text(yearSentence(status))),
+        tag(
+          'div',
+          { class: 'missing', 'data-no-data': 'true' },
+          `${tag('strong', {}, text('No data in this window. '))}${text('No meter has reporting figures in this contract year to date: nothing is measured, so no shortfall or surplus is stated.')}`,
+        ),
+      ].join('\n'),
+    );
+  }
   const lines = linesOf(status, keyPrefix);
   const rows = lines.map(({ measure, unit, digits, line, key }) => {
     const verdict = guaranteeVerdict(line, status.complete);
@@ -115,6 +130,16 @@ export function guaranteesSummary(report: SavingsReport, confidenceLabel: string
   for (const facility of report.facilities) {
     for (const status of facility.guarantees) {
       for (const { measure, unit, digits, line } of linesOf(status, '')) {
+        if (status.metersWithData === 0) {
+          rows.push([
+            cell(facility.name),
+            cell(`${status.contractYear}`, 'num'),
+            cell(`${measure} (${unit})`),
+            tag('td', { colspan: 5, class: 'no-data', 'data-no-data': 'true' }, text('no data in this window: not measured, not judged')),
+            cell(status.complete ? 'complete' : `year not complete (through ${status.measuredThrough})`),
+          ]);
+          continue;
+        }
         const verdict = guaranteeVerdict(line, status.complete);
         rows.push([
           cell(facility.name),

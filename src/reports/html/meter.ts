@@ -30,7 +30,7 @@ export function meterSection(facility: FacilityReport, meter: MeterReport, conte
   if (meter.missing !== null || meter.energy === null) {
     const reason = meter.missing ?? 'the report carries no totals for this meter';
     parts.push(
-      tag('div', { class: 'missing', 'data-missing': 'true' }, `${tag('strong', {}, text('No figures in this window: '))}${text(reason)}`),
+      tag('div', { class: 'missing', 'data-missing': 'true' }, `${tag('strong', {}, text('No data in this window: '))}${text(reason)}`),
     );
   } else {
     parts.push(

@@ -33,10 +33,7 @@ function facilityBreakdown(report: SavingsReport): string {
   const rows = report.facilities.map((f) => [
     tag('td', {}, tag('a', { href: `#facility-${f.id}` }, text(f.name))),
     cell(String(f.meters.length), 'num'),
-    numberCell(f.totals.MMBtu.savings, formatNumber(f.totals.MMBtu.savings, 1)),
-    numberCell(f.totals.MMBtu.uncertainty, `± ${formatNumber(f.totals.MMBtu.uncertainty, 1)}`),
-    numberCell(f.totals.MMBtu.fractionSaved, formatPercent(f.totals.MMBtu.fractionSaved)),
-    cell(f.cost.length === 0 ? '—' : f.cost.map((c) => `${c.currency} ${formatNumber(c.avoided, 2)}`).join('; '), 'num'),
+    ...(f.metersWithData === 0 ? noData() : figures(f)),
   ]);
   return table({
     className: 'facility-breakdown',
@@ -50,4 +47,18 @@ function facilityBreakdown(report: SavingsReport): string {
     ],
     rows,
   });
+}
+
+/** A facility without reporting figures: words, not 0.0 ± 0.0 (it adds nothing to the sums). */
+function noData(): string[] {
+  return [tag('td', { colspan: 4, class: 'no-data', 'data-no-data': 'true' }, text('no data in this window (left out of the sums)'))];
+}
+
+function figures(f: SavingsReport['facilities'][number]): string[] {
+  return [
+    numberCell(f.totals.MMBtu.savings, formatNumber(f.totals.MMBtu.savings, 1)),
+    numberCell(f.totals.MMBtu.uncertainty, `± ${formatNumber(f.totals.MMBtu.uncertainty, 1)}`),
+    numberCell(f.totals.MMBtu.fractionSaved, formatPercent(f.totals.MMBtu.fractionSaved)),
+    cell(f.cost.length === 0 ? '—' : f.cost.map((c) => `${c.currency} ${formatNumber(c.avoided, 2)}`).join('; '), 'num'),
+  ];
 }
