@@ -11,15 +11,18 @@ export interface Principal {
 /**
  * What a route needs. read: GET ledger data and audit; savings: GET savings;
  * data: post readings and weather observations; ledger: create and change
- * facilities, meters, stations and baselines; keys: manage API keys.
+ * facilities, meters, stations and baselines; keys: manage API keys;
+ * reconcile: what a billing system needs to reconcile what it posted (the
+ * meter list, a meter, a meter's readings), which every role has.
  */
-export type Permission = 'read' | 'savings' | 'data' | 'ledger' | 'keys';
+export type Permission = 'read' | 'savings' | 'data' | 'ledger' | 'keys' | 'reconcile';
 
 export const ROLE_PERMISSIONS: Readonly<Record<Role, readonly Permission[]>> = {
-  admin: ['read', 'savings', 'data', 'ledger', 'keys'],
-  engineer: ['read', 'savings', 'data', 'ledger'],
-  analyst: ['read', 'savings'],
-  integration: ['savings', 'data'],
+  admin: ['read', 'savings', 'data', 'ledger', 'keys', 'reconcile'],
+  engineer: ['read', 'savings', 'data', 'ledger', 'reconcile'],
+  analyst: ['read', 'savings', 'reconcile'],
+  // A billing system posts readings, reads back meters and its readings to reconcile, and reads savings: nothing more.
+  integration: ['savings', 'data', 'reconcile'],
 };
 
 export function allows(role: Role, permission: Permission): boolean {

@@ -75,6 +75,19 @@ export async function getMeterRow(db: Executor, organisationId: string, id: stri
   return row;
 }
 
+/** Every meter of the organisation, or of one of its facilities, oldest first. */
+export async function listOrganisationMeters(db: Executor, organisationId: string, query: { facilityId?: string } = {}): Promise<Meter[]> {
+  if (query.facilityId !== undefined) return listMeters(db, organisationId, query.facilityId);
+  const rows = await db
+    .selectFrom('meters')
+    .selectAll()
+    .where('organisation_id', '=', organisationId)
+    .orderBy('created_at')
+    .orderBy('id')
+    .execute();
+  return rows.map(toMeter);
+}
+
 export async function listMeters(db: Executor, organisationId: string, facilityId: string): Promise<Meter[]> {
   await getFacilityRow(db, organisationId, facilityId);
   const rows = await db

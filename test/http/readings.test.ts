@@ -206,6 +206,23 @@ describe('POST /v1/meters/{id}/readings', () => {
     expect(meterRows.json.entries.map((e: { action: string }) => e.action)).toEqual(['create', 'post-readings']); // synthetic
   });
 
+  it('the integration role could not list meters or read back the readings it posted: it can now, and nothing more', async () => {
+    expect((await api.call('POST', url, { as: 'integration', body: { readings: BILLS } })).status).toBe(201);
+    const meters = await api.call('GET', '/v1/meters', { as: 'integration' });
+    expect(meters.status).toBe(200);
+    expect(meters.json.meters.map((m: { id: string }) => m.id)).toEqual([meterId]); // synthetic: the one meter made here
+    expect((await api.call('GET', `/v1/meters/${meterId}`, { as: 'integration' })).json.unit).toBe('kWh');
+    const readBack = await api.call('GET', url, { as: 'integration' });
+    expect(readBack.status).toBe(200);
+    expect(readBack.json.readings.map((r: { quantity: number }) => r.quantity)).toEqual([31000, 27500, 26000]); // synthetic: BILLS
+    // Nothing more: facilities, stations, baselines, the audit trail stay closed to it.
+    for (const path of ['/v1/facilities', '/v1/weather-stations', '/v1/audit', `/v1/meters/${meterId}/baselines`]) {
+      expect((await api.call('GET', path, { as: 'integration' })).status, path).toBe(403);
+    }
+    // Another organisation's key sees none of ours.
+    expect((await api.call('GET', '/v1/meters', { as: 'other' })).json.meters).toEqual([]);
+  });
+
   it('takes the correction reason of a CSV batch from the query', async () => {
     await api.call('POST', url, { body: { readings: [BILLS[0]] } });
     const csv = 'start,end,quantity\n2025-01-01,2025-02-01,30990\n';
@@ -306,8 +323,8 @@ describe('POST /v1/meters/{id}/readings', () => {
     expect((await refused('POST', url, { as: 'analyst', body: { readings: BILLS } })).status).toBe(403);
     expect((await refused('POST', url, { as: 'none', body: { readings: BILLS } })).status).toBe(401);
     expect((await api.call('POST', url, { as: 'integration', body: { readings: BILLS } })).status).toBe(201);
-    // Roles as src/http/principal.ts grants them: integration keys lack 'read'.
-    expect((await api.call('GET', url, { as: 'integration' })).status).toBe(403);
+    // Roles as src/http/principal.ts grants them: integration keys lack 'read' but may reconcile (read back readings).
+    expect((await api.call('GET', url, { as: 'integration' })).status).toBe(200);
     expect((await api.call('GET', url, { as: 'engineer' })).status).toBe(200);
   });
 

@@ -1,9 +1,9 @@
 /** Meters of a facility (/v1/facilities/{id}/meters) and each meter by id (/v1/meters/{id}). */
 import { z } from 'zod';
 import type { RouteDeps } from '../app.js';
-import { createMeter, getMeterRow, listMeters, toMeter } from '../../services/meters.js';
+import { createMeter, getMeterRow, listMeters, listOrganisationMeters, toMeter } from '../../services/meters.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
-import { createMeterBody, meterSchema } from '../schemas/meters.js';
+import { createMeterBody, listMetersQuery, meterSchema } from '../schemas/meters.js';
 import { serviceContext } from './context.js';
 import type { ApiApp } from './types.js';
 
@@ -41,9 +41,26 @@ export function metersRoutes(app: ApiApp, deps: RouteDeps): void {
   );
 
   app.get(
+    '/v1/meters',
+    {
+      config: { permission: 'reconcile' },
+      schema: {
+        tags: ['meters'],
+        summary: "List the organisation's meters",
+        description:
+          'Every meter of every facility (optionally one facility), oldest first: what a billing system needs to map its accounts to meter ids. Open to every role, the integration role included.',
+        security: bearer,
+        querystring: listMetersQuery,
+        response: { 200: z.object({ meters: z.array(meterSchema) }).meta({ id: 'MeterList' }), ...authProblems },
+      },
+    },
+    async (request) => ({ meters: await listOrganisationMeters(deps.store.db, request.principal!.organisationId, request.query) }),
+  );
+
+  app.get(
     '/v1/meters/:id',
     {
-      config: { permission: 'read' },
+      config: { permission: 'reconcile' },
       schema: {
         tags: ['meters'],
         summary: 'One meter',

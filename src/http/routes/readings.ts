@@ -46,7 +46,8 @@ export function readingsRoutes(app: ApiApp, deps: RouteDeps): void {
   app.get(
     '/v1/meters/:id/readings',
     {
-      config: { permission: 'read' },
+      // The integration role reads back what it posted, to reconcile.
+      config: { permission: 'reconcile' },
       schema: {
         tags: ['readings'],
         summary: "A meter's readings",

@@ -32,3 +32,9 @@ export const meterSchema = z
     createdAt: z.string(),
   })
   .meta({ id: 'Meter' });
+
+export const listMetersQuery = z
+  .object({
+    facilityId: plainText().min(1).max(100).optional().describe("Only this facility's meters"),
+  })
+  .strict();
