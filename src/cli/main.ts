@@ -11,6 +11,7 @@ import { runKeys } from './commands/keys.js';
 import { runExport, runImport } from './commands/transfer.js';
 import { runBackup, runRestore } from './commands/backup.js';
 import { BACKUP_USAGE, EXPORT_USAGE, FIT_USAGE, GENERAL_USAGE, IMPORT_USAGE, KEYS_USAGE, RESTORE_USAGE, SAVINGS_USAGE } from './usage.js';
+import { packageVersion } from './version.js';
 
 export interface CliIO {
   stdout(text: string): void;
@@ -18,12 +19,17 @@ export interface CliIO {
 }
 
 const HELP_WORDS = new Set(['help', '--help', '-h']);
+const VERSION_WORDS = new Set(['--version', '-V', 'version']);
 
 export async function main(argv: string[], io: CliIO): Promise<number> {
   const [command, ...rest] = argv;
   try {
     if (command === undefined || HELP_WORDS.has(command)) {
       io.stdout(helpFor(rest[0]));
+      return 0;
+    }
+    if (VERSION_WORDS.has(command)) {
+      io.stdout(`mvledger ${packageVersion()}\n`);
       return 0;
     }
     if (command === 'fit') {

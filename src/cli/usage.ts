@@ -126,6 +126,7 @@ Usage:
   mvledger backup --out FILE
   mvledger restore --in FILE [--force]
   mvledger help [fit|savings|keys|export|import|backup|restore]
+  mvledger --version
 
 Dates are ISO (YYYY-MM-DD). Bad input is reported as one line naming the file,
 the CSV row (header = row 1) and the field, with exit code 2.

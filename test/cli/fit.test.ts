@@ -9,6 +9,7 @@ import { fileURLToPath } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { analyseBaseline, fahrenheitToCelsius } from '../../src/engine/index.js';
 import { CAUTION } from '../../src/cli/format/caution.js';
+import { verdictText } from '../../src/cli/format/fit-report.js';
 import { asJson, makeTempFolder, readingsCsv, runCli, syntheticBills, syntheticWeather, weatherCsv } from './helpers.js';
 
 const folder = makeTempFolder();
@@ -110,6 +111,28 @@ describe('mvledger fit, text report', () => {
     expect(run.stdout).toContain('Guideline 14 acceptance of the selected shape');
     expect(run.stdout).toContain('from memory'); // the engine's source label for the limits
     expect(run.stdout).toContain(CAUTION);
+  });
+});
+
+describe('the fit text called a passing runner-up "accepted" and left out the Durbin–Watson the README promises', () => {
+  it('says "passed, not chosen" for a shape that passed but was not selected, and prints each shape\'s Durbin–Watson', async () => {
+    const run = await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile]);
+    expect(run.code).toBe(0);
+    const document = analyseBaseline(baseline, weather).document; // source: the engine itself
+    const lines = run.stdout.split('\n');
+    expect(run.stdout).toContain('Durbin–Watson');
+    for (const candidate of document.candidates) {
+      const row = lines.find((line) => line.startsWith(`${candidate.model} `))!;
+      if (candidate.stats) expect(row).toContain(candidate.stats.durbinWatson.toFixed(2));
+      if (candidate.verdict === 'accepted') {
+        expect(row).toContain('passed, not chosen');
+        expect(run.stdout).toContain(`  ${candidate.model} (passed, not chosen)`);
+      }
+    }
+    expect(lines.filter((line) => /^\S+ +accepted /.test(line))).toEqual([]);
+    // the CLI's own words for the engine's codes
+    expect(verdictText('accepted')).toBe('passed, not chosen');
+    expect(verdictText('not-fitted')).toBe('not fitted');
   });
 });
 

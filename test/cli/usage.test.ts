@@ -4,6 +4,7 @@
  * usage.ts); the shape names and confidence levels are the engine's
  * MODEL_NAMES and CONFIDENCE_LEVELS.
  */
+import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { runCli } from './helpers.js';
 
@@ -25,6 +26,16 @@ describe('help and usage', () => {
     const savings = await runCli(['help', 'savings']);
     expect(savings.stdout).toMatch(/^Usage: mvledger savings/);
     expect(savings.stdout).toContain('0.68, 0.8, 0.9, 0.95'); // the engine's CONFIDENCE_LEVELS
+  });
+
+  it('mvledger --version was an unknown command: it prints the package version', async () => {
+    const { version } = JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { version: string };
+    for (const word of ['--version', '-V', 'version']) {
+      const run = await runCli([word]);
+      expect(run.code).toBe(0);
+      expect(run.stderr).toBe('');
+      expect(run.stdout).toBe(`mvledger ${version}\n`); // package.json, the one source of the version
+    }
   });
 
   it('refuses an unknown command with exit code 2', async () => {

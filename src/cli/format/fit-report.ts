@@ -24,6 +24,24 @@ export interface FitReportContext {
   sufficiency: BaselineSufficiency;
 }
 
+/**
+ * A candidate's verdict in words for people. The JSON keeps the engine's
+ * codes; a shape that passed its checks but was not chosen is not
+ * "accepted": it is a runner-up, and the text says so.
+ */
+export function verdictText(verdict: FitDocument['candidates'][number]['verdict']): string {
+  switch (verdict) {
+    case 'selected':
+      return 'selected';
+    case 'accepted':
+      return 'passed, not chosen';
+    case 'rejected':
+      return 'rejected';
+    default:
+      return verdict.replace(/-/g, ' ');
+  }
+}
+
 export function renderFitReport(document: FitDocument, context: FitReportContext): string {
   const symbol = unitSymbol(context.unit);
   const excluded = document.periods.excluded;
@@ -46,7 +64,7 @@ export function renderFitReport(document: FitDocument, context: FitReportContext
 
   const rows = document.candidates.map((c) => [
     c.model,
-    c.verdict,
+    verdictText(c.verdict),
     String(c.n),
     String(c.p),
     formatFixed(c.stats?.r2, 3),
@@ -54,6 +72,7 @@ export function renderFitReport(document: FitDocument, context: FitReportContext
     formatFixed(c.stats ? c.stats.nmbe * 100 : null, 3),
     formatFixed(c.stats?.outOfSample ? c.stats.outOfSample.cvrmse * 100 : null, 2) + (c.overFitted ? ' !' : ''),
     formatFixed(c.stats?.outOfSample ? c.stats.outOfSample.nmbe * 100 : null, 3),
+    formatFixed(c.stats?.durbinWatson, 2),
     formatSse(c.sse),
     parameterSummary(c.parameters, symbol),
   ]);
@@ -69,6 +88,7 @@ export function renderFitReport(document: FitDocument, context: FitReportContext
         { title: 'NMBE %', align: 'right' },
         { title: 'out of sample: CV(RMSE) %', align: 'right' },
         { title: 'NMBE %', align: 'right' },
+        { title: 'Durbin–Watson', align: 'right' },
         { title: 'SSE', align: 'right' },
         { title: 'Parameters', align: 'left' },
       ],
@@ -76,11 +96,13 @@ export function renderFitReport(document: FitDocument, context: FitReportContext
     ),
     parameterLegend(symbol),
     '  Out of sample: each bill predicted without itself (daily data: without its calendar month), changepoints held; ! = flagged as over-fitted.',
+    '  Durbin–Watson of the residuals in time order: near 2 when they are uncorrelated, well below 2 when neighbours move together.',
+    '  Verdicts: selected = the shape chosen; passed, not chosen = passed its checks, but the sequence of tests chose another; rejected = failed a check (reasons below).',
     '',
     'Reasons',
   );
   for (const c of document.candidates) {
-    lines.push(`  ${c.model} (${c.verdict})`, ...c.reasons.map((reason) => `    - ${reason}`));
+    lines.push(`  ${c.model} (${verdictText(c.verdict)})`, ...c.reasons.map((reason) => `    - ${reason}`));
   }
 
   lines.push('', 'Periods left out of the fit');
