@@ -7,15 +7,10 @@ import { randomUUID } from 'node:crypto';
 import Fastify, { type FastifyInstance, type FastifyServerOptions } from 'fastify';
 import swagger from '@fastify/swagger';
 import swaggerUi from '@fastify/swagger-ui';
+import { transformObjectWithoutUnused, transformWithOperationDetails } from './openapi/operation-details.js';
 import helmet from '@fastify/helmet';
 import rateLimit from '@fastify/rate-limit';
-import {
-  jsonSchemaTransform,
-  jsonSchemaTransformObject,
-  serializerCompiler,
-  validatorCompiler,
-  type ZodTypeProvider,
-} from 'fastify-type-provider-zod';
+import { serializerCompiler, validatorCompiler, type ZodTypeProvider } from 'fastify-type-provider-zod';
 import type { Store } from '../store/connect.js';
 import { installProblemHandling, sendProblem } from './plugins/problems.js';
 import { installAuth } from './plugins/auth.js';
@@ -130,15 +125,26 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
       info: {
         title: 'mvledger API',
         version: '1',
+        license: { name: 'Proprietary (UNLICENSED): no licence is granted' },
         description:
           'Measurement-and-verification savings ledger: facilities, meters, weather, readings, frozen changepoint baselines, avoided energy with its uncertainty, and a hash-chained audit trail. Errors are RFC 9457 problem+json.',
       },
+      servers: [
+        {
+          url: 'http://127.0.0.1:8080',
+          description: 'The service on this machine, as `npm run demo` and `npm start` run it (PORT changes the port)',
+        },
+      ],
       components: { securitySchemes: { bearerAuth: { type: 'http', scheme: 'bearer', description: 'An API key: mvl_<id>_<secret>' } } },
     },
-    transform: jsonSchemaTransform,
-    transformObject: jsonSchemaTransformObject,
+    transform: transformWithOperationDetails,
+    transformObject: transformObjectWithoutUnused,
   });
-  await app.register(swaggerUi, { routePrefix: '/docs', uiConfig: { docExpansion: 'list' } });
+  await app.register(swaggerUi, {
+    routePrefix: '/docs',
+    uiConfig: { docExpansion: 'list' },
+    theme: { title: 'mvledger API: documentation' },
+  });
 
   app.get('/openapi.json', { schema: { hide: true } }, async () => app.swagger());
   await registerRoutes(app.withTypeProvider<ZodTypeProvider>(), deps);
