@@ -62,7 +62,10 @@ beforeAll(async () => {
     (await api.call('POST', `/v1/meters/${m}/baselines`, { body: { start: '2023-01-01', end: '2025-01-01' } })).json.id,
     'baseline',
   );
-  await api.call('POST', `/v1/baselines/${frozen}/freeze`, { body: { note: 'Agreed (test)' } });
+  remember(
+    (await api.call('POST', `/v1/baselines/${frozen}/freeze`, { body: { note: 'Agreed (test)' } })).json.contentHash,
+    'content-hash',
+  );
   adjustment = remember(
     (
       await api.call('POST', `/v1/meters/${m}/adjustments`, {
