@@ -6,7 +6,8 @@
 import type { FastifyInstance } from 'fastify';
 import type { Store } from '../../store/connect.js';
 import { authenticate } from '../../store/api-keys.js';
-import { allows } from '../principal.js';
+import { allows } from '../../domain/principal.js';
+import '../principal.js';
 import { Problem } from '../problem.js';
 
 const BEARER = /^Bearer +(\S+) *$/i;
