@@ -7,7 +7,8 @@
 import type { FastifyInstance } from 'fastify';
 import type { Store } from '../../store/connect.js';
 import { authenticate } from '../../store/api-keys.js';
-import { allows } from '../principal.js';
+import { allows } from '../../domain/principal.js';
+import '../principal.js';
 import { Problem } from '../problem.js';
 import type { FailedAuthenticationLimit } from './failed-authentication.js';
 
