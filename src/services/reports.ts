@@ -72,6 +72,11 @@ export function savingsReport(db: Kysely<Database>, organisationId: string, quer
   return readSnapshot(db, (trx) => buildReport(trx, organisationId, query));
 }
 
+/** The report read through `db` as it stands (inside a caller's transaction, e.g. when a statement is issued). */
+export function savingsReportIn(db: Executor, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
+  return buildReport(db, organisationId, query);
+}
+
 async function buildReport(db: Executor, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
   const organisation = await db
     .selectFrom('organisations')
