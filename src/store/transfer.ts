@@ -13,6 +13,7 @@
  * Idempotency keys are transient and stay behind.
  */
 import type { Kysely, Transaction } from 'kysely';
+import { sha256Hex } from '../lib/canonical-json.js';
 import { documentTemperatureForm, verifyBaselineContent } from './baseline-content.js';
 import { ROLES } from './api-keys.js';
 import { GENESIS_HASH, verifyAuditChain, verifyAuditRows, type ChainVerdict } from './audit.js';
@@ -552,6 +553,19 @@ function checkBaselineHashes(rows: readonly ExportRow[]): void {
   });
 }
 
+/** Every stored statement copy still matches its content hashes: the bytes a statement was filed with travel unchanged. */
+function checkStatementCopies(rows: readonly ExportRow[]): void {
+  rows.forEach((row, index) => {
+    for (const format of ['json', 'csv', 'html'] as const) {
+      if (sha256Hex(row[`${format}_body`] as string) !== row[`${format}_hash`])
+        fail(
+          `tables.statement_copies[${index}].${format}_body`,
+          `statement ${row.statement_id} copy ${row.copy} does not match its ${format} content hash`,
+        );
+    }
+  });
+}
+
 /** The document if it is a well-formed, self-consistent export; else a TransferInputError naming the place. */
 export function checkDocument(value: unknown): ExportDocument {
   if (!isObject(value)) fail('document', `must be a JSON object, got ${shown(value)}`);
@@ -582,6 +596,7 @@ export function checkDocument(value: unknown): ExportDocument {
   const auditHead = { seq: head.seq as number, hash: head.hash as string };
   checkAuditTrail(organisation.id, tables.audit_log, auditHead);
   checkBaselineHashes(tables.baselines);
+  checkStatementCopies(tables.statement_copies);
   return { format: EXPORT_FORMAT, version: EXPORT_VERSION, exportedAt: value.exportedAt, organisation, auditHead, tables };
 }
 

@@ -237,6 +237,39 @@ describe('POST /v1/statements and the stored bytes', () => {
   });
 });
 
+describe('one confidence level per statement', () => {
+  it('takes the contract’s level for every ± unless the request names another; the Guideline 14 verdict stays at 68%', async () => {
+    const byContract = await api.call('GET', `/v1/reports/savings?quarter=2025-Q1&facilityId=${facilityId}`, { as: 'analyst' });
+    const named = await api.call('GET', `/v1/reports/savings?quarter=2025-Q1&facilityId=${facilityId}&confidence=0.68`, { as: 'analyst' });
+    expect(byContract.json).toMatchObject({ confidence: 0.95, confidenceSource: 'contract' });
+    expect(named.json).toMatchObject({ confidence: 0.68, confidenceSource: 'request' });
+    const a = byContract.json.facilities[0].meters[0];
+    const b = named.json.facilities[0].meters[0];
+    expect(a.energy.uncertainty).toBeGreaterThan(b.energy.uncertainty); // a wider band at 95% than at 68%
+    expect(a.significant).toBe(b.significant); // judged at 68% whatever the report's level
+    const html = (await api.call('GET', `/v1/reports/savings?quarter=2025-Q1&facilityId=${facilityId}&format=html`, { as: 'analyst' }))
+      .text;
+    expect(html).toContain(
+      '95% two-sided (the level the contract names); the ASHRAE Guideline 14 significance verdict is always judged at 68%',
+    );
+  });
+
+  it('asks for a level when the report’s facilities name different ones, and takes 90% where no contract names one', async () => {
+    const other = (await ok('POST', '/v1/facilities', { name: 'Invented depot (no meters)' })).id;
+    await ok(
+      'PUT',
+      `/v1/facilities/${other}/contract`,
+      { start: '2025-01-01', years: 1, energyUnit: 'MMBtu', guarantees: [] },
+      'engineer',
+      200,
+    );
+    const mixed = await api.call('GET', '/v1/reports/savings?quarter=2025-Q1', { as: 'analyst' });
+    expect(mixed.status).toBe(422);
+    expect(mixed.json.detail).toMatch(/^confidence: the facilities' contracts name different confidence levels \(0\.9, 0\.95\)/);
+    expect((await api.call('GET', `/v1/facilities/${other}/contract`, { as: 'analyst' })).json.confidence).toBe(0.9);
+  });
+});
+
 describe.skipIf(!browserAvailable())('an issued statement in print (chromium)', () => {
   it('prints with a running header, "Page N of M" on every page and the approval block', async () => {
     const list = (await api.call('GET', '/v1/statements', { as: 'analyst' })).json.statements;
