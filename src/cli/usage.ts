@@ -61,7 +61,7 @@ export const EXPORT_USAGE = `Usage: mvledger export --org ID [--out FILE]
 
 Write one organisation of the database named by DATABASE_URL (default
 sqlite:./var/mvledger.sqlite; its schema is brought up to date first) as one
-JSON document, format mvledger-export version 3 (versions 1 and 2 are still
+JSON document, format mvledger-export version 4 (versions 1, 2 and 3 are still
 read): every row of its API keys, weather stations and observations, normal
 years, facilities, contracts, meters, readings, rates, adjustments, baselines
 and audit trail, exactly as stored, with the head of its audit chain. API keys

@@ -12,14 +12,16 @@ export interface Principal {
 /**
  * What an action needs. read: ledger data and audit; savings: savings and
  * reports; data: post readings and weather observations; ledger: create and
- * change facilities, meters, stations and baselines; keys: manage API keys.
+ * change facilities, meters, stations and baselines, and prepare statements;
+ * keys: manage API keys; approve: approve, reject or void an issued statement
+ * (never one's own: the service checks that).
  */
-export type Permission = 'read' | 'savings' | 'data' | 'ledger' | 'keys';
+export type Permission = 'read' | 'savings' | 'data' | 'ledger' | 'keys' | 'approve';
 
 export const ROLE_PERMISSIONS: Readonly<Record<Role, readonly Permission[]>> = {
-  admin: ['read', 'savings', 'data', 'ledger', 'keys'],
+  admin: ['read', 'savings', 'data', 'ledger', 'keys', 'approve'],
   engineer: ['read', 'savings', 'data', 'ledger'],
-  analyst: ['read', 'savings'],
+  analyst: ['read', 'savings', 'approve'],
   integration: ['savings', 'data'],
 };
 

@@ -16,7 +16,6 @@ import {
   savingsFromAligned,
   residualCorrelation,
   type MeterResiduals,
-  SIGNIFICANCE_RULE,
   type DateWindow,
   type RateEntry,
   type Reading,
@@ -41,7 +40,8 @@ import { readSnapshot } from '../store/connect.js';
 import type { Database, MeterRow } from '../store/schema.js';
 import { signatureChartPoints } from '../reports/svg/signature-points.js';
 import type { Executor } from './context.js';
-import { toContract } from './contracts.js';
+import { DEFAULT_CONTRACT_CONFIDENCE, toContract } from './contracts.js';
+import { shapeName } from '../reports/shape-names.js';
 import { getFacilityRow } from './facilities.js';
 import { loadReadings, loadWeatherFor } from './meter-data.js';
 import { loadSchedule } from './rates.js';
@@ -59,6 +59,7 @@ export interface ReportQuery {
 interface MeterContext {
   meter: MeterRow;
   temperatureUnit: TemperatureUnit;
+  stationName: string;
   baseline: { id: string; version: number; contentHash: string; start: string; end: string; temperatureForm: 'daily' | 'mean' } | null;
   model: FrozenModel | null;
   rates: { currency: string | null; entries: RateEntry[] };
@@ -71,8 +72,12 @@ export function savingsReport(db: Kysely<Database>, organisationId: string, quer
   return readSnapshot(db, (trx) => buildReport(trx, organisationId, query));
 }
 
+/** The report read through `db` as it stands (inside a caller's transaction, e.g. when a statement is issued). */
+export function savingsReportIn(db: Executor, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
+  return buildReport(db, organisationId, query);
+}
+
 async function buildReport(db: Executor, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
-  const confidence = query.confidence ?? SIGNIFICANCE_RULE.confidence;
   const organisation = await db
     .selectFrom('organisations')
     .select(['id', 'name'])
@@ -96,8 +101,17 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
       currency: c.currency,
       energyUnit: c.energyUnit,
       guarantees: c.guarantees,
+      reference: c.reference,
+      parties: c.parties,
+      mvPlanReference: c.mvPlanReference,
+      mvOption: c.mvOption,
+      confidence: c.confidence,
     });
   }
+  const { confidence, source: confidenceSource } = resolveConfidence(
+    query.confidence,
+    facilityRows.map((f) => contracts.get(f.id) ?? null),
+  );
   const window = resolveWindow(
     query,
     facilityRows.map((f) => contracts.get(f.id) ?? null),
@@ -152,6 +166,7 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
     organisation,
     window,
     confidence,
+    confidenceSource,
     dataAsOf: { auditSeq: head?.seq ?? 0, auditHash: head?.hash ?? '' },
     facilities,
     normalYears: [...normalYears.values()].sort((a, b) => (a.stationId < b.stationId ? -1 : 1)),
@@ -215,6 +230,29 @@ async function facilityInWindow(
     );
   }
   return { input: { id: facility.id, name: facility.name, address: facility.address, contract, meters, guarantees }, usedNormalYears };
+}
+
+/**
+ * One confidence level for every ± of a report: the request's, else the
+ * contract's (every facility in the report with a contract must name the
+ * same level; a facility without one counts at the default), else the
+ * default of 90%. The Guideline 14 significance test keeps its own 68%.
+ */
+export function resolveConfidence(
+  requested: number | undefined,
+  contracts: readonly (ContractSummary | null)[],
+): { confidence: number; source: 'request' | 'contract' | 'default' } {
+  if (requested !== undefined) return { confidence: requested, source: 'request' };
+  const levels = new Set(contracts.map((c) => c?.confidence ?? DEFAULT_CONTRACT_CONFIDENCE));
+  if (levels.size > 1) {
+    throw new DomainError(
+      'unprocessable',
+      `confidence: the facilities' contracts name different confidence levels (${[...levels].sort().join(', ')}); give confidence or facilityId`,
+      [{ field: 'confidence', message: 'contracts differ: give confidence' }],
+    );
+  }
+  const hasContract = contracts.some((c) => c !== null);
+  return { confidence: [...levels][0] ?? DEFAULT_CONTRACT_CONFIDENCE, source: hasContract ? 'contract' : 'default' };
 }
 
 /** Exactly one of: from and to, quarter, contractYear. */
@@ -291,12 +329,13 @@ async function meterContext(db: Executor, meter: MeterRow): Promise<MeterContext
   const normal = await db.selectFrom('normal_years').selectAll().where('station_id', '=', meter.weather_station_id).executeTakeFirst();
   const station = await db
     .selectFrom('weather_stations')
-    .select('temperature_unit')
+    .select(['temperature_unit', 'name'])
     .where('id', '=', meter.weather_station_id)
     .executeTakeFirstOrThrow();
   return {
     meter,
     temperatureUnit: station.temperature_unit,
+    stationName: station.name,
     baseline: baseline?.content_hash
       ? {
           id: baseline.id,
@@ -336,6 +375,7 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     fuel: meter.fuel,
     unit: meter.unit,
     weatherStationId: meter.weather_station_id,
+    weatherStationName: ctx.stationName,
     temperatureUnit: ctx.temperatureUnit,
   };
   if (!baseline || !model) return missingMeterReport(identity, null, 'the meter has no frozen baseline', overlapping);
@@ -344,10 +384,14 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     version: baseline.version,
     contentHash: baseline.contentHash,
     model: model.fit.model,
+    modelName: shapeName(model.fit.model),
     start: baseline.start,
     end: baseline.end,
     temperatureRange: { ...model.fit.temperatureRange },
     cvrmse: model.fit.stats.cvrmse,
+    nmbe: model.fit.stats.nmbe,
+    coefficients: model.fit.coefficients.map((c) => ({ name: c.name, estimate: c.estimate, standardError: c.standardError })),
+    changepoints: model.fit.changepointEstimates.map((c) => ({ name: c.name, estimate: c.estimate, standardError: c.standardError })),
     meetsGuideline14: null as boolean | null,
     temperatureForm: baseline.temperatureForm,
     sufficiency: { sufficient: model.sufficiency.sufficient, reasons: model.sufficiency.reasons },

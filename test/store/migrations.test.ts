@@ -25,6 +25,8 @@ const TABLES = [
   'organisations',
   'rates',
   'readings',
+  'statement_copies',
+  'statements',
   'weather_observations',
   'weather_stations',
 ];

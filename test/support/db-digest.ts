@@ -21,6 +21,8 @@ const TABLES = [
   'rates',
   'contracts',
   'normal_years',
+  'statements',
+  'statement_copies',
 ] as const;
 
 export async function databaseDigest(db: Kysely<Database>): Promise<string> {

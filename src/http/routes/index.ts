@@ -15,6 +15,7 @@ import { ratesRoutes } from './rates.js';
 import { contractsRoutes } from './contracts.js';
 import { normalYearsRoutes } from './normal-years.js';
 import { reportsRoutes } from './reports.js';
+import { statementsRoutes } from './statements.js';
 import type { ApiApp } from './types.js';
 
 export async function registerRoutes(app: ApiApp, deps: RouteDeps): Promise<void> {
@@ -31,6 +32,7 @@ export async function registerRoutes(app: ApiApp, deps: RouteDeps): Promise<void
   contractsRoutes(app, deps);
   normalYearsRoutes(app, deps);
   reportsRoutes(app, deps);
+  statementsRoutes(app, deps);
   auditRoutes(app, deps);
   apiKeysRoutes(app, deps);
 }
