@@ -158,3 +158,5 @@ export function savingsFromAligned(
     excluded: { baseline: [...baseline.excluded], reporting: excluded },
   };
 }
+export * from './weather-gaps.js';
+export * from './filled-days.js';

@@ -1,7 +1,7 @@
 /**
  * Moving one organisation between databases: `exportOrganisation` reads every
  * row of it, exactly as stored, into one document (our own format,
- * "mvledger-export" version 3); `importOrganisation` checks such a document
+ * "mvledger-export" version 4); `importOrganisation` checks such a document
  * and stores it in another database in one transaction, or stores nothing.
  *
  * What the checks can prove: the audit trail inside the document recomputes
@@ -20,13 +20,15 @@ import { readSnapshot, writeTransaction } from './connect.js';
 import type { AuditRow, BaselineRow, Database } from './schema.js';
 
 export const EXPORT_FORMAT = 'mvledger-export';
-export const EXPORT_VERSION = 3;
+export const EXPORT_VERSION = 4;
 /**
  * Version 1 predates adjustments, rates, contracts and normal years: it is
- * read with those tables empty. Versions 1 and 2 predate the columns of
- * COLUMNS_SINCE_VERSION_3: they are read with those columns defaulted.
+ * read with those tables empty. Older versions predate the columns of
+ * COLUMNS_SINCE_VERSION (3: a baseline's form and overrides, an adjustment's
+ * ±; 4: how a weather day was filled): they are read with those columns
+ * defaulted.
  */
-const READABLE_VERSIONS = [1, 2, 3] as const;
+const READABLE_VERSIONS = [1, 2, 3, 4] as const;
 const TABLES_SINCE_VERSION_2 = ['adjustments', 'rates', 'contracts', 'normal_years'] as const;
 
 /** The organisation's tables in foreign-key order: the order of insertion. */
@@ -114,7 +116,16 @@ const TABLE_RULES: Record<TransferTable, TableRule> = {
   },
   weather_observations: {
     key: ['station_id', 'date'],
-    columns: { station_id: TEXT, date: TEXT, temp: REAL, tmin: REAL_OR_NULL, tmax: REAL_OR_NULL, updated_at: TEXT },
+    columns: {
+      station_id: TEXT,
+      date: TEXT,
+      temp: REAL,
+      tmin: REAL_OR_NULL,
+      tmax: REAL_OR_NULL,
+      updated_at: TEXT,
+      fill_method: { type: 'text', nullable: true, oneOf: ['interpolation', 'second-station'] },
+      fill_note: TEXT_OR_NULL,
+    },
   },
   facilities: {
     key: ['id'],
@@ -242,20 +253,34 @@ const TABLE_RULES: Record<TransferTable, TableRule> = {
   },
 };
 
+type AddedColumns = Partial<Record<TransferTable, Record<string, (row: ExportRow) => Cell>>>;
+
 /**
- * Columns added in format version 3, and the value an older document's row
- * gets: a baseline's temperature form is the one its fit document states
- * (mean for documents from before the form existed); no override; no
- * stated ± on an adjustment.
+ * Columns added in a format version, and the value an older document's row
+ * gets. Version 3: a baseline's temperature form is the one its fit
+ * document states (mean for documents from before the form existed); no
+ * override; no stated ± on an adjustment. Version 4: every weather day of
+ * an older document was observed, none filled.
  */
-const COLUMNS_SINCE_VERSION_3: Partial<Record<TransferTable, Record<string, (row: ExportRow) => Cell>>> = {
-  baselines: {
-    temperature_form: (row) => formOfDocument(row.document_json),
-    short_baseline_override: () => null,
-    extrapolation_override: () => null,
+const COLUMNS_SINCE_VERSION: Record<number, AddedColumns> = {
+  3: {
+    baselines: {
+      temperature_form: (row) => formOfDocument(row.document_json),
+      short_baseline_override: () => null,
+      extrapolation_override: () => null,
+    },
+    adjustments: { uncertainty: () => null },
   },
-  adjustments: { uncertainty: () => null },
+  4: { weather_observations: { fill_method: () => null, fill_note: () => null } },
 };
+
+/** The columns of `table` that a document of `version` lacks, with their defaults. */
+function columnsAddedAfter(table: TransferTable, version: number): Record<string, (row: ExportRow) => Cell> | undefined {
+  const added = Object.entries(COLUMNS_SINCE_VERSION)
+    .filter(([since]) => Number(since) > version)
+    .flatMap(([, tables]) => Object.entries(tables[table] ?? {}));
+  return added.length > 0 ? Object.fromEntries(added) : undefined;
+}
 
 function formOfDocument(documentJson: Cell | undefined): Cell {
   try {
@@ -268,8 +293,8 @@ function formOfDocument(documentJson: Cell | undefined): Cell {
 /** The rule of a table in a document of `version`: older versions lack the columns added since. */
 function ruleFor(table: TransferTable, version: number): TableRule {
   const rule = TABLE_RULES[table];
-  const added = COLUMNS_SINCE_VERSION_3[table];
-  if (version >= 3 || !added) return rule;
+  const added = columnsAddedAfter(table, version);
+  if (!added) return rule;
   return { key: rule.key, columns: Object.fromEntries(Object.entries(rule.columns).filter(([column]) => !Object.hasOwn(added, column))) };
 }
 
@@ -387,7 +412,7 @@ function checkRow(path: string, value: unknown, rule: TableRule, organisationId:
 function checkTable(table: TransferTable, value: unknown, organisationId: string, version: number): ExportRow[] {
   if (!Array.isArray(value)) fail(`tables.${table}`, `must be a list of rows, got ${shown(value)}`);
   const rule = ruleFor(table, version);
-  const added = version >= 3 ? undefined : COLUMNS_SINCE_VERSION_3[table];
+  const added = columnsAddedAfter(table, version);
   const seen = new Set<string>();
   return value.map((entry, index) => {
     const checked = checkRow(`tables.${table}[${index}]`, entry, rule, organisationId, version);
