@@ -161,3 +161,4 @@ export function savingsFromAligned(
 export * from './weather-gaps.js';
 export * from './filled-days.js';
 export * from './station-record.js';
+export * from './normal-year-history.js';

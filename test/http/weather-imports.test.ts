@@ -225,3 +225,50 @@ describe('POST /v1/weather-stations/{id}/gap-fills', () => {
     expect(analyst.status).toBe(403);
   });
 });
+
+describe('normal year from history and the station record', () => {
+  it('builds the normal year from two stored years and summarises the record', async () => {
+    // Synthetic: 2023 and 2024 with the temperature equal to the day of the month (so every calendar day's mean is known).
+    const observations: { date: string; temp: number }[] = [];
+    for (let t = Date.UTC(2023, 0, 1); t < Date.UTC(2025, 0, 1); t += 86_400_000) {
+      const date = new Date(t).toISOString().slice(0, 10);
+      if (date !== '2024-06-15') observations.push({ date, temp: Number(date.slice(8)) });
+    }
+    await api.call('PUT', `/v1/weather-stations/${celsius}/observations`, { body: { observations } });
+    const fromHistory = `/v1/weather-stations/${celsius}/normal-year/from-history`;
+    // 15 June is on record in one of the two years only: refused until filled (80% of 2 years is 2).
+    const short = await refused('POST', fromHistory, { body: { fromYear: 2023, toYear: 2024 } });
+    expect(short.status).toBe(422);
+    expect(short.json.detail).toMatch(/fewer than 2 of the 2 years 2023–2024 on record: 06-15/);
+    const even = await refused('POST', fromHistory, { body: { fromYear: 2023, toYear: 2024, windowDays: 14 } });
+    expect(even.status).toBe(400);
+    await api.call('POST', `/v1/weather-stations/${celsius}/gap-fills`, { body: { from: '2024-06-01', to: '2024-07-01' } });
+    const built = await api.call('POST', fromHistory, { body: { fromYear: 2023, toYear: 2024, windowDays: 1 } });
+    expect(built.status, built.text).toBe(200);
+    expect(built.json.days[0]).toEqual({ day: '01-01', temp: 1 });
+    // 15 June: 15 in 2023, and (14 + 16)/2 = 15 interpolated in 2024.
+    expect(built.json.days.find((d: { day: string }) => d.day === '06-15').temp).toBe(15);
+    // 28 February: 28 in both years and 29 from 2024-02-29 folded in: (28 + 28 + 29)/3.
+    expect(built.json.days.find((d: { day: string }) => d.day === '02-28').temp).toBeCloseTo(85 / 3, 5);
+    expect(built.json.source).toMatch(
+      /mean of each calendar day over 2 year\(s\) 2023–2024 \(731 days, 1 of them filled\), 29 February folded/,
+    );
+
+    const record = await api.call('GET', `/v1/weather-stations/${celsius}/record`, { as: 'analyst' });
+    expect(record.status, record.text).toBe(200);
+    expect(record.json).toMatchObject({
+      first: '2023-01-01',
+      last: '2024-12-31',
+      spanDays: 731,
+      observed: 730,
+      filled: { interpolation: 1, secondStation: 0 },
+      missing: 0,
+      outsideBounds: 0,
+    });
+    expect(record.json.years).toEqual([
+      { year: 2023, days: 365, observed: 365, filled: 0, missing: 0 },
+      { year: 2024, days: 366, observed: 365, filled: 1, missing: 0 },
+    ]);
+    expect(record.json.min).toEqual({ date: '2023-01-01', temp: 1 });
+  });
+});
