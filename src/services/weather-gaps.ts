@@ -19,7 +19,7 @@ import {
   type StationOffset,
   type TemperatureUnit,
 } from '../engine/index.js';
-import { Problem } from '../http/problem.js';
+import { DomainError } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { assertOutsideFrozenWindows, frozenWindowsForStation } from './frozen-windows.js';
 import { MAX_OBSERVATIONS_PER_BATCH, upsertChunked } from './observations.js';
@@ -56,9 +56,9 @@ const OVERLAP_MARGIN_DAYS = 365;
 
 export async function fillWeatherGaps(ctx: ServiceContext, stationId: string, input: GapFillInput): Promise<GapFillResult> {
   const span = daysBetween(input.from, input.to);
-  if (span <= 0) throw new Problem('validation', 'to: must be after from', [{ field: 'to', message: 'must be after from' }]);
+  if (span <= 0) throw new DomainError('invalid', 'to: must be after from', [{ field: 'to', message: 'must be after from' }]);
   if (span > MAX_OBSERVATIONS_PER_BATCH) {
-    throw new Problem('validation', `to: at most ${MAX_OBSERVATIONS_PER_BATCH} days per fill (got ${span}); fill in parts`, [
+    throw new DomainError('invalid', `to: at most ${MAX_OBSERVATIONS_PER_BATCH} days per fill (got ${span}); fill in parts`, [
       { field: 'to', message: 'window too long' },
     ]);
   }
@@ -68,7 +68,7 @@ export async function fillWeatherGaps(ctx: ServiceContext, stationId: string, in
     const organisationId = ctx.principal.organisationId;
     const station = await getStationRow(trx, organisationId, stationId);
     if (input.secondStationId === stationId) {
-      throw new Problem('validation', 'secondStationId: must be another station', [
+      throw new DomainError('invalid', 'secondStationId: must be another station', [
         { field: 'secondStationId', message: 'is this station' },
       ]);
     }
@@ -94,7 +94,7 @@ export async function fillWeatherGaps(ctx: ServiceContext, stationId: string, in
     const implausible = checkWeather(days, station.temperature_unit).filter((p) => p.field === 'temp');
     if (implausible.length > 0) {
       const first = implausible[0]!;
-      throw new Problem(
+      throw new DomainError(
         'unprocessable',
         `${days[first.index]!.date}: the fill gives ${days[first.index]!.temp}, ${first.message}; nothing stored`,
         implausible.slice(0, 100).map((p) => ({ field: days[p.index]!.date, message: p.message })),

@@ -6,7 +6,7 @@
  * missing). A file that does not follow its layout stores nothing.
  */
 import { ArchiveFormatError, readStationArchive, type ArchiveCounts, type ArchiveFormat } from '../station-archives/index.js';
-import { Problem } from '../http/problem.js';
+import { DomainError } from '../domain/errors.js';
 import { inTransaction, type ServiceContext } from './context.js';
 import { checkObservations, writeObservations, type ObservationInput } from './observations.js';
 import { getStationRow } from './weather-stations.js';
@@ -46,7 +46,7 @@ export async function importStationFile(ctx: ServiceContext, stationId: string, 
       });
     } catch (error) {
       if (!(error instanceof ArchiveFormatError)) throw error;
-      throw new Problem('validation', `${input.format} file, ${error.message}`, [{ field: error.place, message: error.detail }]);
+      throw new DomainError('invalid', `${input.format} file, ${error.message}`, [{ field: error.place, message: error.detail }]);
     }
     const base = {
       stationId,
@@ -58,7 +58,7 @@ export async function importStationFile(ctx: ServiceContext, stationId: string, 
       lastDate: archive.days.at(-1)?.date ?? null,
     };
     if (archive.days.length === 0) {
-      throw new Problem(
+      throw new DomainError(
         'unprocessable',
         `the ${input.format} file holds no usable temperature (${archive.counts.daysRead} days read, ${archive.counts.droppedByFlag} values dropped by their quality flag, ${archive.counts.missing} missing): nothing stored`,
       );
