@@ -8,6 +8,7 @@ import * as oneFrozen0002 from './0002_one_frozen_baseline.js';
 import * as contracts0003 from './0003_contracts_and_costs.js';
 import * as baselineForm0004 from './0004_baseline_form_and_overrides.js';
 import * as statements0005 from './0005_statements.js';
+import * as weatherFills0007 from './0007_weather_fills.js';
 
 export const migrations: Record<string, Migration> = {
   '0001_ledger': ledger0001,
@@ -15,4 +16,5 @@ export const migrations: Record<string, Migration> = {
   '0003_contracts_and_costs': contracts0003,
   '0004_baseline_form_and_overrides': baselineForm0004,
   '0005_statements': statements0005,
+  '0007_weather_fills': weatherFills0007,
 };

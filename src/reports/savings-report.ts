@@ -9,7 +9,14 @@
  * request on the same data gives the same bytes.
  */
 
-import type { NormalisedResult, ProjectionOverrides, ReportingExtrapolation, SavingsPeriod, TemperatureForm } from '../engine/index.js';
+import type {
+  NormalisedResult,
+  PeriodFills,
+  ProjectionOverrides,
+  ReportingExtrapolation,
+  SavingsPeriod,
+  TemperatureForm,
+} from '../engine/index.js';
 
 export const REPORT_FORMAT = 'mvledger-savings-report';
 export const REPORT_VERSION = 1;
@@ -158,6 +165,8 @@ export interface MeterReport {
   adjustments: ReportAdjustment[];
   normalised: NormalisedSavings;
   signature: SignatureData | null;
+  /** Reporting periods whose weather includes days filled on record, with the counts by method in words ("3 of 31 days filled by interpolation"). */
+  weatherFills: PeriodFills[];
 }
 
 export interface GuaranteeLine {

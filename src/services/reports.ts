@@ -15,6 +15,8 @@ import {
   reportingExtrapolation,
   savingsFromAligned,
   residualCorrelation,
+  describeFills,
+  filledDaysByPeriod,
   type MeterResiduals,
   type DateWindow,
   type RateEntry,
@@ -44,6 +46,7 @@ import { DEFAULT_CONTRACT_CONFIDENCE, toContract } from './contracts.js';
 import { shapeName } from '../reports/shape-names.js';
 import { getFacilityRow } from './facilities.js';
 import { loadReadings, loadWeatherFor } from './meter-data.js';
+import { loadFilledDays } from './weather-gaps.js';
 import { loadSchedule } from './rates.js';
 import { frozenModel, type FrozenModel } from './savings.js';
 
@@ -437,7 +440,9 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
   const normalised = ctx.normalYear
     ? normalisedSavings(model.fit, readings, weather, ctx.normalYear.temps, { minCoverage: model.minCoverage, confidence })
     : { available: false as const, reason: 'the weather station has no normal year (PUT /v1/weather-stations/{id}/normal-year)' };
-  return meterReport({
+  const lastEnd = readings.reduce((end, r) => (r.end > end ? r.end : end), readings[0]!.end);
+  const filled = await loadFilledDays(db, meter.weather_station_id, readings[0]!.start, lastEnd);
+  const report = meterReport({
     meter: identity,
     baseline: baselineInfo,
     savings,
@@ -446,7 +451,16 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     normalised,
     signature: signatureData(model, savings, meter.unit),
     extrapolation,
+    weatherFills: filledDaysByPeriod(savings.periods, filled),
   });
+  // The baseline's own weather: filled days it was fitted on are named beside it.
+  const baselineFills = filledDaysByPeriod(
+    [{ start: baseline.start, end: baseline.end }],
+    await loadFilledDays(db, meter.weather_station_id, baseline.start, baseline.end),
+  )[0];
+  if (baselineFills)
+    report.notes.push(`baseline weather: ${describeFills(baselineFills.days, baselineFills.interpolation, baselineFills.secondStation)}`);
+  return report;
 }
 
 function signatureData(model: FrozenModel, savings: SavingsDocument, unit: string): SignatureData {

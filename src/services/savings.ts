@@ -25,6 +25,8 @@ import {
   type SavingsDocument,
   type TemperatureUnit,
   type ShapeFit,
+  filledDaysByPeriod,
+  type PeriodFills,
 } from '../engine/index.js';
 import { DomainError } from '../domain/errors.js';
 import type { BaselineRow } from '../store/schema.js';
@@ -32,6 +34,7 @@ import { fromStoredJson, nonFiniteToNull, verifyBaselineContent } from '../store
 import { overridesOf, type BaselineFitOptions, type BaselineInputs } from './baselines.js';
 import type { Executor } from './context.js';
 import { getMeterRow } from './meters.js';
+import { loadFilledDays } from './weather-gaps.js';
 import { loadReadings, loadWeatherFor } from './meter-data.js';
 import { toAdjustment, toEngineAdjustment, type Adjustment } from './adjustments.js';
 
@@ -48,6 +51,8 @@ export interface MeterSavings extends CheckedSavingsDocument {
   baselineId: string;
   baselineVersion: number;
   baselineContentHash: string;
+  /** Reporting periods whose weather includes days filled on record, by method. */
+  weatherFills: PeriodFills[];
 }
 
 export interface FrozenModel {
@@ -209,5 +214,6 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
     baselineId: baseline.id,
     baselineVersion: baseline.version,
     baselineContentHash: baseline.content_hash,
+    weatherFills: filledDaysByPeriod(document.periods, await loadFilledDays(db, meter.weather_station_id, readings[0]!.start, last)),
   });
 }

@@ -4,6 +4,7 @@
  * integers, timestamps ISO-8601 text, JSON documents text.
  */
 import type { Insertable, Selectable, Updateable } from 'kysely';
+import type { FillMethod } from '../engine/weather-gaps.js';
 import type { Role } from '../domain/principal.js';
 
 export interface OrganisationsTable {
@@ -40,7 +41,13 @@ export interface WeatherObservationsTable {
   tmin: number | null;
   tmax: number | null;
   updated_at: string;
+  /** How a day without an observation was filled: 'interpolation' or 'second-station'; null for an observed day. */
+  fill_method: FillMethod | null;
+  /** What a filled day was filled from (neighbours, or the station and fitted line with its RMSE); null for an observed day. */
+  fill_note: string | null;
 }
+
+export type { FillMethod };
 
 export interface FacilitiesTable {
   id: string;

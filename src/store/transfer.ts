@@ -21,15 +21,16 @@ import { readSnapshot, writeTransaction } from './connect.js';
 import type { AuditRow, BaselineRow, Database } from './schema.js';
 
 export const EXPORT_FORMAT = 'mvledger-export';
-export const EXPORT_VERSION = 4;
+export const EXPORT_VERSION = 5;
 /**
  * Version 1 predates adjustments, rates, contracts and normal years: it is
- * read with those tables empty. Versions 1 and 2 predate the columns of
- * COLUMNS_SINCE_VERSION_3: they are read with those columns defaulted.
- * Versions 1 to 3 predate statements (read with those tables empty) and the
- * contract columns of COLUMNS_SINCE_VERSION_4 (defaulted likewise).
+ * read with those tables empty. Older versions predate the columns of
+ * COLUMNS_SINCE_VERSION (3: a baseline's form and overrides, an adjustment's
+ * ±; 4: a contract's identification and confidence; 5: how a weather day
+ * was filled): they are read with those columns defaulted. Versions 1 to 3
+ * predate statements: read with those tables empty.
  */
-const READABLE_VERSIONS = [1, 2, 3, 4] as const;
+const READABLE_VERSIONS = [1, 2, 3, 4, 5] as const;
 const TABLES_SINCE_VERSION_2 = ['adjustments', 'rates', 'contracts', 'normal_years'] as const;
 const TABLES_SINCE_VERSION_4 = ['statements', 'statement_copies'] as const;
 
@@ -120,7 +121,16 @@ const TABLE_RULES: Record<TransferTable, TableRule> = {
   },
   weather_observations: {
     key: ['station_id', 'date'],
-    columns: { station_id: TEXT, date: TEXT, temp: REAL, tmin: REAL_OR_NULL, tmax: REAL_OR_NULL, updated_at: TEXT },
+    columns: {
+      station_id: TEXT,
+      date: TEXT,
+      temp: REAL,
+      tmin: REAL_OR_NULL,
+      tmax: REAL_OR_NULL,
+      updated_at: TEXT,
+      fill_method: { type: 'text', nullable: true, oneOf: ['interpolation', 'second-station'] },
+      fill_note: TEXT_OR_NULL,
+    },
   },
   facilities: {
     key: ['id'],
@@ -300,39 +310,44 @@ const TABLE_RULES: Record<TransferTable, TableRule> = {
   },
 };
 
+type AddedColumns = Partial<Record<TransferTable, Record<string, (row: ExportRow) => Cell>>>;
+
 /**
- * Columns added in format version 3, and the value an older document's row
- * gets: a baseline's temperature form is the one its fit document states
- * (mean for documents from before the form existed); no override; no
- * stated ± on an adjustment.
+ * Columns added in a format version, and the value an older document's row
+ * gets. Version 3: a baseline's temperature form is the one its fit
+ * document states (mean for documents from before the form existed); no
+ * override; no stated ± on an adjustment. Version 4: a contract stored
+ * before them has no identification and the default confidence level.
+ * Version 5: every weather day of an older document was observed, none
+ * filled.
  */
-const COLUMNS_SINCE_VERSION_3: Partial<Record<TransferTable, Record<string, (row: ExportRow) => Cell>>> = {
-  baselines: {
-    temperature_form: (row) => formOfDocument(row.document_json),
-    short_baseline_override: () => null,
-    extrapolation_override: () => null,
+const COLUMNS_SINCE_VERSION: Record<number, AddedColumns> = {
+  3: {
+    baselines: {
+      temperature_form: (row) => formOfDocument(row.document_json),
+      short_baseline_override: () => null,
+      extrapolation_override: () => null,
+    },
+    adjustments: { uncertainty: () => null },
   },
-  adjustments: { uncertainty: () => null },
+  4: {
+    contracts: {
+      reference: () => null,
+      parties_json: () => '[]',
+      mv_plan_reference: () => null,
+      mv_option: () => null,
+      confidence: () => 0.9,
+    },
+  },
+  5: { weather_observations: { fill_method: () => null, fill_note: () => null } },
 };
 
-/** Columns added in format version 4: a contract stored before them has no identification and the default confidence level. */
-const COLUMNS_SINCE_VERSION_4: Partial<Record<TransferTable, Record<string, (row: ExportRow) => Cell>>> = {
-  contracts: {
-    reference: () => null,
-    parties_json: () => '[]',
-    mv_plan_reference: () => null,
-    mv_option: () => null,
-    confidence: () => 0.9,
-  },
-};
-
-/** The columns a document of `version` lacks in `table`, with the value each gets. */
+/** The columns of `table` that a document of `version` lacks, with their defaults. */
 function columnsAddedAfter(table: TransferTable, version: number): Record<string, (row: ExportRow) => Cell> | undefined {
-  const added = {
-    ...(version < 3 ? COLUMNS_SINCE_VERSION_3[table] : {}),
-    ...(version < 4 ? COLUMNS_SINCE_VERSION_4[table] : {}),
-  };
-  return Object.keys(added).length > 0 ? added : undefined;
+  const added = Object.entries(COLUMNS_SINCE_VERSION)
+    .filter(([since]) => Number(since) > version)
+    .flatMap(([, tables]) => Object.entries(tables[table] ?? {}));
+  return added.length > 0 ? Object.fromEntries(added) : undefined;
 }
 
 function formOfDocument(documentJson: Cell | undefined): Cell {

@@ -55,6 +55,9 @@ const DRIVEN = [
   'POST /v1/meters/{id}/adjustments',
   'PUT /v1/facilities/{id}/contract',
   'POST /v1/statements',
+  // Small whole-number settings (days, years) with their own bounds; at and beyond them in test/http/weather-imports.test.ts.
+  'POST /v1/weather-stations/{id}/gap-fills',
+  'POST /v1/weather-stations/{id}/normal-year/from-history',
 ];
 
 /** The next double above a positive x: "just beyond" a bound. */

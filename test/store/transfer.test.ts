@@ -97,7 +97,7 @@ const CONTRACT_COLUMNS_SINCE_4 = ['reference', 'parties_json', 'mv_plan_referenc
 describe('exportOrganisation', () => {
   it('writes format mvledger-export version 4 with every table of the organisation and no idempotency keys', async () => {
     expect(document.format).toBe('mvledger-export'); // the format's own contract
-    expect(document.version).toBe(4);
+    expect(document.version).toBe(5);
     expect(document.exportedAt).toBe(EXPORTED_AT);
     expect(Object.keys(document.tables)).toEqual([...TRANSFER_TABLES]);
     expect(document.organisation).toEqual(await source.db.selectFrom('organisations').selectAll().executeTakeFirstOrThrow());
@@ -173,8 +173,14 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
         delete d.tables.statements;
         delete d.tables.statement_copies;
         for (const row of d.tables.contracts) for (const column of CONTRACT_COLUMNS_SINCE_4) delete row[column];
+        for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
       },
       says: /^tables\.adjustments\[0\]\.uncertainty: not a column of format version 2/,
+    },
+    {
+      what: 'a version 4 document with a column of version 5',
+      change: (d) => (d.version = 4),
+      says: /^tables\.weather_observations\[0\]\.fill_method: not a column of format version 4/,
     },
     {
       what: 'a frozen baseline whose temperature form was edited',
@@ -232,11 +238,13 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
     const input = edited(document, (d) => {
       d.version = 1;
       for (const table of ['adjustments', 'rates', 'contracts', 'normal_years', 'statements', 'statement_copies']) delete d.tables[table];
+      for (const table of ['adjustments', 'rates', 'contracts', 'normal_years']) delete d.tables[table];
+      for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
     });
     for (const row of (input as any).tables.baselines)
       for (const column of ['temperature_form', 'short_baseline_override', 'extrapolation_override']) delete row[column];
     const checked = checkDocument(input);
-    expect(checked.version).toBe(4);
+    expect(checked.version).toBe(5);
     expect(checked.tables.rates).toEqual([]);
     expect(checked.tables.statements).toEqual([]);
     expect(checked.tables.readings).toHaveLength(document.tables.readings.length);
@@ -249,12 +257,13 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
       delete d.tables.statements;
       delete d.tables.statement_copies;
       for (const row of d.tables.contracts) for (const column of CONTRACT_COLUMNS_SINCE_4) delete row[column];
+      for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
       for (const row of d.tables.baselines)
         for (const column of ['temperature_form', 'short_baseline_override', 'extrapolation_override']) delete row[column];
       for (const row of d.tables.adjustments) delete row.uncertainty;
     });
     const checked = checkDocument(input);
-    expect(checked.version).toBe(4);
+    expect(checked.version).toBe(5);
     // The demo's baselines are day-resolved (its bills have daily weather) and carry no override: the source's own rows.
     expect(checked.tables.baselines.map((row) => row.temperature_form)).toEqual(document.tables.baselines.map(() => 'daily'));
     expect(checked.tables.baselines).toEqual(document.tables.baselines);
@@ -267,9 +276,10 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
       delete d.tables.statements;
       delete d.tables.statement_copies;
       for (const row of d.tables.contracts) for (const column of CONTRACT_COLUMNS_SINCE_4) delete row[column];
+      for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
     });
     const checked = checkDocument(input);
-    expect(checked.version).toBe(4);
+    expect(checked.version).toBe(5);
     expect(checked.tables.statements).toEqual([]);
     expect(checked.tables.statement_copies).toEqual([]);
     for (const row of checked.tables.contracts)
@@ -280,8 +290,20 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
     const input = edited(document, (d) => {
       d.version = 3;
       for (const row of d.tables.contracts) for (const column of CONTRACT_COLUMNS_SINCE_4) delete row[column];
+      for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
     });
     expect(() => checkDocument(input)).toThrow(/^tables\.statements: not a table of format version 3/);
+  });
+
+  it('still reads a version 4 document, every weather day of it observed', () => {
+    const input = edited(document, (d) => {
+      d.version = 4;
+      for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
+    });
+    const checked = checkDocument(input);
+    expect(checked.version).toBe(5);
+    expect(checked.tables.weather_observations.length).toBeGreaterThan(0);
+    expect(checked.tables.weather_observations.every((row) => row.fill_method === null && row.fill_note === null)).toBe(true);
   });
 
   for (const c of cases) {

@@ -34,7 +34,17 @@ export const putObservationsResult = z
   .meta({ id: 'ObservationsPut' });
 
 export const observation = z
-  .object({ date: z.string(), temp: z.number(), tmin: z.number().nullable(), tmax: z.number().nullable() })
+  .object({
+    date: z.string(),
+    temp: z.number(),
+    tmin: z.number().nullable(),
+    tmax: z.number().nullable(),
+    filled: z
+      .enum(['interpolation', 'second-station'])
+      .nullable()
+      .describe('How a day without an observation was filled on record; null for an observed day'),
+    fillNote: z.string().nullable().describe('What a filled day was filled from; null for an observed day'),
+  })
   .meta({ id: 'Observation' });
 
 export const observationsList = z

@@ -89,6 +89,16 @@ function baselineFacts(meter: MeterReport): string {
       tag('ul', { class: 'plain baseline-notes' }, meter.notes.map((n) => tag('li', { 'data-baseline-note': 'true' }, text(n))).join('')),
     ]);
   }
+  if (meter.weatherFills.length > 0) {
+    rows.push([
+      'Filled weather',
+      tag(
+        'ul',
+        { class: 'plain weather-fills' },
+        meter.weatherFills.map((f) => tag('li', { 'data-weather-fill': 'true' }, text(`${f.start} to ${f.end}: ${f.summary}`))).join(''),
+      ),
+    ]);
+  }
   return facts(rows) + modelTable(meter);
 }
 
