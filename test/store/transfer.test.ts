@@ -95,7 +95,7 @@ afterAll(async () => {
 const CONTRACT_COLUMNS_SINCE_4 = ['reference', 'parties_json', 'mv_plan_reference', 'mv_option', 'confidence'];
 
 describe('exportOrganisation', () => {
-  it('writes format mvledger-export version 4 with every table of the organisation and no idempotency keys', async () => {
+  it('writes format mvledger-export version 5 with every table of the organisation and no idempotency keys', async () => {
     expect(document.format).toBe('mvledger-export'); // the format's own contract
     expect(document.version).toBe(5);
     expect(document.exportedAt).toBe(EXPORTED_AT);
@@ -134,7 +134,7 @@ describe('exportOrganisation', () => {
 describe('checkDocument refuses a document that is not a faithful export', () => {
   const cases: { what: string; change: (copy: any) => void; says: RegExp }[] = [
     { what: 'another format', change: (d) => (d.format = 'ledger-dump'), says: /^format: must be "mvledger-export"/ },
-    { what: 'another version', change: (d) => (d.version = 5), says: /^version: this mvledger reads versions 1, 2, 3 and 4, got 5/ },
+    { what: 'another version', change: (d) => (d.version = 6), says: /^version: this mvledger reads versions 1, 2, 3, 4 and 5, got 6/ },
     {
       what: 'a version 1 document with a table of version 2',
       change: (d) => (d.version = 1),
@@ -164,7 +164,7 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
     {
       what: 'an unknown column',
       change: (d) => (d.tables.meters[0].colour = 'red'),
-      says: /^tables\.meters\[0\]\.colour: not a column of format version 4/,
+      says: /^tables\.meters\[0\]\.colour: not a column of format version 5/,
     },
     {
       what: 'a version 2 document with a column of version 3',
@@ -230,7 +230,7 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
     {
       what: 'idempotency keys',
       change: (d) => (d.tables.idempotency_keys = []),
-      says: /^tables\.idempotency_keys: not a table of format version 4/,
+      says: /^tables\.idempotency_keys: not a table of format version 5/,
     },
     { what: 'a missing table', change: (d) => delete d.tables.baselines, says: /^tables\.baselines: must be a list of rows, got nothing/ },
   ];
