@@ -13,6 +13,7 @@ const environmentSchema = z.object({
   DATABASE_URL: z.string().min(1).default('sqlite:./var/mvledger.sqlite'),
   LOG_LEVEL: z.enum(LOG_LEVELS).default('info'),
   RATE_LIMIT_PER_MINUTE: z.coerce.number().int().min(0).default(60_000),
+  SAVINGS_CACHE_MB: z.coerce.number().int().min(0).max(4096).default(32),
   MAX_BODY_BYTES: z.coerce
     .number()
     .int()
@@ -38,6 +39,8 @@ export interface Config {
   rateLimitPerMinute: number;
   /** Largest accepted request body. */
   maxBodyBytes: number;
+  /** Memory for savings documents kept per data version; 0 computes every request afresh. */
+  savingsCacheBytes: number;
 }
 
 export class ConfigError extends Error {}
@@ -59,5 +62,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     bootstrapOrganisation: value.MVLEDGER_BOOTSTRAP_ORGANISATION,
     rateLimitPerMinute: value.RATE_LIMIT_PER_MINUTE,
     maxBodyBytes: value.MAX_BODY_BYTES,
+    savingsCacheBytes: value.SAVINGS_CACHE_MB * 1024 * 1024,
   };
 }

@@ -42,6 +42,7 @@ export async function startService(config: Config): Promise<RunningService> {
     logger: { level: config.logLevel, redact: LOG_REDACTIONS },
     bodyLimit: config.maxBodyBytes,
     rateLimitPerMinute: config.rateLimitPerMinute,
+    savingsCacheBytes: config.savingsCacheBytes,
   });
   log = app.log;
   if (bootstrapped) app.log.info('new database: created the bootstrap organisation and its admin key');

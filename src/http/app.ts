@@ -23,12 +23,15 @@ import { installIdempotency } from './plugins/idempotency.js';
 import { installCsvBodies } from './plugins/csv-bodies.js';
 import { registerRoutes } from './routes/index.js';
 import { Problem } from './problem.js';
+import { SAVINGS_CACHE_BYTES } from '../services/savings-cache.js';
 
 /** What every route module receives. */
 export interface RouteDeps {
   store: Store;
   /** The current time as ISO-8601 (injectable so tests control it). */
   now: () => string;
+  /** Memory for savings documents kept per data version (services/savings-cache.ts). */
+  savingsCacheBytes: number;
 }
 
 export interface AppOptions {
@@ -39,6 +42,8 @@ export interface AppOptions {
   bodyLimit?: number;
   /** Requests per minute per API key (per address without one); 0 or absent: no limit. */
   rateLimitPerMinute?: number;
+  /** Memory for savings documents kept per data version; 0 computes every request afresh (default SAVINGS_CACHE_BYTES). */
+  savingsCacheBytes?: number;
 }
 
 export const DEFAULT_BODY_LIMIT = 16 * 1024 * 1024;
@@ -88,7 +93,11 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     reply.header('x-request-id', request.id);
   });
 
-  const deps: RouteDeps = { store: options.store, now: options.now ?? (() => new Date().toISOString()) };
+  const deps: RouteDeps = {
+    store: options.store,
+    now: options.now ?? (() => new Date().toISOString()),
+    savingsCacheBytes: options.savingsCacheBytes ?? SAVINGS_CACHE_BYTES,
+  };
   installProblemHandling(app);
   await app.register(helmet, {
     // The API serves JSON, SVG and the docs page; nothing may be framed or sniffed.

@@ -14,6 +14,7 @@ import type { AdjustmentsTable } from '../store/schema.js';
 import { notFound, Problem } from '../http/problem.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getMeterRow } from './meters.js';
+import { bumpMeterVersions } from '../store/data-versions.js';
 
 export interface AdjustmentInput {
   start: string;
@@ -135,6 +136,7 @@ export async function createAdjustment(ctx: ServiceContext, meterId: string, inp
       uncertainty: input.uncertainty ?? null,
     };
     await trx.insertInto('adjustments').values(row).execute();
+    await bumpMeterVersions(trx, [row.meter_id]);
     const adjustment = toAdjustment(row);
     await audit(trx, ctx, {
       action: 'create',
@@ -159,6 +161,7 @@ export async function withdrawAdjustment(ctx: ServiceContext, id: string, input:
     if (row.withdrawn_at !== null) throw new Problem('conflict', `adjustment ${id} was already withdrawn on ${row.withdrawn_at}`);
     const update = { withdrawn_at: ctx.now, withdrawn_by: ctx.principal.keyId, withdraw_reason: input.reason };
     await trx.updateTable('adjustments').set(update).where('id', '=', id).execute();
+    await bumpMeterVersions(trx, [row.meter_id]);
     const after = toAdjustment({ ...row, ...update });
     await audit(trx, ctx, { action: 'withdraw', entityType: 'adjustment', entityId: id, before: toAdjustment(row), after });
     return after;

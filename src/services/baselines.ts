@@ -31,6 +31,7 @@ import { signatureChartPoints } from '../reports/svg/signature-points.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getMeterRow } from './meters.js';
 import { loadDailyWeather, loadReadings, loadWeatherFor, stationUnit } from './meter-data.js';
+import { bumpMeterVersions } from '../store/data-versions.js';
 
 export interface BaselineFitOptions {
   minCoverage?: number;
@@ -442,6 +443,8 @@ export async function freezeBaseline(ctx: ServiceContext, baselineId: string, in
       extrapolation_override: input.overrides?.extrapolation?.reason ?? null,
     };
     frozen.content_hash = baselineContentHash(frozen);
+    // Freezing (and superseding) changes which model the meter's savings project with.
+    await bumpMeterVersions(trx, [row.meter_id]);
 
     if (current) {
       const superseded: BaselineRow = { ...current, status: 'superseded' };

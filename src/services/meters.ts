@@ -4,6 +4,7 @@ import type { MeterRow } from '../store/schema.js';
 import { notFound, Problem } from '../http/problem.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getFacilityRow } from './facilities.js';
+import { bumpMeterVersions } from '../store/data-versions.js';
 
 export interface Meter {
   id: string;
@@ -57,6 +58,7 @@ export async function createMeter(
       created_at: ctx.now,
     };
     await trx.insertInto('meters').values(row).execute();
+    await bumpMeterVersions(trx, [row.id]);
     const meter = toMeter(row);
     await audit(trx, ctx, { action: 'create', entityType: 'meter', entityId: row.id, after: meter });
     return meter;

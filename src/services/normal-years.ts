@@ -11,6 +11,7 @@ import { notFound, Problem } from '../http/problem.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getStationRow } from './weather-stations.js';
 import type { RecordLocator } from './readings.js';
+import { bumpStationMeterVersions } from '../store/data-versions.js';
 
 export interface NormalYear {
   stationId: string;
@@ -57,6 +58,7 @@ export async function putNormalYear(
       .executeTakeFirst();
     if (old) await trx.updateTable('normal_years').set(row).where('station_id', '=', station.id).execute();
     else await trx.insertInto('normal_years').values(row).execute();
+    await bumpStationMeterVersions(trx, station.id);
     await audit(trx, ctx, {
       action: 'put-normal-year',
       entityType: 'weather-station',

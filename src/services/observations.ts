@@ -12,6 +12,7 @@ import { audit, inTransaction, type Executor, type ServiceContext, type Tx } fro
 import { getStationRow } from './weather-stations.js';
 import { assertOutsideFrozenWindows, frozenWindowsForStation } from './frozen-windows.js';
 import { checkDateRange, jsonLocator, type DateRange, type RecordLocator } from './readings.js';
+import { bumpStationMeterVersions } from '../store/data-versions.js';
 
 /** Largest batch one request may carry (more than a century of days). */
 export const MAX_OBSERVATIONS_PER_BATCH = 50_000;
@@ -86,6 +87,7 @@ export async function putObservations(
     const result: PutObservationsResult = { stationId, received: days.length, created, updated: writes.length - created, unchanged };
     // Nothing changed, nothing written: no audit row.
     if (writes.length > 0) {
+      await bumpStationMeterVersions(trx, stationId);
       const after: Record<string, AuditedValues> = {};
       for (const { observation } of writes) after[observation.date] = compact(observation);
       await audit(trx, ctx, { action: 'upsert-observations', entityType: 'weather-station', entityId: stationId, before, after });

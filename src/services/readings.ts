@@ -11,6 +11,7 @@ import { Problem, type FieldError } from '../http/problem.js';
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
 import { getMeterRow } from './meters.js';
 import { assertOutsideFrozenWindows, frozenWindowsForMeter } from './frozen-windows.js';
+import { bumpMeterVersions } from '../store/data-versions.js';
 
 /** Largest batch one request may carry. */
 export const MAX_READINGS_PER_BATCH = 50_000;
@@ -132,6 +133,7 @@ export async function postReadings(
     };
     // A batch that changed nothing wrote nothing, so it has nothing to audit.
     if (result.created + result.corrected > 0) {
+      await bumpMeterVersions(trx, [meterId]);
       await audit(trx, ctx, {
         action: 'post-readings',
         entityType: 'meter',

@@ -194,6 +194,12 @@ export interface NormalYearsTable {
   updated_at: string;
 }
 
+/** A meter's data version: a random token replaced by every write that can change the meter's savings (src/store/data-versions.ts). */
+export interface MeterDataVersionsTable {
+  meter_id: string;
+  version: string;
+}
+
 export interface Database {
   organisations: OrganisationsTable;
   api_keys: ApiKeysTable;
@@ -209,6 +215,7 @@ export interface Database {
   rates: RatesTable;
   contracts: ContractsTable;
   normal_years: NormalYearsTable;
+  meter_data_versions: MeterDataVersionsTable;
 }
 
 export type ReadingRow = Selectable<ReadingsTable>;

@@ -21,6 +21,7 @@ const TABLES = [
   'rates',
   'contracts',
   'normal_years',
+  'meter_data_versions',
 ] as const;
 
 export async function databaseDigest(db: Kysely<Database>): Promise<string> {
