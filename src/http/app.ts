@@ -23,15 +23,15 @@ import { installIdempotency } from './plugins/idempotency.js';
 import { installCsvBodies } from './plugins/csv-bodies.js';
 import { registerRoutes } from './routes/index.js';
 import { Problem } from './problem.js';
-import { SAVINGS_CACHE_BYTES } from '../services/savings-cache.js';
+import { SavingsCache } from '../services/savings-cache.js';
 
 /** What every route module receives. */
 export interface RouteDeps {
   store: Store;
   /** The current time as ISO-8601 (injectable so tests control it). */
   now: () => string;
-  /** Memory for savings documents kept per data version (services/savings-cache.ts). */
-  savingsCacheBytes: number;
+  /** Savings documents kept per data version (services/savings-cache.ts), one per instance. */
+  savingsCache: SavingsCache;
 }
 
 export interface AppOptions {
@@ -44,6 +44,8 @@ export interface AppOptions {
   rateLimitPerMinute?: number;
   /** Memory for savings documents kept per data version; 0 computes every request afresh (default SAVINGS_CACHE_BYTES). */
   savingsCacheBytes?: number;
+  /** A cache to use instead (tests read its counters). */
+  savingsCache?: SavingsCache;
 }
 
 export const DEFAULT_BODY_LIMIT = 16 * 1024 * 1024;
@@ -96,7 +98,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
   const deps: RouteDeps = {
     store: options.store,
     now: options.now ?? (() => new Date().toISOString()),
-    savingsCacheBytes: options.savingsCacheBytes ?? SAVINGS_CACHE_BYTES,
+    savingsCache: options.savingsCache ?? new SavingsCache(options.savingsCacheBytes),
   };
   installProblemHandling(app);
   await app.register(helmet, {

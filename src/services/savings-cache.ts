@@ -36,16 +36,23 @@ export class SavingsCache {
   /** Counters for tests and the benchmark. */
   readonly stats = { hits: 0, misses: 0 };
 
-  constructor(
-    /** Turns a document into the response body (the route's own serialiser), so a cached body is byte-identical to a fresh one. */
-    private readonly render: (document: MeterSavings) => string,
-    budgetBytes = SAVINGS_CACHE_BYTES,
-  ) {
+  constructor(budgetBytes = SAVINGS_CACHE_BYTES) {
     this.documents = new BoundedCache(budgetBytes, (entry) => 2 * entry.body.length + 200);
   }
 
-  /** The meter's savings for the query, from memory while its data version stands, else computed (and kept). */
-  async savings(db: Executor, organisationId: string, meterId: string, query: SavingsQuery): Promise<SavingsRepresentation> {
+  /**
+   * The meter's savings for the query, from memory while its data version
+   * stands, else computed (and kept). `render` turns a document into the
+   * response body (the route's own serialiser, always the same one), so a
+   * kept body is byte-identical to a fresh one.
+   */
+  async savings(
+    db: Executor,
+    organisationId: string,
+    meterId: string,
+    query: SavingsQuery,
+    render: (document: MeterSavings) => string,
+  ): Promise<SavingsRepresentation> {
     const version = await meterVersion(db, organisationId, meterId);
     if (version === undefined) throw notFound('meter', meterId);
     const key = version === null ? null : cacheKey(organisationId, meterId, version, query);
@@ -55,7 +62,7 @@ export class SavingsCache {
       return cached;
     }
     this.stats.misses++;
-    const body = this.render(await meterSavings(db, organisationId, meterId, query));
+    const body = render(await meterSavings(db, organisationId, meterId, query));
     const representation: SavingsRepresentation = { body, etag: `"${createHash('sha256').update(body).digest('base64url')}"` };
     if (key !== null && (await meterVersion(db, organisationId, meterId)) === version) this.documents.set(key, representation);
     return representation;

@@ -29,7 +29,12 @@ export async function bumpStationMeterVersions(trx: Transaction<Database>, stati
   await trx
     .insertInto('meter_data_versions')
     .columns(['meter_id', 'version'])
-    .expression((eb) => eb.selectFrom('meters').select((s) => ['id', s.val(randomUUID()).as('version')]).where('weather_station_id', '=', stationId))
+    .expression((eb) =>
+      eb
+        .selectFrom('meters')
+        .select((s) => ['id', s.val(randomUUID()).as('version')])
+        .where('weather_station_id', '=', stationId),
+    )
     .onConflict((oc) => oc.column('meter_id').doUpdateSet((eb) => ({ version: eb.ref('excluded.version') })))
     .execute();
 }
@@ -39,7 +44,12 @@ export async function bumpFacilityMeterVersions(trx: Transaction<Database>, faci
   await trx
     .insertInto('meter_data_versions')
     .columns(['meter_id', 'version'])
-    .expression((eb) => eb.selectFrom('meters').select((s) => ['id', s.val(randomUUID()).as('version')]).where('facility_id', '=', facilityId))
+    .expression((eb) =>
+      eb
+        .selectFrom('meters')
+        .select((s) => ['id', s.val(randomUUID()).as('version')])
+        .where('facility_id', '=', facilityId),
+    )
     .onConflict((oc) => oc.column('meter_id').doUpdateSet((eb) => ({ version: eb.ref('excluded.version') })))
     .execute();
 }

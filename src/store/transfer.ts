@@ -536,7 +536,11 @@ export async function importOrganisation(db: Kysely<Database>, input: unknown): 
     await trx.insertInto('organisations').values(organisation).execute();
     for (const table of TRANSFER_TABLES) await insertRows(trx, table, insertionOrder(table, tables[table]));
     // Data versions are not exported: the imported meters get fresh ones.
-    for (const chunk of chunks(tables.meters, MAX_ROWS_PER_INSERT)) await bumpMeterVersions(trx, chunk.map((row) => row.id as string));
+    for (const chunk of chunks(tables.meters, MAX_ROWS_PER_INSERT))
+      await bumpMeterVersions(
+        trx,
+        chunk.map((row) => row.id as string),
+      );
     await checkTarget(trx, document);
     const rows = {} as Record<TransferTable, number>;
     for (const table of TRANSFER_TABLES) rows[table] = tables[table].length;

@@ -1,14 +1,15 @@
 /** Savings: avoided energy of a meter against its active frozen baseline. */
 import { z } from 'zod';
 import type { RouteDeps } from '../app.js';
-import { noneMatchHits, SavingsCache } from '../../services/savings-cache.js';
+import { noneMatchHits } from '../../services/savings-cache.js';
+import type { MeterSavings } from '../../services/savings.js';
 import { authProblems, bearer, idParams, problemSchema } from '../schemas/common.js';
 import { savingsQuery, savingsSchema } from '../schemas/savings.js';
 import type { ApiApp } from './types.js';
 
 export function savingsRoutes(app: ApiApp, deps: RouteDeps): void {
-  // One per instance: the body is rendered exactly as the route's serialiser would (validated, then JSON).
-  const cache = new SavingsCache((document) => JSON.stringify(z.encode(savingsSchema, document)), deps.savingsCacheBytes);
+  // The body is rendered exactly as the route's serialiser would (validated, then JSON).
+  const render = (document: MeterSavings) => JSON.stringify(z.encode(savingsSchema, document));
   app.get(
     '/v1/meters/:id/savings',
     {
@@ -33,10 +34,16 @@ export function savingsRoutes(app: ApiApp, deps: RouteDeps): void {
       },
     },
     async (request, reply) => {
-      const { body, etag } = await cache.savings(deps.store.db, request.principal!.organisationId, request.params.id, request.query);
+      const { body, etag } = await deps.savingsCache.savings(
+        deps.store.db,
+        request.principal!.organisationId,
+        request.params.id,
+        request.query,
+        render,
+      );
       // private: the answer depends on the caller's key; no-cache: a client revalidates before reusing it.
       reply.header('etag', etag).header('cache-control', 'private, no-cache');
-      if (noneMatchHits(request.headers['if-none-match'], etag)) return reply.code(304).send(null);
+      if (noneMatchHits(request.headers['if-none-match'], etag)) return reply.code(304).send(undefined as never); // no body
       // A string with a JSON content type goes out as it is (already rendered by the route's serialiser above).
       return reply.type('application/json; charset=utf-8').send(body as never);
     },
