@@ -15,6 +15,7 @@ import { notFound, Problem } from '../http/problem.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getMeterRow } from './meters.js';
 import { bumpMeterVersions } from '../store/data-versions.js';
+import { decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
 
 export interface AdjustmentInput {
   start: string;
@@ -168,14 +169,27 @@ export async function withdrawAdjustment(ctx: ServiceContext, id: string, input:
   });
 }
 
+/** The meter's adjustments (withdrawn ones too), by start, a page at a time. */
 export async function listAdjustments(
   db: Executor,
   organisationId: string,
   meterId: string,
-): Promise<{ meterId: string; unit: string; adjustments: Adjustment[] }> {
+  request: PageRequest = { limit: PAGE_SIZES.records.default },
+): Promise<{ meterId: string; unit: string; adjustments: Adjustment[] } & PageInfo> {
+  const after = decodeCursor('adjustments', request.cursor, 'ss');
   const meter = await getMeterRow(db, organisationId, meterId);
-  const rows = await db.selectFrom('adjustments').selectAll().where('meter_id', '=', meter.id).orderBy('period_start').execute();
-  return { meterId: meter.id, unit: meter.unit, adjustments: rows.map(toAdjustment) };
+  let q = db.selectFrom('adjustments').selectAll().where('meter_id', '=', meter.id);
+  if (after) {
+    const [start, id] = after as [string, string];
+    q = q.where((eb) => eb.or([eb('period_start', '>', start), eb.and([eb('period_start', '=', start), eb('id', '>', id)])]));
+  }
+  const fetched = await q
+    .orderBy('period_start')
+    .orderBy('id')
+    .limit(request.limit + 1)
+    .execute();
+  const { rows, page } = pageOf(fetched, request, 'adjustments', (row) => [row.period_start, row.id]);
+  return { meterId: meter.id, unit: meter.unit, ...page, adjustments: rows.map(toAdjustment) };
 }
 
 /** Every adjustment of the given meters, by meter, in date order. */

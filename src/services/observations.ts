@@ -13,6 +13,7 @@ import { getStationRow } from './weather-stations.js';
 import { assertOutsideFrozenWindows, frozenWindowsForStation } from './frozen-windows.js';
 import { checkDateRange, jsonLocator, type DateRange, type RecordLocator } from './readings.js';
 import { bumpStationMeterVersions } from '../store/data-versions.js';
+import { decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
 
 /** Largest batch one request may carry (more than a century of days). */
 export const MAX_OBSERVATIONS_PER_BATCH = 50_000;
@@ -202,18 +203,25 @@ async function upsertChunked(trx: Tx, rows: readonly ObservationRow[]): Promise<
   }
 }
 
-/** Observations on dates in [from, to), by date. */
+/** Observations on dates in [from, to), by date, a page at a time. */
 export async function listObservations(
   db: Executor,
   organisationId: string,
   stationId: string,
-  query: DateRange = {},
-): Promise<{ stationId: string; temperatureUnit: TemperatureUnit; observations: Observation[] }> {
+  query: DateRange & Partial<PageRequest> = {},
+): Promise<{ stationId: string; temperatureUnit: TemperatureUnit; observations: Observation[] } & PageInfo> {
   checkDateRange(query);
+  const request = { limit: query.limit ?? PAGE_SIZES.series.default, cursor: query.cursor };
+  const after = decodeCursor('observations', request.cursor, 's');
   const station = await getStationRow(db, organisationId, stationId);
   let q = db.selectFrom('weather_observations').select(['date', 'temp', 'tmin', 'tmax']).where('station_id', '=', stationId);
   if (query.from !== undefined) q = q.where('date', '>=', query.from);
   if (query.to !== undefined) q = q.where('date', '<', query.to);
-  const observations = await q.orderBy('date').execute();
-  return { stationId, temperatureUnit: station.temperature_unit, observations };
+  if (after) q = q.where('date', '>', after[0] as string);
+  const fetched = await q
+    .orderBy('date')
+    .limit(request.limit + 1)
+    .execute();
+  const { rows, page } = pageOf(fetched, request, 'observations', (row) => [row.date]);
+  return { stationId, temperatureUnit: station.temperature_unit, ...page, observations: rows };
 }

@@ -13,6 +13,7 @@ import { getMeterRow } from './meters.js';
 import { assertOutsideFrozenWindows, frozenWindowsForMeter, PROTECTING_STATUSES, type FrozenWindow } from './frozen-windows.js';
 import { batchContacts, correctReadings, insertReadings } from './readings-postgres.js';
 import { bumpMeterVersions } from '../store/data-versions.js';
+import { decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
 
 /** Largest batch one request may carry. */
 export const MAX_READINGS_PER_BATCH = 50_000;
@@ -368,22 +369,34 @@ export interface DateRange {
   to?: string;
 }
 
-/** Readings whose period overlaps [from, to), by start. */
+/** Readings whose period overlaps [from, to), by start, a page at a time. */
 export async function listReadings(
   db: Executor,
   organisationId: string,
   meterId: string,
-  query: DateRange = {},
-): Promise<{ meterId: string; unit: string; readings: StoredReading[] }> {
+  query: DateRange & Partial<PageRequest> = {},
+): Promise<{ meterId: string; unit: string; readings: StoredReading[] } & PageInfo> {
   checkDateRange(query);
+  const request = { limit: query.limit ?? PAGE_SIZES.series.default, cursor: query.cursor };
+  const after = decodeCursor('readings', request.cursor, 'ss');
   const meter = await getMeterRow(db, organisationId, meterId);
   let q = db.selectFrom('readings').select(['period_start', 'period_end', 'quantity', 'estimated', 'cost']).where('meter_id', '=', meterId);
   if (query.to !== undefined) q = q.where('period_start', '<', query.to);
   if (query.from !== undefined) q = q.where('period_end', '>', query.from);
-  const rows = await q.orderBy('period_start').orderBy('period_end').execute();
+  if (after) {
+    const [start, end] = after as [string, string];
+    q = q.where((eb) => eb.or([eb('period_start', '>', start), eb.and([eb('period_start', '=', start), eb('period_end', '>', end)])]));
+  }
+  const fetched = await q
+    .orderBy('period_start')
+    .orderBy('period_end')
+    .limit(request.limit + 1)
+    .execute();
+  const { rows, page } = pageOf(fetched, request, 'readings', (row) => [row.period_start, row.period_end]);
   return {
     meterId,
     unit: meter.unit,
+    ...page,
     readings: rows.map((row) => ({
       start: row.period_start,
       end: row.period_end,
