@@ -9,11 +9,14 @@
  * 2. One INSERT … SELECT FROM unnest(…) writes the new readings.
  * 3. One UPDATE … FROM unnest(…) writes the corrections.
  *
- * Measured beside COPY into a staging table (test/bench/service.ts, and a
- * probe of 50,000 rows on this machine): unnest and COPY ran alike (about
- * 45,000 and 42,000–55,000 rows/s), both three to four times the multi-row
- * VALUES insert; unnest needs no extra package and runs on the transaction's
- * own connection through kysely.
+ * Chosen by measurement: a throwaway probe on this machine (batches of
+ * 2,500 into a keyed table, 50,000 rows, three rounds; COPY through the
+ * pg-copy-streams package, which the project does not depend on) gave
+ * unnest 36,000–48,000 rows/s, COPY 34,000–55,000 and the multi-row VALUES
+ * insert 10,000–16,000: unnest and COPY alike, both three to four times
+ * VALUES. unnest needs no extra package and runs on the transaction's own
+ * connection through kysely. The service benchmark keeps the unnest path
+ * alone as a reference beside the API (test/bench/service.ts).
  */
 import { sql } from 'kysely';
 import type { BaselineStatus, ReadingRow } from '../store/schema.js';
