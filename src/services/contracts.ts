@@ -12,6 +12,7 @@ import { canonicalJson } from '../lib/canonical-json.js';
 import { notFound, type FieldError, fieldErrors } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getFacilityRow } from './facilities.js';
+import { bumpFacilityMeterVersions } from '../store/data-versions.js';
 
 export interface Guarantee {
   year: number;
@@ -144,6 +145,7 @@ export async function putContract(ctx: ServiceContext, facilityId: string, input
     };
     if (old) await trx.updateTable('contracts').set(row).where('facility_id', '=', facility.id).execute();
     else await trx.insertInto('contracts').values(row).execute();
+    await bumpFacilityMeterVersions(trx, facility.id);
     const contract = toContract(row);
     await audit(trx, ctx, {
       action: 'put-contract',

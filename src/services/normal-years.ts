@@ -11,6 +11,7 @@ import { DomainError, notFound, fieldErrors, MAX_LISTED_ERRORS } from '../domain
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
 import { getStationRow } from './weather-stations.js';
 import type { RecordLocator } from './readings.js';
+import { bumpStationMeterVersions } from '../store/data-versions.js';
 
 export interface NormalYear {
   stationId: string;
@@ -114,6 +115,7 @@ async function storeNormalYear(
     .executeTakeFirst();
   if (old) await trx.updateTable('normal_years').set(row).where('station_id', '=', station.id).execute();
   else await trx.insertInto('normal_years').values(row).execute();
+  await bumpStationMeterVersions(trx, station.id);
   await audit(trx, ctx, {
     action: 'put-normal-year',
     entityType: 'weather-station',

@@ -12,6 +12,8 @@ import { audit, inTransaction, type Executor, type ServiceContext, type Tx } fro
 import { getStationRow } from './weather-stations.js';
 import { assertOutsideFrozenWindows, frozenWindowsForStation } from './frozen-windows.js';
 import { checkDateRange, jsonLocator, type DateRange, type RecordLocator } from './readings.js';
+import { bumpStationMeterVersions } from '../store/data-versions.js';
+import { decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
 
 /** Largest batch one request may carry (more than a century of days). */
 export const MAX_OBSERVATIONS_PER_BATCH = 50_000;
@@ -226,7 +228,9 @@ function compact(observation: Observation & { fill_method?: FillMethod | null })
   return fill_method ? { ...values, filled: fill_method } : values;
 }
 
+/** Writes observed or filled days; every meter on a station whose weather changed gets a new data version (its cached savings go stale). */
 export async function upsertChunked(trx: Tx, rows: readonly ObservationRow[]): Promise<void> {
+  for (const stationId of new Set(rows.map((row) => row.station_id))) await bumpStationMeterVersions(trx, stationId);
   for (let i = 0; i < rows.length; i += UPSERT_CHUNK_ROWS) {
     await trx
       .insertInto('weather_observations')
@@ -245,14 +249,16 @@ export async function upsertChunked(trx: Tx, rows: readonly ObservationRow[]): P
   }
 }
 
-/** Observations on dates in [from, to), by date. */
+/** Observations on dates in [from, to), by date, a page at a time. */
 export async function listObservations(
   db: Executor,
   organisationId: string,
   stationId: string,
-  query: DateRange = {},
-): Promise<{ stationId: string; temperatureUnit: TemperatureUnit; observations: ListedObservation[] }> {
+  query: DateRange & Partial<PageRequest> = {},
+): Promise<{ stationId: string; temperatureUnit: TemperatureUnit; observations: ListedObservation[] } & PageInfo> {
   checkDateRange(query);
+  const request = { limit: query.limit ?? PAGE_SIZES.series.default, cursor: query.cursor };
+  const after = decodeCursor('observations', request.cursor, 's');
   const station = await getStationRow(db, organisationId, stationId);
   let q = db
     .selectFrom('weather_observations')
@@ -260,7 +266,12 @@ export async function listObservations(
     .where('station_id', '=', stationId);
   if (query.from !== undefined) q = q.where('date', '>=', query.from);
   if (query.to !== undefined) q = q.where('date', '<', query.to);
-  const rows = await q.orderBy('date').execute();
+  if (after) q = q.where('date', '>', after[0] as string);
+  const fetched = await q
+    .orderBy('date')
+    .limit(request.limit + 1)
+    .execute();
+  const { rows, page } = pageOf(fetched, request, 'observations', (row) => [row.date]);
   const observations = rows.map(({ fill_method, fill_note, ...day }) => ({ ...day, filled: fill_method, fillNote: fill_note }));
-  return { stationId, temperatureUnit: station.temperature_unit, observations };
+  return { stationId, temperatureUnit: station.temperature_unit, ...page, observations };
 }

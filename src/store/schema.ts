@@ -262,6 +262,12 @@ export interface StatementCopiesTable {
   html_hash: string;
 }
 
+/** A meter's data version: a random token replaced by every write that can change the meter's savings (src/store/data-versions.ts). */
+export interface MeterDataVersionsTable {
+  meter_id: string;
+  version: string;
+}
+
 export interface Database {
   organisations: OrganisationsTable;
   api_keys: ApiKeysTable;
@@ -279,6 +285,7 @@ export interface Database {
   normal_years: NormalYearsTable;
   statements: StatementsTable;
   statement_copies: StatementCopiesTable;
+  meter_data_versions: MeterDataVersionsTable;
 }
 
 export type ReadingRow = Selectable<ReadingsTable>;

@@ -18,6 +18,7 @@ import { documentTemperatureForm, verifyBaselineContent } from './baseline-conte
 import { ROLES } from './api-keys.js';
 import { GENESIS_HASH, verifyAuditChain, verifyAuditRows, type ChainVerdict } from './audit.js';
 import { readSnapshot, writeTransaction } from './connect.js';
+import { bumpMeterVersions } from './data-versions.js';
 import type { AuditRow, BaselineRow, Database } from './schema.js';
 
 export const EXPORT_FORMAT = 'mvledger-export';
@@ -644,6 +645,12 @@ export async function importOrganisation(db: Kysely<Database>, input: unknown): 
     await refuseExisting(trx, document);
     await trx.insertInto('organisations').values(organisation).execute();
     for (const table of TRANSFER_TABLES) await insertRows(trx, table, insertionOrder(table, tables[table]));
+    // Data versions are not exported: the imported meters get fresh ones.
+    for (const chunk of chunks(tables.meters, MAX_ROWS_PER_INSERT))
+      await bumpMeterVersions(
+        trx,
+        chunk.map((row) => row.id as string),
+      );
     await checkTarget(trx, document);
     const rows = {} as Record<TransferTable, number>;
     for (const table of TRANSFER_TABLES) rows[table] = tables[table].length;

@@ -75,6 +75,8 @@ describe('PUT /v1/weather-stations/{id}/observations', () => {
         { date: '2025-01-02', temp: 33, tmin: null, tmax: null, filled: null, fillNote: null },
         { date: '2025-01-03', temp: 28.4, tmin: null, tmax: null, filled: null, fillNote: null },
       ],
+      limit: 1000, // the stated default page size
+      nextCursor: null, // one page holds them all
     });
   });
 

@@ -20,6 +20,7 @@ import {
   type Reading,
 } from '../../src/engine/index.js';
 import { toJsonDocument } from '../../src/cli/format/json.js';
+import { bumpMeterVersions } from '../../src/store/data-versions.js';
 import { makeTestApi, type TestApi } from '../support/api.js';
 import { databaseDigest } from '../support/db-digest.js';
 import { CLIMATES, SAMPLE_BUILDING, dailyWeather, monthlyReadings, seededRandom } from '../support/synthetic.js';
@@ -182,7 +183,8 @@ describe('GET /v1/meters/{id}/savings', () => {
     const after = await savings(meterId, '?to=2025-12-01&confidence=0.95');
     expect(withoutBaselineKeys(after.json)).toEqual(engineSavings(ENGINE.choice.selected, inside, 0.95)); // the engine itself, on the original baseline
 
-    // A reporting reading that changes is seen at once.
+    // A reporting reading that changes is seen at once. These writes go round the service, so they give the meter
+    // a new data version themselves, as every service write does in its transaction (test/http/savings-cache.test.ts).
     const before = await savings(meterId);
     await api.store.db
       .updateTable('readings')
@@ -190,6 +192,7 @@ describe('GET /v1/meters/{id}/savings', () => {
       .where('meter_id', '=', meterId)
       .where('period_start', '=', REPORTING[0]!.start)
       .execute();
+    await api.store.db.transaction().execute((trx) => bumpMeterVersions(trx, [meterId]));
     const changed = await savings(meterId);
     expect(changed.json.totals.actual).toBeCloseTo(before.json.totals.actual - REPORTING[0]!.quantity * 0.1, 6); // hand-worked: 10% less in the first bill
     await api.store.db
@@ -198,6 +201,7 @@ describe('GET /v1/meters/{id}/savings', () => {
       .where('meter_id', '=', meterId)
       .where('period_start', '=', REPORTING[0]!.start)
       .execute();
+    await api.store.db.transaction().execute((trx) => bumpMeterVersions(trx, [meterId]));
     expect((await savings(meterId)).json).toEqual(before.json);
   });
 

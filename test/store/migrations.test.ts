@@ -20,6 +20,7 @@ const TABLES = [
   'contracts',
   'facilities',
   'idempotency_keys',
+  'meter_data_versions',
   'meters',
   'normal_years',
   'organisations',

@@ -23,6 +23,7 @@ const TABLES = [
   'normal_years',
   'statements',
   'statement_copies',
+  'meter_data_versions',
 ] as const;
 
 export async function databaseDigest(db: Kysely<Database>): Promise<string> {

@@ -2,11 +2,12 @@
 import { z } from 'zod';
 import type { RouteDeps } from '../app.js';
 import { createStation, getStationRow, listStations, toStation } from '../../services/weather-stations.js';
-import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
+import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageFields, pageQuery } from '../schemas/common.js';
 import { createStationBody, stationRecordSchema, stationSchema } from '../schemas/weather-stations.js';
 import { dateRangeQuery } from '../schemas/readings.js';
 import { stationRecordSummary } from '../../services/station-records.js';
 import { serviceContext } from './context.js';
+import { PAGE_SIZES } from '../../services/paging.js';
 import type { ApiApp } from './types.js';
 
 export function weatherStationRoutes(app: ApiApp, deps: RouteDeps): void {
@@ -33,11 +34,13 @@ export function weatherStationRoutes(app: ApiApp, deps: RouteDeps): void {
       schema: {
         tags: ['weather'],
         summary: 'List weather stations',
+        description: `Oldest first, in pages (default ${PAGE_SIZES.records.default}, at most ${PAGE_SIZES.records.max}): follow nextCursor.`,
         security: bearer,
-        response: { 200: z.object({ stations: z.array(stationSchema) }), ...authProblems },
+        querystring: z.object(pageQuery(PAGE_SIZES.records, 'Stations')),
+        response: { 200: z.object({ stations: z.array(stationSchema), ...pageFields }), ...authProblems },
       },
     },
-    async (request) => ({ stations: await listStations(deps.store.db, request.principal!.organisationId) }),
+    async (request) => listStations(deps.store.db, request.principal!.organisationId, request.query),
   );
 
   app.get(

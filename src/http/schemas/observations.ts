@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { finite, isoDate } from './common.js';
+import { finite, isoDate, pageFields } from './common.js';
 import { temperatureUnit } from './weather-stations.js';
 import { MAX_BATCH } from './readings.js';
 
@@ -48,5 +48,5 @@ export const observation = z
   .meta({ id: 'Observation' });
 
 export const observationsList = z
-  .object({ stationId: z.string(), temperatureUnit, observations: z.array(observation) })
+  .object({ stationId: z.string(), temperatureUnit, observations: z.array(observation), ...pageFields })
   .meta({ id: 'Observations' });
