@@ -13,6 +13,7 @@ const environmentSchema = z.object({
   DATABASE_URL: z.string().min(1).default('sqlite:./var/mvledger.sqlite'),
   LOG_LEVEL: z.enum(LOG_LEVELS).default('info'),
   RATE_LIMIT_PER_MINUTE: z.coerce.number().int().min(0).default(60_000),
+  SAVINGS_CACHE_MB: z.coerce.number().int().min(0).max(4096).default(32),
   MAX_BODY_BYTES: z.coerce
     .number()
     .int()
@@ -83,6 +84,8 @@ export interface Config {
   /** Longest time a whole request may take to arrive, and its headers, in ms. */
   requestTimeoutMs: number;
   headersTimeoutMs: number;
+  /** Memory for savings documents kept per data version; 0 computes every request afresh. */
+  savingsCacheBytes: number;
 }
 
 export class ConfigError extends Error {}
@@ -107,5 +110,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     failedAuthPerMinute: value.FAILED_AUTH_PER_MINUTE,
     requestTimeoutMs: value.REQUEST_TIMEOUT_MS,
     headersTimeoutMs: value.HEADERS_TIMEOUT_MS,
+    savingsCacheBytes: value.SAVINGS_CACHE_MB * 1024 * 1024,
   };
 }

@@ -45,6 +45,7 @@ export async function startService(config: Config): Promise<RunningService> {
     failedAuthenticationsPerMinute: config.failedAuthPerMinute,
     requestTimeoutMs: config.requestTimeoutMs,
     headersTimeoutMs: config.headersTimeoutMs,
+    savingsCacheBytes: config.savingsCacheBytes,
   });
   log = app.log;
   if (bootstrapped) app.log.info('new database: created the bootstrap organisation and its admin key');

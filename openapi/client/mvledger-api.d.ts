@@ -68,7 +68,10 @@ export interface paths {
             path?: never;
             cookie?: never;
         };
-        /** List the organisation's API keys */
+        /**
+         * List the organisation's API keys
+         * @description Oldest first, in pages (default 100, at most 1000): follow nextCursor.
+         */
         get: operations["getApiKeys"];
         put?: never;
         /**
@@ -111,7 +114,7 @@ export interface paths {
         };
         /**
          * The organisation's audit trail, oldest first
-         * @description Every write, in sequence order: who (API key id or "system"), when, what, and the entity before and after. Page with `after`.
+         * @description Every write, in sequence order: who (API key id or "system"), when, what, and the entity before and after. In pages (default 100, at most 1000): follow nextCursor (or pass `next` as `after`).
          */
         get: operations["getAudit"];
         put?: never;
@@ -226,7 +229,10 @@ export interface paths {
             path?: never;
             cookie?: never;
         };
-        /** List facilities */
+        /**
+         * List facilities
+         * @description Oldest first, in pages (default 100, at most 1000): follow nextCursor.
+         */
         get: operations["getFacilities"];
         put?: never;
         /** Create a facility */
@@ -282,7 +288,10 @@ export interface paths {
             path?: never;
             cookie?: never;
         };
-        /** List a facility's meters */
+        /**
+         * List a facility's meters
+         * @description Oldest first, in pages (default 100, at most 1000): follow nextCursor.
+         */
         get: operations["getFacilitiesByIdMeters"];
         put?: never;
         /** Add a meter to a facility */
@@ -302,7 +311,7 @@ export interface paths {
         };
         /**
          * List the organisation's meters
-         * @description Every meter of every facility (optionally one facility), oldest first: what a billing system needs to map its accounts to meter ids. Open to every role, the integration role included.
+         * @description Every meter of every facility (optionally one facility), oldest first, in pages (default 100, at most 1000): what a billing system needs to map its accounts to meter ids. Open to every role, the integration role included.
          */
         get: operations["getMeters"];
         put?: never;
@@ -337,7 +346,10 @@ export interface paths {
             path?: never;
             cookie?: never;
         };
-        /** A meter’s non-routine adjustments */
+        /**
+         * A meter’s non-routine adjustments
+         * @description By start (withdrawn ones too), in pages (default 100, at most 1000): follow nextCursor.
+         */
         get: operations["getMetersByIdAdjustments"];
         put?: never;
         /**
@@ -358,7 +370,10 @@ export interface paths {
             path?: never;
             cookie?: never;
         };
-        /** The meter’s baseline history, newest version first */
+        /**
+         * The meter’s baseline history, newest version first
+         * @description Newest version first, in pages (default 100, at most 1000): follow nextCursor.
+         */
         get: operations["getMetersByIdBaselines"];
         put?: never;
         /**
@@ -402,7 +417,7 @@ export interface paths {
         };
         /**
          * A meter's readings
-         * @description Readings whose period overlaps [from, to), by start.
+         * @description Readings whose period overlaps [from, to), by start, in pages (default 1000, at most 10000): follow nextCursor until it is null.
          */
         get: operations["getMetersByIdReadings"];
         put?: never;
@@ -427,6 +442,8 @@ export interface paths {
         /**
          * Avoided energy against the frozen baseline
          * @description Projects the frozen baseline’s chosen model (as stored, never refitted) onto the weather of the reporting readings (those starting on or after the baseline’s end, optionally within from..to), adds the meter’s non-routine adjustments to the adjusted baseline of the periods they cover, and states the uncertainty at the chosen confidence (the model’s two, the adjustments’ own and the combined ±). The projection keeps the baseline’s temperature form. 422 when there is no frozen baseline or no usable reporting reading, and when more of the reporting days than the extrapolation limit (10%) have weather outside what the baseline saw, unless the baseline was frozen with overrides.extrapolation (the document then states the override).
+         *
+         *     Computed once per data version of the meter: every write that can change the figures (a reading or correction, the station’s weather, an adjustment or its withdrawal, rates, freezing or superseding a baseline) gives the meter a new version in the same transaction, and the document is then computed afresh. The response carries a strong `ETag`; send it back in `If-None-Match` and the answer is 304 with no body while the figures stand.
          */
         get: operations["getMetersByIdSavings"];
         put?: never;
@@ -457,6 +474,144 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/statements": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** The organisation’s statements, newest first */
+        get: operations["getStatements"];
+        put?: never;
+        /**
+         * Issue (prepare) a savings statement
+         * @description Renders the savings report for the window once, on the data as it stands, and stores its bytes as JSON, CSV and HTML with their content hashes and the audit head it rests on. The statement is prepared (awaiting approval); an analyst who is not the preparer approves or rejects it. 422 when the window holds no reporting data (nothing is stored).
+         */
+        post: operations["postStatements"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/statements/{id}": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** A statement: its status, window, hashes, copies and workflow steps */
+        get: operations["getStatementsById"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/statements/{id}/approve": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Approve a prepared statement
+         * @description By an analyst (or admin) who is not the preparer (403 otherwise). Stores a new copy whose approval block names both people with their roles and UTC times. 409 unless the statement is prepared.
+         */
+        post: operations["postStatementsByIdApprove"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/statements/{id}/compare": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * What changed since the statement was issued
+         * @description Renders the statement’s request on today’s data and lists each change against the stored report (readings added or corrected, baselines superseded, adjustments added or withdrawn, contract terms, savings and cost), with the audit entries since its audit head. Nothing is stored.
+         */
+        get: operations["getStatementsByIdCompare"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/statements/{id}/document": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * The stored bytes of a statement (JSON, CSV or HTML)
+         * @description Exactly the bytes stored when the copy was made, never a re-render: the latest copy (its approval block shows every step so far) unless copy names another (1: as issued). x-content-hash is the SHA-256 of the body; x-statement-copy its copy number.
+         */
+        get: operations["getStatementsByIdDocument"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/statements/{id}/reject": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Reject a prepared statement, with a reason
+         * @description By an analyst (or admin) who is not the preparer. 409 unless the statement is prepared.
+         */
+        post: operations["postStatementsByIdReject"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/statements/{id}/void": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Void a statement, with a reason and optionally its replacement
+         * @description A prepared or approved statement stops being in force; a new copy marked void is stored, and every earlier copy stays. 409 when already voided or rejected.
+         */
+        post: operations["postStatementsByIdVoid"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/weather-stations": {
         parameters: {
             query?: never;
@@ -464,7 +619,10 @@ export interface paths {
             path?: never;
             cookie?: never;
         };
-        /** List weather stations */
+        /**
+         * List weather stations
+         * @description Oldest first, in pages (default 100, at most 1000): follow nextCursor.
+         */
         get: operations["getWeatherStations"];
         put?: never;
         /** Create a weather station */
@@ -492,6 +650,46 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/weather-stations/{id}/gap-fills": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Fill the station’s gaps on record
+         * @description Days of [from, to) without an observation: gaps of at most maxInterpolationDays (default 2) between observed days by linear interpolation; longer ones from secondStationId by a least-squares line fitted on the days both observed (its RMSE stated); the rest left empty and listed. Every filled day is flagged with its method and source, counted in the coverage of every period that uses it, and named in reports. Observed days and days filled before are left alone. A filled day inside the window of a frozen baseline is a 409.
+         */
+        post: operations["postWeatherStationsByIdGapFills"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/weather-stations/{id}/imports": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Import a public station file
+         * @description The file as published (GHCN-Daily .dly or by-station CSV, GSOD CSV), read in the named format and converted once to the station's unit. Values with a failing quality flag are dropped and counted. All or nothing, on the audit trail with the import's counts; a fault in the file is a 400 naming its line and column. A day inside the window of a frozen baseline cannot change (409).
+         */
+        post: operations["postWeatherStationsByIdImports"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/weather-stations/{id}/normal-year": {
         parameters: {
             query?: never;
@@ -513,6 +711,26 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/weather-stations/{id}/normal-year/from-history": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Build the station’s normal year from its own record
+         * @description The mean of each calendar day over fromYear..toYear (29 February folded into 28 February), smoothed by a centred moving mean of windowDays (default 15), stored as the station’s normal year with a source that says so. Every calendar day needs at least 80% of the years on record (422 naming the days short of it).
+         */
+        post: operations["postWeatherStationsByIdNormalYearFromHistory"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/weather-stations/{id}/observations": {
         parameters: {
             query?: never;
@@ -522,7 +740,7 @@ export interface paths {
         };
         /**
          * A station's observations
-         * @description Days in [from, to), by date.
+         * @description Days in [from, to), by date, in pages (default 1000, at most 10000): follow nextCursor until it is null.
          */
         get: operations["getWeatherStationsByIdObservations"];
         /**
@@ -530,6 +748,26 @@ export interface paths {
          * @description All or nothing, by date. Temperatures are in the station's unit and must be plausible. A day inside the window of a frozen baseline of a meter on this station cannot change (409).
          */
         put: operations["putWeatherStationsByIdObservations"];
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/weather-stations/{id}/record": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * The station’s record at a glance
+         * @description Over [from, to) (default: all of it): the span, days observed, filled (by method) and missing, per calendar year, the extremes and days outside plausible bounds, so the engineer sees whether it is fit for a baseline.
+         */
+        get: operations["getWeatherStationsByIdRecord"];
+        put?: never;
         post?: never;
         delete?: never;
         options?: never;
@@ -562,7 +800,11 @@ export interface components {
         };
         Adjustments: {
             adjustments: components["schemas"]["Adjustment"][];
+            /** @description The page size used (the limit asked for, or the default) */
+            limit: number;
             meterId: string;
+            /** @description Pass as cursor to get the next page; null on the last page. A list longer than the page size is never answered whole: follow nextCursor until it is null. */
+            nextCursor: string | null;
             unit: string;
         };
         ApiKey: {
@@ -606,8 +848,12 @@ export interface components {
         };
         AuditPage: {
             entries: components["schemas"]["AuditEntry"][];
+            /** @description The page size used (the limit asked for, or the default 100) */
+            limit: number;
             /** @description Pass as `after` to get the next page; absent on the last page */
             next?: number;
+            /** @description Pass as cursor to get the next page (the same place as `next`); null on the last page */
+            nextCursor: string | null;
         };
         Baseline: {
             choiceReason: string | null;
@@ -666,6 +912,10 @@ export interface components {
         };
         BaselineHistory: {
             baselines: components["schemas"]["BaselineSummary"][];
+            /** @description The page size used (the limit asked for, or the default) */
+            limit: number;
+            /** @description Pass as cursor to get the next page; null on the last page. A list longer than the page size is never answered whole: follow nextCursor until it is null. */
+            nextCursor: string | null;
         };
         /** @description Checks passed over when the baseline was frozen, each with its reason; null where none */
         BaselineOverrides: {
@@ -807,6 +1057,7 @@ export interface components {
             verdict: "selected" | "accepted" | "rejected" | "not-fitted";
         };
         Contract: {
+            confidence: number;
             currency: string | null;
             energyUnit: string;
             facilityId: string;
@@ -815,6 +1066,13 @@ export interface components {
                 energy: number | null;
                 year: number;
             }[];
+            mvOption: ("A" | "B" | "C" | "D") | null;
+            mvPlanReference: string | null;
+            parties: {
+                name: string;
+                role: string;
+            }[];
+            reference: string | null;
             start: string;
             updatedAt: string;
             years: number;
@@ -904,7 +1162,11 @@ export interface components {
             weatherStationId: string;
         };
         MeterList: {
+            /** @description The page size used (the limit asked for, or the default) */
+            limit: number;
             meters: components["schemas"]["Meter"][];
+            /** @description Pass as cursor to get the next page; null on the last page. A list longer than the page size is never answered whole: follow nextCursor until it is null. */
+            nextCursor: string | null;
         };
         NormalYear: {
             contentHash: string;
@@ -923,11 +1185,19 @@ export interface components {
         };
         Observation: {
             date: string;
+            /** @description What a filled day was filled from; null for an observed day */
+            fillNote: string | null;
+            /** @description How a day without an observation was filled on record; null for an observed day */
+            filled: ("interpolation" | "second-station") | null;
             temp: number;
             tmax: number | null;
             tmin: number | null;
         };
         Observations: {
+            /** @description The page size used (the limit asked for, or the default) */
+            limit: number;
+            /** @description Pass as cursor to get the next page; null on the last page. A list longer than the page size is never answered whole: follow nextCursor until it is null. */
+            nextCursor: string | null;
             observations: components["schemas"]["Observation"][];
             stationId: string;
             /**
@@ -977,7 +1247,11 @@ export interface components {
             start: string;
         };
         Readings: {
+            /** @description The page size used (the limit asked for, or the default) */
+            limit: number;
             meterId: string;
+            /** @description Pass as cursor to get the next page; null on the last page. A list longer than the page size is never answered whole: follow nextCursor until it is null. */
+            nextCursor: string | null;
             readings: components["schemas"]["Reading"][];
             unit: string;
         };
@@ -1118,6 +1392,16 @@ export interface components {
                 p: number;
                 t: number | null;
             };
+            /** @description Reporting periods whose weather includes days filled on record, by method */
+            weatherFills: {
+                days: number;
+                end: string;
+                interpolation: number;
+                secondStation: number;
+                start: string;
+                /** @description e.g. "3 of 31 days filled by interpolation" */
+                summary: string;
+            }[];
         };
         /** @description Portfolio, facility and meter savings with costs, guarantees, adjustments, normalised savings, method, sources and caution */
         SavingsReport: {
@@ -1135,6 +1419,143 @@ export interface components {
             };
         } & {
             [key: string]: unknown;
+        };
+        Statement: {
+            approvedAt: string | null;
+            approvedBy: string | null;
+            auditHead: {
+                hash: string;
+                seq: number;
+            };
+            confidence: number;
+            /** @description SHA-256 of the current copy’s stored bytes, per format */
+            contentHashes: {
+                csv: string;
+                html: string;
+                json: string;
+            };
+            copies: {
+                contentHashes: {
+                    csv: string;
+                    html: string;
+                    json: string;
+                };
+                copy: number;
+                createdAt: string;
+                kind: string;
+            }[];
+            /** @description Last day (inclusive) of the latest reporting reading counted */
+            dataThrough: string | null;
+            facilityId: string | null;
+            id: string;
+            note: string | null;
+            preparedAt: string;
+            preparedBy: string;
+            rejectedAt: string | null;
+            rejectedBy: string | null;
+            rejectionReason: string | null;
+            replacedBy: string | null;
+            /** @description Content hash of the savings report inside the statement */
+            reportHash: string;
+            /** @enum {string} */
+            status: "prepared" | "approved" | "rejected" | "voided";
+            steps: {
+                at: string;
+                by: {
+                    keyId: string;
+                    name: string;
+                    role: string;
+                };
+                reason: string | null;
+                replacedBy?: string | null;
+                step: string;
+            }[];
+            voidReason: string | null;
+            voidedAt: string | null;
+            voidedBy: string | null;
+            /** @description As requested ({quarter}, {contractYear} or {from, to}) with the dates it resolved to */
+            window: {
+                from: string;
+                kind: string;
+                label: string;
+                to: string;
+            } & {
+                [key: string]: unknown;
+            };
+        };
+        StatementComparison: {
+            auditSince: {
+                action: string;
+                actor: string;
+                at: string;
+                entityId: string;
+                entityType: string;
+                seq: number;
+            }[];
+            changes: {
+                after: number | string | null;
+                before: number | string | null;
+                description: string;
+                facilityId: string | null;
+                kind: string;
+                meterId: string | null;
+            }[];
+            issued: {
+                auditHead: {
+                    hash: string;
+                    seq: number;
+                };
+                dataThrough: string | null;
+                reportHash: string;
+            };
+            problem: string | null;
+            statementId: string;
+            today: {
+                auditHead: {
+                    hash: string;
+                    seq: number;
+                };
+                dataThrough: string | null;
+                reportHash: string;
+            } | null;
+            unchanged: boolean;
+        };
+        StationRecord: {
+            filled: {
+                interpolation: number;
+                secondStation: number;
+            };
+            first: string | null;
+            last: string | null;
+            max: {
+                date: string;
+                temp: number;
+            } | null;
+            min: {
+                date: string;
+                temp: number;
+            } | null;
+            missing: number;
+            observed: number;
+            /** @description Days outside the plausible range, −80…140 °F in the station’s unit */
+            outsideBounds: number;
+            shareFilled: number;
+            shareMissing: number;
+            spanDays: number;
+            stationId: string;
+            /**
+             * @description The unit of every temperature at this station
+             * @enum {string}
+             */
+            temperatureUnit: "F" | "C";
+            years: {
+                days: number;
+                filled: number;
+                missing: number;
+                observed: number;
+                year: number;
+            }[];
+            yearsCovered: number;
         };
         VerifiedBaseline: {
             choiceReason: string | null;
@@ -1192,6 +1613,69 @@ export interface components {
             version: number;
             /** @description Notes on the choice, e.g. that the chosen shape failed screening */
             warnings: string[];
+        };
+        WeatherGapFill: {
+            alreadyFilled: number;
+            days: {
+                date: string;
+                /** @enum {string} */
+                method: "interpolation" | "second-station";
+                note: string;
+                temp: number;
+            }[];
+            filled: {
+                interpolation: number;
+                secondStation: number;
+            };
+            from: string;
+            gaps: number;
+            leftEmpty: string[];
+            offset: {
+                intercept: number;
+                overlapDays: number;
+                rmse: number;
+                secondStationId: string;
+                slope: number;
+            } | null;
+            offsetRefused: string | null;
+            settings: {
+                maxInterpolationDays: number;
+                minOverlapDays: number;
+                secondStationId: string | null;
+            };
+            stationId: string;
+            to: string;
+        };
+        WeatherImport: {
+            archiveStationId: string;
+            counts: {
+                /** @description Distinct days the file holds a temperature record for */
+                daysRead: number;
+                /** @description Values refused for a failing quality flag */
+                droppedByFlag: number;
+                /** @description Refused values by quality flag */
+                droppedFlags: {
+                    [key: string]: number;
+                };
+                /** @description Days with a usable temperature, written */
+                imported: number;
+                /** @description Days read that have no usable temperature */
+                missing: number;
+                /** @description Lines or rows of non-temperature elements, skipped */
+                otherElements: number;
+            };
+            created: number;
+            firstDate: string | null;
+            /**
+             * @description ghcn-dly: GHCN-Daily fixed-width .dly; ghcn-csv: GHCN-Daily by-station CSV; gsod-csv: Global Summary of the Day CSV
+             * @enum {string}
+             */
+            format: "ghcn-dly" | "ghcn-csv" | "gsod-csv";
+            lastDate: string | null;
+            method: string;
+            stationId: string;
+            unchanged: number;
+            updated: number;
         };
         WeatherStation: {
             createdAt: string;
@@ -1390,7 +1874,12 @@ export interface operations {
     };
     getApiKeys: {
         parameters: {
-            query?: never;
+            query?: {
+                /** @description Keys per page: default 100, at most 1000 */
+                limit?: number;
+                /** @description The nextCursor of the previous page, unchanged; omit for the first page */
+                cursor?: string;
+            };
             header?: never;
             path?: never;
             cookie?: never;
@@ -1405,6 +1894,10 @@ export interface operations {
                 content: {
                     "application/json": {
                         keys: components["schemas"]["ApiKey"][];
+                        /** @description The page size used (the limit asked for, or the default) */
+                        limit: number;
+                        /** @description Pass as cursor to get the next page; null on the last page. A list longer than the page size is never answered whole: follow nextCursor until it is null. */
+                        nextCursor: string | null;
                     };
                 };
             };
@@ -1628,9 +2121,12 @@ export interface operations {
                 entityId?: string;
                 /** @description Only rows written at or after this time; a date means its midnight UTC */
                 since?: string;
+                /** @description Rows per page: default 100, at most 1000 */
                 limit?: number;
                 /** @description Continue after this sequence number (the `next` of the previous page) */
                 after?: number;
+                /** @description The nextCursor of the previous page, unchanged (the same place as `after`) */
+                cursor?: string;
             };
             header?: never;
             path?: never;
@@ -2087,7 +2583,12 @@ export interface operations {
     };
     getFacilities: {
         parameters: {
-            query?: never;
+            query?: {
+                /** @description Facilities per page: default 100, at most 1000 */
+                limit?: number;
+                /** @description The nextCursor of the previous page, unchanged; omit for the first page */
+                cursor?: string;
+            };
             header?: never;
             path?: never;
             cookie?: never;
@@ -2102,6 +2603,10 @@ export interface operations {
                 content: {
                     "application/json": {
                         facilities: components["schemas"]["Facility"][];
+                        /** @description The page size used (the limit asked for, or the default) */
+                        limit: number;
+                        /** @description Pass as cursor to get the next page; null on the last page. A list longer than the page size is never answered whole: follow nextCursor until it is null. */
+                        nextCursor: string | null;
                     };
                 };
             };
@@ -2379,6 +2884,8 @@ export interface operations {
         requestBody: {
             content: {
                 "application/json": {
+                    /** @description Two-sided confidence of every ± in the contract’s reports and statements unless a request names another: 0.68, 0.8, 0.9, 0.95 (default 0.9) */
+                    confidence?: number;
                     currency?: string | null;
                     /** @description Unit of the energy guarantees: a standard energy unit such as MMBtu, GJ, kWh or therm */
                     energyUnit: string;
@@ -2389,6 +2896,18 @@ export interface operations {
                         energy?: number | null;
                         year: number;
                     }[];
+                    /** @description The IPMVP option of the M&V plan (C: whole facility) */
+                    mvOption?: ("A" | "B" | "C" | "D") | null;
+                    /** @description The M&V plan’s reference */
+                    mvPlanReference?: string | null;
+                    /** @description The parties to the contract, each with its role */
+                    parties?: {
+                        name: string;
+                        /** @description e.g. customer, energy service company */
+                        role: string;
+                    }[];
+                    /** @description The contract’s own reference (number or title) */
+                    reference?: string | null;
                     /**
                      * Format: date
                      * @description First day of contract year 1
@@ -2485,7 +3004,12 @@ export interface operations {
     };
     getFacilitiesByIdMeters: {
         parameters: {
-            query?: never;
+            query?: {
+                /** @description Meters per page: default 100, at most 1000 */
+                limit?: number;
+                /** @description The nextCursor of the previous page, unchanged; omit for the first page */
+                cursor?: string;
+            };
             header?: never;
             path: {
                 id: string;
@@ -2501,7 +3025,11 @@ export interface operations {
                 };
                 content: {
                     "application/json": {
+                        /** @description The page size used (the limit asked for, or the default) */
+                        limit: number;
                         meters: components["schemas"]["Meter"][];
+                        /** @description Pass as cursor to get the next page; null on the last page. A list longer than the page size is never answered whole: follow nextCursor until it is null. */
+                        nextCursor: string | null;
                     };
                 };
             };
@@ -2660,6 +3188,10 @@ export interface operations {
             query?: {
                 /** @description Only this facility's meters */
                 facilityId?: string;
+                /** @description Meters per page: default 100, at most 1000 */
+                limit?: number;
+                /** @description The nextCursor of the previous page, unchanged; omit for the first page */
+                cursor?: string;
             };
             header?: never;
             path?: never;
@@ -2774,7 +3306,12 @@ export interface operations {
     };
     getMetersByIdAdjustments: {
         parameters: {
-            query?: never;
+            query?: {
+                /** @description Adjustments per page: default 100, at most 1000 */
+                limit?: number;
+                /** @description The nextCursor of the previous page, unchanged; omit for the first page */
+                cursor?: string;
+            };
             header?: never;
             path: {
                 id: string;
@@ -2955,7 +3492,12 @@ export interface operations {
     };
     getMetersByIdBaselines: {
         parameters: {
-            query?: never;
+            query?: {
+                /** @description Baselines per page: default 100, at most 1000 */
+                limit?: number;
+                /** @description The nextCursor of the previous page, unchanged; omit for the first page */
+                cursor?: string;
+            };
             header?: never;
             path: {
                 id: string;
@@ -3321,6 +3863,10 @@ export interface operations {
             query?: {
                 from?: string;
                 to?: string;
+                /** @description Readings per page: default 1000, at most 10000 */
+                limit?: number;
+                /** @description The nextCursor of the previous page, unchanged; omit for the first page */
+                cursor?: string;
             };
             header?: never;
             path: {
@@ -3524,7 +4070,10 @@ export interface operations {
                 /** @description Two-sided confidence of the stated uncertainty: 0.68, 0.8, 0.9, 0.95 (default 0.68) */
                 confidence?: number;
             };
-            header?: never;
+            header?: {
+                /** @description An ETag of an earlier answer: 304 while the figures have not changed */
+                "if-none-match"?: string;
+            };
             path: {
                 id: string;
             };
@@ -3540,6 +4089,13 @@ export interface operations {
                 content: {
                     "application/json": components["schemas"]["Savings"];
                 };
+            };
+            /** @description Not modified: the figures behind the ETag sent in If-None-Match still stand */
+            304: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content?: never;
             };
             /** @description Bad input: a problem+json naming the field or row; nothing was stored */
             400: {
@@ -3603,7 +4159,7 @@ export interface operations {
                 facilityId?: string;
                 /** @description json (default), csv or html */
                 format?: "json" | "csv" | "html";
-                /** @description Two-sided confidence of every ±: 0.68, 0.8, 0.9, 0.95 (default 0.68) */
+                /** @description Two-sided confidence of every ±: 0.68, 0.8, 0.9, 0.95 (default: the level the contract names, 0.9 without one) */
                 confidence?: number;
             };
             header?: never;
@@ -3670,7 +4226,7 @@ export interface operations {
             };
         };
     };
-    getWeatherStations: {
+    getStatements: {
         parameters: {
             query?: never;
             header?: never;
@@ -3686,6 +4242,701 @@ export interface operations {
                 };
                 content: {
                     "application/json": {
+                        statements: components["schemas"]["Statement"][];
+                    };
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    postStatements: {
+        parameters: {
+            query?: never;
+            header?: {
+                /** @description Replays return the first response; a different request with the same key is refused (422). */
+                "idempotency-key"?: string;
+            };
+            path?: never;
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": {
+                    /** @description Two-sided confidence of every ±: 0.68, 0.8, 0.9, 0.95; default the contract’s level (90% without one) */
+                    confidence?: number | null;
+                    /** @description Only this facility */
+                    facilityId?: string | null;
+                    /** @description Shown on the statement */
+                    note?: string | null;
+                    /** @description {quarter: "2026-Q3"}, {contractYear: N} or {from, to} */
+                    window: {
+                        contractYear?: number;
+                        /**
+                         * Format: date
+                         * @description First day (with to)
+                         * @example 2025-01-31
+                         */
+                        from?: string;
+                        /** @description A calendar quarter, e.g. 2026-Q3 */
+                        quarter?: string;
+                        /**
+                         * Format: date
+                         * @description Day after the last day (exclusive)
+                         * @example 2025-01-31
+                         */
+                        to?: string;
+                    };
+                };
+            };
+        };
+        responses: {
+            /** @description Created: the new resource or the result of the write */
+            201: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Statement"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Conflicts with stored data (an overlap, a frozen baseline, a changed reading without a reason); nothing was stored */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is larger than the service accepts */
+            413: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is not of a media type this operation takes */
+            415: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getStatementsById: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Statement"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    postStatementsByIdApprove: {
+        parameters: {
+            query?: never;
+            header?: {
+                /** @description Replays return the first response; a different request with the same key is refused (422). */
+                "idempotency-key"?: string;
+            };
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": Record<string, never>;
+            };
+        };
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Statement"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Conflicts with stored data (an overlap, a frozen baseline, a changed reading without a reason); nothing was stored */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is larger than the service accepts */
+            413: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is not of a media type this operation takes */
+            415: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getStatementsByIdCompare: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["StatementComparison"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getStatementsByIdDocument: {
+        parameters: {
+            query?: {
+                /** @description json (default), csv or html */
+                format?: "json" | "csv" | "html";
+                /** @description A stored copy by number (1: as issued); default the latest */
+                copy?: number;
+            };
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The stored statement */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": {
+                        /** @enum {string} */
+                        format: "mvledger-savings-statement";
+                    } & {
+                        [key: string]: unknown;
+                    };
+                    "text/csv": string;
+                    "text/html": string;
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    postStatementsByIdReject: {
+        parameters: {
+            query?: never;
+            header?: {
+                /** @description Replays return the first response; a different request with the same key is refused (422). */
+                "idempotency-key"?: string;
+            };
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": {
+                    reason: string;
+                };
+            };
+        };
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Statement"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Conflicts with stored data (an overlap, a frozen baseline, a changed reading without a reason); nothing was stored */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is larger than the service accepts */
+            413: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is not of a media type this operation takes */
+            415: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    postStatementsByIdVoid: {
+        parameters: {
+            query?: never;
+            header?: {
+                /** @description Replays return the first response; a different request with the same key is refused (422). */
+                "idempotency-key"?: string;
+            };
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": {
+                    reason: string;
+                    /** @description The statement that replaces this one */
+                    replacedBy?: string | null;
+                };
+            };
+        };
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Statement"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Conflicts with stored data (an overlap, a frozen baseline, a changed reading without a reason); nothing was stored */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is larger than the service accepts */
+            413: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is not of a media type this operation takes */
+            415: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getWeatherStations: {
+        parameters: {
+            query?: {
+                /** @description Stations per page: default 100, at most 1000 */
+                limit?: number;
+                /** @description The nextCursor of the previous page, unchanged; omit for the first page */
+                cursor?: string;
+            };
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": {
+                        /** @description The page size used (the limit asked for, or the default) */
+                        limit: number;
+                        /** @description Pass as cursor to get the next page; null on the last page. A list longer than the page size is never answered whole: follow nextCursor until it is null. */
+                        nextCursor: string | null;
                         stations: components["schemas"]["WeatherStation"][];
                     };
                 };
@@ -3892,6 +5143,234 @@ export interface operations {
             };
         };
     };
+    postWeatherStationsByIdGapFills: {
+        parameters: {
+            query?: never;
+            header?: {
+                /** @description Replays return the first response; a different request with the same key is refused (422). */
+                "idempotency-key"?: string;
+            };
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": {
+                    /**
+                     * Format: date
+                     * @description First day of the window to fill
+                     * @example 2025-01-31
+                     */
+                    from: string;
+                    /** @description Longest gap filled by linear interpolation between its observed neighbours (default 2; 0: none) */
+                    maxInterpolationDays?: number;
+                    /** @description Fewest shared observed days the second station’s line is fitted on (default 30) */
+                    minOverlapDays?: number;
+                    /** @description Fill longer gaps from this station by a line fitted on the days both observed */
+                    secondStationId?: string;
+                    /**
+                     * Format: date
+                     * @description Day after the last (exclusive)
+                     * @example 2025-01-31
+                     */
+                    to: string;
+                };
+            };
+        };
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["WeatherGapFill"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Conflicts with stored data (an overlap, a frozen baseline, a changed reading without a reason); nothing was stored */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is larger than the service accepts */
+            413: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is not of a media type this operation takes */
+            415: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    postWeatherStationsByIdImports: {
+        parameters: {
+            query: {
+                /** @description ghcn-dly: GHCN-Daily fixed-width .dly; ghcn-csv: GHCN-Daily by-station CSV; gsod-csv: Global Summary of the Day CSV */
+                format: "ghcn-dly" | "ghcn-csv" | "gsod-csv";
+                /** @description The archive’s station id the file must carry on every line (e.g. the 11-character GHCN-Daily id) */
+                station?: string;
+            };
+            header?: {
+                /** @description Replays return the first response; a different request with the same key is refused (422). */
+                "idempotency-key"?: string;
+            };
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        /** @description The station file itself, as published, sent as plain text (Content-Type text/plain, or the CSV media type for the CSV formats). */
+        requestBody: {
+            content: {
+                "text/csv": string;
+                "text/plain": string;
+            };
+        };
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["WeatherImport"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Conflicts with stored data (an overlap, a frozen baseline, a changed reading without a reason); nothing was stored */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is larger than the service accepts */
+            413: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is not of a media type this operation takes */
+            415: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
     getWeatherStationsByIdNormalYear: {
         parameters: {
             query?: never;
@@ -4060,11 +5539,123 @@ export interface operations {
             };
         };
     };
+    postWeatherStationsByIdNormalYearFromHistory: {
+        parameters: {
+            query?: never;
+            header?: {
+                /** @description Replays return the first response; a different request with the same key is refused (422). */
+                "idempotency-key"?: string;
+            };
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": {
+                    /** @description First calendar year */
+                    fromYear: number;
+                    /** @description Last calendar year, included */
+                    toYear: number;
+                    /** @description Width of the centred moving mean that smooths the calendar-day means (odd; default 15) */
+                    windowDays?: number;
+                };
+            };
+        };
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["NormalYear"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Conflicts with stored data (an overlap, a frozen baseline, a changed reading without a reason); nothing was stored */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is larger than the service accepts */
+            413: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is not of a media type this operation takes */
+            415: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
     getWeatherStationsByIdObservations: {
         parameters: {
             query?: {
                 from?: string;
                 to?: string;
+                /** @description Observations per page: default 1000, at most 10000 */
+                limit?: number;
+                /** @description The nextCursor of the previous page, unchanged; omit for the first page */
+                cursor?: string;
             };
             header?: never;
             path: {
@@ -4228,6 +5819,67 @@ export interface operations {
             };
             /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
             422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getWeatherStationsByIdRecord: {
+        parameters: {
+            query?: {
+                from?: string;
+                to?: string;
+            };
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["StationRecord"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
                 headers: {
                     [name: string]: unknown;
                 };

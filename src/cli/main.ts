@@ -12,7 +12,18 @@ import { runSavings } from './commands/savings.js';
 import { runKeys } from './commands/keys.js';
 import { runExport, runImport } from './commands/transfer.js';
 import { runBackup, runRestore } from './commands/backup.js';
-import { BACKUP_USAGE, EXPORT_USAGE, FIT_USAGE, GENERAL_USAGE, IMPORT_USAGE, KEYS_USAGE, RESTORE_USAGE, SAVINGS_USAGE } from './usage.js';
+import { runWeather } from './commands/weather.js';
+import {
+  BACKUP_USAGE,
+  EXPORT_USAGE,
+  FIT_USAGE,
+  GENERAL_USAGE,
+  IMPORT_USAGE,
+  KEYS_USAGE,
+  RESTORE_USAGE,
+  SAVINGS_USAGE,
+  WEATHER_USAGE,
+} from './usage.js';
 import { packageVersion } from './version.js';
 
 export interface CliIO {
@@ -68,8 +79,18 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
       if (output.note) io.stderr(output.note);
       return output.code ?? 0;
     }
+    if (command === 'weather') {
+      if (rest.some((word) => HELP_WORDS.has(word))) {
+        io.stdout(WEATHER_USAGE);
+        return 0;
+      }
+      const output = await runWeather(rest);
+      io.stdout(output.stdout);
+      if (output.note) io.stderr(output.note);
+      return 0;
+    }
     io.stderr(
-      `mvledger: unknown command ${JSON.stringify(command)} (commands: fit, savings, keys, export, import, backup, restore, help)\n`,
+      `mvledger: unknown command ${JSON.stringify(command)} (commands: fit, savings, weather, keys, export, import, backup, restore, help)\n`,
     );
     return EXIT_BAD_INPUT;
   } catch (error) {
@@ -95,5 +116,6 @@ function helpFor(topic: string | undefined): string {
   if (topic === 'import') return IMPORT_USAGE;
   if (topic === 'backup') return BACKUP_USAGE;
   if (topic === 'restore') return RESTORE_USAGE;
+  if (topic === 'weather') return WEATHER_USAGE;
   return GENERAL_USAGE;
 }

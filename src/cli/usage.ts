@@ -61,7 +61,7 @@ export const EXPORT_USAGE = `Usage: mvledger export --org ID [--out FILE]
 
 Write one organisation of the database named by DATABASE_URL (default
 sqlite:./var/mvledger.sqlite; its schema is brought up to date first) as one
-JSON document, format mvledger-export version 3 (versions 1 and 2 are still
+JSON document, format mvledger-export version 4 (versions 1, 2 and 3 are still
 read): every row of its API keys, weather stations and observations, normal
 years, facilities, contracts, meters, readings, rates, adjustments, baselines
 and audit trail, exactly as stored, with the head of its audit chain. API keys
@@ -115,17 +115,38 @@ command and exits 2.
   --force             replace a database that already holds organisations
 `;
 
+export const WEATHER_USAGE = `Usage: mvledger weather import --format NAME FILE [--station ID] [--unit F|C]
+       mvledger weather import --format NAME FILE --url URL --station-id WST [--key KEY] [--station ID]
+       mvledger weather check --format NAME FILE [--station ID] [--unit F|C] [--json]
+
+Read a public daily station file as published. Formats: ghcn-dly (GHCN-Daily
+fixed-width .dly), ghcn-csv (GHCN-Daily by-station CSV), gsod-csv (Global
+Summary of the Day CSV). Values with a failing quality flag are dropped and
+counted; temperatures are converted once to --unit (default F).
+
+  --station ID        the archive's station id every line must carry
+  import              writes date,temp to stdout (the mean; (TMIN+TMAX)/2 where
+                      the file gives the extremes) and the counts to stderr;
+                      with --url, posts the file to the service instead:
+  --url URL           the service, e.g. http://127.0.0.1:8080
+  --station-id WST    the ledger station to import into
+  --key KEY           an API key (or MVLEDGER_API_KEY in the environment)
+  check               the record's span, missing days per year, extremes and
+                      days outside plausible bounds
+`;
+
 export const GENERAL_USAGE = `mvledger: weather-normalised baselines and avoided energy (IPMVP whole-facility option, ASHRAE Guideline 14 methods)
 
 Usage:
   mvledger fit --readings FILE --weather FILE [options]
   mvledger savings --baseline FILE --reporting FILE --weather FILE [options]
+  mvledger weather import|check --format NAME FILE [options]
   mvledger keys create|list|revoke ...
   mvledger export --org ID [--out FILE]
   mvledger import --in FILE
   mvledger backup --out FILE
   mvledger restore --in FILE [--force]
-  mvledger help [fit|savings|keys|export|import|backup|restore]
+  mvledger help [fit|savings|weather|keys|export|import|backup|restore]
   mvledger --version
 
 Dates are ISO (YYYY-MM-DD). Bad input is reported as one line naming the file,
@@ -133,6 +154,7 @@ the CSV row (header = row 1) and the field, with exit code 2.
 
 ${FIT_USAGE}
 ${SAVINGS_USAGE}
+${WEATHER_USAGE}
 ${KEYS_USAGE}
 ${EXPORT_USAGE}
 ${IMPORT_USAGE}

@@ -118,6 +118,15 @@ export async function seedDemo(base: string, adminKey: string, reportFolder = di
         energy: guarantee(builtInMMBtu, 10),
         cost: guarantee(builtInCost, 100),
       })),
+      // Invented identification: the reference, parties and plan a statement shows.
+      reference: `EPC-DEMO-${facilities.length + 1} (invented)`,
+      parties: [
+        { role: 'customer', name: `${plan.name} board (invented)` },
+        { role: 'energy service company', name: 'Tallowmere Retrofit Partners (invented)' },
+      ],
+      mvPlanReference: 'M&V plan, revision 2 (invented)',
+      mvOption: 'C',
+      confidence: 0.9,
     });
     facilities.push({ id: facility.id, name: plan.name, meters });
   }

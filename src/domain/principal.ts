@@ -12,16 +12,18 @@ export interface Principal {
 /**
  * What an action needs. read: ledger data and audit; savings: savings and
  * reports; data: post readings and weather observations; ledger: create and
- * change facilities, meters, stations and baselines; keys: manage API keys;
- * reconcile: what a billing system needs to reconcile what it posted (the
- * meter list, a meter, a meter's readings), which every role has.
+ * change facilities, meters, stations and baselines, and prepare statements;
+ * keys: manage API keys; approve: approve, reject or void an issued statement
+ * (never one's own: the service checks that); reconcile: what a billing
+ * system needs to reconcile what it posted (the meter list, a meter, a
+ * meter's readings), which every role has.
  */
-export type Permission = 'read' | 'savings' | 'data' | 'ledger' | 'keys' | 'reconcile';
+export type Permission = 'read' | 'savings' | 'data' | 'ledger' | 'keys' | 'approve' | 'reconcile';
 
 export const ROLE_PERMISSIONS: Readonly<Record<Role, readonly Permission[]>> = {
-  admin: ['read', 'savings', 'data', 'ledger', 'keys', 'reconcile'],
+  admin: ['read', 'savings', 'data', 'ledger', 'keys', 'approve', 'reconcile'],
   engineer: ['read', 'savings', 'data', 'ledger', 'reconcile'],
-  analyst: ['read', 'savings', 'reconcile'],
+  analyst: ['read', 'savings', 'approve', 'reconcile'],
   // A billing system posts readings, reads back meters and its readings to reconcile, and reads savings: nothing more.
   integration: ['savings', 'data', 'reconcile'],
 };

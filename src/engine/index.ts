@@ -168,3 +168,7 @@ export function savingsFromAligned(
     excluded: { baseline: [...baseline.excluded], reporting: excluded },
   };
 }
+export * from './weather-gaps.js';
+export * from './filled-days.js';
+export * from './station-record.js';
+export * from './normal-year-history.js';

@@ -21,12 +21,15 @@ import { FailedAuthenticationLimit } from './plugins/failed-authentication.js';
 import { answerClientError } from './security-headers.js';
 import { registerRoutes } from './routes/index.js';
 import { Problem } from './problem.js';
+import { SavingsCache } from '../services/savings-cache.js';
 
 /** What every route module receives. */
 export interface RouteDeps {
   store: Store;
   /** The current time as ISO-8601 (injectable so tests control it). */
   now: () => string;
+  /** Savings documents kept per data version (services/savings-cache.ts), one per instance. */
+  savingsCache: SavingsCache;
 }
 
 export interface AppOptions {
@@ -43,6 +46,10 @@ export interface AppOptions {
   requestTimeoutMs?: number;
   /** Longest time the request headers may take to arrive, in ms. */
   headersTimeoutMs?: number;
+  /** Memory for savings documents kept per data version; 0 computes every request afresh (default SAVINGS_CACHE_BYTES). */
+  savingsCacheBytes?: number;
+  /** A cache to use instead (tests read its counters). */
+  savingsCache?: SavingsCache;
 }
 
 /** A request trickled in slowly holds a connection: the whole request must arrive within a minute, its headers within 15 s. */
@@ -104,7 +111,11 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     reply.header('x-request-id', request.id);
   });
 
-  const deps: RouteDeps = { store: options.store, now: options.now ?? (() => new Date().toISOString()) };
+  const deps: RouteDeps = {
+    store: options.store,
+    now: options.now ?? (() => new Date().toISOString()),
+    savingsCache: options.savingsCache ?? new SavingsCache(options.savingsCacheBytes),
+  };
   installProblemHandling(app);
   await app.register(helmet, {
     // The API serves JSON, SVG and the docs page; nothing may be framed or sniffed.

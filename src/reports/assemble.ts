@@ -34,6 +34,7 @@ export interface ReportInput {
   organisation: { id: string; name: string };
   window: ReportWindow;
   confidence: number;
+  confidenceSource?: SavingsReport['confidenceSource'];
   dataAsOf: { auditSeq: number; auditHash: string };
   facilities: FacilityInput[];
   normalYears: SavingsReport['normalYears'];
@@ -71,6 +72,7 @@ export function assembleReport(input: ReportInput): SavingsReport {
     organisation: input.organisation,
     window: input.window,
     confidence: input.confidence,
+    ...(input.confidenceSource !== undefined ? { confidenceSource: input.confidenceSource } : {}),
     dataAsOf: input.dataAsOf,
     portfolio,
     facilities,

@@ -14,6 +14,7 @@ import {
   type ReportingExtrapolation,
   type SavingsDocument,
 } from '../engine/index.js';
+import type { PeriodFills } from '../engine/index.js';
 import type { CostTotal, MeterReport, NormalisedSavings, ReportAdjustment, ReportPeriod, SignatureData } from './savings-report.js';
 import { COMMON_UNITS, convertTotal, energyTotal } from './totals.js';
 
@@ -32,6 +33,8 @@ export interface MeterReportInput {
   signature: SignatureData;
   /** The window's reporting days against the weather the baseline saw. */
   extrapolation: ReportingExtrapolation;
+  /** Reporting periods that rest on filled weather days (none when absent). */
+  weatherFills?: PeriodFills[];
 }
 
 /** The more cautious of the model's two stated uncertainties (a formula that cannot be evaluated is passed over). */
@@ -122,6 +125,7 @@ export function meterReport(input: MeterReportInput): MeterReport {
     adjustments: input.adjustments.map((a) => reportAdjustment(a, periods)),
     normalised: input.normalised,
     signature: input.signature,
+    weatherFills: input.weatherFills ?? [],
   };
 }
 
@@ -194,5 +198,6 @@ export function missingMeterReport(
     adjustments: adjustments.map((a) => reportAdjustment(a, [])),
     normalised: { available: false, reason },
     signature: null,
+    weatherFills: [],
   };
 }

@@ -9,7 +9,14 @@
  * request on the same data gives the same bytes.
  */
 
-import type { NormalisedResult, ProjectionOverrides, ReportingExtrapolation, SavingsPeriod, TemperatureForm } from '../engine/index.js';
+import type {
+  NormalisedResult,
+  PeriodFills,
+  ProjectionOverrides,
+  ReportingExtrapolation,
+  SavingsPeriod,
+  TemperatureForm,
+} from '../engine/index.js';
 
 export const REPORT_FORMAT = 'mvledger-savings-report';
 export const REPORT_VERSION = 1;
@@ -100,16 +107,26 @@ export interface MeterReport {
   unit: string;
   /** The station the meter is read against, and the unit of its temperatures (mean temperatures, ranges). */
   weatherStationId: string;
+  /** The station's name as stored. */
+  weatherStationName?: string;
   temperatureUnit: 'F' | 'C';
   baseline: {
     id: string;
     version: number;
     contentHash: string;
     model: string;
+    /** The shape in words with its code, e.g. "three-parameter heating (3PH)". */
+    modelName?: string;
     start: string;
     end: string;
     temperatureRange: { min: number; max: number };
     cvrmse: number;
+    /** The frozen fit's NMBE (Guideline 14 definition). */
+    nmbe?: number;
+    /** The frozen model's coefficients (slopes as dy/dx, use per day per degree) with their standard errors. */
+    coefficients?: { name: string; estimate: number; standardError: number }[];
+    /** Its changepoints (station's unit) with their Gauss–Newton standard errors (null where singular). */
+    changepoints?: { name: string; estimate: number; standardError: number | null }[];
     /** Guideline 14 CV(RMSE) and NMBE check for the reporting length; null when it cannot be judged. */
     meetsGuideline14: boolean | null;
     /** The form the baseline was frozen in, which its projections keep: 'daily' (day-resolved) or 'mean'. */
@@ -150,6 +167,8 @@ export interface MeterReport {
   adjustments: ReportAdjustment[];
   normalised: NormalisedSavings;
   signature: SignatureData | null;
+  /** Reporting periods whose weather includes days filled on record, with the counts by method in words ("3 of 31 days filled by interpolation"). */
+  weatherFills: PeriodFills[];
 }
 
 export interface GuaranteeLine {
@@ -190,6 +209,13 @@ export interface ContractSummary {
   currency: string | null;
   energyUnit: string;
   guarantees: { year: number; energy: number | null; cost: number | null }[];
+  /** The contract's identification, as set on the contract (null or empty when not given). */
+  reference?: string | null;
+  parties?: { role: string; name: string }[];
+  mvPlanReference?: string | null;
+  mvOption?: string | null;
+  /** The confidence level the contract names for its reports. */
+  confidence?: number;
 }
 
 export interface FacilityReport {
@@ -218,6 +244,8 @@ export interface SavingsReport {
   window: ReportWindow;
   /** Two-sided confidence of every ± in the report. */
   confidence: number;
+  /** Where the confidence comes from: the request, the contract(s), or the default of a report without a contract. */
+  confidenceSource?: 'request' | 'contract' | 'default';
   /** The data the report rests on: the organisation's audit head when it was made. */
   dataAsOf: { auditSeq: number; auditHash: string };
   portfolio: {

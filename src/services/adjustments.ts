@@ -14,6 +14,8 @@ import type { AdjustmentsTable } from '../store/schema.js';
 import { notFound, DomainError } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getMeterRow } from './meters.js';
+import { bumpMeterVersions } from '../store/data-versions.js';
+import { decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
 
 export interface AdjustmentInput {
   start: string;
@@ -135,6 +137,7 @@ export async function createAdjustment(ctx: ServiceContext, meterId: string, inp
       uncertainty: input.uncertainty ?? null,
     };
     await trx.insertInto('adjustments').values(row).execute();
+    await bumpMeterVersions(trx, [row.meter_id]);
     const adjustment = toAdjustment(row);
     await audit(trx, ctx, {
       action: 'create',
@@ -159,20 +162,34 @@ export async function withdrawAdjustment(ctx: ServiceContext, id: string, input:
     if (row.withdrawn_at !== null) throw new DomainError('conflict', `adjustment ${id} was already withdrawn on ${row.withdrawn_at}`);
     const update = { withdrawn_at: ctx.now, withdrawn_by: ctx.principal.keyId, withdraw_reason: input.reason };
     await trx.updateTable('adjustments').set(update).where('id', '=', id).execute();
+    await bumpMeterVersions(trx, [row.meter_id]);
     const after = toAdjustment({ ...row, ...update });
     await audit(trx, ctx, { action: 'withdraw', entityType: 'adjustment', entityId: id, before: toAdjustment(row), after });
     return after;
   });
 }
 
+/** The meter's adjustments (withdrawn ones too), by start, a page at a time. */
 export async function listAdjustments(
   db: Executor,
   organisationId: string,
   meterId: string,
-): Promise<{ meterId: string; unit: string; adjustments: Adjustment[] }> {
+  request: PageRequest = { limit: PAGE_SIZES.records.default },
+): Promise<{ meterId: string; unit: string; adjustments: Adjustment[] } & PageInfo> {
+  const after = decodeCursor('adjustments', request.cursor, 'ss');
   const meter = await getMeterRow(db, organisationId, meterId);
-  const rows = await db.selectFrom('adjustments').selectAll().where('meter_id', '=', meter.id).orderBy('period_start').execute();
-  return { meterId: meter.id, unit: meter.unit, adjustments: rows.map(toAdjustment) };
+  let q = db.selectFrom('adjustments').selectAll().where('meter_id', '=', meter.id);
+  if (after) {
+    const [start, id] = after as [string, string];
+    q = q.where((eb) => eb.or([eb('period_start', '>', start), eb.and([eb('period_start', '=', start), eb('id', '>', id)])]));
+  }
+  const fetched = await q
+    .orderBy('period_start')
+    .orderBy('id')
+    .limit(request.limit + 1)
+    .execute();
+  const { rows, page } = pageOf(fetched, request, 'adjustments', (row) => [row.period_start, row.id]);
+  return { meterId: meter.id, unit: meter.unit, ...page, adjustments: rows.map(toAdjustment) };
 }
 
 /** Every adjustment of the given meters, by meter, in date order. */

@@ -12,6 +12,7 @@ import type { ApiKeyRow, Database } from '../store/schema.js';
 import type { Role } from '../domain/principal.js';
 import { notFound, DomainError } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
+import { afterCreated, decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
 
 export type ApiKeyView = ReturnType<typeof publicKey>;
 
@@ -29,15 +30,24 @@ export async function createApiKey(ctx: ServiceContext, input: { name: string; r
   });
 }
 
-export async function listApiKeys(db: Executor, organisationId: string): Promise<ApiKeyView[]> {
-  const rows = await db
+/** The organisation's API keys (public parts only), oldest first, a page at a time. */
+export async function listApiKeys(
+  db: Executor,
+  organisationId: string,
+  request: PageRequest = { limit: PAGE_SIZES.records.default },
+): Promise<{ keys: ApiKeyView[] } & PageInfo> {
+  const after = decodeCursor('keys', request.cursor, 'ss');
+  const fetched = await db
     .selectFrom('api_keys')
     .selectAll()
     .where('organisation_id', '=', organisationId)
+    .where((eb) => afterCreated(eb, after))
     .orderBy('created_at')
     .orderBy('id')
+    .limit(request.limit + 1)
     .execute();
-  return rows.map(publicKey);
+  const { rows, page } = pageOf(fetched, request, 'keys', (row) => [row.created_at, row.id]);
+  return { keys: rows.map(publicKey), ...page };
 }
 
 /**

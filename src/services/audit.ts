@@ -6,6 +6,7 @@ import { isIsoDate } from '../engine/index.js';
 import { listAudit, verifyAuditChain, type ChainVerdict } from '../store/audit.js';
 import type { AuditRow } from '../store/schema.js';
 import type { Executor } from './context.js';
+import { decodeCursor, encodeCursor, type PageInfo } from './paging.js';
 
 export interface AuditEntryView {
   seq: number;
@@ -58,9 +59,11 @@ export interface AuditFilter {
   since?: string;
   limit: number;
   afterSeq?: number;
+  /** A nextCursor of an earlier page (the same place as afterSeq; the later of the two wins). */
+  cursor?: string;
 }
 
-export interface AuditPage {
+export interface AuditPage extends PageInfo {
   entries: AuditEntryView[];
   /** The `after` of the next page, when there is one. */
   next?: number;
@@ -87,17 +90,25 @@ export function sinceAsStoredTime(since: string): string {
 }
 
 export async function listAuditEntries(db: Executor, organisationId: string, filter: AuditFilter): Promise<AuditPage> {
+  const fromCursor = decodeCursor('audit', filter.cursor, 'n')?.[0] as number | undefined;
+  const afterSeq = fromCursor === undefined ? filter.afterSeq : Math.max(fromCursor, filter.afterSeq ?? 0);
   const rows = await listAudit(db, {
     organisationId,
     limit: filter.limit + 1, // one more than asked tells whether another page follows
     ...(filter.entityType !== undefined ? resolveAuditEntity(filter.entityType) : {}),
     ...(filter.entityId !== undefined ? { entityId: filter.entityId } : {}),
     ...(filter.since !== undefined ? { since: sinceAsStoredTime(filter.since) } : {}),
-    ...(filter.afterSeq !== undefined ? { afterSeq: filter.afterSeq } : {}),
+    ...(afterSeq !== undefined ? { afterSeq } : {}),
   });
   const page = rows.slice(0, filter.limit).map(toAuditEntry);
   const last = page[page.length - 1];
-  return rows.length > filter.limit && last ? { entries: page, next: last.seq } : { entries: page };
+  const more = rows.length > filter.limit && last !== undefined;
+  return {
+    entries: page,
+    ...(more ? { next: last.seq } : {}),
+    limit: filter.limit,
+    nextCursor: more ? encodeCursor('audit', [last.seq]) : null,
+  };
 }
 
 /** Verify the organisation's own chain (other organisations' activity stays invisible). */

@@ -33,6 +33,8 @@ import { audit, inTransaction, type Executor, type ServiceContext } from './cont
 import { getMeterRow } from './meters.js';
 import { toEngineAdjustment } from './adjustments.js';
 import { loadDailyWeather, loadReadings, loadWeatherFor, stationUnit } from './meter-data.js';
+import { bumpMeterVersions } from '../store/data-versions.js';
+import { decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
 
 export interface BaselineFitOptions {
   minCoverage?: number;
@@ -203,11 +205,23 @@ export async function getBaseline(db: Executor, organisationId: string, id: stri
   return { ...viewOf(row), verified: verifyBaselineContent(row) };
 }
 
-/** Every baseline version of the meter, newest first. */
-export async function listBaselines(db: Executor, organisationId: string, meterId: string): Promise<BaselineSummary[]> {
+/** The meter's baseline versions, newest first, a page at a time. */
+export async function listBaselines(
+  db: Executor,
+  organisationId: string,
+  meterId: string,
+  request: PageRequest = { limit: PAGE_SIZES.records.default },
+): Promise<{ baselines: BaselineSummary[] } & PageInfo> {
+  const before = decodeCursor('baselines', request.cursor, 'n');
   const meter = await getMeterRow(db, organisationId, meterId);
-  const rows = await db.selectFrom('baselines').selectAll().where('meter_id', '=', meter.id).orderBy('version', 'desc').execute();
-  return rows.map(toBaselineSummary);
+  let q = db.selectFrom('baselines').selectAll().where('meter_id', '=', meter.id);
+  if (before) q = q.where('version', '<', before[0] as number);
+  const fetched = await q
+    .orderBy('version', 'desc')
+    .limit(request.limit + 1)
+    .execute();
+  const { rows, page } = pageOf(fetched, request, 'baselines', (row) => [row.version]);
+  return { baselines: rows.map(toBaselineSummary), ...page };
 }
 
 // ---------------------------------------------------------------------------
@@ -444,6 +458,8 @@ export async function freezeBaseline(ctx: ServiceContext, baselineId: string, in
       extrapolation_override: input.overrides?.extrapolation?.reason ?? null,
     };
     frozen.content_hash = baselineContentHash(frozen);
+    // Freezing (and superseding) changes which model the meter's savings project with.
+    await bumpMeterVersions(trx, [row.meter_id]);
 
     if (current) {
       const superseded: BaselineRow = { ...current, status: 'superseded' };

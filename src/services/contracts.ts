@@ -1,8 +1,10 @@
 /**
  * A facility's performance contract: when it starts, how many contract years
  * it runs, and the savings guaranteed in each year (energy in one common
- * unit, cost in the contract's currency, or both). Replaced whole by each
- * PUT, with the previous terms kept in the audit trail.
+ * unit, cost in the contract's currency, or both); its identification (its
+ * reference, the parties, the M&V plan's reference and IPMVP option) and the
+ * confidence level that governs every ± of its reports. Replaced whole by
+ * each PUT, with the previous terms kept in the audit trail.
  */
 import { canonicalEnergyUnit } from '../engine/index.js';
 import { fromStoredJson } from '../store/baseline-content.js';
@@ -10,6 +12,7 @@ import { canonicalJson } from '../lib/canonical-json.js';
 import { notFound, type FieldError, fieldErrors } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getFacilityRow } from './facilities.js';
+import { bumpFacilityMeterVersions } from '../store/data-versions.js';
 
 export interface Guarantee {
   year: number;
@@ -17,12 +20,30 @@ export interface Guarantee {
   cost: number | null;
 }
 
+/** A party to the contract, e.g. { role: 'customer', name: '…' }. */
+export interface ContractParty {
+  role: string;
+  name: string;
+}
+
+/** The IPMVP options (A: retrofit isolation, key parameter; B: retrofit isolation, all parameters; C: whole facility; D: calibrated simulation). */
+export const MV_OPTIONS = ['A', 'B', 'C', 'D'] as const;
+export type MvOption = (typeof MV_OPTIONS)[number];
+
+/** The confidence level of a contract that names none (common practice for savings reports). */
+export const DEFAULT_CONTRACT_CONFIDENCE = 0.9;
+
 export interface ContractInput {
   start: string;
   years: number;
   currency?: string | null;
   energyUnit: string;
   guarantees: readonly { year: number; energy?: number | null; cost?: number | null }[];
+  reference?: string | null;
+  parties?: readonly ContractParty[];
+  mvPlanReference?: string | null;
+  mvOption?: MvOption | null;
+  confidence?: number;
 }
 
 export interface Contract {
@@ -33,6 +54,12 @@ export interface Contract {
   energyUnit: string;
   guarantees: Guarantee[];
   updatedAt: string;
+  reference: string | null;
+  parties: ContractParty[];
+  mvPlanReference: string | null;
+  mvOption: MvOption | null;
+  /** Two-sided confidence of every ± in the contract's reports unless a request names another. */
+  confidence: number;
 }
 
 type ContractRow = {
@@ -43,6 +70,11 @@ type ContractRow = {
   energy_unit: string;
   guarantees_json: string;
   updated_at: string;
+  reference: string | null;
+  parties_json: string;
+  mv_plan_reference: string | null;
+  mv_option: string | null;
+  confidence: number;
 };
 
 export function toContract(row: ContractRow): Contract {
@@ -54,6 +86,11 @@ export function toContract(row: ContractRow): Contract {
     energyUnit: row.energy_unit,
     guarantees: fromStoredJson<Guarantee[]>(row.guarantees_json),
     updatedAt: row.updated_at,
+    reference: row.reference,
+    parties: fromStoredJson<ContractParty[]>(row.parties_json),
+    mvPlanReference: row.mv_plan_reference,
+    mvOption: row.mv_option as MvOption | null,
+    confidence: row.confidence,
   };
 }
 
@@ -100,9 +137,15 @@ export async function putContract(ctx: ServiceContext, facilityId: string, input
       energy_unit: energyUnit,
       guarantees_json: canonicalJson(guarantees),
       updated_at: ctx.now,
+      reference: input.reference ?? null,
+      parties_json: canonicalJson(input.parties ?? []),
+      mv_plan_reference: input.mvPlanReference ?? null,
+      mv_option: input.mvOption ?? null,
+      confidence: input.confidence ?? DEFAULT_CONTRACT_CONFIDENCE,
     };
     if (old) await trx.updateTable('contracts').set(row).where('facility_id', '=', facility.id).execute();
     else await trx.insertInto('contracts').values(row).execute();
+    await bumpFacilityMeterVersions(trx, facility.id);
     const contract = toContract(row);
     await audit(trx, ctx, {
       action: 'put-contract',

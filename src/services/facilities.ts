@@ -2,6 +2,7 @@
 import { newId } from '../store/ids.js';
 import { notFound } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
+import { afterCreated, decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
 
 export interface Facility {
   id: string;
@@ -49,13 +50,22 @@ export async function getFacilityRow(db: Executor, organisationId: string, id: s
   return row;
 }
 
-export async function listFacilities(db: Executor, organisationId: string): Promise<Facility[]> {
-  const rows = await db
+/** The organisation's facilities, oldest first, a page at a time. */
+export async function listFacilities(
+  db: Executor,
+  organisationId: string,
+  request: PageRequest = { limit: PAGE_SIZES.records.default },
+): Promise<{ facilities: Facility[] } & PageInfo> {
+  const after = decodeCursor('facilities', request.cursor, 'ss');
+  const fetched = await db
     .selectFrom('facilities')
     .selectAll()
     .where('organisation_id', '=', organisationId)
+    .where((eb) => afterCreated(eb, after))
     .orderBy('created_at')
     .orderBy('id')
+    .limit(request.limit + 1)
     .execute();
-  return rows.map(toFacility);
+  const { rows, page } = pageOf(fetched, request, 'facilities', (row) => [row.created_at, row.id]);
+  return { facilities: rows.map(toFacility), ...page };
 }

@@ -4,6 +4,8 @@ import type { MeterRow } from '../store/schema.js';
 import { notFound, DomainError } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getFacilityRow } from './facilities.js';
+import { bumpMeterVersions } from '../store/data-versions.js';
+import { afterCreated, decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
 
 export interface Meter {
   id: string;
@@ -57,6 +59,7 @@ export async function createMeter(
       created_at: ctx.now,
     };
     await trx.insertInto('meters').values(row).execute();
+    await bumpMeterVersions(trx, [row.id]);
     const meter = toMeter(row);
     await audit(trx, ctx, { action: 'create', entityType: 'meter', entityId: row.id, after: meter });
     return meter;
@@ -75,27 +78,46 @@ export async function getMeterRow(db: Executor, organisationId: string, id: stri
   return row;
 }
 
-/** Every meter of the organisation, or of one of its facilities, oldest first. */
-export async function listOrganisationMeters(db: Executor, organisationId: string, query: { facilityId?: string } = {}): Promise<Meter[]> {
-  if (query.facilityId !== undefined) return listMeters(db, organisationId, query.facilityId);
-  const rows = await db
+/** Every meter of the organisation, or of one of its facilities, oldest first, a page at a time. */
+export async function listOrganisationMeters(
+  db: Executor,
+  organisationId: string,
+  query: { facilityId?: string } & Partial<PageRequest> = {},
+): Promise<{ meters: Meter[] } & PageInfo> {
+  const request = { limit: query.limit ?? PAGE_SIZES.records.default, cursor: query.cursor };
+  if (query.facilityId !== undefined) return listMeters(db, organisationId, query.facilityId, request);
+  const after = decodeCursor('meters', request.cursor, 'ss');
+  const fetched = await db
     .selectFrom('meters')
     .selectAll()
     .where('organisation_id', '=', organisationId)
+    .where((eb) => afterCreated(eb, after))
     .orderBy('created_at')
     .orderBy('id')
+    .limit(request.limit + 1)
     .execute();
-  return rows.map(toMeter);
+  const { rows, page } = pageOf(fetched, request, 'meters', (row) => [row.created_at, row.id]);
+  return { meters: rows.map(toMeter), ...page };
 }
 
-export async function listMeters(db: Executor, organisationId: string, facilityId: string): Promise<Meter[]> {
+/** The facility's meters, oldest first, a page at a time. */
+export async function listMeters(
+  db: Executor,
+  organisationId: string,
+  facilityId: string,
+  request: PageRequest = { limit: PAGE_SIZES.records.default },
+): Promise<{ meters: Meter[] } & PageInfo> {
+  const after = decodeCursor('meters', request.cursor, 'ss');
   await getFacilityRow(db, organisationId, facilityId);
-  const rows = await db
+  const fetched = await db
     .selectFrom('meters')
     .selectAll()
     .where('facility_id', '=', facilityId)
+    .where((eb) => afterCreated(eb, after))
     .orderBy('created_at')
     .orderBy('id')
+    .limit(request.limit + 1)
     .execute();
-  return rows.map(toMeter);
+  const { rows, page } = pageOf(fetched, request, 'meters', (row) => [row.created_at, row.id]);
+  return { meters: rows.map(toMeter), ...page };
 }

@@ -5,12 +5,13 @@
  * to it. Replaced whole by each PUT; its content hash lets a report name the
  * exact year it used.
  */
-import { checkNormalYear, NORMAL_YEAR_DAYS, type TemperatureUnit } from '../engine/index.js';
+import { checkNormalYear, NORMAL_YEAR_DAYS, normalYearFromHistory, type TemperatureUnit } from '../engine/index.js';
 import { canonicalJson, sha256Hex } from '../lib/canonical-json.js';
-import { notFound, fieldErrors, MAX_LISTED_ERRORS } from '../domain/errors.js';
-import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
+import { DomainError, notFound, fieldErrors, MAX_LISTED_ERRORS } from '../domain/errors.js';
+import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
 import { getStationRow } from './weather-stations.js';
 import type { RecordLocator } from './readings.js';
+import { bumpStationMeterVersions } from '../store/data-versions.js';
 
 export interface NormalYear {
   stationId: string;
@@ -42,29 +43,87 @@ export async function putNormalYear(
     }
     const byDay = new Map(input.days.map((d) => [d.day, d.temp]));
     const temps = NORMAL_YEAR_DAYS.map((day) => byDay.get(day)!);
-    const row = {
-      station_id: station.id,
-      source: input.source,
-      temps_json: canonicalJson(temps),
-      content_hash: normalYearHash(input.source, temps),
-      updated_at: ctx.now,
-    };
-    const old = await trx
-      .selectFrom('normal_years')
-      .select(['source', 'content_hash'])
-      .where('station_id', '=', station.id)
-      .executeTakeFirst();
-    if (old) await trx.updateTable('normal_years').set(row).where('station_id', '=', station.id).execute();
-    else await trx.insertInto('normal_years').values(row).execute();
-    await audit(trx, ctx, {
-      action: 'put-normal-year',
-      entityType: 'weather-station',
-      entityId: station.id,
-      before: old ? { source: old.source, contentHash: old.content_hash } : null,
-      after: { source: row.source, contentHash: row.content_hash, temps },
-    });
-    return toNormalYear(row, station.temperature_unit);
+    return storeNormalYear(trx, ctx, station, input.source, temps);
   });
+}
+
+/**
+ * Build the station's normal year from its own stored days (observed and
+ * filled alike; the source says how many were filled) over
+ * [fromYear, toYear], and store it as any normal year: replaced whole, with
+ * its content hash, on the audit trail.
+ */
+export async function normalYearFromStationHistory(
+  ctx: ServiceContext,
+  stationId: string,
+  input: { fromYear: number; toYear: number; windowDays?: number },
+): Promise<NormalYear> {
+  if (input.toYear < input.fromYear) {
+    throw new DomainError('invalid', 'toYear: must not be before fromYear', [{ field: 'toYear', message: 'before fromYear' }]);
+  }
+  return inTransaction(ctx, async (trx) => {
+    const station = await getStationRow(trx, ctx.principal.organisationId, stationId);
+    const rows = await trx
+      .selectFrom('weather_observations')
+      .select(['date', 'temp', 'fill_method'])
+      .where('station_id', '=', station.id)
+      .where('date', '>=', `${input.fromYear}-01-01`)
+      .where('date', '<', `${input.toYear + 1}-01-01`)
+      .orderBy('date')
+      .execute();
+    let built;
+    try {
+      built = normalYearFromHistory(rows, {
+        fromYear: input.fromYear,
+        toYear: input.toYear,
+        ...(input.windowDays !== undefined ? { windowDays: input.windowDays } : {}),
+      });
+    } catch (error) {
+      if (!(error instanceof RangeError)) throw error;
+      throw new DomainError('unprocessable', `station ${station.id}: ${error.message}`);
+    }
+    const filled = rows.filter((r) => r.fill_method !== null).length;
+    const years = input.fromYear === input.toYear ? `${input.fromYear}` : `${input.fromYear}–${input.toYear}`;
+    const source =
+      `built from the station's own record: mean of each calendar day over ${built.years} year(s) ${years} ` +
+      `(${built.daysUsed} days, ${filled} of them filled), 29 February folded into 28 February, ` +
+      `smoothed by a centred ${built.windowDays}-day moving mean`;
+    const temps = built.temps.map((t) => Math.round(t * 1e6) / 1e6);
+    return storeNormalYear(trx, ctx, station, source, temps);
+  });
+}
+
+/** Replace the station's normal year with these 365 temperatures, on the audit trail. */
+async function storeNormalYear(
+  trx: Tx,
+  ctx: ServiceContext,
+  station: { id: string; temperature_unit: TemperatureUnit },
+  source: string,
+  temps: number[],
+): Promise<NormalYear> {
+  const row = {
+    station_id: station.id,
+    source,
+    temps_json: canonicalJson(temps),
+    content_hash: normalYearHash(source, temps),
+    updated_at: ctx.now,
+  };
+  const old = await trx
+    .selectFrom('normal_years')
+    .select(['source', 'content_hash'])
+    .where('station_id', '=', station.id)
+    .executeTakeFirst();
+  if (old) await trx.updateTable('normal_years').set(row).where('station_id', '=', station.id).execute();
+  else await trx.insertInto('normal_years').values(row).execute();
+  await bumpStationMeterVersions(trx, station.id);
+  await audit(trx, ctx, {
+    action: 'put-normal-year',
+    entityType: 'weather-station',
+    entityId: station.id,
+    before: old ? { source: old.source, contentHash: old.content_hash } : null,
+    after: { source: row.source, contentHash: row.content_hash, temps },
+  });
+  return toNormalYear(row, station.temperature_unit);
 }
 
 export async function getNormalYear(db: Executor, organisationId: string, stationId: string): Promise<NormalYear> {

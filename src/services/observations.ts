@@ -6,12 +6,14 @@
  */
 import { addDays, checkWeather, type TemperatureUnit } from '../engine/index.js';
 import type { Insertable } from 'kysely';
-import type { WeatherObservationsTable } from '../store/schema.js';
+import type { FillMethod, WeatherObservationsTable } from '../store/schema.js';
 import { DomainError, type FieldError, fieldErrors, MAX_LISTED_ERRORS } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
 import { getStationRow } from './weather-stations.js';
 import { assertOutsideFrozenWindows, frozenWindowsForStation } from './frozen-windows.js';
 import { checkDateRange, jsonLocator, type DateRange, type RecordLocator } from './readings.js';
+import { bumpStationMeterVersions } from '../store/data-versions.js';
+import { decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
 
 /** Largest batch one request may carry (more than a century of days). */
 export const MAX_OBSERVATIONS_PER_BATCH = 50_000;
@@ -34,6 +36,12 @@ export interface Observation {
   tmax: number | null;
 }
 
+/** A stored day: observed (filled null) or filled on record, with what it was filled from. */
+export interface ListedObservation extends Observation {
+  filled: FillMethod | null;
+  fillNote: string | null;
+}
+
 export interface PutObservationsResult {
   stationId: string;
   received: number;
@@ -43,7 +51,8 @@ export interface PutObservationsResult {
 }
 
 type ObservationRow = Insertable<WeatherObservationsTable>;
-type AuditedValues = { temp: number; tmin?: number | null; tmax?: number | null };
+type AuditedValues = { temp: number; tmin?: number | null; tmax?: number | null; filled?: FillMethod };
+type StoredObservation = Observation & { fill_method: FillMethod | null };
 
 export async function putObservations(
   ctx: ServiceContext,
@@ -54,43 +63,80 @@ export async function putObservations(
   return inTransaction(ctx, async (trx) => {
     const station = await getStationRow(trx, ctx.principal.organisationId, stationId);
     const days = checkObservations(input.observations, station.temperature_unit, locate);
-
-    const stored = await storedBetween(trx, stationId, days);
-    const writes: { index: number; observation: Observation }[] = [];
-    const before: Record<string, AuditedValues> = {};
-    let created = 0;
-    let unchanged = 0;
-    days.forEach((observation, index) => {
-      const old = stored.get(observation.date);
-      if (old && sameObservation(old, observation)) {
-        unchanged++;
-        return;
-      }
-      if (old) before[old.date] = compact(old);
-      else created++;
-      writes.push({ index, observation });
-    });
-
-    assertOutsideFrozenWindows(
-      await frozenWindowsForStation(trx, stationId),
-      writes.map(({ index, observation }) => ({ index, start: observation.date, end: addDays(observation.date, 1) })),
-      (write) => locate(write.index),
-      'these observations',
-    );
-
-    await upsertChunked(
-      trx,
-      writes.map(({ observation }) => ({ station_id: stationId, ...observation, updated_at: ctx.now })),
-    );
-    const result: PutObservationsResult = { stationId, received: days.length, created, updated: writes.length - created, unchanged };
-    // Nothing changed, nothing written: no audit row.
-    if (writes.length > 0) {
-      const after: Record<string, AuditedValues> = {};
-      for (const { observation } of writes) after[observation.date] = compact(observation);
-      await audit(trx, ctx, { action: 'upsert-observations', entityType: 'weather-station', entityId: stationId, before, after });
-    }
-    return result;
+    return writeObservations(trx, ctx, stationId, days, locate, { action: 'upsert-observations' });
   });
+}
+
+/** How a batch of days enters the audit trail: its action, and anything the row should say beside the values. */
+export interface ObservationAudit {
+  action: string;
+  details?: Record<string, unknown>;
+}
+
+/**
+ * Upsert checked days inside the caller's transaction: unchanged days are
+ * counted and left alone, no day inside a frozen window may change, and one
+ * audit row (when anything changed) carries before and after of every day
+ * written. A day given here is observed: a fill stored for it is replaced.
+ */
+export async function writeObservations(
+  trx: Tx,
+  ctx: ServiceContext,
+  stationId: string,
+  days: readonly Observation[],
+  locate: RecordLocator,
+  auditAs: ObservationAudit,
+): Promise<PutObservationsResult> {
+  const stored = await storedBetween(trx, stationId, days);
+  const writes: { index: number; observation: Observation }[] = [];
+  const before: Record<string, AuditedValues> = {};
+  let created = 0;
+  let unchanged = 0;
+  days.forEach((observation, index) => {
+    const old = stored.get(observation.date);
+    if (old && old.fill_method === null && sameObservation(old, observation)) {
+      unchanged++;
+      return;
+    }
+    if (old) before[old.date] = compact(old);
+    else created++;
+    writes.push({ index, observation });
+  });
+
+  assertOutsideFrozenWindows(
+    await frozenWindowsForStation(trx, stationId),
+    writes.map(({ index, observation }) => ({ index, start: observation.date, end: addDays(observation.date, 1) })),
+    (write) => locate(write.index),
+    'these observations',
+  );
+
+  await upsertChunked(
+    trx,
+    writes.map(({ observation }) => ({
+      station_id: stationId,
+      date: observation.date,
+      temp: observation.temp,
+      tmin: observation.tmin,
+      tmax: observation.tmax,
+      updated_at: ctx.now,
+      fill_method: null,
+      fill_note: null,
+    })),
+  );
+  const result: PutObservationsResult = { stationId, received: days.length, created, updated: writes.length - created, unchanged };
+  // Nothing changed, nothing written: no audit row.
+  if (writes.length > 0) {
+    const after: Record<string, AuditedValues> = {};
+    for (const { observation } of writes) after[observation.date] = compact(observation);
+    await audit(trx, ctx, {
+      action: auditAs.action,
+      entityType: 'weather-station',
+      entityId: stationId,
+      before,
+      after: auditAs.details ? { ...auditAs.details, days: after } : after,
+    });
+  }
+  return result;
 }
 
 /**
@@ -98,7 +144,7 @@ export async function putObservations(
  * tmin ≤ tmax, plausible values, real and unrepeated dates. Returns the days
  * with their means.
  */
-function checkObservations(records: readonly ObservationInput[], unit: TemperatureUnit, locate: RecordLocator): Observation[] {
+export function checkObservations(records: readonly ObservationInput[], unit: TemperatureUnit, locate: RecordLocator): Observation[] {
   if (records.length === 0) {
     throw new DomainError('invalid', 'observations: at least one observation is needed', [{ field: 'observations', message: 'empty' }]);
   }
@@ -154,7 +200,7 @@ function checkObservations(records: readonly ObservationInput[], unit: Temperatu
   return days;
 }
 
-async function storedBetween(trx: Tx, stationId: string, days: readonly Observation[]): Promise<Map<string, Observation>> {
+async function storedBetween(trx: Tx, stationId: string, days: readonly Observation[]): Promise<Map<string, StoredObservation>> {
   let first = days[0]!.date;
   let last = first;
   for (const day of days) {
@@ -163,7 +209,7 @@ async function storedBetween(trx: Tx, stationId: string, days: readonly Observat
   }
   const rows = await trx
     .selectFrom('weather_observations')
-    .select(['date', 'temp', 'tmin', 'tmax'])
+    .select(['date', 'temp', 'tmin', 'tmax', 'fill_method'])
     .where('station_id', '=', stationId)
     .where('date', '>=', first)
     .where('date', '<=', last)
@@ -175,13 +221,16 @@ function sameObservation(a: Observation, b: Observation): boolean {
   return a.temp === b.temp && a.tmin === b.tmin && a.tmax === b.tmax;
 }
 
-/** The audit keeps tmin and tmax only where they were given. */
-function compact(observation: Observation): AuditedValues {
-  const { temp, tmin, tmax } = observation;
-  return tmin === null && tmax === null ? { temp } : { temp, tmin, tmax };
+/** The audit keeps tmin and tmax only where they were given, and a fill's method where the day was filled. */
+function compact(observation: Observation & { fill_method?: FillMethod | null }): AuditedValues {
+  const { temp, tmin, tmax, fill_method } = observation;
+  const values: AuditedValues = tmin === null && tmax === null ? { temp } : { temp, tmin, tmax };
+  return fill_method ? { ...values, filled: fill_method } : values;
 }
 
-async function upsertChunked(trx: Tx, rows: readonly ObservationRow[]): Promise<void> {
+/** Writes observed or filled days; every meter on a station whose weather changed gets a new data version (its cached savings go stale). */
+export async function upsertChunked(trx: Tx, rows: readonly ObservationRow[]): Promise<void> {
+  for (const stationId of new Set(rows.map((row) => row.station_id))) await bumpStationMeterVersions(trx, stationId);
   for (let i = 0; i < rows.length; i += UPSERT_CHUNK_ROWS) {
     await trx
       .insertInto('weather_observations')
@@ -192,24 +241,37 @@ async function upsertChunked(trx: Tx, rows: readonly ObservationRow[]): Promise<
           tmin: eb.ref('excluded.tmin'),
           tmax: eb.ref('excluded.tmax'),
           updated_at: eb.ref('excluded.updated_at'),
+          fill_method: eb.ref('excluded.fill_method'),
+          fill_note: eb.ref('excluded.fill_note'),
         })),
       )
       .execute();
   }
 }
 
-/** Observations on dates in [from, to), by date. */
+/** Observations on dates in [from, to), by date, a page at a time. */
 export async function listObservations(
   db: Executor,
   organisationId: string,
   stationId: string,
-  query: DateRange = {},
-): Promise<{ stationId: string; temperatureUnit: TemperatureUnit; observations: Observation[] }> {
+  query: DateRange & Partial<PageRequest> = {},
+): Promise<{ stationId: string; temperatureUnit: TemperatureUnit; observations: ListedObservation[] } & PageInfo> {
   checkDateRange(query);
+  const request = { limit: query.limit ?? PAGE_SIZES.series.default, cursor: query.cursor };
+  const after = decodeCursor('observations', request.cursor, 's');
   const station = await getStationRow(db, organisationId, stationId);
-  let q = db.selectFrom('weather_observations').select(['date', 'temp', 'tmin', 'tmax']).where('station_id', '=', stationId);
+  let q = db
+    .selectFrom('weather_observations')
+    .select(['date', 'temp', 'tmin', 'tmax', 'fill_method', 'fill_note'])
+    .where('station_id', '=', stationId);
   if (query.from !== undefined) q = q.where('date', '>=', query.from);
   if (query.to !== undefined) q = q.where('date', '<', query.to);
-  const observations = await q.orderBy('date').execute();
-  return { stationId, temperatureUnit: station.temperature_unit, observations };
+  if (after) q = q.where('date', '>', after[0] as string);
+  const fetched = await q
+    .orderBy('date')
+    .limit(request.limit + 1)
+    .execute();
+  const { rows, page } = pageOf(fetched, request, 'observations', (row) => [row.date]);
+  const observations = rows.map(({ fill_method, fill_note, ...day }) => ({ ...day, filled: fill_method, fillNote: fill_note }));
+  return { stationId, temperatureUnit: station.temperature_unit, ...page, observations };
 }

@@ -9,6 +9,7 @@ import { checkRateBounds, checkRateSchedule, type RateEntry } from '../engine/in
 import { fieldErrors } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getMeterRow } from './meters.js';
+import { bumpMeterVersions } from '../store/data-versions.js';
 
 export interface RateInput {
   from: string;
@@ -41,6 +42,7 @@ export async function putRates(
     const meter = await getMeterRow(trx, organisationId, meterId);
     const before = await loadSchedule(trx, meter.id, meter.unit);
     await trx.deleteFrom('rates').where('meter_id', '=', meter.id).execute();
+    await bumpMeterVersions(trx, [meter.id]);
     if (rates.length > 0) {
       await trx
         .insertInto('rates')

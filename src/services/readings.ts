@@ -10,7 +10,10 @@ import type { NewReadingRow, ReadingRow } from '../store/schema.js';
 import { DomainError, type FieldError, fieldErrors, MAX_LISTED_ERRORS, summarise } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
 import { getMeterRow } from './meters.js';
-import { assertOutsideFrozenWindows, frozenWindowsForMeter } from './frozen-windows.js';
+import { assertOutsideFrozenWindows, frozenWindowsForMeter, PROTECTING_STATUSES, type FrozenWindow } from './frozen-windows.js';
+import { batchContacts, correctReadings, insertReadings } from './readings-postgres.js';
+import { bumpMeterVersions } from '../store/data-versions.js';
+import { decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
 
 /** Largest batch one request may carry. */
 export const MAX_READINGS_PER_BATCH = 50_000;
@@ -87,14 +90,26 @@ export async function postReadings(
 
   return inTransaction(ctx, async (trx) => {
     await getMeterRow(trx, ctx.principal.organisationId, meterId);
-    const stored = await storedAround(trx, meterId, readings);
-    const classified = classify(readings, stored, ctx.now, meterId, locate);
+    // PostgreSQL checks the whole batch against the database in one set-based statement (readings-postgres.ts);
+    // SQLite, in-process and already fast, reads the stored readings around the batch and merges.
+    const postgres = ctx.store.dialect === 'postgres';
+    let classified: Classified;
+    let windows: FrozenWindow[];
+    if (postgres) {
+      const contacts = await batchContacts(trx, meterId, readings, PROTECTING_STATUSES);
+      classified = classify(readings, (index) => contacts.stored.get(index) ?? [], ctx.now, meterId, locate);
+      windows = windowsTouched(contacts.frozen, classified);
+    } else {
+      const stored = await storedAround(trx, meterId, readings);
+      classified = classify(readings, (_, reading) => overlapping(stored, reading.start, reading.end), ctx.now, meterId, locate);
+      windows = await frozenWindowsForMeter(trx, meterId);
+    }
 
     const writes = [
       ...classified.created.map(({ index, row }) => ({ index, start: row.period_start, end: row.period_end })),
       ...classified.corrected.map(({ index, before }) => ({ index, start: before.period_start, end: before.period_end })),
     ];
-    assertOutsideFrozenWindows(await frozenWindowsForMeter(trx, meterId), writes, (write) => locate(write.index), 'this batch');
+    assertOutsideFrozenWindows(windows, writes, (write) => locate(write.index), 'this batch');
     if (classified.corrected.length > 0 && !reason) {
       const errors = classified.corrected.slice(0, MAX_LISTED_ERRORS).map(({ index, before, after }) => ({
         field: locate(index, firstDifference(before, after)),
@@ -107,18 +122,39 @@ export async function postReadings(
       );
     }
 
-    await insertChunked(
-      trx,
-      classified.created.map((c) => c.row),
-    );
-    for (const { before, after } of classified.corrected) {
-      await trx
-        .updateTable('readings')
-        .set({ ...after, updated_at: ctx.now })
-        .where('meter_id', '=', meterId)
-        .where('period_start', '=', before.period_start)
-        .where('period_end', '=', before.period_end)
-        .execute();
+    if (postgres) {
+      await insertReadings(
+        trx,
+        meterId,
+        classified.created.map(({ row }) => ({
+          start: row.period_start,
+          end: row.period_end,
+          quantity: row.quantity,
+          estimated: row.estimated,
+          cost: row.cost ?? null,
+        })),
+        ctx.now,
+      );
+      await correctReadings(
+        trx,
+        meterId,
+        classified.corrected.map(({ before, after }) => ({ start: before.period_start, end: before.period_end, ...after })),
+        ctx.now,
+      );
+    } else {
+      await insertChunked(
+        trx,
+        classified.created.map((c) => c.row),
+      );
+      for (const { before, after } of classified.corrected) {
+        await trx
+          .updateTable('readings')
+          .set({ ...after, updated_at: ctx.now })
+          .where('meter_id', '=', meterId)
+          .where('period_start', '=', before.period_start)
+          .where('period_end', '=', before.period_end)
+          .execute();
+      }
     }
 
     const result: PostReadingsResult = {
@@ -130,6 +166,7 @@ export async function postReadings(
     };
     // A batch that changed nothing wrote nothing, so it has nothing to audit.
     if (result.created + result.corrected > 0) {
+      await bumpMeterVersions(trx, [meterId]);
       await audit(trx, ctx, {
         action: 'post-readings',
         entityType: 'meter',
@@ -252,31 +289,31 @@ function firstDifference(stored: ReadingRow, sent: ReadingValues): keyof Reading
 }
 
 /**
- * Sort each reading into created, corrected or unchanged; a new period that
- * overlaps a stored one is a conflict naming the stored periods.
+ * Sort each reading into created, corrected or unchanged, given the stored
+ * readings each one meets (same key or overlapping, in start order); a new
+ * period that overlaps a stored one is a conflict naming the stored periods.
  */
 function classify(
   readings: readonly ReadingInput[],
-  stored: readonly ReadingRow[],
+  meeting: (index: number, reading: ReadingInput) => readonly ReadingRow[],
   now: string,
   meterId: string,
   locate: RecordLocator,
 ): Classified {
-  const byKey = new Map<string, ReadingRow>();
-  for (const row of stored) byKey.set(`${row.period_start}/${row.period_end}`, row);
   const out: Classified = { created: [], corrected: [], unchanged: 0 };
   const overlaps: FieldError[] = [];
   let overlapCount = 0;
   for (let index = 0; index < readings.length; index++) {
     const reading = readings[index]!;
-    const existing = byKey.get(`${reading.start}/${reading.end}`);
+    const clashes = meeting(index, reading);
+    // Stored periods never overlap one another, so one with the same key is the only one met.
+    const existing = clashes.find((row) => row.period_start === reading.start && row.period_end === reading.end);
     if (existing) {
       const values = valuesOver(existing, reading);
       if (sameValues(existing, values)) out.unchanged++;
       else out.corrected.push({ index, before: existing, after: values });
       continue;
     }
-    const clashes = overlapping(stored, reading.start, reading.end);
     if (clashes.length > 0) {
       overlapCount++;
       if (overlaps.length < MAX_LISTED_ERRORS) {
@@ -303,6 +340,15 @@ function classify(
     throw new DomainError('conflict', summarise(overlaps, overlapCount), overlaps);
   }
   return out;
+}
+
+/** The protected windows that the batch's writes (created or corrected readings) touch, in window order. */
+function windowsTouched(frozen: ReadonlyMap<number, readonly FrozenWindow[]>, classified: Classified): FrozenWindow[] {
+  const byId = new Map<string, FrozenWindow>();
+  for (const { index } of [...classified.created, ...classified.corrected]) {
+    for (const window of frozen.get(index) ?? []) byId.set(window.baselineId, window);
+  }
+  return [...byId.values()].sort((a, b) => (a.start < b.start ? -1 : a.start > b.start ? 1 : a.baselineId < b.baselineId ? -1 : 1));
 }
 
 /** Stored periods meeting [start, end): a binary search for the first that ends after start, then a short walk. */
@@ -339,22 +385,34 @@ export interface DateRange {
   to?: string;
 }
 
-/** Readings whose period overlaps [from, to), by start. */
+/** Readings whose period overlaps [from, to), by start, a page at a time. */
 export async function listReadings(
   db: Executor,
   organisationId: string,
   meterId: string,
-  query: DateRange = {},
-): Promise<{ meterId: string; unit: string; readings: StoredReading[] }> {
+  query: DateRange & Partial<PageRequest> = {},
+): Promise<{ meterId: string; unit: string; readings: StoredReading[] } & PageInfo> {
   checkDateRange(query);
+  const request = { limit: query.limit ?? PAGE_SIZES.series.default, cursor: query.cursor };
+  const after = decodeCursor('readings', request.cursor, 'ss');
   const meter = await getMeterRow(db, organisationId, meterId);
   let q = db.selectFrom('readings').select(['period_start', 'period_end', 'quantity', 'estimated', 'cost']).where('meter_id', '=', meterId);
   if (query.to !== undefined) q = q.where('period_start', '<', query.to);
   if (query.from !== undefined) q = q.where('period_end', '>', query.from);
-  const rows = await q.orderBy('period_start').orderBy('period_end').execute();
+  if (after) {
+    const [start, end] = after as [string, string];
+    q = q.where((eb) => eb.or([eb('period_start', '>', start), eb.and([eb('period_start', '=', start), eb('period_end', '>', end)])]));
+  }
+  const fetched = await q
+    .orderBy('period_start')
+    .orderBy('period_end')
+    .limit(request.limit + 1)
+    .execute();
+  const { rows, page } = pageOf(fetched, request, 'readings', (row) => [row.period_start, row.period_end]);
   return {
     meterId,
     unit: meter.unit,
+    ...page,
     readings: rows.map((row) => ({
       start: row.period_start,
       end: row.period_end,

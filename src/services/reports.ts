@@ -17,8 +17,9 @@ import {
   reportingExtrapolation,
   savingsFromAligned,
   residualCorrelation,
+  describeFills,
+  filledDaysByPeriod,
   type MeterResiduals,
-  SIGNIFICANCE_RULE,
   type DateWindow,
   type RateEntry,
   type Reading,
@@ -43,9 +44,11 @@ import { readSnapshot } from '../store/connect.js';
 import type { Database, MeterRow } from '../store/schema.js';
 import { signatureChartPoints } from '../reports/svg/signature-points.js';
 import type { Executor } from './context.js';
-import { toContract } from './contracts.js';
+import { DEFAULT_CONTRACT_CONFIDENCE, toContract } from './contracts.js';
+import { shapeName } from '../reports/shape-names.js';
 import { getFacilityRow } from './facilities.js';
 import { loadReadings, loadWeatherFor } from './meter-data.js';
+import { loadFilledDays } from './weather-gaps.js';
 import { loadSchedule } from './rates.js';
 import { frozenModel, type FrozenModel } from './savings.js';
 
@@ -61,6 +64,7 @@ export interface ReportQuery {
 interface MeterContext {
   meter: MeterRow;
   temperatureUnit: TemperatureUnit;
+  stationName: string;
   baseline: { id: string; version: number; contentHash: string; start: string; end: string; temperatureForm: 'daily' | 'mean' } | null;
   model: FrozenModel | null;
   rates: { currency: string | null; entries: RateEntry[] };
@@ -73,8 +77,12 @@ export function savingsReport(db: Kysely<Database>, organisationId: string, quer
   return readSnapshot(db, (trx) => buildReport(trx, organisationId, query));
 }
 
+/** The report read through `db` as it stands (inside a caller's transaction, e.g. when a statement is issued). */
+export function savingsReportIn(db: Executor, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
+  return buildReport(db, organisationId, query);
+}
+
 async function buildReport(db: Executor, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
-  const confidence = query.confidence ?? SIGNIFICANCE_RULE.confidence;
   const organisation = await db
     .selectFrom('organisations')
     .select(['id', 'name'])
@@ -98,8 +106,17 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
       currency: c.currency,
       energyUnit: c.energyUnit,
       guarantees: c.guarantees,
+      reference: c.reference,
+      parties: c.parties,
+      mvPlanReference: c.mvPlanReference,
+      mvOption: c.mvOption,
+      confidence: c.confidence,
     });
   }
+  const { confidence, source: confidenceSource } = resolveConfidence(
+    query.confidence,
+    facilityRows.map((f) => contracts.get(f.id) ?? null),
+  );
   const window = resolveWindow(
     query,
     facilityRows.map((f) => contracts.get(f.id) ?? null),
@@ -160,6 +177,7 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
     organisation,
     window,
     confidence,
+    confidenceSource,
     dataAsOf: { auditSeq: head?.seq ?? 0, auditHash: head?.hash ?? '' },
     facilities,
     normalYears: [...normalYears.values()].sort((a, b) => (a.stationId < b.stationId ? -1 : 1)),
@@ -223,6 +241,29 @@ async function facilityInWindow(
     );
   }
   return { input: { id: facility.id, name: facility.name, address: facility.address, contract, meters, guarantees }, usedNormalYears };
+}
+
+/**
+ * One confidence level for every ± of a report: the request's, else the
+ * contract's (every facility in the report with a contract must name the
+ * same level; a facility without one counts at the default), else the
+ * default of 90%. The Guideline 14 significance test keeps its own 68%.
+ */
+export function resolveConfidence(
+  requested: number | undefined,
+  contracts: readonly (ContractSummary | null)[],
+): { confidence: number; source: 'request' | 'contract' | 'default' } {
+  if (requested !== undefined) return { confidence: requested, source: 'request' };
+  const levels = new Set(contracts.map((c) => c?.confidence ?? DEFAULT_CONTRACT_CONFIDENCE));
+  if (levels.size > 1) {
+    throw new DomainError(
+      'unprocessable',
+      `confidence: the facilities' contracts name different confidence levels (${[...levels].sort().join(', ')}); give confidence or facilityId`,
+      [{ field: 'confidence', message: 'contracts differ: give confidence' }],
+    );
+  }
+  const hasContract = contracts.some((c) => c !== null);
+  return { confidence: [...levels][0] ?? DEFAULT_CONTRACT_CONFIDENCE, source: hasContract ? 'contract' : 'default' };
 }
 
 /** Exactly one of: from and to, quarter, contractYear. */
@@ -299,12 +340,13 @@ async function meterContext(db: Executor, meter: MeterRow): Promise<MeterContext
   const normal = await db.selectFrom('normal_years').selectAll().where('station_id', '=', meter.weather_station_id).executeTakeFirst();
   const station = await db
     .selectFrom('weather_stations')
-    .select('temperature_unit')
+    .select(['temperature_unit', 'name'])
     .where('id', '=', meter.weather_station_id)
     .executeTakeFirstOrThrow();
   return {
     meter,
     temperatureUnit: station.temperature_unit,
+    stationName: station.name,
     baseline: baseline?.content_hash
       ? {
           id: baseline.id,
@@ -344,6 +386,7 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     fuel: meter.fuel,
     unit: meter.unit,
     weatherStationId: meter.weather_station_id,
+    weatherStationName: ctx.stationName,
     temperatureUnit: ctx.temperatureUnit,
   };
   if (!baseline || !model) return missingMeterReport(identity, null, 'the meter has no frozen baseline', overlapping);
@@ -352,10 +395,14 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     version: baseline.version,
     contentHash: baseline.contentHash,
     model: model.fit.model,
+    modelName: shapeName(model.fit.model),
     start: baseline.start,
     end: baseline.end,
     temperatureRange: { ...model.fit.temperatureRange },
     cvrmse: model.fit.stats.cvrmse,
+    nmbe: model.fit.stats.nmbe,
+    coefficients: model.fit.coefficients.map((c) => ({ name: c.name, estimate: c.estimate, standardError: c.standardError })),
+    changepoints: model.fit.changepointEstimates.map((c) => ({ name: c.name, estimate: c.estimate, standardError: c.standardError })),
     meetsGuideline14: null as boolean | null,
     temperatureForm: baseline.temperatureForm,
     sufficiency: { sufficient: model.sufficiency.sufficient, reasons: model.sufficiency.reasons },
@@ -403,7 +450,9 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
   const normalised = ctx.normalYear
     ? normalisedSavings(model.fit, readings, weather, ctx.normalYear.temps, { minCoverage: model.minCoverage, confidence })
     : { available: false as const, reason: 'the weather station has no normal year (PUT /v1/weather-stations/{id}/normal-year)' };
-  return meterReport({
+  const lastEnd = readings.reduce((end, r) => (r.end > end ? r.end : end), readings[0]!.end);
+  const filled = await loadFilledDays(db, meter.weather_station_id, readings[0]!.start, lastEnd);
+  const report = meterReport({
     meter: identity,
     baseline: baselineInfo,
     savings,
@@ -412,7 +461,16 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     normalised,
     signature: signatureData(model, savings, meter.unit),
     extrapolation,
+    weatherFills: filledDaysByPeriod(savings.periods, filled),
   });
+  // The baseline's own weather: filled days it was fitted on are named beside it.
+  const baselineFills = filledDaysByPeriod(
+    [{ start: baseline.start, end: baseline.end }],
+    await loadFilledDays(db, meter.weather_station_id, baseline.start, baseline.end),
+  )[0];
+  if (baselineFills)
+    report.notes.push(`baseline weather: ${describeFills(baselineFills.days, baselineFills.interpolation, baselineFills.secondStation)}`);
+  return report;
 }
 
 function signatureData(model: FrozenModel, savings: SavingsDocument, unit: string): SignatureData {

@@ -3,9 +3,8 @@
  * fit of the chosen shape is projected onto the reporting period's weather
  * as it was frozen: never refitted. A frozen row never changes, so its
  * parsed (and hash-checked) model is kept in memory keyed by baseline id and
- * content hash. The savings themselves are recomputed on every request (a
- * tenth of a millisecond for a 36-month meter): no figure is ever served
- * from a cache.
+ * content hash. The document computed here is kept per data version by
+ * savings-cache.ts, which is what the route serves.
  */
 import {
   alignPeriods,
@@ -27,13 +26,17 @@ import {
   type SavingsDocument,
   type TemperatureUnit,
   type ShapeFit,
+  filledDaysByPeriod,
+  type PeriodFills,
 } from '../engine/index.js';
 import { DomainError } from '../domain/errors.js';
+import { BoundedCache } from '../lib/bounded-cache.js';
 import type { BaselineRow } from '../store/schema.js';
 import { fromStoredJson, nonFiniteToNull, verifyBaselineContent } from '../store/baseline-content.js';
 import { overridesOf, type BaselineFitOptions, type BaselineInputs } from './baselines.js';
 import type { Executor } from './context.js';
 import { getMeterRow } from './meters.js';
+import { loadFilledDays } from './weather-gaps.js';
 import { loadReadings, loadWeatherFor } from './meter-data.js';
 import { toAdjustment, toEngineAdjustment, type Adjustment } from './adjustments.js';
 
@@ -50,6 +53,8 @@ export interface MeterSavings extends CheckedSavingsDocument {
   baselineId: string;
   baselineVersion: number;
   baselineContentHash: string;
+  /** Reporting periods whose weather includes days filled on record, by method. */
+  weatherFills: PeriodFills[];
 }
 
 export interface FrozenModel {
@@ -64,38 +69,6 @@ export interface FrozenModel {
   sufficiency: BaselineSufficiency;
   /** What was allowed when it was frozen (kept under its content hash). */
   overrides: ProjectionOverrides;
-}
-
-/** Recent values up to a total weight, the least recently used dropped first. */
-class BoundedCache<T> {
-  private readonly entries = new Map<string, { value: T; weight: number }>();
-  private total = 0;
-
-  constructor(
-    private readonly budget: number,
-    private readonly weigh: (value: T) => number,
-  ) {}
-
-  get(key: string): T | undefined {
-    const entry = this.entries.get(key);
-    if (!entry) return undefined;
-    this.entries.delete(key);
-    this.entries.set(key, entry);
-    return entry.value;
-  }
-
-  set(key: string, value: T): T {
-    const weight = this.weigh(value);
-    if (weight > this.budget || this.entries.has(key)) return value;
-    while (this.total + weight > this.budget) {
-      const [oldest, entry] = this.entries.entries().next().value!;
-      this.entries.delete(oldest);
-      this.total -= entry.weight;
-    }
-    this.entries.set(key, { value, weight });
-    this.total += weight;
-    return value;
-  }
 }
 
 /** Parsed frozen models, by baseline id and content hash (a frozen row never changes). */
@@ -214,5 +187,6 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
     baselineId: baseline.id,
     baselineVersion: baseline.version,
     baselineContentHash: baseline.content_hash,
+    weatherFills: filledDaysByPeriod(document.periods, await loadFilledDays(db, meter.weather_station_id, readings[0]!.start, last)),
   });
 }

@@ -3,6 +3,7 @@ import type { TemperatureUnit } from '../engine/index.js';
 import { newId } from '../store/ids.js';
 import { notFound } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
+import { afterCreated, decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
 
 export interface WeatherStation {
   id: string;
@@ -48,13 +49,22 @@ export async function getStationRow(db: Executor, organisationId: string, id: st
   return row;
 }
 
-export async function listStations(db: Executor, organisationId: string): Promise<WeatherStation[]> {
-  const rows = await db
+/** The organisation's weather stations, oldest first, a page at a time. */
+export async function listStations(
+  db: Executor,
+  organisationId: string,
+  request: PageRequest = { limit: PAGE_SIZES.records.default },
+): Promise<{ stations: WeatherStation[] } & PageInfo> {
+  const after = decodeCursor('stations', request.cursor, 'ss');
+  const fetched = await db
     .selectFrom('weather_stations')
     .selectAll()
     .where('organisation_id', '=', organisationId)
+    .where((eb) => afterCreated(eb, after))
     .orderBy('created_at')
     .orderBy('id')
+    .limit(request.limit + 1)
     .execute();
-  return rows.map(toStation);
+  const { rows, page } = pageOf(fetched, request, 'stations', (row) => [row.created_at, row.id]);
+  return { stations: rows.map(toStation), ...page };
 }

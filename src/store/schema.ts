@@ -4,6 +4,7 @@
  * integers, timestamps ISO-8601 text, JSON documents text.
  */
 import type { Insertable, Selectable, Updateable } from 'kysely';
+import type { FillMethod } from '../engine/weather-gaps.js';
 import type { Role } from '../domain/principal.js';
 
 export interface OrganisationsTable {
@@ -40,7 +41,13 @@ export interface WeatherObservationsTable {
   tmin: number | null;
   tmax: number | null;
   updated_at: string;
+  /** How a day without an observation was filled: 'interpolation' or 'second-station'; null for an observed day. */
+  fill_method: FillMethod | null;
+  /** What a filled day was filled from (neighbours, or the station and fitted line with its RMSE); null for an observed day. */
+  fill_note: string | null;
 }
+
+export type { FillMethod };
 
 export interface FacilitiesTable {
   id: string;
@@ -182,6 +189,15 @@ export interface ContractsTable {
   energy_unit: string;
   guarantees_json: string;
   updated_at: string;
+  /** The contract's own reference (number or title); null when not given. */
+  reference: string | null;
+  /** The parties, JSON list of { role, name }. */
+  parties_json: string;
+  /** The M&V plan's reference and its IPMVP option (A, B, C or D); null when not given. */
+  mv_plan_reference: string | null;
+  mv_option: string | null;
+  /** The two-sided confidence level that governs every ± of the contract's reports (0.9 unless set). */
+  confidence: number;
 }
 
 /** A station's normal (long-term typical) year: 365 daily means, JSON, with its content hash. */
@@ -191,6 +207,65 @@ export interface NormalYearsTable {
   temps_json: string;
   content_hash: string;
   updated_at: string;
+}
+
+export type StatementStatus = 'prepared' | 'approved' | 'rejected' | 'voided';
+
+/** An issued savings statement: the request, the data it rests on, and its workflow. Its bytes are in statement_copies. */
+export interface StatementsTable {
+  id: string;
+  organisation_id: string;
+  status: StatementStatus;
+  /** The request as given (window, facilityId, confidence), canonical JSON: what compare renders again. */
+  request_json: string;
+  window_from: string;
+  window_to: string;
+  window_kind: string;
+  window_label: string;
+  facility_id: string | null;
+  confidence: number;
+  note: string | null;
+  /** The organisation's audit head when the statement was rendered. */
+  audit_seq: number;
+  audit_hash: string;
+  /** The content hash of the savings report inside the statement. */
+  report_hash: string;
+  /** Last day (inclusive) of the latest reporting reading counted; null when none. */
+  data_through: string | null;
+  prepared_by: string;
+  prepared_at: string;
+  approved_by: string | null;
+  approved_at: string | null;
+  rejected_by: string | null;
+  rejected_at: string | null;
+  rejection_reason: string | null;
+  voided_by: string | null;
+  voided_at: string | null;
+  void_reason: string | null;
+  replaced_by: string | null;
+}
+
+export type StatementCopyKind = 'issued' | 'approved' | 'rejected' | 'voided';
+
+/** One stored copy of a statement (1: as issued; then one per workflow step), in every format, never updated. */
+export interface StatementCopiesTable {
+  statement_id: string;
+  copy: number;
+  organisation_id: string;
+  kind: StatementCopyKind;
+  created_at: string;
+  json_body: string;
+  csv_body: string;
+  html_body: string;
+  json_hash: string;
+  csv_hash: string;
+  html_hash: string;
+}
+
+/** A meter's data version: a random token replaced by every write that can change the meter's savings (src/store/data-versions.ts). */
+export interface MeterDataVersionsTable {
+  meter_id: string;
+  version: string;
 }
 
 export interface Database {
@@ -208,6 +283,9 @@ export interface Database {
   rates: RatesTable;
   contracts: ContractsTable;
   normal_years: NormalYearsTable;
+  statements: StatementsTable;
+  statement_copies: StatementCopiesTable;
+  meter_data_versions: MeterDataVersionsTable;
 }
 
 export type ReadingRow = Selectable<ReadingsTable>;
@@ -217,3 +295,5 @@ export type BaselineUpdate = Updateable<BaselinesTable>;
 export type MeterRow = Selectable<MetersTable>;
 export type ApiKeyRow = Selectable<ApiKeysTable>;
 export type AuditRow = Selectable<AuditLogTable>;
+export type StatementRow = Selectable<StatementsTable>;
+export type StatementCopyRow = Selectable<StatementCopiesTable>;

@@ -1,7 +1,7 @@
 /**
  * Moving one organisation between databases: `exportOrganisation` reads every
  * row of it, exactly as stored, into one document (our own format,
- * "mvledger-export" version 3); `importOrganisation` checks such a document
+ * "mvledger-export" version 4); `importOrganisation` checks such a document
  * and stores it in another database in one transaction, or stores nothing.
  *
  * What the checks can prove: the audit trail inside the document recomputes
@@ -13,21 +13,27 @@
  * Idempotency keys are transient and stay behind.
  */
 import type { Kysely, Transaction } from 'kysely';
+import { sha256Hex } from '../lib/canonical-json.js';
 import { documentTemperatureForm, verifyBaselineContent } from './baseline-content.js';
 import { ROLES } from './api-keys.js';
 import { GENESIS_HASH, verifyAuditChain, verifyAuditRows, type ChainVerdict } from './audit.js';
 import { readSnapshot, writeTransaction } from './connect.js';
+import { bumpMeterVersions } from './data-versions.js';
 import type { AuditRow, BaselineRow, Database } from './schema.js';
 
 export const EXPORT_FORMAT = 'mvledger-export';
-export const EXPORT_VERSION = 3;
+export const EXPORT_VERSION = 5;
 /**
  * Version 1 predates adjustments, rates, contracts and normal years: it is
- * read with those tables empty. Versions 1 and 2 predate the columns of
- * COLUMNS_SINCE_VERSION_3: they are read with those columns defaulted.
+ * read with those tables empty. Older versions predate the columns of
+ * COLUMNS_SINCE_VERSION (3: a baseline's form and overrides, an adjustment's
+ * ±; 4: a contract's identification and confidence; 5: how a weather day
+ * was filled): they are read with those columns defaulted. Versions 1 to 3
+ * predate statements: read with those tables empty.
  */
-const READABLE_VERSIONS = [1, 2, 3] as const;
+const READABLE_VERSIONS = [1, 2, 3, 4, 5] as const;
 const TABLES_SINCE_VERSION_2 = ['adjustments', 'rates', 'contracts', 'normal_years'] as const;
+const TABLES_SINCE_VERSION_4 = ['statements', 'statement_copies'] as const;
 
 /** The organisation's tables in foreign-key order: the order of insertion. */
 export const TRANSFER_TABLES = [
@@ -42,6 +48,8 @@ export const TRANSFER_TABLES = [
   'rates',
   'adjustments',
   'baselines',
+  'statements',
+  'statement_copies',
   'audit_log',
 ] as const;
 export type TransferTable = (typeof TRANSFER_TABLES)[number];
@@ -114,7 +122,16 @@ const TABLE_RULES: Record<TransferTable, TableRule> = {
   },
   weather_observations: {
     key: ['station_id', 'date'],
-    columns: { station_id: TEXT, date: TEXT, temp: REAL, tmin: REAL_OR_NULL, tmax: REAL_OR_NULL, updated_at: TEXT },
+    columns: {
+      station_id: TEXT,
+      date: TEXT,
+      temp: REAL,
+      tmin: REAL_OR_NULL,
+      tmax: REAL_OR_NULL,
+      updated_at: TEXT,
+      fill_method: { type: 'text', nullable: true, oneOf: ['interpolation', 'second-station'] },
+      fill_note: TEXT_OR_NULL,
+    },
   },
   facilities: {
     key: ['id'],
@@ -191,6 +208,58 @@ const TABLE_RULES: Record<TransferTable, TableRule> = {
       energy_unit: TEXT,
       guarantees_json: TEXT,
       updated_at: TEXT,
+      reference: TEXT_OR_NULL,
+      parties_json: TEXT,
+      mv_plan_reference: TEXT_OR_NULL,
+      mv_option: { type: 'text', nullable: true, oneOf: ['A', 'B', 'C', 'D'] },
+      confidence: { type: 'real', oneOf: [0.68, 0.8, 0.9, 0.95] },
+    },
+  },
+  statements: {
+    key: ['id'],
+    columns: {
+      id: TEXT,
+      organisation_id: TEXT,
+      status: { type: 'text', oneOf: ['prepared', 'approved', 'rejected', 'voided'] },
+      request_json: TEXT,
+      window_from: TEXT,
+      window_to: TEXT,
+      window_kind: TEXT,
+      window_label: TEXT,
+      facility_id: TEXT_OR_NULL,
+      confidence: REAL,
+      note: TEXT_OR_NULL,
+      audit_seq: INTEGER,
+      audit_hash: TEXT,
+      report_hash: TEXT,
+      data_through: TEXT_OR_NULL,
+      prepared_by: TEXT,
+      prepared_at: TEXT,
+      approved_by: TEXT_OR_NULL,
+      approved_at: TEXT_OR_NULL,
+      rejected_by: TEXT_OR_NULL,
+      rejected_at: TEXT_OR_NULL,
+      rejection_reason: TEXT_OR_NULL,
+      voided_by: TEXT_OR_NULL,
+      voided_at: TEXT_OR_NULL,
+      void_reason: TEXT_OR_NULL,
+      replaced_by: TEXT_OR_NULL,
+    },
+  },
+  statement_copies: {
+    key: ['statement_id', 'copy'],
+    columns: {
+      statement_id: TEXT,
+      copy: INTEGER,
+      organisation_id: TEXT,
+      kind: { type: 'text', oneOf: ['issued', 'approved', 'rejected', 'voided'] },
+      created_at: TEXT,
+      json_body: TEXT,
+      csv_body: TEXT,
+      html_body: TEXT,
+      json_hash: TEXT,
+      csv_hash: TEXT,
+      html_hash: TEXT,
     },
   },
   rates: {
@@ -242,20 +311,45 @@ const TABLE_RULES: Record<TransferTable, TableRule> = {
   },
 };
 
+type AddedColumns = Partial<Record<TransferTable, Record<string, (row: ExportRow) => Cell>>>;
+
 /**
- * Columns added in format version 3, and the value an older document's row
- * gets: a baseline's temperature form is the one its fit document states
- * (mean for documents from before the form existed); no override; no
- * stated ± on an adjustment.
+ * Columns added in a format version, and the value an older document's row
+ * gets. Version 3: a baseline's temperature form is the one its fit
+ * document states (mean for documents from before the form existed); no
+ * override; no stated ± on an adjustment. Version 4: a contract stored
+ * before them has no identification and the default confidence level.
+ * Version 5: every weather day of an older document was observed, none
+ * filled.
  */
-const COLUMNS_SINCE_VERSION_3: Partial<Record<TransferTable, Record<string, (row: ExportRow) => Cell>>> = {
-  baselines: {
-    temperature_form: (row) => formOfDocument(row.document_json),
-    short_baseline_override: () => null,
-    extrapolation_override: () => null,
+const COLUMNS_SINCE_VERSION: Record<number, AddedColumns> = {
+  3: {
+    baselines: {
+      temperature_form: (row) => formOfDocument(row.document_json),
+      short_baseline_override: () => null,
+      extrapolation_override: () => null,
+    },
+    adjustments: { uncertainty: () => null },
   },
-  adjustments: { uncertainty: () => null },
+  4: {
+    contracts: {
+      reference: () => null,
+      parties_json: () => '[]',
+      mv_plan_reference: () => null,
+      mv_option: () => null,
+      confidence: () => 0.9,
+    },
+  },
+  5: { weather_observations: { fill_method: () => null, fill_note: () => null } },
 };
+
+/** The columns of `table` that a document of `version` lacks, with their defaults. */
+function columnsAddedAfter(table: TransferTable, version: number): Record<string, (row: ExportRow) => Cell> | undefined {
+  const added = Object.entries(COLUMNS_SINCE_VERSION)
+    .filter(([since]) => Number(since) > version)
+    .flatMap(([, tables]) => Object.entries(tables[table] ?? {}));
+  return added.length > 0 ? Object.fromEntries(added) : undefined;
+}
 
 function formOfDocument(documentJson: Cell | undefined): Cell {
   try {
@@ -268,13 +362,13 @@ function formOfDocument(documentJson: Cell | undefined): Cell {
 /** The rule of a table in a document of `version`: older versions lack the columns added since. */
 function ruleFor(table: TransferTable, version: number): TableRule {
   const rule = TABLE_RULES[table];
-  const added = COLUMNS_SINCE_VERSION_3[table];
-  if (version >= 3 || !added) return rule;
+  const added = columnsAddedAfter(table, version);
+  if (!added) return rule;
   return { key: rule.key, columns: Object.fromEntries(Object.entries(rule.columns).filter(([column]) => !Object.hasOwn(added, column))) };
 }
 
 /** Tables whose id is unique across the whole database, not only within the organisation. */
-const GLOBAL_ID_TABLES = ['api_keys', 'weather_stations', 'facilities', 'meters', 'baselines', 'adjustments'] as const;
+const GLOBAL_ID_TABLES = ['api_keys', 'weather_stations', 'facilities', 'meters', 'baselines', 'adjustments', 'statements'] as const;
 
 // ---------------------------------------------------------------------------
 // Export.
@@ -312,6 +406,8 @@ async function readOrganisation(trx: Transaction<Database>, organisationId: stri
     rates: await trx.selectFrom('rates').selectAll().where('meter_id', 'in', meters).execute(),
     adjustments: await trx.selectFrom('adjustments').selectAll().where('organisation_id', '=', organisationId).execute(),
     baselines: await trx.selectFrom('baselines').selectAll().where('organisation_id', '=', organisationId).execute(),
+    statements: await trx.selectFrom('statements').selectAll().where('organisation_id', '=', organisationId).execute(),
+    statement_copies: await trx.selectFrom('statement_copies').selectAll().where('organisation_id', '=', organisationId).execute(),
     audit_log: await trx.selectFrom('audit_log').selectAll().where('organisation_id', '=', organisationId).execute(),
   };
   const tables = {} as Record<TransferTable, ExportRow[]>;
@@ -387,7 +483,7 @@ function checkRow(path: string, value: unknown, rule: TableRule, organisationId:
 function checkTable(table: TransferTable, value: unknown, organisationId: string, version: number): ExportRow[] {
   if (!Array.isArray(value)) fail(`tables.${table}`, `must be a list of rows, got ${shown(value)}`);
   const rule = ruleFor(table, version);
-  const added = version >= 3 ? undefined : COLUMNS_SINCE_VERSION_3[table];
+  const added = columnsAddedAfter(table, version);
   const seen = new Set<string>();
   return value.map((entry, index) => {
     const checked = checkRow(`tables.${table}[${index}]`, entry, rule, organisationId, version);
@@ -421,6 +517,7 @@ function checkReferences(tables: Record<TransferTable, ExportRow[]>): void {
   refer('contracts', 'facility_id', facilities, 'facility');
   refer('rates', 'meter_id', meters, 'meter');
   refer('adjustments', 'meter_id', meters, 'meter');
+  refer('statement_copies', 'statement_id', ids('statements'), 'statement');
 
   const baselines = new Map(tables.baselines.map((row) => [row.id, row]));
   const versions = new Set<string>();
@@ -472,6 +569,19 @@ function checkBaselineHashes(rows: readonly ExportRow[]): void {
   });
 }
 
+/** Every stored statement copy still matches its content hashes: the bytes a statement was filed with travel unchanged. */
+function checkStatementCopies(rows: readonly ExportRow[]): void {
+  rows.forEach((row, index) => {
+    for (const format of ['json', 'csv', 'html'] as const) {
+      if (sha256Hex(row[`${format}_body`] as string) !== row[`${format}_hash`])
+        fail(
+          `tables.statement_copies[${index}].${format}_body`,
+          `statement ${row.statement_id} copy ${row.copy} does not match its ${format} content hash`,
+        );
+    }
+  });
+}
+
 /** The document if it is a well-formed, self-consistent export; else a TransferInputError naming the place. */
 export function checkDocument(value: unknown): ExportDocument {
   if (!isObject(value)) fail('document', `must be a JSON object, got ${shown(value)}`);
@@ -490,8 +600,8 @@ export function checkDocument(value: unknown): ExportDocument {
   checkCell('auditHead.seq', head.seq, INTEGER);
   checkCell('auditHead.hash', head.hash, TEXT);
   if (!isObject(value.tables)) fail('tables', `must be an object of tables, got ${shown(value.tables)}`);
-  const known: readonly string[] =
-    value.version === 1 ? TRANSFER_TABLES.filter((t) => !(TABLES_SINCE_VERSION_2 as readonly string[]).includes(t)) : TRANSFER_TABLES;
+  const later: readonly string[] = [...(version < 2 ? TABLES_SINCE_VERSION_2 : []), ...(version < 4 ? TABLES_SINCE_VERSION_4 : [])];
+  const known: readonly string[] = TRANSFER_TABLES.filter((t) => !later.includes(t));
   for (const name of Object.keys(value.tables)) {
     if (!known.includes(name)) fail(`tables.${name}`, `not a table of format version ${shown(value.version)}`);
   }
@@ -502,6 +612,7 @@ export function checkDocument(value: unknown): ExportDocument {
   const auditHead = { seq: head.seq as number, hash: head.hash as string };
   checkAuditTrail(organisation.id, tables.audit_log, auditHead);
   checkBaselineHashes(tables.baselines);
+  checkStatementCopies(tables.statement_copies);
   return { format: EXPORT_FORMAT, version: EXPORT_VERSION, exportedAt: value.exportedAt, organisation, auditHead, tables };
 }
 
@@ -534,6 +645,12 @@ export async function importOrganisation(db: Kysely<Database>, input: unknown): 
     await refuseExisting(trx, document);
     await trx.insertInto('organisations').values(organisation).execute();
     for (const table of TRANSFER_TABLES) await insertRows(trx, table, insertionOrder(table, tables[table]));
+    // Data versions are not exported: the imported meters get fresh ones.
+    for (const chunk of chunks(tables.meters, MAX_ROWS_PER_INSERT))
+      await bumpMeterVersions(
+        trx,
+        chunk.map((row) => row.id as string),
+      );
     await checkTarget(trx, document);
     const rows = {} as Record<TransferTable, number>;
     for (const table of TRANSFER_TABLES) rows[table] = tables[table].length;

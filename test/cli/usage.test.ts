@@ -42,7 +42,9 @@ describe('help and usage', () => {
     const run = await runCli(['fitt']);
     expect(run.code).toBe(2);
     expect(run.stdout).toBe('');
-    expect(run.stderr).toBe('mvledger: unknown command "fitt" (commands: fit, savings, keys, export, import, backup, restore, help)\n');
+    expect(run.stderr).toBe(
+      'mvledger: unknown command "fitt" (commands: fit, savings, weather, keys, export, import, backup, restore, help)\n',
+    );
   });
 });
 

@@ -54,6 +54,10 @@ const DRIVEN = [
   'PUT /v1/meters/{id}/rates',
   'POST /v1/meters/{id}/adjustments',
   'PUT /v1/facilities/{id}/contract',
+  'POST /v1/statements',
+  // Small whole-number settings (days, years) with their own bounds; at and beyond them in test/http/weather-imports.test.ts.
+  'POST /v1/weather-stations/{id}/gap-fills',
+  'POST /v1/weather-stations/{id}/normal-year/from-history',
 ];
 
 /** The next double above a positive x: "just beyond" a bound. */
@@ -438,6 +442,20 @@ async function runScenario(s: Scenario, run: number): Promise<void> {
     },
     /^guarantees\[[01]\]\.(energy|cost)$/,
   );
+  await refused(
+    `${tag} statement contract year beyond`,
+    'POST',
+    '/v1/statements',
+    { body: { window: { contractYear: 51 }, facilityId: facility.id } },
+    /^window\.contractYear$/,
+  );
+  await refused(
+    `${tag} statement confidence off the list`,
+    'POST',
+    '/v1/statements',
+    { body: { window: { quarter: '2025-Q1' }, facilityId: facility.id, confidence: Number.MAX_VALUE } },
+    /^confidence$/,
+  );
   expect(await databaseDigest(api.store.db), `${tag}: a refused request stored something`).toBe(before);
 
   // Every reading of what was stored: lists, savings, the signature chart, the reports.
@@ -473,6 +491,13 @@ async function runScenario(s: Scenario, run: number): Promise<void> {
         figures.notAvailableNotices += (reply.json.notices as string[]).filter((n) => n.includes('not available')).length;
     }
   }
+  // A statement of the contract year: issued (its stored HTML served) or refused as unprocessable, never a 5xx.
+  const statement = await send(`${tag} statement`, 'POST', '/v1/statements', {
+    body: { window: { contractYear: 1 }, facilityId: facility.id, confidence: 0.95 },
+  });
+  expect([201, 422], `${tag} statement: ${statement.text.slice(0, 300)}`).toContain(statement.status);
+  if (statement.status === 201)
+    expect((await send(`${tag} statement html`, 'GET', `/v1/statements/${statement.json.id}/document?format=html`)).status).toBe(200);
 }
 
 describe(`extreme finite numbers on ${testDialect()}: stored at the bounds' edges, refused beyond them, reported without a 5xx`, () => {

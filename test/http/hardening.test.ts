@@ -172,3 +172,15 @@ describe('every response path carries the protective headers', () => {
     expect(ms).toBeLessThan(6_000);
   });
 });
+
+describe('text checks on deeply nested bodies', () => {
+  it('walks a body nested 5,000 levels deep without running out of stack (400 from the schema, not 500)', async () => {
+    const deep = `{"name":"Deep (invented)","address":${'['.repeat(5000)}${']'.repeat(5000)}}`;
+    const response = await api.call('POST', '/v1/facilities', { body: deep });
+    expect(response.status).toBe(400);
+    const surrogate = `{"name":"x","address":${'['.repeat(3000)}"\\ud800"${']'.repeat(3000)}}`;
+    const refused = await api.call('POST', '/v1/facilities', { body: surrogate });
+    expect(refused.status).toBe(400);
+    expect(refused.json.detail).toContain('lone UTF-16 surrogate');
+  });
+});

@@ -71,10 +71,12 @@ describe('PUT /v1/weather-stations/{id}/observations', () => {
       stationId,
       temperatureUnit: 'F',
       observations: [
-        { date: '2025-01-01', temp: 37.5, tmin: 30, tmax: 45 }, // hand-worked: (30 + 45) / 2, the common-practice daily mean
-        { date: '2025-01-02', temp: 33, tmin: null, tmax: null },
-        { date: '2025-01-03', temp: 28.4, tmin: null, tmax: null },
+        { date: '2025-01-01', temp: 37.5, tmin: 30, tmax: 45, filled: null, fillNote: null }, // hand-worked: (30 + 45) / 2, the common-practice daily mean
+        { date: '2025-01-02', temp: 33, tmin: null, tmax: null, filled: null, fillNote: null },
+        { date: '2025-01-03', temp: 28.4, tmin: null, tmax: null, filled: null, fillNote: null },
       ],
+      limit: 1000, // the stated default page size
+      nextCursor: null, // one page holds them all
     });
   });
 
@@ -83,7 +85,7 @@ describe('PUT /v1/weather-stations/{id}/observations', () => {
     const put = await api.call('PUT', url, { csv: 'Date,TMin,TMax\n2025-01-03,20,31\n' });
     expect(put.status).toBe(200);
     const listed = await api.call('GET', url);
-    expect(listed.json.observations[2]).toEqual({ date: '2025-01-03', temp: 25.5, tmin: 20, tmax: 31 }); // hand-worked: (20 + 31) / 2
+    expect(listed.json.observations[2]).toEqual({ date: '2025-01-03', temp: 25.5, tmin: 20, tmax: 31, filled: null, fillNote: null }); // hand-worked: (20 + 31) / 2
   });
 
   it('upserts by date: unchanged days store nothing, changed days are updated and audited compactly', async () => {

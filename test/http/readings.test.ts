@@ -91,6 +91,8 @@ describe('POST /v1/meters/{id}/readings', () => {
         { start: '2025-02-01', end: '2025-03-01', days: 28, quantity: 27500, estimated: true, cost: null },
         { start: '2025-03-01', end: '2025-04-01', days: 31, quantity: 26000, estimated: false, cost: 4160.5 },
       ],
+      limit: 1000, // the stated default page size
+      nextCursor: null, // one page holds them all
     });
   });
 

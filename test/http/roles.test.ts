@@ -14,7 +14,7 @@ import type { Role } from '../../src/domain/principal.js';
 import { makeTestApi, type CallOptions, type TestApi } from '../support/api.js';
 
 const METHODS = ['get', 'post', 'put', 'patch', 'delete'] as const;
-const PERMISSIONS = Object.keys({ read: 0, savings: 0, data: 0, ledger: 0, keys: 0, reconcile: 0 } satisfies Record<
+const PERMISSIONS = Object.keys({ read: 0, savings: 0, data: 0, ledger: 0, keys: 0, approve: 0, reconcile: 0 } satisfies Record<
   Permission,
   0
 >) as Permission[];
@@ -99,10 +99,12 @@ function observedPermissions(op: Operation): Permission[] {
 /**
  * The permission a route should need, from the meaning of each permission
  * (src/domain/principal.ts): keys for API keys; savings for savings; data to
- * post readings and observations; read for other GETs; ledger for other writes.
+ * post readings and observations; read for other GETs; approve for a statement's
+ * approval, rejection and voiding; ledger for other writes.
  */
 function conventionalPermission(op: Operation): Permission {
   if (op.path.startsWith('/v1/api-keys')) return 'keys';
+  if (/^\/v1\/statements\/\{id\}\/(approve|reject|void)$/.test(op.path)) return 'approve';
   if (/\/savings(\/|$)/.test(op.path)) return 'savings';
   // What a billing system reads back to reconcile: the meters and a meter's readings.
   if (op.method === 'get' && /^\/v1\/meters(\/\{id\}(\/readings)?)?$/.test(op.path)) return 'reconcile';
@@ -177,9 +179,9 @@ describe('the role matrix over every route in the OpenAPI document', () => {
   it('gives the admin role every permission and the others the documented subsets', () => {
     // from src/domain/principal.ts, restated so a change to the table is a visible decision
     expect(ROLE_PERMISSIONS).toEqual({
-      admin: ['read', 'savings', 'data', 'ledger', 'keys', 'reconcile'],
+      admin: ['read', 'savings', 'data', 'ledger', 'keys', 'approve', 'reconcile'],
       engineer: ['read', 'savings', 'data', 'ledger', 'reconcile'],
-      analyst: ['read', 'savings', 'reconcile'],
+      analyst: ['read', 'savings', 'approve', 'reconcile'],
       integration: ['savings', 'data', 'reconcile'],
     });
   });

@@ -20,6 +20,7 @@ import {
   type Reading,
 } from '../../src/engine/index.js';
 import { toJsonDocument } from '../../src/cli/format/json.js';
+import { bumpMeterVersions } from '../../src/store/data-versions.js';
 import { makeTestApi, type TestApi } from '../support/api.js';
 import { databaseDigest } from '../support/db-digest.js';
 import { CLIMATES, SAMPLE_BUILDING, dailyWeather, monthlyReadings, seededRandom } from '../support/synthetic.js';
@@ -32,7 +33,7 @@ const WEATHER = dailyWeather(CLIMATES.temperate, '2023-01-01', 1096, random);
 const BASELINE = monthlyReadings(SAMPLE_BUILDING, WEATHER, '2023-01-01', 24, random);
 const REPORTING = monthlyReadings({ ...SAMPLE_BUILDING, base: 255, heatingRate: 6.5 }, WEATHER, '2025-01-01', 12, random);
 const WINDOW = { start: '2023-01-01', end: '2025-01-01' };
-const EXTRA_KEYS = ['meterId', 'adjustments', 'baselineId', 'baselineVersion', 'baselineContentHash'];
+const EXTRA_KEYS = ['meterId', 'adjustments', 'baselineId', 'baselineVersion', 'baselineContentHash', 'weatherFills'];
 
 const ENGINE = analyseBaseline(BASELINE, WEATHER);
 
@@ -182,7 +183,8 @@ describe('GET /v1/meters/{id}/savings', () => {
     const after = await savings(meterId, '?to=2025-12-01&confidence=0.95');
     expect(withoutBaselineKeys(after.json)).toEqual(engineSavings(ENGINE.choice.selected, inside, 0.95)); // the engine itself, on the original baseline
 
-    // A reporting reading that changes is seen at once.
+    // A reporting reading that changes is seen at once. These writes go round the service, so they give the meter
+    // a new data version themselves, as every service write does in its transaction (test/http/savings-cache.test.ts).
     const before = await savings(meterId);
     await api.store.db
       .updateTable('readings')
@@ -190,6 +192,7 @@ describe('GET /v1/meters/{id}/savings', () => {
       .where('meter_id', '=', meterId)
       .where('period_start', '=', REPORTING[0]!.start)
       .execute();
+    await api.store.db.transaction().execute((trx) => bumpMeterVersions(trx, [meterId]));
     const changed = await savings(meterId);
     expect(changed.json.totals.actual).toBeCloseTo(before.json.totals.actual - REPORTING[0]!.quantity * 0.1, 6); // hand-worked: 10% less in the first bill
     await api.store.db
@@ -198,6 +201,7 @@ describe('GET /v1/meters/{id}/savings', () => {
       .where('meter_id', '=', meterId)
       .where('period_start', '=', REPORTING[0]!.start)
       .execute();
+    await api.store.db.transaction().execute((trx) => bumpMeterVersions(trx, [meterId]));
     expect((await savings(meterId)).json).toEqual(before.json);
   });
 
@@ -317,5 +321,38 @@ describe('savings against another shape, a newer baseline, or none', () => {
     expect(withoutBaselineKeys(response.json)).toEqual(
       engineSavings(flatBaseline.choice.selected, flat(REPORTING.slice(0, 3)), undefined, flatBaseline),
     ); // the engine itself
+  });
+});
+
+describe('weather filled on record shows in savings and reports', () => {
+  it('names the reporting period whose weather was filled, by method, in the savings document and the report', async () => {
+    // Synthetic: three days of the reporting weather withheld, then filled by interpolation on record.
+    const withheld = new Set(['2025-03-10', '2025-03-11', '2025-03-12']);
+    const meterId = await seedMeter(
+      undefined,
+      WEATHER.filter((d) => !withheld.has(d.date)),
+    );
+    await frozenBaseline(meterId);
+    const meter = await api.call('GET', `/v1/meters/${meterId}`, { as: 'analyst' });
+    const fill = await api.call('POST', `/v1/weather-stations/${meter.json.weatherStationId}/gap-fills`, {
+      as: 'engineer',
+      body: { from: '2025-03-01', to: '2025-04-01', maxInterpolationDays: 3 },
+    });
+    expect(fill.json.filled).toEqual({ interpolation: 3, secondStation: 0 });
+    const response = await savings(meterId);
+    expect(response.status, response.text).toBe(200);
+    expect(response.json.weatherFills).toHaveLength(1);
+    expect(response.json.weatherFills[0]).toMatchObject({ interpolation: 3, secondStation: 0 });
+    expect(response.json.weatherFills[0].summary).toMatch(/^3 of \d+ days filled by interpolation$/);
+    // This meter's facility only: an earlier test in this file tampers with another meter's baseline on purpose.
+    const window = `from=2025-01-01&to=2026-01-01&facilityId=${meter.json.facilityId}`;
+    const report = await api.call('GET', `/v1/reports/savings?${window}`, { as: 'analyst' });
+    expect(report.status, report.text).toBe(200);
+    const meterReport = report.json.facilities
+      .flatMap((f: { meters: unknown[] }) => f.meters)
+      .find((m: { id: string }) => m.id === meterId);
+    expect(meterReport.weatherFills[0].summary).toBe(response.json.weatherFills[0].summary);
+    const html = await api.call('GET', `/v1/reports/savings?${window}&format=html`, { as: 'analyst' });
+    expect(html.text).toContain(response.json.weatherFills[0].summary);
   });
 });

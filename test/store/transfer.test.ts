@@ -91,10 +91,13 @@ afterAll(async () => {
   rmSync(folder, { recursive: true, force: true });
 });
 
+/** The contract columns of format version 4 (migration 0005). */
+const CONTRACT_COLUMNS_SINCE_4 = ['reference', 'parties_json', 'mv_plan_reference', 'mv_option', 'confidence'];
+
 describe('exportOrganisation', () => {
-  it('writes format mvledger-export version 3 with every table of the organisation and no idempotency keys', async () => {
+  it('writes format mvledger-export version 5 with every table of the organisation and no idempotency keys', async () => {
     expect(document.format).toBe('mvledger-export'); // the format's own contract
-    expect(document.version).toBe(3);
+    expect(document.version).toBe(5);
     expect(document.exportedAt).toBe(EXPORTED_AT);
     expect(Object.keys(document.tables)).toEqual([...TRANSFER_TABLES]);
     expect(document.organisation).toEqual(await source.db.selectFrom('organisations').selectAll().executeTakeFirstOrThrow());
@@ -131,7 +134,7 @@ describe('exportOrganisation', () => {
 describe('checkDocument refuses a document that is not a faithful export', () => {
   const cases: { what: string; change: (copy: any) => void; says: RegExp }[] = [
     { what: 'another format', change: (d) => (d.format = 'ledger-dump'), says: /^format: must be "mvledger-export"/ },
-    { what: 'another version', change: (d) => (d.version = 4), says: /^version: this mvledger reads versions 1, 2 and 3, got 4/ },
+    { what: 'another version', change: (d) => (d.version = 6), says: /^version: this mvledger reads versions 1, 2, 3, 4 and 5, got 6/ },
     {
       what: 'a version 1 document with a table of version 2',
       change: (d) => (d.version = 1),
@@ -161,12 +164,23 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
     {
       what: 'an unknown column',
       change: (d) => (d.tables.meters[0].colour = 'red'),
-      says: /^tables\.meters\[0\]\.colour: not a column of format version 3/,
+      says: /^tables\.meters\[0\]\.colour: not a column of format version 5/,
     },
     {
       what: 'a version 2 document with a column of version 3',
-      change: (d) => (d.version = 2),
+      change: (d) => {
+        d.version = 2;
+        delete d.tables.statements;
+        delete d.tables.statement_copies;
+        for (const row of d.tables.contracts) for (const column of CONTRACT_COLUMNS_SINCE_4) delete row[column];
+        for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
+      },
       says: /^tables\.adjustments\[0\]\.uncertainty: not a column of format version 2/,
+    },
+    {
+      what: 'a version 4 document with a column of version 5',
+      change: (d) => (d.version = 4),
+      says: /^tables\.weather_observations\[0\]\.fill_method: not a column of format version 4/,
     },
     {
       what: 'a frozen baseline whose temperature form was edited',
@@ -216,20 +230,23 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
     {
       what: 'idempotency keys',
       change: (d) => (d.tables.idempotency_keys = []),
-      says: /^tables\.idempotency_keys: not a table of format version 3/,
+      says: /^tables\.idempotency_keys: not a table of format version 5/,
     },
     { what: 'a missing table', change: (d) => delete d.tables.baselines, says: /^tables\.baselines: must be a list of rows, got nothing/ },
   ];
   it('still reads a version 1 document (from before adjustments, rates, contracts and normal years), with those tables empty', () => {
     const input = edited(document, (d) => {
       d.version = 1;
+      for (const table of ['adjustments', 'rates', 'contracts', 'normal_years', 'statements', 'statement_copies']) delete d.tables[table];
       for (const table of ['adjustments', 'rates', 'contracts', 'normal_years']) delete d.tables[table];
+      for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
     });
     for (const row of (input as any).tables.baselines)
       for (const column of ['temperature_form', 'short_baseline_override', 'extrapolation_override']) delete row[column];
     const checked = checkDocument(input);
-    expect(checked.version).toBe(3);
+    expect(checked.version).toBe(5);
     expect(checked.tables.rates).toEqual([]);
+    expect(checked.tables.statements).toEqual([]);
     expect(checked.tables.readings).toHaveLength(document.tables.readings.length);
     expect(checked.tables.baselines).toEqual(document.tables.baselines); // the columns of version 3 defaulted as below
   });
@@ -237,16 +254,56 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
   it('still reads a version 2 document, taking each baseline’s form from its fit document and no override or adjustment ±', () => {
     const input = edited(document, (d) => {
       d.version = 2;
+      delete d.tables.statements;
+      delete d.tables.statement_copies;
+      for (const row of d.tables.contracts) for (const column of CONTRACT_COLUMNS_SINCE_4) delete row[column];
+      for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
       for (const row of d.tables.baselines)
         for (const column of ['temperature_form', 'short_baseline_override', 'extrapolation_override']) delete row[column];
       for (const row of d.tables.adjustments) delete row.uncertainty;
     });
     const checked = checkDocument(input);
-    expect(checked.version).toBe(3);
+    expect(checked.version).toBe(5);
     // The demo's baselines are day-resolved (its bills have daily weather) and carry no override: the source's own rows.
     expect(checked.tables.baselines.map((row) => row.temperature_form)).toEqual(document.tables.baselines.map(() => 'daily'));
     expect(checked.tables.baselines).toEqual(document.tables.baselines);
     expect(checked.tables.adjustments.map((row) => row.uncertainty)).toEqual(document.tables.adjustments.map(() => null));
+  });
+
+  it('still reads a version 3 document (from before statements), each contract with no identification and the 90% default', () => {
+    const input = edited(document, (d) => {
+      d.version = 3;
+      delete d.tables.statements;
+      delete d.tables.statement_copies;
+      for (const row of d.tables.contracts) for (const column of CONTRACT_COLUMNS_SINCE_4) delete row[column];
+      for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
+    });
+    const checked = checkDocument(input);
+    expect(checked.version).toBe(5);
+    expect(checked.tables.statements).toEqual([]);
+    expect(checked.tables.statement_copies).toEqual([]);
+    for (const row of checked.tables.contracts)
+      expect(row).toMatchObject({ reference: null, parties_json: '[]', mv_plan_reference: null, mv_option: null, confidence: 0.9 });
+  });
+
+  it('refuses a version 3 document that carries statements', () => {
+    const input = edited(document, (d) => {
+      d.version = 3;
+      for (const row of d.tables.contracts) for (const column of CONTRACT_COLUMNS_SINCE_4) delete row[column];
+      for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
+    });
+    expect(() => checkDocument(input)).toThrow(/^tables\.statements: not a table of format version 3/);
+  });
+
+  it('still reads a version 4 document, every weather day of it observed', () => {
+    const input = edited(document, (d) => {
+      d.version = 4;
+      for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
+    });
+    const checked = checkDocument(input);
+    expect(checked.version).toBe(5);
+    expect(checked.tables.weather_observations.length).toBeGreaterThan(0);
+    expect(checked.tables.weather_observations.every((row) => row.fill_method === null && row.fill_note === null)).toBe(true);
   });
 
   for (const c of cases) {

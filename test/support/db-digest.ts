@@ -21,6 +21,9 @@ const TABLES = [
   'rates',
   'contracts',
   'normal_years',
+  'statements',
+  'statement_copies',
+  'meter_data_versions',
 ] as const;
 
 export async function databaseDigest(db: Kysely<Database>): Promise<string> {

@@ -13,31 +13,40 @@ import { describePath } from './problems.js';
 /** With the u flag a paired surrogate is one code point, so this matches only a lone one. */
 const LONE_SURROGATE = /\p{Surrogate}/u;
 
-/** Why `value` cannot be stored (the path of the first bad string), or null; strings are replaced by their NFC form. */
-function normaliseInPlace(value: unknown, path: string[]): string[] | null {
-  if (Array.isArray(value)) {
-    for (let i = 0; i < value.length; i++) {
-      const item = value[i];
+/** A container met on the walk, with the way back to the root (for naming a bad field). */
+interface Visit {
+  container: Record<string, unknown> | unknown[];
+  key: string | null;
+  parent: Visit | null;
+}
+
+function pathOf(visit: Visit, last: string): string[] {
+  const path = [last];
+  for (let at: Visit | null = visit; at !== null && at.key !== null; at = at.parent) path.push(at.key);
+  return path.reverse();
+}
+
+/**
+ * Replaces every string inside `root` by its NFC form; returns the path of
+ * the first string (or field name) with a lone surrogate, or null. An
+ * explicit stack, not recursion: a body may nest thousands of levels deep
+ * before the schema refuses it.
+ */
+function normaliseInPlace(root: Record<string, unknown> | unknown[]): string[] | null {
+  const stack: Visit[] = [{ container: root, key: null, parent: null }];
+  while (stack.length > 0) {
+    const visit = stack.pop()!;
+    const container = visit.container as Record<string, unknown>;
+    for (const key of Object.keys(container)) {
+      if (LONE_SURROGATE.test(key)) return pathOf(visit, '(a field name)');
+      const item = container[key];
       if (typeof item === 'string') {
-        if (LONE_SURROGATE.test(item)) return [...path, String(i)];
-        value[i] = item.normalize('NFC');
+        if (LONE_SURROGATE.test(item)) return pathOf(visit, key);
+        const normal = item.normalize('NFC');
+        if (normal !== item) container[key] = normal;
       } else if (item !== null && typeof item === 'object') {
-        const bad = normaliseInPlace(item, [...path, String(i)]);
-        if (bad) return bad;
+        stack.push({ container: item as Record<string, unknown>, key, parent: visit });
       }
-    }
-    return null;
-  }
-  const record = value as Record<string, unknown>;
-  for (const key of Object.keys(record)) {
-    if (LONE_SURROGATE.test(key)) return [...path, '(a field name)'];
-    const item = record[key];
-    if (typeof item === 'string') {
-      if (LONE_SURROGATE.test(item)) return [...path, key];
-      record[key] = item.normalize('NFC');
-    } else if (item !== null && typeof item === 'object') {
-      const bad = normaliseInPlace(item, [...path, key]);
-      if (bad) return bad;
     }
   }
   return null;
@@ -51,7 +60,7 @@ function check(request: FastifyRequest, part: 'body' | 'query'): void {
     return;
   }
   if (value === null || typeof value !== 'object') return;
-  const bad = normaliseInPlace(value, []);
+  const bad = normaliseInPlace(value as Record<string, unknown>);
   if (bad === null) return;
   const where = describePath(`/${bad.join('/')}`, part === 'body' ? request : undefined);
   throw loneSurrogate(part === 'body' ? where : `query.${where}`);

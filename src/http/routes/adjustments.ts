@@ -1,9 +1,11 @@
 /** /v1/meters/{id}/adjustments: non-routine adjustments of a meter's reporting period. */
+import { z } from 'zod';
 import type { RouteDeps } from '../app.js';
 import { createAdjustment, listAdjustments, withdrawAdjustment } from '../../services/adjustments.js';
-import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
+import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageQuery } from '../schemas/common.js';
 import { adjustmentList, adjustmentSchema, createAdjustmentBody, withdrawAdjustmentBody } from '../schemas/adjustments.js';
 import { serviceContext } from './context.js';
+import { PAGE_SIZES } from '../../services/paging.js';
 import type { ApiApp } from './types.js';
 
 export function adjustmentsRoutes(app: ApiApp, deps: RouteDeps): void {
@@ -52,11 +54,13 @@ export function adjustmentsRoutes(app: ApiApp, deps: RouteDeps): void {
       schema: {
         tags: ['adjustments'],
         summary: 'A meter’s non-routine adjustments',
+        description: `By start (withdrawn ones too), in pages (default ${PAGE_SIZES.records.default}, at most ${PAGE_SIZES.records.max}): follow nextCursor.`,
         security: bearer,
         params: idParams,
+        querystring: z.object(pageQuery(PAGE_SIZES.records, 'Adjustments')),
         response: { 200: adjustmentList, ...authProblems },
       },
     },
-    async (request) => listAdjustments(deps.store.db, request.principal!.organisationId, request.params.id),
+    async (request) => listAdjustments(deps.store.db, request.principal!.organisationId, request.params.id, request.query),
   );
 }

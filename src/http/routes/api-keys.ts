@@ -9,9 +9,19 @@ import type { RouteDeps } from '../app.js';
 import { createApiKey, listApiKeys, revokeApiKey } from '../../services/api-keys.js';
 import { IDEMPOTENCY_HEADER } from '../plugins/idempotency.js';
 import { Problem } from '../problem.js';
-import { authProblems, bearer, idParams, idempotencyHeaders, problemSchema, writeProblems } from '../schemas/common.js';
+import {
+  authProblems,
+  bearer,
+  idParams,
+  idempotencyHeaders,
+  problemSchema,
+  writeProblems,
+  pageFields,
+  pageQuery,
+} from '../schemas/common.js';
 import { apiKeySchema, createApiKeyBody, createdApiKeySchema } from '../schemas/api-keys.js';
 import { serviceContext } from './context.js';
+import { PAGE_SIZES } from '../../services/paging.js';
 import type { ApiApp } from './types.js';
 
 /** A preValidation hook: it runs before the idempotency plugin's preHandler, so no replay row is ever written. */
@@ -49,11 +59,13 @@ export function apiKeysRoutes(app: ApiApp, deps: RouteDeps): void {
       schema: {
         tags: ['api-keys'],
         summary: "List the organisation's API keys",
+        description: `Oldest first, in pages (default ${PAGE_SIZES.records.default}, at most ${PAGE_SIZES.records.max}): follow nextCursor.`,
         security: bearer,
-        response: { 200: z.object({ keys: z.array(apiKeySchema) }), ...authProblems },
+        querystring: z.object(pageQuery(PAGE_SIZES.records, 'Keys')),
+        response: { 200: z.object({ keys: z.array(apiKeySchema), ...pageFields }), ...authProblems },
       },
     },
-    async (request) => ({ keys: await listApiKeys(deps.store.db, request.principal!.organisationId) }),
+    async (request) => listApiKeys(deps.store.db, request.principal!.organisationId, request.query),
   );
 
   app.delete(

@@ -14,20 +14,21 @@ export function auditRoutes(app: ApiApp, deps: RouteDeps): void {
         tags: ['audit'],
         summary: "The organisation's audit trail, oldest first",
         description:
-          'Every write, in sequence order: who (API key id or "system"), when, what, and the entity before and after. Page with `after`.',
+          'Every write, in sequence order: who (API key id or "system"), when, what, and the entity before and after. In pages (default 100, at most 1000): follow nextCursor (or pass `next` as `after`).',
         security: bearer,
         querystring: auditQuery,
         response: { 200: auditPageSchema, ...authProblems },
       },
     },
     async (request) => {
-      const { entity, entityId, since, limit, after } = request.query;
+      const { entity, entityId, since, limit, after, cursor } = request.query;
       return listAuditEntries(deps.store.db, request.principal!.organisationId, {
         limit,
         ...(entity !== undefined ? { entityType: entity } : {}),
         ...(entityId !== undefined ? { entityId } : {}),
         ...(since !== undefined ? { since } : {}),
         ...(after !== undefined ? { afterSeq: after } : {}),
+        ...(cursor !== undefined ? { cursor } : {}),
       });
     },
   );

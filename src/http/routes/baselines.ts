@@ -2,7 +2,7 @@
 import { z } from 'zod';
 import type { RouteDeps } from '../app.js';
 import { baselineSignatureSvg, chooseModel, createBaseline, freezeBaseline, getBaseline, listBaselines } from '../../services/baselines.js';
-import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
+import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageQuery } from '../schemas/common.js';
 import {
   baselineHistorySchema,
   baselineSchema,
@@ -12,6 +12,7 @@ import {
   verifiedBaselineSchema,
 } from '../schemas/baselines.js';
 import { serviceContext } from './context.js';
+import { PAGE_SIZES } from '../../services/paging.js';
 import type { ApiApp } from './types.js';
 
 export const SVG_CONTENT_TYPE = 'image/svg+xml; charset=utf-8';
@@ -43,12 +44,14 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
       schema: {
         tags: ['baselines'],
         summary: 'The meter’s baseline history, newest version first',
+        description: `Newest version first, in pages (default ${PAGE_SIZES.records.default}, at most ${PAGE_SIZES.records.max}): follow nextCursor.`,
         security: bearer,
         params: idParams,
+        querystring: z.object(pageQuery(PAGE_SIZES.records, 'Baselines')),
         response: { 200: baselineHistorySchema, ...authProblems },
       },
     },
-    async (request) => ({ baselines: await listBaselines(deps.store.db, request.principal!.organisationId, request.params.id) }),
+    async (request) => listBaselines(deps.store.db, request.principal!.organisationId, request.params.id, request.query),
   );
 
   app.get(

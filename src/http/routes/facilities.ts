@@ -2,9 +2,10 @@
 import { z } from 'zod';
 import type { RouteDeps } from '../app.js';
 import { createFacility, getFacilityRow, listFacilities, toFacility } from '../../services/facilities.js';
-import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
+import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageFields, pageQuery } from '../schemas/common.js';
 import { createFacilityBody, facilitySchema } from '../schemas/facilities.js';
 import { serviceContext } from './context.js';
+import { PAGE_SIZES } from '../../services/paging.js';
 import type { ApiApp } from './types.js';
 
 export function facilitiesRoutes(app: ApiApp, deps: RouteDeps): void {
@@ -31,11 +32,13 @@ export function facilitiesRoutes(app: ApiApp, deps: RouteDeps): void {
       schema: {
         tags: ['facilities'],
         summary: 'List facilities',
+        description: `Oldest first, in pages (default ${PAGE_SIZES.records.default}, at most ${PAGE_SIZES.records.max}): follow nextCursor.`,
         security: bearer,
-        response: { 200: z.object({ facilities: z.array(facilitySchema) }), ...authProblems },
+        querystring: z.object(pageQuery(PAGE_SIZES.records, 'Facilities')),
+        response: { 200: z.object({ facilities: z.array(facilitySchema), ...pageFields }), ...authProblems },
       },
     },
-    async (request) => ({ facilities: await listFacilities(deps.store.db, request.principal!.organisationId) }),
+    async (request) => listFacilities(deps.store.db, request.principal!.organisationId, request.query),
   );
 
   app.get(

@@ -14,7 +14,10 @@ import { adjustmentsRoutes } from './adjustments.js';
 import { ratesRoutes } from './rates.js';
 import { contractsRoutes } from './contracts.js';
 import { normalYearsRoutes } from './normal-years.js';
+import { weatherImportsRoutes } from './weather-imports.js';
+import { weatherGapsRoutes } from './weather-gaps.js';
 import { reportsRoutes } from './reports.js';
+import { statementsRoutes } from './statements.js';
 import type { ApiApp } from './types.js';
 
 export async function registerRoutes(app: ApiApp, deps: RouteDeps): Promise<void> {
@@ -24,6 +27,8 @@ export async function registerRoutes(app: ApiApp, deps: RouteDeps): Promise<void
   metersRoutes(app, deps);
   readingsRoutes(app, deps);
   observationsRoutes(app, deps);
+  weatherImportsRoutes(app, deps);
+  weatherGapsRoutes(app, deps);
   baselinesRoutes(app, deps);
   savingsRoutes(app, deps);
   adjustmentsRoutes(app, deps);
@@ -31,6 +36,7 @@ export async function registerRoutes(app: ApiApp, deps: RouteDeps): Promise<void
   contractsRoutes(app, deps);
   normalYearsRoutes(app, deps);
   reportsRoutes(app, deps);
+  statementsRoutes(app, deps);
   auditRoutes(app, deps);
   apiKeysRoutes(app, deps);
 }

@@ -2,9 +2,10 @@
 import { z } from 'zod';
 import type { RouteDeps } from '../app.js';
 import { createMeter, getMeterRow, listMeters, listOrganisationMeters, toMeter } from '../../services/meters.js';
-import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
+import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageFields, pageQuery } from '../schemas/common.js';
 import { createMeterBody, listMetersQuery, meterSchema } from '../schemas/meters.js';
 import { serviceContext } from './context.js';
+import { PAGE_SIZES } from '../../services/paging.js';
 import type { ApiApp } from './types.js';
 
 export function metersRoutes(app: ApiApp, deps: RouteDeps): void {
@@ -32,12 +33,14 @@ export function metersRoutes(app: ApiApp, deps: RouteDeps): void {
       schema: {
         tags: ['meters'],
         summary: "List a facility's meters",
+        description: `Oldest first, in pages (default ${PAGE_SIZES.records.default}, at most ${PAGE_SIZES.records.max}): follow nextCursor.`,
         security: bearer,
         params: idParams,
-        response: { 200: z.object({ meters: z.array(meterSchema) }), ...authProblems },
+        querystring: z.object(pageQuery(PAGE_SIZES.records, 'Meters')),
+        response: { 200: z.object({ meters: z.array(meterSchema), ...pageFields }), ...authProblems },
       },
     },
-    async (request) => ({ meters: await listMeters(deps.store.db, request.principal!.organisationId, request.params.id) }),
+    async (request) => listMeters(deps.store.db, request.principal!.organisationId, request.params.id, request.query),
   );
 
   app.get(
@@ -47,14 +50,13 @@ export function metersRoutes(app: ApiApp, deps: RouteDeps): void {
       schema: {
         tags: ['meters'],
         summary: "List the organisation's meters",
-        description:
-          'Every meter of every facility (optionally one facility), oldest first: what a billing system needs to map its accounts to meter ids. Open to every role, the integration role included.',
+        description: `Every meter of every facility (optionally one facility), oldest first, in pages (default ${PAGE_SIZES.records.default}, at most ${PAGE_SIZES.records.max}): what a billing system needs to map its accounts to meter ids. Open to every role, the integration role included.`,
         security: bearer,
-        querystring: listMetersQuery,
-        response: { 200: z.object({ meters: z.array(meterSchema) }).meta({ id: 'MeterList' }), ...authProblems },
+        querystring: listMetersQuery.extend(pageQuery(PAGE_SIZES.records, 'Meters')),
+        response: { 200: z.object({ meters: z.array(meterSchema), ...pageFields }).meta({ id: 'MeterList' }), ...authProblems },
       },
     },
-    async (request) => ({ meters: await listOrganisationMeters(deps.store.db, request.principal!.organisationId, request.query) }),
+    async (request) => listOrganisationMeters(deps.store.db, request.principal!.organisationId, request.query),
   );
 
   app.get(

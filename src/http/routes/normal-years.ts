@@ -1,8 +1,8 @@
 /** /v1/weather-stations/{id}/normal-year: the station's normal year for normalised savings (JSON or CSV). */
 import type { RouteDeps } from '../app.js';
-import { getNormalYear, putNormalYear } from '../../services/normal-years.js';
+import { getNormalYear, normalYearFromStationHistory, putNormalYear } from '../../services/normal-years.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
-import { normalYearSchema, putNormalYearBody } from '../schemas/normal-years.js';
+import { normalYearFromHistoryBody, normalYearSchema, putNormalYearBody } from '../schemas/normal-years.js';
 import { serviceContext } from './context.js';
 import { recordLocator } from './readings.js';
 import type { ApiApp } from './types.js';
@@ -25,6 +25,25 @@ export function normalYearsRoutes(app: ApiApp, deps: RouteDeps): void {
       },
     },
     async (request) => putNormalYear(serviceContext(request, deps), request.params.id, request.body, recordLocator(request, 'days')),
+  );
+
+  app.post(
+    '/v1/weather-stations/:id/normal-year/from-history',
+    {
+      config: { permission: 'ledger' },
+      schema: {
+        tags: ['weather'],
+        summary: 'Build the station’s normal year from its own record',
+        description:
+          'The mean of each calendar day over fromYear..toYear (29 February folded into 28 February), smoothed by a centred moving mean of windowDays (default 15), stored as the station’s normal year with a source that says so. Every calendar day needs at least 80% of the years on record (422 naming the days short of it).',
+        security: bearer,
+        params: idParams,
+        headers: idempotencyHeaders,
+        body: normalYearFromHistoryBody,
+        response: { 200: normalYearSchema, ...writeProblems },
+      },
+    },
+    async (request) => normalYearFromStationHistory(serviceContext(request, deps), request.params.id, request.body),
   );
 
   app.get(

@@ -3,7 +3,8 @@ import type { RouteDeps } from '../app.js';
 import { listObservations, putObservations } from '../../services/observations.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
 import { observationsList, putObservationsBody, putObservationsResult } from '../schemas/observations.js';
-import { dateRangeQuery } from '../schemas/readings.js';
+import { seriesQuery } from '../schemas/readings.js';
+import { PAGE_SIZES } from '../../services/paging.js';
 import { serviceContext } from './context.js';
 import { recordLocator } from './readings.js';
 import type { ApiApp } from './types.js';
@@ -36,10 +37,10 @@ export function observationsRoutes(app: ApiApp, deps: RouteDeps): void {
       schema: {
         tags: ['weather'],
         summary: "A station's observations",
-        description: 'Days in [from, to), by date.',
+        description: `Days in [from, to), by date, in pages (default ${PAGE_SIZES.series.default}, at most ${PAGE_SIZES.series.max}): follow nextCursor until it is null.`,
         security: bearer,
         params: idParams,
-        querystring: dateRangeQuery,
+        querystring: seriesQuery('Observations'),
         response: { 200: observationsList, ...authProblems },
       },
     },

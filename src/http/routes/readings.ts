@@ -4,8 +4,9 @@ import type { RouteDeps } from '../app.js';
 import { listReadings, postReadings, type RecordLocator } from '../../services/readings.js';
 import { describePath } from '../plugins/problems.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
-import { dateRangeQuery, postReadingsBody, postReadingsQuery, postReadingsResult, readingsList } from '../schemas/readings.js';
+import { postReadingsBody, seriesQuery, postReadingsQuery, postReadingsResult, readingsList } from '../schemas/readings.js';
 import { serviceContext } from './context.js';
+import { PAGE_SIZES } from '../../services/paging.js';
 import type { ApiApp } from './types.js';
 
 /** Names a record as a JSON path, or as its CSV row when the body came as CSV. */
@@ -51,10 +52,10 @@ export function readingsRoutes(app: ApiApp, deps: RouteDeps): void {
       schema: {
         tags: ['readings'],
         summary: "A meter's readings",
-        description: 'Readings whose period overlaps [from, to), by start.',
+        description: `Readings whose period overlaps [from, to), by start, in pages (default ${PAGE_SIZES.series.default}, at most ${PAGE_SIZES.series.max}): follow nextCursor until it is null.`,
         security: bearer,
         params: idParams,
-        querystring: dateRangeQuery,
+        querystring: seriesQuery('Readings'),
         response: { 200: readingsList, ...authProblems },
       },
     },

@@ -2,9 +2,12 @@
 import { z } from 'zod';
 import type { RouteDeps } from '../app.js';
 import { createStation, getStationRow, listStations, toStation } from '../../services/weather-stations.js';
-import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
-import { createStationBody, stationSchema } from '../schemas/weather-stations.js';
+import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageFields, pageQuery } from '../schemas/common.js';
+import { createStationBody, stationRecordSchema, stationSchema } from '../schemas/weather-stations.js';
+import { dateRangeQuery } from '../schemas/readings.js';
+import { stationRecordSummary } from '../../services/station-records.js';
 import { serviceContext } from './context.js';
+import { PAGE_SIZES } from '../../services/paging.js';
 import type { ApiApp } from './types.js';
 
 export function weatherStationRoutes(app: ApiApp, deps: RouteDeps): void {
@@ -31,11 +34,13 @@ export function weatherStationRoutes(app: ApiApp, deps: RouteDeps): void {
       schema: {
         tags: ['weather'],
         summary: 'List weather stations',
+        description: `Oldest first, in pages (default ${PAGE_SIZES.records.default}, at most ${PAGE_SIZES.records.max}): follow nextCursor.`,
         security: bearer,
-        response: { 200: z.object({ stations: z.array(stationSchema) }), ...authProblems },
+        querystring: z.object(pageQuery(PAGE_SIZES.records, 'Stations')),
+        response: { 200: z.object({ stations: z.array(stationSchema), ...pageFields }), ...authProblems },
       },
     },
-    async (request) => ({ stations: await listStations(deps.store.db, request.principal!.organisationId) }),
+    async (request) => listStations(deps.store.db, request.principal!.organisationId, request.query),
   );
 
   app.get(
@@ -51,5 +56,23 @@ export function weatherStationRoutes(app: ApiApp, deps: RouteDeps): void {
       },
     },
     async (request) => toStation(await getStationRow(deps.store.db, request.principal!.organisationId, request.params.id)),
+  );
+
+  app.get(
+    '/v1/weather-stations/:id/record',
+    {
+      config: { permission: 'read' },
+      schema: {
+        tags: ['weather'],
+        summary: 'The station’s record at a glance',
+        description:
+          'Over [from, to) (default: all of it): the span, days observed, filled (by method) and missing, per calendar year, the extremes and days outside plausible bounds, so the engineer sees whether it is fit for a baseline.',
+        security: bearer,
+        params: idParams,
+        querystring: dateRangeQuery,
+        response: { 200: stationRecordSchema, ...authProblems },
+      },
+    },
+    async (request) => stationRecordSummary(deps.store.db, request.principal!.organisationId, request.params.id, request.query),
   );
 }

@@ -1,7 +1,7 @@
 /** Non-routine adjustments: the body of a new one and the stored record. */
 import { z } from 'zod';
 import { beyondBoundPerDay, boundText, MAX_USE_PER_DAY } from '../../engine/index.js';
-import { boundedNumber, finite, isoDate, plainText } from './common.js';
+import { boundedNumber, finite, isoDate, plainText, pageFields } from './common.js';
 
 export const createAdjustmentBody = z
   .object({
@@ -66,5 +66,5 @@ export const withdrawAdjustmentBody = z
   .strict();
 
 export const adjustmentList = z
-  .object({ meterId: z.string(), unit: z.string(), adjustments: z.array(adjustmentSchema) })
+  .object({ meterId: z.string(), unit: z.string(), adjustments: z.array(adjustmentSchema), ...pageFields })
   .meta({ id: 'Adjustments' });

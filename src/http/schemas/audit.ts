@@ -26,7 +26,13 @@ export const auditQuery = z
       .refine(isDateOrDateTime, 'must be a date (YYYY-MM-DD) or a date-time with an offset (2026-01-31T12:00:00Z)')
       .optional()
       .describe('Only rows written at or after this time; a date means its midnight UTC'),
-    limit: z.coerce.number().int('must be a whole number').min(1, 'must be at least 1').max(1000, 'must be at most 1000').default(100),
+    limit: z.coerce
+      .number()
+      .int('must be a whole number')
+      .min(1, 'must be at least 1')
+      .max(1000, 'must be at most 1000')
+      .default(100)
+      .describe('Rows per page: default 100, at most 1000'),
     after: z.coerce
       .number()
       .int('must be a whole number')
@@ -34,6 +40,11 @@ export const auditQuery = z
       .max(Number.MAX_SAFE_INTEGER, `must be at most ${Number.MAX_SAFE_INTEGER}`)
       .optional()
       .describe('Continue after this sequence number (the `next` of the previous page)'),
+    cursor: plainText()
+      .min(1, 'must not be empty')
+      .max(1000, 'must be at most 1000 characters')
+      .optional()
+      .describe('The nextCursor of the previous page, unchanged (the same place as `after`)'),
   })
   .strict();
 
@@ -56,6 +67,8 @@ export const auditPageSchema = z
   .object({
     entries: z.array(auditEntrySchema),
     next: z.number().int().optional().describe('Pass as `after` to get the next page; absent on the last page'),
+    limit: z.number().int().describe('The page size used (the limit asked for, or the default 100)'),
+    nextCursor: z.string().nullable().describe('Pass as cursor to get the next page (the same place as `next`); null on the last page'),
   })
   .meta({ id: 'AuditPage' });
 

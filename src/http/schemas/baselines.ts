@@ -1,7 +1,7 @@
 /** Baselines: request bodies and the fit document as the API returns it. */
 import { z } from 'zod';
 import { MAX_POINTS_PER_SEGMENT, MODEL_NAMES, TEMPERATURE_FORMS } from '../../engine/index.js';
-import { isoDate, plainText } from './common.js';
+import { isoDate, plainText, pageFields } from './common.js';
 
 /** A statistic: JSON has no NaN or Infinity, so a non-finite value is sent as null. */
 export const stat = z.number().nullable();
@@ -241,4 +241,4 @@ export const verifiedBaselineSchema = z
   })
   .meta({ id: 'VerifiedBaseline' });
 
-export const baselineHistorySchema = z.object({ baselines: z.array(baselineSummarySchema) }).meta({ id: 'BaselineHistory' });
+export const baselineHistorySchema = z.object({ baselines: z.array(baselineSummarySchema), ...pageFields }).meta({ id: 'BaselineHistory' });

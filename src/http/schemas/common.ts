@@ -76,3 +76,32 @@ export const idempotencyHeaders = z.object({
     .optional()
     .describe('Replays return the first response; a different request with the same key is refused (422).'),
 });
+
+/** Lists answer in pages (services/paging.ts): how many rows, and where the previous page ended. */
+export function pageQuery(sizes: { readonly default: number; readonly max: number }, what: string) {
+  return {
+    limit: z.coerce
+      .number()
+      .int('must be a whole number')
+      .min(1, 'must be at least 1')
+      .max(sizes.max, `must be at most ${sizes.max}`)
+      .default(sizes.default)
+      .describe(`${what} per page: default ${sizes.default}, at most ${sizes.max}`),
+    cursor: plainText()
+      .min(1, 'must not be empty')
+      .max(1000, 'must be at most 1000 characters')
+      .optional()
+      .describe('The nextCursor of the previous page, unchanged; omit for the first page'),
+  };
+}
+
+/** What every page adds beside its list. */
+export const pageFields = {
+  limit: z.number().int().describe('The page size used (the limit asked for, or the default)'),
+  nextCursor: z
+    .string()
+    .nullable()
+    .describe(
+      'Pass as cursor to get the next page; null on the last page. A list longer than the page size is never answered whole: follow nextCursor until it is null.',
+    ),
+};

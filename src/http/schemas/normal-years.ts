@@ -37,3 +37,18 @@ export const normalYearSchema = z
     updatedAt: z.string(),
   })
   .meta({ id: 'NormalYear' });
+
+export const normalYearFromHistoryBody = z
+  .object({
+    fromYear: z.number().int().min(1800, 'must be 1800 to 2200').max(2200, 'must be 1800 to 2200').describe('First calendar year'),
+    toYear: z.number().int().min(1800, 'must be 1800 to 2200').max(2200, 'must be 1800 to 2200').describe('Last calendar year, included'),
+    windowDays: z
+      .number()
+      .int()
+      .min(1, 'must be an odd number of days from 1 to 61')
+      .max(61, 'must be an odd number of days from 1 to 61')
+      .refine((n) => n % 2 === 1, 'must be an odd number of days from 1 to 61')
+      .optional()
+      .describe('Width of the centred moving mean that smooths the calendar-day means (odd; default 15)'),
+  })
+  .strict();

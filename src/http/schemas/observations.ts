@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { finite, isoDate } from './common.js';
+import { finite, isoDate, pageFields } from './common.js';
 import { temperatureUnit } from './weather-stations.js';
 import { MAX_BATCH } from './readings.js';
 
@@ -34,9 +34,19 @@ export const putObservationsResult = z
   .meta({ id: 'ObservationsPut' });
 
 export const observation = z
-  .object({ date: z.string(), temp: z.number(), tmin: z.number().nullable(), tmax: z.number().nullable() })
+  .object({
+    date: z.string(),
+    temp: z.number(),
+    tmin: z.number().nullable(),
+    tmax: z.number().nullable(),
+    filled: z
+      .enum(['interpolation', 'second-station'])
+      .nullable()
+      .describe('How a day without an observation was filled on record; null for an observed day'),
+    fillNote: z.string().nullable().describe('What a filled day was filled from; null for an observed day'),
+  })
   .meta({ id: 'Observation' });
 
 export const observationsList = z
-  .object({ stationId: z.string(), temperatureUnit, observations: z.array(observation) })
+  .object({ stationId: z.string(), temperatureUnit, observations: z.array(observation), ...pageFields })
   .meta({ id: 'Observations' });

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { boundText, MAX_COST_PER_DAY, MAX_USE_PER_DAY } from '../../engine/index.js';
-import { finite, isoDate, plainText } from './common.js';
+import { finite, isoDate, pageFields, pageQuery, plainText } from './common.js';
+import { PAGE_SIZES } from '../../services/paging.js';
 
 /** Largest batch in one request; the service enforces the same limit. */
 export const MAX_BATCH = 50_000;
@@ -65,4 +66,9 @@ export const storedReading = z
   })
   .meta({ id: 'Reading' });
 
-export const readingsList = z.object({ meterId: z.string(), unit: z.string(), readings: z.array(storedReading) }).meta({ id: 'Readings' });
+export const readingsList = z
+  .object({ meterId: z.string(), unit: z.string(), readings: z.array(storedReading), ...pageFields })
+  .meta({ id: 'Readings' });
+
+/** A date range and a page of a series (readings, observations). */
+export const seriesQuery = (what: string) => z.object({ ...dateRangeQuery.shape, ...pageQuery(PAGE_SIZES.series, what) });

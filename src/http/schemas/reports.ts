@@ -32,7 +32,7 @@ export const reportQuery = z
       .number()
       .refine((value) => (CONFIDENCE_LEVELS as readonly number[]).includes(value), `must be one of ${confidenceText}`)
       .optional()
-      .describe(`Two-sided confidence of every ±: ${confidenceText} (default 0.68)`),
+      .describe(`Two-sided confidence of every ±: ${confidenceText} (default: the level the contract names, 0.9 without one)`),
   })
   .strict();
 

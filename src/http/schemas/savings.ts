@@ -116,6 +116,18 @@ export const savingsSchema = z
     baselineId: z.string(),
     baselineVersion: z.number().int(),
     baselineContentHash: z.string(),
+    weatherFills: z
+      .array(
+        z.object({
+          start: z.string(),
+          end: z.string(),
+          days: z.number().int(),
+          interpolation: z.number().int(),
+          secondStation: z.number().int(),
+          summary: z.string().describe('e.g. "3 of 31 days filled by interpolation"'),
+        }),
+      )
+      .describe('Reporting periods whose weather includes days filled on record, by method'),
   })
   .meta({
     id: 'Savings',

@@ -9,8 +9,8 @@ import { text } from './markup.js';
 
 const POLICY = "default-src 'none'; style-src 'unsafe-inline'; img-src data:";
 
-/** Wrap the body markup in a complete document with the given (escaped) title. */
-export function htmlDocument(title: string, body: string): string {
+/** Wrap the body markup in a complete document with the given (escaped) title; `extraCss` follows the report's style sheet. */
+export function htmlDocument(title: string, body: string, extraCss = ''): string {
   return [
     '<!DOCTYPE html>',
     '<html lang="en">',
@@ -19,7 +19,7 @@ export function htmlDocument(title: string, body: string): string {
     `<meta http-equiv="Content-Security-Policy" content="${POLICY}">`,
     '<meta name="viewport" content="width=device-width, initial-scale=1">',
     `<title>${text(title)}</title>`,
-    `<style>${REPORT_CSS}</style>`,
+    `<style>${REPORT_CSS}${extraCss}</style>`,
     '</head>',
     '<body>',
     body,

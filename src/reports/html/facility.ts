@@ -63,6 +63,7 @@ function contractBlock(facility: FacilityReport): string {
         });
   return [
     facts([
+      ...contractIdentification(contract),
       ['Contract start', text(contract.start)],
       ['Term', text(`${contract.years} year${contract.years === 1 ? '' : 's'}`)],
       ['Guarantee energy unit', text(contract.energyUnit)],
@@ -70,6 +71,18 @@ function contractBlock(facility: FacilityReport): string {
     ]),
     schedule,
   ].join('\n');
+}
+
+/** The contract's reference, parties, M&V plan and option, and its confidence level, where the contract states them. */
+function contractIdentification(contract: NonNullable<FacilityReport['contract']>): [string, string][] {
+  const rows: [string, string][] = [];
+  rows.push(['Contract reference', text(contract.reference ?? 'not stated on the contract')]);
+  for (const party of contract.parties ?? []) rows.push([`Party (${party.role})`, text(party.name)]);
+  const option = contract.mvOption ? `, IPMVP option ${contract.mvOption}` : '';
+  rows.push(['M&V plan', text(contract.mvPlanReference ? `${contract.mvPlanReference}${option}` : `not stated on the contract${option}`)]);
+  if (contract.confidence !== undefined)
+    rows.push(['Confidence level of the contract', text(`${Math.round(contract.confidence * 100)}% two-sided`)]);
+  return rows;
 }
 
 function guaranteeBlocks(facility: FacilityReport, confidenceLabel: string): string[] {

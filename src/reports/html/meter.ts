@@ -6,7 +6,8 @@
  */
 import type { FacilityReport, MeterReport } from '../savings-report.js';
 import { decimalsFor, formatNumber, formatPercent, NO_VALUE, rateDecimals } from '../format.js';
-import { code, facts, numberCell, table, tag, text, totalCell } from './markup.js';
+import { cell, code, facts, numberCell, table, tag, text, totalCell } from './markup.js';
+import { shapeName } from '../shape-names.js';
 import { meterCharts } from './meter-charts.js';
 import { meterFindings } from './meter-details.js';
 
@@ -68,13 +69,18 @@ function baselineFacts(meter: MeterReport): string {
       ? 'day-resolved: each bill against the mean over its days of the daily response (variable-base degree-days)'
       : 'mean: each period at its mean temperature';
   const rows: [string, string][] = [
-    ['Frozen baseline', `${text(`${b.model} model, version ${b.version}, ${b.start} to ${b.end} (end exclusive)`)}`],
+    [
+      'Frozen baseline',
+      `${text(`${b.modelName ?? shapeName(b.model)} model, version ${b.version}, ${b.start} to ${b.end} (end exclusive)`)}`,
+    ],
+    ['Weather station', `${text(meter.weatherStationName ?? '')} ${code(meter.weatherStationId)}`],
     ['Temperature form', tag('span', { 'data-temperature-form': b.temperatureForm }, text(form))],
     [
       'Baseline temperature range',
       text(`${formatNumber(b.temperatureRange.min, 1)} to ${formatNumber(b.temperatureRange.max, 1)}${degree === '' ? '' : ` ${degree}`}`),
     ],
     ['CV(RMSE)', text(`${formatPercent(b.cvrmse)}; ASHRAE Guideline 14: ${g14}`)],
+    ...(b.nmbe !== undefined ? [['NMBE', text(formatPercent(b.nmbe, 3))] as [string, string]] : []),
     ['Baseline id and content hash', `${code(b.id)} ${code(b.contentHash, 'hash')}`],
   ];
   if (meter.notes.length > 0) {
@@ -83,7 +89,47 @@ function baselineFacts(meter: MeterReport): string {
       tag('ul', { class: 'plain baseline-notes' }, meter.notes.map((n) => tag('li', { 'data-baseline-note': 'true' }, text(n))).join('')),
     ]);
   }
-  return facts(rows);
+  if (meter.weatherFills.length > 0) {
+    rows.push([
+      'Filled weather',
+      tag(
+        'ul',
+        { class: 'plain weather-fills' },
+        meter.weatherFills.map((f) => tag('li', { 'data-weather-fill': 'true' }, text(`${f.start} to ${f.end}: ${f.summary}`))).join(''),
+      ),
+    ]);
+  }
+  return facts(rows) + modelTable(meter);
+}
+
+/** The frozen model's coefficients and changepoints, each with its standard error. */
+function modelTable(meter: MeterReport): string {
+  const b = meter.baseline;
+  if (b === null || (b.coefficients === undefined && b.changepoints === undefined)) return '';
+  const degree = degreeOf(meter);
+  const perDay = `${meter.unit} per day`;
+  const unitOf = (name: string) => (/slope/i.test(name) ? `${perDay} per ${degree}` : perDay);
+  const value = (x: number | null) => (x === null ? NO_VALUE : formatNumber(x, decimalsFor([x]) + 1));
+  const rows = [
+    ...(b.coefficients ?? []).map((c) => [
+      cell(c.name),
+      cell(unitOf(c.name)),
+      numberCell(c.estimate, value(c.estimate)),
+      numberCell(c.standardError, value(c.standardError)),
+    ]),
+    ...(b.changepoints ?? []).map((c) => [
+      cell(`changepoint ${c.name}`),
+      cell(degree),
+      numberCell(c.estimate, value(c.estimate)),
+      numberCell(c.standardError, value(c.standardError)),
+    ]),
+  ];
+  return table({
+    className: 'compact model-parameters',
+    caption: 'Frozen model: coefficients (slopes as change in use per day per degree) and changepoints',
+    head: ['Parameter', 'Unit', { label: 'Estimate', numeric: true }, { label: 'Standard error', numeric: true }],
+    rows,
+  });
 }
 
 function currencyOf(meter: MeterReport): string {

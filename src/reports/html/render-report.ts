@@ -17,6 +17,11 @@ import { tag } from './markup.js';
 
 /** Render the report as HTML text; a pure function of the report. */
 export function renderReportHtml(report: SavingsReport): string {
+  return htmlDocument(reportTitle(report), renderReportMain(report));
+}
+
+/** The report's main element alone (an issued statement wraps it in its own document). */
+export function renderReportMain(report: SavingsReport): string {
   const confidenceLabel = formatPercent(report.confidence, 0);
   const context = { confidenceLabel, from: report.window.from, to: report.window.to };
   const body = [
@@ -25,5 +30,5 @@ export function renderReportHtml(report: SavingsReport): string {
     ...report.facilities.map((facility) => facilitySection(facility, context)),
     methodsSection(report),
   ].join('\n');
-  return htmlDocument(reportTitle(report), tag('main', { class: 'report', 'data-report-hash': report.contentHash }, body));
+  return tag('main', { class: 'report', 'data-report-hash': report.contentHash }, body);
 }

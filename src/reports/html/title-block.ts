@@ -7,6 +7,12 @@ import type { SavingsReport } from '../savings-report.js';
 import { formatPercent } from '../format.js';
 import { code, facts, tag, text } from './markup.js';
 
+const CONFIDENCE_SOURCES = {
+  request: ' (as requested)',
+  contract: ' (the level the contract names)',
+  default: ' (the default: no contract names a level)',
+} as const;
+
 /** The report's title line, also used as the document title. */
 export function reportTitle(report: SavingsReport): string {
   return `Savings report: ${report.organisation.name}, ${report.window.label}`;
@@ -22,7 +28,12 @@ export function titleBlock(report: SavingsReport): string {
     facts([
       ['Organisation', `${text(report.organisation.name)} ${code(report.organisation.id)}`],
       ['Reporting window', `${text(window.from)} to ${text(window.to)} (end exclusive, ${text(kind)})`],
-      ['Confidence of every ±', text(`${formatPercent(report.confidence, 0)} two-sided`)],
+      [
+        'Confidence of every ±',
+        text(
+          `${formatPercent(report.confidence, 0)} two-sided${CONFIDENCE_SOURCES[report.confidenceSource ?? 'request']}; the ASHRAE Guideline 14 significance verdict is always judged at 68%`,
+        ),
+      ],
       ['Data as of', `audit sequence ${text(String(report.dataAsOf.auditSeq))}, hash ${code(report.dataAsOf.auditHash, 'hash')}`],
       ['Report content hash', code(report.contentHash, 'hash')],
       ['Format', text(`${report.format}, version ${report.version}`)],
