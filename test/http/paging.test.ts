@@ -159,6 +159,7 @@ describe('lists in pages', () => {
         '/v1/audit',
         '/v1/facilities',
         '/v1/facilities/{id}/meters',
+        '/v1/meters',
         '/v1/meters/{id}/adjustments',
         '/v1/meters/{id}/baselines',
         '/v1/meters/{id}/readings',

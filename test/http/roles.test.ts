@@ -109,7 +109,8 @@ function conventionalPermission(op: Operation): Permission {
   // What a billing system reads back to reconcile: the meters and a meter's readings.
   if (op.method === 'get' && /^\/v1\/meters(\/\{id\}(\/readings)?)?$/.test(op.path)) return 'reconcile';
   if (op.method === 'get') return 'read';
-  if (/\/(readings|observations)(\/|$)/.test(op.path)) return 'data';
+  // Station files posted as published are weather data, like observations.
+  if (/\/(readings|observations|imports)(\/|$)/.test(op.path)) return 'data';
   return 'ledger';
 }
 
