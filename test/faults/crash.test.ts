@@ -112,8 +112,15 @@ describe(`crash safety on ${testDialect()}: SIGKILL during writes, restart on th
       if (outcome.kind === 'cut') cutMidRequest++;
 
       base = await restart();
-      const listed = await ok(call(base, 'GET', `${readingsPath}?from=${start}&to=${end}`), 'readings after restart');
-      const found = listed.readings.length as number;
+      // Lists answer in pages (at most 10,000 readings): follow nextCursor to count the whole window.
+      let found = 0;
+      let cursor: string | null = null;
+      do {
+        const page = `${readingsPath}?from=${start}&to=${end}&limit=10000${cursor ? `&cursor=${encodeURIComponent(cursor)}` : ''}`;
+        const listed = await ok(call(base, 'GET', page), 'readings after restart');
+        found += listed.readings.length as number;
+        cursor = listed.nextCursor as string | null;
+      } while (cursor);
       expect([0, BATCH_READINGS], `batch ${k}: ${found} of ${BATCH_READINGS} readings stored`).toContain(found); // all or nothing
       if (outcome.kind === 'answered') {
         expect(outcome.status).toBe(201); // the API contract: new, disjoint readings

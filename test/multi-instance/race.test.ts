@@ -171,7 +171,7 @@ describe.skipIf(!onPostgres)(
       expect(results.map((a) => a.json.created)).toEqual(Array(40).fill(50));
       writes += results.length;
 
-      const stored = await via(0)('GET', `/v1/meters/${meterId}/readings`);
+      const stored = await via(0)('GET', `/v1/meters/${meterId}/readings?limit=10000`);
       expect(stored.json.readings).toHaveLength(sent.length); // 2000: nothing lost
       expect(new Set(stored.json.readings.map((r: any) => r.start)).size).toBe(sent.length); // nothing doubled
       expect(stored.json.readings.reduce((sum: number, r: any) => sum + r.quantity, 0)).toBe(sentTotal); // synthetic: the sum sent
