@@ -23,6 +23,7 @@ describe('loadConfig', () => {
       failedAuthPerMinute: 30,
       requestTimeoutMs: 60_000,
       headersTimeoutMs: 15_000,
+      savingsCacheBytes: 32 * 1024 * 1024,
     });
   });
 
@@ -38,6 +39,7 @@ describe('loadConfig', () => {
       FAILED_AUTH_PER_MINUTE: '5',
       REQUEST_TIMEOUT_MS: '20000',
       HEADERS_TIMEOUT_MS: '5000',
+      SAVINGS_CACHE_MB: '0',
     });
     expect(config).toEqual({
       port: 9001,
@@ -51,6 +53,7 @@ describe('loadConfig', () => {
       failedAuthPerMinute: 5,
       requestTimeoutMs: 20_000,
       headersTimeoutMs: 5_000,
+      savingsCacheBytes: 0,
     });
   });
 
