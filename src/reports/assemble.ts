@@ -105,32 +105,35 @@ export function reportContentHash(report: Omit<SavingsReport, 'contentHash'> | S
 }
 
 function notices(facilities: readonly FacilityReport[]): string[] {
+  return facilities.flatMap(facilityNotices);
+}
+
+/** What a reader must know about one facility: meters without figures, notes, missing rates, extrapolation, partial contract years. */
+export function facilityNotices(facility: FacilityReport): string[] {
   const out: string[] = [];
-  for (const facility of facilities) {
-    for (const meter of facility.meters) {
-      const where = `${facility.name}, ${meter.name}`;
-      if (meter.missing !== null) out.push(`${where}: no figures in this window: ${meter.missing}`);
-      for (const note of meter.notes) out.push(`${where}: ${note}`);
-      if (meter.commonNote !== null) out.push(`${where}: ${meter.commonNote}`);
-      if (meter.missing === null && meter.cost === null) out.push(`${where}: no contract rates: cost avoided is not stated`);
-      for (const gap of meter.missingRates) {
-        if (meter.cost !== null) out.push(`${where}: no contract rate for ${gap.start}..${gap.end}: those periods have no cost avoided`);
-      }
-      if (meter.excluded.length > 0)
-        out.push(`${where}: ${meter.excluded.length} reporting reading(s) left out for want of weather (listed in the meter's section)`);
-      if (meter.extrapolationShare > 0) {
-        out.push(
-          `${where}: ${(meter.extrapolationShare * 100).toFixed(1)}% of the model baseline comes from periods outside the baseline's temperature range (extrapolation)`,
-        );
-      }
+  for (const meter of facility.meters) {
+    const where = `${facility.name}, ${meter.name}`;
+    if (meter.missing !== null) out.push(`${where}: no figures in this window: ${meter.missing}`);
+    for (const note of meter.notes) out.push(`${where}: ${note}`);
+    if (meter.commonNote !== null) out.push(`${where}: ${meter.commonNote}`);
+    if (meter.missing === null && meter.cost === null) out.push(`${where}: no contract rates: cost avoided is not stated`);
+    for (const gap of meter.missingRates) {
+      if (meter.cost !== null) out.push(`${where}: no contract rate for ${gap.start}..${gap.end}: those periods have no cost avoided`);
     }
-    for (const status of facility.guarantees) {
-      if (!status.complete)
-        out.push(
-          `${facility.name}: contract year ${status.contractYear} is not complete: measured through ${status.measuredThrough} against the whole year's guarantee`,
-        );
-      for (const note of status.notes) out.push(`${facility.name}, contract year ${status.contractYear}: ${note}`);
+    if (meter.excluded.length > 0)
+      out.push(`${where}: ${meter.excluded.length} reporting reading(s) left out for want of weather (listed in the meter's section)`);
+    if (meter.extrapolationShare > 0) {
+      out.push(
+        `${where}: ${(meter.extrapolationShare * 100).toFixed(1)}% of the model baseline comes from periods outside the baseline's temperature range (extrapolation)`,
+      );
     }
+  }
+  for (const status of facility.guarantees) {
+    if (!status.complete)
+      out.push(
+        `${facility.name}: contract year ${status.contractYear} is not complete: measured through ${status.measuredThrough} against the whole year's guarantee`,
+      );
+    for (const note of status.notes) out.push(`${facility.name}, contract year ${status.contractYear}: ${note}`);
   }
   return out;
 }

@@ -7,7 +7,7 @@
  * Columns are only ever added at the end, so a reader that counts them keeps
  * working: temperature_form (a meter row's frozen form, daily or mean).
  */
-import type { EnergyTotal, MeterReport, SavingsReport } from './savings-report.js';
+import type { EnergyTotal, FacilityReport, MeterReport, SavingsReport } from './savings-report.js';
 
 export const CSV_COLUMNS = [
   'record',
@@ -39,7 +39,7 @@ export const CSV_COLUMNS = [
 ] as const;
 
 type Column = (typeof CSV_COLUMNS)[number];
-type Row = Partial<Record<Column, string | number | boolean | null>>;
+export type CsvRecord = Partial<Record<Column, string | number | boolean | null>>;
 
 /** A number as plain decimal text: at most six decimals, no exponent, no "-0". */
 export function csvNumber(value: number): string {
@@ -63,7 +63,7 @@ function cell(value: string | number | boolean | null | undefined): string {
   return csvText(value);
 }
 
-function totalRow(total: EnergyTotal): Row {
+function totalRow(total: EnergyTotal): CsvRecord {
   return {
     unit: total.unit,
     actual: total.actual,
@@ -77,17 +77,38 @@ function totalRow(total: EnergyTotal): Row {
 }
 
 export function renderReportCsv(report: SavingsReport): string {
-  const rows: Row[] = [];
   const w = report.window;
-  rows.push({
-    record: 'report',
-    start: w.from,
-    end: w.to,
-    note: `${w.label}; confidence ${report.confidence}; content hash ${report.contentHash}; audit head ${report.dataAsOf.auditSeq} ${report.dataAsOf.auditHash}`,
-  });
+  const rows: CsvRecord[] = [
+    {
+      record: 'report',
+      start: w.from,
+      end: w.to,
+      note: `${w.label}; confidence ${report.confidence}; content hash ${report.contentHash}; audit head ${report.dataAsOf.auditSeq} ${report.dataAsOf.auditHash}`,
+    },
+    ...portfolioRows(report.portfolio, w),
+  ];
+  for (const facility of report.facilities) rows.push(...facilityRows(facility, w));
+  rows.push(...closingRows(report.notices, report.caution));
+  return `${CSV_HEADER}${rows.map(csvLine).join('')}`;
+}
+
+/** The header line, CRLF-terminated. */
+export const CSV_HEADER = `${CSV_COLUMNS.join(',')}\r\n`;
+
+/** One row as a CRLF-terminated line. */
+export function csvLine(row: CsvRecord): string {
+  return `${CSV_COLUMNS.map((column) => cell(row[column])).join(',')}\r\n`;
+}
+
+/** The portfolio's rows: totals in each common unit, then cost by currency. */
+export function portfolioRows(
+  portfolio: Pick<SavingsReport['portfolio'], 'totals' | 'cost'>,
+  w: { from: string; to: string },
+): CsvRecord[] {
+  const rows: CsvRecord[] = [];
   for (const unit of ['MMBtu', 'GJ'] as const)
-    rows.push({ record: 'portfolio', ...totalRow(report.portfolio.totals[unit]), start: w.from, end: w.to });
-  for (const cost of report.portfolio.cost)
+    rows.push({ record: 'portfolio', ...totalRow(portfolio.totals[unit]), start: w.from, end: w.to });
+  for (const cost of portfolio.cost)
     rows.push({
       record: 'portfolio',
       start: w.from,
@@ -96,59 +117,63 @@ export function renderReportCsv(report: SavingsReport): string {
       cost_avoided: cost.avoided,
       cost_uncertainty: cost.uncertainty,
     });
+  return rows;
+}
 
-  for (const facility of report.facilities) {
-    const f = { facility_id: facility.id, facility: facility.name };
-    for (const unit of ['MMBtu', 'GJ'] as const)
-      rows.push({ record: 'facility', ...f, ...totalRow(facility.totals[unit]), start: w.from, end: w.to });
-    for (const cost of facility.cost)
+/** The notice rows and the caution that end the table. */
+export function closingRows(notices: readonly string[], caution: string): CsvRecord[] {
+  return [...notices.map((notice): CsvRecord => ({ record: 'notice', note: notice })), { record: 'caution', note: caution }];
+}
+
+/** One facility's rows: its totals, its guarantees, then each meter's rows. */
+export function facilityRows(facility: FacilityReport, w: { from: string; to: string }): CsvRecord[] {
+  const rows: CsvRecord[] = [];
+  const f = { facility_id: facility.id, facility: facility.name };
+  for (const unit of ['MMBtu', 'GJ'] as const)
+    rows.push({ record: 'facility', ...f, ...totalRow(facility.totals[unit]), start: w.from, end: w.to });
+  for (const cost of facility.cost)
+    rows.push({
+      record: 'facility',
+      ...f,
+      start: w.from,
+      end: w.to,
+      currency: cost.currency,
+      cost_avoided: cost.avoided,
+      cost_uncertainty: cost.uncertainty,
+    });
+  for (const g of facility.guarantees) {
+    const note = `contract year ${g.contractYear}${g.complete ? '' : ', not complete'}`;
+    if (g.energy) {
       rows.push({
-        record: 'facility',
+        record: 'guarantee',
         ...f,
-        start: w.from,
-        end: w.to,
-        currency: cost.currency,
-        cost_avoided: cost.avoided,
-        cost_uncertainty: cost.uncertainty,
+        unit: g.energy.unit,
+        start: g.yearStart,
+        end: g.measuredThrough,
+        savings: g.energy.measured,
+        uncertainty: g.energy.uncertainty,
+        guaranteed: g.energy.guaranteed,
+        difference: g.energy.difference,
+        note,
       });
-    for (const g of facility.guarantees) {
-      const note = `contract year ${g.contractYear}${g.complete ? '' : ', not complete'}`;
-      if (g.energy) {
-        rows.push({
-          record: 'guarantee',
-          ...f,
-          unit: g.energy.unit,
-          start: g.yearStart,
-          end: g.measuredThrough,
-          savings: g.energy.measured,
-          uncertainty: g.energy.uncertainty,
-          guaranteed: g.energy.guaranteed,
-          difference: g.energy.difference,
-          note,
-        });
-      }
-      if (g.cost) {
-        rows.push({
-          record: 'guarantee',
-          ...f,
-          currency: g.cost.currency,
-          start: g.yearStart,
-          end: g.measuredThrough,
-          cost_avoided: g.cost.measured,
-          cost_uncertainty: g.cost.uncertainty,
-          guaranteed: g.cost.guaranteed,
-          difference: g.cost.difference,
-          note,
-        });
-      }
     }
-    for (const meter of facility.meters) rows.push(...meterRows(f, meter, w));
+    if (g.cost) {
+      rows.push({
+        record: 'guarantee',
+        ...f,
+        currency: g.cost.currency,
+        start: g.yearStart,
+        end: g.measuredThrough,
+        cost_avoided: g.cost.measured,
+        cost_uncertainty: g.cost.uncertainty,
+        guaranteed: g.cost.guaranteed,
+        difference: g.cost.difference,
+        note,
+      });
+    }
   }
-  for (const notice of report.notices) rows.push({ record: 'notice', note: notice });
-  rows.push({ record: 'caution', note: report.caution });
-
-  const lines = [CSV_COLUMNS.join(','), ...rows.map((row) => CSV_COLUMNS.map((column) => cell(row[column])).join(','))];
-  return `${lines.join('\r\n')}\r\n`;
+  for (const meter of facility.meters) rows.push(...meterRows(f, meter, w));
+  return rows;
 }
 
 /** The parts of a meter's combined ± when adjustments carry one of their own. */
@@ -163,7 +188,7 @@ function notesText(meter: MeterReport): string {
   return meter.notes.map((note) => `; ${note}`).join('');
 }
 
-function meterRows(f: Row, meter: MeterReport, w: { from: string; to: string }): Row[] {
+function meterRows(f: CsvRecord, meter: MeterReport, w: { from: string; to: string }): CsvRecord[] {
   const m = { ...f, meter_id: meter.id, meter: meter.name };
   const form = meter.baseline?.temperatureForm ?? null;
   if (meter.missing !== null || meter.energy === null) {
@@ -179,7 +204,7 @@ function meterRows(f: Row, meter: MeterReport, w: { from: string; to: string }):
       },
     ];
   }
-  const rows: Row[] = [
+  const rows: CsvRecord[] = [
     {
       record: 'meter',
       ...m,

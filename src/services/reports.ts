@@ -17,6 +17,7 @@ import {
   residualCorrelation,
   type MeterResiduals,
   SIGNIFICANCE_RULE,
+  type DailyTemperature,
   type DateWindow,
   type RateEntry,
   type Reading,
@@ -38,12 +39,13 @@ import type {
 } from '../reports/savings-report.js';
 import type { Kysely } from 'kysely';
 import { readSnapshot } from '../store/connect.js';
-import type { Database, MeterRow } from '../store/schema.js';
+import type { BaselineRow, Database, MeterRow } from '../store/schema.js';
+import type { Selectable } from 'kysely';
 import { signatureChartPoints } from '../reports/svg/signature-points.js';
 import type { Executor } from './context.js';
 import { toContract } from './contracts.js';
 import { getFacilityRow } from './facilities.js';
-import { loadReadings, loadWeatherFor } from './meter-data.js';
+import { loadReadings, loadWeatherFor, type ReadingWindow } from './meter-data.js';
 import { loadSchedule } from './rates.js';
 import { frozenModel, type FrozenModel } from './savings.js';
 
@@ -56,7 +58,8 @@ export interface ReportQuery {
   confidence?: number;
 }
 
-interface MeterContext {
+/** What a report knows of one meter before it looks at the window: its frozen model, rates, adjustments, normal year. */
+export interface MeterContext {
   meter: MeterRow;
   temperatureUnit: TemperatureUnit;
   baseline: { id: string; version: number; contentHash: string; start: string; end: string; temperatureForm: 'daily' | 'mean' } | null;
@@ -66,12 +69,50 @@ interface MeterContext {
   normalYear: { temps: number[]; contentHash: string; source: string } | null;
 }
 
+/**
+ * Where a report's meters read their reporting readings and their station's
+ * weather: one query per meter here, or from rows read for many meters at
+ * once (report-stream.ts). Both must answer exactly what loadReadings and
+ * loadWeatherFor answer.
+ */
+export interface ReportReads {
+  readings(meterId: string, window: ReadingWindow): Promise<Reading[]>;
+  weather(stationId: string, readings: readonly Reading[]): Promise<DailyTemperature[]>;
+}
+
+/** One query per meter and window. */
+export function queryPerMeter(db: Executor): ReportReads {
+  return {
+    readings: (meterId, window) => loadReadings(db, meterId, window),
+    weather: (stationId, readings) => loadWeatherFor(db, stationId, readings),
+  };
+}
+
+/** What a meter's report carries beyond its figures. */
+export interface MeterReportOptions {
+  /** The energy-signature chart's points (the HTML's charts); a streamed report leaves them out (null). */
+  signature: boolean;
+}
+
+const WITH_SIGNATURE: MeterReportOptions = { signature: true };
+
 /** The report, read from one consistent snapshot so every figure and the audit head it names agree. */
 export function savingsReport(db: Kysely<Database>, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
   return readSnapshot(db, (trx) => buildReport(trx, organisationId, query));
 }
 
-async function buildReport(db: Executor, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
+/** What a report is about before any meter is read: the organisation, its facilities in order, their contracts, the window, the audit head. */
+export interface ReportFrame {
+  organisation: { id: string; name: string };
+  facilityRows: { id: string; name: string; address: string | null }[];
+  contracts: Map<string, ContractSummary>;
+  window: ReportWindow;
+  confidence: number;
+  head: { seq: number; hash: string } | undefined;
+}
+
+/** Read the report's frame; a bad window is refused here, before anything is computed. */
+export async function reportFrame(db: Executor, organisationId: string, query: ReportQuery): Promise<ReportFrame> {
   const confidence = query.confidence ?? SIGNIFICANCE_RULE.confidence;
   const organisation = await db
     .selectFrom('organisations')
@@ -109,6 +150,11 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
     .orderBy('seq', 'desc')
     .limit(1)
     .executeTakeFirst();
+  return { organisation, facilityRows, contracts, window, confidence, head };
+}
+
+async function buildReport(db: Executor, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
+  const { organisation, facilityRows, contracts, window, confidence, head } = await reportFrame(db, organisationId, query);
 
   // Every meter's context first: the roll-up's correlation comes from all the report's meters.
   const contextsByFacility = new Map<string, MeterContext[]>();
@@ -129,25 +175,20 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
   const facilities: FacilityInput[] = [];
   for (const facility of facilityRows) {
     const { input, usedNormalYears } = await facilityInWindow(
-      db,
+      queryPerMeter(db),
       facility,
       contextsByFacility.get(facility.id)!,
       contracts.get(facility.id) ?? null,
       window,
       confidence,
       rollup,
+      WITH_SIGNATURE,
     );
     facilities.push(input);
     for (const used of usedNormalYears) normalYears.set(used.stationId, used);
   }
   const reportingMeters = facilities.flatMap((f) => f.meters).filter((m) => m.missing === null).length;
-  if (reportingMeters === 0) {
-    const scope = query.facilityId ? `facility ${query.facilityId}` : 'this organisation';
-    throw new Problem(
-      'unprocessable',
-      `no meter of ${scope} has reporting data in ${window.label} (${window.from}..${window.to}): nothing to report; readings count in the window that holds their midpoint`,
-    );
-  }
+  if (reportingMeters === 0) throw nothingToReport(query, window);
   return assembleReport({
     organisation,
     window,
@@ -159,8 +200,17 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
   });
 }
 
+/** The answer when no meter has figures in the window. */
+export function nothingToReport(query: ReportQuery, window: ReportWindow): Problem {
+  const scope = query.facilityId ? `facility ${query.facilityId}` : 'this organisation';
+  return new Problem(
+    'unprocessable',
+    `no meter of ${scope} has reporting data in ${window.label} (${window.from}..${window.to}): nothing to report; readings count in the window that holds their midpoint`,
+  );
+}
+
 /** A meter's frozen baseline residuals with their periods and its station, for the roll-up's correlation (none without a frozen baseline). */
-function baselineResiduals(ctx: MeterContext): MeterResiduals[] {
+export function baselineResiduals(ctx: Pick<MeterContext, 'model' | 'meter'>): MeterResiduals[] {
   const model = ctx.model;
   if (!model) return [];
   // The fit's residuals are in start-date order; its periods are the aligned baseline readings.
@@ -175,16 +225,17 @@ function baselineResiduals(ctx: MeterContext): MeterResiduals[] {
 }
 
 /** One facility over the window: its meters, and its guarantee status for every contract year the window touches. */
-async function facilityInWindow(
-  db: Executor,
+export async function facilityInWindow(
+  reads: ReportReads,
   facility: { id: string; name: string; address: string | null },
   contexts: readonly MeterContext[],
   contract: ContractSummary | null,
   window: DateWindow,
   confidence: number,
   rollup: Rollup,
+  options: MeterReportOptions,
 ): Promise<{ input: FacilityInput; usedNormalYears: SavingsReport['normalYears'] }> {
-  const meters = await Promise.all(contexts.map((ctx) => meterInWindow(db, ctx, window, confidence)));
+  const meters = await Promise.all(contexts.map((ctx) => meterInWindow(reads, ctx, window, confidence, options)));
   const usedNormalYears = contexts.flatMap((ctx, i) =>
     ctx.normalYear && meters[i]!.normalised.available
       ? [{ stationId: ctx.meter.weather_station_id, contentHash: ctx.normalYear.contentHash, source: ctx.normalYear.source }]
@@ -198,7 +249,7 @@ async function facilityInWindow(
     const sameWindow = yearWindow.from === window.from && through === window.to;
     const yearMeters = sameWindow
       ? meters
-      : await Promise.all(contexts.map((ctx) => meterInWindow(db, ctx, { from: yearWindow.from, to: through }, confidence)));
+      : await Promise.all(contexts.map((ctx) => meterInWindow(reads, ctx, { from: yearWindow.from, to: through }, confidence, options)));
     guarantees.push(
       guaranteeStatus(
         contract!,
@@ -293,9 +344,31 @@ async function meterContext(db: Executor, meter: MeterRow): Promise<MeterContext
     .select('temperature_unit')
     .where('id', '=', meter.weather_station_id)
     .executeTakeFirstOrThrow();
-  return {
+  return meterContextOf({
     meter,
     temperatureUnit: station.temperature_unit,
+    baseline: baseline ?? null,
+    model,
+    schedule,
+    adjustmentRows,
+    normal: normal ?? null,
+  });
+}
+
+/** A meter's context from the rows read for it (one meter at a time above, many at once in report-stream.ts). */
+export function meterContextOf(rows: {
+  meter: MeterRow;
+  temperatureUnit: TemperatureUnit;
+  baseline: Pick<BaselineRow, 'id' | 'version' | 'content_hash' | 'period_start' | 'period_end' | 'temperature_form'> | null;
+  model: FrozenModel | null;
+  schedule: { currency: string | null; rates: RateEntry[] };
+  adjustmentRows: readonly Selectable<Database['adjustments']>[];
+  normal: { temps_json: string; content_hash: string; source: string } | null;
+}): MeterContext {
+  const { meter, baseline, model, schedule, adjustmentRows, normal } = rows;
+  return {
+    meter,
+    temperatureUnit: rows.temperatureUnit,
     baseline: baseline?.content_hash
       ? {
           id: baseline.id,
@@ -326,7 +399,13 @@ async function meterContext(db: Executor, meter: MeterRow): Promise<MeterContext
 }
 
 /** One meter's figures over `window`, or the reason it has none. */
-async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow, confidence: number): Promise<MeterReport> {
+async function meterInWindow(
+  reads: ReportReads,
+  ctx: MeterContext,
+  window: DateWindow,
+  confidence: number,
+  options: MeterReportOptions,
+): Promise<MeterReport> {
   const { meter, baseline, model } = ctx;
   const overlapping = ctx.adjustments.filter((a) => a.start < window.to && a.end > window.from);
   const identity = {
@@ -353,11 +432,11 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     overrides: model.overrides,
   };
   const start = window.from > baseline.end ? window.from : baseline.end;
-  const candidates = await loadReadings(db, meter.id, { startOnOrAfter: baseline.end, startBefore: window.to, endAfter: start });
+  const candidates = await reads.readings(meter.id, { startOnOrAfter: baseline.end, startBefore: window.to, endAfter: start });
   const readings: Reading[] = candidates.filter((r) => inWindowByMidpoint(r, window));
   if (readings.length === 0)
     return missingMeterReport(identity, baselineInfo, `no reporting readings in ${window.from}..${window.to}`, overlapping);
-  const weather = await loadWeatherFor(db, meter.weather_station_id, readings);
+  const weather = await reads.weather(meter.weather_station_id, readings);
   const aligned = alignPeriods(readings, weather, { minCoverage: model.minCoverage });
   let savings: SavingsDocument;
   try {
@@ -399,7 +478,7 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     rates: ctx.rates,
     adjustments: overlapping,
     normalised,
-    signature: signatureData(model, savings, meter.unit),
+    signature: options.signature ? signatureData(model, savings, meter.unit) : null,
     extrapolation,
   });
 }
