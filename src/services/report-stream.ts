@@ -112,8 +112,9 @@ export function streamSavingsReport(
   query: ReportQuery,
   format: StreamFormat,
   sink: ReportSink,
+  facilitiesPerChunk = FACILITY_CHUNK,
 ): Promise<StreamedReportSummary> {
-  return readSnapshotOnce(db, (trx) => writeReport(trx, organisationId, query, format, sink));
+  return readSnapshotOnce(db, (trx) => writeReport(trx, organisationId, query, format, sink, facilitiesPerChunk));
 }
 
 async function writeReport(
@@ -122,10 +123,11 @@ async function writeReport(
   query: ReportQuery,
   format: StreamFormat,
   sink: ReportSink,
+  facilitiesPerChunk: number,
 ): Promise<StreamedReportSummary> {
   const frame = await reportFrame(db, organisationId, query);
   const stations = await stationData(db, organisationId);
-  const chunks = chunk(frame.facilityRows, FACILITY_CHUNK);
+  const chunks = chunk(frame.facilityRows, facilitiesPerChunk);
 
   // Pass 1: the pooled correlation of every meter's baseline residuals, in the report's meter order.
   const pooled = new PooledResidualCorrelation();
