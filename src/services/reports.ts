@@ -96,6 +96,27 @@ export interface MeterReportOptions {
 
 const WITH_SIGNATURE: MeterReportOptions = { signature: true };
 
+/** Above this many meters an organisation's HTML report is made per facility (facilityId): a printable document of thousands of meters helps no reader. */
+export const HTML_METER_LIMIT = 200;
+
+/** Refuse an HTML report of a whole organisation above HTML_METER_LIMIT meters, naming the two ways that work. */
+export async function checkHtmlReportSize(db: Executor, organisationId: string, query: ReportQuery): Promise<void> {
+  if (query.facilityId !== undefined) return;
+  const row = await db
+    .selectFrom('meters')
+    .select((eb) => eb.fn.countAll<number | string>().as('count'))
+    .where('organisation_id', '=', organisationId)
+    .executeTakeFirstOrThrow();
+  const meters = Number(row.count);
+  if (meters > HTML_METER_LIMIT) {
+    throw new Problem(
+      'unprocessable',
+      `facilityId: this organisation has ${meters} meters; above ${HTML_METER_LIMIT} the HTML report is made per facility: give facilityId, or ask GET /v1/reports/savings/stream for the whole organisation as JSON or CSV`,
+      [{ field: 'facilityId', message: `required above ${HTML_METER_LIMIT} meters for format=html` }],
+    );
+  }
+}
+
 /** The report, read from one consistent snapshot so every figure and the audit head it names agree. */
 export function savingsReport(db: Kysely<Database>, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
   return readSnapshot(db, (trx) => buildReport(trx, organisationId, query));
