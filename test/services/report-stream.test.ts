@@ -150,8 +150,8 @@ describe.each([
 
 describe('checkStreamedReport', () => {
   it('refuses a window with no reporting readings before anything is written (422), as the whole report does', async () => {
-    await expect(checkStreamedReport(store.db, organisationId, { quarter: '2031-Q1' })).rejects.toMatchObject({ status: 422 });
-    await expect(savingsReport(store.db, organisationId, { quarter: '2031-Q1' })).rejects.toMatchObject({ status: 422 });
+    await expect(checkStreamedReport(store.db, organisationId, { quarter: '2031-Q1' })).rejects.toMatchObject({ kind: 'unprocessable' });
+    await expect(savingsReport(store.db, organisationId, { quarter: '2031-Q1' })).rejects.toMatchObject({ kind: 'unprocessable' });
     await expect(checkStreamedReport(store.db, organisationId, { quarter: '2025-Q3' })).resolves.toBeUndefined();
   });
 });
