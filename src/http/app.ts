@@ -21,6 +21,7 @@ import { installProblemHandling, sendProblem } from './plugins/problems.js';
 import { installAuth } from './plugins/auth.js';
 import { installIdempotency } from './plugins/idempotency.js';
 import { installCsvBodies } from './plugins/csv-bodies.js';
+import { installWorkbench, type WorkbenchFolders } from './plugins/workbench.js';
 import { registerRoutes } from './routes/index.js';
 import { Problem } from './problem.js';
 
@@ -39,6 +40,8 @@ export interface AppOptions {
   bodyLimit?: number;
   /** Requests per minute per API key (per address without one); 0 or absent: no limit. */
   rateLimitPerMinute?: number;
+  /** Where the /app workbench's files are (default: web/public and dist/web under the package root). */
+  workbench?: WorkbenchFolders;
 }
 
 export const DEFAULT_BODY_LIMIT = 16 * 1024 * 1024;
@@ -140,6 +143,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
   });
   await app.register(swaggerUi, { routePrefix: '/docs', uiConfig: { docExpansion: 'list' } });
 
+  installWorkbench(app, options.workbench);
   app.get('/openapi.json', { schema: { hide: true } }, async () => app.swagger());
   await registerRoutes(app.withTypeProvider<ZodTypeProvider>(), deps);
   return app;

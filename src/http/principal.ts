@@ -11,15 +11,16 @@ export interface Principal {
 /**
  * What a route needs. read: GET ledger data and audit; savings: GET savings;
  * data: post readings and weather observations; ledger: create and change
- * facilities, meters, stations and baselines; keys: manage API keys.
+ * facilities, meters, stations and baselines; keys: manage API keys; self:
+ * see the calling key's own role and permissions (every role has it).
  */
-export type Permission = 'read' | 'savings' | 'data' | 'ledger' | 'keys';
+export type Permission = 'read' | 'savings' | 'data' | 'ledger' | 'keys' | 'self';
 
 export const ROLE_PERMISSIONS: Readonly<Record<Role, readonly Permission[]>> = {
-  admin: ['read', 'savings', 'data', 'ledger', 'keys'],
-  engineer: ['read', 'savings', 'data', 'ledger'],
-  analyst: ['read', 'savings'],
-  integration: ['savings', 'data'],
+  admin: ['read', 'savings', 'data', 'ledger', 'keys', 'self'],
+  engineer: ['read', 'savings', 'data', 'ledger', 'self'],
+  analyst: ['read', 'savings', 'self'],
+  integration: ['savings', 'data', 'self'],
 };
 
 export function allows(role: Role, permission: Permission): boolean {

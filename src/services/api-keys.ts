@@ -129,3 +129,18 @@ export async function revokeKeyAsOperator(db: Kysely<Database>, id: string, at: 
       return { outcome: 'revoked', key: withOrganisation(revoked) };
     });
 }
+
+/** The calling key as it may see itself: its name, role, permissions and organisation (never its secret). */
+export async function describeCaller(
+  db: Executor,
+  principal: { keyId: string; organisationId: string; role: Role },
+  permissions: readonly string[],
+): Promise<{ key: { id: string; name: string; role: Role }; permissions: string[]; organisation: { id: string; name: string } }> {
+  const key = await db.selectFrom('api_keys').select(['id', 'name', 'role']).where('id', '=', principal.keyId).executeTakeFirstOrThrow();
+  const organisation = await db
+    .selectFrom('organisations')
+    .select(['id', 'name'])
+    .where('id', '=', principal.organisationId)
+    .executeTakeFirstOrThrow();
+  return { key, permissions: [...permissions], organisation };
+}

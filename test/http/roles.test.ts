@@ -14,7 +14,10 @@ import type { Role } from '../../src/store/schema.js';
 import { makeTestApi, type CallOptions, type TestApi } from '../support/api.js';
 
 const METHODS = ['get', 'post', 'put', 'patch', 'delete'] as const;
-const PERMISSIONS = Object.keys({ read: 0, savings: 0, data: 0, ledger: 0, keys: 0 } satisfies Record<Permission, 0>) as Permission[];
+const PERMISSIONS = Object.keys({ read: 0, savings: 0, data: 0, ledger: 0, keys: 0, self: 0 } satisfies Record<
+  Permission,
+  0
+>) as Permission[];
 
 interface Operation {
   method: (typeof METHODS)[number];
@@ -91,15 +94,20 @@ function statusOf(op: Operation, caller: Caller): number {
 function observedPermission(op: Operation): Permission | 'mixed' {
   const through = new Set(ROLES.filter((role) => statusOf(op, role) !== 403));
   const fits = PERMISSIONS.filter((p) => ROLES.every((role) => allows(role, p) === through.has(role)));
-  return fits.length === 1 ? fits[0]! : 'mixed';
+  if (fits.length === 1) return fits[0]!;
+  // savings and self are both granted to every role: a route every role passes is told apart by its meaning.
+  const conventional = conventionalPermission(op);
+  return fits.length === 2 && fits.includes('savings') && fits.includes('self') && fits.includes(conventional) ? conventional : 'mixed';
 }
 
 /**
  * The permission a route should need, from the meaning of each permission
  * (src/http/principal.ts): keys for API keys; savings for savings; data to
- * post readings and observations; read for other GETs; ledger for other writes.
+ * post readings and observations; read for other GETs; ledger for other writes;
+ * self for the calling key's own description.
  */
 function conventionalPermission(op: Operation): Permission {
+  if (op.path === '/v1/me') return 'self';
   if (op.path.startsWith('/v1/api-keys')) return 'keys';
   if (/\/savings(\/|$)/.test(op.path)) return 'savings';
   if (op.method === 'get') return 'read';
@@ -173,10 +181,10 @@ describe('the role matrix over every route in the OpenAPI document', () => {
   it('gives the admin role every permission and the others the documented subsets', () => {
     // from src/http/principal.ts, restated so a change to the table is a visible decision
     expect(ROLE_PERMISSIONS).toEqual({
-      admin: ['read', 'savings', 'data', 'ledger', 'keys'],
-      engineer: ['read', 'savings', 'data', 'ledger'],
-      analyst: ['read', 'savings'],
-      integration: ['savings', 'data'],
+      admin: ['read', 'savings', 'data', 'ledger', 'keys', 'self'],
+      engineer: ['read', 'savings', 'data', 'ledger', 'self'],
+      analyst: ['read', 'savings', 'self'],
+      integration: ['savings', 'data', 'self'],
     });
   });
 });

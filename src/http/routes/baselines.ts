@@ -5,12 +5,14 @@ import { baselineSignatureSvg, chooseModel, createBaseline, freezeBaseline, getB
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
 import {
   baselineHistorySchema,
+  baselinePointsSchema,
   baselineSchema,
   chooseBody,
   createBaselineBody,
   freezeBody,
   verifiedBaselineSchema,
 } from '../schemas/baselines.js';
+import { baselinePoints } from '../../services/baseline-points.js';
 import { serviceContext } from './context.js';
 import type { ApiApp } from './types.js';
 
@@ -125,5 +127,22 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
     },
     async (request, reply) =>
       reply.type(SVG_CONTENT_TYPE).send(await baselineSignatureSvg(deps.store.db, request.principal!.organisationId, request.params.id)),
+  );
+
+  app.get(
+    '/v1/baselines/:id/points',
+    {
+      config: { permission: 'read' },
+      schema: {
+        tags: ['baselines'],
+        summary: 'The numbers behind the charts of every fitted shape',
+        description:
+          'Each usable baseline period (dates, days, quantity, use per day, mean temperature), and for every fitted shape its line, its expected use per day of each period and each period’s energy residual: what a client needs to draw all candidates on the energy signature and their residuals against time and temperature, and to show the same numbers in a table.',
+        security: bearer,
+        params: idParams,
+        response: { 200: baselinePointsSchema, ...authProblems },
+      },
+    },
+    async (request) => baselinePoints(deps.store.db, request.principal!.organisationId, request.params.id),
   );
 }

@@ -15,6 +15,7 @@ import { ratesRoutes } from './rates.js';
 import { contractsRoutes } from './contracts.js';
 import { normalYearsRoutes } from './normal-years.js';
 import { reportsRoutes } from './reports.js';
+import { meRoutes } from './me.js';
 import type { ApiApp } from './types.js';
 
 export async function registerRoutes(app: ApiApp, deps: RouteDeps): Promise<void> {
@@ -33,4 +34,5 @@ export async function registerRoutes(app: ApiApp, deps: RouteDeps): Promise<void
   reportsRoutes(app, deps);
   auditRoutes(app, deps);
   apiKeysRoutes(app, deps);
+  meRoutes(app, deps);
 }
