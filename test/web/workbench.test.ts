@@ -183,7 +183,7 @@ describe.skipIf(!available)('the workbench at /app', () => {
     await page.locator(`input[name="shape"][value="${other}"]`).check();
     await page.getByLabel(/^Why this shape/).fill('The simpler shape is easier to defend (invented)');
     await page.getByRole('button', { name: 'Use this shape' }).click();
-    await page.waitForFunction((model) => document.querySelector('.status-line')?.textContent?.includes(`chosen ${model}`), other);
+    await page.locator('.status-line', { hasText: `chosen ${other}` }).waitFor();
 
     // Freeze, through the confirmation that says what freezing means.
     await page.getByRole('button', { name: 'Freeze…' }).click();
@@ -193,7 +193,7 @@ describe.skipIf(!available)('the workbench at /app', () => {
     await checkScreen(page, 'bench-freeze-confirmation');
     await dialog.getByLabel(/^What the freeze rests on/).fill('Clause 4.2 of the M&V plan (invented)');
     await dialog.getByRole('button', { name: /^Freeze version/ }).click();
-    await page.waitForFunction(() => document.querySelector('.status-line')?.textContent?.includes('Frozen'));
+    await page.locator('.status-line', { hasText: 'Frozen' }).waitFor();
     expect(await page.locator('.status-line').textContent()).toMatch(/Content hash [0-9a-f]{64}/);
     expect(await page.getByRole('button', { name: 'Freeze…' }).count()).toBe(0);
 
