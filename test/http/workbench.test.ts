@@ -15,7 +15,7 @@ import { join } from 'node:path';
 import Fastify, { type FastifyInstance } from 'fastify';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { installWorkbench, WORKBENCH_CSP } from '../../src/http/plugins/workbench.js';
-import { ROLE_PERMISSIONS } from '../../src/http/principal.js';
+import { ROLE_PERMISSIONS } from '../../src/domain/principal.js';
 import { ROLES } from '../../src/store/api-keys.js';
 import { makeTestApi, type TestApi } from '../support/api.js';
 import { CLIMATES, SAMPLE_BUILDING, dailyWeather, monthlyReadings, seededRandom } from '../support/synthetic.js';

@@ -2,7 +2,7 @@
 import { z } from 'zod';
 import type { RouteDeps } from '../app.js';
 import { describeCaller } from '../../services/api-keys.js';
-import { ROLE_PERMISSIONS } from '../principal.js';
+import { ROLE_PERMISSIONS } from '../../domain/principal.js';
 import { authProblems, bearer } from '../schemas/common.js';
 import type { ApiApp } from './types.js';
 
