@@ -14,6 +14,7 @@ import { computeSavings, type SavingsOptions } from './savings.js';
 import { cvrmseLimitForReportingMonths, guideline14Check, type Guideline14Limits } from './guideline14.js';
 import type { ShapeFit } from './fit/fit-shape.js';
 import { fitDocument, type FitDocument, type SavingsDocument } from './documents.js';
+import { applyExclusions, type Exclusion } from './exclusions.js';
 
 export * from './types.js';
 export { alignPeriods, indexWeather, DEFAULT_MIN_COVERAGE, type AlignmentOptions } from './periods.js';
@@ -27,7 +28,9 @@ export {
   DEFAULT_SIGNIFICANCE_LEVEL,
   DEFAULT_MIN_POINTS_PER_SEGMENT,
 } from './choose.js';
-export type { BaselineChoice, Candidate, SelectionOptions, Verdict } from './choose.js';
+export type { BaselineChoice, Candidate, SelectionOptions, Verdict, VariableDecision, VariableOverride } from './choose.js';
+export * from './exclusions.js';
+export { variableValues, predictWithVariables, designRowWithVariables } from './fit/variable-columns.js';
 export { fitShape, fitTemperatureForm, periodsHaveDays } from './fit/fit-shape.js';
 export type { ShapeFit, ShapeFitResult, ShapeFitFailure, Coefficient, ChangepointEstimate, FitStatistics } from './fit/fit-shape.js';
 export { designRow, predictPerDay, periodDesignRow, predictPeriodPerDay, type PeriodWeather } from './fit/shape-model.js';
@@ -62,7 +65,11 @@ export interface BaselineAnalysis {
   document: FitDocument;
 }
 
-export type BaselineOptions = AlignmentOptions & SelectionOptions;
+export type BaselineOptions = AlignmentOptions &
+  SelectionOptions & {
+    /** Readings the engineer leaves out, each with its reason (exclusions.ts). */
+    exclusions?: readonly Exclusion[];
+  };
 
 /**
  * Align baseline readings with weather, fit every shape and choose one.
@@ -73,13 +80,20 @@ export function analyseBaseline(
   weather: readonly DailyTemperature[] | ReadonlyMap<string, number>,
   options: BaselineOptions = {},
 ): BaselineAnalysis {
-  const { periods, excluded } = alignPeriods(readings, weather, options);
+  const { kept, applied } = applyExclusions(readings, options.exclusions ?? []);
+  const aligned = alignPeriods(kept, weather, options);
+  const { periods } = aligned;
+  // Coverage exclusions name the reading's index in the caller's list, not in the list left after the engineer's exclusions.
+  const original = readings
+    .map((_, index) => index)
+    .filter((index) => !applied.some((a) => a.start === readings[index]!.start && a.end === readings[index]!.end));
+  const excluded = aligned.excluded.map((e) => ({ ...e, index: original[e.index] ?? e.index }));
   const choice = chooseBaseline(periods, options);
   return {
     periods,
     excluded,
     choice,
-    document: fitDocument(choice, periods.length, excluded, options.minCoverage ?? DEFAULT_MIN_COVERAGE),
+    document: fitDocument(choice, periods.length, excluded, options.minCoverage ?? DEFAULT_MIN_COVERAGE, applied),
   };
 }
 

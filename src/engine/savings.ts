@@ -17,7 +17,7 @@
  */
 import type { ModelName, Period, TemperatureForm } from './types.js';
 import { fitTemperatureForm, type ShapeFit } from './fit/fit-shape.js';
-import { periodDesignRow, predictPeriodPerDay } from './fit/shape-model.js';
+import { designRowWithVariables, fitVariables, predictWithVariables } from './fit/variable-columns.js';
 import { twoSidedTCritical } from './stats/distributions.js';
 import { effectiveSampleSize, exactSavingsVariance, guideline14FractionalUncertainty } from './stats/savings-uncertainty.js';
 import { adjustmentsForPeriod, adjustmentsUncertaintyInPeriods, type NonRoutineAdjustment } from './adjustments.js';
@@ -54,6 +54,8 @@ export interface SavingsPeriod {
   savings: number;
   /** The period's temperature lies outside the baseline's range: the model is extrapolating. */
   outsideBaselineRange: boolean;
+  /** Variables whose value this period lies outside the range the baseline saw (only for models with variables). */
+  outsideVariableRanges?: string[];
 }
 
 export interface Uncertainty {
@@ -91,6 +93,8 @@ export interface SavingsTotals {
   significant: boolean;
   /** Share of the model baseline from periods outside the baseline's temperature range. */
   outsideRangeShare: number;
+  /** Per variable: share of the model baseline from periods whose value lies outside the baseline's range (models with variables only). */
+  outsideVariableRangeShares?: Record<string, number>;
 }
 
 export interface SavingsResult {
@@ -121,8 +125,23 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
   const form = fitTemperatureForm(baseline);
 
   const adjustments = options.adjustments ?? [];
+  const variables = fitVariables(baseline);
+  const missing = ordered.filter((period) => variables.some((name) => !Number.isFinite(period.variables?.[name] ?? Number.NaN)));
+  if (missing.length > 0) {
+    throw new RangeError(
+      `the baseline model uses the variables ${variables.join(', ')}; no values for the reporting periods ${missing
+        .map((period) => `${period.start} to ${period.end}`)
+        .join(', ')}: savings are not computed without them`,
+    );
+  }
+  const ranges = baseline.variableRanges ?? {};
   const periods: SavingsPeriod[] = ordered.map((period) => {
-    const modelBaseline = period.days * predictPeriodPerDay(baseline.model, baseline.changepoints, baseline.rawCoefficients, period, form);
+    const modelBaseline = period.days * predictWithVariables(baseline, period, form);
+    const outsideVariables = variables.filter((name) => {
+      const value = period.variables![name]!;
+      const range = ranges[name];
+      return range !== undefined && (value < range.min || value > range.max);
+    });
     const adjustment = adjustments.length > 0 ? adjustmentsForPeriod(adjustments, period.start, period.end) : 0;
     const adjustedBaseline = modelBaseline + adjustment;
     return {
@@ -136,6 +155,7 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
       adjustedBaseline,
       savings: adjustedBaseline - period.quantity,
       outsideBaselineRange: period.meanTemp < range.min || period.meanTemp > range.max,
+      ...(variables.length > 0 ? { outsideVariableRanges: outsideVariables } : {}),
     };
   });
 
@@ -155,7 +175,7 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
   const nPrime = correct ? effectiveSampleSize(n, rho) : n;
   const rows = ordered.map((period) => ({
     days: period.days,
-    designRow: periodDesignRow(baseline.model, baseline.changepoints, period, form),
+    designRow: designRowWithVariables(baseline.model, baseline.changepoints, period, form, variables),
   }));
   const variance = exactSavingsVariance(baseline.unscaledCovariance, baseline.residualVariance, rows, n / nPrime);
 
@@ -209,6 +229,18 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
       },
       significant: worstAt68 < SIGNIFICANCE_RULE.maxFractionalUncertainty,
       outsideRangeShare: modelBaseline !== 0 ? outside / modelBaseline : 0,
+      ...(variables.length > 0
+        ? {
+            outsideVariableRangeShares: Object.fromEntries(
+              variables.map((name) => [
+                name,
+                modelBaseline !== 0
+                  ? sum(periods.filter((p) => p.outsideVariableRanges!.includes(name)).map((p) => p.modelBaseline)) / modelBaseline
+                  : 0,
+              ]),
+            ),
+          }
+        : {}),
     },
     significance: {
       rule: 'ASHRAE Guideline 14: savings are meaningful when their uncertainty is below 50% of the savings at 68% confidence; judged here by the larger of the two formulas',
