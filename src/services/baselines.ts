@@ -21,6 +21,9 @@ import {
   type ShapeFit,
   type TemperatureForm,
   type TemperatureUnit,
+  type AppliedExclusion,
+  type Exclusion,
+  ExclusionError,
 } from '../engine/index.js';
 import { baselineContentHash, forResponse, fromStoredJson, toStoredJson, verifyBaselineContent } from '../store/baseline-content.js';
 import { newId } from '../store/ids.js';
@@ -30,6 +33,7 @@ import { renderSignatureSvg } from '../reports/svg/signature.js';
 import { signatureChartPoints } from '../reports/svg/signature-points.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getMeterRow } from './meters.js';
+import { readingId } from './readings.js';
 import { loadDailyWeather, loadReadings, loadWeatherFor, stationUnit } from './meter-data.js';
 
 export interface BaselineFitOptions {
@@ -82,6 +86,16 @@ export interface BaselineSummary {
   supersedeReason: string | null;
   createdAt: string;
   createdBy: string;
+  /** Readings the engineer left out, each with its reason (from the fit document, so frozen with it). */
+  exclusions: AppliedExclusion[];
+}
+
+/** An exclusion as the API takes it: the reading by id or by its period, and the reason. */
+export interface ExclusionRequest {
+  readingId?: string;
+  start?: string;
+  end?: string;
+  reason: string;
 }
 
 export interface Baseline extends BaselineSummary {
@@ -155,6 +169,7 @@ function summaryOf(row: BaselineRow, document: FitDocument): BaselineSummary {
     supersedeReason: row.supersede_reason,
     createdAt: row.created_at,
     createdBy: row.created_by,
+    exclusions: document.exclusions ?? [],
   };
 }
 
@@ -222,6 +237,7 @@ function analyseWindow(
   readings: readonly Reading[],
   weather: readonly DailyTemperature[],
   options: BaselineFitOptions,
+  exclusions: readonly Exclusion[] = [],
 ): BaselineAnalysis {
   const span = `${window.start}..${window.end} (end exclusive)`;
   if (readings.length === 0) {
@@ -242,8 +258,11 @@ function analyseWindow(
   }
   const { temperature, ...rest } = options;
   try {
-    return analyseBaseline(readings, weather, { ...rest, temperatureForm: temperature });
+    return analyseBaseline(readings, weather, { ...rest, temperatureForm: temperature, exclusions });
   } catch (error) {
+    if (error instanceof ExclusionError) {
+      throw new Problem('unprocessable', error.message, [{ field: error.field, message: error.message }]);
+    }
     if (!(error instanceof RangeError)) throw error;
     const { excluded } = alignPeriods(readings, weather, options);
     const left =
@@ -258,11 +277,49 @@ function analyseWindow(
   }
 }
 
+/**
+ * The engineer's exclusions named by reading id or period: each must be one
+ * of the meter's readings lying fully inside the window (422 naming the
+ * entry otherwise). The engine checks the rest (reasons, twice, a fifth).
+ */
+async function resolveExclusions(
+  db: Executor,
+  meterId: string,
+  window: { start: string; end: string },
+  requests: readonly ExclusionRequest[],
+): Promise<Exclusion[]> {
+  if (requests.length === 0) return [];
+  const rows = await db
+    .selectFrom('readings')
+    .select(['period_start', 'period_end'])
+    .where('meter_id', '=', meterId)
+    .where('period_start', '>=', window.start)
+    .where('period_end', '<=', window.end)
+    .execute();
+  return requests.map((request, i) => {
+    const field = `exclusions[${i}]`;
+    const row =
+      request.readingId !== undefined
+        ? rows.find((r) => readingId(r.period_start, r.period_end) === request.readingId)
+        : rows.find((r) => r.period_start === request.start && r.period_end === request.end);
+    if (!row) {
+      const what = request.readingId !== undefined ? `reading ${request.readingId}` : `a reading ${request.start}..${request.end}`;
+      const message = `${what} is not one of this meter's readings inside ${window.start}..${window.end} (end exclusive)`;
+      throw new Problem('unprocessable', `${field}: ${message}`, [{ field, message }]);
+    }
+    if (request.readingId !== undefined && request.start !== undefined && (request.start !== row.period_start || request.end !== row.period_end)) {
+      const message = `reading ${request.readingId} covers ${row.period_start}..${row.period_end}, not ${request.start}..${request.end}`;
+      throw new Problem('unprocessable', `${field}: ${message}`, [{ field, message }]);
+    }
+    return { readingId: readingId(row.period_start, row.period_end), start: row.period_start, end: row.period_end, reason: request.reason };
+  });
+}
+
 /** Fit the meter's readings inside [start, end) against its station's weather and keep the result as a draft. */
 export async function createBaseline(
   ctx: ServiceContext,
   meterId: string,
-  input: { start: string; end: string; options?: BaselineFitOptions },
+  input: { start: string; end: string; options?: BaselineFitOptions; exclusions?: readonly ExclusionRequest[] },
 ): Promise<Baseline> {
   const organisationId = ctx.principal.organisationId;
   const db = ctx.store.db;
@@ -274,11 +331,14 @@ export async function createBaseline(
   const temperatureUnit = await stationUnit(db, organisationId, meter.weather_station_id);
   const readings = await loadReadings(db, meter.id, { startOnOrAfter: input.start, endOnOrBefore: input.end });
   const weather = await loadDailyWeather(db, meter.weather_station_id, input.start, input.end);
-  const analysis = analyseWindow(meterId, input, readings, weather, options);
+  const exclusions = await resolveExclusions(db, meter.id, input, input.exclusions ?? []);
+  const analysis = analyseWindow(meterId, input, readings, weather, options, exclusions);
 
   const fits: Partial<Record<ModelName, ShapeFit>> = {};
   for (const candidate of analysis.choice.candidates) if (candidate.fit) fits[candidate.model] = candidate.fit;
-  const inputs: BaselineInputs = { readings, weather, temperatureUnit };
+  // What the fit saw: the readings the engineer left out stay out of the stored inputs (they are recorded in the document's exclusions).
+  const kept = readings.filter((r) => !exclusions.some((e) => e.start === r.start && e.end === r.end));
+  const inputs: BaselineInputs = { readings: kept, weather, temperatureUnit };
 
   return inTransaction(ctx, async (trx) => {
     const last = await trx

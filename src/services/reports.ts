@@ -351,6 +351,7 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     temperatureForm: baseline.temperatureForm,
     sufficiency: { sufficient: model.sufficiency.sufficient, reasons: model.sufficiency.reasons },
     overrides: model.overrides,
+    exclusions: model.exclusions.map((e) => ({ start: e.start, end: e.end, reason: e.reason })),
   };
   const start = window.from > baseline.end ? window.from : baseline.end;
   const candidates = await loadReadings(db, meter.id, { startOnOrAfter: baseline.end, startBefore: window.to, endAfter: start });

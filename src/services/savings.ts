@@ -25,6 +25,7 @@ import {
   type SavingsDocument,
   type TemperatureUnit,
   type ShapeFit,
+  type AppliedExclusion,
 } from '../engine/index.js';
 import { Problem } from '../http/problem.js';
 import type { BaselineRow } from '../store/schema.js';
@@ -57,6 +58,8 @@ export interface FrozenModel {
   temperatureUnit: TemperatureUnit;
   limits: Guideline14Limits;
   excluded: ExcludedPeriod[];
+  /** Baseline readings the engineer left out, each with its reason (frozen in the fit document). */
+  exclusions: AppliedExclusion[];
   minCoverage: number;
   /** Whether the baseline covers a full cycle of seasons. */
   sufficiency: BaselineSufficiency;
@@ -124,6 +127,7 @@ export async function frozenModel(db: Executor, baselineId: string, contentHash:
     temperatureUnit: inputs.temperatureUnit,
     limits: document.settings.guideline14,
     excluded: document.periods.excluded,
+    exclusions: document.exclusions ?? [],
     minCoverage,
     sufficiency: baselineSufficiency(baselinePeriods),
     overrides: overridesOf(row),
