@@ -307,7 +307,11 @@ async function resolveExclusions(
       const message = `${what} is not one of this meter's readings inside ${window.start}..${window.end} (end exclusive)`;
       throw new Problem('unprocessable', `${field}: ${message}`, [{ field, message }]);
     }
-    if (request.readingId !== undefined && request.start !== undefined && (request.start !== row.period_start || request.end !== row.period_end)) {
+    if (
+      request.readingId !== undefined &&
+      request.start !== undefined &&
+      (request.start !== row.period_start || request.end !== row.period_end)
+    ) {
       const message = `reading ${request.readingId} covers ${row.period_start}..${row.period_end}, not ${request.start}..${request.end}`;
       throw new Problem('unprocessable', `${field}: ${message}`, [{ field, message }]);
     }

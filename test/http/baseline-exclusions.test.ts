@@ -29,7 +29,10 @@ afterAll(async () => {
 });
 
 async function seedMeter(): Promise<string> {
-  const station = await api.call('POST', '/v1/weather-stations', { as: 'engineer', body: { name: 'Invented ridge station', temperatureUnit: 'F' } });
+  const station = await api.call('POST', '/v1/weather-stations', {
+    as: 'engineer',
+    body: { name: 'Invented ridge station', temperatureUnit: 'F' },
+  });
   const observations = WEATHER.map((d) => ({ date: d.date, temp: d.temp }));
   await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, { as: 'integration', body: { observations } });
   const facility = await api.call('POST', '/v1/facilities', { as: 'engineer', body: { name: 'Test hall 3 (invented)' } });
@@ -72,7 +75,10 @@ describe('exclusions when fitting a baseline (POST /v1/meters/{id}/baselines)', 
     expect(response.json.fit.candidates[0].sse).toBeCloseTo(engine.document.candidates[0]!.sse!, 6);
 
     const id = response.json.id;
-    const frozen = await api.call('POST', `/v1/baselines/${id}/freeze`, { as: 'engineer', body: { note: 'M&V plan, option C (invented)' } });
+    const frozen = await api.call('POST', `/v1/baselines/${id}/freeze`, {
+      as: 'engineer',
+      body: { note: 'M&V plan, option C (invented)' },
+    });
     expect(frozen.status).toBe(200);
     const read = await api.call('GET', `/v1/baselines/${id}`, { as: 'analyst' });
     expect(read.json.verified).toBe(true);
@@ -86,7 +92,14 @@ describe('exclusions when fitting a baseline (POST /v1/meters/{id}/baselines)', 
     const cases: [unknown, number, string][] = [
       [[{ readingId: '2023-01-05..2023-02-05', reason: 'fault' }], 422, 'exclusions[0]'],
       [[{ readingId: ids[0], reason: '' }], 400, 'reason'],
-      [[{ readingId: ids[0], reason: 'fault' }, { readingId: ids[0], reason: 'again' }], 422, 'exclusions[1]'],
+      [
+        [
+          { readingId: ids[0], reason: 'fault' },
+          { readingId: ids[0], reason: 'again' },
+        ],
+        422,
+        'exclusions[1]',
+      ],
       [ids.slice(0, 5).map((readingId) => ({ readingId, reason: 'doubtful' })), 422, 'more than a fifth'],
       [[{ reason: 'which one?' }], 400, 'readingId'],
     ];

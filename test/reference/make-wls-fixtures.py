@@ -332,10 +332,6 @@ prod_v = vrng.uniform(80.0, 140.0, 36)
 y_v = 300.0 + 9.0 * hinge_h(temps_v, 56.0) + 220.0 * occ_v + 1.6 * prod_v + vrng.normal(0, 14.0, 36)
 vcases.append(variable_case("monthly-3PH-two-variables", "3PH", temps_v, [occ_v, prod_v], ["occupied", "production"],
                             y_v, days_v, 3, "36 bills at their mean temperature; use = 300 + 9(56-T)+ + 220 occ + 1.6 prod + noise"))
-# (v2) the same bills, 5P truth with a cooling branch.
-y_v5 = 260.0 + 8.0 * hinge_h(temps_v, 50.0) + 14.0 * hinge_c(temps_v, 66.0) + 240.0 * occ_v + 1.2 * prod_v + vrng.normal(0, 12.0, 36)
-vcases.append(variable_case("monthly-5P-two-variables", "5P", temps_v, [occ_v, prod_v], ["occupied", "production"],
-                            y_v5, days_v, 3, "36 bills; use = 260 + 8(50-T)+ + 14(T-66)+ + 240 occ + 1.2 prod + noise"))
 # (v3) 120 days, 3PC with two day-type indicators (weekend, holiday), weights 1.
 day_v = np.arange(120)
 temps_d = np.clip(62.0 + 14.0 * np.sin(2 * np.pi * day_v / 120.0) + vrng.normal(0, 4.0, 120), 30.0, 100.0)

@@ -177,9 +177,10 @@ export function fitShape(
   const residuals = energyResiduals({ quantity: ordered.map((q) => q.quantity), days: w, fittedPerDay: regression.fitted, p });
   const autocorrelation = lagOneAutocorrelation(residuals);
   const inflation = ar1VarianceInflation(design, w, autocorrelation);
+  const shapeColumns = coefficientNames(model).length;
   const names = [...coefficientNames(model), ...variables];
   const coefficients: Coefficient[] = regression.coefficients.map((raw, j) => {
-    const sign = slopeSign(model, j);
+    const sign = j < shapeColumns ? slopeSign(model, j) : 1; // variables' coefficients are reported as they are
     return {
       name: names[j]!,
       estimate: sign * raw,

@@ -68,7 +68,9 @@ export const createBaselineBody = z
       .array(exclusionInput)
       .max(1000)
       .optional()
-      .describe('Readings inside the window to leave out of the fit, each with its reason; more than a fifth of the window’s readings is refused (422)'),
+      .describe(
+        'Readings inside the window to leave out of the fit, each with its reason; more than a fifth of the window’s readings is refused (422)',
+      ),
   })
   .strict()
   .refine((body) => body.end > body.start, { path: ['end'], message: 'must be after start' });

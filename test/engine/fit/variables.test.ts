@@ -80,6 +80,13 @@ describe('changepoint shapes with variables against statsmodels (reference libra
       c.bse.forEach((value, j) => expect(fit.coefficients[j]!.standardError / value).toBeCloseTo(1, 5));
       c.tvalues.forEach((value, j) => expect(Math.abs(fit.coefficients[j]!.tStat)).toBeCloseTo(Math.abs(value), 4));
       expect(fit.variables).toEqual(names);
+      // A variable's coefficient is reported as fitted (no slope sign convention applies to it).
+      names.forEach((name, k) => {
+        const j = c.params.length - names.length + k;
+        expect(fit.coefficients[j]!.name).toBe(name);
+        expect(fit.coefficients[j]!.estimate).toBeCloseTo(c.params[j]!, 4);
+        expect(fit.parameters[name]).toBeCloseTo(c.params[j]!, 4);
+      });
       for (const name of names) {
         expect(fit.variableRanges![name]!.min).toBe(Math.min(...c.variables[name]!));
       }
