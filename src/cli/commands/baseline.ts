@@ -1,5 +1,5 @@
 /** The baseline analysis both commands start from, with too-few-periods turned into an input error. */
-import { analyseBaseline, type BaselineAnalysis } from '../../engine/index.js';
+import { analyseBaseline, type BaselineAnalysis, type Exclusion } from '../../engine/index.js';
 import type { CommonOptions } from '../options.js';
 import type { ReadingsFile } from '../input/readings-file.js';
 import type { WeatherFile } from '../input/weather-file.js';
@@ -8,9 +8,15 @@ import { explainTooFewPeriods } from './too-few-periods.js';
 /** The engine's minimum number of usable baseline periods (analyseBaseline throws below it). */
 const MIN_BASELINE_PERIODS = 2;
 
-export function fitBaseline(readings: ReadingsFile, weather: WeatherFile, options: CommonOptions): BaselineAnalysis {
+export function fitBaseline(
+  readings: ReadingsFile,
+  weather: WeatherFile,
+  options: CommonOptions,
+  exclusions: readonly Exclusion[] = [],
+): BaselineAnalysis {
   try {
     return analyseBaseline(readings.readings, weather.weather, {
+      exclusions,
       minCoverage: options.minCoverage,
       significanceLevel: options.significanceLevel,
       minPointsPerSegment: options.minPointsPerSegment,
