@@ -473,13 +473,11 @@ function bodyArb(route: FuzzRoute, ctx: RequestContext): fc.Arbitrary<Body> {
     // Bytes that are not UTF-8 at all, declared as JSON.
     {
       weight: 1,
-      arbitrary: fc
-        .uint8Array({ minLength: 1, maxLength: 64 })
-        .map((bytes) => ({
-          payload: Buffer.concat([Buffer.from('{"name":"'), Buffer.from(bytes), Buffer.from('"}')]),
-          contentType: 'application/json',
-          kind: 'raw-bytes',
-        })),
+      arbitrary: fc.uint8Array({ minLength: 1, maxLength: 64 }).map((bytes) => ({
+        payload: Buffer.concat([Buffer.from('{"name":"'), Buffer.from(bytes), Buffer.from('"}')]),
+        contentType: 'application/json',
+        kind: 'raw-bytes',
+      })),
     },
     { weight: route.takesCsv ? 6 : 1, arbitrary: csvBody(route).map((payload) => ({ payload, contentType: 'text/csv', kind: 'csv' })) },
     {

@@ -57,7 +57,7 @@ export const exclusionInput = z
   .refine((e) => e.readingId !== undefined || (e.start !== undefined && e.end !== undefined), {
     message: 'name the reading by readingId or by start and end',
   })
-  .meta({ id: 'ExclusionInput', description: 'A baseline reading the engineer leaves out of the fit, and why' });
+  .describe('A baseline reading the engineer leaves out of the fit, and why');
 
 export const createBaselineBody = z
   .object({
