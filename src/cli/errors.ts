@@ -2,11 +2,29 @@
  * Failures the user can fix, each told in one line. Anything else that
  * escapes a command is an internal error (exit code 1).
  */
+import type { DomainErrorKind } from '../domain/errors.js';
 
 /** Exit code for bad usage or bad input: the user can fix it. */
 export const EXIT_BAD_INPUT = 2;
 /** Exit code for an unexpected internal failure. */
 export const EXIT_INTERNAL = 1;
+/** Exit code when the database cannot serve the command right now: run it again later. */
+export const EXIT_UNAVAILABLE = 3;
+
+/**
+ * The exit code of a ledger rule's refusal: the user can fix every kind but
+ * an unavailable database, which is retried.
+ */
+export const EXIT_CODE_OF: Readonly<Record<DomainErrorKind, number>> = {
+  invalid: EXIT_BAD_INPUT,
+  'not-found': EXIT_BAD_INPUT,
+  conflict: EXIT_BAD_INPUT,
+  frozen: EXIT_BAD_INPUT,
+  unprocessable: EXIT_BAD_INPUT,
+  unauthorized: EXIT_BAD_INPUT,
+  forbidden: EXIT_BAD_INPUT,
+  unavailable: EXIT_UNAVAILABLE,
+};
 
 /** A problem with the command line (unknown option, bad value). */
 export class UsageError extends Error {

@@ -1,9 +1,11 @@
 /**
  * The `mvledger` command line. Library code: it writes only through `io` and
- * returns the exit code (0 ok, 2 bad usage or input, 1 internal error), so
+ * returns the exit code (0 ok, 2 bad usage, input or a ledger rule's refusal,
+ * 3 database not available, 1 internal error), so
  * tests can run it in-process. bin/mvledger.js is the thin launcher.
  */
-import { EXIT_BAD_INPUT, EXIT_INTERNAL, InputFileError, UsageError, oneLine } from './errors.js';
+import { EXIT_BAD_INPUT, EXIT_CODE_OF, EXIT_INTERNAL, InputFileError, UsageError, oneLine } from './errors.js';
+import { DomainError } from '../domain/errors.js';
 import { parseFitOptions, parseSavingsOptions } from './options.js';
 import { runFit } from './commands/fit.js';
 import { runSavings } from './commands/savings.js';
@@ -68,6 +70,10 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
     if (error instanceof UsageError || error instanceof InputFileError) {
       io.stderr(`mvledger: ${oneLine(error.message)}\n`);
       return EXIT_BAD_INPUT;
+    }
+    if (error instanceof DomainError) {
+      io.stderr(`mvledger: ${oneLine(error.detail)}\n`);
+      return EXIT_CODE_OF[error.kind];
     }
     const message = error instanceof Error ? error.message : String(error);
     io.stderr(`mvledger: internal error: ${oneLine(message)}\n`);

@@ -1,30 +1,6 @@
-/** Who is calling: resolved from the API key by the auth plugin. */
+/** The caller's identity on a request: set by the auth plugin, required by each route's permission. */
 import type {} from 'fastify';
-import type { Role } from '../store/schema.js';
-
-export interface Principal {
-  keyId: string;
-  organisationId: string;
-  role: Role;
-}
-
-/**
- * What a route needs. read: GET ledger data and audit; savings: GET savings;
- * data: post readings and weather observations; ledger: create and change
- * facilities, meters, stations and baselines; keys: manage API keys.
- */
-export type Permission = 'read' | 'savings' | 'data' | 'ledger' | 'keys';
-
-export const ROLE_PERMISSIONS: Readonly<Record<Role, readonly Permission[]>> = {
-  admin: ['read', 'savings', 'data', 'ledger', 'keys'],
-  engineer: ['read', 'savings', 'data', 'ledger'],
-  analyst: ['read', 'savings'],
-  integration: ['savings', 'data'],
-};
-
-export function allows(role: Role, permission: Permission): boolean {
-  return ROLE_PERMISSIONS[role].includes(permission);
-}
+import type { Permission, Principal } from '../domain/principal.js';
 
 declare module 'fastify' {
   interface FastifyRequest {

@@ -3,11 +3,9 @@
  * application/problem+json with a stable `type`, a human `title`, a `detail`
  * naming the field or row, and for validation errors an `errors` list.
  */
-export interface FieldError {
-  /** Where: a JSON path such as readings[3].end, or a CSV row such as row 4, field end. */
-  field: string;
-  message: string;
-}
+import type { DomainError, DomainErrorKind, FieldError } from '../domain/errors.js';
+
+export type { FieldError };
 
 export type ProblemKind =
   | 'validation'
@@ -85,4 +83,24 @@ export interface ProblemBody {
   [key: string]: unknown;
 }
 
-export const notFound = (what: string, id: string): Problem => new Problem('not-found', `${what} ${id} was not found`);
+/** The problem kind of each domain error kind: the same name, except that invalid requests are `validation`. */
+const PROBLEM_OF: Record<DomainErrorKind, ProblemKind> = {
+  invalid: 'validation',
+  'not-found': 'not-found',
+  conflict: 'conflict',
+  frozen: 'frozen',
+  unprocessable: 'unprocessable',
+  unauthorized: 'unauthorized',
+  forbidden: 'forbidden',
+  unavailable: 'unavailable',
+};
+
+/** The problem+json a domain error leaves as: its kind's status and title, its detail, field errors and facts. */
+export function problemFromDomain(error: DomainError): Problem {
+  return new Problem(
+    PROBLEM_OF[error.kind],
+    error.detail,
+    error.errors ? [...error.errors] : undefined,
+    error.facts ? { ...error.facts } : undefined,
+  );
+}

@@ -11,7 +11,7 @@ import { adjustmentPerDay, daysBetween, findOverlappingAdjustment, type NonRouti
 import { newId } from '../store/ids.js';
 import type { Selectable } from 'kysely';
 import type { AdjustmentsTable } from '../store/schema.js';
-import { notFound, Problem } from '../http/problem.js';
+import { notFound, DomainError } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getMeterRow } from './meters.js';
 
@@ -73,9 +73,9 @@ export function toEngineAdjustment(row: AdjustmentRow): NonRoutineAdjustment {
 
 export async function createAdjustment(ctx: ServiceContext, meterId: string, input: AdjustmentInput): Promise<Adjustment> {
   if (!(input.end > input.start))
-    throw new Problem('validation', 'end: must be after start', [{ field: 'end', message: 'must be after start' }]);
+    throw new DomainError('invalid', 'end: must be after start', [{ field: 'end', message: 'must be after start' }]);
   if ((input.quantity === undefined) === (input.perDay === undefined)) {
-    throw new Problem('validation', 'quantity: give either quantity (a total over the days) or perDay, not both and not neither', [
+    throw new DomainError('invalid', 'quantity: give either quantity (a total over the days) or perDay, not both and not neither', [
       { field: 'quantity', message: 'give quantity or perDay' },
     ]);
   }
@@ -89,13 +89,13 @@ export async function createAdjustment(ctx: ServiceContext, meterId: string, inp
       .where('status', '=', 'frozen')
       .executeTakeFirst();
     if (!baseline) {
-      throw new Problem(
+      throw new DomainError(
         'unprocessable',
         `meter ${meterId} has no frozen baseline: non-routine adjustments apply to reporting periods, after a baseline is frozen`,
       );
     }
     if (input.start < baseline.period_end) {
-      throw new Problem(
+      throw new DomainError(
         'unprocessable',
         `start: ${input.start} lies inside the frozen baseline's window (it ends ${baseline.period_end}); adjustments apply to reporting days only`,
         [{ field: 'start', message: `must be on or after ${baseline.period_end}` }],
@@ -112,7 +112,7 @@ export async function createAdjustment(ctx: ServiceContext, meterId: string, inp
       input,
     );
     if (clash) {
-      throw new Problem(
+      throw new DomainError(
         'conflict',
         `start: ${input.start}..${input.end} overlaps adjustment ${clash.id} (${clash.start}..${clash.end}) of this meter; one adjustment per day keeps reports unambiguous: combine them or shorten one`,
         [{ field: 'start', message: `overlaps adjustment ${clash.id}` }],
@@ -156,7 +156,7 @@ export async function withdrawAdjustment(ctx: ServiceContext, id: string, input:
       .where('organisation_id', '=', ctx.principal.organisationId)
       .executeTakeFirst();
     if (!row) throw notFound('adjustment', id);
-    if (row.withdrawn_at !== null) throw new Problem('conflict', `adjustment ${id} was already withdrawn on ${row.withdrawn_at}`);
+    if (row.withdrawn_at !== null) throw new DomainError('conflict', `adjustment ${id} was already withdrawn on ${row.withdrawn_at}`);
     const update = { withdrawn_at: ctx.now, withdrawn_by: ctx.principal.keyId, withdraw_reason: input.reason };
     await trx.updateTable('adjustments').set(update).where('id', '=', id).execute();
     const after = toAdjustment({ ...row, ...update });

@@ -8,8 +8,9 @@ import type { Kysely } from 'kysely';
 import { insertApiKey, publicKey } from '../store/api-keys.js';
 import { appendAudit } from '../store/audit.js';
 import { lockOrganisation } from '../store/connect.js';
-import type { ApiKeyRow, Database, Role } from '../store/schema.js';
-import { notFound, Problem } from '../http/problem.js';
+import type { ApiKeyRow, Database } from '../store/schema.js';
+import type { Role } from '../domain/principal.js';
+import { notFound, DomainError } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
 
 export type ApiKeyView = ReturnType<typeof publicKey>;
@@ -54,7 +55,7 @@ export async function revokeApiKey(ctx: ServiceContext, id: string): Promise<Api
       .executeTakeFirst();
     if (!row) throw notFound('API key', id);
     if (row.id === ctx.principal.keyId) {
-      throw new Problem('conflict', `API key ${id} is the key making this request; revoke it with another admin key`, [
+      throw new DomainError('conflict', `API key ${id} is the key making this request; revoke it with another admin key`, [
         { field: 'id', message: 'is the key in use' },
       ]);
     }
@@ -88,11 +89,15 @@ export async function listKeysForOperator(db: Kysely<Database>, organisationId?:
   return rows.map((row) => ({ ...publicKey(row), organisationId: row.organisation_id, organisationName: row.organisation_name }));
 }
 
-export type OperatorRevoke = { outcome: 'revoked' | 'already-revoked'; key: OperatorKeyView } | { outcome: 'not-found' };
+export interface OperatorRevoke {
+  outcome: 'revoked' | 'already-revoked';
+  key: OperatorKeyView;
+}
 
 /**
  * The operator revokes any key, by id, with the actor "system": the way back
- * in when an organisation has lost its last admin key.
+ * in when an organisation has lost its last admin key. An unknown id is a
+ * not-found DomainError.
  */
 export async function revokeKeyAsOperator(db: Kysely<Database>, id: string, at: string): Promise<OperatorRevoke> {
   return db
@@ -100,7 +105,7 @@ export async function revokeKeyAsOperator(db: Kysely<Database>, id: string, at: 
     .setAccessMode('read write')
     .execute(async (trx) => {
       const found = await trx.selectFrom('api_keys').select('organisation_id').where('id', '=', id).executeTakeFirst();
-      if (!found) return { outcome: 'not-found' };
+      if (!found) throw new DomainError('not-found', `no API key ${id}`);
       await lockOrganisation(trx, found.organisation_id);
       // Read again under the lock: another instance may have revoked it meanwhile.
       const row = await trx.selectFrom('api_keys').selectAll().where('id', '=', id).executeTakeFirstOrThrow();

@@ -28,7 +28,7 @@ import {
 import { baselineContentHash, forResponse, fromStoredJson, toStoredJson, verifyBaselineContent } from '../store/baseline-content.js';
 import { newId } from '../store/ids.js';
 import type { BaselineRow, BaselineStatus } from '../store/schema.js';
-import { notFound, Problem } from '../http/problem.js';
+import { notFound, DomainError } from '../domain/errors.js';
 import { renderSignatureSvg } from '../reports/svg/signature.js';
 import { signatureChartPoints } from '../reports/svg/signature-points.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
@@ -241,7 +241,7 @@ function analyseWindow(
 ): BaselineAnalysis {
   const span = `${window.start}..${window.end} (end exclusive)`;
   if (readings.length === 0) {
-    throw new Problem(
+    throw new DomainError(
       'unprocessable',
       `start: no reading of meter ${meterId} lies fully inside ${span}; post the baseline readings first`,
       [{ field: 'start', message: `no readings inside ${span}` }],
@@ -250,7 +250,7 @@ function analyseWindow(
   const problems = checkReadings(readings);
   if (problems.length > 0) {
     const errors = problems.map((p) => ({ field: describeReading(readings[p.index]!), message: `${p.field}: ${p.message}` }));
-    throw new Problem(
+    throw new DomainError(
       'unprocessable',
       `${errors[0]!.field}: ${errors[0]!.message}; the stored readings in ${span} must be fixed before a fit`,
       errors,
@@ -269,7 +269,7 @@ function analyseWindow(
       excluded.length > 0
         ? `; ${excluded.length} of ${readings.length} readings in ${span} were left out: ${excluded.map((p) => `${describeReading(p)}: ${p.reason}`).join('; ')}`
         : '';
-    throw new Problem(
+    throw new DomainError(
       'unprocessable',
       `${error.message}${left}`,
       excluded.map((p) => ({ field: describeReading(p), message: p.reason })),
@@ -328,7 +328,7 @@ export async function createBaseline(
   const organisationId = ctx.principal.organisationId;
   const db = ctx.store.db;
   if (!(input.end > input.start)) {
-    throw new Problem('validation', 'end: must be after start', [{ field: 'end', message: 'must be after start' }]);
+    throw new DomainError('invalid', 'end: must be after start', [{ field: 'end', message: 'must be after start' }]);
   }
   const meter = await getMeterRow(db, organisationId, meterId);
   const options = input.options ?? {};
@@ -387,7 +387,7 @@ export async function createBaseline(
 
 function assertDraft(row: BaselineRow): void {
   if (row.status === 'draft') return;
-  throw new Problem(
+  throw new DomainError(
     'frozen',
     `baseline ${row.id} is ${row.status} (content hash ${row.content_hash}); it cannot be changed: fit a new baseline version and freeze it with a supersedeReason`,
     undefined,
@@ -406,7 +406,7 @@ export async function chooseModel(ctx: ServiceContext, baselineId: string, input
     if (!candidate || candidate.verdict === 'not-fitted' || !fits[input.model]) {
       const fitted = document.candidates.filter((c) => c.verdict !== 'not-fitted').map((c) => c.model);
       const why = candidate ? ` (${candidate.reasons.join('; ')})` : '';
-      throw new Problem(
+      throw new DomainError(
         'unprocessable',
         `model: the ${input.model} shape was not fitted to baseline ${row.id}${why}; fitted shapes: ${fitted.join(', ')}`,
         [{ field: 'model', message: `${input.model} was not fitted` }],
@@ -442,7 +442,7 @@ function checkSufficiency(row: BaselineRow, input: FreezeInput): void {
   const sufficiency = baselineSufficiency(periods);
   const override = input.overrides?.shortBaseline;
   if (!sufficiency.sufficient && override === undefined) {
-    throw new Problem(
+    throw new DomainError(
       'unprocessable',
       `baseline ${row.id} is too short to freeze: ${sufficiency.reasons.join('; ')}. Fit a window that covers a full cycle of seasons, or freeze with overrides.shortBaseline.reason saying why this baseline may be projected from (the reason is kept with the baseline and shown on every document that uses it)`,
       [
@@ -455,8 +455,8 @@ function checkSufficiency(row: BaselineRow, input: FreezeInput): void {
     );
   }
   if (sufficiency.sufficient && override !== undefined) {
-    throw new Problem(
-      'validation',
+    throw new DomainError(
+      'invalid',
       `overrides.shortBaseline: baseline ${row.id} covers a full cycle of seasons (${sufficiency.periods} periods, ${sufficiency.days} days); there is nothing to override: leave it out`,
       [{ field: 'overrides.shortBaseline', message: 'nothing to override' }],
     );
@@ -481,7 +481,7 @@ export async function freezeBaseline(ctx: ServiceContext, baselineId: string, in
       .where('status', '=', 'frozen')
       .executeTakeFirst();
     if (current && input.supersedeReason === undefined) {
-      throw new Problem(
+      throw new DomainError(
         'conflict',
         `supersedeReason: meter ${row.meter_id} already has frozen baseline ${current.id} (version ${current.version}, frozen ${current.frozen_at}); send supersedeReason to supersede it`,
         [{ field: 'supersedeReason', message: `required to supersede baseline ${current.id}` }],
@@ -489,7 +489,7 @@ export async function freezeBaseline(ctx: ServiceContext, baselineId: string, in
       );
     }
     if (!current && input.supersedeReason !== undefined) {
-      throw new Problem('validation', `supersedeReason: meter ${row.meter_id} has no frozen baseline to supersede; leave it out`, [
+      throw new DomainError('invalid', `supersedeReason: meter ${row.meter_id} has no frozen baseline to supersede; leave it out`, [
         { field: 'supersedeReason', message: 'nothing to supersede' },
       ]);
     }
@@ -560,7 +560,7 @@ export async function baselineSignatureSvg(db: Executor, organisationId: string,
   const inputs = fromStoredJson<BaselineInputs>(row.inputs_json);
   const options = fromStoredJson<BaselineFitOptions>(row.options_json);
   const fit = fromStoredJson<Partial<Record<ModelName, ShapeFit>>>(row.fits_json)[row.chosen_model as ModelName];
-  if (!fit) throw new Problem('unprocessable', `baseline ${row.id} holds no fit of its chosen shape ${row.chosen_model}`);
+  if (!fit) throw new DomainError('unprocessable', `baseline ${row.id} holds no fit of its chosen shape ${row.chosen_model}`);
   const alignment = { minCoverage: options.minCoverage };
   const baseline = alignPeriods(inputs.readings, inputs.weather, alignment).periods;
 

@@ -6,7 +6,7 @@
 import type { Kysely, Transaction } from 'kysely';
 import { writeTransaction, type Store } from '../store/connect.js';
 import type { Database } from '../store/schema.js';
-import type { Principal } from '../http/principal.js';
+import type { Principal } from '../domain/principal.js';
 import { appendAudit, type AuditEntry } from '../store/audit.js';
 
 export interface ServiceContext {

@@ -7,7 +7,7 @@
 import { canonicalEnergyUnit } from '../engine/index.js';
 import { fromStoredJson } from '../store/baseline-content.js';
 import { canonicalJson } from '../lib/canonical-json.js';
-import { notFound, Problem, type FieldError } from '../http/problem.js';
+import { notFound, type FieldError, fieldErrors } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getFacilityRow } from './facilities.js';
 
@@ -80,8 +80,7 @@ function checkContract(input: ContractInput): { energyUnit: string; guarantees: 
     guarantees.push({ year: g.year, energy, cost });
   });
   if (errors.length > 0) {
-    const more = errors.length > 1 ? ` (and ${errors.length - 1} more)` : '';
-    throw new Problem('validation', `${errors[0]!.field}: ${errors[0]!.message}${more}`, errors);
+    throw fieldErrors('invalid', errors);
   }
   return { energyUnit: energyUnit!, guarantees: guarantees.sort((a, b) => a.year - b.year) };
 }

@@ -1,6 +1,6 @@
 /** Facilities: the buildings or sites a contract covers. */
 import { newId } from '../store/ids.js';
-import { notFound } from '../http/problem.js';
+import { notFound } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 
 export interface Facility {

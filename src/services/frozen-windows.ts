@@ -6,7 +6,7 @@
  */
 import { addDays } from '../engine/index.js';
 import type { BaselineStatus } from '../store/schema.js';
-import { Problem, type FieldError } from '../http/problem.js';
+import { DomainError, type FieldError, andMore, MAX_LISTED_ERRORS } from '../domain/errors.js';
 import type { Executor } from './context.js';
 
 /** Baseline statuses whose window is closed to new or changed data. */
@@ -28,7 +28,6 @@ export interface ProtectedWrite {
 }
 
 const NAMED_IN_DETAIL = 5;
-const MAX_LISTED = 100;
 
 export async function frozenWindowsForMeter(db: Executor, meterId: string): Promise<FrozenWindow[]> {
   const rows = await db
@@ -93,12 +92,12 @@ export function assertOutsideFrozenWindows<W extends ProtectedWrite>(
     .slice(0, NAMED_IN_DETAIL)
     .map((hit) => `${name(hit.write)} (${describeSpan(hit.write)})`)
     .join(', ');
-  const more = hits.length > NAMED_IN_DETAIL ? ` (and ${hits.length - NAMED_IN_DETAIL} more)` : '';
-  const errors: FieldError[] = hits.slice(0, MAX_LISTED).map(({ write, window }) => ({
+  const more = andMore(hits.length, NAMED_IN_DETAIL);
+  const errors: FieldError[] = hits.slice(0, MAX_LISTED_ERRORS).map(({ write, window }) => ({
     field: name(write),
     message: `${describeSpan(write)} is inside the window ${describeWindow(window)} of ${window.status} baseline ${window.baselineId}`,
   }));
-  throw new Problem(
+  throw new DomainError(
     'frozen',
     `${what} would change ${named}${more}, inside the window ${describeWindow(first.window)} of ${first.window.status} baseline ${first.window.baselineId} (meter ${first.window.meterId}); data a frozen baseline was fitted on cannot change`,
     errors,

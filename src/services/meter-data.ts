@@ -5,7 +5,7 @@
  * else.
  */
 import type { DailyTemperature, Reading, TemperatureUnit } from '../engine/index.js';
-import { notFound } from '../http/problem.js';
+import { notFound } from '../domain/errors.js';
 import type { Executor } from './context.js';
 
 export interface ReadingWindow {

@@ -1,7 +1,7 @@
 /** Meters: one fuel at one facility, read against one weather station. */
 import { newId } from '../store/ids.js';
 import type { MeterRow } from '../store/schema.js';
-import { notFound, Problem } from '../http/problem.js';
+import { notFound, DomainError } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getFacilityRow } from './facilities.js';
 
@@ -42,7 +42,7 @@ export async function createMeter(
       .where('organisation_id', '=', organisationId)
       .executeTakeFirst();
     if (!station) {
-      throw new Problem('validation', `weatherStationId: no weather station ${input.weatherStationId} in this organisation`, [
+      throw new DomainError('invalid', `weatherStationId: no weather station ${input.weatherStationId} in this organisation`, [
         { field: 'weatherStationId', message: 'no such weather station' },
       ]);
     }

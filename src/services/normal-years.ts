@@ -7,7 +7,7 @@
  */
 import { checkNormalYear, NORMAL_YEAR_DAYS, type TemperatureUnit } from '../engine/index.js';
 import { canonicalJson, sha256Hex } from '../lib/canonical-json.js';
-import { notFound, Problem } from '../http/problem.js';
+import { notFound, fieldErrors, MAX_LISTED_ERRORS } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getStationRow } from './weather-stations.js';
 import type { RecordLocator } from './readings.js';
@@ -38,8 +38,7 @@ export async function putNormalYear(
     const problems = checkNormalYear(input.days, station.temperature_unit);
     if (problems.length > 0) {
       const errors = problems.map((p) => ({ field: p.index >= 0 ? locate(p.index, p.field) : p.field, message: p.message }));
-      const more = errors.length > 1 ? ` (and ${errors.length - 1} more)` : '';
-      throw new Problem('validation', `${errors[0]!.field}: ${errors[0]!.message}${more}`, errors.slice(0, 100));
+      throw fieldErrors('invalid', errors, MAX_LISTED_ERRORS);
     }
     const byDay = new Map(input.days.map((d) => [d.day, d.temp]));
     const temps = NORMAL_YEAR_DAYS.map((day) => byDay.get(day)!);

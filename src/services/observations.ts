@@ -7,7 +7,7 @@
 import { addDays, checkWeather, type TemperatureUnit } from '../engine/index.js';
 import type { Insertable } from 'kysely';
 import type { WeatherObservationsTable } from '../store/schema.js';
-import { Problem, type FieldError } from '../http/problem.js';
+import { DomainError, type FieldError, fieldErrors, MAX_LISTED_ERRORS } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
 import { getStationRow } from './weather-stations.js';
 import { assertOutsideFrozenWindows, frozenWindowsForStation } from './frozen-windows.js';
@@ -17,7 +17,6 @@ import { checkDateRange, jsonLocator, type DateRange, type RecordLocator } from 
 export const MAX_OBSERVATIONS_PER_BATCH = 50_000;
 /** Rows per upsert statement: 6 columns × 1000 stays far below SQLite's 32,766 parameters. */
 const UPSERT_CHUNK_ROWS = 1000;
-const MAX_LISTED_ERRORS = 100;
 
 /** A day given as its mean, or as its minimum and maximum. */
 export interface ObservationInput {
@@ -101,11 +100,11 @@ export async function putObservations(
  */
 function checkObservations(records: readonly ObservationInput[], unit: TemperatureUnit, locate: RecordLocator): Observation[] {
   if (records.length === 0) {
-    throw new Problem('validation', 'observations: at least one observation is needed', [{ field: 'observations', message: 'empty' }]);
+    throw new DomainError('invalid', 'observations: at least one observation is needed', [{ field: 'observations', message: 'empty' }]);
   }
   if (records.length > MAX_OBSERVATIONS_PER_BATCH) {
-    throw new Problem(
-      'validation',
+    throw new DomainError(
+      'invalid',
       `observations: at most ${MAX_OBSERVATIONS_PER_BATCH} per request (got ${records.length}); send smaller batches`,
       [{ field: 'observations', message: 'too many' }],
     );
@@ -150,8 +149,7 @@ function checkObservations(records: readonly ObservationInput[], unit: Temperatu
   }
   if (errors.length > 0) {
     const listed = errors.sort((a, b) => a.index - b.index).map((e) => e.error);
-    const more = listed.length > 1 ? ` (and ${listed.length - 1} more)` : '';
-    throw new Problem('validation', `${listed[0]!.field}: ${listed[0]!.message}${more}`, listed.slice(0, MAX_LISTED_ERRORS));
+    throw fieldErrors('invalid', listed, MAX_LISTED_ERRORS);
   }
   return days;
 }

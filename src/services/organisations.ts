@@ -4,7 +4,8 @@
  * the actor "system".
  */
 import type { Kysely, Transaction } from 'kysely';
-import type { Database, Role } from '../store/schema.js';
+import type { Database } from '../store/schema.js';
+import type { Role } from '../domain/principal.js';
 import { newId } from '../store/ids.js';
 import { writeTransaction } from '../store/connect.js';
 import { appendAudit } from '../store/audit.js';

@@ -6,7 +6,7 @@
  * than assume one.
  */
 import { checkRateBounds, checkRateSchedule, type RateEntry } from '../engine/index.js';
-import { Problem } from '../http/problem.js';
+import { fieldErrors } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getMeterRow } from './meters.js';
 
@@ -34,8 +34,7 @@ export async function putRates(
   const problems = [...checkRateSchedule(rates), ...checkRateBounds(rates)].sort((a, b) => a.index - b.index);
   if (problems.length > 0) {
     const errors = problems.map((p) => ({ field: `rates[${p.index}].${p.field}`, message: p.message }));
-    const more = errors.length > 1 ? ` (and ${errors.length - 1} more)` : '';
-    throw new Problem('validation', `${errors[0]!.field}: ${errors[0]!.message}${more}`, errors);
+    throw fieldErrors('invalid', errors);
   }
   const organisationId = ctx.principal.organisationId;
   return inTransaction(ctx, async (trx) => {

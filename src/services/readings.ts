@@ -7,7 +7,7 @@
  */
 import { beyondBoundPerDay, checkReadings, daysBetween, MAX_COST_PER_DAY, parseIsoDate } from '../engine/index.js';
 import type { NewReadingRow, ReadingRow } from '../store/schema.js';
-import { Problem, type FieldError } from '../http/problem.js';
+import { DomainError, type FieldError, fieldErrors, MAX_LISTED_ERRORS, summarise } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
 import { getMeterRow } from './meters.js';
 import { assertOutsideFrozenWindows, frozenWindowsForMeter } from './frozen-windows.js';
@@ -19,8 +19,6 @@ export const MAX_READINGS_PER_BATCH = 50_000;
  * a few hundred measured fastest, as preparing very long statements costs more.
  */
 export const INSERT_CHUNK_ROWS = 400;
-/** Problems listed in one error response; the detail says how many there were. */
-const MAX_LISTED_ERRORS = 100;
 
 export interface ReadingInput {
   start: string;
@@ -104,9 +102,9 @@ export async function postReadings(
         field: locate(index, firstDifference(before, after)),
         message: `differs from the stored reading ${before.period_start}..${before.period_end} (${describeValues(before)} stored, ${describeValues(after)} sent)`,
       }));
-      throw new Problem(
+      throw new DomainError(
         'conflict',
-        `${errors[0]!.field}: ${errors[0]!.message}${andMore(classified.corrected.length)}; to correct stored readings, give a correctionReason`,
+        `${summarise(errors, classified.corrected.length)}; to correct stored readings, give a correctionReason`,
         errors,
       );
     }
@@ -160,11 +158,11 @@ export async function postReadings(
 /** Field checks and in-batch duplicates and overlaps, by the engine's rules, plus cost (finite, not negative, within its bound per day). */
 function checkBatch(readings: readonly ReadingInput[], locate: RecordLocator): void {
   if (readings.length === 0) {
-    throw new Problem('validation', 'readings: at least one reading is needed', [{ field: 'readings', message: 'empty' }]);
+    throw new DomainError('invalid', 'readings: at least one reading is needed', [{ field: 'readings', message: 'empty' }]);
   }
   if (readings.length > MAX_READINGS_PER_BATCH) {
-    throw new Problem(
-      'validation',
+    throw new DomainError(
+      'invalid',
       `readings: at most ${MAX_READINGS_PER_BATCH} per request (got ${readings.length}); send smaller batches`,
       [{ field: 'readings', message: 'too many' }],
     );
@@ -185,11 +183,7 @@ function checkBatch(readings: readonly ReadingInput[], locate: RecordLocator): v
     }
   }
   if (errors.length > 0) {
-    throw new Problem(
-      'validation',
-      `${errors[0]!.field}: ${errors[0]!.message}${andMore(errors.length)}`,
-      errors.slice(0, MAX_LISTED_ERRORS),
-    );
+    throw fieldErrors('invalid', errors, MAX_LISTED_ERRORS);
   }
 }
 
@@ -282,7 +276,7 @@ function classify(
     });
   }
   if (overlaps.length > 0) {
-    throw new Problem('conflict', `${overlaps[0]!.field}: ${overlaps[0]!.message}${andMore(overlapCount)}`, overlaps);
+    throw new DomainError('conflict', summarise(overlaps, overlapCount), overlaps);
   }
   return out;
 }
@@ -313,10 +307,6 @@ async function insertChunked(trx: Tx, rows: readonly NewReadingRow[]): Promise<v
 function describeValues(values: ReadingValues): string {
   const cost = values.cost === null ? '' : `, cost ${values.cost}`;
   return `quantity ${values.quantity}${values.estimated ? ' (estimated)' : ''}${cost}`;
-}
-
-function andMore(count: number): string {
-  return count > 1 ? ` (and ${count - 1} more)` : '';
 }
 
 /** A date range [from, to); either end may be open. */
@@ -365,17 +355,17 @@ export async function listReadings(
 /** A from/to pair must be real dates with from before to. */
 export function checkDateRange(query: DateRange): void {
   if (query.from !== undefined && parseIsoDate(query.from) === null) {
-    throw new Problem('validation', `query.from: not a valid date (YYYY-MM-DD): ${JSON.stringify(query.from)}`, [
+    throw new DomainError('invalid', `query.from: not a valid date (YYYY-MM-DD): ${JSON.stringify(query.from)}`, [
       { field: 'query.from', message: 'not a date' },
     ]);
   }
   if (query.to !== undefined && parseIsoDate(query.to) === null) {
-    throw new Problem('validation', `query.to: not a valid date (YYYY-MM-DD): ${JSON.stringify(query.to)}`, [
+    throw new DomainError('invalid', `query.to: not a valid date (YYYY-MM-DD): ${JSON.stringify(query.to)}`, [
       { field: 'query.to', message: 'not a date' },
     ]);
   }
   if (query.from !== undefined && query.to !== undefined && query.to <= query.from) {
-    throw new Problem('validation', `query.to: ${query.to} is not after from ${query.from}`, [
+    throw new DomainError('invalid', `query.to: ${query.to} is not after from ${query.from}`, [
       { field: 'query.to', message: 'not after from' },
     ]);
   }

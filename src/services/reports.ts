@@ -23,7 +23,7 @@ import {
   type SavingsDocument,
   type TemperatureUnit,
 } from '../engine/index.js';
-import { Problem } from '../http/problem.js';
+import { DomainError } from '../domain/errors.js';
 import { assembleReport, type FacilityInput } from '../reports/assemble.js';
 import type { Rollup } from '../reports/totals.js';
 import { guaranteeStatus } from '../reports/guarantees.js';
@@ -143,7 +143,7 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
   const reportingMeters = facilities.flatMap((f) => f.meters).filter((m) => m.missing === null).length;
   if (reportingMeters === 0) {
     const scope = query.facilityId ? `facility ${query.facilityId}` : 'this organisation';
-    throw new Problem(
+    throw new DomainError(
       'unprocessable',
       `no meter of ${scope} has reporting data in ${window.label} (${window.from}..${window.to}): nothing to report; readings count in the window that holds their midpoint`,
     );
@@ -223,8 +223,8 @@ export function resolveWindow(query: ReportQuery, contracts: readonly (ContractS
     Boolean,
   ).length;
   if (given !== 1) {
-    throw new Problem(
-      'validation',
+    throw new DomainError(
+      'invalid',
       'from: give the window as from and to, or quarter (e.g. 2026-Q3), or contractYear; exactly one of them',
       [{ field: 'from', message: 'give from and to, quarter, or contractYear' }],
     );
@@ -234,19 +234,19 @@ export function resolveWindow(query: ReportQuery, contracts: readonly (ContractS
     try {
       w = quarterWindow(query.quarter);
     } catch (error) {
-      throw new Problem('validation', `quarter: ${(error as Error).message}`, [{ field: 'quarter', message: (error as Error).message }]);
+      throw new DomainError('invalid', `quarter: ${(error as Error).message}`, [{ field: 'quarter', message: (error as Error).message }]);
     }
     return { ...w, kind: 'quarter', label: query.quarter };
   }
   if (query.contractYear !== undefined) {
     const present = contracts.filter((c): c is ContractSummary => c !== null);
     if (present.length === 0)
-      throw new Problem('unprocessable', 'contractYear: no facility in the report has a contract (PUT /v1/facilities/{id}/contract)', [
+      throw new DomainError('unprocessable', 'contractYear: no facility in the report has a contract (PUT /v1/facilities/{id}/contract)', [
         { field: 'contractYear', message: 'no contract' },
       ]);
     const starts = new Set(present.map((c) => c.start));
     if (starts.size > 1) {
-      throw new Problem(
+      throw new DomainError(
         'unprocessable',
         `contractYear: the facilities' contracts start on different dates (${[...starts].sort().join(', ')}); give facilityId`,
         [{ field: 'contractYear', message: 'contracts differ: give facilityId' }],
@@ -254,7 +254,7 @@ export function resolveWindow(query: ReportQuery, contracts: readonly (ContractS
     }
     const years = Math.max(...present.map((c) => c.years));
     if (query.contractYear > years) {
-      throw new Problem(
+      throw new DomainError(
         'unprocessable',
         `contractYear: the contract runs ${years} year(s); there is no contract year ${query.contractYear}`,
         [{ field: 'contractYear', message: `at most ${years}` }],
@@ -265,9 +265,10 @@ export function resolveWindow(query: ReportQuery, contracts: readonly (ContractS
   }
   if (query.from === undefined || query.to === undefined) {
     const field = query.from === undefined ? 'from' : 'to';
-    throw new Problem('validation', `${field}: a date window needs both from and to`, [{ field, message: 'needed with the other' }]);
+    throw new DomainError('invalid', `${field}: a date window needs both from and to`, [{ field, message: 'needed with the other' }]);
   }
-  if (!(query.to > query.from)) throw new Problem('validation', 'to: must be after from', [{ field: 'to', message: 'must be after from' }]);
+  if (!(query.to > query.from))
+    throw new DomainError('invalid', 'to: must be after from', [{ field: 'to', message: 'must be after from' }]);
   return { from: query.from, to: query.to, kind: 'range', label: `${query.from}..${query.to}` };
 }
 

@@ -27,7 +27,7 @@ import {
   type ShapeFit,
   type AppliedExclusion,
 } from '../engine/index.js';
-import { Problem } from '../http/problem.js';
+import { DomainError } from '../domain/errors.js';
 import type { BaselineRow } from '../store/schema.js';
 import { fromStoredJson, nonFiniteToNull, verifyBaselineContent } from '../store/baseline-content.js';
 import { overridesOf, type BaselineFitOptions, type BaselineInputs } from './baselines.js';
@@ -109,7 +109,7 @@ export async function frozenModel(db: Executor, baselineId: string, contentHash:
   if (cached) return cached;
   const row = (await db.selectFrom('baselines').selectAll().where('id', '=', baselineId).executeTakeFirstOrThrow()) as BaselineRow;
   if (!verifyBaselineContent(row)) {
-    throw new Problem(
+    throw new DomainError(
       'unprocessable',
       `baseline ${baselineId}: its stored content no longer matches its content hash ${contentHash}; savings are refused until this is investigated (see the audit trail)`,
     );
@@ -117,7 +117,7 @@ export async function frozenModel(db: Executor, baselineId: string, contentHash:
   const document = fromStoredJson<FitDocument>(row.document_json);
   const options = fromStoredJson<BaselineFitOptions>(row.options_json);
   const fit = fromStoredJson<Partial<Record<ModelName, ShapeFit>>>(row.fits_json)[row.chosen_model as ModelName];
-  if (!fit) throw new Problem('unprocessable', `baseline ${baselineId} holds no fit of its chosen shape ${row.chosen_model}`);
+  if (!fit) throw new DomainError('unprocessable', `baseline ${baselineId} holds no fit of its chosen shape ${row.chosen_model}`);
   const inputs = fromStoredJson<BaselineInputs>(row.inputs_json);
   const minCoverage = options.minCoverage ?? document.settings.minCoverage;
   const baselinePeriods = alignPeriods(inputs.readings, inputs.weather, { minCoverage }).periods;
@@ -148,14 +148,17 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
     .where('status', '=', 'frozen')
     .executeTakeFirst();
   if (!baseline || baseline.content_hash === null) {
-    throw new Problem('unprocessable', `meter ${meterId} has no frozen baseline: freeze a baseline first (POST /v1/baselines/{id}/freeze)`);
+    throw new DomainError(
+      'unprocessable',
+      `meter ${meterId} has no frozen baseline: freeze a baseline first (POST /v1/baselines/{id}/freeze)`,
+    );
   }
   const model = await frozenModel(db, baseline.id, baseline.content_hash);
 
   const start = query.from !== undefined && query.from > baseline.period_end ? query.from : baseline.period_end;
   const readings = await loadReadings(db, meter.id, { startOnOrAfter: start, endOnOrBefore: query.to });
   if (readings.length === 0) {
-    throw new Problem(
+    throw new DomainError(
       'unprocessable',
       `meter ${meterId} has no reporting readings ${windowText(start, query.to)}; reporting readings start on or after the baseline's end ${baseline.period_end}`,
     );
@@ -180,7 +183,7 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
     if (!(error instanceof RangeError)) throw error;
     const { excluded } = aligned;
     const reasons = excluded.map((p) => `reading ${p.start}..${p.end}: ${p.reason}`).join('; ');
-    throw new Problem(
+    throw new DomainError(
       'unprocessable',
       `${error.message}${reasons ? `: ${reasons}` : ''}`,
       excluded.map((p) => ({ field: `reading ${p.start}..${p.end}`, message: p.reason })),
@@ -195,7 +198,7 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
   const refusal = projectionRefusals(checks, { requireSufficiency: false })[0];
   if (refusal) {
     const e = checks.extrapolation;
-    throw new Problem(
+    throw new DomainError(
       'unprocessable',
       `meter ${meterId}: savings ${windowText(start, query.to)} are refused: ${refusal.reason}. Frozen baseline ${baseline.id} (version ${baseline.version}) never saw that weather: fit and freeze a baseline that covers it, or freeze one with overrides.extrapolation.reason saying why it may be projected this far`,
       undefined,

@@ -1,7 +1,7 @@
 /** Weather stations: a named source of daily temperatures in one unit. */
 import type { TemperatureUnit } from '../engine/index.js';
 import { newId } from '../store/ids.js';
-import { notFound } from '../http/problem.js';
+import { notFound } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 
 export interface WeatherStation {

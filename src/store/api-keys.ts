@@ -6,7 +6,8 @@
 import { randomBytes, timingSafeEqual } from 'node:crypto';
 import type { Kysely, Transaction } from 'kysely';
 import { sha256Hex } from '../lib/canonical-json.js';
-import type { ApiKeyRow, Database, Role } from './schema.js';
+import type { ApiKeyRow, Database } from './schema.js';
+import type { Role } from '../domain/principal.js';
 
 type Executor = Kysely<Database> | Transaction<Database>;
 

@@ -4,14 +4,13 @@
  * integers, timestamps ISO-8601 text, JSON documents text.
  */
 import type { Insertable, Selectable, Updateable } from 'kysely';
+import type { Role } from '../domain/principal.js';
 
 export interface OrganisationsTable {
   id: string;
   name: string;
   created_at: string;
 }
-
-export type Role = 'admin' | 'engineer' | 'analyst' | 'integration';
 
 export interface ApiKeysTable {
   /** Public key id, the middle part of mvl_<id>_<secret>. */

@@ -10,7 +10,7 @@ import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { analyseBaseline, type Reading } from '../../src/engine/index.js';
 import { toJsonDocument } from '../../src/cli/format/json.js';
 import { canonicalJson, sha256Hex } from '../../src/lib/canonical-json.js';
-import type { Role } from '../../src/store/schema.js';
+import type { Role } from '../../src/domain/principal.js';
 import { makeTestApi, type CallOptions, type TestApi } from '../support/api.js';
 import { databaseDigest } from '../support/db-digest.js';
 import { CLIMATES, SAMPLE_BUILDING, dailyWeather, monthlyReadings, seededRandom } from '../support/synthetic.js';

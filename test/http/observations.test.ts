@@ -186,7 +186,7 @@ describe('PUT /v1/weather-stations/{id}/observations', () => {
     const body = { observations: [{ date: '2025-01-01', temp: 30 }] };
     expect((await refused('PUT', url, { as: 'analyst', body })).status).toBe(403);
     expect((await api.call('PUT', url, { as: 'integration', body })).status).toBe(200);
-    // Roles as src/http/principal.ts grants them: integration keys lack 'read'.
+    // Roles as src/domain/principal.ts grants them: integration keys lack 'read'.
     expect((await api.call('GET', url, { as: 'integration' })).status).toBe(403);
   });
 

@@ -19,7 +19,7 @@
 import type { FastifyInstance, InjectOptions } from 'fastify';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { buildApp } from '../../src/http/app.js';
-import type { Role } from '../../src/store/schema.js';
+import type { Role } from '../../src/domain/principal.js';
 import { makeTestApi, type TestApi } from '../support/api.js';
 import { databaseDigest } from '../support/db-digest.js';
 

@@ -249,7 +249,7 @@ describe('POST /v1/meters/{id}/readings', () => {
     expect((await refused('POST', url, { as: 'analyst', body: { readings: BILLS } })).status).toBe(403);
     expect((await refused('POST', url, { as: 'none', body: { readings: BILLS } })).status).toBe(401);
     expect((await api.call('POST', url, { as: 'integration', body: { readings: BILLS } })).status).toBe(201);
-    // Roles as src/http/principal.ts grants them: integration keys lack 'read'.
+    // Roles as src/domain/principal.ts grants them: integration keys lack 'read'.
     expect((await api.call('GET', url, { as: 'integration' })).status).toBe(403);
     expect((await api.call('GET', url, { as: 'engineer' })).status).toBe(200);
   });

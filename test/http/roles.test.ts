@@ -2,15 +2,15 @@
  * Who may call what, for every route the app has: the routes are read from
  * the app's own OpenAPI document, so a new route is covered without editing
  * this file. Check values: the role → permission table of
- * src/http/principal.ts (ROLE_PERMISSIONS) and the API contract (401 for a
+ * src/domain/principal.ts (ROLE_PERMISSIONS) and the API contract (401 for a
  * missing, malformed or revoked key; 403 for a role without the permission).
  */
 import { Writable } from 'node:stream';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildApp, LOG_REDACTIONS } from '../../src/http/app.js';
-import { allows, ROLE_PERMISSIONS, type Permission } from '../../src/http/principal.js';
+import { allows, ROLE_PERMISSIONS, type Permission } from '../../src/domain/principal.js';
 import { ROLES } from '../../src/store/api-keys.js';
-import type { Role } from '../../src/store/schema.js';
+import type { Role } from '../../src/domain/principal.js';
 import { makeTestApi, type CallOptions, type TestApi } from '../support/api.js';
 
 const METHODS = ['get', 'post', 'put', 'patch', 'delete'] as const;
@@ -96,7 +96,7 @@ function observedPermission(op: Operation): Permission | 'mixed' {
 
 /**
  * The permission a route should need, from the meaning of each permission
- * (src/http/principal.ts): keys for API keys; savings for savings; data to
+ * (src/domain/principal.ts): keys for API keys; savings for savings; data to
  * post readings and observations; read for other GETs; ledger for other writes.
  */
 function conventionalPermission(op: Operation): Permission {
@@ -171,7 +171,7 @@ describe('the role matrix over every route in the OpenAPI document', () => {
   });
 
   it('gives the admin role every permission and the others the documented subsets', () => {
-    // from src/http/principal.ts, restated so a change to the table is a visible decision
+    // from src/domain/principal.ts, restated so a change to the table is a visible decision
     expect(ROLE_PERMISSIONS).toEqual({
       admin: ['read', 'savings', 'data', 'ledger', 'keys'],
       engineer: ['read', 'savings', 'data', 'ledger'],

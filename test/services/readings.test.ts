@@ -2,7 +2,7 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { makeTestApi, type TestApi } from '../support/api.js';
 import { databaseDigest } from '../support/db-digest.js';
 import { addDays } from '../../src/engine/index.js';
-import { Problem } from '../../src/http/problem.js';
+import { DomainError } from '../../src/domain/errors.js';
 import type { ServiceContext } from '../../src/services/context.js';
 import { createFacility } from '../../src/services/facilities.js';
 import { createMeter } from '../../src/services/meters.js';
@@ -46,14 +46,14 @@ async function addBaseline(meter: string, id: string, start: string, end: string
   });
 }
 
-/** The Problem a call rejects with (fails the test if it resolves). */
-async function problemOf(work: Promise<unknown>): Promise<Problem> {
+/** The DomainError a call rejects with (fails the test if it resolves). */
+async function problemOf(work: Promise<unknown>): Promise<DomainError> {
   const outcome = await work.then(
     () => null,
     (error: unknown) => error,
   );
-  expect(outcome).toBeInstanceOf(Problem);
-  return outcome as Problem;
+  expect(outcome).toBeInstanceOf(DomainError);
+  return outcome as DomainError;
 }
 
 beforeEach(async () => {
@@ -151,7 +151,7 @@ describe('postReadings', () => {
     const problem = await problemOf(
       postReadings(ctx, meterId, { readings: [{ start: '2024-01-01', end: '2024-02-01', quantity: 1, cost: Number.NaN }] }),
     );
-    expect(problem.kind).toBe('validation');
+    expect(problem.kind).toBe('invalid');
     expect(problem.errors?.[0]?.field).toBe('readings[0].cost');
   });
 });
@@ -203,14 +203,13 @@ describe('frozen windows', () => {
     } catch (error) {
       caught = error;
     }
-    const problem = caught as Problem;
-    expect(problem).toBeInstanceOf(Problem);
+    const problem = caught as DomainError;
+    expect(problem).toBeInstanceOf(DomainError);
     expect(problem.kind).toBe('frozen');
-    expect(problem.status).toBe(409);
     expect(problem.detail).toContain('write 2023-12-15 (2023-12-15..2024-01-15), write 2024-12-31 (2024-12-31)');
     expect(problem.detail).toContain('bsl_a');
     expect(problem.errors).toHaveLength(2);
-    expect(problem.extra).toEqual({ baselines: ['bsl_a'] });
+    expect(problem.facts).toEqual({ baselines: ['bsl_a'] });
   });
 
   it('protect a superseded window from new readings', async () => {

@@ -8,7 +8,7 @@ import { openStore, type Store } from '../../src/store/connect.js';
 import { migrateToLatest } from '../../src/store/migrate.js';
 import { buildApp } from '../../src/http/app.js';
 import { createKey, createOrganisation } from '../../src/services/organisations.js';
-import type { Role } from '../../src/store/schema.js';
+import type { Role } from '../../src/domain/principal.js';
 import { dropTestDatabase, freshTestDatabaseUrl } from './database.js';
 
 export interface TestApi {

@@ -7,9 +7,10 @@
  */
 import type { Store } from '../../store/connect.js';
 import { ROLES } from '../../store/api-keys.js';
-import type { Role } from '../../store/schema.js';
+import type { Role } from '../../domain/principal.js';
 import { createKey, createOrganisation } from '../../services/organisations.js';
 import { listKeysForOperator, revokeKeyAsOperator } from '../../services/api-keys.js';
+import { DomainError, isDomainError } from '../../domain/errors.js';
 import { renderTable } from '../format/table.js';
 import { UsageError } from '../errors.js';
 import { parseOptions, withDatabase } from '../shared.js';
@@ -151,8 +152,10 @@ async function list(store: Store, organisationId: string | undefined): Promise<K
 }
 
 async function revoke(store: Store, id: string, at: string): Promise<KeysOutput> {
-  const result = await revokeKeyAsOperator(store.db, id, at);
-  if (result.outcome === 'not-found') throw new UsageError(`no API key ${id} in ${store.location}`);
+  const result = await revokeKeyAsOperator(store.db, id, at).catch((error: unknown) => {
+    // Say which database was searched: the operator may have more than one.
+    throw isDomainError(error) && error.kind === 'not-found' ? new DomainError('not-found', `${error.detail} in ${store.location}`) : error;
+  });
   const { key } = result;
   return {
     stdout:

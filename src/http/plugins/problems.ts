@@ -7,8 +7,10 @@
  */
 import type { FastifyError, FastifyInstance, FastifyReply, FastifyRequest } from 'fastify';
 import { hasZodFastifySchemaValidationErrors } from 'fastify-type-provider-zod';
-import { Problem, PROBLEM_CONTENT_TYPE, type FieldError } from '../problem.js';
+import { Problem, PROBLEM_CONTENT_TYPE, problemFromDomain, type FieldError } from '../problem.js';
+import { DomainError, summarise } from '../../domain/errors.js';
 import { databaseFault, type DatabaseFault } from '../../store/faults.js';
+import { addMissingSecurityHeaders } from '../security-headers.js';
 
 /** Set by the CSV body parser: maps a record index to its line in the CSV text. */
 declare module 'fastify' {
@@ -18,7 +20,8 @@ declare module 'fastify' {
 }
 
 export function sendProblem(request: FastifyRequest, reply: FastifyReply, problem: Problem): FastifyReply {
-  return reply
+  // Some problems leave before helmet's hook ran (the router's own refusals): the headers go on here too.
+  return addMissingSecurityHeaders(reply)
     .code(problem.status)
     .type(PROBLEM_CONTENT_TYPE)
     .send(problem.body(request.url.split('?')[0]));
@@ -48,9 +51,7 @@ function validationProblem(
     field: where === 'body' ? describePath(issue.instancePath, request) : `${where}.${describePath(issue.instancePath)}`,
     message: issue.message ?? 'invalid',
   }));
-  const first = errors[0]!;
-  const more = errors.length > 1 ? ` (and ${errors.length - 1} more)` : '';
-  return new Problem('validation', `${first.field}: ${first.message}${more}`, errors);
+  return new Problem('validation', summarise(errors), errors);
 }
 
 /** Seconds a client should wait before retrying, by fault: a busy SQLite file frees in moments; a restarting server takes longer. */
@@ -77,6 +78,7 @@ function unavailableProblem(fault: DatabaseFault, request: FastifyRequest): Prob
 export function installProblemHandling(app: FastifyInstance): void {
   app.setErrorHandler((error: FastifyError, request, reply) => {
     if (error instanceof Problem) return sendProblem(request, reply, error);
+    if (error instanceof DomainError) return sendProblem(request, reply, problemFromDomain(error));
     if (hasZodFastifySchemaValidationErrors(error)) return sendProblem(request, reply, validationProblem(error, request));
     switch (error.code) {
       case 'FST_ERR_CTP_INVALID_MEDIA_TYPE':
