@@ -261,7 +261,7 @@ function analyseWindow(
     return analyseBaseline(readings, weather, { ...rest, temperatureForm: temperature, exclusions });
   } catch (error) {
     if (error instanceof ExclusionError) {
-      throw new Problem('unprocessable', error.message, [{ field: error.field, message: error.message }]);
+      throw new DomainError('unprocessable', error.message, [{ field: error.field, message: error.message }]);
     }
     if (!(error instanceof RangeError)) throw error;
     const { excluded } = alignPeriods(readings, weather, options);
@@ -305,7 +305,7 @@ async function resolveExclusions(
     if (!row) {
       const what = request.readingId !== undefined ? `reading ${request.readingId}` : `a reading ${request.start}..${request.end}`;
       const message = `${what} is not one of this meter's readings inside ${window.start}..${window.end} (end exclusive)`;
-      throw new Problem('unprocessable', `${field}: ${message}`, [{ field, message }]);
+      throw new DomainError('unprocessable', `${field}: ${message}`, [{ field, message }]);
     }
     if (
       request.readingId !== undefined &&
@@ -313,7 +313,7 @@ async function resolveExclusions(
       (request.start !== row.period_start || request.end !== row.period_end)
     ) {
       const message = `reading ${request.readingId} covers ${row.period_start}..${row.period_end}, not ${request.start}..${request.end}`;
-      throw new Problem('unprocessable', `${field}: ${message}`, [{ field, message }]);
+      throw new DomainError('unprocessable', `${field}: ${message}`, [{ field, message }]);
     }
     return { readingId: readingId(row.period_start, row.period_end), start: row.period_start, end: row.period_end, reason: request.reason };
   });
