@@ -8,6 +8,8 @@
  * from a cache.
  */
 import {
+  TooFewPeriodsError,
+  InvalidAdjustmentError,
   alignPeriods,
   baselineSufficiency,
   projectionRefusals,
@@ -33,7 +35,7 @@ import { overridesOf, type BaselineFitOptions, type BaselineInputs } from './bas
 import type { Executor } from './context.js';
 import { getMeterRow } from './meters.js';
 import { loadReadings, loadWeatherFor } from './meter-data.js';
-import { toAdjustment, toEngineAdjustment, type Adjustment } from './adjustments.js';
+import { adjustmentProblem, toAdjustment, toEngineAdjustment, type Adjustment } from './adjustments.js';
 
 export interface SavingsQuery {
   from?: string;
@@ -176,8 +178,9 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
   try {
     document = savingsFromAligned(model.fit, { limits: model.limits, excluded: model.excluded }, aligned, options);
   } catch (error) {
-    if (!(error instanceof RangeError)) throw error;
-    const { excluded } = aligned;
+    if (error instanceof InvalidAdjustmentError) throw adjustmentProblem(error);
+    if (!(error instanceof TooFewPeriodsError)) throw error;
+    const { excluded } = error;
     const reasons = excluded.map((p) => `reading ${p.start}..${p.end}: ${p.reason}`).join('; ');
     throw new DomainError(
       'unprocessable',

@@ -17,6 +17,7 @@ import { documentTemperatureForm, verifyBaselineContent } from './baseline-conte
 import { ROLES } from './api-keys.js';
 import { GENESIS_HASH, verifyAuditChain, verifyAuditRows, type ChainVerdict } from './audit.js';
 import { readSnapshot, writeTransaction } from './connect.js';
+import { firstRuleBroken } from './transfer-rules.js';
 import type { AuditRow, BaselineRow, Database } from './schema.js';
 
 export const EXPORT_FORMAT = 'mvledger-export';
@@ -499,6 +500,8 @@ export function checkDocument(value: unknown): ExportDocument {
   for (const table of TRANSFER_TABLES)
     tables[table] = known.includes(table) ? checkTable(table, value.tables[table], organisation.id, version) : [];
   checkReferences(tables);
+  const broken = firstRuleBroken(tables);
+  if (broken) throw new TransferInputError(broken);
   const auditHead = { seq: head.seq as number, hash: head.hash as string };
   checkAuditTrail(organisation.id, tables.audit_log, auditHead);
   checkBaselineHashes(tables.baselines);
