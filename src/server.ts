@@ -42,6 +42,9 @@ export async function startService(config: Config): Promise<RunningService> {
     logger: { level: config.logLevel, redact: LOG_REDACTIONS },
     bodyLimit: config.maxBodyBytes,
     rateLimitPerMinute: config.rateLimitPerMinute,
+    failedAuthenticationsPerMinute: config.failedAuthPerMinute,
+    requestTimeoutMs: config.requestTimeoutMs,
+    headersTimeoutMs: config.headersTimeoutMs,
   });
   log = app.log;
   if (bootstrapped) app.log.info('new database: created the bootstrap organisation and its admin key');

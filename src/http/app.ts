@@ -21,6 +21,9 @@ import { installProblemHandling, sendProblem } from './plugins/problems.js';
 import { installAuth } from './plugins/auth.js';
 import { installIdempotency } from './plugins/idempotency.js';
 import { installCsvBodies } from './plugins/csv-bodies.js';
+import { installTextInput } from './plugins/text-input.js';
+import { FailedAuthenticationLimit } from './plugins/failed-authentication.js';
+import { answerClientError } from './security-headers.js';
 import { registerRoutes } from './routes/index.js';
 import { Problem } from './problem.js';
 
@@ -39,7 +42,17 @@ export interface AppOptions {
   bodyLimit?: number;
   /** Requests per minute per API key (per address without one); 0 or absent: no limit. */
   rateLimitPerMinute?: number;
+  /** Failed authentications per minute per client address before 429; 0 or absent: no limit. */
+  failedAuthenticationsPerMinute?: number;
+  /** Longest time a whole request may take to arrive (headers and body), in ms. */
+  requestTimeoutMs?: number;
+  /** Longest time the request headers may take to arrive, in ms. */
+  headersTimeoutMs?: number;
 }
+
+/** A request trickled in slowly holds a connection: the whole request must arrive within a minute, its headers within 15 s. */
+export const DEFAULT_REQUEST_TIMEOUT_MS = 60_000;
+export const DEFAULT_HEADERS_TIMEOUT_MS = 15_000;
 
 export const DEFAULT_BODY_LIMIT = 16 * 1024 * 1024;
 const REQUEST_ID = /^[A-Za-z0-9._-]{1,64}$/;
@@ -50,9 +63,17 @@ const MAX_PARAM_LENGTH = 100;
 export const LOG_REDACTIONS = ['req.headers.authorization', 'req.headers["idempotency-key"]', 'headers.authorization'];
 
 export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
+  const requestTimeout = options.requestTimeoutMs ?? DEFAULT_REQUEST_TIMEOUT_MS;
   const app = Fastify({
     logger: options.logger ?? false,
     bodyLimit: options.bodyLimit ?? DEFAULT_BODY_LIMIT,
+    requestTimeout,
+    // Node checks the timeouts every connectionsCheckingInterval (30 s by default): often enough for a one-minute limit.
+    http: {
+      headersTimeout: Math.min(options.headersTimeoutMs ?? DEFAULT_HEADERS_TIMEOUT_MS, requestTimeout),
+      connectionsCheckingInterval: Math.min(1_000, requestTimeout),
+    },
+    clientErrorHandler: answerClientError,
     routerOptions: { maxParamLength: MAX_PARAM_LENGTH },
     requestIdHeader: false,
     genReqId: (request) => {
@@ -105,7 +126,8 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     crossOriginResourcePolicy: { policy: 'same-origin' },
     frameguard: { action: 'deny' },
   });
-  installAuth(app, deps.store);
+  const failures = options.failedAuthenticationsPerMinute ? new FailedAuthenticationLimit(options.failedAuthenticationsPerMinute) : null;
+  installAuth(app, deps.store, failures);
   if (options.rateLimitPerMinute && options.rateLimitPerMinute > 0) {
     await app.register(rateLimit, {
       global: true,
@@ -122,6 +144,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     });
   }
   installCsvBodies(app);
+  installTextInput(app);
   installIdempotency(app, deps.store, deps.now);
 
   await app.register(swagger, {

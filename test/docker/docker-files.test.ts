@@ -111,11 +111,14 @@ describe('docker/Dockerfile', () => {
     expect(dockerfile.length).toBeGreaterThanOrEqual(2); // issue 5: multi-stage
   });
 
-  it('uses the pinned slim Node image whose major matches package.json engines', () => {
-    const engines = z.object({ engines: z.object({ node: z.string() }) }).parse(JSON.parse(read('package.json')));
-    const major = /^>=\s*(\d+)/.exec(engines.engines.node)?.[1];
-    expect(major).toBe('20'); // the repository: package.json engines ">=20"
-    for (const stage of dockerfile) expect(stage.image).toBe(`node:${major}-bookworm-slim`); // issue 5: pinned by tag
+  it('builds on the pinned slim image of the Node.js LTS the tests also run on, inside package.json engines', () => {
+    const pkg = z.object({ engines: z.object({ node: z.string() }) }).parse(JSON.parse(read('package.json')));
+    const ltsMajor = /LTS_VERSION = '(\d+)\./.exec(read('test/lts/run-on-lts.mjs'))?.[1];
+    expect(ltsMajor).toBe('26'); // from memory: Node.js 26 is the Active LTS line from October 2026; 20 ended in April 2026
+    const supportedMajors = pkg.engines.node.split('||').map((range) => range.trim().replace(/\.x$/, ''));
+    expect(supportedMajors).toContain(ltsMajor); // the repository: package.json engines
+    expect(supportedMajors).toContain('20'); // the repository: development runs on Node 20 (better-sqlite3 12.x)
+    for (const stage of dockerfile) expect(stage.image).toBe(`node:${ltsMajor!}-bookworm-slim`); // issue 5: pinned by tag, one base for every stage
   });
 
   it('copies from earlier stages only', () => {

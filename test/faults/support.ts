@@ -19,7 +19,7 @@ import { CLIMATES, SAMPLE_BUILDING, dailyWeather, monthlyReadings, seededRandom 
 import { startInstance, type Instance } from '../multi-instance/support.js';
 
 // synthetic: the test sets the truth (matches the bootstrap key pattern of src/config.ts).
-export const BOOTSTRAP_KEY = `mvl_faulttst_${'f'.repeat(40)}`;
+export const BOOTSTRAP_KEY = 'mvl_faulttst_cq4ASK8U0HDJEEE3YS1TDF8e2dtl3BnOmrtDazRj'; // synthetic: a secret drawn once by crypto.randomBytes
 
 export interface FaultDatabase {
   url: string;

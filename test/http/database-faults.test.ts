@@ -40,7 +40,7 @@ function failingStore(error: () => Error): Store {
 
 const withCode = (code: string, message: string) => Object.assign(new Error(message), { code });
 // synthetic: a well-formed key the stand-in never gets to look up.
-const KEY = `mvl_abcdefgh_${'k'.repeat(40)}`;
+const KEY = 'mvl_abcdefgh_QFb4Y49c10NcuFScMdBxcHYYLIyEQB8Q7hhh5dkp'; // synthetic: a secret drawn once by crypto.randomBytes
 
 let app: FastifyInstance | undefined;
 afterEach(async () => {

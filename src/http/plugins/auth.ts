@@ -1,7 +1,8 @@
 /**
  * Bearer API keys. Every route under /v1 declares the permission it needs in
  * its config; the key's role must grant it. Unknown, malformed and revoked
- * keys all get the same 401 (no hint which).
+ * keys all get the same 401 (no hint which); an address with too many
+ * failures in a minute gets 429 (failed-authentication.ts).
  */
 import type { FastifyInstance } from 'fastify';
 import type { Store } from '../../store/connect.js';
@@ -9,6 +10,7 @@ import { authenticate } from '../../store/api-keys.js';
 import { allows } from '../../domain/principal.js';
 import '../principal.js';
 import { Problem } from '../problem.js';
+import type { FailedAuthenticationLimit } from './failed-authentication.js';
 
 const BEARER = /^Bearer +(\S+) *$/i;
 
@@ -18,10 +20,18 @@ function authorizationLines(rawHeaders: readonly string[]): number {
   return lines;
 }
 
-export function installAuth(app: FastifyInstance, store: Store): void {
+export function installAuth(app: FastifyInstance, store: Store, failures: FailedAuthenticationLimit | null = null): void {
   app.addHook('onRequest', async (request, reply) => {
     const permission = request.routeOptions.config?.permission;
     if (!permission) return;
+    const wait = failures?.retryAfterSeconds(request.ip) ?? 0;
+    if (wait > 0) {
+      reply.header('retry-after', String(wait));
+      throw new Problem(
+        'rate-limited',
+        `more than ${failures!.limit} failed authentications a minute from this address; retry after ${wait} s`,
+      );
+    }
     const header = request.headers.authorization;
     // The scheme is case-insensitive (RFC 9110 §11.1). Two Authorization lines are
     // ambiguous (node keeps only the first), so they authenticate nothing.
@@ -29,6 +39,7 @@ export function installAuth(app: FastifyInstance, store: Store): void {
       typeof header === 'string' && authorizationLines(request.raw.rawHeaders) === 1 ? (BEARER.exec(header)?.[1] ?? null) : null;
     const key = token ? await authenticate(store.db, token) : null;
     if (!key) {
+      failures?.recordFailure(request.ip);
       reply.header('www-authenticate', 'Bearer realm="mvledger"');
       throw new Problem('unauthorized', 'send Authorization: Bearer <API key> with a live key');
     }

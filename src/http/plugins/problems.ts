@@ -10,6 +10,7 @@ import { hasZodFastifySchemaValidationErrors } from 'fastify-type-provider-zod';
 import { Problem, PROBLEM_CONTENT_TYPE, problemFromDomain, type FieldError } from '../problem.js';
 import { DomainError, summarise } from '../../domain/errors.js';
 import { databaseFault, type DatabaseFault } from '../../store/faults.js';
+import { addMissingSecurityHeaders } from '../security-headers.js';
 
 /** Set by the CSV body parser: maps a record index to its line in the CSV text. */
 declare module 'fastify' {
@@ -19,7 +20,8 @@ declare module 'fastify' {
 }
 
 export function sendProblem(request: FastifyRequest, reply: FastifyReply, problem: Problem): FastifyReply {
-  return reply
+  // Some problems leave before helmet's hook ran (the router's own refusals): the headers go on here too.
+  return addMissingSecurityHeaders(reply)
     .code(problem.status)
     .type(PROBLEM_CONTENT_TYPE)
     .send(problem.body(request.url.split('?')[0]));
