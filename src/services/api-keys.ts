@@ -12,7 +12,7 @@ import type { ApiKeyRow, Database } from '../store/schema.js';
 import type { Role } from '../domain/principal.js';
 import { notFound, DomainError } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
-import { afterCreated, decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
+import { oldestFirstPage, PAGE_SIZES, type PageInfo, type PageRequest } from './paging.js';
 
 export type ApiKeyView = ReturnType<typeof publicKey>;
 
@@ -36,17 +36,11 @@ export async function listApiKeys(
   organisationId: string,
   request: PageRequest = { limit: PAGE_SIZES.records.default },
 ): Promise<{ keys: ApiKeyView[] } & PageInfo> {
-  const after = decodeCursor('keys', request.cursor, 'ss');
-  const fetched = await db
-    .selectFrom('api_keys')
-    .selectAll()
-    .where('organisation_id', '=', organisationId)
-    .where((eb) => afterCreated(eb, after))
-    .orderBy('created_at')
-    .orderBy('id')
-    .limit(request.limit + 1)
-    .execute();
-  const { rows, page } = pageOf(fetched, request, 'keys', (row) => [row.created_at, row.id]);
+  const { rows, page } = await oldestFirstPage(
+    db.selectFrom('api_keys').selectAll().where('organisation_id', '=', organisationId),
+    request,
+    'keys',
+  );
   return { keys: rows.map(publicKey), ...page };
 }
 

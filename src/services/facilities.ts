@@ -2,7 +2,7 @@
 import { newId } from '../store/ids.js';
 import { notFound } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
-import { afterCreated, decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
+import { oldestFirstPage, PAGE_SIZES, type PageInfo, type PageRequest } from './paging.js';
 
 export interface Facility {
   id: string;
@@ -56,16 +56,10 @@ export async function listFacilities(
   organisationId: string,
   request: PageRequest = { limit: PAGE_SIZES.records.default },
 ): Promise<{ facilities: Facility[] } & PageInfo> {
-  const after = decodeCursor('facilities', request.cursor, 'ss');
-  const fetched = await db
-    .selectFrom('facilities')
-    .selectAll()
-    .where('organisation_id', '=', organisationId)
-    .where((eb) => afterCreated(eb, after))
-    .orderBy('created_at')
-    .orderBy('id')
-    .limit(request.limit + 1)
-    .execute();
-  const { rows, page } = pageOf(fetched, request, 'facilities', (row) => [row.created_at, row.id]);
+  const { rows, page } = await oldestFirstPage(
+    db.selectFrom('facilities').selectAll().where('organisation_id', '=', organisationId),
+    request,
+    'facilities',
+  );
   return { facilities: rows.map(toFacility), ...page };
 }

@@ -5,7 +5,7 @@ import { notFound, DomainError } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getFacilityRow } from './facilities.js';
 import { bumpMeterVersions } from '../store/data-versions.js';
-import { afterCreated, decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
+import { oldestFirstPage, PAGE_SIZES, type PageInfo, type PageRequest } from './paging.js';
 
 export interface Meter {
   id: string;
@@ -86,17 +86,11 @@ export async function listOrganisationMeters(
 ): Promise<{ meters: Meter[] } & PageInfo> {
   const request = { limit: query.limit ?? PAGE_SIZES.records.default, cursor: query.cursor };
   if (query.facilityId !== undefined) return listMeters(db, organisationId, query.facilityId, request);
-  const after = decodeCursor('meters', request.cursor, 'ss');
-  const fetched = await db
-    .selectFrom('meters')
-    .selectAll()
-    .where('organisation_id', '=', organisationId)
-    .where((eb) => afterCreated(eb, after))
-    .orderBy('created_at')
-    .orderBy('id')
-    .limit(request.limit + 1)
-    .execute();
-  const { rows, page } = pageOf(fetched, request, 'meters', (row) => [row.created_at, row.id]);
+  const { rows, page } = await oldestFirstPage(
+    db.selectFrom('meters').selectAll().where('organisation_id', '=', organisationId),
+    request,
+    'meters',
+  );
   return { meters: rows.map(toMeter), ...page };
 }
 
@@ -107,17 +101,11 @@ export async function listMeters(
   facilityId: string,
   request: PageRequest = { limit: PAGE_SIZES.records.default },
 ): Promise<{ meters: Meter[] } & PageInfo> {
-  const after = decodeCursor('meters', request.cursor, 'ss');
   await getFacilityRow(db, organisationId, facilityId);
-  const fetched = await db
-    .selectFrom('meters')
-    .selectAll()
-    .where('facility_id', '=', facilityId)
-    .where((eb) => afterCreated(eb, after))
-    .orderBy('created_at')
-    .orderBy('id')
-    .limit(request.limit + 1)
-    .execute();
-  const { rows, page } = pageOf(fetched, request, 'meters', (row) => [row.created_at, row.id]);
+  const { rows, page } = await oldestFirstPage(
+    db.selectFrom('meters').selectAll().where('facility_id', '=', facilityId),
+    request,
+    'meters',
+  );
   return { meters: rows.map(toMeter), ...page };
 }

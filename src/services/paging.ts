@@ -4,7 +4,7 @@
  * neither repeat nor vanish between pages. The cursor is opaque to clients:
  * the list's name and the last row's key, as base64url JSON.
  */
-import type { Expression, ExpressionBuilder, SqlBool } from 'kysely';
+import type { Expression, ExpressionBuilder, SelectQueryBuilder, SqlBool } from 'kysely';
 import { DomainError } from '../domain/errors.js';
 
 export type CursorKey = readonly (string | number)[];
@@ -83,4 +83,25 @@ export function afterCreated<EB extends ExpressionBuilder<any, any>>(eb: EB, aft
   if (!after) return eb.lit(true);
   const [createdAt, id] = after as [string, string];
   return eb.or([eb('created_at', '>', createdAt), eb.and([eb('created_at', '=', createdAt), eb('id', '>', id)])]);
+}
+
+/**
+ * One page, oldest first, of a list ordered by (created_at, id): the keyset
+ * condition, the order, one row more than the page to know whether another
+ * follows, and the next cursor. `query` selects the list's rows (its table
+ * and filter); `list` names the list in its cursors.
+ */
+export async function oldestFirstPage<Row extends { created_at: string; id: string }>(
+  query: SelectQueryBuilder<any, any, Row>,
+  request: PageRequest,
+  list: string,
+): Promise<{ rows: Row[]; page: PageInfo }> {
+  const after = decodeCursor(list, request.cursor, 'ss');
+  const fetched = await query
+    .where((eb) => afterCreated(eb, after))
+    .orderBy('created_at')
+    .orderBy('id')
+    .limit(request.limit + 1)
+    .execute();
+  return pageOf(fetched, request, list, (row) => [row.created_at, row.id]);
 }

@@ -3,7 +3,7 @@ import type { TemperatureUnit } from '../engine/index.js';
 import { newId } from '../store/ids.js';
 import { notFound } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
-import { afterCreated, decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
+import { oldestFirstPage, PAGE_SIZES, type PageInfo, type PageRequest } from './paging.js';
 
 export interface WeatherStation {
   id: string;
@@ -55,16 +55,10 @@ export async function listStations(
   organisationId: string,
   request: PageRequest = { limit: PAGE_SIZES.records.default },
 ): Promise<{ stations: WeatherStation[] } & PageInfo> {
-  const after = decodeCursor('stations', request.cursor, 'ss');
-  const fetched = await db
-    .selectFrom('weather_stations')
-    .selectAll()
-    .where('organisation_id', '=', organisationId)
-    .where((eb) => afterCreated(eb, after))
-    .orderBy('created_at')
-    .orderBy('id')
-    .limit(request.limit + 1)
-    .execute();
-  const { rows, page } = pageOf(fetched, request, 'stations', (row) => [row.created_at, row.id]);
+  const { rows, page } = await oldestFirstPage(
+    db.selectFrom('weather_stations').selectAll().where('organisation_id', '=', organisationId),
+    request,
+    'stations',
+  );
   return { stations: rows.map(toStation), ...page };
 }
