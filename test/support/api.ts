@@ -9,7 +9,7 @@ import { migrateToLatest } from '../../src/store/migrate.js';
 import { buildApp } from '../../src/http/app.js';
 import { createKey, createOrganisation } from '../../src/services/organisations.js';
 import type { Role } from '../../src/domain/principal.js';
-import { dropTestDatabase, freshTestDatabaseUrl } from './database.js';
+import { acquireTestDatabase, releaseTestDatabase } from './database.js';
 
 export interface TestApi {
   app: FastifyInstance;
@@ -49,13 +49,14 @@ export function steppingClock(start = Date.parse('2026-01-01T00:00:00.000Z')): (
 
 /**
  * `databaseUrl` defaults to a fresh database of the project under test
- * (in-memory SQLite, or a new PostgreSQL schema that close() drops); a
- * given URL is left in place on close.
+ * (in-memory SQLite, or a migrated PostgreSQL schema that close() empties
+ * for the next test service of this worker); a given URL is left in place on close.
  */
 export async function makeTestApi(options: { databaseUrl?: string; now?: () => string } = {}): Promise<TestApi> {
-  const databaseUrl = options.databaseUrl ?? freshTestDatabaseUrl();
+  const acquired = options.databaseUrl === undefined ? acquireTestDatabase() : { url: options.databaseUrl, migrated: false };
+  const databaseUrl = acquired.url;
   const store = openStore(databaseUrl);
-  await migrateToLatest(store.db);
+  if (!acquired.migrated) await migrateToLatest(store.db);
   const now = options.now ?? steppingClock();
   const org = await createOrganisation(store.db, 'Organisation A (test)', now());
   const other = await createOrganisation(store.db, 'Organisation B (test)', now());
@@ -100,7 +101,7 @@ export async function makeTestApi(options: { databaseUrl?: string; now?: () => s
     close: async () => {
       await app.close();
       await store.close();
-      if (options.databaseUrl === undefined) await dropTestDatabase(databaseUrl);
+      if (options.databaseUrl === undefined) await releaseTestDatabase(databaseUrl);
     },
   };
 }
