@@ -6,6 +6,7 @@
  * version supersedes it and the history keeps both.
  */
 import {
+  TooFewPeriodsError,
   adjustmentsForPeriod,
   alignPeriods,
   analyseBaseline,
@@ -260,8 +261,8 @@ function analyseWindow(
   try {
     return analyseBaseline(readings, weather, { ...rest, temperatureForm: temperature });
   } catch (error) {
-    if (!(error instanceof RangeError)) throw error;
-    const { excluded } = alignPeriods(readings, weather, options);
+    if (!(error instanceof TooFewPeriodsError)) throw error;
+    const { excluded } = error;
     const left =
       excluded.length > 0
         ? `; ${excluded.length} of ${readings.length} readings in ${span} were left out: ${excluded.map((p) => `${describeReading(p)}: ${p.reason}`).join('; ')}`

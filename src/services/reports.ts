@@ -5,6 +5,8 @@
  * the report assembly. Read-only: a report changes nothing it reads.
  */
 import {
+  TooFewPeriodsError,
+  checkAdjustment,
   contractYearsOverlapping,
   describeDateRanges,
   missingWeatherDates,
@@ -408,6 +410,12 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     sufficiency: { sufficient: model.sufficiency.sufficient, reasons: model.sufficiency.reasons },
     overrides: model.overrides,
   };
+  // A stored adjustment that cannot be applied (brought in behind the API's back) is named, not blamed on the weather.
+  const broken = ctx.adjustments.map(checkAdjustment).find((error) => error !== null);
+  if (broken) {
+    const usable = overlapping.filter((a) => a.id !== broken.adjustmentId && checkAdjustment(a) === null);
+    return missingMeterReport(identity, baselineInfo, `${broken.message}: withdraw it and record it again`, usable);
+  }
   const start = window.from > baseline.end ? window.from : baseline.end;
   const candidates = await loadReadings(db, meter.id, { startOnOrAfter: baseline.end, startBefore: window.to, endAfter: start });
   const readings: Reading[] = candidates.filter((r) => inWindowByMidpoint(r, window));
@@ -422,7 +430,7 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
       adjustments: ctx.adjustments,
     });
   } catch (error) {
-    if (!(error instanceof RangeError)) throw error;
+    if (!(error instanceof TooFewPeriodsError)) throw error;
     // Name the real cause: the dates without weather at the meter's station.
     const missingDates = describeDateRanges(missingWeatherDates(readings, weather));
     return missingMeterReport(

@@ -7,6 +7,8 @@
  * savings-cache.ts, which is what the route serves.
  */
 import {
+  TooFewPeriodsError,
+  InvalidAdjustmentError,
   alignPeriods,
   baselineSufficiency,
   projectionRefusals,
@@ -38,7 +40,7 @@ import type { Executor } from './context.js';
 import { getMeterRow } from './meters.js';
 import { loadFilledDays } from './weather-gaps.js';
 import { loadReadings, loadWeatherFor } from './meter-data.js';
-import { toAdjustment, toEngineAdjustment, type Adjustment } from './adjustments.js';
+import { adjustmentProblem, toAdjustment, toEngineAdjustment, type Adjustment } from './adjustments.js';
 
 export interface SavingsQuery {
   from?: string;
@@ -151,8 +153,9 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
   try {
     document = savingsFromAligned(model.fit, { limits: model.limits, excluded: model.excluded }, aligned, options);
   } catch (error) {
-    if (!(error instanceof RangeError)) throw error;
-    const { excluded } = aligned;
+    if (error instanceof InvalidAdjustmentError) throw adjustmentProblem(error);
+    if (!(error instanceof TooFewPeriodsError)) throw error;
+    const { excluded } = error;
     const reasons = excluded.map((p) => `reading ${p.start}..${p.end}: ${p.reason}`).join('; ');
     const missing = missingWeatherDates(excluded, weather);
     const cause =

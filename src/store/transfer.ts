@@ -19,6 +19,7 @@ import { ROLES } from './api-keys.js';
 import { GENESIS_HASH, verifyAuditChain, verifyAuditRows, type ChainVerdict } from './audit.js';
 import { readSnapshot, writeTransaction } from './connect.js';
 import { bumpMeterVersions } from './data-versions.js';
+import { firstRuleBroken } from './transfer-rules.js';
 import type { AuditRow, BaselineRow, Database } from './schema.js';
 
 export const EXPORT_FORMAT = 'mvledger-export';
@@ -609,6 +610,8 @@ export function checkDocument(value: unknown): ExportDocument {
   for (const table of TRANSFER_TABLES)
     tables[table] = known.includes(table) ? checkTable(table, value.tables[table], organisation.id, version) : [];
   checkReferences(tables);
+  const broken = firstRuleBroken(tables);
+  if (broken) throw new TransferInputError(broken);
   const auditHead = { seq: head.seq as number, hash: head.hash as string };
   checkAuditTrail(organisation.id, tables.audit_log, auditHead);
   checkBaselineHashes(tables.baselines);
