@@ -51,11 +51,16 @@ export function adjustmentPerDay(a: NonRoutineAdjustment): number {
  */
 export function checkAdjustment(a: NonRoutineAdjustment): InvalidAdjustmentError | null {
   try {
-    const days = spanDays(a);
+    spanDays(a);
     const amount = amountOf(a);
     statedUncertainty(a);
-    const total = amount.kind === 'perDay' ? amount.value * days : amount.value;
-    const beyond = beyondBoundPerDay(total, a.start, a.end, MAX_USE_PER_DAY);
+    // perDay is bounded as it stands (the API's bound); a total by its share per day. Never perDay × days: rounding at the edge.
+    const beyond =
+      amount.kind === 'perDay'
+        ? Math.abs(amount.value) > MAX_USE_PER_DAY.max
+          ? `beyond ±${MAX_USE_PER_DAY.max} ${MAX_USE_PER_DAY.per}`
+          : null
+        : beyondBoundPerDay(amount.value, a.start, a.end, MAX_USE_PER_DAY);
     if (beyond) return new InvalidAdjustmentError(a.id, amount.kind, beyond);
     const beyondUncertainty = a.uncertainty == null ? null : beyondBoundPerDay(a.uncertainty, a.start, a.end, MAX_USE_PER_DAY);
     if (beyondUncertainty) return new InvalidAdjustmentError(a.id, 'uncertainty', beyondUncertainty);
