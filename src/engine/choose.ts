@@ -111,6 +111,17 @@ export interface BaselineChoice {
 }
 
 /**
+ * Whether α can be tested at: inside (0, 1), and so far from 0 that the
+ * confidence 1 − α is still below 1 in double precision (a level under about
+ * 1.1e-16 rounds it to 1, and no t quantile exists there).
+ * @example isUsableSignificanceLevel(0.05) // true
+ * @example isUsableSignificanceLevel(5e-324) // false
+ */
+export function isUsableSignificanceLevel(alpha: number): boolean {
+  return alpha > 0 && alpha < 1 && 1 - alpha < 1;
+}
+
+/**
  * Fit every shape to the baseline periods and choose one. Throws
  * TooFewPeriodsError below MIN_BASELINE_PERIODS (with no excluded periods:
  * analyseBaseline, which aligns, says which were left out).
@@ -119,7 +130,8 @@ export function chooseBaseline(periods: readonly Period[], options: SelectionOpt
   const alpha = options.significanceLevel ?? DEFAULT_SIGNIFICANCE_LEVEL;
   const minPoints = options.minPointsPerSegment ?? DEFAULT_MIN_POINTS_PER_SEGMENT;
   const limits: Guideline14Limits = { ...DEFAULT_GUIDELINE14_LIMITS, ...options.guideline14 };
-  if (!(alpha > 0 && alpha < 1)) throw new RangeError(`significanceLevel must lie in (0, 1), got ${alpha}`);
+  if (!isUsableSignificanceLevel(alpha))
+    throw new RangeError(`significanceLevel must lie in (0, 1) with 1 − α below 1 in double precision, got ${alpha}`);
   if (!Number.isInteger(minPoints) || minPoints < 1)
     throw new RangeError(`minPointsPerSegment must be a positive integer, got ${minPoints}`);
   if (periods.length < MIN_BASELINE_PERIODS) throw new TooFewPeriodsError('baseline', MIN_BASELINE_PERIODS, periods.length, []);

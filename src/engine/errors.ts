@@ -46,3 +46,23 @@ export class InvalidAdjustmentError extends Error {
     super(`adjustment ${adjustmentId}: ${reason}`);
   }
 }
+
+/**
+ * A station's record too thin to build a normal year from: the calendar days
+ * (MM-DD) with fewer than `needed` of the years asked for.
+ */
+export class ShortHistoryError extends Error {
+  override readonly name = 'ShortHistoryError';
+
+  constructor(
+    readonly shortDays: readonly string[],
+    readonly needed: number,
+    readonly years: { from: number; to: number },
+  ) {
+    const listed = shortDays.slice(0, 10).join(', ');
+    const more = shortDays.length > 10 ? ` and ${shortDays.length - 10} more` : '';
+    super(
+      `calendar days with fewer than ${needed} of the ${years.to - years.from + 1} years ${years.from}–${years.to} on record: ${listed}${more} (fill the gaps, or choose other years)`,
+    );
+  }
+}

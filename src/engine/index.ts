@@ -30,6 +30,7 @@ export { checkReadings, checkWeather, type InputProblem } from './validate.js';
 export * from './bounds.js';
 export {
   chooseBaseline,
+  isUsableSignificanceLevel,
   nestedFTest,
   resolveTemperatureForm,
   OVERFIT_RATIO,

@@ -10,6 +10,7 @@ import {
   adjustmentsForPeriod,
   alignPeriods,
   analyseBaseline,
+  isUsableSignificanceLevel,
   baselineSufficiency,
   checkReadings,
   type BaselineAnalysis,
@@ -258,6 +259,11 @@ function analyseWindow(
     );
   }
   const { temperature, ...rest } = options;
+  // The schema admits any level in (0, 1); one so small that 1 − α rounds to 1 cannot be tested at.
+  if (rest.significanceLevel !== undefined && !isUsableSignificanceLevel(rest.significanceLevel)) {
+    const message = `${rest.significanceLevel} is too small to test at: 1 − α rounds to 1 in double precision (the smallest usable level is about 1.1e-16)`;
+    throw new DomainError('unprocessable', `options.significanceLevel: ${message}`, [{ field: 'options.significanceLevel', message }]);
+  }
   try {
     return analyseBaseline(readings, weather, { ...rest, temperatureForm: temperature });
   } catch (error) {

@@ -8,6 +8,7 @@ import {
   alignPeriods,
   analyseBaseline,
   chooseBaseline,
+  isUsableSignificanceLevel,
   MIN_BASELINE_PERIODS,
   savingsFromAligned,
   TooFewPeriodsError,
@@ -43,5 +44,19 @@ describe('TooFewPeriodsError', () => {
     expect(() => savingsFromAligned(fit, { limits: { cvrmse: 0.2, nmbe: 0.05 } as never, excluded: [] }, aligned)).toThrow(
       expect.objectContaining({ purpose: 'savings', usable: 0, excluded: aligned.excluded }),
     );
+  });
+});
+
+describe('a significance level too small to test at', () => {
+  it('is misuse (RangeError) in the engine, and the predicate tells callers beforehand', () => {
+    const periods = alignPeriods(BILLS, WEATHER).periods;
+    // 1 − 5e-324 === 1 and 1 − 2⁻⁵³ < 1 in IEEE 754 double precision (common practice).
+    expect(isUsableSignificanceLevel(5e-324)).toBe(false);
+    expect(isUsableSignificanceLevel(2 ** -53)).toBe(true);
+    expect(isUsableSignificanceLevel(0.05)).toBe(true);
+    expect(isUsableSignificanceLevel(0)).toBe(false);
+    expect(isUsableSignificanceLevel(1)).toBe(false);
+    expect(() => chooseBaseline(periods, { significanceLevel: 5e-324 })).toThrow(RangeError);
+    expect(() => chooseBaseline(periods, { significanceLevel: 2 ** -53 })).not.toThrow();
   });
 });
