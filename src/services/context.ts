@@ -4,7 +4,8 @@
  * baselines) and call the engine; routes only translate HTTP to these calls.
  */
 import type { Kysely, Transaction } from 'kysely';
-import { writeTransaction, type Store } from '../store/connect.js';
+import type { Store } from '../store/connect.js';
+import { writeTransaction } from '../store/transactions.js';
 import type { Database } from '../store/schema.js';
 import type { Principal } from '../domain/principal.js';
 import { appendAudit, type AuditEntry } from '../store/audit.js';

@@ -42,7 +42,7 @@ import type {
   SignatureData,
 } from '../reports/savings-report.js';
 import type { Kysely } from 'kysely';
-import { readSnapshot } from '../store/connect.js';
+import { readSnapshot } from '../store/transactions.js';
 import type { Database, MeterRow } from '../store/schema.js';
 import { signatureChartPoints } from '../reports/svg/signature-points.js';
 import type { Executor } from './context.js';

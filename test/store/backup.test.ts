@@ -18,7 +18,7 @@ import type { FastifyInstance } from 'fastify';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runDemo, type DemoSeed } from '../../src/demo/main.js';
 import { buildApp } from '../../src/http/app.js';
-import { BackupInputError, backupSqlite, postgresGuidance, restoreSqlite, verifyLedger } from '../../src/store/backup.js';
+import { BackupInputError, backupSqlite, postgresGuidance, restoreSqlite, verifyLedger } from '../../src/store/backup/index.js';
 import { openStore, type Store } from '../../src/store/connect.js';
 import { testDialect } from '../support/database.js';
 

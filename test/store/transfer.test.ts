@@ -31,7 +31,7 @@ import {
   exportOrganisation,
   importOrganisation,
   type ExportDocument,
-} from '../../src/store/transfer.js';
+} from '../../src/store/transfer/index.js';
 import { dropTestDatabase, freshTestDatabaseUrl, testDialect } from '../support/database.js';
 import { databaseDigest } from '../support/db-digest.js';
 

@@ -15,7 +15,7 @@ import {
   type InputProblem,
   type RateEntry,
   type Reading,
-} from '../engine/index.js';
+} from '../../engine/index.js';
 
 type Cell = string | number | null;
 type Row = Record<string, Cell>;
