@@ -33,18 +33,11 @@ import { assembleReport, type FacilityInput } from '../reports/assemble.js';
 import type { Rollup } from '../reports/totals.js';
 import { guaranteeStatus } from '../reports/guarantees.js';
 import { meterReport, missingMeterReport, type StoredAdjustment } from '../reports/meter-report.js';
-import type {
-  ContractSummary,
-  GuaranteeStatus,
-  MeterReport,
-  ReportWindow,
-  SavingsReport,
-  SignatureData,
-} from '../reports/savings-report.js';
+import type { ContractSummary, GuaranteeStatus, MeterReport, ReportWindow, SavingsReport } from '../reports/savings-report.js';
 import type { Kysely } from 'kysely';
 import { readSnapshot } from '../store/transactions.js';
 import type { Database, MeterRow } from '../store/schema.js';
-import { signatureChartPoints } from '../reports/svg/signature-points.js';
+import { signatureData } from '../reports/signature-data.js';
 import type { Executor } from './context.js';
 import { DEFAULT_CONTRACT_CONFIDENCE, toContract } from './contracts.js';
 import { shapeName } from '../reports/shape-names.js';
@@ -479,26 +472,4 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
   if (baselineFills)
     report.notes.push(`baseline weather: ${describeFills(baselineFills.days, baselineFills.interpolation, baselineFills.secondStation)}`);
   return report;
-}
-
-function signatureData(model: FrozenModel, savings: SavingsDocument, unit: string): SignatureData {
-  // A reporting period's expected use per day is the model's projection of it: its model baseline over its days.
-  // Each reporting period is drawn net of its non-routine adjustments, so its mark sits against the line as its savings do.
-  const reporting = savings.periods.map((p) => ({
-    ...p,
-    usePerDay: p.actual / p.days,
-    expectedPerDay: p.modelBaseline / p.days,
-    adjustment: p.adjustment,
-  }));
-  const series = signatureChartPoints(model.fit, model.baselinePeriods, reporting, model.temperatureUnit, unit);
-  const labelled = (points: typeof series.baseline) => points.map((p) => ({ temp: p.temp, usePerDay: p.usePerDay, label: p.label ?? '' }));
-  return {
-    temperatureUnit: model.temperatureUnit,
-    baseline: labelled(series.baseline),
-    reporting: labelled(series.reporting),
-    fittedLine: series.fittedLine.map((p) => ({ temp: p.temp, usePerDay: p.usePerDay })),
-    temperatureForm: series.temperatureForm,
-    expected: labelled(series.expected),
-    reportingNetOfAdjustments: series.reportingNetOfAdjustments,
-  };
 }
