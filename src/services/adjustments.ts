@@ -198,15 +198,6 @@ export async function listAdjustments(
   return { meterId: meter.id, unit: meter.unit, ...page, adjustments: rows.map(toAdjustment) };
 }
 
-/** Every adjustment of the given meters, by meter, in date order. */
-export async function adjustmentRowsForMeters(db: Executor, meterIds: readonly string[]): Promise<Map<string, AdjustmentRow[]>> {
-  const byMeter = new Map<string, AdjustmentRow[]>();
-  if (meterIds.length === 0) return byMeter;
-  const rows = await db.selectFrom('adjustments').selectAll().where('meter_id', 'in', meterIds).orderBy('period_start').execute();
-  for (const row of rows) byMeter.set(row.meter_id, [...(byMeter.get(row.meter_id) ?? []), row]);
-  return byMeter;
-}
-
 /**
  * A stored adjustment the engine cannot apply (one brought in before a rule
  * was checked, or edited in the database): unprocessable, naming it.

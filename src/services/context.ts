@@ -3,7 +3,7 @@
  * time. Services hold the ledger's rules (ownership, conflicts, frozen
  * baselines) and call the engine; routes only translate HTTP to these calls.
  */
-import type { Kysely, Transaction } from 'kysely';
+import type { Transaction } from 'kysely';
 import type { Store } from '../store/connect.js';
 import { writeTransaction } from '../store/transactions.js';
 import type { Database } from '../store/schema.js';
@@ -18,7 +18,7 @@ export interface ServiceContext {
 }
 
 export type Tx = Transaction<Database>;
-export type Executor = Kysely<Database> | Transaction<Database>;
+export type { Executor } from '../store/executor.js';
 
 /**
  * Run `work` in one transaction: every write in it, audit rows included,

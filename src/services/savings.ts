@@ -34,7 +34,8 @@ import {
 import { DomainError } from '../domain/errors.js';
 import { BoundedCache } from '../lib/bounded-cache.js';
 import type { BaselineRow } from '../store/schema.js';
-import { fromStoredJson, nonFiniteToNull, verifyBaselineContent } from '../store/baseline-content.js';
+import { fromStoredJson, verifyBaselineContent } from '../store/baseline-content.js';
+import { nonFiniteToNull } from '../lib/non-finite.js';
 import { overridesOf, type BaselineFitOptions, type BaselineInputs } from './baselines/index.js';
 import type { Executor } from './context.js';
 import { getMeterRow } from './meters.js';

@@ -1,5 +1,5 @@
 /**
- * Backup and restore of a SQLite ledger (src/store/backup.ts) on the invented
+ * Backup and restore of a SQLite ledger (src/store/backup/) on the invented
  * demo district: a backup taken while a service on the same file keeps
  * writing is one consistent snapshot; restoring it into a new file gives a
  * ledger whose chains verify and whose savings reports are byte-identical.

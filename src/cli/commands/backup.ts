@@ -2,7 +2,7 @@
  * `mvledger backup --out FILE` and `mvledger restore --in FILE [--force]` on
  * the SQLite file named by DATABASE_URL; for PostgreSQL they print the
  * pg_dump / pg_restore commands and exit 2. The work is done by
- * store/backup.ts; this module reads the arguments and prints one line.
+ * store/backup/; this module reads the arguments and prints one line.
  */
 import { DatabaseUrlError, parseDatabaseUrl, splitPostgresUrl } from '../../store/database-url.js';
 import { BackupInputError, backupSqlite, describeVerdict, postgresGuidance, restoreSqlite } from '../../store/backup/index.js';

@@ -7,6 +7,7 @@
  */
 import { existsSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import type { Store } from '../../store/connect.js';
+import { findOrganisation } from '../../store/organisations.js';
 import { DatabaseUrlError, parseDatabaseUrl } from '../../store/database-url.js';
 import {
   TRANSFER_TABLES,
@@ -43,7 +44,7 @@ export async function runExport(
   const databaseUrl = env.DATABASE_URL ?? DEFAULT_DATABASE_URL;
   refuseMissingSqliteFile(databaseUrl);
   return withStore(databaseUrl, async (store) => {
-    const found = await store.db.selectFrom('organisations').select('id').where('id', '=', organisationId).executeTakeFirst();
+    const found = await findOrganisation(store.db, organisationId);
     if (!found) throw new UsageError(`--org: no organisation ${organisationId} in ${store.location}`);
     const document = await exportOrganisation(store.db, organisationId, now()).catch(asUsage(''));
     const text = `${JSON.stringify(document)}\n`;

@@ -10,12 +10,6 @@ export function twoSidedTCritical(confidence: number, dof: number): number {
   return jStat.studentt.inv((1 + confidence) / 2, dof);
 }
 
-/** Two-sided p-value of a t statistic with `dof` degrees of freedom. */
-export function twoSidedTPValue(t: number, dof: number): number {
-  if (!Number.isFinite(t)) return Number.isNaN(t) ? Number.NaN : 0;
-  return 2 * (1 - jStat.studentt.cdf(Math.abs(t), dof));
-}
-
 /** Upper critical value of the F distribution: P(F ≤ f) = 1 − level. */
 export function fCritical(level: number, df1: number, df2: number): number {
   return jStat.centralF.inv(1 - level, df1, df2);

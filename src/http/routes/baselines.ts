@@ -1,7 +1,14 @@
 /** Baselines: fit a meter's baseline window, choose a shape, freeze it, read its history and its energy signature. */
 import { z } from 'zod';
 import type { RouteDeps } from '../app.js';
-import { baselineSignatureSvg, chooseModel, createBaseline, freezeBaseline, getBaseline, listBaselines } from '../../services/baselines/index.js';
+import {
+  baselineSignatureSvg,
+  chooseModel,
+  createBaseline,
+  freezeBaseline,
+  getBaseline,
+  listBaselines,
+} from '../../services/baselines/index.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageQuery } from '../schemas/common.js';
 import {
   baselineHistorySchema,
