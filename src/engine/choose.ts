@@ -114,8 +114,8 @@ export interface BaselineChoice {
  * Whether α can be tested at: inside (0, 1), and so far from 0 that the
  * confidence 1 − α is still below 1 in double precision (a level under about
  * 1.1e-16 rounds it to 1, and no t quantile exists there).
- * @example isUsableSignificanceLevel(0.05) // true
- * @example isUsableSignificanceLevel(5e-324) // false
+ * @example isUsableSignificanceLevel(0.05) // true — an ordinary level (source: by hand)
+ * @example isUsableSignificanceLevel(5e-324) // false — 1 − 5e-324 rounds to 1 in IEEE 754 double precision (source: common practice)
  */
 export function isUsableSignificanceLevel(alpha: number): boolean {
   return alpha > 0 && alpha < 1 && 1 - alpha < 1;
