@@ -28,7 +28,7 @@ import {
   type SavingsDocument,
   type TemperatureUnit,
 } from '../engine/index.js';
-import { DomainError } from '../domain/errors.js';
+import { DomainError, summarise } from '../domain/errors.js';
 import { assembleReport, type FacilityInput } from '../reports/assemble.js';
 import type { Rollup } from '../reports/totals.js';
 import { guaranteeStatus } from '../reports/guarantees.js';
@@ -161,10 +161,9 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
     const reasons = facilities
       .flatMap((f) => f.meters.map((m) => ({ field: `meter ${m.id} (${m.name})`, message: m.missing ?? '' })))
       .sort((a, b) => Number(b.message.startsWith('missing weather')) - Number(a.message.startsWith('missing weather')));
-    const first = reasons[0];
     throw new DomainError(
       'unprocessable',
-      `no meter of ${scope} has reporting data in ${window.label} (${window.from}..${window.to})${first ? `: ${first.field}: ${first.message}${reasons.length > 1 ? ` (and ${reasons.length - 1} more meter(s), listed in errors)` : ''}` : ''}; readings count in the window that holds their midpoint`,
+      `no meter of ${scope} has reporting data in ${window.label} (${window.from}..${window.to})${reasons.length > 0 ? `: ${summarise(reasons)}` : ''}; readings count in the window that holds their midpoint`,
       reasons.slice(0, 100),
     );
   }

@@ -16,7 +16,7 @@ import {
 import { toStoredJson } from '../../store/baseline-content.js';
 import { newId } from '../../store/ids.js';
 import type { BaselineRow } from '../../store/schema.js';
-import { DomainError } from '../../domain/errors.js';
+import { DomainError, summarise } from '../../domain/errors.js';
 import { audit, inTransaction, type ServiceContext } from '../context.js';
 import { getMeterRow } from '../meters.js';
 import { loadDailyWeather, loadReadings, stationUnit } from '../meter-data.js';
@@ -46,11 +46,7 @@ function analyseWindow(
   const problems = checkReadings(readings);
   if (problems.length > 0) {
     const errors = problems.map((p) => ({ field: describeReading(readings[p.index]!), message: `${p.field}: ${p.message}` }));
-    throw new DomainError(
-      'unprocessable',
-      `${errors[0]!.field}: ${errors[0]!.message}; the stored readings in ${span} must be fixed before a fit`,
-      errors,
-    );
+    throw new DomainError('unprocessable', `${summarise(errors)}; the stored readings in ${span} must be fixed before a fit`, errors);
   }
   const { temperature, ...rest } = options;
   // The schema admits any level in (0, 1); one so small that 1 − α rounds to 1 cannot be tested at.
