@@ -1,7 +1,15 @@
 /** Baselines: fit a meter's baseline window, choose a shape, freeze it, read its history and its energy signature. */
 import { z } from 'zod';
 import type { RouteDeps } from '../route-deps.js';
-import { baselineSignatureSvg, chooseModel, createBaseline, freezeBaseline, getBaseline, listBaselines } from '../../services/baselines.js';
+import {
+  baselineSignatureData,
+  chooseModel,
+  createBaseline,
+  freezeBaseline,
+  getBaseline,
+  listBaselines,
+} from '../../services/baselines/index.js';
+import { renderBaselineSignature } from '../../reports/svg/baseline-signature.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageQuery } from '../schemas/common.js';
 import {
   baselineHistorySchema,
@@ -130,6 +138,10 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
     async (request, reply) =>
       reply
         .type(SVG_CONTENT_TYPE)
-        .send(await baselineSignatureSvg(deps.store.db, requestContext(request, deps).organisationId, request.params.id)),
+        .send(
+          renderBaselineSignature(
+            await baselineSignatureData(deps.store.db, requestContext(request, deps).organisationId, request.params.id),
+          ),
+        ),
   );
 }

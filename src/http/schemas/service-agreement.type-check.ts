@@ -46,7 +46,7 @@ import type { stationRecordSummary } from '../../services/station-records.js';
 import type { createAdjustment, listAdjustments, withdrawAdjustment } from '../../services/adjustments.js';
 import type { createApiKey, listApiKeys, revokeApiKey } from '../../services/api-keys.js';
 import type { listAuditEntries, verifyAudit } from '../../services/audit.js';
-import type { chooseModel, createBaseline, freezeBaseline, getBaseline, listBaselines } from '../../services/baselines.js';
+import type { chooseModel, createBaseline, freezeBaseline, getBaseline, listBaselines } from '../../services/baselines/index.js';
 import type { getContract, putContract } from '../../services/contracts.js';
 import type { getNormalYear, normalYearFromStationHistory, putNormalYear } from '../../services/normal-years.js';
 import type { listObservations, putObservations } from '../../services/observations.js';
