@@ -4,6 +4,7 @@
  */
 import { parseArgs } from 'node:util';
 import {
+  isUsableSignificanceLevel,
   CONFIDENCE_LEVELS,
   DEFAULT_MIN_COVERAGE,
   DEFAULT_MIN_POINTS_PER_SEGMENT,
@@ -112,7 +113,7 @@ function commonOptions(values: Values): CommonOptions {
       values.alpha,
       'alpha',
       DEFAULT_SIGNIFICANCE_LEVEL,
-      (v) => v > 0 && v < 1,
+      isUsableSignificanceLevel,
       'a level in (0, 1), e.g. 0.05',
     ),
     minPointsPerSegment: numberOption(

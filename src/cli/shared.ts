@@ -4,7 +4,8 @@
  * the database named by DATABASE_URL (migrated first, closed after).
  */
 import { parseArgs, type ParseArgsConfig } from 'node:util';
-import { DatabaseUrlError, openStore, type Store } from '../store/connect.js';
+import { openStore, type Store } from '../store/connect.js';
+import { DatabaseUrlError } from '../store/database-url.js';
 import { migrateToLatest } from '../store/migrate.js';
 import { oneLine, UsageError } from './errors.js';
 

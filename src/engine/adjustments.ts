@@ -6,8 +6,10 @@
  * (the facility would have used more without the measures); a negative one
  * takes away from it.
  */
-import { parseIsoDate } from './dates.js';
+import { parseIsoDate, dayNumber } from './dates.js';
 import { combineInQuadrature } from './rollup.js';
+import { InvalidAdjustmentError } from './errors.js';
+import { beyondBoundPerDay, MAX_USE_PER_DAY } from './bounds.js';
 
 /**
  * One non-routine adjustment over [start, end). Exactly one of `quantity`
@@ -30,13 +32,43 @@ export interface NonRoutineAdjustment {
 }
 
 /**
- * The adjustment per day: `perDay`, or `quantity` / days. Throws RangeError
- * when both or neither are set, the amount is not finite, or end ≤ start.
+ * The adjustment per day: `perDay`, or `quantity` / days. Throws
+ * InvalidAdjustmentError when both or neither are set, the amount is not
+ * finite, a date is not ISO, or end ≤ start.
  */
 export function adjustmentPerDay(a: NonRoutineAdjustment): number {
   const days = spanDays(a);
   const amount = amountOf(a);
   return amount.kind === 'perDay' ? amount.value : amount.value / days;
+}
+
+/**
+ * What is wrong with an adjustment as the engine would apply it (the rules
+ * the API checks on the way in: exactly one of quantity and perDay, finite,
+ * within the use-per-day bound, ISO dates with end after start, an
+ * uncertainty of at least 0), or null. For data brought in another way
+ * (an import) before it is stored.
+ */
+export function checkAdjustment(a: NonRoutineAdjustment): InvalidAdjustmentError | null {
+  try {
+    spanDays(a);
+    const amount = amountOf(a);
+    statedUncertainty(a);
+    // perDay is bounded as it stands (the API's bound); a total by its share per day. Never perDay × days: rounding at the edge.
+    const beyond =
+      amount.kind === 'perDay'
+        ? Math.abs(amount.value) > MAX_USE_PER_DAY.max
+          ? `beyond ±${MAX_USE_PER_DAY.max} ${MAX_USE_PER_DAY.per}`
+          : null
+        : beyondBoundPerDay(amount.value, a.start, a.end, MAX_USE_PER_DAY);
+    if (beyond) return new InvalidAdjustmentError(a.id, amount.kind, beyond);
+    const beyondUncertainty = a.uncertainty == null ? null : beyondBoundPerDay(a.uncertainty, a.start, a.end, MAX_USE_PER_DAY);
+    if (beyondUncertainty) return new InvalidAdjustmentError(a.id, 'uncertainty', beyondUncertainty);
+    return null;
+  } catch (error) {
+    if (error instanceof InvalidAdjustmentError) return error;
+    throw error;
+  }
 }
 
 /** Days that two [start, end) spans have in common (0 when disjoint). */
@@ -48,7 +80,7 @@ export function adjustmentOverlap(a: { start: string; end: string }, b: { start:
 
 /**
  * The total adjustment falling in [start, end): Σ perDay × days in common.
- * Throws RangeError as adjustmentPerDay does for a malformed adjustment.
+ * Throws InvalidAdjustmentError as adjustmentPerDay does for a malformed adjustment.
  */
 export function adjustmentsForPeriod(adjustments: readonly NonRoutineAdjustment[], start: string, end: string): number {
   const period = { start, end };
@@ -71,7 +103,7 @@ export function adjustmentsForPeriod(adjustments: readonly NonRoutineAdjustment[
  * estimated total has one error, shared by its days, so a part carries that
  * share of it (not the square root of the share, as independent daily
  * errors would). The periods must not overlap one another. Throws
- * RangeError for a malformed adjustment or an uncertainty that is negative
+ * InvalidAdjustmentError for a malformed adjustment or an uncertainty that is negative
  * or not finite.
  */
 export function adjustmentUncertaintyInPeriods(
@@ -107,28 +139,26 @@ export function findOverlappingAdjustment<T extends { start: string; end: string
 
 function amountOf(a: NonRoutineAdjustment): { kind: 'quantity' | 'perDay'; value: number } {
   if ((a.quantity === null) === (a.perDay === null)) {
-    throw new RangeError(`adjustment ${a.id}: exactly one of quantity and perDay must be set`);
+    throw new InvalidAdjustmentError(a.id, 'quantity', 'exactly one of quantity and perDay must be set');
   }
   const amount = a.quantity !== null ? { kind: 'quantity' as const, value: a.quantity } : { kind: 'perDay' as const, value: a.perDay! };
-  if (!Number.isFinite(amount.value)) throw new RangeError(`adjustment ${a.id}: ${amount.kind} is not a finite number`);
+  if (!Number.isFinite(amount.value)) throw new InvalidAdjustmentError(a.id, amount.kind, `${amount.kind} is not a finite number`);
   return amount;
 }
 
 function statedUncertainty(a: NonRoutineAdjustment): number {
   const value = a.uncertainty ?? 0;
   if (!(Number.isFinite(value) && value >= 0))
-    throw new RangeError(`adjustment ${a.id}: uncertainty must be a finite number of at least 0, got ${value}`);
+    throw new InvalidAdjustmentError(a.id, 'uncertainty', `uncertainty must be a finite number of at least 0, got ${value}`);
   return value;
 }
 
 function spanDays(a: NonRoutineAdjustment): number {
-  const days = dayNumber(a.end) - dayNumber(a.start);
-  if (days <= 0) throw new RangeError(`adjustment ${a.id}: end ${a.end} is not after start ${a.start}`);
+  const start = parseIsoDate(a.start);
+  const end = parseIsoDate(a.end);
+  if (start === null) throw new InvalidAdjustmentError(a.id, 'start', `start is not an ISO date: ${JSON.stringify(a.start)}`);
+  if (end === null) throw new InvalidAdjustmentError(a.id, 'end', `end is not an ISO date: ${JSON.stringify(a.end)}`);
+  const days = end - start;
+  if (days <= 0) throw new InvalidAdjustmentError(a.id, 'end', `end ${a.end} is not after start ${a.start}`);
   return days;
-}
-
-function dayNumber(date: string): number {
-  const value = parseIsoDate(date);
-  if (value === null) throw new RangeError(`not an ISO date: ${JSON.stringify(date)}`);
-  return value;
 }

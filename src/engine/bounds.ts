@@ -18,7 +18,7 @@
  * its length.
  */
 import { parseIsoDate } from './dates.js';
-import type { InputProblem } from './validate.js';
+import type { InputProblem } from './input-problem.js';
 
 /** One bound: the figure, what it is per, and where it comes from. */
 export interface InputBound {

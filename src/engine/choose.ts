@@ -34,6 +34,7 @@
  * sentence with numbers an engineer can check, and each holds a stated error
  * rate, measured by simulation (test/bench/calibration.ts).
  */
+import { MIN_BASELINE_PERIODS, TooFewPeriodsError } from './errors.js';
 import { MODEL_NAMES, type ModelName, type Period, type TemperatureForm } from './types.js';
 import { fitShape, periodsHaveDays, withAutocorrelation, type ShapeFit, type ShapeFitResult } from './fit/fit-shape.js';
 import { billDaysForForm } from './fit/day-resolved/profile.js';
@@ -109,15 +110,31 @@ export interface BaselineChoice {
   settings: { significanceLevel: number; minPointsPerSegment: number; guideline14: Guideline14Limits; temperatureForm: TemperatureForm };
 }
 
-/** Fit every shape to the baseline periods and choose one. Throws if there are fewer than 2 periods. */
+/**
+ * Whether α can be tested at: inside (0, 1), and so far from 0 that the
+ * confidence 1 − α is still below 1 in double precision (a level under about
+ * 1.1e-16 rounds it to 1, and no t quantile exists there).
+ * @example isUsableSignificanceLevel(0.05) // true — an ordinary level (source: by hand)
+ * @example isUsableSignificanceLevel(5e-324) // false — 1 − 5e-324 rounds to 1 in IEEE 754 double precision (source: common practice)
+ */
+export function isUsableSignificanceLevel(alpha: number): boolean {
+  return alpha > 0 && alpha < 1 && 1 - alpha < 1;
+}
+
+/**
+ * Fit every shape to the baseline periods and choose one. Throws
+ * TooFewPeriodsError below MIN_BASELINE_PERIODS (with no excluded periods:
+ * analyseBaseline, which aligns, says which were left out).
+ */
 export function chooseBaseline(periods: readonly Period[], options: SelectionOptions = {}): BaselineChoice {
   const alpha = options.significanceLevel ?? DEFAULT_SIGNIFICANCE_LEVEL;
   const minPoints = options.minPointsPerSegment ?? DEFAULT_MIN_POINTS_PER_SEGMENT;
   const limits: Guideline14Limits = { ...DEFAULT_GUIDELINE14_LIMITS, ...options.guideline14 };
-  if (!(alpha > 0 && alpha < 1)) throw new RangeError(`significanceLevel must lie in (0, 1), got ${alpha}`);
+  if (!isUsableSignificanceLevel(alpha))
+    throw new RangeError(`significanceLevel must lie in (0, 1) with 1 − α below 1 in double precision, got ${alpha}`);
   if (!Number.isInteger(minPoints) || minPoints < 1)
     throw new RangeError(`minPointsPerSegment must be a positive integer, got ${minPoints}`);
-  if (periods.length < 2) throw new RangeError(`at least 2 usable periods are needed to fit a baseline, got ${periods.length}`);
+  if (periods.length < MIN_BASELINE_PERIODS) throw new TooFewPeriodsError('baseline', MIN_BASELINE_PERIODS, periods.length, []);
 
   const models = (options.models ?? MODEL_NAMES).includes('1P')
     ? (options.models ?? MODEL_NAMES)

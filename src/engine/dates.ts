@@ -54,7 +54,8 @@ export function isIsoDate(text: string): boolean {
   return parseIsoDate(text) !== null;
 }
 
-function dayNumber(date: string): number {
+/** The whole UTC day number of an ISO date; RangeError for a text that is not one (the caller promised a checked date). */
+export function dayNumber(date: string): number {
   const value = parseIsoDate(date);
   if (value === null) throw new RangeError(`not an ISO date: ${JSON.stringify(date)}`);
   return value;

@@ -28,7 +28,10 @@ export const DEFAULT_GUIDELINE14_LIMITS: Guideline14Limits = {
   source: GUIDELINE14_SOURCE,
 };
 
-/** The CV(RMSE) limit for a reporting period of the given length (from memory, see above). */
+/**
+ * The CV(RMSE) limit for a reporting period of the given length (from memory, see above).
+ * @example cvrmseLimitForReportingMonths(12) // 0.25 — 12 to 60 reporting months (source: ASHRAE Guideline 14, from memory)
+ */
 export function cvrmseLimitForReportingMonths(months: number): number {
   if (months < 12) return 0.2;
   if (months <= 60) return 0.25;
@@ -53,6 +56,9 @@ export interface Guideline14Check {
 export const IN_SAMPLE_NMBE_NOTE =
   'in-sample NMBE of a least-squares fit with an intercept is zero by construction, so that check cannot fail; the out-of-sample NMBE beside it can';
 
+/**
+ * @example guideline14Check({ cvrmse: 0.15, nmbe: 0 }, DEFAULT_GUIDELINE14_LIMITS).pass // true — 15% ≤ 20% and 0 ≤ 0.005% (source: ASHRAE Guideline 14 limits, from memory)
+ */
 export function guideline14Check(
   stats: Pick<FitStatistics, 'cvrmse' | 'nmbe' | 'outOfSample'>,
   limits: Guideline14Limits,

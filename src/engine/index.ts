@@ -15,6 +15,7 @@ import { calendarMonths } from './calendar-months.js';
 import { cvrmseLimitForReportingMonths, guideline14Check, type Guideline14Limits } from './guideline14.js';
 import type { ShapeFit } from './fit/fit-shape.js';
 import { fitDocument, type FitDocument, type SavingsDocument } from './documents.js';
+import { MIN_BASELINE_PERIODS, MIN_REPORTING_PERIODS, TooFewPeriodsError } from './errors.js';
 
 export * from './types.js';
 export {
@@ -25,10 +26,12 @@ export {
   describeDateRanges,
   type AlignmentOptions,
 } from './periods.js';
-export { checkReadings, checkWeather, type InputProblem } from './validate.js';
+export { checkReadings, checkWeather } from './validate.js';
+export type { InputProblem } from './input-problem.js';
 export * from './bounds.js';
 export {
   chooseBaseline,
+  isUsableSignificanceLevel,
   nestedFTest,
   resolveTemperatureForm,
   OVERFIT_RATIO,
@@ -59,6 +62,7 @@ export * from './normalised.js';
 export * from './sufficiency.js';
 export * from './checked-savings.js';
 export { twoSidedNormalQuantile } from './stats/distributions.js';
+export * from './errors.js';
 
 /** Average length of a calendar month in days (365.25 / 12): an average only; reporting months are counted by calendarMonths. */
 export const DAYS_PER_MONTH = 365.25 / 12;
@@ -75,7 +79,8 @@ export type BaselineOptions = AlignmentOptions & SelectionOptions;
 
 /**
  * Align baseline readings with weather, fit every shape and choose one.
- * Throws RangeError when fewer than 2 periods are usable.
+ * Throws TooFewPeriodsError, carrying the readings left out and why, when
+ * fewer than MIN_BASELINE_PERIODS periods are usable.
  */
 export function analyseBaseline(
   readings: readonly Reading[],
@@ -83,6 +88,7 @@ export function analyseBaseline(
   options: BaselineOptions = {},
 ): BaselineAnalysis {
   const { periods, excluded } = alignPeriods(readings, weather, options);
+  if (periods.length < MIN_BASELINE_PERIODS) throw new TooFewPeriodsError('baseline', MIN_BASELINE_PERIODS, periods.length, excluded);
   const choice = chooseBaseline(periods, options);
   return {
     periods,
@@ -145,6 +151,8 @@ export function savingsFromFit(
 /**
  * The same from readings already aligned with their weather (alignPeriods),
  * for callers that need the periods themselves too (the extrapolation check).
+ * Throws TooFewPeriodsError (with the readings left out) when no reporting
+ * period is usable, InvalidAdjustmentError for an adjustment that cannot be applied.
  */
 export function savingsFromAligned(
   fit: ShapeFit,
@@ -153,6 +161,7 @@ export function savingsFromAligned(
   options: SavingsOptions & { cvrmseLimit?: number } = {},
 ): SavingsDocument {
   const { periods, excluded } = aligned;
+  if (periods.length < MIN_REPORTING_PERIODS) throw new TooFewPeriodsError('savings', MIN_REPORTING_PERIODS, periods.length, excluded);
   const result = computeSavings(fit, periods, options);
   // Calendar months, so a reporting year of 365 or 366 days is 12 months and judged by the 12–60-month limit.
   const reportingMonths = calendarMonths(periods);

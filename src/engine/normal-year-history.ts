@@ -8,6 +8,7 @@
  * that day, so a leap year weighs as any other. A calendar day with fewer
  * than `minYearShare` of the years (80% by default, our own) is refused.
  */
+import { ShortHistoryError } from './errors.js';
 import { NORMAL_YEAR_DAYS } from './normal-year.js';
 
 export const DEFAULT_NORMAL_WINDOW_DAYS = 15;
@@ -34,8 +35,9 @@ export interface HistoryNormalYear {
 const DAY_INDEX = new Map(NORMAL_YEAR_DAYS.map((day, i) => [day, i]));
 
 /**
- * Throws a RangeError naming the first calendar days short of history, or a
- * window that is not an odd number of days from 1 to 61.
+ * Throws ShortHistoryError naming the first calendar days short of history;
+ * RangeError (misuse) for a window that is not an odd number of days from 1
+ * to 61 or years that do not run forward.
  */
 export function normalYearFromHistory(days: readonly { date: string; temp: number }[], options: HistoryOptions): HistoryNormalYear {
   const { fromYear, toYear } = options;
@@ -64,11 +66,7 @@ export function normalYearFromHistory(days: readonly { date: string; temp: numbe
   const needed = Math.ceil(minShare * years);
   const short = NORMAL_YEAR_DAYS.filter((_, i) => counts[i]! < needed);
   if (short.length > 0) {
-    const listed = short.slice(0, 10).join(', ');
-    const more = short.length > 10 ? ` and ${short.length - 10} more` : '';
-    throw new RangeError(
-      `calendar days with fewer than ${needed} of the ${years} years ${fromYear}–${toYear} on record: ${listed}${more} (fill the gaps, or choose other years)`,
-    );
+    throw new ShortHistoryError(short, needed, { from: fromYear, to: toYear });
   }
   const rawMeans = sums.map((sum, i) => sum / counts[i]!);
   const half = (windowDays - 1) / 2;

@@ -8,7 +8,7 @@
 import type { ShapeFit } from './fit/fit-shape.js';
 import { predictPerDay } from './fit/shape-model.js';
 import type { TemperatureUnit } from './types.js';
-import type { InputProblem } from './validate.js';
+import type { InputProblem } from './input-problem.js';
 import { addDays } from './dates.js';
 import { fahrenheitToCelsius, isPlausibleTemperature, PLAUSIBLE_TEMPERATURE_F, unitSymbol } from './units.js';
 

@@ -9,6 +9,7 @@
  * by day; a mean-form model fitted to bills has only seen period means and
  * meets it as calendar months.
  */
+import { TooFewPeriodsError } from './errors.js';
 import type { DailyTemperature, Reading } from './types.js';
 import { fitTemperatureForm, type ShapeFit } from './fit/fit-shape.js';
 import { alignPeriods } from './periods.js';
@@ -71,7 +72,7 @@ export function normalisedSavings(
   try {
     choice = chooseBaseline(periods, { temperatureForm: form });
   } catch (error) {
-    if (error instanceof RangeError) return { available: false, reason: `no reporting-period model: ${error.message}` };
+    if (error instanceof TooFewPeriodsError) return { available: false, reason: `no reporting-period model: ${error.message}` };
     throw error;
   }
   const reportingFit = choice.candidates.find((c) => c.model === choice.selected)?.fit;

@@ -130,7 +130,7 @@ export function residualCorrelation(meters: readonly MeterResiduals[]): Residual
  * √(Σ vᵢ² + Σ_{i≠j} ρᵢⱼ·vᵢ·vⱼ): the half-width of a sum of parts whose own
  * half-widths are vᵢ, with correlation `withinGroup` between parts of one
  * group and `acrossGroups` between parts of different groups (null: 0).
- * @example combineCorrelated([{ value: 3, group: 'a' }, { value: 4, group: 'a' }], { withinGroup: 1, acrossGroups: 0 }) // 7: fully correlated parts add
+ * @example combineCorrelated([{ value: 3, group: 'a' }, { value: 4, group: 'a' }], { withinGroup: 1, acrossGroups: 0 }) // 7 — fully correlated parts add: √(3² + 4² + 2·1·3·4) (source: by hand)
  */
 export function combineCorrelated(
   parts: readonly { value: number; group: string }[],

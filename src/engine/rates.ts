@@ -4,8 +4,8 @@
  * list of entries in ascending order, each applying on [from, to), with no
  * gaps and no overlaps between them; only the last may be open-ended.
  */
-import { parseIsoDate, formatDayNumber } from './dates.js';
-import type { InputProblem } from './validate.js';
+import { parseIsoDate, formatDayNumber, dayNumber } from './dates.js';
+import type { InputProblem } from './input-problem.js';
 import { addYears, wholeYearsBetween } from './report-windows.js';
 import { ESCALATION } from './bounds.js';
 
@@ -180,10 +180,4 @@ function lastStartingOnOrBefore(schedule: readonly RateEntry[], day: number): nu
 function requireValid(schedule: readonly RateEntry[]): void {
   const problem = checkRateSchedule(schedule)[0];
   if (problem) throw new RangeError(`invalid rate schedule: entry ${problem.index} ${problem.field}: ${problem.message}`);
-}
-
-function dayNumber(date: string): number {
-  const value = parseIsoDate(date);
-  if (value === null) throw new RangeError(`not an ISO date: ${JSON.stringify(date)}`);
-  return value;
 }

@@ -3,7 +3,7 @@
  * puts each reading in exactly one window. Windows are [from, to) like
  * readings: ISO dates, `to` exclusive.
  */
-import { addDays, daysBetween, isIsoDate, parseIsoDate } from './dates.js';
+import { addDays, daysBetween, isIsoDate, dayNumber } from './dates.js';
 
 /** A span of days [from, to): ISO dates, `to` exclusive. */
 export interface DateWindow {
@@ -124,10 +124,4 @@ export function inWindowByMidpoint(reading: { start: string; end: string }, wind
 function checkContract(contractStart: string, years: number): void {
   if (!isIsoDate(contractStart)) throw new RangeError(`contract start is not an ISO date: ${JSON.stringify(contractStart)}`);
   if (!Number.isInteger(years) || years < 1) throw new RangeError(`contract length must be a whole number of years ≥ 1, got ${years}`);
-}
-
-function dayNumber(date: string): number {
-  const value = parseIsoDate(date);
-  if (value === null) throw new RangeError(`not an ISO date: ${JSON.stringify(date)}`);
-  return value;
 }

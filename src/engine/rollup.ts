@@ -10,6 +10,7 @@
  * independent: correlated parts (two meters fitted on the same weather, say)
  * combine to more than this. Signs do not matter; an empty list gives 0; a
  * NaN anywhere gives NaN.
+ * @example combineInQuadrature([3, 4]) // 5 — √(3² + 4²) (source: by hand, common practice)
  */
 export function combineInQuadrature(values: readonly number[]): number {
   // Scale by the largest magnitude so squares neither overflow nor underflow

@@ -15,6 +15,7 @@
  * in quadrature, scaled to the confidence by the normal quantile), shown
  * separately and combined in quadrature with the larger of the model's two.
  */
+import { MIN_REPORTING_PERIODS, TooFewPeriodsError } from './errors.js';
 import type { ModelName, Period, TemperatureForm } from './types.js';
 import { fitTemperatureForm, type ShapeFit } from './fit/fit-shape.js';
 import { periodDesignRow, predictPeriodPerDay } from './fit/shape-model.js';
@@ -110,12 +111,12 @@ export interface SavingsResult {
 
 /**
  * Savings of `reporting` periods against a fitted baseline model.
- * Throws when there is no reporting period.
+ * Throws TooFewPeriodsError when there is no reporting period.
  */
 export function computeSavings(baseline: ShapeFit, reporting: readonly Period[], options: SavingsOptions = {}): SavingsResult {
   const confidence = options.confidence ?? SIGNIFICANCE_RULE.confidence;
   if (!(confidence > 0 && confidence < 1)) throw new RangeError(`confidence must lie in (0, 1), got ${confidence}`);
-  if (reporting.length === 0) throw new RangeError('no reporting periods to compute savings for');
+  if (reporting.length < MIN_REPORTING_PERIODS) throw new TooFewPeriodsError('savings', MIN_REPORTING_PERIODS, reporting.length, []);
   const ordered = [...reporting].sort((a, b) => (a.start < b.start ? -1 : a.start > b.start ? 1 : 0));
   const range = baseline.temperatureRange;
   const form = fitTemperatureForm(baseline);

@@ -6,16 +6,8 @@
 import type { DailyTemperature, Reading, TemperatureUnit } from './types.js';
 import { parseIsoDate } from './dates.js';
 import { beyondBoundPerDay, MAX_USE_PER_DAY } from './bounds.js';
+import type { InputProblem } from './input-problem.js';
 import { isPlausibleTemperature, PLAUSIBLE_TEMPERATURE_F, fahrenheitToCelsius, unitSymbol } from './units.js';
-
-export interface InputProblem {
-  /** Index of the offending record in the input list. */
-  index: number;
-  field: string;
-  message: string;
-  /** Index of another record the problem refers to (the one duplicated or overlapped). */
-  relatedIndex?: number;
-}
 
 /**
  * Problems in a list of readings: bad dates, end ≤ start, bad quantities

@@ -9,28 +9,21 @@ import swagger from '@fastify/swagger';
 import swaggerUi from '@fastify/swagger-ui';
 import { transformObjectWithoutUnused, transformWithOperationDetails } from './openapi/operation-details.js';
 import helmet from '@fastify/helmet';
-import rateLimit from '@fastify/rate-limit';
-import { serializerCompiler, validatorCompiler, type ZodTypeProvider } from 'fastify-type-provider-zod';
+import { serializerCompiler, validatorCompiler } from 'fastify-type-provider-zod';
 import type { Store } from '../store/connect.js';
-import { installProblemHandling, sendProblem } from './plugins/problems.js';
-import { installAuth } from './plugins/auth.js';
-import { installIdempotency } from './plugins/idempotency.js';
-import { installCsvBodies } from './plugins/csv-bodies.js';
-import { installTextInput } from './plugins/text-input.js';
+import { problemsPlugin, sendProblem } from './plugins/problems.js';
+import { requestIdPlugin } from './plugins/request-id.js';
+import { authPlugin } from './plugins/auth.js';
+import { rateLimitPlugin } from './plugins/rate-limit.js';
+import { idempotencyPlugin } from './plugins/idempotency.js';
+import { csvBodiesPlugin } from './plugins/csv-bodies.js';
+import { textInputPlugin } from './plugins/text-input.js';
 import { FailedAuthenticationLimit } from './plugins/failed-authentication.js';
 import { answerClientError } from './security-headers.js';
-import { registerRoutes } from './routes/index.js';
+import { routesPlugin } from './routes/index.js';
+import type { RouteDeps } from './route-deps.js';
 import { Problem } from './problem.js';
 import { SavingsCache } from '../services/savings-cache.js';
-
-/** What every route module receives. */
-export interface RouteDeps {
-  store: Store;
-  /** The current time as ISO-8601 (injectable so tests control it). */
-  now: () => string;
-  /** Savings documents kept per data version (services/savings-cache.ts), one per instance. */
-  savingsCache: SavingsCache;
-}
 
 export interface AppOptions {
   store: Store;
@@ -107,16 +100,17 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
   });
   app.setValidatorCompiler(validatorCompiler);
   app.setSerializerCompiler(serializerCompiler);
-  app.addHook('onRequest', async (request, reply) => {
-    reply.header('x-request-id', request.id);
-  });
 
   const deps: RouteDeps = {
     store: options.store,
     now: options.now ?? (() => new Date().toISOString()),
     savingsCache: options.savingsCache ?? new SavingsCache(options.savingsCacheBytes),
   };
-  installProblemHandling(app);
+  // Bottom first; each plugin names what it needs (plugins/names.ts) and fastify refuses a wrong order.
+  // Hooks of one kind run in this order: the request id, helmet's headers, then authentication (onRequest);
+  // the CSV body, then its text (preValidation); idempotency, then the rate limit (preHandler).
+  await app.register(requestIdPlugin);
+  await app.register(problemsPlugin);
   await app.register(helmet, {
     // The API serves JSON, SVG and the docs page; nothing may be framed or sniffed.
     contentSecurityPolicy: {
@@ -133,25 +127,11 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     frameguard: { action: 'deny' },
   });
   const failures = options.failedAuthenticationsPerMinute ? new FailedAuthenticationLimit(options.failedAuthenticationsPerMinute) : null;
-  installAuth(app, deps.store, failures);
-  if (options.rateLimitPerMinute && options.rateLimitPerMinute > 0) {
-    await app.register(rateLimit, {
-      global: true,
-      // After authentication, so the bucket is the key itself (unknown keys never get this far).
-      hook: 'preHandler',
-      max: options.rateLimitPerMinute,
-      timeWindow: 60_000,
-      keyGenerator: (request) => (request.principal ? `key:${request.principal.keyId}` : `ip:${request.ip}`),
-      errorResponseBuilder: (_request, context) =>
-        new Problem(
-          'rate-limited',
-          `more than ${context.max} requests a minute for this key (or, without a key, this address); retry after ${Math.ceil(context.ttl / 1000)} s`,
-        ),
-    });
-  }
-  installCsvBodies(app);
-  installTextInput(app);
-  installIdempotency(app, deps.store, deps.now);
+  await app.register(authPlugin, { store: deps.store, failures });
+  await app.register(rateLimitPlugin, { perMinute: options.rateLimitPerMinute });
+  await app.register(csvBodiesPlugin);
+  await app.register(textInputPlugin);
+  await app.register(idempotencyPlugin, { store: deps.store, now: deps.now });
 
   await app.register(swagger, {
     openapi: {
@@ -181,6 +161,6 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
   });
 
   app.get('/openapi.json', { schema: { hide: true } }, async () => app.swagger());
-  await registerRoutes(app.withTypeProvider<ZodTypeProvider>(), deps);
+  await app.register(routesPlugin, deps);
   return app;
 }

@@ -5,7 +5,7 @@
  */
 import { canonicalEnergyUnit, energyFactor, ENERGY_FACTOR_SOURCE } from '../engine/index.js';
 import { canonicalJson, sha256Hex } from '../lib/canonical-json.js';
-import { nonFiniteToNull } from '../store/baseline-content.js';
+import { nonFiniteToNull } from '../lib/non-finite.js';
 import { REPORT_CAUTION, reportMethod } from './method.js';
 import {
   REPORT_FORMAT,

@@ -7,7 +7,13 @@
  * back into the frozen baseline's window. One recorded in error is
  * withdrawn, with a reason: it then counts nowhere but stays on record.
  */
-import { adjustmentPerDay, daysBetween, findOverlappingAdjustment, type NonRoutineAdjustment } from '../engine/index.js';
+import {
+  type InvalidAdjustmentError,
+  adjustmentPerDay,
+  daysBetween,
+  findOverlappingAdjustment,
+  type NonRoutineAdjustment,
+} from '../engine/index.js';
 import { newId } from '../store/ids.js';
 import type { Selectable } from 'kysely';
 import type { AdjustmentsTable } from '../store/schema.js';
@@ -192,11 +198,14 @@ export async function listAdjustments(
   return { meterId: meter.id, unit: meter.unit, ...page, adjustments: rows.map(toAdjustment) };
 }
 
-/** Every adjustment of the given meters, by meter, in date order. */
-export async function adjustmentRowsForMeters(db: Executor, meterIds: readonly string[]): Promise<Map<string, AdjustmentRow[]>> {
-  const byMeter = new Map<string, AdjustmentRow[]>();
-  if (meterIds.length === 0) return byMeter;
-  const rows = await db.selectFrom('adjustments').selectAll().where('meter_id', 'in', meterIds).orderBy('period_start').execute();
-  for (const row of rows) byMeter.set(row.meter_id, [...(byMeter.get(row.meter_id) ?? []), row]);
-  return byMeter;
+/**
+ * A stored adjustment the engine cannot apply (one brought in before a rule
+ * was checked, or edited in the database): unprocessable, naming it.
+ */
+export function adjustmentProblem(error: InvalidAdjustmentError): DomainError {
+  return new DomainError(
+    'unprocessable',
+    `${error.message}; withdraw it (POST /v1/adjustments/${error.adjustmentId}/withdraw) and record it again`,
+    [{ field: `adjustment ${error.adjustmentId}.${error.field}`, message: error.reason }],
+  );
 }

@@ -7,7 +7,7 @@
 import type { Kysely } from 'kysely';
 import { insertApiKey, publicKey } from '../store/api-keys.js';
 import { appendAudit } from '../store/audit.js';
-import { lockOrganisation } from '../store/connect.js';
+import { lockOrganisation } from '../store/transactions.js';
 import type { ApiKeyRow, Database } from '../store/schema.js';
 import type { Role } from '../domain/principal.js';
 import { notFound, DomainError } from '../domain/errors.js';

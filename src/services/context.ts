@@ -3,8 +3,9 @@
  * time. Services hold the ledger's rules (ownership, conflicts, frozen
  * baselines) and call the engine; routes only translate HTTP to these calls.
  */
-import type { Kysely, Transaction } from 'kysely';
-import { writeTransaction, type Store } from '../store/connect.js';
+import type { Transaction } from 'kysely';
+import type { Store } from '../store/connect.js';
+import { writeTransaction } from '../store/transactions.js';
 import type { Database } from '../store/schema.js';
 import type { Principal } from '../domain/principal.js';
 import { appendAudit, type AuditEntry } from '../store/audit.js';
@@ -17,7 +18,7 @@ export interface ServiceContext {
 }
 
 export type Tx = Transaction<Database>;
-export type Executor = Kysely<Database> | Transaction<Database>;
+export type { Executor } from '../store/executor.js';
 
 /**
  * Run `work` in one transaction: every write in it, audit rows included,

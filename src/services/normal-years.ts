@@ -5,7 +5,7 @@
  * to it. Replaced whole by each PUT; its content hash lets a report name the
  * exact year it used.
  */
-import { checkNormalYear, NORMAL_YEAR_DAYS, normalYearFromHistory, type TemperatureUnit } from '../engine/index.js';
+import { checkNormalYear, NORMAL_YEAR_DAYS, normalYearFromHistory, ShortHistoryError, type TemperatureUnit } from '../engine/index.js';
 import { canonicalJson, sha256Hex } from '../lib/canonical-json.js';
 import { DomainError, notFound, fieldErrors, MAX_LISTED_ERRORS } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
@@ -79,7 +79,7 @@ export async function normalYearFromStationHistory(
         ...(input.windowDays !== undefined ? { windowDays: input.windowDays } : {}),
       });
     } catch (error) {
-      if (!(error instanceof RangeError)) throw error;
+      if (!(error instanceof ShortHistoryError)) throw error;
       throw new DomainError('unprocessable', `station ${station.id}: ${error.message}`);
     }
     const filled = rows.filter((r) => r.fill_method !== null).length;

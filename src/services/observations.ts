@@ -8,6 +8,7 @@ import { addDays, checkWeather, type TemperatureUnit } from '../engine/index.js'
 import type { Insertable } from 'kysely';
 import type { FillMethod, WeatherObservationsTable } from '../store/schema.js';
 import { DomainError, type FieldError, fieldErrors, MAX_LISTED_ERRORS } from '../domain/errors.js';
+import { MAX_RECORDS_PER_BATCH } from '../domain/limits.js';
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
 import { getStationRow } from './weather-stations.js';
 import { assertOutsideFrozenWindows, frozenWindowsForStation } from './frozen-windows.js';
@@ -15,8 +16,6 @@ import { checkDateRange, jsonLocator, type DateRange, type RecordLocator } from 
 import { bumpStationMeterVersions } from '../store/data-versions.js';
 import { decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
 
-/** Largest batch one request may carry (more than a century of days). */
-export const MAX_OBSERVATIONS_PER_BATCH = 50_000;
 /** Rows per upsert statement: 6 columns × 1000 stays far below SQLite's 32,766 parameters. */
 const UPSERT_CHUNK_ROWS = 1000;
 
@@ -148,10 +147,10 @@ export function checkObservations(records: readonly ObservationInput[], unit: Te
   if (records.length === 0) {
     throw new DomainError('invalid', 'observations: at least one observation is needed', [{ field: 'observations', message: 'empty' }]);
   }
-  if (records.length > MAX_OBSERVATIONS_PER_BATCH) {
+  if (records.length > MAX_RECORDS_PER_BATCH) {
     throw new DomainError(
       'invalid',
-      `observations: at most ${MAX_OBSERVATIONS_PER_BATCH} per request (got ${records.length}); send smaller batches`,
+      `observations: at most ${MAX_RECORDS_PER_BATCH} per request (got ${records.length}); send smaller batches`,
       [{ field: 'observations', message: 'too many' }],
     );
   }

@@ -7,7 +7,7 @@ import type { Kysely, Transaction } from 'kysely';
 import type { Database } from '../store/schema.js';
 import type { Role } from '../domain/principal.js';
 import { newId } from '../store/ids.js';
-import { writeTransaction } from '../store/connect.js';
+import { writeTransaction } from '../store/transactions.js';
 import { appendAudit } from '../store/audit.js';
 import { insertApiKey, publicKey } from '../store/api-keys.js';
 

@@ -8,6 +8,7 @@
 import { beyondBoundPerDay, checkReadings, daysBetween, MAX_COST_PER_DAY, parseIsoDate } from '../engine/index.js';
 import type { NewReadingRow, ReadingRow } from '../store/schema.js';
 import { DomainError, type FieldError, fieldErrors, MAX_LISTED_ERRORS, summarise } from '../domain/errors.js';
+import { MAX_RECORDS_PER_BATCH } from '../domain/limits.js';
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
 import { getMeterRow } from './meters.js';
 import { assertOutsideFrozenWindows, frozenWindowsForMeter, PROTECTING_STATUSES, type FrozenWindow } from './frozen-windows.js';
@@ -15,8 +16,6 @@ import { batchContacts, correctReadings, insertReadings } from './readings-postg
 import { bumpMeterVersions } from '../store/data-versions.js';
 import { decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
 
-/** Largest batch one request may carry. */
-export const MAX_READINGS_PER_BATCH = 50_000;
 /**
  * Rows per insert statement (8 parameters each, far below SQLite's 32,766):
  * a few hundred measured fastest, as preparing very long statements costs more.
@@ -201,10 +200,10 @@ function checkBatch(readings: readonly ReadingInput[], locate: RecordLocator): v
   if (readings.length === 0) {
     throw new DomainError('invalid', 'readings: at least one reading is needed', [{ field: 'readings', message: 'empty' }]);
   }
-  if (readings.length > MAX_READINGS_PER_BATCH) {
+  if (readings.length > MAX_RECORDS_PER_BATCH) {
     throw new DomainError(
       'invalid',
-      `readings: at most ${MAX_READINGS_PER_BATCH} per request (got ${readings.length}); send smaller batches`,
+      `readings: at most ${MAX_RECORDS_PER_BATCH} per request (got ${readings.length}); send smaller batches`,
       [{ field: 'readings', message: 'too many' }],
     );
   }

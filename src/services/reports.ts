@@ -5,6 +5,8 @@
  * the report assembly. Read-only: a report changes nothing it reads.
  */
 import {
+  TooFewPeriodsError,
+  checkAdjustment,
   contractYearsOverlapping,
   describeDateRanges,
   missingWeatherDates,
@@ -26,23 +28,16 @@ import {
   type SavingsDocument,
   type TemperatureUnit,
 } from '../engine/index.js';
-import { DomainError } from '../domain/errors.js';
+import { DomainError, summarise } from '../domain/errors.js';
 import { assembleReport, type FacilityInput } from '../reports/assemble.js';
 import type { Rollup } from '../reports/totals.js';
 import { guaranteeStatus } from '../reports/guarantees.js';
 import { meterReport, missingMeterReport, type StoredAdjustment } from '../reports/meter-report.js';
-import type {
-  ContractSummary,
-  GuaranteeStatus,
-  MeterReport,
-  ReportWindow,
-  SavingsReport,
-  SignatureData,
-} from '../reports/savings-report.js';
+import type { ContractSummary, GuaranteeStatus, MeterReport, ReportWindow, SavingsReport } from '../reports/savings-report.js';
 import type { Kysely } from 'kysely';
-import { readSnapshot } from '../store/connect.js';
+import { readSnapshot } from '../store/transactions.js';
 import type { Database, MeterRow } from '../store/schema.js';
-import { signatureChartPoints } from '../reports/svg/signature-points.js';
+import { signatureData } from '../reports/signature-data.js';
 import type { Executor } from './context.js';
 import { DEFAULT_CONTRACT_CONFIDENCE, toContract } from './contracts.js';
 import { shapeName } from '../reports/shape-names.js';
@@ -166,10 +161,9 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
     const reasons = facilities
       .flatMap((f) => f.meters.map((m) => ({ field: `meter ${m.id} (${m.name})`, message: m.missing ?? '' })))
       .sort((a, b) => Number(b.message.startsWith('missing weather')) - Number(a.message.startsWith('missing weather')));
-    const first = reasons[0];
     throw new DomainError(
       'unprocessable',
-      `no meter of ${scope} has reporting data in ${window.label} (${window.from}..${window.to})${first ? `: ${first.field}: ${first.message}${reasons.length > 1 ? ` (and ${reasons.length - 1} more meter(s), listed in errors)` : ''}` : ''}; readings count in the window that holds their midpoint`,
+      `no meter of ${scope} has reporting data in ${window.label} (${window.from}..${window.to})${reasons.length > 0 ? `: ${summarise(reasons)}` : ''}; readings count in the window that holds their midpoint`,
       reasons.slice(0, 100),
     );
   }
@@ -408,6 +402,12 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     sufficiency: { sufficient: model.sufficiency.sufficient, reasons: model.sufficiency.reasons },
     overrides: model.overrides,
   };
+  // A stored adjustment that cannot be applied (brought in behind the API's back) is named, not blamed on the weather.
+  const broken = ctx.adjustments.map(checkAdjustment).find((error) => error !== null);
+  if (broken) {
+    const usable = overlapping.filter((a) => a.id !== broken.adjustmentId && checkAdjustment(a) === null);
+    return missingMeterReport(identity, baselineInfo, `${broken.message}: withdraw it and record it again`, usable);
+  }
   const start = window.from > baseline.end ? window.from : baseline.end;
   const candidates = await loadReadings(db, meter.id, { startOnOrAfter: baseline.end, startBefore: window.to, endAfter: start });
   const readings: Reading[] = candidates.filter((r) => inWindowByMidpoint(r, window));
@@ -422,7 +422,7 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
       adjustments: ctx.adjustments,
     });
   } catch (error) {
-    if (!(error instanceof RangeError)) throw error;
+    if (!(error instanceof TooFewPeriodsError)) throw error;
     // Name the real cause: the dates without weather at the meter's station.
     const missingDates = describeDateRanges(missingWeatherDates(readings, weather));
     return missingMeterReport(
@@ -471,26 +471,4 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
   if (baselineFills)
     report.notes.push(`baseline weather: ${describeFills(baselineFills.days, baselineFills.interpolation, baselineFills.secondStation)}`);
   return report;
-}
-
-function signatureData(model: FrozenModel, savings: SavingsDocument, unit: string): SignatureData {
-  // A reporting period's expected use per day is the model's projection of it: its model baseline over its days.
-  // Each reporting period is drawn net of its non-routine adjustments, so its mark sits against the line as its savings do.
-  const reporting = savings.periods.map((p) => ({
-    ...p,
-    usePerDay: p.actual / p.days,
-    expectedPerDay: p.modelBaseline / p.days,
-    adjustment: p.adjustment,
-  }));
-  const series = signatureChartPoints(model.fit, model.baselinePeriods, reporting, model.temperatureUnit, unit);
-  const labelled = (points: typeof series.baseline) => points.map((p) => ({ temp: p.temp, usePerDay: p.usePerDay, label: p.label ?? '' }));
-  return {
-    temperatureUnit: model.temperatureUnit,
-    baseline: labelled(series.baseline),
-    reporting: labelled(series.reporting),
-    fittedLine: series.fittedLine.map((p) => ({ temp: p.temp, usePerDay: p.usePerDay })),
-    temperatureForm: series.temperatureForm,
-    expected: labelled(series.expected),
-    reportingNetOfAdjustments: series.reportingNetOfAdjustments,
-  };
 }

@@ -7,6 +7,8 @@
  * savings-cache.ts, which is what the route serves.
  */
 import {
+  TooFewPeriodsError,
+  InvalidAdjustmentError,
   alignPeriods,
   baselineSufficiency,
   projectionRefusals,
@@ -32,13 +34,14 @@ import {
 import { DomainError } from '../domain/errors.js';
 import { BoundedCache } from '../lib/bounded-cache.js';
 import type { BaselineRow } from '../store/schema.js';
-import { fromStoredJson, nonFiniteToNull, verifyBaselineContent } from '../store/baseline-content.js';
-import { overridesOf, type BaselineFitOptions, type BaselineInputs } from './baselines.js';
+import { fromStoredJson, verifyBaselineContent } from '../store/baseline-content.js';
+import { nonFiniteToNull } from '../lib/non-finite.js';
+import { overridesOf, type BaselineFitOptions, type BaselineInputs } from './baselines/index.js';
 import type { Executor } from './context.js';
 import { getMeterRow } from './meters.js';
 import { loadFilledDays } from './weather-gaps.js';
 import { loadReadings, loadWeatherFor } from './meter-data.js';
-import { toAdjustment, toEngineAdjustment, type Adjustment } from './adjustments.js';
+import { adjustmentProblem, toAdjustment, toEngineAdjustment, type Adjustment } from './adjustments.js';
 
 export interface SavingsQuery {
   from?: string;
@@ -151,8 +154,9 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
   try {
     document = savingsFromAligned(model.fit, { limits: model.limits, excluded: model.excluded }, aligned, options);
   } catch (error) {
-    if (!(error instanceof RangeError)) throw error;
-    const { excluded } = aligned;
+    if (error instanceof InvalidAdjustmentError) throw adjustmentProblem(error);
+    if (!(error instanceof TooFewPeriodsError)) throw error;
+    const { excluded } = error;
     const reasons = excluded.map((p) => `reading ${p.start}..${p.end}: ${p.reason}`).join('; ');
     const missing = missingWeatherDates(excluded, weather);
     const cause =

@@ -15,7 +15,7 @@
 import { canonicalJson } from '../lib/canonical-json.js';
 import { DomainError, notFound, type FieldError } from '../domain/errors.js';
 import { newId } from '../store/ids.js';
-import { readSnapshot } from '../store/connect.js';
+import { readSnapshot } from '../store/transactions.js';
 import type { Kysely } from 'kysely';
 import type { Database, StatementCopyKind, StatementCopyRow, StatementRow, StatementStatus } from '../store/schema.js';
 import { compareReports, type StatementChange } from '../reports/statement/compare.js';

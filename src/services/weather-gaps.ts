@@ -22,7 +22,8 @@ import {
 import { DomainError } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { assertOutsideFrozenWindows, frozenWindowsForStation } from './frozen-windows.js';
-import { MAX_OBSERVATIONS_PER_BATCH, upsertChunked } from './observations.js';
+import { upsertChunked } from './observations.js';
+import { MAX_RECORDS_PER_BATCH } from '../domain/limits.js';
 import { getStationRow } from './weather-stations.js';
 
 export interface GapFillInput {
@@ -57,8 +58,8 @@ const OVERLAP_MARGIN_DAYS = 365;
 export async function fillWeatherGaps(ctx: ServiceContext, stationId: string, input: GapFillInput): Promise<GapFillResult> {
   const span = daysBetween(input.from, input.to);
   if (span <= 0) throw new DomainError('invalid', 'to: must be after from', [{ field: 'to', message: 'must be after from' }]);
-  if (span > MAX_OBSERVATIONS_PER_BATCH) {
-    throw new DomainError('invalid', `to: at most ${MAX_OBSERVATIONS_PER_BATCH} days per fill (got ${span}); fill in parts`, [
+  if (span > MAX_RECORDS_PER_BATCH) {
+    throw new DomainError('invalid', `to: at most ${MAX_RECORDS_PER_BATCH} days per fill (got ${span}); fill in parts`, [
       { field: 'to', message: 'window too long' },
     ]);
   }

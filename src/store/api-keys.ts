@@ -4,12 +4,10 @@
  * randomness, so a plain hash (no slow KDF) is enough.
  */
 import { randomBytes, timingSafeEqual } from 'node:crypto';
-import type { Kysely, Transaction } from 'kysely';
 import { sha256Hex } from '../lib/canonical-json.js';
-import type { ApiKeyRow, Database } from './schema.js';
+import type { ApiKeyRow } from './schema.js';
+import type { Executor } from './executor.js';
 import type { Role } from '../domain/principal.js';
-
-type Executor = Kysely<Database> | Transaction<Database>;
 
 const ALPHABET = 'ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789';
 const KEY_PATTERN = /^mvl_([A-Za-z0-9]{8})_([A-Za-z0-9]{32,})$/;

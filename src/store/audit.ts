@@ -7,11 +7,11 @@
  * can be exported, moved and verified on its own. (Cutting rows off the end
  * leaves a shorter valid chain: keep the reported head hash outside the
  * database to detect that.) Appends are serialised per organisation by the
- * write transaction (store/connect.ts).
+ * write transaction (store/transactions.ts).
  */
-import type { Kysely, Transaction } from 'kysely';
 import { canonicalJson, sha256Hex } from '../lib/canonical-json.js';
-import type { AuditRow, Database } from './schema.js';
+import type { AuditRow } from './schema.js';
+import type { Executor } from './executor.js';
 
 export const GENESIS_HASH = '0'.repeat(64);
 
@@ -26,8 +26,6 @@ export interface AuditEntry {
   before?: unknown;
   after?: unknown;
 }
-
-type Executor = Kysely<Database> | Transaction<Database>;
 
 function rowDigest(prevHash: string, row: Omit<AuditRow, 'hash' | 'prev_hash'>): string {
   return sha256Hex(

@@ -44,18 +44,6 @@ export function forResponse<T>(text: string): T {
   return JSON.parse(text, (_key, value: unknown) => (isNonFiniteTag(value) ? null : value)) as T;
 }
 
-/** A deep copy with every non-finite number replaced by null, for JSON responses. */
-export function nonFiniteToNull<T>(value: T): T {
-  if (typeof value === 'number') return (Number.isFinite(value) ? value : null) as T;
-  if (Array.isArray(value)) return value.map(nonFiniteToNull) as T;
-  if (value !== null && typeof value === 'object') {
-    const out: Record<string, unknown> = {};
-    for (const [key, entry] of Object.entries(value)) out[key] = nonFiniteToNull(entry);
-    return out as T;
-  }
-  return value;
-}
-
 /** The columns the content hash and its checks read. */
 export type HashedBaseline = Pick<
   BaselineRow,

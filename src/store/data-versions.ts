@@ -7,10 +7,9 @@
  * it lives exactly as long as the data it was computed from.
  */
 import { randomUUID } from 'node:crypto';
-import type { Kysely, Transaction } from 'kysely';
+import type { Transaction } from 'kysely';
 import type { Database } from './schema.js';
-
-type Executor = Kysely<Database> | Transaction<Database>;
+import type { Executor } from './executor.js';
 
 /** Give the meters new tokens (a meter without a row gets one). */
 export async function bumpMeterVersions(trx: Transaction<Database>, meterIds: readonly string[]): Promise<void> {

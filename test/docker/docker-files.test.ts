@@ -275,7 +275,7 @@ describe('docker/compose.yaml', () => {
       expect(password, name).toMatch(REQUIRED_VARIABLE); // issue 5: password from the environment only
       expect(password?.startsWith('${POSTGRES_PASSWORD')).toBe(true); // the same secret the server is given
       const url = new URL(raw.replace(password ?? '', 'placeholder'));
-      expect(url.protocol).toBe('postgres:'); // the repository: src/store/connect.ts accepts postgres://
+      expect(url.protocol).toBe('postgres:'); // the repository: src/store/database-url.ts accepts postgres://
       expect(url.hostname).toBe('postgres'); // issue 5: the service's name on compose's network
       expect(url.port).toBe('5432'); // from memory: PostgreSQL's default port
       expect(url.username).toBe(postgresEnv.POSTGRES_USER); // the repository: docker/compose.yaml's own postgres service

@@ -8,6 +8,7 @@ import {
   findOverlappingAdjustment,
   type NonRoutineAdjustment,
 } from '../../src/engine/adjustments.js';
+import { InvalidAdjustmentError } from '../../src/engine/errors.js';
 
 // Invented adjustments; every expected value is hand-worked (arithmetic beside it).
 
@@ -31,9 +32,11 @@ describe('adjustmentPerDay', () => {
   it('refuses both or neither amount, a non-finite amount, and end ≤ start', () => {
     expect(() => adjustmentPerDay(adjustment({ start: '2025-04-01', end: '2025-05-01', quantity: 1, perDay: 1 }))).toThrow(/exactly one/);
     expect(() => adjustmentPerDay(adjustment({ start: '2025-04-01', end: '2025-05-01' }))).toThrow(/exactly one/);
-    expect(() => adjustmentPerDay(adjustment({ start: '2025-04-01', end: '2025-05-01', quantity: Number.NaN }))).toThrow(RangeError);
+    expect(() => adjustmentPerDay(adjustment({ start: '2025-04-01', end: '2025-05-01', quantity: Number.NaN }))).toThrow(
+      InvalidAdjustmentError,
+    );
     expect(() => adjustmentPerDay(adjustment({ start: '2025-04-01', end: '2025-04-01', quantity: 10 }))).toThrow(/not after/);
-    expect(() => adjustmentPerDay(adjustment({ start: '2025-04-31', end: '2025-05-01', quantity: 10 }))).toThrow(RangeError);
+    expect(() => adjustmentPerDay(adjustment({ start: '2025-04-31', end: '2025-05-01', quantity: 10 }))).toThrow(InvalidAdjustmentError);
   });
 });
 
@@ -131,6 +134,8 @@ describe('the uncertainty an adjustment carries into the reporting periods', () 
     expect(() => adjustmentUncertaintyInPeriods({ ...closure, uncertainty: -1 }, [april])).toThrow(
       /uncertainty must be a finite number of at least 0/,
     );
-    expect(() => adjustmentUncertaintyInPeriods({ ...closure, uncertainty: Number.POSITIVE_INFINITY }, [april])).toThrow(RangeError);
+    expect(() => adjustmentUncertaintyInPeriods({ ...closure, uncertainty: Number.POSITIVE_INFINITY }, [april])).toThrow(
+      InvalidAdjustmentError,
+    );
   });
 });

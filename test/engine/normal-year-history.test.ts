@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { addDays, NORMAL_YEAR_DAYS, normalYearFromHistory } from '../../src/engine/index.js';
+import { addDays, NORMAL_YEAR_DAYS, normalYearFromHistory, ShortHistoryError } from '../../src/engine/index.js';
 import { seededRandom } from '../support/synthetic.js';
 
 // Synthetic: 30 invented years whose truth the test sets, T(d) = A + B·cos(2π(d − φ)/365) on the normal-year day index d
@@ -47,6 +47,7 @@ describe('a normal year from 30 years of history', () => {
 
   it('refuses calendar days short of history and a window that is not odd', () => {
     const days = history(() => 0).filter((d) => !(d.date.slice(5) === '07-04' && d.date < '2000-01-01'));
+    expect(() => normalYearFromHistory(days, { fromYear: 1991, toYear: 2020 })).toThrow(ShortHistoryError);
     expect(() => normalYearFromHistory(days, { fromYear: 1991, toYear: 2020 })).toThrow(
       /fewer than 24 of the 30 years 1991–2020 on record: 07-04/,
     );

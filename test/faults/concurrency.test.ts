@@ -36,7 +36,7 @@ const onPostgres = testDialect() === 'postgres';
  * Processes sharing the database. On SQLite, two processes once failed here:
  * a transaction that read before writing lost the write lock to the other
  * process and answered 500 (SQLITE_BUSY, SQLITE_BUSY_SNAPSHOT) at once, until
- * write transactions began IMMEDIATE (src/store/connect.ts).
+ * write transactions began IMMEDIATE (src/store/sqlite-connection.ts).
  */
 const PROCESS_COUNTS = onPostgres ? [2] : [1, 2];
 

@@ -22,7 +22,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { addDays } from '../../src/engine/index.js';
 import { sql } from 'kysely';
-import { openStore, readSnapshot, writeTransaction, type Store, type StoreEvent } from '../../src/store/connect.js';
+import { openStore, type Store, type StoreEvent } from '../../src/store/connect.js';
+import { readSnapshot, writeTransaction } from '../../src/store/transactions.js';
 import { databaseFault } from '../../src/store/faults.js';
 import { verifyAllAuditChains } from '../../src/store/audit.js';
 import { testDialect } from '../support/database.js';

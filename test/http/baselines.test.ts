@@ -164,6 +164,17 @@ describe('POST /v1/meters/{id}/baselines', () => {
     expect(empty.detail).toContain('no reading');
   });
 
+  it('answers 422 naming the option when α is so small that 1 − α rounds to 1', async () => {
+    const meterId = await seedMeter();
+    // 5e-324 lies inside (0, 1), but 1 − 5e-324 === 1 in IEEE 754 double precision (common practice): no t quantile there.
+    const problem = await expectRejected(
+      () => fitDraft(meterId, { ...WINDOW, options: { significanceLevel: 5e-324 } }),
+      422,
+      'options.significanceLevel',
+    );
+    expect(problem.detail).toContain('1 − α rounds to 1');
+  });
+
   it('refuses bad input with a 400 naming the field, storing nothing', async () => {
     const meterId = await seedMeter();
     await expectRejected(() => fitDraft(meterId, { start: '2024-01-01', end: '2024-01-01' }), 400, 'end');

@@ -263,7 +263,7 @@ describe.skipIf(!onPostgres)(
 
     it('opens the same new schema from two connection pools at once', async () => {
       // The schema-creating first query, raced without process start-up jitter: before the fix in
-      // src/store/connect.ts one of the two failed with a unique violation about 4 times in 10.
+      // src/store/postgres-pool.ts one of the two failed with a unique violation about 4 times in 10.
       for (let trial = 0; trial < 8; trial++) {
         const url = freshTestDatabaseUrl();
         const pools = [openStore(url), openStore(url)];

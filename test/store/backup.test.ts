@@ -1,5 +1,5 @@
 /**
- * Backup and restore of a SQLite ledger (src/store/backup.ts) on the invented
+ * Backup and restore of a SQLite ledger (src/store/backup/) on the invented
  * demo district: a backup taken while a service on the same file keeps
  * writing is one consistent snapshot; restoring it into a new file gives a
  * ledger whose chains verify and whose savings reports are byte-identical.
@@ -18,7 +18,7 @@ import type { FastifyInstance } from 'fastify';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runDemo, type DemoSeed } from '../../src/demo/main.js';
 import { buildApp } from '../../src/http/app.js';
-import { BackupInputError, backupSqlite, postgresGuidance, restoreSqlite, verifyLedger } from '../../src/store/backup.js';
+import { BackupInputError, backupSqlite, postgresGuidance, restoreSqlite, verifyLedger } from '../../src/store/backup/index.js';
 import { openStore, type Store } from '../../src/store/connect.js';
 import { testDialect } from '../support/database.js';
 

@@ -31,7 +31,7 @@ import {
   exportOrganisation,
   importOrganisation,
   type ExportDocument,
-} from '../../src/store/transfer.js';
+} from '../../src/store/transfer/index.js';
 import { dropTestDatabase, freshTestDatabaseUrl, testDialect } from '../support/database.js';
 import { databaseDigest } from '../support/db-digest.js';
 
@@ -233,6 +233,32 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
       says: /^tables\.idempotency_keys: not a table of format version 5/,
     },
     { what: 'a missing table', change: (d) => delete d.tables.baselines, says: /^tables\.baselines: must be a list of rows, got nothing/ },
+    // The API's own rules on each row (src/store/transfer-rules.ts), not only the column types.
+    {
+      what: 'an adjustment with both quantity and perDay',
+      change: (d) => Object.assign(d.tables.adjustments[0], { quantity: 10, per_day: 5 }),
+      says: /^tables\.adjustments\[0\]\.quantity: exactly one of quantity and perDay must be set/,
+    },
+    {
+      what: 'an adjustment with neither quantity nor perDay',
+      change: (d) => Object.assign(d.tables.adjustments[0], { quantity: null, per_day: null }),
+      says: /^tables\.adjustments\[0\]\.quantity: exactly one of quantity and perDay must be set/,
+    },
+    {
+      what: 'an adjustment ending before it starts',
+      change: (d) => (d.tables.adjustments[0].period_end = '2000-01-01'),
+      says: /^tables\.adjustments\[0\]\.period_end: end 2000-01-01 is not after start/,
+    },
+    {
+      what: 'a reading ending where it starts',
+      change: (d) => (d.tables.readings[2].period_end = d.tables.readings[2].period_start),
+      says: /^tables\.readings\[2\]\.period_end: /,
+    },
+    {
+      what: 'a negative reading',
+      change: (d) => (d.tables.readings[2].quantity = -1),
+      says: /^tables\.readings\[2\]\.quantity: negative/,
+    },
   ];
   it('still reads a version 1 document (from before adjustments, rates, contracts and normal years), with those tables empty', () => {
     const input = edited(document, (d) => {

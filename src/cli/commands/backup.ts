@@ -2,10 +2,10 @@
  * `mvledger backup --out FILE` and `mvledger restore --in FILE [--force]` on
  * the SQLite file named by DATABASE_URL; for PostgreSQL they print the
  * pg_dump / pg_restore commands and exit 2. The work is done by
- * store/backup.ts; this module reads the arguments and prints one line.
+ * store/backup/; this module reads the arguments and prints one line.
  */
-import { DatabaseUrlError, parseDatabaseUrl, splitPostgresUrl } from '../../store/connect.js';
-import { BackupInputError, backupSqlite, describeVerdict, postgresGuidance, restoreSqlite } from '../../store/backup.js';
+import { DatabaseUrlError, parseDatabaseUrl, splitPostgresUrl } from '../../store/database-url.js';
+import { BackupInputError, backupSqlite, describeVerdict, postgresGuidance, restoreSqlite } from '../../store/backup/index.js';
 import { EXIT_BAD_INPUT, UsageError } from '../errors.js';
 import { BACKUP_USAGE, RESTORE_USAGE } from '../usage.js';
 import { parseOptions, type OptionValues } from '../shared.js';
@@ -65,7 +65,6 @@ function sqliteFileOf(
     if (parsed.dialect === 'postgres') splitPostgresUrl(parsed.location);
   } catch (error) {
     if (error instanceof DatabaseUrlError) throw new UsageError(error.message);
-    if (error instanceof TypeError) throw new UsageError('DATABASE_URL: not a valid postgres:// URL');
     throw error;
   }
   if (parsed.dialect === 'postgres') return { postgres: parsed.location };

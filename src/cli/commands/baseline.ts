@@ -1,12 +1,9 @@
 /** The baseline analysis both commands start from, with too-few-periods turned into an input error. */
-import { analyseBaseline, type BaselineAnalysis } from '../../engine/index.js';
+import { analyseBaseline, TooFewPeriodsError, type BaselineAnalysis } from '../../engine/index.js';
 import type { CommonOptions } from '../options.js';
 import type { ReadingsFile } from '../input/readings-file.js';
 import type { WeatherFile } from '../input/weather-file.js';
 import { explainTooFewPeriods } from './too-few-periods.js';
-
-/** The engine's minimum number of usable baseline periods (analyseBaseline throws below it). */
-const MIN_BASELINE_PERIODS = 2;
 
 export function fitBaseline(readings: ReadingsFile, weather: WeatherFile, options: CommonOptions): BaselineAnalysis {
   try {
@@ -17,11 +14,7 @@ export function fitBaseline(readings: ReadingsFile, weather: WeatherFile, option
       ...(options.temperatureForm === null ? {} : { temperatureForm: options.temperatureForm }),
     });
   } catch (error) {
-    if (error instanceof RangeError) {
-      const explained = explainTooFewPeriods(readings, weather, options.minCoverage, MIN_BASELINE_PERIODS, error.message);
-      if (explained) throw explained;
-    }
-    throw error;
+    throw error instanceof TooFewPeriodsError ? explainTooFewPeriods(readings, weather, error) : error;
   }
 }
 

@@ -6,6 +6,7 @@
  * alone on stdout, so `TOKEN=$(mvledger keys create ...)` captures it.
  */
 import type { Store } from '../../store/connect.js';
+import { findOrganisation } from '../../store/organisations.js';
 import { ROLES } from '../../store/api-keys.js';
 import type { Role } from '../../domain/principal.js';
 import { createKey, createOrganisation } from '../../services/organisations.js';
@@ -114,11 +115,7 @@ function withStore(env: NodeJS.ProcessEnv, work: (store: Store) => Promise<KeysO
 async function create(store: Store, input: CreateInput, at: string): Promise<KeysOutput> {
   let organisation: { id: string; name: string };
   if ('id' in input.organisation) {
-    const found = await store.db
-      .selectFrom('organisations')
-      .select(['id', 'name'])
-      .where('id', '=', input.organisation.id)
-      .executeTakeFirst();
+    const found = await findOrganisation(store.db, input.organisation.id);
     if (!found) throw new UsageError(`--org: no organisation ${input.organisation.id} in ${store.location}`);
     organisation = found;
   } else {
@@ -133,7 +130,7 @@ async function create(store: Store, input: CreateInput, at: string): Promise<Key
 
 async function list(store: Store, organisationId: string | undefined): Promise<KeysOutput> {
   if (organisationId !== undefined) {
-    const found = await store.db.selectFrom('organisations').select('id').where('id', '=', organisationId).executeTakeFirst();
+    const found = await findOrganisation(store.db, organisationId);
     if (!found) throw new UsageError(`--org: no organisation ${organisationId} in ${store.location}`);
   }
   const keys = await listKeysForOperator(store.db, organisationId);

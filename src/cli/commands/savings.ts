@@ -1,5 +1,6 @@
 /** `mvledger savings`: avoided energy of the reporting readings against the baseline fit. */
 import {
+  TooFewPeriodsError,
   alignPeriods,
   analyseSavings,
   baselineSufficiency,
@@ -102,10 +103,6 @@ function computeSavingsDocument(
       minCoverage: options.minCoverage,
     });
   } catch (error) {
-    if (error instanceof RangeError) {
-      const explained = explainTooFewPeriods(reporting, weather, options.minCoverage, 1, error.message);
-      if (explained) throw explained;
-    }
-    throw error;
+    throw error instanceof TooFewPeriodsError ? explainTooFewPeriods(reporting, weather, error) : error;
   }
 }

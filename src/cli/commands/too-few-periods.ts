@@ -1,24 +1,16 @@
 /**
  * When the engine refuses to fit or to compute savings for want of usable
  * periods, say which file and which row is to blame. The engine states the
- * rule; the alignment (an engine call, not a recount) tells which readings
- * were left out and why.
+ * rule and carries the readings it left out and why.
  */
-import { alignPeriods } from '../../engine/index.js';
+import type { TooFewPeriodsError } from '../../engine/index.js';
 import { InputFileError } from '../errors.js';
 import type { ReadingsFile } from '../input/readings-file.js';
 import type { WeatherFile } from '../input/weather-file.js';
 
-/** An InputFileError when fewer than `needed` periods are usable, else null (the engine failed for another reason). */
-export function explainTooFewPeriods(
-  readings: ReadingsFile,
-  weather: WeatherFile,
-  minCoverage: number,
-  needed: number,
-  engineMessage: string,
-): InputFileError | null {
-  const { periods, excluded } = alignPeriods(readings.readings, weather.weather, { minCoverage });
-  if (periods.length >= needed) return null;
+/** The engine's refusal as an InputFileError naming the file, the row and the reason. */
+export function explainTooFewPeriods(readings: ReadingsFile, weather: WeatherFile, error: TooFewPeriodsError): InputFileError {
+  const { excluded, message: engineMessage } = error;
   if (readings.readings.length === 0) {
     return new InputFileError(readings.file, readings.headerLine, 'start', `no readings below the header; ${engineMessage}`);
   }

@@ -2,12 +2,20 @@
  * `mvledger export --org ID [--out FILE]` and `mvledger import --in FILE`:
  * move one organisation between databases (DATABASE_URL names the source of
  * an export and the target of an import) as one JSON document. The work is
- * done by store/transfer.ts; this module reads the arguments and files and
+ * done by store/transfer/; this module reads the arguments and files and
  * reports one line per table on stderr (row counts only, never a secret).
  */
 import { existsSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs';
-import { DatabaseUrlError, parseDatabaseUrl, type Store } from '../../store/connect.js';
-import { TRANSFER_TABLES, TransferInputError, exportOrganisation, importOrganisation, type TransferTable } from '../../store/transfer.js';
+import type { Store } from '../../store/connect.js';
+import { findOrganisation } from '../../store/organisations.js';
+import { DatabaseUrlError, parseDatabaseUrl } from '../../store/database-url.js';
+import {
+  TRANSFER_TABLES,
+  TransferInputError,
+  exportOrganisation,
+  importOrganisation,
+  type TransferTable,
+} from '../../store/transfer/index.js';
 import { UsageError } from '../errors.js';
 import { EXPORT_USAGE, IMPORT_USAGE } from '../usage.js';
 import { DEFAULT_DATABASE_URL } from './keys.js';
@@ -36,7 +44,7 @@ export async function runExport(
   const databaseUrl = env.DATABASE_URL ?? DEFAULT_DATABASE_URL;
   refuseMissingSqliteFile(databaseUrl);
   return withStore(databaseUrl, async (store) => {
-    const found = await store.db.selectFrom('organisations').select('id').where('id', '=', organisationId).executeTakeFirst();
+    const found = await findOrganisation(store.db, organisationId);
     if (!found) throw new UsageError(`--org: no organisation ${organisationId} in ${store.location}`);
     const document = await exportOrganisation(store.db, organisationId, now()).catch(asUsage(''));
     const text = `${JSON.stringify(document)}\n`;

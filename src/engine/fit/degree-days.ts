@@ -13,7 +13,7 @@
 
 /**
  * Heating degree-days per day at base `base`: (1/m)·Σ max(0, base − T_d).
- * @example heatingDegreeDaysPerDay([40, 50, 60], 55) // (15 + 5 + 0) / 3 = 6.666…
+ * @example heatingDegreeDaysPerDay([40, 50, 60], 55) // 6.666… — (15 + 5 + 0)/3 (source: by hand, common practice)
  */
 export function heatingDegreeDaysPerDay(temps: readonly number[], base: number): number {
   let sum = 0;
@@ -23,7 +23,7 @@ export function heatingDegreeDaysPerDay(temps: readonly number[], base: number):
 
 /**
  * Cooling degree-days per day at base `base`: (1/m)·Σ max(0, T_d − base).
- * @example coolingDegreeDaysPerDay([60, 70, 80], 65) // (0 + 5 + 15) / 3 = 6.666…
+ * @example coolingDegreeDaysPerDay([60, 70, 80], 65) // 6.666… — (0 + 5 + 15)/3 (source: by hand, common practice)
  */
 export function coolingDegreeDaysPerDay(temps: readonly number[], base: number): number {
   let sum = 0;
@@ -34,7 +34,7 @@ export function coolingDegreeDaysPerDay(temps: readonly number[], base: number):
 /**
  * Share of the days colder than `base`: the derivative of the heating term
  * with respect to its base (where no day sits exactly on it).
- * @example shareBelow([40, 50, 60], 55) // 2/3
+ * @example shareBelow([40, 50, 60], 55) // 0.666… — two days of three lie below the base (source: by hand)
  */
 export function shareBelow(temps: readonly number[], base: number): number {
   let count = 0;
@@ -45,7 +45,7 @@ export function shareBelow(temps: readonly number[], base: number): number {
 /**
  * Share of the days warmer than `base`: minus the derivative of the cooling
  * term with respect to its base.
- * @example shareAbove([60, 70, 80], 65) // 2/3
+ * @example shareAbove([60, 70, 80], 65) // 0.666… — two days of three lie above the base (source: by hand)
  */
 export function shareAbove(temps: readonly number[], base: number): number {
   let count = 0;

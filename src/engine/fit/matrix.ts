@@ -10,6 +10,7 @@ export type Matrix = number[][];
  * Inverse of a symmetric positive-definite matrix by Gauss–Jordan elimination
  * with partial pivoting. Returns null when the matrix is singular to working
  * precision (a pivot below `relativeTolerance` × the largest diagonal entry).
+ * @example invertMatrix([[2, 0], [0, 4]]) // [[0.5, 0], [0, 0.25]] — a diagonal matrix inverts entry by entry (source: by hand)
  */
 export function invertMatrix(matrix: Matrix, relativeTolerance = 1e-12): Matrix | null {
   const size = matrix.length;
@@ -36,12 +37,18 @@ export function invertMatrix(matrix: Matrix, relativeTolerance = 1e-12): Matrix 
   return work.map((row) => row.slice(size));
 }
 
-/** Matrix–vector product. */
+/**
+ * Matrix–vector product.
+ * @example multiplyMatrixVector([[1, 2], [3, 4]], [1, 1]) // [3, 7] — the row sums (source: by hand)
+ */
 export function multiplyMatrixVector(matrix: Matrix, vector: readonly number[]): number[] {
   return matrix.map((row) => row.reduce((sum, value, j) => sum + value * vector[j]!, 0));
 }
 
-/** The quadratic form vᵀ·M·v. */
+/**
+ * The quadratic form vᵀ·M·v.
+ * @example quadraticForm([[2, 0], [0, 3]], [1, 2]) // 14 — 2·1² + 3·2² (source: by hand)
+ */
 export function quadraticForm(matrix: Matrix, vector: readonly number[]): number {
   return multiplyMatrixVector(matrix, vector).reduce((sum, value, i) => sum + value * vector[i]!, 0);
 }

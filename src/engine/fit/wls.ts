@@ -22,6 +22,7 @@ export interface WlsResult {
  * `degreesOfFreedom` defaults to n − k (k columns); changepoint models pass
  * n − p so that the changepoints count as parameters. Returns null when the
  * design is rank-deficient.
+ * @example weightedLeastSquares([[1, 0], [1, 1], [1, 2]], [1, 3, 5], [1, 1, 1])?.coefficients // [1, 2] — the points lie on y = 1 + 2x (source: by hand)
  */
 export function weightedLeastSquares(
   design: readonly (readonly number[])[],

@@ -23,7 +23,7 @@ import { invertMatrix } from '../fit/matrix.js';
  * κⱼ = [(XᵀWX)⁻¹ Xᵀ W^½ Ω W^½ X (XᵀWX)⁻¹]ⱼⱼ / [(XᵀWX)⁻¹]ⱼⱼ for each column j,
  * with the rows of `design` in time order. All ones when ρ ≤ 0 or the
  * design is singular.
- * @example ar1VarianceInflation([[1], [1]], [1, 1], 0.5) // [1.5]: Var of a mean of two AR(1) values is (1 + ρ)/2 of σ², not 1/2
+ * @example ar1VarianceInflation([[1], [1]], [1, 1], 0.5) // [1.5] — the variance of a mean of two AR(1) values is (1 + ρ)/2 of σ², not 1/2 (source: by hand, common practice)
  */
 export function ar1VarianceInflation(design: readonly (readonly number[])[], weights: readonly number[], rho: number): number[] {
   const n = design.length;

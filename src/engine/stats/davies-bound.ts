@@ -34,7 +34,7 @@ export interface SearchedTestInput {
 /**
  * Davies' upper bound on the p-value of the largest F over a searched
  * changepoint, or 1 when the statistic is not positive.
- * @example searchedChangepointPValue({ path: [0, 4, 0], observed: 4, df2: 1e6 }) // ≈ 0.0455 + 4·e^(−2)/√(2π) ≈ 0.26
+ * @example searchedChangepointPValue({ path: [0, 4, 0], observed: 4, df2: 1e6 }) // 0.2614… — P(χ²₁ > 4) + total variation 4·e^(−2)/√(2π): 0.0455 + 0.2159 (source: Davies 1987 bound, by hand)
  */
 export function searchedChangepointPValue(input: SearchedTestInput): number {
   const { path, observed, df2 } = input;

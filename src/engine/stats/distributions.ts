@@ -3,25 +3,28 @@ import jstatModule from 'jstat';
 // jstat is CommonJS; under ESM its namespace arrives as the default export.
 const jStat = (jstatModule as unknown as { jStat?: typeof jstatModule }).jStat ?? jstatModule;
 
-/** Two-sided Student t critical value: P(|T| ≤ t) = confidence with `dof` degrees of freedom. */
+/**
+ * Two-sided Student t critical value: P(|T| ≤ t) = confidence with `dof` degrees of freedom.
+ * @example twoSidedTCritical(0.95, 10) // 2.2281… — t₀.₉₇₅ with 10 degrees of freedom, 2.228 in printed t tables (source: common practice)
+ */
 export function twoSidedTCritical(confidence: number, dof: number): number {
   if (!(confidence > 0 && confidence < 1)) throw new RangeError(`confidence must lie in (0, 1), got ${confidence}`);
   if (!(dof > 0)) return Number.POSITIVE_INFINITY;
   return jStat.studentt.inv((1 + confidence) / 2, dof);
 }
 
-/** Two-sided p-value of a t statistic with `dof` degrees of freedom. */
-export function twoSidedTPValue(t: number, dof: number): number {
-  if (!Number.isFinite(t)) return Number.isNaN(t) ? Number.NaN : 0;
-  return 2 * (1 - jStat.studentt.cdf(Math.abs(t), dof));
-}
-
-/** Upper critical value of the F distribution: P(F ≤ f) = 1 − level. */
+/**
+ * Upper critical value of the F distribution: P(F ≤ f) = 1 − level.
+ * @example fCritical(0.05, 1, 10) // 4.9646… — F₀.₉₅(1, 10), 4.96 in printed F tables (source: common practice)
+ */
 export function fCritical(level: number, df1: number, df2: number): number {
   return jStat.centralF.inv(1 - level, df1, df2);
 }
 
-/** Upper-tail probability of an F statistic. */
+/**
+ * Upper-tail probability of an F statistic.
+ * @example fPValue(4.964603, 1, 10) // ≈ 0.05000 — the upper tail at the 5% critical value above (source: common practice)
+ */
 export function fPValue(f: number, df1: number, df2: number): number {
   if (!Number.isFinite(f)) return f > 0 ? 0 : Number.NaN;
   return 1 - jStat.centralF.cdf(f, df1, df2);
@@ -32,7 +35,7 @@ export function fPValue(f: number, df1: number, df2: number): number {
  * confidence: for figures given as a standard uncertainty (one standard
  * deviation) rather than estimated from a regression, the half-width at
  * confidence c is z·σ.
- * @example twoSidedNormalQuantile(0.95) // 1.959963…
+ * @example twoSidedNormalQuantile(0.95) // 1.959963… — z₀.₉₇₅ of the standard normal (source: common practice)
  */
 export function twoSidedNormalQuantile(confidence: number): number {
   if (!(confidence > 0 && confidence < 1)) throw new RangeError(`confidence must lie in (0, 1), got ${confidence}`);
@@ -43,6 +46,7 @@ export function twoSidedNormalQuantile(confidence: number): number {
  * The χ² statistic with one degree of freedom whose upper tail is `p`:
  * (Φ⁻¹(1 − p/2))². Infinity for p at or below the smallest tail double
  * arithmetic resolves here (1e-15).
+ * @example chiSquareOneForTail(0.05) // 3.8414… — 1.959964², χ²₀.₉₅ with 1 degree of freedom, 3.841 in printed tables (source: common practice)
  */
 export function chiSquareOneForTail(p: number): number {
   if (!(p > 1e-15)) return Number.POSITIVE_INFINITY;

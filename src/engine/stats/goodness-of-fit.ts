@@ -25,11 +25,17 @@ export interface FitObservations {
   p: number;
 }
 
-/** Energy residuals eᵢ = quantityᵢ − daysᵢ·ŷᵢ, in the order given. */
+/**
+ * Energy residuals eᵢ = quantityᵢ − daysᵢ·ŷᵢ, in the order given.
+ * @example energyResiduals({ quantity: [10, 20], days: [1, 2], fittedPerDay: [9, 11], p: 1 }) // [1, -2] — 10 − 1·9 and 20 − 2·11 (source: by hand)
+ */
 export function energyResiduals(obs: FitObservations): number[] {
   return obs.quantity.map((q, i) => q - obs.days[i]! * obs.fittedPerDay[i]!);
 }
 
+/**
+ * @example goodnessOfFit({ quantity: [2, 4, 6], days: [1, 1, 1], fittedPerDay: [4, 4, 4], p: 1 }).cvrmse // 0.5 — √((4 + 0 + 4)/(3 − 1))/4 (source: ASHRAE Guideline 14 definition of CV(RMSE), from memory)
+ */
 export function goodnessOfFit(obs: FitObservations): GoodnessOfFit {
   const n = obs.quantity.length;
   const residuals = energyResiduals(obs);

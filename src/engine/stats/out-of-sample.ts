@@ -47,7 +47,10 @@ export const BILL_DAYS_FOR_LEAVE_ONE_OUT = 7;
 /** A pivot below this share of the block's diagonal means the rest of the data cannot identify the model. */
 const SINGULAR = 1e-9;
 
-/** The blocks for a set of periods in time order, and the method they stand for. */
+/**
+ * The blocks for a set of periods in time order, and the method they stand for.
+ * @example outOfSampleBlocks([{ start: '2024-01-01', days: 31 }, { start: '2024-02-01', days: 29 }]).method // "leave-one-period-out" — bills of 29 days and more are left out one by one (source: the rule above, set by this engine)
+ */
 export function outOfSampleBlocks(periods: readonly { start: string; days: number }[]): { method: OutOfSampleMethod; blocks: string[] } {
   const lengths = periods.map((p) => p.days).sort((a, b) => a - b);
   const median = lengths[Math.floor(lengths.length / 2)] ?? 1;
@@ -59,7 +62,7 @@ export function outOfSampleBlocks(periods: readonly { start: string; days: numbe
  * Out-of-sample CV(RMSE) and NMBE, each block predicted by the linear
  * coefficients refitted without it. `inverse` is (XᵀWX)⁻¹ of the full fit
  * and `coefficients` its solution (both as the regression returned them).
- * @example outOfSampleFit({ design: [[1], [1], [1]], usePerDay: [1, 2, 3], days: [1, 1, 1], quantity: [1, 2, 3], blocks: ['a', 'b', 'c'] }, 'leave-one-period-out', [[1 / 3]], [2]).cvrmse // √((1.5² + 0² + 1.5²)/3)/2 ≈ 0.612
+ * @example outOfSampleFit({ design: [[1], [1], [1]], usePerDay: [1, 2, 3], days: [1, 1, 1], quantity: [1, 2, 3], blocks: ['a', 'b', 'c'] }, 'leave-one-period-out', [[1 / 3]], [2]).cvrmse // 0.6123… — each value predicted by the mean of the other two: √((1.5² + 0² + 1.5²)/3)/2 (source: by hand)
  */
 export function outOfSampleFit(
   input: OutOfSampleInput,

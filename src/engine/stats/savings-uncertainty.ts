@@ -4,6 +4,7 @@ import { quadraticForm, type Matrix } from '../fit/matrix.js';
  * Effective sample size n′ = n(1 − ρ)/(1 + ρ) for lag-1 autocorrelated
  * residuals (ASHRAE Guideline 14 Annex B). Negative ρ is treated as 0, so the
  * correction only ever widens the uncertainty (common practice).
+ * @example effectiveSampleSize(36, 0.5) // 12 — 36·(1 − 0.5)/(1 + 0.5) (source: ASHRAE Guideline 14 Annex B formula, from memory)
  */
 export function effectiveSampleSize(n: number, autocorrelation: number): number {
   const rho = Math.max(0, Number.isFinite(autocorrelation) ? autocorrelation : 0);
@@ -32,6 +33,7 @@ export interface Guideline14UncertaintyInput {
  * The 1.26 factor is the Guideline's approximation for monthly data.
  * Returned as a positive fraction (|F| is used, so a negative saving gets a
  * positive uncertainty).
+ * @example guideline14FractionalUncertainty({ t: 2, cvrmse: 0.1, n: 12, nPrime: 12, m: 12, fractionSaved: 0.1 }) // 0.78574… — 2·1.26·0.1·√((1 + 2/12)/12)/0.1 (source: ASHRAE Guideline 14 Annex B formula, from memory; by hand)
  */
 export function guideline14FractionalUncertainty(input: Guideline14UncertaintyInput): number {
   const { t, cvrmse, n, nPrime, m, fractionSaved } = input;
@@ -50,6 +52,7 @@ export interface ReportingRow {
  *   Var(S) = (n/n′)·σ²·(cᵀ(XᵀWX)⁻¹c + Σ days_j),  c = Σ days_j·x_j,
  * where σ² is the weighted residual variance of the per-day fit (so a period
  * of d days carries d·σ² of noise in its total).
+ * @example exactSavingsVariance([[1]], 2, [{ days: 1, designRow: [1] }]) // 4 — σ²·(cᵀ(XᵀWX)⁻¹c + days) = 2·(1 + 1) (source: by hand)
  */
 export function exactSavingsVariance(
   unscaledCovariance: Matrix,

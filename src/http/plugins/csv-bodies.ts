@@ -5,11 +5,12 @@
  * rest stay text for the schema to reject), and each record's file line is
  * remembered so errors say "row 5, field end" instead of a JSON path.
  */
-import type { FastifyInstance } from 'fastify';
+import fp from 'fastify-plugin';
 import { parseCsvTable } from '../../lib/csv/csv-table.js';
 import { parseFlagCell } from '../../lib/csv/cells.js';
 import { InputFileError } from '../../lib/csv/input-error.js';
 import { Problem } from '../problem.js';
+import { FASTIFY_VERSION, PLUGIN } from './names.js';
 
 export type CsvCollection = 'readings' | 'observations' | 'days';
 
@@ -95,18 +96,23 @@ function csvProblem(error: InputFileError): Problem {
   return new Problem('validation', `${where}: ${error.detail}`, [{ field: where, message: error.detail }]);
 }
 
-export function installCsvBodies(app: FastifyInstance): void {
-  app.addContentTypeParser(['text/csv', 'application/csv'], { parseAs: 'string' }, (request, body, done) => {
-    request.sentAsCsv = true;
-    done(null, body);
-  });
-  app.addHook('preValidation', async (request) => {
-    const collection = request.routeOptions.config?.csvBody;
-    if (!collection || !request.sentAsCsv || typeof request.body !== 'string') return;
-    const { body, lines } = csvToBody(collection, request.body);
-    const source = request.headers[NORMAL_YEAR_SOURCE_HEADER];
-    if (collection === 'days' && typeof source === 'string') body.source = source;
-    request.body = body;
-    request.csvLines = { collection, lines };
-  });
-}
+/** The text/csv parser, and the hook that turns a CSV body into the route's JSON before validation. */
+export const csvBodiesPlugin = fp(
+  async (app) => {
+    app.addContentTypeParser(['text/csv', 'application/csv'], { parseAs: 'string' }, (request, body, done) => {
+      request.sentAsCsv = true;
+      done(null, body);
+    });
+    app.addHook('preValidation', async (request) => {
+      const collection = request.routeOptions.config?.csvBody;
+      if (!collection || !request.sentAsCsv || typeof request.body !== 'string') return;
+      const { body, lines } = csvToBody(collection, request.body);
+      const source = request.headers[NORMAL_YEAR_SOURCE_HEADER];
+      if (collection === 'days' && typeof source === 'string') body.source = source;
+      request.body = body;
+      request.csvLines = { collection, lines };
+    });
+  },
+  // Its refusals are problems naming the CSV row.
+  { name: PLUGIN.csvBodies, fastify: FASTIFY_VERSION, dependencies: [PLUGIN.problems] },
+);

@@ -6,11 +6,20 @@
  * key, since nothing was stored. A key whose first request died in flight is
  * freed after STALE_AFTER_MS.
  */
-import type { FastifyInstance, FastifyRequest } from 'fastify';
+import type { FastifyRequest } from 'fastify';
+import fp from 'fastify-plugin';
 import type { Store } from '../../store/connect.js';
+import {
+  findIdempotencyKey,
+  recordIdempotentAnswer,
+  releaseIdempotencyKey,
+  renewIdempotencyKey,
+  reserveIdempotencyKey,
+} from '../../store/idempotency-keys.js';
 import { canonicalJson, sha256Hex } from '../../lib/canonical-json.js';
 import { Problem } from '../problem.js';
 import { databaseFault, faultRecord } from '../../store/faults.js';
+import { FASTIFY_VERSION, PLUGIN } from './names.js';
 
 export const IDEMPOTENCY_HEADER = 'idempotency-key';
 const STALE_AFTER_MS = 60_000;
@@ -36,99 +45,76 @@ function requestHash(request: FastifyRequest): string {
   return sha256Hex(`${request.method} ${path} ${canonical}`);
 }
 
-export function installIdempotency(app: FastifyInstance, store: Store, now: () => string): void {
-  app.addHook('preHandler', async (request, reply) => {
-    const header = request.headers[IDEMPOTENCY_HEADER];
-    if (header === undefined || !['POST', 'PUT', 'DELETE'].includes(request.method) || !request.principal) return;
-    const key = Array.isArray(header) ? header[0]! : header;
-    if (!KEY_PATTERN.test(key)) {
-      throw new Problem('validation', 'Idempotency-Key must be 1 to 200 visible ASCII characters', [
-        { field: 'header.idempotency-key', message: 'invalid' },
-      ]);
-    }
-    const organisationId = request.principal.organisationId;
-    const hash = requestHash(request);
-    const db = store.db;
-    const inserted = await db
-      .insertInto('idempotency_keys')
-      .values({
-        organisation_id: organisationId,
-        key,
-        request_hash: hash,
-        status_code: null,
-        response_body: null,
-        content_type: null,
-        created_at: now(),
-      })
-      .onConflict((oc) => oc.columns(['organisation_id', 'key']).doNothing())
-      .executeTakeFirst();
-    if (Number(inserted.numInsertedOrUpdatedRows ?? 0n) === 1) {
-      request.idempotency = { organisationId, key };
-      return;
-    }
-    const existing = await db
-      .selectFrom('idempotency_keys')
-      .selectAll()
-      .where('organisation_id', '=', organisationId)
-      .where('key', '=', key)
-      .executeTakeFirst();
-    if (!existing) throw new Problem('idempotency-in-flight', 'retry the request');
-    if (existing.request_hash !== hash) {
-      throw new Problem(
-        'idempotency-mismatch',
-        'this Idempotency-Key was first used with a different request; use a new key for a new request',
-      );
-    }
-    if (existing.status_code === null) {
-      const age = Date.parse(now()) - Date.parse(existing.created_at);
-      if (age < STALE_AFTER_MS)
-        throw new Problem('idempotency-in-flight', 'the first request with this key has not finished; retry shortly');
-      await db
-        .updateTable('idempotency_keys')
-        .set({ created_at: now() })
-        .where('organisation_id', '=', organisationId)
-        .where('key', '=', key)
-        .execute();
-      request.idempotency = { organisationId, key };
-      return;
-    }
-    return reply
-      .code(existing.status_code)
-      .header('content-type', existing.content_type ?? 'application/json; charset=utf-8')
-      .header('idempotent-replayed', 'true')
-      .send(existing.response_body ?? '');
-  });
-
-  app.addHook('onSend', async (request, reply, payload) => {
-    const pending = request.idempotency;
-    if (!pending) return payload;
-    request.idempotency = undefined;
-    const where = store.db
-      .updateTable('idempotency_keys')
-      .where('organisation_id', '=', pending.organisationId)
-      .where('key', '=', pending.key);
-    try {
-      if (reply.statusCode >= 200 && reply.statusCode < 300 && (typeof payload === 'string' || Buffer.isBuffer(payload))) {
-        await where
-          .set({
-            status_code: reply.statusCode,
-            response_body: payload.toString(),
-            content_type: String(reply.getHeader('content-type') ?? ''),
-          })
-          .execute();
-      } else {
-        await store.db
-          .deleteFrom('idempotency_keys')
-          .where('organisation_id', '=', pending.organisationId)
-          .where('key', '=', pending.key)
-          .execute();
-      }
-    } catch (error) {
-      // The answer stands: a write already committed is not undone by losing its key's record. The key
-      // stays in flight and is freed after STALE_AFTER_MS; a replay before then is told to retry.
-      if (databaseFault(error) === null) throw error;
-      request.log.warn({ database: faultRecord(error) }, 'idempotency key not recorded: the database is not available');
-    }
-    return payload;
-  });
+export interface IdempotencyOptions {
+  store: Store;
+  /** The current time as ISO-8601. */
+  now: () => string;
 }
+
+/** Reserves the key before a write's handler runs, replays a finished one, and keeps (or frees) the key as the write answers. */
+export const idempotencyPlugin = fp<IdempotencyOptions>(
+  async (app, { store, now }) => {
+    app.addHook('preHandler', async (request, reply) => {
+      const header = request.headers[IDEMPOTENCY_HEADER];
+      if (header === undefined || !['POST', 'PUT', 'DELETE'].includes(request.method) || !request.principal) return;
+      const key = Array.isArray(header) ? header[0]! : header;
+      if (!KEY_PATTERN.test(key)) {
+        throw new Problem('validation', 'Idempotency-Key must be 1 to 200 visible ASCII characters', [
+          { field: 'header.idempotency-key', message: 'invalid' },
+        ]);
+      }
+      const id = { organisationId: request.principal.organisationId, key };
+      const hash = requestHash(request);
+      if (await reserveIdempotencyKey(store.db, id, hash, now())) {
+        request.idempotency = id;
+        return;
+      }
+      const existing = await findIdempotencyKey(store.db, id);
+      if (!existing) throw new Problem('idempotency-in-flight', 'retry the request');
+      if (existing.request_hash !== hash) {
+        throw new Problem(
+          'idempotency-mismatch',
+          'this Idempotency-Key was first used with a different request; use a new key for a new request',
+        );
+      }
+      if (existing.status_code === null) {
+        const age = Date.parse(now()) - Date.parse(existing.created_at);
+        if (age < STALE_AFTER_MS)
+          throw new Problem('idempotency-in-flight', 'the first request with this key has not finished; retry shortly');
+        await renewIdempotencyKey(store.db, id, now());
+        request.idempotency = id;
+        return;
+      }
+      return reply
+        .code(existing.status_code)
+        .header('content-type', existing.content_type ?? 'application/json; charset=utf-8')
+        .header('idempotent-replayed', 'true')
+        .send(existing.response_body ?? '');
+    });
+
+    app.addHook('onSend', async (request, reply, payload) => {
+      const pending = request.idempotency;
+      if (!pending) return payload;
+      request.idempotency = undefined;
+      try {
+        if (reply.statusCode >= 200 && reply.statusCode < 300 && (typeof payload === 'string' || Buffer.isBuffer(payload))) {
+          await recordIdempotentAnswer(store.db, pending, {
+            statusCode: reply.statusCode,
+            body: payload.toString(),
+            contentType: String(reply.getHeader('content-type') ?? ''),
+          });
+        } else {
+          await releaseIdempotencyKey(store.db, pending);
+        }
+      } catch (error) {
+        // The answer stands: a write already committed is not undone by losing its key's record. The key
+        // stays in flight and is freed after STALE_AFTER_MS; a replay before then is told to retry.
+        if (databaseFault(error) === null) throw error;
+        request.log.warn({ database: faultRecord(error) }, 'idempotency key not recorded: the database is not available');
+      }
+      return payload;
+    });
+  },
+  // Keys belong to the authenticated caller's organisation; the refusals are problems.
+  { name: PLUGIN.idempotency, fastify: FASTIFY_VERSION, dependencies: [PLUGIN.problems, PLUGIN.auth] },
+);

@@ -5,12 +5,14 @@
  * connection is a 503 with Retry-After. Unexpected errors are logged with the
  * request id and answered with a bare 500: no stack, no internals.
  */
-import type { FastifyError, FastifyInstance, FastifyReply, FastifyRequest } from 'fastify';
+import type { FastifyError, FastifyReply, FastifyRequest } from 'fastify';
+import fp from 'fastify-plugin';
 import { hasZodFastifySchemaValidationErrors } from 'fastify-type-provider-zod';
 import { Problem, PROBLEM_CONTENT_TYPE, problemFromDomain, type FieldError } from '../problem.js';
 import { DomainError, summarise } from '../../domain/errors.js';
 import { databaseFault, type DatabaseFault } from '../../store/faults.js';
 import { addMissingSecurityHeaders } from '../security-headers.js';
+import { FASTIFY_VERSION, PLUGIN } from './names.js';
 
 /** Set by the CSV body parser: maps a record index to its line in the CSV text. */
 declare module 'fastify' {
@@ -75,49 +77,53 @@ function unavailableProblem(fault: DatabaseFault, request: FastifyRequest): Prob
   });
 }
 
-export function installProblemHandling(app: FastifyInstance): void {
-  app.setErrorHandler((error: FastifyError, request, reply) => {
-    if (error instanceof Problem) return sendProblem(request, reply, error);
-    if (error instanceof DomainError) return sendProblem(request, reply, problemFromDomain(error));
-    if (hasZodFastifySchemaValidationErrors(error)) return sendProblem(request, reply, validationProblem(error, request));
-    switch (error.code) {
-      case 'FST_ERR_CTP_INVALID_MEDIA_TYPE':
+/** The error handler and the not-found answer, for the whole app. */
+export const problemsPlugin = fp(
+  async (app) => {
+    app.setErrorHandler((error: FastifyError, request, reply) => {
+      if (error instanceof Problem) return sendProblem(request, reply, error);
+      if (error instanceof DomainError) return sendProblem(request, reply, problemFromDomain(error));
+      if (hasZodFastifySchemaValidationErrors(error)) return sendProblem(request, reply, validationProblem(error, request));
+      switch (error.code) {
+        case 'FST_ERR_CTP_INVALID_MEDIA_TYPE':
+          return sendProblem(
+            request,
+            reply,
+            new Problem('unsupported-media-type', `send application/json${request.routeOptions.config?.csvBody ? ' or text/csv' : ''}`),
+          );
+        case 'FST_ERR_CTP_BODY_TOO_LARGE':
+          return sendProblem(
+            request,
+            reply,
+            new Problem('payload-too-large', `the body exceeds ${app.initialConfig.bodyLimit} bytes; send smaller batches`),
+          );
+        case 'FST_ERR_CTP_EMPTY_JSON_BODY':
+          return sendProblem(request, reply, new Problem('validation', 'the JSON body is empty', [{ field: '(body)', message: 'empty' }]));
+        case 'FST_ERR_CTP_INVALID_CONTENT_LENGTH':
+          return sendProblem(request, reply, new Problem('validation', 'the Content-Length does not match the body'));
+        default:
+          break;
+      }
+      if (error.statusCode === 400 && error instanceof SyntaxError) {
         return sendProblem(
           request,
           reply,
-          new Problem('unsupported-media-type', `send application/json${request.routeOptions.config?.csvBody ? ' or text/csv' : ''}`),
+          new Problem('validation', 'the body is not valid JSON', [{ field: '(body)', message: 'not valid JSON' }]),
         );
-      case 'FST_ERR_CTP_BODY_TOO_LARGE':
-        return sendProblem(
-          request,
-          reply,
-          new Problem('payload-too-large', `the body exceeds ${app.initialConfig.bodyLimit} bytes; send smaller batches`),
-        );
-      case 'FST_ERR_CTP_EMPTY_JSON_BODY':
-        return sendProblem(request, reply, new Problem('validation', 'the JSON body is empty', [{ field: '(body)', message: 'empty' }]));
-      case 'FST_ERR_CTP_INVALID_CONTENT_LENGTH':
-        return sendProblem(request, reply, new Problem('validation', 'the Content-Length does not match the body'));
-      default:
-        break;
-    }
-    if (error.statusCode === 400 && error instanceof SyntaxError) {
-      return sendProblem(
-        request,
-        reply,
-        new Problem('validation', 'the body is not valid JSON', [{ field: '(body)', message: 'not valid JSON' }]),
-      );
-    }
-    const fault = databaseFault(error);
-    if (fault !== null)
-      return sendProblem(request, reply.header('retry-after', String(RETRY_AFTER_SECONDS[fault])), unavailableProblem(fault, request));
-    if (typeof error.statusCode === 'number' && error.statusCode >= 400 && error.statusCode < 500) {
-      return sendProblem(request, reply, new Problem('validation', error.message.replace(/\s+/g, ' ').slice(0, 300)));
-    }
-    request.log.error({ err: { type: error.name, message: error.message, code: error.code } }, 'unexpected error');
-    return sendProblem(request, reply, new Problem('internal', `unexpected error; quote request id ${request.id} when reporting it`));
-  });
+      }
+      const fault = databaseFault(error);
+      if (fault !== null)
+        return sendProblem(request, reply.header('retry-after', String(RETRY_AFTER_SECONDS[fault])), unavailableProblem(fault, request));
+      if (typeof error.statusCode === 'number' && error.statusCode >= 400 && error.statusCode < 500) {
+        return sendProblem(request, reply, new Problem('validation', error.message.replace(/\s+/g, ' ').slice(0, 300)));
+      }
+      request.log.error({ err: { type: error.name, message: error.message, code: error.code } }, 'unexpected error');
+      return sendProblem(request, reply, new Problem('internal', `unexpected error; quote request id ${request.id} when reporting it`));
+    });
 
-  app.setNotFoundHandler((request, reply) =>
-    sendProblem(request, reply, new Problem('not-found', `no route ${request.method} ${request.url.split('?')[0]}`)),
-  );
-}
+    app.setNotFoundHandler((request, reply) =>
+      sendProblem(request, reply, new Problem('not-found', `no route ${request.method} ${request.url.split('?')[0]}`)),
+    );
+  },
+  { name: PLUGIN.problems, fastify: FASTIFY_VERSION },
+);

@@ -6,9 +6,11 @@
  * record, or two spellings of one name (composed and decomposed) could look
  * identical and differ.
  */
-import type { FastifyInstance, FastifyRequest } from 'fastify';
+import type { FastifyRequest } from 'fastify';
+import fp from 'fastify-plugin';
 import { Problem } from '../problem.js';
 import { describePath } from './problems.js';
+import { FASTIFY_VERSION, PLUGIN } from './names.js';
 
 /** With the u flag a paired surrogate is one code point, so this matches only a lone one. */
 const LONE_SURROGATE = /\p{Surrogate}/u;
@@ -72,9 +74,14 @@ function loneSurrogate(field: string): Problem {
   ]);
 }
 
-export function installTextInput(app: FastifyInstance): void {
-  app.addHook('preValidation', async (request) => {
-    check(request, 'query');
-    check(request, 'body');
-  });
-}
+/** Normalises the query's and body's strings before validation; a lone surrogate is refused naming its field. */
+export const textInputPlugin = fp(
+  async (app) => {
+    app.addHook('preValidation', async (request) => {
+      check(request, 'query');
+      check(request, 'body');
+    });
+  },
+  // After the CSV hook (preValidation hooks run in order): a CSV body is checked as the JSON it became, naming its rows.
+  { name: PLUGIN.textInput, fastify: FASTIFY_VERSION, dependencies: [PLUGIN.problems, PLUGIN.csvBodies] },
+);

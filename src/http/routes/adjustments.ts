@@ -1,10 +1,10 @@
 /** /v1/meters/{id}/adjustments: non-routine adjustments of a meter's reporting period. */
 import { z } from 'zod';
-import type { RouteDeps } from '../app.js';
+import type { RouteDeps } from '../route-deps.js';
 import { createAdjustment, listAdjustments, withdrawAdjustment } from '../../services/adjustments.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageQuery } from '../schemas/common.js';
 import { adjustmentList, adjustmentSchema, createAdjustmentBody, withdrawAdjustmentBody } from '../schemas/adjustments.js';
-import { serviceContext } from './context.js';
+import { requestContext } from '../request-context.js';
 import { PAGE_SIZES } from '../../services/paging.js';
 import type { ApiApp } from './types.js';
 
@@ -25,7 +25,8 @@ export function adjustmentsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 201: adjustmentSchema, ...writeProblems },
       },
     },
-    async (request, reply) => reply.code(201).send(await createAdjustment(serviceContext(request, deps), request.params.id, request.body)),
+    async (request, reply) =>
+      reply.code(201).send(await createAdjustment(requestContext(request, deps).service, request.params.id, request.body)),
   );
 
   app.post(
@@ -44,7 +45,7 @@ export function adjustmentsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: adjustmentSchema, ...writeProblems },
       },
     },
-    async (request) => withdrawAdjustment(serviceContext(request, deps), request.params.id, request.body),
+    async (request) => withdrawAdjustment(requestContext(request, deps).service, request.params.id, request.body),
   );
 
   app.get(
@@ -61,6 +62,6 @@ export function adjustmentsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: adjustmentList, ...authProblems },
       },
     },
-    async (request) => listAdjustments(deps.store.db, request.principal!.organisationId, request.params.id, request.query),
+    async (request) => listAdjustments(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
   );
 }

@@ -5,7 +5,7 @@
  */
 import type { FastifyRequest } from 'fastify';
 import { z } from 'zod';
-import type { RouteDeps } from '../app.js';
+import type { RouteDeps } from '../route-deps.js';
 import { createApiKey, listApiKeys, revokeApiKey } from '../../services/api-keys.js';
 import { IDEMPOTENCY_HEADER } from '../plugins/idempotency.js';
 import { Problem } from '../problem.js';
@@ -20,7 +20,7 @@ import {
   pageQuery,
 } from '../schemas/common.js';
 import { apiKeySchema, createApiKeyBody, createdApiKeySchema } from '../schemas/api-keys.js';
-import { serviceContext } from './context.js';
+import { requestContext } from '../request-context.js';
 import { PAGE_SIZES } from '../../services/paging.js';
 import type { ApiApp } from './types.js';
 
@@ -49,7 +49,7 @@ export function apiKeysRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 201: createdApiKeySchema, ...writeProblems },
       },
     },
-    async (request, reply) => reply.code(201).send(await createApiKey(serviceContext(request, deps), request.body)),
+    async (request, reply) => reply.code(201).send(await createApiKey(requestContext(request, deps).service, request.body)),
   );
 
   app.get(
@@ -65,7 +65,7 @@ export function apiKeysRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: z.object({ keys: z.array(apiKeySchema), ...pageFields }), ...authProblems },
       },
     },
-    async (request) => listApiKeys(deps.store.db, request.principal!.organisationId, request.query),
+    async (request) => listApiKeys(deps.store.db, requestContext(request, deps).organisationId, request.query),
   );
 
   app.delete(
@@ -83,6 +83,6 @@ export function apiKeysRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: apiKeySchema, ...authProblems, 409: problemSchema },
       },
     },
-    async (request) => revokeApiKey(serviceContext(request, deps), request.params.id),
+    async (request) => revokeApiKey(requestContext(request, deps).service, request.params.id),
   );
 }

@@ -1,5 +1,6 @@
 /** /v1/audit: the organisation's audit trail, and a check of the whole hash chain. */
-import type { RouteDeps } from '../app.js';
+import type { RouteDeps } from '../route-deps.js';
+import { requestContext } from '../request-context.js';
 import { listAuditEntries, verifyAudit } from '../../services/audit.js';
 import { authProblems, bearer } from '../schemas/common.js';
 import { auditPageSchema, auditQuery, chainVerdictSchema } from '../schemas/audit.js';
@@ -22,7 +23,7 @@ export function auditRoutes(app: ApiApp, deps: RouteDeps): void {
     },
     async (request) => {
       const { entity, entityId, since, limit, after, cursor } = request.query;
-      return listAuditEntries(deps.store.db, request.principal!.organisationId, {
+      return listAuditEntries(deps.store.db, requestContext(request, deps).organisationId, {
         limit,
         ...(entity !== undefined ? { entityType: entity } : {}),
         ...(entityId !== undefined ? { entityId } : {}),
@@ -46,6 +47,6 @@ export function auditRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: chainVerdictSchema, ...authProblems },
       },
     },
-    async (request) => verifyAudit(deps.store.db, request.principal!.organisationId),
+    async (request) => verifyAudit(deps.store.db, requestContext(request, deps).organisationId),
   );
 }

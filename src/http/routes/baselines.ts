@@ -1,7 +1,15 @@
 /** Baselines: fit a meter's baseline window, choose a shape, freeze it, read its history and its energy signature. */
 import { z } from 'zod';
-import type { RouteDeps } from '../app.js';
-import { baselineSignatureSvg, chooseModel, createBaseline, freezeBaseline, getBaseline, listBaselines } from '../../services/baselines.js';
+import type { RouteDeps } from '../route-deps.js';
+import {
+  baselineSignatureData,
+  chooseModel,
+  createBaseline,
+  freezeBaseline,
+  getBaseline,
+  listBaselines,
+} from '../../services/baselines/index.js';
+import { renderBaselineSignature } from '../../reports/svg/baseline-signature.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageQuery } from '../schemas/common.js';
 import {
   baselineHistorySchema,
@@ -11,7 +19,7 @@ import {
   freezeBody,
   verifiedBaselineSchema,
 } from '../schemas/baselines.js';
-import { serviceContext } from './context.js';
+import { requestContext } from '../request-context.js';
 import { PAGE_SIZES } from '../../services/paging.js';
 import type { ApiApp } from './types.js';
 
@@ -34,7 +42,8 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 201: baselineSchema, ...writeProblems },
       },
     },
-    async (request, reply) => reply.code(201).send(await createBaseline(serviceContext(request, deps), request.params.id, request.body)),
+    async (request, reply) =>
+      reply.code(201).send(await createBaseline(requestContext(request, deps).service, request.params.id, request.body)),
   );
 
   app.get(
@@ -51,7 +60,7 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: baselineHistorySchema, ...authProblems },
       },
     },
-    async (request) => listBaselines(deps.store.db, request.principal!.organisationId, request.params.id, request.query),
+    async (request) => listBaselines(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
   );
 
   app.get(
@@ -66,7 +75,7 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: verifiedBaselineSchema, ...authProblems },
       },
     },
-    async (request) => getBaseline(deps.store.db, request.principal!.organisationId, request.params.id),
+    async (request) => getBaseline(deps.store.db, requestContext(request, deps).organisationId, request.params.id),
   );
 
   app.post(
@@ -84,7 +93,7 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: baselineSchema, ...writeProblems },
       },
     },
-    async (request) => chooseModel(serviceContext(request, deps), request.params.id, request.body),
+    async (request) => chooseModel(requestContext(request, deps).service, request.params.id, request.body),
   );
 
   app.post(
@@ -103,7 +112,7 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: baselineSchema, ...writeProblems },
       },
     },
-    async (request) => freezeBaseline(serviceContext(request, deps), request.params.id, request.body),
+    async (request) => freezeBaseline(requestContext(request, deps).service, request.params.id, request.body),
   );
 
   app.get(
@@ -127,6 +136,12 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
       },
     },
     async (request, reply) =>
-      reply.type(SVG_CONTENT_TYPE).send(await baselineSignatureSvg(deps.store.db, request.principal!.organisationId, request.params.id)),
+      reply
+        .type(SVG_CONTENT_TYPE)
+        .send(
+          renderBaselineSignature(
+            await baselineSignatureData(deps.store.db, requestContext(request, deps).organisationId, request.params.id),
+          ),
+        ),
   );
 }

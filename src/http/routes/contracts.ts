@@ -1,9 +1,9 @@
 /** /v1/facilities/{id}/contract: the performance contract and its guarantees. */
-import type { RouteDeps } from '../app.js';
+import type { RouteDeps } from '../route-deps.js';
 import { getContract, putContract } from '../../services/contracts.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
 import { contractSchema, putContractBody } from '../schemas/contracts.js';
-import { serviceContext } from './context.js';
+import { requestContext } from '../request-context.js';
 import type { ApiApp } from './types.js';
 
 export function contractsRoutes(app: ApiApp, deps: RouteDeps): void {
@@ -23,7 +23,7 @@ export function contractsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: contractSchema, ...writeProblems },
       },
     },
-    async (request) => putContract(serviceContext(request, deps), request.params.id, request.body),
+    async (request) => putContract(requestContext(request, deps).service, request.params.id, request.body),
   );
 
   app.get(
@@ -38,6 +38,6 @@ export function contractsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: contractSchema, ...authProblems },
       },
     },
-    async (request) => getContract(deps.store.db, request.principal!.organisationId, request.params.id),
+    async (request) => getContract(deps.store.db, requestContext(request, deps).organisationId, request.params.id),
   );
 }

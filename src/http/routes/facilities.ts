@@ -1,10 +1,10 @@
 /** /v1/facilities: the buildings or sites a contract covers. */
 import { z } from 'zod';
-import type { RouteDeps } from '../app.js';
+import type { RouteDeps } from '../route-deps.js';
 import { createFacility, getFacilityRow, listFacilities, toFacility } from '../../services/facilities.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageFields, pageQuery } from '../schemas/common.js';
 import { createFacilityBody, facilitySchema } from '../schemas/facilities.js';
-import { serviceContext } from './context.js';
+import { requestContext } from '../request-context.js';
 import { PAGE_SIZES } from '../../services/paging.js';
 import type { ApiApp } from './types.js';
 
@@ -22,7 +22,7 @@ export function facilitiesRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 201: facilitySchema, ...writeProblems },
       },
     },
-    async (request, reply) => reply.code(201).send(await createFacility(serviceContext(request, deps), request.body)),
+    async (request, reply) => reply.code(201).send(await createFacility(requestContext(request, deps).service, request.body)),
   );
 
   app.get(
@@ -38,7 +38,7 @@ export function facilitiesRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: z.object({ facilities: z.array(facilitySchema), ...pageFields }), ...authProblems },
       },
     },
-    async (request) => listFacilities(deps.store.db, request.principal!.organisationId, request.query),
+    async (request) => listFacilities(deps.store.db, requestContext(request, deps).organisationId, request.query),
   );
 
   app.get(
@@ -53,6 +53,6 @@ export function facilitiesRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: facilitySchema, ...authProblems },
       },
     },
-    async (request) => toFacility(await getFacilityRow(deps.store.db, request.principal!.organisationId, request.params.id)),
+    async (request) => toFacility(await getFacilityRow(deps.store.db, requestContext(request, deps).organisationId, request.params.id)),
   );
 }

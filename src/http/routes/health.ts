@@ -1,7 +1,7 @@
 /** Liveness and readiness for process managers and load balancers. */
 import { sql } from 'kysely';
 import { z } from 'zod';
-import type { RouteDeps } from '../app.js';
+import type { RouteDeps } from '../route-deps.js';
 import { Problem, PROBLEM_CONTENT_TYPE } from '../problem.js';
 import { problemSchema } from '../schemas/common.js';
 import { databaseFault, faultRecord } from '../../store/faults.js';

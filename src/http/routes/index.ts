@@ -1,5 +1,8 @@
 /** Every route module, registered in one place so the API surface is visible at a glance. */
-import type { RouteDeps } from '../app.js';
+import fp from 'fastify-plugin';
+import type { ZodTypeProvider } from 'fastify-type-provider-zod';
+import type { RouteDeps } from '../route-deps.js';
+import { FASTIFY_VERSION, PLUGIN } from '../plugins/names.js';
 import { healthRoutes } from './health.js';
 import { weatherStationRoutes } from './weather-stations.js';
 import { facilitiesRoutes } from './facilities.js';
@@ -20,7 +23,7 @@ import { reportsRoutes } from './reports.js';
 import { statementsRoutes } from './statements.js';
 import type { ApiApp } from './types.js';
 
-export async function registerRoutes(app: ApiApp, deps: RouteDeps): Promise<void> {
+function registerRoutes(app: ApiApp, deps: RouteDeps): void {
   healthRoutes(app, deps);
   weatherStationRoutes(app, deps);
   facilitiesRoutes(app, deps);
@@ -40,3 +43,19 @@ export async function registerRoutes(app: ApiApp, deps: RouteDeps): Promise<void
   auditRoutes(app, deps);
   apiKeysRoutes(app, deps);
 }
+
+/**
+ * The routes, after every plugin whose hooks they rely on: the error handler,
+ * authentication and its limits, CSV and text bodies, idempotency, and
+ * swagger (which collects each route's schema as it is added).
+ */
+export const routesPlugin = fp<RouteDeps>(
+  async (app, deps) => {
+    registerRoutes(app.withTypeProvider<ZodTypeProvider>(), deps);
+  },
+  {
+    name: PLUGIN.routes,
+    fastify: FASTIFY_VERSION,
+    dependencies: [PLUGIN.problems, PLUGIN.auth, PLUGIN.rateLimit, PLUGIN.csvBodies, PLUGIN.textInput, PLUGIN.idempotency, PLUGIN.swagger],
+  },
+);

@@ -1,10 +1,10 @@
 /** Meters of a facility (/v1/facilities/{id}/meters) and each meter by id (/v1/meters/{id}). */
 import { z } from 'zod';
-import type { RouteDeps } from '../app.js';
+import type { RouteDeps } from '../route-deps.js';
 import { createMeter, getMeterRow, listMeters, listOrganisationMeters, toMeter } from '../../services/meters.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageFields, pageQuery } from '../schemas/common.js';
 import { createMeterBody, listMetersQuery, meterSchema } from '../schemas/meters.js';
-import { serviceContext } from './context.js';
+import { requestContext } from '../request-context.js';
 import { PAGE_SIZES } from '../../services/paging.js';
 import type { ApiApp } from './types.js';
 
@@ -23,7 +23,8 @@ export function metersRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 201: meterSchema, ...writeProblems },
       },
     },
-    async (request, reply) => reply.code(201).send(await createMeter(serviceContext(request, deps), request.params.id, request.body)),
+    async (request, reply) =>
+      reply.code(201).send(await createMeter(requestContext(request, deps).service, request.params.id, request.body)),
   );
 
   app.get(
@@ -40,7 +41,7 @@ export function metersRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: z.object({ meters: z.array(meterSchema), ...pageFields }), ...authProblems },
       },
     },
-    async (request) => listMeters(deps.store.db, request.principal!.organisationId, request.params.id, request.query),
+    async (request) => listMeters(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
   );
 
   app.get(
@@ -56,7 +57,7 @@ export function metersRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: z.object({ meters: z.array(meterSchema), ...pageFields }).meta({ id: 'MeterList' }), ...authProblems },
       },
     },
-    async (request) => listOrganisationMeters(deps.store.db, request.principal!.organisationId, request.query),
+    async (request) => listOrganisationMeters(deps.store.db, requestContext(request, deps).organisationId, request.query),
   );
 
   app.get(
@@ -71,6 +72,6 @@ export function metersRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: meterSchema, ...authProblems },
       },
     },
-    async (request) => toMeter(await getMeterRow(deps.store.db, request.principal!.organisationId, request.params.id)),
+    async (request) => toMeter(await getMeterRow(deps.store.db, requestContext(request, deps).organisationId, request.params.id)),
   );
 }

@@ -1,9 +1,9 @@
 /** /v1/weather-stations/{id}/normal-year: the station's normal year for normalised savings (JSON or CSV). */
-import type { RouteDeps } from '../app.js';
+import type { RouteDeps } from '../route-deps.js';
 import { getNormalYear, normalYearFromStationHistory, putNormalYear } from '../../services/normal-years.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
 import { normalYearFromHistoryBody, normalYearSchema, putNormalYearBody } from '../schemas/normal-years.js';
-import { serviceContext } from './context.js';
+import { requestContext } from '../request-context.js';
 import { recordLocator } from './readings.js';
 import type { ApiApp } from './types.js';
 
@@ -24,7 +24,8 @@ export function normalYearsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: normalYearSchema, ...writeProblems },
       },
     },
-    async (request) => putNormalYear(serviceContext(request, deps), request.params.id, request.body, recordLocator(request, 'days')),
+    async (request) =>
+      putNormalYear(requestContext(request, deps).service, request.params.id, request.body, recordLocator(request, 'days')),
   );
 
   app.post(
@@ -43,7 +44,7 @@ export function normalYearsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: normalYearSchema, ...writeProblems },
       },
     },
-    async (request) => normalYearFromStationHistory(serviceContext(request, deps), request.params.id, request.body),
+    async (request) => normalYearFromStationHistory(requestContext(request, deps).service, request.params.id, request.body),
   );
 
   app.get(
@@ -58,6 +59,6 @@ export function normalYearsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: normalYearSchema, ...authProblems },
       },
     },
-    async (request) => getNormalYear(deps.store.db, request.principal!.organisationId, request.params.id),
+    async (request) => getNormalYear(deps.store.db, requestContext(request, deps).organisationId, request.params.id),
   );
 }

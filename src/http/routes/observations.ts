@@ -1,11 +1,11 @@
 /** /v1/weather-stations/{id}/observations: daily temperatures, upserted by date (JSON or CSV). */
-import type { RouteDeps } from '../app.js';
+import type { RouteDeps } from '../route-deps.js';
 import { listObservations, putObservations } from '../../services/observations.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
 import { observationsList, putObservationsBody, putObservationsResult } from '../schemas/observations.js';
 import { seriesQuery } from '../schemas/readings.js';
 import { PAGE_SIZES } from '../../services/paging.js';
-import { serviceContext } from './context.js';
+import { requestContext } from '../request-context.js';
 import { recordLocator } from './readings.js';
 import type { ApiApp } from './types.js';
 
@@ -27,7 +27,7 @@ export function observationsRoutes(app: ApiApp, deps: RouteDeps): void {
       },
     },
     async (request) =>
-      putObservations(serviceContext(request, deps), request.params.id, request.body, recordLocator(request, 'observations')),
+      putObservations(requestContext(request, deps).service, request.params.id, request.body, recordLocator(request, 'observations')),
   );
 
   app.get(
@@ -44,6 +44,6 @@ export function observationsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: observationsList, ...authProblems },
       },
     },
-    async (request) => listObservations(deps.store.db, request.principal!.organisationId, request.params.id, request.query),
+    async (request) => listObservations(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
   );
 }

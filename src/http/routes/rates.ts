@@ -1,9 +1,9 @@
 /** /v1/meters/{id}/rates: the meter's contract rate schedule. */
-import type { RouteDeps } from '../app.js';
+import type { RouteDeps } from '../route-deps.js';
 import { getRates, putRates } from '../../services/rates.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
 import { putRatesBody, rateScheduleSchema } from '../schemas/rates.js';
-import { serviceContext } from './context.js';
+import { requestContext } from '../request-context.js';
 import type { ApiApp } from './types.js';
 
 export function ratesRoutes(app: ApiApp, deps: RouteDeps): void {
@@ -23,7 +23,7 @@ export function ratesRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: rateScheduleSchema, ...writeProblems },
       },
     },
-    async (request) => putRates(serviceContext(request, deps), request.params.id, request.body),
+    async (request) => putRates(requestContext(request, deps).service, request.params.id, request.body),
   );
 
   app.get(
@@ -38,6 +38,6 @@ export function ratesRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: rateScheduleSchema, ...authProblems },
       },
     },
-    async (request) => getRates(deps.store.db, request.principal!.organisationId, request.params.id),
+    async (request) => getRates(deps.store.db, requestContext(request, deps).organisationId, request.params.id),
   );
 }

@@ -1,11 +1,11 @@
 /** /v1/meters/{id}/readings: bills and interval data, posted in batches (JSON or CSV). */
 import type { FastifyRequest } from 'fastify';
-import type { RouteDeps } from '../app.js';
+import type { RouteDeps } from '../route-deps.js';
 import { listReadings, postReadings, type RecordLocator } from '../../services/readings.js';
 import { describePath } from '../plugins/problems.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
 import { postReadingsBody, seriesQuery, postReadingsQuery, postReadingsResult, readingsList } from '../schemas/readings.js';
-import { serviceContext } from './context.js';
+import { requestContext } from '../request-context.js';
 import { PAGE_SIZES } from '../../services/paging.js';
 import type { ApiApp } from './types.js';
 
@@ -35,7 +35,7 @@ export function readingsRoutes(app: ApiApp, deps: RouteDeps): void {
     async (request, reply) => {
       const correctionReason = request.body.correctionReason ?? request.query.correctionReason;
       const result = await postReadings(
-        serviceContext(request, deps),
+        requestContext(request, deps).service,
         request.params.id,
         { readings: request.body.readings, ...(correctionReason !== undefined ? { correctionReason } : {}) },
         recordLocator(request, 'readings'),
@@ -59,6 +59,6 @@ export function readingsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: readingsList, ...authProblems },
       },
     },
-    async (request) => listReadings(deps.store.db, request.principal!.organisationId, request.params.id, request.query),
+    async (request) => listReadings(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
   );
 }

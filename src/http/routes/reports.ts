@@ -1,6 +1,7 @@
 /** /v1/reports/savings: the savings report as JSON, CSV or a printable HTML document. */
 import { z } from 'zod';
-import type { RouteDeps } from '../app.js';
+import type { RouteDeps } from '../route-deps.js';
+import { requestContext } from '../request-context.js';
 import { savingsReport } from '../../services/reports.js';
 import { renderReportCsv } from '../../reports/csv.js';
 import { renderReportHtml } from '../../reports/html/render-report.js';
@@ -42,7 +43,7 @@ export function reportsRoutes(app: ApiApp, deps: RouteDeps): void {
     },
     async (request, reply) => {
       const { format = 'json', ...query } = request.query;
-      const report = await savingsReport(deps.store.db, request.principal!.organisationId, query);
+      const report = await savingsReport(deps.store.db, requestContext(request, deps).organisationId, query);
       const body =
         format === 'csv' ? renderReportCsv(report) : format === 'html' ? renderReportHtml(report) : `${JSON.stringify(report, null, 2)}\n`;
       return reply.type(CONTENT_TYPES[format]).header('x-report-content-hash', report.contentHash).send(body);

@@ -1,6 +1,7 @@
 /** Savings: avoided energy of a meter against its active frozen baseline. */
 import { z } from 'zod';
-import type { RouteDeps } from '../app.js';
+import type { RouteDeps } from '../route-deps.js';
+import { requestContext } from '../request-context.js';
 import { noneMatchHits } from '../../services/savings-cache.js';
 import type { MeterSavings } from '../../services/savings.js';
 import { authProblems, bearer, idParams, problemSchema } from '../schemas/common.js';
@@ -36,7 +37,7 @@ export function savingsRoutes(app: ApiApp, deps: RouteDeps): void {
     async (request, reply) => {
       const { body, etag } = await deps.savingsCache.savings(
         deps.store.db,
-        request.principal!.organisationId,
+        requestContext(request, deps).organisationId,
         request.params.id,
         request.query,
         render,

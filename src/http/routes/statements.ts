@@ -1,6 +1,6 @@
 /** /v1/statements: issued savings statements, their stored bytes, their approval workflow and the comparison with today's data. */
 import { z } from 'zod';
-import type { RouteDeps } from '../app.js';
+import type { RouteDeps } from '../route-deps.js';
 import {
   approveStatement,
   compareStatement,
@@ -23,7 +23,7 @@ import {
   statementSchema,
   voidStatementBody,
 } from '../schemas/statements.js';
-import { serviceContext } from './context.js';
+import { requestContext } from '../request-context.js';
 import type { ApiApp } from './types.js';
 
 const CONTENT_TYPES = {
@@ -58,7 +58,7 @@ export function statementsRoutes(app: ApiApp, deps: RouteDeps): void {
           : window.contractYear !== undefined
             ? { contractYear: window.contractYear }
             : { from: window.from!, to: window.to! };
-      return reply.code(201).send(await issueStatement(serviceContext(request, deps), { ...rest, window: resolved }));
+      return reply.code(201).send(await issueStatement(requestContext(request, deps).service, { ...rest, window: resolved }));
     },
   );
 
@@ -73,7 +73,7 @@ export function statementsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: statementList, ...authProblems },
       },
     },
-    async (request) => listStatements(deps.store.db, request.principal!.organisationId),
+    async (request) => listStatements(deps.store.db, requestContext(request, deps).organisationId),
   );
 
   app.get(
@@ -88,7 +88,7 @@ export function statementsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: statementSchema, ...authProblems },
       },
     },
-    async (request) => getStatement(deps.store.db, request.principal!.organisationId, request.params.id),
+    async (request) => getStatement(deps.store.db, requestContext(request, deps).organisationId, request.params.id),
   );
 
   app.get(
@@ -120,7 +120,7 @@ export function statementsRoutes(app: ApiApp, deps: RouteDeps): void {
       const format = request.query.format ?? 'json';
       const stored = await statementDocument(
         deps.store.db,
-        request.principal!.organisationId,
+        requestContext(request, deps).organisationId,
         request.params.id,
         format,
         request.query.copy,
@@ -149,7 +149,7 @@ export function statementsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: statementSchema, ...writeProblems },
       },
     },
-    async (request) => approveStatement(serviceContext(request, deps), request.params.id),
+    async (request) => approveStatement(requestContext(request, deps).service, request.params.id),
   );
 
   app.post(
@@ -167,7 +167,7 @@ export function statementsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: statementSchema, ...writeProblems },
       },
     },
-    async (request) => rejectStatement(serviceContext(request, deps), request.params.id, request.body),
+    async (request) => rejectStatement(requestContext(request, deps).service, request.params.id, request.body),
   );
 
   app.post(
@@ -186,7 +186,7 @@ export function statementsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: statementSchema, ...writeProblems },
       },
     },
-    async (request) => voidStatement(serviceContext(request, deps), request.params.id, request.body),
+    async (request) => voidStatement(requestContext(request, deps).service, request.params.id, request.body),
   );
 
   app.get(
@@ -203,6 +203,6 @@ export function statementsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: statementComparison, ...authProblems, 422: problemSchema },
       },
     },
-    async (request) => compareStatement(deps.store.db, request.principal!.organisationId, request.params.id),
+    async (request) => compareStatement(deps.store.db, requestContext(request, deps).organisationId, request.params.id),
   );
 }

@@ -1,9 +1,9 @@
 /** /v1/weather-stations/{id}/gap-fills: the station's missing days filled on record. */
-import type { RouteDeps } from '../app.js';
+import type { RouteDeps } from '../route-deps.js';
 import { fillWeatherGaps } from '../../services/weather-gaps.js';
 import { bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
 import { gapFillBody, gapFillResult } from '../schemas/weather-gaps.js';
-import { serviceContext } from './context.js';
+import { requestContext } from '../request-context.js';
 import type { ApiApp } from './types.js';
 
 export function weatherGapsRoutes(app: ApiApp, deps: RouteDeps): void {
@@ -23,6 +23,6 @@ export function weatherGapsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: gapFillResult, ...writeProblems },
       },
     },
-    async (request) => fillWeatherGaps(serviceContext(request, deps), request.params.id, request.body),
+    async (request) => fillWeatherGaps(requestContext(request, deps).service, request.params.id, request.body),
   );
 }

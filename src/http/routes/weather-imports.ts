@@ -1,9 +1,9 @@
 /** /v1/weather-stations/{id}/imports: a public station file, read and stored as the station's observations. */
-import type { RouteDeps } from '../app.js';
+import type { RouteDeps } from '../route-deps.js';
 import { importStationFile } from '../../services/weather-imports.js';
 import { bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
 import { importBody, importQuery, importResult } from '../schemas/weather-imports.js';
-import { serviceContext } from './context.js';
+import { requestContext } from '../request-context.js';
 import type { ApiApp } from './types.js';
 
 export function weatherImportsRoutes(app: ApiApp, deps: RouteDeps): void {
@@ -26,7 +26,7 @@ export function weatherImportsRoutes(app: ApiApp, deps: RouteDeps): void {
       },
     },
     async (request) =>
-      importStationFile(serviceContext(request, deps), request.params.id, {
+      importStationFile(requestContext(request, deps).service, request.params.id, {
         format: request.query.format,
         text: request.body,
         ...(request.query.station !== undefined ? { archiveStationId: request.query.station } : {}),

@@ -1,12 +1,12 @@
 /** /v1/weather-stations: where daily temperatures come from. */
 import { z } from 'zod';
-import type { RouteDeps } from '../app.js';
+import type { RouteDeps } from '../route-deps.js';
 import { createStation, getStationRow, listStations, toStation } from '../../services/weather-stations.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageFields, pageQuery } from '../schemas/common.js';
 import { createStationBody, stationRecordSchema, stationSchema } from '../schemas/weather-stations.js';
 import { dateRangeQuery } from '../schemas/readings.js';
 import { stationRecordSummary } from '../../services/station-records.js';
-import { serviceContext } from './context.js';
+import { requestContext } from '../request-context.js';
 import { PAGE_SIZES } from '../../services/paging.js';
 import type { ApiApp } from './types.js';
 
@@ -24,7 +24,7 @@ export function weatherStationRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 201: stationSchema, ...writeProblems },
       },
     },
-    async (request, reply) => reply.code(201).send(await createStation(serviceContext(request, deps), request.body)),
+    async (request, reply) => reply.code(201).send(await createStation(requestContext(request, deps).service, request.body)),
   );
 
   app.get(
@@ -40,7 +40,7 @@ export function weatherStationRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: z.object({ stations: z.array(stationSchema), ...pageFields }), ...authProblems },
       },
     },
-    async (request) => listStations(deps.store.db, request.principal!.organisationId, request.query),
+    async (request) => listStations(deps.store.db, requestContext(request, deps).organisationId, request.query),
   );
 
   app.get(
@@ -55,7 +55,7 @@ export function weatherStationRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: stationSchema, ...authProblems },
       },
     },
-    async (request) => toStation(await getStationRow(deps.store.db, request.principal!.organisationId, request.params.id)),
+    async (request) => toStation(await getStationRow(deps.store.db, requestContext(request, deps).organisationId, request.params.id)),
   );
 
   app.get(
@@ -73,6 +73,6 @@ export function weatherStationRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: stationRecordSchema, ...authProblems },
       },
     },
-    async (request) => stationRecordSummary(deps.store.db, request.principal!.organisationId, request.params.id, request.query),
+    async (request) => stationRecordSummary(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
   );
 }

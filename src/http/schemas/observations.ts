@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { finite, isoDate, pageFields } from './common.js';
 import { temperatureUnit } from './weather-stations.js';
-import { MAX_BATCH } from './readings.js';
+import { MAX_RECORDS_PER_BATCH } from '../../domain/limits.js';
 
 export const observationInput = z
   .object({
@@ -18,7 +18,7 @@ export const putObservationsBody = z
     observations: z
       .array(observationInput)
       .min(1, 'at least one observation is needed')
-      .max(MAX_BATCH, `at most ${MAX_BATCH} observations per request`),
+      .max(MAX_RECORDS_PER_BATCH, `at most ${MAX_RECORDS_PER_BATCH} observations per request`),
   })
   .strict()
   .describe('Also accepted as text/csv with the header date,temp or date,tmin,tmax.');

@@ -2,9 +2,7 @@ import { z } from 'zod';
 import { boundText, MAX_COST_PER_DAY, MAX_USE_PER_DAY } from '../../engine/index.js';
 import { finite, isoDate, pageFields, pageQuery, plainText } from './common.js';
 import { PAGE_SIZES } from '../../services/paging.js';
-
-/** Largest batch in one request; the service enforces the same limit. */
-export const MAX_BATCH = 50_000;
+import { MAX_RECORDS_PER_BATCH } from '../../domain/limits.js';
 
 const nonNegative = finite.refine((value) => value >= 0, 'must not be negative');
 
@@ -27,7 +25,10 @@ const correctionReason = plainText().trim().min(1, 'must not be empty').max(1000
 
 export const postReadingsBody = z
   .object({
-    readings: z.array(readingInput).min(1, 'at least one reading is needed').max(MAX_BATCH, `at most ${MAX_BATCH} readings per request`),
+    readings: z
+      .array(readingInput)
+      .min(1, 'at least one reading is needed')
+      .max(MAX_RECORDS_PER_BATCH, `at most ${MAX_RECORDS_PER_BATCH} readings per request`),
     correctionReason: correctionReason.optional().describe('Why stored readings are being changed; required when the batch changes any'),
   })
   .strict()

@@ -1,0 +1,14 @@
+/**
+ * What every route module receives from the app. Its own module, so routes
+ * import it without importing app.ts (which imports the routes).
+ */
+import type { Store } from '../store/connect.js';
+import type { SavingsCache } from '../services/savings-cache.js';
+
+export interface RouteDeps {
+  store: Store;
+  /** The current time as ISO-8601 (injectable so tests control it). */
+  now: () => string;
+  /** Savings documents kept per data version (services/savings-cache.ts), one per instance. */
+  savingsCache: SavingsCache;
+}

@@ -1,0 +1,69 @@
+/** What the baseline service takes and answers: fit options, freeze input, the stored inputs, the views. */
+import type {
+  BaselineSufficiency,
+  DailyTemperature,
+  FitDocument,
+  ModelName,
+  ProjectionOverrides,
+  Reading,
+  TemperatureForm,
+  TemperatureUnit,
+} from '../../engine/index.js';
+import type { BaselineStatus } from '../../store/schema.js';
+
+export interface BaselineFitOptions {
+  minCoverage?: number;
+  significanceLevel?: number;
+  minPointsPerSegment?: number;
+  allowSameSignFourPoint?: boolean;
+  /** How each reading's weather enters the fit; default: day-resolved wherever daily weather covers the readings. */
+  temperature?: TemperatureForm;
+}
+
+/** What was allowed when the baseline was frozen, each with the reason given; null where nothing was. */
+export type BaselineOverrides = ProjectionOverrides;
+
+export interface FreezeInput {
+  note: string;
+  supersedeReason?: string;
+  overrides?: { shortBaseline?: { reason: string }; extrapolation?: { reason: string } };
+}
+
+/** Exactly what the fit saw: kept with the baseline so it can be re-run and checked. */
+export interface BaselineInputs {
+  readings: Reading[];
+  weather: DailyTemperature[];
+  temperatureUnit: TemperatureUnit;
+}
+
+export interface BaselineSummary {
+  id: string;
+  meterId: string;
+  version: number;
+  status: BaselineStatus;
+  start: string;
+  end: string;
+  options: BaselineFitOptions;
+  /** The form the baseline was fitted in, which its projections keep: 'daily' (day-resolved) or 'mean'. */
+  temperatureForm: TemperatureForm;
+  /** Whether it covers a full cycle of seasons (null for a row without its inputs). */
+  sufficiency: BaselineSufficiency | null;
+  overrides: BaselineOverrides;
+  selected: ModelName;
+  chosen: ModelName;
+  choiceReason: string | null;
+  warnings: string[];
+  contentHash: string | null;
+  note: string | null;
+  frozenAt: string | null;
+  frozenBy: string | null;
+  supersedes: string | null;
+  supersedeReason: string | null;
+  createdAt: string;
+  createdBy: string;
+}
+
+export interface Baseline extends BaselineSummary {
+  /** The engine's fit document, non-finite numbers as null. */
+  fit: FitDocument;
+}
