@@ -107,7 +107,9 @@ export async function releaseTestDatabase(databaseUrl: string): Promise<void> {
   // append-only triggers for this one transaction (the test user is a superuser);
   // nothing here needs to survive a crash, so the commit does not wait for the disk.
   const deletes = names.filter((name) => !MIGRATION_TABLES.has(name)).map((name) => `delete from ${schema}."${name}";`);
-  await client.query(`begin; set local session_replication_role = replica; set local synchronous_commit = off; ${deletes.join(' ')} commit;`);
+  await client.query(
+    `begin; set local session_replication_role = replica; set local synchronous_commit = off; ${deletes.join(' ')} commit;`,
+  );
   idleSchemas.push(databaseUrl);
 }
 
