@@ -37,3 +37,20 @@ export { InputFileError } from '../lib/csv/input-error.js';
 export function oneLine(text: string): string {
   return text.replace(/\s*[\r\n]+\s*/g, ' ').trim();
 }
+
+/** A node:util parseArgs failure in plain words (unknown option, unexpected argument, missing value). */
+export function describeParseError(error: unknown): string {
+  const code = (error as { code?: unknown })?.code;
+  const message = error instanceof Error ? error.message : String(error);
+  const quoted = /'([^']+)'/.exec(message)?.[1];
+  switch (code) {
+    case 'ERR_PARSE_ARGS_UNKNOWN_OPTION':
+      return `unknown option ${quoted ?? ''}`.trim();
+    case 'ERR_PARSE_ARGS_UNEXPECTED_POSITIONAL':
+      return `unexpected argument ${quoted ?? ''}`.trim();
+    case 'ERR_PARSE_ARGS_INVALID_OPTION_VALUE':
+      return quoted ? `option ${quoted.replace(/ <value>$/, '')} needs a value` : oneLine(message);
+    default:
+      return oneLine(message.split('\n')[0] ?? message);
+  }
+}

@@ -6,25 +6,10 @@
  */
 import { EXIT_BAD_INPUT, EXIT_CODE_OF, EXIT_INTERNAL, InputFileError, UsageError, oneLine } from './errors.js';
 import { DomainError } from '../domain/errors.js';
-import { parseFitOptions, parseSavingsOptions } from './options.js';
-import { runFit } from './commands/fit.js';
-import { runSavings } from './commands/savings.js';
-import { runKeys } from './commands/keys.js';
-import { runExport, runImport } from './commands/transfer.js';
-import { runBackup, runRestore } from './commands/backup.js';
-import { runWeather } from './commands/weather.js';
-import {
-  BACKUP_USAGE,
-  EXPORT_USAGE,
-  FIT_USAGE,
-  GENERAL_USAGE,
-  IMPORT_USAGE,
-  KEYS_USAGE,
-  RESTORE_USAGE,
-  SAVINGS_USAGE,
-  WEATHER_USAGE,
-} from './usage.js';
 import { packageVersion } from './version.js';
+
+// Each command imports what it needs when it runs: `fit` and `savings` load the
+// engine and the CSV reader only, never the database drivers or the service.
 
 export interface CliIO {
   stdout(text: string): void;
@@ -38,7 +23,7 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
   const [command, ...rest] = argv;
   try {
     if (command === undefined || HELP_WORDS.has(command)) {
-      io.stdout(helpFor(rest[0]));
+      io.stdout(await helpFor(rest[0]));
       return 0;
     }
     if (VERSION_WORDS.has(command)) {
@@ -46,21 +31,40 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
       return 0;
     }
     if (command === 'fit') {
+      const { parseFitOptions } = await import('./options.js');
       const options = parseFitOptions(rest);
+      if (options.help) {
+        io.stdout((await import('./usage.js')).FIT_USAGE);
+        return 0;
+      }
+      if (options.batch) {
+        const { runFitBatch } = await import('./commands/fit-batch.js');
+        // Batch output is written as each meter is fitted; a bad file stops it before the first line.
+        const outcome = await runFitBatch(options, io);
+        return outcome.failed > 0 ? EXIT_BAD_INPUT : 0;
+      }
+      const { runFit } = await import('./commands/fit.js');
       // The whole output is built first: on an error stdout stays empty.
-      io.stdout(options.help ? FIT_USAGE : await runFit(options));
+      io.stdout(await runFit(options));
       return 0;
     }
     if (command === 'savings') {
+      const { parseSavingsOptions } = await import('./options.js');
       const options = parseSavingsOptions(rest);
-      io.stdout(options.help ? SAVINGS_USAGE : await runSavings(options));
+      if (options.help) {
+        io.stdout((await import('./usage.js')).SAVINGS_USAGE);
+        return 0;
+      }
+      const { runSavings } = await import('./commands/savings.js');
+      io.stdout(await runSavings(options));
       return 0;
     }
     if (command === 'keys') {
       if (rest.some((word) => HELP_WORDS.has(word))) {
-        io.stdout(KEYS_USAGE);
+        io.stdout((await import('./usage.js')).KEYS_USAGE);
         return 0;
       }
+      const { runKeys } = await import('./commands/keys.js');
       const output = await runKeys(rest);
       io.stdout(output.stdout);
       if (output.note) io.stderr(output.note);
@@ -68,12 +72,14 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
     }
     if (command === 'export' || command === 'import') {
       // The whole document is built and checked first: on an error stdout stays empty.
+      const { runExport, runImport } = await import('./commands/transfer.js');
       const output = command === 'export' ? await runExport(rest) : await runImport(rest);
       io.stdout(output.stdout);
       if (output.note) io.stderr(output.note);
       return 0;
     }
     if (command === 'backup' || command === 'restore') {
+      const { runBackup, runRestore } = await import('./commands/backup.js');
       const output = command === 'backup' ? await runBackup(rest) : await runRestore(rest);
       io.stdout(output.stdout);
       if (output.note) io.stderr(output.note);
@@ -81,9 +87,10 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
     }
     if (command === 'weather') {
       if (rest.some((word) => HELP_WORDS.has(word))) {
-        io.stdout(WEATHER_USAGE);
+        io.stdout((await import('./usage.js')).WEATHER_USAGE);
         return 0;
       }
+      const { runWeather } = await import('./commands/weather.js');
       const output = await runWeather(rest);
       io.stdout(output.stdout);
       if (output.note) io.stderr(output.note);
@@ -108,7 +115,9 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
   }
 }
 
-function helpFor(topic: string | undefined): string {
+async function helpFor(topic: string | undefined): Promise<string> {
+  const { BACKUP_USAGE, EXPORT_USAGE, FIT_USAGE, GENERAL_USAGE, IMPORT_USAGE, KEYS_USAGE, RESTORE_USAGE, SAVINGS_USAGE, WEATHER_USAGE } =
+    await import('./usage.js');
   if (topic === 'fit') return FIT_USAGE;
   if (topic === 'savings') return SAVINGS_USAGE;
   if (topic === 'keys') return KEYS_USAGE;

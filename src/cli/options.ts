@@ -17,8 +17,7 @@ import {
   type TemperatureForm,
   type TemperatureUnit,
 } from '../engine/index.js';
-import { UsageError } from './errors.js';
-import { describeParseError } from './shared.js';
+import { describeParseError, UsageError } from './errors.js';
 
 export interface CommonOptions {
   weather: string;
@@ -33,6 +32,8 @@ export interface CommonOptions {
 
 export interface FitOptions extends CommonOptions {
   readings: string;
+  /** One readings file with a meter column: fit every meter, one output line or row per meter. */
+  batch: boolean;
 }
 
 export interface SavingsCommandOptions extends CommonOptions {
@@ -60,7 +61,7 @@ const COMMON_SPEC = {
   help: { type: 'boolean', short: 'h' },
 } as const;
 
-const FIT_SPEC = { ...COMMON_SPEC, readings: { type: 'string' } } as const;
+const FIT_SPEC = { ...COMMON_SPEC, readings: { type: 'string' }, batch: { type: 'boolean' } } as const;
 
 const SAVINGS_SPEC = {
   ...COMMON_SPEC,
@@ -77,7 +78,7 @@ type Values = Record<string, string | boolean | undefined>;
 export function parseFitOptions(args: readonly string[]): Parsed<FitOptions> {
   const values = parseStrict(args, FIT_SPEC);
   if (values.help) return { help: true };
-  return { help: false, readings: requireFile(values, 'readings'), ...commonOptions(values) };
+  return { help: false, readings: requireFile(values, 'readings'), batch: values.batch === true, ...commonOptions(values) };
 }
 
 export function parseSavingsOptions(args: readonly string[]): Parsed<SavingsCommandOptions> {

@@ -7,7 +7,9 @@ import { parseArgs, type ParseArgsConfig } from 'node:util';
 import { openStore, type Store } from '../store/connect.js';
 import { DatabaseUrlError } from '../store/database-url.js';
 import { migrateToLatest } from '../store/migrate.js';
-import { oneLine, UsageError } from './errors.js';
+import { describeParseError, UsageError } from './errors.js';
+
+export { describeParseError };
 
 export type OptionValues = Record<string, string | boolean | undefined>;
 
@@ -22,22 +24,6 @@ export function parseOptions(
     return { values: parsed.values as OptionValues, positionals: parsed.positionals };
   } catch (error) {
     throw new UsageError(describeParseError(error));
-  }
-}
-
-export function describeParseError(error: unknown): string {
-  const code = (error as { code?: unknown })?.code;
-  const message = error instanceof Error ? error.message : String(error);
-  const quoted = /'([^']+)'/.exec(message)?.[1];
-  switch (code) {
-    case 'ERR_PARSE_ARGS_UNKNOWN_OPTION':
-      return `unknown option ${quoted ?? ''}`.trim();
-    case 'ERR_PARSE_ARGS_UNEXPECTED_POSITIONAL':
-      return `unexpected argument ${quoted ?? ''}`.trim();
-    case 'ERR_PARSE_ARGS_INVALID_OPTION_VALUE':
-      return quoted ? `option ${quoted.replace(/ <value>$/, '')} needs a value` : oneLine(message);
-    default:
-      return oneLine(message.split('\n')[0] ?? message);
   }
 }
 

@@ -14,11 +14,18 @@ const COMMON_OPTIONS = `  --weather FILE      daily weather CSV: date,temp or da
   --json              print one JSON document instead of the text report`;
 
 export const FIT_USAGE = `Usage: mvledger fit --readings FILE --weather FILE [options]
+       mvledger fit --batch --readings FILE --weather FILE [options]
 
 Fit the ${MODEL_NAMES.join(', ')} shapes to baseline readings and choose one.
 
   --readings FILE     baseline readings CSV: start,end,quantity[,estimated]
                       (a reading covers [start, end); other columns are ignored)
+  --batch             every meter of one readings file with a meter column (and a
+                      station column when the weather file has one: one weather file
+                      for all stations, or one station's weather for every meter);
+                      writes one CSV row per meter (header first), or with --json one
+                      JSON line per meter, as each is fitted; a meter that cannot be
+                      fitted gets status error and its reason, and the exit code is 2
 ${COMMON_OPTIONS}
 `;
 

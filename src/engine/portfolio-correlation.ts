@@ -77,16 +77,32 @@ function standardised(months: Map<string, number>): Map<string, number> | null {
 
 /** Pooled between-meter correlation of baseline residuals, within and across groups (see the module comment). */
 export function residualCorrelation(meters: readonly MeterResiduals[]): ResidualCorrelation {
-  const series = meters.map((m) => ({ group: m.group, z: standardised(monthlyResiduals(m.periods)) })).filter((s) => s.z !== null);
-  // For every month: Σz and Σz² over all meters present, and per group.
-  const byMonth = new Map<
+  const pooled = new PooledResidualCorrelation();
+  for (const meter of meters) pooled.add(meter);
+  return pooled.result();
+}
+
+/**
+ * The same pooled correlation, built one meter at a time: memory grows with
+ * the months and stations seen, not with the meters, so a report can pass
+ * over any number of meters. Adding meters in the same order as
+ * residualCorrelation gives the same figures, bit for bit.
+ */
+export class PooledResidualCorrelation {
+  /** For every month: Σz and Σz² over all meters present, and per group. */
+  private readonly byMonth = new Map<
     string,
     { sum: number; squares: number; count: number; groups: Map<string, { sum: number; squares: number; count: number }> }
   >();
-  const metersPerGroup = new Map<string, number>();
-  for (const { group, z } of series) {
-    for (const [month, value] of z!) {
-      const entry = byMonth.get(month) ?? { sum: 0, squares: 0, count: 0, groups: new Map() };
+  private readonly metersPerGroup = new Map<string, number>();
+  private series = 0;
+
+  add(meter: MeterResiduals): void {
+    const z = standardised(monthlyResiduals(meter.periods));
+    if (z === null) return;
+    const group = meter.group;
+    for (const [month, value] of z) {
+      const entry = this.byMonth.get(month) ?? { sum: 0, squares: 0, count: 0, groups: new Map() };
       entry.sum += value;
       entry.squares += value * value;
       entry.count += 1;
@@ -95,35 +111,39 @@ export function residualCorrelation(meters: readonly MeterResiduals[]): Residual
       inGroup.squares += value * value;
       inGroup.count += 1;
       entry.groups.set(group, inGroup);
-      byMonth.set(month, entry);
+      this.byMonth.set(month, entry);
     }
-    metersPerGroup.set(group, (metersPerGroup.get(group) ?? 0) + 1);
+    this.metersPerGroup.set(group, (this.metersPerGroup.get(group) ?? 0) + 1);
+    this.series += 1;
   }
-  let withinProducts = 0;
-  let withinPairs = 0;
-  let allProducts = 0;
-  let allPairs = 0;
-  for (const entry of byMonth.values()) {
-    allProducts += entry.sum * entry.sum - entry.squares;
-    allPairs += entry.count * (entry.count - 1);
-    for (const g of entry.groups.values()) {
-      withinProducts += g.sum * g.sum - g.squares;
-      withinPairs += g.count * (g.count - 1);
+
+  result(): ResidualCorrelation {
+    let withinProducts = 0;
+    let withinPairs = 0;
+    let allProducts = 0;
+    let allPairs = 0;
+    for (const entry of this.byMonth.values()) {
+      allProducts += entry.sum * entry.sum - entry.squares;
+      allPairs += entry.count * (entry.count - 1);
+      for (const g of entry.groups.values()) {
+        withinProducts += g.sum * g.sum - g.squares;
+        withinPairs += g.count * (g.count - 1);
+      }
     }
+    const acrossProducts = allProducts - withinProducts;
+    const acrossPairs = allPairs - withinPairs;
+    const clamp = (value: number): number => Math.min(1, Math.max(0, value));
+    const groupSizes = [...this.metersPerGroup.values()];
+    const pairsWithin = groupSizes.reduce((a, size) => a + (size * (size - 1)) / 2, 0);
+    const pairsAcross = (this.series * (this.series - 1)) / 2 - pairsWithin;
+    return {
+      withinGroup: withinPairs > 0 ? clamp(withinProducts / withinPairs) : null,
+      acrossGroups: acrossPairs > 0 ? clamp(acrossProducts / acrossPairs) : null,
+      pairsWithin,
+      pairsAcross,
+      method: CORRELATION_METHOD,
+    };
   }
-  const acrossProducts = allProducts - withinProducts;
-  const acrossPairs = allPairs - withinPairs;
-  const clamp = (value: number): number => Math.min(1, Math.max(0, value));
-  const groupSizes = [...metersPerGroup.values()];
-  const pairsWithin = groupSizes.reduce((a, size) => a + (size * (size - 1)) / 2, 0);
-  const pairsAcross = (series.length * (series.length - 1)) / 2 - pairsWithin;
-  return {
-    withinGroup: withinPairs > 0 ? clamp(withinProducts / withinPairs) : null,
-    acrossGroups: acrossPairs > 0 ? clamp(acrossProducts / acrossPairs) : null,
-    pairsWithin,
-    pairsAcross,
-    method: CORRELATION_METHOD,
-  };
 }
 
 /**

@@ -108,40 +108,43 @@ export function reportContentHash(report: Omit<SavingsReport, 'contentHash'> | S
 }
 
 function notices(facilities: readonly FacilityReport[]): string[] {
+  return facilities.flatMap(facilityNotices);
+}
+
+/** What a reader must know about one facility: meters without figures, notes, missing rates, extrapolation, partial contract years. */
+export function facilityNotices(facility: FacilityReport): string[] {
   const out: string[] = [];
-  for (const facility of facilities) {
-    if (facility.metersWithData === 0 && facility.meters.length > 0)
+  if (facility.metersWithData === 0 && facility.meters.length > 0)
+    out.push(
+      `${facility.name}: no data in this window: no meter has reporting figures; the facility is left out of the portfolio's sums`,
+    );
+  for (const meter of facility.meters) {
+    const where = `${facility.name}, ${meter.name}`;
+    if (meter.missing !== null) out.push(`${where}: no data in this window, left out of the sums: ${meter.missing}`);
+    for (const note of meter.notes) out.push(`${where}: ${note}`);
+    if (meter.commonNote !== null) out.push(`${where}: ${meter.commonNote}`);
+    if (meter.missing === null && meter.cost === null) out.push(`${where}: no contract rates: cost avoided is not stated`);
+    for (const gap of meter.missingRates) {
+      if (meter.cost !== null) out.push(`${where}: no contract rate for ${gap.start}..${gap.end}: those periods have no cost avoided`);
+    }
+    if (meter.excluded.length > 0)
+      out.push(`${where}: ${meter.excluded.length} reporting reading(s) left out for want of weather (listed in the meter's section)`);
+    if (meter.extrapolationShare > 0) {
       out.push(
-        `${facility.name}: no data in this window: no meter has reporting figures; the facility is left out of the portfolio's sums`,
+        `${where}: ${(meter.extrapolationShare * 100).toFixed(1)}% of the model baseline comes from periods outside the baseline's temperature range (extrapolation)`,
       );
-    for (const meter of facility.meters) {
-      const where = `${facility.name}, ${meter.name}`;
-      if (meter.missing !== null) out.push(`${where}: no data in this window, left out of the sums: ${meter.missing}`);
-      for (const note of meter.notes) out.push(`${where}: ${note}`);
-      if (meter.commonNote !== null) out.push(`${where}: ${meter.commonNote}`);
-      if (meter.missing === null && meter.cost === null) out.push(`${where}: no contract rates: cost avoided is not stated`);
-      for (const gap of meter.missingRates) {
-        if (meter.cost !== null) out.push(`${where}: no contract rate for ${gap.start}..${gap.end}: those periods have no cost avoided`);
-      }
-      if (meter.excluded.length > 0)
-        out.push(`${where}: ${meter.excluded.length} reporting reading(s) left out for want of weather (listed in the meter's section)`);
-      if (meter.extrapolationShare > 0) {
-        out.push(
-          `${where}: ${(meter.extrapolationShare * 100).toFixed(1)}% of the model baseline comes from periods outside the baseline's temperature range (extrapolation)`,
-        );
-      }
     }
-    for (const status of facility.guarantees) {
-      if (status.metersWithData === 0)
-        out.push(
-          `${facility.name}: contract year ${status.contractYear}: no data in this window: nothing measured, so no shortfall or surplus is stated`,
-        );
-      else if (!status.complete)
-        out.push(
-          `${facility.name}: contract year ${status.contractYear} is not complete: measured through ${status.measuredThrough} against the whole year's guarantee`,
-        );
-      for (const note of status.notes) out.push(`${facility.name}, contract year ${status.contractYear}: ${note}`);
-    }
+  }
+  for (const status of facility.guarantees) {
+    if (status.metersWithData === 0)
+      out.push(
+        `${facility.name}: contract year ${status.contractYear}: no data in this window: nothing measured, so no shortfall or surplus is stated`,
+      );
+    else if (!status.complete)
+      out.push(
+        `${facility.name}: contract year ${status.contractYear} is not complete: measured through ${status.measuredThrough} against the whole year's guarantee`,
+      );
+    for (const note of status.notes) out.push(`${facility.name}, contract year ${status.contractYear}: ${note}`);
   }
   return out;
 }

@@ -11,7 +11,7 @@
  * never share a column: `unit` names the energy columns' unit, `currency`
  * the money columns', and money is written to the currency's minor unit.
  */
-import type { EnergyTotal, MeterReport, SavingsReport } from './savings-report.js';
+import type { EnergyTotal, FacilityReport, MeterReport, SavingsReport } from './savings-report.js';
 
 export const CSV_COLUMNS = [
   'record',
@@ -46,7 +46,7 @@ export const CSV_COLUMNS = [
 
 type Column = (typeof CSV_COLUMNS)[number];
 
-type Row = Partial<Record<Column, string | number | boolean | null>>;
+export type CsvRecord = Partial<Record<Column, string | number | boolean | null>>;
 
 /** Money columns: written to the currency's minor unit (two decimals for USD, none for JPY, three for KWD). */
 const MONEY_COLUMNS: ReadonlySet<Column> = new Set<Column>(['cost_avoided', 'cost_uncertainty', 'cost_guaranteed', 'cost_difference']);
@@ -96,7 +96,7 @@ function cell(value: string | number | boolean | null | undefined): string {
   return csvText(value);
 }
 
-function totalRow(total: EnergyTotal): Row {
+function totalRow(total: EnergyTotal): CsvRecord {
   return {
     unit: total.unit,
     actual: total.actual,
@@ -110,17 +110,38 @@ function totalRow(total: EnergyTotal): Row {
 }
 
 export function renderReportCsv(report: SavingsReport): string {
-  const rows: Row[] = [];
   const w = report.window;
-  rows.push({
-    record: 'report',
-    start: w.from,
-    end: w.to,
-    note: `${w.label}; confidence ${report.confidence}; content hash ${report.contentHash}; audit head ${report.dataAsOf.auditSeq} ${report.dataAsOf.auditHash}`,
-  });
-  for (const unit of ['MMBtu', 'GJ'] as const)
-    rows.push({ record: 'portfolio', ...totalRow(report.portfolio.totals[unit]), start: w.from, end: w.to });
-  for (const cost of report.portfolio.cost)
+  const rows: CsvRecord[] = [
+    {
+      record: 'report',
+      start: w.from,
+      end: w.to,
+      note: `${w.label}; confidence ${report.confidence}; content hash ${report.contentHash}; audit head ${report.dataAsOf.auditSeq} ${report.dataAsOf.auditHash}`,
+    },
+    ...portfolioRows(report.portfolio, w),
+  ];
+  for (const facility of report.facilities) rows.push(...facilityRows(facility, w));
+  rows.push(...closingRows(report.notices, report.caution));
+  return `${CSV_HEADER}${rows.map(csvLine).join('')}`;
+}
+
+/** The header line, CRLF-terminated. */
+export const CSV_HEADER = `${CSV_COLUMNS.join(',')}\r\n`;
+
+/** One row as a CRLF-terminated line; money at its currency's minor unit. */
+export function csvLine(row: CsvRecord): string {
+  return `${CSV_COLUMNS.map((column) => {
+    const value = row[column];
+    if (MONEY_COLUMNS.has(column) && typeof value === 'number' && typeof row.currency === 'string') return csvMoney(value, row.currency);
+    return cell(value);
+  }).join(',')}\r\n`;
+}
+
+/** The portfolio's rows: totals in each common unit, then cost by currency. */
+export function portfolioRows(portfolio: Pick<SavingsReport['portfolio'], 'totals' | 'cost'>, w: { from: string; to: string }): CsvRecord[] {
+  const rows: CsvRecord[] = [];
+  for (const unit of ['MMBtu', 'GJ'] as const) rows.push({ record: 'portfolio', ...totalRow(portfolio.totals[unit]), start: w.from, end: w.to });
+  for (const cost of portfolio.cost)
     rows.push({
       record: 'portfolio',
       start: w.from,
@@ -129,96 +150,91 @@ export function renderReportCsv(report: SavingsReport): string {
       cost_avoided: cost.avoided,
       cost_uncertainty: cost.uncertainty,
     });
+  return rows;
+}
 
-  for (const facility of report.facilities) {
-    const f = { facility_id: facility.id, facility: facility.name };
-    if (facility.metersWithData === 0 && facility.meters.length > 0)
-      rows.push({ record: 'facility', ...f, start: w.from, end: w.to, note: 'no data in this window (left out of the sums)' });
-    else
-      for (const unit of ['MMBtu', 'GJ'] as const)
-        rows.push({ record: 'facility', ...f, ...totalRow(facility.totals[unit]), start: w.from, end: w.to });
-    for (const cost of facility.cost)
-      rows.push({
-        record: 'facility',
-        ...f,
-        start: w.from,
-        end: w.to,
-        currency: cost.currency,
-        cost_avoided: cost.avoided,
-        cost_uncertainty: cost.uncertainty,
-      });
-    for (const g of facility.guarantees) {
-      const note = `contract year ${g.contractYear}${g.complete ? '' : ', not complete'}`;
-      if (g.metersWithData === 0) {
-        // Nothing measured: no figures, so no shortfall is read off an empty sum.
-        if (g.energy)
-          rows.push({
-            record: 'guarantee',
-            ...f,
-            unit: g.energy.unit,
-            start: g.yearStart,
-            end: g.measuredThrough,
-            guaranteed: g.energy.guaranteed,
-            note: `${note}; no data in this window`,
-          });
-        if (g.cost)
-          rows.push({
-            record: 'guarantee',
-            ...f,
-            currency: g.cost.currency,
-            start: g.yearStart,
-            end: g.measuredThrough,
-            cost_guaranteed: g.cost.guaranteed,
-            note: `${note}; no data in this window`,
-          });
-        continue;
-      }
-      if (g.energy) {
+/** The notice rows and the caution that end the table. */
+export function closingRows(notices: readonly string[], caution: string): CsvRecord[] {
+  return [...notices.map((notice): CsvRecord => ({ record: 'notice', note: notice })), { record: 'caution', note: caution }];
+}
+
+/** One facility's rows: its totals, its guarantees, then each meter's rows. */
+export function facilityRows(facility: FacilityReport, w: { from: string; to: string }): CsvRecord[] {
+  const rows: CsvRecord[] = [];
+  const f = { facility_id: facility.id, facility: facility.name };
+  if (facility.metersWithData === 0 && facility.meters.length > 0)
+    rows.push({ record: 'facility', ...f, start: w.from, end: w.to, note: 'no data in this window (left out of the sums)' });
+  else
+    for (const unit of ['MMBtu', 'GJ'] as const)
+      rows.push({ record: 'facility', ...f, ...totalRow(facility.totals[unit]), start: w.from, end: w.to });
+  for (const cost of facility.cost)
+    rows.push({
+      record: 'facility',
+      ...f,
+      start: w.from,
+      end: w.to,
+      currency: cost.currency,
+      cost_avoided: cost.avoided,
+      cost_uncertainty: cost.uncertainty,
+    });
+  for (const g of facility.guarantees) {
+    const note = `contract year ${g.contractYear}${g.complete ? '' : ', not complete'}`;
+    if (g.metersWithData === 0) {
+      // Nothing measured: no figures, so no shortfall is read off an empty sum.
+      if (g.energy)
         rows.push({
           record: 'guarantee',
           ...f,
           unit: g.energy.unit,
           start: g.yearStart,
           end: g.measuredThrough,
-          savings: g.energy.measured,
-          uncertainty: g.energy.uncertainty,
           guaranteed: g.energy.guaranteed,
-          difference: g.energy.difference,
-          note,
+          note: `${note}; no data in this window`,
         });
-      }
-      if (g.cost) {
+      if (g.cost)
         rows.push({
           record: 'guarantee',
           ...f,
           currency: g.cost.currency,
           start: g.yearStart,
           end: g.measuredThrough,
-          cost_avoided: g.cost.measured,
-          cost_uncertainty: g.cost.uncertainty,
-          // Money in its own columns: guaranteed and difference hold energy only.
           cost_guaranteed: g.cost.guaranteed,
-          cost_difference: g.cost.difference,
-          note,
+          note: `${note}; no data in this window`,
         });
-      }
+      continue;
     }
-    for (const meter of facility.meters) rows.push(...meterRows(f, meter, w));
+    if (g.energy) {
+      rows.push({
+        record: 'guarantee',
+        ...f,
+        unit: g.energy.unit,
+        start: g.yearStart,
+        end: g.measuredThrough,
+        savings: g.energy.measured,
+        uncertainty: g.energy.uncertainty,
+        guaranteed: g.energy.guaranteed,
+        difference: g.energy.difference,
+        note,
+      });
+    }
+    if (g.cost) {
+      rows.push({
+        record: 'guarantee',
+        ...f,
+        currency: g.cost.currency,
+        start: g.yearStart,
+        end: g.measuredThrough,
+        cost_avoided: g.cost.measured,
+        cost_uncertainty: g.cost.uncertainty,
+        // Money in its own columns: guaranteed and difference hold energy only.
+        cost_guaranteed: g.cost.guaranteed,
+        cost_difference: g.cost.difference,
+        note,
+      });
+    }
   }
-  for (const notice of report.notices) rows.push({ record: 'notice', note: notice });
-  rows.push({ record: 'caution', note: report.caution });
-
-  const lines = [CSV_COLUMNS.join(','), ...rows.map(line)];
-  return `${lines.join('\r\n')}\r\n`;
-}
-
-/** One row's cells; money at its currency's minor unit. */
-function line(row: Row): string {
-  return CSV_COLUMNS.map((column) => {
-    const value = row[column];
-    if (MONEY_COLUMNS.has(column) && typeof value === 'number' && typeof row.currency === 'string') return csvMoney(value, row.currency);
-    return cell(value);
-  }).join(',');
+  for (const meter of facility.meters) rows.push(...meterRows(f, meter, w));
+  return rows;
 }
 
 /** The parts of a meter's combined ± when adjustments carry one of their own. */
@@ -233,7 +249,7 @@ function notesText(meter: MeterReport): string {
   return meter.notes.map((note) => `; ${note}`).join('');
 }
 
-function meterRows(f: Row, meter: MeterReport, w: { from: string; to: string }): Row[] {
+function meterRows(f: CsvRecord, meter: MeterReport, w: { from: string; to: string }): CsvRecord[] {
   const m = { ...f, meter_id: meter.id, meter: meter.name };
   const form = meter.baseline?.temperatureForm ?? null;
   if (meter.missing !== null || meter.energy === null) {
@@ -249,7 +265,7 @@ function meterRows(f: Row, meter: MeterReport, w: { from: string; to: string }):
       },
     ];
   }
-  const rows: Row[] = [
+  const rows: CsvRecord[] = [
     {
       record: 'meter',
       ...m,

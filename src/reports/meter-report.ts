@@ -30,7 +30,7 @@ export interface MeterReportInput {
   rates: { currency: string | null; entries: readonly RateEntry[] };
   adjustments: readonly StoredAdjustment[];
   normalised: NormalisedSavings;
-  signature: SignatureData;
+  signature: SignatureData | null;
   /** The window's reporting days against the weather the baseline saw. */
   extrapolation: ReportingExtrapolation;
   /** Reporting periods that rest on filled weather days (none when absent). */

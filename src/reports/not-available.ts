@@ -51,11 +51,18 @@ export function notAvailableNotices(
   facilities: readonly FacilityReport[],
   portfolio: Pick<SavingsReport['portfolio'], 'totals' | 'cost'>,
 ): string[] {
+  return [...facilities.flatMap(facilityNotAvailableNotices), ...portfolioNotAvailableNotices(portfolio)];
+}
+
+/** The notices of one facility and its meters. */
+export function facilityNotAvailableNotices(facility: FacilityReport): string[] {
   const out: string[] = [];
-  for (const facility of facilities) {
-    for (const meter of facility.meters) out.push(...notice(`${facility.name}, ${meter.name}`, nonFinitePaths(meterFigures(meter))));
-    out.push(...notice(facility.name, nonFinitePaths({ totals: facility.totals, cost: facility.cost, guarantees: facility.guarantees })));
-  }
-  out.push(...notice('Portfolio', nonFinitePaths({ totals: portfolio.totals, cost: portfolio.cost })));
+  for (const meter of facility.meters) out.push(...notice(`${facility.name}, ${meter.name}`, nonFinitePaths(meterFigures(meter))));
+  out.push(...notice(facility.name, nonFinitePaths({ totals: facility.totals, cost: facility.cost, guarantees: facility.guarantees })));
   return out;
+}
+
+/** The portfolio's notice, if its totals hold a figure it cannot state. */
+export function portfolioNotAvailableNotices(portfolio: Pick<SavingsReport['portfolio'], 'totals' | 'cost'>): string[] {
+  return notice('Portfolio', nonFinitePaths({ totals: portfolio.totals, cost: portfolio.cost }));
 }

@@ -78,6 +78,15 @@ export async function getRates(db: Executor, organisationId: string, meterId: st
 
 export async function loadSchedule(db: Executor, meterId: string, unit: string): Promise<RateSchedule> {
   const rows = await db.selectFrom('rates').selectAll().where('meter_id', '=', meterId).orderBy('effective_from').execute();
+  return scheduleOfRows(meterId, unit, rows);
+}
+
+/** A meter's schedule from its rate rows in effective_from order. */
+export function scheduleOfRows(
+  meterId: string,
+  unit: string,
+  rows: readonly { effective_from: string; effective_to: string | null; price: number; escalation: number; currency: string }[],
+): RateSchedule {
   return {
     meterId,
     unit,

@@ -22,6 +22,7 @@ import {
   describeFills,
   filledDaysByPeriod,
   type MeterResiduals,
+  type DailyTemperature,
   type DateWindow,
   type RateEntry,
   type Reading,
@@ -36,13 +37,14 @@ import { meterReport, missingMeterReport, type StoredAdjustment } from '../repor
 import type { ContractSummary, GuaranteeStatus, MeterReport, ReportWindow, SavingsReport } from '../reports/savings-report.js';
 import type { Kysely } from 'kysely';
 import { readSnapshot } from '../store/transactions.js';
-import type { Database, MeterRow } from '../store/schema.js';
+import type { BaselineRow, Database, FillMethod, MeterRow } from '../store/schema.js';
+import type { Selectable } from 'kysely';
 import { signatureData } from '../reports/signature-data.js';
 import type { Executor } from './context.js';
 import { DEFAULT_CONTRACT_CONFIDENCE, toContract } from './contracts.js';
 import { shapeName } from '../reports/shape-names.js';
 import { getFacilityRow } from './facilities.js';
-import { loadReadings, loadWeatherFor } from './meter-data.js';
+import { loadReadings, loadWeatherFor, type ReadingWindow } from './meter-data.js';
 import { loadFilledDays } from './weather-gaps.js';
 import { loadSchedule } from './rates.js';
 import { frozenModel, type FrozenModel } from './savings.js';
@@ -56,7 +58,8 @@ export interface ReportQuery {
   confidence?: number;
 }
 
-interface MeterContext {
+/** What a report knows of one meter before it looks at the window: its frozen model, rates, adjustments, normal year. */
+export interface MeterContext {
   meter: MeterRow;
   temperatureUnit: TemperatureUnit;
   stationName: string;
@@ -65,6 +68,56 @@ interface MeterContext {
   rates: { currency: string | null; entries: RateEntry[] };
   adjustments: StoredAdjustment[];
   normalYear: { temps: number[]; contentHash: string; source: string } | null;
+}
+
+/**
+ * Where a report's meters read their reporting readings, their station's
+ * weather and its filled days: one query per meter here, or from rows read
+ * for many meters at once (report-stream.ts). Both must answer exactly what
+ * loadReadings, loadWeatherFor and loadFilledDays answer.
+ */
+export interface ReportReads {
+  readings(meterId: string, window: ReadingWindow): Promise<Reading[]>;
+  weather(stationId: string, readings: readonly Reading[]): Promise<DailyTemperature[]>;
+  filledDays(stationId: string, from: string, to: string): Promise<Map<string, FillMethod>>;
+}
+
+/** One query per meter and window. */
+export function queryPerMeter(db: Executor): ReportReads {
+  return {
+    readings: (meterId, window) => loadReadings(db, meterId, window),
+    weather: (stationId, readings) => loadWeatherFor(db, stationId, readings),
+    filledDays: (stationId, from, to) => loadFilledDays(db, stationId, from, to),
+  };
+}
+
+/** What a meter's report carries beyond its figures. */
+export interface MeterReportOptions {
+  /** The energy-signature chart's points (the HTML's charts); a streamed report leaves them out (null). */
+  signature: boolean;
+}
+
+const WITH_SIGNATURE: MeterReportOptions = { signature: true };
+
+/** Above this many meters an organisation's HTML report is made per facility (facilityId): a printable document of thousands of meters helps no reader. */
+export const HTML_METER_LIMIT = 200;
+
+/** Refuse an HTML report of a whole organisation above HTML_METER_LIMIT meters, naming the two ways that work. */
+export async function checkHtmlReportSize(db: Executor, organisationId: string, query: ReportQuery): Promise<void> {
+  if (query.facilityId !== undefined) return;
+  const row = await db
+    .selectFrom('meters')
+    .select((eb) => eb.fn.countAll<number | string>().as('count'))
+    .where('organisation_id', '=', organisationId)
+    .executeTakeFirstOrThrow();
+  const meters = Number(row.count);
+  if (meters > HTML_METER_LIMIT) {
+    throw new DomainError(
+      'unprocessable',
+      `facilityId: this organisation has ${meters} meters; above ${HTML_METER_LIMIT} the HTML report is made per facility: give facilityId, or ask GET /v1/reports/savings/stream for the whole organisation as JSON or CSV`,
+      [{ field: 'facilityId', message: `required above ${HTML_METER_LIMIT} meters for format=html` }],
+    );
+  }
 }
 
 /** The report, read from one consistent snapshot so every figure and the audit head it names agree. */
@@ -77,7 +130,19 @@ export function savingsReportIn(db: Executor, organisationId: string, query: Rep
   return buildReport(db, organisationId, query);
 }
 
-async function buildReport(db: Executor, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
+/** What a report is about before any meter is read: the organisation, its facilities in order, their contracts, the window, the confidence, the audit head. */
+export interface ReportFrame {
+  organisation: { id: string; name: string };
+  facilityRows: { id: string; name: string; address: string | null }[];
+  contracts: Map<string, ContractSummary>;
+  window: ReportWindow;
+  confidence: number;
+  confidenceSource: 'request' | 'contract' | 'default';
+  head: { seq: number; hash: string } | undefined;
+}
+
+/** Read the report's frame; a bad window or confidence is refused here, before anything is computed. */
+export async function reportFrame(db: Executor, organisationId: string, query: ReportQuery): Promise<ReportFrame> {
   const organisation = await db
     .selectFrom('organisations')
     .select(['id', 'name'])
@@ -123,6 +188,12 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
     .orderBy('seq', 'desc')
     .limit(1)
     .executeTakeFirst();
+  return { organisation, facilityRows, contracts, window, confidence, confidenceSource, head };
+}
+
+async function buildReport(db: Executor, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
+  const { organisation, facilityRows, contracts, window, confidence, confidenceSource, head } = await reportFrame(db, organisationId, query);
+  const reads = queryPerMeter(db);
 
   // Every meter's context first: the roll-up's correlation comes from all the report's meters.
   const contextsByFacility = new Map<string, MeterContext[]>();
@@ -143,29 +214,25 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
   const facilities: FacilityInput[] = [];
   for (const facility of facilityRows) {
     const { input, usedNormalYears } = await facilityInWindow(
-      db,
+      reads,
       facility,
       contextsByFacility.get(facility.id)!,
       contracts.get(facility.id) ?? null,
       window,
       confidence,
       rollup,
+      WITH_SIGNATURE,
     );
     facilities.push(input);
     for (const used of usedNormalYears) normalYears.set(used.stationId, used);
   }
   const reportingMeters = facilities.flatMap((f) => f.meters).filter((m) => m.missing === null).length;
   if (reportingMeters === 0) {
-    const scope = query.facilityId ? `facility ${query.facilityId}` : 'this organisation';
     // Each meter's own reason, the ones missing weather first: that is the cause a user can fix.
     const reasons = facilities
       .flatMap((f) => f.meters.map((m) => ({ field: `meter ${m.id} (${m.name})`, message: m.missing ?? '' })))
       .sort((a, b) => Number(b.message.startsWith('missing weather')) - Number(a.message.startsWith('missing weather')));
-    throw new DomainError(
-      'unprocessable',
-      `no meter of ${scope} has reporting data in ${window.label} (${window.from}..${window.to})${reasons.length > 0 ? `: ${summarise(reasons)}` : ''}; readings count in the window that holds their midpoint`,
-      reasons.slice(0, 100),
-    );
+    throw nothingToReport(query, window, reasons);
   }
   return assembleReport({
     organisation,
@@ -179,8 +246,18 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
   });
 }
 
+/** The answer when no meter has figures in the window, with each meter's reason when they are known. */
+export function nothingToReport(query: ReportQuery, window: ReportWindow, reasons: { field: string; message: string }[] = []): DomainError {
+  const scope = query.facilityId ? `facility ${query.facilityId}` : 'this organisation';
+  return new DomainError(
+    'unprocessable',
+    `no meter of ${scope} has reporting data in ${window.label} (${window.from}..${window.to})${reasons.length > 0 ? `: ${summarise(reasons)}` : ''}; readings count in the window that holds their midpoint`,
+    reasons.slice(0, 100),
+  );
+}
+
 /** A meter's frozen baseline residuals with their periods and its station, for the roll-up's correlation (none without a frozen baseline). */
-function baselineResiduals(ctx: MeterContext): MeterResiduals[] {
+export function baselineResiduals(ctx: Pick<MeterContext, 'model' | 'meter'>): MeterResiduals[] {
   const model = ctx.model;
   if (!model) return [];
   // The fit's residuals are in start-date order; its periods are the aligned baseline readings.
@@ -195,16 +272,17 @@ function baselineResiduals(ctx: MeterContext): MeterResiduals[] {
 }
 
 /** One facility over the window: its meters, and its guarantee status for every contract year the window touches. */
-async function facilityInWindow(
-  db: Executor,
+export async function facilityInWindow(
+  reads: ReportReads,
   facility: { id: string; name: string; address: string | null },
   contexts: readonly MeterContext[],
   contract: ContractSummary | null,
   window: DateWindow,
   confidence: number,
   rollup: Rollup,
+  options: MeterReportOptions,
 ): Promise<{ input: FacilityInput; usedNormalYears: SavingsReport['normalYears'] }> {
-  const meters = await Promise.all(contexts.map((ctx) => meterInWindow(db, ctx, window, confidence)));
+  const meters = await Promise.all(contexts.map((ctx) => meterInWindow(reads, ctx, window, confidence, options)));
   const usedNormalYears = contexts.flatMap((ctx, i) =>
     ctx.normalYear && meters[i]!.normalised.available
       ? [{ stationId: ctx.meter.weather_station_id, contentHash: ctx.normalYear.contentHash, source: ctx.normalYear.source }]
@@ -218,7 +296,7 @@ async function facilityInWindow(
     const sameWindow = yearWindow.from === window.from && through === window.to;
     const yearMeters = sameWindow
       ? meters
-      : await Promise.all(contexts.map((ctx) => meterInWindow(db, ctx, { from: yearWindow.from, to: through }, confidence)));
+      : await Promise.all(contexts.map((ctx) => meterInWindow(reads, ctx, { from: yearWindow.from, to: through }, confidence, options)));
     guarantees.push(
       guaranteeStatus(
         contract!,
@@ -337,10 +415,34 @@ async function meterContext(db: Executor, meter: MeterRow): Promise<MeterContext
     .select(['temperature_unit', 'name'])
     .where('id', '=', meter.weather_station_id)
     .executeTakeFirstOrThrow();
-  return {
+  return meterContextOf({
     meter,
     temperatureUnit: station.temperature_unit,
     stationName: station.name,
+    baseline: baseline ?? null,
+    model,
+    schedule,
+    adjustmentRows,
+    normal: normal ?? null,
+  });
+}
+
+/** A meter's context from the rows read for it (one meter at a time above, many at once in report-stream.ts). */
+export function meterContextOf(rows: {
+  meter: MeterRow;
+  temperatureUnit: TemperatureUnit;
+  stationName: string;
+  baseline: Pick<BaselineRow, 'id' | 'version' | 'content_hash' | 'period_start' | 'period_end' | 'temperature_form'> | null;
+  model: FrozenModel | null;
+  schedule: { currency: string | null; rates: RateEntry[] };
+  adjustmentRows: readonly Selectable<Database['adjustments']>[];
+  normal: { temps_json: string; content_hash: string; source: string } | null;
+}): MeterContext {
+  const { meter, baseline, model, schedule, adjustmentRows, normal } = rows;
+  return {
+    meter,
+    temperatureUnit: rows.temperatureUnit,
+    stationName: rows.stationName,
     baseline: baseline?.content_hash
       ? {
           id: baseline.id,
@@ -371,7 +473,13 @@ async function meterContext(db: Executor, meter: MeterRow): Promise<MeterContext
 }
 
 /** One meter's figures over `window`, or the reason it has none. */
-async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow, confidence: number): Promise<MeterReport> {
+async function meterInWindow(
+  reads: ReportReads,
+  ctx: MeterContext,
+  window: DateWindow,
+  confidence: number,
+  options: MeterReportOptions,
+): Promise<MeterReport> {
   const { meter, baseline, model } = ctx;
   const overlapping = ctx.adjustments.filter((a) => a.start < window.to && a.end > window.from);
   const identity = {
@@ -409,11 +517,11 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     return missingMeterReport(identity, baselineInfo, `${broken.message}: withdraw it and record it again`, usable);
   }
   const start = window.from > baseline.end ? window.from : baseline.end;
-  const candidates = await loadReadings(db, meter.id, { startOnOrAfter: baseline.end, startBefore: window.to, endAfter: start });
+  const candidates = await reads.readings(meter.id, { startOnOrAfter: baseline.end, startBefore: window.to, endAfter: start });
   const readings: Reading[] = candidates.filter((r) => inWindowByMidpoint(r, window));
   if (readings.length === 0)
     return missingMeterReport(identity, baselineInfo, `no reporting readings in ${window.from}..${window.to}`, overlapping);
-  const weather = await loadWeatherFor(db, meter.weather_station_id, readings);
+  const weather = await reads.weather(meter.weather_station_id, readings);
   const aligned = alignPeriods(readings, weather, { minCoverage: model.minCoverage });
   let savings: SavingsDocument;
   try {
@@ -451,7 +559,7 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     ? normalisedSavings(model.fit, readings, weather, ctx.normalYear.temps, { minCoverage: model.minCoverage, confidence })
     : { available: false as const, reason: 'the weather station has no normal year (PUT /v1/weather-stations/{id}/normal-year)' };
   const lastEnd = readings.reduce((end, r) => (r.end > end ? r.end : end), readings[0]!.end);
-  const filled = await loadFilledDays(db, meter.weather_station_id, readings[0]!.start, lastEnd);
+  const filled = await reads.filledDays(meter.weather_station_id, readings[0]!.start, lastEnd);
   const report = meterReport({
     meter: identity,
     baseline: baselineInfo,
@@ -459,14 +567,14 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     rates: ctx.rates,
     adjustments: overlapping,
     normalised,
-    signature: signatureData(model, savings, meter.unit),
+    signature: options.signature ? signatureData(model, savings, meter.unit) : null,
     extrapolation,
     weatherFills: filledDaysByPeriod(savings.periods, filled),
   });
   // The baseline's own weather: filled days it was fitted on are named beside it.
   const baselineFills = filledDaysByPeriod(
     [{ start: baseline.start, end: baseline.end }],
-    await loadFilledDays(db, meter.weather_station_id, baseline.start, baseline.end),
+    await reads.filledDays(meter.weather_station_id, baseline.start, baseline.end),
   )[0];
   if (baselineFills)
     report.notes.push(`baseline weather: ${describeFills(baselineFills.days, baselineFills.interpolation, baselineFills.secondStation)}`);

@@ -79,10 +79,23 @@ const modelCache = new BoundedCache<FrozenModel>(500_000, (model) => 100 + 2 * m
 
 /** Parse (and check against its hash) the frozen baseline's chosen fit, once per baseline. */
 export async function frozenModel(db: Executor, baselineId: string, contentHash: string): Promise<FrozenModel> {
-  const key = `${baselineId}:${contentHash}`;
-  const cached = modelCache.get(key);
+  const cached = modelCache.get(`${baselineId}:${contentHash}`);
   if (cached) return cached;
   const row = (await db.selectFrom('baselines').selectAll().where('id', '=', baselineId).executeTakeFirstOrThrow()) as BaselineRow;
+  return frozenModelOfRow(row, contentHash);
+}
+
+/** The cached model of a frozen baseline, if it has been parsed lately (no database read). */
+export function cachedFrozenModel(baselineId: string, contentHash: string): FrozenModel | undefined {
+  return modelCache.get(`${baselineId}:${contentHash}`);
+}
+
+/** The frozen model of a baseline row already read (checked against its hash, parsed, cached). */
+export function frozenModelOfRow(row: BaselineRow, contentHash: string): FrozenModel {
+  const key = `${row.id}:${contentHash}`;
+  const cached = modelCache.get(key);
+  if (cached) return cached;
+  const baselineId = row.id;
   if (!verifyBaselineContent(row)) {
     throw new DomainError(
       'unprocessable',

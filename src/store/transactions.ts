@@ -52,6 +52,17 @@ export async function readSnapshot<T>(db: Kysely<Database>, work: (trx: Transact
   }
 }
 
+/**
+ * One consistent read, never repeated: for work whose output has left the
+ * process as it went (a streamed report), where a second run would write
+ * it twice. A connection that dies fails it.
+ */
+export async function readSnapshotOnce<T>(db: Kysely<Database>, work: (trx: Transaction<Database>) => Promise<T>): Promise<T> {
+  return (
+    db.getExecutor().adapter instanceof PostgresAdapter ? db.transaction().setIsolationLevel('repeatable read') : db.transaction()
+  ).execute(work);
+}
+
 /** Take the organisation's write lock inside a transaction (PostgreSQL; a no-op on SQLite). */
 export async function lockOrganisation(trx: Transaction<Database>, organisationId: string): Promise<void> {
   if (trx.getExecutor().adapter instanceof PostgresAdapter) {

@@ -36,6 +36,16 @@ export const reportQuery = z
   })
   .strict();
 
+export const STREAM_FORMATS = ['json', 'csv'] as const;
+
+/** The streamed report's query: the same window and options; JSON or CSV only (HTML is per facility). */
+export const streamedReportQuery = reportQuery.extend({
+  format: z
+    .enum(STREAM_FORMATS, { message: `must be one of ${STREAM_FORMATS.join(', ')}` })
+    .optional()
+    .describe('json (default) or csv'),
+});
+
 export const reportJsonSchema = z
   .object({
     format: z.literal('mvledger-savings-report'),

@@ -26,7 +26,7 @@ import type { observationsList, putObservationsBody, putObservationsResult } fro
 import type { putRatesBody, rateScheduleSchema } from './rates.js';
 import type { dateRangeQuery, postReadingsBody, postReadingsResult, readingsList, seriesQuery } from './readings.js';
 import type { savingsQuery, savingsSchema } from './savings.js';
-import type { reportJsonSchema, reportQuery } from './reports.js';
+import type { reportJsonSchema, reportQuery, streamedReportQuery } from './reports.js';
 import type {
   issueStatementBody,
   reasonBody,
@@ -66,6 +66,7 @@ import type { importStationFile } from '../../services/weather-imports.js';
 import type { MeterSavings } from '../../services/savings.js';
 import type { SavingsCache } from '../../services/savings-cache.js';
 import type { savingsReport } from '../../services/reports.js';
+import type { streamSavingsReport } from '../../services/report-stream.js';
 
 /** True when A and B are the same type (not merely assignable one way). */
 type Identical<A, B> = (<T>() => T extends A ? 1 : 2) extends <T>() => T extends B ? 1 : 2 ? true : false;
@@ -249,4 +250,6 @@ export type ReportRoutes = [
   Expect<Agree<Omit<Parsed<typeof reportQuery>, 'format'>, NonNullable<Takes<typeof savingsReport, 2>>>>,
   // The schema describes the report's head only (a loose object: the rest goes out as the service built it).
   Expect<Agree<Pick<Gives<typeof savingsReport>, Named<Answer<typeof reportJsonSchema>>>, Answer<typeof reportJsonSchema>>>,
+  // The streamed report takes the same window and options; its format goes to the service as its own argument.
+  Expect<Agree<Omit<Parsed<typeof streamedReportQuery>, 'format'>, Takes<typeof streamSavingsReport, 2>>>,
 ];

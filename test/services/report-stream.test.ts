@@ -1,0 +1,157 @@
+/**
+ * The streamed report against the whole-document report on the same small
+ * organisation (this file runs on SQLite and on PostgreSQL): the same
+ * portfolio and facility totals, meters, guarantees, notices and baselines,
+ * the CSV's rows the same rows in the stated order, and a content hash
+ * that is the SHA-256 of the bytes before it. Synthetic: a seeded
+ * generated portfolio with one adjustment, one meter without rates and one
+ * without a frozen baseline planted, so the test sets what each path meets.
+ */
+import { createHash } from 'node:crypto';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { generatePortfolio } from '../../src/demo/portfolio.js';
+import { renderReportCsv } from '../../src/reports/csv.js';
+import type { SavingsReport } from '../../src/reports/savings-report.js';
+import { checkStreamedReport, streamSavingsReport, type StreamFormat } from '../../src/services/report-stream.js';
+import { savingsReport, type ReportQuery } from '../../src/services/reports.js';
+import { openStore, type Store } from '../../src/store/connect.js';
+import { migrateToLatest } from '../../src/store/migrate.js';
+import { dropTestDatabase, freshTestDatabaseUrl } from '../support/database.js';
+
+const url = freshTestDatabaseUrl();
+let store: Store;
+let organisationId: string;
+
+beforeAll(async () => {
+  store = openStore(url);
+  await migrateToLatest(store.db);
+  ({ organisationId } = await generatePortfolio(store.db, {
+    facilities: 5,
+    metersPerFacility: 3,
+    stations: 2,
+    archetypesPerStation: 2,
+    seed: 11,
+  }));
+  const meters = await store.db.selectFrom('meters').select(['id']).orderBy('created_at').execute();
+  // An adjustment on the second meter, no rate on the fourth, no frozen baseline on the seventh.
+  await store.db
+    .insertInto('adjustments')
+    .values({
+      id: 'adj_planted',
+      organisation_id: organisationId,
+      meter_id: meters[1]!.id,
+      period_start: '2025-07-01',
+      period_end: '2025-09-01',
+      quantity: 1200,
+      per_day: null,
+      reason: 'invented: a wing closed for works',
+      created_at: '2026-01-16T00:00:00.000Z',
+      created_by: 'key_test',
+      withdrawn_at: null,
+      withdrawn_by: null,
+      withdraw_reason: null,
+      uncertainty: 150,
+    })
+    .execute();
+  await store.db.deleteFrom('rates').where('meter_id', '=', meters[3]!.id).execute();
+  await store.db.deleteFrom('baselines').where('meter_id', '=', meters[6]!.id).execute();
+}, 120_000);
+
+afterAll(async () => {
+  await store.close();
+  await dropTestDatabase(url);
+});
+
+async function streamed(query: ReportQuery, format: StreamFormat, chunk: number): Promise<string> {
+  let text = '';
+  await streamSavingsReport(
+    store.db,
+    organisationId,
+    query,
+    format,
+    (piece) => {
+      text += piece;
+    },
+    chunk,
+  );
+  return text;
+}
+
+/** The whole report's facilities as the stream writes them: chart points left out. */
+function withoutCharts(report: SavingsReport): SavingsReport['facilities'] {
+  return report.facilities.map((f) => ({ ...f, meters: f.meters.map((m) => ({ ...m, signature: null })) }));
+}
+
+describe.each([
+  ['quarter 2025-Q3', { quarter: '2025-Q3' }],
+  ['contract year 1', { contractYear: 1 }],
+] as [string, ReportQuery][])('the streamed report, %s', (_label, query) => {
+  it('JSON: every total, facility, meter, notice and baseline equals the whole report’s (two facilities per chunk)', async () => {
+    const whole = await savingsReport(store.db, organisationId, query);
+    const text = await streamed(query, 'json', 2);
+    const doc = JSON.parse(text) as SavingsReport & { streamed: boolean };
+    expect(doc.streamed).toBe(true);
+    expect(doc.portfolio).toEqual(whole.portfolio);
+    expect(doc.portfolio.meters).toBe(15);
+    expect(doc.facilities).toEqual(withoutCharts(whole));
+    for (const key of [
+      'organisation',
+      'window',
+      'confidence',
+      'dataAsOf',
+      'rollup',
+      'method',
+      'baselines',
+      'normalYears',
+      'unitFactors',
+      'unitFactorSource',
+      'notices',
+      'caution',
+    ] as const)
+      expect(doc[key], key).toEqual(whole[key]);
+    // The planted paths are there: a meter without a frozen baseline, one without rates, the adjustment applied.
+    expect(doc.notices.some((n) => n.includes('no figures in this window: the meter has no frozen baseline'))).toBe(true);
+    expect(doc.notices.some((n) => n.includes('no contract rates'))).toBe(true);
+    expect(doc.facilities.flatMap((f) => f.meters).some((m) => m.adjustments.some((a) => a.id === 'adj_planted'))).toBe(true);
+    const before = text.slice(0, text.lastIndexOf('"contentHash":'));
+    expect(doc.contentHash).toBe(createHash('sha256').update(before, 'utf8').digest('hex'));
+  });
+
+  it('the chunk size changes nothing: one chunk and one facility per chunk give the same bytes', async () => {
+    expect(await streamed(query, 'json', 1)).toBe(await streamed(query, 'json', 100));
+  });
+
+  it('CSV: the whole report’s rows, facilities first and the portfolio after them, ending with the digest', async () => {
+    const whole = renderReportCsv(await savingsReport(store.db, organisationId, query))
+      .trimEnd()
+      .split('\r\n');
+    const text = await streamed(query, 'csv', 2);
+    const lines = text.trimEnd().split('\r\n');
+    expect(lines[0]).toBe(whole[0]);
+    const body = (rows: string[]) => rows.slice(1).filter((l) => !l.startsWith('report,') && !l.startsWith('digest,'));
+    const kind = (l: string) => l.split(',')[0];
+    const wholeBody = body(whole);
+    const streamBody = body(lines);
+    // Same rows; the portfolio's rows move from the top to after the last facility.
+    expect([...streamBody].sort()).toEqual([...wholeBody].sort());
+    expect(streamBody.filter((l) => kind(l) !== 'portfolio')).toEqual(wholeBody.filter((l) => kind(l) !== 'portfolio'));
+    const firstNotice = streamBody.findIndex((l) => kind(l) === 'notice' || kind(l) === 'caution');
+    expect(streamBody.slice(firstNotice - 3, firstNotice).every((l) => kind(l) === 'portfolio')).toBe(true);
+    const last = lines[lines.length - 1]!;
+    expect(last).toMatch(/^digest,/);
+    const digest = /content hash ([0-9a-f]{64})/.exec(last)![1];
+    expect(digest).toBe(
+      createHash('sha256')
+        .update(text.slice(0, text.lastIndexOf('digest,')), 'utf8')
+        .digest('hex'),
+    );
+  });
+});
+
+describe('checkStreamedReport', () => {
+  it('refuses a window with no reporting readings before anything is written (422), as the whole report does', async () => {
+    await expect(checkStreamedReport(store.db, organisationId, { quarter: '2031-Q1' })).rejects.toMatchObject({ kind: 'unprocessable' });
+    await expect(savingsReport(store.db, organisationId, { quarter: '2031-Q1' })).rejects.toMatchObject({ kind: 'unprocessable' });
+    await expect(checkStreamedReport(store.db, organisationId, { quarter: '2025-Q3' })).resolves.toBeUndefined();
+  });
+});
