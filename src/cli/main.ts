@@ -6,15 +6,13 @@
  */
 import { EXIT_BAD_INPUT, EXIT_CODE_OF, EXIT_INTERNAL, InputFileError, UsageError, oneLine } from './errors.js';
 import { DomainError } from '../domain/errors.js';
+import type { CliIO } from './io.js';
 import { packageVersion } from './version.js';
 
 // Each command imports what it needs when it runs: `fit` and `savings` load the
 // engine and the CSV reader only, never the database drivers or the service.
 
-export interface CliIO {
-  stdout(text: string): void;
-  stderr(text: string): void;
-}
+export type { CliIO } from './io.js';
 
 const HELP_WORDS = new Set(['help', '--help', '-h']);
 const VERSION_WORDS = new Set(['--version', '-V', 'version']);

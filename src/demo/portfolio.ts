@@ -107,7 +107,16 @@ async function generate(db: Kysely<Database>, options: PortfolioOptions): Promis
     await insertChunks(
       db,
       'weather_observations',
-      station.weather.map((w) => ({ station_id: station.id, date: w.date, temp: w.temp, tmin: null, tmax: null, updated_at: CREATED_AT, fill_method: null, fill_note: null })),
+      station.weather.map((w) => ({
+        station_id: station.id,
+        date: w.date,
+        temp: w.temp,
+        tmin: null,
+        tmax: null,
+        updated_at: CREATED_AT,
+        fill_method: null,
+        fill_note: null,
+      })),
     );
     const source = 'synthetic: the generator’s seasonal cycle';
     await db

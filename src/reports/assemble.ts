@@ -115,9 +115,7 @@ function notices(facilities: readonly FacilityReport[]): string[] {
 export function facilityNotices(facility: FacilityReport): string[] {
   const out: string[] = [];
   if (facility.metersWithData === 0 && facility.meters.length > 0)
-    out.push(
-      `${facility.name}: no data in this window: no meter has reporting figures; the facility is left out of the portfolio's sums`,
-    );
+    out.push(`${facility.name}: no data in this window: no meter has reporting figures; the facility is left out of the portfolio's sums`);
   for (const meter of facility.meters) {
     const where = `${facility.name}, ${meter.name}`;
     if (meter.missing !== null) out.push(`${where}: no data in this window, left out of the sums: ${meter.missing}`);

@@ -138,9 +138,13 @@ export function csvLine(row: CsvRecord): string {
 }
 
 /** The portfolio's rows: totals in each common unit, then cost by currency. */
-export function portfolioRows(portfolio: Pick<SavingsReport['portfolio'], 'totals' | 'cost'>, w: { from: string; to: string }): CsvRecord[] {
+export function portfolioRows(
+  portfolio: Pick<SavingsReport['portfolio'], 'totals' | 'cost'>,
+  w: { from: string; to: string },
+): CsvRecord[] {
   const rows: CsvRecord[] = [];
-  for (const unit of ['MMBtu', 'GJ'] as const) rows.push({ record: 'portfolio', ...totalRow(portfolio.totals[unit]), start: w.from, end: w.to });
+  for (const unit of ['MMBtu', 'GJ'] as const)
+    rows.push({ record: 'portfolio', ...totalRow(portfolio.totals[unit]), start: w.from, end: w.to });
   for (const cost of portfolio.cost)
     rows.push({
       record: 'portfolio',

@@ -488,10 +488,7 @@ async function adjustmentsOf(db: Executor, meters: readonly MeterRow[]) {
 }
 
 interface StationData {
-  byId: Map<
-    string,
-    { unit: TemperatureUnit; name: string; normal: { temps_json: string; content_hash: string; source: string } | null }
-  >;
+  byId: Map<string, { unit: TemperatureUnit; name: string; normal: { temps_json: string; content_hash: string; source: string } | null }>;
   weather: StationWeather;
   /** Each station's filled days (date → method), read once for the whole report: they are few. */
   filled: Map<string, Map<string, FillMethod>>;

@@ -192,7 +192,11 @@ export async function reportFrame(db: Executor, organisationId: string, query: R
 }
 
 async function buildReport(db: Executor, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
-  const { organisation, facilityRows, contracts, window, confidence, confidenceSource, head } = await reportFrame(db, organisationId, query);
+  const { organisation, facilityRows, contracts, window, confidence, confidenceSource, head } = await reportFrame(
+    db,
+    organisationId,
+    query,
+  );
   const reads = queryPerMeter(db);
 
   // Every meter's context first: the roll-up's correlation comes from all the report's meters.

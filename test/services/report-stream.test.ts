@@ -55,6 +55,18 @@ beforeAll(async () => {
     .execute();
   await store.db.deleteFrom('rates').where('meter_id', '=', meters[3]!.id).execute();
   await store.db.deleteFrom('baselines').where('meter_id', '=', meters[6]!.id).execute();
+  // Filled days at the first meter's station: one in the baseline, two in the reporting quarter.
+  const station = await store.db
+    .selectFrom('meters')
+    .select('weather_station_id')
+    .where('id', '=', meters[0]!.id)
+    .executeTakeFirstOrThrow();
+  await store.db
+    .updateTable('weather_observations')
+    .set({ fill_method: 'interpolation', fill_note: 'synthetic: planted by the test' })
+    .where('station_id', '=', station.weather_station_id)
+    .where('date', 'in', ['2024-02-10', '2025-08-10', '2025-08-11'])
+    .execute();
 }, 120_000);
 
 afterAll(async () => {
@@ -98,6 +110,7 @@ describe.each([
       'organisation',
       'window',
       'confidence',
+      'confidenceSource',
       'dataAsOf',
       'rollup',
       'method',
@@ -110,9 +123,15 @@ describe.each([
     ] as const)
       expect(doc[key], key).toEqual(whole[key]);
     // The planted paths are there: a meter without a frozen baseline, one without rates, the adjustment applied.
-    expect(doc.notices.some((n) => n.includes('no figures in this window: the meter has no frozen baseline'))).toBe(true);
+    expect(doc.notices.some((n) => n.includes('no data in this window, left out of the sums: the meter has no frozen baseline'))).toBe(
+      true,
+    );
     expect(doc.notices.some((n) => n.includes('no contract rates'))).toBe(true);
     expect(doc.facilities.flatMap((f) => f.meters).some((m) => m.adjustments.some((a) => a.id === 'adj_planted'))).toBe(true);
+    // The planted filled days: named in the reporting periods and beside the baseline.
+    const meters = doc.facilities.flatMap((f) => f.meters);
+    expect(meters.some((m) => m.weatherFills.length > 0)).toBe(true);
+    expect(meters.some((m) => m.notes.some((n) => n.startsWith('baseline weather:')))).toBe(true);
     const before = text.slice(0, text.lastIndexOf('"contentHash":'));
     expect(doc.contentHash).toBe(createHash('sha256').update(before, 'utf8').digest('hex'));
   });

@@ -10,7 +10,7 @@ import type { BaselineAnalysis, FitDocument } from '../../engine/index.js';
 import { readCsvTable, requireColumns } from '../../lib/csv/csv-table.js';
 import { csvNumber, csvText } from '../../reports/csv.js';
 import { InputFileError, UsageError, oneLine } from '../errors.js';
-import type { CliIO } from '../main.js';
+import type { CliIO } from '../io.js';
 import type { FitOptions } from '../options.js';
 import { splitReadingsByMeter, splitWeatherByStation } from '../input/batch-files.js';
 import { readingsFromTable } from '../input/readings-file.js';
