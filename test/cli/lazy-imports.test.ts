@@ -2,12 +2,16 @@
  * `mvledger fit` and `savings` load only what they use: the modules they
  * import at run time (following every non-type import from the command's
  * module through src/) reach no database driver, no store, service or HTTP
- * code. Checked on the source, so it holds whatever machine runs it; the
- * start-up time it buys is measured by test/bench/cli.ts.
+ * code. Checked on the source (the import graph), and at run time: a fresh
+ * process runs the command with every module it loads recorded
+ * (test/support/record-loads.mjs). The start-up time it buys is measured by
+ * test/bench/cli.ts.
  */
-import { readFileSync } from 'node:fs';
-import { dirname, resolve } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import { describe, expect, it } from 'vitest';
 
 const SRC = resolve(dirname(fileURLToPath(import.meta.url)), '../../src');
@@ -71,5 +75,54 @@ describe('the fit and savings commands import no database or service code', () =
   it('the graph walk sees a database driver where there is one (the check can fail)', () => {
     const { packages } = reachable(resolve(SRC, 'cli/commands', 'keys.ts'));
     expect(packages.has('kysely')).toBe(true);
+  });
+});
+
+/** Run the command in a fresh node process (the sources through tsx) and list every module it loaded. */
+function modulesLoadedBy(argv: string[], exitCode: number): string[] {
+  const folder = mkdtempSync(join(tmpdir(), 'mvledger-loads-'));
+  const record = join(folder, 'loads.txt');
+  try {
+    const script = `import { main } from ${JSON.stringify(pathToFileURL(resolve(SRC, 'cli/main.ts')).href)};
+process.exitCode = await main(${JSON.stringify(argv)}, { stdout: () => {}, stderr: () => {} });`;
+    const run = spawnSync(
+      process.execPath,
+      ['--import', 'tsx', '--import', resolve(SRC, '../test/support/record-loads.mjs'), '--input-type=module', '-e', script],
+      {
+        cwd: resolve(SRC, '..'),
+        env: { ...process.env, MVLEDGER_RECORD_LOADS: record, DATABASE_URL: 'sqlite::memory:' },
+        encoding: 'utf8',
+      },
+    );
+    expect(run.error).toBeUndefined();
+    expect(run.status, run.stderr).toBe(exitCode);
+    return readFileSync(record, 'utf8')
+      .split('\n')
+      .filter((line) => line !== '');
+  } finally {
+    rmSync(folder, { recursive: true, force: true });
+  }
+}
+
+/** The loaded modules that are database drivers, the query builder, HTTP, zod, or our store, services and HTTP code. */
+function heavy(urls: readonly string[]): string[] {
+  return urls.filter(
+    (url) =>
+      /\/node_modules\/(kysely|pg|pg-pool|better-sqlite3|fastify|pino|zod)\//.test(url) || /\/src\/(store|services|http|demo)\//.test(url),
+  );
+}
+
+describe('what a command loads when it runs (a fresh process, every module recorded)', () => {
+  const examples = resolve(SRC, '../examples');
+
+  it('fit on the example files loads no database driver, query builder, service or HTTP module', () => {
+    const loaded = modulesLoadedBy(['fit', '--readings', join(examples, 'baseline.csv'), '--weather', join(examples, 'weather.csv')], 0);
+    expect(loaded.some((url) => url.includes('/src/engine/'))).toBe(true);
+    expect(heavy(loaded)).toEqual([]);
+  });
+
+  it('the record sees them where they are loaded (keys list opens the database: the check can fail)', () => {
+    const loaded = modulesLoadedBy(['keys', 'list'], 0);
+    expect(heavy(loaded).some((url) => url.includes('/node_modules/kysely/'))).toBe(true);
   });
 });
