@@ -17,7 +17,7 @@
  * ρᵢⱼ the within-station value for two meters on one station and the
  * across-station value otherwise.
  */
-import { formatDayNumber, parseIsoDate } from './dates.js';
+import { daysInMonth, formatDayNumber, parseIsoDate } from './dates.js';
 
 /** One meter's baseline residuals (quantity − days × fitted use per day), with its group (its weather station). */
 export interface MeterResiduals {
@@ -53,10 +53,11 @@ export function monthlyResiduals(periods: MeterResiduals['periods']): Map<string
     const perDay = period.residual / (end - first);
     let day = first;
     while (day < end) {
-      const month = formatDayNumber(day).slice(0, 7);
-      // Days to the end of this calendar month or of the period, whichever comes first.
-      let next = day + 1;
-      while (next < end && formatDayNumber(next).slice(0, 7) === month) next++;
+      const date = formatDayNumber(day);
+      const month = date.slice(0, 7);
+      // Days to the end of this calendar month or of the period, whichever comes first (one step per month, not per day).
+      const monthEnd = day - (Number(date.slice(8, 10)) - 1) + daysInMonth(Number(date.slice(0, 4)), Number(date.slice(5, 7)));
+      const next = end < monthEnd ? end : monthEnd;
       months.set(month, (months.get(month) ?? 0) + perDay * (next - day));
       day = next;
     }

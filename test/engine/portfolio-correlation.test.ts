@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { combineCorrelated, monthlyResiduals, residualCorrelation } from '../../src/engine/portfolio-correlation.js';
 import { combineInQuadrature } from '../../src/engine/rollup.js';
+import { addDays, daysBetween } from '../../src/engine/dates.js';
 import { seededRandom } from '../support/synthetic.js';
 
 /** Monthly bills read on the given day of each month, residuals from `residual(i)`. */
@@ -19,6 +20,30 @@ describe('monthlyResiduals', () => {
     const months = monthlyResiduals([{ start: '2030-01-21', end: '2030-02-10', residual: 20 }]);
     expect(months.get('2030-01')).toBeCloseTo(11, 12);
     expect(months.get('2030-02')).toBeCloseTo(9, 12);
+  });
+
+  it('gives exactly what a day-by-day spread gives, across month ends, year ends and 29 February (synthetic: the test spreads each day itself)', () => {
+    const random = seededRandom(17);
+    const periods = Array.from({ length: 200 }, () => {
+      const start = addDays('2027-11-03', random.integer(0, 900));
+      return { start, end: addDays(start, random.integer(1, 75)), residual: 100 * random.normal() };
+    });
+    const expected = new Map<string, number>();
+    for (const p of periods) {
+      const days = daysBetween(p.start, p.end);
+      const perDay = p.residual / days;
+      // Runs of days in one month, added as the module adds them (one product per run).
+      let run = 0;
+      for (let d = 0; d < days; d++) {
+        run++;
+        const month = addDays(p.start, d).slice(0, 7);
+        if (d === days - 1 || addDays(p.start, d + 1).slice(0, 7) !== month) {
+          expected.set(month, (expected.get(month) ?? 0) + perDay * run);
+          run = 0;
+        }
+      }
+    }
+    expect([...monthlyResiduals(periods)]).toEqual([...expected]);
   });
 });
 

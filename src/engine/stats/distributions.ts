@@ -1,7 +1,11 @@
-import jstatModule from 'jstat';
+import { createRequire } from 'node:module';
+import type jstatModule from 'jstat';
 
-// jstat is CommonJS; under ESM its namespace arrives as the default export.
-const jStat = (jstatModule as unknown as { jStat?: typeof jstatModule }).jStat ?? jstatModule;
+// jstat is CommonJS. Loaded by require rather than import: an ESM import of a
+// CommonJS file first scans its whole source for export names, which costs a
+// command-line run more than all the rest of jstat's loading.
+const loaded = createRequire(import.meta.url)('jstat') as typeof jstatModule & { jStat?: typeof jstatModule };
+const jStat = loaded.jStat ?? loaded;
 
 /**
  * Two-sided Student t critical value: P(|T| ≤ t) = confidence with `dof` degrees of freedom.
