@@ -74,8 +74,23 @@ export interface FrozenModel {
   overrides: ProjectionOverrides;
 }
 
-/** Parsed frozen models, by baseline id and content hash (a frozen row never changes). */
-const modelCache = new BoundedCache<FrozenModel>(500_000, (model) => 100 + 2 * model.fit.n);
+/**
+ * Parsed frozen models, by baseline id and content hash (a frozen row never
+ * changes), up to about MODEL_CACHE_BYTES of memory. Parsing one (its
+ * content hash checked, its baseline realigned) costs a few milliseconds, so
+ * a report of 10,000 meters is only quick while their models stay here: the
+ * budget holds that many models of three years of monthly bills.
+ */
+export const MODEL_CACHE_BYTES = 256 * 2 ** 20;
+
+/** A model's memory, roughly (measured: about 16 KiB for 24 monthly bills in the daily form, 730 days): fixed part, per period, per day. */
+function modelBytes(model: FrozenModel): number {
+  let days = 0;
+  for (const period of model.baselinePeriods) days += period.dayTemps?.length ?? 0;
+  return 4096 + 400 * model.baselinePeriods.length + 8 * days;
+}
+
+const modelCache = new BoundedCache<FrozenModel>(MODEL_CACHE_BYTES, modelBytes);
 
 /** Parse (and check against its hash) the frozen baseline's chosen fit, once per baseline. */
 export async function frozenModel(db: Executor, baselineId: string, contentHash: string): Promise<FrozenModel> {

@@ -22,7 +22,7 @@ export interface CsvTable {
   rows: CsvRow[];
 }
 
-interface ParsedRecord {
+export interface ParsedRecord {
   record: string[];
   info: { lines: number };
 }
@@ -37,6 +37,34 @@ interface CsvParseFailure {
 
 const PARSE_OPTIONS = { bom: true, trim: true, skip_empty_lines: true, relax_column_count: true, info: true } as const;
 
+/** Printable ASCII without the quote character, and line ends: text that needs none of the full parser's rules. */
+const PLAIN_TEXT = /^[\x20\x21\x23-\x7e\r\n]*$/;
+/** A carriage return not before a line feed, or a line feed not after one: mixed line ends. */
+const MIXED_LINE_ENDS = /\r(?!\n)|(?<!\r)\n/;
+
+/**
+ * The records csv-parse gives with PARSE_OPTIONS, split by hand, for the
+ * common plain file: no quotes, no tabs, printable ASCII, every line ending
+ * in LF or every one in CRLF. Null for anything else (the full parser reads
+ * it). Every number file a meter or station exports is plain, and splitting
+ * it is many times quicker than the parser's first run in a fresh process.
+ */
+export function parsePlainCsv(text: string): ParsedRecord[] | null {
+  const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+  if (!PLAIN_TEXT.test(body)) return null;
+  const crlf = body.includes('\r');
+  if (crlf && MIXED_LINE_ENDS.test(body)) return null;
+  const lines = body.split(crlf ? '\r\n' : '\n');
+  const records: ParsedRecord[] = [];
+  for (let i = 0; i < lines.length; i++) {
+    const line = lines[i]!;
+    // A line of nothing but spaces is an empty line once trimmed: skipped.
+    if (line.trim() === '') continue;
+    records.push({ record: line.split(',').map((field) => field.trim()), info: { lines: i + 1 } });
+  }
+  return records;
+}
+
 export async function readCsvTable(file: string): Promise<CsvTable> {
   let text: string;
   try {
@@ -50,7 +78,7 @@ export async function readCsvTable(file: string): Promise<CsvTable> {
 export function parseCsvTable(file: string, text: string): CsvTable {
   let records: ParsedRecord[];
   try {
-    records = parse(text, PARSE_OPTIONS) as unknown as ParsedRecord[];
+    records = parsePlainCsv(text) ?? (parse(text, PARSE_OPTIONS) as unknown as ParsedRecord[]);
   } catch (error) {
     throw csvSyntaxError(file, text, error);
   }
