@@ -110,3 +110,22 @@ describe('mvledger fit --batch', () => {
     expect(second.stderr).toMatch(/field "meter": missing column "meter"/);
   });
 });
+
+describe('fit --batch on worker threads', () => {
+  it('writes the same bytes on three threads as on one (lines in the file’s order)', async () => {
+    const { runFitBatch } = await import('../../src/cli/commands/fit-batch.js');
+    const { parseFitOptions } = await import('../../src/cli/options.js');
+    const options = parseFitOptions(['--batch', '--readings', batchFile, '--weather', stationWeather]);
+    if (options.help) throw new Error('unexpected help');
+    const capture = () => {
+      const out = { stdout: '', stderr: '' };
+      return { out, io: { stdout: (t: string) => void (out.stdout += t), stderr: (t: string) => void (out.stderr += t) } };
+    };
+    const one = capture();
+    const three = capture();
+    expect(await runFitBatch(options, one.io, 1)).toEqual({ fitted: 3, failed: 0 });
+    expect(await runFitBatch(options, three.io, 3)).toEqual({ fitted: 3, failed: 0 });
+    expect(three.out.stdout).toBe(one.out.stdout);
+    expect(three.out.stderr).toBe(one.out.stderr);
+  });
+});

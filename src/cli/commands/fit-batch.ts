@@ -5,34 +5,20 @@
  * a problem in it stops the command before any output. A meter whose own
  * rows are bad, or that cannot be fitted, gets a row with status "error" and
  * the one-line reason, and the others go on; the exit code is then 2.
+ * From MIN_METERS_FOR_THREADS meters on, the meters are fitted on worker
+ * threads (fit-batch-threads.ts) and written in the file's order all the
+ * same: the output does not depend on the number of threads.
  */
-import type { BaselineAnalysis, FitDocument } from '../../engine/index.js';
+import { availableParallelism } from 'node:os';
 import { readCsvTable, requireColumns } from '../../lib/csv/csv-table.js';
-import { csvNumber, csvText } from '../../reports/csv.js';
-import { InputFileError, UsageError, oneLine } from '../errors.js';
+import { InputFileError, UsageError } from '../errors.js';
 import type { CliIO } from '../io.js';
 import type { FitOptions } from '../options.js';
 import { splitReadingsByMeter, splitWeatherByStation } from '../input/batch-files.js';
-import { readingsFromTable } from '../input/readings-file.js';
 import { weatherFromTable, type WeatherFile } from '../input/weather-file.js';
-import { fitBaseline } from './baseline.js';
+import { BATCH_CSV_COLUMNS, fitMeter, type MeterResult } from './fit-batch-meter.js';
 
-/** The CSV columns of a batch fit, one row per meter. Columns are only ever added at the end. */
-export const BATCH_CSV_COLUMNS = [
-  'meter',
-  'station',
-  'status',
-  'model',
-  'temperature_form',
-  'periods_used',
-  'periods_excluded',
-  'r2',
-  'cvrmse',
-  'nmbe',
-  'guideline14',
-  'parameters',
-  'error',
-] as const;
+export { BATCH_CSV_COLUMNS } from './fit-batch-meter.js';
 
 /** What the batch did: meters fitted and meters that failed. */
 export interface BatchOutcome {
@@ -41,7 +27,7 @@ export interface BatchOutcome {
 }
 
 /** Fit every meter of the readings file, writing each result through `io` as it is made. */
-export async function runFitBatch(options: FitOptions, io: CliIO): Promise<BatchOutcome> {
+export async function runFitBatch(options: FitOptions, io: CliIO, threads?: number): Promise<BatchOutcome> {
   const readingsTable = await readCsvTable(options.readings);
   requireColumns(readingsTable, ['meter', 'start', 'end', 'quantity']);
   const meters = splitReadingsByMeter(readingsTable);
@@ -52,28 +38,42 @@ export async function runFitBatch(options: FitOptions, io: CliIO): Promise<Batch
 
   const outcome: BatchOutcome = { fitted: 0, failed: 0 };
   if (!options.json) io.stdout(`${BATCH_CSV_COLUMNS.join(',')}\r\n`);
-  for (const { meter, station, table } of meters) {
-    let line: string;
-    try {
-      const readings = readingsFromTable(table);
-      const analysis = fitBaseline(readings, stationWeather(weatherByStation, station, meter, options), options);
-      line = options.json ? jsonLine(meter, station, analysis) : csvRow(meter, station, analysis.document);
-      outcome.fitted++;
-    } catch (error) {
-      if (!(error instanceof InputFileError || error instanceof RangeError)) throw error;
-      const message = oneLine(error.message);
-      line = options.json
-        ? `${JSON.stringify({ meter, station, status: 'error', error: message })}\n`
-        : csvErrorRow(meter, station, message);
-      outcome.failed++;
-    }
-    io.stdout(line);
+  const write = (result: MeterResult) => {
+    if (result.ok) outcome.fitted++;
+    else outcome.failed++;
+    io.stdout(result.line);
+  };
+  const workers = Math.min(threads ?? batchThreads(meters.length), meters.length);
+  if (workers > 1) {
+    const { fitInWorkers } = await import('./fit-batch-threads.js');
+    await fitInWorkers(meters, weatherByStation, options, workers, write);
+  } else {
+    for (const item of meters) write(fitMeter(item, stationWeather(weatherByStation, item.station, item.meter, options), options));
   }
   io.stderr(`mvledger: fitted ${outcome.fitted} of ${meters.length} meter(s)${outcome.failed > 0 ? `; ${outcome.failed} failed` : ''}\n`);
   return outcome;
 }
 
-function stationWeather(
+/** Fewest meters for which a batch starts worker threads (below it, starting them costs more than it saves). */
+export const MIN_METERS_FOR_THREADS = 64;
+
+/**
+ * Threads for a batch of `meters`: MVLEDGER_FIT_THREADS when set (1 keeps
+ * everything on the main thread), else one per core up to four from
+ * MIN_METERS_FOR_THREADS meters on.
+ */
+export function batchThreads(meters: number): number {
+  const asked = process.env.MVLEDGER_FIT_THREADS;
+  if (asked !== undefined && asked !== '') {
+    const n = Number(asked);
+    if (!Number.isInteger(n) || n < 1 || n > 64)
+      throw new UsageError(`MVLEDGER_FIT_THREADS must be a whole number from 1 to 64, got ${JSON.stringify(asked)}`);
+    return n;
+  }
+  return meters < MIN_METERS_FOR_THREADS ? 1 : Math.min(4, availableParallelism());
+}
+
+export function stationWeather(
   weather: ReadonlyMap<string | null, WeatherFile>,
   station: string | null,
   meter: string,
@@ -94,51 +94,4 @@ function stationWeather(
     'station',
     `no weather for station ${JSON.stringify(station)} (meter ${JSON.stringify(meter)})`,
   );
-}
-
-function jsonLine(meter: string, station: string | null, analysis: BaselineAnalysis): string {
-  const record = { meter, station, status: 'ok', fit: analysis.document };
-  return `${JSON.stringify(record, (_key, value: unknown) => (typeof value === 'number' && !Number.isFinite(value) ? null : value))}\n`;
-}
-
-function csvRow(meter: string, station: string | null, document: FitDocument): string {
-  const selected = document.candidates.find((c) => c.model === document.selected);
-  const stats = selected?.stats ?? null;
-  const g14 = selected?.guideline14 ?? null;
-  const parameters = Object.entries(selected?.parameters ?? {})
-    .map(([name, value]) => `${name}=${csvNumber(value)}`)
-    .join(';');
-  const cells = [
-    csvText(meter),
-    station === null ? '' : csvText(station),
-    'ok',
-    document.selected,
-    document.temperatureForm,
-    String(document.periods.used),
-    String(document.periods.excluded.length),
-    stats ? csvNumber(stats.r2) : '',
-    stats ? csvNumber(stats.cvrmse) : '',
-    stats ? csvNumber(stats.nmbe) : '',
-    g14 === null ? '' : g14.pass ? 'pass' : 'fail',
-    csvText(parameters),
-    '',
-  ];
-  return `${cells.join(',')}\r\n`;
-}
-
-function csvErrorRow(meter: string, station: string | null, message: string): string {
-  const cells = BATCH_CSV_COLUMNS.map((column) =>
-    column === 'meter'
-      ? csvText(meter)
-      : column === 'station'
-        ? station === null
-          ? ''
-          : csvText(station)
-        : column === 'status'
-          ? 'error'
-          : column === 'error'
-            ? csvText(message)
-            : '',
-  );
-  return `${cells.join(',')}\r\n`;
 }
