@@ -34,7 +34,7 @@ import {
 import { DomainError } from '../domain/errors.js';
 import { BoundedCache } from '../lib/bounded-cache.js';
 import type { BaselineRow } from '../store/schema.js';
-import { fromStoredJson, verifyBaselineContent } from '../store/baseline-content.js';
+import { fromStoredJson, verifyParsedBaselineContent } from '../store/baseline-content.js';
 import { nonFiniteToNull } from '../lib/non-finite.js';
 import { overridesOf, type BaselineFitOptions, type BaselineInputs } from './baselines/index.js';
 import type { Executor } from './context.js';
@@ -111,17 +111,27 @@ export function frozenModelOfRow(row: BaselineRow, contentHash: string): FrozenM
   const cached = modelCache.get(key);
   if (cached) return cached;
   const baselineId = row.id;
-  if (!verifyBaselineContent(row)) {
-    throw new DomainError(
+  const tampered = () =>
+    new DomainError(
       'unprocessable',
       `baseline ${baselineId}: its stored content no longer matches its content hash ${contentHash}; savings are refused until this is investigated (see the audit trail)`,
     );
+  // Every column parsed first (one that no longer parses has been tampered with), then checked against the hash.
+  let document: FitDocument;
+  let options: BaselineFitOptions;
+  let fits: Partial<Record<ModelName, ShapeFit>>;
+  let inputs: BaselineInputs;
+  try {
+    document = fromStoredJson<FitDocument>(row.document_json);
+    options = fromStoredJson<BaselineFitOptions>(row.options_json);
+    fits = fromStoredJson<Partial<Record<ModelName, ShapeFit>>>(row.fits_json);
+    inputs = fromStoredJson<BaselineInputs>(row.inputs_json);
+  } catch {
+    throw tampered();
   }
-  const document = fromStoredJson<FitDocument>(row.document_json);
-  const options = fromStoredJson<BaselineFitOptions>(row.options_json);
-  const fit = fromStoredJson<Partial<Record<ModelName, ShapeFit>>>(row.fits_json)[row.chosen_model as ModelName];
+  if (!verifyParsedBaselineContent(row)) throw tampered();
+  const fit = fits[row.chosen_model as ModelName];
   if (!fit) throw new DomainError('unprocessable', `baseline ${baselineId} holds no fit of its chosen shape ${row.chosen_model}`);
-  const inputs = fromStoredJson<BaselineInputs>(row.inputs_json);
   const minCoverage = options.minCoverage ?? document.settings.minCoverage;
   const baselinePeriods = alignPeriods(inputs.readings, inputs.weather, { minCoverage }).periods;
   const model: FrozenModel = {
