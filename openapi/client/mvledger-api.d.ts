@@ -474,6 +474,26 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/reports/savings/stream": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * The savings report of any number of meters, streamed (JSON or CSV)
+         * @description The figures of GET /v1/reports/savings for a whole organisation of any size, written facility by facility as they are computed, with memory bounded by a chunk of facilities. The same totals, facilities, meters, guarantees, notices and baselines; the differences: the JSON has "streamed": true, its keys in writing order (facilities before the portfolio), meters without chart points (signature null), and contentHash is the SHA-256 of the document’s bytes before the contentHash key; the CSV puts the portfolio rows after the facilities and ends with a digest row holding the SHA-256 of every byte before it. A response without its content hash at the end was cut short. 422 (before any byte) when no meter has reporting readings in the window.
+         */
+        get: operations["getReportsSavingsStream"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/statements": {
         parameters: {
             query?: never;
@@ -4177,6 +4197,87 @@ export interface operations {
                     "application/json": components["schemas"]["SavingsReport"];
                     "text/csv": string;
                     "text/html": string;
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getReportsSavingsStream: {
+        parameters: {
+            query?: {
+                /** @description First day of the window (with to) */
+                from?: string;
+                /** @description Day after the last day of the window (exclusive) */
+                to?: string;
+                /** @description A calendar quarter, e.g. 2026-Q3 (instead of from and to) */
+                quarter?: string;
+                /** @description A contract year of the facilities’ contract */
+                contractYear?: number;
+                /** @description Only this facility */
+                facilityId?: string;
+                /** @description json (default) or csv */
+                format?: "json" | "csv";
+                /** @description Two-sided confidence of every ±: 0.68, 0.8, 0.9, 0.95 (default: the level the contract names, 0.9 without one) */
+                confidence?: number;
+            };
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description The report, streamed */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": string;
+                    "text/csv": string;
                 };
             };
             /** @description Bad input: a problem+json naming the field or row; nothing was stored */
