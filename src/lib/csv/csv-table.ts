@@ -4,7 +4,8 @@
  * trimmed and compared case-insensitively; extra columns are ignored.
  */
 import { readFile } from 'node:fs/promises';
-import { parse } from 'csv-parse/sync';
+import { createRequire } from 'node:module';
+import type { parse as csvParse } from 'csv-parse/sync';
 import { InputFileError } from './input-error.js';
 
 export interface CsvRow {
@@ -36,6 +37,16 @@ interface CsvParseFailure {
 }
 
 const PARSE_OPTIONS = { bom: true, trim: true, skip_empty_lines: true, relax_column_count: true, info: true } as const;
+
+/**
+ * csv-parse, loaded on first use (its single CommonJS file, by require): a
+ * plain file never needs it, and a command's start-up is spared its modules.
+ */
+let loadedParse: typeof csvParse | undefined;
+const parse: typeof csvParse = ((text: string, options: object) => {
+  loadedParse ??= (createRequire(import.meta.url)('csv-parse/sync') as { parse: typeof csvParse }).parse;
+  return loadedParse(text, options);
+}) as typeof csvParse;
 
 /** Printable ASCII without the quote character, and line ends: text that needs none of the full parser's rules. */
 const PLAIN_TEXT = /^[\x20\x21\x23-\x7e\r\n]*$/;
