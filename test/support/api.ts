@@ -41,10 +41,15 @@ export interface ApiResponse {
   json: any;
 }
 
-let clockTick = 0;
-/** A clock that moves forward a millisecond per call, so audit times are distinct and ordered. */
+/**
+ * A clock that moves forward a millisecond per call, so audit times are
+ * distinct and ordered. Each clock counts on its own: test files share
+ * modules in a worker (vitest.config.ts), and a file's times must not depend
+ * on which files ran before it.
+ */
 export function steppingClock(start = Date.parse('2026-01-01T00:00:00.000Z')): () => string {
-  return () => new Date(start + clockTick++).toISOString();
+  let tick = 0;
+  return () => new Date(start + tick++).toISOString();
 }
 
 /**
