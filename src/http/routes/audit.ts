@@ -3,7 +3,7 @@ import type { RouteDeps } from '../route-deps.js';
 import { requestContext } from '../request-context.js';
 import { listAuditEntries, verifyAudit } from '../../services/audit.js';
 import { authProblems, bearer } from '../schemas/common.js';
-import { auditPageSchema, auditQuery, chainVerdictSchema } from '../schemas/audit.js';
+import { auditPageSchema, auditQuery, chainVerdictSchema, verifyQuery } from '../schemas/audit.js';
 import type { ApiApp } from './types.js';
 
 export function auditRoutes(app: ApiApp, deps: RouteDeps): void {
@@ -40,13 +40,14 @@ export function auditRoutes(app: ApiApp, deps: RouteDeps): void {
       config: { permission: 'read' },
       schema: {
         tags: ['audit'],
-        summary: 'Check the audit hash chain',
+        summary: 'Check the audit hash chain, the frozen baselines and (depth=full) every table against the trail',
         description:
-          'Walks the whole chain (every organisation shares one chain) and names the first row whose content or link does not match. Record headHash elsewhere: a later run can then also detect rows cut off the end.',
+          "Walks the organisation's chain and names the first row whose content or link does not match; compares every frozen baseline's content with the hash its freeze row recorded; with depth=full, replays the trail and names every stored reading, weather day, rate, contract, normal year, adjustment or API key that differs from it or that no audit row wrote. Record headHash elsewhere (or use the signed checkpoints): a later run can then also detect rows cut off the end.",
         security: bearer,
+        querystring: verifyQuery,
         response: { 200: chainVerdictSchema, ...authProblems },
       },
     },
-    async (request) => verifyAudit(deps.store.db, requestContext(request, deps).organisationId),
+    async (request) => verifyAudit(deps.store.db, requestContext(request, deps).organisationId, request.query.depth),
   );
 }

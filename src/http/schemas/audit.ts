@@ -72,12 +72,41 @@ export const auditPageSchema = z
   })
   .meta({ id: 'AuditPage' });
 
+const stateDifferenceSchema = z
+  .object({
+    table: z.string().describe('readings, observations, rates, contracts, normal-years, adjustments, api-keys or baselines'),
+    key: z.string().describe('Which row: its meter or station and period or date, or the entity id'),
+    difference: z.string().describe('What differs, in words: the stored value against the one the audit trail recorded'),
+  })
+  .meta({ id: 'AuditStateDifference' });
+
+export const verifyQuery = z.object({
+  depth: z
+    .enum(['chain', 'full'])
+    .default('chain')
+    .describe(
+      'chain: the hash chain and every frozen baseline against the hash its freeze recorded; full: also replay the trail and compare every result-bearing table with it',
+    ),
+});
+
 export const chainVerdictSchema = z
   .object({
-    ok: z.boolean(),
+    ok: z.boolean().describe('True only when the chain, the frozen baselines and (depth=full) every table agree with the trail'),
     checked: z.number().int().describe('Rows checked'),
     headSeq: z.number().int(),
     headHash: z.string().describe('Hash of the last row: keep it outside the database to detect a cut-off tail later'),
     broken: z.object({ seq: z.number().int(), reason: z.string() }).optional().describe('The first row where the chain breaks'),
+    baselines: z
+      .object({ ok: z.boolean(), checked: z.number().int(), differences: z.array(stateDifferenceSchema) })
+      .describe('Each frozen or superseded baseline: its stored content against the content hash its freeze row recorded'),
+    replay: z
+      .object({
+        ok: z.boolean(),
+        compared: z.record(z.string(), z.number().int()).describe('Rows compared per table'),
+        differenceCount: z.number().int(),
+        differences: z.array(stateDifferenceSchema).describe('The first 100 differences'),
+      })
+      .optional()
+      .describe('With depth=full: the tables rebuilt from the audit trail and compared with the stored rows'),
   })
   .meta({ id: 'AuditChainVerdict' });
