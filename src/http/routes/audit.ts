@@ -2,8 +2,17 @@
 import type { RouteDeps } from '../route-deps.js';
 import { requestContext } from '../request-context.js';
 import { listAuditEntries, verifyAudit } from '../../services/audit.js';
-import { authProblems, bearer } from '../schemas/common.js';
-import { auditPageSchema, auditQuery, chainVerdictSchema, verifyQuery } from '../schemas/audit.js';
+import { listAuditCheckpoints, requestCheckpoint } from '../../services/audit-checkpoints.js';
+import { authProblems, bearer, writeProblems } from '../schemas/common.js';
+import {
+  auditPageSchema,
+  auditQuery,
+  chainVerdictSchema,
+  checkpointPageSchema,
+  checkpointsQuery,
+  signedCheckpointSchema,
+  verifyQuery,
+} from '../schemas/audit.js';
 import type { ApiApp } from './types.js';
 
 export function auditRoutes(app: ApiApp, deps: RouteDeps): void {
@@ -49,5 +58,45 @@ export function auditRoutes(app: ApiApp, deps: RouteDeps): void {
       },
     },
     async (request) => verifyAudit(deps.store.db, requestContext(request, deps).organisationId, request.query.depth),
+  );
+
+  app.get(
+    '/v1/audit/checkpoints',
+    {
+      config: { permission: 'read' },
+      schema: {
+        tags: ['audit'],
+        summary: "Signed checkpoints of the organisation's audit head, oldest first",
+        description:
+          'The service signs the head of the audit chain (its last row’s sequence number and hash) with an Ed25519 key held outside the database: periodically (CHECKPOINT_INTERVAL_SECONDS), on every issued statement, and on request. With the public key given here (keep a copy from a trusted moment) and an export, `mvledger verify` proves that the trail up to each checkpoint has not been rewritten or cut since it was signed.',
+        security: bearer,
+        querystring: checkpointsQuery,
+        response: { 200: checkpointPageSchema, ...authProblems },
+      },
+    },
+    async (request) =>
+      listAuditCheckpoints(deps.store.db, deps.checkpointSigner, requestContext(request, deps).organisationId, {
+        limit: request.query.limit,
+        ...(request.query.cursor !== undefined ? { cursor: request.query.cursor } : {}),
+      }),
+  );
+
+  app.post(
+    '/v1/audit/checkpoints',
+    {
+      config: { permission: 'approve' },
+      schema: {
+        tags: ['audit'],
+        summary: 'Sign the current audit head now',
+        description:
+          'Signs the head of the organisation’s chain unless the key has signed it already (then answers that checkpoint). 422 when the service holds no checkpoint key.',
+        security: bearer,
+        response: { 200: signedCheckpointSchema, ...writeProblems },
+      },
+    },
+    async (request) => {
+      const context = requestContext(request, deps);
+      return requestCheckpoint(deps.store.db, deps.checkpointSigner, context.organisationId, context.service.now);
+    },
   );
 }

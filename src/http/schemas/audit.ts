@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { isIsoDate } from '../../engine/index.js';
-import { plainText } from './common.js';
+import { PAGE_SIZES } from '../../services/paging.js';
+import { pageFields, pageQuery, plainText } from './common.js';
 
 const DATE_TIME = /^(\d{4}-\d{2}-\d{2})T\d{2}:\d{2}(:\d{2}(\.\d{1,9})?)?(Z|[+-]\d{2}:\d{2})$/;
 
@@ -110,3 +111,32 @@ export const chainVerdictSchema = z
       .describe('With depth=full: the tables rebuilt from the audit trail and compared with the stored rows'),
   })
   .meta({ id: 'AuditChainVerdict' });
+
+export const signedCheckpointSchema = z
+  .object({
+    organisationId: z.string(),
+    seq: z.number().int().describe('The audit row signed: the head of the chain at signing'),
+    headHash: z.string().describe('That row’s hash'),
+    signedAt: z.string().describe('UTC time of signing'),
+    keyId: z.string().describe('First 16 hex digits of SHA-256 of the public key (SubjectPublicKeyInfo, DER)'),
+    signature: z
+      .string()
+      .describe(
+        'Ed25519 signature (base64) of "mvledger audit checkpoint v1\\n" + canonical JSON of {headHash, organisationId, seq, signedAt}',
+      ),
+    reason: z.enum(['interval', 'statement', 'request']).describe('What made it: the periodic signer, an issued statement, or a request'),
+  })
+  .meta({ id: 'AuditCheckpoint' });
+
+export const checkpointsQuery = z.object(pageQuery(PAGE_SIZES.records, 'Checkpoints'));
+
+export const checkpointPageSchema = z
+  .object({
+    publicKey: z
+      .object({ keyId: z.string(), pem: z.string().describe('The Ed25519 public key, PEM (SubjectPublicKeyInfo)') })
+      .nullable()
+      .describe('The key the service signs with now; null when it signs no checkpoints'),
+    checkpoints: z.array(signedCheckpointSchema),
+    ...pageFields,
+  })
+  .meta({ id: 'AuditCheckpointPage' });

@@ -16,6 +16,7 @@ import { renderReportMain } from '../html/render-report.js';
 import { code, facts, tag, text } from '../html/markup.js';
 import { shapeName } from '../shape-names.js';
 import type { StatementDocument, StatementStep } from './statement-document.js';
+import type { SignedCheckpoint } from '../../lib/checkpoint-signature.js';
 
 const STEP_WORDS: Record<StatementStep['step'], string> = {
   prepared: 'Prepared',
@@ -52,6 +53,11 @@ function utc(at: string): string {
   return `${at.slice(0, 10)} ${at.slice(11, 19)} UTC`;
 }
 
+/** A checkpoint in words, with everything an auditor needs to check its signature. */
+function checkpointWords(checkpoint: SignedCheckpoint): string {
+  return `audit checkpoint: sequence ${checkpoint.seq} hash ${checkpoint.headHash} signed ${utc(checkpoint.signedAt)} by key ${checkpoint.keyId}, Ed25519 signature ${checkpoint.signature}`;
+}
+
 function stepLine(step: StatementStep): string {
   const reason = step.reason === null ? '' : `; reason: ${step.reason}`;
   const replaced = step.replacedBy ? `; replaced by ${step.replacedBy}` : '';
@@ -85,6 +91,7 @@ export function renderStatementCsv(document: StatementDocument): string {
         `report content hash ${document.report.contentHash}`,
         `audit head ${document.report.dataAsOf.auditSeq} ${document.report.dataAsOf.auditHash}`,
         ...(s.issuedCopy ? [`issued copy hashes json ${s.issuedCopy.json} csv ${s.issuedCopy.csv} html ${s.issuedCopy.html}`] : []),
+        ...(s.checkpoint ? [checkpointWords(s.checkpoint)] : []),
         ...(s.note ? [`note: ${s.note}`] : []),
       ].join('; '),
     }),
@@ -202,6 +209,7 @@ function statementHead(document: StatementDocument): string {
       ['Confidence of every ±', text(`${Math.round(r.confidence * 100)}% two-sided; the Guideline 14 significance verdict at 68%`)],
       ['Models', text(shapes.length === 0 ? 'none' : shapes.map(shapeName).join('; '))],
       ['Report content hash', code(r.contentHash, 'hash')],
+      ...(s.checkpoint ? [['Signed audit checkpoint', text(checkpointWords(s.checkpoint))] as [string, string]] : []),
       ...(s.issuedCopy
         ? [
             [
