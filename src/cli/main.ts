@@ -94,8 +94,14 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
       if (output.note) io.stderr(output.note);
       return 0;
     }
+    if (command === 'verify') {
+      const { runVerify } = await import('./commands/verify.js');
+      const output = await runVerify(rest);
+      io.stdout(output.stdout);
+      return output.code;
+    }
     io.stderr(
-      `mvledger: unknown command ${JSON.stringify(command)} (commands: fit, savings, weather, keys, export, import, backup, restore, help)\n`,
+      `mvledger: unknown command ${JSON.stringify(command)} (commands: fit, savings, weather, keys, export, import, backup, restore, verify, help)\n`,
     );
     return EXIT_BAD_INPUT;
   } catch (error) {
@@ -114,8 +120,18 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
 }
 
 async function helpFor(topic: string | undefined): Promise<string> {
-  const { BACKUP_USAGE, EXPORT_USAGE, FIT_USAGE, GENERAL_USAGE, IMPORT_USAGE, KEYS_USAGE, RESTORE_USAGE, SAVINGS_USAGE, WEATHER_USAGE } =
-    await import('./usage.js');
+  const {
+    BACKUP_USAGE,
+    EXPORT_USAGE,
+    FIT_USAGE,
+    GENERAL_USAGE,
+    IMPORT_USAGE,
+    KEYS_USAGE,
+    RESTORE_USAGE,
+    SAVINGS_USAGE,
+    VERIFY_USAGE,
+    WEATHER_USAGE,
+  } = await import('./usage.js');
   if (topic === 'fit') return FIT_USAGE;
   if (topic === 'savings') return SAVINGS_USAGE;
   if (topic === 'keys') return KEYS_USAGE;
@@ -124,5 +140,6 @@ async function helpFor(topic: string | undefined): Promise<string> {
   if (topic === 'backup') return BACKUP_USAGE;
   if (topic === 'restore') return RESTORE_USAGE;
   if (topic === 'weather') return WEATHER_USAGE;
+  if (topic === 'verify') return VERIFY_USAGE;
   return GENERAL_USAGE;
 }
