@@ -184,8 +184,11 @@ async function main(): Promise<void> {
   const all = inventedDays();
   const days = all.filter((d): d is Day => d !== null);
   const file = dlyFile(all);
-  const runs: ScenarioResult[] = [await scenario('SQLite', `sqlite:${join(WORK, 'weather.sqlite')}`, file, days)];
-  if (await postgresReachable()) {
+  // WEATHER_BENCH_ONLY=sqlite|postgres runs one database alone.
+  const only = process.env.WEATHER_BENCH_ONLY;
+  const runs: ScenarioResult[] = [];
+  if (only !== 'postgres') runs.push(await scenario('SQLite', `sqlite:${join(WORK, 'weather.sqlite')}`, file, days));
+  if (only !== 'sqlite' && (await postgresReachable())) {
     process.env.MVLEDGER_TEST_DIALECT = 'postgres';
     const url = freshTestDatabaseUrl();
     try {
