@@ -118,6 +118,7 @@ command and exits 2.
 export const WEATHER_USAGE = `Usage: mvledger weather import --format NAME FILE [--station ID] [--unit F|C]
        mvledger weather import --format NAME FILE --url URL --station-id WST [--key KEY] [--station ID]
        mvledger weather check --format NAME FILE [--station ID] [--unit F|C] [--json]
+       mvledger weather normals FILE [--format noaa-daily-normals-csv] [--station ID] [--unit F|C] [--file-unit F|C] [--json]
 
 Read a public daily station file as published. Formats: ghcn-dly (GHCN-Daily
 fixed-width .dly), ghcn-csv (GHCN-Daily by-station CSV), gsod-csv (Global
@@ -133,6 +134,11 @@ counted; temperatures are converted once to --unit (default F).
   --key KEY           an API key (or MVLEDGER_API_KEY in the environment)
   check               the record's span, missing days per year, extremes and
                       days outside plausible bounds
+  normals             published daily normals (noaa-daily-normals-csv: NOAA's
+                      daily normals CSV) as the 365-day normal year, day,temp
+                      in --unit, its source to stderr; DLY-TAVG-NORMAL, else
+                      (DLY-TMAX-NORMAL + DLY-TMIN-NORMAL)/2; 02-29 left out
+  --file-unit F|C     the unit of the normals file's values (default F)
 `;
 
 export const GENERAL_USAGE = `mvledger: weather-normalised baselines and avoided energy (IPMVP whole-facility option, ASHRAE Guideline 14 methods)

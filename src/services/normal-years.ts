@@ -12,7 +12,7 @@ import { audit, inTransaction, type Executor, type ServiceContext, type Tx } fro
 import { getStationRow } from './weather-stations.js';
 import type { RecordLocator } from './readings.js';
 import { bumpStationMeterVersions } from '../store/data-versions.js';
-import { ArchiveFormatError, readDailyNormalsCsv, type NormalsFormat } from '../station-archives/index.js';
+import { ArchiveFormatError, publishedNormalsSource, readDailyNormalsCsv, type NormalsFormat } from '../station-archives/index.js';
 
 export interface NormalYear {
   stationId: string;
@@ -134,13 +134,7 @@ export async function normalYearFromPublishedNormals(
       const errors = problems.map((p) => ({ field: p.index >= 0 ? `day ${year.days[p.index]!.day}` : p.field, message: p.message }));
       throw fieldErrors('invalid', errors, MAX_LISTED_ERRORS);
     }
-    const taken =
-      year.fromMaxMin === 0
-        ? 'DLY-TAVG-NORMAL on every day'
-        : `DLY-TAVG-NORMAL on ${year.fromAverage} days, (DLY-TMAX-NORMAL + DLY-TMIN-NORMAL)/2 on ${year.fromMaxMin} where it was missing`;
-    const converted =
-      year.fileUnit === station.temperature_unit ? `in °${year.fileUnit}` : `°${year.fileUnit} converted to °${station.temperature_unit}`;
-    const source = `published daily normals (${year.format}) of station ${year.archiveStationId}: ${taken}; 02-29 ${year.hadFebruary29 ? 'left out' : 'not in the file'}; ${converted}`;
+    const source = publishedNormalsSource(year, station.temperature_unit);
     return storeNormalYear(
       trx,
       ctx,

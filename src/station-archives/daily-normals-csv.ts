@@ -219,3 +219,13 @@ function dayOf(cell: (name: string) => string, fail: (name: string, detail: stri
   if (!/^\d{1,2}$/.test(day)) fail('day', `must be a day number, got ${JSON.stringify(day)}`);
   return `${month.padStart(2, '0')}-${day.padStart(2, '0')}`;
 }
+
+/** Where a published normal year comes from, in words: the normal year's stored source (the service) and the CLI's note. */
+export function publishedNormalsSource(year: PublishedNormalYear, unit: TemperatureUnit): string {
+  const taken =
+    year.fromMaxMin === 0
+      ? `${TAVG} on every day`
+      : `${TAVG} on ${year.fromAverage} days, (${TMAX} + ${TMIN})/2 on ${year.fromMaxMin} where it was missing`;
+  const converted = year.fileUnit === unit ? `in °${unit}` : `°${year.fileUnit} converted to °${unit}`;
+  return `published daily normals (${year.format}) of station ${year.archiveStationId}: ${taken}; 02-29 ${year.hadFebruary29 ? 'left out' : 'not in the file'}; ${converted}`;
+}

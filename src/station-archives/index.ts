@@ -29,6 +29,7 @@ export function readStationArchive(format: ArchiveFormat, text: string, options:
 }
 export {
   NORMALS_FORMATS,
+  publishedNormalsSource,
   readDailyNormalsCsv,
   type NormalsFormat,
   type NormalsOptions,
