@@ -929,6 +929,8 @@ export interface components {
             version: number;
             /** @description Notes on the choice, e.g. that the chosen shape failed screening */
             warnings: string[];
+            /** @description The baseline’s periods whose weather includes days filled on record, by method (empty when none); a frozen window’s fills cannot change */
+            weatherFills: components["schemas"]["PeriodWeatherFills"][];
         };
         BaselineHistory: {
             baselines: components["schemas"]["BaselineSummary"][];
@@ -1233,6 +1235,15 @@ export interface components {
             unchanged: number;
             updated: number;
         };
+        PeriodWeatherFills: {
+            days: number;
+            end: string;
+            interpolation: number;
+            secondStation: number;
+            start: string;
+            /** @description e.g. "3 of 31 days filled by interpolation" */
+            summary: string;
+        };
         /** @description RFC 9457 problem details */
         Problem: {
             detail: string;
@@ -1413,15 +1424,7 @@ export interface components {
                 t: number | null;
             };
             /** @description Reporting periods whose weather includes days filled on record, by method */
-            weatherFills: {
-                days: number;
-                end: string;
-                interpolation: number;
-                secondStation: number;
-                start: string;
-                /** @description e.g. "3 of 31 days filled by interpolation" */
-                summary: string;
-            }[];
+            weatherFills: components["schemas"]["PeriodWeatherFills"][];
         };
         /** @description Portfolio, facility and meter savings with costs, guarantees, adjustments, normalised savings, method, sources and caution */
         SavingsReport: {
@@ -1633,6 +1636,8 @@ export interface components {
             version: number;
             /** @description Notes on the choice, e.g. that the chosen shape failed screening */
             warnings: string[];
+            /** @description The baseline’s periods whose weather includes days filled on record, by method (empty when none); a frozen window’s fills cannot change */
+            weatherFills: components["schemas"]["PeriodWeatherFills"][];
         };
         WeatherGapFill: {
             alreadyFilled: number;

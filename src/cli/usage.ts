@@ -2,7 +2,9 @@
 import { CONFIDENCE_LEVELS, DEFAULT_EXTRAPOLATION_LIMIT, MIN_BASELINE_BILLS, MIN_BASELINE_DAYS, MODEL_NAMES } from '../engine/index.js';
 
 const COMMON_OPTIONS = `  --weather FILE      daily weather CSV: date,temp or date,tmin,tmax (mean = (tmin+tmax)/2);
-                      an empty temperature cell is a missing day
+                      an empty temperature cell is a missing day; an optional
+                      column filled (interpolation or second-station) marks days
+                      filled on record, and fit lists the periods that hold them
   --unit F|C          the weather station's unit (default F)
   --coverage X        share of a period's days that must have weather (default 0.9)
   --alpha X           two-sided level of the slope t-tests and the F-test (default 0.05)
