@@ -100,11 +100,13 @@ function observedPermissions(op: Operation): Permission[] {
  * The permission a route should need, from the meaning of each permission
  * (src/domain/principal.ts): keys for API keys; savings for savings; data to
  * post readings and observations; read for other GETs; approve for a statement's
- * approval, rejection and voiding; ledger for other writes.
+ * approval, rejection and voiding, and for signing the audit head (what those
+ * who check statements ask for); ledger for other writes.
  */
 function conventionalPermission(op: Operation): Permission {
   if (op.path.startsWith('/v1/api-keys')) return 'keys';
   if (/^\/v1\/statements\/\{id\}\/(approve|reject|void)$/.test(op.path)) return 'approve';
+  if (op.method === 'post' && op.path === '/v1/audit/checkpoints') return 'approve';
   if (/\/savings(\/|$)/.test(op.path)) return 'savings';
   // What a billing system reads back to reconcile: the meters and a meter's readings.
   if (op.method === 'get' && /^\/v1\/meters(\/\{id\}(\/readings)?)?$/.test(op.path)) return 'reconcile';
