@@ -2,6 +2,7 @@
 import { z } from 'zod';
 import type { RouteDeps } from '../route-deps.js';
 import {
+  baselinePoints,
   baselineSignatureData,
   chooseModel,
   createBaseline,
@@ -13,6 +14,7 @@ import { renderBaselineSignature } from '../../reports/svg/baseline-signature.js
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageQuery } from '../schemas/common.js';
 import {
   baselineHistorySchema,
+  baselinePointsSchema,
   baselineSchema,
   chooseBody,
   createBaselineBody,
@@ -143,5 +145,22 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
             await baselineSignatureData(deps.store.db, requestContext(request, deps).organisationId, request.params.id),
           ),
         ),
+  );
+
+  app.get(
+    '/v1/baselines/:id/points',
+    {
+      config: { permission: 'read' },
+      schema: {
+        tags: ['baselines'],
+        summary: 'The numbers behind the charts of every fitted shape',
+        description:
+          'Each usable baseline period (dates, days, quantity, use per day, mean temperature), and for every fitted shape its line, its expected use per day of each period and each period’s energy residual: what a client needs to draw all candidates on the energy signature and their residuals against time and temperature, and to show the same numbers in a table.',
+        security: bearer,
+        params: idParams,
+        response: { 200: baselinePointsSchema, ...authProblems },
+      },
+    },
+    async (request) => baselinePoints(deps.store.db, requestContext(request, deps).organisationId, request.params.id),
   );
 }

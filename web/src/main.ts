@@ -1,0 +1,152 @@
+/**
+ * The workbench's entry: sign in with a pasted API key, then a hash router
+ * over the screens. The key's role (from /v1/me) decides what shows: a
+ * screen offers an action only when the role holds the permission the API
+ * asks for it, and the API checks again whatever the page shows.
+ */
+import { call, forgetKey, ScreenError, storedKey, storeKey } from './api.js';
+import { field, h, notice, replace } from './dom.js';
+import type { Caller } from './types.js';
+import { facilitiesScreen } from './screens/facilities.js';
+import { meterDataScreen } from './screens/meter-data.js';
+import { benchScreen } from './screens/bench.js';
+import { savingsScreen } from './screens/savings.js';
+import { reportsScreen } from './screens/reports.js';
+
+/** What a screen gets: where to draw, who is calling, and a way to say its title. */
+export interface ScreenContext {
+  main: HTMLElement;
+  caller: Caller;
+  can: (permission: string) => boolean;
+  title: (text: string) => void;
+}
+
+const app = document.getElementById('app')!;
+
+function signInForm(message?: string): void {
+  document.title = 'Sign in · mvledger workbench';
+  const input = h('input', { type: 'password', name: 'api-key', autocomplete: 'off', spellcheck: 'false', required: true });
+  const form = h(
+    'form',
+    { class: 'sign-in', 'aria-labelledby': 'sign-in-title' },
+    h('h1', { id: 'sign-in-title' }, 'mvledger workbench'),
+    h('p', {}, 'Paste an API key. It stays in this browser tab only (sessionStorage) and is forgotten when the tab closes.'),
+    message ? notice('error', message) : null,
+    field('API key', input, 'A key looks like mvl_<id>_<secret>; ask your administrator for one.'),
+    h('button', { type: 'submit' }, 'Sign in'),
+  );
+  form.addEventListener('submit', (event) => {
+    event.preventDefault();
+    storeKey(input.value.trim());
+    void start();
+  });
+  replace(app, h('main', { id: 'main', class: 'narrow' }, form));
+  input.focus();
+}
+
+function navigation(caller: Caller): HTMLElement {
+  const link = (href: string, text: string) => h('a', { href }, text);
+  return h(
+    'header',
+    { class: 'masthead' },
+    h(
+      'a',
+      {
+        class: 'skip',
+        href: '#main',
+        // The hash is the router's: move focus without changing it.
+        onclick: (event: Event) => {
+          event.preventDefault();
+          document.getElementById('main')?.focus();
+        },
+      },
+      'Skip to content',
+    ),
+    h('p', { class: 'brand' }, 'mvledger workbench'),
+    h(
+      'nav',
+      { 'aria-label': 'Screens' },
+      h('ul', {}, h('li', {}, link('#/', 'Facilities and meters')), h('li', {}, link('#/reports', 'Reports and statements'))),
+    ),
+    h(
+      'p',
+      { class: 'who' },
+      `${caller.organisation.name} · ${caller.key.name} (${caller.key.role}) `,
+      h(
+        'button',
+        {
+          type: 'button',
+          class: 'link',
+          onclick: () => {
+            current = null;
+            forgetKey();
+            location.hash = '';
+            signInForm();
+          },
+        },
+        'Sign out',
+      ),
+    ),
+  );
+}
+
+function markCurrent(): void {
+  const current = location.hash || '#/';
+  for (const a of document.querySelectorAll<HTMLAnchorElement>('nav a')) {
+    const target = a.getAttribute('href')!;
+    const here = target === '#/' ? current === '#/' || current.startsWith('#/meter') : current.startsWith(target);
+    if (here) a.setAttribute('aria-current', 'page');
+    else a.removeAttribute('aria-current');
+  }
+}
+
+async function route(context: ScreenContext): Promise<void> {
+  const hash = location.hash.replace(/^#/, '') || '/';
+  const meter = /^\/meter\/([^/]+)\/(data|bench|savings)$/.exec(hash);
+  markCurrent();
+  context.main.replaceChildren(h('p', { class: 'loading', role: 'status' }, 'Loading…'));
+  try {
+    if (meter) {
+      const id = decodeURIComponent(meter[1]!);
+      if (meter[2] === 'data') await meterDataScreen(context, id);
+      else if (meter[2] === 'bench') await benchScreen(context, id);
+      else await savingsScreen(context, id);
+    } else if (hash === '/reports') await reportsScreen(context);
+    else await facilitiesScreen(context);
+  } catch (error) {
+    const detail =
+      error instanceof ScreenError ? `${error.problem.title}: ${error.problem.detail}` : 'something went wrong drawing this screen';
+    replace(context.main, h('h1', {}, 'This screen could not be shown'), notice('error', detail));
+    if (!(error instanceof ScreenError)) throw error;
+  }
+}
+
+let current: ScreenContext | null = null;
+window.addEventListener('hashchange', () => {
+  const context = current;
+  if (context) void route(context).then(() => context.main.focus({ preventScroll: true }));
+});
+
+async function start(): Promise<void> {
+  if (!storedKey()) return signInForm();
+  const me = await call<Caller>('/v1/me');
+  if (!me.ok) {
+    forgetKey();
+    return signInForm(me.status === 401 ? 'That key was not accepted: check it and paste it again.' : me.problem.detail);
+  }
+  const caller = me.body;
+  const main = h('main', { id: 'main', tabindex: '-1' });
+  replace(app, navigation(caller), main);
+  const context: ScreenContext = {
+    main,
+    caller,
+    can: (permission) => caller.permissions.includes(permission),
+    title: (text) => {
+      document.title = `${text} · mvledger workbench`;
+    },
+  };
+  current = context;
+  await route(context);
+}
+
+void start();
