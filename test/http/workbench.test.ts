@@ -39,27 +39,16 @@ describe('the /app static files', () => {
   beforeAll(async () => {
     folder = mkdtempSync(join(tmpdir(), 'mvledger-app-'));
     mkdirSync(join(folder, 'public'));
-    mkdirSync(join(folder, 'modules', 'web', 'src', 'screens'), { recursive: true });
-    mkdirSync(join(folder, 'modules', 'src', 'reports'), { recursive: true });
-    // synthetic: a page with both placeholders, and a three-level import graph plus one module nothing imports
+    mkdirSync(join(folder, 'modules'));
+    // synthetic: a page naming its build folder, its styles and its script
     writeFileSync(
       join(folder, 'public', 'index.html'),
       '<!doctype html><title>test page</title><link rel="stylesheet" href="{{build}}/workbench.css" />\n' +
-        '<script type="module" src="{{build}}/js/web/src/main.js"></script>\n<!-- {{modulepreload}} -->\n',
+        '<script type="module" src="{{build}}/workbench.js"></script>\n',
     );
     writeFileSync(join(folder, 'public', 'workbench.css'), 'body { margin: 0; }\n');
     writeFileSync(join(folder, 'public', 'notes.txt'), 'not served: not a page type\n');
-    writeFileSync(
-      join(folder, 'modules', 'web', 'src', 'main.js'),
-      "import { a } from './screens/a.js';\nexport { b } from './b.js';\nvoid a;\n",
-    );
-    writeFileSync(join(folder, 'modules', 'web', 'src', 'b.js'), 'export const b = 2;\n');
-    writeFileSync(
-      join(folder, 'modules', 'web', 'src', 'screens', 'a.js'),
-      "import { c } from '../../../src/reports/c.js';\nexport const a = c;\n",
-    );
-    writeFileSync(join(folder, 'modules', 'src', 'reports', 'c.js'), 'export const c = 1;\n');
-    writeFileSync(join(folder, 'modules', 'web', 'src', 'unused.js'), 'export const u = 0;\n');
+    writeFileSync(join(folder, 'modules', 'workbench.js'), 'export const b = 2;\n');
     const folders = { public: join(folder, 'public'), modules: join(folder, 'modules') };
     files = loadWorkbenchFiles(folders);
     app = await appWith(folders);
@@ -79,33 +68,38 @@ describe('the /app static files', () => {
     expect(page.headers['content-type']).toBe('text/html; charset=utf-8');
     expect(page.body).toContain('test page');
     expect(page.body).toContain(`href="${files.build}/workbench.css"`);
+    expect(page.body).toContain(`src="${files.build}/workbench.js"`);
     expect(page.body).not.toContain('{{');
     expect((await app.inject(`/app/${files.build}/workbench.css`)).headers['content-type']).toBe('text/css; charset=utf-8');
-    const module = await app.inject(`/app/${files.build}/js/web/src/main.js`);
+    const module = await app.inject(`/app/${files.build}/workbench.js`);
     expect(module.statusCode).toBe(200);
     expect(module.headers['content-type']).toBe('text/javascript; charset=utf-8');
   });
 
-  it('lists every module the entry imports, at any depth, as a modulepreload (and no other)', async () => {
-    // synthetic: the graph the test wrote above
-    expect([...files.preloaded].sort()).toEqual(['js/src/reports/c.js', 'js/web/src/b.js', 'js/web/src/screens/a.js']);
-    const page = (await app.inject('/app/')).body;
-    for (const path of files.preloaded) expect(page).toContain(`<link rel="modulepreload" href="${files.build}/${path}" />`);
-    expect(page).not.toContain('unused.js');
-  });
-
   it('lets the browser keep the files for good (a new build has a new id) and revalidate the page', async () => {
-    const module = await app.inject(`/app/${files.build}/js/web/src/b.js`);
+    const module = await app.inject(`/app/${files.build}/workbench.js`);
     expect(module.headers['cache-control']).toBe('public, max-age=31536000, immutable');
     expect((await app.inject('/app/')).headers['cache-control']).toBe('no-cache');
-    expect((await app.inject('/app/an-older-build/js/web/src/b.js')).statusCode).toBe(404);
+    expect((await app.inject('/app/an-older-build/workbench.js')).statusCode).toBe(404);
+  });
+
+  it('gives a changed build a new id, so no browser mixes an old cached file with a new page', () => {
+    const before = files.build;
+    const changed = mkdtempSync(join(tmpdir(), 'mvledger-app-changed-'));
+    try {
+      writeFileSync(join(changed, 'workbench.js'), 'export const b = 3;\n'); // synthetic: one character differs
+      expect(loadWorkbenchFiles({ public: join(folder, 'public'), modules: changed }).build).not.toBe(before);
+      expect(loadWorkbenchFiles({ public: join(folder, 'public'), modules: join(folder, 'modules') }).build).toBe(before);
+    } finally {
+      rmSync(changed, { recursive: true, force: true });
+    }
   });
 
   it('sends a policy with nothing inline and no other origin, on every answer', async () => {
     for (const url of [
       '/app/',
       `/app/${files.build}/workbench.css`,
-      `/app/${files.build}/js/web/src/main.js`,
+      `/app/${files.build}/workbench.js`,
       `/app/${files.build}/missing.js`,
     ]) {
       const response = await app.inject(url);
@@ -131,8 +125,8 @@ describe('the /app static files', () => {
       `/app/${files.build}/index.html`,
       '/app/../package.json',
       `/app/${files.build}/%2e%2e/package.json`,
-      `/app/${files.build}/js/../../package.json`,
-      `/app/${files.build}/js/%2e%2e%2f%2e%2e%2fpackage.json`,
+      `/app/${files.build}/x/../../package.json`,
+      `/app/${files.build}/%2e%2e%2f%2e%2e%2fpackage.json`,
     ]) {
       const response = await app.inject(url);
       expect([400, 404], url).toContain(response.statusCode);

@@ -1,7 +1,7 @@
 /**
- * Helpers for the workbench's browser tests and benchmark: compile the page's
- * modules (tsconfig.web.json → dist/web, what the service serves at /app),
- * sign in, and run axe-core in the page.
+ * Helpers for the workbench's browser tests and benchmark: build the page's
+ * script (web/build.mjs → dist/web, what the service serves at /app), sign
+ * in, and run axe-core in the page.
  */
 import { execFileSync } from 'node:child_process';
 import { readFileSync } from 'node:fs';
@@ -11,9 +11,9 @@ import type { Page } from 'playwright-core';
 
 const ROOT = fileURLToPath(new URL('../../', import.meta.url));
 
-/** Compile the workbench's modules so the service serves the current source. */
+/** Build the workbench's script so the service serves the current source. */
 export function buildWorkbench(): void {
-  execFileSync(process.execPath, [`${ROOT}node_modules/typescript/bin/tsc`, '-p', `${ROOT}tsconfig.web.json`], { stdio: 'inherit' });
+  execFileSync(process.execPath, [`${ROOT}web/build.mjs`], { stdio: 'inherit' });
 }
 
 /** Open /app, paste the key and wait for the screens. */

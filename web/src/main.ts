@@ -9,7 +9,7 @@ import { field, h, notice, replace } from './dom.js';
 import type { Caller } from './types.js';
 import { facilitiesScreen } from './screens/facilities.js';
 import { meterDataScreen } from './screens/meter-data.js';
-import { benchScreen } from './screens/bench.js';
+import { benchScreen, loadBench, type BenchData } from './screens/bench.js';
 import { savingsScreen } from './screens/savings.js';
 import { reportsScreen } from './screens/reports.js';
 
@@ -100,17 +100,25 @@ function markCurrent(): void {
   }
 }
 
+/** The meter screen a hash names, if it names one. */
+function meterRoute(hash: string): { id: string; screen: 'data' | 'bench' | 'savings' } | null {
+  const meter = /^\/meter\/([^/]+)\/(data|bench|savings)$/.exec(hash.replace(/^#/, '') || '/');
+  return meter ? { id: decodeURIComponent(meter[1]!), screen: meter[2] as 'data' | 'bench' | 'savings' } : null;
+}
+
+/** The first screen's data when it was read beside the key check; taken by the first route() only. */
+let opening: { hash: string; data: Promise<BenchData> } | null = null;
+
 async function route(context: ScreenContext): Promise<void> {
   const hash = location.hash.replace(/^#/, '') || '/';
-  const meter = /^\/meter\/([^/]+)\/(data|bench|savings)$/.exec(hash);
+  const meter = meterRoute(hash);
   markCurrent();
   context.main.replaceChildren(h('p', { class: 'loading', role: 'status' }, 'Loading…'));
   try {
     if (meter) {
-      const id = decodeURIComponent(meter[1]!);
-      if (meter[2] === 'data') await meterDataScreen(context, id);
-      else if (meter[2] === 'bench') await benchScreen(context, id);
-      else await savingsScreen(context, id);
+      if (meter.screen === 'data') await meterDataScreen(context, meter.id);
+      else if (meter.screen === 'bench') await benchScreen(context, meter.id, early(location.hash));
+      else await savingsScreen(context, meter.id);
     } else if (hash === '/reports') await reportsScreen(context);
     else await facilitiesScreen(context);
   } catch (error) {
@@ -118,7 +126,15 @@ async function route(context: ScreenContext): Promise<void> {
       error instanceof ScreenError ? `${error.problem.title}: ${error.problem.detail}` : 'something went wrong drawing this screen';
     replace(context.main, h('h1', {}, 'This screen could not be shown'), notice('error', detail));
     if (!(error instanceof ScreenError)) throw error;
+  } finally {
+    opening = null;
   }
+}
+
+function early(hash: string): Promise<BenchData> | undefined {
+  const taken = opening?.hash === hash ? opening.data : undefined;
+  opening = null;
+  return taken;
 }
 
 let current: ScreenContext | null = null;
@@ -129,8 +145,17 @@ window.addEventListener('hashchange', () => {
 
 async function start(): Promise<void> {
   if (!storedKey()) return signInForm();
-  const me = await call<Caller>('/v1/me');
+  // The key check and the bench's own reads go out together (a refused key is refused on those too, and they are dropped).
+  const checking = call<Caller>('/v1/me');
+  const meter = meterRoute(location.hash);
+  if (meter?.screen === 'bench') {
+    const data = loadBench(meter.id);
+    data.catch(() => undefined); // its refusal is shown when the screen awaits it, or dropped with a refused key
+    opening = { hash: location.hash, data };
+  }
+  const me = await checking;
   if (!me.ok) {
+    opening = null;
     forgetKey();
     return signInForm(me.status === 401 ? 'That key was not accepted: check it and paste it again.' : me.problem.detail);
   }

@@ -1,22 +1,21 @@
 /**
  * The browser workbench at /app: static files served from memory, no
- * server-side session. The page is plain HTML and CSS (web/public) and ES
- * modules compiled by `npm run build` (tsconfig.web.json → dist/web); it
- * calls the same /v1 API with the key the user pastes, kept in the tab's
+ * server-side session. The page is plain HTML and CSS (web/public) and one
+ * ES module bundled by `npm run build` (web/build.mjs → dist/web); it calls
+ * the same /v1 API with the key the user pastes, kept in the tab's
  * sessionStorage only.
  *
  * Files are read once when the app is built and looked up by exact name, so
  * no request path ever reaches the file system. Everything but the page
  * itself is served under a build id (a hash of every file), so the browser
- * keeps it for a year without asking again, and the page lists every module
- * its entry imports (modulepreload), so they load side by side instead of
- * one import level after another. Every answer carries a strict content
- * security policy of its own: scripts, styles and requests from this origin
- * only, nothing inline, no frames, no plugins.
+ * keeps it for a year without asking again and a new build is never mixed
+ * with an old cached file. Every answer carries a strict content security
+ * policy of its own: scripts, styles and requests from this origin only,
+ * nothing inline, no frames, no plugins.
  */
 import { createHash } from 'node:crypto';
 import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
-import { dirname, join, posix, relative, sep } from 'node:path';
+import { dirname, join, relative, sep } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import fp from 'fastify-plugin';
 import type { FastifyReply } from 'fastify';
@@ -42,12 +41,10 @@ const TYPES: Record<string, string> = {
   '.svg': 'image/svg+xml; charset=utf-8',
 };
 
-/** The page's entry module, relative to the compiled modules' folder. */
-export const ENTRY_MODULE = 'js/web/src/main.js';
+/** The page's script, as web/build.mjs writes it. */
+export const ENTRY_MODULE = 'workbench.js';
 /** Where index.html names the build's folder (it is replaced when the files are loaded). */
 const BUILD_PLACEHOLDER = '{{build}}';
-/** Where index.html takes the modulepreload links of the entry's import graph. */
-const PRELOAD_PLACEHOLDER = '<!-- {{modulepreload}} -->';
 
 export interface WorkbenchAsset {
   body: Buffer;
@@ -59,12 +56,10 @@ export interface WorkbenchAsset {
 export interface WorkbenchFiles {
   /** A hash of every file: the folder the page loads them from, so a new build is never mixed with an old cached one. */
   build: string;
-  /** index.html with the build id and the module preloads filled in; null when the workbench is not built. */
+  /** index.html with the build id filled in; null when the workbench is not built. */
   page: WorkbenchAsset | null;
   /** Path under /app/<build>/ → file. */
   assets: Map<string, WorkbenchAsset>;
-  /** The modules the entry imports, directly or not, in the order the page preloads them. */
-  preloaded: string[];
 }
 
 /** Where the workbench's files are: the page and styles, and the compiled modules. */
@@ -113,43 +108,19 @@ function readTree(folder: string, prefix: string, into: Map<string, WorkbenchAss
   walk(folder);
 }
 
-/** Static imports and re-exports of a compiled module (tsc keeps them as written; type-only ones are gone). */
-const STATIC_IMPORT = /(?:^|[;\n])\s*(?:import|export)\s*(?:[^'";]*?\sfrom\s*)?['"](\.{1,2}\/[^'"]+)['"]/g;
-
-/** The modules `entry` imports, directly or through others, breadth first (the entry itself excluded). */
-export function importGraph(entry: string, assets: ReadonlyMap<string, WorkbenchAsset>): string[] {
-  const seen = new Set<string>([entry]);
-  const order: string[] = [];
-  const queue = [entry];
-  while (queue.length > 0) {
-    const current = queue.shift()!;
-    const source = assets.get(current)?.body.toString('utf8') ?? '';
-    for (const match of source.matchAll(STATIC_IMPORT)) {
-      const target = posix.normalize(posix.join(posix.dirname(current), match[1]!));
-      if (seen.has(target) || !assets.has(target)) continue;
-      seen.add(target);
-      order.push(target);
-      queue.push(target);
-    }
-  }
-  return order;
-}
-
 /** Read the workbench's files and prepare the page (exported for tests and the benchmark). */
 export function loadWorkbenchFiles(folders: WorkbenchFolders = defaultWorkbenchFolders()): WorkbenchFiles {
   const assets = new Map<string, WorkbenchAsset>();
   readTree(folders.public, '', assets);
-  readTree(folders.modules, 'js/', assets);
+  readTree(folders.modules, '', assets);
   const template = assets.get('index.html');
   assets.delete('index.html');
   const hash = createHash('sha256');
   for (const [path, file] of assets) hash.update(path).update('\0').update(file.body).update('\0');
   const build = hash.digest('base64url').slice(0, 16);
-  if (!template || !assets.has(ENTRY_MODULE)) return { build, page: null, assets, preloaded: [] };
-  const preloaded = importGraph(ENTRY_MODULE, assets);
-  const links = preloaded.map((path) => `<link rel="modulepreload" href="${build}/${path}" />`).join('\n    ');
-  const html = template.body.toString('utf8').replace(PRELOAD_PLACEHOLDER, links).split(BUILD_PLACEHOLDER).join(build);
-  return { build, page: asset(Buffer.from(html, 'utf8'), TYPES['.html']!), assets, preloaded };
+  if (!template || !assets.has(ENTRY_MODULE)) return { build, page: null, assets };
+  const html = template.body.toString('utf8').split(BUILD_PLACEHOLDER).join(build);
+  return { build, page: asset(Buffer.from(html, 'utf8'), TYPES['.html']!), assets };
 }
 
 const NOT_BUILT = `<!doctype html><html lang="en"><head><meta charset="utf-8"><title>mvledger workbench</title></head><body><main><h1>The workbench is not built</h1><p>Run <code>npm run build</code> and restart the service.</p></main></body></html>\n`;

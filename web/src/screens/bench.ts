@@ -12,7 +12,7 @@ import { num, pct, sig, span } from '../format.js';
 import type { ScreenContext } from '../main.js';
 import type { Baseline, BaselinePoints, Candidate, Exclusion, Meter, ModelName, Reading } from '../types.js';
 import { candidatesSignatureSvg, residualsSvg } from '../charts/bench-charts.js';
-import { baselineHistory, getMeter, meterHeading, stateBadge } from './common.js';
+import { baselineHistory, getMeter, meterHeading, meterPaths, stateBadge } from './common.js';
 
 const VERDICT_WORDS: Record<Candidate['verdict'], string> = {
   selected: 'selected by the engine',
@@ -280,18 +280,41 @@ function freezeControls(baseline: Baseline, hasFrozen: boolean, rerender: () => 
   );
 }
 
-async function draw(context: ScreenContext, meterId: string): Promise<void> {
-  const meter = await getMeter(meterId);
-  const history = await baselineHistory(meter.id);
-  const latest = history[0] ?? null;
-  const [baseline, points, readingsAnswer] = latest
-    ? await Promise.all([
-        fetchOrThrow<Baseline>(`/v1/baselines/${encodeURIComponent(latest.id)}`),
-        fetchOrThrow<BaselinePoints>(`/v1/baselines/${encodeURIComponent(latest.id)}/points`),
-        fetchOrThrow<{ readings: Reading[] }>(`/v1/meters/${encodeURIComponent(meter.id)}/readings`),
-      ])
-    : [null, null, await fetchOrThrow<{ readings: Reading[] }>(`/v1/meters/${encodeURIComponent(meter.id)}/readings`)];
-  const readings = readingsAnswer.readings;
+/** Everything the bench draws from. */
+export interface BenchData {
+  meter: Meter;
+  history: Baseline[];
+  readings: Reading[];
+  baseline: Baseline | null;
+  points: BaselinePoints | null;
+}
+
+/**
+ * Read what the bench draws: the meter, its readings and its baseline
+ * history side by side, and the newest baseline with its points as soon as
+ * the history names it (not after the slowest of the others). main.ts starts
+ * this beside the key check when the page opens on a bench.
+ */
+export async function loadBench(meterId: string): Promise<BenchData> {
+  const history = baselineHistory(meterId);
+  const newest = history.then(async (versions): Promise<[Baseline | null, BaselinePoints | null]> => {
+    const latest = versions[0];
+    if (!latest) return [null, null];
+    const id = encodeURIComponent(latest.id);
+    return Promise.all([fetchOrThrow<Baseline>(`/v1/baselines/${id}`), fetchOrThrow<BaselinePoints>(`/v1/baselines/${id}/points`)]);
+  });
+  const [meter, versions, readings, [baseline, points]] = await Promise.all([
+    getMeter(meterId),
+    history,
+    fetchOrThrow<{ readings: Reading[] }>(meterPaths.readings(meterId)),
+    newest,
+  ]);
+  return { meter, history: versions, readings: readings.readings, baseline, points };
+}
+
+async function draw(context: ScreenContext, meterId: string, loading?: Promise<BenchData>): Promise<void> {
+  const { meter, history, readings, baseline, points } = await (loading ?? loadBench(meterId));
+  performance.mark('workbench:bench-data');
   const rerender = () => draw(context, meterId);
   const ledger = context.can('ledger');
   const isDraft = baseline?.status === 'draft';
@@ -439,6 +462,7 @@ async function draw(context: ScreenContext, meterId: string): Promise<void> {
   requestAnimationFrame(() => requestAnimationFrame(() => performance.mark('workbench:bench-painted')));
 }
 
-export async function benchScreen(context: ScreenContext, meterId: string): Promise<void> {
-  await draw(context, meterId);
+/** The bench of a meter; `loading` is its data when main.ts started reading it early. */
+export async function benchScreen(context: ScreenContext, meterId: string, loading?: Promise<BenchData>): Promise<void> {
+  await draw(context, meterId, loading);
 }

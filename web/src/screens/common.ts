@@ -42,13 +42,20 @@ export function meterHeading(context: ScreenContext, meter: Meter, current: Mete
   );
 }
 
+/** The API paths of a meter, its baseline history and its readings (what the meter screens read first). */
+export const meterPaths = {
+  meter: (id: string) => `/v1/meters/${encodeURIComponent(id)}`,
+  history: (id: string) => `/v1/meters/${encodeURIComponent(id)}/baselines`,
+  readings: (id: string) => `/v1/meters/${encodeURIComponent(id)}/readings`,
+};
+
 export function getMeter(id: string): Promise<Meter> {
-  return fetchOrThrow<Meter>(`/v1/meters/${encodeURIComponent(id)}`);
+  return fetchOrThrow<Meter>(meterPaths.meter(id));
 }
 
 /** The meter's baselines, newest version first (summaries without the fit). */
 export async function baselineHistory(meterId: string): Promise<Baseline[]> {
-  const answer = await call<{ baselines: Baseline[] }>(`/v1/meters/${encodeURIComponent(meterId)}/baselines`);
+  const answer = await call<{ baselines: Baseline[] }>(meterPaths.history(meterId));
   return answer.ok ? answer.body.baselines : [];
 }
 
