@@ -160,6 +160,11 @@ async function start(): Promise<void> {
     return signInForm(me.status === 401 ? 'That key was not accepted: check it and paste it again.' : me.problem.detail);
   }
   const caller = me.body;
+  // Opening on a bench: draw the masthead with the bench in one layout, not a frame of its own first.
+  if (opening) await opening.data.then(
+    () => undefined,
+    () => undefined,
+  );
   const main = h('main', { id: 'main', tabindex: '-1' });
   replace(app, navigation(caller), main);
   const context: ScreenContext = {
