@@ -161,10 +161,11 @@ async function start(): Promise<void> {
   }
   const caller = me.body;
   // Opening on a bench: draw the masthead with the bench in one layout, not a frame of its own first.
-  if (opening) await opening.data.then(
-    () => undefined,
-    () => undefined,
-  );
+  if (opening)
+    await opening.data.then(
+      () => undefined,
+      () => undefined,
+    );
   const main = h('main', { id: 'main', tabindex: '-1' });
   replace(app, navigation(caller), main);
   const context: ScreenContext = {

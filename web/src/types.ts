@@ -69,8 +69,9 @@ export interface Candidate {
 }
 
 /** An engineer's exclusion of a reading from the fit. */
+/** A bill the engineer leaves out of a fit, named by its id when the API gives readings one, else by its period. */
 export interface Exclusion {
-  readingId: string;
+  readingId?: string;
   reason: string;
   start?: string;
   end?: string;

@@ -139,6 +139,18 @@ function fitForm(
             { class: 'exclusions' },
             ...exclusions.map((e) => h('li', {}, `${e.start && e.end ? span(e.start, e.end) : e.readingId}: ${e.reason}`)),
           ),
+          h(
+            'button',
+            {
+              type: 'button',
+              class: 'secondary',
+              onclick: () => {
+                pending.set(meter.id, []);
+                void rerender();
+              },
+            },
+            'Fit without exclusions',
+          ),
         );
   const form = h(
     'form',
@@ -159,7 +171,10 @@ function fitForm(
     void (async () => {
       replace(outcome, h('p', { role: 'status' }, 'Fitting…'));
       const body: Record<string, unknown> = { start: start.value, end: end.value };
-      if (exclusions.length > 0) body.exclusions = exclusions.map((e) => ({ readingId: e.readingId, reason: e.reason }));
+      if (exclusions.length > 0)
+        body.exclusions = exclusions.map((e) =>
+          e.readingId ? { readingId: e.readingId, reason: e.reason } : { start: e.start, end: e.end, reason: e.reason },
+        );
       const answer = await call<Baseline>(`/v1/meters/${encodeURIComponent(meter.id)}/baselines`, { method: 'POST', json: body });
       if (!answer.ok) return replace(outcome, problemNotice(answer.problem));
       pending.delete(meter.id);
@@ -369,9 +384,7 @@ async function draw(context: ScreenContext, meterId: string, loading?: Promise<B
   const excludeButton =
     ledger && isDraft
       ? (reading: Reading): HTMLElement | null => {
-          const id = reading.id;
-          if (!id) return null;
-          if (pendingHere.some((e) => e.readingId === id)) return h('span', {}, 'to be excluded');
+          if (pendingHere.some((e) => e.start === reading.start && e.end === reading.end)) return h('span', {}, 'to be excluded');
           const button = h(
             'button',
             { type: 'button', class: 'small', 'aria-label': `Exclude the bill ${span(reading.start, reading.end)}…` },
@@ -386,7 +399,7 @@ async function draw(context: ScreenContext, meterId: string, loading?: Promise<B
               if (!input.value.trim()) return;
               pending.set(meter.id, [
                 ...(pending.get(meter.id) ?? exclusionsOf(baseline)),
-                { readingId: id, reason: input.value.trim(), start: reading.start, end: reading.end },
+                { ...(reading.id ? { readingId: reading.id } : {}), reason: input.value.trim(), start: reading.start, end: reading.end },
               ]);
               void rerender().then(() => document.querySelector<HTMLElement>('#fit-title')?.scrollIntoView());
             });
