@@ -109,19 +109,29 @@ function meterRoute(hash: string): { id: string; screen: 'data' | 'bench' | 'sav
 /** The first screen's data when it was read beside the key check; taken by the first route() only. */
 let opening: { hash: string; data: Promise<BenchData> } | null = null;
 
+/** Which route() call is the current one: a screen still loading when the hash moves on is never shown. */
+let routeCount = 0;
+
 async function route(context: ScreenContext): Promise<void> {
+  const generation = ++routeCount;
+  const current = () => generation === routeCount;
   const hash = location.hash.replace(/^#/, '') || '/';
   const meter = meterRoute(hash);
   markCurrent();
   context.main.replaceChildren(h('p', { class: 'loading', role: 'status' }, 'Loading…'));
+  // The screen draws into a view of its own, put in place only while its route is still the current one.
+  const view = h('div', { class: 'view' });
+  const screen: ScreenContext = { ...context, main: view, title: (text) => current() && context.title(text) };
   try {
     if (meter) {
-      if (meter.screen === 'data') await meterDataScreen(context, meter.id);
-      else if (meter.screen === 'bench') await benchScreen(context, meter.id, early(location.hash));
-      else await savingsScreen(context, meter.id);
-    } else if (hash === '/reports') await reportsScreen(context);
-    else await facilitiesScreen(context);
+      if (meter.screen === 'data') await meterDataScreen(screen, meter.id);
+      else if (meter.screen === 'bench') await benchScreen(screen, meter.id, early(location.hash));
+      else await savingsScreen(screen, meter.id);
+    } else if (hash === '/reports') await reportsScreen(screen);
+    else await facilitiesScreen(screen);
+    if (current()) replace(context.main, view);
   } catch (error) {
+    if (!current()) return;
     const detail =
       error instanceof ScreenError ? `${error.problem.title}: ${error.problem.detail}` : 'something went wrong drawing this screen';
     replace(context.main, h('h1', {}, 'This screen could not be shown'), notice('error', detail));
