@@ -427,6 +427,46 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/meters/{id}/baselines/newest": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * The meter’s newest baseline version, with its fit and a fresh check of its content hash
+         * @description The same answer as GET /v1/baselines/{id} for the meter’s highest version (draft, frozen or superseded), without reading the history first. 404 when the meter has no baseline yet.
+         */
+        get: operations["getMetersByIdBaselinesNewest"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/meters/{id}/baselines/newest/points": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * The numbers behind the charts of the meter’s newest baseline version
+         * @description The same answer as GET /v1/baselines/{id}/points for the meter’s highest version, without reading the history first. 404 when the meter has no baseline yet.
+         */
+        get: operations["getMetersByIdBaselinesNewestPoints"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/meters/{id}/rates": {
         parameters: {
             query?: never;
@@ -3896,6 +3936,122 @@ export interface operations {
             };
             /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
             422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getMetersByIdBaselinesNewest: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["VerifiedBaseline"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getMetersByIdBaselinesNewestPoints: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["BaselinePoints"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
                 headers: {
                     [name: string]: unknown;
                 };

@@ -216,5 +216,38 @@ describe('/v1/me and /v1/baselines/{id}/points', () => {
     const mean = points.json.candidates.find((c: { model: string }) => c.model === '1P');
     const weighted = periods.reduce((s, p) => s + p.quantity, 0) / periods.reduce((s, p) => s + p.days, 0);
     for (const value of mean.expectedPerDay) expect(value).toBeCloseTo(weighted, 9);
+
+    // Addressed by the meter, the newest version and its points are exactly the answers by id.
+    const second = await api.call('POST', `/v1/meters/${meter.json.id}/baselines`, {
+      as: 'engineer',
+      body: { start: '2023-02-01', end: '2025-01-01' },
+    });
+    expect(second.json.version).toBe(2);
+    const byMeter = await api.call('GET', `/v1/meters/${meter.json.id}/baselines/newest`, { as: 'analyst' });
+    expect(byMeter.status).toBe(200);
+    expect(byMeter.json).toEqual((await api.call('GET', `/v1/baselines/${second.json.id}`, { as: 'analyst' })).json);
+    const newestPoints = await api.call('GET', `/v1/meters/${meter.json.id}/baselines/newest/points`, { as: 'analyst' });
+    expect(newestPoints.json).toEqual((await api.call('GET', `/v1/baselines/${second.json.id}/points`, { as: 'analyst' })).json);
+    expect(newestPoints.json.baselineId).toBe(second.json.id);
+    // Another organisation sees neither.
+    for (const path of ['newest', 'newest/points'])
+      expect((await api.call('GET', `/v1/meters/${meter.json.id}/baselines/${path}`, { as: 'other' })).status).toBe(404);
+  });
+
+  it('answers 404, saying so, for a meter with no baseline yet', async () => {
+    const station = await api.call('POST', '/v1/weather-stations', {
+      as: 'engineer',
+      body: { name: 'Second station (invented)', temperatureUnit: 'C' },
+    });
+    const facility = await api.call('POST', '/v1/facilities', { as: 'engineer', body: { name: 'Unfitted hall (invented)' } });
+    const meter = await api.call('POST', `/v1/facilities/${facility.json.id}/meters`, {
+      as: 'engineer',
+      body: { name: 'New meter (invented)', fuel: 'electricity', unit: 'kWh', weatherStationId: station.json.id },
+    });
+    for (const path of ['newest', 'newest/points']) {
+      const response = await api.call('GET', `/v1/meters/${meter.json.id}/baselines/${path}`, { as: 'analyst' });
+      expect(response.status).toBe(404);
+      expect(response.json.detail).toContain('has no baseline yet');
+    }
   });
 });

@@ -244,6 +244,10 @@ describe.skipIf(!available)('the workbench at /app', () => {
     expect(await page.locator('form.fit').count()).toBe(0);
     expect(await page.textContent('main')).toContain('need the ledger permission');
     await checkScreen(page, 'bench-analyst');
+    // On a tablet (768 px wide, portrait) the same bench reflows; still no serious violation.
+    await page.setViewportSize({ width: 768, height: 1024 });
+    await page.locator('figure[data-chart="candidates"] svg').waitFor();
+    await checkScreen(page, 'bench-analyst-tablet');
     // And the API agrees: the analyst's freeze is refused.
     const refused = await api('POST', `/v1/baselines/${meter.baselineId}/freeze`, seed.analystKey, { note: 'not allowed' });
     expect(refused.status).toBe(403);

@@ -53,7 +53,9 @@ import type {
   createBaseline,
   freezeBaseline,
   getBaseline,
+  getNewestBaseline,
   listBaselines,
+  newestBaselinePoints,
 } from '../../services/baselines/index.js';
 import type { getContract, putContract } from '../../services/contracts.js';
 import type { getNormalYear, normalYearFromStationHistory, putNormalYear } from '../../services/normal-years.js';
@@ -175,6 +177,8 @@ export type BaselineRoutes = [
   Expect<Agree<Parsed<typeof freezeBody>, Takes<typeof freezeBaseline, 2>>>,
   Expect<Agree<Gives<typeof freezeBaseline>, Answer<typeof baselineSchema>>>,
   Expect<Agree<Gives<typeof baselinePoints>, Answer<typeof baselinePointsSchema>>>,
+  Expect<Agree<Gives<typeof getNewestBaseline>, Answer<typeof verifiedBaselineSchema>>>,
+  Expect<Agree<Gives<typeof newestBaselinePoints>, Answer<typeof baselinePointsSchema>>>,
 ];
 
 export type ContractRoutes = [

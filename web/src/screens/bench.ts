@@ -6,7 +6,7 @@
  * after a confirmation that says what freezing means. Every chart has its
  * numbers in a table beside it.
  */
-import { call, fetchOrThrow, type Problem } from '../api.js';
+import { call, fetchOrThrow, ScreenError, type Problem } from '../api.js';
 import { field, h, notice, replace, svg, table } from '../dom.js';
 import { num, pct, sig, span } from '../format.js';
 import type { ScreenContext } from '../main.js';
@@ -304,27 +304,31 @@ export interface BenchData {
   points: BaselinePoints | null;
 }
 
+/** A meter's newest baseline (or its points): null when it has none yet (404), a refusal thrown. */
+async function newest<T>(path: string): Promise<T | null> {
+  const answer = await call<T>(path);
+  if (answer.ok) return answer.body;
+  if (answer.status === 404) return null;
+  throw new ScreenError(answer.problem);
+}
+
 /**
- * Read what the bench draws: the meter, its readings and its baseline
- * history side by side, and the newest baseline with its points as soon as
- * the history names it (not after the slowest of the others). main.ts starts
+ * Read what the bench draws, all in one round side by side: the meter, its
+ * readings, its baseline history, and its newest baseline with its points
+ * (addressed by the meter, so no request waits for another). main.ts starts
  * this beside the key check when the page opens on a bench.
  */
 export async function loadBench(meterId: string): Promise<BenchData> {
-  const history = baselineHistory(meterId);
-  const newest = history.then(async (versions): Promise<[Baseline | null, BaselinePoints | null]> => {
-    const latest = versions[0];
-    if (!latest) return [null, null];
-    const id = encodeURIComponent(latest.id);
-    return Promise.all([fetchOrThrow<Baseline>(`/v1/baselines/${id}`), fetchOrThrow<BaselinePoints>(`/v1/baselines/${id}/points`)]);
-  });
-  const [meter, versions, readings, [baseline, points]] = await Promise.all([
+  const [meter, history, readings, baseline, points] = await Promise.all([
     getMeter(meterId),
-    history,
+    baselineHistory(meterId),
     fetchOrThrow<{ readings: Reading[] }>(meterPaths.readings(meterId)),
-    newest,
+    newest<Baseline>(`${meterPaths.history(meterId)}/newest`),
+    newest<BaselinePoints>(`${meterPaths.history(meterId)}/newest/points`),
   ]);
-  return { meter, history: versions, readings: readings.readings, baseline, points };
+  // A fit landing between the reads could pair one version's baseline with another's points: read again.
+  if (baseline && points && baseline.id !== points.baselineId) return loadBench(meterId);
+  return { meter, history, readings: readings.readings, baseline, points };
 }
 
 async function draw(context: ScreenContext, meterId: string, loading?: Promise<BenchData>): Promise<void> {
