@@ -22,6 +22,7 @@ import { workbenchPlugin, type WorkbenchFolders } from './plugins/workbench.js';
 import { FailedAuthenticationLimit } from './plugins/failed-authentication.js';
 import { answerClientError } from './security-headers.js';
 import { routesPlugin } from './routes/index.js';
+import type { CheckpointSigner } from '../lib/checkpoint-signature.js';
 import type { RouteDeps } from './route-deps.js';
 import { Problem } from './problem.js';
 import { SavingsCache } from '../services/savings-cache.js';
@@ -46,6 +47,8 @@ export interface AppOptions {
   savingsCache?: SavingsCache;
   /** Where the /app workbench's files are (default: web/public and dist/web under the package root). */
   workbench?: WorkbenchFolders;
+  /** Signs audit checkpoints (config MVLEDGER_CHECKPOINT_KEY_FILE); absent: none are signed. */
+  checkpointSigner?: CheckpointSigner | undefined;
 }
 
 /** A request trickled in slowly holds a connection: the whole request must arrive within a minute, its headers within 15 s. */
@@ -108,6 +111,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     store: options.store,
     now: options.now ?? (() => new Date().toISOString()),
     savingsCache: options.savingsCache ?? new SavingsCache(options.savingsCacheBytes),
+    checkpointSigner: options.checkpointSigner,
   };
   // Bottom first; each plugin names what it needs (plugins/names.ts) and fastify refuses a wrong order.
   // Hooks of one kind run in this order: the request id, helmet's headers, then authentication (onRequest);

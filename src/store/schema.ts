@@ -268,6 +268,17 @@ export interface MeterDataVersionsTable {
   version: string;
 }
 
+/** A signed audit head (migrations/0010_audit_checkpoints.ts). */
+export interface AuditCheckpointsTable {
+  organisation_id: string;
+  seq: number;
+  head_hash: string;
+  signed_at: string;
+  key_id: string;
+  signature: string;
+  reason: 'interval' | 'statement' | 'request';
+}
+
 export interface Database {
   organisations: OrganisationsTable;
   api_keys: ApiKeysTable;
@@ -286,6 +297,7 @@ export interface Database {
   statements: StatementsTable;
   statement_copies: StatementCopiesTable;
   meter_data_versions: MeterDataVersionsTable;
+  audit_checkpoints: AuditCheckpointsTable;
 }
 
 export type ReadingRow = Selectable<ReadingsTable>;
