@@ -22,7 +22,7 @@ import type {
   verifiedBaselineSchema,
 } from './baselines.js';
 import type { contractSchema, putContractBody } from './contracts.js';
-import type { normalYearFromHistoryBody, normalYearSchema, putNormalYearBody } from './normal-years.js';
+import type { normalYearFromHistoryBody, normalYearSchema, normalsFormat, putNormalYearBody } from './normal-years.js';
 import type { observationsList, putObservationsBody, putObservationsResult } from './observations.js';
 import type { putRatesBody, rateScheduleSchema } from './rates.js';
 import type { dateRangeQuery, postReadingsBody, postReadingsResult, readingsList, seriesQuery } from './readings.js';
@@ -58,7 +58,12 @@ import type {
   newestBaselinePoints,
 } from '../../services/baselines/index.js';
 import type { getContract, putContract } from '../../services/contracts.js';
-import type { getNormalYear, normalYearFromStationHistory, putNormalYear } from '../../services/normal-years.js';
+import type {
+  getNormalYear,
+  normalYearFromPublishedNormals,
+  normalYearFromStationHistory,
+  putNormalYear,
+} from '../../services/normal-years.js';
 import type { listObservations, putObservations } from '../../services/observations.js';
 import type { getRates, putRates } from '../../services/rates.js';
 import type { listReadings, postReadings } from '../../services/readings.js';
@@ -193,6 +198,8 @@ export type NormalYearRoutes = [
   Expect<Agree<Parsed<typeof normalYearFromHistoryBody>, Takes<typeof normalYearFromStationHistory, 2>>>,
   Expect<Agree<Gives<typeof normalYearFromStationHistory>, Answer<typeof normalYearSchema>>>,
   Expect<Agree<Gives<typeof getNormalYear>, Answer<typeof normalYearSchema>>>,
+  Expect<Agree<z.output<typeof normalsFormat>, Takes<typeof normalYearFromPublishedNormals, 2>['format']>>,
+  Expect<Agree<Gives<typeof normalYearFromPublishedNormals>, Answer<typeof normalYearSchema>>>,
 ];
 
 export type ObservationRoutes = [
