@@ -226,6 +226,26 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/baselines/{id}/points": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * The numbers behind the charts of every fitted shape
+         * @description Each usable baseline period (dates, days, quantity, use per day, mean temperature), and for every fitted shape its line, its expected use per day of each period and each period’s energy residual: what a client needs to draw all candidates on the energy signature and their residuals against time and temperature, and to show the same numbers in a table.
+         */
+        get: operations["getBaselinesByIdPoints"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/baselines/{id}/signature.svg": {
         parameters: {
             query?: never;
@@ -326,6 +346,26 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/me": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * The calling key: its name, role and permissions
+         * @description Every role may ask. A client uses it to show only the actions the key may take; the API still checks each permission on every call.
+         */
+        get: operations["getMe"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/meters": {
         parameters: {
             query?: never;
@@ -405,6 +445,46 @@ export interface paths {
          * @description Fits every changepoint shape to the meter’s readings lying fully inside [start, end) against its station’s daily weather, selects one, and keeps the result as a draft (the next version of the meter’s baseline). 422 when too few periods are usable, with the reasons.
          */
         post: operations["postMetersByIdBaselines"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/meters/{id}/baselines/newest": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * The meter’s newest baseline version, with its fit and a fresh check of its content hash
+         * @description The same answer as GET /v1/baselines/{id} for the meter’s highest version (draft, frozen or superseded), without reading the history first. 404 when the meter has no baseline yet.
+         */
+        get: operations["getMetersByIdBaselinesNewest"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/meters/{id}/baselines/newest/points": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * The numbers behind the charts of the meter’s newest baseline version
+         * @description The same answer as GET /v1/baselines/{id}/points for the meter’s highest version, without reading the history first. 404 when the meter has no baseline yet.
+         */
+        get: operations["getMetersByIdBaselinesNewestPoints"];
+        put?: never;
+        post?: never;
         delete?: never;
         options?: never;
         head?: never;
@@ -775,6 +855,26 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/weather-stations/{id}/normal-year/from-published-normals": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Store the station’s normal year from published daily normals
+         * @description The published daily normals file as the body (NOAA daily normals CSV), read in the named format: each day’s DLY-TAVG-NORMAL, else (DLY-TMAX-NORMAL + DLY-TMIN-NORMAL)/2; −9999, an empty cell or an unusable measurement flag is missing; 02-29 left out. Converted once to the station’s unit and stored as the station’s normal year with a source that says so, all or nothing, on the audit trail. A fault in the file is a 400 naming its line and column.
+         */
+        post: operations["postWeatherStationsByIdNormalYearFromPublishedNormals"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/weather-stations/{id}/observations": {
         parameters: {
             query?: never;
@@ -1010,6 +1110,8 @@ export interface components {
             version: number;
             /** @description Notes on the choice, e.g. that the chosen shape failed screening */
             warnings: string[];
+            /** @description The baseline’s periods whose weather includes days filled on record, by method (empty when none); a frozen window’s fills cannot change */
+            weatherFills: components["schemas"]["PeriodWeatherFills"][];
         };
         BaselineHistory: {
             baselines: components["schemas"]["BaselineSummary"][];
@@ -1026,6 +1128,57 @@ export interface components {
             shortBaseline: {
                 reason: string;
             } | null;
+        };
+        /** @description The numbers behind the energy signature and residual charts of every fitted shape, for drawing and tabulating them */
+        BaselinePoints: {
+            baselineId: string;
+            candidates: {
+                /** @description The shape’s expected use per day of each period, in the order of periods */
+                expectedPerDay: (number | null)[];
+                /** @description Vertices of the shape’s line over the temperatures it saw (the daily ones for a day-resolved fit) */
+                line: {
+                    temp: number;
+                    usePerDay: number;
+                }[];
+                /**
+                 * @description A changepoint shape, named as ASHRAE Guideline 14 names it
+                 * @enum {string}
+                 */
+                model: "1P" | "2P" | "3PC" | "3PH" | "4P" | "5P";
+                /** @description Each period’s energy residual, quantity − days × expected use per day */
+                residuals: (number | null)[];
+            }[];
+            /**
+             * @description A changepoint shape, named as ASHRAE Guideline 14 names it
+             * @enum {string}
+             */
+            chosen: "1P" | "2P" | "3PC" | "3PH" | "4P" | "5P";
+            meterId: string;
+            meterName: string;
+            /** @description The usable baseline periods, by start: what every shape was fitted to */
+            periods: {
+                coverage: number;
+                days: number;
+                end: string;
+                estimated: boolean;
+                meanTemp: number;
+                quantity: number;
+                start: string;
+                usePerDay: number;
+            }[];
+            /**
+             * @description A changepoint shape, named as ASHRAE Guideline 14 names it
+             * @enum {string}
+             */
+            selected: "1P" | "2P" | "3PC" | "3PH" | "4P" | "5P";
+            /**
+             * @description How each reading’s weather enters the model: daily (day-resolved: the mean over its days of the daily response) or mean (the response at its mean temperature)
+             * @enum {string}
+             */
+            temperatureForm: "daily" | "mean";
+            /** @enum {string} */
+            temperatureUnit: "F" | "C";
+            useUnit: string;
         };
         /** @description Whether the baseline covers a full cycle of seasons (common practice: a full year of bills) */
         BaselineSufficiency: {
@@ -1096,6 +1249,24 @@ export interface components {
             version: number;
             /** @description Notes on the choice, e.g. that the chosen shape failed screening */
             warnings: string[];
+        };
+        /** @description The calling API key (never its secret), its role’s permissions and its organisation */
+        Caller: {
+            key: {
+                id: string;
+                name: string;
+                /**
+                 * @description admin: everything, keys included; engineer: read, savings, data, ledger; analyst: read, savings; integration: savings, data
+                 * @enum {string}
+                 */
+                role: "admin" | "engineer" | "analyst" | "integration";
+            };
+            organisation: {
+                id: string;
+                name: string;
+            };
+            /** @description What the role may do (every route states the one it needs); the API checks it again on every call */
+            permissions: ("read" | "savings" | "data" | "ledger" | "keys" | "approve" | "reconcile" | "self")[];
         };
         /** @description One fitted shape with its verdict and reasons */
         Candidate: {
@@ -1314,6 +1485,15 @@ export interface components {
             unchanged: number;
             updated: number;
         };
+        PeriodWeatherFills: {
+            days: number;
+            end: string;
+            interpolation: number;
+            secondStation: number;
+            start: string;
+            /** @description e.g. "3 of 31 days filled by interpolation" */
+            summary: string;
+        };
         /** @description RFC 9457 problem details */
         Problem: {
             detail: string;
@@ -1494,15 +1674,7 @@ export interface components {
                 t: number | null;
             };
             /** @description Reporting periods whose weather includes days filled on record, by method */
-            weatherFills: {
-                days: number;
-                end: string;
-                interpolation: number;
-                secondStation: number;
-                start: string;
-                /** @description e.g. "3 of 31 days filled by interpolation" */
-                summary: string;
-            }[];
+            weatherFills: components["schemas"]["PeriodWeatherFills"][];
         };
         /** @description Portfolio, facility and meter savings with costs, guarantees, adjustments, normalised savings, method, sources and caution */
         SavingsReport: {
@@ -1714,6 +1886,8 @@ export interface components {
             version: number;
             /** @description Notes on the choice, e.g. that the chosen shape failed screening */
             warnings: string[];
+            /** @description The baseline’s periods whose weather includes days filled on record, by method (empty when none); a frozen window’s fills cannot change */
+            weatherFills: components["schemas"]["PeriodWeatherFills"][];
         };
         WeatherGapFill: {
             alreadyFilled: number;
@@ -2780,6 +2954,64 @@ export interface operations {
             };
         };
     };
+    getBaselinesByIdPoints: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["BaselinePoints"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
     getBaselinesByIdSignatureSvg: {
         parameters: {
             query?: never;
@@ -3440,6 +3672,62 @@ export interface operations {
             };
         };
     };
+    getMe: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Caller"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
     getMeters: {
         parameters: {
             query?: {
@@ -3930,6 +4218,122 @@ export interface operations {
             };
             /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
             422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getMetersByIdBaselinesNewest: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["VerifiedBaseline"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getMetersByIdBaselinesNewestPoints: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["BaselinePoints"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
                 headers: {
                     [name: string]: unknown;
                 };
@@ -5899,6 +6303,116 @@ export interface operations {
                     /** @description Width of the centred moving mean that smooths the calendar-day means (odd; default 15) */
                     windowDays?: number;
                 };
+            };
+        };
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["NormalYear"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Conflicts with stored data (an overlap, a frozen baseline, a changed reading without a reason); nothing was stored */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is larger than the service accepts */
+            413: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is not of a media type this operation takes */
+            415: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    postWeatherStationsByIdNormalYearFromPublishedNormals: {
+        parameters: {
+            query: {
+                /** @description noaa-daily-normals-csv: NOAA daily climate normals, one station per file (the access CSV or the by-station archive CSV) */
+                format: "noaa-daily-normals-csv";
+                /** @description The archive’s station id every row must carry (the GHCN-Daily id of the normals file) */
+                station?: string;
+                /** @description The unit of the file’s values (default F, as the published files are) */
+                fileUnit?: "F" | "C";
+            };
+            header?: {
+                /** @description Replays return the first response; a different request with the same key is refused (422). */
+                "idempotency-key"?: string;
+            };
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        /** @description The published daily normals file itself, as text (Content-Type text/plain or text/csv). */
+        requestBody: {
+            content: {
+                "text/csv": string;
+                "text/plain": string;
             };
         };
         responses: {

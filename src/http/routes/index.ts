@@ -21,6 +21,7 @@ import { weatherImportsRoutes } from './weather-imports.js';
 import { weatherGapsRoutes } from './weather-gaps.js';
 import { reportsRoutes } from './reports.js';
 import { statementsRoutes } from './statements.js';
+import { meRoutes } from './me.js';
 import type { ApiApp } from './types.js';
 
 function registerRoutes(app: ApiApp, deps: RouteDeps): void {
@@ -42,6 +43,7 @@ function registerRoutes(app: ApiApp, deps: RouteDeps): void {
   statementsRoutes(app, deps);
   auditRoutes(app, deps);
   apiKeysRoutes(app, deps);
+  meRoutes(app, deps);
 }
 
 /**

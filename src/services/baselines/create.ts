@@ -22,6 +22,7 @@ import { getMeterRow } from '../meters.js';
 import { loadDailyWeather, loadReadings, stationUnit } from '../meter-data.js';
 import type { Baseline, BaselineFitOptions, BaselineInputs } from './types.js';
 import { viewOf } from './views.js';
+import { baselineWeatherFills } from './fills.js';
 
 function describeReading(reading: { start: string; end: string }): string {
   return `reading ${reading.start}..${reading.end}`;
@@ -130,6 +131,6 @@ export async function createBaseline(
     const baseline = viewOf(row);
     const { fit: _fit, ...summary } = baseline;
     await audit(trx, ctx, { action: 'create', entityType: 'baseline', entityId: row.id, after: summary });
-    return baseline;
+    return { ...baseline, weatherFills: await baselineWeatherFills(trx, row) };
   });
 }
