@@ -24,6 +24,8 @@ describe('loadConfig', () => {
       requestTimeoutMs: 60_000,
       headersTimeoutMs: 15_000,
       savingsCacheBytes: 32 * 1024 * 1024,
+      checkpointSigner: undefined,
+      checkpointIntervalSeconds: 3600,
     });
   });
 
@@ -40,6 +42,7 @@ describe('loadConfig', () => {
       REQUEST_TIMEOUT_MS: '20000',
       HEADERS_TIMEOUT_MS: '5000',
       SAVINGS_CACHE_MB: '0',
+      CHECKPOINT_INTERVAL_SECONDS: '0',
     });
     expect(config).toEqual({
       port: 9001,
@@ -54,6 +57,8 @@ describe('loadConfig', () => {
       requestTimeoutMs: 20_000,
       headersTimeoutMs: 5_000,
       savingsCacheBytes: 0,
+      checkpointSigner: undefined, // the key variables: test/http/audit-checkpoints.test.ts
+      checkpointIntervalSeconds: 0,
     });
   });
 
