@@ -33,6 +33,8 @@ export interface CommonOptions {
 
 export interface FitOptions extends CommonOptions {
   readings: string;
+  /** CSV of baseline readings to leave out (start, end, reason); null for none. */
+  exclusions: string | null;
 }
 
 export interface SavingsCommandOptions extends CommonOptions {
@@ -60,7 +62,7 @@ const COMMON_SPEC = {
   help: { type: 'boolean', short: 'h' },
 } as const;
 
-const FIT_SPEC = { ...COMMON_SPEC, readings: { type: 'string' } } as const;
+const FIT_SPEC = { ...COMMON_SPEC, readings: { type: 'string' }, exclusions: { type: 'string' } } as const;
 
 const SAVINGS_SPEC = {
   ...COMMON_SPEC,
@@ -77,7 +79,12 @@ type Values = Record<string, string | boolean | undefined>;
 export function parseFitOptions(args: readonly string[]): Parsed<FitOptions> {
   const values = parseStrict(args, FIT_SPEC);
   if (values.help) return { help: true };
-  return { help: false, readings: requireFile(values, 'readings'), ...commonOptions(values) };
+  return {
+    help: false,
+    readings: requireFile(values, 'readings'),
+    exclusions: typeof values.exclusions === 'string' ? requireFile(values, 'exclusions') : null,
+    ...commonOptions(values),
+  };
 }
 
 export function parseSavingsOptions(args: readonly string[]): Parsed<SavingsCommandOptions> {

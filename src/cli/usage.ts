@@ -19,6 +19,9 @@ Fit the ${MODEL_NAMES.join(', ')} shapes to baseline readings and choose one.
 
   --readings FILE     baseline readings CSV: start,end,quantity[,estimated]
                       (a reading covers [start, end); other columns are ignored)
+  --exclusions FILE   baseline readings to leave out, CSV: start,end,reason
+                      (each reason is kept in the fit document; more than a
+                      fifth of the readings is refused)
 ${COMMON_OPTIONS}
 `;
 

@@ -401,6 +401,7 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     temperatureForm: baseline.temperatureForm,
     sufficiency: { sufficient: model.sufficiency.sufficient, reasons: model.sufficiency.reasons },
     overrides: model.overrides,
+    exclusions: model.exclusions.map((e) => ({ start: e.start, end: e.end, reason: e.reason })),
   };
   // A stored adjustment that cannot be applied (brought in behind the API's back) is named, not blamed on the weather.
   const broken = ctx.adjustments.map(checkAdjustment).find((error) => error !== null);

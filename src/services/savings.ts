@@ -30,6 +30,7 @@ import {
   type ShapeFit,
   filledDaysByPeriod,
   type PeriodFills,
+  type AppliedExclusion,
 } from '../engine/index.js';
 import { DomainError } from '../domain/errors.js';
 import { BoundedCache } from '../lib/bounded-cache.js';
@@ -67,6 +68,8 @@ export interface FrozenModel {
   temperatureUnit: TemperatureUnit;
   limits: Guideline14Limits;
   excluded: ExcludedPeriod[];
+  /** Baseline readings the engineer left out, each with its reason (frozen in the fit document). */
+  exclusions: AppliedExclusion[];
   minCoverage: number;
   /** Whether the baseline covers a full cycle of seasons. */
   sufficiency: BaselineSufficiency;
@@ -102,6 +105,7 @@ export async function frozenModel(db: Executor, baselineId: string, contentHash:
     temperatureUnit: inputs.temperatureUnit,
     limits: document.settings.guideline14,
     excluded: document.periods.excluded,
+    exclusions: document.exclusions ?? [],
     minCoverage,
     sufficiency: baselineSufficiency(baselinePeriods),
     overrides: overridesOf(row),

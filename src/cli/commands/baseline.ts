@@ -1,13 +1,19 @@
 /** The baseline analysis both commands start from, with too-few-periods turned into an input error. */
-import { analyseBaseline, TooFewPeriodsError, type BaselineAnalysis } from '../../engine/index.js';
+import { analyseBaseline, TooFewPeriodsError, type BaselineAnalysis, type Exclusion } from '../../engine/index.js';
 import type { CommonOptions } from '../options.js';
 import type { ReadingsFile } from '../input/readings-file.js';
 import type { WeatherFile } from '../input/weather-file.js';
 import { explainTooFewPeriods } from './too-few-periods.js';
 
-export function fitBaseline(readings: ReadingsFile, weather: WeatherFile, options: CommonOptions): BaselineAnalysis {
+export function fitBaseline(
+  readings: ReadingsFile,
+  weather: WeatherFile,
+  options: CommonOptions,
+  exclusions: readonly Exclusion[] = [],
+): BaselineAnalysis {
   try {
     return analyseBaseline(readings.readings, weather.weather, {
+      exclusions,
       minCoverage: options.minCoverage,
       significanceLevel: options.significanceLevel,
       minPointsPerSegment: options.minPointsPerSegment,

@@ -46,11 +46,31 @@ export const baselineOptions = z
   })
   .strict();
 
+export const exclusionInput = z
+  .object({
+    readingId: z.string().min(1).max(100).optional().describe('The reading’s id, as the readings API returns it'),
+    start: isoDate.optional().describe('Or the reading’s period: its first day …'),
+    end: isoDate.optional().describe('… and the day after it (end exclusive)'),
+    reason: text(2000).describe('Why the reading is left out (kept with the baseline, frozen with it and shown in reports)'),
+  })
+  .strict()
+  .refine((e) => e.readingId !== undefined || (e.start !== undefined && e.end !== undefined), {
+    message: 'name the reading by readingId or by start and end',
+  })
+  .describe('A baseline reading the engineer leaves out of the fit, and why');
+
 export const createBaselineBody = z
   .object({
     start: isoDate.describe('First day of the baseline'),
     end: isoDate.describe('Day after the baseline (end exclusive)'),
     options: baselineOptions.optional(),
+    exclusions: z
+      .array(exclusionInput)
+      .max(1000)
+      .optional()
+      .describe(
+        'Readings inside the window to leave out of the fit, each with its reason; more than a fifth of the window’s readings is refused (422)',
+      ),
   })
   .strict()
   .refine((body) => body.end > body.start, { path: ['end'], message: 'must be after start' });
@@ -179,6 +199,25 @@ const candidateSchema = z
   })
   .meta({ id: 'Candidate', description: 'One fitted shape with its verdict and reasons' });
 
+export const exclusionSchema = z
+  .object({
+    readingId: z.string().optional(),
+    start: z.string(),
+    end: z.string(),
+    quantity: z.number(),
+    reason: z.string(),
+  })
+  .meta({ id: 'Exclusion', description: 'A reading the engineer left out of the baseline, and why' });
+
+const variableDecisionSchema = z.object({
+  name: z.string(),
+  verdict: z.enum(['kept', 'dropped', 'forced-in', 'forced-out']),
+  reasons: z.array(z.string()),
+  tStat: stat.optional(),
+  partialF: stat.optional(),
+  pValue: stat.optional(),
+});
+
 export const fitDocumentSchema = z
   .object({
     selected: modelName,
@@ -192,6 +231,12 @@ export const fitDocumentSchema = z
       minCoverage: z.number(),
       temperatureForm,
     }),
+    exclusions: z
+      .array(exclusionSchema)
+      .optional()
+      .describe('Readings the engineer left out, each with its reason (apart from periods.excluded, left out for weather coverage)'),
+    variables: z.array(z.string()).optional().describe('Independent variables in the selected model'),
+    variableDecisions: z.array(variableDecisionSchema).optional().describe('Each candidate variable’s decision and reasons'),
   })
   .meta({
     id: 'FitDocument',
@@ -225,6 +270,9 @@ const baselineFields = {
   supersedeReason: z.string().nullable(),
   createdAt: z.string(),
   createdBy: z.string(),
+  exclusions: z
+    .array(exclusionSchema)
+    .describe('Readings the engineer left out of this baseline, each with its reason (frozen with it); empty when none'),
 };
 
 export const baselineSummarySchema = z

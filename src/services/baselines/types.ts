@@ -1,5 +1,6 @@
 /** What the baseline service takes and answers: fit options, freeze input, the stored inputs, the views. */
 import type {
+  AppliedExclusion,
   BaselineSufficiency,
   DailyTemperature,
   FitDocument,
@@ -61,6 +62,16 @@ export interface BaselineSummary {
   supersedeReason: string | null;
   createdAt: string;
   createdBy: string;
+  /** Readings the engineer left out, each with its reason (from the fit document, so frozen with it). */
+  exclusions: AppliedExclusion[];
+}
+
+/** An exclusion as the API takes it: the reading by id or by its period, and the reason. */
+export interface ExclusionRequest {
+  readingId?: string;
+  start?: string;
+  end?: string;
+  reason: string;
 }
 
 export interface Baseline extends BaselineSummary {

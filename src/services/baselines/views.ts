@@ -77,6 +77,7 @@ function summaryOf(row: BaselineRow, document: FitDocument): BaselineSummary {
     supersedeReason: row.supersede_reason,
     createdAt: row.created_at,
     createdBy: row.created_by,
+    exclusions: document.exclusions ?? [],
   };
 }
 
