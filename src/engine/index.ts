@@ -195,3 +195,4 @@ export * from './weather-gaps.js';
 export * from './filled-days.js';
 export * from './station-record.js';
 export * from './normal-year-history.js';
+export * from './variables.js';
