@@ -6,6 +6,7 @@
  */
 import {
   TooFewPeriodsError,
+  MissingVariableValuesError,
   checkAdjustment,
   contractYearsOverlapping,
   describeDateRanges,
@@ -28,6 +29,7 @@ import {
   type SavingsDocument,
   type TemperatureUnit,
 } from '../engine/index.js';
+import { seriesOf } from './variables.js';
 import { DomainError, summarise } from '../domain/errors.js';
 import { assembleReport, type FacilityInput } from '../reports/assemble.js';
 import type { Rollup } from '../reports/totals.js';
@@ -415,7 +417,9 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
   if (readings.length === 0)
     return missingMeterReport(identity, baselineInfo, `no reporting readings in ${window.from}..${window.to}`, overlapping);
   const weather = await loadWeatherFor(db, meter.weather_station_id, readings);
-  const aligned = alignPeriods(readings, weather, { minCoverage: model.minCoverage });
+  const lastEnd = readings.reduce((end, r) => (r.end > end ? r.end : end), readings[0]!.end);
+  const variableSeries = await seriesOf(db, model.variables, { from: readings[0]!.start, to: lastEnd });
+  const aligned = alignPeriods(readings, weather, { minCoverage: model.minCoverage, variableSeries });
   let savings: SavingsDocument;
   try {
     savings = savingsFromAligned(model.fit, { limits: model.limits, excluded: model.excluded }, aligned, {
@@ -423,6 +427,7 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
       adjustments: ctx.adjustments,
     });
   } catch (error) {
+    if (error instanceof MissingVariableValuesError) return missingMeterReport(identity, baselineInfo, error.message, overlapping);
     if (!(error instanceof TooFewPeriodsError)) throw error;
     // Name the real cause: the dates without weather at the meter's station.
     const missingDates = describeDateRanges(missingWeatherDates(readings, weather));
@@ -451,7 +456,6 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
   const normalised = ctx.normalYear
     ? normalisedSavings(model.fit, readings, weather, ctx.normalYear.temps, { minCoverage: model.minCoverage, confidence })
     : { available: false as const, reason: 'the weather station has no normal year (PUT /v1/weather-stations/{id}/normal-year)' };
-  const lastEnd = readings.reduce((end, r) => (r.end > end ? r.end : end), readings[0]!.end);
   const filled = await loadFilledDays(db, meter.weather_station_id, readings[0]!.start, lastEnd);
   const report = meterReport({
     meter: identity,

@@ -18,6 +18,8 @@ export async function migrateToLatest(db: Kysely<any>): Promise<string[]> {
     provider,
     migrationTableName: 'schema_migrations',
     migrationLockTableName: 'schema_migrations_lock',
+    // Numbers are handed out to work in progress, so a migration can land after a later-numbered one (0006 after 0008): each is independent of the ones numbered after it.
+    allowUnorderedMigrations: true,
     ...(schema ? { migrationTableSchema: schema } : {}),
   });
   // On SQLite the migrator has no lock between processes: two processes

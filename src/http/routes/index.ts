@@ -21,6 +21,7 @@ import { weatherImportsRoutes } from './weather-imports.js';
 import { weatherGapsRoutes } from './weather-gaps.js';
 import { reportsRoutes } from './reports.js';
 import { statementsRoutes } from './statements.js';
+import { variablesRoutes } from './variables.js';
 import type { ApiApp } from './types.js';
 
 function registerRoutes(app: ApiApp, deps: RouteDeps): void {
@@ -29,6 +30,7 @@ function registerRoutes(app: ApiApp, deps: RouteDeps): void {
   facilitiesRoutes(app, deps);
   metersRoutes(app, deps);
   readingsRoutes(app, deps);
+  variablesRoutes(app, deps);
   observationsRoutes(app, deps);
   weatherImportsRoutes(app, deps);
   weatherGapsRoutes(app, deps);

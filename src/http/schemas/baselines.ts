@@ -1,7 +1,7 @@
 /** Baselines: request bodies and the fit document as the API returns it. */
 import { z } from 'zod';
 import { MAX_POINTS_PER_SEGMENT, MODEL_NAMES, TEMPERATURE_FORMS } from '../../engine/index.js';
-import { isoDate, plainText, pageFields } from './common.js';
+import { isoDate, name, plainText, pageFields } from './common.js';
 
 /** A statistic: JSON has no NaN or Infinity, so a non-finite value is sent as null. */
 export const stat = z.number().nullable();
@@ -13,6 +13,9 @@ export const temperatureForm = z
   .describe(
     'How each reading’s weather enters the model: daily (day-resolved: the mean over its days of the daily response) or mean (the response at its mean temperature)',
   );
+
+/** Most variables one fit may be offered: each adds a column and a parameter (our own limit). */
+export const MAX_FIT_VARIABLES = 10;
 
 const text = (max: number) => plainText().trim().min(1, 'must not be empty').max(max, `must be at most ${max} characters`);
 
@@ -43,6 +46,26 @@ export const baselineOptions = z
       .describe(
         'How each reading’s weather enters the fit: daily (day-resolved: each bill against the mean over its days of the daily response, the variable-base degree-day method) or mean (the response at its mean temperature). Default: daily wherever daily weather covers the readings. A frozen baseline keeps its form.',
       ),
+    variables: z
+      .array(name)
+      .max(MAX_FIT_VARIABLES, `at most ${MAX_FIT_VARIABLES} variables`)
+      .optional()
+      .describe(
+        'Stored variables (POST /v1/facilities/{id}/variables) the fit may carry beside the weather, by name: the meter’s own, else its facility’s. Each must earn its place by its t-test and the partial F-test; every baseline period needs its values (422 naming the dates otherwise).',
+      ),
+    variableOverrides: z
+      .array(
+        z
+          .object({
+            name,
+            include: z.boolean().describe('true: kept whatever the tests say; false: left out'),
+            reason: text(2000).describe('Why (kept with the baseline)'),
+          })
+          .strict(),
+      )
+      .max(MAX_FIT_VARIABLES, `at most ${MAX_FIT_VARIABLES} decisions`)
+      .optional()
+      .describe('The engineer’s decisions on variables, each with its reason on record'),
   })
   .strict();
 

@@ -16,6 +16,7 @@ import {
   type ModelName,
   type Reading,
   type ShapeFit,
+  type VariableSeries,
 } from '../../engine/index.js';
 import { toStoredJson } from '../../store/baseline-content.js';
 import { newId } from '../../store/ids.js';
@@ -27,6 +28,7 @@ import { loadDailyWeather, loadReadings, stationUnit } from '../meter-data.js';
 import type { Baseline, BaselineFitOptions, BaselineInputs, ExclusionRequest } from './types.js';
 import type { Executor } from '../../store/executor.js';
 import { readingId } from '../readings.js';
+import { variableSeriesForMeter } from '../variables.js';
 import { viewOf } from './views.js';
 
 function describeReading(reading: { start: string; end: string }): string {
@@ -41,6 +43,7 @@ function analyseWindow(
   weather: readonly DailyTemperature[],
   options: BaselineFitOptions,
   exclusions: readonly Exclusion[] = [],
+  variableSeries: readonly VariableSeries[] = [],
 ): BaselineAnalysis {
   const span = `${window.start}..${window.end} (end exclusive)`;
   if (readings.length === 0) {
@@ -62,7 +65,7 @@ function analyseWindow(
     throw new DomainError('unprocessable', `options.significanceLevel: ${message}`, [{ field: 'options.significanceLevel', message }]);
   }
   try {
-    return analyseBaseline(readings, weather, { ...rest, temperatureForm: temperature, exclusions });
+    return analyseBaseline(readings, weather, { ...rest, temperatureForm: temperature, exclusions, variableSeries });
   } catch (error) {
     if (error instanceof ExclusionError || error instanceof VariableChoiceError) {
       throw new DomainError('unprocessable', error.message, [{ field: error.field, message: error.message }]);
@@ -144,13 +147,15 @@ export async function createBaseline(
   const readings = await loadReadings(db, meter.id, { startOnOrAfter: input.start, endOnOrBefore: input.end });
   const weather = await loadDailyWeather(db, meter.weather_station_id, input.start, input.end);
   const exclusions = await resolveExclusions(db, meter.id, input, input.exclusions ?? []);
-  const analysis = analyseWindow(meterId, input, readings, weather, options, exclusions);
+  const offered = [...new Set([...(options.variables ?? []), ...(options.variableOverrides ?? []).map((o) => o.name)])];
+  const { series } = await variableSeriesForMeter(db, meter, offered, { from: input.start, to: input.end });
+  const analysis = analyseWindow(meterId, input, readings, weather, options, exclusions, series);
 
   const fits: Partial<Record<ModelName, ShapeFit>> = {};
   for (const candidate of analysis.choice.candidates) if (candidate.fit) fits[candidate.model] = candidate.fit;
   // What the fit saw: the readings the engineer left out stay out of the stored inputs (they are recorded in the document's exclusions).
   const kept = readings.filter((r) => !exclusions.some((e) => e.start === r.start && e.end === r.end));
-  const inputs: BaselineInputs = { readings: kept, weather, temperatureUnit };
+  const inputs: BaselineInputs = { readings: kept, weather, temperatureUnit, ...(series.length > 0 ? { variables: series } : {}) };
 
   return inTransaction(ctx, async (trx) => {
     const last = await trx

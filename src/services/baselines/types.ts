@@ -9,6 +9,7 @@ import type {
   Reading,
   TemperatureForm,
   TemperatureUnit,
+  VariableSeries,
 } from '../../engine/index.js';
 import type { BaselineStatus } from '../../store/schema.js';
 
@@ -19,6 +20,10 @@ export interface BaselineFitOptions {
   allowSameSignFourPoint?: boolean;
   /** How each reading's weather enters the fit; default: day-resolved wherever daily weather covers the readings. */
   temperature?: TemperatureForm;
+  /** Stored variables (by name: the meter's own, else its facility's) the fit may carry; each must earn its place. */
+  variables?: string[];
+  /** The engineer's decisions on variables: forced in or out, each with its reason on record. */
+  variableOverrides?: { name: string; include: boolean; reason: string }[];
 }
 
 /** What was allowed when the baseline was frozen, each with the reason given; null where nothing was. */
@@ -35,6 +40,14 @@ export interface BaselineInputs {
   readings: Reading[];
   weather: DailyTemperature[];
   temperatureUnit: TemperatureUnit;
+  /** The stored variables the fit was offered, with their values in the window (absent for a weather-only fit). */
+  variables?: StoredVariableSeries[];
+}
+
+/** A stored variable's values as a fit saw them: its id and unit beside the engine's series. */
+export interface StoredVariableSeries extends VariableSeries {
+  id: string;
+  unit: string;
 }
 
 export interface BaselineSummary {

@@ -41,7 +41,10 @@ export function storedBaselinePeriods(row: Pick<BaselineRow, 'inputs_json' | 'op
   if (!Array.isArray(inputs.readings) || !Array.isArray(inputs.weather)) return null;
   const options = fromStoredJson<BaselineFitOptions>(row.options_json);
   const document = fromStoredJson<Partial<FitDocument>>(row.document_json);
-  return alignPeriods(inputs.readings, inputs.weather, { minCoverage: options.minCoverage ?? document.settings?.minCoverage }).periods;
+  return alignPeriods(inputs.readings, inputs.weather, {
+    minCoverage: options.minCoverage ?? document.settings?.minCoverage,
+    variableSeries: inputs.variables ?? [],
+  }).periods;
 }
 
 export function overridesOf(row: Pick<BaselineRow, 'short_baseline_override' | 'extrapolation_override'>): BaselineOverrides {
