@@ -12,16 +12,13 @@ import { newId } from '../store/ids.js';
 import type { MeterRow, VariableRow } from '../store/schema.js';
 import { bumpMeterVersions } from '../store/data-versions.js';
 import { DomainError, fieldErrors, notFound, summarise, MAX_LISTED_ERRORS, type FieldError } from '../domain/errors.js';
-import { MAX_RECORDS_PER_BATCH } from '../domain/limits.js';
+import { MAX_RECORDS_PER_BATCH, MAX_VARIABLE_MAGNITUDE } from '../domain/limits.js';
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
 import { getFacilityRow } from './facilities.js';
 import { getMeterRow } from './meters.js';
 import { assertOutsideFrozenWindows, PROTECTING_STATUSES, type FrozenWindow } from './frozen-windows.js';
 import { decodeCursor, oldestFirstPage, pageOf, PAGE_SIZES, type PageInfo, type PageRequest } from './paging.js';
 import { checkDateRange, jsonLocator, type DateRange, type RecordLocator } from './readings.js';
-
-/** Largest magnitude of a variable's value: far beyond any count, share or production figure, well inside double precision. */
-export const MAX_VARIABLE_MAGNITUDE = 1e12;
 
 export interface VariableInput {
   name: string;

@@ -1,8 +1,7 @@
 import { z } from 'zod';
 import type { VariableAggregation, VariableKind } from '../../engine/index.js';
 import { finite, isoDate, name, pageFields, plainText } from './common.js';
-import { MAX_RECORDS_PER_BATCH } from '../../domain/limits.js';
-import { MAX_VARIABLE_MAGNITUDE } from '../../services/variables.js';
+import { MAX_RECORDS_PER_BATCH, MAX_VARIABLE_MAGNITUDE } from '../../domain/limits.js';
 
 const variableKind = z.enum(['daily', 'per-period'] as const satisfies readonly VariableKind[]);
 const variableAggregation = z.enum(['mean', 'total'] as const satisfies readonly VariableAggregation[]);
