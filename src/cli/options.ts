@@ -29,6 +29,8 @@ export interface CommonOptions {
   minPointsPerSegment: number;
   /** How each reading's weather enters the fit; null: the engine's default (day-resolved wherever the days' weather is known). */
   temperatureForm: TemperatureForm | null;
+  /** CSV of independent variables (a date or start,end column, one column per variable) offered to the fit; null for none. */
+  variables: string | null;
 }
 
 export interface FitOptions extends CommonOptions {
@@ -53,6 +55,7 @@ export type Parsed<T> = { help: true } | ({ help: false } & T);
 
 const COMMON_SPEC = {
   weather: { type: 'string' },
+  variables: { type: 'string' },
   json: { type: 'boolean' },
   unit: { type: 'string' },
   coverage: { type: 'string' },
@@ -131,6 +134,7 @@ function commonOptions(values: Values): CommonOptions {
       `a whole number from 1 to ${MAX_POINTS_PER_SEGMENT}`,
     ),
     temperatureForm: temperatureOption(values.temperature),
+    variables: typeof values.variables === 'string' ? requireFile(values, 'variables') : null,
   };
 }
 

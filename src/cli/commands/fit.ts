@@ -7,6 +7,7 @@ import { toJsonDocument } from '../format/json.js';
 import { renderFitReport } from '../format/fit-report.js';
 import { fitBaseline, lineLookup } from './baseline.js';
 import { checkExclusions, loadExclusions } from '../input/exclusions-file.js';
+import { loadVariables } from '../input/variables-file.js';
 
 /** The command's whole stdout text; throws on bad input so nothing is printed halfway. */
 export async function runFit(options: FitOptions): Promise<string> {
@@ -14,7 +15,8 @@ export async function runFit(options: FitOptions): Promise<string> {
   const weather = await loadWeather(options.weather, options.unit);
   const exclusions = options.exclusions === null ? null : await loadExclusions(options.exclusions);
   if (exclusions) checkExclusions(exclusions, readings.readings);
-  const analysis = fitBaseline(readings, weather, options, exclusions?.exclusions ?? []);
+  const variables = options.variables === null ? null : await loadVariables(options.variables);
+  const analysis = fitBaseline(readings, weather, options, exclusions?.exclusions ?? [], variables);
   if (options.json) return toJsonDocument(analysis.document);
   return renderFitReport(analysis.document, {
     readingsFile: readings.file,
