@@ -196,3 +196,4 @@ export * from './filled-days.js';
 export * from './station-record.js';
 export * from './normal-year-history.js';
 export * from './variables.js';
+export * from './calendar.js';
