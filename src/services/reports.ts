@@ -29,7 +29,7 @@ import {
   type SavingsDocument,
   type TemperatureUnit,
 } from '../engine/index.js';
-import { seriesOf } from './variables.js';
+import { reportingSeries } from './variables.js';
 import { DomainError, summarise } from '../domain/errors.js';
 import { assembleReport, type FacilityInput } from '../reports/assemble.js';
 import type { Rollup } from '../reports/totals.js';
@@ -418,7 +418,7 @@ async function meterInWindow(db: Executor, ctx: MeterContext, window: DateWindow
     return missingMeterReport(identity, baselineInfo, `no reporting readings in ${window.from}..${window.to}`, overlapping);
   const weather = await loadWeatherFor(db, meter.weather_station_id, readings);
   const lastEnd = readings.reduce((end, r) => (r.end > end ? r.end : end), readings[0]!.end);
-  const variableSeries = await seriesOf(db, model.variables, { from: readings[0]!.start, to: lastEnd });
+  const variableSeries = await reportingSeries(db, model.variables, { from: readings[0]!.start, to: lastEnd });
   const aligned = alignPeriods(readings, weather, { minCoverage: model.minCoverage, variableSeries });
   let savings: SavingsDocument;
   try {

@@ -44,7 +44,7 @@ import type { Executor } from './context.js';
 import { getMeterRow } from './meters.js';
 import { loadFilledDays } from './weather-gaps.js';
 import { loadReadings, loadWeatherFor } from './meter-data.js';
-import { seriesOf } from './variables.js';
+import { reportingSeries } from './variables.js';
 import { adjustmentProblem, toAdjustment, toEngineAdjustment, type Adjustment } from './adjustments.js';
 
 export interface SavingsQuery {
@@ -79,7 +79,7 @@ export interface FrozenModel {
   /** What was allowed when it was frozen (kept under its content hash). */
   overrides: ProjectionOverrides;
   /** The stored variables the chosen fit carries (ids fixed when it was fitted), in its order; empty for a weather-only fit. */
-  variables: { id: string; name: string; unit: string; aggregation: VariableAggregation }[];
+  variables: { id: string; name: string; unit: string; aggregation: VariableAggregation; source?: 'calendar' }[];
 }
 
 /** Parsed frozen models, by baseline id and content hash (a frozen row never changes). */
@@ -108,7 +108,13 @@ export async function frozenModel(db: Executor, baselineId: string, contentHash:
     const stored = inputs.variables?.find((v) => v.name === name);
     if (!stored)
       throw new DomainError('unprocessable', `baseline ${baselineId}: its fit carries the variable "${name}" but its inputs do not`);
-    return { id: stored.id, name: stored.name, unit: stored.unit, aggregation: stored.aggregation };
+    return {
+      id: stored.id,
+      name: stored.name,
+      unit: stored.unit,
+      aggregation: stored.aggregation,
+      ...(stored.source ? { source: stored.source } : {}),
+    };
   });
   const model: FrozenModel = {
     fit,
@@ -174,7 +180,7 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
     .where('period_end', '>', readings[0]!.start)
     .orderBy('period_start')
     .execute();
-  const variableSeries = await seriesOf(db, model.variables, { from: readings[0]!.start, to: last });
+  const variableSeries = await reportingSeries(db, model.variables, { from: readings[0]!.start, to: last });
   const options = {
     confidence: query.confidence,
     minCoverage: model.minCoverage,

@@ -18,6 +18,7 @@ import { getFacilityRow } from './facilities.js';
 import { getMeterRow } from './meters.js';
 import { assertOutsideFrozenWindows, PROTECTING_STATUSES, type FrozenWindow } from './frozen-windows.js';
 import { decodeCursor, oldestFirstPage, pageOf, PAGE_SIZES, type PageInfo, type PageRequest } from './paging.js';
+import { calendarSeries } from './calendars.js';
 import { checkDateRange, jsonLocator, type DateRange, type RecordLocator } from './readings.js';
 
 export interface VariableInput {
@@ -430,4 +431,27 @@ export async function seriesOf(
     });
   }
   return series;
+}
+
+/**
+ * A frozen model's variables over [from, to): stored variables' values by
+ * their ids, day-type indicators from the facility calendar as it stands.
+ */
+export async function reportingSeries(
+  db: Executor,
+  variables: readonly { id: string; name: string; unit: string; aggregation: VariableAggregation; source?: 'calendar' }[],
+  window: { from: string; to: string },
+): Promise<VariableSeries[]> {
+  const stored = await seriesOf(
+    db,
+    variables.filter((v) => v.source !== 'calendar'),
+    window,
+  );
+  const calendarFacilities = [...new Set(variables.filter((v) => v.source === 'calendar').map((v) => v.id))];
+  const days: VariableSeries[] = [];
+  for (const facilityId of calendarFacilities) {
+    const all = await calendarSeries(db, facilityId, window, 'calendar');
+    days.push(...all.filter((s) => variables.some((v) => v.source === 'calendar' && v.name === s.name)));
+  }
+  return [...stored, ...days];
 }

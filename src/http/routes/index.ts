@@ -22,6 +22,7 @@ import { weatherGapsRoutes } from './weather-gaps.js';
 import { reportsRoutes } from './reports.js';
 import { statementsRoutes } from './statements.js';
 import { variablesRoutes } from './variables.js';
+import { calendarsRoutes } from './calendars.js';
 import type { ApiApp } from './types.js';
 
 function registerRoutes(app: ApiApp, deps: RouteDeps): void {
@@ -31,6 +32,7 @@ function registerRoutes(app: ApiApp, deps: RouteDeps): void {
   metersRoutes(app, deps);
   readingsRoutes(app, deps);
   variablesRoutes(app, deps);
+  calendarsRoutes(app, deps);
   observationsRoutes(app, deps);
   weatherImportsRoutes(app, deps);
   weatherGapsRoutes(app, deps);

@@ -66,6 +66,12 @@ export const baselineOptions = z
       .max(MAX_FIT_VARIABLES, `at most ${MAX_FIT_VARIABLES} decisions`)
       .optional()
       .describe('The engineer’s decisions on variables, each with its reason on record'),
+    dayTypes: z
+      .boolean()
+      .optional()
+      .describe(
+        'Offer the facility calendar’s day types (PUT /v1/facilities/{id}/calendar) as indicator variables named "day type: NAME", every type but the first: one shared set of changepoints and slopes with a shift of the use per day for each day type (daily readings), or for bills the share of their days of each type. Each must earn its place like any variable.',
+      ),
   })
   .strict();
 

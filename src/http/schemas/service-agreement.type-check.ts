@@ -46,6 +46,8 @@ import type {
   variableSchema,
   variableValuesList,
 } from './variables.js';
+import type { calendarSchema, putCalendarBody } from './calendars.js';
+import type { getCalendar, putCalendar } from '../../services/calendars.js';
 import type { createVariable, listVariableValues, listVariables, postVariableValues } from '../../services/variables.js';
 import type { PageRequest } from '../../services/paging.js';
 import type { createFacility, listFacilities, toFacility } from '../../services/facilities.js';
@@ -201,6 +203,12 @@ export type RateRoutes = [
   Expect<Agree<Parsed<typeof putRatesBody>, Takes<typeof putRates, 2>>>,
   Expect<Agree<Gives<typeof putRates>, Answer<typeof rateScheduleSchema>>>,
   Expect<Agree<Gives<typeof getRates>, Answer<typeof rateScheduleSchema>>>,
+];
+
+export type CalendarRoutes = [
+  Expect<Agree<Parsed<typeof putCalendarBody>, Takes<typeof putCalendar, 2>>>,
+  Expect<Agree<Gives<typeof putCalendar>, Answer<typeof calendarSchema>>>,
+  Expect<Agree<Gives<typeof getCalendar>, Answer<typeof calendarSchema>>>,
 ];
 
 export type VariableRoutes = [

@@ -25,7 +25,8 @@ import { DomainError, summarise } from '../../domain/errors.js';
 import { audit, inTransaction, type ServiceContext } from '../context.js';
 import { getMeterRow } from '../meters.js';
 import { loadDailyWeather, loadReadings, stationUnit } from '../meter-data.js';
-import type { Baseline, BaselineFitOptions, BaselineInputs, ExclusionRequest } from './types.js';
+import type { Baseline, BaselineFitOptions, BaselineInputs, ExclusionRequest, StoredVariableSeries } from './types.js';
+import { calendarSeries } from '../calendars.js';
 import type { Executor } from '../../store/executor.js';
 import { readingId } from '../readings.js';
 import { variableSeriesForMeter } from '../variables.js';
@@ -148,8 +149,19 @@ export async function createBaseline(
   const weather = await loadDailyWeather(db, meter.weather_station_id, input.start, input.end);
   const exclusions = await resolveExclusions(db, meter.id, input, input.exclusions ?? []);
   const offered = [...new Set([...(options.variables ?? []), ...(options.variableOverrides ?? []).map((o) => o.name)])];
-  const { series } = await variableSeriesForMeter(db, meter, offered, { from: input.start, to: input.end });
-  const analysis = analyseWindow(meterId, input, readings, weather, options, exclusions, series);
+  const stored = await variableSeriesForMeter(db, meter, offered, { from: input.start, to: input.end });
+  const days = options.dayTypes
+    ? (await calendarSeries(db, meter.facility_id, { from: input.start, to: input.end }, 'options.dayTypes')).map((s) => ({
+        ...s,
+        id: meter.facility_id,
+        unit: 'share of days',
+        source: 'calendar' as const,
+      }))
+    : [];
+  const series: StoredVariableSeries[] = [...stored.series, ...days];
+  const { dayTypes: _dayTypes, ...fitOptions } = options;
+  const withDays = days.length > 0 ? { ...fitOptions, variables: [...(options.variables ?? []), ...days.map((d) => d.name)] } : fitOptions;
+  const analysis = analyseWindow(meterId, input, readings, weather, withDays, exclusions, series);
 
   const fits: Partial<Record<ModelName, ShapeFit>> = {};
   for (const candidate of analysis.choice.candidates) if (candidate.fit) fits[candidate.model] = candidate.fit;

@@ -24,6 +24,8 @@ export interface BaselineFitOptions {
   variables?: string[];
   /** The engineer's decisions on variables: forced in or out, each with its reason on record. */
   variableOverrides?: { name: string; include: boolean; reason: string }[];
+  /** Offer the facility calendar's day types as indicator variables (day-type intercepts; a bill's share of days of each type). */
+  dayTypes?: boolean;
 }
 
 /** What was allowed when the baseline was frozen, each with the reason given; null where nothing was. */
@@ -46,8 +48,11 @@ export interface BaselineInputs {
 
 /** A stored variable's values as a fit saw them: its id and unit beside the engine's series. */
 export interface StoredVariableSeries extends VariableSeries {
+  /** The stored variable's id; for a day-type indicator, the facility whose calendar it comes from. */
   id: string;
   unit: string;
+  /** 'calendar' for a day-type indicator of the facility calendar; absent for a stored variable. */
+  source?: 'calendar';
 }
 
 export interface BaselineSummary {
