@@ -18,6 +18,19 @@ const SERVICE_TESTS = [
   'test/fuzz/**/*.test.ts',
 ];
 
+/**
+ * Test files run one after another in each worker without a fresh module
+ * graph (isolate: false): importing the service again for every file cost
+ * more than the tests. Files that replace a module with vi.mock need their
+ * own graph, so they run in a project of their own.
+ */
+const MODULE_MOCKING_TESTS = [
+  'test/cli/backup.test.ts',
+  'test/cli/transfer.test.ts',
+  'test/cli/keys.test.ts',
+  'test/cli/internal-error.test.ts',
+];
+
 export default defineConfig(async () => {
   const wanted = process.env.MVLEDGER_TEST_POSTGRES ?? 'auto';
   const reachable = wanted !== 'off' && (await postgresReachable());
@@ -31,7 +44,16 @@ export default defineConfig(async () => {
       testTimeout: 60_000,
       hookTimeout: 60_000,
       projects: [
-        { extends: true, test: { name: 'sqlite', include: ['test/**/*.test.ts'], exclude: ['test/multi-instance/**'] } },
+        {
+          extends: true,
+          test: {
+            name: 'sqlite',
+            include: ['test/**/*.test.ts'],
+            exclude: ['test/multi-instance/**', ...MODULE_MOCKING_TESTS],
+            isolate: false,
+          },
+        },
+        { extends: true, test: { name: 'sqlite-mocks', include: MODULE_MOCKING_TESTS } },
         ...(reachable
           ? [
               {
@@ -39,6 +61,7 @@ export default defineConfig(async () => {
                 test: {
                   name: 'postgres',
                   include: SERVICE_TESTS,
+                  isolate: false,
                   env: { MVLEDGER_TEST_DIALECT: 'postgres' },
                   globalSetup: ['test/support/postgres-run.ts'],
                 },

@@ -3,7 +3,9 @@
  * value stops the start with a message naming the variable (never its value
  * when it could be a secret).
  */
+import { readFileSync } from 'node:fs';
 import { z } from 'zod';
+import { checkpointSigner, type CheckpointSigner } from './lib/checkpoint-signature.js';
 
 const LOG_LEVELS = ['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent'] as const;
 
@@ -32,6 +34,9 @@ const environmentSchema = z.object({
   FAILED_AUTH_PER_MINUTE: z.coerce.number().int().min(0).default(30),
   REQUEST_TIMEOUT_MS: z.coerce.number().int().min(1_000).max(3_600_000).default(60_000),
   HEADERS_TIMEOUT_MS: z.coerce.number().int().min(1_000).max(3_600_000).default(15_000),
+  MVLEDGER_CHECKPOINT_KEY_FILE: z.string().min(1).optional(),
+  MVLEDGER_CHECKPOINT_KEY: z.string().min(1).optional(),
+  CHECKPOINT_INTERVAL_SECONDS: z.coerce.number().int().min(0).max(604_800).default(3600),
 });
 
 /** Bits a bootstrap key's secret must carry, counted from the characters it draws on (the service's own keys carry 190). */
@@ -86,9 +91,36 @@ export interface Config {
   headersTimeoutMs: number;
   /** Memory for savings documents kept per data version; 0 computes every request afresh. */
   savingsCacheBytes: number;
+  /** Signs audit checkpoints (lib/checkpoint-signature.ts); absent when no checkpoint key is configured. */
+  checkpointSigner: CheckpointSigner | undefined;
+  /** Seconds between rounds of the periodic checkpoint signer; 0 signs only on statements and on request. */
+  checkpointIntervalSeconds: number;
 }
 
 export class ConfigError extends Error {}
+
+/**
+ * The checkpoint key: a PEM Ed25519 private key, from the file named by
+ * MVLEDGER_CHECKPOINT_KEY_FILE or in MVLEDGER_CHECKPOINT_KEY itself (for a
+ * container secret). Never both; the message never repeats the key.
+ */
+function loadCheckpointSigner(file: string | undefined, inline: string | undefined): CheckpointSigner | undefined {
+  if (file !== undefined && inline !== undefined)
+    throw new ConfigError('invalid configuration: set MVLEDGER_CHECKPOINT_KEY_FILE or MVLEDGER_CHECKPOINT_KEY, not both');
+  if (file === undefined && inline === undefined) return undefined;
+  const variable = file !== undefined ? 'MVLEDGER_CHECKPOINT_KEY_FILE' : 'MVLEDGER_CHECKPOINT_KEY';
+  let pem: string;
+  try {
+    pem = file !== undefined ? readFileSync(file, 'utf8') : inline!;
+  } catch (error) {
+    throw new ConfigError(`invalid configuration: ${variable}: cannot read the file (${(error as NodeJS.ErrnoException).code ?? 'error'})`);
+  }
+  try {
+    return checkpointSigner(pem);
+  } catch (error) {
+    throw new ConfigError(`invalid configuration: ${variable}: ${(error as Error).message}`);
+  }
+}
 
 /** Read and validate the configuration; throws ConfigError naming every bad variable. */
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
@@ -111,5 +143,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     requestTimeoutMs: value.REQUEST_TIMEOUT_MS,
     headersTimeoutMs: value.HEADERS_TIMEOUT_MS,
     savingsCacheBytes: value.SAVINGS_CACHE_MB * 1024 * 1024,
+    checkpointSigner: loadCheckpointSigner(value.MVLEDGER_CHECKPOINT_KEY_FILE, value.MVLEDGER_CHECKPOINT_KEY),
+    checkpointIntervalSeconds: value.CHECKPOINT_INTERVAL_SECONDS,
   };
 }

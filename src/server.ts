@@ -12,6 +12,7 @@ import { keepRunningThroughDatabaseFaults } from './process-guard.js';
 import { migrateToLatest } from './store/migrate.js';
 import { bootstrapIfEmpty } from './services/organisations.js';
 import { buildApp, LOG_REDACTIONS } from './http/app.js';
+import { signEveryAuditHead } from './services/audit-checkpoints.js';
 
 export interface RunningService {
   app: FastifyInstance;
@@ -46,18 +47,49 @@ export async function startService(config: Config): Promise<RunningService> {
     requestTimeoutMs: config.requestTimeoutMs,
     headersTimeoutMs: config.headersTimeoutMs,
     savingsCacheBytes: config.savingsCacheBytes,
+    checkpointSigner: config.checkpointSigner,
   });
   log = app.log;
   if (bootstrapped) app.log.info('new database: created the bootstrap organisation and its admin key');
   const address = await app.listen({ port: config.port, host: config.host });
   app.log.info({ database: store.location }, 'mvledger is listening');
+  const stopSigning = startCheckpointRounds(config, store, app.log);
   let stopping: Promise<void> | null = null;
   const stop = () =>
     (stopping ??= (async () => {
+      stopSigning();
       await app.close();
       await store.close();
     })());
   return { app, store, url: address, stop };
+}
+
+/**
+ * The periodic checkpoint signer: every CHECKPOINT_INTERVAL_SECONDS, each
+ * organisation whose audit head moved gets a signed checkpoint. A failed
+ * round (the database away) is logged and the next one tries again.
+ * Returns the function that stops it.
+ */
+function startCheckpointRounds(config: Config, store: Store, log: FastifyBaseLogger): () => void {
+  const signer = config.checkpointSigner;
+  if (!signer) return () => {};
+  log.info({ keyId: signer.keyId }, 'signing audit checkpoints');
+  if (config.checkpointIntervalSeconds === 0) return () => {};
+  let running = false;
+  const timer = setInterval(() => {
+    if (running) return;
+    running = true;
+    signEveryAuditHead(store.db, signer, new Date().toISOString())
+      .then((signed) => {
+        if (signed > 0) log.info({ signed, keyId: signer.keyId }, 'audit checkpoints signed');
+      })
+      .catch((error: unknown) => log.warn({ err: error instanceof Error ? error.message : String(error) }, 'audit checkpoint round failed'))
+      .finally(() => {
+        running = false;
+      });
+  }, config.checkpointIntervalSeconds * 1000);
+  timer.unref();
+  return () => clearInterval(timer);
 }
 
 async function main(): Promise<void> {

@@ -13,6 +13,7 @@ import { runKeys } from './commands/keys.js';
 import { runExport, runImport } from './commands/transfer.js';
 import { runBackup, runRestore } from './commands/backup.js';
 import { runWeather } from './commands/weather.js';
+import { runVerify } from './commands/verify.js';
 import {
   BACKUP_USAGE,
   EXPORT_USAGE,
@@ -22,6 +23,7 @@ import {
   KEYS_USAGE,
   RESTORE_USAGE,
   SAVINGS_USAGE,
+  VERIFY_USAGE,
   WEATHER_USAGE,
 } from './usage.js';
 import { packageVersion } from './version.js';
@@ -89,8 +91,13 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
       if (output.note) io.stderr(output.note);
       return 0;
     }
+    if (command === 'verify') {
+      const output = await runVerify(rest);
+      io.stdout(output.stdout);
+      return output.code;
+    }
     io.stderr(
-      `mvledger: unknown command ${JSON.stringify(command)} (commands: fit, savings, weather, keys, export, import, backup, restore, help)\n`,
+      `mvledger: unknown command ${JSON.stringify(command)} (commands: fit, savings, weather, keys, export, import, backup, restore, verify, help)\n`,
     );
     return EXIT_BAD_INPUT;
   } catch (error) {
@@ -117,5 +124,6 @@ function helpFor(topic: string | undefined): string {
   if (topic === 'backup') return BACKUP_USAGE;
   if (topic === 'restore') return RESTORE_USAGE;
   if (topic === 'weather') return WEATHER_USAGE;
+  if (topic === 'verify') return VERIFY_USAGE;
   return GENERAL_USAGE;
 }

@@ -144,6 +144,29 @@ counted; temperatures are converted once to --unit (default F).
                       days outside plausible bounds
 `;
 
+export const VERIFY_USAGE = `Usage: mvledger verify --org ID [--full]
+       mvledger verify --export FILE --public-key FILE --checkpoints FILE
+
+With --org, check the organisation in the database named by DATABASE_URL
+(default sqlite:./var/mvledger.sqlite): its audit hash chain, every frozen
+baseline against the content hash its freeze row recorded and, with --full,
+every reading, weather day, rate, contract, normal year, adjustment and API key
+against a replay of the audit trail, each difference named.
+
+With --export, check an export (mvledger export) offline, with the service's
+checkpoint public key (PEM) and signed checkpoints (a statement's JSON copy, or
+the answer of GET /v1/audit/checkpoints): the chain must be intact and, at each
+checkpoint, hold the row the service signed. Needs no database and no secret.
+
+Exit code 0 when everything holds, 4 when a check fails.
+
+  --org ID              the organisation to check in the database
+  --full                also replay the trail against every table
+  --export FILE         an export document to check offline
+  --public-key FILE     the service's checkpoint public key, PEM
+  --checkpoints FILE    signed checkpoints: statement JSON or checkpoint list
+`;
+
 export const GENERAL_USAGE = `mvledger: weather-normalised baselines and avoided energy (IPMVP whole-facility option, ASHRAE Guideline 14 methods)
 
 Usage:
@@ -155,7 +178,8 @@ Usage:
   mvledger import --in FILE
   mvledger backup --out FILE
   mvledger restore --in FILE [--force]
-  mvledger help [fit|savings|weather|keys|export|import|backup|restore]
+  mvledger verify --org ID [--full] | --export FILE --public-key FILE --checkpoints FILE
+  mvledger help [fit|savings|weather|keys|export|import|backup|restore|verify]
   mvledger --version
 
 Dates are ISO (YYYY-MM-DD). Bad input is reported as one line naming the file,
@@ -168,4 +192,5 @@ ${KEYS_USAGE}
 ${EXPORT_USAGE}
 ${IMPORT_USAGE}
 ${BACKUP_USAGE}
-${RESTORE_USAGE}`;
+${RESTORE_USAGE}
+${VERIFY_USAGE}`;

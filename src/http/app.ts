@@ -21,6 +21,7 @@ import { textInputPlugin } from './plugins/text-input.js';
 import { FailedAuthenticationLimit } from './plugins/failed-authentication.js';
 import { answerClientError } from './security-headers.js';
 import { routesPlugin } from './routes/index.js';
+import type { CheckpointSigner } from '../lib/checkpoint-signature.js';
 import type { RouteDeps } from './route-deps.js';
 import { Problem } from './problem.js';
 import { SavingsCache } from '../services/savings-cache.js';
@@ -43,6 +44,8 @@ export interface AppOptions {
   savingsCacheBytes?: number;
   /** A cache to use instead (tests read its counters). */
   savingsCache?: SavingsCache;
+  /** Signs audit checkpoints (config MVLEDGER_CHECKPOINT_KEY_FILE); absent: none are signed. */
+  checkpointSigner?: CheckpointSigner | undefined;
 }
 
 /** A request trickled in slowly holds a connection: the whole request must arrive within a minute, its headers within 15 s. */
@@ -105,6 +108,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     store: options.store,
     now: options.now ?? (() => new Date().toISOString()),
     savingsCache: options.savingsCache ?? new SavingsCache(options.savingsCacheBytes),
+    checkpointSigner: options.checkpointSigner,
   };
   // Bottom first; each plugin names what it needs (plugins/names.ts) and fastify refuses a wrong order.
   // Hooks of one kind run in this order: the request id, helmet's headers, then authentication (onRequest);

@@ -30,6 +30,6 @@ export function requestContext(request: FastifyRequest, deps: RouteDeps): Reques
   return {
     principal,
     organisationId: principal.organisationId,
-    service: { store: deps.store, principal, now: deps.now() },
+    service: { store: deps.store, principal, now: deps.now(), checkpointSigner: deps.checkpointSigner },
   };
 }

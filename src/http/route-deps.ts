@@ -4,6 +4,7 @@
  */
 import type { Store } from '../store/connect.js';
 import type { SavingsCache } from '../services/savings-cache.js';
+import type { CheckpointSigner } from '../lib/checkpoint-signature.js';
 
 export interface RouteDeps {
   store: Store;
@@ -11,4 +12,6 @@ export interface RouteDeps {
   now: () => string;
   /** Savings documents kept per data version (services/savings-cache.ts), one per instance. */
   savingsCache: SavingsCache;
+  /** Signs audit checkpoints; absent when no checkpoint key is configured. */
+  checkpointSigner?: CheckpointSigner | undefined;
 }

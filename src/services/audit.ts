@@ -6,6 +6,8 @@ import { isIsoDate } from '../engine/index.js';
 import { listAudit, verifyAuditChain, type ChainVerdict } from '../store/audit.js';
 import type { AuditRow } from '../store/schema.js';
 import type { Executor } from './context.js';
+import { replayAuditTrail, type ReplayVerdict } from './audit-replay.js';
+import { checkFrozenBaselines, type FrozenBaselinesVerdict } from './frozen-baselines-check.js';
 import { decodeCursor, encodeCursor, type PageInfo } from './paging.js';
 
 export interface AuditEntryView {
@@ -111,7 +113,30 @@ export async function listAuditEntries(db: Executor, organisationId: string, fil
   };
 }
 
-/** Verify the organisation's own chain (other organisations' activity stays invisible). */
-export function verifyAudit(db: Executor, organisationId: string): Promise<ChainVerdict> {
-  return verifyAuditChain(db, organisationId);
+/** How far a verification goes: the chain and frozen baselines, or also a replay of every table. */
+export type VerifyDepth = 'chain' | 'full';
+
+export interface AuditVerdict extends ChainVerdict {
+  /** Every frozen and superseded baseline against the content hash its freeze row recorded. */
+  baselines: FrozenBaselinesVerdict;
+  /** With depth "full": the tables rebuilt from the trail and compared with the stored ones. */
+  replay?: ReplayVerdict;
+}
+
+/**
+ * Verify the organisation's own chain (other organisations' activity stays
+ * invisible), its frozen baselines against their freeze rows and, at depth
+ * "full", every result-bearing table against a replay of the trail. ok is
+ * true only when all of them hold.
+ */
+export async function verifyAudit(db: Executor, organisationId: string, depth: VerifyDepth = 'chain'): Promise<AuditVerdict> {
+  const chain = await verifyAuditChain(db, organisationId);
+  const baselines = await checkFrozenBaselines(db, organisationId);
+  const replay = depth === 'full' ? await replayAuditTrail(db, organisationId) : undefined;
+  return {
+    ...chain,
+    ok: chain.ok && baselines.ok && (replay?.ok ?? true),
+    baselines,
+    ...(replay ? { replay } : {}),
+  };
 }

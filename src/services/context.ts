@@ -9,12 +9,15 @@ import { writeTransaction } from '../store/transactions.js';
 import type { Database } from '../store/schema.js';
 import type { Principal } from '../domain/principal.js';
 import { appendAudit, type AuditEntry } from '../store/audit.js';
+import type { CheckpointSigner } from '../lib/checkpoint-signature.js';
 
 export interface ServiceContext {
   store: Store;
   principal: Principal;
   /** ISO-8601 time of the request. */
   now: string;
+  /** Signs audit checkpoints (an issued statement carries one); absent when the service holds no checkpoint key. */
+  checkpointSigner?: CheckpointSigner | undefined;
 }
 
 export type Tx = Transaction<Database>;

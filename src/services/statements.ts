@@ -33,6 +33,8 @@ import {
 import { renderStatementCsv, renderStatementHtml, renderStatementJson } from '../reports/statement/render-statement.js';
 import type { SavingsReport } from '../reports/savings-report.js';
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
+import type { SignedCheckpoint } from '../lib/checkpoint-signature.js';
+import { signAuditHead } from './audit-checkpoints.js';
 import { savingsReportIn, type ReportQuery } from './reports.js';
 
 /** The errors of this module, in one place. */
@@ -190,6 +192,7 @@ async function storeCopy(
   report: SavingsReport,
   issuedCopy: ContentHashes | null,
   at: string,
+  checkpoint?: SignedCheckpoint,
 ): Promise<ContentHashes> {
   const document: StatementDocument = {
     format: STATEMENT_FORMAT,
@@ -205,6 +208,7 @@ async function storeCopy(
       request: JSON.parse(row.request_json) as StatementRequest,
       steps: await stepsOf(trx, row),
       issuedCopy,
+      ...(checkpoint ? { checkpoint: signedPart(checkpoint) } : {}),
     },
     report,
   };
@@ -232,14 +236,24 @@ async function storeCopy(
 }
 
 /** The report stored in the issued copy (copy 1): every later copy carries the same report. */
-async function issuedReport(db: Executor, statementId: string): Promise<{ report: SavingsReport; hashes: ContentHashes }> {
+async function issuedReport(
+  db: Executor,
+  statementId: string,
+): Promise<{ report: SavingsReport; hashes: ContentHashes; checkpoint: SignedCheckpoint | undefined }> {
   const copy = await db
     .selectFrom('statement_copies')
     .select(['json_body', 'json_hash', 'csv_hash', 'html_hash'])
     .where('statement_id', '=', statementId)
     .where('copy', '=', 1)
     .executeTakeFirstOrThrow();
-  return { report: (JSON.parse(copy.json_body) as StatementDocument).report, hashes: hashesOf(copy) };
+  const document = JSON.parse(copy.json_body) as StatementDocument;
+  return { report: document.report, hashes: hashesOf(copy), checkpoint: document.statement.checkpoint };
+}
+
+/** The checkpoint as a statement carries it: the claim, the key and the signature (not why it was made). */
+function signedPart(checkpoint: SignedCheckpoint): SignedCheckpoint {
+  const { organisationId, seq, headHash, signedAt, keyId, signature } = checkpoint;
+  return { organisationId, seq, headHash, signedAt, keyId, signature };
 }
 
 /**
@@ -285,7 +299,11 @@ export async function issueStatement(ctx: ServiceContext, input: IssueStatementI
       replaced_by: null,
     };
     await trx.insertInto('statements').values(row).execute();
-    const hashes = await storeCopy(trx, row, 'issued', 1, report, null, ctx.now);
+    // The copy carries a signed checkpoint of the very head its figures were read at.
+    const checkpoint = ctx.checkpointSigner
+      ? await signAuditHead(trx, ctx.checkpointSigner, organisationId, ctx.now, 'statement')
+      : undefined;
+    const hashes = await storeCopy(trx, row, 'issued', 1, report, null, ctx.now, checkpoint);
     await audit(trx, ctx, {
       action: 'issue-statement',
       entityType: 'statement',
@@ -300,6 +318,8 @@ export async function issueStatement(ctx: ServiceContext, input: IssueStatementI
         contentHashes: hashes,
       },
     });
+    // And the head that records the issue is signed too: the filed copy's hashes are then under a signature.
+    if (ctx.checkpointSigner) await signAuditHead(trx, ctx.checkpointSigner, organisationId, ctx.now, 'statement');
     return toStatement(trx, row);
   });
 }
@@ -380,7 +400,7 @@ async function step(
       .executeTakeFirstOrThrow();
     const issued = await issuedReport(trx, id);
     const copy = Number(last.copy) + 1;
-    const hashes = await storeCopy(trx, row, kind, copy, issued.report, issued.hashes, ctx.now);
+    const hashes = await storeCopy(trx, row, kind, copy, issued.report, issued.hashes, ctx.now, issued.checkpoint);
     await audit(trx, ctx, {
       action,
       entityType: 'statement',

@@ -302,6 +302,17 @@ export interface FacilityCalendarsTable {
   updated_by: string;
 }
 
+/** A signed audit head (migrations/0010_audit_checkpoints.ts). */
+export interface AuditCheckpointsTable {
+  organisation_id: string;
+  seq: number;
+  head_hash: string;
+  signed_at: string;
+  key_id: string;
+  signature: string;
+  reason: 'interval' | 'statement' | 'request';
+}
+
 export interface Database {
   organisations: OrganisationsTable;
   api_keys: ApiKeysTable;
@@ -323,6 +334,7 @@ export interface Database {
   variables: VariablesTable;
   variable_values: VariableValuesTable;
   facility_calendars: FacilityCalendarsTable;
+  audit_checkpoints: AuditCheckpointsTable;
 }
 
 export type VariableRow = Selectable<VariablesTable>;

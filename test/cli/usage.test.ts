@@ -43,7 +43,7 @@ describe('help and usage', () => {
     expect(run.code).toBe(2);
     expect(run.stdout).toBe('');
     expect(run.stderr).toBe(
-      'mvledger: unknown command "fitt" (commands: fit, savings, weather, keys, export, import, backup, restore, help)\n',
+      'mvledger: unknown command "fitt" (commands: fit, savings, weather, keys, export, import, backup, restore, verify, help)\n',
     );
   });
 });

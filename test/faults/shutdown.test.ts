@@ -48,16 +48,24 @@ describe(`graceful shutdown on ${testDialect()}: SIGTERM with requests in flight
 
   it('finishes the requests in flight, refuses new connections, stores every batch whole and exits 0', async ({ onTestFailed }) => {
     onTestFailed(() => console.error(instance ? describeOutputs([instance]) : '(no instance)'));
-    instance = await startService(database, 'shutdown');
+    instance = await startService(database, 'shutdown', 'info');
     const { base } = instance;
     const ledger = await seedLedger(base);
     const exited = exitOf(instance.child);
 
     const batches = Array.from({ length: IN_FLIGHT }, (_, i) => dailyBatch(addDays(FIRST_DAY, i * BATCH_READINGS), BATCH_READINGS, i));
+    const readingsPath = `/v1/meters/${ledger.meterId}/readings`;
+    const receivedBefore = instance.requestsReceived(readingsPath);
     const flights = batches.map((readings) => send(base, 'POST', `/v1/meters/${ledger.meterId}/readings`, { readings }));
     // Each outcome stamped with when it arrived, to order it against the first refusal.
     const settled = flights.map((f) => f.outcome.then((outcome) => ({ outcome, at: performance.now() })));
     await Promise.all(flights.map((f) => f.sent));
+    // In flight means received: wait until the service has logged each batch's request (on a loaded
+    // machine a request written to the socket may not have been read yet, and would then arrive closing).
+    const inFlight = () => instance!.requestsReceived(readingsPath) - receivedBefore;
+    for (const waitUntil = performance.now() + 30_000; inFlight() < IN_FLIGHT && performance.now() < waitUntil;)
+      await sleep(PROBE_EVERY_MS);
+    expect(inFlight()).toBe(IN_FLIGHT);
     const signalAt = performance.now();
     instance.child.kill('SIGTERM');
 

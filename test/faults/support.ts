@@ -40,8 +40,8 @@ export function freshFaultDatabase(): FaultDatabase {
 }
 
 /** A service process on the database, the bootstrap key its admin key. */
-export function startService(database: FaultDatabase, name: string): Promise<Instance> {
-  return startInstance({ name, databaseUrl: database.url, bootstrapKey: BOOTSTRAP_KEY });
+export function startService(database: FaultDatabase, name: string, logLevel?: string): Promise<Instance> {
+  return startInstance({ name, databaseUrl: database.url, bootstrapKey: BOOTSTRAP_KEY, ...(logLevel ? { logLevel } : {}) });
 }
 
 /** How a child process ended. */

@@ -21,6 +21,8 @@ export interface Instance {
   child: ChildProcess;
   /** Everything the child wrote to stdout and stderr so far (the tail, when long). */
   output(): string;
+  /** Requests whose URL contains `urlPart` that the service has logged as received (logLevel info only). */
+  requestsReceived(urlPart: string): number;
 }
 
 const running = new Set<ChildProcess>();
@@ -32,14 +34,20 @@ process.once('exit', () => {
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 
 /** Start one service process and wait until /readyz answers 200 (or fail with its output). */
-export async function startInstance(options: { name: string; databaseUrl: string; bootstrapKey?: string }): Promise<Instance> {
+export async function startInstance(options: {
+  name: string;
+  databaseUrl: string;
+  bootstrapKey?: string;
+  /** The service's LOG_LEVEL (default warn); info logs every incoming request, which requestsReceived counts. */
+  logLevel?: string;
+}): Promise<Instance> {
   const port = await freePort();
   const env: NodeJS.ProcessEnv = {
     ...process.env,
     PORT: String(port),
     HOST: '127.0.0.1',
     DATABASE_URL: options.databaseUrl,
-    LOG_LEVEL: 'warn',
+    LOG_LEVEL: options.logLevel ?? 'warn',
   };
   delete env.MVLEDGER_BOOTSTRAP_KEY;
   if (options.bootstrapKey) env.MVLEDGER_BOOTSTRAP_KEY = options.bootstrapKey;
@@ -50,8 +58,13 @@ export async function startInstance(options: { name: string; databaseUrl: string
   });
   running.add(child);
   let output = '';
+  let partialLine = '';
+  const received: string[] = [];
   const keep = (chunk: Buffer) => {
     output = (output + chunk.toString()).slice(-MAX_OUTPUT_CHARS);
+    const lines = (partialLine + chunk.toString()).split('\n');
+    partialLine = lines.pop() ?? '';
+    for (const line of lines) if (line.includes('"incoming request"')) received.push(line);
   };
   child.stdout?.on('data', keep);
   child.stderr?.on('data', keep);
@@ -61,7 +74,13 @@ export async function startInstance(options: { name: string; databaseUrl: string
     running.delete(child);
   });
 
-  const instance: Instance = { name: options.name, base: `http://127.0.0.1:${port}`, child, output: () => output };
+  const instance: Instance = {
+    name: options.name,
+    base: `http://127.0.0.1:${port}`,
+    child,
+    output: () => output,
+    requestsReceived: (urlPart) => received.filter((line) => line.includes(urlPart)).length,
+  };
   const deadline = Date.now() + READY_TIMEOUT_MS;
   while (Date.now() < deadline) {
     if (exited) break;

@@ -3,6 +3,7 @@
  * role in organisation A and an admin key in organisation B, for API tests.
  * Requests go through fastify.inject (no sockets).
  */
+import type { CheckpointSigner } from '../../src/lib/checkpoint-signature.js';
 import type { FastifyInstance, InjectOptions } from 'fastify';
 import { openStore, type Store } from '../../src/store/connect.js';
 import { migrateToLatest } from '../../src/store/migrate.js';
@@ -41,10 +42,15 @@ export interface ApiResponse {
   json: any;
 }
 
-let clockTick = 0;
-/** A clock that moves forward a millisecond per call, so audit times are distinct and ordered. */
+/**
+ * A clock that moves forward a millisecond per call, so audit times are
+ * distinct and ordered. Each clock counts on its own: test files share
+ * modules in a worker (vitest.config.ts), and a file's times must not depend
+ * on which files ran before it.
+ */
 export function steppingClock(start = Date.parse('2026-01-01T00:00:00.000Z')): () => string {
-  return () => new Date(start + clockTick++).toISOString();
+  let tick = 0;
+  return () => new Date(start + tick++).toISOString();
 }
 
 /**
@@ -52,7 +58,9 @@ export function steppingClock(start = Date.parse('2026-01-01T00:00:00.000Z')): (
  * (in-memory SQLite, or a migrated PostgreSQL schema that close() empties
  * for the next test service of this worker); a given URL is left in place on close.
  */
-export async function makeTestApi(options: { databaseUrl?: string; now?: () => string } = {}): Promise<TestApi> {
+export async function makeTestApi(
+  options: { databaseUrl?: string; now?: () => string; checkpointSigner?: CheckpointSigner } = {},
+): Promise<TestApi> {
   const acquired = options.databaseUrl === undefined ? acquireTestDatabase() : { url: options.databaseUrl, migrated: false };
   const databaseUrl = acquired.url;
   const store = openStore(databaseUrl);
@@ -65,7 +73,7 @@ export async function makeTestApi(options: { databaseUrl?: string; now?: () => s
     keys[role] = (await createKey(store.db, { organisationId: org.id, name: `${role} key`, role, at: now() })).token;
   }
   const otherKey = (await createKey(store.db, { organisationId: other.id, name: 'other admin', role: 'admin', at: now() })).token;
-  const app = await buildApp({ store, now });
+  const app = await buildApp({ store, now, checkpointSigner: options.checkpointSigner });
   await app.ready();
 
   const call: TestApi['call'] = async (method, url, opts = {}) => {

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { isIsoDate } from '../../engine/index.js';
-import { plainText } from './common.js';
+import { PAGE_SIZES } from '../../services/paging.js';
+import { pageFields, pageQuery, plainText } from './common.js';
 
 const DATE_TIME = /^(\d{4}-\d{2}-\d{2})T\d{2}:\d{2}(:\d{2}(\.\d{1,9})?)?(Z|[+-]\d{2}:\d{2})$/;
 
@@ -72,12 +73,70 @@ export const auditPageSchema = z
   })
   .meta({ id: 'AuditPage' });
 
+const stateDifferenceSchema = z
+  .object({
+    table: z.string().describe('readings, observations, rates, contracts, normal-years, adjustments, api-keys or baselines'),
+    key: z.string().describe('Which row: its meter or station and period or date, or the entity id'),
+    difference: z.string().describe('What differs, in words: the stored value against the one the audit trail recorded'),
+  })
+  .meta({ id: 'AuditStateDifference' });
+
+export const verifyQuery = z.object({
+  depth: z
+    .enum(['chain', 'full'])
+    .default('chain')
+    .describe(
+      'chain: the hash chain and every frozen baseline against the hash its freeze recorded; full: also replay the trail and compare every result-bearing table with it',
+    ),
+});
+
 export const chainVerdictSchema = z
   .object({
-    ok: z.boolean(),
+    ok: z.boolean().describe('True only when the chain, the frozen baselines and (depth=full) every table agree with the trail'),
     checked: z.number().int().describe('Rows checked'),
     headSeq: z.number().int(),
     headHash: z.string().describe('Hash of the last row: keep it outside the database to detect a cut-off tail later'),
     broken: z.object({ seq: z.number().int(), reason: z.string() }).optional().describe('The first row where the chain breaks'),
+    baselines: z
+      .object({ ok: z.boolean(), checked: z.number().int(), differences: z.array(stateDifferenceSchema) })
+      .describe('Each frozen or superseded baseline: its stored content against the content hash its freeze row recorded'),
+    replay: z
+      .object({
+        ok: z.boolean(),
+        compared: z.record(z.string(), z.number().int()).describe('Rows compared per table'),
+        differenceCount: z.number().int(),
+        differences: z.array(stateDifferenceSchema).describe('The first 100 differences'),
+      })
+      .optional()
+      .describe('With depth=full: the tables rebuilt from the audit trail and compared with the stored rows'),
   })
   .meta({ id: 'AuditChainVerdict' });
+
+export const signedCheckpointSchema = z
+  .object({
+    organisationId: z.string(),
+    seq: z.number().int().describe('The audit row signed: the head of the chain at signing'),
+    headHash: z.string().describe('That row’s hash'),
+    signedAt: z.string().describe('UTC time of signing'),
+    keyId: z.string().describe('First 16 hex digits of SHA-256 of the public key (SubjectPublicKeyInfo, DER)'),
+    signature: z
+      .string()
+      .describe(
+        'Ed25519 signature (base64) of "mvledger audit checkpoint v1\\n" + canonical JSON of {headHash, organisationId, seq, signedAt}',
+      ),
+    reason: z.enum(['interval', 'statement', 'request']).describe('What made it: the periodic signer, an issued statement, or a request'),
+  })
+  .meta({ id: 'AuditCheckpoint' });
+
+export const checkpointsQuery = z.object(pageQuery(PAGE_SIZES.records, 'Checkpoints'));
+
+export const checkpointPageSchema = z
+  .object({
+    publicKey: z
+      .object({ keyId: z.string(), pem: z.string().describe('The Ed25519 public key, PEM (SubjectPublicKeyInfo)') })
+      .nullable()
+      .describe('The key the service signs with now; null when it signs no checkpoints'),
+    checkpoints: z.array(signedCheckpointSchema),
+    ...pageFields,
+  })
+  .meta({ id: 'AuditCheckpointPage' });

@@ -12,6 +12,7 @@
  */
 import { sha256Hex } from '../../lib/canonical-json.js';
 import type { SavingsReport } from '../savings-report.js';
+import type { SignedCheckpoint } from '../../lib/checkpoint-signature.js';
 
 export const STATEMENT_FORMAT = 'mvledger-savings-statement';
 export const STATEMENT_VERSION = 1;
@@ -71,6 +72,13 @@ export interface StatementDocument {
     steps: StatementStep[];
     /** Later copies: the content hashes of the issued copy (copy 1) this copy stands for. */
     issuedCopy: ContentHashes | null;
+    /**
+     * The signed audit checkpoint of the head the figures were read at
+     * (report.dataAsOf), when the service signs checkpoints: with the
+     * service's public key and an export, anyone can check that the trail
+     * behind the figures has not been rewritten or cut since.
+     */
+    checkpoint?: SignedCheckpoint;
   };
   report: SavingsReport;
 }
