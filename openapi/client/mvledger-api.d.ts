@@ -125,6 +125,30 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/audit/checkpoints": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * Signed checkpoints of the organisation's audit head, oldest first
+         * @description The service signs the head of the audit chain (its last row’s sequence number and hash) with an Ed25519 key held outside the database: periodically (CHECKPOINT_INTERVAL_SECONDS), on every issued statement, and on request. With the public key given here (keep a copy from a trusted moment) and an export, `mvledger verify` proves that the trail up to each checkpoint has not been rewritten or cut since it was signed.
+         */
+        get: operations["getAuditCheckpoints"];
+        put?: never;
+        /**
+         * Sign the current audit head now
+         * @description Signs the head of the organisation’s chain unless the key has signed it already (then answers that checkpoint). 422 when the service holds no checkpoint key.
+         */
+        post: operations["postAuditCheckpoints"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/audit/verify": {
         parameters: {
             query?: never;
@@ -133,8 +157,8 @@ export interface paths {
             cookie?: never;
         };
         /**
-         * Check the audit hash chain
-         * @description Walks the whole chain (every organisation shares one chain) and names the first row whose content or link does not match. Record headHash elsewhere: a later run can then also detect rows cut off the end.
+         * Check the audit hash chain, the frozen baselines and (depth=full) every table against the trail
+         * @description Walks the organisation's chain and names the first row whose content or link does not match; compares every frozen baseline's content with the hash its freeze row recorded; with depth=full, replays the trail and names every stored reading, weather day, rate, contract, normal year, adjustment or API key that differs from it or that no audit row wrote. Record headHash elsewhere (or use the signed checkpoints): a later run can then also detect rows cut off the end.
          */
         get: operations["getAuditVerify"];
         put?: never;
@@ -253,6 +277,27 @@ export interface paths {
         /** One facility */
         get: operations["getFacilitiesById"];
         put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/facilities/{id}/calendar": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** A facility's calendar */
+        get: operations["getFacilitiesByIdCalendar"];
+        /**
+         * Replace a facility's calendar
+         * @description Replaced whole, all or nothing: an unknown day type or overlapping exceptions are refused (400 naming the field); a change to the day type of any day inside a frozen baseline window of one of the facility’s meters is refused (409). Fits use it with options.dayTypes.
+         */
+        put: operations["putFacilitiesByIdCalendar"];
         post?: never;
         delete?: never;
         options?: never;
@@ -867,6 +912,12 @@ export interface components {
             role: "admin" | "engineer" | "analyst" | "integration";
         };
         AuditChainVerdict: {
+            /** @description Each frozen or superseded baseline: its stored content against the content hash its freeze row recorded */
+            baselines: {
+                checked: number;
+                differences: components["schemas"]["AuditStateDifference"][];
+                ok: boolean;
+            };
             /** @description The first row where the chain breaks */
             broken?: {
                 reason: string;
@@ -877,7 +928,50 @@ export interface components {
             /** @description Hash of the last row: keep it outside the database to detect a cut-off tail later */
             headHash: string;
             headSeq: number;
+            /** @description True only when the chain, the frozen baselines and (depth=full) every table agree with the trail */
             ok: boolean;
+            /** @description With depth=full: the tables rebuilt from the audit trail and compared with the stored rows */
+            replay?: {
+                /** @description Rows compared per table */
+                compared: {
+                    [key: string]: number;
+                };
+                differenceCount: number;
+                /** @description The first 100 differences */
+                differences: components["schemas"]["AuditStateDifference"][];
+                ok: boolean;
+            };
+        };
+        AuditCheckpoint: {
+            /** @description That row’s hash */
+            headHash: string;
+            /** @description First 16 hex digits of SHA-256 of the public key (SubjectPublicKeyInfo, DER) */
+            keyId: string;
+            organisationId: string;
+            /**
+             * @description What made it: the periodic signer, an issued statement, or a request
+             * @enum {string}
+             */
+            reason: "interval" | "statement" | "request";
+            /** @description The audit row signed: the head of the chain at signing */
+            seq: number;
+            /** @description Ed25519 signature (base64) of "mvledger audit checkpoint v1\n" + canonical JSON of {headHash, organisationId, seq, signedAt} */
+            signature: string;
+            /** @description UTC time of signing */
+            signedAt: string;
+        };
+        AuditCheckpointPage: {
+            checkpoints: components["schemas"]["AuditCheckpoint"][];
+            /** @description The page size used (the limit asked for, or the default) */
+            limit: number;
+            /** @description Pass as cursor to get the next page; null on the last page. A list longer than the page size is never answered whole: follow nextCursor until it is null. */
+            nextCursor: string | null;
+            /** @description The key the service signs with now; null when it signs no checkpoints */
+            publicKey: {
+                keyId: string;
+                /** @description The Ed25519 public key, PEM (SubjectPublicKeyInfo) */
+                pem: string;
+            } | null;
         };
         AuditEntry: {
             action: string;
@@ -903,6 +997,14 @@ export interface components {
             /** @description Pass as cursor to get the next page (the same place as `next`); null on the last page */
             nextCursor: string | null;
         };
+        AuditStateDifference: {
+            /** @description What differs, in words: the stored value against the one the audit trail recorded */
+            difference: string;
+            /** @description Which row: its meter or station and period or date, or the entity id */
+            key: string;
+            /** @description readings, observations, rates, contracts, normal-years, adjustments, api-keys or baselines */
+            table: string;
+        };
         Baseline: {
             choiceReason: string | null;
             /**
@@ -926,6 +1028,8 @@ export interface components {
             options: {
                 /** @description Accept a 4P whose two slopes have the same sign (default false) */
                 allowSameSignFourPoint?: boolean;
+                /** @description Offer the facility calendar’s day types (PUT /v1/facilities/{id}/calendar) as indicator variables named "day type: NAME", every type but the first: one shared set of changepoints and slopes with a shift of the use per day for each day type (daily readings), or for bills the share of their days of each type. Each must earn its place like any variable. */
+                dayTypes?: boolean;
                 /** @description Share of a period’s days that must have weather (default 0.9) */
                 minCoverage?: number;
                 /** @description Fewest periods in each segment of a changepoint shape (default 3) */
@@ -1024,6 +1128,8 @@ export interface components {
             options: {
                 /** @description Accept a 4P whose two slopes have the same sign (default false) */
                 allowSameSignFourPoint?: boolean;
+                /** @description Offer the facility calendar’s day types (PUT /v1/facilities/{id}/calendar) as indicator variables named "day type: NAME", every type but the first: one shared set of changepoints and slopes with a shift of the use per day for each day type (daily readings), or for bills the share of their days of each type. Each must earn its place like any variable. */
+                dayTypes?: boolean;
                 /** @description Share of a period’s days that must have weather (default 0.9) */
                 minCoverage?: number;
                 /** @description Fewest periods in each segment of a changepoint shape (default 3) */
@@ -1175,6 +1281,20 @@ export interface components {
             floorArea: number | null;
             id: string;
             name: string;
+        };
+        /** @description A facility’s day types, weekly pattern and dated exceptions */
+        FacilityCalendar: {
+            dayTypes: string[];
+            exceptions: {
+                dayType: string;
+                end: string;
+                note?: string;
+                start: string;
+            }[];
+            facilityId: string;
+            updatedAt: string;
+            updatedBy: string;
+            weekly: string[];
         };
         /** @description Every candidate shape, the selection and the settings: the same document as the command line’s fit --json */
         FitDocument: {
@@ -1724,6 +1844,8 @@ export interface components {
             options: {
                 /** @description Accept a 4P whose two slopes have the same sign (default false) */
                 allowSameSignFourPoint?: boolean;
+                /** @description Offer the facility calendar’s day types (PUT /v1/facilities/{id}/calendar) as indicator variables named "day type: NAME", every type but the first: one shared set of changepoints and slopes with a shift of the use per day for each day type (daily readings), or for bills the share of their days of each type. Each must earn its place like any variable. */
+                dayTypes?: boolean;
                 /** @description Share of a period’s days that must have weather (default 0.9) */
                 minCoverage?: number;
                 /** @description Fewest periods in each segment of a changepoint shape (default 3) */
@@ -2337,9 +2459,165 @@ export interface operations {
             };
         };
     };
-    getAuditVerify: {
+    getAuditCheckpoints: {
+        parameters: {
+            query?: {
+                /** @description Checkpoints per page: default 100, at most 1000 */
+                limit?: number;
+                /** @description The nextCursor of the previous page, unchanged; omit for the first page */
+                cursor?: string;
+            };
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["AuditCheckpointPage"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    postAuditCheckpoints: {
         parameters: {
             query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["AuditCheckpoint"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Conflicts with stored data (an overlap, a frozen baseline, a changed reading without a reason); nothing was stored */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is larger than the service accepts */
+            413: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is not of a media type this operation takes */
+            415: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getAuditVerify: {
+        parameters: {
+            query?: {
+                /** @description chain: the hash chain and every frozen baseline against the hash its freeze recorded; full: also replay the trail and compare every result-bearing table with it */
+                depth?: "chain" | "full";
+            };
             header?: never;
             path?: never;
             cookie?: never;
@@ -2957,6 +3235,188 @@ export interface operations {
             };
             /** @description Not found in the caller's organisation */
             404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getFacilitiesByIdCalendar: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["FacilityCalendar"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    putFacilitiesByIdCalendar: {
+        parameters: {
+            query?: never;
+            header?: {
+                /** @description Replays return the first response; a different request with the same key is refused (422). */
+                "idempotency-key"?: string;
+            };
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": {
+                    /** @description The day types, the reference first (e.g. working, weekend, holiday, break): fits give every other type an indicator */
+                    dayTypes: string[];
+                    /** @description Dated exceptions overriding the weekly pattern (terms, breaks, holidays); they never overlap */
+                    exceptions: {
+                        /** @description A day type named in dayTypes */
+                        dayType: string;
+                        /**
+                         * Format: date
+                         * @description Day after the last (end exclusive)
+                         * @example 2025-01-31
+                         */
+                        end: string;
+                        note?: string;
+                        /**
+                         * Format: date
+                         * @description First day
+                         * @example 2025-01-31
+                         */
+                        start: string;
+                    }[];
+                    /** @description The day type of each weekday, Monday first */
+                    weekly: string[];
+                };
+            };
+        };
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["FacilityCalendar"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Conflicts with stored data (an overlap, a frozen baseline, a changed reading without a reason); nothing was stored */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is larger than the service accepts */
+            413: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is not of a media type this operation takes */
+            415: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
+            422: {
                 headers: {
                     [name: string]: unknown;
                 };
@@ -3933,6 +4393,8 @@ export interface operations {
                     options?: {
                         /** @description Accept a 4P whose two slopes have the same sign (default false) */
                         allowSameSignFourPoint?: boolean;
+                        /** @description Offer the facility calendar’s day types (PUT /v1/facilities/{id}/calendar) as indicator variables named "day type: NAME", every type but the first: one shared set of changepoints and slopes with a shift of the use per day for each day type (daily readings), or for bills the share of their days of each type. Each must earn its place like any variable. */
+                        dayTypes?: boolean;
                         /** @description Share of a period’s days that must have weather (default 0.9) */
                         minCoverage?: number;
                         /** @description Fewest periods in each segment of a changepoint shape (default 3) */
