@@ -14,7 +14,7 @@ import { analyseBaseline, type Reading, type VariableSeries } from '../../src/en
 import { makeTestApi, type TestApi } from '../support/api.js';
 import { databaseDigest } from '../support/db-digest.js';
 import { verifyAuditChain } from '../../src/store/audit.js';
-import { CLIMATES, SAMPLE_BUILDING, dailyWeather, monthlyReadings, nextMonth, seededRandom } from '../support/synthetic.js';
+import { CLIMATES, SAMPLE_BUILDING, dailyWeather, monthlyReadings, seededRandom } from '../support/synthetic.js';
 
 const random = seededRandom(41);
 const WEATHER = dailyWeather(CLIMATES.temperate, '2023-01-01', 1000, random);
@@ -188,6 +188,5 @@ describe('independent variables (POST/GET /v1/facilities/{id}/variables, /v1/var
     expect(unknown.status).toBe(422);
     expect(unknown.json.detail).toMatch(/^options\.variables\[0\]: no variable named "people"/);
     expect(await databaseDigest(api.store.db)).toBe(afterValues);
-    void nextMonth;
   });
 });
