@@ -157,6 +157,7 @@ describe('lists in pages', () => {
       [
         '/v1/api-keys',
         '/v1/audit',
+        '/v1/audit/checkpoints',
         '/v1/facilities',
         '/v1/facilities/{id}/meters',
         '/v1/facilities/{id}/variables',
