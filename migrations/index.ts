@@ -11,6 +11,7 @@ import * as statements0005 from './0005_statements.js';
 import * as variables0006 from './0006_independent_variables.js';
 import * as weatherFills0007 from './0007_weather_fills.js';
 import * as meterDataVersions0008 from './0008_meter_data_versions.js';
+import * as idempotencyHolder0009 from './0009_idempotency_holder.js';
 import * as auditCheckpoints0010 from './0010_audit_checkpoints.js';
 
 export const migrations: Record<string, Migration> = {
@@ -22,5 +23,6 @@ export const migrations: Record<string, Migration> = {
   '0006_independent_variables': variables0006,
   '0007_weather_fills': weatherFills0007,
   '0008_meter_data_versions': meterDataVersions0008,
+  '0009_idempotency_holder': idempotencyHolder0009,
   '0010_audit_checkpoints': auditCheckpoints0010,
 };

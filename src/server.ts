@@ -10,6 +10,8 @@ import { loadConfig, type Config } from './config.js';
 import { openStore, type Store } from './store/connect.js';
 import { keepRunningThroughDatabaseFaults } from './process-guard.js';
 import { migrateToLatest } from './store/migrate.js';
+import { releaseKeysOfGoneHolders } from './store/idempotency-keys.js';
+import { holderIsGone } from './lib/process-holder.js';
 import { bootstrapIfEmpty } from './services/organisations.js';
 import { buildApp, LOG_REDACTIONS } from './http/app.js';
 import { signEveryAuditHead } from './services/audit-checkpoints.js';
@@ -50,6 +52,9 @@ export async function startService(config: Config): Promise<RunningService> {
     checkpointSigner: config.checkpointSigner,
   });
   log = app.log;
+  // Keys a process of this host left in flight when it died: a retry is served at once, not after a minute.
+  const released = await releaseKeysOfGoneHolders(store.db, holderIsGone);
+  if (released > 0) app.log.info({ released }, 'released idempotency keys left in flight by a process that died');
   if (bootstrapped) app.log.info('new database: created the bootstrap organisation and its admin key');
   const address = await app.listen({ port: config.port, host: config.host });
   app.log.info({ database: store.location }, 'mvledger is listening');

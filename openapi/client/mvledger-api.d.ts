@@ -824,6 +824,26 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/weather-stations/{id}/normal-year/from-published-normals": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /**
+         * Store the station’s normal year from published daily normals
+         * @description The published daily normals file as the body (NOAA daily normals CSV), read in the named format: each day’s DLY-TAVG-NORMAL, else (DLY-TMAX-NORMAL + DLY-TMIN-NORMAL)/2; −9999, an empty cell or an unusable measurement flag is missing; 02-29 left out. Converted once to the station’s unit and stored as the station’s normal year with a source that says so, all or nothing, on the audit trail. A fault in the file is a 400 naming its line and column.
+         */
+        post: operations["postWeatherStationsByIdNormalYearFromPublishedNormals"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/weather-stations/{id}/observations": {
         parameters: {
             query?: never;
@@ -1073,6 +1093,8 @@ export interface components {
             version: number;
             /** @description Notes on the choice, e.g. that the chosen shape failed screening */
             warnings: string[];
+            /** @description The baseline’s periods whose weather includes days filled on record, by method (empty when none); a frozen window’s fills cannot change */
+            weatherFills: components["schemas"]["PeriodWeatherFills"][];
         };
         BaselineHistory: {
             baselines: components["schemas"]["BaselineSummary"][];
@@ -1427,6 +1449,15 @@ export interface components {
             unchanged: number;
             updated: number;
         };
+        PeriodWeatherFills: {
+            days: number;
+            end: string;
+            interpolation: number;
+            secondStation: number;
+            start: string;
+            /** @description e.g. "3 of 31 days filled by interpolation" */
+            summary: string;
+        };
         /** @description RFC 9457 problem details */
         Problem: {
             detail: string;
@@ -1615,15 +1646,7 @@ export interface components {
                 t: number | null;
             };
             /** @description Reporting periods whose weather includes days filled on record, by method */
-            weatherFills: {
-                days: number;
-                end: string;
-                interpolation: number;
-                secondStation: number;
-                start: string;
-                /** @description e.g. "3 of 31 days filled by interpolation" */
-                summary: string;
-            }[];
+            weatherFills: components["schemas"]["PeriodWeatherFills"][];
         };
         /** @description Portfolio, facility and meter savings with costs, guarantees, adjustments, normalised savings, method, sources and caution */
         SavingsReport: {
@@ -1891,6 +1914,8 @@ export interface components {
             version: number;
             /** @description Notes on the choice, e.g. that the chosen shape failed screening */
             warnings: string[];
+            /** @description The baseline’s periods whose weather includes days filled on record, by method (empty when none); a frozen window’s fills cannot change */
+            weatherFills: components["schemas"]["PeriodWeatherFills"][];
         };
         WeatherGapFill: {
             alreadyFilled: number;
@@ -6593,6 +6618,116 @@ export interface operations {
                     /** @description Width of the centred moving mean that smooths the calendar-day means (odd; default 15) */
                     windowDays?: number;
                 };
+            };
+        };
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["NormalYear"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Conflicts with stored data (an overlap, a frozen baseline, a changed reading without a reason); nothing was stored */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is larger than the service accepts */
+            413: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is not of a media type this operation takes */
+            415: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    postWeatherStationsByIdNormalYearFromPublishedNormals: {
+        parameters: {
+            query: {
+                /** @description noaa-daily-normals-csv: NOAA daily climate normals, one station per file (the access CSV or the by-station archive CSV) */
+                format: "noaa-daily-normals-csv";
+                /** @description The archive’s station id every row must carry (the GHCN-Daily id of the normals file) */
+                station?: string;
+                /** @description The unit of the file’s values (default F, as the published files are) */
+                fileUnit?: "F" | "C";
+            };
+            header?: {
+                /** @description Replays return the first response; a different request with the same key is refused (422). */
+                "idempotency-key"?: string;
+            };
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        /** @description The published daily normals file itself, as text (Content-Type text/plain or text/csv). */
+        requestBody: {
+            content: {
+                "text/csv": string;
+                "text/plain": string;
             };
         };
         responses: {

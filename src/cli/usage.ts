@@ -2,7 +2,9 @@
 import { CONFIDENCE_LEVELS, DEFAULT_EXTRAPOLATION_LIMIT, MIN_BASELINE_BILLS, MIN_BASELINE_DAYS, MODEL_NAMES } from '../engine/index.js';
 
 const COMMON_OPTIONS = `  --weather FILE      daily weather CSV: date,temp or date,tmin,tmax (mean = (tmin+tmax)/2);
-                      an empty temperature cell is a missing day
+                      an empty temperature cell is a missing day; an optional
+                      column filled (interpolation or second-station) marks days
+                      filled on record, and fit lists the periods that hold them
   --unit F|C          the weather station's unit (default F)
   --coverage X        share of a period's days that must have weather (default 0.9)
   --alpha X           two-sided level of the slope t-tests and the F-test (default 0.05)
@@ -127,6 +129,7 @@ command and exits 2.
 export const WEATHER_USAGE = `Usage: mvledger weather import --format NAME FILE [--station ID] [--unit F|C]
        mvledger weather import --format NAME FILE --url URL --station-id WST [--key KEY] [--station ID]
        mvledger weather check --format NAME FILE [--station ID] [--unit F|C] [--json]
+       mvledger weather normals FILE [--format noaa-daily-normals-csv] [--station ID] [--unit F|C] [--file-unit F|C] [--json]
 
 Read a public daily station file as published. Formats: ghcn-dly (GHCN-Daily
 fixed-width .dly), ghcn-csv (GHCN-Daily by-station CSV), gsod-csv (Global
@@ -142,6 +145,11 @@ counted; temperatures are converted once to --unit (default F).
   --key KEY           an API key (or MVLEDGER_API_KEY in the environment)
   check               the record's span, missing days per year, extremes and
                       days outside plausible bounds
+  normals             published daily normals (noaa-daily-normals-csv: NOAA's
+                      daily normals CSV) as the 365-day normal year, day,temp
+                      in --unit, its source to stderr; DLY-TAVG-NORMAL, else
+                      (DLY-TMAX-NORMAL + DLY-TMIN-NORMAL)/2; 02-29 left out
+  --file-unit F|C     the unit of the normals file's values (default F)
 `;
 
 export const VERIFY_USAGE = `Usage: mvledger verify --org ID [--full]

@@ -12,6 +12,7 @@ import { audit, inTransaction, type Executor, type ServiceContext, type Tx } fro
 import { getStationRow } from './weather-stations.js';
 import type { RecordLocator } from './readings.js';
 import { bumpStationMeterVersions } from '../store/data-versions.js';
+import { ArchiveFormatError, publishedNormalsSource, readDailyNormalsCsv, type NormalsFormat } from '../station-archives/index.js';
 
 export interface NormalYear {
   stationId: string;
@@ -90,6 +91,57 @@ export async function normalYearFromStationHistory(
       `smoothed by a centred ${built.windowDays}-day moving mean`;
     const temps = built.temps.map((t) => Math.round(t * 1e6) / 1e6);
     return storeNormalYear(trx, ctx, station, source, temps);
+  });
+}
+
+export interface PublishedNormalsInput {
+  format: NormalsFormat;
+  /** The file's text. */
+  text: string;
+  /** When given, the file must carry this station id (the archive's, not the ledger's). */
+  archiveStationId?: string;
+  /** The unit of the file's values (default F, as the published files are). */
+  fileUnit?: TemperatureUnit;
+}
+
+/**
+ * Store a station's normal year from published daily normals (NOAA's daily
+ * normals CSV, src/station-archives/daily-normals-csv.ts), as any normal
+ * year: replaced whole, with a source naming the file's station and how each
+ * day was taken, on the audit trail. A file that does not follow its layout
+ * stores nothing and is refused naming its line and column.
+ */
+export async function normalYearFromPublishedNormals(
+  ctx: ServiceContext,
+  stationId: string,
+  input: PublishedNormalsInput,
+): Promise<NormalYear> {
+  return inTransaction(ctx, async (trx) => {
+    const station = await getStationRow(trx, ctx.principal.organisationId, stationId);
+    let year;
+    try {
+      year = readDailyNormalsCsv(input.text, {
+        unit: station.temperature_unit,
+        ...(input.fileUnit !== undefined ? { fileUnit: input.fileUnit } : {}),
+        ...(input.archiveStationId !== undefined ? { expectedStationId: input.archiveStationId } : {}),
+      });
+    } catch (error) {
+      if (!(error instanceof ArchiveFormatError)) throw error;
+      throw new DomainError('invalid', `${input.format} file, ${error.message}`, [{ field: error.place, message: error.detail }]);
+    }
+    const problems = checkNormalYear(year.days, station.temperature_unit);
+    if (problems.length > 0) {
+      const errors = problems.map((p) => ({ field: p.index >= 0 ? `day ${year.days[p.index]!.day}` : p.field, message: p.message }));
+      throw fieldErrors('invalid', errors, MAX_LISTED_ERRORS);
+    }
+    const source = publishedNormalsSource(year, station.temperature_unit);
+    return storeNormalYear(
+      trx,
+      ctx,
+      station,
+      source,
+      year.days.map((d) => d.temp),
+    );
   });
 }
 

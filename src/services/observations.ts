@@ -5,7 +5,7 @@
  * against the station.
  */
 import { addDays, checkWeather, type TemperatureUnit } from '../engine/index.js';
-import type { Insertable } from 'kysely';
+import { PostgresAdapter, sql, type Insertable } from 'kysely';
 import type { FillMethod, WeatherObservationsTable } from '../store/schema.js';
 import { DomainError, type FieldError, fieldErrors, MAX_LISTED_ERRORS } from '../domain/errors.js';
 import { MAX_RECORDS_PER_BATCH } from '../domain/limits.js';
@@ -230,6 +230,7 @@ function compact(observation: Observation & { fill_method?: FillMethod | null })
 /** Writes observed or filled days; every meter on a station whose weather changed gets a new data version (its cached savings go stale). */
 export async function upsertChunked(trx: Tx, rows: readonly ObservationRow[]): Promise<void> {
   for (const stationId of new Set(rows.map((row) => row.station_id))) await bumpStationMeterVersions(trx, stationId);
+  if (rows.length > 0 && trx.getExecutor().adapter instanceof PostgresAdapter) return upsertByUnnest(trx, rows);
   for (let i = 0; i < rows.length; i += UPSERT_CHUNK_ROWS) {
     await trx
       .insertInto('weather_observations')
@@ -246,6 +247,23 @@ export async function upsertChunked(trx: Tx, rows: readonly ObservationRow[]): P
       )
       .execute();
   }
+}
+
+/**
+ * PostgreSQL: the whole batch as one statement, its columns travelling as
+ * arrays unnested in SQL (as readings-postgres.ts does for readings), in
+ * place of a multi-row VALUES statement per thousand rows.
+ */
+async function upsertByUnnest(trx: Tx, rows: readonly ObservationRow[]): Promise<void> {
+  const column = <K extends keyof ObservationRow>(key: K) => rows.map((row) => row[key] ?? null);
+  await sql`
+    insert into weather_observations (station_id, date, temp, tmin, tmax, updated_at, fill_method, fill_note)
+    select * from unnest(${column('station_id')}::text[], ${column('date')}::text[], ${column('temp')}::float8[],
+                         ${column('tmin')}::float8[], ${column('tmax')}::float8[], ${column('updated_at')}::text[],
+                         ${column('fill_method')}::text[], ${column('fill_note')}::text[])
+    on conflict (station_id, date) do update set
+      temp = excluded.temp, tmin = excluded.tmin, tmax = excluded.tmax, updated_at = excluded.updated_at,
+      fill_method = excluded.fill_method, fill_note = excluded.fill_note`.execute(trx);
 }
 
 /** Observations on dates in [from, to), by date, a page at a time. */

@@ -27,3 +27,11 @@ export function readStationArchive(format: ArchiveFormat, text: string, options:
   }
   return READERS[format](text, options);
 }
+export {
+  NORMALS_FORMATS,
+  publishedNormalsSource,
+  readDailyNormalsCsv,
+  type NormalsFormat,
+  type NormalsOptions,
+  type PublishedNormalYear,
+} from './daily-normals-csv.js';

@@ -26,10 +26,16 @@ export interface StoredAnswer {
 const byId = (id: IdempotencyKeyId) => ({ organisation_id: id.organisationId, key: id.key });
 
 /** Records the key as in flight; false when the organisation already has it (nothing is changed then). */
-export async function reserveIdempotencyKey(db: Kysely<Database>, id: IdempotencyKeyId, requestHash: string, at: string): Promise<boolean> {
+export async function reserveIdempotencyKey(
+  db: Kysely<Database>,
+  id: IdempotencyKeyId,
+  requestHash: string,
+  at: string,
+  holder: string,
+): Promise<boolean> {
   const inserted = await db
     .insertInto('idempotency_keys')
-    .values({ ...byId(id), request_hash: requestHash, status_code: null, response_body: null, content_type: null, created_at: at })
+    .values({ ...byId(id), request_hash: requestHash, status_code: null, response_body: null, content_type: null, created_at: at, holder })
     .onConflict((oc) => oc.columns(['organisation_id', 'key']).doNothing())
     .executeTakeFirst();
   return Number(inserted.numInsertedOrUpdatedRows ?? 0n) === 1;
@@ -45,14 +51,55 @@ export function findIdempotencyKey(db: Kysely<Database>, id: IdempotencyKeyId): 
     .executeTakeFirst();
 }
 
-/** Takes over a key whose first request died in flight: it is in flight again from `at`. */
-export async function renewIdempotencyKey(db: Kysely<Database>, id: IdempotencyKeyId, at: string): Promise<void> {
-  await db
+/**
+ * Takes over a key whose first request died in flight: it is in flight again
+ * from `at`, held by `holder`. Only while it is still in flight under the
+ * holder that was seen (`seenHolder`, `seenAt`): false when another retry
+ * took it over first (nothing is changed then).
+ */
+export async function renewIdempotencyKey(
+  db: Kysely<Database>,
+  id: IdempotencyKeyId,
+  seen: { holder: string | null; createdAt: string },
+  at: string,
+  holder: string,
+): Promise<boolean> {
+  const updated = await db
     .updateTable('idempotency_keys')
-    .set({ created_at: at })
+    .set({ created_at: at, holder })
     .where('organisation_id', '=', id.organisationId)
     .where('key', '=', id.key)
+    .where('status_code', 'is', null)
+    .where('created_at', '=', seen.createdAt)
+    .where((eb) => (seen.holder === null ? eb('holder', 'is', null) : eb('holder', '=', seen.holder)))
+    .executeTakeFirst();
+  return Number(updated.numUpdatedRows) === 1;
+}
+
+/**
+ * At start: frees every key still in flight under a holder `isGone` says is
+ * gone (a process of this host that died mid-request), so a retry is served
+ * at once. Returns how many were freed.
+ */
+export async function releaseKeysOfGoneHolders(db: Kysely<Database>, isGone: (holder: string) => boolean): Promise<number> {
+  const holders = await db
+    .selectFrom('idempotency_keys')
+    .select('holder')
+    .distinct()
+    .where('status_code', 'is', null)
+    .where('holder', 'is not', null)
     .execute();
+  let freed = 0;
+  for (const { holder } of holders) {
+    if (holder === null || !isGone(holder)) continue;
+    const deleted = await db
+      .deleteFrom('idempotency_keys')
+      .where('holder', '=', holder)
+      .where('status_code', 'is', null)
+      .executeTakeFirst();
+    freed += Number(deleted.numDeletedRows);
+  }
+  return freed;
 }
 
 /** Keeps the key's answer for replay. */

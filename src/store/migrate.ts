@@ -18,9 +18,10 @@ export async function migrateToLatest(db: Kysely<any>): Promise<string[]> {
     provider,
     migrationTableName: 'schema_migrations',
     migrationLockTableName: 'schema_migrations_lock',
-    // Numbers are handed out to work in progress, so a migration can land after a later-numbered one (0006 after 0008): each is independent of the ones numbered after it.
-    allowUnorderedMigrations: true,
     ...(schema ? { migrationTableSchema: schema } : {}),
+    // Numbers are handed out to work done side by side, so a lower number can land after a higher one
+    // has run somewhere (0009 after 0010): run it then, rather than refuse to start.
+    allowUnorderedMigrations: true,
   });
   // On SQLite the migrator has no lock between processes: two processes
   // starting together on a new file can both try the same migration, and the

@@ -143,6 +143,8 @@ export interface IdempotencyKeysTable {
   response_body: string | null;
   content_type: string | null;
   created_at: string;
+  /** The process serving the first request, `host/pid/start` (src/lib/process-holder.ts); null on rows from before 0009. */
+  holder: string | null;
 }
 
 /** A non-routine adjustment: added to the adjusted baseline of the reporting days it covers. */

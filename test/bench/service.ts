@@ -30,10 +30,11 @@ import { median, quantile } from './timing.js';
 import { postgresReachable, testPostgresUrl } from '../support/database.js';
 import { freePort } from '../support/ports.js';
 import { REPO_ROOT, RESULTS_DIR, serverArguments } from './paths.js';
+import { benchBootstrapKey } from './bench-key.js';
 
 const ROOT = REPO_ROOT;
 const WORK = join(ROOT, 'var', 'bench');
-const BOOTSTRAP_KEY = `mvl_benchkey_${'b'.repeat(40)}`;
+const BOOTSTRAP_KEY = benchBootstrapKey('benchkey');
 const METERS = 10;
 const DAYS_PER_METER = 10_000;
 const BATCH = 2_500;

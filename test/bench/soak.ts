@@ -21,10 +21,11 @@ import { median, quantile } from './timing.js';
 import { dropTestDatabase, freshTestDatabaseUrl, postgresReachable } from '../support/database.js';
 import { freePort } from '../support/ports.js';
 import { REPO_ROOT, RESULTS_DIR, serverArguments } from './paths.js';
+import { benchBootstrapKey } from './bench-key.js';
 
 const ROOT = REPO_ROOT;
 const WORK = join(ROOT, 'var', 'soak');
-const KEY = `mvl_soakkey1_${'s'.repeat(40)}`;
+const KEY = benchBootstrapKey('soakkey1');
 const SECONDS = Number(process.env.SOAK_SECONDS ?? 60);
 const SAMPLE_SECONDS = Number(process.env.SOAK_SAMPLE_SECONDS ?? 5);
 const BATCH_DAYS = 500;

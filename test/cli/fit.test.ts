@@ -210,3 +210,37 @@ describe('the committed examples', () => {
     expect(['4P', '5P']).toContain((JSON.parse(run.stdout) as { selected: string }).selected);
   });
 });
+
+describe('mvledger fit with a weather file that marks filled days', () => {
+  // Synthetic: the weather file's `filled` column marks three January days as interpolated, one in March from a second station.
+  const marks = new Map([
+    ['2022-01-10', 'interpolation'],
+    ['2022-01-11', 'interpolation'],
+    ['2022-01-12', 'interpolation'],
+    ['2022-03-05', 'second-station'],
+  ]);
+  const filledFile = folder.write(
+    'weather-filled.csv',
+    ['date,temp,filled', ...weather.map((d) => `${d.date},${d.temp},${marks.get(d.date) ?? ''}`)].join('\n') + '\n',
+  );
+
+  it('prints each period with filled days and its filled column; the fit is the same', async () => {
+    const run = await runCli(['fit', '--readings', readingsFile, '--weather', filledFile]);
+    expect(run.code).toBe(0);
+    const section = run.stdout.slice(run.stdout.indexOf('Periods whose weather was filled on record'));
+    const rows = section.split('\n').slice(1, 5);
+    expect(rows[0]).toMatch(/Period\s+Days\s+Filled/);
+    expect(section).toMatch(/2022-01-01 to 2022-02-01\s+31\s+3 of 31 days filled by interpolation/); // synthetic: the marks above
+    expect(section).toMatch(/2022-03-01 to 2022-04-01\s+31\s+1 of 31 days filled from a second station/);
+    const plain = await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile, '--json']);
+    const marked = await runCli(['fit', '--readings', readingsFile, '--weather', filledFile, '--json']);
+    expect(marked.stdout).toBe(plain.stdout); // the marks say where the weather came from; they do not change it
+  });
+
+  it('refuses an unknown fill method naming its row', async () => {
+    const bad = folder.write('weather-bad-fill.csv', `date,temp,filled\n2022-01-01,30,guessed\n`);
+    const run = await runCli(['fit', '--readings', readingsFile, '--weather', bad]);
+    expect(run.code).toBe(2);
+    expect(run.stderr).toMatch(/row 2, field "filled": must be empty, interpolation or second-station, got "guessed"\n$/);
+  });
+});

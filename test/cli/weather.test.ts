@@ -1,7 +1,7 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { makeTempFolder, runCli } from './helpers.js';
 import { makeTestApi } from '../support/api.js';
-import { dlyLine, GHCN_ID, repeat, type Slot } from '../station-archives/fixtures.js';
+import { dlyLine, GHCN_ID, NORMALS_ID, normalsAccessCsv, normalsValues, repeat, type Slot } from '../station-archives/fixtures.js';
 
 // A .dly file constructed to the published layout (invented id and values); check values hand-worked from it.
 const folder = makeTempFolder();
@@ -80,5 +80,32 @@ describe('mvledger weather', () => {
     } finally {
       await api.close();
     }
+  });
+});
+
+describe('mvledger weather normals', () => {
+  // A daily normals CSV constructed to the published layout (invented station and values, fixtures.ts).
+  const normals = folder.write('normals.csv', normalsAccessCsv());
+
+  it('prints the 365-day normal year as day,temp in the chosen unit, its source on stderr', async () => {
+    const run = await runCli(['weather', 'normals', normals, '--unit', 'F', '--station', NORMALS_ID]);
+    expect(run.code).toBe(0);
+    const lines = run.stdout.trim().split('\n');
+    expect(lines[0]).toBe('day,temp');
+    expect(lines).toHaveLength(366); // header + 365 days (02-29 left out)
+    expect(lines[1]).toBe(`01-01,${Number(normalsValues(0).tavg)}`); // synthetic: the fixture's value
+    expect(lines.some((l) => l.startsWith('02-29'))).toBe(false);
+    expect(run.stderr).toContain(`published daily normals (noaa-daily-normals-csv) of station ${NORMALS_ID}: DLY-TAVG-NORMAL on every day`);
+  });
+
+  it('refuses a faulty file in one line naming line and column, exit code 2', async () => {
+    const bad = folder.write(
+      'bad-normals.csv',
+      normalsAccessCsv({ change: (day, cells) => day === '01-03' && (cells['DLY-TAVG-NORMAL'] = 'x') }),
+    );
+    const run = await runCli(['weather', 'normals', bad]);
+    expect(run.code).toBe(2);
+    expect(run.stdout).toBe('');
+    expect(run.stderr).toMatch(/^mvledger: .*bad-normals\.csv: line 4, column 8 \(DLY-TAVG-NORMAL\): must be a number, got "x"\n$/);
   });
 });

@@ -76,12 +76,19 @@ export interface InFlight {
  * One request on its own connection (no keep-alive pool), through node:http
  * so the moment the body is fully sent is known.
  */
-export function send(base: string, method: string, path: string, body?: unknown, key = BOOTSTRAP_KEY): InFlight {
+export function send(
+  base: string,
+  method: string,
+  path: string,
+  body?: unknown,
+  key = BOOTSTRAP_KEY,
+  extraHeaders: Record<string, string> = {},
+): InFlight {
   const payload = body === undefined ? undefined : Buffer.from(JSON.stringify(body));
   let markSent: () => void = () => {};
   const sent = new Promise<void>((resolve) => (markSent = resolve));
   const outcome = new Promise<Outcome>((resolve) => {
-    const headers: Record<string, string | number> = { authorization: `Bearer ${key}`, connection: 'close' };
+    const headers: Record<string, string | number> = { ...extraHeaders, authorization: `Bearer ${key}`, connection: 'close' };
     if (payload) Object.assign(headers, { 'content-type': 'application/json', 'content-length': payload.length });
     const request = httpRequest(`${base}${path}`, { method, headers, agent: false }, (response) => {
       const chunks: Buffer[] = [];
@@ -109,8 +116,15 @@ export function send(base: string, method: string, path: string, body?: unknown,
 }
 
 /** Send and wait for the outcome. */
-export function call(base: string, method: string, path: string, body?: unknown, key = BOOTSTRAP_KEY): Promise<Outcome> {
-  return send(base, method, path, body, key).outcome;
+export function call(
+  base: string,
+  method: string,
+  path: string,
+  body?: unknown,
+  key = BOOTSTRAP_KEY,
+  extraHeaders: Record<string, string> = {},
+): Promise<Outcome> {
+  return send(base, method, path, body, key, extraHeaders).outcome;
 }
 
 /** The JSON of a 2xx answer, or fail naming what came back. */

@@ -355,4 +355,38 @@ describe('weather filled on record shows in savings and reports', () => {
     const html = await api.call('GET', `/v1/reports/savings?${window}&format=html`, { as: 'analyst' });
     expect(html.text).toContain(response.json.weatherFills[0].summary);
   });
+
+  it('names the baseline period whose weather was filled in the draft, the frozen baseline and its reads, and keeps the filled days frozen', async () => {
+    // Synthetic: three days of the baseline weather withheld, then filled by interpolation on record.
+    const withheld = new Set(['2023-06-10', '2023-06-11', '2023-06-12']);
+    const meterId = await seedMeter(
+      undefined,
+      WEATHER.filter((d) => !withheld.has(d.date)),
+    );
+    const meter = await api.call('GET', `/v1/meters/${meterId}`, { as: 'analyst' });
+    const stationId = meter.json.weatherStationId;
+    const fill = await api.call('POST', `/v1/weather-stations/${stationId}/gap-fills`, {
+      as: 'engineer',
+      body: { from: '2023-06-01', to: '2023-07-01', maxInterpolationDays: 3 },
+    });
+    expect(fill.json.filled).toEqual({ interpolation: 3, secondStation: 0 });
+    const draft = await api.call('POST', `/v1/meters/${meterId}/baselines`, { as: 'engineer', body: WINDOW });
+    expect(draft.status).toBe(201);
+    expect(draft.json.weatherFills).toHaveLength(1); // synthetic: one bill holds the three days
+    const [period] = draft.json.weatherFills;
+    expect(period).toMatchObject({ interpolation: 3, secondStation: 0 });
+    expect(period.start <= '2023-06-10' && '2023-06-12' < period.end).toBe(true);
+    expect(period.summary).toBe(`3 of ${period.days} days filled by interpolation`);
+    const frozen = await api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { as: 'engineer', body: { note: 'Agreed (test)' } });
+    expect(frozen.json.weatherFills).toEqual(draft.json.weatherFills);
+    const read = await api.call('GET', `/v1/baselines/${draft.json.id}`, { as: 'analyst' });
+    expect(read.json.weatherFills).toEqual(draft.json.weatherFills);
+    // A filled day inside the frozen window is protected as an observed one is: no observation replaces it.
+    const replace = await api.call('PUT', `/v1/weather-stations/${stationId}/observations`, {
+      as: 'integration',
+      body: { observations: [{ date: '2023-06-11', temp: 70 }] },
+    });
+    expect(replace.status).toBe(409); // the API contract
+    expect((await api.call('GET', `/v1/baselines/${draft.json.id}`, { as: 'analyst' })).json.weatherFills).toEqual(draft.json.weatherFills);
+  });
 });

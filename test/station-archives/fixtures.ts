@@ -80,3 +80,110 @@ export function gsodRow(
   ];
   return cells.map((c) => `"${c}"`).join(',');
 }
+
+/**
+ * NOAA daily normals CSV (1991–2020 daily normals, one file per station), constructed to the layouts
+ * of NOAA NCEI's "Readme By-Variable By-Station Normals Files" and its Normals_DLY_1991-2020_sample.csv,
+ * with an invented station and invented values: no real station's normals.
+ */
+export const NORMALS_ID = 'ZZC00054321';
+
+/** Every calendar day MM-DD of a leap year, 02-29 included (366). */
+export function normalsDays(): string[] {
+  const days: string[] = [];
+  for (let t = Date.UTC(2024, 0, 1); t < Date.UTC(2025, 0, 1); t += 86_400_000) days.push(new Date(t).toISOString().slice(5, 10));
+  return days;
+}
+
+/** One invented daily row's values in °F, tenths: a seasonal wave (synthetic: the test sets the truth). */
+export function normalsValues(index: number): { tavg: string; tmax: string; tmin: string } {
+  const tavg = Math.round(10 * (52 - 22 * Math.cos((2 * Math.PI * (index - 15)) / 366))) / 10;
+  return { tavg: tavg.toFixed(1), tmax: (tavg + 9.5).toFixed(1), tmin: (tavg - 9.5).toFixed(1) };
+}
+
+const quote = (cells: readonly string[]) => cells.map((c) => `"${c}"`).join(',');
+
+/**
+ * The access form, as the sample: quoted cells, STATION, NAME, LATITUDE, LONGITUDE, ELEVATION, DATE (MM-DD),
+ * quantities padded to width 8, and day, hour (99), month at the end. `change` edits a row's cells by name.
+ */
+export function normalsAccessCsv(
+  options: { days?: readonly string[]; change?: (day: string, cells: Record<string, string>) => void } = {},
+): string {
+  const columns = [
+    'STATION',
+    'NAME',
+    'LATITUDE',
+    'LONGITUDE',
+    'ELEVATION',
+    'DATE',
+    'DLY-HTDD-NORMAL',
+    'DLY-TAVG-NORMAL',
+    'DLY-TMAX-NORMAL',
+    'DLY-TMIN-NORMAL',
+    'day',
+    'hour',
+    'month',
+  ];
+  const all = normalsDays();
+  const rows = (options.days ?? all).map((day) => {
+    const v = normalsValues(all.indexOf(day));
+    const cells: Record<string, string> = {
+      STATION: NORMALS_ID,
+      NAME: 'INVENTED VALLEY 2 N, ZZ',
+      LATITUDE: ' 12.3456',
+      LONGITUDE: ' -65.4321',
+      ELEVATION: ' 123.4',
+      DATE: day,
+      'DLY-HTDD-NORMAL': '     9.9',
+      'DLY-TAVG-NORMAL': v.tavg.padStart(8),
+      'DLY-TMAX-NORMAL': v.tmax.padStart(8),
+      'DLY-TMIN-NORMAL': v.tmin.padStart(8),
+      day: day.slice(3),
+      hour: '99',
+      month: day.slice(0, 2),
+    };
+    options.change?.(day, cells);
+    return quote(columns.map((c) => cells[c] ?? ''));
+  });
+  return `${[quote(columns), ...rows].join('\n')}\n`;
+}
+
+/**
+ * The by-station archive form of the readme: STATION, LATITUDE, LONGITUDE, ELEVATION, NAME, month, day,
+ * hour, then per quantity four columns (value, meas_flag_, comp_flag_, years_); unquoted except the name.
+ */
+export function normalsArchiveCsv(options: { change?: (day: string, cells: Record<string, string>) => void } = {}): string {
+  const quantities = ['DLY-TAVG-NORMAL', 'DLY-TMAX-NORMAL', 'DLY-TMIN-NORMAL'];
+  const columns = [
+    'STATION',
+    'LATITUDE',
+    'LONGITUDE',
+    'ELEVATION',
+    'NAME',
+    'month',
+    'day',
+    'hour',
+    ...quantities.flatMap((q) => [q, `meas_flag_${q}`, `comp_flag_${q}`, `years_${q}`]),
+  ];
+  const rows = normalsDays().map((day, index) => {
+    const v = normalsValues(index);
+    const cells: Record<string, string> = {
+      STATION: NORMALS_ID,
+      LATITUDE: ' 12.3456',
+      LONGITUDE: '-65.4321',
+      ELEVATION: '123.4',
+      NAME: '"INVENTED VALLEY 2 N, ZZ"',
+      month: day.slice(0, 2),
+      day: day.slice(3),
+      hour: '99',
+    };
+    const values = [v.tavg, v.tmax, v.tmin];
+    quantities.forEach((q, i) =>
+      Object.assign(cells, { [q]: values[i]!.padStart(8), [`meas_flag_${q}`]: ' ', [`comp_flag_${q}`]: 'S', [`years_${q}`]: '30' }),
+    );
+    options.change?.(day, cells);
+    return columns.map((c) => cells[c] ?? '').join(',');
+  });
+  return `${[columns.join(','), ...rows].join('\n')}\n`;
+}

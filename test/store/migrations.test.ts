@@ -4,7 +4,7 @@
  * a second frozen baseline for one meter. Check values: the schema as written
  * in migrations/ (the source of truth).
  */
-import type { Kysely } from 'kysely';
+import { Migrator, type Kysely } from 'kysely';
 import { describe, expect, it } from 'vitest';
 import { openStore } from '../../src/store/connect.js';
 import { migrateToLatest } from '../../src/store/migrate.js';
@@ -199,6 +199,32 @@ describe('migrations', () => {
         { id: 'bsl_old', temperature_form: 'mean', short_baseline_override: null, extrapolation_override: null },
       ]);
       expect(await db.selectFrom('adjustments').select('uncertainty').executeTakeFirstOrThrow()).toEqual({ uncertainty: null });
+    } finally {
+      await store.close();
+      await dropTestDatabase(url);
+    }
+  });
+
+  it('runs a migration numbered below one already run (0009 arriving after 0010), instead of refusing to start', async () => {
+    const url = freshTestDatabaseUrl();
+    const store = openStore(url);
+    try {
+      // A database migrated by a build that had 0010 but not yet 0009 (the migrator's own bookkeeping, as migrate.ts names it).
+      const without = Object.fromEntries(Object.entries(migrations).filter(([name]) => name !== '0009_idempotency_holder'));
+      const schema = url.startsWith('postgres') ? new URL(url).searchParams.get('schema') : null;
+      const earlier = new Migrator({
+        db: store.db,
+        provider: { getMigrations: async () => without },
+        migrationTableName: 'schema_migrations',
+        migrationLockTableName: 'schema_migrations_lock',
+        ...(schema ? { migrationTableSchema: schema } : {}),
+      });
+      expect((await earlier.migrateToLatest()).error).toBeUndefined();
+      expect(await migrateToLatest(store.db)).toEqual(['0009_idempotency_holder']);
+      const columns = (await store.db.introspection.getTables())
+        .filter((t) => t.name === 'idempotency_keys' && (schema === null || t.schema === schema))
+        .flatMap((t) => t.columns.map((c) => c.name));
+      expect(columns).toContain('holder');
     } finally {
       await store.close();
       await dropTestDatabase(url);

@@ -242,6 +242,25 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
       change: (d) => (d.tables.idempotency_keys = []),
       says: /^tables\.idempotency_keys: not a table of format version 6/,
     },
+    // Keys must have been issued on the audit trail (issue 17 item 4): a hand-added admin key is refused by its id.
+    {
+      what: 'an admin key with no audit record of its issue',
+      change: (d) => d.tables.api_keys.push({ ...d.tables.api_keys[0], id: 'Zz9Zz9Zz', role: 'admin', revoked_at: null }),
+      says: /^tables\.api_keys\[\d+\]: key Zz9Zz9Zz has no audit record of its issue/,
+    },
+    {
+      what: 'a key whose role was raised after its issue',
+      change: (d) => {
+        const index = d.tables.api_keys.findIndex((k: any) => k.role !== 'admin');
+        d.tables.api_keys[index].role = 'admin';
+      },
+      says: /^tables\.api_keys\[\d+\]: key \S+ has no audit record of its issue with this name, role and time/,
+    },
+    {
+      what: 'a key revoked with no audit record of its revocation',
+      change: (d) => (d.tables.api_keys[0].revoked_at = '2031-01-01T00:00:00.000Z'),
+      says: /^tables\.api_keys\[0\]\.revoked_at: key \S+ has no audit record of its revocation/,
+    },
     { what: 'a missing table', change: (d) => delete d.tables.baselines, says: /^tables\.baselines: must be a list of rows, got nothing/ },
     // The API's own rules on each row (src/store/transfer-rules.ts), not only the column types.
     {

@@ -1,5 +1,5 @@
 /** `mvledger fit`: fit every shape to the baseline readings and choose one. */
-import { baselineSufficiency } from '../../engine/index.js';
+import { baselineSufficiency, filledDaysByPeriod } from '../../engine/index.js';
 import type { FitOptions } from '../options.js';
 import { loadReadings } from '../input/readings-file.js';
 import { loadWeather } from '../input/weather-file.js';
@@ -26,5 +26,7 @@ export async function runFit(options: FitOptions): Promise<string> {
     minCoverage: options.minCoverage,
     lineOf: lineLookup(readings),
     sufficiency: baselineSufficiency(analysis.periods),
+    weatherFills: filledDaysByPeriod(readings.readings, weather.filled),
+    filledColumn: weather.filled.size > 0,
   });
 }

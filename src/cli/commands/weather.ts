@@ -3,13 +3,18 @@
  * by-station CSV, GSOD CSV) read by the same pure readers the service uses.
  * `import` writes `date,temp` to stdout with the account on stderr, or, with
  * --url and --station-id, posts the file to the service's import route;
- * `check` prints the record's summary (years, missing, extremes).
+ * `check` prints the record's summary (years, missing, extremes);
+ * `normals` reads published daily normals (NOAA's daily normals CSV) and
+ * prints the 365-day normal year as `day,temp`.
  */
 import { readFile, stat } from 'node:fs/promises';
 import { summariseStationRecord, unitSymbol, type TemperatureUnit } from '../../engine/index.js';
 import {
   ARCHIVE_FORMATS,
   ArchiveFormatError,
+  NORMALS_FORMATS,
+  publishedNormalsSource,
+  readDailyNormalsCsv,
   MAX_ARCHIVE_CHARACTERS,
   readStationArchive,
   type ArchiveCounts,
@@ -26,6 +31,7 @@ const SPEC = {
   url: { type: 'string' },
   key: { type: 'string' },
   'station-id': { type: 'string' },
+  'file-unit': { type: 'string' },
   json: { type: 'boolean' },
 } as const;
 
@@ -39,10 +45,12 @@ const KEY_VARIABLE = 'MVLEDGER_API_KEY';
 
 export async function runWeather(args: readonly string[], env: NodeJS.ProcessEnv = process.env): Promise<WeatherOutput> {
   const [sub, ...rest] = args;
-  if (sub !== 'import' && sub !== 'check') throw new UsageError(`weather: give import or check (got ${JSON.stringify(sub ?? '')})`);
+  if (sub !== 'import' && sub !== 'check' && sub !== 'normals')
+    throw new UsageError(`weather: give import, check or normals (got ${JSON.stringify(sub ?? '')})`);
   const { values, positionals } = parseOptions(rest, SPEC, true);
   if (positionals.length !== 1) throw new UsageError(`weather ${sub}: give exactly one FILE (got ${positionals.length})`);
   const file = positionals[0]!;
+  if (sub === 'normals') return printNormals(file, values);
   const format = values.format;
   if (typeof format !== 'string' || !(ARCHIVE_FORMATS as readonly string[]).includes(format)) {
     throw new UsageError(`--format: one of ${ARCHIVE_FORMATS.join(', ')} (got ${JSON.stringify(format ?? '')})`);
@@ -73,6 +81,35 @@ export async function runWeather(args: readonly string[], env: NodeJS.ProcessEnv
   }
   const csv = ['date,temp', ...days.map((d) => `${d.date},${d.temp}`)].join('\n');
   return { stdout: `${csv}\n`, note: `${file}: ${describeCounts(archive.archiveStationId, archive.counts)}\n` };
+}
+
+function unitOption(name: string, value: string | boolean | undefined): TemperatureUnit {
+  const unit = (value ?? 'F') as string;
+  if (unit !== 'F' && unit !== 'C') throw new UsageError(`--${name}: F or C (got ${JSON.stringify(unit)})`);
+  return unit;
+}
+
+/** `weather normals FILE`: the published daily normals read into a 365-day normal year, printed as day,temp (or JSON). */
+async function printNormals(file: string, values: Record<string, string | boolean | undefined>): Promise<WeatherOutput> {
+  const format = values.format ?? NORMALS_FORMATS[0];
+  if (typeof format !== 'string' || !(NORMALS_FORMATS as readonly string[]).includes(format)) {
+    throw new UsageError(`--format: ${NORMALS_FORMATS.join(', ')} for weather normals (got ${JSON.stringify(format)})`);
+  }
+  const unit = unitOption('unit', values.unit);
+  const fileUnit = unitOption('file-unit', values['file-unit']);
+  const station = typeof values.station === 'string' ? values.station : undefined;
+  const text = await readArchiveFile(file);
+  let year;
+  try {
+    year = readDailyNormalsCsv(text, { unit, fileUnit, ...(station !== undefined ? { expectedStationId: station } : {}) });
+  } catch (error) {
+    if (error instanceof ArchiveFormatError) throw new InputFileError(file, null, null, error.message);
+    throw error;
+  }
+  const source = publishedNormalsSource(year, unit);
+  if (values.json) return { stdout: `${JSON.stringify({ temperatureUnit: unit, source, days: year.days }, null, 2)}\n` };
+  const csv = ['day,temp', ...year.days.map((d) => `${d.day},${d.temp}`)].join('\n');
+  return { stdout: `${csv}\n`, note: `${file}: ${source}\n` };
 }
 
 async function readArchiveFile(file: string): Promise<string> {

@@ -3,7 +3,7 @@
  * each candidate's reasons, the periods left out, and the Guideline 14
  * acceptance of the selected shape.
  */
-import type { BaselineSufficiency, FitDocument, TemperatureUnit } from '../../engine/index.js';
+import type { BaselineSufficiency, FitDocument, PeriodFills, TemperatureUnit } from '../../engine/index.js';
 import { unitSymbol } from '../../engine/index.js';
 import { CAUTION } from './caution.js';
 import { guideline14Lines } from './guideline14-lines.js';
@@ -22,6 +22,10 @@ export interface FitReportContext {
   lineOf(index: number): number;
   /** Whether the baseline covers a full cycle of seasons. */
   sufficiency: BaselineSufficiency;
+  /** The readings' periods with days filled on record (from the weather file's `filled` column). */
+  weatherFills?: readonly PeriodFills[];
+  /** Whether the weather file had a `filled` column at all (the section is printed only then). */
+  filledColumn?: boolean;
 }
 
 /**
@@ -115,6 +119,23 @@ export function renderFitReport(document: FitDocument, context: FitReportContext
   if (exclusions.length > 0) {
     lines.push('', 'Readings left out by the engineer');
     for (const e of exclusions) lines.push(`  ${e.start} to ${e.end} (quantity ${e.quantity}): ${e.reason}`);
+  }
+
+  if (context.filledColumn) {
+    const fills = context.weatherFills ?? [];
+    lines.push('', 'Periods whose weather was filled on record');
+    if (fills.length === 0) lines.push('  none');
+    else
+      lines.push(
+        ...renderTable(
+          [
+            { title: 'Period', align: 'left' },
+            { title: 'Days', align: 'right' },
+            { title: 'Filled', align: 'left' },
+          ],
+          fills.map((f) => [`${f.start} to ${f.end}`, String(f.days), f.summary]),
+        ).map((line) => `  ${line}`),
+      );
   }
 
   const selected = document.candidates.find((c) => c.model === document.selected);

@@ -3,8 +3,11 @@
  * (daily mean = (tmin + tmax) / 2, common practice). All temperatures are in
  * the station's unit. An empty temperature cell is a missing day: the
  * engine's coverage rule decides whether the periods around it stay usable.
+ * An optional column `filled` names a day filled on record (interpolation or
+ * second-station, as the service lists them; empty for an observed day), so
+ * `fit` can say which periods rest on filled days.
  */
-import { checkWeather, isIsoDate, type DailyTemperature, type TemperatureUnit } from '../../engine/index.js';
+import { checkWeather, FILL_METHODS, isIsoDate, type DailyTemperature, type FillMethod, type TemperatureUnit } from '../../engine/index.js';
 import { cell, readCsvTable, requireColumns, type CsvRow, type CsvTable } from '../../lib/csv/csv-table.js';
 import { parseNumberCell } from '../../lib/csv/cells.js';
 import { locateProblems, throwFirstProblem, type LocatedProblem } from './problems.js';
@@ -17,6 +20,8 @@ export interface WeatherFile {
   weather: DailyTemperature[];
   /** Line in the file of each day, by index. */
   lines: number[];
+  /** Days the file's `filled` column marks as filled on record, by method (empty without the column). */
+  filled: Map<string, FillMethod>;
 }
 
 export async function loadWeather(file: string, unit: TemperatureUnit): Promise<WeatherFile> {
@@ -51,10 +56,24 @@ export function weatherFromTable(table: CsvTable, unit: TemperatureUnit): Weathe
       if (tmin > tmax) problems.push({ line: day.line, field: 'tmin', message: `tmin ${tmin} is above tmax ${tmax}` });
     }
   }
-  throwFirstProblem(table.file, problems, ['date', ...temperatureColumns]);
+  const filled = new Map<string, FillMethod>();
+  if (table.columns.includes('filled')) {
+    for (const row of table.rows) {
+      const method = cell(row, 'filled');
+      if (method === '') continue;
+      if (!(FILL_METHODS as readonly string[]).includes(method)) {
+        problems.push({
+          line: row.line,
+          field: 'filled',
+          message: `must be empty, ${FILL_METHODS.join(' or ')}, got ${JSON.stringify(method)}`,
+        });
+      } else filled.set(cell(row, 'date'), method as FillMethod);
+    }
+  }
+  throwFirstProblem(table.file, problems, ['date', ...temperatureColumns, 'filled']);
 
   const weather = days.map((d) => ({ date: d.date, temp: hasMean ? d.values[0]! : (d.values[0]! + d.values[1]!) / 2 }));
-  return { file: table.file, unit, source: hasMean ? 'temp' : 'tmin/tmax', weather, lines };
+  return { file: table.file, unit, source: hasMean ? 'temp' : 'tmin/tmax', weather, lines, filled };
 }
 
 /** The row's temperatures, or null for a missing day (an empty temperature cell). */

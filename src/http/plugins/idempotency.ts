@@ -4,7 +4,9 @@
  * `Idempotent-Replayed: true`); the same key with a different request is
  * refused. Keys are scoped to the organisation. A failed request frees its
  * key, since nothing was stored. A key whose first request died in flight is
- * freed after STALE_AFTER_MS.
+ * freed after STALE_AFTER_MS, or at once when its holder (the process that
+ * served it, `host/pid/start`) is known to be gone: a process of this host
+ * that died mid-request.
  */
 import type { FastifyRequest } from 'fastify';
 import fp from 'fastify-plugin';
@@ -17,6 +19,7 @@ import {
   reserveIdempotencyKey,
 } from '../../store/idempotency-keys.js';
 import { canonicalJson, sha256Hex } from '../../lib/canonical-json.js';
+import { holderIsGone, thisHolder } from '../../lib/process-holder.js';
 import { Problem } from '../problem.js';
 import { databaseFault, faultRecord } from '../../store/faults.js';
 import { FASTIFY_VERSION, PLUGIN } from './names.js';
@@ -49,11 +52,15 @@ export interface IdempotencyOptions {
   store: Store;
   /** The current time as ISO-8601. */
   now: () => string;
+  /** This process as the holder of the keys it reserves (default: src/lib/process-holder.ts). */
+  holder?: string;
+  /** Whether a key's holder is certainly gone (default: a dead process of this host). */
+  isGone?: (holder: string) => boolean;
 }
 
 /** Reserves the key before a write's handler runs, replays a finished one, and keeps (or frees) the key as the write answers. */
 export const idempotencyPlugin = fp<IdempotencyOptions>(
-  async (app, { store, now }) => {
+  async (app, { store, now, holder = thisHolder(), isGone = holderIsGone }) => {
     app.addHook('preHandler', async (request, reply) => {
       const header = request.headers[IDEMPOTENCY_HEADER];
       if (header === undefined || !['POST', 'PUT', 'DELETE'].includes(request.method) || !request.principal) return;
@@ -65,7 +72,7 @@ export const idempotencyPlugin = fp<IdempotencyOptions>(
       }
       const id = { organisationId: request.principal.organisationId, key };
       const hash = requestHash(request);
-      if (await reserveIdempotencyKey(store.db, id, hash, now())) {
+      if (await reserveIdempotencyKey(store.db, id, hash, now(), holder)) {
         request.idempotency = id;
         return;
       }
@@ -79,9 +86,11 @@ export const idempotencyPlugin = fp<IdempotencyOptions>(
       }
       if (existing.status_code === null) {
         const age = Date.parse(now()) - Date.parse(existing.created_at);
-        if (age < STALE_AFTER_MS)
-          throw new Problem('idempotency-in-flight', 'the first request with this key has not finished; retry shortly');
-        await renewIdempotencyKey(store.db, id, now());
+        const gone = existing.holder !== null && existing.holder !== holder && isGone(existing.holder);
+        const takenOver =
+          (gone || age >= STALE_AFTER_MS) &&
+          (await renewIdempotencyKey(store.db, id, { holder: existing.holder, createdAt: existing.created_at }, now(), holder));
+        if (!takenOver) throw new Problem('idempotency-in-flight', 'the first request with this key has not finished; retry shortly');
         request.idempotency = id;
         return;
       }

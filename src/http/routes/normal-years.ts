@@ -1,8 +1,14 @@
 /** /v1/weather-stations/{id}/normal-year: the station's normal year for normalised savings (JSON or CSV). */
 import type { RouteDeps } from '../route-deps.js';
-import { getNormalYear, normalYearFromStationHistory, putNormalYear } from '../../services/normal-years.js';
+import { getNormalYear, normalYearFromPublishedNormals, normalYearFromStationHistory, putNormalYear } from '../../services/normal-years.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
-import { normalYearFromHistoryBody, normalYearSchema, putNormalYearBody } from '../schemas/normal-years.js';
+import {
+  normalYearFromHistoryBody,
+  normalYearSchema,
+  publishedNormalsBody,
+  publishedNormalsQuery,
+  putNormalYearBody,
+} from '../schemas/normal-years.js';
 import { requestContext } from '../request-context.js';
 import { recordLocator } from './readings.js';
 import type { ApiApp } from './types.js';
@@ -45,6 +51,33 @@ export function normalYearsRoutes(app: ApiApp, deps: RouteDeps): void {
       },
     },
     async (request) => normalYearFromStationHistory(requestContext(request, deps).service, request.params.id, request.body),
+  );
+
+  app.post(
+    '/v1/weather-stations/:id/normal-year/from-published-normals',
+    {
+      config: { permission: 'ledger' },
+      schema: {
+        tags: ['weather'],
+        summary: 'Store the station’s normal year from published daily normals',
+        description:
+          'The published daily normals file as the body (NOAA daily normals CSV), read in the named format: each day’s DLY-TAVG-NORMAL, else (DLY-TMAX-NORMAL + DLY-TMIN-NORMAL)/2; −9999, an empty cell or an unusable measurement flag is missing; 02-29 left out. Converted once to the station’s unit and stored as the station’s normal year with a source that says so, all or nothing, on the audit trail. A fault in the file is a 400 naming its line and column.',
+        security: bearer,
+        params: idParams,
+        querystring: publishedNormalsQuery,
+        headers: idempotencyHeaders,
+        consumes: ['text/plain', 'text/csv'],
+        body: publishedNormalsBody,
+        response: { 200: normalYearSchema, ...writeProblems },
+      },
+    },
+    async (request) =>
+      normalYearFromPublishedNormals(requestContext(request, deps).service, request.params.id, {
+        format: request.query.format,
+        text: request.body,
+        ...(request.query.station !== undefined ? { archiveStationId: request.query.station } : {}),
+        ...(request.query.fileUnit !== undefined ? { fileUnit: request.query.fileUnit } : {}),
+      }),
   );
 
   app.get(

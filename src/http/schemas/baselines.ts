@@ -308,12 +308,33 @@ export const baselineSummarySchema = z
   .object(baselineFields)
   .meta({ id: 'BaselineSummary', description: 'A baseline without its fit document' });
 
-export const baselineSchema = z.object({ ...baselineFields, fit: fitDocumentSchema }).meta({ id: 'Baseline' });
+/** Periods whose weather includes days filled on record, by method: the baseline's and the reporting periods' alike. */
+export const weatherFillsSchema = z.array(
+  z
+    .object({
+      start: z.string(),
+      end: z.string(),
+      days: z.number().int(),
+      interpolation: z.number().int(),
+      secondStation: z.number().int(),
+      summary: z.string().describe('e.g. "3 of 31 days filled by interpolation"'),
+    })
+    .meta({ id: 'PeriodWeatherFills' }),
+);
+
+const baselineWeatherFills = weatherFillsSchema.describe(
+  'The baseline’s periods whose weather includes days filled on record, by method (empty when none); a frozen window’s fills cannot change',
+);
+
+export const baselineSchema = z
+  .object({ ...baselineFields, fit: fitDocumentSchema, weatherFills: baselineWeatherFills })
+  .meta({ id: 'Baseline' });
 
 export const verifiedBaselineSchema = z
   .object({
     ...baselineFields,
     fit: fitDocumentSchema,
+    weatherFills: baselineWeatherFills,
     verified: z.boolean().describe('The stored content still hashes to contentHash (false for a draft, which has no hash)'),
   })
   .meta({ id: 'VerifiedBaseline' });

@@ -2,6 +2,7 @@
 import { z } from 'zod';
 import { finite, plainText } from './common.js';
 import { temperatureUnit } from './weather-stations.js';
+import { NORMALS_FORMATS } from '../../station-archives/index.js';
 
 export const putNormalYearBody = z
   .object({
@@ -52,3 +53,24 @@ export const normalYearFromHistoryBody = z
       .describe('Width of the centred moving mean that smooths the calendar-day means (odd; default 15)'),
   })
   .strict();
+
+export const normalsFormat = z
+  .enum(NORMALS_FORMATS)
+  .describe('noaa-daily-normals-csv: NOAA daily climate normals, one station per file (the access CSV or the by-station archive CSV)');
+
+export const publishedNormalsQuery = z
+  .object({
+    format: normalsFormat,
+    station: plainText()
+      .trim()
+      .min(1)
+      .max(40)
+      .optional()
+      .describe('The archive’s station id every row must carry (the GHCN-Daily id of the normals file)'),
+    fileUnit: temperatureUnit.optional().describe('The unit of the file’s values (default F, as the published files are)'),
+  })
+  .strict();
+
+export const publishedNormalsBody = z
+  .string()
+  .describe('The published daily normals file itself, as text (Content-Type text/plain or text/csv).');

@@ -11,6 +11,7 @@ import {
   stat,
   sufficiencySchema,
   temperatureForm,
+  weatherFillsSchema,
 } from './baselines.js';
 
 const confidenceText = CONFIDENCE_LEVELS.join(', ');
@@ -126,18 +127,7 @@ export const savingsSchema = z
     baselineId: z.string(),
     baselineVersion: z.number().int(),
     baselineContentHash: z.string(),
-    weatherFills: z
-      .array(
-        z.object({
-          start: z.string(),
-          end: z.string(),
-          days: z.number().int(),
-          interpolation: z.number().int(),
-          secondStation: z.number().int(),
-          summary: z.string().describe('e.g. "3 of 31 days filled by interpolation"'),
-        }),
-      )
-      .describe('Reporting periods whose weather includes days filled on record, by method'),
+    weatherFills: weatherFillsSchema.describe('Reporting periods whose weather includes days filled on record, by method'),
   })
   .meta({
     id: 'Savings',

@@ -21,7 +21,7 @@ import type {
   verifiedBaselineSchema,
 } from './baselines.js';
 import type { contractSchema, putContractBody } from './contracts.js';
-import type { normalYearFromHistoryBody, normalYearSchema, putNormalYearBody } from './normal-years.js';
+import type { normalYearFromHistoryBody, normalYearSchema, normalsFormat, putNormalYearBody } from './normal-years.js';
 import type { observationsList, putObservationsBody, putObservationsResult } from './observations.js';
 import type { putRatesBody, rateScheduleSchema } from './rates.js';
 import type { dateRangeQuery, postReadingsBody, postReadingsResult, readingsList, seriesQuery } from './readings.js';
@@ -59,7 +59,12 @@ import type { createApiKey, listApiKeys, revokeApiKey } from '../../services/api
 import type { listAuditEntries, verifyAudit } from '../../services/audit.js';
 import type { chooseModel, createBaseline, freezeBaseline, getBaseline, listBaselines } from '../../services/baselines/index.js';
 import type { getContract, putContract } from '../../services/contracts.js';
-import type { getNormalYear, normalYearFromStationHistory, putNormalYear } from '../../services/normal-years.js';
+import type {
+  getNormalYear,
+  normalYearFromPublishedNormals,
+  normalYearFromStationHistory,
+  putNormalYear,
+} from '../../services/normal-years.js';
 import type { listObservations, putObservations } from '../../services/observations.js';
 import type { getRates, putRates } from '../../services/rates.js';
 import type { listReadings, postReadings } from '../../services/readings.js';
@@ -190,6 +195,8 @@ export type NormalYearRoutes = [
   Expect<Agree<Parsed<typeof normalYearFromHistoryBody>, Takes<typeof normalYearFromStationHistory, 2>>>,
   Expect<Agree<Gives<typeof normalYearFromStationHistory>, Answer<typeof normalYearSchema>>>,
   Expect<Agree<Gives<typeof getNormalYear>, Answer<typeof normalYearSchema>>>,
+  Expect<Agree<z.output<typeof normalsFormat>, Takes<typeof normalYearFromPublishedNormals, 2>['format']>>,
+  Expect<Agree<Gives<typeof normalYearFromPublishedNormals>, Answer<typeof normalYearSchema>>>,
 ];
 
 export type ObservationRoutes = [

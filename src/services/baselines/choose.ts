@@ -7,6 +7,7 @@ import { audit, inTransaction, type ServiceContext } from '../context.js';
 import { getBaselineRow } from './reads.js';
 import type { Baseline } from './types.js';
 import { toBaselineSummary, viewOf } from './views.js';
+import { baselineWeatherFills } from './fills.js';
 
 export function assertDraft(row: BaselineRow): void {
   if (row.status === 'draft') return;
@@ -49,6 +50,6 @@ export async function chooseModel(ctx: ServiceContext, baselineId: string, input
       before: toBaselineSummary(row),
       after: toBaselineSummary(updated),
     });
-    return viewOf(updated);
+    return { ...viewOf(updated), weatherFills: await baselineWeatherFills(trx, updated) };
   });
 }

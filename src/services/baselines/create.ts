@@ -31,6 +31,7 @@ import type { Executor } from '../../store/executor.js';
 import { readingId } from '../readings.js';
 import { variableSeriesForMeter } from '../variables.js';
 import { viewOf } from './views.js';
+import { baselineWeatherFills } from './fills.js';
 
 function describeReading(reading: { start: string; end: string }): string {
   return `reading ${reading.start}..${reading.end}`;
@@ -206,6 +207,6 @@ export async function createBaseline(
     const baseline = viewOf(row);
     const { fit: _fit, ...summary } = baseline;
     await audit(trx, ctx, { action: 'create', entityType: 'baseline', entityId: row.id, after: summary });
-    return baseline;
+    return { ...baseline, weatherFills: await baselineWeatherFills(trx, row) };
   });
 }

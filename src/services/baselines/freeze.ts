@@ -12,6 +12,7 @@ import { assertDraft } from './choose.js';
 import { getBaselineRow } from './reads.js';
 import type { Baseline, FreezeInput } from './types.js';
 import { storedBaselinePeriods, toBaselineSummary, viewOf } from './views.js';
+import { baselineWeatherFills } from './fills.js';
 
 /**
  * A draft shorter than a full cycle of seasons is refused (422, the reasons
@@ -131,6 +132,6 @@ export async function freezeBaseline(ctx: ServiceContext, baselineId: string, in
       before: toBaselineSummary(row),
       after: toBaselineSummary(frozen),
     });
-    return viewOf(frozen);
+    return { ...viewOf(frozen), weatherFills: await baselineWeatherFills(trx, frozen) };
   });
 }

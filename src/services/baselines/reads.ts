@@ -7,6 +7,7 @@ import { getMeterRow } from '../meters.js';
 import { decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from '../paging.js';
 import type { Baseline, BaselineSummary } from './types.js';
 import { toBaselineSummary, viewOf } from './views.js';
+import { baselineWeatherFills } from './fills.js';
 
 /** The organisation's baseline, or a 404 (another organisation's id included). */
 export async function getBaselineRow(db: Executor, organisationId: string, id: string): Promise<BaselineRow> {
@@ -22,7 +23,7 @@ export async function getBaselineRow(db: Executor, organisationId: string, id: s
 
 export async function getBaseline(db: Executor, organisationId: string, id: string): Promise<Baseline & { verified: boolean }> {
   const row = await getBaselineRow(db, organisationId, id);
-  return { ...viewOf(row), verified: verifyBaselineContent(row) };
+  return { ...viewOf(row), weatherFills: await baselineWeatherFills(db, row), verified: verifyBaselineContent(row) };
 }
 
 /** The meter's baseline versions, newest first, a page at a time. */

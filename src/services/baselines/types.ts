@@ -5,6 +5,7 @@ import type {
   DailyTemperature,
   FitDocument,
   ModelName,
+  PeriodFills,
   ProjectionOverrides,
   Reading,
   TemperatureForm,
@@ -95,4 +96,6 @@ export interface ExclusionRequest {
 export interface Baseline extends BaselineSummary {
   /** The engine's fit document, non-finite numbers as null. */
   fit: FitDocument;
+  /** The baseline's periods whose weather includes days filled on record, by method (none: empty). */
+  weatherFills: PeriodFills[];
 }

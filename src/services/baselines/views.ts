@@ -98,7 +98,8 @@ function fitDocumentOf(row: BaselineRow): FitDocument {
   };
 }
 
-export function viewOf(row: BaselineRow): Baseline {
+/** The row as the API shows it, without its weather fills (fills.ts reads those from the station's record). */
+export function viewOf(row: BaselineRow): Omit<Baseline, 'weatherFills'> {
   const document = fitDocumentOf(row);
   return { ...summaryOf(row, document), fit: document };
 }

@@ -5,6 +5,7 @@
 import { INTEGER, ORGANISATION_RULE, TEXT } from './columns.js';
 import { checkCell, checkRow, checkTable, fail, isObject, shown } from './check-rows.js';
 import { checkAuditTrail, checkBaselineHashes, checkReferences, checkStatementCopies } from './check-integrity.js';
+import { checkKeysIssuedOnRecord } from './check-key-audit.js';
 import { firstRuleBroken } from './rules.js';
 import {
   EXPORT_FORMAT,
@@ -56,6 +57,7 @@ export function checkDocument(value: unknown): ExportDocument {
   if (broken) throw new TransferInputError(broken);
   const auditHead = { seq: head.seq as number, hash: head.hash as string };
   checkAuditTrail(organisation.id, tables.audit_log, auditHead);
+  checkKeysIssuedOnRecord(tables.api_keys, tables.audit_log);
   checkBaselineHashes(tables.baselines);
   checkStatementCopies(tables.statement_copies);
   return { format: EXPORT_FORMAT, version: EXPORT_VERSION, exportedAt: value.exportedAt, organisation, auditHead, tables };
