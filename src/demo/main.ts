@@ -14,9 +14,6 @@ import { startService, type RunningService } from '../server.js';
 import { generateApiKey } from '../store/api-keys.js';
 import { convertEnergy, NORMAL_YEAR_DAYS } from '../engine/index.js';
 import {
-  CALENDAR_DEMO,
-  calendarDemoBills,
-  calendarDemoBuiltInSavings,
   BASELINE_END,
   CONTRACT_CURRENCY,
   DEMO_DISTRICT,
@@ -43,27 +40,6 @@ export interface DemoSeed {
   facilities: { id: string; name: string; meters: { id: string; name: string; unit: string; baselineId: string; model: string }[] }[];
   /** HTML reports fetched from the API and saved next to the demo database. */
   reports: { quarter: string; contractYear: string };
-  /** The calendar demo (seeded after the reports, so they show the three schools only). */
-  calendarDemo: CalendarDemoSeed;
-}
-
-/** One meter fitted without and with its facility calendar, and what each baseline books as savings in 2025. */
-export interface CalendarDemoSeed {
-  facilityId: string;
-  meterId: string;
-  /** The invented retrofit's true saving in 2025 (kWh). */
-  trueSavings: number;
-  weatherOnly: CalendarDemoFit;
-  withCalendar: CalendarDemoFit;
-}
-
-export interface CalendarDemoFit {
-  baselineId: string;
-  model: string;
-  variables: string[];
-  cvrmse: number;
-  meetsGuideline14: boolean;
-  savings: number;
 }
 
 type Call = (method: string, path: string, body?: unknown) => Promise<any>;
@@ -168,75 +144,7 @@ export async function seedDemo(base: string, adminKey: string, reportFolder = di
       join(reportFolder, 'savings-report-contract-year-1.html'),
     ),
   };
-  const calendarDemo = await seedCalendarDemo(call, billing, station.id, weatherByDate);
-  return {
-    adminKey,
-    analystKey: analyst.token,
-    integrationKey: integration.token,
-    stationId: station.id,
-    facilities,
-    reports,
-    calendarDemo,
-  };
-}
-
-/**
- * The calendar demo: fit and freeze a weather-only baseline, read its 2025
- * savings, then fit with the facility calendar's day types, freeze that in
- * its place (with the reason) and read the savings again.
- */
-async function seedCalendarDemo(
-  call: Call,
-  billing: Call,
-  stationId: string,
-  weather: ReadonlyMap<string, number>,
-): Promise<CalendarDemoSeed> {
-  const plan = CALENDAR_DEMO;
-  const facility = await call('POST', '/v1/facilities', { ...plan.facility, name: plan.facility.name });
-  await call('PUT', `/v1/facilities/${facility.id}/calendar`, plan.calendar);
-  const meter = await call('POST', `/v1/facilities/${facility.id}/meters`, {
-    name: plan.meter.name,
-    fuel: plan.meter.fuel,
-    unit: plan.meter.unit,
-    weatherStationId: stationId,
-  });
-  await call('POST', `/v1/meters/${meter.id}/readings`, { readings: calendarDemoBills(weather, BASELINE_START, BASELINE_END, 0, 101) });
-  await billing('POST', `/v1/meters/${meter.id}/readings`, {
-    readings: calendarDemoBills(weather, BASELINE_END, REPORTING_END, plan.meter.reportingSaving, 102),
-  });
-  const fitAndFreeze = async (options: Record<string, unknown>, freeze: Record<string, unknown>): Promise<CalendarDemoFit> => {
-    const baseline = await call('POST', `/v1/meters/${meter.id}/baselines`, { start: BASELINE_START, end: BASELINE_END, options });
-    await call('POST', `/v1/baselines/${baseline.id}/freeze`, freeze);
-    const savings = await call('GET', `/v1/meters/${meter.id}/savings`);
-    const chosen = baseline.fit.candidates.find((c: { model: string }) => c.model === baseline.chosen);
-    return {
-      baselineId: baseline.id,
-      model: baseline.chosen,
-      variables: baseline.fit.variables ?? [],
-      cvrmse: chosen.stats.cvrmse,
-      meetsGuideline14: savings.baseline.guideline14.pass,
-      savings: savings.totals.savings,
-    };
-  };
-  const weatherOnly = await fitAndFreeze(
-    {},
-    { note: 'Weather-only baseline (demo)', overrides: { extrapolation: { reason: 'demo comparison' } } },
-  );
-  const withCalendar = await fitAndFreeze(
-    { dayTypes: true },
-    {
-      note: 'Baseline with the centre’s calendar (demo)',
-      supersedeReason: 'Use falls in breaks and at weekends: the M&V plan adds the calendar’s day types (demo)',
-      overrides: { extrapolation: { reason: 'demo comparison' } },
-    },
-  );
-  return {
-    facilityId: facility.id,
-    meterId: meter.id,
-    trueSavings: calendarDemoBuiltInSavings(weather, BASELINE_END, REPORTING_END),
-    weatherOnly,
-    withCalendar,
-  };
+  return { adminKey, analystKey: analyst.token, integrationKey: integration.token, stationId: station.id, facilities, reports };
 }
 
 /** Fetch a report as the finance analyst would, and keep it as a file a browser can open. */
@@ -279,15 +187,6 @@ export function describeDemo(base: string, seed: DemoSeed): string {
       lines.push(`    signature:      ${base}/v1/baselines/${meter.baselineId}/signature.svg`);
     }
   }
-  const demo = seed.calendarDemo;
-  const fitLine = (label: string, fit: CalendarDemoFit) =>
-    `    ${label} ${fit.model}${fit.variables.length > 0 ? ` + ${fit.variables.join(', ')}` : ''}: CV(RMSE) ${(fit.cvrmse * 100).toFixed(1)}%, Guideline 14 ${fit.meetsGuideline14 ? 'met' : 'not met'}; 2025 avoided energy ${Math.round(fit.savings).toLocaleString('en-US')} kWh`;
-  lines.push(`  ${CALENDAR_DEMO.facility.name}: electricity falls in breaks and at weekends; the 2025 summer break is two weeks longer`);
-  lines.push(`    the invented retrofit's true 2025 saving: ${Math.round(demo.trueSavings).toLocaleString('en-US')} kWh`);
-  lines.push(fitLine('weather only: ', demo.weatherOnly));
-  lines.push(fitLine('with calendar:', demo.withCalendar));
-  lines.push(`    calendar:       ${base}/v1/facilities/${demo.facilityId}/calendar`);
-  lines.push(`    savings:        ${base}/v1/meters/${demo.meterId}/savings`);
   lines.push(`  audit check:      ${base}/v1/audit/verify`);
   lines.push('');
   lines.push('Try:');

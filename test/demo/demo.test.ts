@@ -45,21 +45,6 @@ describe('npm run demo', () => {
     expect(printed).toContain('licensed professional');
   });
 
-  it('shows a baseline that needs its calendar: weather only it books the longer break as savings, with the day types it does not', () => {
-    const demo = seed.calendarDemo;
-    const numbers = JSON.stringify(demo);
-    expect(demo.weatherOnly.variables, numbers).toEqual([]);
-    expect(demo.withCalendar.variables, numbers).toContain('day type: break');
-    // The truth is the scenario's own invented saving (synthetic: the scenario sets it).
-    const errorWithout = Math.abs(demo.weatherOnly.savings - demo.trueSavings);
-    const errorWith = Math.abs(demo.withCalendar.savings - demo.trueSavings);
-    expect(errorWith, numbers).toBeLessThan(errorWithout / 2);
-    expect(errorWith / demo.trueSavings, numbers).toBeLessThan(0.35);
-    expect(demo.withCalendar.cvrmse, numbers).toBeLessThan(demo.weatherOnly.cvrmse);
-    expect(printed).toContain('with calendar:');
-    expect(printed).toContain('weather only: ');
-  });
-
   it('answers the printed savings URL with the analyst key: every meter saved energy, distinguishably from zero', async () => {
     for (const meter of seed.facilities.flatMap((f) => f.meters)) {
       const response = await get(`/v1/meters/${meter.id}/savings?confidence=0.9`, seed.analystKey);
