@@ -226,6 +226,26 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/baselines/{id}/points": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * The numbers behind the charts of every fitted shape
+         * @description Each usable baseline period (dates, days, quantity, use per day, mean temperature), and for every fitted shape its line, its expected use per day of each period and each period’s energy residual: what a client needs to draw all candidates on the energy signature and their residuals against time and temperature, and to show the same numbers in a table.
+         */
+        get: operations["getBaselinesByIdPoints"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/baselines/{id}/signature.svg": {
         parameters: {
             query?: never;
@@ -371,6 +391,26 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/me": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * The calling key: its name, role and permissions
+         * @description Every role may ask. A client uses it to show only the actions the key may take; the API still checks each permission on every call.
+         */
+        get: operations["getMe"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/meters": {
         parameters: {
             query?: never;
@@ -450,6 +490,46 @@ export interface paths {
          * @description Fits every changepoint shape to the meter’s readings lying fully inside [start, end) against its station’s daily weather, selects one, and keeps the result as a draft (the next version of the meter’s baseline). 422 when too few periods are usable, with the reasons.
          */
         post: operations["postMetersByIdBaselines"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/meters/{id}/baselines/newest": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * The meter’s newest baseline version, with its fit and a fresh check of its content hash
+         * @description The same answer as GET /v1/baselines/{id} for the meter’s highest version (draft, frozen or superseded), without reading the history first. 404 when the meter has no baseline yet.
+         */
+        get: operations["getMetersByIdBaselinesNewest"];
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/meters/{id}/baselines/newest/points": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * The numbers behind the charts of the meter’s newest baseline version
+         * @description The same answer as GET /v1/baselines/{id}/points for the meter’s highest version, without reading the history first. 404 when the meter has no baseline yet.
+         */
+        get: operations["getMetersByIdBaselinesNewestPoints"];
+        put?: never;
+        post?: never;
         delete?: never;
         options?: never;
         head?: never;
@@ -1112,6 +1192,57 @@ export interface components {
                 reason: string;
             } | null;
         };
+        /** @description The numbers behind the energy signature and residual charts of every fitted shape, for drawing and tabulating them */
+        BaselinePoints: {
+            baselineId: string;
+            candidates: {
+                /** @description The shape’s expected use per day of each period, in the order of periods */
+                expectedPerDay: (number | null)[];
+                /** @description Vertices of the shape’s line over the temperatures it saw (the daily ones for a day-resolved fit) */
+                line: {
+                    temp: number;
+                    usePerDay: number;
+                }[];
+                /**
+                 * @description A changepoint shape, named as ASHRAE Guideline 14 names it
+                 * @enum {string}
+                 */
+                model: "1P" | "2P" | "3PC" | "3PH" | "4P" | "5P";
+                /** @description Each period’s energy residual, quantity − days × expected use per day */
+                residuals: (number | null)[];
+            }[];
+            /**
+             * @description A changepoint shape, named as ASHRAE Guideline 14 names it
+             * @enum {string}
+             */
+            chosen: "1P" | "2P" | "3PC" | "3PH" | "4P" | "5P";
+            meterId: string;
+            meterName: string;
+            /** @description The usable baseline periods, by start: what every shape was fitted to */
+            periods: {
+                coverage: number;
+                days: number;
+                end: string;
+                estimated: boolean;
+                meanTemp: number;
+                quantity: number;
+                start: string;
+                usePerDay: number;
+            }[];
+            /**
+             * @description A changepoint shape, named as ASHRAE Guideline 14 names it
+             * @enum {string}
+             */
+            selected: "1P" | "2P" | "3PC" | "3PH" | "4P" | "5P";
+            /**
+             * @description How each reading’s weather enters the model: daily (day-resolved: the mean over its days of the daily response) or mean (the response at its mean temperature)
+             * @enum {string}
+             */
+            temperatureForm: "daily" | "mean";
+            /** @enum {string} */
+            temperatureUnit: "F" | "C";
+            useUnit: string;
+        };
         /** @description Whether the baseline covers a full cycle of seasons (common practice: a full year of bills) */
         BaselineSufficiency: {
             /** @description Median period of 7 days or more: the 12-bill rule applies */
@@ -1195,6 +1326,24 @@ export interface components {
             version: number;
             /** @description Notes on the choice, e.g. that the chosen shape failed screening */
             warnings: string[];
+        };
+        /** @description The calling API key (never its secret), its role’s permissions and its organisation */
+        Caller: {
+            key: {
+                id: string;
+                name: string;
+                /**
+                 * @description admin: everything, keys included; engineer: read, savings, data, ledger; analyst: read, savings; integration: savings, data
+                 * @enum {string}
+                 */
+                role: "admin" | "engineer" | "analyst" | "integration";
+            };
+            organisation: {
+                id: string;
+                name: string;
+            };
+            /** @description What the role may do (every route states the one it needs); the API checks it again on every call */
+            permissions: ("read" | "savings" | "data" | "ledger" | "keys" | "approve" | "reconcile" | "self")[];
         };
         /** @description One fitted shape with its verdict and reasons */
         Candidate: {
@@ -2982,6 +3131,64 @@ export interface operations {
             };
         };
     };
+    getBaselinesByIdPoints: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["BaselinePoints"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
     getBaselinesByIdSignatureSvg: {
         parameters: {
             query?: never;
@@ -4005,6 +4212,62 @@ export interface operations {
             };
         };
     };
+    getMe: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Caller"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
     getMeters: {
         parameters: {
             query?: {
@@ -4526,6 +4789,122 @@ export interface operations {
             };
             /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
             422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getMetersByIdBaselinesNewest: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["VerifiedBaseline"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getMetersByIdBaselinesNewestPoints: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["BaselinePoints"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
                 headers: {
                     [name: string]: unknown;
                 };

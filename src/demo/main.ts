@@ -35,6 +35,7 @@ export const DEMO_DATABASE = join('var', 'demo', 'mvledger-demo.sqlite');
 export interface DemoSeed {
   adminKey: string;
   analystKey: string;
+  engineerKey: string;
   integrationKey: string;
   stationId: string;
   facilities: { id: string; name: string; meters: { id: string; name: string; unit: string; baselineId: string; model: string }[] }[];
@@ -61,6 +62,7 @@ function client(base: string, token: string): Call {
 export async function seedDemo(base: string, adminKey: string, reportFolder = dirname(DEMO_DATABASE)): Promise<DemoSeed> {
   const call = client(base, adminKey);
   const analyst = await call('POST', '/v1/api-keys', { name: 'finance analyst (demo)', role: 'analyst' });
+  const engineer = await call('POST', '/v1/api-keys', { name: 'performance-contract engineer (demo)', role: 'engineer' });
   const integration = await call('POST', '/v1/api-keys', { name: 'billing system (demo)', role: 'integration' });
   const billing = client(base, integration.token);
 
@@ -144,7 +146,15 @@ export async function seedDemo(base: string, adminKey: string, reportFolder = di
       join(reportFolder, 'savings-report-contract-year-1.html'),
     ),
   };
-  return { adminKey, analystKey: analyst.token, integrationKey: integration.token, stationId: station.id, facilities, reports };
+  return {
+    adminKey,
+    analystKey: analyst.token,
+    engineerKey: engineer.token,
+    integrationKey: integration.token,
+    stationId: station.id,
+    facilities,
+    reports,
+  };
 }
 
 /** Fetch a report as the finance analyst would, and keep it as a file a browser can open. */
@@ -165,9 +175,11 @@ export function describeDemo(base: string, seed: DemoSeed): string {
     `baseline ${BASELINE_START}..${BASELINE_END}, reporting year 2025)`,
     '',
     `  admin key:        ${seed.adminKey}`,
+    `  engineer key:     ${seed.engineerKey}`,
     `  analyst key:      ${seed.analystKey}`,
     `  integration key:  ${seed.integrationKey}`,
     '',
+    `  workbench:        ${base}/app/  (paste a key above; it stays in that browser tab only)`,
     `  API docs:         ${base}/docs`,
     `  facilities:       ${base}/v1/facilities`,
     '',

@@ -16,16 +16,18 @@ export interface Principal {
  * keys: manage API keys; approve: approve, reject or void an issued statement
  * (never one's own: the service checks that); reconcile: what a billing
  * system needs to reconcile what it posted (the meter list, a meter, a
- * meter's readings), which every role has.
+ * meter's readings), which every role has; self: see the calling key's own
+ * name, role and permissions (GET /v1/me), which every role has, so a client
+ * can show only what the key may do.
  */
-export type Permission = 'read' | 'savings' | 'data' | 'ledger' | 'keys' | 'approve' | 'reconcile';
+export type Permission = 'read' | 'savings' | 'data' | 'ledger' | 'keys' | 'approve' | 'reconcile' | 'self';
 
 export const ROLE_PERMISSIONS: Readonly<Record<Role, readonly Permission[]>> = {
-  admin: ['read', 'savings', 'data', 'ledger', 'keys', 'approve', 'reconcile'],
-  engineer: ['read', 'savings', 'data', 'ledger', 'reconcile'],
-  analyst: ['read', 'savings', 'approve', 'reconcile'],
+  admin: ['read', 'savings', 'data', 'ledger', 'keys', 'approve', 'reconcile', 'self'],
+  engineer: ['read', 'savings', 'data', 'ledger', 'reconcile', 'self'],
+  analyst: ['read', 'savings', 'approve', 'reconcile', 'self'],
   // A billing system posts readings, reads back meters and its readings to reconcile, and reads savings: nothing more.
-  integration: ['savings', 'data', 'reconcile'],
+  integration: ['savings', 'data', 'reconcile', 'self'],
 };
 
 export function allows(role: Role, permission: Permission): boolean {

@@ -18,6 +18,7 @@ import { rateLimitPlugin } from './plugins/rate-limit.js';
 import { idempotencyPlugin } from './plugins/idempotency.js';
 import { csvBodiesPlugin } from './plugins/csv-bodies.js';
 import { textInputPlugin } from './plugins/text-input.js';
+import { workbenchPlugin, type WorkbenchFolders } from './plugins/workbench.js';
 import { FailedAuthenticationLimit } from './plugins/failed-authentication.js';
 import { answerClientError } from './security-headers.js';
 import { routesPlugin } from './routes/index.js';
@@ -44,6 +45,8 @@ export interface AppOptions {
   savingsCacheBytes?: number;
   /** A cache to use instead (tests read its counters). */
   savingsCache?: SavingsCache;
+  /** Where the /app workbench's files are (default: web/public and dist/web under the package root). */
+  workbench?: WorkbenchFolders;
   /** Signs audit checkpoints (config MVLEDGER_CHECKPOINT_KEY_FILE); absent: none are signed. */
   checkpointSigner?: CheckpointSigner | undefined;
 }
@@ -164,6 +167,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     theme: { title: 'mvledger API: documentation' },
   });
 
+  await app.register(workbenchPlugin, { folders: options.workbench });
   app.get('/openapi.json', { schema: { hide: true } }, async () => app.swagger());
   await app.register(routesPlugin, deps);
   return app;

@@ -9,7 +9,7 @@ import { insertApiKey, publicKey } from '../store/api-keys.js';
 import { appendAudit } from '../store/audit.js';
 import { lockOrganisation } from '../store/transactions.js';
 import type { ApiKeyRow, Database } from '../store/schema.js';
-import type { Role } from '../domain/principal.js';
+import { ROLE_PERMISSIONS, type Permission, type Principal, type Role } from '../domain/principal.js';
 import { notFound, DomainError } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
 import { oldestFirstPage, PAGE_SIZES, type PageInfo, type PageRequest } from './paging.js';
@@ -137,4 +137,28 @@ export async function revokeKeyAsOperator(db: Kysely<Database>, id: string, at: 
       });
       return { outcome: 'revoked', key: withOrganisation(revoked) };
     });
+}
+
+/** The calling key as it may see itself (never its secret): what GET /v1/me answers. */
+export interface CallerView {
+  key: { id: string; name: string; role: Role };
+  permissions: Permission[];
+  organisation: { id: string; name: string };
+}
+
+/** The calling key's name, role, permissions (ROLE_PERMISSIONS) and organisation, so a client shows only what the key may do. */
+export async function describeCaller(db: Executor, principal: Principal): Promise<CallerView> {
+  const key = await db
+    .selectFrom('api_keys')
+    .select(['id', 'name', 'role'])
+    .where('id', '=', principal.keyId)
+    .where('organisation_id', '=', principal.organisationId)
+    .executeTakeFirst();
+  const organisation = await db
+    .selectFrom('organisations')
+    .select(['id', 'name'])
+    .where('id', '=', principal.organisationId)
+    .executeTakeFirst();
+  if (!key || !organisation) throw notFound('api key', principal.keyId);
+  return { key: { id: key.id, name: key.name, role: key.role as Role }, permissions: [...ROLE_PERMISSIONS[principal.role]], organisation };
 }

@@ -36,6 +36,8 @@ describe('npm run demo', () => {
   it('prints the keys, the docs URL and a savings and a signature URL for every meter', () => {
     expect(printed).toContain(seed.adminKey);
     expect(printed).toContain(`${base}/docs`);
+    expect(printed).toContain(`${base}/app/`);
+    expect(printed).toContain(seed.engineerKey);
     const meters = seed.facilities.flatMap((f) => f.meters);
     expect(meters).toHaveLength(6); // three schools × electricity and gas (the scenario's own count)
     for (const meter of meters) {

@@ -159,6 +159,20 @@ describe('docker/Dockerfile', () => {
     }
   });
 
+  it('builds the /app workbench and ships its page with the service', () => {
+    const builder = dockerfile.find((s) => s.body.some((i) => i.keyword === 'RUN' && i.args.includes('web/build.mjs')));
+    expect(builder, 'a stage running node web/build.mjs').toBeDefined();
+    const copied = copiesOf(builder!)
+      .filter((c) => c.from === null)
+      .flatMap((c) => c.sources.map((s) => s.replace(/^\.\//, '').replace(/\/$/, '')));
+    // web/build.mjs bundles web/src, which imports the report charts under src/
+    for (const needed of ['web', 'src']) expect(copied, needed).toContain(needed);
+    // src/http/plugins/workbench.ts reads web/public and dist/web under the package root
+    const finalSources = copiesOf(finalStage).flatMap((c) => c.sources.map((s) => s.replace(/^\.\//, '').replace(/\/$/, '')));
+    expect(finalSources).toContain('web/public');
+    expect(finalSources).toContain('/app/dist');
+  });
+
   it('installs dependencies reproducibly from the lockfile, production only in the final image', () => {
     const runs = dockerfile.flatMap((s) => s.body.filter((i) => i.keyword === 'RUN').map((i) => i.args));
     expect(runs.some((r) => r.includes('npm ci --omit=dev'))).toBe(true); // issue 5: runtime dependencies only

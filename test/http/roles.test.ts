@@ -14,7 +14,7 @@ import type { Role } from '../../src/domain/principal.js';
 import { makeTestApi, type CallOptions, type TestApi } from '../support/api.js';
 
 const METHODS = ['get', 'post', 'put', 'patch', 'delete'] as const;
-const PERMISSIONS = Object.keys({ read: 0, savings: 0, data: 0, ledger: 0, keys: 0, approve: 0, reconcile: 0 } satisfies Record<
+const PERMISSIONS = Object.keys({ read: 0, savings: 0, data: 0, ledger: 0, keys: 0, approve: 0, reconcile: 0, self: 0 } satisfies Record<
   Permission,
   0
 >) as Permission[];
@@ -90,7 +90,7 @@ function statusOf(op: Operation, caller: Caller): number {
   return outcomes.get(cell(op, caller))!.status;
 }
 
-/** The permissions whose roles are exactly the roles that were let through (savings and reconcile are both every role's). */
+/** The permissions whose roles are exactly the roles that were let through (savings, reconcile and self are every role's). */
 function observedPermissions(op: Operation): Permission[] {
   const through = new Set(ROLES.filter((role) => statusOf(op, role) !== 403));
   return PERMISSIONS.filter((p) => ROLES.every((role) => allows(role, p) === through.has(role)));
@@ -100,11 +100,15 @@ function observedPermissions(op: Operation): Permission[] {
  * The permission a route should need, from the meaning of each permission
  * (src/domain/principal.ts): keys for API keys; savings for savings; data to
  * post readings and observations; read for other GETs; approve for a statement's
- * approval, rejection and voiding; ledger for other writes.
+ * approval, rejection and voiding, and for signing the audit head (what those
+ * who check statements ask for); self for the calling key's own description;
+ * ledger for other writes.
  */
 function conventionalPermission(op: Operation): Permission {
+  if (op.path === '/v1/me') return 'self';
   if (op.path.startsWith('/v1/api-keys')) return 'keys';
   if (/^\/v1\/statements\/\{id\}\/(approve|reject|void)$/.test(op.path)) return 'approve';
+  if (op.method === 'post' && op.path === '/v1/audit/checkpoints') return 'approve';
   if (/\/savings(\/|$)/.test(op.path)) return 'savings';
   // What a billing system reads back to reconcile: the meters and a meter's readings.
   if (op.method === 'get' && /^\/v1\/meters(\/\{id\}(\/readings)?)?$/.test(op.path)) return 'reconcile';
@@ -180,10 +184,10 @@ describe('the role matrix over every route in the OpenAPI document', () => {
   it('gives the admin role every permission and the others the documented subsets', () => {
     // from src/domain/principal.ts, restated so a change to the table is a visible decision
     expect(ROLE_PERMISSIONS).toEqual({
-      admin: ['read', 'savings', 'data', 'ledger', 'keys', 'approve', 'reconcile'],
-      engineer: ['read', 'savings', 'data', 'ledger', 'reconcile'],
-      analyst: ['read', 'savings', 'approve', 'reconcile'],
-      integration: ['savings', 'data', 'reconcile'],
+      admin: ['read', 'savings', 'data', 'ledger', 'keys', 'approve', 'reconcile', 'self'],
+      engineer: ['read', 'savings', 'data', 'ledger', 'reconcile', 'self'],
+      analyst: ['read', 'savings', 'approve', 'reconcile', 'self'],
+      integration: ['savings', 'data', 'reconcile', 'self'],
     });
   });
 });

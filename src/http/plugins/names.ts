@@ -19,6 +19,8 @@ export const PLUGIN = {
   textInput: 'mvledger-text-input',
   /** Idempotency-Key on writes. */
   idempotency: 'mvledger-idempotency',
+  /** The /app workbench's page and files, under their own content security policy. */
+  workbench: 'mvledger-workbench',
   /** Every route module. */
   routes: 'mvledger-routes',
   /** Third-party plugins' own names, as their packages declare them. */

@@ -2,17 +2,21 @@
 import { z } from 'zod';
 import type { RouteDeps } from '../route-deps.js';
 import {
+  baselinePoints,
   baselineSignatureData,
   chooseModel,
   createBaseline,
   freezeBaseline,
   getBaseline,
+  getNewestBaseline,
   listBaselines,
+  newestBaselinePoints,
 } from '../../services/baselines/index.js';
 import { renderBaselineSignature } from '../../reports/svg/baseline-signature.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageQuery } from '../schemas/common.js';
 import {
   baselineHistorySchema,
+  baselinePointsSchema,
   baselineSchema,
   chooseBody,
   createBaselineBody,
@@ -61,6 +65,40 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
       },
     },
     async (request) => listBaselines(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
+  );
+
+  app.get(
+    '/v1/meters/:id/baselines/newest',
+    {
+      config: { permission: 'read' },
+      schema: {
+        tags: ['baselines'],
+        summary: 'The meter’s newest baseline version, with its fit and a fresh check of its content hash',
+        description:
+          'The same answer as GET /v1/baselines/{id} for the meter’s highest version (draft, frozen or superseded), without reading the history first. 404 when the meter has no baseline yet.',
+        security: bearer,
+        params: idParams,
+        response: { 200: verifiedBaselineSchema, ...authProblems },
+      },
+    },
+    async (request) => getNewestBaseline(deps.store.db, requestContext(request, deps).organisationId, request.params.id),
+  );
+
+  app.get(
+    '/v1/meters/:id/baselines/newest/points',
+    {
+      config: { permission: 'read' },
+      schema: {
+        tags: ['baselines'],
+        summary: 'The numbers behind the charts of the meter’s newest baseline version',
+        description:
+          'The same answer as GET /v1/baselines/{id}/points for the meter’s highest version, without reading the history first. 404 when the meter has no baseline yet.',
+        security: bearer,
+        params: idParams,
+        response: { 200: baselinePointsSchema, ...authProblems },
+      },
+    },
+    async (request) => newestBaselinePoints(deps.store.db, requestContext(request, deps).organisationId, request.params.id),
   );
 
   app.get(
@@ -143,5 +181,22 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
             await baselineSignatureData(deps.store.db, requestContext(request, deps).organisationId, request.params.id),
           ),
         ),
+  );
+
+  app.get(
+    '/v1/baselines/:id/points',
+    {
+      config: { permission: 'read' },
+      schema: {
+        tags: ['baselines'],
+        summary: 'The numbers behind the charts of every fitted shape',
+        description:
+          'Each usable baseline period (dates, days, quantity, use per day, mean temperature), and for every fitted shape its line, its expected use per day of each period and each period’s energy residual: what a client needs to draw all candidates on the energy signature and their residuals against time and temperature, and to show the same numbers in a table.',
+        security: bearer,
+        params: idParams,
+        response: { 200: baselinePointsSchema, ...authProblems },
+      },
+    },
+    async (request) => baselinePoints(deps.store.db, requestContext(request, deps).organisationId, request.params.id),
   );
 }

@@ -23,6 +23,7 @@ import { reportsRoutes } from './reports.js';
 import { statementsRoutes } from './statements.js';
 import { variablesRoutes } from './variables.js';
 import { calendarsRoutes } from './calendars.js';
+import { meRoutes } from './me.js';
 import type { ApiApp } from './types.js';
 
 function registerRoutes(app: ApiApp, deps: RouteDeps): void {
@@ -46,6 +47,7 @@ function registerRoutes(app: ApiApp, deps: RouteDeps): void {
   statementsRoutes(app, deps);
   auditRoutes(app, deps);
   apiKeysRoutes(app, deps);
+  meRoutes(app, deps);
 }
 
 /**

@@ -340,3 +340,43 @@ export const verifiedBaselineSchema = z
   .meta({ id: 'VerifiedBaseline' });
 
 export const baselineHistorySchema = z.object({ baselines: z.array(baselineSummarySchema), ...pageFields }).meta({ id: 'BaselineHistory' });
+
+const point = z.object({ temp: z.number(), usePerDay: z.number() });
+
+export const baselinePointsSchema = z
+  .object({
+    baselineId: z.string(),
+    meterId: z.string(),
+    meterName: z.string(),
+    useUnit: z.string(),
+    temperatureUnit: z.enum(['F', 'C']),
+    temperatureForm,
+    chosen: modelName,
+    selected: modelName,
+    periods: z
+      .array(
+        z.object({
+          start: z.string(),
+          end: z.string(),
+          days: z.number().int(),
+          quantity: z.number(),
+          usePerDay: z.number(),
+          meanTemp: z.number(),
+          coverage: z.number(),
+          estimated: z.boolean(),
+        }),
+      )
+      .describe('The usable baseline periods, by start: what every shape was fitted to'),
+    candidates: z.array(
+      z.object({
+        model: modelName,
+        line: z.array(point).describe('Vertices of the shape’s line over the temperatures it saw (the daily ones for a day-resolved fit)'),
+        expectedPerDay: z.array(stat).describe('The shape’s expected use per day of each period, in the order of periods'),
+        residuals: z.array(stat).describe('Each period’s energy residual, quantity − days × expected use per day'),
+      }),
+    ),
+  })
+  .meta({
+    id: 'BaselinePoints',
+    description: 'The numbers behind the energy signature and residual charts of every fitted shape, for drawing and tabulating them',
+  });

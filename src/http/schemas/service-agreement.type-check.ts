@@ -10,10 +10,11 @@ import type { createFacilityBody, facilitySchema } from './facilities.js';
 import type { createMeterBody, listMetersQuery, meterSchema } from './meters.js';
 import type { createStationBody, stationRecordSchema, stationSchema } from './weather-stations.js';
 import type { adjustmentList, adjustmentSchema, createAdjustmentBody, withdrawAdjustmentBody } from './adjustments.js';
-import type { apiKeySchema, createApiKeyBody, createdApiKeySchema } from './api-keys.js';
+import type { apiKeySchema, callerSchema, createApiKeyBody, createdApiKeySchema } from './api-keys.js';
 import type { auditPageSchema, chainVerdictSchema } from './audit.js';
 import type {
   baselineHistorySchema,
+  baselinePointsSchema,
   baselineSchema,
   chooseBody,
   createBaselineBody,
@@ -55,9 +56,18 @@ import type { createMeter, listMeters, listOrganisationMeters, toMeter } from '.
 import type { createStation, listStations, toStation } from '../../services/weather-stations.js';
 import type { stationRecordSummary } from '../../services/station-records.js';
 import type { createAdjustment, listAdjustments, withdrawAdjustment } from '../../services/adjustments.js';
-import type { createApiKey, listApiKeys, revokeApiKey } from '../../services/api-keys.js';
+import type { createApiKey, describeCaller, listApiKeys, revokeApiKey } from '../../services/api-keys.js';
 import type { listAuditEntries, verifyAudit } from '../../services/audit.js';
-import type { chooseModel, createBaseline, freezeBaseline, getBaseline, listBaselines } from '../../services/baselines/index.js';
+import type {
+  baselinePoints,
+  chooseModel,
+  createBaseline,
+  freezeBaseline,
+  getBaseline,
+  getNewestBaseline,
+  listBaselines,
+  newestBaselinePoints,
+} from '../../services/baselines/index.js';
 import type { getContract, putContract } from '../../services/contracts.js';
 import type {
   getNormalYear,
@@ -164,6 +174,7 @@ export type ApiKeyRoutes = [
   Expect<Agree<Gives<typeof createApiKey>, Answer<typeof createdApiKeySchema>>>,
   Expect<Agree<Gives<typeof listApiKeys>['keys'], Answer<typeof apiKeySchema>[]>>,
   Expect<Agree<Gives<typeof revokeApiKey>, Answer<typeof apiKeySchema>>>,
+  Expect<Agree<Gives<typeof describeCaller>, Answer<typeof callerSchema>>>,
 ];
 
 export type AuditRoutes = [
@@ -181,6 +192,9 @@ export type BaselineRoutes = [
   Expect<Agree<Gives<typeof chooseModel>, Answer<typeof baselineSchema>>>,
   Expect<Agree<Parsed<typeof freezeBody>, Takes<typeof freezeBaseline, 2>>>,
   Expect<Agree<Gives<typeof freezeBaseline>, Answer<typeof baselineSchema>>>,
+  Expect<Agree<Gives<typeof baselinePoints>, Answer<typeof baselinePointsSchema>>>,
+  Expect<Agree<Gives<typeof getNewestBaseline>, Answer<typeof verifiedBaselineSchema>>>,
+  Expect<Agree<Gives<typeof newestBaselinePoints>, Answer<typeof baselinePointsSchema>>>,
 ];
 
 export type ContractRoutes = [

@@ -12,3 +12,5 @@ export { createBaseline } from './create.js';
 export { chooseModel } from './choose.js';
 export { freezeBaseline } from './freeze.js';
 export { baselineSignatureData } from './signature.js';
+export { baselinePoints, type BaselinePoints, type CandidatePoints } from './points.js';
+export { getNewestBaseline, newestBaselinePoints } from './newest.js';
