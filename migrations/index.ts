@@ -8,6 +8,7 @@ import * as oneFrozen0002 from './0002_one_frozen_baseline.js';
 import * as contracts0003 from './0003_contracts_and_costs.js';
 import * as baselineForm0004 from './0004_baseline_form_and_overrides.js';
 import * as statements0005 from './0005_statements.js';
+import * as variables0006 from './0006_independent_variables.js';
 import * as weatherFills0007 from './0007_weather_fills.js';
 import * as meterDataVersions0008 from './0008_meter_data_versions.js';
 import * as idempotencyHolder0009 from './0009_idempotency_holder.js';
@@ -19,6 +20,7 @@ export const migrations: Record<string, Migration> = {
   '0003_contracts_and_costs': contracts0003,
   '0004_baseline_form_and_overrides': baselineForm0004,
   '0005_statements': statements0005,
+  '0006_independent_variables': variables0006,
   '0007_weather_fills': weatherFills0007,
   '0008_meter_data_versions': meterDataVersions0008,
   '0009_idempotency_holder': idempotencyHolder0009,

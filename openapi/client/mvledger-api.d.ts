@@ -304,6 +304,27 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/facilities/{id}/calendar": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** A facility's calendar */
+        get: operations["getFacilitiesByIdCalendar"];
+        /**
+         * Replace a facility's calendar
+         * @description Replaced whole, all or nothing: an unknown day type or overlapping exceptions are refused (400 naming the field); a change to the day type of any day inside a frozen baseline window of one of the facility’s meters is refused (409). Fits use it with options.dayTypes.
+         */
+        put: operations["putFacilitiesByIdCalendar"];
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/facilities/{id}/contract": {
         parameters: {
             query?: never;
@@ -340,6 +361,30 @@ export interface paths {
         put?: never;
         /** Add a meter to a facility */
         post: operations["postFacilitiesByIdMeters"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/v1/facilities/{id}/variables": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * A facility's variables
+         * @description Facility-wide and meters' own, oldest first, in pages (default 100, at most 1000): follow nextCursor.
+         */
+        get: operations["getFacilitiesByIdVariables"];
+        put?: never;
+        /**
+         * Define an independent variable
+         * @description A named series (occupancy, people, production) of the facility, or of one of its meters (meterId), that a baseline fit may carry beside the weather (options.variables names it). A name already used there is refused (409).
+         */
+        post: operations["postFacilitiesByIdVariables"];
         delete?: never;
         options?: never;
         head?: never;
@@ -736,6 +781,30 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/v1/variables/{id}/values": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /**
+         * A variable's values
+         * @description Values whose period overlaps [from, to), by start, in pages (default 1000, at most 10000): follow nextCursor until it is null.
+         */
+        get: operations["getVariablesByIdValues"];
+        put?: never;
+        /**
+         * Post a batch of a variable's values
+         * @description All or nothing. A value identical to the stored one for the same period is counted unchanged; a different one is a correction and needs a correctionReason. A new period overlapping a stored one, or any change inside a frozen baseline window of a meter the variable serves, is refused (409).
+         */
+        post: operations["postVariablesByIdValues"];
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/v1/weather-stations": {
         parameters: {
             query?: never;
@@ -1068,6 +1137,8 @@ export interface components {
             createdAt: string;
             createdBy: string;
             end: string;
+            /** @description Readings the engineer left out of this baseline, each with its reason (frozen with it); empty when none */
+            exclusions: components["schemas"]["Exclusion"][];
             fit: components["schemas"]["FitDocument"];
             frozenAt: string | null;
             frozenBy: string | null;
@@ -1077,6 +1148,8 @@ export interface components {
             options: {
                 /** @description Accept a 4P whose two slopes have the same sign (default false) */
                 allowSameSignFourPoint?: boolean;
+                /** @description Offer the facility calendar’s day types (PUT /v1/facilities/{id}/calendar) as indicator variables named "day type: NAME", every type but the first: one shared set of changepoints and slopes with a shift of the use per day for each day type (daily readings), or for bills the share of their days of each type. Each must earn its place like any variable. */
+                dayTypes?: boolean;
                 /** @description Share of a period’s days that must have weather (default 0.9) */
                 minCoverage?: number;
                 /** @description Fewest periods in each segment of a changepoint shape (default 3) */
@@ -1088,6 +1161,16 @@ export interface components {
                  * @enum {string}
                  */
                 temperature?: "daily" | "mean";
+                /** @description The engineer’s decisions on variables, each with its reason on record */
+                variableOverrides?: {
+                    /** @description true: kept whatever the tests say; false: left out */
+                    include: boolean;
+                    name: string;
+                    /** @description Why (kept with the baseline) */
+                    reason: string;
+                }[];
+                /** @description Stored variables (POST /v1/facilities/{id}/variables) the fit may carry beside the weather, by name: the meter’s own, else its facility’s. Each must earn its place by its t-test and the partial F-test; every baseline period needs its values (422 naming the dates otherwise). */
+                variables?: string[];
             };
             overrides: components["schemas"]["BaselineOverrides"];
             /**
@@ -1208,6 +1291,8 @@ export interface components {
             createdAt: string;
             createdBy: string;
             end: string;
+            /** @description Readings the engineer left out of this baseline, each with its reason (frozen with it); empty when none */
+            exclusions: components["schemas"]["Exclusion"][];
             frozenAt: string | null;
             frozenBy: string | null;
             id: string;
@@ -1216,6 +1301,8 @@ export interface components {
             options: {
                 /** @description Accept a 4P whose two slopes have the same sign (default false) */
                 allowSameSignFourPoint?: boolean;
+                /** @description Offer the facility calendar’s day types (PUT /v1/facilities/{id}/calendar) as indicator variables named "day type: NAME", every type but the first: one shared set of changepoints and slopes with a shift of the use per day for each day type (daily readings), or for bills the share of their days of each type. Each must earn its place like any variable. */
+                dayTypes?: boolean;
                 /** @description Share of a period’s days that must have weather (default 0.9) */
                 minCoverage?: number;
                 /** @description Fewest periods in each segment of a changepoint shape (default 3) */
@@ -1227,6 +1314,16 @@ export interface components {
                  * @enum {string}
                  */
                 temperature?: "daily" | "mean";
+                /** @description The engineer’s decisions on variables, each with its reason on record */
+                variableOverrides?: {
+                    /** @description true: kept whatever the tests say; false: left out */
+                    include: boolean;
+                    name: string;
+                    /** @description Why (kept with the baseline) */
+                    reason: string;
+                }[];
+                /** @description Stored variables (POST /v1/facilities/{id}/variables) the fit may carry beside the weather, by name: the meter’s own, else its facility’s. Each must earn its place by its t-test and the partial F-test; every baseline period needs its values (422 naming the dates otherwise). */
+                variables?: string[];
             };
             overrides: components["schemas"]["BaselineOverrides"];
             /**
@@ -1361,6 +1458,14 @@ export interface components {
             reason: string;
             start: string;
         };
+        /** @description A reading the engineer left out of the baseline, and why */
+        Exclusion: {
+            end: string;
+            quantity: number;
+            readingId?: string;
+            reason: string;
+            start: string;
+        };
         Facility: {
             address: string | null;
             createdAt: string;
@@ -1368,9 +1473,25 @@ export interface components {
             id: string;
             name: string;
         };
+        /** @description A facility’s day types, weekly pattern and dated exceptions */
+        FacilityCalendar: {
+            dayTypes: string[];
+            exceptions: {
+                dayType: string;
+                end: string;
+                note?: string;
+                start: string;
+            }[];
+            facilityId: string;
+            updatedAt: string;
+            updatedBy: string;
+            weekly: string[];
+        };
         /** @description Every candidate shape, the selection and the settings: the same document as the command line’s fit --json */
         FitDocument: {
             candidates: components["schemas"]["Candidate"][];
+            /** @description Readings the engineer left out, each with its reason (apart from periods.excluded, left out for weather coverage) */
+            exclusions?: components["schemas"]["Exclusion"][];
             periods: {
                 excluded: components["schemas"]["ExcludedPeriod"][];
                 used: number;
@@ -1400,6 +1521,18 @@ export interface components {
              * @enum {string}
              */
             temperatureForm: "daily" | "mean";
+            /** @description Each candidate variable’s decision and reasons */
+            variableDecisions?: {
+                name: string;
+                pValue?: number | null;
+                partialF?: number | null;
+                reasons: string[];
+                tStat?: number | null;
+                /** @enum {string} */
+                verdict: "kept" | "dropped" | "forced-in" | "forced-out";
+            }[];
+            /** @description Independent variables in the selected model */
+            variables?: string[];
         };
         /** @description ASHRAE Guideline 14 acceptance of a model (limits from memory; see source) */
         Guideline14Check: {
@@ -1524,6 +1657,8 @@ export interface components {
             days: number;
             end: string;
             estimated: boolean;
+            /** @description The reading’s id within its meter: its period, start..end (what a baseline’s exclusions name) */
+            id: string;
             quantity: number;
             start: string;
         };
@@ -1612,6 +1747,8 @@ export interface components {
                 /** @description The frozen model’s projection onto the period’s weather */
                 modelBaseline: number | null;
                 outsideBaselineRange: boolean;
+                /** @description Variables whose value in this period lies outside the range the baseline saw (models with variables only) */
+                outsideVariableRanges?: string[];
                 savings: number | null;
                 start: string;
             }[];
@@ -1635,6 +1772,10 @@ export interface components {
                 fractionSaved: number | null;
                 modelBaseline: number | null;
                 outsideRangeShare: number | null;
+                /** @description Per variable: share of the model baseline from periods whose value lies outside the baseline’s range (models with variables only) */
+                outsideVariableRangeShares?: {
+                    [key: string]: number | null;
+                };
                 /** @description Avoided energy: adjusted baseline − actual */
                 savings: number | null;
                 significant: boolean;
@@ -1830,6 +1971,48 @@ export interface components {
             }[];
             yearsCovered: number;
         };
+        /** @description An independent variable a baseline may carry beside the weather */
+        Variable: {
+            /** @enum {string} */
+            aggregation: "mean" | "total";
+            createdAt: string;
+            createdBy: string;
+            facilityId: string;
+            id: string;
+            /** @enum {string} */
+            kind: "daily" | "per-period";
+            meterId: string | null;
+            name: string;
+            unit: string;
+        };
+        VariableValues: {
+            /** @description The page size used (the limit asked for, or the default) */
+            limit: number;
+            /** @description Pass as cursor to get the next page; null on the last page. A list longer than the page size is never answered whole: follow nextCursor until it is null. */
+            nextCursor: string | null;
+            values: {
+                end: string;
+                start: string;
+                value: number;
+            }[];
+            variable: components["schemas"]["Variable"];
+        };
+        VariableValuesPosted: {
+            corrected: number;
+            created: number;
+            received: number;
+            /** @description Values identical to what is stored for the same period */
+            unchanged: number;
+            variableId: string;
+        };
+        Variables: {
+            facilityId: string;
+            /** @description The page size used (the limit asked for, or the default) */
+            limit: number;
+            /** @description Pass as cursor to get the next page; null on the last page. A list longer than the page size is never answered whole: follow nextCursor until it is null. */
+            nextCursor: string | null;
+            variables: components["schemas"]["Variable"][];
+        };
         VerifiedBaseline: {
             choiceReason: string | null;
             /**
@@ -1842,6 +2025,8 @@ export interface components {
             createdAt: string;
             createdBy: string;
             end: string;
+            /** @description Readings the engineer left out of this baseline, each with its reason (frozen with it); empty when none */
+            exclusions: components["schemas"]["Exclusion"][];
             fit: components["schemas"]["FitDocument"];
             frozenAt: string | null;
             frozenBy: string | null;
@@ -1851,6 +2036,8 @@ export interface components {
             options: {
                 /** @description Accept a 4P whose two slopes have the same sign (default false) */
                 allowSameSignFourPoint?: boolean;
+                /** @description Offer the facility calendar’s day types (PUT /v1/facilities/{id}/calendar) as indicator variables named "day type: NAME", every type but the first: one shared set of changepoints and slopes with a shift of the use per day for each day type (daily readings), or for bills the share of their days of each type. Each must earn its place like any variable. */
+                dayTypes?: boolean;
                 /** @description Share of a period’s days that must have weather (default 0.9) */
                 minCoverage?: number;
                 /** @description Fewest periods in each segment of a changepoint shape (default 3) */
@@ -1862,6 +2049,16 @@ export interface components {
                  * @enum {string}
                  */
                 temperature?: "daily" | "mean";
+                /** @description The engineer’s decisions on variables, each with its reason on record */
+                variableOverrides?: {
+                    /** @description true: kept whatever the tests say; false: left out */
+                    include: boolean;
+                    name: string;
+                    /** @description Why (kept with the baseline) */
+                    reason: string;
+                }[];
+                /** @description Stored variables (POST /v1/facilities/{id}/variables) the fit may carry beside the weather, by name: the meter’s own, else its facility’s. Each must earn its place by its t-test and the partial F-test; every baseline period needs its values (422 naming the dates otherwise). */
+                variables?: string[];
             };
             overrides: components["schemas"]["BaselineOverrides"];
             /**
@@ -3299,6 +3496,188 @@ export interface operations {
             };
         };
     };
+    getFacilitiesByIdCalendar: {
+        parameters: {
+            query?: never;
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["FacilityCalendar"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    putFacilitiesByIdCalendar: {
+        parameters: {
+            query?: never;
+            header?: {
+                /** @description Replays return the first response; a different request with the same key is refused (422). */
+                "idempotency-key"?: string;
+            };
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": {
+                    /** @description The day types, the reference first (e.g. working, weekend, holiday, break): fits give every other type an indicator */
+                    dayTypes: string[];
+                    /** @description Dated exceptions overriding the weekly pattern (terms, breaks, holidays); they never overlap */
+                    exceptions: {
+                        /** @description A day type named in dayTypes */
+                        dayType: string;
+                        /**
+                         * Format: date
+                         * @description Day after the last (end exclusive)
+                         * @example 2025-01-31
+                         */
+                        end: string;
+                        note?: string;
+                        /**
+                         * Format: date
+                         * @description First day
+                         * @example 2025-01-31
+                         */
+                        start: string;
+                    }[];
+                    /** @description The day type of each weekday, Monday first */
+                    weekly: string[];
+                };
+            };
+        };
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["FacilityCalendar"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Conflicts with stored data (an overlap, a frozen baseline, a changed reading without a reason); nothing was stored */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is larger than the service accepts */
+            413: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is not of a media type this operation takes */
+            415: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
     getFacilitiesByIdContract: {
         parameters: {
             query?: never;
@@ -3596,6 +3975,187 @@ export interface operations {
                 };
                 content: {
                     "application/json": components["schemas"]["Meter"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Conflicts with stored data (an overlap, a frozen baseline, a changed reading without a reason); nothing was stored */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is larger than the service accepts */
+            413: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is not of a media type this operation takes */
+            415: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getFacilitiesByIdVariables: {
+        parameters: {
+            query?: {
+                /** @description Variables per page: default 100, at most 1000 */
+                limit?: number;
+                /** @description The nextCursor of the previous page, unchanged; omit for the first page */
+                cursor?: string;
+            };
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Variables"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    postFacilitiesByIdVariables: {
+        parameters: {
+            query?: never;
+            header?: {
+                /** @description Replays return the first response; a different request with the same key is refused (422). */
+                "idempotency-key"?: string;
+            };
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody: {
+            content: {
+                "application/json": {
+                    /**
+                     * @description mean: a level holding on each day of its period (occupancy, people); total: an amount spread evenly over its days (units produced)
+                     * @enum {string}
+                     */
+                    aggregation: "mean" | "total";
+                    /**
+                     * @description daily: one value per date; per-period: values over [start, end) periods
+                     * @enum {string}
+                     */
+                    kind: "daily" | "per-period";
+                    /** @description A meter of the facility the variable belongs to; absent for a facility-wide one */
+                    meterId?: string;
+                    /** @description How fits name it (options.variables); unique among the facility’s own variables, or the meter’s */
+                    name: string;
+                    /** @description e.g. people, units, share */
+                    unit: string;
+                };
+            };
+        };
+        responses: {
+            /** @description Created: the new resource or the result of the write */
+            201: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Variable"];
                 };
             };
             /** @description Bad input: a problem+json naming the field or row; nothing was stored */
@@ -4119,9 +4679,30 @@ export interface operations {
                      * @example 2025-01-31
                      */
                     end: string;
+                    /** @description Readings inside the window to leave out of the fit, each with its reason; more than a fifth of the window’s readings is refused (422) */
+                    exclusions?: {
+                        /**
+                         * Format: date
+                         * @description … and the day after it (end exclusive)
+                         * @example 2025-01-31
+                         */
+                        end?: string;
+                        /** @description The reading’s id, as the readings API returns it */
+                        readingId?: string;
+                        /** @description Why the reading is left out (kept with the baseline, frozen with it and shown in reports) */
+                        reason: string;
+                        /**
+                         * Format: date
+                         * @description Or the reading’s period: its first day …
+                         * @example 2025-01-31
+                         */
+                        start?: string;
+                    }[];
                     options?: {
                         /** @description Accept a 4P whose two slopes have the same sign (default false) */
                         allowSameSignFourPoint?: boolean;
+                        /** @description Offer the facility calendar’s day types (PUT /v1/facilities/{id}/calendar) as indicator variables named "day type: NAME", every type but the first: one shared set of changepoints and slopes with a shift of the use per day for each day type (daily readings), or for bills the share of their days of each type. Each must earn its place like any variable. */
+                        dayTypes?: boolean;
                         /** @description Share of a period’s days that must have weather (default 0.9) */
                         minCoverage?: number;
                         /** @description Fewest periods in each segment of a changepoint shape (default 3) */
@@ -4133,6 +4714,16 @@ export interface operations {
                          * @enum {string}
                          */
                         temperature?: "daily" | "mean";
+                        /** @description The engineer’s decisions on variables, each with its reason on record */
+                        variableOverrides?: {
+                            /** @description true: kept whatever the tests say; false: left out */
+                            include: boolean;
+                            name: string;
+                            /** @description Why (kept with the baseline) */
+                            reason: string;
+                        }[];
+                        /** @description Stored variables (POST /v1/facilities/{id}/variables) the fit may carry beside the weather, by name: the meter’s own, else its facility’s. Each must earn its place by its t-test and the partial F-test; every baseline period needs its values (422 naming the dates otherwise). */
+                        variables?: string[];
                     };
                     /**
                      * Format: date
@@ -5578,6 +6169,210 @@ export interface operations {
                 };
                 content: {
                     "application/json": components["schemas"]["Statement"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Conflicts with stored data (an overlap, a frozen baseline, a changed reading without a reason); nothing was stored */
+            409: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is larger than the service accepts */
+            413: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The body is not of a media type this operation takes */
+            415: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored */
+            422: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    getVariablesByIdValues: {
+        parameters: {
+            query?: {
+                from?: string;
+                to?: string;
+                /** @description Values per page: default 1000, at most 10000 */
+                limit?: number;
+                /** @description The nextCursor of the previous page, unchanged; omit for the first page */
+                cursor?: string;
+            };
+            header?: never;
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        requestBody?: never;
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["VariableValues"];
+                };
+            };
+            /** @description Bad input: a problem+json naming the field or row; nothing was stored */
+            400: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description No valid API key: missing, malformed, unknown or revoked */
+            401: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description The key's role lacks the permission this operation needs */
+            403: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+            /** @description Not found in the caller's organisation */
+            404: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["Problem"];
+                };
+            };
+        };
+    };
+    postVariablesByIdValues: {
+        parameters: {
+            query?: {
+                /** @description For text/csv bodies: why stored values are being changed */
+                correctionReason?: string;
+            };
+            header?: {
+                /** @description Replays return the first response; a different request with the same key is refused (422). */
+                "idempotency-key"?: string;
+            };
+            path: {
+                id: string;
+            };
+            cookie?: never;
+        };
+        /** @description Also accepted as text/csv with the header date,value (daily) or start,end,value (per-period); the correction reason then comes as the correctionReason query parameter. */
+        requestBody: {
+            content: {
+                "application/json": {
+                    /** @description Why stored values are being changed; required when the batch changes any */
+                    correctionReason?: string;
+                    values: {
+                        /**
+                         * Format: date
+                         * @description A daily variable’s day
+                         * @example 2025-01-31
+                         */
+                        date?: string;
+                        /**
+                         * Format: date
+                         * @description … and the day after its last (end exclusive)
+                         * @example 2025-01-31
+                         */
+                        end?: string;
+                        /**
+                         * Format: date
+                         * @description A per-period variable’s first day
+                         * @example 2025-01-31
+                         */
+                        start?: string;
+                        /** @description The value (at most ±1000000000000) */
+                        value: number;
+                    }[];
+                };
+            };
+        };
+        responses: {
+            /** @description Success: the resource or result */
+            200: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["VariableValuesPosted"];
+                };
+            };
+            /** @description Created: the new resource or the result of the write */
+            201: {
+                headers: {
+                    [name: string]: unknown;
+                };
+                content: {
+                    "application/json": components["schemas"]["VariableValuesPosted"];
                 };
             };
             /** @description Bad input: a problem+json naming the field or row; nothing was stored */

@@ -28,12 +28,16 @@ export interface CommonOptions {
   minPointsPerSegment: number;
   /** How each reading's weather enters the fit; null: the engine's default (day-resolved wherever the days' weather is known). */
   temperatureForm: TemperatureForm | null;
+  /** CSV of independent variables (a date or start,end column, one column per variable) offered to the fit; null for none. */
+  variables: string | null;
 }
 
 export interface FitOptions extends CommonOptions {
   readings: string;
   /** One readings file with a meter column: fit every meter, one output line or row per meter. */
   batch: boolean;
+  /** CSV of baseline readings to leave out (start, end, reason); null for none. */
+  exclusions: string | null;
 }
 
 export interface SavingsCommandOptions extends CommonOptions {
@@ -52,6 +56,7 @@ export type Parsed<T> = { help: true } | ({ help: false } & T);
 
 const COMMON_SPEC = {
   weather: { type: 'string' },
+  variables: { type: 'string' },
   json: { type: 'boolean' },
   unit: { type: 'string' },
   coverage: { type: 'string' },
@@ -61,7 +66,7 @@ const COMMON_SPEC = {
   help: { type: 'boolean', short: 'h' },
 } as const;
 
-const FIT_SPEC = { ...COMMON_SPEC, readings: { type: 'string' }, batch: { type: 'boolean' } } as const;
+const FIT_SPEC = { ...COMMON_SPEC, readings: { type: 'string' }, batch: { type: 'boolean' }, exclusions: { type: 'string' } } as const;
 
 const SAVINGS_SPEC = {
   ...COMMON_SPEC,
@@ -78,7 +83,15 @@ type Values = Record<string, string | boolean | undefined>;
 export function parseFitOptions(args: readonly string[]): Parsed<FitOptions> {
   const values = parseStrict(args, FIT_SPEC);
   if (values.help) return { help: true };
-  return { help: false, readings: requireFile(values, 'readings'), batch: values.batch === true, ...commonOptions(values) };
+  if (values.batch === true && typeof values.exclusions === 'string')
+    throw new UsageError('--exclusions names readings of one meter: leave it out with --batch');
+  return {
+    help: false,
+    readings: requireFile(values, 'readings'),
+    batch: values.batch === true,
+    exclusions: typeof values.exclusions === 'string' ? requireFile(values, 'exclusions') : null,
+    ...commonOptions(values),
+  };
 }
 
 export function parseSavingsOptions(args: readonly string[]): Parsed<SavingsCommandOptions> {
@@ -125,6 +138,7 @@ function commonOptions(values: Values): CommonOptions {
       `a whole number from 1 to ${MAX_POINTS_PER_SEGMENT}`,
     ),
     temperatureForm: temperatureOption(values.temperature),
+    variables: typeof values.variables === 'string' ? requireFile(values, 'variables') : null,
   };
 }
 

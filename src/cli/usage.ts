@@ -13,6 +13,12 @@ const COMMON_OPTIONS = `  --weather FILE      daily weather CSV: date,temp or da
                       how each reading's weather enters the fit: daily (day-resolved:
                       each bill against the mean over its days of the daily response)
                       or mean (the response at its mean temperature); default daily
+  --variables FILE    independent variables CSV: date,NAME[,NAME…] (daily values) or
+                      start,end,NAME[,NAME…] (values over periods); a column named
+                      NAME:total holds amounts spread over their days, the others
+                      levels holding on each day. Each is offered to the fit and kept
+                      only if it earns its place (t-test and partial F-test); every
+                      reading the model uses needs its values
   --json              print one JSON document instead of the text report`;
 
 export const FIT_USAGE = `Usage: mvledger fit --readings FILE --weather FILE [options]
@@ -28,6 +34,9 @@ Fit the ${MODEL_NAMES.join(', ')} shapes to baseline readings and choose one.
                       writes one CSV row per meter (header first), or with --json one
                       JSON line per meter, as each is fitted; a meter that cannot be
                       fitted gets status error and its reason, and the exit code is 2
+  --exclusions FILE   baseline readings to leave out, CSV: start,end,reason
+                      (each reason is kept in the fit document; more than a
+                      fifth of the readings is refused)
 ${COMMON_OPTIONS}
 `;
 

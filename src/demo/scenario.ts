@@ -5,7 +5,7 @@
  * (2023–2024) of monthly bills and a reporting year (2025) after an invented
  * retrofit. Deterministic: the same seed gives the same data.
  */
-import { addDays, daysBetween } from '../engine/index.js';
+import { addDays, daysBetween, dayTypesOver, type FacilityCalendar } from '../engine/index.js';
 import { seededRandom } from '../lib/seeded-random.js';
 
 export interface DemoUse {
@@ -225,5 +225,79 @@ export function demoBills(
 export function demoBuiltInSavings(meter: DemoMeter, weather: ReadonlyMap<string, number>, from: string, to: string): number {
   let total = 0;
   for (let d = 0; d < daysBetween(from, to); d++) total += usePerDay(meter.use, weather.get(addDays(from, d))!) * meter.reportingSaving;
+  return total;
+}
+
+/**
+ * The demo's case for a calendar: an invented early-years centre whose
+ * electricity falls in its breaks and at weekends, whatever the weather.
+ * Its 2025 summer break runs two weeks longer than the baseline years'
+ * (an invented change of term dates), so a weather-only baseline books the
+ * extra closed days as savings; with the calendar's day types it does not.
+ */
+export const CALENDAR_DEMO = {
+  facility: { name: 'Quillfen Early Years Centre', address: '3 Millrace Walk, Quillfen (invented)', floorArea: 1600 },
+  meter: {
+    name: 'Main electricity',
+    fuel: 'electricity',
+    unit: 'kWh',
+    use: { base: 620, heatingBelow: 45, heatingRate: 6, coolingAbove: 66, coolingRate: 38, noise: 0.04 },
+    reportingSaving: 0.08,
+    price: 0.16,
+    escalation: 0.03,
+  } satisfies DemoMeter,
+  /** Use on each day type as a share of a term day's (invented). */
+  dayTypeShare: { term: 1, weekend: 0.55, break: 0.35 } as Record<string, number>,
+  calendar: {
+    dayTypes: ['term', 'weekend', 'break'],
+    weekly: ['term', 'term', 'term', 'term', 'term', 'weekend', 'weekend'],
+    exceptions: [
+      { start: '2023-07-24', end: '2023-09-04', dayType: 'break', note: 'summer break (invented)' },
+      { start: '2023-12-21', end: '2024-01-03', dayType: 'break', note: 'winter break (invented)' },
+      { start: '2024-07-22', end: '2024-09-02', dayType: 'break', note: 'summer break (invented)' },
+      { start: '2024-12-20', end: '2025-01-06', dayType: 'break', note: 'winter break (invented)' },
+      { start: '2025-07-07', end: '2025-09-01', dayType: 'break', note: 'summer break, two weeks longer (invented)' },
+      { start: '2025-12-19', end: '2026-01-05', dayType: 'break', note: 'winter break (invented)' },
+    ],
+  } satisfies FacilityCalendar,
+};
+
+/** The calendar demo's monthly bills: each day's weather response scaled by its day type's share. */
+export function calendarDemoBills(
+  weather: ReadonlyMap<string, number>,
+  from: string,
+  to: string,
+  saving: number,
+  seed: number,
+): DemoBill[] {
+  const { meter, dayTypeShare, calendar } = CALENDAR_DEMO;
+  const types = dayTypesOver(calendar, from, to);
+  const random = seededRandom(seed);
+  const bills: DemoBill[] = [];
+  let start = from;
+  while (start < to) {
+    const [year, month] = [Number(start.slice(0, 4)), Number(start.slice(5, 7))];
+    const next = new Date(Date.UTC(year, month, 1 + random.integer(0, 3))).toISOString().slice(0, 10);
+    const end = next > to ? to : next;
+    let quantity = 0;
+    for (let d = 0; d < daysBetween(start, end); d++) {
+      const date = addDays(start, d);
+      const share = dayTypeShare[types[daysBetween(from, date)]!]!;
+      quantity += usePerDay(meter.use, weather.get(date)!) * share * (1 - saving) * (1 + meter.use.noise * random.normal());
+    }
+    const rounded = Math.round(quantity);
+    bills.push({ start, end, quantity: rounded, cost: Math.round(rounded * meter.price * 100) / 100 });
+    start = end;
+  }
+  return bills;
+}
+
+/** The use the calendar demo's retrofit takes away over [from, to) (the truth its figures are compared with). */
+export function calendarDemoBuiltInSavings(weather: ReadonlyMap<string, number>, from: string, to: string): number {
+  const { meter, dayTypeShare, calendar } = CALENDAR_DEMO;
+  const types = dayTypesOver(calendar, from, to);
+  let total = 0;
+  for (let d = 0; d < daysBetween(from, to); d++)
+    total += usePerDay(meter.use, weather.get(addDays(from, d))!) * dayTypeShare[types[d]!]! * meter.reportingSaving;
   return total;
 }

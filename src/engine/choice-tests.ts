@@ -16,6 +16,7 @@
  */
 import type { ShapeFit } from './fit/fit-shape.js';
 import type { BillDays } from './fit/day-resolved/bill-days.js';
+import { coefficientNames } from './fit/shape-model.js';
 import { bothSidesFeasible, hingeColumn } from './fit/day-resolved/hinge-sweep.js';
 import { movingHingeMask } from './fit/day-resolved/five-point.js';
 import { hingeProfile, type SseProfile } from './fit/day-resolved/profile.js';
@@ -50,9 +51,9 @@ export interface ChoiceContext {
 /** Share of α spent on the one-slope family in the weather-dependence test; the rest goes to the two-slope (4P) family. */
 export const ONE_SLOPE_SHARE = 0.8;
 
-/** The largest variance inflation among a fit's slope coefficients (column 0 is the intercept). */
+/** The largest variance inflation among a fit's slope coefficients (column 0 is the intercept; variables' columns follow the slopes). */
 function slopeInflation(context: ChoiceContext, fit: ShapeFit): number {
-  return Math.max(1, ...context.inflation(fit).slice(1));
+  return Math.max(1, ...context.inflation(fit).slice(1, coefficientNames(fit.model).length));
 }
 
 function fStatistic(simplerSse: number, richerSse: number, df2: number, df1 = 1): number {
@@ -126,7 +127,7 @@ function oneSlopeFamily(
   fits: { line: ShapeFit | null; heating: ShapeFit | null; cooling: ShapeFit | null },
 ): Omit<ChoiceTest, 'text'> | null {
   const { days, minPoints } = context;
-  const df2 = days.n - 3;
+  const df2 = days.n - 3 - days.extras.length; // p counts the variables too
   if (df2 <= 0) return null;
   const feasible = bothSidesFeasible(days, minPoints);
   let first = -1;
@@ -173,7 +174,7 @@ function oneSlopeFamily(
 
 function fourPointFamily(context: ChoiceContext, meanFit: ShapeFit, fourPoint: ShapeFit): Omit<ChoiceTest, 'text'> | null {
   const { days, minPoints } = context;
-  const df2 = days.n - 4;
+  const df2 = days.n - 4 - days.extras.length; // p counts the variables too
   if (df2 <= 0) return null;
   const kappa = slopeInflation(context, fourPoint);
   const path = profileF(hingeProfile(days, 'heating', days.mean, bothSidesFeasible(days, minPoints)), meanFit.sse, df2, kappa, 2);
@@ -188,7 +189,7 @@ function fourPointFamily(context: ChoiceContext, meanFit: ShapeFit, fourPoint: S
  */
 export function bendTest(context: ChoiceContext, line: ShapeFit, fourPoint: ShapeFit): ChoiceTest | null {
   const { days, minPoints } = context;
-  const df2 = days.n - 4;
+  const df2 = days.n - 4 - days.extras.length; // p counts the variables too
   if (df2 <= 0) return null;
   const kappa = slopeInflation(context, fourPoint);
   const path = profileF(hingeProfile(days, 'heating', days.mean, bothSidesFeasible(days, minPoints)), line.sse, df2, kappa);
@@ -206,7 +207,7 @@ export function bendTest(context: ChoiceContext, line: ShapeFit, fourPoint: Shap
  */
 export function secondBranchTest(context: ChoiceContext, oneBranch: ShapeFit, fivePoint: ShapeFit): ChoiceTest | null {
   const { days, minPoints } = context;
-  const df2 = days.n - 5;
+  const df2 = days.n - 5 - days.extras.length; // p counts the variables too
   if (df2 <= 0) return null;
   const heating = fivePoint.changepoints.heating! - days.tempShift;
   const cooling = fivePoint.changepoints.cooling! - days.tempShift;

@@ -34,10 +34,9 @@
  * sentence with numbers an engineer can check, and each holds a stated error
  * rate, measured by simulation (test/bench/calibration.ts).
  */
-import { MIN_BASELINE_PERIODS, TooFewPeriodsError } from './errors.js';
+import { MIN_BASELINE_PERIODS, TooFewPeriodsError, VariableChoiceError } from './errors.js';
 import { MODEL_NAMES, type ModelName, type Period, type TemperatureForm } from './types.js';
-import { fitShape, periodsHaveDays, withAutocorrelation, type ShapeFit, type ShapeFitResult } from './fit/fit-shape.js';
-import { billDaysForForm } from './fit/day-resolved/profile.js';
+import { fitShape, periodsHaveDays, searchView, withAutocorrelation, type ShapeFit, type ShapeFitResult } from './fit/fit-shape.js';
 import { bendTest, regularTest, secondBranchTest, weatherDependenceTest, type ChoiceContext, type ChoiceTest } from './choice-tests.js';
 import { fCritical, fPValue, twoSidedTCritical } from './stats/distributions.js';
 import { guideline14Check, type Guideline14Check, type Guideline14Limits, DEFAULT_GUIDELINE14_LIMITS } from './guideline14.js';
@@ -63,6 +62,32 @@ export interface SelectionOptions {
    * 'mean' for periods that only have a mean temperature.
    */
   temperatureForm?: TemperatureForm;
+  /**
+   * Independent variables the model may carry (names in Period.variables).
+   * Each must earn its place: see chooseVariables. Default none (weather only).
+   */
+  variables?: readonly string[];
+  /** The engineer's decisions on variables: forced in or out, each with its reason on record. */
+  variableOverrides?: readonly VariableOverride[];
+}
+
+/** An engineer's decision to keep or leave out a variable whatever the tests say. */
+export interface VariableOverride {
+  name: string;
+  include: boolean;
+  reason: string;
+}
+
+/** What happened to one candidate variable, and why, in words with the numbers. */
+export interface VariableDecision {
+  name: string;
+  verdict: 'kept' | 'dropped' | 'forced-in' | 'forced-out';
+  reasons: string[];
+  /** t of its coefficient in the chosen model (with the residuals' autocorrelation allowed for), when it is in it. */
+  tStat?: number;
+  /** Partial F of the variable in the chosen shape (the shape refitted without it, changepoints searched again) and its p-value. */
+  partialF?: number;
+  pValue?: number;
 }
 
 /** The form a fit of these periods uses: the one asked for, else day-resolved wherever the days are known. */
@@ -108,6 +133,10 @@ export interface BaselineChoice {
   selected: ModelName;
   candidates: Candidate[];
   settings: { significanceLevel: number; minPointsPerSegment: number; guideline14: Guideline14Limits; temperatureForm: TemperatureForm };
+  /** The variables in the chosen model (absent for a weather-only choice). */
+  variables?: string[];
+  /** Every candidate variable's decision (absent when none was offered). */
+  variableDecisions?: VariableDecision[];
 }
 
 /**
@@ -124,9 +153,112 @@ export function isUsableSignificanceLevel(alpha: number): boolean {
 /**
  * Fit every shape to the baseline periods and choose one. Throws
  * TooFewPeriodsError below MIN_BASELINE_PERIODS (with no excluded periods:
- * analyseBaseline, which aligns, says which were left out).
+ * analyseBaseline, which aligns, says which were left out). With candidate
+ * variables, chooses them first (chooseVariables), then the shape with them.
  */
 export function chooseBaseline(periods: readonly Period[], options: SelectionOptions = {}): BaselineChoice {
+  const offered = options.variables ?? [];
+  const overrides = options.variableOverrides ?? [];
+  if (offered.length === 0 && overrides.length === 0) return chooseShape(periods, options, []);
+  return chooseVariables(periods, options, offered, overrides);
+}
+
+/**
+ * Which variables the model carries. Backward elimination: fit and choose
+ * the shape with every candidate (forced-out ones left out), then test each
+ * variable not forced in by the t-test of its coefficient (two-sided, level
+ * α, n − p degrees of freedom, autocorrelation allowed for) and the partial
+ * F-test (the chosen shape refitted without it, its changepoints searched
+ * again: F = (SSE_without − SSE_with)/(SSE_with/(n − p))); a variable must
+ * pass both to stay. The weakest failing variable (lowest |t|) is dropped
+ * and the choice repeated until every remaining one passes. Both tests are
+ * the standard ones for a regression term (common practice); the reasons
+ * carry the numbers.
+ */
+function chooseVariables(
+  periods: readonly Period[],
+  options: SelectionOptions,
+  offered: readonly string[],
+  overrides: readonly VariableOverride[],
+): BaselineChoice {
+  const alpha = options.significanceLevel ?? DEFAULT_SIGNIFICANCE_LEVEL;
+  const minPoints = options.minPointsPerSegment ?? DEFAULT_MIN_POINTS_PER_SEGMENT;
+  const names = [...new Set([...offered, ...overrides.map((o) => o.name)])];
+  const forced = new Map(overrides.map((o) => [o.name, o]));
+  overrides.forEach((o, i) => {
+    if (!o.reason || o.reason.trim() === '') {
+      throw new VariableChoiceError(
+        `variableOverrides[${i}].reason: the decision on the variable "${o.name}" needs a reason`,
+        `variableOverrides[${i}].reason`,
+      );
+    }
+  });
+  const decisions = new Map<string, VariableDecision>();
+  for (const name of names) {
+    const o = forced.get(name);
+    decisions.set(name, {
+      name,
+      verdict: o ? (o.include ? 'forced-in' : 'forced-out') : 'kept',
+      reasons: o ? [`${o.include ? 'kept' : 'left out'} by the engineer: ${o.reason}`] : [],
+    });
+  }
+  let active = names.filter((name) => forced.get(name)?.include !== false);
+  for (;;) {
+    const choice = chooseShape(periods, options, active);
+    const selected = choice.candidates.find((c) => c.model === choice.selected)!;
+    const fit = selected.fit!;
+    const dof = fit.n - fit.p;
+    const tCritical = twoSidedTCritical(1 - alpha, dof);
+    const form = choice.settings.temperatureForm;
+    const tests = active.map((name) => {
+      const coefficient = fit.coefficients.find((c) => c.name === name)!;
+      const t = coefficient.tStatAdjusted ?? coefficient.tStat;
+      const without = fitShape(
+        periods,
+        fit.model,
+        minPoints,
+        form,
+        active.filter((other) => other !== name),
+      );
+      const f = without.ok && fit.sse > 0 ? (without.sse - fit.sse) / (fit.sse / dof) : Number.NaN;
+      const pValue = Number.isFinite(f) ? fPValue(Math.max(0, f), 1, dof) : Number.NaN;
+      const fCrit = fCritical(alpha, 1, dof);
+      const passes = Math.abs(t) >= tCritical && pValue < alpha;
+      const words =
+        `in the ${fit.model}: coefficient ${formatNumber(coefficient.estimate)} per unit per day, |t| = ${Math.abs(t).toFixed(2)} ${Math.abs(t) >= tCritical ? '≥' : '<'} ${tCritical.toFixed(2)}` +
+        `; partial F = ${formatNumber(f)} ${pValue < alpha ? '>' : '≤'} ${fCrit.toFixed(2)} (1, ${dof} degrees of freedom; p ${formatP(pValue)}; α = ${alpha})`;
+      return { name, t, f, pValue, passes, words };
+    });
+    const failing = tests
+      .filter((test) => !test.passes && forced.get(test.name)?.include !== true)
+      .sort((a, b) => Math.abs(a.t) - Math.abs(b.t));
+    const weakest = failing[0];
+    if (!weakest) {
+      for (const test of tests) {
+        const decision = decisions.get(test.name)!;
+        decision.tStat = test.t;
+        decision.partialF = test.f;
+        decision.pValue = test.pValue;
+        decision.reasons.push(
+          decision.verdict === 'forced-in'
+            ? `${test.passes ? 'also earns its place' : 'would not earn its place on the tests'} ${test.words}`
+            : `earns its place ${test.words}`,
+        );
+      }
+      return { ...choice, variables: [...active], variableDecisions: names.map((name) => decisions.get(name)!) };
+    }
+    const decision = decisions.get(weakest.name)!;
+    decision.verdict = 'dropped';
+    decision.tStat = weakest.t;
+    decision.partialF = weakest.f;
+    decision.pValue = weakest.pValue;
+    decision.reasons.push(`dropped: does not earn its place ${weakest.words}`);
+    active = active.filter((name) => name !== weakest.name);
+  }
+}
+
+/** Fit every shape with the given variables and choose one. */
+function chooseShape(periods: readonly Period[], options: SelectionOptions, variables: readonly string[]): BaselineChoice {
   const alpha = options.significanceLevel ?? DEFAULT_SIGNIFICANCE_LEVEL;
   const minPoints = options.minPointsPerSegment ?? DEFAULT_MIN_POINTS_PER_SEGMENT;
   const limits: Guideline14Limits = { ...DEFAULT_GUIDELINE14_LIMITS, ...options.guideline14 };
@@ -141,18 +273,18 @@ export function chooseBaseline(periods: readonly Period[], options: SelectionOpt
     : ['1P' as const, ...(options.models ?? [])];
   const form = resolveTemperatureForm(periods, options.temperatureForm);
   const rules: ScreeningRules = { alpha, minPoints, allowSameSignFourPoint: options.allowSameSignFourPoint ?? false };
-  const fitted = models.map((model) => fitShape(periods, model, minPoints, form));
+  const fitted = models.map((model) => fitShape(periods, model, minPoints, form, variables));
   // The noise's own persistence, for every candidate's tests: the residual autocorrelation of the
   // best-fitting shape, the most flexible one (5P) included even when it is not a candidate, so
   // that a restricted candidate's misfit is not read as noise.
-  const flexible = models.includes('5P') ? [] : [fitShape(periods, '5P', minPoints, form)];
+  const flexible = models.includes('5P') ? [] : [fitShape(periods, '5P', minPoints, form, variables)];
   const best = [...fitted, ...flexible].filter((f): f is ShapeFit => f.ok).sort((a, b) => a.sse - b.sse)[0];
   const noiseAutocorrelation = best ? best.stats.autocorrelation : 0;
   const candidates = fitted.map((result) =>
     screen(result.ok ? withAutocorrelation(result, periods, noiseAutocorrelation) : result, rules, limits),
   );
 
-  const context: ChoiceContext = { days: billDaysForForm(periods, form), minPoints, inflation: (fit) => fit.varianceInflation ?? [] };
+  const context: ChoiceContext = { days: searchView(periods, form, variables), minPoints, inflation: (fit) => fit.varianceInflation ?? [] };
   const current = selectShape(candidates, context, alpha);
   for (const c of candidates) {
     if (c.accepted) c.verdict = c === current ? 'selected' : 'accepted';

@@ -3,7 +3,8 @@
  * and the service's responses use exactly these shapes. Add keys freely;
  * never rename or remove one.
  */
-import type { BaselineChoice, Candidate } from './choose.js';
+import type { BaselineChoice, Candidate, VariableDecision } from './choose.js';
+import type { AppliedExclusion } from './exclusions.js';
 import type { ExcludedPeriod, ModelName, TemperatureForm } from './types.js';
 import type { SavingsResult } from './savings.js';
 import type { FitStatistics } from './fit/fit-shape.js';
@@ -45,6 +46,12 @@ export interface FitDocument {
   candidates: CandidateDocument[];
   periods: { used: number; excluded: ExcludedPeriod[] };
   settings: BaselineChoice['settings'] & { minCoverage: number };
+  /** Readings the engineer left out, each with its reason (apart from periods.excluded, which the weather's coverage left out). Absent when none. */
+  exclusions?: AppliedExclusion[];
+  /** The independent variables in the selected model (absent for a weather-only choice). */
+  variables?: string[];
+  /** Every candidate variable's decision with its reasons (absent when none was offered). */
+  variableDecisions?: VariableDecision[];
 }
 
 export function candidateDocument(candidate: Candidate): CandidateDocument {
@@ -74,6 +81,7 @@ export function fitDocument(
   periodsUsed: number,
   excluded: readonly ExcludedPeriod[],
   minCoverage: number,
+  exclusions: readonly AppliedExclusion[] = [],
 ): FitDocument {
   return {
     selected: choice.selected,
@@ -81,6 +89,11 @@ export function fitDocument(
     candidates: choice.candidates.map(candidateDocument),
     periods: { used: periodsUsed, excluded: [...excluded] },
     settings: { ...choice.settings, minCoverage },
+    ...(exclusions.length > 0 ? { exclusions: exclusions.map((e) => ({ ...e })) } : {}),
+    ...(choice.variables !== undefined ? { variables: [...choice.variables] } : {}),
+    ...(choice.variableDecisions !== undefined
+      ? { variableDecisions: choice.variableDecisions.map((d) => ({ ...d, reasons: [...d.reasons] })) }
+      : {}),
   };
 }
 

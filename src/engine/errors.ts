@@ -66,3 +66,52 @@ export class ShortHistoryError extends Error {
     );
   }
 }
+
+/** An engineer's exclusion that cannot be applied: the field at fault (exclusions[i], exclusions[i].reason or exclusions) and why. */
+export class ExclusionError extends Error {
+  override readonly name = 'ExclusionError';
+
+  constructor(
+    message: string,
+    readonly field: string,
+  ) {
+    super(message);
+  }
+}
+
+/**
+ * Periods without a value of a variable the model uses: never assumed, the
+ * caller names the dates. `periods` lists each such period once, in order.
+ */
+export class MissingVariableValuesError extends Error {
+  override readonly name = 'MissingVariableValuesError';
+
+  constructor(
+    readonly purpose: 'baseline' | 'savings',
+    readonly variables: readonly string[],
+    readonly periods: readonly { start: string; end: string; missing: readonly string[] }[],
+  ) {
+    const listed = periods
+      .slice(0, 10)
+      .map((p) => `${p.start} to ${p.end} (${p.missing.join(', ')})`)
+      .join('; ');
+    const more = periods.length > 10 ? ` and ${periods.length - 10} more` : '';
+    super(
+      purpose === 'savings'
+        ? `the baseline model uses the variables ${variables.join(', ')}; no values for the reporting periods ${listed}${more}: savings are not computed without them`
+        : `a model with the variables ${variables.join(', ')} needs every baseline period's values; missing for ${listed}${more}`,
+    );
+  }
+}
+
+/** An engineer's decision on a variable (forced in or out) that cannot be used: which one and why. */
+export class VariableChoiceError extends Error {
+  override readonly name = 'VariableChoiceError';
+
+  constructor(
+    message: string,
+    readonly field: string,
+  ) {
+    super(message);
+  }
+}

@@ -16,6 +16,7 @@ import { cvrmseLimitForReportingMonths, guideline14Check, type Guideline14Limits
 import type { ShapeFit } from './fit/fit-shape.js';
 import { fitDocument, type FitDocument, type SavingsDocument } from './documents.js';
 import { MIN_BASELINE_PERIODS, MIN_REPORTING_PERIODS, TooFewPeriodsError } from './errors.js';
+import { applyExclusions, type Exclusion } from './exclusions.js';
 
 export * from './types.js';
 export {
@@ -38,7 +39,9 @@ export {
   DEFAULT_SIGNIFICANCE_LEVEL,
   DEFAULT_MIN_POINTS_PER_SEGMENT,
 } from './choose.js';
-export type { BaselineChoice, Candidate, SelectionOptions, Verdict } from './choose.js';
+export type { BaselineChoice, Candidate, SelectionOptions, Verdict, VariableDecision, VariableOverride } from './choose.js';
+export * from './exclusions.js';
+export { variableValues, predictWithVariables, designRowWithVariables, checkVariableValues } from './fit/variable-columns.js';
 export { fitShape, fitTemperatureForm, periodsHaveDays } from './fit/fit-shape.js';
 export type { ShapeFit, ShapeFitResult, ShapeFitFailure, Coefficient, ChangepointEstimate, FitStatistics } from './fit/fit-shape.js';
 export { designRow, predictPerDay, periodDesignRow, predictPeriodPerDay, type PeriodWeather } from './fit/shape-model.js';
@@ -75,7 +78,11 @@ export interface BaselineAnalysis {
   document: FitDocument;
 }
 
-export type BaselineOptions = AlignmentOptions & SelectionOptions;
+export type BaselineOptions = AlignmentOptions &
+  SelectionOptions & {
+    /** Readings the engineer leaves out, each with its reason (exclusions.ts). */
+    exclusions?: readonly Exclusion[];
+  };
 
 /**
  * Align baseline readings with weather, fit every shape and choose one.
@@ -87,14 +94,21 @@ export function analyseBaseline(
   weather: readonly DailyTemperature[] | ReadonlyMap<string, number>,
   options: BaselineOptions = {},
 ): BaselineAnalysis {
-  const { periods, excluded } = alignPeriods(readings, weather, options);
+  const { kept, applied } = applyExclusions(readings, options.exclusions ?? []);
+  const aligned = alignPeriods(kept, weather, options);
+  const { periods } = aligned;
+  // Coverage exclusions name the reading's index in the caller's list, not in the list left after the engineer's exclusions.
+  const original = readings
+    .map((_, index) => index)
+    .filter((index) => !applied.some((a) => a.start === readings[index]!.start && a.end === readings[index]!.end));
+  const excluded = aligned.excluded.map((e) => ({ ...e, index: original[e.index] ?? e.index }));
   if (periods.length < MIN_BASELINE_PERIODS) throw new TooFewPeriodsError('baseline', MIN_BASELINE_PERIODS, periods.length, excluded);
   const choice = chooseBaseline(periods, options);
   return {
     periods,
     excluded,
     choice,
-    document: fitDocument(choice, periods.length, excluded, options.minCoverage ?? DEFAULT_MIN_COVERAGE),
+    document: fitDocument(choice, periods.length, excluded, options.minCoverage ?? DEFAULT_MIN_COVERAGE, applied),
   };
 }
 
@@ -181,3 +195,5 @@ export * from './weather-gaps.js';
 export * from './filled-days.js';
 export * from './station-record.js';
 export * from './normal-year-history.js';
+export * from './variables.js';
+export * from './calendar.js';

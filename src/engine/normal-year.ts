@@ -123,9 +123,15 @@ export function normalYearMonths(temps: readonly number[]): NormalPeriod[] {
 
 /** A model's use over normal-year periods (Σ days × per-day use at the period's mean), and the days of periods outside its temperature range. */
 export function normalPeriodsUse(
-  fit: Pick<ShapeFit, 'model' | 'changepoints' | 'rawCoefficients' | 'temperatureRange'>,
+  fit: Pick<ShapeFit, 'model' | 'changepoints' | 'rawCoefficients' | 'temperatureRange' | 'variables'>,
   periods: readonly NormalPeriod[],
 ): { use: number; outsideRangeDays: number } {
+  // A normal year has weather only: a model with variables would need typical values of them, which nobody has stated.
+  if (fit.variables && fit.variables.length > 0) {
+    throw new RangeError(
+      `normalised use needs typical values of the model's variables (${fit.variables.join(', ')}); a normal year carries weather only`,
+    );
+  }
   let use = 0;
   let outsideRangeDays = 0;
   for (const p of periods) {

@@ -59,6 +59,12 @@ export function normalisedSavings(
   normalTemps: readonly number[],
   options: { minCoverage?: number; confidence?: number } = {},
 ): NormalisedResult {
+  if (baseline.variables && baseline.variables.length > 0) {
+    return {
+      available: false,
+      reason: `the baseline model carries the variables ${baseline.variables.join(', ')}; a normal year states weather only, not typical values of them`,
+    };
+  }
   const { periods } = alignPeriods(reportingReadings, weather, options);
   const days = periods.reduce((total, p) => total + p.days, 0);
   if (days < MIN_NORMALISED_REPORTING_DAYS) {

@@ -6,12 +6,19 @@
  * coverage threshold, 90% by default: common practice, not a standard) is
  * left out with its reason stated, never silently.
  */
+import { indexVariables, periodVariables, type VariableSeries } from './variables.js';
 import type { AlignedPeriods, DailyTemperature, ExcludedPeriod, Period, Reading } from './types.js';
 import { formatDayNumber, parseIsoDate } from './dates.js';
 
 export interface AlignmentOptions {
   /** Minimum share of a period's days that must have a temperature (0..1). Default 0.9. */
   minCoverage?: number;
+  /**
+   * Independent variables to attach to each period (Period.variables): the
+   * mean per-day value over its days; a variable missing on any of its days
+   * is left off the period, for the fit or the savings to name.
+   */
+  variableSeries?: readonly VariableSeries[];
 }
 
 export const DEFAULT_MIN_COVERAGE = 0.9;
@@ -35,6 +42,7 @@ export function alignPeriods(
   const minCoverage = options.minCoverage ?? DEFAULT_MIN_COVERAGE;
   if (!(minCoverage > 0 && minCoverage <= 1)) throw new RangeError(`minCoverage must lie in (0, 1], got ${minCoverage}`);
   const byDay = indexByDayNumber(weather);
+  const indexed = indexVariables(options.variableSeries ?? []);
   const periods: Period[] = [];
   const excluded: ExcludedPeriod[] = [];
   readings.forEach((reading, index) => {
@@ -71,6 +79,7 @@ export function alignPeriods(
       coverage,
       estimated: reading.estimated ?? false,
       dayTemps,
+      ...(indexed.length > 0 ? { variables: periodVariables(indexed, first, days)! } : {}),
     });
   });
   return { periods, excluded };

@@ -18,7 +18,7 @@
 import { MIN_REPORTING_PERIODS, TooFewPeriodsError } from './errors.js';
 import type { ModelName, Period, TemperatureForm } from './types.js';
 import { fitTemperatureForm, type ShapeFit } from './fit/fit-shape.js';
-import { periodDesignRow, predictPeriodPerDay } from './fit/shape-model.js';
+import { checkVariableValues, designRowWithVariables, fitVariables, predictWithVariables } from './fit/variable-columns.js';
 import { twoSidedTCritical } from './stats/distributions.js';
 import { effectiveSampleSize, exactSavingsVariance, guideline14FractionalUncertainty } from './stats/savings-uncertainty.js';
 import { adjustmentsForPeriod, adjustmentsUncertaintyInPeriods, type NonRoutineAdjustment } from './adjustments.js';
@@ -55,6 +55,8 @@ export interface SavingsPeriod {
   savings: number;
   /** The period's temperature lies outside the baseline's range: the model is extrapolating. */
   outsideBaselineRange: boolean;
+  /** Variables whose value this period lies outside the range the baseline saw (only for models with variables). */
+  outsideVariableRanges?: string[];
 }
 
 export interface Uncertainty {
@@ -92,6 +94,8 @@ export interface SavingsTotals {
   significant: boolean;
   /** Share of the model baseline from periods outside the baseline's temperature range. */
   outsideRangeShare: number;
+  /** Per variable: share of the model baseline from periods whose value lies outside the baseline's range (models with variables only). */
+  outsideVariableRangeShares?: Record<string, number>;
 }
 
 export interface SavingsResult {
@@ -122,8 +126,16 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
   const form = fitTemperatureForm(baseline);
 
   const adjustments = options.adjustments ?? [];
+  const variables = fitVariables(baseline);
+  checkVariableValues(ordered, variables, 'savings');
+  const ranges = baseline.variableRanges ?? {};
   const periods: SavingsPeriod[] = ordered.map((period) => {
-    const modelBaseline = period.days * predictPeriodPerDay(baseline.model, baseline.changepoints, baseline.rawCoefficients, period, form);
+    const modelBaseline = period.days * predictWithVariables(baseline, period, form);
+    const outsideVariables = variables.filter((name) => {
+      const value = period.variables![name]!;
+      const range = ranges[name];
+      return range !== undefined && (value < range.min || value > range.max);
+    });
     const adjustment = adjustments.length > 0 ? adjustmentsForPeriod(adjustments, period.start, period.end) : 0;
     const adjustedBaseline = modelBaseline + adjustment;
     return {
@@ -137,6 +149,7 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
       adjustedBaseline,
       savings: adjustedBaseline - period.quantity,
       outsideBaselineRange: period.meanTemp < range.min || period.meanTemp > range.max,
+      ...(variables.length > 0 ? { outsideVariableRanges: outsideVariables } : {}),
     };
   });
 
@@ -156,7 +169,7 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
   const nPrime = correct ? effectiveSampleSize(n, rho) : n;
   const rows = ordered.map((period) => ({
     days: period.days,
-    designRow: periodDesignRow(baseline.model, baseline.changepoints, period, form),
+    designRow: designRowWithVariables(baseline.model, baseline.changepoints, period, form, variables),
   }));
   const variance = exactSavingsVariance(baseline.unscaledCovariance, baseline.residualVariance, rows, n / nPrime);
 
@@ -210,6 +223,18 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
       },
       significant: worstAt68 < SIGNIFICANCE_RULE.maxFractionalUncertainty,
       outsideRangeShare: modelBaseline !== 0 ? outside / modelBaseline : 0,
+      ...(variables.length > 0
+        ? {
+            outsideVariableRangeShares: Object.fromEntries(
+              variables.map((name) => [
+                name,
+                modelBaseline !== 0
+                  ? sum(periods.filter((p) => p.outsideVariableRanges!.includes(name)).map((p) => p.modelBaseline)) / modelBaseline
+                  : 0,
+              ]),
+            ),
+          }
+        : {}),
     },
     significance: {
       rule: 'ASHRAE Guideline 14: savings are meaningful when their uncertainty is below 50% of the savings at 68% confidence; judged here by the larger of the two formulas',

@@ -70,6 +70,13 @@ export interface Period {
    * fitted in the mean form.
    */
   dayTemps?: readonly number[];
+  /**
+   * Independent variables (occupancy, production, day-type shares …) as the
+   * model sees them: each one's value per day over the period (the mean of a
+   * daily series over the period's days, or a per-period total divided by
+   * its days: see variables.ts). Only models fitted with variables read it.
+   */
+  variables?: Readonly<Record<string, number>>;
 }
 
 /** A reading that could not be used, and why (never dropped silently). */

@@ -77,6 +77,9 @@ export function baselineNotes(baseline: MeterReport['baseline'], extrapolation: 
           : `; not needed in this window (${(extrapolation.share * 100).toFixed(1)}% of the reporting days outside what the baseline saw)`;
     notes.push(`frozen with an extrapolation override, reason: “${overrides.extrapolation.reason}”${here}`);
   }
+  for (const exclusion of baseline.exclusions ?? []) {
+    notes.push(`baseline reading ${exclusion.start}..${exclusion.end} left out of the fit by the engineer, reason: “${exclusion.reason}”`);
+  }
   return notes;
 }
 

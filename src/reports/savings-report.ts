@@ -135,6 +135,8 @@ export interface MeterReport {
     sufficiency: { sufficient: boolean; reasons: string[] };
     /** What was allowed when it was frozen, each with the reason given. */
     overrides: ProjectionOverrides;
+    /** Baseline readings the engineer left out of the fit, each with its reason (absent in reports made before exclusions existed). */
+    exclusions?: { start: string; end: string; reason: string }[];
   } | null;
   /** Why this meter has no figures in the window (no frozen baseline, no reporting readings); null when it has them. */
   missing: string | null;

@@ -2,7 +2,8 @@
  * The audit trail as the proof of the tables. Every write that can move a
  * result records its full values on the trail (readings created and
  * corrected, observed and filled weather days, rate schedules, contracts,
- * normal years, adjustments and their withdrawal, API keys). Replaying an
+ * normal years, adjustments and their withdrawal, API keys, independent
+ * variables and their values, facility calendars). Replaying an
  * organisation's trail in sequence order rebuilds what each of those tables
  * should hold; any stored row that differs, or that the trail never wrote,
  * was changed outside the service and is named.
@@ -16,6 +17,7 @@ import { auditRowsInOrder, organisationTableRows, type OrganisationTableRows } f
 import type { AuditRow } from '../store/schema.js';
 import { toAdjustment } from './adjustments.js';
 import { toContract } from './contracts.js';
+import { toVariable } from './variables.js';
 import type { Executor } from './context.js';
 
 /** One stored row that the audit trail does not account for. */
@@ -52,7 +54,12 @@ interface ExpectedState {
   normalYears: Map<string, { source: string; contentHash: string; temps: string }>;
   adjustments: Map<string, string>;
   apiKeys: Map<string, string>;
+  variables: Map<string, string>;
+  variableValues: Map<string, { end: string; value: number }>;
+  calendars: Map<string, string>;
 }
+
+const valueKey = (variableId: string, start: string) => `variable ${variableId} ${start}`;
 
 const readingKey = (meterId: string, start: string, end: string) => `meter ${meterId} ${start}..${end}`;
 const dayKey = (stationId: string, date: string) => `station ${stationId} ${date}`;
@@ -110,6 +117,20 @@ function apply(state: ExpectedState, row: AuditRow): void {
     case 'api-key:create':
     case 'api-key:revoke':
       state.apiKeys.set(id, canonicalJson(after));
+      return;
+    case 'variable:create':
+      state.variables.set(id, canonicalJson(after));
+      return;
+    case 'variable:post-variable-values': {
+      for (const v of (after.created ?? []) as { start: string; end: string; value: number }[])
+        state.variableValues.set(valueKey(id, v.start), { end: v.end, value: v.value });
+      for (const v of (after.corrected ?? []) as { start: string; end: string; after: number }[])
+        state.variableValues.set(valueKey(id, v.start), { end: v.end, value: v.after });
+      return;
+    }
+    case 'facility:create-calendar':
+    case 'facility:replace-calendar':
+      state.calendars.set(id, canonicalJson(after));
       return;
   }
 }
@@ -181,6 +202,11 @@ function storedState(rows: OrganisationTableRows): ExpectedState {
     ),
     adjustments: new Map(rows.adjustments.map((a) => [a.id, canonicalJson(toAdjustment(a))])),
     apiKeys: new Map(rows.apiKeys.map((k) => [k.id, canonicalJson(publicKey(k))])),
+    variables: new Map(rows.variables.map((v) => [v.id, canonicalJson(toVariable(v))])),
+    variableValues: new Map(
+      rows.variableValues.map((v) => [valueKey(v.variable_id, v.period_start), { end: v.period_end, value: v.value }]),
+    ),
+    calendars: new Map(rows.calendars.map((c) => [c.facility_id, canonicalJson(JSON.parse(c.calendar_json))])),
   };
 }
 
@@ -193,6 +219,9 @@ function emptyState(): ExpectedState {
     normalYears: new Map(),
     adjustments: new Map(),
     apiKeys: new Map(),
+    variables: new Map(),
+    variableValues: new Map(),
+    calendars: new Map(),
   };
 }
 
@@ -216,6 +245,15 @@ export function compareStates(expected: ExpectedState, stored: ExpectedState): R
   compared['normal-years'] = compareTable('normal-years', expected.normalYears, stored.normalYears, fieldDifferences, differences);
   compared.adjustments = compareTable('adjustments', expected.adjustments, stored.adjustments, wholeDifference, differences);
   compared['api-keys'] = compareTable('api-keys', expected.apiKeys, stored.apiKeys, wholeDifference, differences);
+  compared.variables = compareTable('variables', expected.variables, stored.variables, wholeDifference, differences);
+  compared['variable-values'] = compareTable(
+    'variable-values',
+    expected.variableValues,
+    stored.variableValues,
+    fieldDifferences,
+    differences,
+  );
+  compared.calendars = compareTable('calendars', expected.calendars, stored.calendars, wholeDifference, differences);
   return {
     ok: differences.length === 0,
     compared,

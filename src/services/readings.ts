@@ -45,6 +45,8 @@ export interface PostReadingsResult {
 }
 
 export interface StoredReading {
+  /** The reading's id within its meter (readingId). */
+  id: string;
   start: string;
   end: string;
   days: number;
@@ -384,6 +386,15 @@ export interface DateRange {
   to?: string;
 }
 
+/**
+ * A reading's id within its meter: its period, "start..end" (end exclusive).
+ * A meter holds one reading per period, so the period names it; the id is
+ * stable across exports and needs no column.
+ */
+export function readingId(start: string, end: string): string {
+  return `${start}..${end}`;
+}
+
 /** Readings whose period overlaps [from, to), by start, a page at a time. */
 export async function listReadings(
   db: Executor,
@@ -413,6 +424,7 @@ export async function listReadings(
     unit: meter.unit,
     ...page,
     readings: rows.map((row) => ({
+      id: readingId(row.period_start, row.period_end),
       start: row.period_start,
       end: row.period_end,
       days: daysBetween(row.period_start, row.period_end),

@@ -65,6 +65,7 @@ import {
   type ReportReads,
 } from './reports.js';
 import { cachedFrozenModel, frozenModelOfRow, type FrozenModel } from './savings.js';
+import { reportingSeries } from './variables.js';
 
 export type StreamFormat = 'json' | 'csv';
 
@@ -589,6 +590,8 @@ async function chunkReads(
       for (const [date, method] of stations.filled.get(stationId) ?? []) if (date >= dayFrom && date < dayTo) out.set(date, method);
       return out;
     },
+    // Few meters carry variables: their values are read per meter.
+    variableSeries: (variables, window) => reportingSeries(db, variables, window),
   };
 }
 

@@ -6,6 +6,7 @@
  */
 import {
   TooFewPeriodsError,
+  MissingVariableValuesError,
   checkAdjustment,
   contractYearsOverlapping,
   describeDateRanges,
@@ -28,7 +29,9 @@ import {
   type Reading,
   type SavingsDocument,
   type TemperatureUnit,
+  type VariableSeries,
 } from '../engine/index.js';
+import { reportingSeries } from './variables.js';
 import { DomainError, summarise } from '../domain/errors.js';
 import { assembleReport, type FacilityInput } from '../reports/assemble.js';
 import type { Rollup } from '../reports/totals.js';
@@ -80,6 +83,8 @@ export interface ReportReads {
   readings(meterId: string, window: ReadingWindow): Promise<Reading[]>;
   weather(stationId: string, readings: readonly Reading[]): Promise<DailyTemperature[]>;
   filledDays(stationId: string, from: string, to: string): Promise<Map<string, FillMethod>>;
+  /** The reporting values of a frozen model's independent variables over the window. */
+  variableSeries(variables: Parameters<typeof reportingSeries>[1], window: { from: string; to: string }): Promise<VariableSeries[]>;
 }
 
 /** One query per meter and window. */
@@ -88,6 +93,7 @@ export function queryPerMeter(db: Executor): ReportReads {
     readings: (meterId, window) => loadReadings(db, meterId, window),
     weather: (stationId, readings) => loadWeatherFor(db, stationId, readings),
     filledDays: (stationId, from, to) => loadFilledDays(db, stationId, from, to),
+    variableSeries: (variables, window) => reportingSeries(db, variables, window),
   };
 }
 
@@ -513,6 +519,7 @@ async function meterInWindow(
     temperatureForm: baseline.temperatureForm,
     sufficiency: { sufficient: model.sufficiency.sufficient, reasons: model.sufficiency.reasons },
     overrides: model.overrides,
+    exclusions: model.exclusions.map((e) => ({ start: e.start, end: e.end, reason: e.reason })),
   };
   // A stored adjustment that cannot be applied (brought in behind the API's back) is named, not blamed on the weather.
   const broken = ctx.adjustments.map(checkAdjustment).find((error) => error !== null);
@@ -526,7 +533,10 @@ async function meterInWindow(
   if (readings.length === 0)
     return missingMeterReport(identity, baselineInfo, `no reporting readings in ${window.from}..${window.to}`, overlapping);
   const weather = await reads.weather(meter.weather_station_id, readings);
-  const aligned = alignPeriods(readings, weather, { minCoverage: model.minCoverage });
+  const lastEnd = readings.reduce((end, r) => (r.end > end ? r.end : end), readings[0]!.end);
+  const variableSeries =
+    model.variables.length === 0 ? [] : await reads.variableSeries(model.variables, { from: readings[0]!.start, to: lastEnd });
+  const aligned = alignPeriods(readings, weather, { minCoverage: model.minCoverage, variableSeries });
   let savings: SavingsDocument;
   try {
     savings = savingsFromAligned(model.fit, { limits: model.limits, excluded: model.excluded }, aligned, {
@@ -534,6 +544,7 @@ async function meterInWindow(
       adjustments: ctx.adjustments,
     });
   } catch (error) {
+    if (error instanceof MissingVariableValuesError) return missingMeterReport(identity, baselineInfo, error.message, overlapping);
     if (!(error instanceof TooFewPeriodsError)) throw error;
     // Name the real cause: the dates without weather at the meter's station.
     const missingDates = describeDateRanges(missingWeatherDates(readings, weather));
@@ -562,7 +573,6 @@ async function meterInWindow(
   const normalised = ctx.normalYear
     ? normalisedSavings(model.fit, readings, weather, ctx.normalYear.temps, { minCoverage: model.minCoverage, confidence })
     : { available: false as const, reason: 'the weather station has no normal year (PUT /v1/weather-stations/{id}/normal-year)' };
-  const lastEnd = readings.reduce((end, r) => (r.end > end ? r.end : end), readings[0]!.end);
   const filled = await reads.filledDays(meter.weather_station_id, readings[0]!.start, lastEnd);
   const report = meterReport({
     meter: identity,

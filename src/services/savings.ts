@@ -8,6 +8,8 @@
  */
 import {
   TooFewPeriodsError,
+  MissingVariableValuesError,
+  type VariableAggregation,
   InvalidAdjustmentError,
   alignPeriods,
   baselineSufficiency,
@@ -30,6 +32,7 @@ import {
   type ShapeFit,
   filledDaysByPeriod,
   type PeriodFills,
+  type AppliedExclusion,
 } from '../engine/index.js';
 import { DomainError } from '../domain/errors.js';
 import { BoundedCache } from '../lib/bounded-cache.js';
@@ -41,6 +44,7 @@ import type { Executor } from './context.js';
 import { getMeterRow } from './meters.js';
 import { loadFilledDays } from './weather-gaps.js';
 import { loadReadings, loadWeatherFor } from './meter-data.js';
+import { reportingSeries } from './variables.js';
 import { adjustmentProblem, toAdjustment, toEngineAdjustment, type Adjustment } from './adjustments.js';
 
 export interface SavingsQuery {
@@ -67,11 +71,15 @@ export interface FrozenModel {
   temperatureUnit: TemperatureUnit;
   limits: Guideline14Limits;
   excluded: ExcludedPeriod[];
+  /** Baseline readings the engineer left out, each with its reason (frozen in the fit document). */
+  exclusions: AppliedExclusion[];
   minCoverage: number;
   /** Whether the baseline covers a full cycle of seasons. */
   sufficiency: BaselineSufficiency;
   /** What was allowed when it was frozen (kept under its content hash). */
   overrides: ProjectionOverrides;
+  /** The stored variables the chosen fit carries (ids fixed when it was fitted), in its order; empty for a weather-only fit. */
+  variables: { id: string; name: string; unit: string; aggregation: VariableAggregation; source?: 'calendar' }[];
 }
 
 /**
@@ -133,18 +141,42 @@ export function frozenModelOfRow(row: BaselineRow, contentHash: string): FrozenM
   const fit = fits[row.chosen_model as ModelName];
   if (!fit) throw new DomainError('unprocessable', `baseline ${baselineId} holds no fit of its chosen shape ${row.chosen_model}`);
   const minCoverage = options.minCoverage ?? document.settings.minCoverage;
-  const baselinePeriods = alignPeriods(inputs.readings, inputs.weather, { minCoverage }).periods;
+  const baselinePeriods = alignPeriods(inputs.readings, inputs.weather, { minCoverage, variableSeries: inputs.variables ?? [] }).periods;
+  const variables = (fit.variables ?? []).map((name) => {
+    const stored = inputs.variables?.find((v) => v.name === name);
+    if (!stored)
+      throw new DomainError('unprocessable', `baseline ${baselineId}: its fit carries the variable "${name}" but its inputs do not`);
+    return {
+      id: stored.id,
+      name: stored.name,
+      unit: stored.unit,
+      aggregation: stored.aggregation,
+      ...(stored.source ? { source: stored.source } : {}),
+    };
+  });
   const model: FrozenModel = {
     fit,
     baselinePeriods,
     temperatureUnit: inputs.temperatureUnit,
     limits: document.settings.guideline14,
     excluded: document.periods.excluded,
+    exclusions: document.exclusions ?? [],
     minCoverage,
     sufficiency: baselineSufficiency(baselinePeriods),
     overrides: overridesOf(row),
+    variables,
   };
   return modelCache.set(key, model);
+}
+
+/** Reporting periods without their variables' values: a 422 naming each period's dates and the variables to post. */
+export function missingVariablesProblem(error: MissingVariableValuesError, variables: FrozenModel['variables']): DomainError {
+  const ids = variables.map((v) => `${v.name} (${v.id})`).join(', ');
+  return new DomainError(
+    'unprocessable',
+    `${error.message}; post the values to POST /v1/variables/{id}/values for ${ids}`,
+    error.periods.slice(0, 100).map((p) => ({ field: `reading ${p.start}..${p.end}`, message: `no value of ${p.missing.join(', ')}` })),
+  );
 }
 
 function windowText(start: string, to: string | undefined): string {
@@ -186,13 +218,20 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
     .where('period_end', '>', readings[0]!.start)
     .orderBy('period_start')
     .execute();
-  const options = { confidence: query.confidence, minCoverage: model.minCoverage, adjustments: adjustmentRows.map(toEngineAdjustment) };
+  const variableSeries = await reportingSeries(db, model.variables, { from: readings[0]!.start, to: last });
+  const options = {
+    confidence: query.confidence,
+    minCoverage: model.minCoverage,
+    adjustments: adjustmentRows.map(toEngineAdjustment),
+    variableSeries,
+  };
   const aligned = alignPeriods(readings, weather, options);
   let document: SavingsDocument;
   try {
     document = savingsFromAligned(model.fit, { limits: model.limits, excluded: model.excluded }, aligned, options);
   } catch (error) {
     if (error instanceof InvalidAdjustmentError) throw adjustmentProblem(error);
+    if (error instanceof MissingVariableValuesError) throw missingVariablesProblem(error, model.variables);
     if (!(error instanceof TooFewPeriodsError)) throw error;
     const { excluded } = error;
     const reasons = excluded.map((p) => `reading ${p.start}..${p.end}: ${p.reason}`).join('; ');

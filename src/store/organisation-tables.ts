@@ -15,22 +15,30 @@ export type OrganisationTableRows = {
   normalYears: Selectable<Database['normal_years']>[];
   adjustments: Selectable<Database['adjustments']>[];
   apiKeys: Selectable<Database['api_keys']>[];
+  variables: Selectable<Database['variables']>[];
+  variableValues: Selectable<Database['variable_values']>[];
+  calendars: Selectable<Database['facility_calendars']>[];
 };
 
 /** Every row of the organisation's result-bearing tables. */
 export async function organisationTableRows(db: Executor, organisationId: string): Promise<OrganisationTableRows> {
   const meterIds = db.selectFrom('meters').select('id').where('organisation_id', '=', organisationId);
   const stationIds = db.selectFrom('weather_stations').select('id').where('organisation_id', '=', organisationId);
-  const [readings, observations, rates, contracts, normalYears, adjustments, apiKeys] = await Promise.all([
-    db.selectFrom('readings').selectAll().where('meter_id', 'in', meterIds).execute(),
-    db.selectFrom('weather_observations').selectAll().where('station_id', 'in', stationIds).execute(),
-    db.selectFrom('rates').selectAll().where('meter_id', 'in', meterIds).execute(),
-    db.selectFrom('contracts').selectAll().where('organisation_id', '=', organisationId).execute(),
-    db.selectFrom('normal_years').selectAll().where('station_id', 'in', stationIds).execute(),
-    db.selectFrom('adjustments').selectAll().where('organisation_id', '=', organisationId).execute(),
-    db.selectFrom('api_keys').selectAll().where('organisation_id', '=', organisationId).execute(),
-  ]);
-  return { readings, observations, rates, contracts, normalYears, adjustments, apiKeys };
+  const variableIds = db.selectFrom('variables').select('id').where('organisation_id', '=', organisationId);
+  const [readings, observations, rates, contracts, normalYears, adjustments, apiKeys, variables, variableValues, calendars] =
+    await Promise.all([
+      db.selectFrom('readings').selectAll().where('meter_id', 'in', meterIds).execute(),
+      db.selectFrom('weather_observations').selectAll().where('station_id', 'in', stationIds).execute(),
+      db.selectFrom('rates').selectAll().where('meter_id', 'in', meterIds).execute(),
+      db.selectFrom('contracts').selectAll().where('organisation_id', '=', organisationId).execute(),
+      db.selectFrom('normal_years').selectAll().where('station_id', 'in', stationIds).execute(),
+      db.selectFrom('adjustments').selectAll().where('organisation_id', '=', organisationId).execute(),
+      db.selectFrom('api_keys').selectAll().where('organisation_id', '=', organisationId).execute(),
+      db.selectFrom('variables').selectAll().where('organisation_id', '=', organisationId).execute(),
+      db.selectFrom('variable_values').selectAll().where('variable_id', 'in', variableIds).execute(),
+      db.selectFrom('facility_calendars').selectAll().where('organisation_id', '=', organisationId).execute(),
+    ]);
+  return { readings, observations, rates, contracts, normalYears, adjustments, apiKeys, variables, variableValues, calendars };
 }
 
 /** The organisation's frozen and superseded baselines: the ones whose content was fixed by a freeze. */

@@ -270,6 +270,40 @@ export interface MeterDataVersionsTable {
   version: string;
 }
 
+/** A named independent variable of a facility (meter_id null) or of one of its meters. */
+export interface VariablesTable {
+  id: string;
+  organisation_id: string;
+  facility_id: string;
+  meter_id: string | null;
+  name: string;
+  unit: string;
+  /** 'daily' | 'per-period'. */
+  kind: string;
+  /** 'mean' | 'total'. */
+  aggregation: string;
+  created_at: string;
+  created_by: string;
+}
+
+/** One value of a variable over [period_start, period_end). */
+export interface VariableValuesTable {
+  variable_id: string;
+  period_start: string;
+  period_end: string;
+  value: number;
+  updated_at: string;
+}
+
+/** A facility's calendar (day types, weekly pattern, dated exceptions) as one JSON document. */
+export interface FacilityCalendarsTable {
+  facility_id: string;
+  organisation_id: string;
+  calendar_json: string;
+  updated_at: string;
+  updated_by: string;
+}
+
 /** A signed audit head (migrations/0010_audit_checkpoints.ts). */
 export interface AuditCheckpointsTable {
   organisation_id: string;
@@ -299,8 +333,13 @@ export interface Database {
   statements: StatementsTable;
   statement_copies: StatementCopiesTable;
   meter_data_versions: MeterDataVersionsTable;
+  variables: VariablesTable;
+  variable_values: VariableValuesTable;
+  facility_calendars: FacilityCalendarsTable;
   audit_checkpoints: AuditCheckpointsTable;
 }
+
+export type VariableRow = Selectable<VariablesTable>;
 
 export type ReadingRow = Selectable<ReadingsTable>;
 export type NewReadingRow = Insertable<ReadingsTable>;

@@ -78,7 +78,7 @@ describe('mvledger export', () => {
     const toStdout = await cli(sourceUrl, ['export', '--org', organisationId]);
     expect(toStdout.code).toBe(0);
     expect(content(toStdout.stdout)).toEqual(content(text));
-    expect(JSON.parse(text)).toMatchObject({ format: 'mvledger-export', version: 5, organisation: { id: organisationId } }); // the format's own contract
+    expect(JSON.parse(text)).toMatchObject({ format: 'mvledger-export', version: 6, organisation: { id: organisationId } }); // the format's own contract
     const document = JSON.parse(text) as { tables: Record<string, unknown[]> };
     for (const [table, rows] of Object.entries(document.tables))
       expect(toFile.stderr).toContain(`  ${table}: ${rows.length} ${rows.length === 1 ? 'row' : 'rows'}\n`);

@@ -35,7 +35,7 @@ describe('mvledger verify --org', () => {
     expect(chain.stdout).toMatch(/^chain: intact, 2 rows, head 2 [0-9a-f]{64}\nfrozen baselines: 0 checked, 0 not as frozen\nverified\n$/);
     const full = await runVerify(['--org', organisationId, '--full'], env);
     expect(full.code).toBe(0);
-    expect(full.stdout).toContain('api-keys 1; 0 differences');
+    expect(full.stdout).toContain('api-keys 1, variables 0, variable-values 0, calendars 0; 0 differences');
   });
 
   it('names a key whose role was raised behind the service, with exit code 4', async () => {

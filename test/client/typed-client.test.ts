@@ -57,7 +57,7 @@ describe('a typed client generated from the OpenAPI document drives the demo', (
     expect(posted.data).toMatchObject({ meterId: meter.id, created: 1 }); // synthetic: one new bill
 
     const readBack = await api.GET('/v1/meters/{id}/readings', { params: { path: { id: meter.id }, query: { from: '2026-01-01' } } });
-    expect(readBack.data!.readings).toEqual([{ ...bill, days: 31, estimated: false }]); // synthetic: what was posted
+    expect(readBack.data!.readings).toEqual([{ ...bill, id: `${bill.start}..${bill.end}`, days: 31, estimated: false }]); // synthetic: what was posted (a reading's id is its period)
 
     const savings = await api.GET('/v1/meters/{id}/savings', {
       params: { path: { id: meter.id }, query: { from: '2025-01-01', to: '2026-01-01', confidence: 0.9 } },

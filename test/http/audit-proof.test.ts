@@ -22,6 +22,7 @@ const BILLS = monthlyReadings(SAMPLE_BUILDING, WEATHER, '2023-01-01', 30, random
 let api: TestApi;
 let meterId: string;
 let stationId: string;
+let variableId: string;
 let facilityId: string;
 let baselineId: string;
 
@@ -101,6 +102,24 @@ beforeAll(async () => {
     source: 'Invented normal year (test)',
     days: NORMAL_YEAR_DAYS.map((day, i) => ({ day, temp: 50 + 20 * Math.sin(i / 58) })),
   });
+  variableId = (
+    await ok('POST', `/v1/facilities/${facilityId}/variables`, { name: 'people', unit: 'people', kind: 'daily', aggregation: 'mean' })
+  ).id;
+  await ok('POST', `/v1/variables/${variableId}/values`, {
+    values: [
+      { date: '2025-02-03', value: 12 },
+      { date: '2025-02-04', value: 14 },
+    ],
+  });
+  await ok('POST', `/v1/variables/${variableId}/values`, {
+    values: [{ date: '2025-02-04', value: 15 }],
+    correctionReason: 'Recount (test)',
+  });
+  await ok('PUT', `/v1/facilities/${facilityId}/calendar`, {
+    dayTypes: ['open', 'closed'],
+    weekly: ['open', 'open', 'open', 'open', 'open', 'closed', 'closed'],
+    exceptions: [],
+  });
 });
 afterAll(async () => api.close());
 
@@ -117,6 +136,9 @@ describe('full verification', () => {
       contracts: 1,
       'normal-years': 1,
       adjustments: 1,
+      variables: 1,
+      'variable-values': 2,
+      calendars: 1,
     });
     expect(verdict.replay.compared['api-keys']).toBeGreaterThanOrEqual(4);
   });
@@ -180,6 +202,27 @@ describe('full verification', () => {
       `update weather_observations set fill_method = 'interpolation' where station_id = '${stationId}' and date = '2023-03-10'`,
       'observations',
       /2023-03-10.*fill/,
+    );
+  });
+
+  it('names a variable, its value and a calendar edited', async () => {
+    await expectNamed(
+      `update variables set aggregation = 'total' where id = '${variableId}'`,
+      `update variables set aggregation = 'mean' where id = '${variableId}'`,
+      'variables',
+      new RegExp(variableId),
+    );
+    await expectNamed(
+      `update variable_values set value = 16 where variable_id = '${variableId}' and period_start = '2025-02-04'`,
+      `update variable_values set value = 15 where variable_id = '${variableId}' and period_start = '2025-02-04'`,
+      'variable-values',
+      /value: 16 stored, 15 on the audit trail/,
+    );
+    await expectNamed(
+      `update facility_calendars set calendar_json = replace(calendar_json, '"exceptions":[]', '"exceptions":[{"dayType":"closed","end":"2025-01-02","start":"2025-01-01"}]') where facility_id = '${facilityId}'`,
+      `update facility_calendars set calendar_json = replace(calendar_json, '"exceptions":[{"dayType":"closed","end":"2025-01-02","start":"2025-01-01"}]', '"exceptions":[]') where facility_id = '${facilityId}'`,
+      'calendars',
+      new RegExp(facilityId),
     );
   });
 

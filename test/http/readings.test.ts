@@ -86,10 +86,10 @@ describe('POST /v1/meters/{id}/readings', () => {
       meterId,
       unit: 'kWh',
       readings: [
-        // days hand-worked from the calendar: January 31, February 2025 28, March 31.
-        { start: '2025-01-01', end: '2025-02-01', days: 31, quantity: 31000, estimated: false, cost: null },
-        { start: '2025-02-01', end: '2025-03-01', days: 28, quantity: 27500, estimated: true, cost: null },
-        { start: '2025-03-01', end: '2025-04-01', days: 31, quantity: 26000, estimated: false, cost: 4160.5 },
+        // days hand-worked from the calendar: January 31, February 2025 28, March 31; id: the period (the API's rule).
+        { id: '2025-01-01..2025-02-01', start: '2025-01-01', end: '2025-02-01', days: 31, quantity: 31000, estimated: false, cost: null },
+        { id: '2025-02-01..2025-03-01', start: '2025-02-01', end: '2025-03-01', days: 28, quantity: 27500, estimated: true, cost: null },
+        { id: '2025-03-01..2025-04-01', start: '2025-03-01', end: '2025-04-01', days: 31, quantity: 26000, estimated: false, cost: 4160.5 },
       ],
       limit: 1000, // the stated default page size
       nextCursor: null, // one page holds them all

@@ -3,7 +3,7 @@
  * one database (a SQLite file, or one PostgreSQL schema): instance A answers
  * savings from its memory, instance B makes every kind of write that can
  * change them (a reading, a correction, weather, an adjustment and its
- * withdrawal, rates, superseding the baseline), and after each one A must
+ * withdrawal, rates, superseding the baseline, a variable's values), and after each one A must
  * answer exactly what an instance that keeps nothing (C, cache off) computes
  * from the database at that moment. Check values: that uncached instance (the
  * computation itself), and the HTTP contract of ETag / If-None-Match
@@ -217,5 +217,25 @@ describe('savings kept per data version', () => {
     expect(frozen.status).toBe(200);
     await changed('supersede');
     expect(JSON.parse(previous.text).baselineId).toBe(draft.json.id);
+
+    // A facility variable's values: the weather-only model reads none, so the bytes stand (304), but the version moved.
+    const { facility_id: facilityId } = await api.store.db
+      .selectFrom('meters')
+      .select('facility_id')
+      .where('id', '=', meterId)
+      .executeTakeFirstOrThrow();
+    const variable = await call(b, 'POST', `/v1/facilities/${facilityId}/variables`, {
+      name: 'people',
+      unit: 'people',
+      kind: 'daily',
+      aggregation: 'mean',
+    });
+    expect(variable.status).toBe(201);
+    const beforeValues = await version();
+    expect(
+      (await call(b, 'POST', `/v1/variables/${variable.json.id}/values`, { values: [{ date: '2025-06-02', value: 40 }] })).status,
+    ).toBe(201);
+    expect(await version()).not.toBe(beforeValues);
+    await changed('variable values', false);
   });
 });

@@ -175,3 +175,186 @@ with open(path, "w", encoding="utf-8") as handle:
     json.dump(out, handle, indent=1)
     handle.write("\n")
 print("wrote", path, os.path.getsize(path), "bytes")
+
+
+# ---------------------------------------------------------------------------
+# Changepoint models with independent variables (variables-fixtures.json).
+# Own generator (seed below), so the datasets above are unchanged. The
+# changepoints are found here by a plain search (every interval between
+# sorted temperatures, scipy's bounded scalar minimiser inside it, and every
+# data point; for two changepoints, every pair of intervals with Nelder–Mead
+# from its centre plus the data-point edges); statsmodels WLS then gives the
+# coefficients, standard errors and t at those changepoints, and the partial
+# F-test of each variable (compare_f_test, changepoints held).
+import scipy.optimize
+
+VAR_SEED = 20261202
+vrng = np.random.default_rng(VAR_SEED)
+
+
+def hinge_h(x, c):
+    return np.maximum(c - x, 0.0)
+
+
+def hinge_c(x, c):
+    return np.maximum(x - c, 0.0)
+
+
+def shape_columns(shape, x, ch, cc):
+    ones = np.ones_like(x)
+    if shape == "3PH":
+        return [ones, hinge_h(x, ch)]
+    if shape == "3PC":
+        return [ones, hinge_c(x, cc)]
+    return [ones, hinge_h(x, ch), hinge_c(x, cc)]
+
+
+def wls_sse(shape, x, z, y, w, ch, cc):
+    X = np.column_stack(shape_columns(shape, x, ch, cc) + list(z))
+    res = sm.WLS(y, X, weights=w).fit()
+    return float(res.ssr)
+
+
+def search_one(shape, x, z, y, w, k):
+    xs = np.unique(x)
+    best = (np.inf, None)
+    def feasible(c):
+        return np.sum(x <= c) >= k and np.sum(x >= c) >= k
+    for c in xs:
+        if feasible(c):
+            s = wls_sse(shape, x, z, y, w, c, c)
+            if s < best[0]:
+                best = (s, float(c))
+    for lo, hi in zip(xs[:-1], xs[1:]):
+        mid = 0.5 * (lo + hi)
+        if not (np.sum(x <= lo) >= k and np.sum(x >= hi) >= k):
+            continue
+        r = scipy.optimize.minimize_scalar(lambda c: wls_sse(shape, x, z, y, w, c, c), bounds=(lo, hi),
+                                           method="bounded", options={"xatol": 1e-11})
+        if r.fun < best[0]:
+            best = (float(r.fun), float(r.x))
+    return best
+
+
+def search_five(x, z, y, w, k):
+    xs = np.unique(x)
+    best = (np.inf, None, None)
+    def ok(ch, cc):
+        return ch <= cc and np.sum(x <= ch) >= k and np.sum((x >= ch) & (x <= cc)) >= k and np.sum(x >= cc) >= k
+    # Edges: one changepoint on a data point, the other searched on each interval or on a point.
+    for a in xs:
+        for b in xs:
+            if ok(a, b):
+                s = wls_sse("5P", x, z, y, w, a, b)
+                if s < best[0]:
+                    best = (s, float(a), float(b))
+    for a in xs:
+        for lo, hi in zip(xs[:-1], xs[1:]):
+            if ok(a, 0.5 * (lo + hi)) and ok(a, lo) and ok(a, hi):
+                r = scipy.optimize.minimize_scalar(lambda c: wls_sse("5P", x, z, y, w, a, c), bounds=(lo, hi),
+                                                   method="bounded", options={"xatol": 1e-11})
+                if r.fun < best[0]:
+                    best = (float(r.fun), float(a), float(r.x))
+            if ok(0.5 * (lo + hi), a) and ok(lo, a) and ok(hi, a):
+                r = scipy.optimize.minimize_scalar(lambda c: wls_sse("5P", x, z, y, w, c, a), bounds=(lo, hi),
+                                                   method="bounded", options={"xatol": 1e-11})
+                if r.fun < best[0]:
+                    best = (float(r.fun), float(r.x), float(a))
+    # Interiors of pairs of intervals.
+    gaps = list(zip(xs[:-1], xs[1:]))
+    for i, (l1, h1) in enumerate(gaps):
+        for (l2, h2) in gaps[i + 1:]:
+            if not ok(0.5 * (l1 + h1), 0.5 * (l2 + h2)):
+                continue
+            def f(v):
+                a, b = v
+                if not (l1 <= a <= h1 and l2 <= b <= h2):
+                    return 1e300
+                return wls_sse("5P", x, z, y, w, a, b)
+            r = scipy.optimize.minimize(f, [0.5 * (l1 + h1), 0.5 * (l2 + h2)], method="Nelder-Mead",
+                                        options={"xatol": 1e-10, "fatol": 1e-12, "maxiter": 4000})
+            if r.fun < best[0]:
+                best = (float(r.fun), float(r.x[0]), float(r.x[1]))
+    return best
+
+
+def variable_case(name, shape, x, z, znames, y, w, k, note):
+    x = np.asarray(x, dtype=float)
+    y = np.asarray(y, dtype=float)
+    w = np.asarray(w, dtype=float)
+    z = [np.asarray(v, dtype=float) for v in z]
+    if shape == "5P":
+        sse, ch, cc = search_five(x, z, y, w, k)
+    else:
+        sse, c = search_one(shape, x, z, y, w, k)
+        ch = c if shape == "3PH" else None
+        cc = c if shape == "3PC" else None
+    X = np.column_stack(shape_columns(shape, x, ch if ch is not None else 0.0, cc if cc is not None else 0.0) + z)
+    p = X.shape[1] + (2 if shape == "5P" else 1)
+    model = sm.WLS(y, X, weights=w)
+    model.df_resid = float(len(y) - p)
+    res = model.fit()
+    partial = []
+    for j, zn in enumerate(znames):
+        keep = [c for c in range(X.shape[1]) if c != X.shape[1] - len(znames) + j]
+        reduced = sm.WLS(y, X[:, keep], weights=w)
+        reduced.df_resid = float(len(y) - p + 1)
+        rres = reduced.fit()
+        f_value, p_value, df_diff = res.compare_f_test(rres)
+        partial.append({"variable": zn, "f": float(f_value), "pValue": float(p_value), "dfDiff": float(df_diff)})
+    return {
+        "name": name,
+        "note": note,
+        "shape": shape,
+        "minPoints": k,
+        "temps": x.tolist(),
+        "usePerDay": y.tolist(),
+        "days": w.tolist(),
+        "variables": {zn: v.tolist() for zn, v in zip(znames, z)},
+        "heatingChangepoint": ch,
+        "coolingChangepoint": cc,
+        "sse": float(res.ssr),
+        "searchSse": sse,
+        "p": p,
+        "params": res.params.tolist(),
+        "bse": res.bse.tolist(),
+        "tvalues": res.tvalues.tolist(),
+        "partialF": partial,
+    }
+
+
+vcases = []
+# (v1) 36 monthly bills, heating only, occupancy share and production.
+days_v = month_lengths(36)
+temps_v = monthly_temps(36)
+occ_v = np.clip(0.70 - 0.45 * (((np.arange(36) % 12) == 6) | ((np.arange(36) % 12) == 7)) + vrng.normal(0, 0.04, 36), 0, 1)
+prod_v = vrng.uniform(80.0, 140.0, 36)
+y_v = 300.0 + 9.0 * hinge_h(temps_v, 56.0) + 220.0 * occ_v + 1.6 * prod_v + vrng.normal(0, 14.0, 36)
+vcases.append(variable_case("monthly-3PH-two-variables", "3PH", temps_v, [occ_v, prod_v], ["occupied", "production"],
+                            y_v, days_v, 3, "36 bills at their mean temperature; use = 300 + 9(56-T)+ + 220 occ + 1.6 prod + noise"))
+# (v3) 120 days, 3PC with two day-type indicators (weekend, holiday), weights 1.
+day_v = np.arange(120)
+temps_d = np.clip(62.0 + 14.0 * np.sin(2 * np.pi * day_v / 120.0) + vrng.normal(0, 4.0, 120), 30.0, 100.0)
+weekend = ((day_v % 7) >= 5).astype(float)
+holiday = np.zeros(120)
+holiday[[10, 45, 46, 90]] = 1.0
+holiday = holiday * (1.0 - weekend)
+y_d = 500.0 + 21.0 * hinge_c(temps_d, 65.0) - 180.0 * weekend - 150.0 * holiday + vrng.normal(0, 25.0, 120)
+vcases.append(variable_case("daily-3PC-day-types", "3PC", temps_d, [weekend, holiday], ["weekend", "holiday"],
+                            y_d, np.ones(120), 3, "120 days; use = 500 + 21(T-65)+ - 180 weekend - 150 holiday + noise"))
+
+vout = {
+    "generator": {
+        "script": "test/reference/make-wls-fixtures.py",
+        "seed": VAR_SEED,
+        "numpy": np.__version__,
+        "statsmodels": statsmodels.__version__,
+        "scipy": scipy.__version__,
+    },
+    "cases": vcases,
+}
+vpath = os.path.join(os.path.dirname(os.path.abspath(__file__)), "variables-fixtures.json")
+with open(vpath, "w", encoding="utf-8") as handle:
+    json.dump(vout, handle, indent=1)
+    handle.write("\n")
+print("wrote", vpath, os.path.getsize(vpath), "bytes")

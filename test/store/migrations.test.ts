@@ -19,6 +19,7 @@ const TABLES = [
   'baselines',
   'contracts',
   'facilities',
+  'facility_calendars',
   'idempotency_keys',
   'meter_data_versions',
   'meters',
@@ -28,6 +29,8 @@ const TABLES = [
   'readings',
   'statement_copies',
   'statements',
+  'variable_values',
+  'variables',
   'weather_observations',
   'weather_stations',
 ];

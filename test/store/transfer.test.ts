@@ -65,6 +65,11 @@ function asFile(document: ExportDocument): unknown {
 }
 
 /** A deep copy of the document with one change made to it. */
+/** The tables of format version 6 (migration 0006): an older document has none. */
+function withoutTablesOfVersion6(d: any): void {
+  for (const table of ['variables', 'variable_values', 'facility_calendars']) delete d.tables[table];
+}
+
 function edited(document: ExportDocument, change: (copy: any) => void): unknown {
   const copy = asFile(document);
   change(copy);
@@ -95,9 +100,9 @@ afterAll(async () => {
 const CONTRACT_COLUMNS_SINCE_4 = ['reference', 'parties_json', 'mv_plan_reference', 'mv_option', 'confidence'];
 
 describe('exportOrganisation', () => {
-  it('writes format mvledger-export version 5 with every table of the organisation and no idempotency keys', async () => {
+  it('writes format mvledger-export version 6 with every table of the organisation and no idempotency keys', async () => {
     expect(document.format).toBe('mvledger-export'); // the format's own contract
-    expect(document.version).toBe(5);
+    expect(document.version).toBe(6);
     expect(document.exportedAt).toBe(EXPORTED_AT);
     expect(Object.keys(document.tables)).toEqual([...TRANSFER_TABLES]);
     expect(document.organisation).toEqual(await source.db.selectFrom('organisations').selectAll().executeTakeFirstOrThrow());
@@ -134,7 +139,7 @@ describe('exportOrganisation', () => {
 describe('checkDocument refuses a document that is not a faithful export', () => {
   const cases: { what: string; change: (copy: any) => void; says: RegExp }[] = [
     { what: 'another format', change: (d) => (d.format = 'ledger-dump'), says: /^format: must be "mvledger-export"/ },
-    { what: 'another version', change: (d) => (d.version = 6), says: /^version: this mvledger reads versions 1, 2, 3, 4 and 5, got 6/ },
+    { what: 'another version', change: (d) => (d.version = 7), says: /^version: this mvledger reads versions 1, 2, 3, 4, 5 and 6, got 7/ },
     {
       what: 'a version 1 document with a table of version 2',
       change: (d) => (d.version = 1),
@@ -164,12 +169,13 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
     {
       what: 'an unknown column',
       change: (d) => (d.tables.meters[0].colour = 'red'),
-      says: /^tables\.meters\[0\]\.colour: not a column of format version 5/,
+      says: /^tables\.meters\[0\]\.colour: not a column of format version 6/,
     },
     {
       what: 'a version 2 document with a column of version 3',
       change: (d) => {
         d.version = 2;
+        withoutTablesOfVersion6(d);
         delete d.tables.statements;
         delete d.tables.statement_copies;
         for (const row of d.tables.contracts) for (const column of CONTRACT_COLUMNS_SINCE_4) delete row[column];
@@ -179,7 +185,11 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
     },
     {
       what: 'a version 4 document with a column of version 5',
-      change: (d) => (d.version = 4),
+      change: (d) => {
+        d.version = 4;
+        withoutTablesOfVersion6(d);
+        withoutTablesOfVersion6(d);
+      },
       says: /^tables\.weather_observations\[0\]\.fill_method: not a column of format version 4/,
     },
     {
@@ -230,7 +240,7 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
     {
       what: 'idempotency keys',
       change: (d) => (d.tables.idempotency_keys = []),
-      says: /^tables\.idempotency_keys: not a table of format version 5/,
+      says: /^tables\.idempotency_keys: not a table of format version 6/,
     },
     // Keys must have been issued on the audit trail (issue 17 item 4): a hand-added admin key is refused by its id.
     {
@@ -282,6 +292,7 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
   it('still reads a version 1 document (from before adjustments, rates, contracts and normal years), with those tables empty', () => {
     const input = edited(document, (d) => {
       d.version = 1;
+      withoutTablesOfVersion6(d);
       for (const table of ['adjustments', 'rates', 'contracts', 'normal_years', 'statements', 'statement_copies']) delete d.tables[table];
       for (const table of ['adjustments', 'rates', 'contracts', 'normal_years']) delete d.tables[table];
       for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
@@ -289,7 +300,7 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
     for (const row of (input as any).tables.baselines)
       for (const column of ['temperature_form', 'short_baseline_override', 'extrapolation_override']) delete row[column];
     const checked = checkDocument(input);
-    expect(checked.version).toBe(5);
+    expect(checked.version).toBe(6);
     expect(checked.tables.rates).toEqual([]);
     expect(checked.tables.statements).toEqual([]);
     expect(checked.tables.readings).toHaveLength(document.tables.readings.length);
@@ -299,6 +310,7 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
   it('still reads a version 2 document, taking each baseline’s form from its fit document and no override or adjustment ±', () => {
     const input = edited(document, (d) => {
       d.version = 2;
+      withoutTablesOfVersion6(d);
       delete d.tables.statements;
       delete d.tables.statement_copies;
       for (const row of d.tables.contracts) for (const column of CONTRACT_COLUMNS_SINCE_4) delete row[column];
@@ -308,7 +320,7 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
       for (const row of d.tables.adjustments) delete row.uncertainty;
     });
     const checked = checkDocument(input);
-    expect(checked.version).toBe(5);
+    expect(checked.version).toBe(6);
     // The demo's baselines are day-resolved (its bills have daily weather) and carry no override: the source's own rows.
     expect(checked.tables.baselines.map((row) => row.temperature_form)).toEqual(document.tables.baselines.map(() => 'daily'));
     expect(checked.tables.baselines).toEqual(document.tables.baselines);
@@ -318,13 +330,14 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
   it('still reads a version 3 document (from before statements), each contract with no identification and the 90% default', () => {
     const input = edited(document, (d) => {
       d.version = 3;
+      withoutTablesOfVersion6(d);
       delete d.tables.statements;
       delete d.tables.statement_copies;
       for (const row of d.tables.contracts) for (const column of CONTRACT_COLUMNS_SINCE_4) delete row[column];
       for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
     });
     const checked = checkDocument(input);
-    expect(checked.version).toBe(5);
+    expect(checked.version).toBe(6);
     expect(checked.tables.statements).toEqual([]);
     expect(checked.tables.statement_copies).toEqual([]);
     for (const row of checked.tables.contracts)
@@ -334,6 +347,7 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
   it('refuses a version 3 document that carries statements', () => {
     const input = edited(document, (d) => {
       d.version = 3;
+      withoutTablesOfVersion6(d);
       for (const row of d.tables.contracts) for (const column of CONTRACT_COLUMNS_SINCE_4) delete row[column];
       for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
     });
@@ -343,12 +357,30 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
   it('still reads a version 4 document, every weather day of it observed', () => {
     const input = edited(document, (d) => {
       d.version = 4;
+      withoutTablesOfVersion6(d);
       for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
     });
     const checked = checkDocument(input);
-    expect(checked.version).toBe(5);
+    expect(checked.version).toBe(6);
     expect(checked.tables.weather_observations.length).toBeGreaterThan(0);
     expect(checked.tables.weather_observations.every((row) => row.fill_method === null && row.fill_note === null)).toBe(true);
+  });
+
+  it('still reads a version 5 document, with no variables or calendars', () => {
+    const input = edited(document, (d) => {
+      d.version = 5;
+      withoutTablesOfVersion6(d);
+    });
+    const checked = checkDocument(input);
+    expect(checked.version).toBe(6);
+    expect(checked.tables.variables).toEqual([]);
+    expect(checked.tables.variable_values).toEqual([]);
+    expect(checked.tables.facility_calendars).toEqual([]);
+  });
+
+  it('refuses a version 5 document that carries the tables of variables and calendars', () => {
+    const input = edited(document, (d) => (d.version = 5));
+    expect(() => checkDocument(input)).toThrow(/^tables\.facility_calendars: not a table of format version 5/);
   });
 
   for (const c of cases) {

@@ -9,7 +9,7 @@
  * the share of its days in the segment (a day on a changepoint in both).
  */
 import { weightedLeastSquares } from '../../src/engine/fit/wls.js';
-import { periodDesignRow } from '../../src/engine/fit/shape-model.js';
+import { designRowWithVariables } from '../../src/engine/fit/variable-columns.js';
 import type { Period } from '../../src/engine/types.js';
 import { goldenMinimum } from './golden-section.js';
 
@@ -36,10 +36,17 @@ function feasible(periods: readonly Period[], k: number, shape: Shape, cH: numbe
 }
 
 /** SSE of the day-resolved shape with its changepoints fixed, or +∞ where infeasible or singular. */
-export function dayResolvedSse(shape: Shape, periods: readonly Period[], cH: number | null, cC: number | null, k: number): number {
+export function dayResolvedSse(
+  shape: Shape,
+  periods: readonly Period[],
+  cH: number | null,
+  cC: number | null,
+  k: number,
+  variables: readonly string[] = [],
+): number {
   if (!feasible(periods, k, shape, cH, cC)) return Number.POSITIVE_INFINITY;
   const changepoints = { heating: cH, cooling: cC };
-  const design = periods.map((p) => periodDesignRow(shape, changepoints, p, 'daily'));
+  const design = periods.map((p) => designRowWithVariables(shape, changepoints, p, 'daily', variables));
   const fit = weightedLeastSquares(
     design,
     periods.map((p) => p.usePerDay),
@@ -49,14 +56,20 @@ export function dayResolvedSse(shape: Shape, periods: readonly Period[], cH: num
 }
 
 /** Grid over the range of the days' temperatures, then a golden-section polish around the best point. */
-export function dayResolvedGridSearch(shape: Shape, periods: readonly Period[], step: number, k: number): DayGridOptimum | null {
+export function dayResolvedGridSearch(
+  shape: Shape,
+  periods: readonly Period[],
+  step: number,
+  k: number,
+  variables: readonly string[] = [],
+): DayGridOptimum | null {
   const temps = periods.flatMap((p) => [...p.dayTemps!]);
   const low = Math.floor(Math.min(...temps) / step);
   const high = Math.ceil(Math.max(...temps) / step);
   const grid = Array.from({ length: high - low + 1 }, (_, i) => (low + i) * step);
   let best: DayGridOptimum | null = null;
   const offer = (cH: number | null, cC: number | null): void => {
-    const sse = dayResolvedSse(shape, periods, cH, cC, k);
+    const sse = dayResolvedSse(shape, periods, cH, cC, k, variables);
     if (Number.isFinite(sse) && (!best || sse < best.sse)) best = { heating: cH, cooling: cC, sse };
   };
   if (shape === '5P') {
@@ -71,7 +84,7 @@ export function dayResolvedGridSearch(shape: Shape, periods: readonly Period[], 
     if (current.heating !== null) {
       const cC = shape === '4P' ? null : current.cooling;
       const result = goldenMinimum(
-        (h) => dayResolvedSse(shape, periods, h, shape === '4P' ? h : cC, k),
+        (h) => dayResolvedSse(shape, periods, h, shape === '4P' ? h : cC, k, variables),
         current.heating - step,
         current.heating + step,
         60,
@@ -81,7 +94,12 @@ export function dayResolvedGridSearch(shape: Shape, periods: readonly Period[], 
     }
     if (current.cooling !== null && shape !== '4P') {
       const cH = current.heating;
-      const result = goldenMinimum((c) => dayResolvedSse(shape, periods, cH, c, k), current.cooling - step, current.cooling + step, 60);
+      const result = goldenMinimum(
+        (c) => dayResolvedSse(shape, periods, cH, c, k, variables),
+        current.cooling - step,
+        current.cooling + step,
+        60,
+      );
       if (result.value < current.sse) current = { heating: current.heating, cooling: result.x, sse: result.value };
     }
   }

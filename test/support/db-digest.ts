@@ -24,6 +24,9 @@ const TABLES = [
   'statements',
   'statement_copies',
   'meter_data_versions',
+  'variables',
+  'variable_values',
+  'facility_calendars',
 ] as const;
 
 export async function databaseDigest(db: Kysely<Database>): Promise<string> {

@@ -1,6 +1,7 @@
 /** `mvledger savings`: avoided energy of the reporting readings against the baseline fit. */
 import {
   TooFewPeriodsError,
+  MissingVariableValuesError,
   alignPeriods,
   analyseSavings,
   baselineSufficiency,
@@ -20,6 +21,7 @@ import { loadWeather, type WeatherFile } from '../input/weather-file.js';
 import { toJsonDocument } from '../format/json.js';
 import { renderSavingsReport } from '../format/savings-report.js';
 import { fitBaseline, lineLookup } from './baseline.js';
+import { loadVariables, explainMissingValues, type VariablesFile } from '../input/variables-file.js';
 import { explainTooFewPeriods } from './too-few-periods.js';
 
 /** The option that passes each check over, for the refusal's hint. */
@@ -30,7 +32,8 @@ export async function runSavings(options: SavingsCommandOptions): Promise<string
   const baselineReadings = await loadReadings(options.baseline);
   const reportingReadings = await loadReadings(options.reporting);
   const weather = await loadWeather(options.weather, options.unit);
-  const baseline = fitBaseline(baselineReadings, weather, options);
+  const variables = options.variables === null ? null : await loadVariables(options.variables);
+  const baseline = fitBaseline(baselineReadings, weather, options, [], variables);
   const model = options.model ?? baseline.choice.selected;
   const used = baseline.choice.candidates.find((c) => c.model === model);
   if (!used?.fit) {
@@ -38,7 +41,7 @@ export async function runSavings(options: SavingsCommandOptions): Promise<string
       `--model ${model}: the ${model} shape could not be fitted to this baseline (${used?.reasons.join('; ') ?? 'not a candidate'})`,
     );
   }
-  const plain = computeSavingsDocument(baseline, reportingReadings, weather, options, model);
+  const plain = computeSavingsDocument(baseline, reportingReadings, weather, options, model, variables);
   const document = checkProjection(plain, baseline, used.fit, reportingReadings, weather, options);
   if (options.json) return toJsonDocument(document);
   return renderSavingsReport(document, {
@@ -95,14 +98,17 @@ function computeSavingsDocument(
   weather: WeatherFile,
   options: SavingsCommandOptions,
   model: NonNullable<SavingsCommandOptions['model']>,
+  variables: VariablesFile | null,
 ): SavingsDocument {
   try {
     return analyseSavings(baseline, reporting.readings, weather.weather, {
       confidence: options.confidence,
       model,
       minCoverage: options.minCoverage,
+      variableSeries: variables?.series ?? [],
     });
   } catch (error) {
+    if (error instanceof MissingVariableValuesError) throw explainMissingValues(error, variables, `reporting readings ${reporting.file}`);
     throw error instanceof TooFewPeriodsError ? explainTooFewPeriods(reporting, weather, error) : error;
   }
 }

@@ -115,6 +115,11 @@ export function renderFitReport(document: FitDocument, context: FitReportContext
   for (const period of excluded) {
     lines.push(`  row ${String(context.lineOf(period.index)).padStart(rowWidth)}  ${period.start} to ${period.end}: ${period.reason}`);
   }
+  const exclusions = document.exclusions ?? [];
+  if (exclusions.length > 0) {
+    lines.push('', 'Readings left out by the engineer');
+    for (const e of exclusions) lines.push(`  ${e.start} to ${e.end} (quantity ${e.quantity}): ${e.reason}`);
+  }
 
   if (context.filledColumn) {
     const fills = context.weatherFills ?? [];

@@ -10,16 +10,10 @@ import { weightedLeastSquares } from './wls.js';
 import { buildSortedSums } from './sorted-sums.js';
 import { searchChangepoints, type ChangepointOptimum } from './changepoint-search.js';
 import { searchDayResolved } from './day-resolved/search.js';
-import { billDaysOf } from './day-resolved/bill-days.js';
+import { billDaysOf, withExtraColumns, type BillDays } from './day-resolved/bill-days.js';
+import { checkVariableValues, designRowWithVariables, fitVariables, variableValues } from './variable-columns.js';
 
-import {
-  changepointDerivatives,
-  changepointNames,
-  coefficientNames,
-  periodDesignRow,
-  slopeSign,
-  type Changepoints,
-} from './shape-model.js';
+import { changepointDerivatives, changepointNames, coefficientNames, slopeSign, type Changepoints } from './shape-model.js';
 import { energyResiduals, goodnessOfFit } from '../stats/goodness-of-fit.js';
 import { durbinWatson, lagOneAutocorrelation } from '../stats/autocorrelation.js';
 import { ar1VarianceInflation } from '../stats/autocorrelation-inflation.js';
@@ -100,6 +94,14 @@ export interface ShapeFit {
   temperatureRange: { min: number; max: number };
   /** Day-resolved fits: lowest and highest daily temperature the model saw (null in the mean form). */
   dayTemperatureRange?: { min: number; max: number } | null;
+  /**
+   * Independent variables the model carries, in design order after the
+   * shape's columns (use per day = shape(T) + Σβk·zk). Absent for a
+   * weather-only fit (and in every fit stored before variables existed).
+   */
+  variables?: string[];
+  /** Lowest and highest per-day value of each variable over the baseline (the extrapolation guard reads it). */
+  variableRanges?: Record<string, { min: number; max: number }>;
   /** Σ days·(usePerDay − fitted)². */
   sse: number;
   stats: FitStatistics;
@@ -138,15 +140,19 @@ export function fitShape(
   model: ModelName,
   minPointsPerSegment: number,
   form: TemperatureForm = 'mean',
+  variables: readonly string[] = [],
 ): ShapeFitResult {
   const ordered = [...periods].sort((a, b) => (a.start < b.start ? -1 : a.start > b.start ? 1 : 0));
   const n = ordered.length;
-  const p = PARAMETER_COUNT[model];
+  // p counts every parameter: the shape's coefficients and changepoints and one per variable.
+  const p = PARAMETER_COUNT[model] + variables.length;
   const fail = (reason: string): ShapeFitFailure => ({ ok: false, model, n, p, reason });
   if (form === 'daily' && !periodsHaveDays(ordered)) {
     throw new RangeError('the day-resolved form needs the daily temperatures of every period (align the readings with alignPeriods)');
   }
   if (n <= p) return fail(`needs more than ${p} periods, has ${n}`);
+  if (new Set(variables).size !== variables.length) throw new RangeError('a variable is named twice');
+  checkVariableValues(ordered, variables, 'baseline');
 
   const x = ordered.map((period) => period.meanTemp);
   const y = ordered.map((period) => period.usePerDay);
@@ -154,21 +160,27 @@ export function fitShape(
 
   let changepoints: Changepoints = { heating: null, cooling: null };
   if (model === '3PC' || model === '3PH' || model === '4P' || model === '5P') {
-    const optimum = searchShape(periods, model, minPointsPerSegment, form, x, y, w);
+    const optimum = searchShape(periods, model, minPointsPerSegment, form, x, y, w, variables);
     if (!optimum) return fail(`no changepoint leaves ${minPointsPerSegment} points in every segment`);
     changepoints = { heating: optimum.heatingChangepoint, cooling: optimum.coolingChangepoint };
   }
 
-  const design = ordered.map((period) => periodDesignRow(model, changepoints, period, form));
+  const design = ordered.map((period) => designRowWithVariables(model, changepoints, period, form, variables));
   const regression = weightedLeastSquares(design, y, w, n - p);
-  if (!regression) return fail('the regression is singular (too little spread in temperature)');
+  if (!regression)
+    return fail(
+      variables.length > 0
+        ? 'the regression is singular (too little spread in temperature, or a variable constant or a combination of the others)'
+        : 'the regression is singular (too little spread in temperature)',
+    );
 
   const residuals = energyResiduals({ quantity: ordered.map((q) => q.quantity), days: w, fittedPerDay: regression.fitted, p });
   const autocorrelation = lagOneAutocorrelation(residuals);
   const inflation = ar1VarianceInflation(design, w, autocorrelation);
-  const names = coefficientNames(model);
+  const shapeColumns = coefficientNames(model).length;
+  const names = [...coefficientNames(model), ...variables];
   const coefficients: Coefficient[] = regression.coefficients.map((raw, j) => {
-    const sign = slopeSign(model, j);
+    const sign = j < shapeColumns ? slopeSign(model, j) : 1; // variables' coefficients are reported as they are
     return {
       name: names[j]!,
       estimate: sign * raw,
@@ -204,6 +216,7 @@ export function fitShape(
     segmentCounts: segmentCounts(model, changepoints, ordered, form),
     temperatureRange: { min: Math.min(...x), max: Math.max(...x) },
     dayTemperatureRange: form === 'daily' ? dayRange(ordered) : null,
+    ...(variables.length > 0 ? { variables: [...variables], variableRanges: variableRanges(ordered, variables) } : {}),
     sse: regression.sse,
     stats: {
       ...fit,
@@ -233,10 +246,36 @@ function searchShape(
   x: readonly number[],
   y: readonly number[],
   w: readonly number[],
+  variables: readonly string[],
 ): ChangepointOptimum | null {
+  if (variables.length > 0) return searchDayResolved(searchView(periods, form, variables), model, minPoints);
   const oneDayEach = periods.every((period) => period.dayTemps?.length === 1);
   if (form === 'mean' || oneDayEach) return searchChangepoints(buildSortedSums(x, y, w), model, minPoints);
   return searchDayResolved(billDaysOf(periods), model, minPoints);
+}
+
+/**
+ * The search's view of periods with variables: their days (day-resolved
+ * form) or one pseudo-day at the mean temperature each (mean form, where
+ * the day-resolved terms are the ordinary hinges and the segment rule is the
+ * mean form's), with the variables as extra fixed columns. For fixed
+ * changepoints the model is linear in every coefficient, so the same exact
+ * search carries the extra columns (basis-sweep.ts, five-point-basis.ts).
+ */
+export function searchView(periods: readonly Period[], form: TemperatureForm, variables: readonly string[]): BillDays {
+  const base = form === 'daily' ? billDaysOf(periods) : billDaysOf(periods.map((period) => ({ ...period, dayTemps: [period.meanTemp] })));
+  if (variables.length === 0) return base;
+  const columns = variables.map((_, k) => periods.map((period) => variableValues(period, variables)[k]!));
+  return withExtraColumns(base, variables.join('\u0000'), columns);
+}
+
+function variableRanges(periods: readonly Period[], variables: readonly string[]): Record<string, { min: number; max: number }> {
+  const ranges: Record<string, { min: number; max: number }> = {};
+  variables.forEach((name, k) => {
+    const values = periods.map((period) => variableValues(period, variables)[k]!);
+    ranges[name] = { min: Math.min(...values), max: Math.max(...values) };
+  });
+  return ranges;
 }
 
 function dayRange(periods: readonly Period[]): { min: number; max: number } {
@@ -334,7 +373,7 @@ function estimateChangepointErrors(
 export function withAutocorrelation(fit: ShapeFit, periods: readonly Period[], rho: number): ShapeFit {
   const ordered = [...periods].sort((a, b) => (a.start < b.start ? -1 : a.start > b.start ? 1 : 0));
   const form = fitTemperatureForm(fit);
-  const design = ordered.map((period) => periodDesignRow(fit.model, fit.changepoints, period, form));
+  const design = ordered.map((period) => designRowWithVariables(fit.model, fit.changepoints, period, form, fitVariables(fit)));
   const inflation = ar1VarianceInflation(
     design,
     ordered.map((period) => period.days),

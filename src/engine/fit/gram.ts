@@ -13,7 +13,7 @@
 const PIVOT_TOLERANCE = 1e-9;
 
 /** The search never fits more columns than this; scratch space is kept for it (the engine is single-threaded). */
-const MAX_COLUMNS = 8;
+const MAX_COLUMNS = 24;
 const factorScratch = new Float64Array(MAX_COLUMNS * MAX_COLUMNS);
 const solutionScratch = new Float64Array(MAX_COLUMNS);
 

@@ -12,7 +12,7 @@ import { InputFileError } from '../../lib/csv/input-error.js';
 import { Problem } from '../problem.js';
 import { FASTIFY_VERSION, PLUGIN } from './names.js';
 
-export type CsvCollection = 'readings' | 'observations' | 'days';
+export type CsvCollection = 'readings' | 'observations' | 'days' | 'values';
 
 /** A CSV normal year carries its source in this header (the CSV itself holds only day,temp). */
 export const NORMAL_YEAR_SOURCE_HEADER = 'x-normal-year-source';
@@ -39,6 +39,14 @@ const COLUMNS: Record<CsvCollection, { required: string[][]; optional: string[];
     flags: [],
   },
   days: { required: [['day', 'temp']], optional: [], flags: [] },
+  values: {
+    required: [
+      ['date', 'value'],
+      ['start', 'end', 'value'],
+    ],
+    optional: [],
+    flags: [],
+  },
 };
 
 const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;

@@ -21,6 +21,8 @@ import { weatherImportsRoutes } from './weather-imports.js';
 import { weatherGapsRoutes } from './weather-gaps.js';
 import { reportsRoutes } from './reports.js';
 import { statementsRoutes } from './statements.js';
+import { variablesRoutes } from './variables.js';
+import { calendarsRoutes } from './calendars.js';
 import { meRoutes } from './me.js';
 import type { ApiApp } from './types.js';
 
@@ -30,6 +32,8 @@ function registerRoutes(app: ApiApp, deps: RouteDeps): void {
   facilitiesRoutes(app, deps);
   metersRoutes(app, deps);
   readingsRoutes(app, deps);
+  variablesRoutes(app, deps);
+  calendarsRoutes(app, deps);
   observationsRoutes(app, deps);
   weatherImportsRoutes(app, deps);
   weatherGapsRoutes(app, deps);

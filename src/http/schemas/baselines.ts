@@ -1,7 +1,7 @@
 /** Baselines: request bodies and the fit document as the API returns it. */
 import { z } from 'zod';
 import { MAX_POINTS_PER_SEGMENT, MODEL_NAMES, TEMPERATURE_FORMS } from '../../engine/index.js';
-import { isoDate, plainText, pageFields } from './common.js';
+import { isoDate, name, plainText, pageFields } from './common.js';
 
 /** A statistic: JSON has no NaN or Infinity, so a non-finite value is sent as null. */
 export const stat = z.number().nullable();
@@ -13,6 +13,9 @@ export const temperatureForm = z
   .describe(
     'How each reading’s weather enters the model: daily (day-resolved: the mean over its days of the daily response) or mean (the response at its mean temperature)',
   );
+
+/** Most variables one fit may be offered: each adds a column and a parameter (our own limit). */
+export const MAX_FIT_VARIABLES = 10;
 
 const text = (max: number) => plainText().trim().min(1, 'must not be empty').max(max, `must be at most ${max} characters`);
 
@@ -43,14 +46,60 @@ export const baselineOptions = z
       .describe(
         'How each reading’s weather enters the fit: daily (day-resolved: each bill against the mean over its days of the daily response, the variable-base degree-day method) or mean (the response at its mean temperature). Default: daily wherever daily weather covers the readings. A frozen baseline keeps its form.',
       ),
+    variables: z
+      .array(name)
+      .max(MAX_FIT_VARIABLES, `at most ${MAX_FIT_VARIABLES} variables`)
+      .optional()
+      .describe(
+        'Stored variables (POST /v1/facilities/{id}/variables) the fit may carry beside the weather, by name: the meter’s own, else its facility’s. Each must earn its place by its t-test and the partial F-test; every baseline period needs its values (422 naming the dates otherwise).',
+      ),
+    variableOverrides: z
+      .array(
+        z
+          .object({
+            name,
+            include: z.boolean().describe('true: kept whatever the tests say; false: left out'),
+            reason: text(2000).describe('Why (kept with the baseline)'),
+          })
+          .strict(),
+      )
+      .max(MAX_FIT_VARIABLES, `at most ${MAX_FIT_VARIABLES} decisions`)
+      .optional()
+      .describe('The engineer’s decisions on variables, each with its reason on record'),
+    dayTypes: z
+      .boolean()
+      .optional()
+      .describe(
+        'Offer the facility calendar’s day types (PUT /v1/facilities/{id}/calendar) as indicator variables named "day type: NAME", every type but the first: one shared set of changepoints and slopes with a shift of the use per day for each day type (daily readings), or for bills the share of their days of each type. Each must earn its place like any variable.',
+      ),
   })
   .strict();
+
+export const exclusionInput = z
+  .object({
+    readingId: z.string().min(1).max(100).optional().describe('The reading’s id, as the readings API returns it'),
+    start: isoDate.optional().describe('Or the reading’s period: its first day …'),
+    end: isoDate.optional().describe('… and the day after it (end exclusive)'),
+    reason: text(2000).describe('Why the reading is left out (kept with the baseline, frozen with it and shown in reports)'),
+  })
+  .strict()
+  .refine((e) => e.readingId !== undefined || (e.start !== undefined && e.end !== undefined), {
+    message: 'name the reading by readingId or by start and end',
+  })
+  .describe('A baseline reading the engineer leaves out of the fit, and why');
 
 export const createBaselineBody = z
   .object({
     start: isoDate.describe('First day of the baseline'),
     end: isoDate.describe('Day after the baseline (end exclusive)'),
     options: baselineOptions.optional(),
+    exclusions: z
+      .array(exclusionInput)
+      .max(1000)
+      .optional()
+      .describe(
+        'Readings inside the window to leave out of the fit, each with its reason; more than a fifth of the window’s readings is refused (422)',
+      ),
   })
   .strict()
   .refine((body) => body.end > body.start, { path: ['end'], message: 'must be after start' });
@@ -179,6 +228,25 @@ const candidateSchema = z
   })
   .meta({ id: 'Candidate', description: 'One fitted shape with its verdict and reasons' });
 
+export const exclusionSchema = z
+  .object({
+    readingId: z.string().optional(),
+    start: z.string(),
+    end: z.string(),
+    quantity: z.number(),
+    reason: z.string(),
+  })
+  .meta({ id: 'Exclusion', description: 'A reading the engineer left out of the baseline, and why' });
+
+const variableDecisionSchema = z.object({
+  name: z.string(),
+  verdict: z.enum(['kept', 'dropped', 'forced-in', 'forced-out']),
+  reasons: z.array(z.string()),
+  tStat: stat.optional(),
+  partialF: stat.optional(),
+  pValue: stat.optional(),
+});
+
 export const fitDocumentSchema = z
   .object({
     selected: modelName,
@@ -192,6 +260,12 @@ export const fitDocumentSchema = z
       minCoverage: z.number(),
       temperatureForm,
     }),
+    exclusions: z
+      .array(exclusionSchema)
+      .optional()
+      .describe('Readings the engineer left out, each with its reason (apart from periods.excluded, left out for weather coverage)'),
+    variables: z.array(z.string()).optional().describe('Independent variables in the selected model'),
+    variableDecisions: z.array(variableDecisionSchema).optional().describe('Each candidate variable’s decision and reasons'),
   })
   .meta({
     id: 'FitDocument',
@@ -225,6 +299,9 @@ const baselineFields = {
   supersedeReason: z.string().nullable(),
   createdAt: z.string(),
   createdBy: z.string(),
+  exclusions: z
+    .array(exclusionSchema)
+    .describe('Readings the engineer left out of this baseline, each with its reason (frozen with it); empty when none'),
 };
 
 export const baselineSummarySchema = z

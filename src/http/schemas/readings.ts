@@ -58,6 +58,7 @@ export const dateRangeQuery = z.object({
 
 export const storedReading = z
   .object({
+    id: z.string().describe('The reading’s id within its meter: its period, start..end (what a baseline’s exclusions name)'),
     start: z.string(),
     end: z.string(),
     days: z.number().int(),

@@ -53,6 +53,10 @@ export const savingsSchema = z
         adjustedBaseline: stat.describe('modelBaseline + adjustment'),
         savings: stat,
         outsideBaselineRange: z.boolean(),
+        outsideVariableRanges: z
+          .array(z.string())
+          .optional()
+          .describe('Variables whose value in this period lies outside the range the baseline saw (models with variables only)'),
       }),
     ),
     totals: z.object({
@@ -73,6 +77,12 @@ export const savingsSchema = z
       }),
       significant: z.boolean(),
       outsideRangeShare: stat,
+      outsideVariableRangeShares: z
+        .record(z.string(), stat)
+        .optional()
+        .describe(
+          'Per variable: share of the model baseline from periods whose value lies outside the baseline’s range (models with variables only)',
+        ),
     }),
     significance: z.object({ rule: z.string(), fractionalAt68: z.object({ guideline14: stat, exact: stat }) }),
     baselineTemperatureRange: z.object({ min: stat, max: stat }),

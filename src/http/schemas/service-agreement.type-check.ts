@@ -39,6 +39,17 @@ import type {
 import type { gapFillBody, gapFillResult } from './weather-gaps.js';
 import type { archiveFormat, importResult } from './weather-imports.js';
 import type { pageQuery } from './common.js';
+import type {
+  createVariableBody,
+  postVariableValuesBody,
+  postVariableValuesResult,
+  variableListSchema,
+  variableSchema,
+  variableValuesList,
+} from './variables.js';
+import type { calendarSchema, putCalendarBody } from './calendars.js';
+import type { getCalendar, putCalendar } from '../../services/calendars.js';
+import type { createVariable, listVariableValues, listVariables, postVariableValues } from '../../services/variables.js';
 import type { PageRequest } from '../../services/paging.js';
 import type { createFacility, listFacilities, toFacility } from '../../services/facilities.js';
 import type { createMeter, listMeters, listOrganisationMeters, toMeter } from '../../services/meters.js';
@@ -214,6 +225,22 @@ export type RateRoutes = [
   Expect<Agree<Parsed<typeof putRatesBody>, Takes<typeof putRates, 2>>>,
   Expect<Agree<Gives<typeof putRates>, Answer<typeof rateScheduleSchema>>>,
   Expect<Agree<Gives<typeof getRates>, Answer<typeof rateScheduleSchema>>>,
+];
+
+export type CalendarRoutes = [
+  Expect<Agree<Parsed<typeof putCalendarBody>, Takes<typeof putCalendar, 2>>>,
+  Expect<Agree<Gives<typeof putCalendar>, Answer<typeof calendarSchema>>>,
+  Expect<Agree<Gives<typeof getCalendar>, Answer<typeof calendarSchema>>>,
+];
+
+export type VariableRoutes = [
+  Expect<Agree<Parsed<typeof createVariableBody>, Takes<typeof createVariable, 2>>>,
+  Expect<Agree<Gives<typeof createVariable>, Answer<typeof variableSchema>>>,
+  Expect<Agree<Gives<typeof listVariables>, Answer<typeof variableListSchema>>>,
+  // The route adds the query's correctionReason to the body's values.
+  Expect<Agree<Parsed<typeof postVariableValuesBody>['values'], Takes<typeof postVariableValues, 2>['values']>>,
+  Expect<Agree<Gives<typeof postVariableValues>, Answer<typeof postVariableValuesResult>>>,
+  Expect<Agree<Gives<typeof listVariableValues>, Answer<typeof variableValuesList>>>,
 ];
 
 export type ReadingRoutes = [

@@ -41,7 +41,10 @@ export function storedBaselinePeriods(row: Pick<BaselineRow, 'inputs_json' | 'op
   if (!Array.isArray(inputs.readings) || !Array.isArray(inputs.weather)) return null;
   const options = fromStoredJson<BaselineFitOptions>(row.options_json);
   const document = fromStoredJson<Partial<FitDocument>>(row.document_json);
-  return alignPeriods(inputs.readings, inputs.weather, { minCoverage: options.minCoverage ?? document.settings?.minCoverage }).periods;
+  return alignPeriods(inputs.readings, inputs.weather, {
+    minCoverage: options.minCoverage ?? document.settings?.minCoverage,
+    variableSeries: inputs.variables ?? [],
+  }).periods;
 }
 
 export function overridesOf(row: Pick<BaselineRow, 'short_baseline_override' | 'extrapolation_override'>): BaselineOverrides {
@@ -77,6 +80,7 @@ function summaryOf(row: BaselineRow, document: FitDocument): BaselineSummary {
     supersedeReason: row.supersede_reason,
     createdAt: row.created_at,
     createdBy: row.created_by,
+    exclusions: document.exclusions ?? [],
   };
 }
 

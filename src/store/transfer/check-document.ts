@@ -13,6 +13,7 @@ import {
   READABLE_VERSIONS,
   TABLES_SINCE_VERSION_2,
   TABLES_SINCE_VERSION_4,
+  TABLES_SINCE_VERSION_6,
   TRANSFER_TABLES,
   TransferInputError,
   type ExportDocument,
@@ -39,7 +40,11 @@ export function checkDocument(value: unknown): ExportDocument {
   checkCell('auditHead.seq', head.seq, INTEGER);
   checkCell('auditHead.hash', head.hash, TEXT);
   if (!isObject(value.tables)) fail('tables', `must be an object of tables, got ${shown(value.tables)}`);
-  const later: readonly string[] = [...(version < 2 ? TABLES_SINCE_VERSION_2 : []), ...(version < 4 ? TABLES_SINCE_VERSION_4 : [])];
+  const later: readonly string[] = [
+    ...(version < 2 ? TABLES_SINCE_VERSION_2 : []),
+    ...(version < 4 ? TABLES_SINCE_VERSION_4 : []),
+    ...(version < 6 ? TABLES_SINCE_VERSION_6 : []),
+  ];
   const known: readonly string[] = TRANSFER_TABLES.filter((t) => !later.includes(t));
   for (const name of Object.keys(value.tables)) {
     if (!known.includes(name)) fail(`tables.${name}`, `not a table of format version ${shown(value.version)}`);

@@ -31,6 +31,13 @@ export function checkReferences(tables: Record<TransferTable, ExportRow[]>): voi
   refer('rates', 'meter_id', meters, 'meter');
   refer('adjustments', 'meter_id', meters, 'meter');
   refer('statement_copies', 'statement_id', ids('statements'), 'statement');
+  refer('variables', 'facility_id', facilities, 'facility');
+  tables.variables.forEach((row, index) => {
+    if (row.meter_id !== null && !meters.has(row.meter_id))
+      fail(`tables.variables[${index}].meter_id`, `${shown(row.meter_id)} is not a meter in the document`);
+  });
+  refer('variable_values', 'variable_id', ids('variables'), 'variable');
+  refer('facility_calendars', 'facility_id', facilities, 'facility');
 
   const baselines = new Map(tables.baselines.map((row) => [row.id, row]));
   const versions = new Set<string>();

@@ -6,6 +6,7 @@
  */
 import { documentTemperatureForm } from '../baseline-content.js';
 import { ROLES } from '../api-keys.js';
+import { VARIABLE_AGGREGATIONS, VARIABLE_KINDS } from '../../engine/index.js';
 import type { Cell, ExportRow, TransferTable } from './document.js';
 
 export interface ColumnRule {
@@ -172,6 +173,29 @@ export const TABLE_RULES: Record<TransferTable, TableRule> = {
       replaced_by: TEXT_OR_NULL,
     },
   },
+  variables: {
+    key: ['id'],
+    columns: {
+      id: TEXT,
+      organisation_id: TEXT,
+      facility_id: TEXT,
+      meter_id: TEXT_OR_NULL,
+      name: TEXT,
+      unit: TEXT,
+      kind: { type: 'text', oneOf: VARIABLE_KINDS },
+      aggregation: { type: 'text', oneOf: VARIABLE_AGGREGATIONS },
+      created_at: TEXT,
+      created_by: TEXT,
+    },
+  },
+  variable_values: {
+    key: ['variable_id', 'period_start'],
+    columns: { variable_id: TEXT, period_start: TEXT, period_end: TEXT, value: REAL, updated_at: TEXT },
+  },
+  facility_calendars: {
+    key: ['facility_id'],
+    columns: { facility_id: TEXT, organisation_id: TEXT, calendar_json: TEXT, updated_at: TEXT, updated_by: TEXT },
+  },
   statement_copies: {
     key: ['statement_id', 'copy'],
     columns: {
@@ -294,4 +318,13 @@ export function ruleFor(table: TransferTable, version: number): TableRule {
 }
 
 /** Tables whose id is unique across the whole database, not only within the organisation. */
-export const GLOBAL_ID_TABLES = ['api_keys', 'weather_stations', 'facilities', 'meters', 'baselines', 'adjustments', 'statements'] as const;
+export const GLOBAL_ID_TABLES = [
+  'api_keys',
+  'weather_stations',
+  'facilities',
+  'meters',
+  'baselines',
+  'adjustments',
+  'statements',
+  'variables',
+] as const;

@@ -4,18 +4,20 @@
  * foreign-key order, and the error a user can fix.
  */
 export const EXPORT_FORMAT = 'mvledger-export';
-export const EXPORT_VERSION = 5;
+export const EXPORT_VERSION = 6;
 /**
  * Version 1 predates adjustments, rates, contracts and normal years: it is
  * read with those tables empty. Older versions predate the columns of
  * COLUMNS_SINCE_VERSION (3: a baseline's form and overrides, an adjustment's
  * ±; 4: a contract's identification and confidence; 5: how a weather day
  * was filled): they are read with those columns defaulted. Versions 1 to 3
- * predate statements: read with those tables empty.
+ * predate statements: read with those tables empty. Versions 1 to 5 predate
+ * independent variables and facility calendars: read with those tables empty.
  */
-export const READABLE_VERSIONS = [1, 2, 3, 4, 5] as const;
+export const READABLE_VERSIONS = [1, 2, 3, 4, 5, 6] as const;
 export const TABLES_SINCE_VERSION_2 = ['adjustments', 'rates', 'contracts', 'normal_years'] as const;
 export const TABLES_SINCE_VERSION_4 = ['statements', 'statement_copies'] as const;
+export const TABLES_SINCE_VERSION_6 = ['variables', 'variable_values', 'facility_calendars'] as const;
 
 /** The organisation's tables in foreign-key order: the order of insertion. */
 export const TRANSFER_TABLES = [
@@ -26,6 +28,9 @@ export const TRANSFER_TABLES = [
   'facilities',
   'contracts',
   'meters',
+  'facility_calendars',
+  'variables',
+  'variable_values',
   'readings',
   'rates',
   'adjustments',

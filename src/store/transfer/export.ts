@@ -54,6 +54,13 @@ async function readOrganisation(trx: Transaction<Database>, organisationId: stri
     baselines: await trx.selectFrom('baselines').selectAll().where('organisation_id', '=', organisationId).execute(),
     statements: await trx.selectFrom('statements').selectAll().where('organisation_id', '=', organisationId).execute(),
     statement_copies: await trx.selectFrom('statement_copies').selectAll().where('organisation_id', '=', organisationId).execute(),
+    variables: await trx.selectFrom('variables').selectAll().where('organisation_id', '=', organisationId).execute(),
+    variable_values: await trx
+      .selectFrom('variable_values')
+      .selectAll()
+      .where('variable_id', 'in', trx.selectFrom('variables').select('id').where('organisation_id', '=', organisationId))
+      .execute(),
+    facility_calendars: await trx.selectFrom('facility_calendars').selectAll().where('organisation_id', '=', organisationId).execute(),
     audit_log: await trx.selectFrom('audit_log').selectAll().where('organisation_id', '=', organisationId).execute(),
   };
   const tables = {} as Record<TransferTable, ExportRow[]>;

@@ -15,13 +15,24 @@ import {
   type InputProblem,
   type RateEntry,
   type Reading,
+  addDays,
+  parseIsoDate,
 } from '../../engine/index.js';
+import { MAX_VARIABLE_MAGNITUDE } from '../../domain/limits.js';
 
 type Cell = string | number | null;
 type Row = Record<string, Cell>;
 
 /** The first rule a row breaks, as `path: message`, or null when every row keeps them. */
-export function firstRuleBroken(tables: { readings: readonly Row[]; adjustments: readonly Row[]; rates: readonly Row[] }): string | null {
+export function firstRuleBroken(tables: {
+  readings: readonly Row[];
+  adjustments: readonly Row[];
+  rates: readonly Row[];
+  variables?: readonly Row[];
+  variable_values?: readonly Row[];
+}): string | null {
+  const valueProblem = firstVariableValueBroken(tables.variables ?? [], tables.variable_values ?? []);
+  if (valueProblem) return valueProblem;
   for (const [index, row] of tables.adjustments.entries()) {
     const error = checkAdjustment({
       id: String(row.id),
@@ -82,6 +93,35 @@ function firstProblem<T>(
   for (const { items, indexes } of groups.values()) {
     const problem = check(items).sort((a, b) => a.index - b.index)[0];
     if (problem) return `tables.${table}[${indexes[problem.index]}].${columns[problem.field] ?? problem.field}: ${problem.message}`;
+  }
+  return null;
+}
+
+/**
+ * A variable's values as the API takes them: real dates with end after
+ * start, one day each for a daily variable, finite and within the bound,
+ * no two periods of one variable overlapping.
+ */
+function firstVariableValueBroken(variables: readonly Row[], values: readonly Row[]): string | null {
+  const kinds = new Map(variables.map((row) => [row.id, row.kind]));
+  const lastEnd = new Map<Cell, string>();
+  const order = values
+    .map((row, index) => ({ row, index }))
+    .sort((a, b) => (String(a.row.period_start) < String(b.row.period_start) ? -1 : 1));
+  for (const { row, index } of order) {
+    const path = `tables.variable_values[${index}]`;
+    const start = String(row.period_start);
+    const end = String(row.period_end);
+    if (parseIsoDate(start) === null) return `${path}.period_start: not a calendar date: ${start}`;
+    if (parseIsoDate(end) === null || !(end > start)) return `${path}.period_end: must be a calendar date after period_start (${start})`;
+    if (kinds.get(row.variable_id!) === 'daily' && addDays(start, 1) !== end)
+      return `${path}.period_end: a daily variable's value covers one day`;
+    const value = row.value as number;
+    if (!Number.isFinite(value) || Math.abs(value) > MAX_VARIABLE_MAGNITUDE)
+      return `${path}.value: not a finite number within ±${MAX_VARIABLE_MAGNITUDE}`;
+    const previous = lastEnd.get(row.variable_id!);
+    if (previous !== undefined && start < previous) return `${path}.period_start: overlaps another value of variable ${row.variable_id}`;
+    lastEnd.set(row.variable_id!, end);
   }
   return null;
 }

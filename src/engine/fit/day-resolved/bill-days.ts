@@ -52,6 +52,44 @@ export interface BillDays {
   /** The weighted means removed. */
   tempShift: number;
   useShift: number;
+  /**
+   * Extra fixed columns every fit of this view carries beside the intercept
+   * (independent variables, day-type indicators), one value per reading,
+   * centred on their weighted means. Empty for a weather-only model.
+   */
+  extras: readonly Float64Array[];
+}
+
+/** Views with extra columns, per base view and column set. */
+const withColumns = new WeakMap<BillDays, Map<string, BillDays>>();
+
+/**
+ * The same view with extra fixed columns (one array per column, one value
+ * per reading in the view's reading order), centred on their weighted means
+ * (the intercept is always in the model, so centring changes no fit, only
+ * the conditioning). `key` names the column set for the cache.
+ */
+export function withExtraColumns(days: BillDays, key: string, columns: readonly (readonly number[])[]): BillDays {
+  if (columns.length === 0) return days;
+  let cache = withColumns.get(days);
+  if (!cache) {
+    cache = new Map();
+    withColumns.set(days, cache);
+  }
+  const cached = cache.get(key);
+  if (cached) return cached;
+  let weight = 0;
+  for (let b = 0; b < days.n; b++) weight += days.w[b]!;
+  const extras = columns.map((column) => {
+    if (column.length !== days.n) throw new RangeError(`an extra column needs ${days.n} values, got ${column.length}`);
+    let mean = 0;
+    for (let b = 0; b < days.n; b++) mean += days.w[b]! * column[b]!;
+    mean /= weight;
+    return Float64Array.from(column, (value) => value - mean);
+  });
+  const view = { ...days, extras };
+  cache.set(key, view);
+  return view;
 }
 
 /** Views already built, per periods array (the shapes of one choice share one). */
@@ -183,6 +221,7 @@ export function buildBillDays(periods: readonly Period[]): BillDays {
     totalSquares,
     tempShift,
     useShift,
+    extras: [],
   };
 }
 

@@ -8,6 +8,7 @@
  */
 import { bestHingeOnInterval, gramLeastSquares, type HingeOptimum } from '../gram.js';
 import { enough, type BillDays } from './bill-days.js';
+import { sweepHingeWithBasis } from './basis-sweep.js';
 
 export type Side = 'heating' | 'cooling';
 
@@ -34,6 +35,8 @@ export function sweepHinge(
   allowed: Uint8Array,
   onPoint?: (tau: number, sse: number) => void,
 ): HingeOptimum | null {
+  // A view with independent variables carries them as fixed columns: the general sweep.
+  if (days.extras.length > 0) return sweepHingeWithBasis(days, side, extra ? [extra] : [], allowed, onPoint);
   const { n, w, y, mean, breakpoints, dayStart, dayBill, dayShare, dayTempShare } = days;
   const f = extra ? 2 : 1;
   const m = f + 3;
@@ -147,10 +150,11 @@ export function hingeColumn(days: BillDays, side: Side, tau: number): Float64Arr
 }
 
 /**
- * SSE of the intercept and the given fixed columns (centred units), or +∞
- * when they are collinear.
+ * SSE of the intercept, the view's extra columns and the given fixed columns
+ * (centred units), or +∞ when they are collinear.
  */
-export function fixedColumnsSse(days: BillDays, columns: readonly Float64Array[]): number {
+export function fixedColumnsSse(days: BillDays, given: readonly Float64Array[]): number {
+  const columns = days.extras.length > 0 ? [...days.extras, ...given] : given;
   const m = columns.length + 2;
   const gram = new Float64Array(m * m);
   const values = new Float64Array(m);

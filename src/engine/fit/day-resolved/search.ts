@@ -31,6 +31,7 @@ import type { ChangepointOptimum, HingeShape } from '../changepoint-search.js';
 import { originalTemperature, type BillDays } from './bill-days.js';
 import { bothSidesFeasible, sweepHinge } from './hinge-sweep.js';
 import { searchFivePoint } from './five-point.js';
+import { searchFivePointWithBasis } from './five-point-basis.js';
 import { boundaryOnlyFivePoint, boundaryOnlyOneChangepoint } from './boundary-placements.js';
 
 export { buildBillDays, type BillDays } from './bill-days.js';
@@ -45,7 +46,8 @@ export function searchDayResolved(days: BillDays, shape: HingeShape, minPoints: 
   let cooling: number | null = null;
   let sse = Number.POSITIVE_INFINITY;
   if (shape === '5P') {
-    for (const candidate of [searchFivePoint(days, k), boundaryOnlyFivePoint(days, k)]) {
+    const pairs = days.extras.length > 0 ? searchFivePointWithBasis(days, k) : searchFivePoint(days, k);
+    for (const candidate of [pairs, boundaryOnlyFivePoint(days, k)]) {
       if (candidate && candidate.sse < sse) ({ heating, cooling, sse } = candidate);
     }
   } else {
