@@ -38,7 +38,8 @@ export default defineConfig(async () => {
     throw new Error(`MVLEDGER_TEST_POSTGRES=required but no PostgreSQL answers at ${testPostgresUrl()}`);
   // Every schema of this run starts mvl_test_<run>_ (test/support/database.ts); workers inherit the id.
   process.env.MVLEDGER_TEST_RUN ??= randomBytes(3).toString('hex');
-  if (!reachable && wanted !== 'off') console.warn(`PostgreSQL not reachable at ${testPostgresUrl()}: running the SQLite project only`);
+  if (!reachable && wanted !== 'off')
+    console.warn(`PostgreSQL not reachable at ${testPostgresUrl()}: running the SQLite project only`);
   return {
     test: {
       testTimeout: 60_000,

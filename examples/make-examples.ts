@@ -48,7 +48,11 @@ const BASE_KWH_PER_DAY = 640;
 const HEATING_KWH_PER_DEGREE_DAY = 21;
 const COOLING_KWH_PER_DEGREE_DAY = 34;
 function usePerDay(temp: number): number {
-  return BASE_KWH_PER_DAY + HEATING_KWH_PER_DEGREE_DAY * Math.max(55 - temp, 0) + COOLING_KWH_PER_DEGREE_DAY * Math.max(temp - 67, 0);
+  return (
+    BASE_KWH_PER_DAY +
+    HEATING_KWH_PER_DEGREE_DAY * Math.max(55 - temp, 0) +
+    COOLING_KWH_PER_DEGREE_DAY * Math.max(temp - 67, 0)
+  );
 }
 
 const RATE_PER_KWH = 0.14; // invented tariff, only to show that extra columns are ignored
@@ -60,7 +64,8 @@ function bills(fromYear: number, months: number, useFactor: number): string[] {
     const start = monthStart(fromYear, k);
     const end = monthStart(fromYear, k + 1);
     let quantity = 0;
-    for (let day = dayNumber(start); day < dayNumber(end); day++) quantity += usePerDay(temperatures.get(isoDate(day))!);
+    for (let day = dayNumber(start); day < dayNumber(end); day++)
+      quantity += usePerDay(temperatures.get(isoDate(day))!);
     quantity = Math.round(quantity * useFactor * (1 + 0.03 * billNoise()));
     // One estimated read per year, as utilities sometimes send.
     const estimated = k % 12 === 7 ? 'yes' : '';

@@ -23,7 +23,9 @@ export async function up(db: Kysely<unknown>): Promise<void> {
   await db.schema.alterTable('baselines').addColumn('extrapolation_override', 'text').execute();
   await db.schema.alterTable('adjustments').addColumn('uncertainty', 'double precision').execute();
   // Stored fit documents are canonical JSON (no spaces), so the form reads as this exact text.
-  await sql`update baselines set temperature_form = 'daily' where document_json like ${'%"temperatureForm":"daily"%'}`.execute(db);
+  await sql`update baselines set temperature_form = 'daily' where document_json like ${'%"temperatureForm":"daily"%'}`.execute(
+    db,
+  );
 }
 
 export async function down(db: Kysely<unknown>): Promise<void> {

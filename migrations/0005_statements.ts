@@ -54,7 +54,11 @@ export async function up(db: Kysely<unknown>): Promise<void> {
     .addColumn('void_reason', 'text')
     .addColumn('replaced_by', 'text')
     .execute();
-  await db.schema.createIndex('statements_organisation').on('statements').columns(['organisation_id', 'prepared_at']).execute();
+  await db.schema
+    .createIndex('statements_organisation')
+    .on('statements')
+    .columns(['organisation_id', 'prepared_at'])
+    .execute();
 
   await db.schema
     .createTable('statement_copies')

@@ -40,7 +40,11 @@ export async function up(db: Kysely<unknown>): Promise<void> {
     .unique()
     .where(sql.ref('meter_id'), 'is not', null)
     .execute();
-  await db.schema.createIndex('variables_organisation').on('variables').columns(['organisation_id', 'created_at']).execute();
+  await db.schema
+    .createIndex('variables_organisation')
+    .on('variables')
+    .columns(['organisation_id', 'created_at'])
+    .execute();
 
   await db.schema
     .createTable('variable_values')

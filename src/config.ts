@@ -25,7 +25,10 @@ const environmentSchema = z.object({
   MVLEDGER_BOOTSTRAP_ORGANISATION: z.string().trim().min(1).max(200).default('Bootstrap organisation'),
   MVLEDGER_BOOTSTRAP_KEY: z
     .string()
-    .regex(/^mvl_[A-Za-z0-9]{8}_[A-Za-z0-9]{32,}$/, 'must look like mvl_<8 letters or digits>_<32 or more letters or digits>')
+    .regex(
+      /^mvl_[A-Za-z0-9]{8}_[A-Za-z0-9]{32,}$/,
+      'must look like mvl_<8 letters or digits>_<32 or more letters or digits>',
+    )
     .refine(
       (key) => secretLooksRandom(key.slice(13)),
       `its secret part looks chosen, not random: generate one (for example \`openssl rand -base64 48 | tr -dc A-Za-z0-9 | head -c 40\`)`,
@@ -66,7 +69,8 @@ export function secretLooksRandom(secret: string): boolean {
   let bitsPerCharacter = 0;
   for (const count of counts.values()) bitsPerCharacter -= (count / length) * Math.log2(count / length);
   if (bitsPerCharacter < 2.5 || Math.max(...counts.values()) > 0.4 * length) return false;
-  for (let period = 1; period <= length / 2; period++) if (secret.slice(period) === secret.slice(0, length - period)) return false;
+  for (let period = 1; period <= length / 2; period++)
+    if (secret.slice(period) === secret.slice(0, length - period)) return false;
   let consecutive = 0;
   for (let i = 1; i < length; i++) if (Math.abs(secret.charCodeAt(i) - secret.charCodeAt(i - 1)) === 1) consecutive++;
   return consecutive <= 0.6 * (length - 1);
@@ -106,14 +110,18 @@ export class ConfigError extends Error {}
  */
 function loadCheckpointSigner(file: string | undefined, inline: string | undefined): CheckpointSigner | undefined {
   if (file !== undefined && inline !== undefined)
-    throw new ConfigError('invalid configuration: set MVLEDGER_CHECKPOINT_KEY_FILE or MVLEDGER_CHECKPOINT_KEY, not both');
+    throw new ConfigError(
+      'invalid configuration: set MVLEDGER_CHECKPOINT_KEY_FILE or MVLEDGER_CHECKPOINT_KEY, not both',
+    );
   if (file === undefined && inline === undefined) return undefined;
   const variable = file !== undefined ? 'MVLEDGER_CHECKPOINT_KEY_FILE' : 'MVLEDGER_CHECKPOINT_KEY';
   let pem: string;
   try {
     pem = file !== undefined ? readFileSync(file, 'utf8') : inline!;
   } catch (error) {
-    throw new ConfigError(`invalid configuration: ${variable}: cannot read the file (${(error as NodeJS.ErrnoException).code ?? 'error'})`);
+    throw new ConfigError(
+      `invalid configuration: ${variable}: cannot read the file (${(error as NodeJS.ErrnoException).code ?? 'error'})`,
+    );
   }
   try {
     return checkpointSigner(pem);

@@ -23,7 +23,9 @@ export function keepRunningThroughDatabaseFaults(log: Pick<FastifyBaseLogger, 'w
     }
     // Anything can be thrown (a rejection re-thrown above may not be an Error).
     const described =
-      error instanceof Error ? { type: error.name, message: error.message } : { type: typeof error, message: String(error) };
+      error instanceof Error
+        ? { type: error.name, message: error.message }
+        : { type: typeof error, message: String(error) };
     log.fatal({ err: described }, 'uncaught exception: stopping');
     process.exit(1);
   });

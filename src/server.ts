@@ -39,7 +39,12 @@ export async function startService(config: Config): Promise<RunningService> {
     },
   });
   await migrateToLatest(store.db);
-  const bootstrapped = await bootstrapIfEmpty(store.db, config.bootstrapKey, new Date().toISOString(), config.bootstrapOrganisation);
+  const bootstrapped = await bootstrapIfEmpty(
+    store.db,
+    config.bootstrapKey,
+    new Date().toISOString(),
+    config.bootstrapOrganisation,
+  );
   const app = await buildApp({
     store,
     logger: { level: config.logLevel, redact: LOG_REDACTIONS },
@@ -88,7 +93,9 @@ function startCheckpointRounds(config: Config, store: Store, log: FastifyBaseLog
       .then((signed) => {
         if (signed > 0) log.info({ signed, keyId: signer.keyId }, 'audit checkpoints signed');
       })
-      .catch((error: unknown) => log.warn({ err: error instanceof Error ? error.message : String(error) }, 'audit checkpoint round failed'))
+      .catch((error: unknown) =>
+        log.warn({ err: error instanceof Error ? error.message : String(error) }, 'audit checkpoint round failed'),
+      )
       .finally(() => {
         running = false;
       });

@@ -126,7 +126,10 @@ describe('loadConfig', () => {
 
   it('accepts every random secret of the documented kinds (10,000 each, seeded)', () => {
     // Seeded simulation: SHA-256 in counter mode stands in for a random source, so the draw repeats.
-    const alphabets = { hex: '0123456789abcdef', alphanumeric: 'ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789' };
+    const alphabets = {
+      hex: '0123456789abcdef',
+      alphanumeric: 'ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789',
+    };
     let counter = 0;
     const draw = (alphabet: string, length: number) => {
       let out = '';

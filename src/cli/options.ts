@@ -66,7 +66,12 @@ const COMMON_SPEC = {
   help: { type: 'boolean', short: 'h' },
 } as const;
 
-const FIT_SPEC = { ...COMMON_SPEC, readings: { type: 'string' }, batch: { type: 'boolean' }, exclusions: { type: 'string' } } as const;
+const FIT_SPEC = {
+  ...COMMON_SPEC,
+  readings: { type: 'string' },
+  batch: { type: 'boolean' },
+  exclusions: { type: 'string' },
+} as const;
 
 const SAVINGS_SPEC = {
   ...COMMON_SPEC,
@@ -122,7 +127,13 @@ function commonOptions(values: Values): CommonOptions {
     weather: requireFile(values, 'weather'),
     json: values.json === true,
     unit: unitOption(values.unit),
-    minCoverage: numberOption(values.coverage, 'coverage', DEFAULT_MIN_COVERAGE, (v) => v > 0 && v <= 1, 'a fraction in (0, 1], e.g. 0.9'),
+    minCoverage: numberOption(
+      values.coverage,
+      'coverage',
+      DEFAULT_MIN_COVERAGE,
+      (v) => v > 0 && v <= 1,
+      'a fraction in (0, 1], e.g. 0.9',
+    ),
     significanceLevel: numberOption(
       values.alpha,
       'alpha',
@@ -145,7 +156,8 @@ function commonOptions(values: Values): CommonOptions {
 function temperatureOption(value: string | boolean | undefined): TemperatureForm | null {
   if (value === undefined) return null;
   const form = TEMPERATURE_FORMS.find((f) => f === String(value).toLowerCase());
-  if (!form) throw new UsageError(`--temperature must be ${TEMPERATURE_FORMS.join(' or ')}, got ${JSON.stringify(value)}`);
+  if (!form)
+    throw new UsageError(`--temperature must be ${TEMPERATURE_FORMS.join(' or ')}, got ${JSON.stringify(value)}`);
   return form;
 }
 
@@ -154,7 +166,8 @@ function reasonOption(value: string | boolean | undefined, name: string): string
   if (value === undefined) return null;
   const reason = String(value).replace(/\s+/g, ' ').trim();
   if (reason === '') throw new UsageError(`--${name} needs a REASON: say why the check may be passed over`);
-  if (reason.length > 2000) throw new UsageError(`--${name}: the reason must be at most 2000 characters, got ${reason.length}`);
+  if (reason.length > 2000)
+    throw new UsageError(`--${name}: the reason must be at most 2000 characters, got ${reason.length}`);
   return reason;
 }
 
@@ -181,7 +194,8 @@ function numberOption(
   if (value === undefined) return fallback;
   const text = String(value).trim();
   const number = text === '' ? Number.NaN : Number(text);
-  if (!Number.isFinite(number) || !valid(number)) throw new UsageError(`--${name} must be ${expected}, got ${JSON.stringify(value)}`);
+  if (!Number.isFinite(number) || !valid(number))
+    throw new UsageError(`--${name} must be ${expected}, got ${JSON.stringify(value)}`);
   return number;
 }
 

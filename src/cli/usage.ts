@@ -1,5 +1,11 @@
 /** Usage texts of the command line. */
-import { CONFIDENCE_LEVELS, DEFAULT_EXTRAPOLATION_LIMIT, MIN_BASELINE_BILLS, MIN_BASELINE_DAYS, MODEL_NAMES } from '../engine/index.js';
+import {
+  CONFIDENCE_LEVELS,
+  DEFAULT_EXTRAPOLATION_LIMIT,
+  MIN_BASELINE_BILLS,
+  MIN_BASELINE_DAYS,
+  MODEL_NAMES,
+} from '../engine/index.js';
 
 const COMMON_OPTIONS = `  --weather FILE      daily weather CSV: date,temp or date,tmin,tmax (mean = (tmin+tmax)/2);
                       an empty temperature cell is a missing day; an optional

@@ -38,7 +38,11 @@ export interface DemoSeed {
   engineerKey: string;
   integrationKey: string;
   stationId: string;
-  facilities: { id: string; name: string; meters: { id: string; name: string; unit: string; baselineId: string; model: string }[] }[];
+  facilities: {
+    id: string;
+    name: string;
+    meters: { id: string; name: string; unit: string; baselineId: string; model: string }[];
+  }[];
   /** HTML reports fetched from the API and saved next to the demo database. */
   reports: { quarter: string; contractYear: string };
 }
@@ -49,7 +53,10 @@ function client(base: string, token: string): Call {
   return async (method, path, body) => {
     const response = await fetch(`${base}${path}`, {
       method,
-      headers: { authorization: `Bearer ${token}`, ...(body === undefined ? {} : { 'content-type': 'application/json' }) },
+      headers: {
+        authorization: `Bearer ${token}`,
+        ...(body === undefined ? {} : { 'content-type': 'application/json' }),
+      },
       ...(body === undefined ? {} : { body: JSON.stringify(body) }),
     });
     const text = await response.text();
@@ -59,10 +66,17 @@ function client(base: string, token: string): Call {
 }
 
 /** Seed the running service through its API, as an engineer and a billing system would. */
-export async function seedDemo(base: string, adminKey: string, reportFolder = dirname(DEMO_DATABASE)): Promise<DemoSeed> {
+export async function seedDemo(
+  base: string,
+  adminKey: string,
+  reportFolder = dirname(DEMO_DATABASE),
+): Promise<DemoSeed> {
   const call = client(base, adminKey);
   const analyst = await call('POST', '/v1/api-keys', { name: 'finance analyst (demo)', role: 'analyst' });
-  const engineer = await call('POST', '/v1/api-keys', { name: 'performance-contract engineer (demo)', role: 'engineer' });
+  const engineer = await call('POST', '/v1/api-keys', {
+    name: 'performance-contract engineer (demo)',
+    role: 'engineer',
+  });
   const integration = await call('POST', '/v1/api-keys', { name: 'billing system (demo)', role: 'integration' });
   const billing = client(base, integration.token);
 
@@ -78,7 +92,11 @@ export async function seedDemo(base: string, adminKey: string, reportFolder = di
   const facilities: DemoSeed['facilities'] = [];
   let seed = 1;
   for (const plan of DEMO_FACILITIES) {
-    const facility = await call('POST', '/v1/facilities', { name: plan.name, address: plan.address, floorArea: plan.floorArea });
+    const facility = await call('POST', '/v1/facilities', {
+      name: plan.name,
+      address: plan.address,
+      floorArea: plan.floorArea,
+    });
     const meters: DemoSeed['facilities'][number]['meters'] = [];
     let builtInMMBtu = 0;
     let builtInCost = 0;
@@ -90,9 +108,19 @@ export async function seedDemo(base: string, adminKey: string, reportFolder = di
         weatherStationId: station.id,
       });
       const baselineBills = demoBills(meterPlan, weatherByDate, BASELINE_START, BASELINE_END, 0, seed++);
-      const reportingBills = demoBills(meterPlan, weatherByDate, BASELINE_END, REPORTING_END, meterPlan.reportingSaving, seed++);
+      const reportingBills = demoBills(
+        meterPlan,
+        weatherByDate,
+        BASELINE_END,
+        REPORTING_END,
+        meterPlan.reportingSaving,
+        seed++,
+      );
       await call('POST', `/v1/meters/${meter.id}/readings`, { readings: baselineBills });
-      const baseline = await call('POST', `/v1/meters/${meter.id}/baselines`, { start: BASELINE_START, end: BASELINE_END });
+      const baseline = await call('POST', `/v1/meters/${meter.id}/baselines`, {
+        start: BASELINE_START,
+        end: BASELINE_END,
+      });
       await call('POST', `/v1/baselines/${baseline.id}/freeze`, { note: 'Baseline agreed in the M&V plan (demo)' });
       await billing('POST', `/v1/meters/${meter.id}/readings`, { readings: reportingBills });
       await call('PUT', `/v1/meters/${meter.id}/rates`, {
@@ -106,7 +134,13 @@ export async function seedDemo(base: string, adminKey: string, reportFolder = di
       const builtIn = demoBuiltInSavings(meterPlan, weatherByDate, BASELINE_END, REPORTING_END);
       builtInMMBtu += convertEnergy(builtIn, meterPlan.unit, 'MMBtu');
       builtInCost += builtIn * meterPlan.price;
-      meters.push({ id: meter.id, name: meterPlan.name, unit: meterPlan.unit, baselineId: baseline.id, model: baseline.chosen });
+      meters.push({
+        id: meter.id,
+        name: meterPlan.name,
+        unit: meterPlan.unit,
+        baselineId: baseline.id,
+        model: baseline.chosen,
+      });
     }
     // Invented guarantees: a share of what the scenario builds in, so one school falls short.
     const guarantee = (value: number, step: number) => Math.round((value * plan.guaranteeShare) / step) * step;
@@ -159,9 +193,12 @@ export async function seedDemo(base: string, adminKey: string, reportFolder = di
 
 /** Fetch a report as the finance analyst would, and keep it as a file a browser can open. */
 async function saveReport(base: string, token: string, query: string, file: string): Promise<string> {
-  const response = await fetch(`${base}/v1/reports/savings?${query}`, { headers: { authorization: `Bearer ${token}` } });
+  const response = await fetch(`${base}/v1/reports/savings?${query}`, {
+    headers: { authorization: `Bearer ${token}` },
+  });
   const text = await response.text();
-  if (!response.ok) throw new Error(`GET /v1/reports/savings?${query} answered ${response.status}: ${text.slice(0, 300)}`);
+  if (!response.ok)
+    throw new Error(`GET /v1/reports/savings?${query} answered ${response.status}: ${text.slice(0, 300)}`);
   mkdirSync(dirname(file), { recursive: true });
   writeFileSync(file, text);
   return file;
@@ -202,7 +239,9 @@ export function describeDemo(base: string, seed: DemoSeed): string {
   lines.push(`  audit check:      ${base}/v1/audit/verify`);
   lines.push('');
   lines.push('Try:');
-  lines.push(`  curl -H "Authorization: Bearer ${seed.analystKey}" "${base}/v1/meters/${first.id}/savings?confidence=0.9"`);
+  lines.push(
+    `  curl -H "Authorization: Bearer ${seed.analystKey}" "${base}/v1/meters/${first.id}/savings?confidence=0.9"`,
+  );
   lines.push(
     `  curl -H "Authorization: Bearer ${seed.analystKey}" -o signature.svg "${base}/v1/baselines/${first.baselineId}/signature.svg"`,
   );
@@ -248,7 +287,8 @@ if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {
   runDemo({ seedOnly })
     .then(({ service }) => {
       if (seedOnly) return;
-      for (const signal of ['SIGINT', 'SIGTERM'] as const) process.once(signal, () => void service.stop().then(() => process.exit(0)));
+      for (const signal of ['SIGINT', 'SIGTERM'] as const)
+        process.once(signal, () => void service.stop().then(() => process.exit(0)));
     })
     .catch((error: unknown) => {
       process.stderr.write(`mvledger demo: ${error instanceof Error ? error.message : String(error)}\n`);

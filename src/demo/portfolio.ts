@@ -18,7 +18,14 @@
  * its own.
  */
 import type { Kysely } from 'kysely';
-import { addDays, analyseBaseline, type DailyTemperature, type ModelName, type Reading, type ShapeFit } from '../engine/index.js';
+import {
+  addDays,
+  analyseBaseline,
+  type DailyTemperature,
+  type ModelName,
+  type Reading,
+  type ShapeFit,
+} from '../engine/index.js';
 import { canonicalJson, sha256Hex } from '../lib/canonical-json.js';
 import { seededRandom, type Random } from '../lib/seeded-random.js';
 import { baselineContentHash, toStoredJson } from '../store/baseline-content.js';
@@ -57,7 +64,18 @@ const CREATED_AT = '2026-01-15T09:00:00.000Z';
 const KEY_ID = 'key_portfolio-generator';
 const INSERT_ROWS = 500;
 
-const PLACE_WORDS = ['Alder', 'Brindle', 'Corrow', 'Dunmere', 'Eskhollow', 'Fallowby', 'Gorsemoor', 'Hazelmere', 'Ivyreach', 'Juniper'];
+const PLACE_WORDS = [
+  'Alder',
+  'Brindle',
+  'Corrow',
+  'Dunmere',
+  'Eskhollow',
+  'Fallowby',
+  'Gorsemoor',
+  'Hazelmere',
+  'Ivyreach',
+  'Juniper',
+];
 const SITE_WORDS = ['Court', 'Works', 'Hall', 'Depot', 'Library', 'School', 'Clinic', 'Yard', 'House', 'Centre'];
 
 interface Archetype {
@@ -71,7 +89,10 @@ interface Archetype {
 }
 
 /** Generate the portfolio into `db` (migrated, without this organisation), in one transaction. */
-export function generatePortfolio(db: Kysely<Database>, options: PortfolioOptions = FULL_PORTFOLIO): Promise<GeneratedPortfolio> {
+export function generatePortfolio(
+  db: Kysely<Database>,
+  options: PortfolioOptions = FULL_PORTFOLIO,
+): Promise<GeneratedPortfolio> {
   return db.transaction().execute((trx) => generate(trx, options));
 }
 
@@ -102,7 +123,13 @@ async function generate(db: Kysely<Database>, options: PortfolioOptions): Promis
   for (const station of stations) {
     await db
       .insertInto('weather_stations')
-      .values({ id: station.id, organisation_id: organisationId, name: station.name, temperature_unit: 'F', created_at: CREATED_AT })
+      .values({
+        id: station.id,
+        organisation_id: organisationId,
+        name: station.name,
+        temperature_unit: 'F',
+        created_at: CREATED_AT,
+      })
       .execute();
     await insertChunks(
       db,
@@ -133,7 +160,8 @@ async function generate(db: Kysely<Database>, options: PortfolioOptions): Promis
 
   const archetypes: Archetype[] = [];
   for (let s = 0; s < stations.length; s++) {
-    for (let a = 0; a < options.archetypesPerStation; a++) archetypes.push(makeArchetype(random, s, a, stations[s]!.weather));
+    for (let a = 0; a < options.archetypesPerStation; a++)
+      archetypes.push(makeArchetype(random, s, a, stations[s]!.weather));
   }
 
   let meters = 0;
@@ -193,7 +221,8 @@ async function generate(db: Kysely<Database>, options: PortfolioOptions): Promis
       confidence: 0.9,
     });
     for (let m = 0; m < options.metersPerFacility; m++) {
-      const archetype = archetypes[station * options.archetypesPerStation + random.integer(0, options.archetypesPerStation - 1)]!;
+      const archetype =
+        archetypes[station * options.archetypesPerStation + random.integer(0, options.archetypesPerStation - 1)]!;
       if (!archetype.fit) {
         archetype.fit = fitArchetype(archetype, stations[station]!.weather);
         fitted++;
@@ -210,7 +239,14 @@ async function generate(db: Kysely<Database>, options: PortfolioOptions): Promis
         created_at: stamp(f * options.metersPerFacility + m),
       });
       const saving = 0.05 + 0.2 * random.uniform();
-      const reporting = monthlyBills(stations[station]!.weather, 24, 12, (t) => archetype.usePerDay(t) * (1 - saving), random, 0.04);
+      const reporting = monthlyBills(
+        stations[station]!.weather,
+        24,
+        12,
+        (t) => archetype.usePerDay(t) * (1 - saving),
+        random,
+        0.04,
+      );
       for (const bill of [...archetype.baselineBills, ...reporting]) {
         readingRows.push({
           meter_id: meterId,
@@ -250,7 +286,12 @@ async function generate(db: Kysely<Database>, options: PortfolioOptions): Promis
   return { organisationId, facilities: options.facilities, meters, readings, baselinesFitted: fitted };
 }
 
-function makeArchetype(random: Random, station: number, index: number, weather: readonly DailyTemperature[]): Archetype {
+function makeArchetype(
+  random: Random,
+  station: number,
+  index: number,
+  weather: readonly DailyTemperature[],
+): Archetype {
   const electric = index % 2 === 0;
   const size = 0.5 + 2 * random.uniform();
   const base = (electric ? 900 : 40) * size;
@@ -258,7 +299,8 @@ function makeArchetype(random: Random, station: number, index: number, weather: 
   const coolingAbove = 66 + 8 * random.uniform();
   const heatingRate = (electric ? 6 : 4) * size * random.uniform();
   const coolingRate = electric ? 30 * size * (0.3 + random.uniform()) : 0;
-  const usePerDay = (t: number) => base + heatingRate * Math.max(0, heatingBelow - t) + coolingRate * Math.max(0, t - coolingAbove);
+  const usePerDay = (t: number) =>
+    base + heatingRate * Math.max(0, heatingBelow - t) + coolingRate * Math.max(0, t - coolingAbove);
   return {
     station,
     fuel: electric ? 'electricity' : 'natural-gas',
@@ -342,7 +384,11 @@ function stamp(k: number): string {
   return new Date(Date.parse(CREATED_AT) + k * 1000).toISOString();
 }
 
-async function insertChunks<T extends keyof Database>(db: Kysely<Database>, table: T, rows: readonly Database[T][]): Promise<void> {
+async function insertChunks<T extends keyof Database>(
+  db: Kysely<Database>,
+  table: T,
+  rows: readonly Database[T][],
+): Promise<void> {
   for (let i = 0; i < rows.length; i += INSERT_ROWS) {
     // eslint-disable-next-line @typescript-eslint/no-explicit-any
     await db

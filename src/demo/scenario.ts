@@ -175,8 +175,10 @@ export function demoWeather(seed = 2023): { date: string; temp: number }[] {
 
 function usePerDay(use: DemoUse, temp: number): number {
   let value = use.base;
-  if (use.heatingBelow !== undefined && temp < use.heatingBelow) value += (use.heatingRate ?? 0) * (use.heatingBelow - temp);
-  if (use.coolingAbove !== undefined && temp > use.coolingAbove) value += (use.coolingRate ?? 0) * (temp - use.coolingAbove);
+  if (use.heatingBelow !== undefined && temp < use.heatingBelow)
+    value += (use.heatingRate ?? 0) * (use.heatingBelow - temp);
+  if (use.coolingAbove !== undefined && temp > use.coolingAbove)
+    value += (use.coolingRate ?? 0) * (temp - use.coolingAbove);
   return value;
 }
 
@@ -210,7 +212,8 @@ export function demoBills(
     for (let d = 0; d < daysBetween(start, end); d++) {
       const date = addDays(start, d);
       const temp = weather.get(date)!;
-      const change = saving > 0 && meter.change && date >= meter.change.start && date < meter.change.end ? meter.change.perDay : 0;
+      const change =
+        saving > 0 && meter.change && date >= meter.change.start && date < meter.change.end ? meter.change.perDay : 0;
       const day = usePerDay(meter.use, temp) * (1 - saving) + change;
       quantity += day * (1 + meter.use.noise * random.normal());
     }
@@ -222,9 +225,15 @@ export function demoBills(
 }
 
 /** The use the invented retrofit takes away over [from, to), in the meter's unit (the truth the demo's guarantee is set from). */
-export function demoBuiltInSavings(meter: DemoMeter, weather: ReadonlyMap<string, number>, from: string, to: string): number {
+export function demoBuiltInSavings(
+  meter: DemoMeter,
+  weather: ReadonlyMap<string, number>,
+  from: string,
+  to: string,
+): number {
   let total = 0;
-  for (let d = 0; d < daysBetween(from, to); d++) total += usePerDay(meter.use, weather.get(addDays(from, d))!) * meter.reportingSaving;
+  for (let d = 0; d < daysBetween(from, to); d++)
+    total += usePerDay(meter.use, weather.get(addDays(from, d))!) * meter.reportingSaving;
   return total;
 }
 
@@ -283,7 +292,8 @@ export function calendarDemoBills(
     for (let d = 0; d < daysBetween(start, end); d++) {
       const date = addDays(start, d);
       const share = dayTypeShare[types[daysBetween(from, date)]!]!;
-      quantity += usePerDay(meter.use, weather.get(date)!) * share * (1 - saving) * (1 + meter.use.noise * random.normal());
+      quantity +=
+        usePerDay(meter.use, weather.get(date)!) * share * (1 - saving) * (1 + meter.use.noise * random.normal());
     }
     const rounded = Math.round(quantity);
     bills.push({ start, end, quantity: rounded, cost: Math.round(rounded * meter.price * 100) / 100 });

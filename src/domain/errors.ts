@@ -46,7 +46,8 @@ export class DomainError extends Error {
 export const isDomainError = (error: unknown): error is DomainError => error instanceof DomainError;
 
 /** "no such record": `${what} ${id} was not found`. */
-export const notFound = (what: string, id: string): DomainError => new DomainError('not-found', `${what} ${id} was not found`);
+export const notFound = (what: string, id: string): DomainError =>
+  new DomainError('not-found', `${what} ${id} was not found`);
 
 /** " (and 3 more)" after the first of `count` errors; empty for one. */
 export function andMore(count: number, named = 1): string {
@@ -63,6 +64,10 @@ export function summarise(errors: readonly FieldError[], count = errors.length):
  * One error for a list of field errors: the detail names the first and counts
  * the rest; at most `limit` travel with it.
  */
-export function fieldErrors(kind: DomainErrorKind, errors: readonly FieldError[], limit: number = errors.length): DomainError {
+export function fieldErrors(
+  kind: DomainErrorKind,
+  errors: readonly FieldError[],
+  limit: number = errors.length,
+): DomainError {
   return new DomainError(kind, summarise(errors), errors.slice(0, limit));
 }

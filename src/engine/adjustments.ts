@@ -62,7 +62,8 @@ export function checkAdjustment(a: NonRoutineAdjustment): InvalidAdjustmentError
           : null
         : beyondBoundPerDay(amount.value, a.start, a.end, MAX_USE_PER_DAY);
     if (beyond) return new InvalidAdjustmentError(a.id, amount.kind, beyond);
-    const beyondUncertainty = a.uncertainty == null ? null : beyondBoundPerDay(a.uncertainty, a.start, a.end, MAX_USE_PER_DAY);
+    const beyondUncertainty =
+      a.uncertainty == null ? null : beyondBoundPerDay(a.uncertainty, a.start, a.end, MAX_USE_PER_DAY);
     if (beyondUncertainty) return new InvalidAdjustmentError(a.id, 'uncertainty', beyondUncertainty);
     return null;
   } catch (error) {
@@ -141,22 +142,31 @@ function amountOf(a: NonRoutineAdjustment): { kind: 'quantity' | 'perDay'; value
   if ((a.quantity === null) === (a.perDay === null)) {
     throw new InvalidAdjustmentError(a.id, 'quantity', 'exactly one of quantity and perDay must be set');
   }
-  const amount = a.quantity !== null ? { kind: 'quantity' as const, value: a.quantity } : { kind: 'perDay' as const, value: a.perDay! };
-  if (!Number.isFinite(amount.value)) throw new InvalidAdjustmentError(a.id, amount.kind, `${amount.kind} is not a finite number`);
+  const amount =
+    a.quantity !== null
+      ? { kind: 'quantity' as const, value: a.quantity }
+      : { kind: 'perDay' as const, value: a.perDay! };
+  if (!Number.isFinite(amount.value))
+    throw new InvalidAdjustmentError(a.id, amount.kind, `${amount.kind} is not a finite number`);
   return amount;
 }
 
 function statedUncertainty(a: NonRoutineAdjustment): number {
   const value = a.uncertainty ?? 0;
   if (!(Number.isFinite(value) && value >= 0))
-    throw new InvalidAdjustmentError(a.id, 'uncertainty', `uncertainty must be a finite number of at least 0, got ${value}`);
+    throw new InvalidAdjustmentError(
+      a.id,
+      'uncertainty',
+      `uncertainty must be a finite number of at least 0, got ${value}`,
+    );
   return value;
 }
 
 function spanDays(a: NonRoutineAdjustment): number {
   const start = parseIsoDate(a.start);
   const end = parseIsoDate(a.end);
-  if (start === null) throw new InvalidAdjustmentError(a.id, 'start', `start is not an ISO date: ${JSON.stringify(a.start)}`);
+  if (start === null)
+    throw new InvalidAdjustmentError(a.id, 'start', `start is not an ISO date: ${JSON.stringify(a.start)}`);
   if (end === null) throw new InvalidAdjustmentError(a.id, 'end', `end is not an ISO date: ${JSON.stringify(a.end)}`);
   const days = end - start;
   if (days <= 0) throw new InvalidAdjustmentError(a.id, 'end', `end ${a.end} is not after start ${a.start}`);

@@ -51,14 +51,24 @@ export const MAX_COST_PER_DAY: InputBound = { max: 1e14, per: 'currency units pe
  * dollars per MMBtu or 5,000 per MWh); in a currency of 10⁶ to the dollar
  * that is 5·10⁹ per MWh, below the bound.
  */
-export const MAX_PRICE: InputBound = { max: 1e10, per: 'currency units per unit of the meter', source: 'our own bound' };
+export const MAX_PRICE: InputBound = {
+  max: 1e10,
+  per: 'currency units per unit of the meter',
+  source: 'our own bound',
+};
 
 /**
  * Yearly escalation of a rate as a fraction: above −1 (the rate would
  * vanish or change sign) and at most 1 (more than doubling a year is taken
  * as a typing error). Our own bound.
  */
-export const ESCALATION = { min: -1, minExclusive: true, max: 1, per: 'fraction a year (0.03 = 3%)', source: 'our own bound' } as const;
+export const ESCALATION = {
+  min: -1,
+  minExclusive: true,
+  max: 1,
+  per: 'fraction a year (0.03 = 3%)',
+  source: 'our own bound',
+} as const;
 
 /**
  * Our own bound: a contract year's energy guarantee is at most a year

@@ -19,7 +19,8 @@ export function calendarMonths(periods: readonly { start: string; end: string }[
   for (const period of periods) {
     const first = parseIsoDate(period.start);
     const end = parseIsoDate(period.end);
-    if (first === null || end === null) throw new RangeError(`not a period of ISO dates: ${period.start}..${period.end}`);
+    if (first === null || end === null)
+      throw new RangeError(`not a period of ISO dates: ${period.start}..${period.end}`);
     let day: number = first;
     while (day < end) {
       const date = formatDayNumber(day);

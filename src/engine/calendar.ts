@@ -55,13 +55,18 @@ export function checkCalendar(calendar: FacilityCalendar): { field: string; mess
     problems.push({ field: 'weekly', message: `needs 7 day types, Monday first (got ${calendar.weekly.length})` });
   calendar.weekly.forEach((type, i) => {
     if (!types.has(type))
-      problems.push({ field: `weekly[${i}]`, message: `"${type}" is not one of dayTypes (${WEEKDAYS[i] ?? 'beyond Sunday'})` });
+      problems.push({
+        field: `weekly[${i}]`,
+        message: `"${type}" is not one of dayTypes (${WEEKDAYS[i] ?? 'beyond Sunday'})`,
+      });
   });
   calendar.exceptions.forEach((e, i) => {
-    if (parseIsoDate(e.start) === null) problems.push({ field: `exceptions[${i}].start`, message: `not a calendar date: ${e.start}` });
+    if (parseIsoDate(e.start) === null)
+      problems.push({ field: `exceptions[${i}].start`, message: `not a calendar date: ${e.start}` });
     else if (parseIsoDate(e.end) === null || !(e.end > e.start))
       problems.push({ field: `exceptions[${i}].end`, message: `must be a calendar date after start (${e.start})` });
-    if (!types.has(e.dayType)) problems.push({ field: `exceptions[${i}].dayType`, message: `"${e.dayType}" is not one of dayTypes` });
+    if (!types.has(e.dayType))
+      problems.push({ field: `exceptions[${i}].dayType`, message: `"${e.dayType}" is not one of dayTypes` });
   });
   if (problems.length === 0) {
     const order = calendar.exceptions
@@ -70,7 +75,10 @@ export function checkCalendar(calendar: FacilityCalendar): { field: string; mess
     for (let k = 1; k < order.length; k++) {
       const [a, b] = [order[k - 1]!, order[k]!];
       if (b.start < a.end) {
-        problems.push({ field: `exceptions[${b.i}]`, message: `${b.start}..${b.end} overlaps exceptions[${a.i}] ${a.start}..${a.end}` });
+        problems.push({
+          field: `exceptions[${b.i}]`,
+          message: `${b.start}..${b.end} overlaps exceptions[${a.i}] ${a.start}..${a.end}`,
+        });
       }
     }
   }
@@ -104,6 +112,10 @@ export function dayTypeSeries(calendar: FacilityCalendar, from: string, to: stri
   return calendar.dayTypes.slice(1).map((dayType) => ({
     name: dayTypeVariable(dayType),
     aggregation: 'mean' as const,
-    values: types.map((type, i) => ({ start: addDays(from, i), end: addDays(from, i + 1), value: type === dayType ? 1 : 0 })),
+    values: types.map((type, i) => ({
+      start: addDays(from, i),
+      end: addDays(from, i + 1),
+      value: type === dayType ? 1 : 0,
+    })),
   }));
 }

@@ -71,8 +71,10 @@ function formatP(p: number): string {
 }
 
 function describe(test: Omit<ChoiceTest, 'text'>, against: string, df1 = 1): string {
-  const adjusted = test.inflation > 1 ? `, divided by ${formatNumber(test.inflation)} for autocorrelated residuals` : '';
-  const how = test.method === 'searched' ? 'p bounded over the searched changepoint (Davies 1987)' : 'p from the F distribution';
+  const adjusted =
+    test.inflation > 1 ? `, divided by ${formatNumber(test.inflation)} for autocorrelated residuals` : '';
+  const how =
+    test.method === 'searched' ? 'p bounded over the searched changepoint (Davies 1987)' : 'p from the F distribution';
   return `against ${against}: F = ${formatNumber(test.f)} (${df1}, ${test.df2} degrees of freedom${adjusted}), ${how}, p ${formatP(test.pValue)}`;
 }
 
@@ -113,7 +115,8 @@ export function weatherDependenceTest(
       ? `4P: F = ${formatNumber(two.f)} (2, ${two.df2}), p ${formatP(two.pValue)} of its share ${formatNumber(1 - ONE_SLOPE_SHARE)}·α`
       : null,
   ].filter((part): part is string => part !== null);
-  const adjusted = lead.inflation > 1 ? ` (F divided by ${formatNumber(lead.inflation)} for autocorrelated residuals)` : '';
+  const adjusted =
+    lead.inflation > 1 ? ` (F divided by ${formatNumber(lead.inflation)} for autocorrelated residuals)` : '';
   return {
     ...lead,
     pValue,
@@ -172,14 +175,30 @@ function oneSlopeFamily(
   return { f: observed, df2, inflation, pValue, method: searched ? 'searched' : 'regular' };
 }
 
-function fourPointFamily(context: ChoiceContext, meanFit: ShapeFit, fourPoint: ShapeFit): Omit<ChoiceTest, 'text'> | null {
+function fourPointFamily(
+  context: ChoiceContext,
+  meanFit: ShapeFit,
+  fourPoint: ShapeFit,
+): Omit<ChoiceTest, 'text'> | null {
   const { days, minPoints } = context;
   const df2 = days.n - 4 - days.extras.length; // p counts the variables too
   if (df2 <= 0) return null;
   const kappa = slopeInflation(context, fourPoint);
-  const path = profileF(hingeProfile(days, 'heating', days.mean, bothSidesFeasible(days, minPoints)), meanFit.sse, df2, kappa, 2);
+  const path = profileF(
+    hingeProfile(days, 'heating', days.mean, bothSidesFeasible(days, minPoints)),
+    meanFit.sse,
+    df2,
+    kappa,
+    2,
+  );
   const observed = fStatistic(meanFit.sse, fourPoint.sse, df2, 2) / kappa;
-  return { f: observed, df2, inflation: kappa, pValue: searchedChangepointPValue({ path, observed, df2, df1: 2 }), method: 'searched' };
+  return {
+    f: observed,
+    df2,
+    inflation: kappa,
+    pValue: searchedChangepointPValue({ path, observed, df2, df1: 2 }),
+    method: 'searched',
+  };
 }
 
 /**
@@ -192,10 +211,21 @@ export function bendTest(context: ChoiceContext, line: ShapeFit, fourPoint: Shap
   const df2 = days.n - 4 - days.extras.length; // p counts the variables too
   if (df2 <= 0) return null;
   const kappa = slopeInflation(context, fourPoint);
-  const path = profileF(hingeProfile(days, 'heating', days.mean, bothSidesFeasible(days, minPoints)), line.sse, df2, kappa);
+  const path = profileF(
+    hingeProfile(days, 'heating', days.mean, bothSidesFeasible(days, minPoints)),
+    line.sse,
+    df2,
+    kappa,
+  );
   const observed = fStatistic(line.sse, fourPoint.sse, df2) / kappa;
   return finish(
-    { f: observed, df2, inflation: kappa, pValue: searchedChangepointPValue({ path, observed, df2 }), method: 'searched' },
+    {
+      f: observed,
+      df2,
+      inflation: kappa,
+      pValue: searchedChangepointPValue({ path, observed, df2 }),
+      method: 'searched',
+    },
     '2P',
   );
 }
@@ -219,7 +249,13 @@ export function secondBranchTest(context: ChoiceContext, oneBranch: ShapeFit, fi
   const path = profileF(hingeProfile(days, moving, fixed, mask), oneBranch.sse, df2, kappa);
   const observed = fStatistic(oneBranch.sse, fivePoint.sse, df2) / kappa;
   return finish(
-    { f: observed, df2, inflation: kappa, pValue: searchedChangepointPValue({ path, observed, df2 }), method: 'searched' },
+    {
+      f: observed,
+      df2,
+      inflation: kappa,
+      pValue: searchedChangepointPValue({ path, observed, df2 }),
+      method: 'searched',
+    },
     oneBranch.model,
   );
 }

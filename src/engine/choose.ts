@@ -36,10 +36,29 @@
  */
 import { MIN_BASELINE_PERIODS, TooFewPeriodsError, VariableChoiceError } from './errors.js';
 import { MODEL_NAMES, type ModelName, type Period, type TemperatureForm } from './types.js';
-import { fitShape, periodsHaveDays, searchView, withAutocorrelation, type ShapeFit, type ShapeFitResult } from './fit/fit-shape.js';
-import { bendTest, regularTest, secondBranchTest, weatherDependenceTest, type ChoiceContext, type ChoiceTest } from './choice-tests.js';
+import {
+  fitShape,
+  periodsHaveDays,
+  searchView,
+  withAutocorrelation,
+  type ShapeFit,
+  type ShapeFitResult,
+} from './fit/fit-shape.js';
+import {
+  bendTest,
+  regularTest,
+  secondBranchTest,
+  weatherDependenceTest,
+  type ChoiceContext,
+  type ChoiceTest,
+} from './choice-tests.js';
 import { fCritical, fPValue, twoSidedTCritical } from './stats/distributions.js';
-import { guideline14Check, type Guideline14Check, type Guideline14Limits, DEFAULT_GUIDELINE14_LIMITS } from './guideline14.js';
+import {
+  guideline14Check,
+  type Guideline14Check,
+  type Guideline14Limits,
+  DEFAULT_GUIDELINE14_LIMITS,
+} from './guideline14.js';
 
 export interface SelectionOptions {
   /** Two-sided level α of the slope t-tests and of the F-test. Default 0.05. */
@@ -91,9 +110,14 @@ export interface VariableDecision {
 }
 
 /** The form a fit of these periods uses: the one asked for, else day-resolved wherever the days are known. */
-export function resolveTemperatureForm(periods: readonly Period[], asked: TemperatureForm | undefined): TemperatureForm {
+export function resolveTemperatureForm(
+  periods: readonly Period[],
+  asked: TemperatureForm | undefined,
+): TemperatureForm {
   if (asked === 'daily' && !periodsHaveDays(periods)) {
-    throw new RangeError('the day-resolved form needs the daily temperatures of every period (align the readings with alignPeriods)');
+    throw new RangeError(
+      'the day-resolved form needs the daily temperatures of every period (align the readings with alignPeriods)',
+    );
   }
   return asked ?? (periods.length > 0 && periodsHaveDays(periods) ? 'daily' : 'mean');
 }
@@ -132,7 +156,12 @@ export interface Candidate {
 export interface BaselineChoice {
   selected: ModelName;
   candidates: Candidate[];
-  settings: { significanceLevel: number; minPointsPerSegment: number; guideline14: Guideline14Limits; temperatureForm: TemperatureForm };
+  settings: {
+    significanceLevel: number;
+    minPointsPerSegment: number;
+    guideline14: Guideline14Limits;
+    temperatureForm: TemperatureForm;
+  };
   /** The variables in the chosen model (absent for a weather-only choice). */
   variables?: string[];
   /** Every candidate variable's decision (absent when none was offered). */
@@ -258,7 +287,11 @@ function chooseVariables(
 }
 
 /** Fit every shape with the given variables and choose one. */
-function chooseShape(periods: readonly Period[], options: SelectionOptions, variables: readonly string[]): BaselineChoice {
+function chooseShape(
+  periods: readonly Period[],
+  options: SelectionOptions,
+  variables: readonly string[],
+): BaselineChoice {
   const alpha = options.significanceLevel ?? DEFAULT_SIGNIFICANCE_LEVEL;
   const minPoints = options.minPointsPerSegment ?? DEFAULT_MIN_POINTS_PER_SEGMENT;
   const limits: Guideline14Limits = { ...DEFAULT_GUIDELINE14_LIMITS, ...options.guideline14 };
@@ -266,7 +299,8 @@ function chooseShape(periods: readonly Period[], options: SelectionOptions, vari
     throw new RangeError(`significanceLevel must lie in (0, 1) with 1 − α below 1 in double precision, got ${alpha}`);
   if (!Number.isInteger(minPoints) || minPoints < 1)
     throw new RangeError(`minPointsPerSegment must be a positive integer, got ${minPoints}`);
-  if (periods.length < MIN_BASELINE_PERIODS) throw new TooFewPeriodsError('baseline', MIN_BASELINE_PERIODS, periods.length, []);
+  if (periods.length < MIN_BASELINE_PERIODS)
+    throw new TooFewPeriodsError('baseline', MIN_BASELINE_PERIODS, periods.length, []);
 
   const models = (options.models ?? MODEL_NAMES).includes('1P')
     ? (options.models ?? MODEL_NAMES)
@@ -284,7 +318,11 @@ function chooseShape(periods: readonly Period[], options: SelectionOptions, vari
     screen(result.ok ? withAutocorrelation(result, periods, noiseAutocorrelation) : result, rules, limits),
   );
 
-  const context: ChoiceContext = { days: searchView(periods, form, variables), minPoints, inflation: (fit) => fit.varianceInflation ?? [] };
+  const context: ChoiceContext = {
+    days: searchView(periods, form, variables),
+    minPoints,
+    inflation: (fit) => fit.varianceInflation ?? [],
+  };
   const current = selectShape(candidates, context, alpha);
   for (const c of candidates) {
     if (c.accepted) c.verdict = c === current ? 'selected' : 'accepted';
@@ -326,7 +364,9 @@ function selectShape(candidates: Candidate[], context: ChoiceContext, alpha: num
     fourPoint: fitOf('4P'),
   });
   if (!gate || !(gate.pValue < alpha)) {
-    mean.reasons.push(gate ? `no weather dependence: ${gate.text} (α = ${alpha})` : 'too few periods to test for weather dependence');
+    mean.reasons.push(
+      gate ? `no weather dependence: ${gate.text} (α = ${alpha})` : 'too few periods to test for weather dependence',
+    );
     for (const model of ['2P', '3PC', '3PH', '4P', '5P'] as const) {
       const c = screened(model);
       if (c) c.reasons.push('not taken: the data show no weather dependence at level α (see 1P)');
@@ -342,7 +382,9 @@ function selectShape(candidates: Candidate[], context: ChoiceContext, alpha: num
     .sort((a, b) => a.fit!.sse - b.fit!.sse);
   const three = threes[0];
   for (const other of threes.slice(1))
-    other.reasons.push(`fits worse than ${three!.model} (SSE ${formatNumber(other.fit!.sse)} > ${formatNumber(three!.fit!.sse)})`);
+    other.reasons.push(
+      `fits worse than ${three!.model} (SSE ${formatNumber(other.fit!.sse)} > ${formatNumber(three!.fit!.sse)})`,
+    );
   const line = screened('2P');
   let current: Candidate | undefined;
   if (three && line) {
@@ -354,7 +396,9 @@ function selectShape(candidates: Candidate[], context: ChoiceContext, alpha: num
       current = three;
     } else {
       three.reasons.push(
-        bends ? `not taken: the line does not bend enough ${bends.text} (α = ${alpha})` : 'not taken: no bend could be tested',
+        bends
+          ? `not taken: the line does not bend enough ${bends.text} (α = ${alpha})`
+          : 'not taken: no bend could be tested',
       );
       current = line;
     }
@@ -377,7 +421,8 @@ function selectShape(candidates: Candidate[], context: ChoiceContext, alpha: num
       : `taken: weather dependence is significant and ${current.model} fits best of the one-slope shapes`,
   );
   if (current.model === '2P') {
-    for (const model of ['4P', '5P'] as const) screened(model)?.reasons.push('not taken: the straight line does not bend (see 3PC/3PH)');
+    for (const model of ['4P', '5P'] as const)
+      screened(model)?.reasons.push('not taken: the straight line does not bend (see 3PC/3PH)');
     return current;
   }
 
@@ -386,7 +431,9 @@ function selectShape(candidates: Candidate[], context: ChoiceContext, alpha: num
   const five = screened('5P');
   if (five) {
     const test =
-      current.model === '4P' ? regularTest(context, current.fit!, five.fit!) : secondBranchTest(context, current.fit!, five.fit!);
+      current.model === '4P'
+        ? regularTest(context, current.fit!, five.fit!)
+        : secondBranchTest(context, current.fit!, five.fit!);
     if (record(five, test, current.model)) current = five;
   }
   return current;
@@ -431,10 +478,14 @@ function screen(result: ShapeFitResult, rules: ScreeningRules, limits: Guideline
   const heating = fit.parameters.heatingSlope;
   const cooling = fit.parameters.coolingSlope;
   if (heating !== undefined && !(heating < 0)) {
-    reasons.push(`heating slope has the wrong sign: ${formatNumber(heating)} per degree (use must rise as it gets colder)`);
+    reasons.push(
+      `heating slope has the wrong sign: ${formatNumber(heating)} per degree (use must rise as it gets colder)`,
+    );
   }
   if (cooling !== undefined && !(cooling > 0)) {
-    reasons.push(`cooling slope has the wrong sign: ${formatNumber(cooling)} per degree (use must rise as it gets warmer)`);
+    reasons.push(
+      `cooling slope has the wrong sign: ${formatNumber(cooling)} per degree (use must rise as it gets warmer)`,
+    );
   }
   if (fit.model === '4P') {
     const below = fit.parameters.slopeBelow!;

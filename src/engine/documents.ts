@@ -98,6 +98,11 @@ export function fitDocument(
 }
 
 export interface SavingsDocument extends SavingsResult {
-  baseline: { selected: ModelName; temperatureForm: TemperatureForm; reportingMonths: number; guideline14: Candidate['guideline14'] };
+  baseline: {
+    selected: ModelName;
+    temperatureForm: TemperatureForm;
+    reportingMonths: number;
+    guideline14: Candidate['guideline14'];
+  };
   excluded: { baseline: ExcludedPeriod[]; reporting: ExcludedPeriod[] };
 }

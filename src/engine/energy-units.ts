@@ -38,7 +38,9 @@ const UNIT_SIZES: Readonly<Record<string, { base: 'J' | 'Btu'; size: number }>> 
  * project follows the 100,000 Btu convention of its brief.
  */
 export const ENERGY_UNIT_JOULES: Readonly<Record<string, number>> = Object.freeze(
-  Object.fromEntries(Object.entries(UNIT_SIZES).map(([unit, { base, size }]) => [unit, base === 'J' ? size : size * BTU_IT_JOULES])),
+  Object.fromEntries(
+    Object.entries(UNIT_SIZES).map(([unit, { base, size }]) => [unit, base === 'J' ? size : size * BTU_IT_JOULES]),
+  ),
 );
 
 /** Where the factors come from. */

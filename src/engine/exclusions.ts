@@ -39,9 +39,15 @@ export function applyExclusions(
   const chosen = new Set<number>();
   const applied: AppliedExclusion[] = [];
   exclusions.forEach((exclusion, i) => {
-    const name = exclusion.readingId !== undefined ? `reading ${exclusion.readingId}` : `the reading ${exclusion.start}..${exclusion.end}`;
+    const name =
+      exclusion.readingId !== undefined
+        ? `reading ${exclusion.readingId}`
+        : `the reading ${exclusion.start}..${exclusion.end}`;
     if (!exclusion.reason || exclusion.reason.trim() === '') {
-      throw new ExclusionError(`exclusions[${i}].reason: leaving out ${name} needs a reason`, `exclusions[${i}].reason`);
+      throw new ExclusionError(
+        `exclusions[${i}].reason: leaving out ${name} needs a reason`,
+        `exclusions[${i}].reason`,
+      );
     }
     const index = readings.findIndex((r) => r.start === exclusion.start && r.end === exclusion.end);
     if (index < 0) {

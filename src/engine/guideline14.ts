@@ -71,7 +71,9 @@ export function guideline14Check(
     nmbe: { value: stats.nmbe, limit: limits.nmbe, pass: nmbePass },
     pass: cvPass && nmbePass,
     source: limits.source,
-    outOfSample: outOfSample ? { cvrmse: outOfSample.cvrmse, nmbe: outOfSample.nmbe, method: outOfSample.method } : null,
+    outOfSample: outOfSample
+      ? { cvrmse: outOfSample.cvrmse, nmbe: outOfSample.nmbe, method: outOfSample.method }
+      : null,
     note: IN_SAMPLE_NMBE_NOTE,
   };
 }

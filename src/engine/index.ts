@@ -39,16 +39,46 @@ export {
   DEFAULT_SIGNIFICANCE_LEVEL,
   DEFAULT_MIN_POINTS_PER_SEGMENT,
 } from './choose.js';
-export type { BaselineChoice, Candidate, SelectionOptions, Verdict, VariableDecision, VariableOverride } from './choose.js';
+export type {
+  BaselineChoice,
+  Candidate,
+  SelectionOptions,
+  Verdict,
+  VariableDecision,
+  VariableOverride,
+} from './choose.js';
 export * from './exclusions.js';
-export { variableValues, predictWithVariables, designRowWithVariables, checkVariableValues } from './fit/variable-columns.js';
+export {
+  variableValues,
+  predictWithVariables,
+  designRowWithVariables,
+  checkVariableValues,
+} from './fit/variable-columns.js';
 export { fitShape, fitTemperatureForm, periodsHaveDays } from './fit/fit-shape.js';
-export type { ShapeFit, ShapeFitResult, ShapeFitFailure, Coefficient, ChangepointEstimate, FitStatistics } from './fit/fit-shape.js';
-export { designRow, predictPerDay, periodDesignRow, predictPeriodPerDay, type PeriodWeather } from './fit/shape-model.js';
+export type {
+  ShapeFit,
+  ShapeFitResult,
+  ShapeFitFailure,
+  Coefficient,
+  ChangepointEstimate,
+  FitStatistics,
+} from './fit/fit-shape.js';
+export {
+  designRow,
+  predictPerDay,
+  periodDesignRow,
+  predictPeriodPerDay,
+  type PeriodWeather,
+} from './fit/shape-model.js';
 export { heatingDegreeDaysPerDay, coolingDegreeDaysPerDay } from './fit/degree-days.js';
 export { computeSavings, CONFIDENCE_LEVELS, SIGNIFICANCE_RULE } from './savings.js';
 export type { SavingsOptions, SavingsResult, SavingsPeriod, SavingsTotals, Uncertainty } from './savings.js';
-export { DEFAULT_GUIDELINE14_LIMITS, GUIDELINE14_SOURCE, cvrmseLimitForReportingMonths, guideline14Check } from './guideline14.js';
+export {
+  DEFAULT_GUIDELINE14_LIMITS,
+  GUIDELINE14_SOURCE,
+  cvrmseLimitForReportingMonths,
+  guideline14Check,
+} from './guideline14.js';
 export type { Guideline14Check, Guideline14Limits } from './guideline14.js';
 export { candidateDocument, fitDocument } from './documents.js';
 export type { CandidateDocument, FitDocument, SavingsDocument } from './documents.js';
@@ -102,7 +132,8 @@ export function analyseBaseline(
     .map((_, index) => index)
     .filter((index) => !applied.some((a) => a.start === readings[index]!.start && a.end === readings[index]!.end));
   const excluded = aligned.excluded.map((e) => ({ ...e, index: original[e.index] ?? e.index }));
-  if (periods.length < MIN_BASELINE_PERIODS) throw new TooFewPeriodsError('baseline', MIN_BASELINE_PERIODS, periods.length, excluded);
+  if (periods.length < MIN_BASELINE_PERIODS)
+    throw new TooFewPeriodsError('baseline', MIN_BASELINE_PERIODS, periods.length, excluded);
   const choice = chooseBaseline(periods, options);
   return {
     periods,
@@ -175,7 +206,8 @@ export function savingsFromAligned(
   options: SavingsOptions & { cvrmseLimit?: number } = {},
 ): SavingsDocument {
   const { periods, excluded } = aligned;
-  if (periods.length < MIN_REPORTING_PERIODS) throw new TooFewPeriodsError('savings', MIN_REPORTING_PERIODS, periods.length, excluded);
+  if (periods.length < MIN_REPORTING_PERIODS)
+    throw new TooFewPeriodsError('savings', MIN_REPORTING_PERIODS, periods.length, excluded);
   const result = computeSavings(fit, periods, options);
   // Calendar months, so a reporting year of 365 or 366 days is 12 months and judged by the 12–60-month limit.
   const reportingMonths = calendarMonths(periods);

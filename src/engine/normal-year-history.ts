@@ -39,7 +39,10 @@ const DAY_INDEX = new Map(NORMAL_YEAR_DAYS.map((day, i) => [day, i]));
  * RangeError (misuse) for a window that is not an odd number of days from 1
  * to 61 or years that do not run forward.
  */
-export function normalYearFromHistory(days: readonly { date: string; temp: number }[], options: HistoryOptions): HistoryNormalYear {
+export function normalYearFromHistory(
+  days: readonly { date: string; temp: number }[],
+  options: HistoryOptions,
+): HistoryNormalYear {
   const { fromYear, toYear } = options;
   const windowDays = options.windowDays ?? DEFAULT_NORMAL_WINDOW_DAYS;
   const minShare = options.minYearShare ?? DEFAULT_MIN_YEAR_SHARE;

@@ -68,7 +68,11 @@ export function checkNormalYear(days: readonly { day: string; temp: number }[], 
   if (missing.length > 0) {
     const listed = missing.slice(0, MISSING_LISTED).join(', ');
     const more = missing.length > MISSING_LISTED ? ` and ${missing.length - MISSING_LISTED} more` : '';
-    problems.push({ index: -1, field: 'day', message: `missing days: ${listed}${more} (a normal year has all 365 days, 02-29 left out)` });
+    problems.push({
+      index: -1,
+      field: 'day',
+      message: `missing days: ${listed}${more} (a normal year has all 365 days, 02-29 left out)`,
+    });
   }
   return problems;
 }

@@ -78,14 +78,18 @@ export function normalisedSavings(
   try {
     choice = chooseBaseline(periods, { temperatureForm: form });
   } catch (error) {
-    if (error instanceof TooFewPeriodsError) return { available: false, reason: `no reporting-period model: ${error.message}` };
+    if (error instanceof TooFewPeriodsError)
+      return { available: false, reason: `no reporting-period model: ${error.message}` };
     throw error;
   }
   const reportingFit = choice.candidates.find((c) => c.model === choice.selected)?.fit;
-  if (!reportingFit) return { available: false, reason: 'no changepoint shape could be fitted to the reporting periods' };
+  if (!reportingFit)
+    return { available: false, reason: 'no changepoint shape could be fitted to the reporting periods' };
   const lengths = periods.map((p) => p.days).sort((a, b) => a - b);
   const asMonths = form === 'mean' && (lengths[Math.floor(lengths.length / 2)] ?? 1) >= BILLING_PERIOD_DAYS;
-  const normal: NormalPeriod[] = asMonths ? normalYearMonths(normalTemps) : normalTemps.map((meanTemp) => ({ days: 1, meanTemp }));
+  const normal: NormalPeriod[] = asMonths
+    ? normalYearMonths(normalTemps)
+    : normalTemps.map((meanTemp) => ({ days: 1, meanTemp }));
   // Days of the normal year outside either model's range, counted by the period the model sees.
   const base = normalPeriodsUse(baseline, normal);
   const reporting = normalPeriodsUse(reportingFit, normal);

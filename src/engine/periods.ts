@@ -40,7 +40,8 @@ export function alignPeriods(
   options: AlignmentOptions = {},
 ): AlignedPeriods {
   const minCoverage = options.minCoverage ?? DEFAULT_MIN_COVERAGE;
-  if (!(minCoverage > 0 && minCoverage <= 1)) throw new RangeError(`minCoverage must lie in (0, 1], got ${minCoverage}`);
+  if (!(minCoverage > 0 && minCoverage <= 1))
+    throw new RangeError(`minCoverage must lie in (0, 1], got ${minCoverage}`);
   const byDay = indexByDayNumber(weather);
   const indexed = indexVariables(options.variableSeries ?? []);
   const periods: Period[] = [];

@@ -56,7 +56,8 @@ export function monthlyResiduals(periods: MeterResiduals['periods']): Map<string
       const date = formatDayNumber(day);
       const month = date.slice(0, 7);
       // Days to the end of this calendar month or of the period, whichever comes first (one step per month, not per day).
-      const monthEnd = day - (Number(date.slice(8, 10)) - 1) + daysInMonth(Number(date.slice(0, 4)), Number(date.slice(5, 7)));
+      const monthEnd =
+        day - (Number(date.slice(8, 10)) - 1) + daysInMonth(Number(date.slice(0, 4)), Number(date.slice(5, 7)));
       const next = end < monthEnd ? end : monthEnd;
       months.set(month, (months.get(month) ?? 0) + perDay * (next - day));
       day = next;
@@ -93,7 +94,12 @@ export class PooledResidualCorrelation {
   /** For every month: Σz and Σz² over all meters present, and per group. */
   private readonly byMonth = new Map<
     string,
-    { sum: number; squares: number; count: number; groups: Map<string, { sum: number; squares: number; count: number }> }
+    {
+      sum: number;
+      squares: number;
+      count: number;
+      groups: Map<string, { sum: number; squares: number; count: number }>;
+    }
   >();
   private readonly metersPerGroup = new Map<string, number>();
   private series = 0;

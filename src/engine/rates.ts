@@ -42,11 +42,18 @@ export function checkRateSchedule(entries: readonly RateEntry[]): InputProblem[]
   entries.forEach((entry, index) => {
     const from = parseIsoDate(entry.from);
     const to = entry.to === null ? Number.POSITIVE_INFINITY : parseIsoDate(entry.to);
-    if (from === null) problems.push({ index, field: 'from', message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(entry.from)}` });
-    if (to === null) problems.push({ index, field: 'to', message: `not a valid date (YYYY-MM-DD) or null: ${JSON.stringify(entry.to)}` });
+    if (from === null)
+      problems.push({ index, field: 'from', message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(entry.from)}` });
+    if (to === null)
+      problems.push({
+        index,
+        field: 'to',
+        message: `not a valid date (YYYY-MM-DD) or null: ${JSON.stringify(entry.to)}`,
+      });
     if (!Number.isFinite(entry.price)) problems.push({ index, field: 'price', message: 'not a finite number' });
     else if (entry.price < 0) problems.push({ index, field: 'price', message: `negative (${entry.price})` });
-    if (!Number.isFinite(entry.escalation)) problems.push({ index, field: 'escalation', message: 'not a finite number' });
+    if (!Number.isFinite(entry.escalation))
+      problems.push({ index, field: 'escalation', message: 'not a finite number' });
     else if (entry.escalation <= ESCALATION.min || entry.escalation > ESCALATION.max) {
       problems.push({
         index,
@@ -55,7 +62,11 @@ export function checkRateSchedule(entries: readonly RateEntry[]): InputProblem[]
       });
     }
     if (entry.to === null && index < entries.length - 1) {
-      problems.push({ index, field: 'to', message: 'an open-ended entry (to = null) must be the last in the schedule' });
+      problems.push({
+        index,
+        field: 'to',
+        message: 'an open-ended entry (to = null) must be the last in the schedule',
+      });
     }
     if (from === null || to === null) return;
     if (to <= from) {
@@ -179,5 +190,6 @@ function lastStartingOnOrBefore(schedule: readonly RateEntry[], day: number): nu
 
 function requireValid(schedule: readonly RateEntry[]): void {
   const problem = checkRateSchedule(schedule)[0];
-  if (problem) throw new RangeError(`invalid rate schedule: entry ${problem.index} ${problem.field}: ${problem.message}`);
+  if (problem)
+    throw new RangeError(`invalid rate schedule: entry ${problem.index} ${problem.field}: ${problem.message}`);
 }

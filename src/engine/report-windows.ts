@@ -122,6 +122,8 @@ export function inWindowByMidpoint(reading: { start: string; end: string }, wind
 }
 
 function checkContract(contractStart: string, years: number): void {
-  if (!isIsoDate(contractStart)) throw new RangeError(`contract start is not an ISO date: ${JSON.stringify(contractStart)}`);
-  if (!Number.isInteger(years) || years < 1) throw new RangeError(`contract length must be a whole number of years ≥ 1, got ${years}`);
+  if (!isIsoDate(contractStart))
+    throw new RangeError(`contract start is not an ISO date: ${JSON.stringify(contractStart)}`);
+  if (!Number.isInteger(years) || years < 1)
+    throw new RangeError(`contract length must be a whole number of years ≥ 1, got ${years}`);
 }

@@ -18,9 +18,18 @@
 import { MIN_REPORTING_PERIODS, TooFewPeriodsError } from './errors.js';
 import type { ModelName, Period, TemperatureForm } from './types.js';
 import { fitTemperatureForm, type ShapeFit } from './fit/fit-shape.js';
-import { checkVariableValues, designRowWithVariables, fitVariables, predictWithVariables } from './fit/variable-columns.js';
+import {
+  checkVariableValues,
+  designRowWithVariables,
+  fitVariables,
+  predictWithVariables,
+} from './fit/variable-columns.js';
 import { twoSidedTCritical } from './stats/distributions.js';
-import { effectiveSampleSize, exactSavingsVariance, guideline14FractionalUncertainty } from './stats/savings-uncertainty.js';
+import {
+  effectiveSampleSize,
+  exactSavingsVariance,
+  guideline14FractionalUncertainty,
+} from './stats/savings-uncertainty.js';
 import { adjustmentsForPeriod, adjustmentsUncertaintyInPeriods, type NonRoutineAdjustment } from './adjustments.js';
 import { twoSidedNormalQuantile } from './stats/distributions.js';
 import { combineInQuadrature } from './rollup.js';
@@ -110,17 +119,30 @@ export interface SavingsResult {
   };
   baselineTemperatureRange: { min: number; max: number };
   /** Inputs of the uncertainty formulas, for audit. */
-  uncertaintyInputs: { n: number; nPrime: number; m: number; p: number; t: number; autocorrelation: number; cvrmse: number };
+  uncertaintyInputs: {
+    n: number;
+    nPrime: number;
+    m: number;
+    p: number;
+    t: number;
+    autocorrelation: number;
+    cvrmse: number;
+  };
 }
 
 /**
  * Savings of `reporting` periods against a fitted baseline model.
  * Throws TooFewPeriodsError when there is no reporting period.
  */
-export function computeSavings(baseline: ShapeFit, reporting: readonly Period[], options: SavingsOptions = {}): SavingsResult {
+export function computeSavings(
+  baseline: ShapeFit,
+  reporting: readonly Period[],
+  options: SavingsOptions = {},
+): SavingsResult {
   const confidence = options.confidence ?? SIGNIFICANCE_RULE.confidence;
   if (!(confidence > 0 && confidence < 1)) throw new RangeError(`confidence must lie in (0, 1), got ${confidence}`);
-  if (reporting.length < MIN_REPORTING_PERIODS) throw new TooFewPeriodsError('savings', MIN_REPORTING_PERIODS, reporting.length, []);
+  if (reporting.length < MIN_REPORTING_PERIODS)
+    throw new TooFewPeriodsError('savings', MIN_REPORTING_PERIODS, reporting.length, []);
   const ordered = [...reporting].sort((a, b) => (a.start < b.start ? -1 : a.start > b.start ? 1 : 0));
   const range = baseline.temperatureRange;
   const form = fitTemperatureForm(baseline);
@@ -185,18 +207,29 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
     });
     // ΔS = t·1.26·CV·sqrt(…)·Σ model baseline: the fractional form at F = 1, scaled (no 0/0 when S = 0).
     const g14Absolute =
-      guideline14FractionalUncertainty({ t, cvrmse: baseline.stats.cvrmse, n, nPrime, m: periods.length, fractionSaved: 1 }) *
-      Math.abs(modelBaseline);
+      guideline14FractionalUncertainty({
+        t,
+        cvrmse: baseline.stats.cvrmse,
+        n,
+        nPrime,
+        m: periods.length,
+        fractionSaved: 1,
+      }) * Math.abs(modelBaseline);
     const exactAbsolute = t * Math.sqrt(variance);
     return {
       t,
-      guideline14: { fractional: adjustmentTotal === 0 ? modelFractional : g14Absolute / Math.abs(savings), absolute: g14Absolute },
+      guideline14: {
+        fractional: adjustmentTotal === 0 ? modelFractional : g14Absolute / Math.abs(savings),
+        absolute: g14Absolute,
+      },
       exact: { fractional: exactAbsolute / Math.abs(savings), absolute: exactAbsolute },
     };
   };
   const chosen = uncertaintyAt(confidence);
   const adjustmentsAbsolute =
-    adjustments.length > 0 ? twoSidedNormalQuantile(confidence) * adjustmentsUncertaintyInPeriods(adjustments, ordered) : 0;
+    adjustments.length > 0
+      ? twoSidedNormalQuantile(confidence) * adjustmentsUncertaintyInPeriods(adjustments, ordered)
+      : 0;
   const modelValues = [chosen.guideline14.absolute, chosen.exact.absolute].filter(Number.isFinite);
   const modelAbsolute = modelValues.length > 0 ? Math.max(...modelValues) : Number.NaN;
   const combinedAbsolute = combineInQuadrature([modelAbsolute, adjustmentsAbsolute]);
@@ -229,7 +262,8 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
               variables.map((name) => [
                 name,
                 modelBaseline !== 0
-                  ? sum(periods.filter((p) => p.outsideVariableRanges!.includes(name)).map((p) => p.modelBaseline)) / modelBaseline
+                  ? sum(periods.filter((p) => p.outsideVariableRanges!.includes(name)).map((p) => p.modelBaseline)) /
+                    modelBaseline
                   : 0,
               ]),
             ),
@@ -241,7 +275,15 @@ export function computeSavings(baseline: ShapeFit, reporting: readonly Period[],
       fractionalAt68: { guideline14: at68.guideline14.fractional, exact: at68.exact.fractional },
     },
     baselineTemperatureRange: { ...range },
-    uncertaintyInputs: { n, nPrime, m: periods.length, p: baseline.p, t: chosen.t, autocorrelation: rho, cvrmse: baseline.stats.cvrmse },
+    uncertaintyInputs: {
+      n,
+      nPrime,
+      m: periods.length,
+      p: baseline.p,
+      t: chosen.t,
+      autocorrelation: rho,
+      cvrmse: baseline.stats.cvrmse,
+    },
   };
 }
 

@@ -68,7 +68,8 @@ export function summariseStationRecord(days: readonly RecordDay[], unit: Tempera
     if (!min || day.temp < min.temp) min = { date: day.date, temp: day.temp };
     if (!max || day.temp > max.temp) max = { date: day.date, temp: day.temp };
   }
-  if (first && last) for (let y = Number(first.slice(0, 4)); y <= Number(last.slice(0, 4)); y++) yearEntry(years, y, first, last);
+  if (first && last)
+    for (let y = Number(first.slice(0, 4)); y <= Number(last.slice(0, 4)); y++) yearEntry(years, y, first, last);
   const yearList = [...years.values()].sort((a, b) => a.year - b.year);
   for (const year of yearList) year.missing = year.days - year.observed - year.filled;
   const missing = spanDays - sorted.length;

@@ -23,7 +23,8 @@ export const MIN_BASELINE_DAYS = 330;
 export const MIN_BASELINE_BILLS = 12;
 /** A baseline whose median period is this many days or more is read in bills (the same cut as normalised savings). */
 export const BILLED_MEDIAN_DAYS = 7;
-export const BASELINE_SUFFICIENCY_SOURCE = 'common practice: a full year of bills (a full cycle of seasons); not a published standard';
+export const BASELINE_SUFFICIENCY_SOURCE =
+  'common practice: a full year of bills (a full cycle of seasons); not a published standard';
 
 /** Largest share of reporting days outside the baseline's weather before a projection is refused (a limit of our own; configurable). */
 export const DEFAULT_EXTRAPOLATION_LIMIT = 0.1;
@@ -108,7 +109,8 @@ export function reportingExtrapolation(
   reporting: readonly Pick<Period, 'days' | 'meanTemp' | 'dayTemps'>[],
   limit: number = DEFAULT_EXTRAPOLATION_LIMIT,
 ): ReportingExtrapolation {
-  if (!(limit >= 0 && limit <= 1)) throw new RangeError(`the extrapolation limit must be a share in [0, 1], got ${limit}`);
+  if (!(limit >= 0 && limit <= 1))
+    throw new RangeError(`the extrapolation limit must be a share in [0, 1], got ${limit}`);
   const basis = fitTemperatureForm(fit) === 'daily' ? 'daily' : 'mean';
   const range = basis === 'daily' ? (fit.dayTemperatureRange ?? fit.temperatureRange) : fit.temperatureRange;
   const outside = (temp: number) => temp < range.min || temp > range.max;

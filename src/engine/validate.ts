@@ -21,16 +21,23 @@ export function checkReadings(readings: readonly Reading[]): InputProblem[] {
     const start = parseIsoDate(reading.start);
     const end = parseIsoDate(reading.end);
     if (start === null)
-      problems.push({ index, field: 'start', message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(reading.start)}` });
-    if (end === null) problems.push({ index, field: 'end', message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(reading.end)}` });
+      problems.push({
+        index,
+        field: 'start',
+        message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(reading.start)}`,
+      });
+    if (end === null)
+      problems.push({ index, field: 'end', message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(reading.end)}` });
     if (!Number.isFinite(reading.quantity)) problems.push({ index, field: 'quantity', message: 'not a finite number' });
-    else if (reading.quantity < 0) problems.push({ index, field: 'quantity', message: `negative (${reading.quantity})` });
+    else if (reading.quantity < 0)
+      problems.push({ index, field: 'quantity', message: `negative (${reading.quantity})` });
     else {
       const beyond = beyondBoundPerDay(reading.quantity, reading.start, reading.end, MAX_USE_PER_DAY);
       if (beyond) problems.push({ index, field: 'quantity', message: beyond });
     }
     if (start !== null && end !== null) {
-      if (end <= start) problems.push({ index, field: 'end', message: `end ${reading.end} is not after start ${reading.start}` });
+      if (end <= start)
+        problems.push({ index, field: 'end', message: `end ${reading.end} is not after start ${reading.start}` });
       else valid.push({ index, start, end });
     }
   });
@@ -72,7 +79,12 @@ export function checkWeather(weather: readonly DailyTemperature[], unit: Tempera
     if (parseIsoDate(day.date) === null) {
       problems.push({ index, field: 'date', message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(day.date)}` });
     } else if (seen.has(day.date)) {
-      problems.push({ index, field: 'date', message: `repeats the date ${day.date}`, relatedIndex: seen.get(day.date)! });
+      problems.push({
+        index,
+        field: 'date',
+        message: `repeats the date ${day.date}`,
+        relatedIndex: seen.get(day.date)!,
+      });
     } else {
       seen.set(day.date, index);
     }

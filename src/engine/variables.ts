@@ -83,7 +83,11 @@ export function indexVariables(series: readonly VariableSeries[]): IndexedVariab
 }
 
 /** A period's values of the indexed variables (those with every day covered), or undefined when none is given. */
-export function periodVariables(indexed: IndexedVariables, first: number, days: number): Record<string, number> | undefined {
+export function periodVariables(
+  indexed: IndexedVariables,
+  first: number,
+  days: number,
+): Record<string, number> | undefined {
   if (indexed.length === 0) return undefined;
   const values: Record<string, number> = {};
   for (const { name, perDay } of indexed) {

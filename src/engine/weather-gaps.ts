@@ -117,7 +117,10 @@ export function interpolate(before: number, after: number, n: number): number[] 
 }
 
 /** Ordinary least squares of the target on the second station over the days both observed; null below 3 shared days. */
-export function fitStationOffset(target: readonly DailyTemperature[], second: readonly DailyTemperature[]): StationOffset | null {
+export function fitStationOffset(
+  target: readonly DailyTemperature[],
+  second: readonly DailyTemperature[],
+): StationOffset | null {
   const other = new Map(second.map((d) => [d.date, d.temp]));
   const xs: number[] = [];
   const ys: number[] = [];
@@ -151,7 +154,12 @@ export function fitStationOffset(target: readonly DailyTemperature[], second: re
  * the second station's fitted line for the rest where it observed the day,
  * and the days left empty.
  */
-export function planGapFill(observed: readonly DailyTemperature[], from: string, to: string, options: GapFillOptions = {}): GapFillPlan {
+export function planGapFill(
+  observed: readonly DailyTemperature[],
+  from: string,
+  to: string,
+  options: GapFillOptions = {},
+): GapFillPlan {
   const maxInterpolation = options.maxInterpolationDays ?? DEFAULT_MAX_INTERPOLATION_DAYS;
   const minOverlap = options.minOverlapDays ?? DEFAULT_MIN_OVERLAP_DAYS;
   const gaps = findGaps(observed, from, to);

@@ -98,10 +98,16 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
         return sendProblem(
           request,
           reply,
-          new Problem('validation', 'the URL is not valid: check its percent-encoding', [{ field: 'path', message: 'not a valid URL' }]),
+          new Problem('validation', 'the URL is not valid: check its percent-encoding', [
+            { field: 'path', message: 'not a valid URL' },
+          ]),
         );
       }
-      return sendProblem(request, reply, new Problem('internal', `unexpected error; quote request id ${request.id} when reporting it`));
+      return sendProblem(
+        request,
+        reply,
+        new Problem('internal', `unexpected error; quote request id ${request.id} when reporting it`),
+      );
     },
   });
   app.setValidatorCompiler(validatorCompiler);
@@ -133,7 +139,9 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     crossOriginResourcePolicy: { policy: 'same-origin' },
     frameguard: { action: 'deny' },
   });
-  const failures = options.failedAuthenticationsPerMinute ? new FailedAuthenticationLimit(options.failedAuthenticationsPerMinute) : null;
+  const failures = options.failedAuthenticationsPerMinute
+    ? new FailedAuthenticationLimit(options.failedAuthenticationsPerMinute)
+    : null;
   await app.register(authPlugin, { store: deps.store, failures });
   await app.register(rateLimitPlugin, { perMinute: options.rateLimitPerMinute });
   await app.register(csvBodiesPlugin);
@@ -156,7 +164,11 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
           description: 'The service on this machine, as `npm run demo` and `npm start` run it (PORT changes the port)',
         },
       ],
-      components: { securitySchemes: { bearerAuth: { type: 'http', scheme: 'bearer', description: 'An API key: mvl_<id>_<secret>' } } },
+      components: {
+        securitySchemes: {
+          bearerAuth: { type: 'http', scheme: 'bearer', description: 'An API key: mvl_<id>_<secret>' },
+        },
+      },
     },
     transform: transformWithOperationDetails,
     transformObject: transformObjectWithoutUnused,

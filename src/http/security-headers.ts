@@ -22,7 +22,8 @@ export const PROBLEM_SECURITY_HEADERS: Readonly<Record<string, string>> = {
 
 /** Adds each header helmet has not already set on this reply. */
 export function addMissingSecurityHeaders(reply: FastifyReply): FastifyReply {
-  for (const [name, value] of Object.entries(PROBLEM_SECURITY_HEADERS)) if (!reply.hasHeader(name)) reply.header(name, value);
+  for (const [name, value] of Object.entries(PROBLEM_SECURITY_HEADERS))
+    if (!reply.hasHeader(name)) reply.header(name, value);
   return reply;
 }
 
@@ -39,7 +40,12 @@ export function answerClientError(error: NodeJS.ErrnoException, socket: Socket):
       : error.code === 'HPE_HEADER_OVERFLOW'
         ? [431, 'the request headers are too large']
         : [400, 'the request is not valid HTTP'];
-  const body = JSON.stringify({ type: 'urn:mvledger:problem:client-error', title: STATUS_CODES[status], status, detail });
+  const body = JSON.stringify({
+    type: 'urn:mvledger:problem:client-error',
+    title: STATUS_CODES[status],
+    status,
+    detail,
+  });
   const headers = Object.entries(PROBLEM_SECURITY_HEADERS)
     .map(([name, value]) => `${name}: ${value}\r\n`)
     .join('');

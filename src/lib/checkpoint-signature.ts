@@ -28,7 +28,10 @@ export interface SignedCheckpoint extends CheckpointClaim {
 /** The exact bytes signed: a fixed prefix (so a signature means nothing in another context) and the claim as canonical JSON. */
 export function checkpointMessage(claim: CheckpointClaim): Buffer {
   const { organisationId, seq, headHash, signedAt } = claim;
-  return Buffer.from(`mvledger audit checkpoint v1\n${canonicalJson({ organisationId, seq, headHash, signedAt })}`, 'utf8');
+  return Buffer.from(
+    `mvledger audit checkpoint v1\n${canonicalJson({ organisationId, seq, headHash, signedAt })}`,
+    'utf8',
+  );
 }
 
 /** The id of a public key, as checkpoints name it. */
@@ -65,7 +68,11 @@ export function checkpointSigner(privateKeyPem: string): CheckpointSigner {
   return {
     keyId,
     publicKeyPem: publicKey.export({ type: 'spki', format: 'pem' }).toString(),
-    sign: (claim) => ({ ...claim, keyId, signature: sign(null, checkpointMessage(claim), privateKey).toString('base64') }),
+    sign: (claim) => ({
+      ...claim,
+      keyId,
+      signature: sign(null, checkpointMessage(claim), privateKey).toString('base64'),
+    }),
   };
 }
 
@@ -81,6 +88,7 @@ export function checkpointSignatureFault(checkpoint: SignedCheckpoint, publicKey
   if (checkpoint.keyId !== publicKeyId(publicKey))
     return `it was signed by key ${checkpoint.keyId}, not by this public key (${publicKeyId(publicKey)})`;
   const signature = Buffer.from(checkpoint.signature, 'base64');
-  if (signature.length !== 64 || !verify(null, checkpointMessage(checkpoint), publicKey, signature)) return 'its signature does not verify';
+  if (signature.length !== 64 || !verify(null, checkpointMessage(checkpoint), publicKey, signature))
+    return 'its signature does not verify';
   return null;
 }

@@ -57,7 +57,10 @@ export function assembleReport(input: ReportInput): SavingsReport {
   const meters = facilities.flatMap((f) => f.meters);
   const inRollup = meters.filter((m) => m.common !== null);
   const units = [
-    ...new Set([...meters.map((m) => canonicalEnergyUnit(m.unit)).filter((u): u is string => u !== undefined), ...COMMON_UNITS]),
+    ...new Set([
+      ...meters.map((m) => canonicalEnergyUnit(m.unit)).filter((u): u is string => u !== undefined),
+      ...COMMON_UNITS,
+    ]),
   ].sort();
 
   const portfolio = {
@@ -78,7 +81,14 @@ export function assembleReport(input: ReportInput): SavingsReport {
     facilities,
     baselines: meters.flatMap((m) =>
       m.baseline && m.missing === null
-        ? [{ meterId: m.id, baselineId: m.baseline.id, version: m.baseline.version, contentHash: m.baseline.contentHash }]
+        ? [
+            {
+              meterId: m.id,
+              baselineId: m.baseline.id,
+              version: m.baseline.version,
+              contentHash: m.baseline.contentHash,
+            },
+          ]
         : [],
     ),
     normalYears: input.normalYears,
@@ -115,18 +125,24 @@ function notices(facilities: readonly FacilityReport[]): string[] {
 export function facilityNotices(facility: FacilityReport): string[] {
   const out: string[] = [];
   if (facility.metersWithData === 0 && facility.meters.length > 0)
-    out.push(`${facility.name}: no data in this window: no meter has reporting figures; the facility is left out of the portfolio's sums`);
+    out.push(
+      `${facility.name}: no data in this window: no meter has reporting figures; the facility is left out of the portfolio's sums`,
+    );
   for (const meter of facility.meters) {
     const where = `${facility.name}, ${meter.name}`;
     if (meter.missing !== null) out.push(`${where}: no data in this window, left out of the sums: ${meter.missing}`);
     for (const note of meter.notes) out.push(`${where}: ${note}`);
     if (meter.commonNote !== null) out.push(`${where}: ${meter.commonNote}`);
-    if (meter.missing === null && meter.cost === null) out.push(`${where}: no contract rates: cost avoided is not stated`);
+    if (meter.missing === null && meter.cost === null)
+      out.push(`${where}: no contract rates: cost avoided is not stated`);
     for (const gap of meter.missingRates) {
-      if (meter.cost !== null) out.push(`${where}: no contract rate for ${gap.start}..${gap.end}: those periods have no cost avoided`);
+      if (meter.cost !== null)
+        out.push(`${where}: no contract rate for ${gap.start}..${gap.end}: those periods have no cost avoided`);
     }
     if (meter.excluded.length > 0)
-      out.push(`${where}: ${meter.excluded.length} reporting reading(s) left out for want of weather (listed in the meter's section)`);
+      out.push(
+        `${where}: ${meter.excluded.length} reporting reading(s) left out for want of weather (listed in the meter's section)`,
+      );
     if (meter.extrapolationShare > 0) {
       out.push(
         `${where}: ${(meter.extrapolationShare * 100).toFixed(1)}% of the model baseline comes from periods outside the baseline's temperature range (extrapolation)`,

@@ -49,7 +49,12 @@ type Column = (typeof CSV_COLUMNS)[number];
 export type CsvRecord = Partial<Record<Column, string | number | boolean | null>>;
 
 /** Money columns: written to the currency's minor unit (two decimals for USD, none for JPY, three for KWD). */
-const MONEY_COLUMNS: ReadonlySet<Column> = new Set<Column>(['cost_avoided', 'cost_uncertainty', 'cost_guaranteed', 'cost_difference']);
+const MONEY_COLUMNS: ReadonlySet<Column> = new Set<Column>([
+  'cost_avoided',
+  'cost_uncertainty',
+  'cost_guaranteed',
+  'cost_difference',
+]);
 
 /**
  * Decimals of a currency's minor unit, from ISO 4217 as ICU carries it
@@ -59,7 +64,8 @@ export function minorUnitDigits(currency: string): number {
   let digits = minorUnitsByCurrency.get(currency);
   if (digits === undefined) {
     try {
-      digits = new Intl.NumberFormat('en', { style: 'currency', currency }).resolvedOptions().maximumFractionDigits ?? 2;
+      digits =
+        new Intl.NumberFormat('en', { style: 'currency', currency }).resolvedOptions().maximumFractionDigits ?? 2;
     } catch {
       digits = 2;
     }
@@ -140,7 +146,8 @@ export const CSV_HEADER = `${CSV_COLUMNS.join(',')}\r\n`;
 export function csvLine(row: CsvRecord): string {
   return `${CSV_COLUMNS.map((column) => {
     const value = row[column];
-    if (MONEY_COLUMNS.has(column) && typeof value === 'number' && typeof row.currency === 'string') return csvMoney(value, row.currency);
+    if (MONEY_COLUMNS.has(column) && typeof value === 'number' && typeof row.currency === 'string')
+      return csvMoney(value, row.currency);
     return cell(value);
   }).join(',')}\r\n`;
 }
@@ -167,7 +174,10 @@ export function portfolioRows(
 
 /** The notice rows and the caution that end the table. */
 export function closingRows(notices: readonly string[], caution: string): CsvRecord[] {
-  return [...notices.map((notice): CsvRecord => ({ record: 'notice', note: notice })), { record: 'caution', note: caution }];
+  return [
+    ...notices.map((notice): CsvRecord => ({ record: 'notice', note: notice })),
+    { record: 'caution', note: caution },
+  ];
 }
 
 /** One facility's rows: its totals, its guarantees, then each meter's rows. */
@@ -175,7 +185,13 @@ export function facilityRows(facility: FacilityReport, w: { from: string; to: st
   const rows: CsvRecord[] = [];
   const f = { facility_id: facility.id, facility: facility.name };
   if (facility.metersWithData === 0 && facility.meters.length > 0)
-    rows.push({ record: 'facility', ...f, start: w.from, end: w.to, note: 'no data in this window (left out of the sums)' });
+    rows.push({
+      record: 'facility',
+      ...f,
+      start: w.from,
+      end: w.to,
+      note: 'no data in this window (left out of the sums)',
+    });
   else
     for (const unit of ['MMBtu', 'GJ'] as const)
       rows.push({ record: 'facility', ...f, ...totalRow(facility.totals[unit]), start: w.from, end: w.to });
@@ -313,7 +329,10 @@ function meterRows(f: CsvRecord, meter: MeterReport, w: { from: string; to: stri
     });
   }
   for (const a of meter.adjustments) {
-    const stated = a.uncertainty === null ? '' : ` (stated standard uncertainty of its total: ${csvNumber(a.uncertainty)} ${meter.unit})`;
+    const stated =
+      a.uncertainty === null
+        ? ''
+        : ` (stated standard uncertainty of its total: ${csvNumber(a.uncertainty)} ${meter.unit})`;
     rows.push({
       record: 'adjustment',
       ...m,

@@ -18,7 +18,11 @@ export interface ContractYearFigures {
   meters: readonly MeterReport[];
 }
 
-export function guaranteeStatus(contract: ContractSummary, figures: ContractYearFigures, rollup: Rollup = IN_QUADRATURE): GuaranteeStatus {
+export function guaranteeStatus(
+  contract: ContractSummary,
+  figures: ContractYearFigures,
+  rollup: Rollup = IN_QUADRATURE,
+): GuaranteeStatus {
   const guarantee = contract.guarantees.find((g) => g.year === figures.contractYear);
   const totals = sumCommonTotals(commonParts(figures.meters), rollup);
   const toUnit = (mmbtu: number) => convertEnergy(mmbtu, 'MMBtu', contract.energyUnit);
@@ -31,10 +35,14 @@ export function guaranteeStatus(contract: ContractSummary, figures: ContractYear
     notes.push(`energy measured without ${leftOut.join(', ')} (no standard energy factor)`);
   const priced = withFigures.filter((m) => m.cost?.currency === contract.currency);
   if (guarantee?.cost != null && contract.currency !== null) {
-    if (priced.length === 0) notes.push(`the cost guarantee cannot be measured: no meter has contract rates in ${contract.currency}`);
+    if (priced.length === 0)
+      notes.push(`the cost guarantee cannot be measured: no meter has contract rates in ${contract.currency}`);
     else if (priced.length < withFigures.length)
-      notes.push(`cost measured from ${priced.length} of ${withFigures.length} meters (the others have no rates in ${contract.currency})`);
-    if (cost && cost.periodsWithoutRate > 0) notes.push(`${cost.periodsWithoutRate} period(s) without a contract rate count no cost`);
+      notes.push(
+        `cost measured from ${priced.length} of ${withFigures.length} meters (the others have no rates in ${contract.currency})`,
+      );
+    if (cost && cost.periodsWithoutRate > 0)
+      notes.push(`${cost.periodsWithoutRate} period(s) without a contract rate count no cost`);
   }
 
   const energy =

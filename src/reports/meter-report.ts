@@ -15,7 +15,14 @@ import {
   type SavingsDocument,
 } from '../engine/index.js';
 import type { PeriodFills } from '../engine/index.js';
-import type { CostTotal, MeterReport, NormalisedSavings, ReportAdjustment, ReportPeriod, SignatureData } from './savings-report.js';
+import type {
+  CostTotal,
+  MeterReport,
+  NormalisedSavings,
+  ReportAdjustment,
+  ReportPeriod,
+  SignatureData,
+} from './savings-report.js';
 import { COMMON_UNITS, convertTotal, energyTotal } from './totals.js';
 
 export interface StoredAdjustment extends NonRoutineAdjustment {
@@ -39,7 +46,9 @@ export interface MeterReportInput {
 
 /** The more cautious of the model's two stated uncertainties (a formula that cannot be evaluated is passed over). */
 export function cautiousUncertainty(savings: SavingsDocument): number {
-  const values = [savings.totals.uncertainty.guideline14.absolute, savings.totals.uncertainty.exact.absolute].filter(Number.isFinite);
+  const values = [savings.totals.uncertainty.guideline14.absolute, savings.totals.uncertainty.exact.absolute].filter(
+    Number.isFinite,
+  );
   return values.length > 0 ? Math.max(...values) : Number.NaN;
 }
 
@@ -56,7 +65,10 @@ export function meterUncertainty(savings: SavingsDocument): number {
  * words: each override with the reason given at freeze, and a baseline that
  * does not cover a full cycle of seasons.
  */
-export function baselineNotes(baseline: MeterReport['baseline'], extrapolation: ReportingExtrapolation | null): string[] {
+export function baselineNotes(
+  baseline: MeterReport['baseline'],
+  extrapolation: ReportingExtrapolation | null,
+): string[] {
   if (baseline === null) return [];
   const notes: string[] = [];
   const { sufficiency, overrides } = baseline;
@@ -66,7 +78,9 @@ export function baselineNotes(baseline: MeterReport['baseline'], extrapolation: 
       `frozen with a short-baseline override, reason: “${overrides.shortBaseline.reason}”${sufficiency.sufficient ? '' : ` (the baseline does not cover a full cycle of seasons: ${short})`}`,
     );
   } else if (!sufficiency.sufficient) {
-    notes.push(`the baseline does not cover a full cycle of seasons (${short}); it was frozen before that was enforced`);
+    notes.push(
+      `the baseline does not cover a full cycle of seasons (${short}); it was frozen before that was enforced`,
+    );
   }
   if (overrides.extrapolation !== null) {
     const here =
@@ -78,7 +92,9 @@ export function baselineNotes(baseline: MeterReport['baseline'], extrapolation: 
     notes.push(`frozen with an extrapolation override, reason: “${overrides.extrapolation.reason}”${here}`);
   }
   for (const exclusion of baseline.exclusions ?? []) {
-    notes.push(`baseline reading ${exclusion.start}..${exclusion.end} left out of the fit by the engineer, reason: “${exclusion.reason}”`);
+    notes.push(
+      `baseline reading ${exclusion.start}..${exclusion.end} left out of the fit by the engineer, reason: “${exclusion.reason}”`,
+    );
   }
   return notes;
 }
@@ -88,7 +104,9 @@ export function meterReport(input: MeterReportInput): MeterReport {
   const missingRates: { start: string; end: string }[] = [];
   const periods: ReportPeriod[] = savings.periods.map((p) => {
     const priced =
-      rates.currency === null ? { rate: null, missing: [{ start: p.start, end: p.end }] } : periodRate(rates.entries, p.start, p.end);
+      rates.currency === null
+        ? { rate: null, missing: [{ start: p.start, end: p.end }] }
+        : periodRate(rates.entries, p.start, p.end);
     missingRates.push(...priced.missing);
     return { ...p, rate: priced.rate, costAvoided: priced.rate === null ? null : p.savings * priced.rate };
   });

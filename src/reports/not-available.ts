@@ -57,8 +57,14 @@ export function notAvailableNotices(
 /** The notices of one facility and its meters. */
 export function facilityNotAvailableNotices(facility: FacilityReport): string[] {
   const out: string[] = [];
-  for (const meter of facility.meters) out.push(...notice(`${facility.name}, ${meter.name}`, nonFinitePaths(meterFigures(meter))));
-  out.push(...notice(facility.name, nonFinitePaths({ totals: facility.totals, cost: facility.cost, guarantees: facility.guarantees })));
+  for (const meter of facility.meters)
+    out.push(...notice(`${facility.name}, ${meter.name}`, nonFinitePaths(meterFigures(meter))));
+  out.push(
+    ...notice(
+      facility.name,
+      nonFinitePaths({ totals: facility.totals, cost: facility.cost, guarantees: facility.guarantees }),
+    ),
+  );
   return out;
 }
 

@@ -266,7 +266,12 @@ export interface SavingsReport {
    * residuals within a weather station and across stations (null where no
    * two meters share enough months; then 0), and the pairs behind each.
    */
-  rollup: { withinStation: number | null; acrossStations: number | null; pairsWithinStation: number; pairsAcrossStations: number };
+  rollup: {
+    withinStation: number | null;
+    acrossStations: number | null;
+    pairsWithinStation: number;
+    pairsAcrossStations: number;
+  };
   method: {
     summary: string;
     readingsInWindow: string;

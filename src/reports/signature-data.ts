@@ -25,7 +25,8 @@ export function signatureData(model: SignatureModel, savings: SavingsDocument, u
     adjustment: p.adjustment,
   }));
   const series = signatureChartPoints(model.fit, model.baselinePeriods, reporting, model.temperatureUnit, unit);
-  const labelled = (points: typeof series.baseline) => points.map((p) => ({ temp: p.temp, usePerDay: p.usePerDay, label: p.label ?? '' }));
+  const labelled = (points: typeof series.baseline) =>
+    points.map((p) => ({ temp: p.temp, usePerDay: p.usePerDay, label: p.label ?? '' }));
   return {
     temperatureUnit: model.temperatureUnit,
     baseline: labelled(series.baseline),

@@ -28,7 +28,11 @@ export const COMMON_UNITS: readonly CommonEnergyUnit[] = ['MMBtu', 'GJ'];
 
 /** A total whose fraction saved is derived, never summed. */
 export function energyTotal(unit: string, figures: Omit<EnergyTotal, 'unit' | 'fractionSaved'>): EnergyTotal {
-  return { unit, ...figures, fractionSaved: figures.adjustedBaseline !== 0 ? figures.savings / figures.adjustedBaseline : null };
+  return {
+    unit,
+    ...figures,
+    fractionSaved: figures.adjustedBaseline !== 0 ? figures.savings / figures.adjustedBaseline : null,
+  };
 }
 
 /** The same total in another energy unit (every figure, the ± included, scales by the one factor). */
@@ -45,7 +49,11 @@ export function convertTotal(total: EnergyTotal, to: string): EnergyTotal {
 }
 
 /** Sum of meters' totals in one unit; the ± combined by the roll-up's correlation. */
-export function sumTotals(unit: string, parts: readonly StationTotal<EnergyTotal>[], rollup: Rollup = IN_QUADRATURE): EnergyTotal {
+export function sumTotals(
+  unit: string,
+  parts: readonly StationTotal<EnergyTotal>[],
+  rollup: Rollup = IN_QUADRATURE,
+): EnergyTotal {
   const sum = (pick: (t: EnergyTotal) => number) => parts.reduce((acc, p) => acc + pick(p.total), 0);
   return energyTotal(unit, {
     actual: sum((t) => t.actual),
@@ -87,7 +95,9 @@ export function sumCosts(parts: readonly StationTotal<CostTotal>[], rollup: Roll
 }
 
 /** Each meter's common-unit totals with its station (meters outside the roll-up left out). */
-export function commonParts(meters: readonly { common: Record<CommonEnergyUnit, EnergyTotal> | null; weatherStationId: string }[]) {
+export function commonParts(
+  meters: readonly { common: Record<CommonEnergyUnit, EnergyTotal> | null; weatherStationId: string }[],
+) {
   return meters.flatMap((m) => (m.common ? [{ total: m.common, station: m.weatherStationId }] : []));
 }
 

@@ -63,7 +63,10 @@ export function toAdjustment(row: AdjustmentRow): Adjustment {
     uncertainty: row.uncertainty,
     recordedAt: row.created_at,
     recordedBy: row.created_by,
-    withdrawn: row.withdrawn_at === null ? null : { at: row.withdrawn_at, by: row.withdrawn_by ?? '', reason: row.withdraw_reason ?? '' },
+    withdrawn:
+      row.withdrawn_at === null
+        ? null
+        : { at: row.withdrawn_at, by: row.withdrawn_by ?? '', reason: row.withdraw_reason ?? '' },
   };
 }
 
@@ -79,13 +82,19 @@ export function toEngineAdjustment(row: AdjustmentRow): NonRoutineAdjustment {
   };
 }
 
-export async function createAdjustment(ctx: ServiceContext, meterId: string, input: AdjustmentInput): Promise<Adjustment> {
+export async function createAdjustment(
+  ctx: ServiceContext,
+  meterId: string,
+  input: AdjustmentInput,
+): Promise<Adjustment> {
   if (!(input.end > input.start))
     throw new DomainError('invalid', 'end: must be after start', [{ field: 'end', message: 'must be after start' }]);
   if ((input.quantity === undefined) === (input.perDay === undefined)) {
-    throw new DomainError('invalid', 'quantity: give either quantity (a total over the days) or perDay, not both and not neither', [
-      { field: 'quantity', message: 'give quantity or perDay' },
-    ]);
+    throw new DomainError(
+      'invalid',
+      'quantity: give either quantity (a total over the days) or perDay, not both and not neither',
+      [{ field: 'quantity', message: 'give quantity or perDay' }],
+    );
   }
   const organisationId = ctx.principal.organisationId;
   return inTransaction(ctx, async (trx) => {
@@ -156,7 +165,11 @@ export async function createAdjustment(ctx: ServiceContext, meterId: string, inp
 }
 
 /** Withdraw an adjustment recorded in error: it stops counting in savings and reports; the row and the audit trail keep it. */
-export async function withdrawAdjustment(ctx: ServiceContext, id: string, input: { reason: string }): Promise<Adjustment> {
+export async function withdrawAdjustment(
+  ctx: ServiceContext,
+  id: string,
+  input: { reason: string },
+): Promise<Adjustment> {
   return inTransaction(ctx, async (trx) => {
     const row = await trx
       .selectFrom('adjustments')
@@ -165,12 +178,19 @@ export async function withdrawAdjustment(ctx: ServiceContext, id: string, input:
       .where('organisation_id', '=', ctx.principal.organisationId)
       .executeTakeFirst();
     if (!row) throw notFound('adjustment', id);
-    if (row.withdrawn_at !== null) throw new DomainError('conflict', `adjustment ${id} was already withdrawn on ${row.withdrawn_at}`);
+    if (row.withdrawn_at !== null)
+      throw new DomainError('conflict', `adjustment ${id} was already withdrawn on ${row.withdrawn_at}`);
     const update = { withdrawn_at: ctx.now, withdrawn_by: ctx.principal.keyId, withdraw_reason: input.reason };
     await trx.updateTable('adjustments').set(update).where('id', '=', id).execute();
     await bumpMeterVersions(trx, [row.meter_id]);
     const after = toAdjustment({ ...row, ...update });
-    await audit(trx, ctx, { action: 'withdraw', entityType: 'adjustment', entityId: id, before: toAdjustment(row), after });
+    await audit(trx, ctx, {
+      action: 'withdraw',
+      entityType: 'adjustment',
+      entityId: id,
+      before: toAdjustment(row),
+      after,
+    });
     return after;
   });
 }
@@ -187,7 +207,9 @@ export async function listAdjustments(
   let q = db.selectFrom('adjustments').selectAll().where('meter_id', '=', meter.id);
   if (after) {
     const [start, id] = after as [string, string];
-    q = q.where((eb) => eb.or([eb('period_start', '>', start), eb.and([eb('period_start', '=', start), eb('id', '>', id)])]));
+    q = q.where((eb) =>
+      eb.or([eb('period_start', '>', start), eb.and([eb('period_start', '=', start), eb('id', '>', id)])]),
+    );
   }
   const fetched = await q
     .orderBy('period_start')

@@ -16,7 +16,10 @@ import { oldestFirstPage, PAGE_SIZES, type PageInfo, type PageRequest } from './
 
 export type ApiKeyView = ReturnType<typeof publicKey>;
 
-export async function createApiKey(ctx: ServiceContext, input: { name: string; role: Role }): Promise<{ key: ApiKeyView; token: string }> {
+export async function createApiKey(
+  ctx: ServiceContext,
+  input: { name: string; role: Role },
+): Promise<{ key: ApiKeyView; token: string }> {
   return inTransaction(ctx, async (trx) => {
     const { row, token } = await insertApiKey(trx, {
       organisationId: ctx.principal.organisationId,
@@ -59,13 +62,21 @@ export async function revokeApiKey(ctx: ServiceContext, id: string): Promise<Api
       .executeTakeFirst();
     if (!row) throw notFound('API key', id);
     if (row.id === ctx.principal.keyId) {
-      throw new DomainError('conflict', `API key ${id} is the key making this request; revoke it with another admin key`, [
-        { field: 'id', message: 'is the key in use' },
-      ]);
+      throw new DomainError(
+        'conflict',
+        `API key ${id} is the key making this request; revoke it with another admin key`,
+        [{ field: 'id', message: 'is the key in use' }],
+      );
     }
     if (row.revoked_at !== null) return publicKey(row);
     const revoked = await markRevoked(trx, row, ctx.now);
-    await audit(trx, ctx, { action: 'revoke', entityType: 'api-key', entityId: row.id, before: publicKey(row), after: revoked });
+    await audit(trx, ctx, {
+      action: 'revoke',
+      entityType: 'api-key',
+      entityId: row.id,
+      before: publicKey(row),
+      after: revoked,
+    });
     return revoked;
   });
 }
@@ -89,8 +100,16 @@ export async function listKeysForOperator(db: Kysely<Database>, organisationId?:
     .selectAll('api_keys')
     .select('organisations.name as organisation_name');
   if (organisationId !== undefined) query = query.where('api_keys.organisation_id', '=', organisationId);
-  const rows = await query.orderBy('api_keys.organisation_id').orderBy('api_keys.created_at').orderBy('api_keys.id').execute();
-  return rows.map((row) => ({ ...publicKey(row), organisationId: row.organisation_id, organisationName: row.organisation_name }));
+  const rows = await query
+    .orderBy('api_keys.organisation_id')
+    .orderBy('api_keys.created_at')
+    .orderBy('api_keys.id')
+    .execute();
+  return rows.map((row) => ({
+    ...publicKey(row),
+    organisationId: row.organisation_id,
+    organisationName: row.organisation_name,
+  }));
 }
 
 export interface OperatorRevoke {
@@ -160,5 +179,9 @@ export async function describeCaller(db: Executor, principal: Principal): Promis
     .where('id', '=', principal.organisationId)
     .executeTakeFirst();
   if (!key || !organisation) throw notFound('api key', principal.keyId);
-  return { key: { id: key.id, name: key.name, role: key.role as Role }, permissions: [...ROLE_PERMISSIONS[principal.role]], organisation };
+  return {
+    key: { id: key.id, name: key.name, role: key.role as Role },
+    permissions: [...ROLE_PERMISSIONS[principal.role]],
+    organisation,
+  };
 }

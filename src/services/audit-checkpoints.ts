@@ -33,7 +33,10 @@ export async function signAuditHead(
   if (!head) return undefined;
   const last = await latestCheckpoint(db, organisationId, signer.keyId);
   if (last && last.seq >= head.seq) return last;
-  const checkpoint: StoredCheckpoint = { ...signer.sign({ organisationId, seq: head.seq, headHash: head.hash, signedAt }), reason };
+  const checkpoint: StoredCheckpoint = {
+    ...signer.sign({ organisationId, seq: head.seq, headHash: head.hash, signedAt }),
+    reason,
+  };
   await insertCheckpoint(db, checkpoint);
   return checkpoint;
 }

@@ -74,8 +74,18 @@ function apply(state: ExpectedState, row: AuditRow): void {
   const id = row.entity_id;
   switch (`${row.entity_type}:${row.action}`) {
     case 'meter:post-readings': {
-      for (const r of (after.created ?? []) as { start: string; end: string; quantity: number; estimated: boolean; cost: number | null }[])
-        state.readings.set(readingKey(id, r.start, r.end), { quantity: r.quantity, estimated: r.estimated ? 1 : 0, cost: r.cost });
+      for (const r of (after.created ?? []) as {
+        start: string;
+        end: string;
+        quantity: number;
+        estimated: boolean;
+        cost: number | null;
+      }[])
+        state.readings.set(readingKey(id, r.start, r.end), {
+          quantity: r.quantity,
+          estimated: r.estimated ? 1 : 0,
+          cost: r.cost,
+        });
       for (const r of (after.corrected ?? []) as { start: string; end: string; after: ReadingValues }[])
         state.readings.set(readingKey(id, r.start, r.end), { ...r.after, estimated: r.after.estimated ? 1 : 0 });
       return;
@@ -87,7 +97,12 @@ function apply(state: ExpectedState, row: AuditRow): void {
         { temp: number; tmin?: number | null; tmax?: number | null }
       >;
       for (const [date, v] of Object.entries(days ?? {}))
-        state.observations.set(dayKey(id, date), { temp: v.temp, tmin: v.tmin ?? null, tmax: v.tmax ?? null, fill: null });
+        state.observations.set(dayKey(id, date), {
+          temp: v.temp,
+          tmin: v.tmin ?? null,
+          tmax: v.tmax ?? null,
+          fill: null,
+        });
       return;
     }
     case 'weather-station:fill-weather-gaps': {
@@ -104,7 +119,10 @@ function apply(state: ExpectedState, row: AuditRow): void {
       return;
     }
     case 'meter:put-rates': {
-      state.rates.set(id, { currency: (after.currency as string | null) ?? null, rates: (after.rates ?? []) as RateValues[] });
+      state.rates.set(id, {
+        currency: (after.currency as string | null) ?? null,
+        rates: (after.rates ?? []) as RateValues[],
+      });
       return;
     }
     case 'facility:put-contract':
@@ -150,7 +168,8 @@ function compareTable<T>(
     const want = expected.get(key);
     const got = stored.get(key);
     if (want === undefined) out.push({ table, key, difference: 'stored, but no audit row wrote it' });
-    else if (got === undefined) out.push({ table, key, difference: 'written on the audit trail, but missing from the table' });
+    else if (got === undefined)
+      out.push({ table, key, difference: 'written on the audit trail, but missing from the table' });
     else {
       const difference = describe(want, got);
       if (difference !== null) out.push({ table, key, difference });
@@ -173,7 +192,8 @@ function fieldDifferences(want: Record<string, unknown>, got: Record<string, unk
   return parts.length === 0 ? null : parts.join('; ');
 }
 
-const wholeDifference = (want: string, got: string) => (want === got ? null : `stored ${got}; the audit trail says ${want}`);
+const wholeDifference = (want: string, got: string) =>
+  want === got ? null : `stored ${got}; the audit trail says ${want}`;
 
 function storedState(rows: OrganisationTableRows): ExpectedState {
   const rates = new Map<string, { currency: string | null; rates: RateValues[] }>();
@@ -190,7 +210,10 @@ function storedState(rows: OrganisationTableRows): ExpectedState {
       ]),
     ),
     observations: new Map(
-      rows.observations.map((o) => [dayKey(o.station_id, o.date), { temp: o.temp, tmin: o.tmin, tmax: o.tmax, fill: o.fill_method }]),
+      rows.observations.map((o) => [
+        dayKey(o.station_id, o.date),
+        { temp: o.temp, tmin: o.tmin, tmax: o.tmax, fill: o.fill_method },
+      ]),
     ),
     rates,
     contracts: new Map(rows.contracts.map((c) => [c.facility_id, canonicalJson(toContract(c))])),
@@ -230,7 +253,13 @@ export function compareStates(expected: ExpectedState, stored: ExpectedState): R
   const differences: StateDifference[] = [];
   const compared: Record<string, number> = {};
   compared.readings = compareTable('readings', expected.readings, stored.readings, fieldDifferences, differences);
-  compared.observations = compareTable('observations', expected.observations, stored.observations, fieldDifferences, differences);
+  compared.observations = compareTable(
+    'observations',
+    expected.observations,
+    stored.observations,
+    fieldDifferences,
+    differences,
+  );
   // A meter whose schedule was emptied has no rows: the trail's empty schedule is the same state.
   for (const [meterId, schedule] of expected.rates)
     if (schedule.rates.length === 0 && !stored.rates.has(meterId)) expected.rates.delete(meterId);
@@ -242,8 +271,20 @@ export function compareStates(expected: ExpectedState, stored: ExpectedState): R
     differences,
   );
   compared.contracts = compareTable('contracts', expected.contracts, stored.contracts, wholeDifference, differences);
-  compared['normal-years'] = compareTable('normal-years', expected.normalYears, stored.normalYears, fieldDifferences, differences);
-  compared.adjustments = compareTable('adjustments', expected.adjustments, stored.adjustments, wholeDifference, differences);
+  compared['normal-years'] = compareTable(
+    'normal-years',
+    expected.normalYears,
+    stored.normalYears,
+    fieldDifferences,
+    differences,
+  );
+  compared.adjustments = compareTable(
+    'adjustments',
+    expected.adjustments,
+    stored.adjustments,
+    wholeDifference,
+    differences,
+  );
   compared['api-keys'] = compareTable('api-keys', expected.apiKeys, stored.apiKeys, wholeDifference, differences);
   compared.variables = compareTable('variables', expected.variables, stored.variables, wholeDifference, differences);
   compared['variable-values'] = compareTable(

@@ -129,7 +129,11 @@ export interface AuditVerdict extends ChainVerdict {
  * "full", every result-bearing table against a replay of the trail. ok is
  * true only when all of them hold.
  */
-export async function verifyAudit(db: Executor, organisationId: string, depth: VerifyDepth = 'chain'): Promise<AuditVerdict> {
+export async function verifyAudit(
+  db: Executor,
+  organisationId: string,
+  depth: VerifyDepth = 'chain',
+): Promise<AuditVerdict> {
   const chain = await verifyAuditChain(db, organisationId);
   const baselines = await checkFrozenBaselines(db, organisationId);
   const replay = depth === 'full' ? await replayAuditTrail(db, organisationId) : undefined;

@@ -6,7 +6,14 @@
  * baseline was fitted on; every change is on the audit trail and gives the
  * facility's meters a new data version.
  */
-import { addDays, checkCalendar, dayTypeSeries, dayTypesOver, type FacilityCalendar, type VariableSeries } from '../engine/index.js';
+import {
+  addDays,
+  checkCalendar,
+  dayTypeSeries,
+  dayTypesOver,
+  type FacilityCalendar,
+  type VariableSeries,
+} from '../engine/index.js';
 import { fromStoredJson, toStoredJson } from '../store/baseline-content.js';
 import { bumpFacilityMeterVersions } from '../store/data-versions.js';
 import { DomainError, fieldErrors, MAX_LISTED_ERRORS } from '../domain/errors.js';
@@ -22,20 +29,37 @@ export interface StoredCalendar extends FacilityCalendar {
 
 /** The facility's calendar, or null when it has none. */
 export async function loadCalendar(db: Executor, facilityId: string): Promise<StoredCalendar | null> {
-  const row = await db.selectFrom('facility_calendars').selectAll().where('facility_id', '=', facilityId).executeTakeFirst();
+  const row = await db
+    .selectFrom('facility_calendars')
+    .selectAll()
+    .where('facility_id', '=', facilityId)
+    .executeTakeFirst();
   if (!row) return null;
-  return { facilityId, ...fromStoredJson<FacilityCalendar>(row.calendar_json), updatedAt: row.updated_at, updatedBy: row.updated_by };
+  return {
+    facilityId,
+    ...fromStoredJson<FacilityCalendar>(row.calendar_json),
+    updatedAt: row.updated_at,
+    updatedBy: row.updated_by,
+  };
 }
 
 export async function getCalendar(db: Executor, organisationId: string, facilityId: string): Promise<StoredCalendar> {
   await getFacilityRow(db, organisationId, facilityId);
   const calendar = await loadCalendar(db, facilityId);
-  if (!calendar) throw new DomainError('not-found', `facility ${facilityId} has no calendar (PUT /v1/facilities/${facilityId}/calendar)`);
+  if (!calendar)
+    throw new DomainError(
+      'not-found',
+      `facility ${facilityId} has no calendar (PUT /v1/facilities/${facilityId}/calendar)`,
+    );
   return calendar;
 }
 
 /** Replace the facility's calendar, all or nothing. */
-export async function putCalendar(ctx: ServiceContext, facilityId: string, input: FacilityCalendar): Promise<StoredCalendar> {
+export async function putCalendar(
+  ctx: ServiceContext,
+  facilityId: string,
+  input: FacilityCalendar,
+): Promise<StoredCalendar> {
   const calendar: FacilityCalendar = {
     dayTypes: [...input.dayTypes],
     weekly: [...input.weekly],
@@ -85,7 +109,12 @@ export async function putCalendar(ctx: ServiceContext, facilityId: string, input
     else await trx.insertInto('facility_calendars').values(row).execute();
     await bumpFacilityMeterVersions(trx, facilityId);
     const stored: StoredCalendar = { facilityId, ...calendar, updatedAt: ctx.now, updatedBy: ctx.principal.keyId };
-    const { facilityId: _f, updatedAt: _a, updatedBy: _b, ...beforeCalendar } = before ?? { facilityId, updatedAt: '', updatedBy: '' };
+    const {
+      facilityId: _f,
+      updatedAt: _a,
+      updatedBy: _b,
+      ...beforeCalendar
+    } = before ?? { facilityId, updatedAt: '', updatedBy: '' };
     await audit(trx, ctx, {
       action: before ? 'replace-calendar' : 'create-calendar',
       entityType: 'facility',

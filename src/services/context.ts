@@ -38,5 +38,10 @@ export function audit(
   ctx: ServiceContext,
   entry: Pick<AuditEntry, 'action' | 'entityType' | 'entityId' | 'before' | 'after'>,
 ): Promise<unknown> {
-  return appendAudit(trx, { ...entry, organisationId: ctx.principal.organisationId, actor: ctx.principal.keyId, at: ctx.now });
+  return appendAudit(trx, {
+    ...entry,
+    organisationId: ctx.principal.organisationId,
+    actor: ctx.principal.keyId,
+    at: ctx.now,
+  });
 }

@@ -106,12 +106,17 @@ function checkContract(input: ContractInput): { energyUnit: string; guarantees: 
   const guarantees: Guarantee[] = [];
   input.guarantees.forEach((g, index) => {
     if (g.year > input.years)
-      errors.push({ field: `guarantees[${index}].year`, message: `contract year ${g.year} is beyond the contract's ${input.years} years` });
-    if (seen.has(g.year)) errors.push({ field: `guarantees[${index}].year`, message: `contract year ${g.year} is guaranteed twice` });
+      errors.push({
+        field: `guarantees[${index}].year`,
+        message: `contract year ${g.year} is beyond the contract's ${input.years} years`,
+      });
+    if (seen.has(g.year))
+      errors.push({ field: `guarantees[${index}].year`, message: `contract year ${g.year} is guaranteed twice` });
     seen.add(g.year);
     const energy = g.energy ?? null;
     const cost = g.cost ?? null;
-    if (energy === null && cost === null) errors.push({ field: `guarantees[${index}]`, message: 'give energy, cost or both' });
+    if (energy === null && cost === null)
+      errors.push({ field: `guarantees[${index}]`, message: 'give energy, cost or both' });
     if (cost !== null && !input.currency)
       errors.push({ field: `guarantees[${index}].cost`, message: 'a cost guarantee needs the contract currency' });
     guarantees.push({ year: g.year, energy, cost });

@@ -19,7 +19,10 @@ export interface FrozenBaselinesVerdict {
 }
 
 /** Why a frozen baseline's content hash cannot be trusted, or null when it can. */
-function baselineFault(row: Parameters<typeof verifyBaselineContent>[0] & { id: string }, recordedHash: string | undefined): string | null {
+function baselineFault(
+  row: Parameters<typeof verifyBaselineContent>[0] & { id: string },
+  recordedHash: string | undefined,
+): string | null {
   if (recordedHash === undefined) return 'no freeze row on the audit trail records its content hash';
   if (!verifyBaselineContent(row)) {
     let computed = 'unreadable';
@@ -41,7 +44,9 @@ export async function checkFrozenBaselines(db: Executor, organisationId: string)
   const differences: StateDifference[] = [];
   for (const row of rows) {
     const freeze = freezes.get(row.id);
-    const recorded = freeze?.after_json ? (JSON.parse(freeze.after_json) as { contentHash?: string }).contentHash : undefined;
+    const recorded = freeze?.after_json
+      ? (JSON.parse(freeze.after_json) as { contentHash?: string }).contentHash
+      : undefined;
     const fault = baselineFault(row, recorded);
     if (fault !== null) differences.push({ table: 'baselines', key: `baseline ${row.id}`, difference: fault });
   }

@@ -46,7 +46,13 @@ export async function frozenWindowsForStation(db: Executor, stationId: string): 
   const rows = await db
     .selectFrom('baselines')
     .innerJoin('meters', 'meters.id', 'baselines.meter_id')
-    .select(['baselines.id', 'baselines.meter_id', 'baselines.status', 'baselines.period_start', 'baselines.period_end'])
+    .select([
+      'baselines.id',
+      'baselines.meter_id',
+      'baselines.status',
+      'baselines.period_start',
+      'baselines.period_end',
+    ])
     .where('meters.weather_station_id', '=', stationId)
     .where('baselines.status', 'in', PROTECTING_STATUSES)
     .orderBy('baselines.period_start')
@@ -55,8 +61,20 @@ export async function frozenWindowsForStation(db: Executor, stationId: string): 
   return rows.map(toWindow);
 }
 
-function toWindow(row: { id: string; meter_id: string; status: BaselineStatus; period_start: string; period_end: string }): FrozenWindow {
-  return { baselineId: row.id, meterId: row.meter_id, status: row.status, start: row.period_start, end: row.period_end };
+function toWindow(row: {
+  id: string;
+  meter_id: string;
+  status: BaselineStatus;
+  period_start: string;
+  period_end: string;
+}): FrozenWindow {
+  return {
+    baselineId: row.id,
+    meterId: row.meter_id,
+    status: row.status,
+    start: row.period_start,
+    end: row.period_end,
+  };
 }
 
 /** ISO dates compare as text, so [a, b) and [c, d) meet when a < d and c < b. */

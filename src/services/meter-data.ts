@@ -21,17 +21,30 @@ export interface ReadingWindow {
 
 /** The meter's readings in the window, in start order. */
 export async function loadReadings(db: Executor, meterId: string, window: ReadingWindow = {}): Promise<Reading[]> {
-  let query = db.selectFrom('readings').select(['period_start', 'period_end', 'quantity', 'estimated']).where('meter_id', '=', meterId);
+  let query = db
+    .selectFrom('readings')
+    .select(['period_start', 'period_end', 'quantity', 'estimated'])
+    .where('meter_id', '=', meterId);
   if (window.startOnOrAfter !== undefined) query = query.where('period_start', '>=', window.startOnOrAfter);
   if (window.endOnOrBefore !== undefined) query = query.where('period_end', '<=', window.endOnOrBefore);
   if (window.startBefore !== undefined) query = query.where('period_start', '<', window.startBefore);
   if (window.endAfter !== undefined) query = query.where('period_end', '>', window.endAfter);
   const rows = await query.orderBy('period_start').orderBy('period_end').execute();
-  return rows.map((row) => ({ start: row.period_start, end: row.period_end, quantity: row.quantity, estimated: row.estimated === 1 }));
+  return rows.map((row) => ({
+    start: row.period_start,
+    end: row.period_end,
+    quantity: row.quantity,
+    estimated: row.estimated === 1,
+  }));
 }
 
 /** Daily mean temperatures of the station on [from, to), in date order. */
-export async function loadDailyWeather(db: Executor, stationId: string, from: string, to: string): Promise<DailyTemperature[]> {
+export async function loadDailyWeather(
+  db: Executor,
+  stationId: string,
+  from: string,
+  to: string,
+): Promise<DailyTemperature[]> {
   const rows = await db
     .selectFrom('weather_observations')
     .select(['date', 'temp'])
@@ -44,7 +57,11 @@ export async function loadDailyWeather(db: Executor, stationId: string, from: st
 }
 
 /** The daily weather covering every day of `readings` (empty when there are none). */
-export async function loadWeatherFor(db: Executor, stationId: string, readings: readonly Reading[]): Promise<DailyTemperature[]> {
+export async function loadWeatherFor(
+  db: Executor,
+  stationId: string,
+  readings: readonly Reading[],
+): Promise<DailyTemperature[]> {
   if (readings.length === 0) return [];
   let from = readings[0]!.start;
   let to = readings[0]!.end;

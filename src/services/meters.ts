@@ -44,9 +44,11 @@ export async function createMeter(
       .where('organisation_id', '=', organisationId)
       .executeTakeFirst();
     if (!station) {
-      throw new DomainError('invalid', `weatherStationId: no weather station ${input.weatherStationId} in this organisation`, [
-        { field: 'weatherStationId', message: 'no such weather station' },
-      ]);
+      throw new DomainError(
+        'invalid',
+        `weatherStationId: no weather station ${input.weatherStationId} in this organisation`,
+        [{ field: 'weatherStationId', message: 'no such weather station' }],
+      );
     }
     const row: MeterRow = {
       id: newId('mtr'),

@@ -5,14 +5,25 @@
  * to it. Replaced whole by each PUT; its content hash lets a report name the
  * exact year it used.
  */
-import { checkNormalYear, NORMAL_YEAR_DAYS, normalYearFromHistory, ShortHistoryError, type TemperatureUnit } from '../engine/index.js';
+import {
+  checkNormalYear,
+  NORMAL_YEAR_DAYS,
+  normalYearFromHistory,
+  ShortHistoryError,
+  type TemperatureUnit,
+} from '../engine/index.js';
 import { canonicalJson, sha256Hex } from '../lib/canonical-json.js';
 import { DomainError, notFound, fieldErrors, MAX_LISTED_ERRORS } from '../domain/errors.js';
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
 import { getStationRow } from './weather-stations.js';
 import type { RecordLocator } from './readings.js';
 import { bumpStationMeterVersions } from '../store/data-versions.js';
-import { ArchiveFormatError, publishedNormalsSource, readDailyNormalsCsv, type NormalsFormat } from '../station-archives/index.js';
+import {
+  ArchiveFormatError,
+  publishedNormalsSource,
+  readDailyNormalsCsv,
+  type NormalsFormat,
+} from '../station-archives/index.js';
 
 export interface NormalYear {
   stationId: string;
@@ -39,7 +50,10 @@ export async function putNormalYear(
     const station = await getStationRow(trx, organisationId, stationId);
     const problems = checkNormalYear(input.days, station.temperature_unit);
     if (problems.length > 0) {
-      const errors = problems.map((p) => ({ field: p.index >= 0 ? locate(p.index, p.field) : p.field, message: p.message }));
+      const errors = problems.map((p) => ({
+        field: p.index >= 0 ? locate(p.index, p.field) : p.field,
+        message: p.message,
+      }));
       throw fieldErrors('invalid', errors, MAX_LISTED_ERRORS);
     }
     const byDay = new Map(input.days.map((d) => [d.day, d.temp]));
@@ -60,7 +74,9 @@ export async function normalYearFromStationHistory(
   input: { fromYear: number; toYear: number; windowDays?: number },
 ): Promise<NormalYear> {
   if (input.toYear < input.fromYear) {
-    throw new DomainError('invalid', 'toYear: must not be before fromYear', [{ field: 'toYear', message: 'before fromYear' }]);
+    throw new DomainError('invalid', 'toYear: must not be before fromYear', [
+      { field: 'toYear', message: 'before fromYear' },
+    ]);
   }
   return inTransaction(ctx, async (trx) => {
     const station = await getStationRow(trx, ctx.principal.organisationId, stationId);
@@ -127,11 +143,16 @@ export async function normalYearFromPublishedNormals(
       });
     } catch (error) {
       if (!(error instanceof ArchiveFormatError)) throw error;
-      throw new DomainError('invalid', `${input.format} file, ${error.message}`, [{ field: error.place, message: error.detail }]);
+      throw new DomainError('invalid', `${input.format} file, ${error.message}`, [
+        { field: error.place, message: error.detail },
+      ]);
     }
     const problems = checkNormalYear(year.days, station.temperature_unit);
     if (problems.length > 0) {
-      const errors = problems.map((p) => ({ field: p.index >= 0 ? `day ${year.days[p.index]!.day}` : p.field, message: p.message }));
+      const errors = problems.map((p) => ({
+        field: p.index >= 0 ? `day ${year.days[p.index]!.day}` : p.field,
+        message: p.message,
+      }));
       throw fieldErrors('invalid', errors, MAX_LISTED_ERRORS);
     }
     const source = publishedNormalsSource(year, station.temperature_unit);

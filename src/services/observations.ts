@@ -122,7 +122,13 @@ export async function writeObservations(
       fill_note: null,
     })),
   );
-  const result: PutObservationsResult = { stationId, received: days.length, created, updated: writes.length - created, unchanged };
+  const result: PutObservationsResult = {
+    stationId,
+    received: days.length,
+    created,
+    updated: writes.length - created,
+    unchanged,
+  };
   // Nothing changed, nothing written: no audit row.
   if (writes.length > 0) {
     const after: Record<string, AuditedValues> = {};
@@ -143,9 +149,15 @@ export async function writeObservations(
  * tmin ≤ tmax, plausible values, real and unrepeated dates. Returns the days
  * with their means.
  */
-export function checkObservations(records: readonly ObservationInput[], unit: TemperatureUnit, locate: RecordLocator): Observation[] {
+export function checkObservations(
+  records: readonly ObservationInput[],
+  unit: TemperatureUnit,
+  locate: RecordLocator,
+): Observation[] {
   if (records.length === 0) {
-    throw new DomainError('invalid', 'observations: at least one observation is needed', [{ field: 'observations', message: 'empty' }]);
+    throw new DomainError('invalid', 'observations: at least one observation is needed', [
+      { field: 'observations', message: 'empty' },
+    ]);
   }
   if (records.length > MAX_RECORDS_PER_BATCH) {
     throw new DomainError(
@@ -166,12 +178,14 @@ export function checkObservations(records: readonly ObservationInput[], unit: Te
   records.forEach((record, index) => {
     const { date, temp, tmin, tmax } = record;
     if (temp !== undefined) {
-      if (tmin !== undefined || tmax !== undefined) problem(index, 'temp', 'give either temp or tmin and tmax, not both');
+      if (tmin !== undefined || tmax !== undefined)
+        problem(index, 'temp', 'give either temp or tmin and tmax, not both');
       givenAsMean.add(index);
       days.push({ date, temp, tmin: null, tmax: null });
       return;
     }
-    if (tmin === undefined && tmax === undefined) problem(index, 'temp', 'a temperature is needed: temp, or tmin and tmax');
+    if (tmin === undefined && tmax === undefined)
+      problem(index, 'temp', 'a temperature is needed: temp, or tmin and tmax');
     else if (tmin === undefined) problem(index, 'tmin', 'tmin is needed with tmax');
     else if (tmax === undefined) problem(index, 'tmax', 'tmax is needed with tmin');
     else {
@@ -199,7 +213,11 @@ export function checkObservations(records: readonly ObservationInput[], unit: Te
   return days;
 }
 
-async function storedBetween(trx: Tx, stationId: string, days: readonly Observation[]): Promise<Map<string, StoredObservation>> {
+async function storedBetween(
+  trx: Tx,
+  stationId: string,
+  days: readonly Observation[],
+): Promise<Map<string, StoredObservation>> {
   let first = days[0]!.date;
   let last = first;
   for (const day of days) {
@@ -289,6 +307,10 @@ export async function listObservations(
     .limit(request.limit + 1)
     .execute();
   const { rows, page } = pageOf(fetched, request, 'observations', (row) => [row.date]);
-  const observations = rows.map(({ fill_method, fill_note, ...day }) => ({ ...day, filled: fill_method, fillNote: fill_note }));
+  const observations = rows.map(({ fill_method, fill_note, ...day }) => ({
+    ...day,
+    filled: fill_method,
+    fillNote: fill_note,
+  }));
   return { stationId, temperatureUnit: station.temperature_unit, ...page, observations };
 }

@@ -13,16 +13,28 @@ import { insertApiKey, publicKey } from '../store/api-keys.js';
 
 type NewKeyInput = { organisationId: string; name: string; role: Role; at: string; actor?: string; token?: string };
 
-export async function createOrganisation(db: Kysely<Database>, name: string, at: string): Promise<{ id: string; name: string }> {
+export async function createOrganisation(
+  db: Kysely<Database>,
+  name: string,
+  at: string,
+): Promise<{ id: string; name: string }> {
   const id = newId('org');
   return writeTransaction(db, id, (trx) => insertOrganisation(trx, id, name, at));
 }
 
-export async function createKey(db: Kysely<Database>, input: NewKeyInput): Promise<{ token: string; key: ReturnType<typeof publicKey> }> {
+export async function createKey(
+  db: Kysely<Database>,
+  input: NewKeyInput,
+): Promise<{ token: string; key: ReturnType<typeof publicKey> }> {
   return writeTransaction(db, input.organisationId, (trx) => insertKey(trx, input));
 }
 
-async function insertOrganisation(trx: Transaction<Database>, id: string, name: string, at: string): Promise<{ id: string; name: string }> {
+async function insertOrganisation(
+  trx: Transaction<Database>,
+  id: string,
+  name: string,
+  at: string,
+): Promise<{ id: string; name: string }> {
   await trx.insertInto('organisations').values({ id, name, created_at: at }).execute();
   await appendAudit(trx, {
     organisationId: id,
@@ -36,7 +48,10 @@ async function insertOrganisation(trx: Transaction<Database>, id: string, name: 
   return { id, name };
 }
 
-async function insertKey(trx: Transaction<Database>, input: NewKeyInput): Promise<{ token: string; key: ReturnType<typeof publicKey> }> {
+async function insertKey(
+  trx: Transaction<Database>,
+  input: NewKeyInput,
+): Promise<{ token: string; key: ReturnType<typeof publicKey> }> {
   const { row, token } = await insertApiKey(trx, input);
   const key = publicKey(row);
   await appendAudit(trx, {

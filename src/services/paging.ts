@@ -50,11 +50,15 @@ export function decodeCursor(list: string, cursor: string | undefined, shape: st
     Array.isArray(parsed) &&
     parsed.length === shape.length + 1 &&
     parsed[0] === list &&
-    [...shape].every((kind, i) => (kind === 'n' ? Number.isSafeInteger(parsed[i + 1]) : typeof parsed[i + 1] === 'string'));
+    [...shape].every((kind, i) =>
+      kind === 'n' ? Number.isSafeInteger(parsed[i + 1]) : typeof parsed[i + 1] === 'string',
+    );
   if (!valid) {
-    throw new DomainError('invalid', `query.cursor: not a cursor of this list; pass the nextCursor of the previous page unchanged`, [
-      { field: 'query.cursor', message: 'not a cursor of this list' },
-    ]);
+    throw new DomainError(
+      'invalid',
+      `query.cursor: not a cursor of this list; pass the nextCursor of the previous page unchanged`,
+      [{ field: 'query.cursor', message: 'not a cursor of this list' }],
+    );
   }
   return (parsed as unknown[]).slice(1) as CursorKey;
 }
@@ -79,7 +83,10 @@ export function pageOf<T>(
  * The keyset condition for lists in (created_at, id) order: rows after the
  * cursor's key, or every row when there is no cursor.
  */
-export function afterCreated<EB extends ExpressionBuilder<any, any>>(eb: EB, after: CursorKey | undefined): Expression<SqlBool> {
+export function afterCreated<EB extends ExpressionBuilder<any, any>>(
+  eb: EB,
+  after: CursorKey | undefined,
+): Expression<SqlBool> {
   if (!after) return eb.lit(true);
   const [createdAt, id] = after as [string, string];
   return eb.or([eb('created_at', '>', createdAt), eb.and([eb('created_at', '=', createdAt), eb('id', '>', id)])]);

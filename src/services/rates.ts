@@ -31,7 +31,12 @@ export async function putRates(
   meterId: string,
   input: { currency: string; rates: readonly RateInput[] },
 ): Promise<RateSchedule> {
-  const rates: RateEntry[] = input.rates.map((r) => ({ from: r.from, to: r.to ?? null, price: r.price, escalation: r.escalation ?? 0 }));
+  const rates: RateEntry[] = input.rates.map((r) => ({
+    from: r.from,
+    to: r.to ?? null,
+    price: r.price,
+    escalation: r.escalation ?? 0,
+  }));
   const problems = [...checkRateSchedule(rates), ...checkRateBounds(rates)].sort((a, b) => a.index - b.index);
   if (problems.length > 0) {
     const errors = problems.map((p) => ({ field: `rates[${p.index}].${p.field}`, message: p.message }));
@@ -59,7 +64,12 @@ export async function putRates(
         )
         .execute();
     }
-    const after: RateSchedule = { meterId: meter.id, unit: meter.unit, currency: rates.length > 0 ? input.currency : null, rates };
+    const after: RateSchedule = {
+      meterId: meter.id,
+      unit: meter.unit,
+      currency: rates.length > 0 ? input.currency : null,
+      rates,
+    };
     await audit(trx, ctx, {
       action: 'put-rates',
       entityType: 'meter',
@@ -77,7 +87,12 @@ export async function getRates(db: Executor, organisationId: string, meterId: st
 }
 
 export async function loadSchedule(db: Executor, meterId: string, unit: string): Promise<RateSchedule> {
-  const rows = await db.selectFrom('rates').selectAll().where('meter_id', '=', meterId).orderBy('effective_from').execute();
+  const rows = await db
+    .selectFrom('rates')
+    .selectAll()
+    .where('meter_id', '=', meterId)
+    .orderBy('effective_from')
+    .execute();
   return scheduleOfRows(meterId, unit, rows);
 }
 
@@ -85,12 +100,23 @@ export async function loadSchedule(db: Executor, meterId: string, unit: string):
 export function scheduleOfRows(
   meterId: string,
   unit: string,
-  rows: readonly { effective_from: string; effective_to: string | null; price: number; escalation: number; currency: string }[],
+  rows: readonly {
+    effective_from: string;
+    effective_to: string | null;
+    price: number;
+    escalation: number;
+    currency: string;
+  }[],
 ): RateSchedule {
   return {
     meterId,
     unit,
     currency: rows[0]?.currency ?? null,
-    rates: rows.map((row) => ({ from: row.effective_from, to: row.effective_to, price: row.price, escalation: row.escalation })),
+    rates: rows.map((row) => ({
+      from: row.effective_from,
+      to: row.effective_to,
+      price: row.price,
+      escalation: row.escalation,
+    })),
   };
 }

@@ -96,7 +96,13 @@ export async function batchContacts(
       contacts.stored.set(index, list);
     } else {
       const list = contacts.frozen.get(index) ?? [];
-      list.push({ baselineId: row.baseline_id!, meterId, status: row.status!, start: row.period_start, end: row.period_end });
+      list.push({
+        baselineId: row.baseline_id!,
+        meterId,
+        status: row.status!,
+        start: row.period_start,
+        end: row.period_end,
+      });
       contacts.frozen.set(index, list);
     }
   }
@@ -122,7 +128,12 @@ function columns(readings: readonly BulkReading[]) {
 }
 
 /** Insert new readings in one statement. */
-export async function insertReadings(trx: Tx, meterId: string, readings: readonly BulkReading[], now: string): Promise<void> {
+export async function insertReadings(
+  trx: Tx,
+  meterId: string,
+  readings: readonly BulkReading[],
+  now: string,
+): Promise<void> {
   if (readings.length === 0) return;
   const c = columns(readings);
   await sql`
@@ -134,7 +145,12 @@ export async function insertReadings(trx: Tx, meterId: string, readings: readonl
 }
 
 /** Write corrected values of stored readings (matched on the natural key) in one statement. */
-export async function correctReadings(trx: Tx, meterId: string, readings: readonly BulkReading[], now: string): Promise<void> {
+export async function correctReadings(
+  trx: Tx,
+  meterId: string,
+  readings: readonly BulkReading[],
+  now: string,
+): Promise<void> {
   if (readings.length === 0) return;
   const c = columns(readings);
   await sql`

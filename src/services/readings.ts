@@ -11,7 +11,12 @@ import { DomainError, type FieldError, fieldErrors, MAX_LISTED_ERRORS, summarise
 import { MAX_RECORDS_PER_BATCH } from '../domain/limits.js';
 import { audit, inTransaction, type Executor, type ServiceContext, type Tx } from './context.js';
 import { getMeterRow } from './meters.js';
-import { assertOutsideFrozenWindows, frozenWindowsForMeter, PROTECTING_STATUSES, type FrozenWindow } from './frozen-windows.js';
+import {
+  assertOutsideFrozenWindows,
+  frozenWindowsForMeter,
+  PROTECTING_STATUSES,
+  type FrozenWindow,
+} from './frozen-windows.js';
 import { batchContacts, correctReadings, insertReadings } from './readings-postgres.js';
 import { bumpMeterVersions } from '../store/data-versions.js';
 import { decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
@@ -102,13 +107,23 @@ export async function postReadings(
       windows = windowsTouched(contacts.frozen, classified);
     } else {
       const stored = await storedAround(trx, meterId, readings);
-      classified = classify(readings, (_, reading) => overlapping(stored, reading.start, reading.end), ctx.now, meterId, locate);
+      classified = classify(
+        readings,
+        (_, reading) => overlapping(stored, reading.start, reading.end),
+        ctx.now,
+        meterId,
+        locate,
+      );
       windows = await frozenWindowsForMeter(trx, meterId);
     }
 
     const writes = [
       ...classified.created.map(({ index, row }) => ({ index, start: row.period_start, end: row.period_end })),
-      ...classified.corrected.map(({ index, before }) => ({ index, start: before.period_start, end: before.period_end })),
+      ...classified.corrected.map(({ index, before }) => ({
+        index,
+        start: before.period_start,
+        end: before.period_end,
+      })),
     ];
     assertOutsideFrozenWindows(windows, writes, (write) => locate(write.index), 'this batch');
     if (classified.corrected.length > 0 && !reason) {
@@ -139,7 +154,11 @@ export async function postReadings(
       await correctReadings(
         trx,
         meterId,
-        classified.corrected.map(({ before, after }) => ({ start: before.period_start, end: before.period_end, ...after })),
+        classified.corrected.map(({ before, after }) => ({
+          start: before.period_start,
+          end: before.period_end,
+          ...after,
+        })),
         ctx.now,
       );
     } else {
@@ -200,7 +219,9 @@ export async function postReadings(
 /** Field checks and in-batch duplicates and overlaps, by the engine's rules, plus cost (finite, not negative, within its bound per day). */
 function checkBatch(readings: readonly ReadingInput[], locate: RecordLocator): void {
   if (readings.length === 0) {
-    throw new DomainError('invalid', 'readings: at least one reading is needed', [{ field: 'readings', message: 'empty' }]);
+    throw new DomainError('invalid', 'readings: at least one reading is needed', [
+      { field: 'readings', message: 'empty' },
+    ]);
   }
   if (readings.length > MAX_RECORDS_PER_BATCH) {
     throw new DomainError(
@@ -349,7 +370,9 @@ function windowsTouched(frozen: ReadonlyMap<number, readonly FrozenWindow[]>, cl
   for (const { index } of [...classified.created, ...classified.corrected]) {
     for (const window of frozen.get(index) ?? []) byId.set(window.baselineId, window);
   }
-  return [...byId.values()].sort((a, b) => (a.start < b.start ? -1 : a.start > b.start ? 1 : a.baselineId < b.baselineId ? -1 : 1));
+  return [...byId.values()].sort((a, b) =>
+    a.start < b.start ? -1 : a.start > b.start ? 1 : a.baselineId < b.baselineId ? -1 : 1,
+  );
 }
 
 /** Stored periods meeting [start, end): a binary search for the first that ends after start, then a short walk. */
@@ -406,12 +429,17 @@ export async function listReadings(
   const request = { limit: query.limit ?? PAGE_SIZES.series.default, cursor: query.cursor };
   const after = decodeCursor('readings', request.cursor, 'ss');
   const meter = await getMeterRow(db, organisationId, meterId);
-  let q = db.selectFrom('readings').select(['period_start', 'period_end', 'quantity', 'estimated', 'cost']).where('meter_id', '=', meterId);
+  let q = db
+    .selectFrom('readings')
+    .select(['period_start', 'period_end', 'quantity', 'estimated', 'cost'])
+    .where('meter_id', '=', meterId);
   if (query.to !== undefined) q = q.where('period_start', '<', query.to);
   if (query.from !== undefined) q = q.where('period_end', '>', query.from);
   if (after) {
     const [start, end] = after as [string, string];
-    q = q.where((eb) => eb.or([eb('period_start', '>', start), eb.and([eb('period_start', '=', start), eb('period_end', '>', end)])]));
+    q = q.where((eb) =>
+      eb.or([eb('period_start', '>', start), eb.and([eb('period_start', '=', start), eb('period_end', '>', end)])]),
+    );
   }
   const fetched = await q
     .orderBy('period_start')

@@ -46,7 +46,15 @@ import {
   type EnergyTotal,
   type SavingsReport,
 } from '../reports/savings-report.js';
-import { COMMON_UNITS, commonParts, costParts, sumCommonTotals, sumCosts, type Rollup, type StationTotal } from '../reports/totals.js';
+import {
+  COMMON_UNITS,
+  commonParts,
+  costParts,
+  sumCommonTotals,
+  sumCosts,
+  type Rollup,
+  type StationTotal,
+} from '../reports/totals.js';
 import { nonFiniteToNull } from '../lib/non-finite.js';
 import { readSnapshotOnce } from '../store/transactions.js';
 import type { BaselineRow, Database, FillMethod, MeterRow } from '../store/schema.js';
@@ -90,7 +98,11 @@ export interface StreamedReportSummary {
  * leave every meter without figures: the streamed report then says so per
  * meter, as notices.)
  */
-export async function checkStreamedReport(db: Kysely<Database>, organisationId: string, query: ReportQuery): Promise<void> {
+export async function checkStreamedReport(
+  db: Kysely<Database>,
+  organisationId: string,
+  query: ReportQuery,
+): Promise<void> {
   const frame = await reportFrame(db, organisationId, query);
   let probe = db
     .selectFrom('readings')
@@ -228,7 +240,12 @@ class RollupParts {
       const unit = canonicalEnergyUnit(m.unit);
       if (unit !== undefined) this.units.add(unit);
       if (m.baseline && m.missing === null)
-        this.baselines.push({ meterId: m.id, baselineId: m.baseline.id, version: m.baseline.version, contentHash: m.baseline.contentHash });
+        this.baselines.push({
+          meterId: m.id,
+          baselineId: m.baseline.id,
+          version: m.baseline.version,
+          contentHash: m.baseline.contentHash,
+        });
     }
     this.notices.push(...facilityNotices(facility));
     this.notAvailable.push(...facilityNotAvailableNotices(facility));
@@ -370,7 +387,9 @@ class CsvReportWriter {
     const rows = [...portfolioRows(end.portfolio, this.frame.window), ...closingRows(end.notices, REPORT_CAUTION)];
     await this.out.write(rows.map(csvLine).join(''));
     const digest = this.out.digest();
-    await this.out.writeUnhashed(csvLine({ record: 'digest', note: `content hash ${digest}: SHA-256 of every byte before this row` }));
+    await this.out.writeUnhashed(
+      csvLine({ record: 'digest', note: `content hash ${digest}: SHA-256 of every byte before this row` }),
+    );
   }
 }
 
@@ -386,7 +405,10 @@ function chunk<T>(items: readonly T[], size: number): T[][] {
 type FacilityRow = ReportFrame['facilityRows'][number];
 
 /** The chunk's facilities with their meters, each in the report's order (created_at, id). */
-async function metersOf(db: Executor, facilities: readonly FacilityRow[]): Promise<{ facility: FacilityRow; meters: MeterRow[] }[]> {
+async function metersOf(
+  db: Executor,
+  facilities: readonly FacilityRow[],
+): Promise<{ facility: FacilityRow; meters: MeterRow[] }[]> {
   const rows =
     facilities.length === 0
       ? []
@@ -406,7 +428,10 @@ async function metersOf(db: Executor, facilities: readonly FacilityRow[]): Promi
   return facilities.map((facility) => ({ facility, meters: byFacility.get(facility.id)! }));
 }
 
-type BaselineSummaryRow = Pick<BaselineRow, 'id' | 'version' | 'content_hash' | 'period_start' | 'period_end' | 'temperature_form'>;
+type BaselineSummaryRow = Pick<
+  BaselineRow,
+  'id' | 'version' | 'content_hash' | 'period_start' | 'period_end' | 'temperature_form'
+>;
 
 /** Each meter's frozen baseline and its model; the stored documents are read only for models not parsed lately. */
 async function frozenBaselines(
@@ -447,7 +472,10 @@ async function frozenBaselines(
   return out;
 }
 
-async function ratesOf(db: Executor, meters: readonly MeterRow[]): Promise<Map<string, ReturnType<typeof scheduleOfRows>>> {
+async function ratesOf(
+  db: Executor,
+  meters: readonly MeterRow[],
+): Promise<Map<string, ReturnType<typeof scheduleOfRows>>> {
   const out = new Map<string, ReturnType<typeof scheduleOfRows>>();
   if (meters.length === 0) return out;
   const rows = await db
@@ -489,7 +517,10 @@ async function adjustmentsOf(db: Executor, meters: readonly MeterRow[]) {
 }
 
 interface StationData {
-  byId: Map<string, { unit: TemperatureUnit; name: string; normal: { temps_json: string; content_hash: string; source: string } | null }>;
+  byId: Map<
+    string,
+    { unit: TemperatureUnit; name: string; normal: { temps_json: string; content_hash: string; source: string } | null }
+  >;
   weather: StationWeather;
   /** Each station's filled days (date → method), read once for the whole report: they are few. */
   filled: Map<string, Map<string, FillMethod>>;
@@ -502,7 +533,8 @@ async function stationData(db: Executor, organisationId: string): Promise<Statio
     .where('organisation_id', '=', organisationId)
     .execute();
   const ids = stations.map((s) => s.id);
-  const normals = ids.length === 0 ? [] : await db.selectFrom('normal_years').selectAll().where('station_id', 'in', ids).execute();
+  const normals =
+    ids.length === 0 ? [] : await db.selectFrom('normal_years').selectAll().where('station_id', 'in', ids).execute();
   const normalById = new Map(normals.map((n) => [n.station_id, n]));
   const filled = new Map<string, Map<string, FillMethod>>();
   if (ids.length > 0) {
@@ -519,7 +551,9 @@ async function stationData(db: Executor, organisationId: string): Promise<Statio
     }
   }
   return {
-    byId: new Map(stations.map((s) => [s.id, { unit: s.temperature_unit, name: s.name, normal: normalById.get(s.id) ?? null }])),
+    byId: new Map(
+      stations.map((s) => [s.id, { unit: s.temperature_unit, name: s.name, normal: normalById.get(s.id) ?? null }]),
+    ),
     weather: new StationWeather(db),
     filled,
   };
@@ -564,7 +598,12 @@ async function chunkReads(
       .orderBy('period_end')
       .execute();
     for (const row of rows) {
-      const reading = { start: row.period_start, end: row.period_end, quantity: row.quantity, estimated: row.estimated === 1 };
+      const reading = {
+        start: row.period_start,
+        end: row.period_end,
+        quantity: row.quantity,
+        estimated: row.estimated === 1,
+      };
       const list = byMeter.get(row.meter_id);
       if (list) list.push(reading);
       else byMeter.set(row.meter_id, [reading]);
@@ -573,7 +612,10 @@ async function chunkReads(
   return {
     readings: async (meterId: string, window: ReadingWindow) => {
       const covered =
-        window.endAfter !== undefined && window.endAfter >= from && window.startBefore !== undefined && window.startBefore <= to;
+        window.endAfter !== undefined &&
+        window.endAfter >= from &&
+        window.startBefore !== undefined &&
+        window.startBefore <= to;
       if (!covered) return loadReadings(db, meterId, window);
       return (byMeter.get(meterId) ?? []).filter(
         (r) =>
@@ -587,7 +629,8 @@ async function chunkReads(
     filledDays: async (stationId, dayFrom, dayTo) => {
       // Exactly what loadFilledDays answers: the station's filled days on [dayFrom, dayTo).
       const out = new Map<string, FillMethod>();
-      for (const [date, method] of stations.filled.get(stationId) ?? []) if (date >= dayFrom && date < dayTo) out.set(date, method);
+      for (const [date, method] of stations.filled.get(stationId) ?? [])
+        if (date >= dayFrom && date < dayTo) out.set(date, method);
       return out;
     },
     // Few meters carry variables: their values are read per meter.

@@ -37,7 +37,13 @@ import { assembleReport, type FacilityInput } from '../reports/assemble.js';
 import type { Rollup } from '../reports/totals.js';
 import { guaranteeStatus } from '../reports/guarantees.js';
 import { meterReport, missingMeterReport, type StoredAdjustment } from '../reports/meter-report.js';
-import type { ContractSummary, GuaranteeStatus, MeterReport, ReportWindow, SavingsReport } from '../reports/savings-report.js';
+import type {
+  ContractSummary,
+  GuaranteeStatus,
+  MeterReport,
+  ReportWindow,
+  SavingsReport,
+} from '../reports/savings-report.js';
 import type { Kysely } from 'kysely';
 import { readSnapshot } from '../store/transactions.js';
 import type { BaselineRow, Database, FillMethod, MeterRow } from '../store/schema.js';
@@ -66,7 +72,14 @@ export interface MeterContext {
   meter: MeterRow;
   temperatureUnit: TemperatureUnit;
   stationName: string;
-  baseline: { id: string; version: number; contentHash: string; start: string; end: string; temperatureForm: 'daily' | 'mean' } | null;
+  baseline: {
+    id: string;
+    version: number;
+    contentHash: string;
+    start: string;
+    end: string;
+    temperatureForm: 'daily' | 'mean';
+  } | null;
   model: FrozenModel | null;
   rates: { currency: string | null; entries: RateEntry[] };
   adjustments: StoredAdjustment[];
@@ -84,7 +97,10 @@ export interface ReportReads {
   weather(stationId: string, readings: readonly Reading[]): Promise<DailyTemperature[]>;
   filledDays(stationId: string, from: string, to: string): Promise<Map<string, FillMethod>>;
   /** The reporting values of a frozen model's independent variables over the window. */
-  variableSeries(variables: Parameters<typeof reportingSeries>[1], window: { from: string; to: string }): Promise<VariableSeries[]>;
+  variableSeries(
+    variables: Parameters<typeof reportingSeries>[1],
+    window: { from: string; to: string },
+  ): Promise<VariableSeries[]>;
 }
 
 /** One query per meter and window. */
@@ -127,7 +143,11 @@ export async function checkHtmlReportSize(db: Executor, organisationId: string, 
 }
 
 /** The report, read from one consistent snapshot so every figure and the audit head it names agree. */
-export function savingsReport(db: Kysely<Database>, organisationId: string, query: ReportQuery): Promise<SavingsReport> {
+export function savingsReport(
+  db: Kysely<Database>,
+  organisationId: string,
+  query: ReportQuery,
+): Promise<SavingsReport> {
   return readSnapshot(db, (trx) => buildReport(trx, organisationId, query));
 }
 
@@ -164,7 +184,11 @@ export async function reportFrame(db: Executor, organisationId: string, query: R
         .orderBy('id')
         .execute();
   const contracts = new Map<string, ContractSummary>();
-  for (const row of await db.selectFrom('contracts').selectAll().where('organisation_id', '=', organisationId).execute()) {
+  for (const row of await db
+    .selectFrom('contracts')
+    .selectAll()
+    .where('organisation_id', '=', organisationId)
+    .execute()) {
     const c = toContract(row);
     contracts.set(c.facilityId, {
       start: c.start,
@@ -241,7 +265,9 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
     // Each meter's own reason, the ones missing weather first: that is the cause a user can fix.
     const reasons = facilities
       .flatMap((f) => f.meters.map((m) => ({ field: `meter ${m.id} (${m.name})`, message: m.missing ?? '' })))
-      .sort((a, b) => Number(b.message.startsWith('missing weather')) - Number(a.message.startsWith('missing weather')));
+      .sort(
+        (a, b) => Number(b.message.startsWith('missing weather')) - Number(a.message.startsWith('missing weather')),
+      );
     throw nothingToReport(query, window, reasons);
   }
   return assembleReport({
@@ -257,7 +283,11 @@ async function buildReport(db: Executor, organisationId: string, query: ReportQu
 }
 
 /** The answer when no meter has figures in the window, with each meter's reason when they are known. */
-export function nothingToReport(query: ReportQuery, window: ReportWindow, reasons: { field: string; message: string }[] = []): DomainError {
+export function nothingToReport(
+  query: ReportQuery,
+  window: ReportWindow,
+  reasons: { field: string; message: string }[] = [],
+): DomainError {
   const scope = query.facilityId ? `facility ${query.facilityId}` : 'this organisation';
   return new DomainError(
     'unprocessable',
@@ -295,7 +325,13 @@ export async function facilityInWindow(
   const meters = await Promise.all(contexts.map((ctx) => meterInWindow(reads, ctx, window, confidence, options)));
   const usedNormalYears = contexts.flatMap((ctx, i) =>
     ctx.normalYear && meters[i]!.normalised.available
-      ? [{ stationId: ctx.meter.weather_station_id, contentHash: ctx.normalYear.contentHash, source: ctx.normalYear.source }]
+      ? [
+          {
+            stationId: ctx.meter.weather_station_id,
+            contentHash: ctx.normalYear.contentHash,
+            source: ctx.normalYear.source,
+          },
+        ]
       : [],
   );
   const guarantees: GuaranteeStatus[] = [];
@@ -306,7 +342,9 @@ export async function facilityInWindow(
     const sameWindow = yearWindow.from === window.from && through === window.to;
     const yearMeters = sameWindow
       ? meters
-      : await Promise.all(contexts.map((ctx) => meterInWindow(reads, ctx, { from: yearWindow.from, to: through }, confidence, options)));
+      : await Promise.all(
+          contexts.map((ctx) => meterInWindow(reads, ctx, { from: yearWindow.from, to: through }, confidence, options)),
+        );
     guarantees.push(
       guaranteeStatus(
         contract!,
@@ -322,7 +360,10 @@ export async function facilityInWindow(
       ),
     );
   }
-  return { input: { id: facility.id, name: facility.name, address: facility.address, contract, meters, guarantees }, usedNormalYears };
+  return {
+    input: { id: facility.id, name: facility.name, address: facility.address, contract, meters, guarantees },
+    usedNormalYears,
+  };
 }
 
 /**
@@ -350,9 +391,11 @@ export function resolveConfidence(
 
 /** Exactly one of: from and to, quarter, contractYear. */
 export function resolveWindow(query: ReportQuery, contracts: readonly (ContractSummary | null)[]): ReportWindow {
-  const given = [query.from !== undefined || query.to !== undefined, query.quarter !== undefined, query.contractYear !== undefined].filter(
-    Boolean,
-  ).length;
+  const given = [
+    query.from !== undefined || query.to !== undefined,
+    query.quarter !== undefined,
+    query.contractYear !== undefined,
+  ].filter(Boolean).length;
   if (given !== 1) {
     throw new DomainError(
       'invalid',
@@ -365,16 +408,20 @@ export function resolveWindow(query: ReportQuery, contracts: readonly (ContractS
     try {
       w = quarterWindow(query.quarter);
     } catch (error) {
-      throw new DomainError('invalid', `quarter: ${(error as Error).message}`, [{ field: 'quarter', message: (error as Error).message }]);
+      throw new DomainError('invalid', `quarter: ${(error as Error).message}`, [
+        { field: 'quarter', message: (error as Error).message },
+      ]);
     }
     return { ...w, kind: 'quarter', label: query.quarter };
   }
   if (query.contractYear !== undefined) {
     const present = contracts.filter((c): c is ContractSummary => c !== null);
     if (present.length === 0)
-      throw new DomainError('unprocessable', 'contractYear: no facility in the report has a contract (PUT /v1/facilities/{id}/contract)', [
-        { field: 'contractYear', message: 'no contract' },
-      ]);
+      throw new DomainError(
+        'unprocessable',
+        'contractYear: no facility in the report has a contract (PUT /v1/facilities/{id}/contract)',
+        [{ field: 'contractYear', message: 'no contract' }],
+      );
     const starts = new Set(present.map((c) => c.start));
     if (starts.size > 1) {
       throw new DomainError(
@@ -396,7 +443,9 @@ export function resolveWindow(query: ReportQuery, contracts: readonly (ContractS
   }
   if (query.from === undefined || query.to === undefined) {
     const field = query.from === undefined ? 'from' : 'to';
-    throw new DomainError('invalid', `${field}: a date window needs both from and to`, [{ field, message: 'needed with the other' }]);
+    throw new DomainError('invalid', `${field}: a date window needs both from and to`, [
+      { field, message: 'needed with the other' },
+    ]);
   }
   if (!(query.to > query.from))
     throw new DomainError('invalid', 'to: must be after from', [{ field: 'to', message: 'must be after from' }]);
@@ -419,7 +468,11 @@ async function meterContext(db: Executor, meter: MeterRow): Promise<MeterContext
     .where('withdrawn_at', 'is', null)
     .orderBy('period_start')
     .execute();
-  const normal = await db.selectFrom('normal_years').selectAll().where('station_id', '=', meter.weather_station_id).executeTakeFirst();
+  const normal = await db
+    .selectFrom('normal_years')
+    .selectAll()
+    .where('station_id', '=', meter.weather_station_id)
+    .executeTakeFirst();
   const station = await db
     .selectFrom('weather_stations')
     .select(['temperature_unit', 'name'])
@@ -442,7 +495,10 @@ export function meterContextOf(rows: {
   meter: MeterRow;
   temperatureUnit: TemperatureUnit;
   stationName: string;
-  baseline: Pick<BaselineRow, 'id' | 'version' | 'content_hash' | 'period_start' | 'period_end' | 'temperature_form'> | null;
+  baseline: Pick<
+    BaselineRow,
+    'id' | 'version' | 'content_hash' | 'period_start' | 'period_end' | 'temperature_form'
+  > | null;
   model: FrozenModel | null;
   schedule: { currency: string | null; rates: RateEntry[] };
   adjustmentRows: readonly Selectable<Database['adjustments']>[];
@@ -513,8 +569,16 @@ async function meterInWindow(
     temperatureRange: { ...model.fit.temperatureRange },
     cvrmse: model.fit.stats.cvrmse,
     nmbe: model.fit.stats.nmbe,
-    coefficients: model.fit.coefficients.map((c) => ({ name: c.name, estimate: c.estimate, standardError: c.standardError })),
-    changepoints: model.fit.changepointEstimates.map((c) => ({ name: c.name, estimate: c.estimate, standardError: c.standardError })),
+    coefficients: model.fit.coefficients.map((c) => ({
+      name: c.name,
+      estimate: c.estimate,
+      standardError: c.standardError,
+    })),
+    changepoints: model.fit.changepointEstimates.map((c) => ({
+      name: c.name,
+      estimate: c.estimate,
+      standardError: c.standardError,
+    })),
     meetsGuideline14: null as boolean | null,
     temperatureForm: baseline.temperatureForm,
     sufficiency: { sufficient: model.sufficiency.sufficient, reasons: model.sufficiency.reasons },
@@ -528,14 +592,25 @@ async function meterInWindow(
     return missingMeterReport(identity, baselineInfo, `${broken.message}: withdraw it and record it again`, usable);
   }
   const start = window.from > baseline.end ? window.from : baseline.end;
-  const candidates = await reads.readings(meter.id, { startOnOrAfter: baseline.end, startBefore: window.to, endAfter: start });
+  const candidates = await reads.readings(meter.id, {
+    startOnOrAfter: baseline.end,
+    startBefore: window.to,
+    endAfter: start,
+  });
   const readings: Reading[] = candidates.filter((r) => inWindowByMidpoint(r, window));
   if (readings.length === 0)
-    return missingMeterReport(identity, baselineInfo, `no reporting readings in ${window.from}..${window.to}`, overlapping);
+    return missingMeterReport(
+      identity,
+      baselineInfo,
+      `no reporting readings in ${window.from}..${window.to}`,
+      overlapping,
+    );
   const weather = await reads.weather(meter.weather_station_id, readings);
   const lastEnd = readings.reduce((end, r) => (r.end > end ? r.end : end), readings[0]!.end);
   const variableSeries =
-    model.variables.length === 0 ? [] : await reads.variableSeries(model.variables, { from: readings[0]!.start, to: lastEnd });
+    model.variables.length === 0
+      ? []
+      : await reads.variableSeries(model.variables, { from: readings[0]!.start, to: lastEnd });
   const aligned = alignPeriods(readings, weather, { minCoverage: model.minCoverage, variableSeries });
   let savings: SavingsDocument;
   try {
@@ -544,7 +619,8 @@ async function meterInWindow(
       adjustments: ctx.adjustments,
     });
   } catch (error) {
-    if (error instanceof MissingVariableValuesError) return missingMeterReport(identity, baselineInfo, error.message, overlapping);
+    if (error instanceof MissingVariableValuesError)
+      return missingMeterReport(identity, baselineInfo, error.message, overlapping);
     if (!(error instanceof TooFewPeriodsError)) throw error;
     // Name the real cause: the dates without weather at the meter's station.
     const missingDates = describeDateRanges(missingWeatherDates(readings, weather));
@@ -571,8 +647,14 @@ async function meterInWindow(
   }
   baselineInfo.meetsGuideline14 = savings.baseline.guideline14?.pass ?? null;
   const normalised = ctx.normalYear
-    ? normalisedSavings(model.fit, readings, weather, ctx.normalYear.temps, { minCoverage: model.minCoverage, confidence })
-    : { available: false as const, reason: 'the weather station has no normal year (PUT /v1/weather-stations/{id}/normal-year)' };
+    ? normalisedSavings(model.fit, readings, weather, ctx.normalYear.temps, {
+        minCoverage: model.minCoverage,
+        confidence,
+      })
+    : {
+        available: false as const,
+        reason: 'the weather station has no normal year (PUT /v1/weather-stations/{id}/normal-year)',
+      };
   const filled = await reads.filledDays(meter.weather_station_id, readings[0]!.start, lastEnd);
   const report = meterReport({
     meter: identity,
@@ -591,6 +673,8 @@ async function meterInWindow(
     await reads.filledDays(meter.weather_station_id, baseline.start, baseline.end),
   )[0];
   if (baselineFills)
-    report.notes.push(`baseline weather: ${describeFills(baselineFills.days, baselineFills.interpolation, baselineFills.secondStation)}`);
+    report.notes.push(
+      `baseline weather: ${describeFills(baselineFills.days, baselineFills.interpolation, baselineFills.secondStation)}`,
+    );
   return report;
 }

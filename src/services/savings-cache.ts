@@ -63,14 +63,25 @@ export class SavingsCache {
     }
     this.stats.misses++;
     const body = render(await meterSavings(db, organisationId, meterId, query));
-    const representation: SavingsRepresentation = { body, etag: `"${createHash('sha256').update(body).digest('base64url')}"` };
-    if (key !== null && (await meterVersion(db, organisationId, meterId)) === version) this.documents.set(key, representation);
+    const representation: SavingsRepresentation = {
+      body,
+      etag: `"${createHash('sha256').update(body).digest('base64url')}"`,
+    };
+    if (key !== null && (await meterVersion(db, organisationId, meterId)) === version)
+      this.documents.set(key, representation);
     return representation;
   }
 }
 
 function cacheKey(organisationId: string, meterId: string, version: string, query: SavingsQuery): string {
-  return JSON.stringify([organisationId, meterId, version, query.from ?? null, query.to ?? null, query.confidence ?? null]);
+  return JSON.stringify([
+    organisationId,
+    meterId,
+    version,
+    query.from ?? null,
+    query.to ?? null,
+    query.confidence ?? null,
+  ]);
 }
 
 /**

@@ -104,7 +104,11 @@ const modelCache = new BoundedCache<FrozenModel>(MODEL_CACHE_BYTES, modelBytes);
 export async function frozenModel(db: Executor, baselineId: string, contentHash: string): Promise<FrozenModel> {
   const cached = modelCache.get(`${baselineId}:${contentHash}`);
   if (cached) return cached;
-  const row = (await db.selectFrom('baselines').selectAll().where('id', '=', baselineId).executeTakeFirstOrThrow()) as BaselineRow;
+  const row = (await db
+    .selectFrom('baselines')
+    .selectAll()
+    .where('id', '=', baselineId)
+    .executeTakeFirstOrThrow()) as BaselineRow;
   return frozenModelOfRow(row, contentHash);
 }
 
@@ -139,13 +143,23 @@ export function frozenModelOfRow(row: BaselineRow, contentHash: string): FrozenM
   }
   if (!verifyParsedBaselineContent(row)) throw tampered();
   const fit = fits[row.chosen_model as ModelName];
-  if (!fit) throw new DomainError('unprocessable', `baseline ${baselineId} holds no fit of its chosen shape ${row.chosen_model}`);
+  if (!fit)
+    throw new DomainError(
+      'unprocessable',
+      `baseline ${baselineId} holds no fit of its chosen shape ${row.chosen_model}`,
+    );
   const minCoverage = options.minCoverage ?? document.settings.minCoverage;
-  const baselinePeriods = alignPeriods(inputs.readings, inputs.weather, { minCoverage, variableSeries: inputs.variables ?? [] }).periods;
+  const baselinePeriods = alignPeriods(inputs.readings, inputs.weather, {
+    minCoverage,
+    variableSeries: inputs.variables ?? [],
+  }).periods;
   const variables = (fit.variables ?? []).map((name) => {
     const stored = inputs.variables?.find((v) => v.name === name);
     if (!stored)
-      throw new DomainError('unprocessable', `baseline ${baselineId}: its fit carries the variable "${name}" but its inputs do not`);
+      throw new DomainError(
+        'unprocessable',
+        `baseline ${baselineId}: its fit carries the variable "${name}" but its inputs do not`,
+      );
     return {
       id: stored.id,
       name: stored.name,
@@ -170,12 +184,17 @@ export function frozenModelOfRow(row: BaselineRow, contentHash: string): FrozenM
 }
 
 /** Reporting periods without their variables' values: a 422 naming each period's dates and the variables to post. */
-export function missingVariablesProblem(error: MissingVariableValuesError, variables: FrozenModel['variables']): DomainError {
+export function missingVariablesProblem(
+  error: MissingVariableValuesError,
+  variables: FrozenModel['variables'],
+): DomainError {
   const ids = variables.map((v) => `${v.name} (${v.id})`).join(', ');
   return new DomainError(
     'unprocessable',
     `${error.message}; post the values to POST /v1/variables/{id}/values for ${ids}`,
-    error.periods.slice(0, 100).map((p) => ({ field: `reading ${p.start}..${p.end}`, message: `no value of ${p.missing.join(', ')}` })),
+    error.periods
+      .slice(0, 100)
+      .map((p) => ({ field: `reading ${p.start}..${p.end}`, message: `no value of ${p.missing.join(', ')}` })),
   );
 }
 
@@ -183,7 +202,12 @@ function windowText(start: string, to: string | undefined): string {
   return to === undefined ? `starting on or after ${start}` : `lying in ${start}..${to}`;
 }
 
-export async function meterSavings(db: Executor, organisationId: string, meterId: string, query: SavingsQuery): Promise<MeterSavings> {
+export async function meterSavings(
+  db: Executor,
+  organisationId: string,
+  meterId: string,
+  query: SavingsQuery,
+): Promise<MeterSavings> {
   const meter = await getMeterRow(db, organisationId, meterId);
   const baseline = await db
     .selectFrom('baselines')
@@ -237,7 +261,9 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
     const reasons = excluded.map((p) => `reading ${p.start}..${p.end}: ${p.reason}`).join('; ');
     const missing = missingWeatherDates(excluded, weather);
     const cause =
-      missing.length > 0 ? `missing weather for dates ${describeDateRanges(missing)} at weather station ${meter.weather_station_id}: ` : '';
+      missing.length > 0
+        ? `missing weather for dates ${describeDateRanges(missing)} at weather station ${meter.weather_station_id}: `
+        : '';
     throw new DomainError(
       'unprocessable',
       `${cause}${error.message}${reasons ? `: ${reasons}` : ''}`,
@@ -268,6 +294,9 @@ export async function meterSavings(db: Executor, organisationId: string, meterId
     baselineId: baseline.id,
     baselineVersion: baseline.version,
     baselineContentHash: baseline.content_hash,
-    weatherFills: filledDaysByPeriod(document.periods, await loadFilledDays(db, meter.weather_station_id, readings[0]!.start, last)),
+    weatherFills: filledDaysByPeriod(
+      document.periods,
+      await loadFilledDays(db, meter.weather_station_id, readings[0]!.start, last),
+    ),
   });
 }

@@ -39,7 +39,8 @@ import { savingsReportIn, type ReportQuery } from './reports.js';
 
 /** The errors of this module, in one place. */
 const fail = {
-  validation: (field: string, message: string) => new DomainError('invalid', `${field}: ${message}`, [{ field, message }]),
+  validation: (field: string, message: string) =>
+    new DomainError('invalid', `${field}: ${message}`, [{ field, message }]),
   conflict: (detail: string, errors?: FieldError[]) => new DomainError('conflict', detail, errors),
   forbidden: (detail: string) => new DomainError('forbidden', detail),
   notFound: (id: string) => notFound('statement', id),
@@ -112,11 +113,18 @@ async function actor(db: Executor, organisationId: string, keyId: string): Promi
 /** The steps so far, oldest first, from the row's columns and the keys' holders. */
 async function stepsOf(db: Executor, row: StatementRow): Promise<StatementStep[]> {
   const org = row.organisation_id;
-  const steps: StatementStep[] = [{ step: 'prepared', by: await actor(db, org, row.prepared_by), at: row.prepared_at, reason: null }];
+  const steps: StatementStep[] = [
+    { step: 'prepared', by: await actor(db, org, row.prepared_by), at: row.prepared_at, reason: null },
+  ];
   if (row.approved_by && row.approved_at)
     steps.push({ step: 'approved', by: await actor(db, org, row.approved_by), at: row.approved_at, reason: null });
   if (row.rejected_by && row.rejected_at)
-    steps.push({ step: 'rejected', by: await actor(db, org, row.rejected_by), at: row.rejected_at, reason: row.rejection_reason });
+    steps.push({
+      step: 'rejected',
+      by: await actor(db, org, row.rejected_by),
+      at: row.rejected_at,
+      reason: row.rejection_reason,
+    });
   if (row.voided_by && row.voided_at)
     steps.push({
       step: 'voided',
@@ -132,7 +140,10 @@ function hashesOf(copy: Pick<StatementCopyRow, 'json_hash' | 'csv_hash' | 'html_
   return { json: copy.json_hash, csv: copy.csv_hash, html: copy.html_hash };
 }
 
-async function copiesOf(db: Executor, statementId: string): Promise<Omit<StatementCopyRow, 'json_body' | 'csv_body' | 'html_body'>[]> {
+async function copiesOf(
+  db: Executor,
+  statementId: string,
+): Promise<Omit<StatementCopyRow, 'json_body' | 'csv_body' | 'html_body'>[]> {
   return db
     .selectFrom('statement_copies')
     .select(['statement_id', 'copy', 'organisation_id', 'kind', 'created_at', 'json_hash', 'csv_hash', 'html_hash'])
@@ -148,7 +159,13 @@ async function toStatement(db: Executor, row: StatementRow): Promise<Statement> 
   return {
     id: row.id,
     status: row.status,
-    window: { ...request.window, from: row.window_from, to: row.window_to, kind: row.window_kind, label: row.window_label },
+    window: {
+      ...request.window,
+      from: row.window_from,
+      to: row.window_to,
+      kind: row.window_kind,
+      label: row.window_label,
+    },
     facilityId: row.facility_id,
     confidence: row.confidence,
     note: row.note,
@@ -372,10 +389,16 @@ async function refuseOwnStatement(trx: Tx, ctx: ServiceContext, row: StatementRo
 
 function refuseUnlessPrepared(row: StatementRow, what: string): void {
   if (row.status !== 'prepared') {
-    const since = { approved: row.approved_at, rejected: row.rejected_at, voided: row.voided_at, prepared: row.prepared_at }[row.status];
-    throw fail.conflict(`statement ${row.id} is ${row.status} (since ${since}): only a prepared statement can be ${what}`, [
-      { field: 'status', message: `is ${row.status}` },
-    ]);
+    const since = {
+      approved: row.approved_at,
+      rejected: row.rejected_at,
+      voided: row.voided_at,
+      prepared: row.prepared_at,
+    }[row.status];
+    throw fail.conflict(
+      `statement ${row.id} is ${row.status} (since ${since}): only a prepared statement can be ${what}`,
+      [{ field: 'status', message: `is ${row.status}` }],
+    );
   }
 }
 
@@ -424,14 +447,25 @@ export function rejectStatement(ctx: ServiceContext, id: string, input: { reason
   return step(ctx, id, 'reject-statement', 'rejected', async (trx, row) => {
     refuseUnlessPrepared(row, 'rejected');
     await refuseOwnStatement(trx, ctx, row, 'reject');
-    return { status: 'rejected', rejected_by: ctx.principal.keyId, rejected_at: ctx.now, rejection_reason: input.reason };
+    return {
+      status: 'rejected',
+      rejected_by: ctx.principal.keyId,
+      rejected_at: ctx.now,
+      rejection_reason: input.reason,
+    };
   });
 }
 
-export function voidStatement(ctx: ServiceContext, id: string, input: { reason: string; replacedBy?: string | null }): Promise<Statement> {
+export function voidStatement(
+  ctx: ServiceContext,
+  id: string,
+  input: { reason: string; replacedBy?: string | null },
+): Promise<Statement> {
   return step(ctx, id, 'void-statement', 'voided', async (trx, row) => {
     if (row.status === 'voided')
-      throw fail.conflict(`statement ${row.id} is already voided (since ${row.voided_at})`, [{ field: 'status', message: 'is voided' }]);
+      throw fail.conflict(`statement ${row.id} is already voided (since ${row.voided_at})`, [
+        { field: 'status', message: 'is voided' },
+      ]);
     if (row.status === 'rejected')
       throw fail.conflict(
         `statement ${row.id} was rejected (since ${row.rejected_at}): a rejected statement is not in force and needs no voiding`,
@@ -448,9 +482,18 @@ export function voidStatement(ctx: ServiceContext, id: string, input: { reason: 
         .executeTakeFirst();
       if (!replacement) throw fail.validation('replacedBy', `no statement ${replacedBy} in this organisation`);
       if (replacement.status === 'voided' || replacement.status === 'rejected')
-        throw fail.validation('replacedBy', `statement ${replacedBy} is ${replacement.status}: it cannot replace another`);
+        throw fail.validation(
+          'replacedBy',
+          `statement ${replacedBy} is ${replacement.status}: it cannot replace another`,
+        );
     }
-    return { status: 'voided', voided_by: ctx.principal.keyId, voided_at: ctx.now, void_reason: input.reason, replaced_by: replacedBy };
+    return {
+      status: 'voided',
+      voided_by: ctx.principal.keyId,
+      voided_at: ctx.now,
+      void_reason: input.reason,
+      replaced_by: replacedBy,
+    };
   });
 }
 
@@ -471,7 +514,11 @@ export interface StatementComparison {
 const AUDIT_SINCE_LIMIT = 200;
 
 /** Render the statement's request on today's data and list what changed since issue. */
-export async function compareStatement(db: Kysely<Database>, organisationId: string, id: string): Promise<StatementComparison> {
+export async function compareStatement(
+  db: Kysely<Database>,
+  organisationId: string,
+  id: string,
+): Promise<StatementComparison> {
   return readSnapshot(db, async (trx) => {
     const row = await statementRow(trx, organisationId, id);
     const issued = await issuedReport(trx, id);
@@ -496,7 +543,11 @@ export async function compareStatement(db: Kysely<Database>, organisationId: str
     const changes = today ? compareReports(issued.report, today) : [];
     return {
       statementId: id,
-      issued: { reportHash: row.report_hash, auditHead: { seq: row.audit_seq, hash: row.audit_hash }, dataThrough: row.data_through },
+      issued: {
+        reportHash: row.report_hash,
+        auditHead: { seq: row.audit_seq, hash: row.audit_hash },
+        dataThrough: row.data_through,
+      },
       today: today
         ? {
             reportHash: today.contentHash,

@@ -12,7 +12,10 @@ export async function stationRecordSummary(
 ): Promise<{ stationId: string; temperatureUnit: TemperatureUnit } & StationRecordSummary> {
   checkDateRange(query);
   const station = await getStationRow(db, organisationId, stationId);
-  let q = db.selectFrom('weather_observations').select(['date', 'temp', 'fill_method']).where('station_id', '=', stationId);
+  let q = db
+    .selectFrom('weather_observations')
+    .select(['date', 'temp', 'fill_method'])
+    .where('station_id', '=', stationId);
   if (query.from !== undefined) q = q.where('date', '>=', query.from);
   if (query.to !== undefined) q = q.where('date', '<', query.to);
   const rows = await q.orderBy('date').execute();

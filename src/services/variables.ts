@@ -7,7 +7,13 @@
  * variable serves may change, every write on the audit trail and a new data
  * version for those meters.
  */
-import { addDays, parseIsoDate, type VariableAggregation, type VariableKind, type VariableSeries } from '../engine/index.js';
+import {
+  addDays,
+  parseIsoDate,
+  type VariableAggregation,
+  type VariableKind,
+  type VariableSeries,
+} from '../engine/index.js';
 import { newId } from '../store/ids.js';
 import type { MeterRow, VariableRow } from '../store/schema.js';
 import { bumpMeterVersions } from '../store/data-versions.js';
@@ -90,8 +96,13 @@ export async function createVariable(ctx: ServiceContext, facilityId: string, in
         throw new DomainError('invalid', `meterId: ${message}`, [{ field: 'meterId', message }]);
       }
     }
-    let same = trx.selectFrom('variables').select('id').where('facility_id', '=', facilityId).where('name', '=', input.name);
-    same = input.meterId === undefined ? same.where('meter_id', 'is', null) : same.where('meter_id', '=', input.meterId);
+    let same = trx
+      .selectFrom('variables')
+      .select('id')
+      .where('facility_id', '=', facilityId)
+      .where('name', '=', input.name);
+    same =
+      input.meterId === undefined ? same.where('meter_id', 'is', null) : same.where('meter_id', '=', input.meterId);
     const existing = await same.executeTakeFirst();
     if (existing) {
       const where = input.meterId === undefined ? `facility ${facilityId}` : `meter ${input.meterId}`;
@@ -138,7 +149,11 @@ export async function listVariables(
 ): Promise<{ facilityId: string; variables: Variable[] } & PageInfo> {
   await getFacilityRow(db, organisationId, facilityId);
   const { rows, page } = await oldestFirstPage(
-    db.selectFrom('variables').selectAll().where('organisation_id', '=', organisationId).where('facility_id', '=', facilityId),
+    db
+      .selectFrom('variables')
+      .selectAll()
+      .where('organisation_id', '=', organisationId)
+      .where('facility_id', '=', facilityId),
     request,
     'variables',
   );
@@ -180,9 +195,11 @@ function periodsOfBatch(
   if (values.length === 0)
     throw new DomainError('invalid', 'values: at least one value is needed', [{ field: 'values', message: 'empty' }]);
   if (values.length > MAX_RECORDS_PER_BATCH) {
-    throw new DomainError('invalid', `values: at most ${MAX_RECORDS_PER_BATCH} per request (got ${values.length}); send smaller batches`, [
-      { field: 'values', message: 'too many' },
-    ]);
+    throw new DomainError(
+      'invalid',
+      `values: at most ${MAX_RECORDS_PER_BATCH} per request (got ${values.length}); send smaller batches`,
+      [{ field: 'values', message: 'too many' }],
+    );
   }
   const errors: FieldError[] = [];
   const periods = values.map((entry, index) => {
@@ -190,7 +207,10 @@ function periodsOfBatch(
     let end = entry.end;
     if (variable.kind === 'daily') {
       if (entry.date === undefined || entry.start !== undefined || entry.end !== undefined) {
-        errors.push({ field: locate(index, 'date'), message: `a daily variable's value names its date (and no start or end)` });
+        errors.push({
+          field: locate(index, 'date'),
+          message: `a daily variable's value names its date (and no start or end)`,
+        });
       } else if (parseIsoDate(entry.date) === null) {
         errors.push({ field: locate(index, 'date'), message: `not a calendar date: ${entry.date}` });
       } else {
@@ -304,7 +324,13 @@ export async function postVariableValues(
         .where('period_start', '=', c.start)
         .execute();
     }
-    const result = { variableId, received: batch.length, created: created.length, corrected: corrected.length, unchanged };
+    const result = {
+      variableId,
+      received: batch.length,
+      created: created.length,
+      corrected: corrected.length,
+      unchanged,
+    };
     if (created.length + corrected.length > 0) {
       await bumpMeterVersions(trx, meters);
       await audit(trx, ctx, {
@@ -358,7 +384,10 @@ export async function listVariableValues(
   const request = { limit: query.limit ?? PAGE_SIZES.series.default, cursor: query.cursor };
   const after = decodeCursor('variable-values', request.cursor, 's');
   const variable = await getVariableRow(db, organisationId, variableId);
-  let q = db.selectFrom('variable_values').select(['period_start', 'period_end', 'value']).where('variable_id', '=', variableId);
+  let q = db
+    .selectFrom('variable_values')
+    .select(['period_start', 'period_end', 'value'])
+    .where('variable_id', '=', variableId);
   if (query.to !== undefined) q = q.where('period_start', '<', query.to);
   if (query.from !== undefined) q = q.where('period_end', '>', query.from);
   if (after) q = q.where('period_start', '>', after[0] as string);
@@ -395,7 +424,9 @@ export async function variableSeriesForMeter(
     .where((eb) => eb.or([eb('meter_id', 'is', null), eb('meter_id', '=', meter.id)]))
     .execute();
   const variables = names.map((name, i) => {
-    const row = rows.find((r) => r.name === name && r.meter_id === meter.id) ?? rows.find((r) => r.name === name && r.meter_id === null);
+    const row =
+      rows.find((r) => r.name === name && r.meter_id === meter.id) ??
+      rows.find((r) => r.name === name && r.meter_id === null);
     if (!row) {
       const message = `no variable named "${name}" on meter ${meter.id} or its facility ${meter.facility_id}; define it first`;
       throw new DomainError('unprocessable', `${field}[${i}]: ${message}`, [{ field: `${field}[${i}]`, message }]);
@@ -439,7 +470,13 @@ export async function seriesOf(
  */
 export async function reportingSeries(
   db: Executor,
-  variables: readonly { id: string; name: string; unit: string; aggregation: VariableAggregation; source?: 'calendar' }[],
+  variables: readonly {
+    id: string;
+    name: string;
+    unit: string;
+    aggregation: VariableAggregation;
+    source?: 'calendar';
+  }[],
   window: { from: string; to: string },
 ): Promise<VariableSeries[]> {
   const stored = await seriesOf(

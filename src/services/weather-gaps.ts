@@ -55,13 +55,20 @@ export interface GapFillResult {
 /** How far around the window the second station's overlap is taken (a year each way: the offset follows the seasons). */
 const OVERLAP_MARGIN_DAYS = 365;
 
-export async function fillWeatherGaps(ctx: ServiceContext, stationId: string, input: GapFillInput): Promise<GapFillResult> {
+export async function fillWeatherGaps(
+  ctx: ServiceContext,
+  stationId: string,
+  input: GapFillInput,
+): Promise<GapFillResult> {
   const span = daysBetween(input.from, input.to);
-  if (span <= 0) throw new DomainError('invalid', 'to: must be after from', [{ field: 'to', message: 'must be after from' }]);
+  if (span <= 0)
+    throw new DomainError('invalid', 'to: must be after from', [{ field: 'to', message: 'must be after from' }]);
   if (span > MAX_RECORDS_PER_BATCH) {
-    throw new DomainError('invalid', `to: at most ${MAX_RECORDS_PER_BATCH} days per fill (got ${span}); fill in parts`, [
-      { field: 'to', message: 'window too long' },
-    ]);
+    throw new DomainError(
+      'invalid',
+      `to: at most ${MAX_RECORDS_PER_BATCH} days per fill (got ${span}); fill in parts`,
+      [{ field: 'to', message: 'window too long' }],
+    );
   }
   const maxInterpolationDays = input.maxInterpolationDays ?? DEFAULT_MAX_INTERPOLATION_DAYS;
   const minOverlapDays = input.minOverlapDays ?? DEFAULT_MIN_OVERLAP_DAYS;
@@ -73,7 +80,8 @@ export async function fillWeatherGaps(ctx: ServiceContext, stationId: string, in
         { field: 'secondStationId', message: 'is this station' },
       ]);
     }
-    const second = input.secondStationId === undefined ? null : await getStationRow(trx, organisationId, input.secondStationId);
+    const second =
+      input.secondStationId === undefined ? null : await getStationRow(trx, organisationId, input.secondStationId);
     const around = { from: addDays(input.from, -OVERLAP_MARGIN_DAYS), to: addDays(input.to, OVERLAP_MARGIN_DAYS) };
     const rows = await stationDays(trx, stationId, around.from, around.to);
     const observed = rows.filter((r) => r.fill_method === null);
@@ -86,7 +94,9 @@ export async function fillWeatherGaps(ctx: ServiceContext, stationId: string, in
     const plan = planGapFill(observed, input.from, input.to, {
       maxInterpolationDays,
       minOverlapDays,
-      ...(second && secondDays ? { secondStation: { label: `station ${second.id} (${second.name})`, days: secondDays } } : {}),
+      ...(second && secondDays
+        ? { secondStation: { label: `station ${second.id} (${second.name})`, days: secondDays } }
+        : {}),
     });
     const days = plan.filled.filter((d) => !filledBefore.has(d.date));
     const leftEmpty = plan.leftEmpty.filter((date) => !filledBefore.has(date));
@@ -173,7 +183,12 @@ function convert(value: number, from: TemperatureUnit, to: TemperatureUnit): num
 }
 
 /** Filled days of a station on [from, to), by date: what coverage and reports count. */
-export async function loadFilledDays(db: Executor, stationId: string, from: string, to: string): Promise<Map<string, FilledDay['method']>> {
+export async function loadFilledDays(
+  db: Executor,
+  stationId: string,
+  from: string,
+  to: string,
+): Promise<Map<string, FilledDay['method']>> {
   const rows = await db
     .selectFrom('weather_observations')
     .select(['date', 'fill_method'])

@@ -5,7 +5,12 @@
  * row that carries the import's account (days read, dropped by flag,
  * missing). A file that does not follow its layout stores nothing.
  */
-import { ArchiveFormatError, readStationArchive, type ArchiveCounts, type ArchiveFormat } from '../station-archives/index.js';
+import {
+  ArchiveFormatError,
+  readStationArchive,
+  type ArchiveCounts,
+  type ArchiveFormat,
+} from '../station-archives/index.js';
 import { DomainError } from '../domain/errors.js';
 import { inTransaction, type ServiceContext } from './context.js';
 import { checkObservations, writeObservations, type ObservationInput } from './observations.js';
@@ -35,7 +40,11 @@ export interface ImportResult {
   unchanged: number;
 }
 
-export async function importStationFile(ctx: ServiceContext, stationId: string, input: ImportInput): Promise<ImportResult> {
+export async function importStationFile(
+  ctx: ServiceContext,
+  stationId: string,
+  input: ImportInput,
+): Promise<ImportResult> {
   return inTransaction(ctx, async (trx) => {
     const station = await getStationRow(trx, ctx.principal.organisationId, stationId);
     let archive;
@@ -46,7 +55,9 @@ export async function importStationFile(ctx: ServiceContext, stationId: string, 
       });
     } catch (error) {
       if (!(error instanceof ArchiveFormatError)) throw error;
-      throw new DomainError('invalid', `${input.format} file, ${error.message}`, [{ field: error.place, message: error.detail }]);
+      throw new DomainError('invalid', `${input.format} file, ${error.message}`, [
+        { field: error.place, message: error.detail },
+      ]);
     }
     const base = {
       stationId,
@@ -63,7 +74,8 @@ export async function importStationFile(ctx: ServiceContext, stationId: string, 
         `the ${input.format} file holds no usable temperature (${archive.counts.daysRead} days read, ${archive.counts.droppedByFlag} values dropped by their quality flag, ${archive.counts.missing} missing): nothing stored`,
       );
     }
-    const locate = (index: number, field?: string): string => `line ${archive.days[index]!.line}${field ? `, field ${field}` : ''}`;
+    const locate = (index: number, field?: string): string =>
+      `line ${archive.days[index]!.line}${field ? `, field ${field}` : ''}`;
     const records: ObservationInput[] = archive.days.map(({ date, temp, tmin, tmax }) =>
       temp !== undefined ? { date, temp } : { date, tmin: tmin!, tmax: tmax! },
     );
@@ -71,7 +83,12 @@ export async function importStationFile(ctx: ServiceContext, stationId: string, 
     const written = await writeObservations(trx, ctx, stationId, days, locate, {
       action: 'import-observations',
       details: {
-        import: { format: archive.format, archiveStationId: archive.archiveStationId, method: archive.method, counts: archive.counts },
+        import: {
+          format: archive.format,
+          archiveStationId: archive.archiveStationId,
+          method: archive.method,
+          counts: archive.counts,
+        },
       },
     });
     return { ...base, created: written.created, updated: written.updated, unchanged: written.unchanged };

@@ -92,13 +92,19 @@ export function readDailyNormalsCsv(text: string, options: NormalsOptions): Publ
   const fileUnit = options.fileUnit ?? 'F';
   let records: Parsed[];
   try {
-    records = parse(text, { bom: true, relax_column_count: true, skip_empty_lines: true, info: true }) as unknown as Parsed[];
+    records = parse(text, {
+      bom: true,
+      relax_column_count: true,
+      skip_empty_lines: true,
+      info: true,
+    }) as unknown as Parsed[];
   } catch (error) {
     const failure = error as { lines?: number; message?: string };
     throw new ArchiveFormatError(failure.lines ?? 1, null, `not readable as CSV: ${failure.message ?? 'syntax error'}`);
   }
   const [header, ...rows] = records;
-  if (!header) throw new ArchiveFormatError(1, null, 'the file is empty: a daily normals CSV file starts with its header');
+  if (!header)
+    throw new ArchiveFormatError(1, null, 'the file is empty: a daily normals CSV file starts with its header');
   const names = header.record.map((name) => name.trim());
   const position = new Map(names.map((name, i) => [name, i]));
   const stationColumn = position.has('STATION') ? 'STATION' : position.has('GHCN_ID') ? 'GHCN_ID' : null;
@@ -131,7 +137,11 @@ export function readDailyNormalsCsv(text: string, options: NormalsOptions): Publ
       throw new ArchiveFormatError(line, at(name) + 1, detail, name);
     };
     if (record.length < names.length) {
-      throw new ArchiveFormatError(line, record.length + 1, `truncated row: ${record.length} fields, the header has ${names.length}`);
+      throw new ArchiveFormatError(
+        line,
+        record.length + 1,
+        `truncated row: ${record.length} fields, the header has ${names.length}`,
+      );
     }
     const id = cell(stationColumn!);
     if (id === '') fail(stationColumn!, 'empty station id');
@@ -183,7 +193,8 @@ export function readDailyNormalsCsv(text: string, options: NormalsOptions): Publ
     }
     byDay.set(day, { temp: convert(temp!, fileUnit, options.unit), line, fromAverage: fromAverage! });
   }
-  if (stationId === null) throw new ArchiveFormatError(header.info.lines + 1, null, 'the file holds a header and no daily row');
+  if (stationId === null)
+    throw new ArchiveFormatError(header.info.lines + 1, null, 'the file holds a header and no daily row');
   const absent = NORMAL_YEAR_DAYS.filter((day) => !byDay.has(day));
   if (absent.length > 0) {
     const listed = absent.slice(0, 10).join(', ');
@@ -208,7 +219,11 @@ export function readDailyNormalsCsv(text: string, options: NormalsOptions): Publ
 }
 
 /** The row's day as MM-DD: DATE when it is MM-DD, else the month and day columns (day 99 marks a monthly row). */
-function dayOf(cell: (name: string) => string, fail: (name: string, detail: string) => never, hasDate: boolean): string {
+function dayOf(
+  cell: (name: string) => string,
+  fail: (name: string, detail: string) => never,
+  hasDate: boolean,
+): string {
   const date = hasDate ? cell('DATE') : '';
   if (/^\d{2}-\d{2}$/.test(date)) return date;
   const month = cell('month');

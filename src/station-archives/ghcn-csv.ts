@@ -63,7 +63,8 @@ export function readGhcnCsv(text: string, options: ArchiveOptions): ArchiveImpor
     const date = /^\d{8}$/.test(compact) ? `${compact.slice(0, 4)}-${compact.slice(4, 6)}-${compact.slice(6, 8)}` : '';
     if (!isIsoDate(date)) fail(1, `must be a real date as YYYYMMDD, got ${JSON.stringify(compact)}`);
     const element = fields[2]!;
-    if (!isGhcnElement(element)) fail(2, `unknown element ${JSON.stringify(element)}: not an element code of the GHCN-Daily readme`);
+    if (!isGhcnElement(element))
+      fail(2, `unknown element ${JSON.stringify(element)}: not an element code of the GHCN-Daily readme`);
     const valueText = fields[3]!.trim();
     if (!INTEGER.test(valueText)) fail(3, `must be an integer, got ${JSON.stringify(fields[3])}`);
     const key = `${date} ${element}`;

@@ -66,13 +66,25 @@ export function readGhcnDly(text: string, options: ArchiveOptions): ArchiveImpor
     const id = line.slice(0, 11);
     if (stationId === null) {
       if (id.trim().length !== 11)
-        throw new ArchiveFormatError(lineNumber, 1, `station id ${JSON.stringify(id)} is not the 11 characters of a GHCN-Daily id`);
+        throw new ArchiveFormatError(
+          lineNumber,
+          1,
+          `station id ${JSON.stringify(id)} is not the 11 characters of a GHCN-Daily id`,
+        );
       if (options.expectedStationId !== undefined && id !== options.expectedStationId) {
-        throw new ArchiveFormatError(lineNumber, 1, `station id ${id} does not match the expected station ${options.expectedStationId}`);
+        throw new ArchiveFormatError(
+          lineNumber,
+          1,
+          `station id ${id} does not match the expected station ${options.expectedStationId}`,
+        );
       }
       stationId = id;
     } else if (id !== stationId) {
-      throw new ArchiveFormatError(lineNumber, 1, `station id ${id} differs from ${stationId} on the lines before: one station per file`);
+      throw new ArchiveFormatError(
+        lineNumber,
+        1,
+        `station id ${id} differs from ${stationId} on the lines before: one station per file`,
+      );
     }
     const yearText = line.slice(11, 15);
     const monthText = line.slice(15, 17);
@@ -103,7 +115,11 @@ export function readGhcnDly(text: string, options: ArchiveOptions): ArchiveImpor
       const column = 22 + 8 * (day - 1);
       const valueText = line.slice(column - 1, column + 4);
       if (!INTEGER.test(valueText)) {
-        throw new ArchiveFormatError(lineNumber, column, `VALUE${day} must be an integer in 5 columns, got ${JSON.stringify(valueText)}`);
+        throw new ArchiveFormatError(
+          lineNumber,
+          column,
+          `VALUE${day} must be an integer in 5 columns, got ${JSON.stringify(valueText)}`,
+        );
       }
       const value = Number(valueText);
       const date = `${yearText}-${monthText}-${String(day).padStart(2, '0')}`;

@@ -65,13 +65,22 @@ export const GHCN_METHOD =
  * mean is then (TMIN + TMAX)/2, the ledger's common-practice daily mean),
  * else TAVG; a day with neither is missing.
  */
-export function ghcnDays(byDate: ReadonlyMap<string, GhcnDayValues>, unit: TemperatureUnit, counts: ArchiveCounts): ArchiveDay[] {
+export function ghcnDays(
+  byDate: ReadonlyMap<string, GhcnDayValues>,
+  unit: TemperatureUnit,
+  counts: ArchiveCounts,
+): ArchiveDay[] {
   const days: ArchiveDay[] = [];
   for (const date of [...byDate.keys()].sort()) {
     const values = byDate.get(date)!;
     counts.daysRead++;
     if (values.TMAX !== undefined && values.TMIN !== undefined) {
-      days.push({ date, tmin: tenthsCelsiusTo(values.TMIN, unit), tmax: tenthsCelsiusTo(values.TMAX, unit), line: values.line });
+      days.push({
+        date,
+        tmin: tenthsCelsiusTo(values.TMIN, unit),
+        tmax: tenthsCelsiusTo(values.TMAX, unit),
+        line: values.line,
+      });
     } else if (values.TAVG !== undefined) {
       days.push({ date, temp: tenthsCelsiusTo(values.TAVG, unit), line: values.line });
     } else {

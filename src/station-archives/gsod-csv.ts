@@ -45,7 +45,12 @@ function normaliseId(id: string): string {
 export function readGsodCsv(text: string, options: ArchiveOptions): ArchiveImport {
   let records: Parsed[];
   try {
-    records = parse(text, { bom: true, relax_column_count: true, skip_empty_lines: true, info: true }) as unknown as Parsed[];
+    records = parse(text, {
+      bom: true,
+      relax_column_count: true,
+      skip_empty_lines: true,
+      info: true,
+    }) as unknown as Parsed[];
   } catch (error) {
     const failure = error as { lines?: number; message?: string };
     throw new ArchiveFormatError(failure.lines ?? 1, null, `not readable as CSV: ${failure.message ?? 'syntax error'}`);
@@ -75,13 +80,18 @@ export function readGsodCsv(text: string, options: ArchiveOptions): ArchiveImpor
       throw new ArchiveFormatError(line, at(name) + 1, detail, name);
     };
     if (record.length < columns.length) {
-      throw new ArchiveFormatError(line, record.length + 1, `truncated row: ${record.length} fields, the header has ${columns.length}`);
+      throw new ArchiveFormatError(
+        line,
+        record.length + 1,
+        `truncated row: ${record.length} fields, the header has ${columns.length}`,
+      );
     }
     const id = normaliseId(cell('STATION'));
     if (stationId === null) {
       if (!/^[0-9A-Z]{11}$/.test(id))
         fail('STATION', `station id ${JSON.stringify(cell('STATION'))} is not the 11 characters of a GSOD id`);
-      if (expected !== undefined && id !== expected) fail('STATION', `station id ${id} does not match the expected station ${expected}`);
+      if (expected !== undefined && id !== expected)
+        fail('STATION', `station id ${id} does not match the expected station ${expected}`);
       stationId = id;
     } else if (id !== stationId) {
       fail('STATION', `station id ${id} differs from ${stationId} on the rows before: one station per file`);
@@ -93,7 +103,8 @@ export function readGsodCsv(text: string, options: ArchiveOptions): ArchiveImpor
     seen.set(date, line);
     const number = (name: string): number | null => {
       const text = cell(name);
-      if (!DECIMAL.test(text)) fail(name, `must be a number (°F to tenths, 9999.9 when missing), got ${JSON.stringify(text)}`);
+      if (!DECIMAL.test(text))
+        fail(name, `must be a number (°F to tenths, 9999.9 when missing), got ${JSON.stringify(text)}`);
       const value = Number(text);
       return value === GSOD_MISSING ? null : value;
     };
@@ -101,7 +112,8 @@ export function readGsodCsv(text: string, options: ArchiveOptions): ArchiveImpor
     const max = number('MAX');
     const min = number('MIN');
     const count = cell('TEMP_ATTRIBUTES');
-    if (!/^\d+$/.test(count)) fail('TEMP_ATTRIBUTES', `must be the count of observations in the mean, got ${JSON.stringify(count)}`);
+    if (!/^\d+$/.test(count))
+      fail('TEMP_ATTRIBUTES', `must be the count of observations in the mean, got ${JSON.stringify(count)}`);
     counts.daysRead++;
     if (temp !== null) days.push({ date, temp: fahrenheitTo(temp, options.unit), line });
     else if (max !== null && min !== null)

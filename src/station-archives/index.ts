@@ -6,7 +6,13 @@
 import { readGhcnCsv } from './ghcn-csv.js';
 import { readGhcnDly } from './ghcn-dly.js';
 import { readGsodCsv } from './gsod-csv.js';
-import { ArchiveFormatError, MAX_ARCHIVE_CHARACTERS, type ArchiveFormat, type ArchiveImport, type ArchiveOptions } from './types.js';
+import {
+  ArchiveFormatError,
+  MAX_ARCHIVE_CHARACTERS,
+  type ArchiveFormat,
+  type ArchiveImport,
+  type ArchiveOptions,
+} from './types.js';
 
 export * from './types.js';
 

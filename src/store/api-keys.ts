@@ -73,6 +73,12 @@ export async function insertApiKey(db: Executor, key: NewKey): Promise<{ row: Ap
 }
 
 /** A key as it may be shown: never the hash. */
-export function publicKey(row: ApiKeyRow): { id: string; name: string; role: Role; createdAt: string; revokedAt: string | null } {
+export function publicKey(row: ApiKeyRow): {
+  id: string;
+  name: string;
+  role: Role;
+  createdAt: string;
+  revokedAt: string | null;
+} {
   return { id: row.id, name: row.name, role: row.role, createdAt: row.created_at, revokedAt: row.revoked_at };
 }

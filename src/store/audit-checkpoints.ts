@@ -41,7 +41,11 @@ export async function insertCheckpoint(db: Executor, checkpoint: StoredCheckpoin
 }
 
 /** The organisation's latest checkpoint by this key, if any. */
-export async function latestCheckpoint(db: Executor, organisationId: string, keyId: string): Promise<StoredCheckpoint | undefined> {
+export async function latestCheckpoint(
+  db: Executor,
+  organisationId: string,
+  keyId: string,
+): Promise<StoredCheckpoint | undefined> {
   const row = await db
     .selectFrom('audit_checkpoints')
     .selectAll()
@@ -54,7 +58,12 @@ export async function latestCheckpoint(db: Executor, organisationId: string, key
 }
 
 /** The organisation's checkpoints, oldest first, after `afterSeq`. */
-export async function listCheckpoints(db: Executor, organisationId: string, limit: number, afterSeq = 0): Promise<StoredCheckpoint[]> {
+export async function listCheckpoints(
+  db: Executor,
+  organisationId: string,
+  limit: number,
+  afterSeq = 0,
+): Promise<StoredCheckpoint[]> {
   const rows = await db
     .selectFrom('audit_checkpoints')
     .selectAll()
@@ -68,7 +77,10 @@ export async function listCheckpoints(db: Executor, organisationId: string, limi
 }
 
 /** The head of the organisation's chain: its last row's sequence number and hash. */
-export async function auditHead(db: Executor, organisationId: string): Promise<{ seq: number; hash: string } | undefined> {
+export async function auditHead(
+  db: Executor,
+  organisationId: string,
+): Promise<{ seq: number; hash: string } | undefined> {
   return db
     .selectFrom('audit_log')
     .select(['seq', 'hash'])

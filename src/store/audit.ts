@@ -103,7 +103,13 @@ export function verifyAuditRows(organisationId: string, rows: Iterable<AuditRow>
         ? `it belongs to organisation ${row.organisation_id}`
         : auditRowFault(row, expectedSeq, prevHash);
     if (reason !== null)
-      return { ok: false, checked, headHash: prevHash, headSeq: expectedSeq - 1, broken: { organisationId, seq: row.seq, reason } };
+      return {
+        ok: false,
+        checked,
+        headHash: prevHash,
+        headSeq: expectedSeq - 1,
+        broken: { organisationId, seq: row.seq, reason },
+      };
     prevHash = row.hash;
     expectedSeq++;
     checked++;
@@ -128,7 +134,13 @@ export async function verifyAuditChain(db: Executor, organisationId: string, pag
     for (const row of page) {
       const reason = auditRowFault(row, expectedSeq, prevHash);
       if (reason !== null)
-        return { ok: false, checked, headHash: prevHash, headSeq: expectedSeq - 1, broken: { organisationId, seq: row.seq, reason } };
+        return {
+          ok: false,
+          checked,
+          headHash: prevHash,
+          headSeq: expectedSeq - 1,
+          broken: { organisationId, seq: row.seq, reason },
+        };
       prevHash = row.hash;
       expectedSeq++;
       checked++;
@@ -147,7 +159,13 @@ export async function verifyAllAuditChains(
   for (const { id } of organisations) {
     const verdict = await verifyAuditChain(db, id);
     checked += verdict.checked;
-    if (!verdict.ok) return { ok: false, chains: organisations.length, checked, ...(verdict.broken ? { broken: verdict.broken } : {}) };
+    if (!verdict.ok)
+      return {
+        ok: false,
+        chains: organisations.length,
+        checked,
+        ...(verdict.broken ? { broken: verdict.broken } : {}),
+      };
   }
   return { ok: true, chains: organisations.length, checked };
 }

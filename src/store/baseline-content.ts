@@ -26,7 +26,9 @@ function tagNonFinite(value: unknown): unknown {
 function isNonFiniteTag(value: unknown): value is Record<typeof NON_FINITE, string> {
   if (value === null || typeof value !== 'object' || Array.isArray(value)) return false;
   const keys = Object.keys(value);
-  return keys.length === 1 && keys[0] === NON_FINITE && typeof (value as Record<string, unknown>)[NON_FINITE] === 'string';
+  return (
+    keys.length === 1 && keys[0] === NON_FINITE && typeof (value as Record<string, unknown>)[NON_FINITE] === 'string'
+  );
 }
 
 /** Canonical JSON that keeps NaN and ±Infinity. */
@@ -108,7 +110,10 @@ export function documentTemperatureForm(documentJson: string): 'daily' | 'mean' 
 export function verifyBaselineContent(row: HashedBaseline): boolean {
   if (row.content_hash === null) return false;
   try {
-    return baselineContentHash(row) === row.content_hash && row.temperature_form === documentTemperatureForm(row.document_json);
+    return (
+      baselineContentHash(row) === row.content_hash &&
+      row.temperature_form === documentTemperatureForm(row.document_json)
+    );
   } catch {
     return false; // a column that no longer parses has been tampered with
   }

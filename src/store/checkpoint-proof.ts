@@ -38,13 +38,16 @@ export function proveAgainstCheckpoints(
   const findings = checkpoints.map((checkpoint): CheckpointFinding => {
     const base = { seq: checkpoint.seq, signedAt: checkpoint.signedAt, keyId: checkpoint.keyId };
     const fail = (finding: string) => ({ ...base, ok: false, finding });
-    if (checkpoint.organisationId !== organisationId) return fail(`it is a checkpoint of organisation ${checkpoint.organisationId}`);
+    if (checkpoint.organisationId !== organisationId)
+      return fail(`it is a checkpoint of organisation ${checkpoint.organisationId}`);
     const signatureFault = checkpointSignatureFault(checkpoint, publicKeyPem);
     if (signatureFault !== null) return fail(`not signed by this key: ${signatureFault}`);
     const row = bySeq.get(checkpoint.seq);
     if (!row) return fail(`the trail has no row ${checkpoint.seq}: it was cut after row ${chain.headSeq}`);
     if (row.hash !== checkpoint.headHash)
-      return fail(`row ${checkpoint.seq} has hash ${row.hash}, not the signed ${checkpoint.headHash}: the trail was rewritten`);
+      return fail(
+        `row ${checkpoint.seq} has hash ${row.hash}, not the signed ${checkpoint.headHash}: the trail was rewritten`,
+      );
     if (!chain.ok && chain.broken && chain.broken.seq <= checkpoint.seq)
       return fail(`the chain breaks at row ${chain.broken.seq}, before the checkpoint: ${chain.broken.reason}`);
     return { ...base, ok: true, finding: `rows 1 to ${checkpoint.seq} are the trail the service signed` };
@@ -62,7 +65,9 @@ export function checkpointsIn(value: unknown): SignedCheckpoint[] | null {
   const isCheckpoint = (v: unknown): v is SignedCheckpoint =>
     v !== null &&
     typeof v === 'object' &&
-    ['organisationId', 'headHash', 'signedAt', 'keyId', 'signature'].every((k) => typeof (v as Record<string, unknown>)[k] === 'string') &&
+    ['organisationId', 'headHash', 'signedAt', 'keyId', 'signature'].every(
+      (k) => typeof (v as Record<string, unknown>)[k] === 'string',
+    ) &&
     Number.isSafeInteger((v as Record<string, unknown>).seq);
   if (Array.isArray(value)) return value.every(isCheckpoint) ? value : null;
   if (isCheckpoint(value)) return [value];

@@ -58,7 +58,11 @@ export async function bumpFacilityMeterVersions(trx: Transaction<Database>, faci
  * undefined when the meter is not the organisation's, null when it has no
  * token yet (nothing may then be cached for it).
  */
-export async function meterVersion(db: Executor, organisationId: string, meterId: string): Promise<string | null | undefined> {
+export async function meterVersion(
+  db: Executor,
+  organisationId: string,
+  meterId: string,
+): Promise<string | null | undefined> {
   const row = await db
     .selectFrom('meters')
     .leftJoin('meter_data_versions', 'meter_data_versions.meter_id', 'meters.id')

@@ -25,7 +25,14 @@ const UNREACHABLE_STATES = new Set(['57P03', '08001', '08004', '53300']);
 
 /** Socket errors of Node (errno codes). */
 const CONNECTION_LOST_ERRNOS = new Set(['ECONNRESET', 'EPIPE', 'ECONNABORTED']);
-const UNREACHABLE_ERRNOS = new Set(['ECONNREFUSED', 'ETIMEDOUT', 'EHOSTUNREACH', 'ENETUNREACH', 'ENOTFOUND', 'EAI_AGAIN']);
+const UNREACHABLE_ERRNOS = new Set([
+  'ECONNREFUSED',
+  'ETIMEDOUT',
+  'EHOSTUNREACH',
+  'ENETUNREACH',
+  'ENOTFOUND',
+  'EAI_AGAIN',
+]);
 
 /** Messages of the pg client and pool, which carry no code. */
 const CONNECTION_LOST_MESSAGES = [

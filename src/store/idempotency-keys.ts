@@ -35,7 +35,15 @@ export async function reserveIdempotencyKey(
 ): Promise<boolean> {
   const inserted = await db
     .insertInto('idempotency_keys')
-    .values({ ...byId(id), request_hash: requestHash, status_code: null, response_body: null, content_type: null, created_at: at, holder })
+    .values({
+      ...byId(id),
+      request_hash: requestHash,
+      status_code: null,
+      response_body: null,
+      content_type: null,
+      created_at: at,
+      holder,
+    })
     .onConflict((oc) => oc.columns(['organisation_id', 'key']).doNothing())
     .executeTakeFirst();
   return Number(inserted.numInsertedOrUpdatedRows ?? 0n) === 1;
@@ -81,7 +89,10 @@ export async function renewIdempotencyKey(
  * gone (a process of this host that died mid-request), so a retry is served
  * at once. Returns how many were freed.
  */
-export async function releaseKeysOfGoneHolders(db: Kysely<Database>, isGone: (holder: string) => boolean): Promise<number> {
+export async function releaseKeysOfGoneHolders(
+  db: Kysely<Database>,
+  isGone: (holder: string) => boolean,
+): Promise<number> {
   const holders = await db
     .selectFrom('idempotency_keys')
     .select('holder')
@@ -103,7 +114,11 @@ export async function releaseKeysOfGoneHolders(db: Kysely<Database>, isGone: (ho
 }
 
 /** Keeps the key's answer for replay. */
-export async function recordIdempotentAnswer(db: Kysely<Database>, id: IdempotencyKeyId, answer: StoredAnswer): Promise<void> {
+export async function recordIdempotentAnswer(
+  db: Kysely<Database>,
+  id: IdempotencyKeyId,
+  answer: StoredAnswer,
+): Promise<void> {
   await db
     .updateTable('idempotency_keys')
     .set({ status_code: answer.statusCode, response_body: answer.body, content_type: answer.contentType })
@@ -114,5 +129,9 @@ export async function recordIdempotentAnswer(db: Kysely<Database>, id: Idempoten
 
 /** Frees the key: its request failed, so nothing was stored and the key may be used again. */
 export async function releaseIdempotencyKey(db: Kysely<Database>, id: IdempotencyKeyId): Promise<void> {
-  await db.deleteFrom('idempotency_keys').where('organisation_id', '=', id.organisationId).where('key', '=', id.key).execute();
+  await db
+    .deleteFrom('idempotency_keys')
+    .where('organisation_id', '=', id.organisationId)
+    .where('key', '=', id.key)
+    .execute();
 }

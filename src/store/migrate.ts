@@ -53,5 +53,9 @@ const POSTGRES_ATTEMPTS = 5;
  */
 function isConcurrentCatalogChange(error: unknown): boolean {
   const code = (error as { code?: unknown } | null)?.code;
-  return code === '3F000' || code === '42P01' || (code === 'XX000' && /cache lookup failed/.test(String((error as Error).message)));
+  return (
+    code === '3F000' ||
+    code === '42P01' ||
+    (code === 'XX000' && /cache lookup failed/.test(String((error as Error).message)))
+  );
 }

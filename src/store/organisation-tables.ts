@@ -25,20 +25,41 @@ export async function organisationTableRows(db: Executor, organisationId: string
   const meterIds = db.selectFrom('meters').select('id').where('organisation_id', '=', organisationId);
   const stationIds = db.selectFrom('weather_stations').select('id').where('organisation_id', '=', organisationId);
   const variableIds = db.selectFrom('variables').select('id').where('organisation_id', '=', organisationId);
-  const [readings, observations, rates, contracts, normalYears, adjustments, apiKeys, variables, variableValues, calendars] =
-    await Promise.all([
-      db.selectFrom('readings').selectAll().where('meter_id', 'in', meterIds).execute(),
-      db.selectFrom('weather_observations').selectAll().where('station_id', 'in', stationIds).execute(),
-      db.selectFrom('rates').selectAll().where('meter_id', 'in', meterIds).execute(),
-      db.selectFrom('contracts').selectAll().where('organisation_id', '=', organisationId).execute(),
-      db.selectFrom('normal_years').selectAll().where('station_id', 'in', stationIds).execute(),
-      db.selectFrom('adjustments').selectAll().where('organisation_id', '=', organisationId).execute(),
-      db.selectFrom('api_keys').selectAll().where('organisation_id', '=', organisationId).execute(),
-      db.selectFrom('variables').selectAll().where('organisation_id', '=', organisationId).execute(),
-      db.selectFrom('variable_values').selectAll().where('variable_id', 'in', variableIds).execute(),
-      db.selectFrom('facility_calendars').selectAll().where('organisation_id', '=', organisationId).execute(),
-    ]);
-  return { readings, observations, rates, contracts, normalYears, adjustments, apiKeys, variables, variableValues, calendars };
+  const [
+    readings,
+    observations,
+    rates,
+    contracts,
+    normalYears,
+    adjustments,
+    apiKeys,
+    variables,
+    variableValues,
+    calendars,
+  ] = await Promise.all([
+    db.selectFrom('readings').selectAll().where('meter_id', 'in', meterIds).execute(),
+    db.selectFrom('weather_observations').selectAll().where('station_id', 'in', stationIds).execute(),
+    db.selectFrom('rates').selectAll().where('meter_id', 'in', meterIds).execute(),
+    db.selectFrom('contracts').selectAll().where('organisation_id', '=', organisationId).execute(),
+    db.selectFrom('normal_years').selectAll().where('station_id', 'in', stationIds).execute(),
+    db.selectFrom('adjustments').selectAll().where('organisation_id', '=', organisationId).execute(),
+    db.selectFrom('api_keys').selectAll().where('organisation_id', '=', organisationId).execute(),
+    db.selectFrom('variables').selectAll().where('organisation_id', '=', organisationId).execute(),
+    db.selectFrom('variable_values').selectAll().where('variable_id', 'in', variableIds).execute(),
+    db.selectFrom('facility_calendars').selectAll().where('organisation_id', '=', organisationId).execute(),
+  ]);
+  return {
+    readings,
+    observations,
+    rates,
+    contracts,
+    normalYears,
+    adjustments,
+    apiKeys,
+    variables,
+    variableValues,
+    calendars,
+  };
 }
 
 /** The organisation's frozen and superseded baselines: the ones whose content was fixed by a freeze. */
@@ -53,7 +74,11 @@ export function fixedBaselineRows(db: Executor, organisationId: string) {
 }
 
 /** The organisation's audit rows in sequence order, a page at a time. */
-export async function* auditRowsInOrder(db: Executor, organisationId: string, pageSize = 2000): AsyncGenerator<AuditRow> {
+export async function* auditRowsInOrder(
+  db: Executor,
+  organisationId: string,
+  pageSize = 2000,
+): AsyncGenerator<AuditRow> {
   let afterSeq = 0;
   for (;;) {
     const page = await db

@@ -121,10 +121,18 @@ class ReadRetryDriver implements Driver {
   async savepoint(connection: DatabaseConnection, name: string, compile: QueryCompiler['compileQuery']): Promise<void> {
     await this.inner.savepoint!((connection as SwappableConnection).current, name, compile);
   }
-  async rollbackToSavepoint(connection: DatabaseConnection, name: string, compile: QueryCompiler['compileQuery']): Promise<void> {
+  async rollbackToSavepoint(
+    connection: DatabaseConnection,
+    name: string,
+    compile: QueryCompiler['compileQuery'],
+  ): Promise<void> {
     await this.inner.rollbackToSavepoint!((connection as SwappableConnection).current, name, compile);
   }
-  async releaseSavepoint(connection: DatabaseConnection, name: string, compile: QueryCompiler['compileQuery']): Promise<void> {
+  async releaseSavepoint(
+    connection: DatabaseConnection,
+    name: string,
+    compile: QueryCompiler['compileQuery'],
+  ): Promise<void> {
     await this.inner.releaseSavepoint!((connection as SwappableConnection).current, name, compile);
   }
   releaseConnection(connection: DatabaseConnection): Promise<void> {
@@ -143,5 +151,9 @@ function isConnectionLoss(error: unknown): boolean {
 /** A statement that only reads: a SELECT built by kysely, or raw SQL that is a plain SELECT. */
 function isReadOnly(query: CompiledQuery): boolean {
   if (query.query.kind === 'SelectQueryNode') return true;
-  return query.query.kind === 'RawNode' && /^\s*select\b/i.test(query.sql) && !/\bfor\s+(update|share|no\s+key|key)\b/i.test(query.sql);
+  return (
+    query.query.kind === 'RawNode' &&
+    /^\s*select\b/i.test(query.sql) &&
+    !/\bfor\s+(update|share|no\s+key|key)\b/i.test(query.sql)
+  );
 }

@@ -30,7 +30,9 @@ export function openSqlite(location: string): Store {
   connection.pragma('foreign_keys = ON');
   connection.pragma(`busy_timeout = ${SQLITE_BUSY_TIMEOUT_MS}`);
   connection.pragma('synchronous = NORMAL');
-  const db = new Kysely<Database>({ dialect: new ImmediateWriteSqliteDialect({ database: withStatementCache(connection) }) });
+  const db = new Kysely<Database>({
+    dialect: new ImmediateWriteSqliteDialect({ database: withStatementCache(connection) }),
+  });
   return {
     db,
     dialect: 'sqlite',

@@ -37,7 +37,10 @@ export function writeTransaction<T>(
  * write of this process lands between its queries either. For reads that
  * must agree with each other (an export, a report and the audit head it names).
  */
-export async function readSnapshot<T>(db: Kysely<Database>, work: (trx: Transaction<Database>) => Promise<T>): Promise<T> {
+export async function readSnapshot<T>(
+  db: Kysely<Database>,
+  work: (trx: Transaction<Database>) => Promise<T>,
+): Promise<T> {
   const run = () =>
     (db.getExecutor().adapter instanceof PostgresAdapter
       ? db.transaction().setIsolationLevel('repeatable read')
@@ -57,9 +60,14 @@ export async function readSnapshot<T>(db: Kysely<Database>, work: (trx: Transact
  * process as it went (a streamed report), where a second run would write
  * it twice. A connection that dies fails it.
  */
-export async function readSnapshotOnce<T>(db: Kysely<Database>, work: (trx: Transaction<Database>) => Promise<T>): Promise<T> {
+export async function readSnapshotOnce<T>(
+  db: Kysely<Database>,
+  work: (trx: Transaction<Database>) => Promise<T>,
+): Promise<T> {
   return (
-    db.getExecutor().adapter instanceof PostgresAdapter ? db.transaction().setIsolationLevel('repeatable read') : db.transaction()
+    db.getExecutor().adapter instanceof PostgresAdapter
+      ? db.transaction().setIsolationLevel('repeatable read')
+      : db.transaction()
   ).execute(work);
 }
 

@@ -41,7 +41,10 @@ function resolveSpecifier(root: string, fromAbsolute: string, specifier: string)
 }
 
 /** Reads every .ts file under `root/directory` and the files they import (which may lie outside it). */
-export function readImportGraph(root: string, directory: string): { graph: ImportGraph; unresolved: UnresolvedImport[] } {
+export function readImportGraph(
+  root: string,
+  directory: string,
+): { graph: ImportGraph; unresolved: UnresolvedImport[] } {
   const graph: ImportGraph = new Map();
   const unresolved: UnresolvedImport[] = [];
   for (const absolute of sourceFiles(join(root, directory))) {

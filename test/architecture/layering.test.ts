@@ -86,7 +86,8 @@ function layerViolations(graph: ImportGraph): { violations: string[]; unplaced: 
 
 function describeViolation(edge: string): string {
   const [from, to] = edge.split(' -> ') as [string, string];
-  if (areaOf(from) === 'services' && isDrawing(to)) return `${edge} (a service draws: charts and HTML are drawn by http or cli)`;
+  if (areaOf(from) === 'services' && isDrawing(to))
+    return `${edge} (a service draws: charts and HTML are drawn by http or cli)`;
   const fromLayer = LAYERS[LAYER_OF.get(areaOf(from))!]!.name;
   const toLayer = LAYERS[LAYER_OF.get(areaOf(to))!]!.name;
   return `${edge} (${areaOf(from)}, layer "${fromLayer}", imports ${areaOf(to)}, layer "${toLayer}")`;

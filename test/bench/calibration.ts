@@ -53,7 +53,13 @@ const SETTINGS = {
   weatherFree: { seed: 1002, meters: { daily: 150, bills: 400 }, noiseLevels: [IID, AR06, AR08] },
   recovery: { seed: 1003, metersPerTruth: 200, noiseLevels: [IID, AR06], climate: 'continental' as const },
   timing: { seed: 1004, meters: 5, runsPerMeter: 200, warmUp: 50 },
-  portfolios: { seed: 1005, portfoliosPerKind: 48, metersPerPortfolio: 20, intraClassCorrelations: [0, 0.3, 0.6], persistence: 0 },
+  portfolios: {
+    seed: 1005,
+    portfoliosPerKind: 48,
+    metersPerPortfolio: 20,
+    intraClassCorrelations: [0, 0.3, 0.6],
+    persistence: 0,
+  },
   normalised: { seed: 1006, metersPerClass: 120, noiseLevels: [IID, AR06] },
 };
 
@@ -93,7 +99,8 @@ const shapes = (counts: Partial<Record<ModelName, number>>): string =>
     .join(', ');
 /** Two decimals without a "-0.00". */
 const fixed2 = (value: number): string => (Math.abs(value) < 0.005 ? '0.00' : value.toFixed(2));
-const within = (value: number, range: { min: number; max: number }): boolean => value >= range.min && value <= range.max;
+const within = (value: number, range: { min: number; max: number }): boolean =>
+  value >= range.min && value <= range.max;
 const span = (values: readonly number[]): string => `${percent(Math.min(...values))}–${percent(Math.max(...values))}`;
 
 // ---- header ------------------------------------------------------------------
@@ -112,7 +119,9 @@ say(
   `  node ${process.version}, ${cpuList[0]?.model ?? 'unknown CPU'} × ${cpuList.length}, load average at start ${loadAtStart.map((v) => v.toFixed(2)).join(' ')}`,
 );
 say(`  runs: ${RUNTIME}`);
-say('  forms: mean = each bill against its mean temperature; daily = each bill against the mean of the daily response over its days');
+say(
+  '  forms: mean = each bill against its mean temperature; daily = each bill against the mean of the daily response over its days',
+);
 say(
   formsDiffer
     ? '  the engine honours temperatureForm: the two columns are the two methods'
@@ -139,7 +148,17 @@ for (const noise of a.noiseLevels) {
   say(`  noise ${noise.label} (daily noise spread 6–15% of mean use):`);
   say(
     table(
-      ['group', 'form', 'meters', 'mean false saving ± SE', 'covers 0: exact 68%', 'G14 68%', 'exact 90%', 'G14 90%', 'shapes chosen'],
+      [
+        'group',
+        'form',
+        'meters',
+        'mean false saving ± SE',
+        'covers 0: exact 68%',
+        'G14 68%',
+        'exact 90%',
+        'G14 90%',
+        'shapes chosen',
+      ],
       [...falseRows, ...pooledFalse]
         .filter((r) => r.noise === noise.label)
         .map((r) => [
@@ -177,7 +196,9 @@ say(
 );
 const dailyFalse = falseRows.filter((r) => r.form === 'daily');
 const dailyPooled = pooledFalse.filter((r) => r.form === 'daily');
-const worstMean = dailyFalse.reduce((worst, r) => (Math.abs(r.meanFalseSaving) > Math.abs(worst.meanFalseSaving) ? r : worst));
+const worstMean = dailyFalse.reduce((worst, r) =>
+  Math.abs(r.meanFalseSaving) > Math.abs(worst.meanFalseSaving) ? r : worst,
+);
 checkTarget({
   name: 'A mean false saving',
   target: `mean false saving within ±${percent(TARGETS.meanFalseSaving)} in every group (daily form)`,
@@ -195,7 +216,10 @@ for (const formula of ['exact', 'guideline14'] as const) {
     const pooled = dailyPooled.map((r) => `${r.noise} ${percent(r.coverage[key])}`).join(', ');
     const nominal = level === '68%' ? 0.68 : 0.9;
     const groupsOutside = dailyFalse.filter((r) => !within(r.coverage[key], range)).length;
-    const byChance = dailyFalse.reduce((sum, r) => sum + binomialShareOutside(r.meters, nominal, range.min, range.max), 0);
+    const byChance = dailyFalse.reduce(
+      (sum, r) => sum + binomialShareOutside(r.meters, nominal, range.min, range.max),
+      0,
+    );
     checkTarget({
       name: `A ${formula} ${level} coverage`,
       target: `${formula} ${level} band covers 0 in ${percent(range.min, 0)}–${percent(range.max, 0)} of years, all groups of each noise level (daily form)`,
@@ -255,7 +279,18 @@ say(
 const recoveryRows = trueShapeRecovery(rec);
 say(
   table(
-    ['truth', 'noise', 'form', 'meters', 'left out', 'recovered', 'over-fitted', 'under-fitted', 'other, same p', 'shapes chosen'],
+    [
+      'truth',
+      'noise',
+      'form',
+      'meters',
+      'left out',
+      'recovered',
+      'over-fitted',
+      'under-fitted',
+      'other, same p',
+      'shapes chosen',
+    ],
     recoveryRows.map((r) => [
       r.truth,
       r.noise,
@@ -355,11 +390,14 @@ for (const combiner of combinerNames) {
   );
 }
 // Judged on all portfolios with ICC > 0 together (one cell of 48 has a standard error of about 7 points); the cells' range beside it.
-const correlated = portfolioRows.filter((r) => r.form === 'daily' && r.intraClassCorrelation > 0 && r.formula === 'exact');
+const correlated = portfolioRows.filter(
+  (r) => r.form === 'daily' && r.intraClassCorrelation > 0 && r.formula === 'exact',
+);
 for (const combiner of combinerNames) {
   const rows = correlated.filter((r) => r.combiner === combiner);
   const total = rows.reduce((sum, r) => sum + r.portfolios, 0);
-  const pooled = (value: (r: PortfolioRow) => number): number => rows.reduce((sum, r) => sum + r.portfolios * value(r), 0) / total;
+  const pooled = (value: (r: PortfolioRow) => number): number =>
+    rows.reduce((sum, r) => sum + r.portfolios * value(r), 0) / total;
   for (const [level, range, value] of [
     ['68%', TARGETS.portfolioOutside68, (r: PortfolioRow) => r.outside68],
     ['90%', TARGETS.portfolioOutside90, (r: PortfolioRow) => r.outside90],
@@ -428,7 +466,8 @@ say(
 const roundDeep = (value: unknown): unknown => {
   if (typeof value === 'number') return round(value);
   if (Array.isArray(value)) return value.map(roundDeep);
-  if (value && typeof value === 'object') return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, roundDeep(v)]));
+  if (value && typeof value === 'object')
+    return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, roundDeep(v)]));
   return value;
 };
 const record = {

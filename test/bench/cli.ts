@@ -48,7 +48,10 @@ function main(): void {
     const days = Array.from({ length: 1096 }, (_, d) => addDays('2023-01-01', d));
     const temps = days.map((_, d) => 52 - 22 * Math.cos((2 * Math.PI * (d - 20)) / 365.25) + 5 * random.normal());
     const use = (t: number, scale: number) => scale * (400 + 9 * Math.max(0, 55 - t) + 14 * Math.max(0, t - 68));
-    writeFileSync(join(folder, 'weather.csv'), `date,temp\n${days.map((d, k) => `${d},${temps[k]!.toFixed(1)}`).join('\n')}\n`);
+    writeFileSync(
+      join(folder, 'weather.csv'),
+      `date,temp\n${days.map((d, k) => `${d},${temps[k]!.toFixed(1)}`).join('\n')}\n`,
+    );
     const bills = (scale: number) => {
       const rows: string[] = [];
       for (let k = 0; k < 36; k++) {
@@ -61,10 +64,13 @@ function main(): void {
       return rows;
     };
     writeFileSync(join(folder, 'bills.csv'), `start,end,quantity\n${bills(1).join('\n')}\n`);
-    const daily = days.map((d, k) => `${d},${addDays(d, 1)},${(use(temps[k]!, 1) * (1 + 0.05 * random.normal())).toFixed(1)}`);
+    const daily = days.map(
+      (d, k) => `${d},${addDays(d, 1)},${(use(temps[k]!, 1) * (1 + 0.05 * random.normal())).toFixed(1)}`,
+    );
     writeFileSync(join(folder, 'daily.csv'), `start,end,quantity\n${daily.join('\n')}\n`);
     const batch: string[] = [];
-    for (let m = 0; m < meters; m++) for (const row of bills(0.5 + random.uniform())) batch.push(`meter-${m + 1},${row}`);
+    for (let m = 0; m < meters; m++)
+      for (const row of bills(0.5 + random.uniform())) batch.push(`meter-${m + 1},${row}`);
     writeFileSync(join(folder, 'batch.csv'), `meter,start,end,quantity\n${batch.join('\n')}\n`);
     const weather = join(folder, 'weather.csv');
 
@@ -72,7 +78,10 @@ function main(): void {
     const bills36 = medianOf([BIN, 'fit', '--readings', join(folder, 'bills.csv'), '--weather', weather]);
     const daily1096 = medianOf([BIN, 'fit', '--readings', join(folder, 'daily.csv'), '--weather', weather]);
     const floorAgain = medianOf(['-e', '0']);
-    const batchRun = medianOf([BIN, 'fit', '--batch', '--readings', join(folder, 'batch.csv'), '--weather', weather], 1);
+    const batchRun = medianOf(
+      [BIN, 'fit', '--batch', '--readings', join(folder, 'batch.csv'), '--weather', weather],
+      1,
+    );
     const results = {
       measuredAt: new Date().toISOString(),
       node: process.version,
@@ -87,8 +96,12 @@ function main(): void {
     const ms = (v: number) => `${v.toFixed(0)} ms`;
     console.log(`command line, whole process (/usr/bin/time, median of ${REPS}; load ${results.load}):`);
     console.log(`  node -e 0 (the floor):          ${ms(floor.medianMs)} (again after: ${ms(floorAgain.medianMs)})`);
-    console.log(`  fit, 36 bills:                  ${ms(bills36.medianMs)} (target 250 ms), ${bills36.rssMb.toFixed(0)} MiB`);
-    console.log(`  fit, 1,096 daily readings:      ${ms(daily1096.medianMs)} (target 400 ms), ${daily1096.rssMb.toFixed(0)} MiB`);
+    console.log(
+      `  fit, 36 bills:                  ${ms(bills36.medianMs)} (target 250 ms), ${bills36.rssMb.toFixed(0)} MiB`,
+    );
+    console.log(
+      `  fit, 1,096 daily readings:      ${ms(daily1096.medianMs)} (target 400 ms), ${daily1096.rssMb.toFixed(0)} MiB`,
+    );
     console.log(
       `  fit --batch, ${meters} meters × 36 bills: ${ms(batchRun.medianMs)} (one run; target 3,000 ms), ${(batchRun.medianMs / meters).toFixed(1)} ms per meter`,
     );

@@ -101,7 +101,8 @@ export function dayResolvedData(): DayResolvedData {
   const dailyUse = weather.map((day, d) => signature(s.building, day.temp) + noise[d]!);
   const readings = readingsFromDailyUse(readDates, s.firstRead, dailyUse);
   const { periods, excluded } = alignPeriods(readings, weather);
-  if (excluded.length > 0 || periods.length !== s.bills) throw new Error('bench data: every bill should be covered by the weather');
+  if (excluded.length > 0 || periods.length !== s.bills)
+    throw new Error('bench data: every bill should be covered by the weather');
   return { readings, weather, periods };
 }
 
@@ -127,8 +128,14 @@ function timeForms(data: DayResolvedData): Record<Form, FormTimes> {
   const empty = <K extends string>(keys: readonly K[]): Record<K, number[]> =>
     Object.fromEntries(keys.map((key) => [key, [] as number[]])) as Record<K, number[]>;
   const series = Object.fromEntries(
-    forms.map((form) => [form, { analyse: [] as number[], choose: [] as number[], fit: empty(MODEL_NAMES), search: empty(HINGE_SHAPES) }]),
-  ) as Record<Form, { analyse: number[]; choose: number[]; fit: Record<ModelName, number[]>; search: Record<HingeShape, number[]> }>;
+    forms.map((form) => [
+      form,
+      { analyse: [] as number[], choose: [] as number[], fit: empty(MODEL_NAMES), search: empty(HINGE_SHAPES) },
+    ]),
+  ) as Record<
+    Form,
+    { analyse: number[]; choose: number[]; fit: Record<ModelName, number[]>; search: Record<HingeShape, number[]> }
+  >;
   for (let i = 0; i < warmUp + runs; i++) {
     const kept = i >= warmUp;
     const keep = (into: number[], [value]: number[]): void => {
@@ -163,10 +170,16 @@ function timeForms(data: DayResolvedData): Record<Form, FormTimes> {
     analyseP90Ms: quantile(series[form].analyse, 0.9),
     chooseMs: median(series[form].choose),
     chooseP90Ms: quantile(series[form].choose, 0.9),
-    fitMs: Object.fromEntries(MODEL_NAMES.map((model) => [model, median(series[form].fit[model])])) as Record<ModelName, number>,
+    fitMs: Object.fromEntries(MODEL_NAMES.map((model) => [model, median(series[form].fit[model])])) as Record<
+      ModelName,
+      number
+    >,
     searchMs:
       form === 'daily'
-        ? (Object.fromEntries(HINGE_SHAPES.map((shape) => [shape, median(series[form].search[shape])])) as Record<HingeShape, number>)
+        ? (Object.fromEntries(HINGE_SHAPES.map((shape) => [shape, median(series[form].search[shape])])) as Record<
+            HingeShape,
+            number
+          >)
         : null,
     selected: chooseBaseline(data.periods, { temperatureForm: form }).selected,
   });
@@ -218,7 +231,12 @@ function medianPhases(results: readonly ReferenceResult[]): ShapeFigures['gridPh
   };
 }
 
-function compareShape(data: DayResolvedData, shape: HingeShape, exactMedianMs: number, searchMedianMs: number): ShapeFigures {
+function compareShape(
+  data: DayResolvedData,
+  shape: HingeShape,
+  exactMedianMs: number,
+  searchMedianMs: number,
+): ShapeFigures {
   const { gridStep, minPoints, gridRuns, gridWarmUp, fivePointLongMs, fivePointRuns } = DAY_RESOLVED_SETTINGS;
   const search = (): ReferenceResult => requireResult(referenceSearch(shape, data.periods, gridStep, minPoints), shape);
   let gridMs: number;
@@ -295,7 +313,10 @@ export interface DayResolvedSection {
 }
 
 /** Run section 5: print as it goes, hand back the record and the two targets. */
-export function runDayResolvedSection(say: (text?: string) => void, checkTarget: (result: TargetResult) => void): DayResolvedSection {
+export function runDayResolvedSection(
+  say: (text?: string) => void,
+  checkTarget: (result: TargetResult) => void,
+): DayResolvedSection {
   const startedAt = performance.now();
   const targets: TargetResult[] = [];
   const check = (result: TargetResult): void => {
@@ -322,7 +343,9 @@ export function runDayResolvedSection(say: (text?: string) => void, checkTarget:
     `  invented continental-like climate: seasonal ${c.mean - c.amplitude}–${c.mean + c.amplitude} °F, spells of spread ${c.dailySpread} °F (persistence ${c.persistence}), to 0.1°; ` +
       `days ${dayRange.min.toFixed(1)} to ${dayRange.max.toFixed(1)} °F, ${count(distinct)} distinct daily temperatures; aligned with alignPeriods`,
   );
-  say('  each timed call gets a fresh copy of the periods array, so the engine builds its day-sorted view every time, as a real fit does');
+  say(
+    '  each timed call gets a fresh copy of the periods array, so the engine builds its day-sorted view every time, as a real fit does',
+  );
 
   const forms = timeForms(data);
   const timingRows: string[][] = [
@@ -355,7 +378,15 @@ export function runDayResolvedSection(say: (text?: string) => void, checkTarget:
       '',
     ]),
   ];
-  say(table(['call', 'daily median', 'daily p90', 'mean-form median', 'daily/mean'], timingRows, [false, true, true, true, true]));
+  say(
+    table(['call', 'daily median', 'daily p90', 'mean-form median', 'daily/mean'], timingRows, [
+      false,
+      true,
+      true,
+      true,
+      true,
+    ]),
+  );
   say(
     `  six fits together: daily ${ms(sixFits(forms.daily))}, mean ${ms(sixFits(forms.mean))}; the rest of chooseBaseline (screening, tests, reasons; difference of medians) ≈ ` +
       `daily ${ms(Math.max(0, forms.daily.chooseMs - sixFits(forms.daily)))}, mean ${ms(Math.max(0, forms.mean.chooseMs - sixFits(forms.mean)))}`,
@@ -381,7 +412,9 @@ export function runDayResolvedSection(say: (text?: string) => void, checkTarget:
   say(
     `   "exact ≤ grid" compares with the polished reference, allowing a relative rounding of ${SSE_RELATIVE_TOLERANCE}; "grid/search" sets the reference beside the engine's search alone.`,
   );
-  const shapes = HINGE_SHAPES.map((shape) => compareShape(data, shape, forms.daily.fitMs[shape], forms.daily.searchMs![shape]));
+  const shapes = HINGE_SHAPES.map((shape) =>
+    compareShape(data, shape, forms.daily.fitMs[shape], forms.daily.searchMs![shape]),
+  );
   say(
     table(
       [
@@ -429,7 +462,9 @@ export function runDayResolvedSection(say: (text?: string) => void, checkTarget:
   );
   const five = shapes.find((f) => f.shape === '5P')!;
   if (five.gridTiming !== 'median')
-    say(`  5P grid timed once: its first run took ${ms(five.gridMs)} (> ${ms(s.fivePointLongMs)}), so it was not repeated`);
+    say(
+      `  5P grid timed once: its first run took ${ms(five.gridMs)} (> ${ms(s.fivePointLongMs)}), so it was not repeated`,
+    );
   const exactCheck = Math.max(...shapes.map((f) => relativeDifference(f.exactSse, f.exactSseByReference)));
   const engineCheck = Math.max(...shapes.map((f) => relativeDifference(f.gridSse, f.gridSseByEngine)));
   say(
@@ -457,7 +492,9 @@ export function runDayResolvedSection(say: (text?: string) => void, checkTarget:
     chooseBaselineP90Ms: round(f.chooseP90Ms),
     sixFitsMs: round(sixFits(f)),
     fitShapeMedianMs: Object.fromEntries(MODEL_NAMES.map((model) => [model, round(f.fitMs[model])])),
-    ...(f.searchMs ? { searchMedianMs: Object.fromEntries(HINGE_SHAPES.map((shape) => [shape, round(f.searchMs![shape])])) } : {}),
+    ...(f.searchMs
+      ? { searchMedianMs: Object.fromEntries(HINGE_SHAPES.map((shape) => [shape, round(f.searchMs![shape])])) }
+      : {}),
     selected: f.selected,
   });
   const record = {
@@ -486,7 +523,11 @@ export function runDayResolvedSection(say: (text?: string) => void, checkTarget:
       gridMs: round(f.gridMs),
       gridTiming: f.gridTiming,
       gridRuns: f.gridRuns,
-      gridPhaseMedianMs: { columns: round(f.gridPhaseMs.columns), grid: round(f.gridPhaseMs.grid), polish: round(f.gridPhaseMs.polish) },
+      gridPhaseMedianMs: {
+        columns: round(f.gridPhaseMs.columns),
+        grid: round(f.gridPhaseMs.grid),
+        polish: round(f.gridPhaseMs.polish),
+      },
       pointsVisited: f.pointsVisited,
       pointsRefitted: f.pointsRefitted,
       ratio: round(f.ratio, 3),

@@ -237,7 +237,13 @@ export function referenceSse(
   return sseAt(readingsOf(periods), shape, heating, cooling, k);
 }
 
-function sseAt(readings: Readings, shape: HingeShape, heating: number | null, cooling: number | null, k: number): number {
+function sseAt(
+  readings: Readings,
+  shape: HingeShape,
+  heating: number | null,
+  cooling: number | null,
+  k: number,
+): number {
   const n = readings.n;
   const h = new Float64Array(n);
   const c = new Float64Array(n);
@@ -273,7 +279,12 @@ const POLISH_ROUNDS: Record<HingeShape, number> = { '3PC': 1, '3PH': 1, '4P': 1,
 // ---- the search -------------------------------------------------------------------
 
 /** The grid (5P: every pair cH ≤ cC) with a refit at each point, then the polish. */
-export function referenceSearch(shape: HingeShape, periods: readonly Period[], step: number, k: number): ReferenceResult | null {
+export function referenceSearch(
+  shape: HingeShape,
+  periods: readonly Period[],
+  step: number,
+  k: number,
+): ReferenceResult | null {
   const t0 = performance.now();
   const readings = readingsOf(periods);
   const grid = referenceGrid(periods, step);
@@ -334,9 +345,13 @@ export function referenceSearch(shape: HingeShape, periods: readonly Period[], s
   for (let round = 0; round < POLISH_ROUNDS[shape]; round++) {
     if (current.heating !== null) {
       const cooling = current.cooling;
-      const f = shape === '4P' ? (x: number) => sseAt(readings, shape, x, x, k) : (x: number) => sseAt(readings, shape, x, cooling, k);
+      const f =
+        shape === '4P'
+          ? (x: number) => sseAt(readings, shape, x, x, k)
+          : (x: number) => sseAt(readings, shape, x, cooling, k);
       const found = goldenMinimum(f, current.heating - step, current.heating + step, POLISH_ITERATIONS);
-      if (found.value < current.sse) current = { heating: found.x, cooling: shape === '4P' ? found.x : current.cooling, sse: found.value };
+      if (found.value < current.sse)
+        current = { heating: found.x, cooling: shape === '4P' ? found.x : current.cooling, sse: found.value };
     }
     if (current.cooling !== null && shape !== '4P') {
       const heating = current.heating;

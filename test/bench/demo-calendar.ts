@@ -30,9 +30,15 @@ for (const [label, options] of [
 ] as const) {
   const analysis = analyseBaseline(baseline, weather, options);
   const chosen = analysis.choice.candidates.find((c) => c.model === analysis.choice.selected)!;
-  const savings = savingsFromFit(chosen.fit!, { limits: analysis.choice.settings.guideline14, excluded: [] }, reporting, weather, {
-    variableSeries: series,
-  });
+  const savings = savingsFromFit(
+    chosen.fit!,
+    { limits: analysis.choice.settings.guideline14, excluded: [] },
+    reporting,
+    weather,
+    {
+      variableSeries: series,
+    },
+  );
   console.log(
     `${label}: ${chosen.model}${analysis.choice.variables?.length ? ` + ${analysis.choice.variables.join(', ')}` : ''}, CV(RMSE) ${(chosen.fit!.stats.cvrmse * 100).toFixed(1)}%, Guideline 14 ${savings.baseline.guideline14?.pass ? 'met' : 'not met'}; 2025 avoided energy ${Math.round(savings.totals.savings)} kWh`,
   );

@@ -12,8 +12,20 @@
  * Not part of `npm run bench` or the tests: a measurement for the README's
  * caution. Invented data throughout.
  */
-import { analyseBaseline, savingsFromFit, type DailyTemperature, type TemperatureForm } from '../../src/engine/index.js';
-import { BASELINE_END, BASELINE_START, DEMO_FACILITIES, REPORTING_END, demoBills, demoWeather } from '../../src/demo/scenario.js';
+import {
+  analyseBaseline,
+  savingsFromFit,
+  type DailyTemperature,
+  type TemperatureForm,
+} from '../../src/engine/index.js';
+import {
+  BASELINE_END,
+  BASELINE_START,
+  DEMO_FACILITIES,
+  REPORTING_END,
+  demoBills,
+  demoWeather,
+} from '../../src/demo/scenario.js';
 
 const FORMS: readonly TemperatureForm[] = ['mean', 'daily'];
 const EXTRA_SEEDS = 40;
@@ -38,9 +50,15 @@ function noRetrofitYear(
   const reporting = demoBills(plan, byDate, BASELINE_END, REPORTING_END, 0, reportingSeed); // saving 0: no retrofit, no change
   const analysis = analyseBaseline(baseline, weather, { temperatureForm: form });
   const fit = analysis.choice.candidates.find((c) => c.model === analysis.choice.selected)!.fit!;
-  const savings = savingsFromFit(fit, { limits: analysis.choice.settings.guideline14, excluded: analysis.excluded }, reporting, weather, {
-    confidence: 0.68,
-  });
+  const savings = savingsFromFit(
+    fit,
+    { limits: analysis.choice.settings.guideline14, excluded: analysis.excluded },
+    reporting,
+    weather,
+    {
+      confidence: 0.68,
+    },
+  );
   const t = savings.totals;
   return {
     fraction: t.fractionSaved,
@@ -55,7 +73,9 @@ const weather = demoWeather();
 const byDate = new Map(weather.map((d) => [d.date, d.temp]));
 const meters = DEMO_FACILITIES.flatMap((f) => f.meters.map((m) => `${f.name}, ${m.name}`));
 
-console.log('The demo district on a 2025 with no retrofit: "savings" of each frozen model (± at 68%, the larger of the two formulas)\n');
+console.log(
+  'The demo district on a 2025 with no retrofit: "savings" of each frozen model (± at 68%, the larger of the two formulas)\n',
+);
 for (const form of FORMS) {
   console.log(`${form === 'daily' ? 'Day-resolved' : 'Mean'} form, the demo's own bills (npm run demo's seeds):`);
   let beyond = 0;

@@ -69,7 +69,10 @@ function requireOptimum(optimum: GridOptimum | null, shape: HingeShape): GridOpt
 function compare(
   shape: HingeShape,
   exact: ExactSide,
-  grid: Omit<ShapeComparison, 'shape' | 'exactMedianMs' | 'exactRuns' | 'ratio' | 'exactSse' | 'exactNotWorse' | 'exactChangepoints'>,
+  grid: Omit<
+    ShapeComparison,
+    'shape' | 'exactMedianMs' | 'exactRuns' | 'ratio' | 'exactSse' | 'exactNotWorse' | 'exactChangepoints'
+  >,
 ): ShapeComparison {
   return {
     shape,
@@ -130,7 +133,11 @@ export function compareByOneRun(periods: readonly Period[], shape: HingeShape, e
  * cost fits the budget the full grid is run once, otherwise the estimate is
  * reported with the reduced range's SSE.
  */
-export function compareFivePointWithinBudget(periods: readonly Period[], exact: ExactSide, budgetMs: number): ShapeComparison {
+export function compareFivePointWithinBudget(
+  periods: readonly Period[],
+  exact: ExactSide,
+  budgetMs: number,
+): ShapeComparison {
   const { x, y, w } = columns(periods);
   const fullGrid = temperatureGrid(x, GRID_STEP);
   const [cH, cC] = exact.changepoints;

@@ -33,5 +33,7 @@ export const RUNTIME = COMPILED
 
 /** The node arguments that start the service: the built server when compiled, the TypeScript source under tsx otherwise. */
 export function serverArguments(): string[] {
-  return COMPILED ? [join(REPO_ROOT, 'dist', 'src', 'server.js')] : ['--import', 'tsx', join(REPO_ROOT, 'src', 'server.ts')];
+  return COMPILED
+    ? [join(REPO_ROOT, 'dist', 'src', 'server.js')]
+    : ['--import', 'tsx', join(REPO_ROOT, 'src', 'server.ts')];
 }

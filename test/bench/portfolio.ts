@@ -117,8 +117,15 @@ async function main(): Promise<void> {
   const databases = (process.env.PORTFOLIO_DATABASES ?? 'sqlite,postgres').split(',');
   const reference = process.env.PORTFOLIO_REFERENCE !== 'off';
   const meters = facilities * FULL_PORTFOLIO.metersPerFacility;
-  console.log(`streamed report, invented portfolio of ${facilities} facilities and ${meters} meters, quarter 2025-Q3 (${RUNTIME}):`);
-  const results: Record<string, unknown> = { measuredAt: new Date().toISOString(), node: process.version, facilities, meters };
+  console.log(
+    `streamed report, invented portfolio of ${facilities} facilities and ${meters} meters, quarter 2025-Q3 (${RUNTIME}):`,
+  );
+  const results: Record<string, unknown> = {
+    measuredAt: new Date().toISOString(),
+    node: process.version,
+    facilities,
+    meters,
+  };
   for (const database of databases) {
     const prepared = await prepare(database, facilities);
     try {

@@ -2,7 +2,11 @@
  * Plain-text layout of the benchmark figures: aligned tables, and a target
  * line that says PASS or MISS (a miss is reported, never thrown).
  */
-export function table(headers: readonly string[], rows: readonly (readonly string[])[], rightAligned: readonly boolean[] = []): string {
+export function table(
+  headers: readonly string[],
+  rows: readonly (readonly string[])[],
+  rightAligned: readonly boolean[] = [],
+): string {
   const widths = headers.map((h, j) => Math.max(h.length, ...rows.map((row) => (row[j] ?? '').length)));
   const line = (cells: readonly string[]): string =>
     cells

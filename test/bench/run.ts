@@ -19,7 +19,14 @@ import { join, relative } from 'node:path';
 import { cpus, loadavg } from 'node:os';
 import { deepStrictEqual } from 'node:assert/strict';
 import { performance } from 'node:perf_hooks';
-import { alignPeriods, chooseBaseline, fitShape, MODEL_NAMES, type ModelName, type Period } from '../../src/engine/index.js';
+import {
+  alignPeriods,
+  chooseBaseline,
+  fitShape,
+  MODEL_NAMES,
+  type ModelName,
+  type Period,
+} from '../../src/engine/index.js';
 import { BENCH_BUILDING, dailyMeter, monthlyMeter, variedBuilding } from './synthetic-building.js';
 import { collectGarbage, heapUsedMb, median, quantile, timeEach } from './timing.js';
 import {
@@ -75,7 +82,9 @@ const resultsFile = join(RESULTS_DIR, 'engine-latest.json');
 
 const onlySection = process.env.ENGINE_BENCH_ONLY;
 if (onlySection !== undefined && onlySection !== 'day-resolved') {
-  throw new Error(`ENGINE_BENCH_ONLY: unknown section "${onlySection}" (the one section that runs alone is "day-resolved")`);
+  throw new Error(
+    `ENGINE_BENCH_ONLY: unknown section "${onlySection}" (the one section that runs alone is "day-resolved")`,
+  );
 }
 if (onlySection === 'day-resolved') {
   runDayResolvedAlone();
@@ -88,7 +97,9 @@ if (onlySection === 'day-resolved') {
  */
 function runDayResolvedAlone(): void {
   const cpu = cpus();
-  say('Engine benchmark, section 5 only (ENGINE_BENCH_ONLY=day-resolved; invented, seeded data; medians of individually timed runs)');
+  say(
+    'Engine benchmark, section 5 only (ENGINE_BENCH_ONLY=day-resolved; invented, seeded data; medians of individually timed runs)',
+  );
   say(
     `  node ${process.version}, ${cpu[0]?.model ?? 'unknown CPU'} × ${cpu.length}, load average at start ${loadAtStart.map((v) => v.toFixed(2)).join(' ')}`,
   );
@@ -100,7 +111,9 @@ function runDayResolvedAlone(): void {
     ? (JSON.parse(readFileSync(resultsFile, 'utf8')) as Record<string, unknown>)
     : { benchmark: 'engine', command: 'npm run bench' };
   const names = new Set(section.targets.map((t) => t.name));
-  const kept = Array.isArray(previous.targets) ? (previous.targets as { name?: string }[]).filter((t) => !names.has(t.name ?? '')) : [];
+  const kept = Array.isArray(previous.targets)
+    ? (previous.targets as { name?: string }[]).filter((t) => !names.has(t.name ?? ''))
+    : [];
   const merged: Record<string, unknown> = { ...previous };
   delete merged.targets;
   delete merged.runtimeSeconds;
@@ -164,7 +177,10 @@ interface ChoiceFigures {
 /** Choice and the six single fits timed in the same loop, so both see the same machine conditions. */
 function measureChoice(periods: readonly Period[], runs: number, warmUp: number): ChoiceFigures {
   const choiceTimes: number[] = [];
-  const fitTimes = Object.fromEntries(MODEL_NAMES.map((model) => [model, [] as number[]])) as Record<ModelName, number[]>;
+  const fitTimes = Object.fromEntries(MODEL_NAMES.map((model) => [model, [] as number[]])) as Record<
+    ModelName,
+    number[]
+  >;
   for (let i = 0; i < warmUp + runs; i++) {
     const kept = i >= warmUp;
     const [choiceMs] = timeEach(() => chooseBaseline(periods), 1, 0);
@@ -174,7 +190,10 @@ function measureChoice(periods: readonly Period[], runs: number, warmUp: number)
       if (kept) fitTimes[model].push(fitMs!);
     }
   }
-  const fitMs = Object.fromEntries(MODEL_NAMES.map((model) => [model, median(fitTimes[model])])) as Record<ModelName, number>;
+  const fitMs = Object.fromEntries(MODEL_NAMES.map((model) => [model, median(fitTimes[model])])) as Record<
+    ModelName,
+    number
+  >;
   return {
     periods: periods.length,
     runs,
@@ -223,7 +242,9 @@ say();
 
 // ---- 3: refit 10,000 meters -------------------------------------------------
 
-say(`3) Refit ${count(SETTINGS.refitMeters)} monthly 36-period meters, different seeded data each (building varied ±2 °F, ×0.8–1.2)`);
+say(
+  `3) Refit ${count(SETTINGS.refitMeters)} monthly 36-period meters, different seeded data each (building varied ±2 °F, ×0.8–1.2)`,
+);
 const meters: Period[][] = [];
 for (let i = 0; i < SETTINGS.refitMeters; i++) {
   const seed = SETTINGS.refitFirstSeed + i;
@@ -254,9 +275,16 @@ const refit = {
   p90Ms: quantile(refitList, 0.9),
   maxMs: Math.max(...refitList),
   selectedCounts,
-  heapMb: { before: heapBefore, afterNoGc: heapAfter, sampledPeak: Math.max(heapPeak, heapAfter), afterGc: heapAfterGc },
+  heapMb: {
+    before: heapBefore,
+    afterNoGc: heapAfter,
+    sampledPeak: Math.max(heapPeak, heapAfter),
+    afterGc: heapAfterGc,
+  },
 };
-say(`  total ${ms(refit.totalMs)}; median ${ms(refit.medianMs)} per meter (p90 ${ms(refit.p90Ms)}, slowest ${ms(refit.maxMs)})`);
+say(
+  `  total ${ms(refit.totalMs)}; median ${ms(refit.medianMs)} per meter (p90 ${ms(refit.p90Ms)}, slowest ${ms(refit.maxMs)})`,
+);
 say(
   `  selected shapes: ${MODEL_NAMES.filter((m) => selectedCounts[m])
     .map((m) => `${m} ${count(selectedCounts[m]!)}`)
@@ -345,7 +373,9 @@ say(
   '   exact = median of the public fitShape from 1) and 2) (search + regression + statistics); grid = the changepoint search only; both keep ≥ 3 points per segment.',
 );
 say(`   SSE = Σ days·(use per day − fitted)²; "exact ≤ grid" allows a relative rounding of ${SSE_RELATIVE_TOLERANCE}.`);
-say(`  ${monthly.periods.length} monthly periods (grid: median of the runs shown, after ${SETTINGS.gridMonthlyWarmUp} warm-up)`);
+say(
+  `  ${monthly.periods.length} monthly periods (grid: median of the runs shown, after ${SETTINGS.gridMonthlyWarmUp} warm-up)`,
+);
 const monthlyGrid: GridFigures = (() => {
   const shapes = HINGE_SHAPES.map((shape) =>
     compareByMedian(
@@ -357,7 +387,12 @@ const monthlyGrid: GridFigures = (() => {
     ),
   );
   const gridTotalMs = shapes.reduce((sum, c) => sum + c.gridMs, 0);
-  return { shapes, exactChoiceMs: monthlyChoice.medianMs, gridTotalMs, wholeRatio: gridTotalMs / monthlyChoice.medianMs };
+  return {
+    shapes,
+    exactChoiceMs: monthlyChoice.medianMs,
+    gridTotalMs,
+    wholeRatio: gridTotalMs / monthlyChoice.medianMs,
+  };
 })();
 printComparison(monthlyGrid);
 gridTarget('36 monthly periods', monthlyGrid);

@@ -59,7 +59,8 @@ async function main(): Promise<void> {
       renderHtml: summary(await timeAsync(async () => renderReportHtml(yearReport))),
       referenceSixMeterSavings: summary(
         await timeAsync(async () => {
-          for (const id of meterIds) await meterSavings(store.db, organisationId, id, { from: '2025-01-01', to: '2026-01-01' });
+          for (const id of meterIds)
+            await meterSavings(store.db, organisationId, id, { from: '2025-01-01', to: '2026-01-01' });
         }),
       ),
       httpContractYearHtml: summary(

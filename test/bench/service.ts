@@ -25,7 +25,14 @@ import autocannon from 'autocannon';
 import SQLite from 'better-sqlite3';
 import pg from 'pg';
 import { addDays, analyseBaseline, savingsFromFit } from '../../src/engine/index.js';
-import { BASELINE_END, BASELINE_START, DEMO_FACILITIES, REPORTING_END, demoBills, demoWeather } from '../../src/demo/scenario.js';
+import {
+  BASELINE_END,
+  BASELINE_START,
+  DEMO_FACILITIES,
+  REPORTING_END,
+  demoBills,
+  demoWeather,
+} from '../../src/demo/scenario.js';
 import { median, quantile } from './timing.js';
 import { postgresReachable, testPostgresUrl } from '../support/database.js';
 import { freePort } from '../support/ports.js';
@@ -41,7 +48,10 @@ const BATCH = 2_500;
 const LOAD_SECONDS = 10;
 const CONNECTIONS = 10;
 
-async function startServer(databaseUrl: string, extraEnv: Record<string, string> = {}): Promise<{ child: ChildProcess; base: string }> {
+async function startServer(
+  databaseUrl: string,
+  extraEnv: Record<string, string> = {},
+): Promise<{ child: ChildProcess; base: string }> {
   const port = await freePort();
   const child = spawn(process.execPath, serverArguments(), {
     env: {
@@ -72,7 +82,10 @@ async function startServer(databaseUrl: string, extraEnv: Record<string, string>
 async function api(base: string, method: string, path: string, body?: unknown): Promise<any> {
   const response = await fetch(`${base}${path}`, {
     method,
-    headers: { authorization: `Bearer ${BOOTSTRAP_KEY}`, ...(body === undefined ? {} : { 'content-type': 'application/json' }) },
+    headers: {
+      authorization: `Bearer ${BOOTSTRAP_KEY}`,
+      ...(body === undefined ? {} : { 'content-type': 'application/json' }),
+    },
     ...(body === undefined ? {} : { body: JSON.stringify(body) }),
   });
   const text = await response.text();
@@ -252,7 +265,9 @@ async function main(): Promise<void> {
       await client.end();
     }
   } else {
-    process.stdout.write(`PostgreSQL does not answer at ${testPostgresUrl()}: the service benchmark ran on SQLite only\n`);
+    process.stdout.write(
+      `PostgreSQL does not answer at ${testPostgresUrl()}: the service benchmark ran on SQLite only\n`,
+    );
   }
   report(runs);
 }
@@ -266,7 +281,10 @@ async function scenario(
   const { child, base } = await startServer(databaseUrl);
   let coldChild: ChildProcess | null = null;
   try {
-    const station = await api(base, 'POST', '/v1/weather-stations', { name: 'Bench station (invented)', temperatureUnit: 'F' });
+    const station = await api(base, 'POST', '/v1/weather-stations', {
+      name: 'Bench station (invented)',
+      temperatureUnit: 'F',
+    });
     const facility = await api(base, 'POST', '/v1/facilities', { name: 'Bench facility (invented)' });
 
     // 1. Ingestion.
@@ -307,9 +325,19 @@ async function scenario(
       weatherStationId: station.id,
     });
     const baselineBills = demoBills(demoMeter, weatherByDate, BASELINE_START, BASELINE_END, 0, 1);
-    const reportingBills = demoBills(demoMeter, weatherByDate, BASELINE_END, REPORTING_END, demoMeter.reportingSaving, 2);
+    const reportingBills = demoBills(
+      demoMeter,
+      weatherByDate,
+      BASELINE_END,
+      REPORTING_END,
+      demoMeter.reportingSaving,
+      2,
+    );
     await api(base, 'POST', `/v1/meters/${savingsMeter.id}/readings`, { readings: baselineBills });
-    const baseline = await api(base, 'POST', `/v1/meters/${savingsMeter.id}/baselines`, { start: BASELINE_START, end: BASELINE_END });
+    const baseline = await api(base, 'POST', `/v1/meters/${savingsMeter.id}/baselines`, {
+      start: BASELINE_START,
+      end: BASELINE_END,
+    });
     await api(base, 'POST', `/v1/baselines/${baseline.id}/freeze`, { note: 'benchmark' });
     await api(base, 'POST', `/v1/meters/${savingsMeter.id}/readings`, { readings: reportingBills });
     const url = `${base}/v1/meters/${savingsMeter.id}/savings?confidence=0.9`;
@@ -329,9 +357,15 @@ async function scenario(
     const engineMs: number[] = [];
     for (let i = 0; i < 2000; i++) {
       const started = performance.now();
-      savingsFromFit(fit, { limits: analysis.choice.settings.guideline14, excluded: analysis.excluded }, reportingBills, weatherByDate, {
-        confidence: 0.9,
-      });
+      savingsFromFit(
+        fit,
+        { limits: analysis.choice.settings.guideline14, excluded: analysis.excluded },
+        reportingBills,
+        weatherByDate,
+        {
+          confidence: 0.9,
+        },
+      );
       engineMs.push(performance.now() - started);
     }
 

@@ -14,7 +14,14 @@ import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import autocannon from 'autocannon';
 import { addDays } from '../../src/engine/index.js';
-import { BASELINE_END, BASELINE_START, DEMO_FACILITIES, REPORTING_END, demoBills, demoWeather } from '../../src/demo/scenario.js';
+import {
+  BASELINE_END,
+  BASELINE_START,
+  DEMO_FACILITIES,
+  REPORTING_END,
+  demoBills,
+  demoWeather,
+} from '../../src/demo/scenario.js';
 import { openStore } from '../../src/store/connect.js';
 import { verifyAllAuditChains } from '../../src/store/audit.js';
 import { median, quantile } from './timing.js';
@@ -44,7 +51,8 @@ async function main(): Promise<void> {
   rmSync(WORK, { recursive: true, force: true });
   mkdirSync(WORK, { recursive: true });
   const usePostgres = process.env.SOAK_DATABASE === 'postgres';
-  if (usePostgres && !(await postgresReachable())) throw new Error('SOAK_DATABASE=postgres but PostgreSQL does not answer');
+  if (usePostgres && !(await postgresReachable()))
+    throw new Error('SOAK_DATABASE=postgres but PostgreSQL does not answer');
   if (usePostgres) process.env.MVLEDGER_TEST_DIALECT = 'postgres';
   const databaseUrl = usePostgres ? freshTestDatabaseUrl() : `sqlite:${join(WORK, 'soak.sqlite')}`;
   const port = await freePort();
@@ -74,7 +82,10 @@ async function main(): Promise<void> {
     const call = async (method: string, path: string, body?: unknown): Promise<{ status: number; json: any }> => {
       const response = await fetch(`${base}${path}`, {
         method,
-        headers: { authorization: `Bearer ${KEY}`, ...(body === undefined ? {} : { 'content-type': 'application/json' }) },
+        headers: {
+          authorization: `Bearer ${KEY}`,
+          ...(body === undefined ? {} : { 'content-type': 'application/json' }),
+        },
         ...(body === undefined ? {} : { body: JSON.stringify(body) }),
       });
       const text = await response.text();
@@ -82,14 +93,18 @@ async function main(): Promise<void> {
     };
     const must = async (method: string, path: string, body?: unknown) => {
       const answer = await call(method, path, body);
-      if (answer.status >= 300) throw new Error(`${method} ${path} → ${answer.status} ${JSON.stringify(answer.json).slice(0, 200)}`);
+      if (answer.status >= 300)
+        throw new Error(`${method} ${path} → ${answer.status} ${JSON.stringify(answer.json).slice(0, 200)}`);
       return answer.json;
     };
 
     // A savings meter (36 months) and an ingestion meter.
     const weather = demoWeather();
     const byDate = new Map(weather.map((d) => [d.date, d.temp]));
-    const station = await must('POST', '/v1/weather-stations', { name: 'Soak station (invented)', temperatureUnit: 'F' });
+    const station = await must('POST', '/v1/weather-stations', {
+      name: 'Soak station (invented)',
+      temperatureUnit: 'F',
+    });
     await must('PUT', `/v1/weather-stations/${station.id}/observations`, { observations: weather });
     const facility = await must('POST', '/v1/facilities', { name: 'Soak facility (invented)' });
     const plan = DEMO_FACILITIES[0]!.meters[0]!;
@@ -99,8 +114,13 @@ async function main(): Promise<void> {
       unit: 'kWh',
       weatherStationId: station.id,
     });
-    await must('POST', `/v1/meters/${savingsMeter.id}/readings`, { readings: demoBills(plan, byDate, BASELINE_START, BASELINE_END, 0, 1) });
-    const baseline = await must('POST', `/v1/meters/${savingsMeter.id}/baselines`, { start: BASELINE_START, end: BASELINE_END });
+    await must('POST', `/v1/meters/${savingsMeter.id}/readings`, {
+      readings: demoBills(plan, byDate, BASELINE_START, BASELINE_END, 0, 1),
+    });
+    const baseline = await must('POST', `/v1/meters/${savingsMeter.id}/baselines`, {
+      start: BASELINE_START,
+      end: BASELINE_END,
+    });
     await must('POST', `/v1/baselines/${baseline.id}/freeze`, { note: 'soak' });
     await must('POST', `/v1/meters/${savingsMeter.id}/readings`, {
       readings: demoBills(plan, byDate, BASELINE_END, REPORTING_END, 0.1, 2),
@@ -122,7 +142,8 @@ async function main(): Promise<void> {
     const memory: { second: number; residentMb: number }[] = [{ second: 0, residentMb: residentMb(child.pid!) }];
     const started = performance.now();
     const sampler = setInterval(
-      () => memory.push({ second: Math.round((performance.now() - started) / 1000), residentMb: residentMb(child.pid!) }),
+      () =>
+        memory.push({ second: Math.round((performance.now() - started) / 1000), residentMb: residentMb(child.pid!) }),
       SAMPLE_SECONDS * 1000,
     );
 
@@ -203,7 +224,12 @@ async function main(): Promise<void> {
         growthSecondHalfMb: memory[memory.length - 1]!.residentMb - Math.max(...firstHalf),
         samples: memory,
       },
-      lost: { readingsMissing: missing, storedReadings: storedCount, auditChainOk: chain.ok, auditRowsChecked: chain.checked },
+      lost: {
+        readingsMissing: missing,
+        storedReadings: storedCount,
+        auditChainOk: chain.ok,
+        auditRowsChecked: chain.checked,
+      },
     };
     const r = results;
     process.stdout.write(
@@ -217,7 +243,10 @@ async function main(): Promise<void> {
       ].join('\n'),
     );
     mkdirSync(RESULTS_DIR, { recursive: true });
-    writeFileSync(join(RESULTS_DIR, `soak-${usePostgres ? 'postgres' : 'sqlite'}-latest.json`), `${JSON.stringify(results, null, 2)}\n`);
+    writeFileSync(
+      join(RESULTS_DIR, `soak-${usePostgres ? 'postgres' : 'sqlite'}-latest.json`),
+      `${JSON.stringify(results, null, 2)}\n`,
+    );
     if (missing > 0 || !chain.ok || load.non2xx > 0 || failures.length > 0) process.exitCode = 1;
   } finally {
     child.kill('SIGTERM');

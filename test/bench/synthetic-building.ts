@@ -106,7 +106,16 @@ function meterFromPeriodLengths(
     }
     const start = isoDate(firstDay + day);
     const end = isoDate(firstDay + day + days);
-    periods.push({ start, end, days, quantity, usePerDay: quantity / days, meanTemp: tempSum / days, coverage: 1, estimated: false });
+    periods.push({
+      start,
+      end,
+      days,
+      quantity,
+      usePerDay: quantity / days,
+      meanTemp: tempSum / days,
+      coverage: 1,
+      estimated: false,
+    });
     if (options.keepRawData) readings.push({ start, end, quantity });
     day += days;
   }

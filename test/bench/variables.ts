@@ -52,7 +52,13 @@ function daily(seed: number): Period[] {
     const temp = Math.round((52 - 26 * Math.cos((2 * Math.PI * d) / 365) + random.normal() * 6) * 10) / 10;
     const weekend = d % 7 >= 5 ? 1 : 0;
     const holiday = !weekend && d % 365 >= 190 && d % 365 < 240 ? 1 : 0;
-    const use = 500 + 9 * Math.max(55 - temp, 0) + 14 * Math.max(temp - 68, 0) - 180 * weekend - 150 * holiday + random.normal() * 25;
+    const use =
+      500 +
+      9 * Math.max(55 - temp, 0) +
+      14 * Math.max(temp - 68, 0) -
+      180 * weekend -
+      150 * holiday +
+      random.normal() * 25;
     return {
       start: date(d),
       end: date(d + 1),
@@ -107,9 +113,18 @@ const cases = [
   },
 ];
 const results = cases.map((c) => {
-  const sixShapes = median(() => MODEL_NAMES.forEach((model) => fitShape(c.periods, model, 3, c.form, c.variables)), c.repeats);
-  const sixShapesReference = median(() => MODEL_NAMES.forEach((model) => fitShape(c.periods, model, 3, c.form)), c.repeats);
-  const withVariables = median(() => chooseBaseline(c.periods, { temperatureForm: c.form, variables: c.variables }), c.repeats);
+  const sixShapes = median(
+    () => MODEL_NAMES.forEach((model) => fitShape(c.periods, model, 3, c.form, c.variables)),
+    c.repeats,
+  );
+  const sixShapesReference = median(
+    () => MODEL_NAMES.forEach((model) => fitShape(c.periods, model, 3, c.form)),
+    c.repeats,
+  );
+  const withVariables = median(
+    () => chooseBaseline(c.periods, { temperatureForm: c.form, variables: c.variables }),
+    c.repeats,
+  );
   const reference = median(() => chooseBaseline(c.periods, { temperatureForm: c.form }), c.repeats);
   const row = {
     case: c.name,
@@ -132,7 +147,10 @@ mkdirSync(new URL('./results/', import.meta.url), { recursive: true });
 writeFileSync(
   new URL('./results/variables-latest.json', import.meta.url).pathname.replace('/dist-bench/', '/'),
   JSON.stringify(
-    { note: 'invented, seeded data (test/bench/variables.ts); chooseBaseline medians, compiled with tsc, plain node', results },
+    {
+      note: 'invented, seeded data (test/bench/variables.ts); chooseBaseline medians, compiled with tsc, plain node',
+      results,
+    },
     null,
     2,
   ) + '\n',

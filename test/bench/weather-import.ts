@@ -119,7 +119,8 @@ async function send(base: string, method: string, path: string, body: string, co
 }
 
 const newStation = async (base: string, name: string): Promise<string> =>
-  (await send(base, 'POST', '/v1/weather-stations', JSON.stringify({ name, temperatureUnit: 'C' }), 'application/json')).id;
+  (await send(base, 'POST', '/v1/weather-stations', JSON.stringify({ name, temperatureUnit: 'C' }), 'application/json'))
+    .id;
 
 interface ScenarioResult {
   database: string;
@@ -135,22 +136,42 @@ interface ScenarioResult {
   pass: boolean;
 }
 
-async function scenario(database: string, databaseUrl: string, file: string, days: readonly Day[]): Promise<ScenarioResult> {
+async function scenario(
+  database: string,
+  databaseUrl: string,
+  file: string,
+  days: readonly Day[],
+): Promise<ScenarioResult> {
   const { child, base } = await startServer(databaseUrl);
   try {
-    const observations = JSON.stringify({ observations: days.map((d) => ({ date: d.date, tmin: d.tmin / 10, tmax: d.tmax / 10 })) });
+    const observations = JSON.stringify({
+      observations: days.map((d) => ({ date: d.date, tmin: d.tmin / 10, tmax: d.tmax / 10 })),
+    });
     const importMs: number[] = [];
     const referenceMs: number[] = [];
     // One untimed round first (JIT, prepared statements), then the timed ones; each into new stations.
     for (let run = 0; run <= RUNS; run++) {
       const importStation = await newStation(base, `Bench import station ${run} (invented)`);
       let started = performance.now();
-      const imported = await send(base, 'POST', `/v1/weather-stations/${importStation}/imports?format=ghcn-dly`, file, 'text/plain');
+      const imported = await send(
+        base,
+        'POST',
+        `/v1/weather-stations/${importStation}/imports?format=ghcn-dly`,
+        file,
+        'text/plain',
+      );
       const ms = performance.now() - started;
-      if (imported.created !== days.length) throw new Error(`import created ${imported.created} of ${days.length} days`);
+      if (imported.created !== days.length)
+        throw new Error(`import created ${imported.created} of ${days.length} days`);
       const referenceStation = await newStation(base, `Bench reference station ${run} (invented)`);
       started = performance.now();
-      const posted = await send(base, 'PUT', `/v1/weather-stations/${referenceStation}/observations`, observations, 'application/json');
+      const posted = await send(
+        base,
+        'PUT',
+        `/v1/weather-stations/${referenceStation}/observations`,
+        observations,
+        'application/json',
+      );
       const refMs = performance.now() - started;
       if (posted.created !== days.length) throw new Error(`reference created ${posted.created} of ${days.length} days`);
       if (run > 0) {

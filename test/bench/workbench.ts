@@ -58,9 +58,9 @@ async function openBench(page: Page, url: string): Promise<Visit> {
   return page.evaluate((names) => {
     const at = (name: string) => performance.getEntriesByName(name)[0]!.startTime;
     // The page's own navigation entry (a DOM type; the benchmark compiles against Node's types).
-    const navigation = (performance as unknown as { getEntriesByType(type: string): { responseEnd: number }[] }).getEntriesByType(
-      'navigation',
-    )[0]!;
+    const navigation = (
+      performance as unknown as { getEntriesByType(type: string): { responseEnd: number }[] }
+    ).getEntriesByType('navigation')[0]!;
     const dataAt = at(names[1]);
     return {
       page: navigation.responseEnd,
@@ -91,7 +91,12 @@ function summary(visits: readonly Visit[]) {
 
 async function main(): Promise<void> {
   const folder = mkdtempSync(join(tmpdir(), 'mvledger-bench-workbench-'));
-  const { service, seed, base } = await runDemo({ seedOnly: false, databaseFile: join(folder, 'demo.sqlite'), port: 0, print: () => {} });
+  const { service, seed, base } = await runDemo({
+    seedOnly: false,
+    databaseFile: join(folder, 'demo.sqlite'),
+    port: 0,
+    print: () => {},
+  });
   const browser = await launchBrowser();
   const loadAtStart = loadavg();
   try {

@@ -92,7 +92,11 @@ describe('mvledger backup', () => {
   const bad: { what: string; url?: string; args: () => string[]; says: RegExp }[] = [
     { what: 'without --out', args: () => ['backup'], says: /^mvledger: --out FILE is required/ },
     { what: 'an empty --out', args: () => ['backup', '--out', ' '], says: /^mvledger: --out must not be empty\n$/ },
-    { what: 'an unknown option', args: () => ['backup', '--out', backup, '--gzip'], says: /^mvledger: unknown option --gzip\n$/ },
+    {
+      what: 'an unknown option',
+      args: () => ['backup', '--out', backup, '--gzip'],
+      says: /^mvledger: unknown option --gzip\n$/,
+    },
     {
       what: 'a folder that does not exist',
       args: () => ['backup', '--out', folder.path('no/such/dir/b.sqlite')],

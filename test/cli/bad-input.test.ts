@@ -116,7 +116,10 @@ const readingsCases: BadCase[] = [
   },
   {
     name: 'a bad estimated flag',
-    readings: ['start,end,quantity,estimated', ...goodReadingLines.slice(1).map((l, k) => `${l},${k === 10 ? 'maybe' : 'no'}`)].join('\n'),
+    readings: [
+      'start,end,quantity,estimated',
+      ...goodReadingLines.slice(1).map((l, k) => `${l},${k === 10 ? 'maybe' : 'no'}`),
+    ].join('\n'),
     row: 12,
     field: 'estimated',
     says: /not true\/false/,
@@ -140,7 +143,13 @@ const readingsCases: BadCase[] = [
     field: 'start',
     says: /at least 2 usable periods/,
   },
-  { name: 'no readings at all', readings: goodReadingLines[0]!, row: 1, field: 'start', says: /no readings below the header/ },
+  {
+    name: 'no readings at all',
+    readings: goodReadingLines[0]!,
+    row: 1,
+    field: 'start',
+    says: /no readings below the header/,
+  },
   {
     name: 'readings without weather (too few usable periods)',
     readings: 'start,end,quantity\n2031-01-01,2031-02-01,100\n2031-02-01,2031-03-01,90\n2031-03-01,2031-04-01,80\n',
@@ -202,9 +211,10 @@ const weatherCases: BadCase[] = [
   },
   {
     name: 'tmin above tmax',
-    weather: ['date,TMin,TMax', ...weather.map((d, k) => (k === 30 ? `${d.date},60,50` : `${d.date},${d.temp - 5},${d.temp + 5}`))].join(
-      '\n',
-    ),
+    weather: [
+      'date,TMin,TMax',
+      ...weather.map((d, k) => (k === 30 ? `${d.date},60,50` : `${d.date},${d.temp - 5},${d.temp + 5}`)),
+    ].join('\n'),
     row: 32,
     field: 'tmin',
     says: /tmin 60 is above tmax 50/,
@@ -272,12 +282,24 @@ describe('other bad input', () => {
 
   it('reports a reporting period set with no usable period, naming the reporting file', async () => {
     const reporting = folder.write('reporting-no-weather.csv', 'start,end,quantity\n2031-01-01,2031-02-01,100\n');
-    const run = await runCli(['savings', '--baseline', goodReadings, '--reporting', reporting, '--weather', goodWeather]);
+    const run = await runCli([
+      'savings',
+      '--baseline',
+      goodReadings,
+      '--reporting',
+      reporting,
+      '--weather',
+      goodWeather,
+    ]);
     expectOneLineNaming(run, reporting, 2, 'start', /no reporting periods .*weather covers 0 of 31 days/);
   });
 
   it('reports the earliest problem and counts the rest', async () => {
-    const text = withLine(withLine(goodReadingLines, 9, '2022-08-01,2022-09-01,-3').split('\n'), 4, '2022-03-01,2022-04-01,x');
+    const text = withLine(
+      withLine(goodReadingLines, 9, '2022-08-01,2022-09-01,-3').split('\n'),
+      4,
+      '2022-03-01,2022-04-01,x',
+    );
     const file = folder.write('two-problems.csv', text);
     const run = await runCli(['fit', '--readings', file, '--weather', goodWeather]);
     expectOneLineNaming(run, file, 4, 'quantity', /not a number: "x" \(and 1 more problem in this file\)/);

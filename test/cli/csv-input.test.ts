@@ -24,8 +24,12 @@ describe('CSV tables', () => {
 
   it('reads the estimated flag in its accepted spellings', () => {
     const words = ['true', 'FALSE', 'yes', 'No', '1', '0', ''];
-    const rows = words.map((word, k) => `2024-01-${String(k + 1).padStart(2, '0')},2024-01-${String(k + 2).padStart(2, '0')},10,${word}`);
-    const { readings } = readingsFromTable(parseCsvTable('r.csv', ['start,end,quantity,estimated', ...rows].join('\n')));
+    const rows = words.map(
+      (word, k) => `2024-01-${String(k + 1).padStart(2, '0')},2024-01-${String(k + 2).padStart(2, '0')},10,${word}`,
+    );
+    const { readings } = readingsFromTable(
+      parseCsvTable('r.csv', ['start,end,quantity,estimated', ...rows].join('\n')),
+    );
     expect(readings.map((r) => r.estimated)).toEqual([true, false, true, false, true, false, false]);
   });
 
@@ -40,7 +44,10 @@ describe('CSV tables', () => {
   });
 
   it('prefers temp over tmin/tmax when a weather file has both', () => {
-    const { weather, source } = weatherFromTable(parseCsvTable('w.csv', 'date,temp,tmin,tmax\n2024-01-01,40,0,100\n'), 'F');
+    const { weather, source } = weatherFromTable(
+      parseCsvTable('w.csv', 'date,temp,tmin,tmax\n2024-01-01,40,0,100\n'),
+      'F',
+    );
     expect(source).toBe('temp');
     expect(weather).toEqual([{ date: '2024-01-01', temp: 40 }]);
   });

@@ -24,21 +24,30 @@ const header = `meter,station,${readingsCsv(billsOf(1)).split('\n')[0]}`;
 const batchFile = folder.write('batch.csv', [header, ...batchRows].join('\n'));
 const noStationFile = folder.write(
   'batch-no-station.csv',
-  [`meter,${readingsCsv(billsOf(1)).split('\n')[0]}`, ...meters.flatMap((m) => body(m.factor).map((line) => `${m.id},${line}`))].join('\n'),
+  [
+    `meter,${readingsCsv(billsOf(1)).split('\n')[0]}`,
+    ...meters.flatMap((m) => body(m.factor).map((line) => `${m.id},${line}`)),
+  ].join('\n'),
 );
 const weatherLines = weatherCsv(weather).trimEnd().split('\n');
 const oneWeather = folder.write('weather.csv', weatherLines.join('\n'));
 // The same days under two station names: each meter must find its own.
 const stationWeather = folder.write(
   'weather-stations.csv',
-  [`station,${weatherLines[0]}`, ...['hill', 'valley'].flatMap((s) => weatherLines.slice(1).map((l) => `${s},${l}`))].join('\n'),
+  [
+    `station,${weatherLines[0]}`,
+    ...['hill', 'valley'].flatMap((s) => weatherLines.slice(1).map((l) => `${s},${l}`)),
+  ].join('\n'),
 );
 
 async function singleFit(factor: number) {
   const file = folder.write(`single-${factor}.csv`, readingsCsv(billsOf(factor)));
   const run = await runCli(['fit', '--json', '--readings', file, '--weather', oneWeather]);
   expect(run.code).toBe(0);
-  return JSON.parse(run.stdout) as { selected: string; candidates: { model: string; parameters: Record<string, number> }[] };
+  return JSON.parse(run.stdout) as {
+    selected: string;
+    candidates: { model: string; parameters: Record<string, number> }[];
+  };
 }
 
 describe('mvledger fit --batch', () => {
@@ -88,7 +97,10 @@ describe('mvledger fit --batch', () => {
   });
 
   it('a station with no weather stops the batch before any output', async () => {
-    const file = folder.write('batch-lost.csv', [header, ...batchRows.map((l) => l.replace(',valley,', ',coast,'))].join('\n'));
+    const file = folder.write(
+      'batch-lost.csv',
+      [header, ...batchRows.map((l) => l.replace(',valley,', ',coast,'))].join('\n'),
+    );
     const run = await runCli(['fit', '--batch', '--readings', file, '--weather', stationWeather]);
     expect(run.code).toBe(2);
     expect(run.stdout).toBe('');
@@ -103,7 +115,9 @@ describe('mvledger fit --batch', () => {
     const run = await runCli(['fit', '--batch', '--readings', twoStations, '--weather', stationWeather]);
     expect(run.code).toBe(2);
     expect(run.stdout).toBe('');
-    expect(run.stderr).toMatch(/row 5, field "station": meter "north-wing" is read on station "hill" \(row 2\), here "valley"/);
+    expect(run.stderr).toMatch(
+      /row 5, field "station": meter "north-wing" is read on station "hill" \(row 2\), here "valley"/,
+    );
     const noMeter = folder.write('batch-nometer.csv', readingsCsv(billsOf(1)));
     const second = await runCli(['fit', '--batch', '--readings', noMeter, '--weather', oneWeather]);
     expect(second.code).toBe(2);
@@ -119,7 +133,10 @@ describe('fit --batch on worker threads', () => {
     if (options.help) throw new Error('unexpected help');
     const capture = () => {
       const out = { stdout: '', stderr: '' };
-      return { out, io: { stdout: (t: string) => void (out.stdout += t), stderr: (t: string) => void (out.stderr += t) } };
+      return {
+        out,
+        io: { stdout: (t: string) => void (out.stdout += t), stderr: (t: string) => void (out.stderr += t) },
+      };
     };
     const one = capture();
     const three = capture();

@@ -10,7 +10,15 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { analyseBaseline, fahrenheitToCelsius } from '../../src/engine/index.js';
 import { CAUTION } from '../../src/cli/format/caution.js';
 import { verdictText } from '../../src/cli/format/fit-report.js';
-import { asJson, makeTempFolder, readingsCsv, runCli, syntheticBills, syntheticWeather, weatherCsv } from './helpers.js';
+import {
+  asJson,
+  makeTempFolder,
+  readingsCsv,
+  runCli,
+  syntheticBills,
+  syntheticWeather,
+  weatherCsv,
+} from './helpers.js';
 
 const folder = makeTempFolder();
 afterAll(() => folder.remove());
@@ -61,21 +69,38 @@ describe('mvledger fit --json', () => {
     ]);
     expect(run.code).toBe(0);
     // Source: the engine itself with the same options.
-    const expected = analyseBaseline(baseline, weather, { minCoverage: 0.8, significanceLevel: 0.01, minPointsPerSegment: 4 }).document;
+    const expected = analyseBaseline(baseline, weather, {
+      minCoverage: 0.8,
+      significanceLevel: 0.01,
+      minPointsPerSegment: 4,
+    }).document;
     expect(JSON.parse(run.stdout)).toEqual(asJson(expected));
   });
 });
 
 describe('mvledger fit --temperature', () => {
   it('fits day-resolved by default and in the mean form when asked, stating the form in JSON and text', async () => {
-    const daily = JSON.parse((await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile, '--json'])).stdout) as {
+    const daily = JSON.parse(
+      (await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile, '--json'])).stdout,
+    ) as {
       temperatureForm: string;
     };
     expect(daily.temperatureForm).toBe('daily'); // the engine's default for bills with daily weather
-    const run = await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile, '--json', '--temperature', 'mean']);
+    const run = await runCli([
+      'fit',
+      '--readings',
+      readingsFile,
+      '--weather',
+      weatherFile,
+      '--json',
+      '--temperature',
+      'mean',
+    ]);
     expect(run.code).toBe(0);
     // Source: the engine itself in the mean form.
-    expect(JSON.parse(run.stdout)).toEqual(asJson(analyseBaseline(baseline, weather, { temperatureForm: 'mean' }).document));
+    expect(JSON.parse(run.stdout)).toEqual(
+      asJson(analyseBaseline(baseline, weather, { temperatureForm: 'mean' }).document),
+    );
     const text = await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile, '--temperature', 'MEAN']);
     expect(text.stdout).toContain('  temperature form: mean (each period at its mean temperature)');
     expect((await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile])).stdout).toContain(
@@ -164,14 +189,18 @@ describe('weather files', () => {
     const file = folder.write('weather-celsius.csv', weatherCsv(celsius));
     const run = await runCli(['fit', '--readings', readingsFile, '--weather', file, '--unit', 'C', '--json']);
     expect(run.code).toBe(0);
-    const inCelsius = JSON.parse(run.stdout) as { selected: string; candidates: { model: string; parameters: Record<string, number> }[] };
+    const inCelsius = JSON.parse(run.stdout) as {
+      selected: string;
+      candidates: { model: string; parameters: Record<string, number> }[];
+    };
     const inFahrenheit = analyseBaseline(baseline, weather).document; // source: the engine itself
     expect(inCelsius.selected).toBe(inFahrenheit.selected);
     // Hand-worked: an affine change of x moves the least-squares changepoints the same way.
-    const cp = (doc: typeof inCelsius, name: string) => doc.candidates.find((c) => c.model === inFahrenheit.selected)!.parameters[name]!;
-    const changepointNames = Object.keys(inFahrenheit.candidates.find((c) => c.model === inFahrenheit.selected)!.parameters).filter((n) =>
-      /changepoint/i.test(n),
-    );
+    const cp = (doc: typeof inCelsius, name: string) =>
+      doc.candidates.find((c) => c.model === inFahrenheit.selected)!.parameters[name]!;
+    const changepointNames = Object.keys(
+      inFahrenheit.candidates.find((c) => c.model === inFahrenheit.selected)!.parameters,
+    ).filter((n) => /changepoint/i.test(n));
     expect(changepointNames.length).toBeGreaterThan(0); // synthetic: the data have a changepoint shape
     for (const name of changepointNames) {
       expect(cp(inCelsius, name)).toBeCloseTo(fahrenheitToCelsius(cp(inFahrenheit as typeof inCelsius, name)), 6);
@@ -204,7 +233,14 @@ describe('weather files', () => {
 describe('the committed examples', () => {
   it('choose a shape with both a heating and a cooling branch', async () => {
     const example = (name: string) => fileURLToPath(new URL(`../../examples/${name}`, import.meta.url));
-    const run = await runCli(['fit', '--readings', example('baseline.csv'), '--weather', example('weather.csv'), '--json']);
+    const run = await runCli([
+      'fit',
+      '--readings',
+      example('baseline.csv'),
+      '--weather',
+      example('weather.csv'),
+      '--json',
+    ]);
     expect(run.code).toBe(0);
     // Synthetic: examples/make-examples.ts builds use with heating below 55 °F and cooling above 67 °F.
     expect(['4P', '5P']).toContain((JSON.parse(run.stdout) as { selected: string }).selected);
@@ -241,6 +277,8 @@ describe('mvledger fit with a weather file that marks filled days', () => {
     const bad = folder.write('weather-bad-fill.csv', `date,temp,filled\n2022-01-01,30,guessed\n`);
     const run = await runCli(['fit', '--readings', readingsFile, '--weather', bad]);
     expect(run.code).toBe(2);
-    expect(run.stderr).toMatch(/row 2, field "filled": must be empty, interpolation or second-station, got "guessed"\n$/);
+    expect(run.stderr).toMatch(
+      /row 2, field "filled": must be empty, interpolation or second-station, got "guessed"\n$/,
+    );
   });
 });

@@ -30,7 +30,11 @@ export async function runCli(args: string[]): Promise<CliRun> {
 }
 
 /** A temporary folder for one test file; call `remove` in afterAll. */
-export function makeTempFolder(): { path: (name: string) => string; write: (name: string, text: string) => string; remove: () => void } {
+export function makeTempFolder(): {
+  path: (name: string) => string;
+  write: (name: string, text: string) => string;
+  remove: () => void;
+} {
   const folder = mkdtempSync(join(tmpdir(), 'mvledger-cli-'));
   return {
     path: (name) => join(folder, name),
@@ -68,13 +72,19 @@ export function syntheticUsePerDay(temp: number): number {
 }
 
 /** Monthly bills from `fromYear` over `months`, scaled by `factor`, with a fixed ±3% wiggle. */
-export function syntheticBills(weather: readonly DailyTemperature[], fromYear: number, months: number, factor = 1): Reading[] {
+export function syntheticBills(
+  weather: readonly DailyTemperature[],
+  fromYear: number,
+  months: number,
+  factor = 1,
+): Reading[] {
   const byDate = new Map(weather.map((d) => [d.date, d.temp]));
   return Array.from({ length: months }, (_, k) => {
     const start = isoDate(Date.UTC(fromYear, k, 1) / MS_PER_DAY);
     const end = isoDate(Date.UTC(fromYear, k + 1, 1) / MS_PER_DAY);
     let quantity = 0;
-    for (let day = dayNumber(start); day < dayNumber(end); day++) quantity += syntheticUsePerDay(byDate.get(isoDate(day)) ?? 50);
+    for (let day = dayNumber(start); day < dayNumber(end); day++)
+      quantity += syntheticUsePerDay(byDate.get(isoDate(day)) ?? 50);
     return { start, end, quantity: Math.round(quantity * factor * (1 + 0.03 * Math.sin(k * 2.3))) };
   });
 }

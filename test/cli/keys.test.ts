@@ -32,7 +32,12 @@ async function storedKey(token: string) {
 async function auditActions(entityId: string): Promise<{ actor: string; action: string; text: string }[]> {
   const store = openStore(databaseUrl);
   try {
-    const rows = await store.db.selectFrom('audit_log').selectAll().where('entity_id', '=', entityId).orderBy('seq').execute();
+    const rows = await store.db
+      .selectFrom('audit_log')
+      .selectAll()
+      .where('entity_id', '=', entityId)
+      .orderBy('seq')
+      .execute();
     return rows.map((row) => ({ actor: row.actor, action: row.action, text: JSON.stringify(row) }));
   } finally {
     await store.close();
@@ -70,7 +75,16 @@ describe('mvledger keys', () => {
   });
 
   it('adds a key to an existing organisation and lists both, without tokens', async () => {
-    const run = await runCli(['keys', 'create', '--org', organisationId, '--role', 'integration', '--name', 'billing feed']);
+    const run = await runCli([
+      'keys',
+      'create',
+      '--org',
+      organisationId,
+      '--role',
+      'integration',
+      '--name',
+      'billing feed',
+    ]);
     expect(run.code).toBe(0);
     const token = run.stdout.trim();
     const list = await runCli(['keys', 'list', '--org', organisationId]);
@@ -115,17 +129,29 @@ describe('mvledger keys', () => {
     { args: ['keys'], says: /needs a subcommand/ },
     { args: ['keys', 'rotate'], says: /unknown keys subcommand "rotate"/ },
     { args: ['keys', 'create', '--role', 'admin', '--name', 'x'], says: /--org ID .* or --org-name NAME/ },
-    { args: ['keys', 'create', '--org', 'org_a', '--org-name', 'B', '--role', 'admin', '--name', 'x'], says: /either --org ID/ },
+    {
+      args: ['keys', 'create', '--org', 'org_a', '--org-name', 'B', '--role', 'admin', '--name', 'x'],
+      says: /either --org ID/,
+    },
     { args: ['keys', 'create', '--org-name', 'B', '--name', 'x'], says: /--role is required/ },
     {
       args: ['keys', 'create', '--org-name', 'B', '--role', 'root', '--name', 'x'],
       says: /--role must be one of admin, engineer, analyst, integration, got "root"/,
     },
     { args: ['keys', 'create', '--org-name', 'B', '--role', 'admin'], says: /--name is required/ },
-    { args: ['keys', 'create', '--org-name', ' ', '--role', 'admin', '--name', 'x'], says: /--org-name must not be empty/ },
-    { args: ['keys', 'create', '--org-name', 'B', '--role', 'admin', '--name', 'x', '--colour'], says: /unknown option --colour/ },
+    {
+      args: ['keys', 'create', '--org-name', ' ', '--role', 'admin', '--name', 'x'],
+      says: /--org-name must not be empty/,
+    },
+    {
+      args: ['keys', 'create', '--org-name', 'B', '--role', 'admin', '--name', 'x', '--colour'],
+      says: /unknown option --colour/,
+    },
     { args: ['keys', 'create', '--org-name', 'B', '--role', 'admin', '--name'], says: /option --name needs a value/ },
-    { args: ['keys', 'create', '--org', 'org_missing', '--role', 'admin', '--name', 'x'], says: /--org: no organisation org_missing/ },
+    {
+      args: ['keys', 'create', '--org', 'org_missing', '--role', 'admin', '--name', 'x'],
+      says: /--org: no organisation org_missing/,
+    },
     { args: ['keys', 'list', 'extra'], says: /unexpected argument extra/ },
     { args: ['keys', 'list', '--org', 'org_missing'], says: /--org: no organisation org_missing/ },
     { args: ['keys', 'revoke'], says: /exactly one key id/ },

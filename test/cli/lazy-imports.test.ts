@@ -61,7 +61,9 @@ describe('the fit and savings commands import no database or service code', () =
       const { files, packages } = reachable(resolve(SRC, 'cli/commands', `${command}.ts`));
       expect(files.size).toBeGreaterThan(5);
       expect([...packages].filter((p) => FORBIDDEN_PACKAGES.includes(p))).toEqual([]);
-      const outside = [...files].map((f) => f.slice(SRC.length + 1)).filter((f) => FORBIDDEN_FOLDERS.includes(f.split('/')[0]!));
+      const outside = [...files]
+        .map((f) => f.slice(SRC.length + 1))
+        .filter((f) => FORBIDDEN_FOLDERS.includes(f.split('/')[0]!));
       expect(outside).toEqual([]);
       // csv-parse is required lazily, only for a file that is not plain (src/lib/csv/csv-table.ts).
       expect(packages.has('csv-parse')).toBe(false);
@@ -88,7 +90,15 @@ function modulesLoadedBy(argv: string[], exitCode: number): string[] {
 process.exitCode = await main(${JSON.stringify(argv)}, { stdout: () => {}, stderr: () => {} });`;
     const run = spawnSync(
       process.execPath,
-      ['--import', 'tsx', '--import', resolve(SRC, '../test/support/record-loads.mjs'), '--input-type=module', '-e', script],
+      [
+        '--import',
+        'tsx',
+        '--import',
+        resolve(SRC, '../test/support/record-loads.mjs'),
+        '--input-type=module',
+        '-e',
+        script,
+      ],
       {
         cwd: resolve(SRC, '..'),
         env: { ...process.env, MVLEDGER_RECORD_LOADS: record, DATABASE_URL: 'sqlite::memory:' },
@@ -109,7 +119,8 @@ process.exitCode = await main(${JSON.stringify(argv)}, { stdout: () => {}, stder
 function heavy(urls: readonly string[]): string[] {
   return urls.filter(
     (url) =>
-      /\/node_modules\/(kysely|pg|pg-pool|better-sqlite3|fastify|pino|zod)\//.test(url) || /\/src\/(store|services|http|demo)\//.test(url),
+      /\/node_modules\/(kysely|pg|pg-pool|better-sqlite3|fastify|pino|zod)\//.test(url) ||
+      /\/src\/(store|services|http|demo)\//.test(url),
   );
 }
 
@@ -117,7 +128,10 @@ describe('what a command loads when it runs (a fresh process, every module recor
   const examples = resolve(SRC, '../examples');
 
   it('fit on the example files loads no database driver, query builder, service or HTTP module', () => {
-    const loaded = modulesLoadedBy(['fit', '--readings', join(examples, 'baseline.csv'), '--weather', join(examples, 'weather.csv')], 0);
+    const loaded = modulesLoadedBy(
+      ['fit', '--readings', join(examples, 'baseline.csv'), '--weather', join(examples, 'weather.csv')],
+      0,
+    );
     expect(loaded.some((url) => url.includes('/src/engine/'))).toBe(true);
     expect(heavy(loaded)).toEqual([]);
   });

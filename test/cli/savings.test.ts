@@ -22,7 +22,15 @@ import {
 } from '../../src/engine/index.js';
 import { CAUTION } from '../../src/cli/format/caution.js';
 import { toJsonDocument } from '../../src/cli/format/json.js';
-import { asJson, makeTempFolder, readingsCsv, runCli, syntheticBills, syntheticWeather, weatherCsv } from './helpers.js';
+import {
+  asJson,
+  makeTempFolder,
+  readingsCsv,
+  runCli,
+  syntheticBills,
+  syntheticWeather,
+  weatherCsv,
+} from './helpers.js';
 
 const folder = makeTempFolder();
 afterAll(() => folder.remove());
@@ -58,7 +66,11 @@ describe('mvledger savings --json', () => {
     expect(run.stderr).toBe('');
     // Source: the engine itself, called directly on the same records.
     const analysis = analyseBaseline(baselineBills, weather);
-    const expected = checked(analysis, analyseSavings(analysis, reportingBills, weather, { confidence: 0.9 }), reportingBills);
+    const expected = checked(
+      analysis,
+      analyseSavings(analysis, reportingBills, weather, { confidence: 0.9 }),
+      reportingBills,
+    );
     const printed = JSON.parse(run.stdout) as Record<string, unknown>;
     expect(printed).toEqual(asJson(expected));
     expect(Object.keys(printed)).toEqual(expect.arrayContaining(['model', 'periods', 'totals']));
@@ -71,7 +83,16 @@ describe('mvledger savings --json', () => {
       totals: Record<string, unknown> & { uncertainty: Record<string, Record<string, unknown>> };
     };
     expect(printed.periods).toHaveLength(12);
-    for (const key of ['start', 'end', 'days', 'meanTemp', 'actual', 'adjustedBaseline', 'savings', 'outsideBaselineRange'])
+    for (const key of [
+      'start',
+      'end',
+      'days',
+      'meanTemp',
+      'actual',
+      'adjustedBaseline',
+      'savings',
+      'outsideBaselineRange',
+    ])
       expect(printed.periods[0]).toHaveProperty(key);
     for (const key of [
       'actual',
@@ -96,7 +117,11 @@ describe('mvledger savings --json', () => {
     expect(run.code).toBe(0);
     // Source: the engine itself with the same override.
     const analysis = analyseBaseline(baselineBills, weather);
-    const expected = checked(analysis, analyseSavings(analysis, reportingBills, weather, { model: '3PH' }), reportingBills);
+    const expected = checked(
+      analysis,
+      analyseSavings(analysis, reportingBills, weather, { model: '3PH' }),
+      reportingBills,
+    );
     const printed = JSON.parse(run.stdout) as { model: string; baseline: { selected: string } };
     expect(printed).toEqual(asJson(expected));
     expect(printed.model).toBe('3PH');
@@ -106,7 +131,17 @@ describe('mvledger savings --json', () => {
   it('refuses a --model shape that could not be fitted', async () => {
     // Synthetic: three bills leave no room for a 5P fit with 3 points per segment.
     const short = folder.write('short-baseline.csv', readingsCsv(baselineBills.slice(0, 3)));
-    const run = await runCli(['savings', '--baseline', short, '--reporting', reportingFile, '--weather', weatherFile, '--model', '5P']);
+    const run = await runCli([
+      'savings',
+      '--baseline',
+      short,
+      '--reporting',
+      reportingFile,
+      '--weather',
+      weatherFile,
+      '--model',
+      '5P',
+    ]);
     expect(run.code).toBe(2);
     expect(run.stdout).toBe('');
     expect(run.stderr).toMatch(/^mvledger: --model 5P: the 5P shape could not be fitted/);
@@ -130,12 +165,22 @@ describe('mvledger savings, text report', () => {
 
   it('marks a reporting period outside the baseline temperature range', async () => {
     // Synthetic: a week of 120 °F, hotter than any baseline month.
-    const hotWeather = weather.map((d) => (d.date >= '2024-07-01' && d.date < '2024-07-08' ? { date: d.date, temp: 120 } : d));
+    const hotWeather = weather.map((d) =>
+      d.date >= '2024-07-01' && d.date < '2024-07-08' ? { date: d.date, temp: 120 } : d,
+    );
     const hotFile = folder.write('weather-hot.csv', weatherCsv(hotWeather));
     const hotBills = [{ start: '2024-07-01', end: '2024-07-08', quantity: 9000 }];
     const billFile = folder.write('hot-week.csv', readingsCsv(hotBills));
     // Seven days of 120 °F lie wholly outside the baseline's weather: refused unless overridden (with the reason printed).
-    const refused = await runCli(['savings', '--baseline', baselineFile, '--reporting', billFile, '--weather', hotFile]);
+    const refused = await runCli([
+      'savings',
+      '--baseline',
+      baselineFile,
+      '--reporting',
+      billFile,
+      '--weather',
+      hotFile,
+    ]);
     expect(refused.code).toBe(2);
     expect(refused.stdout).toBe('');
     expect(refused.stderr).toMatch(
@@ -176,9 +221,20 @@ describe('JSON of non-finite numbers', () => {
     const analysis = analyseBaseline(baselineBills, weather);
     bill.quantity = analyseSavings(analysis, [bill], weather).periods[0]!.adjustedBaseline;
     const file = folder.write('zero-savings.csv', readingsCsv([bill]));
-    const run = await runCli(['savings', '--baseline', baselineFile, '--reporting', file, '--weather', weatherFile, '--json']);
+    const run = await runCli([
+      'savings',
+      '--baseline',
+      baselineFile,
+      '--reporting',
+      file,
+      '--weather',
+      weatherFile,
+      '--json',
+    ]);
     expect(run.code).toBe(0);
-    const printed = JSON.parse(run.stdout) as { totals: { savings: number; uncertainty: { exact: { fractional: unknown } } } };
+    const printed = JSON.parse(run.stdout) as {
+      totals: { savings: number; uncertainty: { exact: { fractional: unknown } } };
+    };
     expect(printed.totals.savings).toBe(0);
     expect(printed.totals.uncertainty.exact.fractional).toBeNull(); // the engine gives Infinity: ΔS / 0
   });
@@ -203,7 +259,9 @@ describe('the temperature form', () => {
     expect(run.code).toBe(0);
     // Source: the engine itself, in the mean form.
     const analysis = analyseBaseline(baselineBills, weather, { temperatureForm: 'mean' });
-    expect(JSON.parse(run.stdout)).toEqual(asJson(checked(analysis, analyseSavings(analysis, reportingBills, weather), reportingBills)));
+    expect(JSON.parse(run.stdout)).toEqual(
+      asJson(checked(analysis, analyseSavings(analysis, reportingBills, weather), reportingBills)),
+    );
     const text = await runCli(['savings', ...files, '--temperature', 'mean']);
     expect(text.stdout).toContain('temperature form: mean (each period at its mean temperature)');
     expect((await runCli(['savings', ...files])).stdout).toContain('temperature form: daily (day-resolved');

@@ -78,7 +78,11 @@ describe('mvledger export', () => {
     const toStdout = await cli(sourceUrl, ['export', '--org', organisationId]);
     expect(toStdout.code).toBe(0);
     expect(content(toStdout.stdout)).toEqual(content(text));
-    expect(JSON.parse(text)).toMatchObject({ format: 'mvledger-export', version: 6, organisation: { id: organisationId } }); // the format's own contract
+    expect(JSON.parse(text)).toMatchObject({
+      format: 'mvledger-export',
+      version: 6,
+      organisation: { id: organisationId },
+    }); // the format's own contract
     const document = JSON.parse(text) as { tables: Record<string, unknown[]> };
     for (const [table, rows] of Object.entries(document.tables))
       expect(toFile.stderr).toContain(`  ${table}: ${rows.length} ${rows.length === 1 ? 'row' : 'rows'}\n`);
@@ -147,7 +151,10 @@ describe('mvledger import', () => {
         expect(content(again.stdout)).toEqual(content(readFileSync(exportFile, 'utf8')));
         const store = openStore(url);
         try {
-          expect(await authenticate(store.db, seed.analystKey)).toMatchObject({ organisation_id: organisationId, role: 'analyst' });
+          expect(await authenticate(store.db, seed.analystKey)).toMatchObject({
+            organisation_id: organisationId,
+            role: 'analyst',
+          });
         } finally {
           await store.close();
         }
@@ -190,14 +197,20 @@ describe('mvledger import', () => {
       args: () => [
         'import',
         '--in',
-        file('tampered.json', (d) => (d.tables.audit_log[2].after_json = d.tables.audit_log[2].after_json.replace('demo', 'DEMO'))),
+        file(
+          'tampered.json',
+          (d) => (d.tables.audit_log[2].after_json = d.tables.audit_log[2].after_json.replace('demo', 'DEMO')),
+        ),
       ],
       says: /^mvledger: .*tampered\.json: tables\.audit_log\[2\]: the audit chain breaks at seq 3: its content does not match its hash/,
     },
     {
       what: 'an organisation the target already holds',
       args: () => ['import', '--in', exportFile],
-      says: () => new RegExp(`^mvledger: .*export\\.json: organisation ${organisationId} already exists in the target database\n$`),
+      says: () =>
+        new RegExp(
+          `^mvledger: .*export\\.json: organisation ${organisationId} already exists in the target database\n$`,
+        ),
     },
   ];
 

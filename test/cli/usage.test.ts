@@ -29,7 +29,9 @@ describe('help and usage', () => {
   });
 
   it('mvledger --version was an unknown command: it prints the package version', async () => {
-    const { version } = JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { version: string };
+    const { version } = JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as {
+      version: string;
+    };
     for (const word of ['--version', '-V', 'version']) {
       const run = await runCli([word]);
       expect(run.code).toBe(0);
@@ -52,10 +54,19 @@ describe('bad options', () => {
   const cases: { args: string[]; says: string }[] = [
     { args: ['fit', '--weather', 'w.csv'], says: 'mvledger: --readings FILE is required\n' },
     { args: ['fit', '--readings', 'r.csv'], says: 'mvledger: --weather FILE is required\n' },
-    { args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--colour'], says: 'mvledger: unknown option --colour\n' },
-    { args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', 'extra'], says: 'mvledger: unexpected argument extra\n' },
+    {
+      args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--colour'],
+      says: 'mvledger: unknown option --colour\n',
+    },
+    {
+      args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', 'extra'],
+      says: 'mvledger: unexpected argument extra\n',
+    },
     { args: ['fit', '--readings'], says: 'mvledger: option --readings needs a value\n' },
-    { args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--unit', 'K'], says: 'mvledger: --unit must be F or C, got "K"\n' },
+    {
+      args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--unit', 'K'],
+      says: 'mvledger: --unit must be F or C, got "K"\n',
+    },
     {
       args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--coverage', '1.5'],
       says: 'mvledger: --coverage must be a fraction in (0, 1], e.g. 0.9, got "1.5"\n',
@@ -81,7 +92,10 @@ describe('bad options', () => {
       args: ['savings', '--baseline', 'b.csv', '--reporting', 'r.csv', '--weather', 'w.csv', '--confidence', '68'],
       says: 'mvledger: --confidence must be one of 0.68, 0.8, 0.9, 0.95, got "68"\n',
     },
-    { args: ['savings', '--baseline', 'b.csv', '--weather', 'w.csv'], says: 'mvledger: --reporting FILE is required\n' },
+    {
+      args: ['savings', '--baseline', 'b.csv', '--weather', 'w.csv'],
+      says: 'mvledger: --reporting FILE is required\n',
+    },
     {
       args: ['fit', '--readings', 'r.csv', '--weather', 'w.csv', '--temperature', 'hourly'],
       says: 'mvledger: --temperature must be daily or mean, got "hourly"\n',

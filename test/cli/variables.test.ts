@@ -6,7 +6,15 @@
  */
 import { afterAll, describe, expect, it } from 'vitest';
 import { analyseBaseline, type VariableSeries } from '../../src/engine/index.js';
-import { asJson, makeTempFolder, readingsCsv, runCli, syntheticBills, syntheticWeather, weatherCsv } from './helpers.js';
+import {
+  asJson,
+  makeTempFolder,
+  readingsCsv,
+  runCli,
+  syntheticBills,
+  syntheticWeather,
+  weatherCsv,
+} from './helpers.js';
 
 const folder = makeTempFolder();
 afterAll(() => folder.remove());
@@ -17,12 +25,22 @@ const units = bills.map((_, i) => 2000 + 1500 * Math.sin(i * 1.3));
 const baseline = bills.map((b, i) => ({ ...b, quantity: b.quantity + 0.5 * units[i]! }));
 const readingsFile = folder.write('baseline.csv', readingsCsv(baseline));
 const weatherFile = folder.write('weather.csv', weatherCsv(weather));
-const variablesCsv = ['start,end,units:total', ...baseline.map((b, i) => `${b.start},${b.end},${units[i]}`)].join('\n') + '\n';
+const variablesCsv =
+  ['start,end,units:total', ...baseline.map((b, i) => `${b.start},${b.end},${units[i]}`)].join('\n') + '\n';
 const variablesFile = folder.write('variables.csv', variablesCsv);
 
 describe('mvledger fit --variables', () => {
   it('offers each column to the fit, as the engine does', async () => {
-    const run = await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile, '--variables', variablesFile, '--json']);
+    const run = await runCli([
+      'fit',
+      '--readings',
+      readingsFile,
+      '--weather',
+      weatherFile,
+      '--variables',
+      variablesFile,
+      '--json',
+    ]);
     expect(run.stderr).toBe('');
     expect(run.code).toBe(0);
     const series: VariableSeries = {
@@ -31,7 +49,9 @@ describe('mvledger fit --variables', () => {
       values: baseline.map((b, i) => ({ start: b.start, end: b.end, value: units[i]! })),
     };
     const printed = JSON.parse(run.stdout);
-    expect(printed).toEqual(asJson(analyseBaseline(baseline, weather, { variableSeries: [series], variables: ['units'] }).document)); // the engine itself
+    expect(printed).toEqual(
+      asJson(analyseBaseline(baseline, weather, { variableSeries: [series], variables: ['units'] }).document),
+    ); // the engine itself
     expect(printed.variables).toEqual(['units']);
   });
 
@@ -49,8 +69,20 @@ describe('mvledger fit --variables', () => {
 
 describe('mvledger fit --exclusions', () => {
   it('leaves the named readings out with their reasons, and names a reading that does not exist', async () => {
-    const file = folder.write('exclusions.csv', `start,end,reason\n${baseline[4]!.start},${baseline[4]!.end},meter fault\n`);
-    const run = await runCli(['fit', '--readings', readingsFile, '--weather', weatherFile, '--exclusions', file, '--json']);
+    const file = folder.write(
+      'exclusions.csv',
+      `start,end,reason\n${baseline[4]!.start},${baseline[4]!.end},meter fault\n`,
+    );
+    const run = await runCli([
+      'fit',
+      '--readings',
+      readingsFile,
+      '--weather',
+      weatherFile,
+      '--exclusions',
+      file,
+      '--json',
+    ]);
     expect(run.code).toBe(0);
     const printed = JSON.parse(run.stdout);
     expect(printed.exclusions).toEqual([

@@ -32,7 +32,9 @@ describe('mvledger verify --org', () => {
   it('verifies an untouched organisation, with the tables at --full', async () => {
     const chain = await runVerify(['--org', organisationId], env);
     expect(chain.code).toBe(0);
-    expect(chain.stdout).toMatch(/^chain: intact, 2 rows, head 2 [0-9a-f]{64}\nfrozen baselines: 0 checked, 0 not as frozen\nverified\n$/);
+    expect(chain.stdout).toMatch(
+      /^chain: intact, 2 rows, head 2 [0-9a-f]{64}\nfrozen baselines: 0 checked, 0 not as frozen\nverified\n$/,
+    );
     const full = await runVerify(['--org', organisationId, '--full'], env);
     expect(full.code).toBe(0);
     expect(full.stdout).toContain('api-keys 1, variables 0, variable-values 0, calendars 0; 0 differences');
@@ -40,11 +42,17 @@ describe('mvledger verify --org', () => {
 
   it('names a key whose role was raised behind the service, with exit code 4', async () => {
     const store = openStore(env.DATABASE_URL!);
-    await store.db.updateTable('api_keys').set({ role: 'admin' }).where('organisation_id', '=', organisationId).execute();
+    await store.db
+      .updateTable('api_keys')
+      .set({ role: 'admin' })
+      .where('organisation_id', '=', organisationId)
+      .execute();
     await store.close();
     const full = await runVerify(['--org', organisationId, '--full'], env);
     expect(full.code).toBe(EXIT_VERIFY_FAILED);
-    expect(full.stdout).toMatch(/\n {2}api-keys \S+: stored .*"role":"admin".*; the audit trail says .*"role":"analyst".*\n/);
+    expect(full.stdout).toMatch(
+      /\n {2}api-keys \S+: stored .*"role":"admin".*; the audit trail says .*"role":"analyst".*\n/,
+    );
     expect(full.stdout.trimEnd().endsWith('NOT VERIFIED')).toBe(true);
     // The chain and the baselines alone still hold: only the replay sees a table edit.
     expect((await runVerify(['--org', organisationId], env)).code).toBe(0);

@@ -1,7 +1,15 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { makeTempFolder, runCli } from './helpers.js';
 import { makeTestApi } from '../support/api.js';
-import { dlyLine, GHCN_ID, NORMALS_ID, normalsAccessCsv, normalsValues, repeat, type Slot } from '../station-archives/fixtures.js';
+import {
+  dlyLine,
+  GHCN_ID,
+  NORMALS_ID,
+  normalsAccessCsv,
+  normalsValues,
+  repeat,
+  type Slot,
+} from '../station-archives/fixtures.js';
 
 // A .dly file constructed to the published layout (invented id and values); check values hand-worked from it.
 const folder = makeTempFolder();
@@ -24,7 +32,9 @@ describe('mvledger weather', () => {
     // (10 + 20)/2 = 15 °C = 59 °F (NIST SP 811: 1.8·15 + 32)
     expect(lines[1]).toBe('2023-04-01,59');
     expect(lines).toHaveLength(29); // header + 28 days (2 and 3 April missing)
-    expect(run.stderr).toContain(`station ${GHCN_ID}: 30 days read, 28 imported, 1 values dropped by quality flag (K 1), 2 days missing`);
+    expect(run.stderr).toContain(
+      `station ${GHCN_ID}: 30 days read, 28 imported, 1 values dropped by quality flag (K 1), 2 days missing`,
+    );
   });
 
   it('check prints span, missing share and extremes; bad input is one line with exit code 2', async () => {
@@ -46,7 +56,9 @@ describe('mvledger weather', () => {
     const api = await makeTestApi();
     try {
       const address = await api.app.listen({ port: 0, host: '127.0.0.1' });
-      const station = await api.call('POST', '/v1/weather-stations', { body: { name: 'Station west (invented)', temperatureUnit: 'C' } });
+      const station = await api.call('POST', '/v1/weather-stations', {
+        body: { name: 'Station west (invented)', temperatureUnit: 'C' },
+      });
       const run = await runCli([
         'weather',
         'import',
@@ -61,7 +73,11 @@ describe('mvledger weather', () => {
         api.keys.integration,
       ]);
       expect(run.code, run.stderr).toBe(0);
-      expect(JSON.parse(run.stdout)).toMatchObject({ stationId: station.json.id, created: 28, counts: { droppedByFlag: 1 } });
+      expect(JSON.parse(run.stdout)).toMatchObject({
+        stationId: station.json.id,
+        created: 28,
+        counts: { droppedByFlag: 1 },
+      });
       const refused = await runCli([
         'weather',
         'import',
@@ -95,7 +111,9 @@ describe('mvledger weather normals', () => {
     expect(lines).toHaveLength(366); // header + 365 days (02-29 left out)
     expect(lines[1]).toBe(`01-01,${Number(normalsValues(0).tavg)}`); // synthetic: the fixture's value
     expect(lines.some((l) => l.startsWith('02-29'))).toBe(false);
-    expect(run.stderr).toContain(`published daily normals (noaa-daily-normals-csv) of station ${NORMALS_ID}: DLY-TAVG-NORMAL on every day`);
+    expect(run.stderr).toContain(
+      `published daily normals (noaa-daily-normals-csv) of station ${NORMALS_ID}: DLY-TAVG-NORMAL on every day`,
+    );
   });
 
   it('refuses a faulty file in one line naming line and column, exit code 2', async () => {
@@ -106,6 +124,8 @@ describe('mvledger weather normals', () => {
     const run = await runCli(['weather', 'normals', bad]);
     expect(run.code).toBe(2);
     expect(run.stdout).toBe('');
-    expect(run.stderr).toMatch(/^mvledger: .*bad-normals\.csv: line 4, column 8 \(DLY-TAVG-NORMAL\): must be a number, got "x"\n$/);
+    expect(run.stderr).toMatch(
+      /^mvledger: .*bad-normals\.csv: line 4, column 8 \(DLY-TAVG-NORMAL\): must be a number, got "x"\n$/,
+    );
   });
 });

@@ -27,7 +27,12 @@ describe('a typed client generated from the OpenAPI document drives the demo', (
   let base: string;
 
   beforeAll(async () => {
-    ({ service, seed, base } = await runDemo({ seedOnly: false, databaseFile: join(folder, 'demo.sqlite'), port: 0, print: () => {} }));
+    ({ service, seed, base } = await runDemo({
+      seedOnly: false,
+      databaseFile: join(folder, 'demo.sqlite'),
+      port: 0,
+      print: () => {},
+    }));
   }, 90_000);
 
   afterAll(async () => {
@@ -52,12 +57,19 @@ describe('a typed client generated from the OpenAPI document drives the demo', (
     const meter = meters[0]!;
 
     const bill = { start: '2026-01-01', end: '2026-02-01', quantity: 1234.5, cost: 180.25 };
-    const posted = await api.POST('/v1/meters/{id}/readings', { params: { path: { id: meter.id } }, body: { readings: [bill] } });
+    const posted = await api.POST('/v1/meters/{id}/readings', {
+      params: { path: { id: meter.id } },
+      body: { readings: [bill] },
+    });
     expect(posted.response.status).toBe(201);
     expect(posted.data).toMatchObject({ meterId: meter.id, created: 1 }); // synthetic: one new bill
 
-    const readBack = await api.GET('/v1/meters/{id}/readings', { params: { path: { id: meter.id }, query: { from: '2026-01-01' } } });
-    expect(readBack.data!.readings).toEqual([{ ...bill, id: `${bill.start}..${bill.end}`, days: 31, estimated: false }]); // synthetic: what was posted (a reading's id is its period)
+    const readBack = await api.GET('/v1/meters/{id}/readings', {
+      params: { path: { id: meter.id }, query: { from: '2026-01-01' } },
+    });
+    expect(readBack.data!.readings).toEqual([
+      { ...bill, id: `${bill.start}..${bill.end}`, days: 31, estimated: false },
+    ]); // synthetic: what was posted (a reading's id is its period)
 
     const savings = await api.GET('/v1/meters/{id}/savings', {
       params: { path: { id: meter.id }, query: { from: '2025-01-01', to: '2026-01-01', confidence: 0.9 } },

@@ -31,7 +31,8 @@ describe('npm run demo', () => {
     rmSync(folder, { recursive: true, force: true });
   });
 
-  const get = (path: string, token: string) => fetch(`${base}${path}`, { headers: { authorization: `Bearer ${token}` } });
+  const get = (path: string, token: string) =>
+    fetch(`${base}${path}`, { headers: { authorization: `Bearer ${token}` } });
 
   it('prints the keys, the docs URL and a savings and a signature URL for every meter', () => {
     expect(printed).toContain(seed.adminKey);

@@ -34,14 +34,21 @@ describe.skipIf(!available)('the demo’s quarterly report in a browser', () => 
   const problems: string[] = [];
 
   const get = async (query: string) => {
-    const response = await fetch(`${base}/v1/reports/savings?${query}`, { headers: { authorization: `Bearer ${seed.analystKey}` } });
+    const response = await fetch(`${base}/v1/reports/savings?${query}`, {
+      headers: { authorization: `Bearer ${seed.analystKey}` },
+    });
     expect(response.status).toBe(200);
     return response.text();
   };
 
   beforeAll(async () => {
     folder = mkdtempSync(join(tmpdir(), 'mvledger-demo-report-'));
-    ({ service, seed, base } = await runDemo({ seedOnly: false, databaseFile: join(folder, 'demo.sqlite'), port: 0, print: () => {} }));
+    ({ service, seed, base } = await runDemo({
+      seedOnly: false,
+      databaseFile: join(folder, 'demo.sqlite'),
+      port: 0,
+      print: () => {},
+    }));
     report = JSON.parse(await get(`quarter=${DEMO_QUARTER}`)) as SavingsReport;
     csv = await get(`quarter=${DEMO_QUARTER}&format=csv`);
     browser = await launchBrowser();
@@ -73,11 +80,14 @@ describe.skipIf(!available)('the demo’s quarterly report in a browser', () => 
     expect(boxes.length).toBeGreaterThanOrEqual(2 * meters + report.facilities.length);
     expect(boxes.every((area) => area > 10_000)).toBe(true);
     expect(await page.locator('svg[data-chart="period-comparison"]').count()).toBe(meters);
-    expect(await page.locator('svg[data-chart="cumulative-savings"]').count()).toBeGreaterThanOrEqual(report.facilities.length);
+    expect(await page.locator('svg[data-chart="cumulative-savings"]').count()).toBeGreaterThanOrEqual(
+      report.facilities.length,
+    );
   });
 
   it('states the same totals as the JSON report, and the CSV agrees', async () => {
-    const value = async (key: string) => Number(await page.locator(`[data-total="${key}"]`).first().getAttribute('data-value'));
+    const value = async (key: string) =>
+      Number(await page.locator(`[data-total="${key}"]`).first().getAttribute('data-value'));
     expect(await value('portfolio-savings-MMBtu')).toBe(report.portfolio.totals.MMBtu.savings);
     expect(await value('portfolio-savings-GJ')).toBe(report.portfolio.totals.GJ.savings);
     expect(await value('portfolio-uncertainty-MMBtu')).toBe(report.portfolio.totals.MMBtu.uncertainty);
@@ -94,7 +104,9 @@ describe.skipIf(!available)('the demo’s quarterly report in a browser', () => 
     const header = lines[0]!.split(',');
     const column = (name: string) => header.indexOf(name);
     for (const meter of report.facilities.flatMap((f) => f.meters)) {
-      const row = lines.find((line) => line.startsWith(`meter,`) && line.split(',')[column('meter_id')] === meter.id)!.split(',');
+      const row = lines
+        .find((line) => line.startsWith(`meter,`) && line.split(',')[column('meter_id')] === meter.id)!
+        .split(',');
       expect(Number(row[column('savings')])).toBeCloseTo(meter.energy!.savings, 5);
     }
     // The visible text shows the rounded figure too.

@@ -89,19 +89,31 @@ function parseCopy(args: string): Copy {
 const dockerfile = splitStages(parseDockerfile(read('docker/Dockerfile')));
 const finalStage = dockerfile.at(-1)!;
 const inFinal = (keyword: string) => finalStage.body.filter((i) => i.keyword === keyword);
-const copiesOf = (stage: Stage) => stage.body.filter((i) => i.keyword === 'COPY' || i.keyword === 'ADD').map((i) => parseCopy(i.args));
+const copiesOf = (stage: Stage) =>
+  stage.body.filter((i) => i.keyword === 'COPY' || i.keyword === 'ADD').map((i) => parseCopy(i.args));
 const contextCopies = dockerfile.flatMap(copiesOf).filter((c) => c.from === null);
 
 describe('the Dockerfile parser', () => {
   it('joins continuations, skips comments and splits stages', () => {
-    const text = ['# top', 'FROM base:1 AS one', 'RUN a \\', '  # inside', '  && b', '', 'FROM base:1', 'COPY --from=one x y /dst/'].join(
-      '\n',
-    );
+    const text = [
+      '# top',
+      'FROM base:1 AS one',
+      'RUN a \\',
+      '  # inside',
+      '  && b',
+      '',
+      'FROM base:1',
+      'COPY --from=one x y /dst/',
+    ].join('\n');
     const stages = splitStages(parseDockerfile(text));
     // synthetic: the test sets the truth
     expect(stages.map((s) => s.name)).toEqual(['one', null]);
     expect(stages[0]?.body).toEqual([{ keyword: 'RUN', args: 'a && b', line: 3 }]);
-    expect(parseCopy(stages[1]?.body[0]?.args ?? '')).toEqual({ from: 'one', sources: ['x', 'y'], destination: '/dst/' });
+    expect(parseCopy(stages[1]?.body[0]?.args ?? '')).toEqual({
+      from: 'one',
+      sources: ['x', 'y'],
+      destination: '/dst/',
+    });
     expect(parseCopy('["a b", "c"]')).toEqual({ from: null, sources: ['a b'], destination: 'c' });
   });
 });
@@ -124,7 +136,8 @@ describe('docker/Dockerfile', () => {
   it('copies from earlier stages only', () => {
     const names = new Set<string>();
     for (const stage of dockerfile) {
-      for (const copy of copiesOf(stage)) if (copy.from !== null) expect(names, `--from=${copy.from}`).toContain(copy.from); // from memory: a stage can only read earlier ones
+      for (const copy of copiesOf(stage))
+        if (copy.from !== null) expect(names, `--from=${copy.from}`).toContain(copy.from); // from memory: a stage can only read earlier ones
       if (stage.name) names.add(stage.name);
     }
   });
@@ -141,8 +154,12 @@ describe('docker/Dockerfile', () => {
   });
 
   it('gives the TypeScript build every folder and config that tsconfig.build.json compiles', () => {
-    const buildConfig = z.object({ extends: z.string(), include: z.array(z.string()) }).parse(JSON.parse(read('tsconfig.build.json')));
-    const compiler = dockerfile.find((s) => s.body.some((i) => i.keyword === 'RUN' && i.args.includes('tsconfig.build.json')));
+    const buildConfig = z
+      .object({ extends: z.string(), include: z.array(z.string()) })
+      .parse(JSON.parse(read('tsconfig.build.json')));
+    const compiler = dockerfile.find((s) =>
+      s.body.some((i) => i.keyword === 'RUN' && i.args.includes('tsconfig.build.json')),
+    );
     expect(compiler, 'a stage running tsc -p tsconfig.build.json').toBeDefined();
     const copied = copiesOf(compiler!)
       .filter((c) => c.from === null)
@@ -168,7 +185,9 @@ describe('docker/Dockerfile', () => {
     // web/build.mjs bundles web/src, which imports the report charts under src/
     for (const needed of ['web', 'src']) expect(copied, needed).toContain(needed);
     // src/http/plugins/workbench.ts reads web/public and dist/web under the package root
-    const finalSources = copiesOf(finalStage).flatMap((c) => c.sources.map((s) => s.replace(/^\.\//, '').replace(/\/$/, '')));
+    const finalSources = copiesOf(finalStage).flatMap((c) =>
+      c.sources.map((s) => s.replace(/^\.\//, '').replace(/\/$/, '')),
+    );
     expect(finalSources).toContain('web/public');
     expect(finalSources).toContain('/app/dist');
   });
@@ -202,7 +221,9 @@ describe('docker/Dockerfile', () => {
   });
 
   it('listens on all interfaces at 8080 in production mode', () => {
-    const env = Object.fromEntries(inFinal('ENV').flatMap((i) => i.args.split(' ').map((pair) => pair.split('=') as [string, string])));
+    const env = Object.fromEntries(
+      inFinal('ENV').flatMap((i) => i.args.split(' ').map((pair) => pair.split('=') as [string, string])),
+    );
     expect(env).toMatchObject({ HOST: '0.0.0.0', PORT: '8080', NODE_ENV: 'production' }); // issue 5
     expect(inFinal('EXPOSE').map((i) => i.args)).toEqual(['8080']); // issue 5
   });
@@ -231,7 +252,9 @@ const environmentSchema = z.union([
   z.record(z.string(), z.union([z.string(), z.number()]).transform(String)),
   z
     .array(z.string())
-    .transform((list) => Object.fromEntries(list.map((entry) => [entry.split('=')[0] ?? '', entry.slice(entry.indexOf('=') + 1)]))),
+    .transform((list) =>
+      Object.fromEntries(list.map((entry) => [entry.split('=')[0] ?? '', entry.slice(entry.indexOf('=') + 1)])),
+    ),
 ]);
 const dependsOnSchema = z.record(z.string(), z.object({ condition: z.string() }));
 const serviceSchema = z.object({
@@ -310,7 +333,9 @@ describe('docker/compose.yaml', () => {
         if (condition !== 'service_healthy') continue;
         const waitedOn = service(target);
         // from memory: a built service inherits the image's HEALTHCHECK
-        const hasCheck = waitedOn.healthcheck !== undefined || (waitedOn.build?.dockerfile === 'docker/Dockerfile' && imageHasHealthcheck);
+        const hasCheck =
+          waitedOn.healthcheck !== undefined ||
+          (waitedOn.build?.dockerfile === 'docker/Dockerfile' && imageHasHealthcheck);
         expect(hasCheck, `${name} waits on ${target}`).toBe(true);
       }
     }
@@ -319,7 +344,8 @@ describe('docker/compose.yaml', () => {
   it('runs two identical ledgers: both offer the bootstrap key, neither waits for the other', () => {
     // The bootstrap is one transaction under one lock (src/services/organisations.ts,
     // raced in test/services/organisations.test.ts), so the instances may start together.
-    for (const name of LEDGERS) expect(service(name).environment.MVLEDGER_BOOTSTRAP_KEY, name).toMatch(REQUIRED_VARIABLE);
+    for (const name of LEDGERS)
+      expect(service(name).environment.MVLEDGER_BOOTSTRAP_KEY, name).toMatch(REQUIRED_VARIABLE);
     expect(service('ledger-b').depends_on?.['ledger-a']).toBeUndefined();
     expect(service('ledger-a').depends_on?.['ledger-b']).toBeUndefined();
   });

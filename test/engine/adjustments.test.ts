@@ -12,7 +12,9 @@ import { InvalidAdjustmentError } from '../../src/engine/errors.js';
 
 // Invented adjustments; every expected value is hand-worked (arithmetic beside it).
 
-function adjustment(fields: Partial<NonRoutineAdjustment> & Pick<NonRoutineAdjustment, 'start' | 'end'>): NonRoutineAdjustment {
+function adjustment(
+  fields: Partial<NonRoutineAdjustment> & Pick<NonRoutineAdjustment, 'start' | 'end'>,
+): NonRoutineAdjustment {
   return { id: 'a1', quantity: null, perDay: null, reason: 'east wing closed for refurbishment', ...fields };
 }
 
@@ -30,27 +32,41 @@ describe('adjustmentPerDay', () => {
   });
 
   it('refuses both or neither amount, a non-finite amount, and end ≤ start', () => {
-    expect(() => adjustmentPerDay(adjustment({ start: '2025-04-01', end: '2025-05-01', quantity: 1, perDay: 1 }))).toThrow(/exactly one/);
+    expect(() =>
+      adjustmentPerDay(adjustment({ start: '2025-04-01', end: '2025-05-01', quantity: 1, perDay: 1 })),
+    ).toThrow(/exactly one/);
     expect(() => adjustmentPerDay(adjustment({ start: '2025-04-01', end: '2025-05-01' }))).toThrow(/exactly one/);
-    expect(() => adjustmentPerDay(adjustment({ start: '2025-04-01', end: '2025-05-01', quantity: Number.NaN }))).toThrow(
+    expect(() =>
+      adjustmentPerDay(adjustment({ start: '2025-04-01', end: '2025-05-01', quantity: Number.NaN })),
+    ).toThrow(InvalidAdjustmentError);
+    expect(() => adjustmentPerDay(adjustment({ start: '2025-04-01', end: '2025-04-01', quantity: 10 }))).toThrow(
+      /not after/,
+    );
+    expect(() => adjustmentPerDay(adjustment({ start: '2025-04-31', end: '2025-05-01', quantity: 10 }))).toThrow(
       InvalidAdjustmentError,
     );
-    expect(() => adjustmentPerDay(adjustment({ start: '2025-04-01', end: '2025-04-01', quantity: 10 }))).toThrow(/not after/);
-    expect(() => adjustmentPerDay(adjustment({ start: '2025-04-31', end: '2025-05-01', quantity: 10 }))).toThrow(InvalidAdjustmentError);
   });
 });
 
 describe('adjustmentOverlap', () => {
   it('counts days in common of two [start, end) spans (hand-worked)', () => {
     // [04-10, 05-10) ∩ [04-01, 05-01) = [04-10, 05-01): 21 days
-    expect(adjustmentOverlap({ start: '2025-04-10', end: '2025-05-10' }, { start: '2025-04-01', end: '2025-05-01' })).toBe(21);
+    expect(
+      adjustmentOverlap({ start: '2025-04-10', end: '2025-05-10' }, { start: '2025-04-01', end: '2025-05-01' }),
+    ).toBe(21);
     // one inside the other: [04-05, 04-08) inside April: 3 days
-    expect(adjustmentOverlap({ start: '2025-04-05', end: '2025-04-08' }, { start: '2025-04-01', end: '2025-05-01' })).toBe(3);
+    expect(
+      adjustmentOverlap({ start: '2025-04-05', end: '2025-04-08' }, { start: '2025-04-01', end: '2025-05-01' }),
+    ).toBe(3);
   });
 
   it('is 0 for spans that only touch (end exclusive) or are apart', () => {
-    expect(adjustmentOverlap({ start: '2025-04-01', end: '2025-05-01' }, { start: '2025-05-01', end: '2025-06-01' })).toBe(0);
-    expect(adjustmentOverlap({ start: '2025-04-01', end: '2025-05-01' }, { start: '2025-07-01', end: '2025-08-01' })).toBe(0);
+    expect(
+      adjustmentOverlap({ start: '2025-04-01', end: '2025-05-01' }, { start: '2025-05-01', end: '2025-06-01' }),
+    ).toBe(0);
+    expect(
+      adjustmentOverlap({ start: '2025-04-01', end: '2025-05-01' }, { start: '2025-07-01', end: '2025-08-01' }),
+    ).toBe(0);
   });
 });
 
@@ -75,7 +91,9 @@ describe('adjustmentsForPeriod', () => {
   });
 
   it('adds up to the whole quantity over consecutive periods sharing read dates (hand-worked: 2,100 + 900 = 3,000)', () => {
-    const total = adjustmentsForPeriod([closure], '2025-04-01', '2025-05-01') + adjustmentsForPeriod([closure], '2025-05-01', '2025-06-01');
+    const total =
+      adjustmentsForPeriod([closure], '2025-04-01', '2025-05-01') +
+      adjustmentsForPeriod([closure], '2025-05-01', '2025-06-01');
     expect(total).toBe(3000);
   });
 
@@ -103,7 +121,13 @@ describe('findOverlappingAdjustment', () => {
 
 describe('the uncertainty an adjustment carries into the reporting periods', () => {
   // The closure: 3,000 over [04-10, 05-10), 30 days, ± 600 (one standard deviation of the total, stated by the engineer).
-  const closure = adjustment({ id: 'closure', start: '2025-04-10', end: '2025-05-10', quantity: 3000, uncertainty: 600 });
+  const closure = adjustment({
+    id: 'closure',
+    start: '2025-04-10',
+    end: '2025-05-10',
+    quantity: 3000,
+    uncertainty: 600,
+  });
   // The new line: −25 a day over [04-20, 06-01), 42 days, ± 800 on its total of −1,050.
   const newLine = adjustment({ id: 'line', start: '2025-04-20', end: '2025-06-01', perDay: -25, uncertainty: 800 });
   const april = { start: '2025-04-01', end: '2025-05-01' };
@@ -122,9 +146,14 @@ describe('the uncertainty an adjustment carries into the reporting periods', () 
   });
 
   it('is 0 for an adjustment without a stated ±, outside the periods, or for none', () => {
-    expect(adjustmentUncertaintyInPeriods(adjustment({ start: '2025-04-10', end: '2025-05-10', quantity: 3000 }), [april])).toBe(0);
     expect(
-      adjustmentUncertaintyInPeriods(adjustment({ start: '2025-04-10', end: '2025-05-10', quantity: 3000, uncertainty: null }), [april]),
+      adjustmentUncertaintyInPeriods(adjustment({ start: '2025-04-10', end: '2025-05-10', quantity: 3000 }), [april]),
+    ).toBe(0);
+    expect(
+      adjustmentUncertaintyInPeriods(
+        adjustment({ start: '2025-04-10', end: '2025-05-10', quantity: 3000, uncertainty: null }),
+        [april],
+      ),
     ).toBe(0);
     expect(adjustmentUncertaintyInPeriods(closure, [{ start: '2025-07-01', end: '2025-08-01' }])).toBe(0);
     expect(adjustmentsUncertaintyInPeriods([], [april])).toBe(0);
@@ -134,8 +163,8 @@ describe('the uncertainty an adjustment carries into the reporting periods', () 
     expect(() => adjustmentUncertaintyInPeriods({ ...closure, uncertainty: -1 }, [april])).toThrow(
       /uncertainty must be a finite number of at least 0/,
     );
-    expect(() => adjustmentUncertaintyInPeriods({ ...closure, uncertainty: Number.POSITIVE_INFINITY }, [april])).toThrow(
-      InvalidAdjustmentError,
-    );
+    expect(() =>
+      adjustmentUncertaintyInPeriods({ ...closure, uncertainty: Number.POSITIVE_INFINITY }, [april]),
+    ).toThrow(InvalidAdjustmentError);
   });
 });

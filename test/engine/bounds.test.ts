@@ -42,7 +42,9 @@ describe('beyondBound and beyondBoundPerDay', () => {
   it('accept the bound itself and refuse the next double above it, naming the bound', () => {
     expect(beyondBound(1e10, MAX_PRICE)).toBeNull();
     expect(beyondBound(-1e10, MAX_PRICE)).toBeNull();
-    expect(beyondBound(10_000_000_000.000002, MAX_PRICE)).toMatch(/beyond the bound of ±1e10 currency units per unit of the meter/);
+    expect(beyondBound(10_000_000_000.000002, MAX_PRICE)).toMatch(
+      /beyond the bound of ±1e10 currency units per unit of the meter/,
+    );
     expect(beyondBound(Number.NaN, MAX_PRICE)).toBeNull(); // not finite: another check names it
   });
 
@@ -51,7 +53,9 @@ describe('beyondBound and beyondBoundPerDay', () => {
     expect(beyondBoundPerDay(366e12, '2025-01-01', '2026-01-01', MAX_USE_PER_DAY)).toMatch(
       /^3\.660e14 over 365 days is 1\.003e12 a day, beyond the bound of 1e12/,
     );
-    expect(beyondBoundPerDay(Number.MAX_VALUE, '2025-01-01', '2025-01-02', MAX_USE_PER_DAY)).toMatch(/over 1 day is 1\.798e308 a day/);
+    expect(beyondBoundPerDay(Number.MAX_VALUE, '2025-01-01', '2025-01-02', MAX_USE_PER_DAY)).toMatch(
+      /over 1 day is 1\.798e308 a day/,
+    );
     expect(beyondBoundPerDay(1e300, '2025-01-02', '2025-01-01', MAX_USE_PER_DAY)).toBeNull(); // end before start: another check names it
   });
 });

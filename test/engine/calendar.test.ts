@@ -6,7 +6,13 @@
  * truth is set by the test.
  */
 import { describe, expect, it } from 'vitest';
-import { analyseBaseline, checkCalendar, dayTypeSeries, dayTypesOver, type FacilityCalendar } from '../../src/engine/index.js';
+import {
+  analyseBaseline,
+  checkCalendar,
+  dayTypeSeries,
+  dayTypesOver,
+  type FacilityCalendar,
+} from '../../src/engine/index.js';
 import { seededRandom } from '../support/synthetic.js';
 
 const SCHOOL: FacilityCalendar = {
@@ -21,7 +27,14 @@ const SCHOOL: FacilityCalendar = {
 describe('facility calendar', () => {
   it('gives each day its type: the weekly pattern, overridden by exceptions (by hand)', () => {
     // 2031-06-28 was a Saturday (by hand); the break starts on Tuesday 2031-07-01.
-    expect(dayTypesOver(SCHOOL, '2031-06-27', '2031-07-03')).toEqual(['term', 'weekend', 'weekend', 'term', 'break', 'break']);
+    expect(dayTypesOver(SCHOOL, '2031-06-27', '2031-07-03')).toEqual([
+      'term',
+      'weekend',
+      'weekend',
+      'term',
+      'break',
+      'break',
+    ]);
   });
   it('names what is wrong: an unknown day type, a weekly pattern of the wrong length, overlapping exceptions', () => {
     expect(checkCalendar(SCHOOL)).toEqual([]);
@@ -31,7 +44,10 @@ describe('facility calendar', () => {
       exceptions: [],
     };
     expect(checkCalendar(bad).map((p) => p.field)).toEqual(['dayTypes[1]', 'weekly', 'weekly[5]']);
-    const overlapping = { ...SCHOOL, exceptions: [...SCHOOL.exceptions, { start: '2031-08-30', end: '2031-09-02', dayType: 'term' }] };
+    const overlapping = {
+      ...SCHOOL,
+      exceptions: [...SCHOOL.exceptions, { start: '2031-08-30', end: '2031-09-02', dayType: 'term' }],
+    };
     expect(checkCalendar(overlapping)).toEqual([
       { field: 'exceptions[2]', message: '2031-08-30..2031-09-02 overlaps exceptions[0] 2031-07-01..2031-09-01' },
     ]);
@@ -55,10 +71,17 @@ describe('facility calendar', () => {
       const temp = 52 - 20 * Math.cos((2 * Math.PI * d) / 365) + random.normal() * 4;
       const shift = types[d] === 'weekend' ? -900 : types[d] === 'break' ? -1400 : 0;
       weather.push({ date, temp });
-      readings.push({ start: date, end: next, quantity: 2500 + 40 * Math.max(58 - temp, 0) + shift + random.normal() * 120 });
+      readings.push({
+        start: date,
+        end: next,
+        quantity: 2500 + 40 * Math.max(58 - temp, 0) + shift + random.normal() * 120,
+      });
     }
     const series = dayTypeSeries(SCHOOL, from, '2032-01-01');
-    const analysis = analyseBaseline(readings, weather, { variableSeries: series, variables: series.map((s) => s.name) });
+    const analysis = analyseBaseline(readings, weather, {
+      variableSeries: series,
+      variables: series.map((s) => s.name),
+    });
     expect(analysis.choice.variables).toEqual(['day type: weekend', 'day type: break']);
     const fit = analysis.choice.candidates.find((c) => c.model === analysis.choice.selected)!.fit!;
     const weekend = fit.coefficients.find((c) => c.name === 'day type: weekend')!;

@@ -50,7 +50,15 @@ const CASES: readonly Case[] = [
   {
     name: 'heating-dominated building in the mild climate',
     climate: 'mild',
-    building: { ...NOISE_FREE, archetype: 'heating', base: 20, heatingBelow: 58, heatingRate: 6, coolingAbove: 65, coolingRate: 0 },
+    building: {
+      ...NOISE_FREE,
+      archetype: 'heating',
+      base: 20,
+      heatingBelow: 58,
+      heatingRate: 6,
+      coolingAbove: 65,
+      coolingRate: 0,
+    },
     truth: '3PH',
     parameters: { base: 20, heatingSlope: -6, heatingChangepoint: 58 },
     seed: 5,
@@ -58,7 +66,15 @@ const CASES: readonly Case[] = [
   {
     name: 'cooling-dominated building in the hot climate',
     climate: 'hot',
-    building: { ...NOISE_FREE, archetype: 'cooling', base: 800, heatingBelow: 55, heatingRate: 0, coolingAbove: 64, coolingRate: 30 },
+    building: {
+      ...NOISE_FREE,
+      archetype: 'cooling',
+      base: 800,
+      heatingBelow: 55,
+      heatingRate: 0,
+      coolingAbove: 64,
+      coolingRate: 30,
+    },
     truth: '3PC',
     parameters: { base: 800, coolingSlope: 30, coolingChangepoint: 64 },
     seed: 5,
@@ -66,7 +82,15 @@ const CASES: readonly Case[] = [
   {
     name: '5P building in the continental climate',
     climate: 'continental',
-    building: { ...NOISE_FREE, archetype: 'fivePoint', base: 900, heatingBelow: 52, heatingRate: 15, coolingAbove: 64, coolingRate: 30 },
+    building: {
+      ...NOISE_FREE,
+      archetype: 'fivePoint',
+      base: 900,
+      heatingBelow: 52,
+      heatingRate: 15,
+      coolingAbove: 64,
+      coolingRate: 30,
+    },
     truth: '5P',
     parameters: { base: 900, heatingSlope: -15, coolingSlope: 30, heatingChangepoint: 52, coolingChangepoint: 64 },
     seed: 5,
@@ -108,7 +132,9 @@ describe('noise-free invented buildings, no retrofit: the day-resolved form', ()
     expect(fit.stats.cvrmse).toBeLessThan(1e-6); // noise-free data, the model's own form
     expect(trueShapeFit).not.toBeNull();
     for (const [name, value] of Object.entries(c.parameters)) {
-      expect(Math.abs(trueShapeFit!.parameters[name]! - value)).toBeLessThanOrEqual(1e-6 * Math.max(1, Math.abs(value))); // synthetic truth
+      expect(Math.abs(trueShapeFit!.parameters[name]! - value)).toBeLessThanOrEqual(
+        1e-6 * Math.max(1, Math.abs(value)),
+      ); // synthetic truth
     }
   });
 
@@ -177,7 +203,9 @@ describe('the simulation itself', () => {
       const weather = makeStation(climate, '2030-01-01', days, seededRandom(21)).weather;
       // Departures from the seasonal curve; the 0.1° rounding adds a variance of 0.01/12, negligible here.
       const departures = weather.map((day, d) => day.temp - seasonalTemperature(climate, d));
-      expect(Math.abs(lagOne(departures) - climate.persistence)).toBeLessThan(lagOneTolerance(climate.persistence, days)); // the climate's stated φ
+      expect(Math.abs(lagOne(departures) - climate.persistence)).toBeLessThan(
+        lagOneTolerance(climate.persistence, days),
+      ); // the climate's stated φ
       expect(Math.abs(sd(departures) / climate.dailySpread - 1)).toBeLessThan(sdTolerance(climate.persistence, days)); // the climate's stated spread
     },
   );
@@ -188,7 +216,12 @@ describe('the simulation itself', () => {
       const days = 20_000;
       const random = seededRandom(31);
       const shocks = stationShocks(days, phi, random);
-      const building: SimulatedBuilding = { ...CASES[0]!.building, dailyNoise: 5, noisePersistence: phi, stationShare: 0.4 };
+      const building: SimulatedBuilding = {
+        ...CASES[0]!.building,
+        dailyNoise: 5,
+        noisePersistence: phi,
+        stationShare: 0.4,
+      };
       const [a, b] = [meterNoise(building, days, random, shocks), meterNoise(building, days, random, shocks)];
       for (const noise of [a!, b!]) {
         expect(Math.abs(lagOne(noise) - phi)).toBeLessThan(lagOneTolerance(phi, days)); // stated φ
@@ -199,7 +232,9 @@ describe('the simulation itself', () => {
       const [ma, mb] = [mean(a!), mean(b!)];
       const cov = a!.reduce((s, x, i) => s + (x - ma) * (b![i]! - mb), 0) / (days - 1);
       const correlation = cov / (sd(a!) * sd(b!));
-      expect(Math.abs(correlation - 0.4)).toBeLessThan(4 * Math.sqrt((((1 + phi * phi) / (1 - phi * phi)) * (1 + 0.16)) / days)); // stated share 0.4
+      expect(Math.abs(correlation - 0.4)).toBeLessThan(
+        4 * Math.sqrt((((1 + phi * phi) / (1 - phi * phi)) * (1 + 0.16)) / days),
+      ); // stated share 0.4
     },
   );
 

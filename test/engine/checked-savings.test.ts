@@ -15,18 +15,27 @@ import {
 
 const short = baselineSufficiency([{ days: 31 }, { days: 30 }, { days: 31 }]); // synthetic: three bills, 92 days
 const enough = baselineSufficiency(Array.from({ length: 12 }, () => ({ days: 30 }))); // synthetic: 12 bills, 360 days
-const fit = { temperatureForm: 'daily' as const, temperatureRange: { min: 40, max: 70 }, dayTemperatureRange: { min: 30, max: 80 } };
+const fit = {
+  temperatureForm: 'daily' as const,
+  temperatureRange: { min: 40, max: 70 },
+  dayTemperatureRange: { min: 30, max: 80 },
+};
 const beyond = reportingExtrapolation(fit, [{ days: 2, meanTemp: 90, dayTemps: [90, 95] }]); // synthetic: both days outside
 const within = reportingExtrapolation(fit, [{ days: 2, meanTemp: 50, dayTemps: [45, 55] }]);
 
 describe('projectionRefusals', () => {
   it('refuses a short baseline (when asked to) and a share above the limit, each with its reason', () => {
     expect(
-      projectionRefusals({ sufficiency: short, extrapolation: beyond, overrides: NO_OVERRIDES }, { requireSufficiency: true }),
+      projectionRefusals(
+        { sufficiency: short, extrapolation: beyond, overrides: NO_OVERRIDES },
+        { requireSufficiency: true },
+      ),
     ).toEqual([
       {
         check: 'shortBaseline',
-        reason: expect.stringMatching(/^the baseline is too short to project from: the baseline's usable periods cover 92 days/),
+        reason: expect.stringMatching(
+          /^the baseline is too short to project from: the baseline's usable periods cover 92 days/,
+        ),
       },
       {
         check: 'extrapolation',
@@ -37,22 +46,31 @@ describe('projectionRefusals', () => {
     ]);
     // A frozen baseline's service check leaves the length to the freeze.
     expect(
-      projectionRefusals({ sufficiency: short, extrapolation: within, overrides: NO_OVERRIDES }, { requireSufficiency: false }),
+      projectionRefusals(
+        { sufficiency: short, extrapolation: within, overrides: NO_OVERRIDES },
+        { requireSufficiency: false },
+      ),
     ).toEqual([]);
     expect(
-      projectionRefusals({ sufficiency: enough, extrapolation: within, overrides: NO_OVERRIDES }, { requireSufficiency: true }),
+      projectionRefusals(
+        { sufficiency: enough, extrapolation: within, overrides: NO_OVERRIDES },
+        { requireSufficiency: true },
+      ),
     ).toEqual([]);
   });
 
   it('lets each override pass its own check only', () => {
     const shortOnly = { shortBaseline: { reason: 'pilot' }, extrapolation: null };
     expect(
-      projectionRefusals({ sufficiency: short, extrapolation: beyond, overrides: shortOnly }, { requireSufficiency: true }).map(
-        (r) => r.check,
-      ),
+      projectionRefusals(
+        { sufficiency: short, extrapolation: beyond, overrides: shortOnly },
+        { requireSufficiency: true },
+      ).map((r) => r.check),
     ).toEqual(['extrapolation']);
     const both = { shortBaseline: { reason: 'pilot' }, extrapolation: { reason: 'heat wave' } };
-    expect(projectionRefusals({ sufficiency: short, extrapolation: beyond, overrides: both }, { requireSufficiency: true })).toEqual([]);
+    expect(
+      projectionRefusals({ sufficiency: short, extrapolation: beyond, overrides: both }, { requireSufficiency: true }),
+    ).toEqual([]);
   });
 });
 
@@ -63,7 +81,11 @@ describe('withProjectionChecks', () => {
       baseline: { selected: '3PH', temperatureForm: 'daily', reportingMonths: 1, guideline14: null },
       totals: { savings: 1 },
     } as unknown as SavingsDocument;
-    const checked = withProjectionChecks(document, { sufficiency: enough, extrapolation: within, overrides: NO_OVERRIDES });
+    const checked = withProjectionChecks(document, {
+      sufficiency: enough,
+      extrapolation: within,
+      overrides: NO_OVERRIDES,
+    });
     expect(checked.baseline).toEqual({ ...document.baseline, sufficiency: enough, overrides: NO_OVERRIDES });
     expect(checked.extrapolation).toBe(within);
     expect(checked.totals).toBe(document.totals);

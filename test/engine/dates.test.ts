@@ -19,7 +19,15 @@ describe('parseIsoDate: calendar dates as whole days since 1970-01-01', () => {
   });
 
   it('refuses dates that do not exist', () => {
-    for (const text of ['2025-02-30', '2024-02-30', '2024-04-31', '2024-13-01', '2024-00-10', '2024-01-00', '2024-01-32']) {
+    for (const text of [
+      '2025-02-30',
+      '2024-02-30',
+      '2024-04-31',
+      '2024-13-01',
+      '2024-00-10',
+      '2024-01-00',
+      '2024-01-32',
+    ]) {
       expect(parseIsoDate(text), text).toBeNull();
     }
   });

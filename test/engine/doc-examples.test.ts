@@ -45,7 +45,11 @@ interface DocExample {
 
 function engineFiles(folder: string): string[] {
   return readdirSync(folder, { withFileTypes: true }).flatMap((entry) =>
-    entry.isDirectory() ? engineFiles(join(folder, entry.name)) : entry.name.endsWith('.ts') ? [join(folder, entry.name)] : [],
+    entry.isDirectory()
+      ? engineFiles(join(folder, entry.name))
+      : entry.name.endsWith('.ts')
+        ? [join(folder, entry.name)]
+        : [],
   );
 }
 
@@ -120,12 +124,18 @@ describe('the engine doc comments', () => {
     const module = (await import(pathToFileURL(join(ENGINE, example.file)).href)) as Record<string, unknown>;
     const names = Object.keys(module);
     const run = new Function(...names, `return (${example.call});`) as (...args: unknown[]) => unknown;
-    expectValue(run(...names.map((name) => module[name])), example.value, `${example.file}: ${example.call} // ${example.value}`);
+    expectValue(
+      run(...names.map((name) => module[name])),
+      example.value,
+      `${example.file}: ${example.call} // ${example.value}`,
+    );
   });
 
   it('give every exported function of the numeric modules an example', () => {
     for (const file of NUMERIC_MODULES) {
-      const exported = [...readFileSync(join(ENGINE, file), 'utf8').matchAll(/^export function (\w+)/gm)].map((m) => m[1]!);
+      const exported = [...readFileSync(join(ENGINE, file), 'utf8').matchAll(/^export function (\w+)/gm)].map(
+        (m) => m[1]!,
+      );
       const shown = new Set(EXAMPLES.filter((e) => e.file === file).map((e) => /^(\w+)/.exec(e.call)?.[1]));
       for (const name of exported) expect(shown.has(name), `${file}: ${name} has no @example`).toBe(true);
     }

@@ -53,7 +53,9 @@ describe('ENERGY_UNIT_JOULES against published values', () => {
   });
 
   it('lists exactly the canonical spellings', () => {
-    expect(Object.keys(ENERGY_UNIT_JOULES).sort()).toEqual(['Btu', 'GJ', 'MJ', 'MMBtu', 'MWh', 'Wh', 'kBtu', 'kWh', 'therm'].sort());
+    expect(Object.keys(ENERGY_UNIT_JOULES).sort()).toEqual(
+      ['Btu', 'GJ', 'MJ', 'MMBtu', 'MWh', 'Wh', 'kBtu', 'kWh', 'therm'].sort(),
+    );
   });
 });
 

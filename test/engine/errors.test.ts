@@ -41,9 +41,9 @@ describe('TooFewPeriodsError', () => {
     expect(() => chooseBaseline([])).toThrow(TooFewPeriodsError);
     const fit = analyseBaseline(BILLS, WEATHER).choice.candidates[0]!.fit!;
     const aligned = alignPeriods([{ start: '2030-01-01', end: '2030-02-01', quantity: 10 }], WEATHER);
-    expect(() => savingsFromAligned(fit, { limits: { cvrmse: 0.2, nmbe: 0.05 } as never, excluded: [] }, aligned)).toThrow(
-      expect.objectContaining({ purpose: 'savings', usable: 0, excluded: aligned.excluded }),
-    );
+    expect(() =>
+      savingsFromAligned(fit, { limits: { cvrmse: 0.2, nmbe: 0.05 } as never, excluded: [] }, aligned),
+    ).toThrow(expect.objectContaining({ purpose: 'savings', usable: 0, excluded: aligned.excluded }));
   });
 });
 

@@ -31,7 +31,9 @@ describe('a normal year from 30 years of history', () => {
     expect(built.years).toBe(30);
     expect(built.daysUsed).toBe(10958); // 30 × 365 + 8 leap days (1992 … 2020)
     built.rawMeans.forEach((mean, i) => expect(mean).toBeCloseTo(truth(i), 10));
-    built.temps.forEach((t, i) => expect(t).toBeCloseTo(A + B * gain(15) * Math.cos((2 * Math.PI * (i - PHI)) / 365), 10));
+    built.temps.forEach((t, i) =>
+      expect(t).toBeCloseTo(A + B * gain(15) * Math.cos((2 * Math.PI * (i - PHI)) / 365), 10),
+    );
   });
 
   it('stays within the noise’s standard error of the analytic mean with seeded noise', () => {
@@ -41,7 +43,9 @@ describe('a normal year from 30 years of history', () => {
     const built = normalYearFromHistory(history(noise), { fromYear: 1991, toYear: 2020, windowDays: 15 });
     // Each smoothed day averages about 30 × 15 independent values: standard error 3/√450 ≈ 0.14; 5 of them bound the worst of 365.
     const bound = (5 * sigma) / Math.sqrt(30 * 15);
-    const worst = Math.max(...built.temps.map((t, i) => Math.abs(t - (A + B * gain(15) * Math.cos((2 * Math.PI * (i - PHI)) / 365)))));
+    const worst = Math.max(
+      ...built.temps.map((t, i) => Math.abs(t - (A + B * gain(15) * Math.cos((2 * Math.PI * (i - PHI)) / 365)))),
+    );
     expect(worst).toBeLessThan(bound);
   });
 
@@ -51,6 +55,8 @@ describe('a normal year from 30 years of history', () => {
     expect(() => normalYearFromHistory(days, { fromYear: 1991, toYear: 2020 })).toThrow(
       /fewer than 24 of the 30 years 1991–2020 on record: 07-04/,
     );
-    expect(() => normalYearFromHistory(days, { fromYear: 1991, toYear: 2020, windowDays: 14 })).toThrow(/odd whole number/);
+    expect(() => normalYearFromHistory(days, { fromYear: 1991, toYear: 2020, windowDays: 14 })).toThrow(
+      /odd whole number/,
+    );
   });
 });

@@ -30,7 +30,11 @@ describe('checkNormalYear', () => {
   it('names the missing days', () => {
     const year = fullYear().filter((d) => d.day !== '03-14' && d.day !== '03-15');
     expect(checkNormalYear(year, 'F')).toEqual([
-      { index: -1, field: 'day', message: 'missing days: 03-14, 03-15 (a normal year has all 365 days, 02-29 left out)' },
+      {
+        index: -1,
+        field: 'day',
+        message: 'missing days: 03-14, 03-15 (a normal year has all 365 days, 02-29 left out)',
+      },
     ]);
   });
 
@@ -46,7 +50,11 @@ describe('checkNormalYear', () => {
   it('refuses 02-29 with the reason', () => {
     const problems = checkNormalYear([...fullYear(), { day: '02-29', temp: 30 }], 'F');
     expect(problems).toEqual([
-      { index: 365, field: 'day', message: '02-29 is not a day of a normal year: a normal year has 365 days and 02-29 is left out' },
+      {
+        index: 365,
+        field: 'day',
+        message: '02-29 is not a day of a normal year: a normal year has 365 days and 02-29 is left out',
+      },
     ]);
   });
 

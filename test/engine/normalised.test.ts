@@ -14,7 +14,14 @@ import {
   normalYearMonths,
   predictPerDay,
 } from '../../src/engine/index.js';
-import { CLIMATES, SAMPLE_BUILDING, dailyReadings, dailyWeather, monthlyReadings, seededRandom } from '../support/synthetic.js';
+import {
+  CLIMATES,
+  SAMPLE_BUILDING,
+  dailyReadings,
+  dailyWeather,
+  monthlyReadings,
+  seededRandom,
+} from '../support/synthetic.js';
 
 const random = seededRandom(77);
 const WEATHER = dailyWeather(CLIMATES.temperate, '2023-01-01', 1096, random);
@@ -60,7 +67,13 @@ describe('normalisedSavings on bills', () => {
     const random = seededRandom(78);
     const weather = dailyWeather(CLIMATES.temperate, '2023-01-01', 1096, random);
     const bills = monthlyReadings(SAMPLE_BUILDING, weather, '2023-01-01', 24, random);
-    const reporting = monthlyReadings({ ...SAMPLE_BUILDING, base: SAMPLE_BUILDING.base - 30 }, weather, '2025-01-01', 12, random);
+    const reporting = monthlyReadings(
+      { ...SAMPLE_BUILDING, base: SAMPLE_BUILDING.base - 30 },
+      weather,
+      '2025-01-01',
+      12,
+      random,
+    );
     const analysis = analyseBaseline(bills, weather, { temperatureForm: 'mean' });
     const fit = analysis.choice.candidates.find((c) => c.model === analysis.choice.selected)!.fit!;
     const result = normalisedSavings(fit, reporting, weather, NORMAL);
@@ -70,7 +83,10 @@ describe('normalisedSavings on bills', () => {
     const months = normalYearMonths(NORMAL);
     expect(months.map((m) => m.days)).toEqual([31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31]);
     expect(months[0]!.meanTemp).toBeCloseTo(NORMAL.slice(0, 31).reduce((a, t) => a + t, 0) / 31, 12);
-    const byHand = months.reduce((sum, m) => sum + m.days * predictPerDay(fit.model, fit.changepoints, fit.rawCoefficients, m.meanTemp), 0);
+    const byHand = months.reduce(
+      (sum, m) => sum + m.days * predictPerDay(fit.model, fit.changepoints, fit.rawCoefficients, m.meanTemp),
+      0,
+    );
     expect(result.baselineUse).toBeCloseTo(byHand, 6);
   });
 
@@ -78,7 +94,13 @@ describe('normalisedSavings on bills', () => {
     const random = seededRandom(78);
     const weather = dailyWeather(CLIMATES.temperate, '2023-01-01', 1096, random);
     const bills = monthlyReadings(SAMPLE_BUILDING, weather, '2023-01-01', 24, random);
-    const reporting = monthlyReadings({ ...SAMPLE_BUILDING, base: SAMPLE_BUILDING.base - 30 }, weather, '2025-01-01', 12, random);
+    const reporting = monthlyReadings(
+      { ...SAMPLE_BUILDING, base: SAMPLE_BUILDING.base - 30 },
+      weather,
+      '2025-01-01',
+      12,
+      random,
+    );
     const analysis = analyseBaseline(bills, weather);
     expect(analysis.document.temperatureForm).toBe('daily');
     const fit = analysis.choice.candidates.find((c) => c.model === analysis.choice.selected)!.fit!;
@@ -86,7 +108,10 @@ describe('normalisedSavings on bills', () => {
     if (!result.available) throw new Error(result.reason);
     expect(result.normalYearAs).toBe('days');
     // hand-worked definition: Σ over the 365 days of f(the day's temperature)
-    const byHand = NORMAL.reduce((sum, t) => sum + predictPerDay(fit.model, fit.changepoints, fit.rawCoefficients, t), 0);
+    const byHand = NORMAL.reduce(
+      (sum, t) => sum + predictPerDay(fit.model, fit.changepoints, fit.rawCoefficients, t),
+      0,
+    );
     expect(result.baselineUse).toBeCloseTo(byHand, 6);
     // synthetic: the building's base fell by 30 per day, so a typical year saves about 30 × 365 (noise allows a few per cent)
     expect(result.savings / (30 * 365)).toBeGreaterThan(0.9);

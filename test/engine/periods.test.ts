@@ -90,7 +90,12 @@ describe('coverage rule (common practice: 90% of days by default, not a standard
     const { periods, excluded } = alignPeriods([bill], aprilWithout(4));
     expect(periods).toEqual([]);
     expect(excluded).toEqual([
-      { start: '2030-04-01', end: '2030-05-01', index: 0, reason: 'weather covers 26 of 30 days (86.7% < 90% required)' },
+      {
+        start: '2030-04-01',
+        end: '2030-05-01',
+        index: 0,
+        reason: 'weather covers 26 of 30 days (86.7% < 90% required)',
+      },
     ]);
   });
 

@@ -73,7 +73,10 @@ describe('residualCorrelation', () => {
   it('recovers a shared share of the noise on bills read on different days, within and across stations (synthetic: ICC 0.4 set by the test)', () => {
     const random = seededRandom(8);
     const days = 3 * 365;
-    const station = { a: Array.from({ length: days }, () => random.normal()), b: Array.from({ length: days }, () => random.normal()) };
+    const station = {
+      a: Array.from({ length: days }, () => random.normal()),
+      b: Array.from({ length: days }, () => random.normal()),
+    };
     const meter = (group: 'a' | 'b', readDay: number) => {
       const own = Array.from({ length: days }, () => random.normal());
       const daily = own.map((e, d) => Math.sqrt(0.6) * e + Math.sqrt(0.4) * station[group][d]!);
@@ -117,7 +120,10 @@ describe('combineCorrelated', () => {
       { value: 4, group: 'b' },
       { value: 12, group: 'b' },
     ];
-    expect(combineCorrelated(parts, { withinGroup: 0, acrossGroups: 0 })).toBeCloseTo(combineInQuadrature([3, 4, 12]), 12);
+    expect(combineCorrelated(parts, { withinGroup: 0, acrossGroups: 0 })).toBeCloseTo(
+      combineInQuadrature([3, 4, 12]),
+      12,
+    );
     // 9 + 16 + 144 + 2·0.5·4·12 (within b) + 2·0.25·(3·4 + 3·12) (across) = 169 + 48 + 24 = 241
     expect(combineCorrelated(parts, { withinGroup: 0.5, acrossGroups: 0.25 })).toBeCloseTo(Math.sqrt(241), 12);
     expect(combineCorrelated(parts, { withinGroup: null, acrossGroups: null })).toBeCloseTo(13, 12);

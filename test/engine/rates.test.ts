@@ -91,14 +91,22 @@ describe('periodRate: day-weighted mean over [start, end)', () => {
         { start: '2025-07-01', end: '2025-07-10' },
       ],
     });
-    expect(periodRate(closed, '2025-08-01', '2025-09-01')).toEqual({ rate: null, missing: [{ start: '2025-08-01', end: '2025-09-01' }] });
-    expect(periodRate([], '2025-08-01', '2025-09-01')).toEqual({ rate: null, missing: [{ start: '2025-08-01', end: '2025-09-01' }] });
+    expect(periodRate(closed, '2025-08-01', '2025-09-01')).toEqual({
+      rate: null,
+      missing: [{ start: '2025-08-01', end: '2025-09-01' }],
+    });
+    expect(periodRate([], '2025-08-01', '2025-09-01')).toEqual({
+      rate: null,
+      missing: [{ start: '2025-08-01', end: '2025-09-01' }],
+    });
   });
 
   it('refuses end ≤ start, bad dates and invalid schedules', () => {
     expect(() => periodRate(escalating, '2025-03-01', '2025-03-01')).toThrow(/no days/);
     expect(() => periodRate(escalating, '2025-03-01', '2025-13-01')).toThrow(RangeError);
-    expect(() => periodRate([{ from: '2025-01-01', to: null, price: -1, escalation: 0 }], '2025-03-01', '2025-04-01')).toThrow(/price/);
+    expect(() =>
+      periodRate([{ from: '2025-01-01', to: null, price: -1, escalation: 0 }], '2025-03-01', '2025-04-01'),
+    ).toThrow(/price/);
   });
 
   it('equals the mean of rateOn over the days (synthetic: the test sets the schedule)', () => {
@@ -154,7 +162,12 @@ describe('checkRateSchedule', () => {
       { from: '2025-08-01', to: null, price: 0.1, escalation: 0 },
     ]);
     expect(problems).toEqual([
-      { index: 2, field: 'from', message: 'gap: no rate from 2025-07-01 to 2025-08-01 between entries 1 and 2', relatedIndex: 1 },
+      {
+        index: 2,
+        field: 'from',
+        message: 'gap: no rate from 2025-07-01 to 2025-08-01 between entries 1 and 2',
+        relatedIndex: 1,
+      },
     ]);
   });
 
@@ -192,7 +205,10 @@ describe('checkRateSchedule', () => {
       { from: '2025-01-01', to: null, price: 0.1, escalation: 0 },
       { from: '2026-01-01', to: null, price: 0.1, escalation: 0 },
     ]);
-    expect(problems.find((p) => p.index === 0)).toMatchObject({ field: 'to', message: expect.stringMatching(/open-ended.*last/) });
+    expect(problems.find((p) => p.index === 0)).toMatchObject({
+      field: 'to',
+      message: expect.stringMatching(/open-ended.*last/),
+    });
   });
 
   it('refuses from ≥ to, bad dates, bad prices and bad escalations', () => {
@@ -208,7 +224,16 @@ describe('checkRateSchedule', () => {
     ]);
     const fields = problems.map((p) => `${p.index}:${p.field}`);
     expect(fields).toEqual(
-      expect.arrayContaining(['0:to', '1:from', '2:to', '3:price', '4:price', '5:escalation', '6:escalation', '7:escalation']),
+      expect.arrayContaining([
+        '0:to',
+        '1:from',
+        '2:to',
+        '3:price',
+        '4:price',
+        '5:escalation',
+        '6:escalation',
+        '7:escalation',
+      ]),
     );
     expect(problems.find((p) => p.index === 0)!.message).toBe('to 2025-03-01 is not after from 2025-03-01');
     expect(problems.find((p) => p.index === 3)!.message).toBe('negative (-0.01)');

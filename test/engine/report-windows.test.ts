@@ -60,7 +60,9 @@ describe('quarterWindow', () => {
     for (const text of ['2026-Q5', '2026-Q0', '2026Q3', '26-Q1', '2026-q3', ' 2026-Q3', '2026-Q3 ', '2026-03', '']) {
       expect(() => quarterWindow(text), JSON.stringify(text)).toThrow(RangeError);
     }
-    expect(() => quarterWindow('2026-Q5')).toThrow('not a quarter: "2026-Q5" (expected YYYY-Qn with n from 1 to 4, e.g. 2026-Q3)');
+    expect(() => quarterWindow('2026-Q5')).toThrow(
+      'not a quarter: "2026-Q5" (expected YYYY-Qn with n from 1 to 4, e.g. 2026-Q3)',
+    );
   });
 });
 

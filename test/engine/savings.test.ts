@@ -4,7 +4,15 @@ import { fitShape, type ShapeFit } from '../../src/engine/fit/fit-shape.js';
 import { predictPerDay } from '../../src/engine/fit/shape-model.js';
 import { analyseBaseline, analyseSavings } from '../../src/engine/index.js';
 import type { Period } from '../../src/engine/types.js';
-import { CLIMATES, SAMPLE_BUILDING, dailyWeather, hinge, monthlyReadings, periodsFromPoints, seededRandom } from '../support/synthetic.js';
+import {
+  CLIMATES,
+  SAMPLE_BUILDING,
+  dailyWeather,
+  hinge,
+  monthlyReadings,
+  periodsFromPoints,
+  seededRandom,
+} from '../support/synthetic.js';
 
 function fitted(periods: Period[], model: '3PC' | '2P' = '3PC'): ShapeFit {
   const result = fitShape(periods, model, 3);
@@ -96,7 +104,14 @@ describe('adjusted baseline and avoided energy (hand-worked with a 3PC)', () => 
     // B: −5 a day over 2033-04-01..04-11 (10 days), all in period 4 (−50).
     // Σ adjustments = 150; adjusted baseline = 17750 + 150 = 17900; avoided energy = 1400.
     const adjustments = [
-      { id: 'A', start: '2033-01-22', end: '2033-02-11', quantity: 200, perDay: null, reason: 'added floor area (test)' },
+      {
+        id: 'A',
+        start: '2033-01-22',
+        end: '2033-02-11',
+        quantity: 200,
+        perDay: null,
+        reason: 'added floor area (test)',
+      },
       { id: 'B', start: '2033-04-01', end: '2033-04-11', quantity: null, perDay: -5, reason: 'closed wing (test)' },
     ];
     const adjusted = computeSavings(exactBaseline(), reporting, { adjustments });
@@ -121,7 +136,10 @@ describe('adjusted baseline and avoided energy (hand-worked with a 3PC)', () => 
       const before = plain.totals.uncertainty[formula];
       expect(before.absolute).toBeGreaterThan(1);
       expect(withAdjustment.totals.uncertainty[formula].absolute).toBeCloseTo(before.absolute, 6);
-      expect(withAdjustment.totals.uncertainty[formula].fractional).toBeCloseTo(before.absolute / withAdjustment.totals.savings, 9);
+      expect(withAdjustment.totals.uncertainty[formula].fractional).toBeCloseTo(
+        before.absolute / withAdjustment.totals.savings,
+        9,
+      );
     }
   });
 
@@ -133,10 +151,29 @@ describe('adjusted baseline and avoided energy (hand-worked with a 3PC)', () => 
     const noisy = noisyBaseline(6);
     const year = reportingYear(0.1);
     const adjustments = [
-      { id: 'A', start: '2033-01-01', end: '2033-01-31', quantity: 900, perDay: null, reason: 'added floor area (test)', uncertainty: 300 },
-      { id: 'B', start: '2033-12-17', end: '2034-01-16', quantity: null, perDay: 10, reason: 'new equipment (test)', uncertainty: 1200 },
+      {
+        id: 'A',
+        start: '2033-01-01',
+        end: '2033-01-31',
+        quantity: 900,
+        perDay: null,
+        reason: 'added floor area (test)',
+        uncertainty: 300,
+      },
+      {
+        id: 'B',
+        start: '2033-12-17',
+        end: '2034-01-16',
+        quantity: null,
+        perDay: 10,
+        reason: 'new equipment (test)',
+        uncertainty: 1200,
+      },
     ];
-    const plain = computeSavings(noisy, year, { confidence: 0.9, adjustments: adjustments.map(({ uncertainty: _u, ...a }) => a) });
+    const plain = computeSavings(noisy, year, {
+      confidence: 0.9,
+      adjustments: adjustments.map(({ uncertainty: _u, ...a }) => a),
+    });
     const result = computeSavings(noisy, year, { confidence: 0.9, adjustments });
     const u = result.totals.uncertainty;
     expect(u.adjustments.absolute).toBeCloseTo(500 * 1.6448536269514715, 9);
@@ -154,7 +191,10 @@ describe('adjusted baseline and avoided energy (hand-worked with a 3PC)', () => 
       9,
     );
     // At 68% the same 500 scales by z = 0.9944578832097535 (the same reference).
-    expect(computeSavings(noisy, year, { adjustments }).totals.uncertainty.adjustments.absolute).toBeCloseTo(500 * 0.9944578832097535, 9);
+    expect(computeSavings(noisy, year, { adjustments }).totals.uncertainty.adjustments.absolute).toBeCloseTo(
+      500 * 0.9944578832097535,
+      9,
+    );
   });
 
   it('a period exactly at the edge of the baseline range is inside it', () => {
@@ -193,7 +233,10 @@ describe('uncertainty of avoided energy', () => {
     for (const r of results) {
       const ratio = r.uncertaintyInputs.t / first.uncertaintyInputs.t;
       expect(r.totals.uncertainty.exact.absolute / first.totals.uncertainty.exact.absolute).toBeCloseTo(ratio, 12);
-      expect(r.totals.uncertainty.guideline14.fractional / first.totals.uncertainty.guideline14.fractional).toBeCloseTo(ratio, 12);
+      expect(r.totals.uncertainty.guideline14.fractional / first.totals.uncertainty.guideline14.fractional).toBeCloseTo(
+        ratio,
+        12,
+      );
       expect(r.totals.savings).toBe(first.totals.savings);
     }
   });
@@ -226,7 +269,9 @@ describe('uncertainty of avoided energy', () => {
     expect(plain.uncertaintyInputs.nPrime).toBe(36);
     expect(corrected.uncertaintyInputs.nPrime).toBeLessThan(36);
     expect(plain.totals.uncertainty.exact.absolute).toBeLessThan(corrected.totals.uncertainty.exact.absolute);
-    expect(plain.totals.uncertainty.guideline14.fractional).toBeLessThan(corrected.totals.uncertainty.guideline14.fractional);
+    expect(plain.totals.uncertainty.guideline14.fractional).toBeLessThan(
+      corrected.totals.uncertainty.guideline14.fractional,
+    );
   });
 
   it('the "significant" verdict flips from true to false as baseline noise grows', () => {
@@ -247,7 +292,8 @@ describe('uncertainty of avoided energy', () => {
   it('zero avoided energy gives an infinite fractional uncertainty, a finite absolute one, and no crash', () => {
     // actual set to exactly what the baseline predicts: savings are exactly 0
     const asPredicted = reporting.map((period) => {
-      const quantity = period.days * predictPerDay(baseline.model, baseline.changepoints, baseline.rawCoefficients, period.meanTemp);
+      const quantity =
+        period.days * predictPerDay(baseline.model, baseline.changepoints, baseline.rawCoefficients, period.meanTemp);
       return { ...period, quantity, usePerDay: quantity / period.days };
     });
     const result = computeSavings(baseline, asPredicted);
@@ -296,7 +342,9 @@ describe('analyseSavings: readings and weather in, a savings document out', () =
 
   it('an override naming a shape that was not fitted is refused', () => {
     const restricted = analyseBaseline(baselineReadings, weather, { models: ['1P', '3PC'] });
-    expect(() => analyseSavings(restricted, reportingReadings, weather, { model: '5P' })).toThrow(/the 5P shape could not be fitted/);
+    expect(() => analyseSavings(restricted, reportingReadings, weather, { model: '5P' })).toThrow(
+      /the 5P shape could not be fitted/,
+    );
   });
 
   it('the CV(RMSE) limit follows the reporting length (from memory: 20% under 12 months, 25% for 12–60)', () => {
@@ -308,7 +356,9 @@ describe('analyseSavings: readings and weather in, a savings document out', () =
     expect(shorter.baseline.guideline14!.cvrmse.limit).toBe(0.2); // hand-worked: 11 calendar months
     const longer = monthlyReadings(SAMPLE_BUILDING, weather, '2033-01-01', 13, seededRandom(23));
     expect(analyseSavings(baseline, longer, weather).baseline.guideline14!.cvrmse.limit).toBe(0.25);
-    expect(analyseSavings(baseline, reportingReadings, weather, { cvrmseLimit: 0.1 }).baseline.guideline14!.cvrmse.limit).toBe(0.1);
+    expect(
+      analyseSavings(baseline, reportingReadings, weather, { cvrmseLimit: 0.1 }).baseline.guideline14!.cvrmse.limit,
+    ).toBe(0.1);
   });
 
   it('a reporting bill without enough weather is left out and listed', () => {

@@ -193,7 +193,10 @@ describe('monthly bills: the shape follows the weather seen (common practice)', 
       for (const seed of SEEDS) {
         const fit = selectedFit(analyse(CLIMATES.subArctic, SAMPLE_BUILDING, { monthly: months }, seed));
         expect(fit.model, `seed ${seed}`).toBe('3PH');
-        expect(branches(fit), `seed ${seed} ${JSON.stringify(fit.parameters)}`).toEqual({ heating: true, cooling: false });
+        expect(branches(fit), `seed ${seed} ${JSON.stringify(fit.parameters)}`).toEqual({
+          heating: true,
+          cooling: false,
+        });
       }
     });
 
@@ -201,7 +204,10 @@ describe('monthly bills: the shape follows the weather seen (common practice)', 
       for (const seed of SEEDS) {
         const fit = selectedFit(analyse(CLIMATES.mild, SAMPLE_BUILDING, { monthly: months }, seed));
         expect(fit.model, `seed ${seed}`).toBe('3PH');
-        expect(branches(fit), `seed ${seed} ${JSON.stringify(fit.parameters)}`).toEqual({ heating: true, cooling: false });
+        expect(branches(fit), `seed ${seed} ${JSON.stringify(fit.parameters)}`).toEqual({
+          heating: true,
+          cooling: false,
+        });
       }
     });
   }

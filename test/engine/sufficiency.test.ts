@@ -33,14 +33,18 @@ describe('baselineSufficiency', () => {
     expect(result.sufficient).toBe(false);
     expect(result.days).toBe(341);
     expect(result.reasons).toHaveLength(1);
-    expect(result.reasons[0]).toMatch(/^the baseline has 11 usable bills; at least 12 are needed \(common practice: a full year of bills/);
+    expect(result.reasons[0]).toMatch(
+      /^the baseline has 11 usable bills; at least 12 are needed \(common practice: a full year of bills/,
+    );
   });
 
   it('refuses six spring bills on both counts (hand-worked: 31 + 30 + 31 + 30 + 31 + 31 = 184 days)', () => {
     const result = baselineSufficiency(days(31, 30, 31, 30, 31, 31));
     expect(result.sufficient).toBe(false);
     expect(result.reasons).toEqual([
-      expect.stringMatching(/^the baseline's usable periods cover 184 days; a full cycle of seasons needs at least 330 \(common practice/),
+      expect.stringMatching(
+        /^the baseline's usable periods cover 184 days; a full cycle of seasons needs at least 330 \(common practice/,
+      ),
       expect.stringMatching(/^the baseline has 6 usable bills; at least 12 are needed/),
     ]);
   });
@@ -52,14 +56,21 @@ describe('baselineSufficiency', () => {
   });
 
   it('applies only the day count to daily readings: 330 pass, 329 do not', () => {
-    expect(baselineSufficiency(days(...Array.from({ length: 330 }, () => 1)))).toMatchObject({ sufficient: true, billed: false });
+    expect(baselineSufficiency(days(...Array.from({ length: 330 }, () => 1)))).toMatchObject({
+      sufficient: true,
+      billed: false,
+    });
     const short = baselineSufficiency(days(...Array.from({ length: 329 }, () => 1)));
     expect(short).toMatchObject({ sufficient: false, billed: false });
     expect(short.reasons).toEqual([expect.stringContaining('cover 329 days')]);
   });
 
   it('counts weekly readings as bills (median of 7 days): 48 weeks pass, 11 weeks fail on both counts', () => {
-    expect(baselineSufficiency(days(...Array.from({ length: 48 }, () => 7)))).toMatchObject({ sufficient: true, billed: true, days: 336 });
+    expect(baselineSufficiency(days(...Array.from({ length: 48 }, () => 7)))).toMatchObject({
+      sufficient: true,
+      billed: true,
+      days: 336,
+    });
     expect(baselineSufficiency(days(...Array.from({ length: 11 }, () => 7))).reasons).toHaveLength(2);
   });
 
@@ -69,8 +80,16 @@ describe('baselineSufficiency', () => {
 });
 
 describe('reportingExtrapolation', () => {
-  const dailyFit = { temperatureForm: 'daily' as const, temperatureRange: { min: 40, max: 70 }, dayTemperatureRange: { min: 30, max: 80 } };
-  const meanFit = { temperatureForm: 'mean' as const, temperatureRange: { min: 40, max: 70 }, dayTemperatureRange: null };
+  const dailyFit = {
+    temperatureForm: 'daily' as const,
+    temperatureRange: { min: 40, max: 70 },
+    dayTemperatureRange: { min: 30, max: 80 },
+  };
+  const meanFit = {
+    temperatureForm: 'mean' as const,
+    temperatureRange: { min: 40, max: 70 },
+    dayTemperatureRange: null,
+  };
 
   it('counts a day-resolved fit’s reporting days by their own temperatures (hand-worked)', () => {
     // Period 1: days 25, 30, 45, 81 → 25 and 81 are outside 30..80 (30 is on the edge: inside).
@@ -103,7 +122,13 @@ describe('reportingExtrapolation', () => {
       { days: 28, meanTemp: 70 },
     ];
     const result = reportingExtrapolation(meanFit, reporting);
-    expect(result).toMatchObject({ outsideDays: 62, days: 120, basis: 'mean', range: { min: 40, max: 70 }, exceedsLimit: true });
+    expect(result).toMatchObject({
+      outsideDays: 62,
+      days: 120,
+      basis: 'mean',
+      range: { min: 40, max: 70 },
+      exceedsLimit: true,
+    });
     expect(result.share).toBeCloseTo(62 / 120, 12);
   });
 
@@ -118,7 +143,8 @@ describe('reportingExtrapolation', () => {
     const reporting = [{ days: 10, meanTemp: 50, dayTemps: [20, 50, 50, 50, 50, 50, 50, 50, 50, 50] }];
     expect(reportingExtrapolation(dailyFit, reporting)).toMatchObject({ share: 0.1, exceedsLimit: false });
     expect(reportingExtrapolation(dailyFit, reporting, 0.05)).toMatchObject({ limit: 0.05, exceedsLimit: true });
-    for (const bad of [-0.1, 1.5, Number.NaN]) expect(() => reportingExtrapolation(dailyFit, reporting, bad)).toThrow(RangeError);
+    for (const bad of [-0.1, 1.5, Number.NaN])
+      expect(() => reportingExtrapolation(dailyFit, reporting, bad)).toThrow(RangeError);
   });
 
   it('is zero for no reporting days', () => {
@@ -139,7 +165,10 @@ describe('reportingExtrapolation', () => {
     const baseline = analyseBaseline(readings, weather);
     const fit = baseline.choice.candidates.find((c) => c.model === baseline.choice.selected)!.fit!;
     expect(fit.temperatureForm).toBe('daily');
-    const cold = Array.from({ length: 31 }, (_, d) => ({ date: `2025-01-${String(d + 1).padStart(2, '0')}`, temp: 10 }));
+    const cold = Array.from({ length: 31 }, (_, d) => ({
+      date: `2025-01-${String(d + 1).padStart(2, '0')}`,
+      temp: 10,
+    }));
     const { periods } = alignPeriods([{ start: '2025-01-01', end: '2025-02-01', quantity: 5000 }], cold);
     expect(reportingExtrapolation(fit, periods)).toMatchObject({
       share: 1,

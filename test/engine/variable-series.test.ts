@@ -24,8 +24,16 @@ function date(offset: number): string {
 
 describe('variable values per day', () => {
   it("holds a 'mean' value on each day and spreads a 'total' (by hand)", () => {
-    const level: VariableSeries = { name: 'people', aggregation: 'mean', values: [{ start: date(0), end: date(3), value: 40 }] };
-    const amount: VariableSeries = { name: 'units', aggregation: 'total', values: [{ start: date(0), end: date(4), value: 100 }] };
+    const level: VariableSeries = {
+      name: 'people',
+      aggregation: 'mean',
+      values: [{ start: date(0), end: date(3), value: 40 }],
+    };
+    const amount: VariableSeries = {
+      name: 'units',
+      aggregation: 'total',
+      values: [{ start: date(0), end: date(4), value: 100 }],
+    };
     expect([...valuesPerDay(level).values()]).toEqual([40, 40, 40]); // by hand: a level holds on each of 3 days
     expect([...valuesPerDay(amount).values()]).toEqual([25, 25, 25, 25]); // by hand: 100 over 4 days
   });
@@ -61,12 +69,24 @@ describe('variable values per day', () => {
 
 describe('fits and savings without a variable value are refused naming the dates', () => {
   const weather: DailyTemperature[] = Array.from({ length: 120 }, (_, d) => ({ date: date(d), temp: 30 + (d % 40) }));
-  const readings: Reading[] = Array.from({ length: 60 }, (_, d) => ({ start: date(d), end: date(d + 1), quantity: 100 + 3 * (d % 7) }));
+  const readings: Reading[] = Array.from({ length: 60 }, (_, d) => ({
+    start: date(d),
+    end: date(d + 1),
+    quantity: 100 + 3 * (d % 7),
+  }));
   const values = (from: number, to: number) =>
-    Array.from({ length: to - from }, (_, i) => ({ start: date(from + i), end: date(from + i + 1), value: (from + i) % 7 }));
+    Array.from({ length: to - from }, (_, i) => ({
+      start: date(from + i),
+      end: date(from + i + 1),
+      value: (from + i) % 7,
+    }));
 
   it('refuses a baseline whose variable has a gap, naming the period', () => {
-    const series: VariableSeries = { name: 'load', aggregation: 'mean', values: values(0, 60).filter((v) => v.start !== date(17)) };
+    const series: VariableSeries = {
+      name: 'load',
+      aggregation: 'mean',
+      values: values(0, 60).filter((v) => v.start !== date(17)),
+    };
     expect(() => analyseBaseline(readings, weather, { variableSeries: [series] })).not.toThrow(); // not offered: not needed
     const attempt = () => analyseBaseline(readings, weather, { variableSeries: [series], variables: ['load'] });
     expect(attempt).toThrow(MissingVariableValuesError);
@@ -74,10 +94,18 @@ describe('fits and savings without a variable value are refused naming the dates
   });
   it('refuses savings for reporting periods without the values, naming each', () => {
     const series: VariableSeries = { name: 'load', aggregation: 'mean', values: values(0, 60) };
-    const analysis = analyseBaseline(readings, weather, { variableSeries: [series], variables: ['load'], temperatureForm: 'mean' });
+    const analysis = analyseBaseline(readings, weather, {
+      variableSeries: [series],
+      variables: ['load'],
+      temperatureForm: 'mean',
+    });
     expect(analysis.choice.variables).toEqual(['load']);
     const fit = analysis.choice.candidates.find((c) => c.model === analysis.choice.selected)!.fit!;
-    const reporting: Reading[] = Array.from({ length: 10 }, (_, i) => ({ start: date(60 + i), end: date(61 + i), quantity: 110 }));
+    const reporting: Reading[] = Array.from({ length: 10 }, (_, i) => ({
+      start: date(60 + i),
+      end: date(61 + i),
+      quantity: 110,
+    }));
     const partial: VariableSeries = { name: 'load', aggregation: 'mean', values: values(60, 68) };
     const attempt = () =>
       savingsFromFit(fit, { limits: analysis.choice.settings.guideline14, excluded: [] }, reporting, weather, {
@@ -86,9 +114,15 @@ describe('fits and savings without a variable value are refused naming the dates
     expect(attempt).toThrow(MissingVariableValuesError);
     expect(attempt).toThrow(`${date(68)} to ${date(69)} (load); ${date(69)} to ${date(70)} (load)`);
     const full: VariableSeries = { name: 'load', aggregation: 'mean', values: values(60, 70) };
-    const savings = savingsFromFit(fit, { limits: analysis.choice.settings.guideline14, excluded: [] }, reporting, weather, {
-      variableSeries: [full],
-    });
+    const savings = savingsFromFit(
+      fit,
+      { limits: analysis.choice.settings.guideline14, excluded: [] },
+      reporting,
+      weather,
+      {
+        variableSeries: [full],
+      },
+    );
     expect(savings.periods).toHaveLength(10);
   });
 });

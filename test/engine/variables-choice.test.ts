@@ -64,9 +64,9 @@ describe('choosing variables by t and partial F', () => {
     expect(decisions.unrelated!.verdict).toBe('forced-in');
     expect(decisions.unrelated!.reasons[0]).toContain('the M&V plan lists it');
     expect(decisions.occupied!.verdict).toBe('forced-out');
-    expect(() => chooseBaseline(baseline, { variableOverrides: [{ name: 'occupied', include: true, reason: ' ' }] })).toThrow(
-      /needs a reason/,
-    );
+    expect(() =>
+      chooseBaseline(baseline, { variableOverrides: [{ name: 'occupied', include: true, reason: ' ' }] }),
+    ).toThrow(/needs a reason/);
   });
 });
 
@@ -96,11 +96,19 @@ describe('savings with variables', () => {
 });
 
 describe('exclusions (hand-worked: 10 readings, at most 2 may go)', () => {
-  const readings = Array.from({ length: 10 }, (_, i) => ({ start: date(30 * i), end: date(30 * i + 30), quantity: 100 + i }));
+  const readings = Array.from({ length: 10 }, (_, i) => ({
+    start: date(30 * i),
+    end: date(30 * i + 30),
+    quantity: 100 + i,
+  }));
   it('leaves the named readings out and keeps the reasons', () => {
-    const { kept, applied } = applyExclusions(readings, [{ start: readings[2]!.start, end: readings[2]!.end, reason: 'meter fault' }]);
+    const { kept, applied } = applyExclusions(readings, [
+      { start: readings[2]!.start, end: readings[2]!.end, reason: 'meter fault' },
+    ]);
     expect(kept).toHaveLength(9);
-    expect(applied).toEqual([{ start: readings[2]!.start, end: readings[2]!.end, reason: 'meter fault', quantity: 102 }]);
+    expect(applied).toEqual([
+      { start: readings[2]!.start, end: readings[2]!.end, reason: 'meter fault', quantity: 102 },
+    ]);
   });
   it('refuses more than a fifth, unknown readings, repeats and missing reasons', () => {
     const three = readings.slice(0, 3).map((r) => ({ start: r.start, end: r.end, reason: 'doubtful' }));

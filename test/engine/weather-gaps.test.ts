@@ -5,7 +5,13 @@ const day = (date: string, temp: number) => ({ date, temp });
 
 describe('gaps, filled on record', () => {
   // Invented record: 1 and 4 January observed, 2–3 missing; 6–8 missing (3 days); 10 observed.
-  const observed = [day('2025-01-01', 10), day('2025-01-04', 16), day('2025-01-05', 20), day('2025-01-09', 12), day('2025-01-10', 14)];
+  const observed = [
+    day('2025-01-01', 10),
+    day('2025-01-04', 16),
+    day('2025-01-05', 20),
+    day('2025-01-09', 12),
+    day('2025-01-10', 14),
+  ];
 
   it('finds the runs of missing days with their neighbours', () => {
     const gaps = findGaps(observed, '2025-01-01', '2025-01-11');
@@ -37,7 +43,13 @@ describe('gaps, filled on record', () => {
     // x = 0, 10, 20, 30; y = 2, 7, 13, 17. x̄ = 15, ȳ = 9.75, Sxx = 500, Sxy = 255:
     // slope 0.51, intercept 2.1, residuals −0.1, −0.2, 0.7, −0.4, SSE 0.70, RMSE √(0.70/2) = 0.5916.
     const target = [day('2025-02-01', 2), day('2025-02-02', 7), day('2025-02-03', 13), day('2025-02-04', 17)];
-    const second = [day('2025-02-01', 0), day('2025-02-02', 10), day('2025-02-03', 20), day('2025-02-04', 30), day('2025-02-05', 40)];
+    const second = [
+      day('2025-02-01', 0),
+      day('2025-02-02', 10),
+      day('2025-02-03', 20),
+      day('2025-02-04', 30),
+      day('2025-02-05', 40),
+    ];
     const fit = fitStationOffset(target, second)!;
     expect(fit.slope).toBeCloseTo(0.51, 12);
     expect(fit.intercept).toBeCloseTo(2.1, 12);
@@ -52,7 +64,9 @@ describe('gaps, filled on record', () => {
     expect(plan.filled[0]!.temp).toBeCloseTo(22.5, 12);
     expect(plan.filled[0]!.note).toMatch(/^station B: t = 2\.1 \+ 0\.51·t₂ \(RMSE 0\.59 over 4 days\), t₂ = 40$/);
     expect(plan.leftEmpty).toEqual(['2025-02-06']);
-    const refused = planGapFill(target, '2025-02-01', '2025-02-07', { secondStation: { label: 'station B', days: second } });
+    const refused = planGapFill(target, '2025-02-01', '2025-02-07', {
+      secondStation: { label: 'station B', days: second },
+    });
     expect(refused.offset).toBeNull();
     expect(refused.offsetRefused).toMatch(/shares 4 observed days .* at least 30/);
   });

@@ -17,7 +17,14 @@ import { openStore, type Store } from '../../src/store/connect.js';
 import { verifyAuditChain } from '../../src/store/audit.js';
 import { seededRandom } from '../support/synthetic.js';
 import { testDialect } from '../support/database.js';
-import { clientOf, describeOutputs, stopInstance, type Answer, type Client, type Instance } from '../multi-instance/support.js';
+import {
+  clientOf,
+  describeOutputs,
+  stopInstance,
+  type Answer,
+  type Client,
+  type Instance,
+} from '../multi-instance/support.js';
 import {
   BASELINE_WINDOW,
   BOOTSTRAP_KEY,
@@ -69,7 +76,9 @@ describe.each(PROCESS_COUNTS)(`many concurrent writers on ${testDialect()}, %i s
     // migrator takes no lock on SQLite, so two first starts at once both run migration 0001.
     // PostgreSQL instances start together (their racing start is test/multi-instance's subject).
     if (onPostgres) {
-      const started = await Promise.allSettled(Array.from({ length: processCount }, (_, i) => startService(database, `writer-${i}`)));
+      const started = await Promise.allSettled(
+        Array.from({ length: processCount }, (_, i) => startService(database, `writer-${i}`)),
+      );
       for (const result of started) if (result.status === 'fulfilled') instances.push(result.value); // stopped by afterAll, even if another failed
       const failed = started.flatMap((r) => (r.status === 'rejected' ? [String(r.reason)] : []));
       if (failed.length > 0) throw new Error(failed.join('\n'));
@@ -78,7 +87,10 @@ describe.each(PROCESS_COUNTS)(`many concurrent writers on ${testDialect()}, %i s
     }
     for (const instance of instances) clients.push(clientOf(instance, BOOTSTRAP_KEY, answers));
     ledger = await seedLedger(instances[0]!.base);
-    const station = await clients[0]!('POST', '/v1/weather-stations', { name: 'Invented crowded station', temperatureUnit: 'C' });
+    const station = await clients[0]!('POST', '/v1/weather-stations', {
+      name: 'Invented crowded station',
+      temperatureUnit: 'C',
+    });
     expect(station.status).toBe(201);
     weatherStationId = station.json.id;
     store = openStore(database.url);
@@ -115,7 +127,8 @@ describe.each(PROCESS_COUNTS)(`many concurrent writers on ${testDialect()}, %i s
 
     // Weather client w alternates its own new dates with the shared dates, each put with values of its own.
     const ownDays = (w: number, round: number) => addDays('1980-01-01', (w * WEATHER_ROUNDS + round) * OWN_DAYS);
-    const tempOf = (w: number, round: number, d: number) => Math.round((5 + w * 3 + round + ((d * 7) % 11) / 10) * 10) / 10;
+    const tempOf = (w: number, round: number, d: number) =>
+      Math.round((5 + w * 3 + round + ((d * 7) % 11) / 10) * 10) / 10;
     const days = (from: string, count: number, w: number, round: number) =>
       Array.from({ length: count }, (_, d) => ({ date: addDays(from, d), temp: tempOf(w, round, d) }));
     const sharedPuts: { client: number; round: number; observations: { date: string; temp: number }[] }[] = [];
@@ -152,10 +165,15 @@ describe.each(PROCESS_COUNTS)(`many concurrent writers on ${testDialect()}, %i s
 
     // Readings: every batch stored once; the count and the sum are what was sent.
     const readingAnswers = readingResults.flat();
-    expect(readingAnswers.map((a) => [a.status, a.json?.created])).toEqual(readingAnswers.map(() => [201, READINGS_PER_BATCH])); // the API contract
+    expect(readingAnswers.map((a) => [a.status, a.json?.created])).toEqual(
+      readingAnswers.map(() => [201, READINGS_PER_BATCH]),
+    ); // the API contract
     const sent = readingBatches.flat();
     const span = { from: READINGS_FROM, to: addDays(READINGS_FROM, sent.length) };
-    expect(await storedIn(store!, ledger.meterId, span.from, span.to)).toEqual({ count: sent.length, total: sumOf(sent) }); // synthetic: what was sent
+    expect(await storedIn(store!, ledger.meterId, span.from, span.to)).toEqual({
+      count: sent.length,
+      total: sumOf(sent),
+    }); // synthetic: what was sent
     const distinct = await store!.db
       .selectFrom('readings')
       .select('period_start')
@@ -164,7 +182,9 @@ describe.each(PROCESS_COUNTS)(`many concurrent writers on ${testDialect()}, %i s
       .execute();
     expect(distinct).toHaveLength(sent.length); // no period twice
     const readingRows = (await auditRows(store!, 'post-readings')).filter((row) => row.entity_id === ledger.meterId);
-    const auditedStarts = readingRows.map((row) => (JSON.parse(row.after_json ?? '{}').created as { start: string }[])[0]!.start).sort();
+    const auditedStarts = readingRows
+      .map((row) => (JSON.parse(row.after_json ?? '{}').created as { start: string }[])[0]!.start)
+      .sort();
     expect(auditedStarts).toEqual(readingBatches.map((batch) => batch[0]!.start).sort()); // one row per batch
 
     // Weather, own dates: exactly what each client put.
@@ -184,15 +204,22 @@ describe.each(PROCESS_COUNTS)(`many concurrent writers on ${testDialect()}, %i s
     const sharedAnswers = weatherAnswers.filter((r) => r.shared).map((r) => r.answer.json);
     expect(sharedAnswers.reduce((n, r) => n + r.created, 0)).toBe(SHARED_DAYS); // each shared date created once
     expect(sharedAnswers.reduce((n, r) => n + r.updated, 0)).toBe(SHARED_DAYS * (sharedAnswers.length - 1)); // every later put changed each date
-    const stored = await via(0)('GET', `${observationsPath}?from=${SHARED_FROM}&to=${addDays(SHARED_FROM, SHARED_DAYS)}`);
+    const stored = await via(0)(
+      'GET',
+      `${observationsPath}?from=${SHARED_FROM}&to=${addDays(SHARED_FROM, SHARED_DAYS)}`,
+    );
     const storedShared = stored.json.observations.map((o: any) => ({ date: o.date, temp: o.temp }));
     const wholePut = sharedPuts.filter((put) => JSON.stringify(put.observations) === JSON.stringify(storedShared));
     expect(wholePut).toHaveLength(1); // one put, whole, not a mix of several
-    const weatherRows = (await auditRows(store!, 'upsert-observations')).filter((row) => row.entity_id === weatherStationId);
+    const weatherRows = (await auditRows(store!, 'upsert-observations')).filter(
+      (row) => row.entity_id === weatherStationId,
+    );
     expect(weatherRows).toHaveLength(weatherAnswers.length); // one row per put (each changed something)
     const lastShared = weatherRows.filter((row) => SHARED_FROM in JSON.parse(row.after_json ?? '{}')).at(-1)!;
     const lastAfter = JSON.parse(lastShared.after_json ?? '{}') as Record<string, { temp: number }>;
-    expect(storedShared.map((o: any) => [o.date, lastAfter[o.date]?.temp])).toEqual(storedShared.map((o: any) => [o.date, o.temp]));
+    expect(storedShared.map((o: any) => [o.date, lastAfter[o.date]?.temp])).toEqual(
+      storedShared.map((o: any) => [o.date, o.temp]),
+    );
 
     // Drafts: each fitted once, numbered 1…n without a gap or a repeat.
     const draftAnswers = draftResults.flat();

@@ -65,7 +65,9 @@ describe(`crash safety on ${testDialect()}: SIGKILL during writes, restart on th
     await database.dispose();
   });
 
-  it('keeps each batch whole or absent, each baseline draft or sealed, and one audit row per committed write', async ({ onTestFailed }) => {
+  it('keeps each batch whole or absent, each baseline draft or sealed, and one audit row per committed write', async ({
+    onTestFailed,
+  }) => {
     onTestFailed(() => console.error(instance ? describeOutputs([instance]) : '(no instance)'));
     const random = seededRandom(1303);
     let generation = 0;
@@ -133,11 +135,17 @@ describe(`crash safety on ${testDialect()}: SIGKILL during writes, restart on th
     // A freeze answered first, to learn how long one takes; then freezes (each superseding the
     // frozen version, on a new draft) killed anywhere from just after sending to a little past that.
     const freezeAt = async (note: string, supersedeReason?: string) => {
-      const draft = await ok(call(base, 'POST', `/v1/meters/${ledger.baselineMeterId}/baselines`, BASELINE_WINDOW), 'draft');
+      const draft = await ok(
+        call(base, 'POST', `/v1/meters/${ledger.baselineMeterId}/baselines`, BASELINE_WINDOW),
+        'draft',
+      );
       writes++;
       return {
         draftId: draft.id as string,
-        flight: send(base, 'POST', `/v1/baselines/${draft.id}/freeze`, { note, ...(supersedeReason ? { supersedeReason } : {}) }),
+        flight: send(base, 'POST', `/v1/baselines/${draft.id}/freeze`, {
+          note,
+          ...(supersedeReason ? { supersedeReason } : {}),
+        }),
       };
     };
     const first = await freezeAt('first freeze under test');
@@ -189,7 +197,11 @@ describe(`crash safety on ${testDialect()}: SIGKILL during writes, restart on th
     const readingRows = (await auditRows(store, 'post-readings')).filter((row) => row.entity_id === ledger.meterId);
     const audited = readingRows.map((row) => {
       const created = JSON.parse(row.after_json ?? '{}').created as { start: string; quantity: number }[];
-      return { start: created[0]!.start, count: created.length, total: created.reduce((sum, c) => sum + c.quantity, 0) };
+      return {
+        start: created[0]!.start,
+        count: created.length,
+        total: created.reduce((sum, c) => sum + c.quantity, 0),
+      };
     });
     expect(audited).toEqual(present.map((b) => ({ start: b.start, count: b.count, total: b.total })));
 
@@ -209,7 +221,8 @@ describe(`crash safety on ${testDialect()}: SIGKILL during writes, restart on th
     expect((await auditRows(store, 'supersede')).map((r) => r.entity_id)).toEqual(frozenIds.slice(0, -1));
 
     const organisationId =
-      readingRows[0]?.organisation_id ?? (await store.db.selectFrom('organisations').select('id').executeTakeFirstOrThrow()).id;
+      readingRows[0]?.organisation_id ??
+      (await store.db.selectFrom('organisations').select('id').executeTakeFirstOrThrow()).id;
     const verdict = await verifyAuditChain(store.db, organisationId);
     expect(verdict.broken).toBeUndefined();
     expect(verdict).toMatchObject({ ok: true, checked: writes }); // counted by this test: synthetic
@@ -218,7 +231,9 @@ describe(`crash safety on ${testDialect()}: SIGKILL during writes, restart on th
     // it had landed. (One of each, when the kills gave both: each retry costs a batch.)
     const absent = batches.filter((b) => b.found === 0);
     const killed = batches.slice(1);
-    const retries = [killed.find((b) => b.found === 0), killed.find((b) => b.found > 0)].filter((b): b is Batch => b !== undefined);
+    const retries = [killed.find((b) => b.found === 0), killed.find((b) => b.found > 0)].filter(
+      (b): b is Batch => b !== undefined,
+    );
     for (const batch of retries) {
       const lost = batch.found === 0;
       const again = await call(base, 'POST', readingsPath, { readings: batchAt(batches.indexOf(batch)) });

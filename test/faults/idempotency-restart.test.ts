@@ -20,7 +20,19 @@ import { openStore, type Store } from '../../src/store/connect.js';
 import { verifyAuditChain } from '../../src/store/audit.js';
 import { testDialect } from '../support/database.js';
 import { describeOutputs, stopInstance, type Instance } from '../multi-instance/support.js';
-import { auditRows, call, dailyBatch, freshFaultDatabase, killHard, ok, send, sleep, startService, storedIn, sumOf } from './support.js';
+import {
+  auditRows,
+  call,
+  dailyBatch,
+  freshFaultDatabase,
+  killHard,
+  ok,
+  send,
+  sleep,
+  startService,
+  storedIn,
+  sumOf,
+} from './support.js';
 
 /** Large enough that the request is still being served when the test reacts to its reserved key. */
 const BATCH_READINGS = 20_000;
@@ -45,7 +57,10 @@ describe(`idempotency across a restart on ${testDialect()}: SIGKILL with a key i
       call(instance.base, 'POST', '/v1/weather-stations', { name: 'Invented restart station', temperatureUnit: 'F' }),
       'station',
     );
-    const facility = await ok(call(instance.base, 'POST', '/v1/facilities', { name: 'Restart hall (invented)' }), 'facility');
+    const facility = await ok(
+      call(instance.base, 'POST', '/v1/facilities', { name: 'Restart hall (invented)' }),
+      'facility',
+    );
     const meter = await ok(
       call(instance.base, 'POST', `/v1/facilities/${facility.id}/meters`, {
         name: 'Batch meter',
@@ -80,7 +95,10 @@ describe(`idempotency across a restart on ${testDialect()}: SIGKILL with a key i
     const status = retry.kind === 'answered' ? retry.status : 0;
     expect([201, 200]).toContain(status); // the API contract
     if (held.blockedTheWrite) expect(status).toBe(201);
-    expect(await storedIn(store, meter.id, FIRST_DAY, '9999-01-01')).toEqual({ count: BATCH_READINGS, total: sumOf(readings) }); // synthetic: the batch sent
+    expect(await storedIn(store, meter.id, FIRST_DAY, '9999-01-01')).toEqual({
+      count: BATCH_READINGS,
+      total: sumOf(readings),
+    }); // synthetic: the batch sent
     expect((await auditRows(store, 'post-readings')).filter((row) => row.entity_id === meter.id)).toHaveLength(1); // exactly once
 
     const replay = await call(instance.base, 'POST', path, { readings }, undefined, headers);

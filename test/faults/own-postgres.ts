@@ -34,7 +34,8 @@ export function postgresBinaries(): string | null {
 /** Why the cluster cannot be made here, or null when it can. */
 export function ownClusterUnavailable(): string | null {
   if (process.platform !== 'linux') return 'not on Linux';
-  if (postgresBinaries() === null) return `no PostgreSQL binaries under ${ROOT}/<version>/bin (Debian's postgresql package)`;
+  if (postgresBinaries() === null)
+    return `no PostgreSQL binaries under ${ROOT}/<version>/bin (Debian's postgresql package)`;
   if (process.getuid?.() === 0 && !existsSync('/usr/sbin/runuser') && !existsSync('/sbin/runuser'))
     return 'running as root without runuser to switch to the postgres user';
   return null;
@@ -82,8 +83,10 @@ export async function createOwnCluster(): Promise<OwnCluster> {
   // write. synchronous_commit stays on: off, a commit is acknowledged before its WAL leaves the server's memory,
   // and an immediate stop loses acknowledged writes (this test caught exactly that when it was off).
   const options = `-p ${port} -k ${folder} -c listen_addresses=127.0.0.1 -c fsync=off -c full_page_writes=off -c max_connections=40`;
-  const start = () => asOwner(bin, 'pg_ctl', ['-D', data, '-o', options, '-l', join(folder, 'server.log'), '-w', '-t', '30', 'start']);
-  const stop = (mode: 'fast' | 'immediate' = 'fast') => asOwner(bin, 'pg_ctl', ['-D', data, '-m', mode, '-w', '-t', '30', 'stop']);
+  const start = () =>
+    asOwner(bin, 'pg_ctl', ['-D', data, '-o', options, '-l', join(folder, 'server.log'), '-w', '-t', '30', 'start']);
+  const stop = (mode: 'fast' | 'immediate' = 'fast') =>
+    asOwner(bin, 'pg_ctl', ['-D', data, '-m', mode, '-w', '-t', '30', 'stop']);
   await start();
   const url = `postgres://postgres@127.0.0.1:${port}/postgres`;
   let disposed = false;

@@ -51,7 +51,9 @@ describe.skipIf(testDialect() === 'postgres')('process-level handlers', () => {
   it('still ends on any other uncaught error, with exit code 1 and no stack in the log', async () => {
     const thrown = await child(`Promise.reject(new TypeError('a bug'));`);
     expect(thrown.code).toBe(1);
-    expect(thrown.stdout).toMatch(/fatal uncaught exception: stopping \{"err":\{"type":"TypeError","message":"a bug"\}\}/);
+    expect(thrown.stdout).toMatch(
+      /fatal uncaught exception: stopping \{"err":\{"type":"TypeError","message":"a bug"\}\}/,
+    );
     expect(thrown.stdout).not.toContain('still running');
     const odd = await child(`Promise.reject(undefined);`);
     expect(odd.code).toBe(1);

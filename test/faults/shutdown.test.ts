@@ -46,17 +46,23 @@ describe(`graceful shutdown on ${testDialect()}: SIGTERM with requests in flight
     await database.dispose();
   });
 
-  it('finishes the requests in flight, refuses new connections, stores every batch whole and exits 0', async ({ onTestFailed }) => {
+  it('finishes the requests in flight, refuses new connections, stores every batch whole and exits 0', async ({
+    onTestFailed,
+  }) => {
     onTestFailed(() => console.error(instance ? describeOutputs([instance]) : '(no instance)'));
     instance = await startService(database, 'shutdown', 'info');
     const { base } = instance;
     const ledger = await seedLedger(base);
     const exited = exitOf(instance.child);
 
-    const batches = Array.from({ length: IN_FLIGHT }, (_, i) => dailyBatch(addDays(FIRST_DAY, i * BATCH_READINGS), BATCH_READINGS, i));
+    const batches = Array.from({ length: IN_FLIGHT }, (_, i) =>
+      dailyBatch(addDays(FIRST_DAY, i * BATCH_READINGS), BATCH_READINGS, i),
+    );
     const readingsPath = `/v1/meters/${ledger.meterId}/readings`;
     const receivedBefore = instance.requestsReceived(readingsPath);
-    const flights = batches.map((readings) => send(base, 'POST', `/v1/meters/${ledger.meterId}/readings`, { readings }));
+    const flights = batches.map((readings) =>
+      send(base, 'POST', `/v1/meters/${ledger.meterId}/readings`, { readings }),
+    );
     // Each outcome stamped with when it arrived, to order it against the first refusal.
     const settled = flights.map((f) => f.outcome.then((outcome) => ({ outcome, at: performance.now() })));
     await Promise.all(flights.map((f) => f.sent));
@@ -85,7 +91,12 @@ describe(`graceful shutdown on ${testDialect()}: SIGTERM with requests in flight
     const last = probes.at(-1);
     expect(last?.kind === 'cut' && last.error).toBe('ECONNREFUSED'); // the listening socket is closed
     for (const probe of probes.slice(0, -1)) {
-      expect(probe.kind === 'answered' ? probe.status : probe.error).toBeOneOf([200, 503, 'ECONNRESET', 'socket hang up']); // fastify: 503 while closing
+      expect(probe.kind === 'answered' ? probe.status : probe.error).toBeOneOf([
+        200,
+        503,
+        'ECONNRESET',
+        'socket hang up',
+      ]); // fastify: 503 while closing
     }
 
     const answers = await Promise.all(settled);

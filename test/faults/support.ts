@@ -36,12 +36,20 @@ export function freshFaultDatabase(): FaultDatabase {
   // Only named here: the service makes the folder when it first opens the file, so a suite that
   // never runs (filtered out) leaves nothing behind.
   const folder = join(tmpdir(), `mvledger-faults-${process.pid}-${randomBytes(4).toString('hex')}`);
-  return { url: `sqlite:${join(folder, 'ledger.sqlite')}`, dispose: async () => rmSync(folder, { recursive: true, force: true }) };
+  return {
+    url: `sqlite:${join(folder, 'ledger.sqlite')}`,
+    dispose: async () => rmSync(folder, { recursive: true, force: true }),
+  };
 }
 
 /** A service process on the database, the bootstrap key its admin key. */
 export function startService(database: FaultDatabase, name: string, logLevel?: string): Promise<Instance> {
-  return startInstance({ name, databaseUrl: database.url, bootstrapKey: BOOTSTRAP_KEY, ...(logLevel ? { logLevel } : {}) });
+  return startInstance({
+    name,
+    databaseUrl: database.url,
+    bootstrapKey: BOOTSTRAP_KEY,
+    ...(logLevel ? { logLevel } : {}),
+  });
 }
 
 /** How a child process ended. */
@@ -52,7 +60,8 @@ export interface Exit {
 
 /** Resolves when the child has exited (at once if it already has). */
 export function exitOf(child: ChildProcess): Promise<Exit> {
-  if (child.exitCode !== null || child.signalCode !== null) return Promise.resolve({ code: child.exitCode, signal: child.signalCode });
+  if (child.exitCode !== null || child.signalCode !== null)
+    return Promise.resolve({ code: child.exitCode, signal: child.signalCode });
   return new Promise((resolve) => child.once('exit', (code, signal) => resolve({ code, signal })));
 }
 
@@ -88,7 +97,11 @@ export function send(
   let markSent: () => void = () => {};
   const sent = new Promise<void>((resolve) => (markSent = resolve));
   const outcome = new Promise<Outcome>((resolve) => {
-    const headers: Record<string, string | number> = { ...extraHeaders, authorization: `Bearer ${key}`, connection: 'close' };
+    const headers: Record<string, string | number> = {
+      ...extraHeaders,
+      authorization: `Bearer ${key}`,
+      connection: 'close',
+    };
     if (payload) Object.assign(headers, { 'content-type': 'application/json', 'content-length': payload.length });
     const request = httpRequest(`${base}${path}`, { method, headers, agent: false }, (response) => {
       const chunks: Buffer[] = [];
@@ -154,7 +167,12 @@ export function sumOf(readings: readonly { quantity: number }[]): number {
 }
 
 /** Count and sum of a meter's stored readings starting in [from, to), straight from the table. */
-export async function storedIn(store: Store, meterId: string, from: string, to: string): Promise<{ count: number; total: number }> {
+export async function storedIn(
+  store: Store,
+  meterId: string,
+  from: string,
+  to: string,
+): Promise<{ count: number; total: number }> {
   const row = await store.db
     .selectFrom('readings')
     .select((eb) => [eb.fn.countAll<string>().as('count'), eb.fn.sum<string>('quantity').as('total')])
@@ -205,7 +223,10 @@ export async function seedLedger(base: string): Promise<Ledger> {
   const facility = await ok(call(base, 'POST', '/v1/facilities', { name: 'Fault-test hall (invented)' }), 'facility');
   const meterBody = (name: string) => ({ name, fuel: 'electricity', unit: 'kWh', weatherStationId: station.id });
   const meter = await ok(call(base, 'POST', `/v1/facilities/${facility.id}/meters`, meterBody('Batch meter')), 'meter');
-  const baselineMeter = await ok(call(base, 'POST', `/v1/facilities/${facility.id}/meters`, meterBody('Baseline meter')), 'baseline meter');
+  const baselineMeter = await ok(
+    call(base, 'POST', `/v1/facilities/${facility.id}/meters`, meterBody('Baseline meter')),
+    'baseline meter',
+  );
   const bills = monthlyReadings(SAMPLE_BUILDING, weather, BASELINE_WINDOW.start, 24, random).map((r) => ({
     start: r.start,
     end: r.end,
@@ -213,5 +234,11 @@ export async function seedLedger(base: string): Promise<Ledger> {
   }));
   await ok(call(base, 'POST', `/v1/meters/${baselineMeter.id}/readings`, { readings: bills }), 'bills');
   // bootstrap (organisation, key) 2 + station, weather, facility, two meters, bills 6
-  return { stationId: station.id, facilityId: facility.id, meterId: meter.id, baselineMeterId: baselineMeter.id, writes: 8 };
+  return {
+    stationId: station.id,
+    facilityId: facility.id,
+    meterId: meter.id,
+    baselineMeterId: baselineMeter.id,
+    writes: 8,
+  };
 }

@@ -132,7 +132,15 @@ export const plausibleDate: fc.Arbitrary<string> = fc.oneof(
   // Real but far-off dates: centuries of days between two of them.
   {
     weight: 1,
-    arbitrary: fc.constantFrom('0001-01-01', '1000-03-01', '1900-01-01', '1970-01-01', '2000-02-29', '2100-01-01', '9999-12-31'),
+    arbitrary: fc.constantFrom(
+      '0001-01-01',
+      '1000-03-01',
+      '1900-01-01',
+      '1970-01-01',
+      '2000-02-29',
+      '2100-01-01',
+      '9999-12-31',
+    ),
   },
 );
 
@@ -310,7 +318,9 @@ export const hostileValue: fc.Arbitrary<JsonValue> = fc.oneof(
   {
     weight: 2,
     arbitrary: fc
-      .array(fc.tuple(fc.oneof(fc.constantFrom(...HOSTILE_KEYS), fc.string({ maxLength: 8 })), scalar), { maxLength: 3 })
+      .array(fc.tuple(fc.oneof(fc.constantFrom(...HOSTILE_KEYS), fc.string({ maxLength: 8 })), scalar), {
+        maxLength: 3,
+      })
       .map((entries) => new JsonEntries(entries)),
   },
   { weight: 1, arbitrary: deepNestArb },
@@ -323,7 +333,10 @@ export interface SchemaContext {
   realIds: readonly string[];
 }
 
-const clampLength = (min: number | undefined, max: number | undefined) => ({ minLength: min ?? 0, maxLength: Math.min(max ?? 40, 40) });
+const clampLength = (min: number | undefined, max: number | undefined) => ({
+  minLength: min ?? 0,
+  maxLength: Math.min(max ?? 40, 40),
+});
 
 function validString(schema: JsonSchema, name: string, ctx: SchemaContext): fc.Arbitrary<string> {
   if (schema.format === 'date') return plausibleDate;
@@ -353,10 +366,13 @@ function validNumber(schema: JsonSchema, integer: boolean): fc.Arbitrary<number>
       ? fc.double({ min: low, max: high, noNaN: true, noDefaultInfinity: true }).filter(fits)
       : // Unbounded in the schema: temperatures and quantities a service would take, so requests get past its own checks.
         fc.oneof(fc.double({ min: -40, max: 120, noNaN: true }), fc.double({ min: 0, max: 100_000, noNaN: true }));
-  return edges.length > 0 ? fc.oneof({ weight: 6, arbitrary: inRange }, { weight: 1, arbitrary: fc.constantFrom(...edges) }) : inRange;
+  return edges.length > 0
+    ? fc.oneof({ weight: 6, arbitrary: inRange }, { weight: 1, arbitrary: fc.constantFrom(...edges) })
+    : inRange;
 }
 
-const typesOf = (schema: JsonSchema): string[] => (Array.isArray(schema.type) ? schema.type : schema.type ? [schema.type] : []);
+const typesOf = (schema: JsonSchema): string[] =>
+  Array.isArray(schema.type) ? schema.type : schema.type ? [schema.type] : [];
 
 /** A value that fits the schema (arrays kept short); no hostility. */
 function validValue(schema: JsonSchema, name: string, ctx: SchemaContext, hostility: number): fc.Arbitrary<JsonValue> {
@@ -407,7 +423,12 @@ function objectValue(schema: JsonSchema, ctx: SchemaContext, hostility: number):
   const mutation = fc.oneof(
     { weight: 20, arbitrary: fc.constant({ kind: 'none' as const }) },
     { weight: scale, arbitrary: fc.nat().map((index) => ({ kind: 'drop' as const, index })) },
-    { weight: scale, arbitrary: fc.tuple(fc.nat(), hostileValue).map(([index, value]) => ({ kind: 'duplicate' as const, index, value })) },
+    {
+      weight: scale,
+      arbitrary: fc
+        .tuple(fc.nat(), hostileValue)
+        .map(([index, value]) => ({ kind: 'duplicate' as const, index, value })),
+    },
     {
       weight: scale,
       arbitrary: fc
@@ -432,11 +453,19 @@ function objectValue(schema: JsonSchema, ctx: SchemaContext, hostility: number):
 }
 
 /** A value for one schema node: valid, or (with probability `hostility`) hostile. */
-export function valueFor(schema: JsonSchema, name: string, ctx: SchemaContext, hostility: number): fc.Arbitrary<JsonValue> {
+export function valueFor(
+  schema: JsonSchema,
+  name: string,
+  ctx: SchemaContext,
+  hostility: number,
+): fc.Arbitrary<JsonValue> {
   const valid = validValue(schema, name, ctx, hostility);
   if (hostility === 0) return valid;
   const hostileWeight = Math.max(1, Math.round(hostility * 100));
-  return fc.oneof({ weight: 100 - hostileWeight, arbitrary: valid }, { weight: hostileWeight, arbitrary: hostileValue });
+  return fc.oneof(
+    { weight: 100 - hostileWeight, arbitrary: valid },
+    { weight: hostileWeight, arbitrary: hostileValue },
+  );
 }
 
 /** A body for the schema at a random level of hostility (0: valid, up to half the nodes hostile). */

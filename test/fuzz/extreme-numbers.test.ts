@@ -69,7 +69,8 @@ function nextUp(x: number): number {
 }
 
 /** A figure per day at the edges a bound admits: 0, the smallest subnormal, anything up to the bound, the bound itself. */
-const perDayEdge = (max: number) => fc.oneof(fc.constantFrom(0, Number.MIN_VALUE, max), fc.double({ min: 0, max, noNaN: true }));
+const perDayEdge = (max: number) =>
+  fc.oneof(fc.constantFrom(0, Number.MIN_VALUE, max), fc.double({ min: 0, max, noNaN: true }));
 /** As perDayEdge, either sign. */
 const signedEdge = (max: number) =>
   fc.oneof(fc.constantFrom(-max, max, -Number.MIN_VALUE, Number.MIN_VALUE), fc.double({ min: -max, max, noNaN: true }));
@@ -97,7 +98,10 @@ const scenario = fc.record({
     significanceLevel: fc.constantFrom(Number.MIN_VALUE, 1 - 2 ** -53),
     minPointsPerSegment: fc.constantFrom(1, 1000),
   }),
-  price: fc.oneof(fc.constantFrom(0, Number.MIN_VALUE, MAX_PRICE.max), fc.double({ min: 0, max: MAX_PRICE.max, noNaN: true })),
+  price: fc.oneof(
+    fc.constantFrom(0, Number.MIN_VALUE, MAX_PRICE.max),
+    fc.double({ min: 0, max: MAX_PRICE.max, noNaN: true }),
+  ),
   escalation: fc.constantFrom(1, 0, -1 + 2 ** -52, 0.5),
   rateFrom: fc.constantFrom('0001-01-01', '1900-01-01', '2025-01-01'),
   adjustment: fc.oneof(
@@ -169,7 +173,10 @@ async function refused(
   figures.refused++;
   expect(reply.status, `${what}: ${reply.text.slice(0, 400)}`).toBe(400);
   expect(reply.headers['content-type']).toMatch(/^application\/problem\+json/);
-  const named = [reply.json.detail as string, ...((reply.json.errors ?? []) as { field: string }[]).map((e) => e.field)];
+  const named = [
+    reply.json.detail as string,
+    ...((reply.json.errors ?? []) as { field: string }[]).map((e) => e.field),
+  ];
   expect(
     named.some((text) => field.test(text)),
     `${what} should name ${field}: ${reply.text.slice(0, 400)}`,
@@ -188,7 +195,8 @@ function csvOf(columns: string[], rows: (string | number | null | undefined)[][]
 }
 
 /** Days of [start, end). */
-const daysOf = (r: { start: string; end: string }) => Math.round((Date.parse(r.end) - Date.parse(r.start)) / 86_400_000);
+const daysOf = (r: { start: string; end: string }) =>
+  Math.round((Date.parse(r.end) - Date.parse(r.start)) / 86_400_000);
 
 async function runScenario(s: Scenario, run: number): Promise<void> {
   figures.runs++;
@@ -201,7 +209,9 @@ async function runScenario(s: Scenario, run: number): Promise<void> {
   const station = await stored(`${tag} station`, 'POST', '/v1/weather-stations', {
     body: { name: `Extreme station ${run}`, temperatureUnit: 'F' },
   });
-  const days = weather.map((d, i) => (i >= 731 && i - 731 < s.edgeTemps.length ? { date: d.date, temp: s.edgeTemps[i - 731]! } : d));
+  const days = weather.map((d, i) =>
+    i >= 731 && i - 731 < s.edgeTemps.length ? { date: d.date, temp: s.edgeTemps[i - 731]! } : d,
+  );
   const observationsUrl = `/v1/weather-stations/${station.id}/observations`;
   if (s.csv)
     await stored(`${tag} observations (CSV)`, 'PUT', observationsUrl, {
@@ -224,7 +234,10 @@ async function runScenario(s: Scenario, run: number): Promise<void> {
       ),
       headers: { 'x-normal-year-source': 'Invented extreme year (test)' },
     });
-  else await stored(`${tag} normal year`, 'PUT', normalUrl, { body: { source: 'Invented extreme year (test)', days: normal } });
+  else
+    await stored(`${tag} normal year`, 'PUT', normalUrl, {
+      body: { source: 'Invented extreme year (test)', days: normal },
+    });
 
   const meter = await stored(`${tag} meter`, 'POST', `/v1/facilities/${facility.id}/meters`, {
     body: { name: `Extreme meter ${run}`, fuel: 'electricity', unit: 'kWh', weatherStationId: station.id },
@@ -254,7 +267,9 @@ async function runScenario(s: Scenario, run: number): Promise<void> {
     });
   else
     await stored(`${tag} readings`, 'POST', readingsUrl, {
-      body: { readings: readings.map((r) => (r.cost === null ? { start: r.start, end: r.end, quantity: r.quantity } : r)) },
+      body: {
+        readings: readings.map((r) => (r.cost === null ? { start: r.start, end: r.end, quantity: r.quantity } : r)),
+      },
     });
 
   // A draft at the options' edges (it may fit or say why not), then the frozen baseline.
@@ -275,7 +290,8 @@ async function runScenario(s: Scenario, run: number): Promise<void> {
         ? { perDay: s.adjustment.perDay }
         : {
             quantity:
-              Math.sign(s.adjustment.quantityPerDay) * Math.min(Math.abs(s.adjustment.quantityPerDay) * 28, MAX_USE_PER_DAY.max * 28),
+              Math.sign(s.adjustment.quantityPerDay) *
+              Math.min(Math.abs(s.adjustment.quantityPerDay) * 28, MAX_USE_PER_DAY.max * 28),
           };
     await stored(`${tag} adjustment`, 'POST', `/v1/meters/${meter.id}/adjustments`, {
       body: { start: '2025-02-01', end: '2025-03-01', ...adjustment, reason: 'Invented extreme change (test)' },
@@ -366,7 +382,11 @@ async function runScenario(s: Scenario, run: number): Promise<void> {
       `${tag} quantity of a long bill beyond`,
       'POST',
       readingsUrl,
-      { body: { readings: [{ start: '2026-01-01', end: '2026-07-01', quantity: MAX_USE_PER_DAY.max * 181 * (1 + 1e-9) }] } },
+      {
+        body: {
+          readings: [{ start: '2026-01-01', end: '2026-07-01', quantity: MAX_USE_PER_DAY.max * 181 * (1 + 1e-9) }],
+        },
+      },
       /^readings\[0\]\.quantity$/,
     );
     await refused(
@@ -375,7 +395,9 @@ async function runScenario(s: Scenario, run: number): Promise<void> {
       readingsUrl,
       {
         body: {
-          readings: [{ start: bill.start, end: bill.end, quantity: bill.quantity, cost: total(s.beyondCost, daysOf(bill)) }],
+          readings: [
+            { start: bill.start, end: bill.end, quantity: bill.quantity, cost: total(s.beyondCost, daysOf(bill)) },
+          ],
           correctionReason: 'test',
         },
       },
@@ -488,7 +510,9 @@ async function runScenario(s: Scenario, run: number): Promise<void> {
       expect([200, 422], `${tag} report ${window} ${format}: ${reply.text.slice(0, 300)}`).toContain(reply.status);
       if (reply.status === 422) figures.unprocessable++;
       if (reply.status === 200 && format === 'json')
-        figures.notAvailableNotices += (reply.json.notices as string[]).filter((n) => n.includes('not available')).length;
+        figures.notAvailableNotices += (reply.json.notices as string[]).filter((n) =>
+          n.includes('not available'),
+        ).length;
     }
   }
   // A statement of the contract year: issued (its stored HTML served) or refused as unprocessable, never a 5xx.
@@ -497,7 +521,9 @@ async function runScenario(s: Scenario, run: number): Promise<void> {
   });
   expect([201, 422], `${tag} statement: ${statement.text.slice(0, 300)}`).toContain(statement.status);
   if (statement.status === 201)
-    expect((await send(`${tag} statement html`, 'GET', `/v1/statements/${statement.json.id}/document?format=html`)).status).toBe(200);
+    expect(
+      (await send(`${tag} statement html`, 'GET', `/v1/statements/${statement.json.id}/document?format=html`)).status,
+    ).toBe(200);
 }
 
 describe(`extreme finite numbers on ${testDialect()}: stored at the bounds' edges, refused beyond them, reported without a 5xx`, () => {

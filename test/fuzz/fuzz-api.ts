@@ -33,9 +33,14 @@ export interface FuzzService {
   close(): Promise<void>;
 }
 
-async function expectStatus(response: Promise<{ status: number; text: string }>, status: number, what: string): Promise<any> {
+async function expectStatus(
+  response: Promise<{ status: number; text: string }>,
+  status: number,
+  what: string,
+): Promise<any> {
   const answer = await response;
-  if (answer.status !== status) throw new Error(`seeding ${what}: expected ${status}, got ${answer.status} ${answer.text.slice(0, 300)}`);
+  if (answer.status !== status)
+    throw new Error(`seeding ${what}: expected ${status}, got ${answer.status} ${answer.text.slice(0, 300)}`);
   return JSON.parse(answer.text);
 }
 
@@ -48,7 +53,13 @@ async function seedLedger(api: TestApi): Promise<SeededIds> {
   const random = seededRandom(606);
   const weather = dailyWeather(CLIMATES.temperate, '2023-01-01', 1096, random);
   const baseline: Reading[] = monthlyReadings(SAMPLE_BUILDING, weather, '2023-01-01', 24, random);
-  const reporting: Reading[] = monthlyReadings({ ...SAMPLE_BUILDING, base: 255, heatingRate: 6.5 }, weather, '2025-01-01', 12, random);
+  const reporting: Reading[] = monthlyReadings(
+    { ...SAMPLE_BUILDING, base: 255, heatingRate: 6.5 },
+    weather,
+    '2025-01-01',
+    12,
+    random,
+  );
 
   const station = await expectStatus(
     api.call('POST', '/v1/weather-stations', { body: { name: 'Invented hill station', temperatureUnit: 'F' } }),
@@ -74,8 +85,16 @@ async function seedLedger(api: TestApi): Promise<SeededIds> {
     201,
     'meter',
   );
-  const rows = [...baseline, ...reporting].map((r) => ({ start: r.start, end: r.end, quantity: Math.round(r.quantity * 10) / 10 }));
-  await expectStatus(api.call('POST', `/v1/meters/${meter.id}/readings`, { body: { readings: rows } }), 201, 'readings');
+  const rows = [...baseline, ...reporting].map((r) => ({
+    start: r.start,
+    end: r.end,
+    quantity: Math.round(r.quantity * 10) / 10,
+  }));
+  await expectStatus(
+    api.call('POST', `/v1/meters/${meter.id}/readings`, { body: { readings: rows } }),
+    201,
+    'readings',
+  );
   const frozen = await expectStatus(
     api.call('POST', `/v1/meters/${meter.id}/baselines`, { body: { start: '2023-01-01', end: '2025-01-01' } }),
     201,
@@ -95,11 +114,15 @@ async function seedLedger(api: TestApi): Promise<SeededIds> {
   const spareKeys: string[] = [];
   for (const role of ['analyst', 'integration'] as const) {
     spareKeys.push(
-      (await expectStatus(api.call('POST', '/v1/api-keys', { body: { name: `spare ${role} key`, role } }), 201, 'key')).key.id,
+      (await expectStatus(api.call('POST', '/v1/api-keys', { body: { name: `spare ${role} key`, role } }), 201, 'key'))
+        .key.id,
     );
   }
   const otherStation = await expectStatus(
-    api.call('POST', '/v1/weather-stations', { as: 'other', body: { name: 'Other organisation station', temperatureUnit: 'C' } }),
+    api.call('POST', '/v1/weather-stations', {
+      as: 'other',
+      body: { name: 'Other organisation station', temperatureUnit: 'C' },
+    }),
     201,
     'other station',
   );

@@ -18,7 +18,8 @@ export type JsonValue = null | boolean | number | string | RawJson | JsonEntries
 
 export function jsonText(value: JsonValue): string {
   if (value instanceof RawJson) return value.text;
-  if (value instanceof JsonEntries) return `{${value.entries.map(([k, v]) => `${JSON.stringify(k)}:${jsonText(v)}`).join(',')}}`;
+  if (value instanceof JsonEntries)
+    return `{${value.entries.map(([k, v]) => `${JSON.stringify(k)}:${jsonText(v)}`).join(',')}}`;
   if (Array.isArray(value)) return `[${value.map(jsonText).join(',')}]`;
   if (typeof value === 'number' && Object.is(value, -0)) return '-0';
   return JSON.stringify(value) ?? 'null';

@@ -66,7 +66,9 @@ export function resolveRefs(schema: JsonSchema, components: Record<string, JsonS
   }
   const out: JsonSchema = { ...schema };
   if (schema.properties) {
-    out.properties = Object.fromEntries(Object.entries(schema.properties).map(([k, v]) => [k, resolveRefs(v, components, depth + 1)]));
+    out.properties = Object.fromEntries(
+      Object.entries(schema.properties).map(([k, v]) => [k, resolveRefs(v, components, depth + 1)]),
+    );
   }
   if (schema.items) out.items = resolveRefs(schema.items, components, depth + 1);
   for (const key of ['anyOf', 'oneOf', 'allOf'] as const) {
@@ -91,7 +93,9 @@ export function routesFromOpenApi(document: unknown): FuzzRoute[] {
         method,
         path,
         pathParams: parameters.filter((p) => p.in === 'path').map((p) => p.name),
-        query: Object.fromEntries(parameters.filter((p) => p.in === 'query').map((p) => [p.name, resolveRefs(p.schema ?? {}, components)])),
+        query: Object.fromEntries(
+          parameters.filter((p) => p.in === 'query').map((p) => [p.name, resolveRefs(p.schema ?? {}, components)]),
+        ),
         body,
         takesCsv: /text\/csv/.test(body?.description ?? ''),
         secured: (operation.security ?? []).length > 0,

@@ -33,7 +33,8 @@ export function describeRequest(request: FuzzRequest): string {
 export function contractViolation(request: FuzzRequest, response: FuzzResponse, sourceRoot: string): string | null {
   const { status, body } = response;
   if (status >= 500) return `answered ${status}`;
-  if (!((status >= 200 && status < 300) || (status >= 400 && status < 500))) return `answered ${status} (neither 2xx nor 4xx)`;
+  if (!((status >= 200 && status < 300) || (status >= 400 && status < 500)))
+    return `answered ${status} (neither 2xx nor 4xx)`;
   const sent = `${request.url} ${typeof request.payload === 'string' ? request.payload : ''}`;
   for (const leak of [...LEAKS, new RegExp(sourceRoot.replace(/[.*+?^${}()|[\]\\]/g, '\\$&'))]) {
     if (leak.test(body) && !leak.test(sent)) return `the body leaks internals (${leak}): ${body.slice(0, 300)}`;
@@ -52,10 +53,12 @@ export function contractViolation(request: FuzzRequest, response: FuzzResponse, 
       if (typeof problem[member] !== 'string' || (problem[member] as string).length === 0)
         return `the problem has no ${member}: ${body.slice(0, 200)}`;
     }
-    if (problem.status !== status) return `the problem says status ${String(problem.status)} but the answer is ${status}`;
+    if (problem.status !== status)
+      return `the problem says status ${String(problem.status)} but the answer is ${status}`;
     if (problem.errors !== undefined) {
       const ok =
-        Array.isArray(problem.errors) && problem.errors.every((e) => typeof e?.field === 'string' && typeof e?.message === 'string');
+        Array.isArray(problem.errors) &&
+        problem.errors.every((e) => typeof e?.field === 'string' && typeof e?.message === 'string');
       if (!ok) return `the problem's errors are not [{field, message}]: ${body.slice(0, 200)}`;
     }
     return null;

@@ -97,7 +97,13 @@ const POOLS: Record<string, keyof SeededIds> = {
 function idSegment(route: FuzzRoute, ctx: RequestContext): fc.Arbitrary<{ text: string; real: boolean }> {
   const collection = route.path.split('/')[2] ?? '';
   const own = ctx.ids[POOLS[collection] ?? 'meters'];
-  const anyReal = [...ctx.ids.stations, ...ctx.ids.facilities, ...ctx.ids.meters, ...ctx.ids.baselines, ...ctx.ids.apiKeys];
+  const anyReal = [
+    ...ctx.ids.stations,
+    ...ctx.ids.facilities,
+    ...ctx.ids.meters,
+    ...ctx.ids.baselines,
+    ...ctx.ids.apiKeys,
+  ];
   const real = (list: readonly string[]) => fc.constantFrom(...list).map((text) => ({ text, real: true }));
   return fc.oneof(
     { weight: 5, arbitrary: real(own) },
@@ -173,7 +179,10 @@ function queryValue(schema: JsonSchema | undefined, name: string, ctx: RequestCo
   return fc.oneof(
     { weight: 4, arbitrary: guided.map(encode) },
     { weight: 2, arbitrary: fc.constantFrom(...QUERY_VALUES) },
-    { weight: 2, arbitrary: fc.oneof(fc.constantFrom(...HOSTILE_DATES, ...HOSTILE_STRINGS), awkwardText).map((s) => encode(s)) },
+    {
+      weight: 2,
+      arbitrary: fc.oneof(fc.constantFrom(...HOSTILE_DATES, ...HOSTILE_STRINGS), awkwardText).map((s) => encode(s)),
+    },
     { weight: 1, arbitrary: plausibleDate.map((d) => `${d}T00:00:00${encode('+05:00')}`) },
   );
 }
@@ -196,7 +205,10 @@ function queryArb(route: FuzzRoute, ctx: RequestContext): fc.Arbitrary<{ query: 
   const known = Object.keys(route.query);
   const keyArb =
     known.length > 0
-      ? fc.oneof({ weight: 6, arbitrary: fc.constantFrom(...known) }, { weight: 1, arbitrary: fc.constantFrom(...UNKNOWN_QUERY_KEYS) })
+      ? fc.oneof(
+          { weight: 6, arbitrary: fc.constantFrom(...known) },
+          { weight: 1, arbitrary: fc.constantFrom(...UNKNOWN_QUERY_KEYS) },
+        )
       : fc.constantFrom(...UNKNOWN_QUERY_KEYS);
   const pair = keyArb.chain((key) =>
     fc.oneof(
@@ -212,7 +224,10 @@ function queryArb(route: FuzzRoute, ctx: RequestContext): fc.Arbitrary<{ query: 
       weight: 4,
       arbitrary: fc
         .tuple(fc.array(pair, { minLength: 1, maxLength: 5 }), fc.constantFrom('&', '&', '&', '&&', ';'), fc.boolean())
-        .map(([pairs, sep, repeat]) => ({ query: `?${(repeat ? [...pairs, pairs[0]!] : pairs).join(sep)}`, hostile: true })),
+        .map(([pairs, sep, repeat]) => ({
+          query: `?${(repeat ? [...pairs, pairs[0]!] : pairs).join(sep)}`,
+          hostile: true,
+        })),
     },
     {
       weight: 1,
@@ -296,7 +311,8 @@ const WRONG_CONTENT_TYPES: readonly string[] = [
   'a/b/c',
 ];
 
-const XML_BODY = '<?xml version="1.0"?><!DOCTYPE x [<!ENTITY e SYSTEM "file:///etc/passwd">]><body><name>&e;</name></body>';
+const XML_BODY =
+  '<?xml version="1.0"?><!DOCTYPE x [<!ENTITY e SYSTEM "file:///etc/passwd">]><body><name>&e;</name></body>';
 const MULTIPART_BODY =
   '--fuzz\r\nContent-Disposition: form-data; name="name"\r\n\r\nInvented hall\r\n--fuzz\r\nContent-Disposition: form-data; name="file"; filename="a.csv"\r\nContent-Type: text/csv\r\n\r\nstart,end,quantity\r\n--fuzz--\r\n';
 
@@ -394,7 +410,9 @@ function csvBody(route: FuzzRoute): fc.Arbitrary<string> {
               .map((cells) => (shape === 0 ? cells.slice(0, -1) : shape === 1 ? [...cells, '9'] : cells)),
           ),
         )
-        .map((rows) => `${prefix}${[columns.join(','), ...rows.map((r) => r.join(','))].join(eol)}${trailing ? eol : ''}`),
+        .map(
+          (rows) => `${prefix}${[columns.join(','), ...rows.map((r) => r.join(','))].join(eol)}${trailing ? eol : ''}`,
+        ),
     );
 }
 
@@ -427,14 +445,28 @@ function oversizeBody(route: FuzzRoute, limit: number): fc.Arbitrary<Body> {
       return { payload: text.slice(0, size), contentType: 'text/csv', kind: 'oversize' };
     }
     const open = '{"name":"';
-    return { payload: `${open}${'x'.repeat(size - open.length - 2)}"}`, contentType: 'application/json', kind: 'oversize' };
+    return {
+      payload: `${open}${'x'.repeat(size - open.length - 2)}"}`,
+      contentType: 'application/json',
+      kind: 'oversize',
+    };
   });
 }
 
 /** Deep nests on their own: a body no schema looks at may still reach code that recurses. */
 const deepBody: fc.Arbitrary<Body> = fc
-  .constantFrom<[number, 'array' | 'object']>([1000, 'array'], [5000, 'array'], [8000, 'array'], [1000, 'object'], [2500, 'object'])
-  .map(([depth, kind]) => ({ payload: jsonText(deepNest(depth, kind)), contentType: 'application/json', kind: 'deep-json' }));
+  .constantFrom<[number, 'array' | 'object']>(
+    [1000, 'array'],
+    [5000, 'array'],
+    [8000, 'array'],
+    [1000, 'object'],
+    [2500, 'object'],
+  )
+  .map(([depth, kind]) => ({
+    payload: jsonText(deepNest(depth, kind)),
+    contentType: 'application/json',
+    kind: 'deep-json',
+  }));
 
 function bodyArb(route: FuzzRoute, ctx: RequestContext): fc.Arbitrary<Body> {
   const schemaCtx = { realIds: [...ctx.ids.stations, ...ctx.ids.otherOrganisation] };
@@ -449,7 +481,9 @@ function bodyArb(route: FuzzRoute, ctx: RequestContext): fc.Arbitrary<Body> {
       arbitrary: fc
         .oneof(
           fc.constantFrom(...BROKEN_JSON),
-          guided.map((v) => jsonText(v)).chain((text) => fc.nat({ max: Math.max(0, text.length - 1) }).map((cut) => text.slice(0, cut))),
+          guided
+            .map((v) => jsonText(v))
+            .chain((text) => fc.nat({ max: Math.max(0, text.length - 1) }).map((cut) => text.slice(0, cut))),
           fc.constantFrom(1000, 5000).map((depth) => jsonText(deepNest(depth, 'array'))),
           fc.constant(jsonText(deepNest(1000, 'object'))),
         )
@@ -464,7 +498,11 @@ function bodyArb(route: FuzzRoute, ctx: RequestContext): fc.Arbitrary<Body> {
           fc.nat({ max: 3 }),
         )
         .map(([text, contentType, variant]) => ({
-          payload: contentType.startsWith('multipart') ? MULTIPART_BODY : contentType.includes('xml') && variant > 0 ? XML_BODY : text,
+          payload: contentType.startsWith('multipart')
+            ? MULTIPART_BODY
+            : contentType.includes('xml') && variant > 0
+              ? XML_BODY
+              : text,
           contentType,
           kind: 'content-type',
         })),
@@ -479,7 +517,10 @@ function bodyArb(route: FuzzRoute, ctx: RequestContext): fc.Arbitrary<Body> {
         kind: 'raw-bytes',
       })),
     },
-    { weight: route.takesCsv ? 6 : 1, arbitrary: csvBody(route).map((payload) => ({ payload, contentType: 'text/csv', kind: 'csv' })) },
+    {
+      weight: route.takesCsv ? 6 : 1,
+      arbitrary: csvBody(route).map((payload) => ({ payload, contentType: 'text/csv', kind: 'csv' })),
+    },
     {
       weight: route.takesCsv ? 1 : 0,
       arbitrary: plausibleCsv(route).map((payload) => ({ payload, contentType: 'text/csv', kind: 'csv-plausible' })),
@@ -515,7 +556,9 @@ function authArb(route: FuzzRoute, ctx: RequestContext): fc.Arbitrary<{ authoriz
       { weight: 30, arbitrary: fc.constant({ authorization: bearer(t.admin), kind: null }) },
       {
         weight: 6,
-        arbitrary: fc.constantFrom(t.engineer, t.analyst, t.integration).map((token) => ({ authorization: bearer(token), kind: 'role' })),
+        arbitrary: fc
+          .constantFrom(t.engineer, t.analyst, t.integration)
+          .map((token) => ({ authorization: bearer(token), kind: 'role' })),
       },
       { weight: 2, arbitrary: fc.constant({ authorization: bearer(t.other), kind: 'other-organisation' }) },
       { weight: 1, arbitrary: fc.constant({ kind: 'no-key' }) },
@@ -560,9 +603,22 @@ const idempotencyArb: fc.Arbitrary<{ key?: string; hostile: boolean }> = fc.oneo
 const extraHeadersArb: fc.Arbitrary<Record<string, string>> = fc.oneof(
   { weight: 20, arbitrary: fc.constant({}) },
   { weight: 1, arbitrary: fc.constantFrom('0', '-1', 'abc', '99999999', '1').map((v) => ({ 'content-length': v })) },
-  { weight: 1, arbitrary: fc.constantFrom('gzip', 'deflate', 'br', 'identity', 'x-unknown').map((v) => ({ 'content-encoding': v })) },
-  { weight: 1, arbitrary: fc.constantFrom('../x', 'a'.repeat(65), 'ok-id.1', '%00', '💥').map((v) => ({ 'x-request-id': v })) },
-  { weight: 1, arbitrary: fc.constantFrom('application/xml', 'text/csv', '*/*;q=0', 'image/svg+xml', '').map((v) => ({ accept: v })) },
+  {
+    weight: 1,
+    arbitrary: fc
+      .constantFrom('gzip', 'deflate', 'br', 'identity', 'x-unknown')
+      .map((v) => ({ 'content-encoding': v })),
+  },
+  {
+    weight: 1,
+    arbitrary: fc.constantFrom('../x', 'a'.repeat(65), 'ok-id.1', '%00', '💥').map((v) => ({ 'x-request-id': v })),
+  },
+  {
+    weight: 1,
+    arbitrary: fc
+      .constantFrom('application/xml', 'text/csv', '*/*;q=0', 'image/svg+xml', '')
+      .map((v) => ({ accept: v })),
+  },
 );
 
 // ---------------------------------------------------------------- requests

@@ -88,7 +88,8 @@ async function check(route: FuzzRoute | null, request: FuzzRequest, figures: Rou
   const response = await send(request);
   count(figures, request.kind, response?.status ?? null);
   if (response === null) return;
-  const violation = contractViolation(request, response, SOURCE_ROOT) ?? (route ? bodyShapeViolation(route, request, response) : null);
+  const violation =
+    contractViolation(request, response, SOURCE_ROOT) ?? (route ? bodyShapeViolation(route, request, response) : null);
   if (violation) {
     await watch.accept(); // so the next route's checks start from what is stored now
     throw new Error(`${violation}\n${describeRequest(request)}`);
@@ -99,7 +100,8 @@ async function check(route: FuzzRoute | null, request: FuzzRequest, figures: Rou
     return;
   }
   // SQLite says cheaply whether anything was written; elsewhere every rejected write is digested.
-  const sampled = watch.checked % DIGEST_SAMPLE_EVERY === 0 || (service.api.store.dialect !== 'sqlite' && request.method !== 'GET');
+  const sampled =
+    watch.checked % DIGEST_SAMPLE_EVERY === 0 || (service.api.store.dialect !== 'sqlite' && request.method !== 'GET');
   const changed = await watch.unchanged(sampled);
   if (changed)
     throw new Error(
@@ -118,7 +120,11 @@ describe('every route, fuzzed', () => {
         .filter((r) => r.takesCsv)
         .map(routeName)
         .sort(),
-    ).toEqual(['POST /v1/meters/{id}/readings', 'PUT /v1/weather-stations/{id}/normal-year', 'PUT /v1/weather-stations/{id}/observations']);
+    ).toEqual([
+      'POST /v1/meters/{id}/readings',
+      'PUT /v1/weather-stations/{id}/normal-year',
+      'PUT /v1/weather-stations/{id}/observations',
+    ]);
   });
 
   for (const route of routes) {

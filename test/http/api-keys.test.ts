@@ -81,7 +81,10 @@ describe('API keys', () => {
     expect(badRole.status).toBe(400);
     expect(badRole.json.errors[0].field).toBe('role');
     expect((await api.call('POST', '/v1/api-keys', { body: { role: 'admin' } })).json.errors[0].field).toBe('name');
-    const replayable = await api.call('POST', '/v1/api-keys', { body: { name: 'x', role: 'admin' }, headers: { 'idempotency-key': 'k1' } });
+    const replayable = await api.call('POST', '/v1/api-keys', {
+      body: { name: 'x', role: 'admin' },
+      headers: { 'idempotency-key': 'k1' },
+    });
     expect(replayable.status).toBe(400); // design: a replay store would have to keep the token
     expect(replayable.json.errors[0].field).toBe('header.idempotency-key');
     expect(await databaseDigest(api.store.db)).toBe(before);
@@ -90,7 +93,10 @@ describe('API keys', () => {
   it('is for admins only', async () => {
     for (const role of ['engineer', 'analyst', 'integration'] as const) {
       expect((await api.call('GET', '/v1/api-keys', { as: role })).status, role).toBe(403); // only admin has the keys permission
-      expect((await api.call('POST', '/v1/api-keys', { as: role, body: { name: 'x', role: 'admin' } })).status, role).toBe(403);
+      expect(
+        (await api.call('POST', '/v1/api-keys', { as: role, body: { name: 'x', role: 'admin' } })).status,
+        role,
+      ).toBe(403);
     }
   });
 });

@@ -14,7 +14,11 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runVerify, EXIT_VERIFY_FAILED } from '../../src/cli/commands/verify.js';
 import { loadConfig } from '../../src/config.js';
-import { checkpointSigner, checkpointSignatureFault, type SignedCheckpoint } from '../../src/lib/checkpoint-signature.js';
+import {
+  checkpointSigner,
+  checkpointSignatureFault,
+  type SignedCheckpoint,
+} from '../../src/lib/checkpoint-signature.js';
 import { sha256Hex, canonicalJson } from '../../src/lib/canonical-json.js';
 import { signEveryAuditHead } from '../../src/services/audit-checkpoints.js';
 import { GENESIS_HASH } from '../../src/store/audit.js';
@@ -30,7 +34,9 @@ const WEATHER = dailyWeather(CLIMATES.temperate, '2023-01-01', 920, random);
 const BILLS = monthlyReadings(SAMPLE_BUILDING, WEATHER, '2023-01-01', 30, random);
 
 const pem = (kind: 'public' | 'private', key: ReturnType<typeof generateKeyPairSync>) =>
-  (kind === 'public' ? key.publicKey : key.privateKey).export({ type: kind === 'public' ? 'spki' : 'pkcs8', format: 'pem' }).toString();
+  (kind === 'public' ? key.publicKey : key.privateKey)
+    .export({ type: kind === 'public' ? 'spki' : 'pkcs8', format: 'pem' })
+    .toString();
 const KEYS = generateKeyPairSync('ed25519');
 const OTHER_KEYS = generateKeyPairSync('ed25519');
 const signer = checkpointSigner(pem('private', KEYS));
@@ -77,8 +83,12 @@ function rewritten(rows: AuditRow[], from: number): AuditRow[] {
 beforeAll(async () => {
   folder = mkdtempSync(join(tmpdir(), 'mvl-checkpoints-'));
   api = await makeTestApi({ checkpointSigner: signer });
-  const stationId = (await ok('POST', '/v1/weather-stations', { name: 'Invented valley station', temperatureUnit: 'F' })).id;
-  await ok('PUT', `/v1/weather-stations/${stationId}/observations`, { observations: WEATHER.map((d) => ({ date: d.date, temp: d.temp })) });
+  const stationId = (
+    await ok('POST', '/v1/weather-stations', { name: 'Invented valley station', temperatureUnit: 'F' })
+  ).id;
+  await ok('PUT', `/v1/weather-stations/${stationId}/observations`, {
+    observations: WEATHER.map((d) => ({ date: d.date, temp: d.temp })),
+  });
   const facilityId = (await ok('POST', '/v1/facilities', { name: 'Checkpoint test school (invented)' })).id;
   const meterId = (
     await ok('POST', `/v1/facilities/${facilityId}/meters`, {
@@ -108,8 +118,15 @@ describe('the signature', () => {
     expect(checkpointSignatureFault(signed, pem('public', OTHER_KEYS))).toMatch(
       /^it was signed by key [0-9a-f]{16}, not by this public key/,
     );
-    for (const change of [{ seq: 8 }, { headHash: 'b'.repeat(64) }, { signedAt: '2026-01-02T00:00:00.000Z' }, { organisationId: 'org_y' }])
-      expect(checkpointSignatureFault({ ...signed, ...change }, pem('public', KEYS))).toBe('its signature does not verify');
+    for (const change of [
+      { seq: 8 },
+      { headHash: 'b'.repeat(64) },
+      { signedAt: '2026-01-02T00:00:00.000Z' },
+      { organisationId: 'org_y' },
+    ])
+      expect(checkpointSignatureFault({ ...signed, ...change }, pem('public', KEYS))).toBe(
+        'its signature does not verify',
+      );
   });
 
   it('takes its key from the configuration, refusing what is not an Ed25519 private key without repeating it', () => {
@@ -121,7 +138,9 @@ describe('the signature', () => {
     expect(() => loadConfig({ MVLEDGER_CHECKPOINT_KEY: 'not-a-key-secret-words' })).toThrow(
       'invalid configuration: MVLEDGER_CHECKPOINT_KEY: the checkpoint key is not a PEM private key',
     );
-    const rsa = generateKeyPairSync('rsa', { modulusLength: 1024 }).privateKey.export({ type: 'pkcs8', format: 'pem' }).toString();
+    const rsa = generateKeyPairSync('rsa', { modulusLength: 1024 })
+      .privateKey.export({ type: 'pkcs8', format: 'pem' })
+      .toString();
     expect(() => loadConfig({ MVLEDGER_CHECKPOINT_KEY: rsa })).toThrow('the checkpoint key must be Ed25519 (got rsa)');
     expect(() => loadConfig({ MVLEDGER_CHECKPOINT_KEY_FILE: join(folder, 'missing.pem') })).toThrow(
       'MVLEDGER_CHECKPOINT_KEY_FILE: cannot read the file (ENOENT)',
@@ -133,7 +152,12 @@ describe('checkpoints over HTTP', () => {
   it('signs the head on request, once per head, and lists the checkpoints with the public key', async () => {
     const head = (await ok('GET', '/v1/audit/verify')).headSeq as number;
     const first = await ok('POST', '/v1/audit/checkpoints');
-    expect(first).toMatchObject({ organisationId: api.organisationId, seq: head, keyId: signer.keyId, reason: 'request' });
+    expect(first).toMatchObject({
+      organisationId: api.organisationId,
+      seq: head,
+      keyId: signer.keyId,
+      reason: 'request',
+    });
     expect(await ok('POST', '/v1/audit/checkpoints')).toEqual(first); // the head has not moved: nothing new is signed
     const listed = await ok('GET', '/v1/audit/checkpoints');
     expect(listed.publicKey).toEqual({ keyId: signer.keyId, pem: pem('public', KEYS) });
@@ -171,7 +195,10 @@ describe('checkpoints over HTTP', () => {
       const response = await plain.call('POST', '/v1/audit/checkpoints');
       expect(response.status).toBe(422);
       expect(response.json.detail).toContain('MVLEDGER_CHECKPOINT_KEY_FILE');
-      expect((await plain.call('GET', '/v1/audit/checkpoints')).json).toMatchObject({ publicKey: null, checkpoints: [] });
+      expect((await plain.call('GET', '/v1/audit/checkpoints')).json).toMatchObject({
+        publicKey: null,
+        checkpoints: [],
+      });
     } finally {
       await plain.close();
     }
@@ -204,7 +231,9 @@ describe('the outsider’s proof, from an export, the public key and a checkpoin
     expect(proof.chain.ok).toBe(true); // the chain alone cannot tell
     expect(proof.ok).toBe(false);
     expect(proof.checkpoints[0]!.finding).toMatch(
-      new RegExp(`^row ${checkpoints[0]!.seq} has hash [0-9a-f]{64}, not the signed [0-9a-f]{64}: the trail was rewritten$`),
+      new RegExp(
+        `^row ${checkpoints[0]!.seq} has hash [0-9a-f]{64}, not the signed [0-9a-f]{64}: the trail was rewritten$`,
+      ),
     );
   });
 
@@ -213,7 +242,9 @@ describe('the outsider’s proof, from an export, the public key and a checkpoin
     const cut = rows.filter((row) => row.seq < last.seq);
     const proof = proveAgainstCheckpoints(api.organisationId, cut, checkpoints, pem('public', KEYS));
     expect(proof.ok).toBe(false);
-    expect(proof.checkpoints.at(-1)!.finding).toBe(`the trail has no row ${last.seq}: it was cut after row ${last.seq - 1}`);
+    expect(proof.checkpoints.at(-1)!.finding).toBe(
+      `the trail has no row ${last.seq}: it was cut after row ${last.seq - 1}`,
+    );
     const other = proveAgainstCheckpoints(api.organisationId, rows, checkpoints, pem('public', OTHER_KEYS));
     expect(other.checkpoints.every((c) => !c.ok && c.finding.startsWith('not signed by this key'))).toBe(true);
   });

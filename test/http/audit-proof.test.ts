@@ -44,7 +44,8 @@ async function expectNamed(edit: string, undo: string, table: string, words: Reg
     const differences = [...verdict.baselines.differences, ...verdict.replay.differences];
     expect(
       differences.some(
-        (d: { table: string; difference: string; key: string }) => d.table === table && words.test(`${d.key} ${d.difference}`),
+        (d: { table: string; difference: string; key: string }) =>
+          d.table === table && words.test(`${d.key} ${d.difference}`),
       ),
       JSON.stringify(differences),
     ).toBe(true);
@@ -103,7 +104,12 @@ beforeAll(async () => {
     days: NORMAL_YEAR_DAYS.map((day, i) => ({ day, temp: 50 + 20 * Math.sin(i / 58) })),
   });
   variableId = (
-    await ok('POST', `/v1/facilities/${facilityId}/variables`, { name: 'people', unit: 'people', kind: 'daily', aggregation: 'mean' })
+    await ok('POST', `/v1/facilities/${facilityId}/variables`, {
+      name: 'people',
+      unit: 'people',
+      kind: 'daily',
+      aggregation: 'mean',
+    })
   ).id;
   await ok('POST', `/v1/variables/${variableId}/values`, {
     values: [
@@ -168,7 +174,11 @@ describe('full verification', () => {
       .where('meter_id', '=', meterId)
       .where('period_start', '=', bill.start)
       .executeTakeFirstOrThrow();
-    await api.store.db.deleteFrom('readings').where('meter_id', '=', meterId).where('period_start', '=', bill.start).execute();
+    await api.store.db
+      .deleteFrom('readings')
+      .where('meter_id', '=', meterId)
+      .where('period_start', '=', bill.start)
+      .execute();
     let verdict = await verify();
     expect(verdict.replay.differences).toContainEqual({
       table: 'readings',
@@ -186,7 +196,11 @@ describe('full verification', () => {
       key: `meter ${meterId} 2030-01-01..2030-02-01`,
       difference: 'stored, but no audit row wrote it',
     });
-    await api.store.db.deleteFrom('readings').where('meter_id', '=', meterId).where('period_start', '=', '2030-01-01').execute();
+    await api.store.db
+      .deleteFrom('readings')
+      .where('meter_id', '=', meterId)
+      .where('period_start', '=', '2030-01-01')
+      .execute();
     expect((await verify()).ok).toBe(true);
   });
 
@@ -240,7 +254,11 @@ describe('full verification', () => {
       new RegExp(facilityId),
     );
     const withdrawnAt = (
-      await api.store.db.selectFrom('adjustments').select('withdrawn_at').where('meter_id', '=', meterId).executeTakeFirstOrThrow()
+      await api.store.db
+        .selectFrom('adjustments')
+        .select('withdrawn_at')
+        .where('meter_id', '=', meterId)
+        .executeTakeFirstOrThrow()
     ).withdrawn_at;
     expect(withdrawnAt).not.toBeNull();
     await expectNamed(
@@ -270,7 +288,11 @@ describe('full verification', () => {
   });
 
   it('names a frozen baseline edited with its content hash recomputed, at every depth', async () => {
-    const row = await api.store.db.selectFrom('baselines').selectAll().where('id', '=', baselineId).executeTakeFirstOrThrow();
+    const row = await api.store.db
+      .selectFrom('baselines')
+      .selectAll()
+      .where('id', '=', baselineId)
+      .executeTakeFirstOrThrow();
     const edited = { ...row, choice_reason: `${row.choice_reason ?? ''} (edited)` };
     const rehashed = baselineContentHash(edited);
     await api.store.db
@@ -291,7 +313,11 @@ describe('full verification', () => {
         ]);
       }
       // Without the hash recomputed, the stored hash no longer matches the content.
-      await api.store.db.updateTable('baselines').set({ content_hash: row.content_hash }).where('id', '=', baselineId).execute();
+      await api.store.db
+        .updateTable('baselines')
+        .set({ content_hash: row.content_hash })
+        .where('id', '=', baselineId)
+        .execute();
       expect((await verify('chain')).baselines.differences[0].difference).toMatch(
         /^its stored content gives hash [0-9a-f]{64}, not its stored content hash/,
       );

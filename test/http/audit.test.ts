@@ -18,8 +18,12 @@ beforeAll(async () => {
   for (const name of ['North Wing', 'South Wing', 'East Wing']) {
     facilityIds.push((await api.call('POST', '/v1/facilities', { body: { name } })).json.id);
   }
-  stationId = (await api.call('POST', '/v1/weather-stations', { as: 'engineer', body: { name: 'Roof Sensor', temperatureUnit: 'C' } })).json
-    .id;
+  stationId = (
+    await api.call('POST', '/v1/weather-stations', {
+      as: 'engineer',
+      body: { name: 'Roof Sensor', temperatureUnit: 'C' },
+    })
+  ).json.id;
   await api.call('POST', '/v1/facilities', { as: 'other', body: { name: 'Not Ours' } });
 });
 afterAll(async () => api.close());

@@ -37,7 +37,13 @@ import { CLIMATES, SAMPLE_BUILDING, dailyWeather, monthlyReadings, seededRandom 
 const random = seededRandom(41);
 const WEATHER = dailyWeather(CLIMATES.temperate, '2023-01-01', 1096, random);
 const BASELINE = monthlyReadings(SAMPLE_BUILDING, WEATHER, '2023-01-01', 24, random);
-const REPORTING = monthlyReadings({ ...SAMPLE_BUILDING, base: 255, heatingRate: 6.5 }, WEATHER, '2025-01-01', 12, random);
+const REPORTING = monthlyReadings(
+  { ...SAMPLE_BUILDING, base: 255, heatingRate: 6.5 },
+  WEATHER,
+  '2025-01-01',
+  12,
+  random,
+);
 const WINDOW = { start: '2023-01-01', end: '2025-01-01' };
 /** Four summer bills: too short a baseline (synthetic). */
 const SHORT_WINDOW = { start: '2023-05-01', end: '2023-09-01' };
@@ -58,22 +64,40 @@ async function seedMeter(readings: readonly Reading[] = [...BASELINE, ...REPORTI
   });
   const observations = WEATHER.map((d) => ({ date: d.date, temp: d.temp }));
   expect(
-    (await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, { as: 'integration', body: { observations } })).status,
+    (
+      await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, {
+        as: 'integration',
+        body: { observations },
+      })
+    ).status,
   ).toBe(200);
-  const facility = await api.call('POST', '/v1/facilities', { as: 'engineer', body: { name: 'Test works 9 (invented)' } });
+  const facility = await api.call('POST', '/v1/facilities', {
+    as: 'engineer',
+    body: { name: 'Test works 9 (invented)' },
+  });
   const meter = await api.call('POST', `/v1/facilities/${facility.json.id}/meters`, {
     as: 'engineer',
-    body: { name: 'Works main electric (invented)', fuel: 'electricity', unit: 'kWh', weatherStationId: station.json.id },
+    body: {
+      name: 'Works main electric (invented)',
+      fuel: 'electricity',
+      unit: 'kWh',
+      weatherStationId: station.json.id,
+    },
   });
   const rows = readings.map((r) => ({ start: r.start, end: r.end, quantity: r.quantity }));
-  expect((await api.call('POST', `/v1/meters/${meter.json.id}/readings`, { as: 'integration', body: { readings: rows } })).status).toBe(
-    201,
-  );
+  expect(
+    (await api.call('POST', `/v1/meters/${meter.json.id}/readings`, { as: 'integration', body: { readings: rows } }))
+      .status,
+  ).toBe(201);
   return meter.json.id;
 }
 
 /** Expect a problem of `status` naming `field`, with nothing stored. */
-async function expectRejected(send: () => Promise<{ status: number; json: any }>, status: number, field: string): Promise<any> {
+async function expectRejected(
+  send: () => Promise<{ status: number; json: any }>,
+  status: number,
+  field: string,
+): Promise<any> {
   const before = await databaseDigest(api.store.db);
   const response = await send();
   expect(response.status).toBe(status);
@@ -86,7 +110,14 @@ async function expectRejected(send: () => Promise<{ status: number; json: any }>
 function engineSavings(analysis: BaselineAnalysis, reporting: readonly Reading[] = REPORTING): any {
   const fit = analysis.choice.candidates.find((c) => c.model === analysis.choice.selected)!.fit!;
   return JSON.parse(
-    toJsonDocument(savingsFromFit(fit, { limits: analysis.choice.settings.guideline14, excluded: analysis.excluded }, reporting, WEATHER)),
+    toJsonDocument(
+      savingsFromFit(
+        fit,
+        { limits: analysis.choice.settings.guideline14, excluded: analysis.excluded },
+        reporting,
+        WEATHER,
+      ),
+    ),
   );
 }
 
@@ -161,7 +192,11 @@ describe('the temperature form on record', () => {
     });
     expect((await freeze(draft.json.id, { note: 'Agreed (test)' })).status).toBe(200);
     // Rewrite the row as a build without the form stored it: no form in the fit JSON, the hash over exactly those columns.
-    const row = await api.store.db.selectFrom('baselines').selectAll().where('id', '=', draft.json.id).executeTakeFirstOrThrow();
+    const row = await api.store.db
+      .selectFrom('baselines')
+      .selectAll()
+      .where('id', '=', draft.json.id)
+      .executeTakeFirstOrThrow();
     const strip = (value: any): any => {
       if (Array.isArray(value)) return value.map(strip);
       if (value === null || typeof value !== 'object') return value;
@@ -200,14 +235,19 @@ describe('the temperature form on record', () => {
     expect(savings.status).toBe(200);
     expect(savings.json.baselineContentHash).toBe(contentHash);
     expect(savings.json.temperatureForm).toBe('mean');
-    expect(savings.json.totals).toEqual(engineSavings(analyseBaseline(BASELINE, WEATHER, { temperatureForm: 'mean' })).totals); // the engine itself
+    expect(savings.json.totals).toEqual(
+      engineSavings(analyseBaseline(BASELINE, WEATHER, { temperatureForm: 'mean' })).totals,
+    ); // the engine itself
   });
 
   it('refuses an unknown form with a 400 naming the option, storing nothing', async () => {
     const meterId = await seedMeter();
     const problem = await expectRejected(
       () =>
-        api.call('POST', `/v1/meters/${meterId}/baselines`, { as: 'engineer', body: { ...WINDOW, options: { temperature: 'weekly' } } }),
+        api.call('POST', `/v1/meters/${meterId}/baselines`, {
+          as: 'engineer',
+          body: { ...WINDOW, options: { temperature: 'weekly' } },
+        }),
       400,
       'options.temperature',
     );
@@ -259,7 +299,11 @@ describe('a baseline too short to project from', () => {
     expect(frozen.json.warnings.join(' ')).toContain('frozen with a short-baseline override');
 
     // hand-worked: the documented hash payload, with overrides because the baseline carries one.
-    const row = await api.store.db.selectFrom('baselines').selectAll().where('id', '=', draftId).executeTakeFirstOrThrow();
+    const row = await api.store.db
+      .selectFrom('baselines')
+      .selectAll()
+      .where('id', '=', draftId)
+      .executeTakeFirstOrThrow();
     const payload = {
       meterId,
       start: SHORT_WINDOW.start,
@@ -273,9 +317,17 @@ describe('a baseline too short to project from', () => {
     expect(row.content_hash).toBe(sha256Hex(canonicalJson(payload)));
     expect((await api.call('GET', `/v1/baselines/${draftId}`)).json.verified).toBe(true);
     // Editing the override behind the API breaks the hash.
-    await api.store.db.updateTable('baselines').set({ short_baseline_override: 'something else' }).where('id', '=', draftId).execute();
+    await api.store.db
+      .updateTable('baselines')
+      .set({ short_baseline_override: 'something else' })
+      .where('id', '=', draftId)
+      .execute();
     expect((await api.call('GET', `/v1/baselines/${draftId}`)).json.verified).toBe(false);
-    await api.store.db.updateTable('baselines').set({ short_baseline_override: reason }).where('id', '=', draftId).execute();
+    await api.store.db
+      .updateTable('baselines')
+      .set({ short_baseline_override: reason })
+      .where('id', '=', draftId)
+      .execute();
 
     const audit = await api.store.db
       .selectFrom('audit_log')
@@ -350,13 +402,19 @@ describe('a report of a meter beyond the extrapolation limit without an override
     const meterId = await seedMeter();
     const draft = await api.call('POST', `/v1/meters/${meterId}/baselines`, { as: 'engineer', body: SHORT_WINDOW });
     expect(
-      (await freeze(draft.json.id, { note: 'Agreed (test)', overrides: { shortBaseline: { reason: 'Four months only (invented)' } } }))
-        .status,
+      (
+        await freeze(draft.json.id, {
+          note: 'Agreed (test)',
+          overrides: { shortBaseline: { reason: 'Four months only (invented)' } },
+        })
+      ).status,
     ).toBe(200);
     const report = await api.call('GET', '/v1/reports/savings?from=2025-01-01&to=2026-01-01', { as: 'analyst' });
     expect(report.status).toBe(200);
     const meter = report.json.facilities.flatMap((f: any) => f.meters).find((m: any) => m.id === meterId);
-    expect(meter.missing).toMatch(/^savings refused: the reporting weather lies outside what the baseline saw: .*the limit is 10\.0%/);
+    expect(meter.missing).toMatch(
+      /^savings refused: the reporting weather lies outside what the baseline saw: .*the limit is 10\.0%/,
+    );
     expect(meter.extrapolation.exceedsLimit).toBe(true);
     expect(report.json.notices.join('\n')).toContain('savings refused');
   });
@@ -385,13 +443,25 @@ describe('adjustments with their own ±', () => {
 
   it('stores, audits and returns the ±, and states it beside the model’s in savings and the report', async () => {
     // 6,100 over [03-01, 05-01), 61 days, ± 1,220 (one standard deviation of the total); wholly inside the reporting year.
-    const body = { start: '2025-03-01', end: '2025-05-01', quantity: 6100, reason: 'Temporary site office (invented)', uncertainty: 1220 };
+    const body = {
+      start: '2025-03-01',
+      end: '2025-05-01',
+      quantity: 6100,
+      reason: 'Temporary site office (invented)',
+      uncertainty: 1220,
+    };
     const created = await api.call('POST', `/v1/meters/${meterId}/adjustments`, { as: 'engineer', body });
     expect(created.status).toBe(201);
     expect(created.json.uncertainty).toBe(1220);
-    const audit = await api.store.db.selectFrom('audit_log').selectAll().where('entity_id', '=', created.json.id).executeTakeFirstOrThrow();
+    const audit = await api.store.db
+      .selectFrom('audit_log')
+      .selectAll()
+      .where('entity_id', '=', created.json.id)
+      .executeTakeFirstOrThrow();
     expect(JSON.parse(audit.after_json!).uncertainty).toBe(1220);
-    expect((await api.call('GET', `/v1/meters/${meterId}/adjustments`, { as: 'analyst' })).json.adjustments[0].uncertainty).toBe(1220);
+    expect(
+      (await api.call('GET', `/v1/meters/${meterId}/adjustments`, { as: 'analyst' })).json.adjustments[0].uncertainty,
+    ).toBe(1220);
 
     const savings = await api.call('GET', `/v1/meters/${meterId}/savings?confidence=0.9`, { as: 'analyst' });
     expect(savings.status).toBe(200);

@@ -34,14 +34,22 @@ async function seedMeter(): Promise<string> {
     body: { name: 'Invented ridge station', temperatureUnit: 'F' },
   });
   const observations = WEATHER.map((d) => ({ date: d.date, temp: d.temp }));
-  await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, { as: 'integration', body: { observations } });
-  const facility = await api.call('POST', '/v1/facilities', { as: 'engineer', body: { name: 'Test hall 3 (invented)' } });
+  await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, {
+    as: 'integration',
+    body: { observations },
+  });
+  const facility = await api.call('POST', '/v1/facilities', {
+    as: 'engineer',
+    body: { name: 'Test hall 3 (invented)' },
+  });
   const meter = await api.call('POST', `/v1/facilities/${facility.json.id}/meters`, {
     as: 'engineer',
     body: { name: 'Hall gas (invented)', fuel: 'natural-gas', unit: 'kWh', weatherStationId: station.json.id },
   });
   const readings = BASELINE.map((r) => ({ start: r.start, end: r.end, quantity: r.quantity }));
-  expect((await api.call('POST', `/v1/meters/${meter.json.id}/readings`, { as: 'integration', body: { readings } })).status).toBe(201);
+  expect(
+    (await api.call('POST', `/v1/meters/${meter.json.id}/readings`, { as: 'integration', body: { readings } })).status,
+  ).toBe(201);
   return meter.json.id;
 }
 
@@ -105,7 +113,10 @@ describe('exclusions when fitting a baseline (POST /v1/meters/{id}/baselines)', 
     ];
     for (const [exclusions, status, field] of cases) {
       const before = await databaseDigest(api.store.db);
-      const response = await api.call('POST', `/v1/meters/${meterId}/baselines`, { as: 'engineer', body: { ...WINDOW, exclusions } });
+      const response = await api.call('POST', `/v1/meters/${meterId}/baselines`, {
+        as: 'engineer',
+        body: { ...WINDOW, exclusions },
+      });
       expect(response.status, JSON.stringify(exclusions)).toBe(status);
       expect(response.json.detail).toContain(field);
       expect(await databaseDigest(api.store.db)).toBe(before);

@@ -21,7 +21,13 @@ import { CLIMATES, SAMPLE_BUILDING, dailyWeather, monthlyReadings, seededRandom 
 const random = seededRandom(11);
 const WEATHER = dailyWeather(CLIMATES.temperate, '2023-01-01', 1096, random);
 const BASELINE = monthlyReadings(SAMPLE_BUILDING, WEATHER, '2023-01-01', 24, random);
-const REPORTING = monthlyReadings({ ...SAMPLE_BUILDING, base: 255, heatingRate: 6.5 }, WEATHER, '2025-01-01', 12, random);
+const REPORTING = monthlyReadings(
+  { ...SAMPLE_BUILDING, base: 255, heatingRate: 6.5 },
+  WEATHER,
+  '2025-01-01',
+  12,
+  random,
+);
 const WINDOW = { start: '2023-01-01', end: '2025-01-01' };
 
 /** The CLI's fit --json document of the same data: the engine itself. */
@@ -35,7 +41,9 @@ function keyIdOf(role: Role): string {
 }
 
 /** A station with daily weather, a facility, and a meter with readings, all through the API. */
-async function seedMeter(options: { name?: string; weather?: boolean; readings?: readonly Reading[] } = {}): Promise<string> {
+async function seedMeter(
+  options: { name?: string; weather?: boolean; readings?: readonly Reading[] } = {},
+): Promise<string> {
   const station = await api.call('POST', '/v1/weather-stations', {
     as: 'engineer',
     body: { name: 'Invented valley station', temperatureUnit: 'F' },
@@ -44,17 +52,36 @@ async function seedMeter(options: { name?: string; weather?: boolean; readings?:
   if (options.weather ?? true) {
     const observations = WEATHER.map((d) => ({ date: d.date, temp: d.temp }));
     expect(
-      (await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, { as: 'integration', body: { observations } })).status,
+      (
+        await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, {
+          as: 'integration',
+          body: { observations },
+        })
+      ).status,
     ).toBe(200);
   }
-  const facility = await api.call('POST', '/v1/facilities', { as: 'engineer', body: { name: 'Test building 7 (invented)' } });
+  const facility = await api.call('POST', '/v1/facilities', {
+    as: 'engineer',
+    body: { name: 'Test building 7 (invented)' },
+  });
   const meter = await api.call('POST', `/v1/facilities/${facility.json.id}/meters`, {
     as: 'engineer',
-    body: { name: options.name ?? 'Main electric (invented)', fuel: 'electricity', unit: 'kWh', weatherStationId: station.json.id },
+    body: {
+      name: options.name ?? 'Main electric (invented)',
+      fuel: 'electricity',
+      unit: 'kWh',
+      weatherStationId: station.json.id,
+    },
   });
   expect(meter.status).toBe(201);
-  const readings = (options.readings ?? [...BASELINE, ...REPORTING]).map((r) => ({ start: r.start, end: r.end, quantity: r.quantity }));
-  expect((await api.call('POST', `/v1/meters/${meter.json.id}/readings`, { as: 'integration', body: { readings } })).status).toBe(201);
+  const readings = (options.readings ?? [...BASELINE, ...REPORTING]).map((r) => ({
+    start: r.start,
+    end: r.end,
+    quantity: r.quantity,
+  }));
+  expect(
+    (await api.call('POST', `/v1/meters/${meter.json.id}/readings`, { as: 'integration', body: { readings } })).status,
+  ).toBe(201);
   return meter.json.id;
 }
 
@@ -78,7 +105,11 @@ async function auditActions(baselineId: string): Promise<{ action: string; befor
 }
 
 /** Expect a 400/409/422 problem naming `field`, with nothing stored. */
-async function expectRejected(send: () => Promise<{ status: number; json: any }>, status: number, field: string): Promise<any> {
+async function expectRejected(
+  send: () => Promise<{ status: number; json: any }>,
+  status: number,
+  field: string,
+): Promise<any> {
   const before = await databaseDigest(api.store.db);
   const response = await send();
   expect(response.status).toBe(status);
@@ -117,7 +148,11 @@ describe('POST /v1/meters/{id}/baselines', () => {
     expect(body.fit).toEqual(engineFitJson()); // the engine itself (the CLI's fit --json of the same readings and weather)
     expect(body.fit.candidates.map((c: any) => c.model)).toEqual(['1P', '2P', '3PC', '3PH', '4P', '5P']);
 
-    const row = await api.store.db.selectFrom('baselines').selectAll().where('id', '=', body.id).executeTakeFirstOrThrow();
+    const row = await api.store.db
+      .selectFrom('baselines')
+      .selectAll()
+      .where('id', '=', body.id)
+      .executeTakeFirstOrThrow();
     const inputs = JSON.parse(row.inputs_json);
     expect(inputs.readings).toHaveLength(24); // synthetic: 24 baseline bills, the 12 reporting bills lie outside the window
     expect(inputs.weather).toHaveLength(731); // hand-worked: 2023-01-01..2025-01-01 is 365 + 366 days
@@ -139,7 +174,10 @@ describe('POST /v1/meters/{id}/baselines', () => {
   it('keeps NaN in the stored fit and answers it as null', async () => {
     // synthetic: a meter using exactly 100 kWh every day has zero residuals, so
     // R², t-statistics and the autocorrelation of the 1P fit are 0/0.
-    const flat = BASELINE.slice(0, 12).map((r) => ({ ...r, quantity: 100 * ((Date.parse(r.end) - Date.parse(r.start)) / 864e5) }));
+    const flat = BASELINE.slice(0, 12).map((r) => ({
+      ...r,
+      quantity: 100 * ((Date.parse(r.end) - Date.parse(r.start)) / 864e5),
+    }));
     const meterId = await seedMeter({ readings: flat });
     const response = await fitDraft(meterId, { start: '2023-01-01', end: '2024-01-01' });
     expect(response.status).toBe(201);
@@ -160,7 +198,11 @@ describe('POST /v1/meters/{id}/baselines', () => {
     expect(problem.errors[0].field).toBe('reading 2023-01-01..2023-02-01');
 
     const meterId = await seedMeter();
-    const empty = await expectRejected(() => fitDraft(meterId, { start: '2020-01-01', end: '2021-01-01' }), 422, 'start');
+    const empty = await expectRejected(
+      () => fitDraft(meterId, { start: '2020-01-01', end: '2021-01-01' }),
+      422,
+      'start',
+    );
     expect(empty.detail).toContain('no reading');
   });
 
@@ -180,9 +222,21 @@ describe('POST /v1/meters/{id}/baselines', () => {
     await expectRejected(() => fitDraft(meterId, { start: '2024-01-01', end: '2024-01-01' }), 400, 'end');
     await expectRejected(() => fitDraft(meterId, { start: '2024-02-30', end: '2025-01-01' }), 400, 'start');
     await expectRejected(() => fitDraft(meterId, { start: '2024/01/01', end: '2025-01-01' }), 400, 'start');
-    await expectRejected(() => fitDraft(meterId, { ...WINDOW, options: { minCoverage: 0.9, colour: 'red' } }), 400, 'options');
-    await expectRejected(() => fitDraft(meterId, { ...WINDOW, options: { minCoverage: 1.5 } }), 400, 'options.minCoverage');
-    await expectRejected(() => fitDraft(meterId, { ...WINDOW, options: { minPointsPerSegment: 2.5 } }), 400, 'options.minPointsPerSegment');
+    await expectRejected(
+      () => fitDraft(meterId, { ...WINDOW, options: { minCoverage: 0.9, colour: 'red' } }),
+      400,
+      'options',
+    );
+    await expectRejected(
+      () => fitDraft(meterId, { ...WINDOW, options: { minCoverage: 1.5 } }),
+      400,
+      'options.minCoverage',
+    );
+    await expectRejected(
+      () => fitDraft(meterId, { ...WINDOW, options: { minPointsPerSegment: 2.5 } }),
+      400,
+      'options.minPointsPerSegment',
+    );
     await expectRejected(() => fitDraft(meterId, { ...WINDOW, extra: 1 }), 400, 'extra');
   });
 });
@@ -226,7 +280,11 @@ describe('choosing and freezing', () => {
       400,
       'model',
     );
-    await expectRejected(() => api.call('POST', `/v1/baselines/${baselineId}/choose`, { body: { model: '2P' } }), 400, 'reason');
+    await expectRejected(
+      () => api.call('POST', `/v1/baselines/${baselineId}/choose`, { body: { model: '2P' } }),
+      400,
+      'reason',
+    );
     // synthetic: 3 bills cannot carry a 5P (p = 5), so it is not fitted.
     const small = await seedMeter({ readings: BASELINE.slice(0, 3) });
     const draft = await fitDraft(small, { start: '2023-01-01', end: '2023-04-01' });
@@ -253,7 +311,11 @@ describe('choosing and freezing', () => {
     expect(response.json.contentHash).toMatch(/^[0-9a-f]{64}$/);
 
     // hand-worked: the documented hash payload, rebuilt here from the row.
-    const row = await api.store.db.selectFrom('baselines').selectAll().where('id', '=', baselineId).executeTakeFirstOrThrow();
+    const row = await api.store.db
+      .selectFrom('baselines')
+      .selectAll()
+      .where('id', '=', baselineId)
+      .executeTakeFirstOrThrow();
     const payload = {
       meterId,
       start: WINDOW.start,
@@ -310,7 +372,11 @@ describe('choosing and freezing', () => {
       body: { note: 'Second baseline', supersedeReason: 'January 2023 bill was estimated' },
     });
     expect(frozen.status).toBe(200);
-    expect(frozen.json).toMatchObject({ status: 'frozen', supersedes: baselineId, supersedeReason: 'January 2023 bill was estimated' });
+    expect(frozen.json).toMatchObject({
+      status: 'frozen',
+      supersedes: baselineId,
+      supersedeReason: 'January 2023 bill was estimated',
+    });
 
     const previous = (await api.call('GET', `/v1/baselines/${baselineId}`)).json;
     expect(previous.status).toBe('superseded');
@@ -330,26 +396,36 @@ describe('choosing and freezing', () => {
       before: { status: 'frozen' },
       after: { status: 'superseded', supersededBy: draft.json.id },
     });
-    expect((await api.call('POST', `/v1/baselines/${baselineId}/freeze`, { body: { note: 'revive' } })).status).toBe(409);
+    expect((await api.call('POST', `/v1/baselines/${baselineId}/freeze`, { body: { note: 'revive' } })).status).toBe(
+      409,
+    );
   });
 
   it('refuses a supersedeReason when there is nothing to supersede', async () => {
     const other = await seedMeter();
     const draft = await fitDraft(other);
     await expectRejected(
-      () => api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { body: { note: 'n', supersedeReason: 'nothing' } }),
+      () =>
+        api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { body: { note: 'n', supersedeReason: 'nothing' } }),
       400,
       'supersedeReason',
     );
     await expectRejected(() => api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { body: {} }), 400, 'note');
-    await expectRejected(() => api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { body: { note: '  ' } }), 400, 'note');
+    await expectRejected(
+      () => api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { body: { note: '  ' } }),
+      400,
+      'note',
+    );
   });
 
   it('replays a freeze sent again with the same Idempotency-Key', async () => {
     const other = await seedMeter();
     const draft = await fitDraft(other);
     const send = () =>
-      api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { body: { note: 'Agreed' }, headers: { 'idempotency-key': 'freeze-7' } });
+      api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, {
+        body: { note: 'Agreed' },
+        headers: { 'idempotency-key': 'freeze-7' },
+      });
     const first = await send();
     expect(first.status).toBe(200);
     const digest = await databaseDigest(api.store.db);
@@ -369,7 +445,11 @@ describe('the content hash', () => {
     await api.call('POST', `/v1/baselines/${id}/freeze`, { body: { note: 'Agreed' } });
     expect((await api.call('GET', `/v1/baselines/${id}`)).json.verified).toBe(true);
 
-    const row = await api.store.db.selectFrom('baselines').select(['document_json']).where('id', '=', id).executeTakeFirstOrThrow();
+    const row = await api.store.db
+      .selectFrom('baselines')
+      .select(['document_json'])
+      .where('id', '=', id)
+      .executeTakeFirstOrThrow();
     const document = JSON.parse(row.document_json);
     document.candidates[0].reasons.push('edited behind the API');
     await api.store.db
@@ -396,7 +476,8 @@ describe('who may do what', () => {
     await expectRejected(() => fitDraft(meterId, WINDOW, 'analyst'), 403, 'ledger');
     await expectRejected(() => fitDraft(meterId, WINDOW, 'integration'), 403, 'ledger');
     await expectRejected(
-      () => api.call('POST', `/v1/baselines/${baselineId}/choose`, { as: 'analyst', body: { model: '1P', reason: 'x' } }),
+      () =>
+        api.call('POST', `/v1/baselines/${baselineId}/choose`, { as: 'analyst', body: { model: '1P', reason: 'x' } }),
       403,
       'ledger',
     );

@@ -7,7 +7,13 @@
  * falls by 700 kWh a day at weekends and 1,200 in breaks).
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { addDays, analyseBaseline, dayTypeSeries, dayTypesOver, type FacilityCalendar } from '../../src/engine/index.js';
+import {
+  addDays,
+  analyseBaseline,
+  dayTypeSeries,
+  dayTypesOver,
+  type FacilityCalendar,
+} from '../../src/engine/index.js';
 import { makeTestApi, type TestApi } from '../support/api.js';
 import { databaseDigest } from '../support/db-digest.js';
 import { seededRandom } from '../support/synthetic.js';
@@ -24,11 +30,18 @@ const CALENDAR: FacilityCalendar = {
 const random = seededRandom(91);
 const FROM = '2032-01-01';
 const TYPES = dayTypesOver(CALENDAR, FROM, '2033-03-01');
-const WEATHER = TYPES.map((_, d) => ({ date: addDays(FROM, d), temp: 50 - 21 * Math.cos((2 * Math.PI * d) / 366) + random.normal() * 4 }));
+const WEATHER = TYPES.map((_, d) => ({
+  date: addDays(FROM, d),
+  temp: 50 - 21 * Math.cos((2 * Math.PI * d) / 366) + random.normal() * 4,
+}));
 const READINGS = WEATHER.map((w, d) => ({
   start: w.date,
   end: addDays(w.date, 1),
-  quantity: 2600 + 35 * Math.max(57 - w.temp, 0) - (TYPES[d] === 'weekend' ? 700 : TYPES[d] === 'break' ? 1200 : 0) + random.normal() * 90,
+  quantity:
+    2600 +
+    35 * Math.max(57 - w.temp, 0) -
+    (TYPES[d] === 'weekend' ? 700 : TYPES[d] === 'break' ? 1200 : 0) +
+    random.normal() * 90,
 }));
 const WINDOW = { start: FROM, end: '2033-01-01' };
 
@@ -46,15 +59,31 @@ describe('facility calendars (PUT/GET /v1/facilities/{id}/calendar) and day type
       as: 'engineer',
       body: { name: 'Invented vale station', temperatureUnit: 'F' },
     });
-    await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, { as: 'integration', body: { observations: WEATHER } });
-    const facility = await api.call('POST', '/v1/facilities', { as: 'engineer', body: { name: 'Lower school (invented)' } });
+    await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, {
+      as: 'integration',
+      body: { observations: WEATHER },
+    });
+    const facility = await api.call('POST', '/v1/facilities', {
+      as: 'engineer',
+      body: { name: 'Lower school (invented)' },
+    });
     const facilityId = facility.json.id;
     const meter = await api.call('POST', `/v1/facilities/${facilityId}/meters`, {
       as: 'engineer',
-      body: { name: 'School electricity (invented)', fuel: 'electricity', unit: 'kWh', weatherStationId: station.json.id },
+      body: {
+        name: 'School electricity (invented)',
+        fuel: 'electricity',
+        unit: 'kWh',
+        weatherStationId: station.json.id,
+      },
     });
     expect(
-      (await api.call('POST', `/v1/meters/${meter.json.id}/readings`, { as: 'integration', body: { readings: READINGS } })).status,
+      (
+        await api.call('POST', `/v1/meters/${meter.json.id}/readings`, {
+          as: 'integration',
+          body: { readings: READINGS },
+        })
+      ).status,
     ).toBe(201);
 
     const noCalendar = await api.call('POST', `/v1/meters/${meter.json.id}/baselines`, {
@@ -67,15 +96,22 @@ describe('facility calendars (PUT/GET /v1/facilities/{id}/calendar) and day type
     const before = await databaseDigest(api.store.db);
     const overlapping = await api.call('PUT', `/v1/facilities/${facilityId}/calendar`, {
       as: 'engineer',
-      body: { ...CALENDAR, exceptions: [...CALENDAR.exceptions, { start: '2032-08-30', end: '2032-09-03', dayType: 'term' }] },
+      body: {
+        ...CALENDAR,
+        exceptions: [...CALENDAR.exceptions, { start: '2032-08-30', end: '2032-09-03', dayType: 'term' }],
+      },
     });
     expect(overlapping.status).toBe(400);
-    expect(overlapping.json.detail).toBe('exceptions[3]: 2032-08-30..2032-09-03 overlaps exceptions[0] 2032-07-01..2032-09-01');
+    expect(overlapping.json.detail).toBe(
+      'exceptions[3]: 2032-08-30..2032-09-03 overlaps exceptions[0] 2032-07-01..2032-09-01',
+    );
     expect(await databaseDigest(api.store.db)).toBe(before);
 
     const put = await api.call('PUT', `/v1/facilities/${facilityId}/calendar`, { as: 'engineer', body: CALENDAR });
     expect(put.status).toBe(200);
-    expect((await api.call('GET', `/v1/facilities/${facilityId}/calendar`, { as: 'analyst' })).json).toMatchObject(CALENDAR);
+    expect((await api.call('GET', `/v1/facilities/${facilityId}/calendar`, { as: 'analyst' })).json).toMatchObject(
+      CALENDAR,
+    );
 
     const fit = await api.call('POST', `/v1/meters/${meter.json.id}/baselines`, {
       as: 'engineer',
@@ -84,14 +120,25 @@ describe('facility calendars (PUT/GET /v1/facilities/{id}/calendar) and day type
     expect(fit.status).toBe(201);
     expect(fit.json.fit.variables).toEqual(['day type: weekend', 'day type: break']);
     const series = dayTypeSeries(CALENDAR, WINDOW.start, WINDOW.end);
-    const engine = analyseBaseline(READINGS.slice(0, 366), WEATHER, { variableSeries: series, variables: series.map((s) => s.name) });
+    const engine = analyseBaseline(READINGS.slice(0, 366), WEATHER, {
+      variableSeries: series,
+      variables: series.map((s) => s.name),
+    });
     const selected = fit.json.fit.candidates.find((c: { model: string }) => c.model === fit.json.selected);
-    expect(selected.sse).toBeCloseTo(engine.document.candidates.find((c) => c.model === engine.choice.selected)!.sse!, 4); // the engine itself
+    expect(selected.sse).toBeCloseTo(
+      engine.document.candidates.find((c) => c.model === engine.choice.selected)!.sse!,
+      4,
+    ); // the engine itself
     const weekend = selected.coefficients.find((c: { name: string }) => c.name === 'day type: weekend');
     expect(Math.abs(weekend.estimate + 700)).toBeLessThan(3 * weekend.standardError); // truth −700, set above
 
     expect(
-      (await api.call('POST', `/v1/baselines/${fit.json.id}/freeze`, { as: 'engineer', body: { note: 'M&V plan (invented)' } })).status,
+      (
+        await api.call('POST', `/v1/baselines/${fit.json.id}/freeze`, {
+          as: 'engineer',
+          body: { note: 'M&V plan (invented)' },
+        })
+      ).status,
     ).toBe(200);
     const moved = await api.call('PUT', `/v1/facilities/${facilityId}/calendar`, {
       as: 'engineer',
@@ -104,7 +151,10 @@ describe('facility calendars (PUT/GET /v1/facilities/{id}/calendar) and day type
     // A change after the frozen window is fine.
     const later = await api.call('PUT', `/v1/facilities/${facilityId}/calendar`, {
       as: 'engineer',
-      body: { ...CALENDAR, exceptions: [...CALENDAR.exceptions, { start: '2033-04-10', end: '2033-04-15', dayType: 'break' }] },
+      body: {
+        ...CALENDAR,
+        exceptions: [...CALENDAR.exceptions, { start: '2033-04-10', end: '2033-04-15', dayType: 'break' }],
+      },
     });
     expect(later.status).toBe(200);
 

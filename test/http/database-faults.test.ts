@@ -9,7 +9,14 @@
  */
 import { afterEach, describe, expect, it } from 'vitest';
 import type { FastifyInstance } from 'fastify';
-import { Kysely, PostgresAdapter, PostgresIntrospector, PostgresQueryCompiler, type DatabaseConnection, type Driver } from 'kysely';
+import {
+  Kysely,
+  PostgresAdapter,
+  PostgresIntrospector,
+  PostgresQueryCompiler,
+  type DatabaseConnection,
+  type Driver,
+} from 'kysely';
 import { buildApp } from '../../src/http/app.js';
 import type { Store } from '../../src/store/connect.js';
 import type { Database } from '../../src/store/schema.js';
@@ -56,7 +63,12 @@ async function answer(error: () => Error, url: string, method: 'GET' | 'POST' = 
     headers: { authorization: `Bearer ${KEY}`, ...(method === 'POST' ? { 'content-type': 'application/json' } : {}) },
     ...(method === 'POST' ? { payload: '{"name":"x"}' } : {}),
   });
-  return { status: response.statusCode, headers: response.headers, json: JSON.parse(response.body), text: response.body };
+  return {
+    status: response.statusCode,
+    headers: response.headers,
+    json: JSON.parse(response.body),
+    text: response.body,
+  };
 }
 
 describe('database faults over HTTP', () => {
@@ -69,28 +81,36 @@ describe('database faults over HTTP', () => {
     ],
     ['a connection that dropped', () => new Error('Connection terminated unexpectedly'), 'connection-lost', '2'],
     ['a refused connection', () => withCode('ECONNREFUSED', 'connect ECONNREFUSED 127.0.0.1:5432'), 'unreachable', '5'],
-    ['a server shutting down (57P03)', () => withCode('57P03', 'the database system is shutting down'), 'unreachable', '5'],
-  ])('answers %s with 503, Retry-After and problem+json, on reads and writes', async (_name, error, database, retryAfter) => {
-    for (const [method, url] of [
-      ['GET', '/v1/facilities'],
-      ['POST', '/v1/facilities'],
-    ] as const) {
-      const reply = await answer(error, url, method);
-      expect(reply.status, reply.text).toBe(503);
-      expect(reply.headers['content-type']).toMatch(/^application\/problem\+json/);
-      expect(reply.headers['retry-after']).toBe(retryAfter);
-      expect(reply.json).toMatchObject({
-        type: 'urn:mvledger:problem:unavailable',
-        title: 'Not available right now',
-        status: 503,
-        database,
-      });
-      expect(reply.text).not.toMatch(/Internal error|ECONNREFUSED|127\.0\.0\.1|administrator/);
-      if (method === 'POST') expect(reply.json.detail).toMatch(/stored whole or not at all/);
-      await app!.close();
-      app = undefined;
-    }
-  });
+    [
+      'a server shutting down (57P03)',
+      () => withCode('57P03', 'the database system is shutting down'),
+      'unreachable',
+      '5',
+    ],
+  ])(
+    'answers %s with 503, Retry-After and problem+json, on reads and writes',
+    async (_name, error, database, retryAfter) => {
+      for (const [method, url] of [
+        ['GET', '/v1/facilities'],
+        ['POST', '/v1/facilities'],
+      ] as const) {
+        const reply = await answer(error, url, method);
+        expect(reply.status, reply.text).toBe(503);
+        expect(reply.headers['content-type']).toMatch(/^application\/problem\+json/);
+        expect(reply.headers['retry-after']).toBe(retryAfter);
+        expect(reply.json).toMatchObject({
+          type: 'urn:mvledger:problem:unavailable',
+          title: 'Not available right now',
+          status: 503,
+          database,
+        });
+        expect(reply.text).not.toMatch(/Internal error|ECONNREFUSED|127\.0\.0\.1|administrator/);
+        if (method === 'POST') expect(reply.json.detail).toMatch(/stored whole or not at all/);
+        await app!.close();
+        app = undefined;
+      }
+    },
+  );
 
   it('answers a busy SQLite file with 503 and Retry-After: 1, as before', async () => {
     const reply = await answer(() => withCode('SQLITE_BUSY', 'database is locked'), '/v1/facilities');

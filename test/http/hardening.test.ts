@@ -84,7 +84,12 @@ describe('failed authentication, limited per address', () => {
     const app = await buildApp({ store: api.store, failedAuthenticationsPerMinute: 4 });
     try {
       const get = (token: string, remoteAddress: string) =>
-        app.inject({ method: 'GET', url: '/v1/facilities', remoteAddress, headers: { authorization: `Bearer ${token}` } });
+        app.inject({
+          method: 'GET',
+          url: '/v1/facilities',
+          remoteAddress,
+          headers: { authorization: `Bearer ${token}` },
+        });
       const forged = `mvl_AAAAAAAA_${'y'.repeat(40)}`;
       for (let i = 0; i < 4; i++) expect((await get(forged, '192.0.2.7')).statusCode).toBe(401);
       const limited = await get(api.keys.analyst, '192.0.2.7');

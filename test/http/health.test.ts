@@ -44,7 +44,10 @@ describe('health', () => {
     try {
       const kept = await api.call('GET', '/healthz', { as: 'none', headers: { 'x-request-id': 'probe-42' } });
       expect(kept.headers['x-request-id']).toBe('probe-42');
-      const replaced = await api.call('GET', '/healthz', { as: 'none', headers: { 'x-request-id': 'bad id with spaces' } });
+      const replaced = await api.call('GET', '/healthz', {
+        as: 'none',
+        headers: { 'x-request-id': 'bad id with spaces' },
+      });
       expect(replaced.headers['x-request-id']).not.toBe('bad id with spaces');
     } finally {
       await api.close();

@@ -20,7 +20,11 @@ beforeEach(async () => (api = await makeTestApi()));
 afterEach(async () => api.close());
 
 const deadHolder = () =>
-  formatHolder({ host: hostname(), pid: spawnSync(process.execPath, ['-e', ''], { stdio: 'ignore' }).pid!, startedAt: Date.now() - 1_000 });
+  formatHolder({
+    host: hostname(),
+    pid: spawnSync(process.execPath, ['-e', ''], { stdio: 'ignore' }).pid!,
+    startedAt: Date.now() - 1_000,
+  });
 const liveHolder = () => formatHolder({ host: hostname(), pid: process.ppid, startedAt: Date.now() });
 const farHolder = () => formatHolder({ host: 'another-host', pid: 12345, startedAt: Date.now() });
 
@@ -65,7 +69,12 @@ describe('a key in flight under a holder', () => {
     await leftInFlight('start-live', liveHolder());
     await leftInFlight('start-far', farHolder());
     expect(await releaseKeysOfGoneHolders(api.store.db, holderIsGone)).toBe(1);
-    const left = await api.store.db.selectFrom('idempotency_keys').select('key').where('status_code', 'is', null).orderBy('key').execute();
+    const left = await api.store.db
+      .selectFrom('idempotency_keys')
+      .select('key')
+      .where('status_code', 'is', null)
+      .orderBy('key')
+      .execute();
     expect(left.map((row) => row.key)).toEqual(['start-far', 'start-live']);
   });
 });

@@ -13,7 +13,9 @@ let stationId: string;
 beforeAll(async () => {
   api = await makeTestApi();
   facilityId = (await api.call('POST', '/v1/facilities', { body: { name: 'Meadowlark Library (invented)' } })).json.id;
-  stationId = (await api.call('POST', '/v1/weather-stations', { body: { name: 'Invented Field Station', temperatureUnit: 'F' } })).json.id;
+  stationId = (
+    await api.call('POST', '/v1/weather-stations', { body: { name: 'Invented Field Station', temperatureUnit: 'F' } })
+  ).json.id;
 });
 afterAll(async () => api.close());
 
@@ -27,7 +29,10 @@ const meterBody = (overrides: Record<string, unknown> = {}) => ({
 
 describe('meters', () => {
   it('adds a meter to a facility and reads it back', async () => {
-    const created = await api.call('POST', `/v1/facilities/${facilityId}/meters`, { as: 'engineer', body: meterBody() });
+    const created = await api.call('POST', `/v1/facilities/${facilityId}/meters`, {
+      as: 'engineer',
+      body: meterBody(),
+    });
     expect(created.status).toBe(201); // contract
     expect(created.json).toMatchObject({
       facilityId,
@@ -48,7 +53,16 @@ describe('meters', () => {
 
   it('takes every fuel of the list', async () => {
     // contract: the fuel enum of the issue
-    for (const fuel of ['electricity', 'natural-gas', 'fuel-oil', 'propane', 'district-heat', 'district-cooling', 'water', 'other']) {
+    for (const fuel of [
+      'electricity',
+      'natural-gas',
+      'fuel-oil',
+      'propane',
+      'district-heat',
+      'district-cooling',
+      'water',
+      'other',
+    ]) {
       const response = await api.call('POST', `/v1/facilities/${facilityId}/meters`, {
         body: meterBody({ name: `${fuel} meter`, fuel, unit: 'GJ' }),
       });
@@ -70,7 +84,11 @@ describe('meters', () => {
     { why: 'an empty unit', body: () => meterBody({ unit: ' ' }), field: 'unit' },
     { why: 'no unit', body: () => ({ name: 'M', fuel: 'water', weatherStationId: stationId }), field: 'unit' },
     { why: 'no weather station', body: () => ({ name: 'M', fuel: 'water', unit: 'm3' }), field: 'weatherStationId' },
-    { why: 'an unknown weather station', body: () => meterBody({ weatherStationId: 'wst_missing' }), field: 'weatherStationId' },
+    {
+      why: 'an unknown weather station',
+      body: () => meterBody({ weatherStationId: 'wst_missing' }),
+      field: 'weatherStationId',
+    },
   ];
   for (const c of invalid) {
     it(`refuses ${c.why} with 400 naming the field, and stores nothing`, async () => {
@@ -85,9 +103,13 @@ describe('meters', () => {
 
   it("refuses another organisation's weather station and answers 404 for its facility and meters", async () => {
     const theirStation = (
-      await api.call('POST', '/v1/weather-stations', { as: 'other', body: { name: 'Their Station', temperatureUnit: 'C' } })
+      await api.call('POST', '/v1/weather-stations', {
+        as: 'other',
+        body: { name: 'Their Station', temperatureUnit: 'C' },
+      })
     ).json.id;
-    const theirFacility = (await api.call('POST', '/v1/facilities', { as: 'other', body: { name: 'Their Site' } })).json.id;
+    const theirFacility = (await api.call('POST', '/v1/facilities', { as: 'other', body: { name: 'Their Site' } })).json
+      .id;
     const theirMeter = await api.call('POST', `/v1/facilities/${theirFacility}/meters`, {
       as: 'other',
       body: meterBody({ weatherStationId: theirStation }),
@@ -96,7 +118,11 @@ describe('meters', () => {
 
     const before = await databaseDigest(api.store.db);
     expect(
-      (await api.call('POST', `/v1/facilities/${facilityId}/meters`, { body: meterBody({ weatherStationId: theirStation }) })).status,
+      (
+        await api.call('POST', `/v1/facilities/${facilityId}/meters`, {
+          body: meterBody({ weatherStationId: theirStation }),
+        })
+      ).status,
     ).toBe(400);
     expect((await api.call('POST', `/v1/facilities/${theirFacility}/meters`, { body: meterBody() })).status).toBe(404); // contract: other organisation's ids are 404
     expect(await databaseDigest(api.store.db)).toBe(before);
@@ -106,7 +132,9 @@ describe('meters', () => {
   });
 
   it('is refused to roles without the permission', async () => {
-    expect((await api.call('POST', `/v1/facilities/${facilityId}/meters`, { as: 'analyst', body: meterBody() })).status).toBe(403); // analyst lacks ledger
+    expect(
+      (await api.call('POST', `/v1/facilities/${facilityId}/meters`, { as: 'analyst', body: meterBody() })).status,
+    ).toBe(403); // analyst lacks ledger
     expect((await api.call('GET', `/v1/facilities/${facilityId}/meters`, { as: 'integration' })).status).toBe(403); // integration lacks read
   });
 });

@@ -18,7 +18,12 @@ let api: TestApi;
 let meterId: string;
 let stationId: string;
 
-async function ok(method: 'POST' | 'PUT', url: string, body: unknown, status = method === 'POST' ? 201 : 200): Promise<any> {
+async function ok(
+  method: 'POST' | 'PUT',
+  url: string,
+  body: unknown,
+  status = method === 'POST' ? 201 : 200,
+): Promise<any> {
   const reply = await api.call(method, url, { as: 'engineer', body });
   expect(reply.status, `${method} ${url}: ${reply.text}`).toBe(status);
   return reply.json;
@@ -53,7 +58,9 @@ describe('a window whose readings lack weather answered 422 "no reporting data"'
     const reply = await api.call('GET', '/v1/reports/savings?quarter=2025-Q1', { as: 'analyst' });
     expect(reply.status).toBe(422);
     expect(reply.headers['content-type']).toMatch(/problem\+json/);
-    expect(reply.json.detail).toContain(`missing weather for dates 2025-01-01..2025-04-01 (90 days) at weather station ${stationId}`); // synthetic
+    expect(reply.json.detail).toContain(
+      `missing weather for dates 2025-01-01..2025-04-01 (90 days) at weather station ${stationId}`,
+    ); // synthetic
     expect(reply.json.errors[0]).toMatchObject({
       field: expect.stringContaining(meterId),
       message: expect.stringMatching(/^missing weather/),
@@ -62,8 +69,12 @@ describe('a window whose readings lack weather answered 422 "no reporting data"'
   });
 
   it('names them in the meter savings 422 too', async () => {
-    const reply = await api.call('GET', `/v1/meters/${meterId}/savings?from=2025-01-01&to=2025-04-01`, { as: 'analyst' });
+    const reply = await api.call('GET', `/v1/meters/${meterId}/savings?from=2025-01-01&to=2025-04-01`, {
+      as: 'analyst',
+    });
     expect(reply.status).toBe(422);
-    expect(reply.json.detail).toContain(`missing weather for dates 2025-01-01..2025-04-01 (90 days) at weather station ${stationId}`); // synthetic
+    expect(reply.json.detail).toContain(
+      `missing weather for dates 2025-01-01..2025-04-01 (90 days) at weather station ${stationId}`,
+    ); // synthetic
   });
 });

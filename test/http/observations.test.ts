@@ -22,15 +22,37 @@ async function makeStation(target: TestApi, temperatureUnit: 'F' | 'C'): Promise
 }
 
 /** A meter on the station with a baseline row written straight to the table (the baselines API is not under test here). */
-async function frozenBaselineOn(target: TestApi, station: string, id: string, start: string, end: string): Promise<void> {
+async function frozenBaselineOn(
+  target: TestApi,
+  station: string,
+  id: string,
+  start: string,
+  end: string,
+): Promise<void> {
   const ctx = {
     store: target.store,
-    principal: { keyId: parseApiKey(target.keys.admin)!.id, organisationId: target.organisationId, role: 'admin' as const },
+    principal: {
+      keyId: parseApiKey(target.keys.admin)!.id,
+      organisationId: target.organisationId,
+      role: 'admin' as const,
+    },
     now: '2026-01-01T00:00:00.000Z',
   };
   const facility = await createFacility(ctx, { name: 'School building B2 (invented)' });
-  const meter = await createMeter(ctx, facility.id, { name: 'Gas', fuel: 'natural gas', unit: 'therm', weatherStationId: station });
-  await insertBareBaseline(target.store.db, { id, organisationId: target.organisationId, meterId: meter.id, start, end, status: 'frozen' });
+  const meter = await createMeter(ctx, facility.id, {
+    name: 'Gas',
+    fuel: 'natural gas',
+    unit: 'therm',
+    weatherStationId: station,
+  });
+  await insertBareBaseline(target.store.db, {
+    id,
+    organisationId: target.organisationId,
+    meterId: meter.id,
+    start,
+    end,
+    status: 'frozen',
+  });
 }
 
 async function refused(method: 'PUT' | 'GET', path: string, options: Parameters<TestApi['call']>[2]) {
@@ -85,7 +107,14 @@ describe('PUT /v1/weather-stations/{id}/observations', () => {
     const put = await api.call('PUT', url, { csv: 'Date,TMin,TMax\n2025-01-03,20,31\n' });
     expect(put.status).toBe(200);
     const listed = await api.call('GET', url);
-    expect(listed.json.observations[2]).toEqual({ date: '2025-01-03', temp: 25.5, tmin: 20, tmax: 31, filled: null, fillNote: null }); // hand-worked: (20 + 31) / 2
+    expect(listed.json.observations[2]).toEqual({
+      date: '2025-01-03',
+      temp: 25.5,
+      tmin: 20,
+      tmax: 31,
+      filled: null,
+      fillNote: null,
+    }); // hand-worked: (20 + 31) / 2
   });
 
   it('upserts by date: unchanged days store nothing, changed days are updated and audited compactly', async () => {
@@ -119,7 +148,10 @@ describe('PUT /v1/weather-stations/{id}/observations', () => {
     expect(last.entity_type).toBe('weather-station');
     expect(last.entity_id).toBe(stationId);
     expect(JSON.parse(last.before_json!)).toEqual({ '2025-01-02': { temp: 31 } });
-    expect(JSON.parse(last.after_json!)).toEqual({ '2025-01-02': { temp: 30, tmin: 25, tmax: 35 }, '2025-01-03': { temp: 29 } }); // hand-worked mean (25 + 35) / 2
+    expect(JSON.parse(last.after_json!)).toEqual({
+      '2025-01-02': { temp: 30, tmin: 25, tmax: 35 },
+      '2025-01-03': { temp: 29 },
+    }); // hand-worked mean (25 + 35) / 2
   });
 
   it.each([
@@ -152,16 +184,25 @@ describe('PUT /v1/weather-stations/{id}/observations', () => {
       },
     });
     expect(response.status).toBe(400);
-    expect(response.json.errors[0]).toEqual({ field: 'observations[1].date', message: 'repeats the date 2025-01-01 (observations[0])' });
+    expect(response.json.errors[0]).toEqual({
+      field: 'observations[1].date',
+      message: 'repeats the date 2025-01-01 (observations[0])',
+    });
   });
 
   it("judges plausibility in the station's own unit", async () => {
     const celsius = `/v1/weather-stations/${await makeStation(api, 'C')}/observations`;
     // hand-worked: 140 °F = 60 °C, the engine's upper bound; 61 °C is past it, 59 °C inside.
-    expect((await refused('PUT', celsius, { body: { observations: [{ date: '2025-07-01', temp: 61 }] } })).status).toBe(400);
-    expect((await api.call('PUT', celsius, { body: { observations: [{ date: '2025-07-01', temp: 59 }] } })).status).toBe(200);
+    expect((await refused('PUT', celsius, { body: { observations: [{ date: '2025-07-01', temp: 61 }] } })).status).toBe(
+      400,
+    );
+    expect(
+      (await api.call('PUT', celsius, { body: { observations: [{ date: '2025-07-01', temp: 59 }] } })).status,
+    ).toBe(200);
     // The same 61 is an ordinary summer day in °F.
-    expect((await api.call('PUT', url, { body: { observations: [{ date: '2025-07-01', temp: 61 }] } })).status).toBe(200);
+    expect((await api.call('PUT', url, { body: { observations: [{ date: '2025-07-01', temp: 61 }] } })).status).toBe(
+      200,
+    );
   });
 
   it.each([
@@ -180,7 +221,9 @@ describe('PUT /v1/weather-stations/{id}/observations', () => {
   });
 
   it("answers 404 for another organisation's station", async () => {
-    expect((await refused('PUT', url, { as: 'other', body: { observations: [{ date: '2025-01-01', temp: 30 }] } })).status).toBe(404);
+    expect(
+      (await refused('PUT', url, { as: 'other', body: { observations: [{ date: '2025-01-01', temp: 30 }] } })).status,
+    ).toBe(404);
     expect((await api.call('GET', url, { as: 'other' })).status).toBe(404);
   });
 
@@ -245,7 +288,9 @@ describe('frozen baseline windows', () => {
   it('ignores baselines of meters on other stations', async () => {
     const elsewhere = await makeStation(api, 'F');
     await frozenBaselineOn(api, elsewhere, 'bsl_elsewhere', '2024-01-01', '2024-02-01');
-    expect((await api.call('PUT', url, { body: { observations: [{ date: '2024-01-10', temp: 25 }] } })).status).toBe(200);
+    expect((await api.call('PUT', url, { body: { observations: [{ date: '2024-01-10', temp: 25 }] } })).status).toBe(
+      200,
+    );
   });
 });
 

@@ -36,11 +36,15 @@ describe('the OpenAPI document had "Default Response", no operationIds, unstated
         stdio: ['ignore', 'pipe', 'ignore'],
       },
     );
-    const result = JSON.parse(output) as { totals: { errors: number }; problems: { ruleId: string; location: { pointer: string }[] }[] };
+    const result = JSON.parse(output) as {
+      totals: { errors: number };
+      problems: { ruleId: string; location: { pointer: string }[] }[];
+    };
     expect(result.totals.errors).toBe(0);
     // Allowed: the health probes take no input, so they have no 4xx answer; the package is unlicensed, so its licence has no URL.
     const allowed = (p: { ruleId: string; location: { pointer: string }[] }) =>
-      (p.ruleId === 'operation-4xx-response' && /~1(healthz|readyz)/.test(p.location[0]!.pointer)) || p.ruleId === 'info-license-strict';
+      (p.ruleId === 'operation-4xx-response' && /~1(healthz|readyz)/.test(p.location[0]!.pointer)) ||
+      p.ruleId === 'info-license-strict';
     expect(result.problems.filter((p) => !allowed(p)).map((p) => `${p.ruleId} ${p.location[0]?.pointer}`)).toEqual([]);
   }, 60_000);
 

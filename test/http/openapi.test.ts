@@ -9,7 +9,11 @@ import { formatOpenApi, OPENAPI_FILE } from '../../src/http/openapi/document.js'
 import { makeTestApi, type TestApi } from '../support/api.js';
 
 type Operation = { tags?: string[]; summary?: string; security?: unknown[]; responses?: Record<string, unknown> };
-type Document = { openapi: string; paths: Record<string, Record<string, Operation>>; components?: { schemas?: Record<string, unknown> } };
+type Document = {
+  openapi: string;
+  paths: Record<string, Record<string, Operation>>;
+  components?: { schemas?: Record<string, unknown> };
+};
 
 const METHODS = ['get', 'post', 'put', 'patch', 'delete'];
 
@@ -74,7 +78,9 @@ describe('the OpenAPI document', () => {
       }
     };
     walk(document.paths);
-    const defined = new Set(Object.keys(document.components?.schemas ?? {}).map((name) => `#/components/schemas/${name}`));
+    const defined = new Set(
+      Object.keys(document.components?.schemas ?? {}).map((name) => `#/components/schemas/${name}`),
+    );
     expect([...refs].filter((ref) => !defined.has(ref)).sort()).toEqual([]);
   });
 

@@ -19,10 +19,14 @@ const DAYS = 2_345; // synthetic: more than two default pages of daily readings
 
 beforeAll(async () => {
   api = await makeTestApi();
-  stationId = (await api.call('POST', '/v1/weather-stations', { body: { name: 'Paging station (invented)', temperatureUnit: 'C' } })).json
-    .id;
+  stationId = (
+    await api.call('POST', '/v1/weather-stations', {
+      body: { name: 'Paging station (invented)', temperatureUnit: 'C' },
+    })
+  ).json.id;
   facilityId = (await api.call('POST', '/v1/facilities', { body: { name: 'Paging depot (invented)' } })).json.id;
-  for (const name of ['Second depot (invented)', 'Third depot (invented)']) await api.call('POST', '/v1/facilities', { body: { name } });
+  for (const name of ['Second depot (invented)', 'Third depot (invented)'])
+    await api.call('POST', '/v1/facilities', { body: { name } });
   meterId = (
     await api.call('POST', `/v1/facilities/${facilityId}/meters`, {
       body: { name: 'Paging meter (invented)', fuel: 'electricity', unit: 'kWh', weatherStationId: stationId },
@@ -35,7 +39,9 @@ beforeAll(async () => {
   }));
   expect((await api.call('POST', `/v1/meters/${meterId}/readings`, { body: { readings } })).status).toBe(201);
   const observations = Array.from({ length: 1500 }, (_, d) => ({ date: addDays('2020-01-01', d), temp: (d % 30) - 5 }));
-  expect((await api.call('PUT', `/v1/weather-stations/${stationId}/observations`, { body: { observations } })).status).toBe(200);
+  expect(
+    (await api.call('PUT', `/v1/weather-stations/${stationId}/observations`, { body: { observations } })).status,
+  ).toBe(200);
   // Adjustments need a frozen baseline to be posted; for listing, rows straight into the store will do.
   for (let i = 0; i < 3; i++) {
     const start = addDays('2021-01-01', 40 * i);
@@ -114,10 +120,16 @@ describe('lists in pages', () => {
   it('every other list pages the same way', async () => {
     const observations = await walk(`/v1/weather-stations/${stationId}/observations`, 'observations', 400);
     expect(observations.pages).toBe(4);
-    expect(observations.rows.map((o) => o.date)).toEqual(Array.from({ length: 1500 }, (_, d) => addDays('2020-01-01', d)));
+    expect(observations.rows.map((o) => o.date)).toEqual(
+      Array.from({ length: 1500 }, (_, d) => addDays('2020-01-01', d)),
+    );
 
     const facilities = await walk('/v1/facilities', 'facilities', 2);
-    expect(facilities.rows.map((f) => f.name)).toEqual(['Paging depot (invented)', 'Second depot (invented)', 'Third depot (invented)']);
+    expect(facilities.rows.map((f) => f.name)).toEqual([
+      'Paging depot (invented)',
+      'Second depot (invented)',
+      'Third depot (invented)',
+    ]);
     expect(facilities.pages).toBe(2);
 
     expect((await walk('/v1/weather-stations', 'stations', 1)).rows.map((s) => s.id)).toEqual([stationId]);

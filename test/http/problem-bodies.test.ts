@@ -30,7 +30,12 @@ function normalise(value: unknown): unknown {
   return JSON.parse(text);
 }
 
-const requests: { name: string; method: 'GET' | 'POST' | 'PUT' | 'DELETE'; url: () => string; options?: () => CallOptions }[] = [];
+const requests: {
+  name: string;
+  method: 'GET' | 'POST' | 'PUT' | 'DELETE';
+  url: () => string;
+  options?: () => CallOptions;
+}[] = [];
 let m = '';
 let bare = '';
 let station = '';
@@ -42,16 +47,23 @@ let adminKeyId = '';
 beforeAll(async () => {
   api = await makeTestApi();
   station = remember(
-    (await api.call('POST', '/v1/weather-stations', { body: { name: 'Invented vale station', temperatureUnit: 'F' } })).json.id,
+    (await api.call('POST', '/v1/weather-stations', { body: { name: 'Invented vale station', temperatureUnit: 'F' } }))
+      .json.id,
     'station',
   );
   await api.call('PUT', `/v1/weather-stations/${station}/observations`, {
     body: { observations: WEATHER.map((d) => ({ date: d.date, temp: d.temp })) },
   });
-  facility = remember((await api.call('POST', '/v1/facilities', { body: { name: 'Invented depot' } })).json.id, 'facility');
+  facility = remember(
+    (await api.call('POST', '/v1/facilities', { body: { name: 'Invented depot' } })).json.id,
+    'facility',
+  );
   const meterBody = { name: 'Invented main', fuel: 'electricity', unit: 'kWh', weatherStationId: station };
   m = remember((await api.call('POST', `/v1/facilities/${facility}/meters`, { body: meterBody })).json.id, 'meter');
-  bare = remember((await api.call('POST', `/v1/facilities/${facility}/meters`, { body: meterBody })).json.id, 'bare-meter');
+  bare = remember(
+    (await api.call('POST', `/v1/facilities/${facility}/meters`, { body: meterBody })).json.id,
+    'bare-meter',
+  );
   await api.call('POST', `/v1/meters/${m}/readings`, {
     body: { readings: BILLS.map((r) => ({ start: r.start, end: r.end, quantity: r.quantity })) },
   });
@@ -96,7 +108,12 @@ requests.push(
   { name: 'baseline not found', method: 'GET', url: () => '/v1/baselines/bsl_missing' },
   { name: 'station not found', method: 'GET', url: () => '/v1/weather-stations/wst_missing' },
   { name: 'no key', method: 'GET', url: () => '/v1/facilities', options: () => ({ as: 'none' }) },
-  { name: 'role lacks permission', method: 'POST', url: () => '/v1/facilities', options: () => ({ as: 'analyst', body: { name: 'X' } }) },
+  {
+    name: 'role lacks permission',
+    method: 'POST',
+    url: () => '/v1/facilities',
+    options: () => ({ as: 'analyst', body: { name: 'X' } }),
+  },
   { name: 'schema: facility without name', method: 'POST', url: () => '/v1/facilities', options: () => ({ body: {} }) },
   {
     name: 'meter with an unknown station',
@@ -110,9 +127,18 @@ requests.push(
     url: () => `/v1/meters/${m}/readings`,
     options: () => ({ body: { readings: [{ start: '2023-01-05', end: '2023-02-05', quantity: 10 }] } }),
   },
-  { name: 'readings: empty batch', method: 'POST', url: () => `/v1/meters/${m}/readings`, options: () => ({ body: { readings: [] } }) },
+  {
+    name: 'readings: empty batch',
+    method: 'POST',
+    url: () => `/v1/meters/${m}/readings`,
+    options: () => ({ body: { readings: [] } }),
+  },
   { name: 'readings query: bad date', method: 'GET', url: () => `/v1/meters/${m}/readings?from=2023-02-30` },
-  { name: 'readings query: to before from', method: 'GET', url: () => `/v1/meters/${m}/readings?from=2024-01-01&to=2023-01-01` },
+  {
+    name: 'readings query: to before from',
+    method: 'GET',
+    url: () => `/v1/meters/${m}/readings?from=2024-01-01&to=2023-01-01`,
+  },
   {
     name: 'baseline window backwards',
     method: 'POST',
@@ -148,7 +174,9 @@ requests.push(
     name: 'adjustment with quantity and perDay',
     method: 'POST',
     url: () => `/v1/meters/${m}/adjustments`,
-    options: () => ({ body: { start: '2024-03-01', end: '2024-04-01', quantity: 100, perDay: 3, reason: 'Both given' } }),
+    options: () => ({
+      body: { start: '2024-03-01', end: '2024-04-01', quantity: 100, perDay: 3, reason: 'Both given' },
+    }),
   },
   {
     name: 'adjustment inside the baseline',
@@ -194,7 +222,12 @@ requests.push(
     method: 'PUT',
     url: () => `/v1/facilities/${facility}/contract`,
     options: () => ({
-      body: { start: '2025-01-01', years: 2, energyUnit: 'kWh', guarantees: [{ year: 3, energy: 10 }, { year: 1 }, { year: 1, cost: 5 }] },
+      body: {
+        start: '2025-01-01',
+        years: 2,
+        energyUnit: 'kWh',
+        guarantees: [{ year: 3, energy: 10 }, { year: 1 }, { year: 1, cost: 5 }],
+      },
     }),
   },
   {
@@ -232,10 +265,18 @@ requests.push(
   },
   { name: 'revoke the calling key', method: 'DELETE', url: () => `/v1/api-keys/${adminKeyId}` },
   { name: 'report: no window', method: 'GET', url: () => '/v1/reports/savings' },
-  { name: 'report: quarter and range', method: 'GET', url: () => '/v1/reports/savings?quarter=2024-Q1&from=2024-01-01&to=2024-02-01' },
+  {
+    name: 'report: quarter and range',
+    method: 'GET',
+    url: () => '/v1/reports/savings?quarter=2024-Q1&from=2024-01-01&to=2024-02-01',
+  },
   { name: 'report: range backwards', method: 'GET', url: () => '/v1/reports/savings?from=2024-02-01&to=2024-01-01' },
   { name: 'report: contract year without a contract', method: 'GET', url: () => '/v1/reports/savings?contractYear=1' },
-  { name: 'report: unknown facility', method: 'GET', url: () => '/v1/reports/savings?quarter=2024-Q1&facilityId=fac_missing' },
+  {
+    name: 'report: unknown facility',
+    method: 'GET',
+    url: () => '/v1/reports/savings?quarter=2024-Q1&facilityId=fac_missing',
+  },
 );
 
 it('answers each failing request with the same problem+json body as before', async () => {

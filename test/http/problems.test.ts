@@ -19,7 +19,12 @@ afterAll(async () => api.close());
 function expectProblem(response: ApiResponse, status: number): void {
   expect(response.status).toBe(status);
   expect(response.headers['content-type']).toMatch(/^application\/problem\+json/); // RFC 9457 §3
-  expect(response.json).toMatchObject({ type: expect.any(String), title: expect.any(String), status, detail: expect.any(String) });
+  expect(response.json).toMatchObject({
+    type: expect.any(String),
+    title: expect.any(String),
+    status,
+    detail: expect.any(String),
+  });
   expect(response.json.detail.length).toBeGreaterThan(0);
   // No stack traces or source paths in a body (common practice).
   expect(response.text).not.toMatch(/\n\s+at |\bat .+:\d+:\d+|\.ts:\d+|node_modules|stack/);
@@ -50,7 +55,10 @@ describe('problem+json for every kind of error', () => {
       url: '/v1/facilities',
       headers: { authorization: `Bearer ${api.keys.admin}`, 'content-type': 'application/json' },
     });
-    expectProblem({ status: response.statusCode, headers: response.headers, text: response.body, json: response.json() }, 400);
+    expectProblem(
+      { status: response.statusCode, headers: response.headers, text: response.body, json: response.json() },
+      400,
+    );
   });
 
   it('answers a content type the route does not take with 415', async () => {
@@ -60,7 +68,10 @@ describe('problem+json for every kind of error', () => {
       headers: { 'content-type': 'application/x-www-form-urlencoded' },
     });
     expectProblem(response, 415);
-    expectProblem(await api.call('POST', '/v1/facilities', { body: '<facility/>', headers: { 'content-type': 'application/xml' } }), 415);
+    expectProblem(
+      await api.call('POST', '/v1/facilities', { body: '<facility/>', headers: { 'content-type': 'application/xml' } }),
+      415,
+    );
     expect(await databaseDigest(api.store.db)).toBe(before);
   });
 
@@ -90,9 +101,18 @@ describe('a body over the size limit', () => {
   const LIMIT = 256; // synthetic: the test sets the limit
 
   beforeAll(async () => {
-    const organisation = await createOrganisation(api.store.db, 'Small Bodies Ltd (invented)', '2026-01-01T00:00:00.000Z');
+    const organisation = await createOrganisation(
+      api.store.db,
+      'Small Bodies Ltd (invented)',
+      '2026-01-01T00:00:00.000Z',
+    );
     token = (
-      await createKey(api.store.db, { organisationId: organisation.id, name: 'admin', role: 'admin', at: '2026-01-01T00:00:00.000Z' })
+      await createKey(api.store.db, {
+        organisationId: organisation.id,
+        name: 'admin',
+        role: 'admin',
+        at: '2026-01-01T00:00:00.000Z',
+      })
     ).token;
     app = await buildApp({ store: api.store, bodyLimit: LIMIT });
   });
@@ -107,7 +127,10 @@ describe('a body over the size limit', () => {
       headers: { authorization: `Bearer ${token}`, 'content-type': 'application/json' },
       payload: big,
     });
-    expectProblem({ status: response.statusCode, headers: response.headers, text: response.body, json: response.json() }, 413);
+    expectProblem(
+      { status: response.statusCode, headers: response.headers, text: response.body, json: response.json() },
+      413,
+    );
     expect(response.json().detail).toContain(String(LIMIT));
     expect(await databaseDigest(api.store.db)).toBe(before);
 

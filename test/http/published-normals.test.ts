@@ -9,7 +9,13 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { makeTestApi, type TestApi } from '../support/api.js';
 import { databaseDigest } from '../support/db-digest.js';
 import { verifyAllAuditChains } from '../../src/store/audit.js';
-import { NORMALS_ID, normalsAccessCsv, normalsArchiveCsv, normalsDays, normalsValues } from '../station-archives/fixtures.js';
+import {
+  NORMALS_ID,
+  normalsAccessCsv,
+  normalsArchiveCsv,
+  normalsDays,
+  normalsValues,
+} from '../station-archives/fixtures.js';
 
 let api: TestApi;
 
@@ -36,7 +42,10 @@ describe('POST /v1/weather-stations/{id}/normal-year/from-published-normals', ()
     const stored = await api.call('POST', path(id), asText(normalsAccessCsv()));
     expect(stored.status).toBe(200);
     expect(stored.json.days).toHaveLength(365);
-    expect(stored.json.days[59]).toEqual({ day: '03-01', temp: Number(normalsValues(normalsDays().indexOf('03-01')).tavg) }); // synthetic
+    expect(stored.json.days[59]).toEqual({
+      day: '03-01',
+      temp: Number(normalsValues(normalsDays().indexOf('03-01')).tavg),
+    }); // synthetic
     expect(stored.json.source).toBe(
       `published daily normals (noaa-daily-normals-csv) of station ${NORMALS_ID}: DLY-TAVG-NORMAL on every day; 02-29 left out; in °F`,
     );
@@ -55,7 +64,8 @@ describe('POST /v1/weather-stations/{id}/normal-year/from-published-normals', ()
     const id = await station('C', 'North station (invented)');
     const file = normalsArchiveCsv({
       change: (day, cells) => {
-        if (day === '01-01') Object.assign(cells, { 'DLY-TAVG-NORMAL': '-9999.0', 'DLY-TMAX-NORMAL': '55.0', 'DLY-TMIN-NORMAL': '45.0' });
+        if (day === '01-01')
+          Object.assign(cells, { 'DLY-TAVG-NORMAL': '-9999.0', 'DLY-TMAX-NORMAL': '55.0', 'DLY-TMIN-NORMAL': '45.0' });
       },
     });
     const stored = await api.call('POST', path(id, `format=noaa-daily-normals-csv&station=${NORMALS_ID}`), {
@@ -76,9 +86,17 @@ describe('POST /v1/weather-stations/{id}/normal-year/from-published-normals', ()
     const answer = await api.call('POST', path(id), asText(bad));
     expect(answer.status).toBe(400);
     const line = normalsDays().indexOf('04-02') + 2;
-    expect(answer.json.detail).toBe(`noaa-daily-normals-csv file, line ${line}, column 8 (DLY-TAVG-NORMAL): must be a number, got "n/a"`);
-    expect(answer.json.errors).toEqual([{ field: `line ${line}, column 8 (DLY-TAVG-NORMAL)`, message: 'must be a number, got "n/a"' }]);
-    const otherStation = await api.call('POST', path(id, 'format=noaa-daily-normals-csv&station=ZZC00000001'), asText(normalsAccessCsv()));
+    expect(answer.json.detail).toBe(
+      `noaa-daily-normals-csv file, line ${line}, column 8 (DLY-TAVG-NORMAL): must be a number, got "n/a"`,
+    );
+    expect(answer.json.errors).toEqual([
+      { field: `line ${line}, column 8 (DLY-TAVG-NORMAL)`, message: 'must be a number, got "n/a"' },
+    ]);
+    const otherStation = await api.call(
+      'POST',
+      path(id, 'format=noaa-daily-normals-csv&station=ZZC00000001'),
+      asText(normalsAccessCsv()),
+    );
     expect(otherStation.status).toBe(400);
     expect(otherStation.json.detail).toMatch(
       /column 1 \(STATION\): station id ZZC00054321 does not match the expected station ZZC00000001$/,

@@ -76,10 +76,14 @@ describe('a key over its limit', () => {
     const before = await databaseDigest(api.store.db);
     const write = { method: 'POST', url: '/v1/facilities', payload: { name: 'Refused Hall (invented)' } } as const;
     await expectRateLimited(await limited.inject(as('engineer', write)));
-    await expectRateLimited(await limited.inject(as('engineer', { ...write, headers: { 'idempotency-key': 'over-the-limit' } })));
+    await expectRateLimited(
+      await limited.inject(as('engineer', { ...write, headers: { 'idempotency-key': 'over-the-limit' } })),
+    );
     expect(await databaseDigest(api.store.db)).toBe(before); // no facility, no audit row, no idempotency key
     // The same write by another key of the organisation goes through.
-    expect((await limited.inject(as('admin', { ...write, headers: { 'idempotency-key': 'over-the-limit' } }))).statusCode).toBe(201);
+    expect(
+      (await limited.inject(as('admin', { ...write, headers: { 'idempotency-key': 'over-the-limit' } }))).statusCode,
+    ).toBe(201);
   });
 
   it('is not limited at all when no limit is set', async () => {
@@ -113,12 +117,16 @@ describe('requests without a key', () => {
     const limited = await limitedApp();
     const forged = `Bearer mvl_${api.keys.analyst.split('_')[1]}_${'z'.repeat(40)}`;
     for (let i = 0; i < 2 * LIMIT; i++) {
-      expect((await limited.inject({ method: 'GET', url: '/v1/facilities', headers: { authorization: forged } })).statusCode).toBe(401);
+      expect(
+        (await limited.inject({ method: 'GET', url: '/v1/facilities', headers: { authorization: forged } })).statusCode,
+      ).toBe(401);
     }
     // Neither the address nor the real key was charged for them.
-    expect((await limited.inject({ method: 'GET', url: '/openapi.json' })).headers['x-ratelimit-remaining']).toBe(String(LIMIT - 1));
-    expect((await limited.inject(as('analyst', { method: 'GET', url: '/v1/facilities' }))).headers['x-ratelimit-remaining']).toBe(
+    expect((await limited.inject({ method: 'GET', url: '/openapi.json' })).headers['x-ratelimit-remaining']).toBe(
       String(LIMIT - 1),
     );
+    expect(
+      (await limited.inject(as('analyst', { method: 'GET', url: '/v1/facilities' }))).headers['x-ratelimit-remaining'],
+    ).toBe(String(LIMIT - 1));
   });
 });

@@ -18,10 +18,16 @@ let url: string;
 async function makeMeter(target: TestApi): Promise<string> {
   const ctx = {
     store: target.store,
-    principal: { keyId: parseApiKey(target.keys.admin)!.id, organisationId: target.organisationId, role: 'admin' as const },
+    principal: {
+      keyId: parseApiKey(target.keys.admin)!.id,
+      organisationId: target.organisationId,
+      role: 'admin' as const,
+    },
     now: '2026-01-01T00:00:00.000Z',
   };
-  const station = await target.call('POST', '/v1/weather-stations', { body: { name: 'Station S1 (invented)', temperatureUnit: 'F' } });
+  const station = await target.call('POST', '/v1/weather-stations', {
+    body: { name: 'Station S1 (invented)', temperatureUnit: 'F' },
+  });
   const facility = await createFacility(ctx, { name: 'Depot D1 (invented)' });
   const meter = await createMeter(ctx, facility.id, {
     name: 'Main supply',
@@ -41,7 +47,14 @@ async function insertBaseline(
   status: BaselineStatus,
 ): Promise<void> {
   // Written straight to the table: the baselines API is not what is under test here.
-  await insertBareBaseline(target.store.db, { id, organisationId: target.organisationId, meterId: meter, start, end, status });
+  await insertBareBaseline(target.store.db, {
+    id,
+    organisationId: target.organisationId,
+    meterId: meter,
+    start,
+    end,
+    status,
+  });
 }
 
 const BILLS = [
@@ -87,9 +100,33 @@ describe('POST /v1/meters/{id}/readings', () => {
       unit: 'kWh',
       readings: [
         // days hand-worked from the calendar: January 31, February 2025 28, March 31; id: the period (the API's rule).
-        { id: '2025-01-01..2025-02-01', start: '2025-01-01', end: '2025-02-01', days: 31, quantity: 31000, estimated: false, cost: null },
-        { id: '2025-02-01..2025-03-01', start: '2025-02-01', end: '2025-03-01', days: 28, quantity: 27500, estimated: true, cost: null },
-        { id: '2025-03-01..2025-04-01', start: '2025-03-01', end: '2025-04-01', days: 31, quantity: 26000, estimated: false, cost: 4160.5 },
+        {
+          id: '2025-01-01..2025-02-01',
+          start: '2025-01-01',
+          end: '2025-02-01',
+          days: 31,
+          quantity: 31000,
+          estimated: false,
+          cost: null,
+        },
+        {
+          id: '2025-02-01..2025-03-01',
+          start: '2025-02-01',
+          end: '2025-03-01',
+          days: 28,
+          quantity: 27500,
+          estimated: true,
+          cost: null,
+        },
+        {
+          id: '2025-03-01..2025-04-01',
+          start: '2025-03-01',
+          end: '2025-04-01',
+          days: 31,
+          quantity: 26000,
+          estimated: false,
+          cost: 4160.5,
+        },
       ],
       limit: 1000, // the stated default page size
       nextCursor: null, // one page holds them all
@@ -97,15 +134,18 @@ describe('POST /v1/meters/{id}/readings', () => {
   });
 
   it('stores a CSV batch with optional columns', async () => {
-    const csv = 'start,end,quantity,estimated,cost\n2025-01-01,2025-02-01,31000,no,\n2025-02-01,2025-03-01,27500,yes,3980.25\n';
+    const csv =
+      'start,end,quantity,estimated,cost\n2025-01-01,2025-02-01,31000,no,\n2025-02-01,2025-03-01,27500,yes,3980.25\n';
     const posted = await api.call('POST', url, { csv });
     expect(posted.status).toBe(201);
     expect(posted.json.created).toBe(2); // synthetic: two rows sent
     const listed = await api.call('GET', url);
-    expect(listed.json.readings.map((r: { estimated: boolean; cost: number | null }) => [r.estimated, r.cost])).toEqual([
-      [false, null], // synthetic: "no" and an empty cost cell
-      [true, 3980.25], // synthetic: "yes" and the cost sent
-    ]);
+    expect(listed.json.readings.map((r: { estimated: boolean; cost: number | null }) => [r.estimated, r.cost])).toEqual(
+      [
+        [false, null], // synthetic: "no" and an empty cost cell
+        [true, 3980.25], // synthetic: "yes" and the cost sent
+      ],
+    );
   });
 
   it('counts an identical re-post as unchanged, answers 200 and stores nothing', async () => {
@@ -229,7 +269,11 @@ describe('POST /v1/meters/{id}/readings', () => {
     await api.call('POST', url, { body: { readings: [BILLS[0]] } });
     const csv = 'start,end,quantity\n2025-01-01,2025-02-01,30990\n';
     expect((await refused('POST', url, { csv })).status).toBe(409);
-    const corrected = await api.call('POST', `${url}?correctionReason=${encodeURIComponent('estimated bill replaced by actual')}`, { csv });
+    const corrected = await api.call(
+      'POST',
+      `${url}?correctionReason=${encodeURIComponent('estimated bill replaced by actual')}`,
+      { csv },
+    );
     expect(corrected.status).toBe(201);
     expect(corrected.json.corrected).toBe(1); // synthetic: one reading changed
   });
@@ -293,7 +337,11 @@ describe('POST /v1/meters/{id}/readings', () => {
   it.each([
     ['an unknown column', 'start,end,quantity,tariff\n2025-01-01,2025-02-01,5,A\n', 'row 1'],
     ['a missing column', 'start,end\n2025-01-01,2025-02-01\n', 'row 1'],
-    ['an impossible date', 'start,end,quantity\n2025-01-01,2025-02-01,5\n2025-02-01,2025-02-30,5\n', 'row 3, field end'],
+    [
+      'an impossible date',
+      'start,end,quantity\n2025-01-01,2025-02-01,5\n2025-02-01,2025-02-30,5\n',
+      'row 3, field end',
+    ],
     [
       'a quantity that is not a number',
       'start,end,quantity\n2025-01-01,2025-02-01,5\n2025-02-01,2025-03-01,12kWh\n',
@@ -302,7 +350,11 @@ describe('POST /v1/meters/{id}/readings', () => {
     ['NaN', 'start,end,quantity\n2025-01-01,2025-02-01,NaN\n', 'row 2, field quantity'],
     ['a negative quantity', 'start,end,quantity\n2025-01-01,2025-02-01,-3\n', 'row 2, field quantity'],
     ['end before start', 'start,end,quantity\n2025-02-01,2025-01-01,3\n', 'row 2, field end'],
-    ['an overlap between rows', 'start,end,quantity\n2025-01-01,2025-02-01,3\n2025-01-10,2025-02-10,3\n', 'row 3, field start'],
+    [
+      'an overlap between rows',
+      'start,end,quantity\n2025-01-01,2025-02-01,3\n2025-01-10,2025-02-10,3\n',
+      'row 3, field start',
+    ],
   ])('refuses CSV with %s, naming the row', async (_what, csv, field) => {
     const response = await refused('POST', url, { csv });
     expect(response.status).toBe(400);
@@ -311,14 +363,18 @@ describe('POST /v1/meters/{id}/readings', () => {
   });
 
   it('names the other CSV row of an overlap by its row', async () => {
-    const response = await refused('POST', url, { csv: 'start,end,quantity\n2025-01-01,2025-02-01,3\n2025-01-10,2025-02-10,3\n' });
+    const response = await refused('POST', url, {
+      csv: 'start,end,quantity\n2025-01-01,2025-02-01,3\n2025-01-10,2025-02-10,3\n',
+    });
     expect(response.json.errors[0].message).toContain('row 2'); // synthetic: the first data row is line 2
   });
 
   it("answers 404 for another organisation's meter", async () => {
     expect((await refused('POST', url, { as: 'other', body: { readings: BILLS } })).status).toBe(404);
     expect((await api.call('GET', url, { as: 'other' })).status).toBe(404);
-    expect((await refused('POST', '/v1/meters/mtr_nonexistent/readings', { body: { readings: BILLS } })).status).toBe(404);
+    expect((await refused('POST', '/v1/meters/mtr_nonexistent/readings', { body: { readings: BILLS } })).status).toBe(
+      404,
+    );
   });
 
   it('lets integration keys post and refuses analysts', async () => {
@@ -361,15 +417,18 @@ describe('frozen baseline windows', () => {
 
   it('refuses a period straddling the window end, and accepts one starting on it (end exclusive)', async () => {
     // hand-worked: [2024-12-15, 2025-01-15) meets [2024-01-01, 2025-01-01); [2025-01-01, …) does not.
-    expect((await refused('POST', url, { body: { readings: [{ start: '2024-12-15', end: '2025-01-15', quantity: 5 }] } })).status).toBe(
-      409,
-    );
-    expect((await api.call('POST', url, { body: { readings: [{ start: '2025-01-01', end: '2025-02-01', quantity: 5 }] } })).status).toBe(
-      201,
-    );
-    expect((await api.call('POST', url, { body: { readings: [{ start: '2023-12-01', end: '2024-01-01', quantity: 5 }] } })).status).toBe(
-      201,
-    );
+    expect(
+      (await refused('POST', url, { body: { readings: [{ start: '2024-12-15', end: '2025-01-15', quantity: 5 }] } }))
+        .status,
+    ).toBe(409);
+    expect(
+      (await api.call('POST', url, { body: { readings: [{ start: '2025-01-01', end: '2025-02-01', quantity: 5 }] } }))
+        .status,
+    ).toBe(201);
+    expect(
+      (await api.call('POST', url, { body: { readings: [{ start: '2023-12-01', end: '2024-01-01', quantity: 5 }] } }))
+        .status,
+    ).toBe(201);
   });
 
   it('refuses a correction inside the window even with a reason, but allows an identical re-post', async () => {

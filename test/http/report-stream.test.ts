@@ -23,7 +23,9 @@ beforeAll(async () => {
     archetypesPerStation: 2,
     seed: 5,
   });
-  token = (await createKey(api.store.db, { organisationId, name: 'analyst', role: 'analyst', at: '2026-01-20T00:00:00.000Z' })).token;
+  token = (
+    await createKey(api.store.db, { organisationId, name: 'analyst', role: 'analyst', at: '2026-01-20T00:00:00.000Z' })
+  ).token;
 }, 120_000);
 
 afterAll(() => api.close());
@@ -112,8 +114,12 @@ describe('the whole report’s HTML above the meter limit', () => {
       .execute();
     const whole = await api.call('GET', '/v1/reports/savings?quarter=2025-Q3&format=html', { as: 'other' });
     expect(whole.status).toBe(422);
-    expect(whole.json.detail).toMatch(/has 201 meters; above 200 the HTML report is made per facility: give facilityId/);
-    const perFacility = await api.call('GET', '/v1/reports/savings?quarter=2025-Q3&format=html&facilityId=fac_many', { as: 'other' });
+    expect(whole.json.detail).toMatch(
+      /has 201 meters; above 200 the HTML report is made per facility: give facilityId/,
+    );
+    const perFacility = await api.call('GET', '/v1/reports/savings?quarter=2025-Q3&format=html&facilityId=fac_many', {
+      as: 'other',
+    });
     // Past the size check: refused only because the facility's meters have no data.
     expect(perFacility.status).toBe(422);
     expect(perFacility.json.detail).toMatch(/no meter of facility fac_many has reporting data/);

@@ -20,13 +20,24 @@ import { CLIMATES, SAMPLE_BUILDING, dailyWeather, monthlyReadings, seededRandom 
 const random = seededRandom(41);
 const WEATHER = dailyWeather(CLIMATES.temperate, '2023-01-01', 1461, random);
 const BASELINE = monthlyReadings(SAMPLE_BUILDING, WEATHER, '2023-01-01', 24, random);
-const REPORTING = monthlyReadings({ ...SAMPLE_BUILDING, base: 255, heatingRate: 6.5 }, WEATHER, '2025-01-01', 24, random);
+const REPORTING = monthlyReadings(
+  { ...SAMPLE_BUILDING, base: 255, heatingRate: 6.5 },
+  WEATHER,
+  '2025-01-01',
+  24,
+  random,
+);
 const GAS_REPORTING = monthlyReadings({ ...SAMPLE_BUILDING, base: 270 }, WEATHER, '2025-01-01', 24, random);
 const ENGINE = analyseBaseline(BASELINE, WEATHER);
 const FIT = ENGINE.choice.candidates.find((c) => c.model === ENGINE.choice.selected)!.fit!;
 
 /** hand-worked: 2025-06-01..2025-09-01 is 30 + 31 + 31 = 92 days at 50 kWh a day = 4,600 kWh. */
-const ADJUSTMENT = { start: '2025-06-01', end: '2025-09-01', perDay: 50, reason: 'New server room <added> in the east wing (test)' };
+const ADJUSTMENT = {
+  start: '2025-06-01',
+  end: '2025-09-01',
+  perDay: 50,
+  reason: 'New server room <added> in the east wing (test)',
+};
 const KWH_TO_MMBTU = 3412.14 / 1e6; // the brief's standard value, 1 kWh = 3,412.14 Btu
 const KWH_TO_GJ = 3412.14 / 947_817; // the brief's standard values, 1 GJ = 947,817 Btu
 
@@ -38,7 +49,12 @@ let electricId: string;
 let gasId: string;
 let waterId: string;
 
-async function ok(method: 'POST' | 'PUT', url: string, body: unknown, status = method === 'POST' ? 201 : 200): Promise<any> {
+async function ok(
+  method: 'POST' | 'PUT',
+  url: string,
+  body: unknown,
+  status = method === 'POST' ? 201 : 200,
+): Promise<any> {
   const reply = await api.call(method, url, { as: 'engineer', body });
   expect(reply.status, `${method} ${url}: ${reply.text}`).toBe(status);
   return reply.json;
@@ -99,7 +115,10 @@ beforeAll(async () => {
     ],
   });
   await ok('POST', `/v1/meters/${electricId}/adjustments`, ADJUSTMENT);
-  await ok('PUT', `/v1/weather-stations/${stationId}/normal-year`, { source: 'Invented 30-year mean (test)', days: normalYear() });
+  await ok('PUT', `/v1/weather-stations/${stationId}/normal-year`, {
+    source: 'Invented 30-year mean (test)',
+    days: normalYear(),
+  });
 });
 afterAll(async () => {
   await api.close();
@@ -120,10 +139,25 @@ describe('GET /v1/reports/savings', () => {
 
     // the engine on the same data, model and adjustment
     const year1 = REPORTING.slice(0, 12);
-    const engine = savingsFromFit(FIT, { limits: ENGINE.choice.settings.guideline14, excluded: ENGINE.excluded }, year1, WEATHER, {
-      confidence: 0.9,
-      adjustments: [{ id: 'a', start: ADJUSTMENT.start, end: ADJUSTMENT.end, quantity: null, perDay: ADJUSTMENT.perDay, reason: 'r' }],
-    });
+    const engine = savingsFromFit(
+      FIT,
+      { limits: ENGINE.choice.settings.guideline14, excluded: ENGINE.excluded },
+      year1,
+      WEATHER,
+      {
+        confidence: 0.9,
+        adjustments: [
+          {
+            id: 'a',
+            start: ADJUSTMENT.start,
+            end: ADJUSTMENT.end,
+            quantity: null,
+            perDay: ADJUSTMENT.perDay,
+            reason: 'r',
+          },
+        ],
+      },
+    );
     expect(m.energy.savings).toBeCloseTo(engine.totals.savings, 6);
     expect(m.energy.adjustments).toBeCloseTo(4600, 9); // hand-worked: 92 days × 50
     expect(m.energy.adjustedBaseline).toBeCloseTo(m.energy.modelBaseline + 4600, 6);
@@ -131,7 +165,9 @@ describe('GET /v1/reports/savings', () => {
       Math.max(engine.totals.uncertainty.guideline14.absolute, engine.totals.uncertainty.exact.absolute),
       6,
     );
-    expect(m.adjustments).toEqual([expect.objectContaining({ reason: ADJUSTMENT.reason, perDay: 50, appliedInWindow: 4600 })]);
+    expect(m.adjustments).toEqual([
+      expect.objectContaining({ reason: ADJUSTMENT.reason, perDay: 50, appliedInWindow: 4600 }),
+    ]);
     expect(m.periods).toHaveLength(12);
     // hand-worked: one flat rate of 0.10 USD/kWh, so cost avoided = 0.1 × savings
     expect(m.cost.avoided).toBeCloseTo(0.1 * m.energy.savings, 6);
@@ -189,7 +225,8 @@ describe('GET /v1/reports/savings', () => {
     const v = inRollup.map((m: any) => ({ value: m.common.MMBtu.uncertainty, station: m.weatherStationId }));
     let variance = 0;
     for (const a of v)
-      for (const b of v) variance += a === b ? a.value ** 2 : (a.station === b.station ? within : across) * a.value * b.value;
+      for (const b of v)
+        variance += a === b ? a.value ** 2 : (a.station === b.station ? within : across) * a.value * b.value;
     expect(body.portfolio.totals.MMBtu.savings).toBeCloseTo(total, 9);
     expect(body.portfolio.totals.MMBtu.uncertainty).toBeCloseTo(Math.sqrt(variance), 9);
     expect(body.portfolio.totals.MMBtu.uncertainty).toBeGreaterThanOrEqual(
@@ -201,7 +238,11 @@ describe('GET /v1/reports/savings', () => {
     // a quarter is too short for a reporting-period model: said, not guessed
     expect(meters[0].normalised).toEqual({ available: false, reason: expect.stringMatching(/at least 330/) });
     // the plant's contract year 1 is not over at the end of Q3
-    expect(body.facilities[0].guarantees[0]).toMatchObject({ contractYear: 1, measuredThrough: '2025-10-01', complete: false });
+    expect(body.facilities[0].guarantees[0]).toMatchObject({
+      contractYear: 1,
+      measuredThrough: '2025-10-01',
+      complete: false,
+    });
     expect(body.facilities[0].guarantees[0].cumulative).toHaveLength(9);
   });
 
@@ -227,7 +268,9 @@ describe('GET /v1/reports/savings', () => {
     expect(c.text).toContain(contentHash);
     expect(c.text.split('\r\n')[0]).toMatch(/^record,facility_id,facility,meter_id/);
     // the CSV states the same totals as the JSON
-    const portfolioRow = c.text.split('\r\n').find((line) => line.startsWith('portfolio,') && line.includes(',MMBtu,'))!;
+    const portfolioRow = c.text
+      .split('\r\n')
+      .find((line) => line.startsWith('portfolio,') && line.includes(',MMBtu,'))!;
     const cells = portfolioRow.split(',');
     const savingsColumn = c.text.split('\r\n')[0]!.split(',').indexOf('savings');
     expect(Number(cells[savingsColumn])).toBeCloseTo(a.json.portfolio.totals.MMBtu.savings, 5);
@@ -288,9 +331,15 @@ describe('GET /v1/reports/savings', () => {
 
 describe('GET /v1/reports/savings over generated windows (fast-check, fixed seed)', () => {
   it('answers every well-formed window with a report whose hash verifies, or a 4xx problem; never 5xx', async () => {
-    const isoDay = fc.integer({ min: 0, max: 6 * 365 }).map((d) => new Date(Date.UTC(2022, 0, 1 + d)).toISOString().slice(0, 10));
+    const isoDay = fc
+      .integer({ min: 0, max: 6 * 365 })
+      .map((d) => new Date(Date.UTC(2022, 0, 1 + d)).toISOString().slice(0, 10));
     const window = fc.oneof(
-      fc.record({ quarter: fc.tuple(fc.integer({ min: 2022, max: 2027 }), fc.integer({ min: 1, max: 4 })).map(([y, q]) => `${y}-Q${q}`) }),
+      fc.record({
+        quarter: fc
+          .tuple(fc.integer({ min: 2022, max: 2027 }), fc.integer({ min: 1, max: 4 }))
+          .map(([y, q]) => `${y}-Q${q}`),
+      }),
       fc.record({ contractYear: fc.integer({ min: 1, max: 4 }) }),
       fc.tuple(isoDay, isoDay).map(([a, b]) => ({ from: a < b ? a : b, to: a < b ? b : a })),
     );
@@ -306,7 +355,9 @@ describe('GET /v1/reports/savings over generated windows (fast-check, fixed seed
     const seen = new Map<number, number>();
     await fc.assert(
       fc.asyncProperty(query, async ({ window, ...rest }) => {
-        const params = new URLSearchParams(Object.entries({ ...window, ...rest }).map(([k, v]): [string, string] => [k, String(v)]));
+        const params = new URLSearchParams(
+          Object.entries({ ...window, ...rest }).map(([k, v]): [string, string] => [k, String(v)]),
+        );
         const reply = await report(params.toString());
         seen.set(reply.status, (seen.get(reply.status) ?? 0) + 1);
         expect(reply.status, `${params}: ${reply.text.slice(0, 200)}`).toBeLessThan(500);
@@ -326,7 +377,14 @@ describe('GET /v1/reports/savings over generated windows (fast-check, fixed seed
 });
 
 describe('adjustments, rates, contracts and normal years refuse bad input and store nothing', () => {
-  const refused = async (method: 'POST' | 'PUT', url: string, body: unknown, status: number, detail: RegExp, csv?: string) => {
+  const refused = async (
+    method: 'POST' | 'PUT',
+    url: string,
+    body: unknown,
+    status: number,
+    detail: RegExp,
+    csv?: string,
+  ) => {
     const before = await databaseDigest(api.store.db);
     const reply = await api.call(method, url, { as: 'engineer', ...(csv === undefined ? { body } : { csv }) });
     expect(reply.status, reply.text).toBe(status);
@@ -390,7 +448,13 @@ describe('adjustments, rates, contracts and normal years refuse bad input and st
     };
     await refused('PUT', `/v1/meters/${electricId}/rates`, overlap, 400, /rates\[1\]/);
     await refused('PUT', `/v1/meters/${electricId}/rates`, { currency: 'usd', rates: [] }, 400, /currency/);
-    await refused('PUT', `/v1/meters/${electricId}/rates`, { currency: 'USD', rates: [{ from: '2025-01-01', price: -1 }] }, 400, /price/);
+    await refused(
+      'PUT',
+      `/v1/meters/${electricId}/rates`,
+      { currency: 'USD', rates: [{ from: '2025-01-01', price: -1 }] },
+      400,
+      /price/,
+    );
   });
 
   it('refuses a contract with a guarantee beyond its years, a repeated year, an unknown energy unit or a cost without currency', async () => {
@@ -415,7 +479,13 @@ describe('adjustments, rates, contracts and normal years refuse bad input and st
       400,
       /guaranteed twice/,
     );
-    await refused('PUT', `/v1/facilities/${annexId}/contract`, { ...base, energyUnit: 'm3', guarantees: [] }, 400, /energyUnit/);
+    await refused(
+      'PUT',
+      `/v1/facilities/${annexId}/contract`,
+      { ...base, energyUnit: 'm3', guarantees: [] },
+      400,
+      /energyUnit/,
+    );
     await refused(
       'PUT',
       `/v1/facilities/${annexId}/contract`,
@@ -427,7 +497,13 @@ describe('adjustments, rates, contracts and normal years refuse bad input and st
 
   it('refuses a normal year with a missing day or a leap day, and takes one as CSV with its source header', async () => {
     const days = normalYear();
-    await refused('PUT', `/v1/weather-stations/${stationId}/normal-year`, { source: 'Short (test)', days: days.slice(1) }, 400, /01-01/);
+    await refused(
+      'PUT',
+      `/v1/weather-stations/${stationId}/normal-year`,
+      { source: 'Short (test)', days: days.slice(1) },
+      400,
+      /01-01/,
+    );
     await refused(
       'PUT',
       `/v1/weather-stations/${stationId}/normal-year`,
@@ -457,7 +533,9 @@ describe('adjustments, rates, contracts and normal years refuse bad input and st
       quantity: 560,
       reason: 'Recorded on the wrong meter (test)',
     });
-    const before = (await api.call('GET', `/v1/meters/${gasId}/savings?from=2026-02-01&to=2026-03-02`, { as: 'analyst' })).json;
+    const before = (
+      await api.call('GET', `/v1/meters/${gasId}/savings?from=2026-02-01&to=2026-03-02`, { as: 'analyst' })
+    ).json;
     expect(before.totals.adjustments).toBeCloseTo(560, 9); // hand-worked: the whole of February lies in the window
     const withdrawn = await api.call('POST', `/v1/adjustments/${created.id}/withdraw`, {
       as: 'engineer',
@@ -465,13 +543,27 @@ describe('adjustments, rates, contracts and normal years refuse bad input and st
     });
     expect(withdrawn.status, withdrawn.text).toBe(200);
     expect(withdrawn.json.withdrawn).toMatchObject({ reason: 'Belongs to another meter (test)' });
-    const after = (await api.call('GET', `/v1/meters/${gasId}/savings?from=2026-02-01&to=2026-03-02`, { as: 'analyst' })).json;
+    const after = (
+      await api.call('GET', `/v1/meters/${gasId}/savings?from=2026-02-01&to=2026-03-02`, { as: 'analyst' })
+    ).json;
     expect(after.totals.adjustments).toBe(0);
     expect(after.totals.savings).toBeCloseTo(before.totals.savings - 560, 6);
     const listed = (await api.call('GET', `/v1/meters/${gasId}/adjustments`, { as: 'analyst' })).json.adjustments;
     expect(listed.find((a: any) => a.id === created.id).withdrawn).not.toBeNull();
-    await refused('POST', `/v1/adjustments/${created.id}/withdraw`, { reason: 'Again (test)' }, 409, /already withdrawn/);
-    await refused('POST', `/v1/adjustments/adj_unknown/withdraw`, { reason: 'Nothing (test)' }, 404, /adjustment adj_unknown/);
+    await refused(
+      'POST',
+      `/v1/adjustments/${created.id}/withdraw`,
+      { reason: 'Again (test)' },
+      409,
+      /already withdrawn/,
+    );
+    await refused(
+      'POST',
+      `/v1/adjustments/adj_unknown/withdraw`,
+      { reason: 'Nothing (test)' },
+      404,
+      /adjustment adj_unknown/,
+    );
     // its days are free again
     await ok('POST', `/v1/meters/${gasId}/adjustments`, {
       start: '2026-02-01',
@@ -494,7 +586,9 @@ describe('adjustments, rates, contracts and normal years refuse bad input and st
       years: 3,
       energyUnit: 'MMBtu',
     });
-    expect((await api.call('GET', `/v1/meters/${electricId}/adjustments`, { as: 'analyst' })).json.adjustments).toHaveLength(1);
+    expect(
+      (await api.call('GET', `/v1/meters/${electricId}/adjustments`, { as: 'analyst' })).json.adjustments,
+    ).toHaveLength(1);
     expect((await api.call('GET', `/v1/facilities/${annexId}/contract`, { as: 'analyst' })).status).toBe(404);
     const audit = await api.call('GET', '/v1/audit?limit=500', { as: 'admin' });
     const actions = new Set(audit.json.entries.map((e: any) => e.action));

@@ -33,17 +33,25 @@ describe('restart on the same database file', () => {
     ];
 
     const first = await makeTestApi({ databaseUrl });
-    const station = await first.call('POST', '/v1/weather-stations', { body: { name: 'Invented hill station', temperatureUnit: 'F' } });
-    await first.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, { body: { observations: weather } });
+    const station = await first.call('POST', '/v1/weather-stations', {
+      body: { name: 'Invented hill station', temperatureUnit: 'F' },
+    });
+    await first.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, {
+      body: { observations: weather },
+    });
     const facility = await first.call('POST', '/v1/facilities', { body: { name: 'Invented works hall' } });
     const meter = await first.call('POST', `/v1/facilities/${facility.json.id}/meters`, {
       body: { name: 'Hall electricity', fuel: 'electricity', unit: 'kWh', weatherStationId: station.json.id },
     });
     await first.call('POST', `/v1/meters/${meter.json.id}/readings`, { body: { readings } });
-    const draft = await first.call('POST', `/v1/meters/${meter.json.id}/baselines`, { body: { start: '2023-01-01', end: '2025-01-01' } });
+    const draft = await first.call('POST', `/v1/meters/${meter.json.id}/baselines`, {
+      body: { start: '2023-01-01', end: '2025-01-01' },
+    });
     const frozen = await first.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { body: { note: 'agreed' } });
     expect(frozen.status).toBe(200);
-    const savingsBefore = await first.call('GET', `/v1/meters/${meter.json.id}/savings?confidence=0.9`, { as: 'analyst' });
+    const savingsBefore = await first.call('GET', `/v1/meters/${meter.json.id}/savings?confidence=0.9`, {
+      as: 'analyst',
+    });
     expect(savingsBefore.status).toBe(200);
     const digestBefore = await databaseDigest(first.store.db);
     const analystKey = first.keys.analyst;

@@ -14,10 +14,16 @@ import type { Role } from '../../src/domain/principal.js';
 import { makeTestApi, type CallOptions, type TestApi } from '../support/api.js';
 
 const METHODS = ['get', 'post', 'put', 'patch', 'delete'] as const;
-const PERMISSIONS = Object.keys({ read: 0, savings: 0, data: 0, ledger: 0, keys: 0, approve: 0, reconcile: 0, self: 0 } satisfies Record<
-  Permission,
-  0
->) as Permission[];
+const PERMISSIONS = Object.keys({
+  read: 0,
+  savings: 0,
+  data: 0,
+  ledger: 0,
+  keys: 0,
+  approve: 0,
+  reconcile: 0,
+  self: 0,
+} satisfies Record<Permission, 0>) as Permission[];
 
 interface Operation {
   method: (typeof METHODS)[number];
@@ -75,7 +81,11 @@ beforeAll(async () => {
     paths: Record<string, Record<string, { security?: unknown[] }>>;
   };
   operations = Object.entries(document.paths).flatMap(([path, item]) =>
-    METHODS.filter((method) => item[method]).map((method) => ({ method, path, secured: (item[method]!.security ?? []).length > 0 })),
+    METHODS.filter((method) => item[method]).map((method) => ({
+      method,
+      path,
+      secured: (item[method]!.security ?? []).length > 0,
+    })),
   );
   for (const op of operations) {
     for (const caller of CALLERS) {
@@ -121,7 +131,12 @@ function conventionalPermission(op: Operation): Permission {
 describe('the role matrix over every route in the OpenAPI document', () => {
   it('covers the routes this issue adds (a sanity check that enumeration works)', () => {
     const listed = operations.map((op) => `${op.method} ${op.path}`);
-    for (const expected of ['post /v1/facilities', 'get /v1/meters/{id}', 'delete /v1/api-keys/{id}', 'get /v1/audit/verify']) {
+    for (const expected of [
+      'post /v1/facilities',
+      'get /v1/meters/{id}',
+      'delete /v1/api-keys/{id}',
+      'get /v1/audit/verify',
+    ]) {
       expect(listed).toContain(expected);
     }
   });
@@ -135,7 +150,9 @@ describe('the role matrix over every route in the OpenAPI document', () => {
     const wrong = operations
       .filter((op) => op.secured)
       .flatMap((op) =>
-        KEYLESS.filter((caller) => statusOf(op, caller) !== 401).map((caller) => `${cell(op, caller)}: ${statusOf(op, caller)}`),
+        KEYLESS.filter((caller) => statusOf(op, caller) !== 401).map(
+          (caller) => `${cell(op, caller)}: ${statusOf(op, caller)}`,
+        ),
       );
     expect(wrong).toEqual([]);
   });
@@ -194,9 +211,13 @@ describe('the role matrix over every route in the OpenAPI document', () => {
 
 describe('secrets stay secret', () => {
   it('never puts a token, a secret or its stored hash in a response', async () => {
-    const hashes = (await api.store.db.selectFrom('api_keys').select('secret_hash').execute()).map((row) => row.secret_hash);
+    const hashes = (await api.store.db.selectFrom('api_keys').select('secret_hash').execute()).map(
+      (row) => row.secret_hash,
+    );
     const secrets = tokens.map((token) => token.split('_')[2]!);
-    const leaks = [...outcomes].filter(([, o]) => [...secrets, ...hashes, 'secret_hash'].some((s) => o.text.includes(s))).map(([at]) => at);
+    const leaks = [...outcomes]
+      .filter(([, o]) => [...secrets, ...hashes, 'secret_hash'].some((s) => o.text.includes(s)))
+      .map(([at]) => at);
     expect(leaks).toEqual([]);
     const listing = await api.call('GET', '/v1/api-keys');
     expect([...secrets, ...hashes].some((s) => listing.text.includes(s))).toBe(false);
@@ -212,7 +233,13 @@ describe('secrets stay secret', () => {
     });
     const app = await buildApp({ store: api.store, logger: { level: 'trace', stream, redact: LOG_REDACTIONS } });
     try {
-      const send = async (method: 'GET' | 'POST', url: string, token: string, payload?: unknown, headers: Record<string, string> = {}) =>
+      const send = async (
+        method: 'GET' | 'POST',
+        url: string,
+        token: string,
+        payload?: unknown,
+        headers: Record<string, string> = {},
+      ) =>
         app.inject({
           method,
           url,
@@ -224,7 +251,13 @@ describe('secrets stay secret', () => {
       expect(madeToken).toMatch(/^mvl_/);
       const forged = `mvl_AAAAAAAA_${'y'.repeat(40)}`;
       for (const token of [...tokens, madeToken, forged]) await send('GET', '/v1/facilities', token);
-      await send('POST', '/v1/facilities', api.keys.engineer, { name: 'Logged Hall' }, { 'idempotency-key': 'log-check' });
+      await send(
+        'POST',
+        '/v1/facilities',
+        api.keys.engineer,
+        { name: 'Logged Hall' },
+        { 'idempotency-key': 'log-check' },
+      );
       const secrets = [...tokens, madeToken, forged].map((token) => token.split('_')[2]!);
       expect(lines.length).toBeGreaterThan(10); // the logger really was writing
       expect(lines.filter((line) => secrets.some((s) => line.includes(s)))).toEqual([]);

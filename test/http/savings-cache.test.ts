@@ -25,7 +25,13 @@ import { CLIMATES, SAMPLE_BUILDING, dailyWeather, monthlyReadings, seededRandom 
 const random = seededRandom(41);
 const WEATHER = dailyWeather(CLIMATES.temperate, '2023-01-01', 1096, random);
 const BASELINE = monthlyReadings(SAMPLE_BUILDING, WEATHER, '2023-01-01', 24, random);
-const REPORTING = monthlyReadings({ ...SAMPLE_BUILDING, base: 255, heatingRate: 6.5 }, WEATHER, '2025-01-01', 12, random);
+const REPORTING = monthlyReadings(
+  { ...SAMPLE_BUILDING, base: 255, heatingRate: 6.5 },
+  WEATHER,
+  '2025-01-01',
+  12,
+  random,
+);
 
 interface Instance {
   app: FastifyInstance;
@@ -50,7 +56,13 @@ async function instance(cacheBytes?: number): Promise<Instance> {
   return { app, store, cache };
 }
 
-async function call(on: Instance, method: 'GET' | 'POST' | 'PUT', path: string, body?: unknown, headers: Record<string, string> = {}) {
+async function call(
+  on: Instance,
+  method: 'GET' | 'POST' | 'PUT',
+  path: string,
+  body?: unknown,
+  headers: Record<string, string> = {},
+) {
   const response = await on.app.inject({
     method,
     url: path,
@@ -97,7 +109,10 @@ beforeAll(async () => {
   b = await instance();
   c = await instance(0);
 
-  const station = await call(b, 'POST', '/v1/weather-stations', { name: 'Invented hill station', temperatureUnit: 'F' });
+  const station = await call(b, 'POST', '/v1/weather-stations', {
+    name: 'Invented hill station',
+    temperatureUnit: 'F',
+  });
   stationId = station.json.id;
   await call(b, 'PUT', `/v1/weather-stations/${stationId}/observations`, {
     observations: WEATHER.map((d) => ({ date: d.date, temp: d.temp })),
@@ -110,7 +125,11 @@ beforeAll(async () => {
     weatherStationId: stationId,
   });
   meterId = meter.json.id;
-  const rows = [...BASELINE, ...REPORTING.slice(0, 11)].map((r) => ({ start: r.start, end: r.end, quantity: r.quantity }));
+  const rows = [...BASELINE, ...REPORTING.slice(0, 11)].map((r) => ({
+    start: r.start,
+    end: r.end,
+    quantity: r.quantity,
+  }));
   expect((await call(b, 'POST', `/v1/meters/${meterId}/readings`, { readings: rows })).status).toBe(201);
   const draft = await call(b, 'POST', `/v1/meters/${meterId}/baselines`, { start: '2023-01-01', end: '2025-01-01' });
   expect((await call(b, 'POST', `/v1/baselines/${draft.json.id}/freeze`, { note: 'Agreed (test)' })).status).toBe(200);
@@ -134,11 +153,17 @@ describe('savings kept per data version', () => {
     expect(notModified.status).toBe(304);
     expect(notModified.text).toBe('');
     expect(notModified.headers.etag).toBe(etag);
-    expect((await call(a, 'GET', savingsPath(), undefined, { 'if-none-match': `"other", W/${etag}` })).status).toBe(304); // weak comparison
+    expect((await call(a, 'GET', savingsPath(), undefined, { 'if-none-match': `"other", W/${etag}` })).status).toBe(
+      304,
+    ); // weak comparison
     expect((await call(a, 'GET', savingsPath(), undefined, { 'if-none-match': '"other"' })).status).toBe(200);
     expect((await call(a, 'GET', savingsPath(), undefined, { 'if-none-match': '*' })).status).toBe(304);
     // Another organisation's key sees a 404, never the kept document.
-    const other = await a.app.inject({ method: 'GET', url: savingsPath(), headers: { authorization: `Bearer ${api.otherKey}` } });
+    const other = await a.app.inject({
+      method: 'GET',
+      url: savingsPath(),
+      headers: { authorization: `Bearer ${api.otherKey}` },
+    });
     expect(other.statusCode).toBe(404);
   });
 
@@ -175,8 +200,11 @@ describe('savings kept per data version', () => {
     // Weather inside the reporting period.
     const day = WEATHER.find((d) => d.date === '2025-03-10')!;
     expect(
-      (await call(b, 'PUT', `/v1/weather-stations/${stationId}/observations`, { observations: [{ date: day.date, temp: day.temp + 9 }] }))
-        .json.updated,
+      (
+        await call(b, 'PUT', `/v1/weather-stations/${stationId}/observations`, {
+          observations: [{ date: day.date, temp: day.temp + 9 }],
+        })
+      ).json.updated,
     ).toBe(1);
     await changed('weather');
 
@@ -189,18 +217,29 @@ describe('savings kept per data version', () => {
     });
     expect(adjustment.status).toBe(201);
     await changed('adjustment');
-    expect((await call(b, 'POST', `/v1/adjustments/${adjustment.json.id}/withdraw`, { reason: 'Recorded in error (test)' })).status).toBe(
-      200,
-    );
+    expect(
+      (await call(b, 'POST', `/v1/adjustments/${adjustment.json.id}/withdraw`, { reason: 'Recorded in error (test)' }))
+        .status,
+    ).toBe(200);
     await changed('withdrawal');
 
     // Rates: the savings document carries no cost, so its bytes stand (304), but the meter's version moved.
     const version = async () =>
-      (await api.store.db.selectFrom('meter_data_versions').select('version').where('meter_id', '=', meterId).executeTakeFirstOrThrow())
-        .version;
+      (
+        await api.store.db
+          .selectFrom('meter_data_versions')
+          .select('version')
+          .where('meter_id', '=', meterId)
+          .executeTakeFirstOrThrow()
+      ).version;
     const before = await version();
     expect(
-      (await call(b, 'PUT', `/v1/meters/${meterId}/rates`, { currency: 'USD', rates: [{ from: '2023-01-01', price: 0.12 }] })).status,
+      (
+        await call(b, 'PUT', `/v1/meters/${meterId}/rates`, {
+          currency: 'USD',
+          rates: [{ from: '2023-01-01', price: 0.12 }],
+        })
+      ).status,
     ).toBe(200);
     expect(await version()).not.toBe(before);
     const misses = a.cache.stats.misses;
@@ -233,7 +272,11 @@ describe('savings kept per data version', () => {
     expect(variable.status).toBe(201);
     const beforeValues = await version();
     expect(
-      (await call(b, 'POST', `/v1/variables/${variable.json.id}/values`, { values: [{ date: '2025-06-02', value: 40 }] })).status,
+      (
+        await call(b, 'POST', `/v1/variables/${variable.json.id}/values`, {
+          values: [{ date: '2025-06-02', value: 40 }],
+        })
+      ).status,
     ).toBe(201);
     expect(await version()).not.toBe(beforeValues);
     await changed('variable values', false);

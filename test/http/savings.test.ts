@@ -31,7 +31,13 @@ import { CLIMATES, SAMPLE_BUILDING, dailyWeather, monthlyReadings, seededRandom 
 const random = seededRandom(23);
 const WEATHER = dailyWeather(CLIMATES.temperate, '2023-01-01', 1096, random);
 const BASELINE = monthlyReadings(SAMPLE_BUILDING, WEATHER, '2023-01-01', 24, random);
-const REPORTING = monthlyReadings({ ...SAMPLE_BUILDING, base: 255, heatingRate: 6.5 }, WEATHER, '2025-01-01', 12, random);
+const REPORTING = monthlyReadings(
+  { ...SAMPLE_BUILDING, base: 255, heatingRate: 6.5 },
+  WEATHER,
+  '2025-01-01',
+  12,
+  random,
+);
 const WINDOW = { start: '2023-01-01', end: '2025-01-01' };
 const EXTRA_KEYS = ['meterId', 'adjustments', 'baselineId', 'baselineVersion', 'baselineContentHash', 'weatherFills'];
 
@@ -46,9 +52,15 @@ function engineSavings(
   weather: readonly DailyTemperature[] = WEATHER,
 ): unknown {
   const fit = baseline.choice.candidates.find((c) => c.model === model)!.fit!;
-  const document = savingsFromFit(fit, { limits: baseline.choice.settings.guideline14, excluded: baseline.excluded }, reporting, weather, {
-    confidence,
-  });
+  const document = savingsFromFit(
+    fit,
+    { limits: baseline.choice.settings.guideline14, excluded: baseline.excluded },
+    reporting,
+    weather,
+    {
+      confidence,
+    },
+  );
   // The checks between baseline and projection, as the engine states them (the CLI's savings --json carries the same).
   const checks = {
     sufficiency: baselineSufficiency(baseline.periods),
@@ -75,18 +87,32 @@ async function seedMeter(
   });
   const observations = weather.map((d) => ({ date: d.date, temp: d.temp }));
   expect(
-    (await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, { as: 'integration', body: { observations } })).status,
+    (
+      await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, {
+        as: 'integration',
+        body: { observations },
+      })
+    ).status,
   ).toBe(200);
-  const facility = await api.call('POST', '/v1/facilities', { as: 'engineer', body: { name: 'Test depot 3 (invented)' } });
+  const facility = await api.call('POST', '/v1/facilities', {
+    as: 'engineer',
+    body: { name: 'Test depot 3 (invented)' },
+  });
   const meter = await api.call('POST', `/v1/facilities/${facility.json.id}/meters`, {
     as: 'engineer',
-    body: { name: 'Depot main electric (invented)', fuel: 'electricity', unit: 'kWh', weatherStationId: station.json.id },
+    body: {
+      name: 'Depot main electric (invented)',
+      fuel: 'electricity',
+      unit: 'kWh',
+      weatherStationId: station.json.id,
+    },
   });
   expect(meter.status).toBe(201);
   const rows = readings.map((r) => ({ start: r.start, end: r.end, quantity: r.quantity }));
-  expect((await api.call('POST', `/v1/meters/${meter.json.id}/readings`, { as: 'integration', body: { readings: rows } })).status).toBe(
-    201,
-  );
+  expect(
+    (await api.call('POST', `/v1/meters/${meter.json.id}/readings`, { as: 'integration', body: { readings: rows } }))
+      .status,
+  ).toBe(201);
   return meter.json.id;
 }
 
@@ -101,13 +127,19 @@ async function frozenBaseline(meterId: string, choose?: ModelName, window = WIND
     });
     expect(chosen.status).toBe(200);
   }
-  const frozen = await api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { as: 'engineer', body: { note: 'Agreed (test)' } });
+  const frozen = await api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, {
+    as: 'engineer',
+    body: { note: 'Agreed (test)' },
+  });
   expect(frozen.status).toBe(200);
   return frozen.json;
 }
 
-const savings = (meterId: string, query = '', as: 'admin' | 'engineer' | 'analyst' | 'integration' | 'other' | 'none' = 'analyst') =>
-  api.call('GET', `/v1/meters/${meterId}/savings${query}`, { as });
+const savings = (
+  meterId: string,
+  query = '',
+  as: 'admin' | 'engineer' | 'analyst' | 'integration' | 'other' | 'none' = 'analyst',
+) => api.call('GET', `/v1/meters/${meterId}/savings${query}`, { as });
 
 beforeAll(async () => {
   api = await makeTestApi();
@@ -234,7 +266,9 @@ describe('GET /v1/meters/{id}/savings', () => {
 
 describe('savings against another shape, a newer baseline, or none', () => {
   it('uses the shape the engineer chose', async () => {
-    const other = ENGINE.document.candidates.find((c) => c.verdict === 'accepted' || (c.verdict === 'rejected' && c.model !== '1P'))!.model; // the engine itself
+    const other = ENGINE.document.candidates.find(
+      (c) => c.verdict === 'accepted' || (c.verdict === 'rejected' && c.model !== '1P'),
+    )!.model; // the engine itself
     const meterId = await seedMeter();
     await frozenBaseline(meterId, other);
     const response = await savings(meterId);
@@ -245,7 +279,9 @@ describe('savings against another shape, a newer baseline, or none', () => {
   it('follows the supersede to the newer version', async () => {
     const meterId = await seedMeter();
     const first = await frozenBaseline(meterId);
-    const draft = await api.call('POST', `/v1/meters/${meterId}/baselines`, { body: { start: '2024-01-01', end: '2025-01-01' } });
+    const draft = await api.call('POST', `/v1/meters/${meterId}/baselines`, {
+      body: { start: '2024-01-01', end: '2025-01-01' },
+    });
     const second = await api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, {
       body: { note: 'Second year only', supersedeReason: 'Tenant change in 2023' },
     });
@@ -253,7 +289,9 @@ describe('savings against another shape, a newer baseline, or none', () => {
     const response = await savings(meterId);
     expect(response.json.baselineVersion).toBe(2);
     const secondYear = analyseBaseline(BASELINE.slice(12), WEATHER); // the engine itself
-    expect(withoutBaselineKeys(response.json)).toEqual(engineSavings(secondYear.choice.selected, REPORTING, undefined, secondYear));
+    expect(withoutBaselineKeys(response.json)).toEqual(
+      engineSavings(secondYear.choice.selected, REPORTING, undefined, secondYear),
+    );
   });
 
   it('asks for a frozen baseline first', async () => {
@@ -377,7 +415,10 @@ describe('weather filled on record shows in savings and reports', () => {
     expect(period).toMatchObject({ interpolation: 3, secondStation: 0 });
     expect(period.start <= '2023-06-10' && '2023-06-12' < period.end).toBe(true);
     expect(period.summary).toBe(`3 of ${period.days} days filled by interpolation`);
-    const frozen = await api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, { as: 'engineer', body: { note: 'Agreed (test)' } });
+    const frozen = await api.call('POST', `/v1/baselines/${draft.json.id}/freeze`, {
+      as: 'engineer',
+      body: { note: 'Agreed (test)' },
+    });
     expect(frozen.json.weatherFills).toEqual(draft.json.weatherFills);
     const read = await api.call('GET', `/v1/baselines/${draft.json.id}`, { as: 'analyst' });
     expect(read.json.weatherFills).toEqual(draft.json.weatherFills);
@@ -387,6 +428,8 @@ describe('weather filled on record shows in savings and reports', () => {
       body: { observations: [{ date: '2023-06-11', temp: 70 }] },
     });
     expect(replace.status).toBe(409); // the API contract
-    expect((await api.call('GET', `/v1/baselines/${draft.json.id}`, { as: 'analyst' })).json.weatherFills).toEqual(draft.json.weatherFills);
+    expect((await api.call('GET', `/v1/baselines/${draft.json.id}`, { as: 'analyst' })).json.weatherFills).toEqual(
+      draft.json.weatherFills,
+    );
   });
 });

@@ -31,7 +31,9 @@ let baselineId: string;
 
 beforeAll(async () => {
   api = await makeTestApi();
-  const station = await api.call('POST', '/v1/weather-stations', { body: { name: 'Invented hill station', temperatureUnit: 'F' } });
+  const station = await api.call('POST', '/v1/weather-stations', {
+    body: { name: 'Invented hill station', temperatureUnit: 'F' },
+  });
   await api.call('PUT', `/v1/weather-stations/${station.json.id}/observations`, {
     body: { observations: WEATHER.map((d) => ({ date: d.date, temp: d.temp })) },
   });
@@ -47,7 +49,9 @@ beforeAll(async () => {
       })
     ).status,
   ).toBe(201);
-  const baseline = await api.call('POST', `/v1/meters/${meterId}/baselines`, { body: { start: '2023-01-01', end: '2025-01-01' } });
+  const baseline = await api.call('POST', `/v1/meters/${meterId}/baselines`, {
+    body: { start: '2023-01-01', end: '2025-01-01' },
+  });
   expect(baseline.status).toBe(201);
   baselineId = baseline.json.id;
 });
@@ -55,7 +59,12 @@ afterAll(async () => api?.close());
 
 describe('protective headers on every kind of response', () => {
   const kinds: { kind: string; send: () => Promise<ApiResponse>; status: number; type: string }[] = [
-    { kind: 'JSON', send: () => api.call('GET', '/v1/facilities', { as: 'analyst' }), status: 200, type: 'application/json' },
+    {
+      kind: 'JSON',
+      send: () => api.call('GET', '/v1/facilities', { as: 'analyst' }),
+      status: 200,
+      type: 'application/json',
+    },
     {
       kind: 'SVG',
       send: () => api.call('GET', `/v1/baselines/${baselineId}/signature.svg`, { as: 'analyst' }),
@@ -68,7 +77,12 @@ describe('protective headers on every kind of response', () => {
       status: 404,
       type: 'application/problem+json',
     },
-    { kind: 'problem (401)', send: () => api.call('GET', '/v1/facilities', { as: 'none' }), status: 401, type: 'application/problem+json' },
+    {
+      kind: 'problem (401)',
+      send: () => api.call('GET', '/v1/facilities', { as: 'none' }),
+      status: 401,
+      type: 'application/problem+json',
+    },
     {
       kind: 'problem (400)',
       send: () => api.call('POST', '/v1/facilities', { body: { name: 7 } }),
@@ -118,12 +132,14 @@ describe('the request size limit', () => {
     {
       what: 'a JSON batch of readings',
       contentType: 'application/json',
-      payload: () => JSON.stringify({ readings: manyReadings().map((r) => ({ start: r.start, end: r.end, quantity: r.quantity })) }),
+      payload: () =>
+        JSON.stringify({ readings: manyReadings().map((r) => ({ start: r.start, end: r.end, quantity: r.quantity })) }),
     },
     {
       what: 'a CSV batch of readings',
       contentType: 'text/csv',
-      payload: () => ['start,end,quantity', ...manyReadings().map((r) => `${r.start},${r.end},${r.quantity}`)].join('\n'),
+      payload: () =>
+        ['start,end,quantity', ...manyReadings().map((r) => `${r.start},${r.end},${r.quantity}`)].join('\n'),
     },
   ];
   for (const { what, contentType, payload } of bodies) {
@@ -187,17 +203,39 @@ describe('a key leaves the service once, in the response that creates it', () =>
         headers: { authorization: `Bearer ${token}`, ...headers },
         ...(payload ? { payload } : {}),
       });
-      exchanges.push({ step, status: response.statusCode, headers: JSON.stringify(response.headers), body: response.body });
+      exchanges.push({
+        step,
+        status: response.statusCode,
+        headers: JSON.stringify(response.headers),
+        body: response.body,
+      });
       return response;
     };
     try {
-      const created = await send('create', 'POST', '/v1/api-keys', api.keys.admin, { name: 'cycle (invented)', role: 'engineer' });
+      const created = await send('create', 'POST', '/v1/api-keys', api.keys.admin, {
+        name: 'cycle (invented)',
+        role: 'engineer',
+      });
       const token = created.json().token as string;
       const keyId = created.json().key.id as string;
       const secret = token.split('_')[2]!;
       await send('use: read', 'GET', '/v1/facilities', token);
-      await send('use: write', 'POST', '/v1/facilities', token, { name: 'Cycle Hall (invented)' }, { 'idempotency-key': 'cycle-write' });
-      await send('use: replay', 'POST', '/v1/facilities', token, { name: 'Cycle Hall (invented)' }, { 'idempotency-key': 'cycle-write' });
+      await send(
+        'use: write',
+        'POST',
+        '/v1/facilities',
+        token,
+        { name: 'Cycle Hall (invented)' },
+        { 'idempotency-key': 'cycle-write' },
+      );
+      await send(
+        'use: replay',
+        'POST',
+        '/v1/facilities',
+        token,
+        { name: 'Cycle Hall (invented)' },
+        { 'idempotency-key': 'cycle-write' },
+      );
       await send('list', 'GET', '/v1/api-keys', api.keys.admin);
       await send('audit', 'GET', `/v1/audit?entityId=${keyId}`, api.keys.admin);
       await send('revoke', 'DELETE', `/v1/api-keys/${keyId}`, api.keys.admin);
@@ -213,8 +251,13 @@ describe('a key leaves the service once, in the response that creates it', () =>
         'use after revoke 401',
       ]); // the API contract
 
-      const hash = (await api.store.db.selectFrom('api_keys').select('secret_hash').where('id', '=', keyId).executeTakeFirstOrThrow())
-        .secret_hash;
+      const hash = (
+        await api.store.db
+          .selectFrom('api_keys')
+          .select('secret_hash')
+          .where('id', '=', keyId)
+          .executeTakeFirstOrThrow()
+      ).secret_hash;
       const carrying = (needle: string) => exchanges.filter((e) => e.body.includes(needle)).map((e) => e.step);
       expect(carrying(secret)).toEqual(['create']);
       expect(exchanges.filter((e) => e.headers.includes(secret)).map((e) => e.step)).toEqual([]);
@@ -250,17 +293,34 @@ describe('Authorization cases beyond test/http/roles.test.ts', () => {
   const analystId = () => api.keys.analyst.split('_')[1]!;
   const analystSecret = () => api.keys.analyst.split('_')[2]!;
   const refusals: { what: string; headers: () => Record<string, string>; url?: () => string }[] = [
-    { what: 'the right id with a shorter wrong secret', headers: () => ({ authorization: `Bearer mvl_${analystId()}_${'z'.repeat(33)}` }) },
-    { what: 'the right id with a longer wrong secret', headers: () => ({ authorization: `Bearer mvl_${analystId()}_${'z'.repeat(90)}` }) },
-    { what: 'the right secret with one character more', headers: () => ({ authorization: `Bearer ${api.keys.analyst}A` }) },
+    {
+      what: 'the right id with a shorter wrong secret',
+      headers: () => ({ authorization: `Bearer mvl_${analystId()}_${'z'.repeat(33)}` }),
+    },
+    {
+      what: 'the right id with a longer wrong secret',
+      headers: () => ({ authorization: `Bearer mvl_${analystId()}_${'z'.repeat(90)}` }),
+    },
+    {
+      what: 'the right secret with one character more',
+      headers: () => ({ authorization: `Bearer ${api.keys.analyst}A` }),
+    },
     {
       what: 'the right secret under another key id',
       headers: () => ({ authorization: `Bearer mvl_${api.keys.engineer.split('_')[1]}_${analystSecret()}` }),
     },
     { what: 'the key without a scheme', headers: () => ({ authorization: api.keys.analyst }) },
     { what: 'the key under the Basic scheme', headers: () => ({ authorization: `Basic ${api.keys.analyst}` }) },
-    { what: 'the key in ?key= and no header', headers: () => ({}), url: () => `/v1/facilities?key=${api.keys.analyst}` },
-    { what: 'the key in ?access_token= and no header', headers: () => ({}), url: () => `/v1/facilities?access_token=${api.keys.analyst}` },
+    {
+      what: 'the key in ?key= and no header',
+      headers: () => ({}),
+      url: () => `/v1/facilities?key=${api.keys.analyst}`,
+    },
+    {
+      what: 'the key in ?access_token= and no header',
+      headers: () => ({}),
+      url: () => `/v1/facilities?access_token=${api.keys.analyst}`,
+    },
     { what: 'the key in an X-API-Key header', headers: () => ({ 'x-api-key': api.keys.analyst }) },
   ];
   for (const c of refusals) {
@@ -276,7 +336,12 @@ describe('Authorization cases beyond test/http/roles.test.ts', () => {
   it('accepts the scheme in any case (RFC 9110 §11.1)', async () => {
     for (const scheme of ['bearer', 'BEARER', 'Bearer']) {
       expect(
-        (await api.call('GET', '/v1/facilities', { as: 'none', headers: { authorization: `${scheme} ${api.keys.analyst}` } })).status,
+        (
+          await api.call('GET', '/v1/facilities', {
+            as: 'none',
+            headers: { authorization: `${scheme} ${api.keys.analyst}` },
+          })
+        ).status,
       ).toBe(200);
     }
   });
@@ -285,7 +350,9 @@ describe('Authorization cases beyond test/http/roles.test.ts', () => {
   function rawStatus(headerLines: string[]): Promise<number> {
     return new Promise((resolve, reject) => {
       const socket = connect(port, '127.0.0.1', () =>
-        socket.write(['GET /v1/facilities HTTP/1.1', 'Host: 127.0.0.1', ...headerLines, 'Connection: close', '', ''].join('\r\n')),
+        socket.write(
+          ['GET /v1/facilities HTTP/1.1', 'Host: 127.0.0.1', ...headerLines, 'Connection: close', '', ''].join('\r\n'),
+        ),
       );
       let text = '';
       socket.on('data', (chunk) => (text += chunk));

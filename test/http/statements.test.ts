@@ -18,7 +18,13 @@ import { verifyAuditChain } from '../../src/store/audit.js';
 const random = seededRandom(73);
 const WEATHER = dailyWeather(CLIMATES.temperate, '2023-01-01', 1130, random);
 const BASELINE = monthlyReadings(SAMPLE_BUILDING, WEATHER, '2023-01-01', 24, random);
-const REPORTING = monthlyReadings({ ...SAMPLE_BUILDING, base: 255, heatingRate: 6.5 }, WEATHER, '2025-01-01', 12, random);
+const REPORTING = monthlyReadings(
+  { ...SAMPLE_BUILDING, base: 255, heatingRate: 6.5 },
+  WEATHER,
+  '2025-01-01',
+  12,
+  random,
+);
 // The first reporting quarter's bills, and one bill of the second quarter held back to post after issue.
 const FIRST_QUARTER = REPORTING.filter((r) => r.start < '2025-03-25');
 const LATER = REPORTING.filter((r) => r.start >= '2025-03-25');
@@ -41,7 +47,8 @@ async function ok(
   return reply.json;
 }
 
-const issue = (body: unknown, as: 'engineer' | 'admin' = 'engineer') => api.call('POST', '/v1/statements', { as, body });
+const issue = (body: unknown, as: 'engineer' | 'admin' = 'engineer') =>
+  api.call('POST', '/v1/statements', { as, body });
 
 /** A bad request is refused as problem+json naming what is wrong, and stores nothing. */
 async function refusedWithNothingStored(
@@ -59,7 +66,8 @@ async function refusedWithNothingStored(
 
 beforeAll(async () => {
   api = await makeTestApi();
-  const stationId = (await ok('POST', '/v1/weather-stations', { name: 'Invented ridge station', temperatureUnit: 'F' })).id;
+  const stationId = (await ok('POST', '/v1/weather-stations', { name: 'Invented ridge station', temperatureUnit: 'F' }))
+    .id;
   await ok('PUT', `/v1/weather-stations/${stationId}/observations`, { observations: WEATHER }, 'engineer', 200);
   facilityId = (await ok('POST', '/v1/facilities', { name: 'Invented library' })).id;
   meterId = (
@@ -75,7 +83,13 @@ beforeAll(async () => {
   });
   const draft = await ok('POST', `/v1/meters/${meterId}/baselines`, { start: '2023-01-01', end: '2025-01-01' });
   await ok('POST', `/v1/baselines/${draft.id}/freeze`, { note: 'Agreed (test)' }, 'engineer', 200);
-  await ok('PUT', `/v1/meters/${meterId}/rates`, { currency: 'USD', rates: [{ from: '2025-01-01', price: 0.1 }] }, 'engineer', 200);
+  await ok(
+    'PUT',
+    `/v1/meters/${meterId}/rates`,
+    { currency: 'USD', rates: [{ from: '2025-01-01', price: 0.1 }] },
+    'engineer',
+    200,
+  );
   await ok(
     'PUT',
     `/v1/facilities/${facilityId}/contract`,
@@ -111,7 +125,12 @@ describe('POST /v1/statements and the stored bytes', () => {
     expect(reply.status, reply.text).toBe(201);
     statement = reply.json;
     expect(statement.status).toBe('prepared');
-    expect(statement.window).toMatchObject({ quarter: '2025-Q1', from: '2025-01-01', to: '2025-04-01', kind: 'quarter' });
+    expect(statement.window).toMatchObject({
+      quarter: '2025-Q1',
+      from: '2025-01-01',
+      to: '2025-04-01',
+      kind: 'quarter',
+    });
     expect(statement.confidence).toBe(0.95); // the contract names 95%; the request names none
     expect(statement.preparedBy).toBeTruthy();
     expect(statement.approvedBy).toBeNull();
@@ -128,7 +147,9 @@ describe('POST /v1/statements and the stored bytes', () => {
 
   it('serves the stored bytes in every format, each matching its content hash', async () => {
     for (const format of ['json', 'csv', 'html'] as const) {
-      const reply = await api.call('GET', `/v1/statements/${statement.id}/document?format=${format}`, { as: 'analyst' });
+      const reply = await api.call('GET', `/v1/statements/${statement.id}/document?format=${format}`, {
+        as: 'analyst',
+      });
       expect(reply.status).toBe(200);
       expect(reply.headers['x-content-hash']).toBe(sha256(reply.text));
       expect(reply.headers['x-content-hash']).toBe(statement.contentHashes[format]);
@@ -136,7 +157,11 @@ describe('POST /v1/statements and the stored bytes', () => {
     }
     const document = JSON.parse(stored.json);
     expect(document.statement.steps.map((s: any) => s.step)).toEqual(['prepared']);
-    expect(document.statement.steps[0].by).toEqual({ keyId: statement.preparedBy, name: 'engineer key', role: 'engineer' });
+    expect(document.statement.steps[0].by).toEqual({
+      keyId: statement.preparedBy,
+      name: 'engineer key',
+      role: 'engineer',
+    });
     expect(document.report.confidence).toBe(0.95);
     expect(document.report.contentHash).toBe(statement.reportHash);
     const meter = document.report.facilities[0].meters[0];
@@ -162,7 +187,9 @@ describe('POST /v1/statements and the stored bytes', () => {
       readings: LATER.map((r) => ({ start: r.start, end: r.end, quantity: r.quantity })),
     });
     for (const format of ['json', 'csv', 'html'] as const) {
-      const reply = await api.call('GET', `/v1/statements/${statement.id}/document?format=${format}`, { as: 'analyst' });
+      const reply = await api.call('GET', `/v1/statements/${statement.id}/document?format=${format}`, {
+        as: 'analyst',
+      });
       expect(reply.text).toBe(stored[format]);
     }
     const compare = await api.call('GET', `/v1/statements/${statement.id}/compare`, { as: 'analyst' });
@@ -186,7 +213,9 @@ describe('POST /v1/statements and the stored bytes', () => {
     expect(html.text).toContain('data-step="approved"');
     expect(html.text).toMatch(/analyst key<\/td><td>analyst<\/td>/);
     expect(html.text).toContain(statement.contentHashes.html); // the approved copy names the issued copy's hash
-    const first = await api.call('GET', `/v1/statements/${statement.id}/document?format=html&copy=1`, { as: 'analyst' });
+    const first = await api.call('GET', `/v1/statements/${statement.id}/document?format=html&copy=1`, {
+      as: 'analyst',
+    });
     expect(first.text).toBe(stored.html);
     const json = JSON.parse((await api.call('GET', `/v1/statements/${statement.id}/document`, { as: 'analyst' })).text);
     expect(json.report).toEqual(JSON.parse(stored.json).report);
@@ -200,7 +229,13 @@ describe('POST /v1/statements and the stored bytes', () => {
       403,
       /its preparer may not approve it/,
     );
-    await ok('POST', `/v1/statements/${own.id}/void`, { reason: 'Issued twice (test)', replacedBy: statement.id }, 'analyst', 200);
+    await ok(
+      'POST',
+      `/v1/statements/${own.id}/void`,
+      { reason: 'Issued twice (test)', replacedBy: statement.id },
+      'analyst',
+      200,
+    );
     await refusedWithNothingStored(
       () => api.call('POST', `/v1/statements/${own.id}/approve`, { as: 'analyst', body: {} }),
       409,
@@ -211,7 +246,11 @@ describe('POST /v1/statements and the stored bytes', () => {
       422,
       /no meter .* has reporting data in 2031-Q1/,
     );
-    await refusedWithNothingStored(() => issue({ window: { quarter: '2025-Q1', contractYear: 1 } }), 400, /exactly one of/);
+    await refusedWithNothingStored(
+      () => issue({ window: { quarter: '2025-Q1', contractYear: 1 } }),
+      400,
+      /exactly one of/,
+    );
     await refusedWithNothingStored(
       () => api.call('POST', `/v1/statements/${statement.id}/approve`, { as: 'engineer', body: {} }),
       403,
@@ -227,7 +266,13 @@ describe('POST /v1/statements and the stored bytes', () => {
   it('rejects with a reason, lists newest first, and voids with a replacement', async () => {
     const second = (await issue({ window: { contractYear: 1 }, facilityId, confidence: 0.9 })).json;
     expect(second.confidence).toBe(0.9);
-    const rejected = await ok('POST', `/v1/statements/${second.id}/reject`, { reason: 'Wrong window (test)' }, 'analyst', 200);
+    const rejected = await ok(
+      'POST',
+      `/v1/statements/${second.id}/reject`,
+      { reason: 'Wrong window (test)' },
+      'analyst',
+      200,
+    );
     expect(rejected).toMatchObject({ status: 'rejected', rejectionReason: 'Wrong window (test)' });
     const list = await api.call('GET', '/v1/statements', { as: 'analyst' });
     expect(list.json.statements[0].id).toBe(second.id);
@@ -239,16 +284,25 @@ describe('POST /v1/statements and the stored bytes', () => {
 
 describe('one confidence level per statement', () => {
   it('takes the contract’s level for every ± unless the request names another; the Guideline 14 verdict stays at 68%', async () => {
-    const byContract = await api.call('GET', `/v1/reports/savings?quarter=2025-Q1&facilityId=${facilityId}`, { as: 'analyst' });
-    const named = await api.call('GET', `/v1/reports/savings?quarter=2025-Q1&facilityId=${facilityId}&confidence=0.68`, { as: 'analyst' });
+    const byContract = await api.call('GET', `/v1/reports/savings?quarter=2025-Q1&facilityId=${facilityId}`, {
+      as: 'analyst',
+    });
+    const named = await api.call(
+      'GET',
+      `/v1/reports/savings?quarter=2025-Q1&facilityId=${facilityId}&confidence=0.68`,
+      { as: 'analyst' },
+    );
     expect(byContract.json).toMatchObject({ confidence: 0.95, confidenceSource: 'contract' });
     expect(named.json).toMatchObject({ confidence: 0.68, confidenceSource: 'request' });
     const a = byContract.json.facilities[0].meters[0];
     const b = named.json.facilities[0].meters[0];
     expect(a.energy.uncertainty).toBeGreaterThan(b.energy.uncertainty); // a wider band at 95% than at 68%
     expect(a.significant).toBe(b.significant); // judged at 68% whatever the report's level
-    const html = (await api.call('GET', `/v1/reports/savings?quarter=2025-Q1&facilityId=${facilityId}&format=html`, { as: 'analyst' }))
-      .text;
+    const html = (
+      await api.call('GET', `/v1/reports/savings?quarter=2025-Q1&facilityId=${facilityId}&format=html`, {
+        as: 'analyst',
+      })
+    ).text;
     expect(html).toContain(
       '95% two-sided (the level the contract names); the ASHRAE Guideline 14 significance verdict is always judged at 68%',
     );
@@ -265,7 +319,9 @@ describe('one confidence level per statement', () => {
     );
     const mixed = await api.call('GET', '/v1/reports/savings?quarter=2025-Q1', { as: 'analyst' });
     expect(mixed.status).toBe(422);
-    expect(mixed.json.detail).toMatch(/^confidence: the facilities' contracts name different confidence levels \(0\.9, 0\.95\)/);
+    expect(mixed.json.detail).toMatch(
+      /^confidence: the facilities' contracts name different confidence levels \(0\.9, 0\.95\)/,
+    );
     expect((await api.call('GET', `/v1/facilities/${other}/contract`, { as: 'analyst' })).json.confidence).toBe(0.9);
   });
 });
@@ -286,7 +342,8 @@ describe.skipIf(!browserAvailable())('an issued statement in print (chromium)', 
       await browser.close();
     }
     const { getDocument } = await import('pdfjs-dist/legacy/build/pdf.mjs');
-    const document = await getDocument({ data: new Uint8Array(pdf), useSystemFonts: false, isEvalSupported: false }).promise;
+    const document = await getDocument({ data: new Uint8Array(pdf), useSystemFonts: false, isEvalSupported: false })
+      .promise;
     const pages: string[] = [];
     for (let n = 1; n <= document.numPages; n++) {
       const content = await (await document.getPage(n)).getTextContent();

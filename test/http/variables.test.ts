@@ -41,18 +41,25 @@ async function seed(): Promise<{ facilityId: string; meterId: string }> {
     as: 'integration',
     body: { observations: WEATHER.map((d) => ({ date: d.date, temp: d.temp })) },
   });
-  const facility = await api.call('POST', '/v1/facilities', { as: 'engineer', body: { name: 'Pressing works (invented)' } });
+  const facility = await api.call('POST', '/v1/facilities', {
+    as: 'engineer',
+    body: { name: 'Pressing works (invented)' },
+  });
   const meter = await api.call('POST', `/v1/facilities/${facility.json.id}/meters`, {
     as: 'engineer',
     body: { name: 'Works electricity (invented)', fuel: 'electricity', unit: 'kWh', weatherStationId: station.json.id },
   });
   const readings = READINGS.map((r) => ({ start: r.start, end: r.end, quantity: r.quantity }));
-  expect((await api.call('POST', `/v1/meters/${meter.json.id}/readings`, { as: 'integration', body: { readings } })).status).toBe(201);
+  expect(
+    (await api.call('POST', `/v1/meters/${meter.json.id}/readings`, { as: 'integration', body: { readings } })).status,
+  ).toBe(201);
   return { facilityId: facility.json.id, meterId: meter.json.id };
 }
 
 function csvOf(from: number, to: number): string {
-  return ['start,end,value', ...READINGS.slice(from, to).map((r, i) => `${r.start},${r.end},${UNITS[from + i]}`)].join('\n');
+  return ['start,end,value', ...READINGS.slice(from, to).map((r, i) => `${r.start},${r.end},${UNITS[from + i]}`)].join(
+    '\n',
+  );
 }
 
 describe('independent variables (POST/GET /v1/facilities/{id}/variables, /v1/variables/{id}/values)', () => {
@@ -63,7 +70,13 @@ describe('independent variables (POST/GET /v1/facilities/{id}/variables, /v1/var
       body: { name: 'units', unit: 'units', kind: 'per-period', aggregation: 'total' },
     });
     expect(created.status).toBe(201);
-    expect(created.json).toMatchObject({ facilityId, meterId: null, name: 'units', kind: 'per-period', aggregation: 'total' });
+    expect(created.json).toMatchObject({
+      facilityId,
+      meterId: null,
+      name: 'units',
+      kind: 'per-period',
+      aggregation: 'total',
+    });
     const variableId = created.json.id;
 
     const twice = await api.call('POST', `/v1/facilities/${facilityId}/variables`, {
@@ -74,7 +87,10 @@ describe('independent variables (POST/GET /v1/facilities/{id}/variables, /v1/var
     expect(twice.json.detail).toMatch(/^name: .*already has a variable named "units"/);
 
     // The baseline's 24 months and 3 reporting months, as CSV; the last 3 reporting months are left for later.
-    const posted = await api.call('POST', `/v1/variables/${variableId}/values`, { as: 'integration', csv: csvOf(0, 27) });
+    const posted = await api.call('POST', `/v1/variables/${variableId}/values`, {
+      as: 'integration',
+      csv: csvOf(0, 27),
+    });
     expect(posted.status).toBe(201);
     expect(posted.json).toMatchObject({ received: 27, created: 27, corrected: 0, unchanged: 0 });
     const again = await api.call('POST', `/v1/variables/${variableId}/values`, { as: 'integration', csv: csvOf(0, 2) });
@@ -114,7 +130,10 @@ describe('independent variables (POST/GET /v1/facilities/{id}/variables, /v1/var
     const units = selected.coefficients.find((c: { name: string }) => c.name === 'units');
     expect(Math.abs(units.estimate - 0.8)).toBeLessThan(3 * units.standardError); // the truth the test set, within 3 standard errors
 
-    const frozen = await api.call('POST', `/v1/baselines/${fit.json.id}/freeze`, { as: 'engineer', body: { note: 'M&V plan, invented' } });
+    const frozen = await api.call('POST', `/v1/baselines/${fit.json.id}/freeze`, {
+      as: 'engineer',
+      body: { note: 'M&V plan, invented' },
+    });
     expect(frozen.status).toBe(200);
 
     // Inside the frozen window: refused, nothing stored.
@@ -134,7 +153,9 @@ describe('independent variables (POST/GET /v1/facilities/{id}/variables, /v1/var
     expect(missing.json.detail).toContain(`${READINGS[29]!.start} to ${READINGS[29]!.end} (units)`);
     expect(missing.json.errors).toHaveLength(3);
 
-    expect((await api.call('POST', `/v1/variables/${variableId}/values`, { as: 'integration', csv: csvOf(27, 30) })).status).toBe(201);
+    expect(
+      (await api.call('POST', `/v1/variables/${variableId}/values`, { as: 'integration', csv: csvOf(27, 30) })).status,
+    ).toBe(201);
     const savings = await api.call('GET', `/v1/meters/${meterId}/savings`, { as: 'analyst' });
     expect(savings.status).toBe(200);
     expect(savings.json.periods).toHaveLength(6);
@@ -168,11 +189,17 @@ describe('independent variables (POST/GET /v1/facilities/{id}/variables, /v1/var
 
     // Every day of the baseline but one.
     const values = [];
-    for (let d = new Date('2023-01-01T00:00:00Z'); d < new Date('2025-01-01T00:00:00Z'); d.setUTCDate(d.getUTCDate() + 1)) {
+    for (
+      let d = new Date('2023-01-01T00:00:00Z');
+      d < new Date('2025-01-01T00:00:00Z');
+      d.setUTCDate(d.getUTCDate() + 1)
+    ) {
       const date = d.toISOString().slice(0, 10);
       if (date !== '2023-06-14') values.push({ date, value: d.getUTCDay() % 6 === 0 ? 0 : 1 });
     }
-    expect((await api.call('POST', `/v1/variables/${daily.json.id}/values`, { as: 'integration', body: { values } })).status).toBe(201);
+    expect(
+      (await api.call('POST', `/v1/variables/${daily.json.id}/values`, { as: 'integration', body: { values } })).status,
+    ).toBe(201);
     const afterValues = await databaseDigest(api.store.db);
     const gap = await api.call('POST', `/v1/meters/${meterId}/baselines`, {
       as: 'engineer',

@@ -25,8 +25,20 @@ async function frozenBaselineOn(stationId: string, id: string, start: string, en
     now: '2026-01-01T00:00:00.000Z',
   };
   const facility = await createFacility(ctx, { name: 'Depot D4 (invented)' });
-  const meter = await createMeter(ctx, facility.id, { name: 'Gas', fuel: 'natural gas', unit: 'therm', weatherStationId: stationId });
-  await insertBareBaseline(api.store.db, { id, organisationId: api.organisationId, meterId: meter.id, start, end, status: 'frozen' });
+  const meter = await createMeter(ctx, facility.id, {
+    name: 'Gas',
+    fuel: 'natural gas',
+    unit: 'therm',
+    weatherStationId: stationId,
+  });
+  await insertBareBaseline(api.store.db, {
+    id,
+    organisationId: api.organisationId,
+    meterId: meter.id,
+    start,
+    end,
+    status: 'frozen',
+  });
 }
 
 async function refused(method: 'POST', path: string, options: Parameters<TestApi['call']>[2]) {
@@ -59,7 +71,11 @@ afterEach(async () => {
 describe('POST /v1/weather-stations/{id}/imports', () => {
   it('imports a .dly file as the integration key, with its counts, on the audit trail', async () => {
     const url = `/v1/weather-stations/${celsius}/imports?format=ghcn-dly&station=${GHCN_ID}`;
-    const response = await api.call('POST', url, { as: 'integration', csv: DLY, headers: { 'content-type': 'text/plain' } });
+    const response = await api.call('POST', url, {
+      as: 'integration',
+      csv: DLY,
+      headers: { 'content-type': 'text/plain' },
+    });
     expect(response.status, response.text).toBe(200);
     expect(response.json).toMatchObject({
       stationId: celsius,
@@ -74,10 +90,15 @@ describe('POST /v1/weather-stations/{id}/imports', () => {
     });
     const listed = await api.call('GET', `/v1/weather-stations/${celsius}/observations?from=2024-02-01&to=2024-02-02`);
     // (−2.0 + 10.0)/2 = 4 °C, the common-practice mean of the day's extremes
-    expect(listed.json.observations).toEqual([{ date: '2024-02-01', temp: 4, tmin: -2, tmax: 10, filled: null, fillNote: null }]);
+    expect(listed.json.observations).toEqual([
+      { date: '2024-02-01', temp: 4, tmin: -2, tmax: 10, filled: null, fillNote: null },
+    ]);
     const trail = await api.call('GET', `/v1/audit?entity=weather-station&entityId=${celsius}`, { as: 'analyst' });
     const row = trail.json.entries.find((e: { action: string }) => e.action === 'import-observations');
-    expect(row.after.import).toMatchObject({ format: 'ghcn-dly', counts: { daysRead: 29, droppedByFlag: 1, missing: 2 } });
+    expect(row.after.import).toMatchObject({
+      format: 'ghcn-dly',
+      counts: { daysRead: 29, droppedByFlag: 1, missing: 2 },
+    });
     // The same file again changes nothing and writes no audit row.
     const again = await api.call('POST', url, { csv: DLY, headers: { 'content-type': 'text/plain' } });
     expect(again.json).toMatchObject({ created: 0, updated: 0, unchanged: 27 });
@@ -86,7 +107,9 @@ describe('POST /v1/weather-stations/{id}/imports', () => {
   it('imports GSOD CSV into a °F station', async () => {
     const fahrenheit = await station('F', 'Station south (invented)');
     const file = [GSOD_HEADER, gsodRow(GSOD_ID, '2024-03-01', '  50.5', '24', '  60.0', ' ', '  40.0', '*')].join('\n');
-    const response = await api.call('POST', `/v1/weather-stations/${fahrenheit}/imports?format=gsod-csv`, { csv: file });
+    const response = await api.call('POST', `/v1/weather-stations/${fahrenheit}/imports?format=gsod-csv`, {
+      csv: file,
+    });
     expect(response.status, response.text).toBe(200);
     const listed = await api.call('GET', `/v1/weather-stations/${fahrenheit}/observations`);
     expect(listed.json.observations[0]).toMatchObject({ date: '2024-03-01', temp: 50.5 });
@@ -103,10 +126,14 @@ describe('POST /v1/weather-stations/{id}/imports', () => {
     expect(truncated.json.detail).toMatch(/^ghcn-dly file, line 2, column 151: truncated line/);
     expect(truncated.json.errors[0].field).toBe('line 2, column 151');
 
-    const wrongStation = await refused('POST', `/v1/weather-stations/${celsius}/imports?format=ghcn-dly&station=ZZX00000009`, {
-      csv: DLY,
-      headers: { 'content-type': 'text/plain' },
-    });
+    const wrongStation = await refused(
+      'POST',
+      `/v1/weather-stations/${celsius}/imports?format=ghcn-dly&station=ZZX00000009`,
+      {
+        csv: DLY,
+        headers: { 'content-type': 'text/plain' },
+      },
+    );
     expect(wrongStation.status).toBe(400);
     expect(wrongStation.json.detail).toMatch(/does not match the expected station ZZX00000009/);
 
@@ -117,7 +144,9 @@ describe('POST /v1/weather-stations/{id}/imports', () => {
     expect(wrongFormat.status).toBe(400);
     expect(wrongFormat.json.detail).toMatch(/header lacks/);
 
-    const unknownFormat = await refused('POST', `/v1/weather-stations/${celsius}/imports?format=isd-lite`, { csv: DLY });
+    const unknownFormat = await refused('POST', `/v1/weather-stations/${celsius}/imports?format=isd-lite`, {
+      csv: DLY,
+    });
     expect(unknownFormat.status).toBe(400);
 
     const huge = await refused('POST', `/v1/weather-stations/${celsius}/imports?format=ghcn-dly`, {
@@ -135,7 +164,10 @@ describe('POST /v1/weather-stations/{id}/imports', () => {
     });
     expect(response.status).toBe(409);
     expect(response.json.detail).toMatch(/line 1 \(2024-02-20\)/);
-    const other = await refused('POST', `/v1/weather-stations/${celsius}/imports?format=ghcn-dly`, { as: 'other', csv: DLY });
+    const other = await refused('POST', `/v1/weather-stations/${celsius}/imports?format=ghcn-dly`, {
+      as: 'other',
+      csv: DLY,
+    });
     expect(other.status).toBe(404);
   });
 });
@@ -156,12 +188,22 @@ describe('POST /v1/weather-stations/{id}/gap-fills', () => {
       days.map((d) => ({ date: d.date, temp: d.temp - 2 })),
     );
     // The target lacks 11–12 January (2 days) and 20–24 January (5 days); the second station lacks 22 January.
-    const gapDays = new Set(['2025-01-11', '2025-01-12', '2025-01-20', '2025-01-21', '2025-01-22', '2025-01-23', '2025-01-24']);
+    const gapDays = new Set([
+      '2025-01-11',
+      '2025-01-12',
+      '2025-01-20',
+      '2025-01-21',
+      '2025-01-22',
+      '2025-01-23',
+      '2025-01-24',
+    ]);
     await put(
       celsius,
       days.filter((d) => !gapDays.has(d.date)),
     );
-    await api.call('PUT', `/v1/weather-stations/${second}/observations`, { body: { observations: [{ date: '2025-01-22', temp: 0 }] } });
+    await api.call('PUT', `/v1/weather-stations/${second}/observations`, {
+      body: { observations: [{ date: '2025-01-22', temp: 0 }] },
+    });
     // (the second station's 22 January is replaced by an observed 0 °C: it stays usable)
     const response = await api.call('POST', `/v1/weather-stations/${celsius}/gap-fills`, {
       body: { from: '2025-01-01', to: '2025-02-10', secondStationId: second },
@@ -187,10 +229,19 @@ describe('POST /v1/weather-stations/{id}/gap-fills', () => {
     expect(listed.json.observations[0].fillNote).toMatch(/^station .*: t = 2 \+ 1·t₂ \(RMSE 0 over 33 days\), t₂ = 0$/);
 
     // A second run finds the filled days and leaves them alone; an observation replaces a fill.
-    const again = await api.call('POST', `/v1/weather-stations/${celsius}/gap-fills`, { body: { from: '2025-01-01', to: '2025-02-10' } });
-    expect(again.json).toMatchObject({ filled: { interpolation: 0, secondStation: 0 }, alreadyFilled: 7, leftEmpty: [] });
+    const again = await api.call('POST', `/v1/weather-stations/${celsius}/gap-fills`, {
+      body: { from: '2025-01-01', to: '2025-02-10' },
+    });
+    expect(again.json).toMatchObject({
+      filled: { interpolation: 0, secondStation: 0 },
+      alreadyFilled: 7,
+      leftEmpty: [],
+    });
     await put(celsius, [{ date: '2025-01-11', temp: 8.5 }]);
-    const observed = await api.call('GET', `/v1/weather-stations/${celsius}/observations?from=2025-01-11&to=2025-01-12`);
+    const observed = await api.call(
+      'GET',
+      `/v1/weather-stations/${celsius}/observations?from=2025-01-11&to=2025-01-12`,
+    );
     expect(observed.json.observations[0]).toMatchObject({ temp: 8.5, filled: null, fillNote: null });
   });
 
@@ -199,7 +250,9 @@ describe('POST /v1/weather-stations/{id}/gap-fills', () => {
       { date: '2025-03-01', temp: 1 },
       { date: '2025-03-05', temp: 5 },
     ]);
-    const empty = await api.call('POST', `/v1/weather-stations/${celsius}/gap-fills`, { body: { from: '2025-03-01', to: '2025-03-06' } });
+    const empty = await api.call('POST', `/v1/weather-stations/${celsius}/gap-fills`, {
+      body: { from: '2025-03-01', to: '2025-03-06' },
+    });
     expect(empty.json.leftEmpty).toEqual(['2025-03-02', '2025-03-03', '2025-03-04']);
     // maxInterpolationDays 3 fills them: 1 + 4·k/4 = 2, 3, 4.
     await frozenBaselineOn(celsius, 'bas_frozen_fill', '2025-03-03', '2025-04-01');
@@ -242,7 +295,9 @@ describe('normal year from history and the station record', () => {
     expect(short.json.detail).toMatch(/fewer than 2 of the 2 years 2023–2024 on record: 06-15/);
     const even = await refused('POST', fromHistory, { body: { fromYear: 2023, toYear: 2024, windowDays: 14 } });
     expect(even.status).toBe(400);
-    await api.call('POST', `/v1/weather-stations/${celsius}/gap-fills`, { body: { from: '2024-06-01', to: '2024-07-01' } });
+    await api.call('POST', `/v1/weather-stations/${celsius}/gap-fills`, {
+      body: { from: '2024-06-01', to: '2024-07-01' },
+    });
     const built = await api.call('POST', fromHistory, { body: { fromYear: 2023, toYear: 2024, windowDays: 1 } });
     expect(built.status, built.text).toBe(200);
     expect(built.json.days[0]).toEqual({ day: '01-01', temp: 1 });

@@ -15,7 +15,12 @@ import { join } from 'node:path';
 import type { FastifyInstance } from 'fastify';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildApp } from '../../src/http/app.js';
-import { loadWorkbenchFiles, WORKBENCH_CSP, type WorkbenchFiles, type WorkbenchFolders } from '../../src/http/plugins/workbench.js';
+import {
+  loadWorkbenchFiles,
+  WORKBENCH_CSP,
+  type WorkbenchFiles,
+  type WorkbenchFolders,
+} from '../../src/http/plugins/workbench.js';
 import { openStore } from '../../src/store/connect.js';
 import type { Store } from '../../src/store/store.js';
 import { ROLE_PERMISSIONS } from '../../src/domain/principal.js';
@@ -70,7 +75,9 @@ describe('the /app static files', () => {
     expect(page.body).toContain(`href="${files.build}/workbench.css"`);
     expect(page.body).toContain(`src="${files.build}/workbench.js"`);
     expect(page.body).not.toContain('{{');
-    expect((await app.inject(`/app/${files.build}/workbench.css`)).headers['content-type']).toBe('text/css; charset=utf-8');
+    expect((await app.inject(`/app/${files.build}/workbench.css`)).headers['content-type']).toBe(
+      'text/css; charset=utf-8',
+    );
     const module = await app.inject(`/app/${files.build}/workbench.js`);
     expect(module.statusCode).toBe(200);
     expect(module.headers['content-type']).toBe('text/javascript; charset=utf-8');
@@ -89,7 +96,9 @@ describe('the /app static files', () => {
     try {
       writeFileSync(join(changed, 'workbench.js'), 'export const b = 3;\n'); // synthetic: one character differs
       expect(loadWorkbenchFiles({ public: join(folder, 'public'), modules: changed }).build).not.toBe(before);
-      expect(loadWorkbenchFiles({ public: join(folder, 'public'), modules: join(folder, 'modules') }).build).toBe(before);
+      expect(loadWorkbenchFiles({ public: join(folder, 'public'), modules: join(folder, 'modules') }).build).toBe(
+        before,
+      );
     } finally {
       rmSync(changed, { recursive: true, force: true });
     }
@@ -200,7 +209,12 @@ describe('/v1/me and /v1/baselines/{id}/points', () => {
 
     const periods = points.json.periods as { quantity: number; days: number; usePerDay: number }[];
     const meanQuantity = periods.reduce((sum, p) => sum + p.quantity, 0) / periods.length;
-    for (const candidate of points.json.candidates as { model: string; residuals: number[]; expectedPerDay: number[]; line: unknown[] }[]) {
+    for (const candidate of points.json.candidates as {
+      model: string;
+      residuals: number[];
+      expectedPerDay: number[];
+      line: unknown[];
+    }[]) {
       const document = fitted.find((c: { model: string }) => c.model === candidate.model);
       // residual = quantity − days × expected, as the route states
       candidate.residuals.forEach((e, i) =>
@@ -226,12 +240,18 @@ describe('/v1/me and /v1/baselines/{id}/points', () => {
     const byMeter = await api.call('GET', `/v1/meters/${meter.json.id}/baselines/newest`, { as: 'analyst' });
     expect(byMeter.status).toBe(200);
     expect(byMeter.json).toEqual((await api.call('GET', `/v1/baselines/${second.json.id}`, { as: 'analyst' })).json);
-    const newestPoints = await api.call('GET', `/v1/meters/${meter.json.id}/baselines/newest/points`, { as: 'analyst' });
-    expect(newestPoints.json).toEqual((await api.call('GET', `/v1/baselines/${second.json.id}/points`, { as: 'analyst' })).json);
+    const newestPoints = await api.call('GET', `/v1/meters/${meter.json.id}/baselines/newest/points`, {
+      as: 'analyst',
+    });
+    expect(newestPoints.json).toEqual(
+      (await api.call('GET', `/v1/baselines/${second.json.id}/points`, { as: 'analyst' })).json,
+    );
     expect(newestPoints.json.baselineId).toBe(second.json.id);
     // Another organisation sees neither.
     for (const path of ['newest', 'newest/points'])
-      expect((await api.call('GET', `/v1/meters/${meter.json.id}/baselines/${path}`, { as: 'other' })).status).toBe(404);
+      expect((await api.call('GET', `/v1/meters/${meter.json.id}/baselines/${path}`, { as: 'other' })).status).toBe(
+        404,
+      );
   });
 
   it('answers 404, saying so, for a meter with no baseline yet', async () => {
@@ -239,7 +259,10 @@ describe('/v1/me and /v1/baselines/{id}/points', () => {
       as: 'engineer',
       body: { name: 'Second station (invented)', temperatureUnit: 'C' },
     });
-    const facility = await api.call('POST', '/v1/facilities', { as: 'engineer', body: { name: 'Unfitted hall (invented)' } });
+    const facility = await api.call('POST', '/v1/facilities', {
+      as: 'engineer',
+      body: { name: 'Unfitted hall (invented)' },
+    });
     const meter = await api.call('POST', `/v1/facilities/${facility.json.id}/meters`, {
       as: 'engineer',
       body: { name: 'New meter (invented)', fuel: 'electricity', unit: 'kWh', weatherStationId: station.json.id },

@@ -31,14 +31,18 @@ describe('holderIsGone', () => {
   });
 
   it('says this process id under another start (a restarted process 1) is gone', () => {
-    expect(holderIsGone(formatHolder({ host: hostname(), pid: process.pid, startedAt: Date.now() - 3_600_000 }))).toBe(true);
+    expect(holderIsGone(formatHolder({ host: hostname(), pid: process.pid, startedAt: Date.now() - 3_600_000 }))).toBe(
+      true,
+    );
   });
 
   it('says a running process that started after the holder did (a reused id) is gone, and one started before is not', () => {
     const started = Date.now() - Math.round(process.uptime() * 1000);
     expect(holderIsGone(formatHolder({ host: hostname(), pid: process.ppid, startedAt: Date.now() }))).toBe(false);
     // The parent started before this process did, so a holder claiming a start long before that is an older process.
-    expect(holderIsGone(formatHolder({ host: hostname(), pid: process.ppid, startedAt: started - 10 * 365 * 86_400_000 }))).toBe(true);
+    expect(
+      holderIsGone(formatHolder({ host: hostname(), pid: process.ppid, startedAt: started - 10 * 365 * 86_400_000 })),
+    ).toBe(true);
   });
 
   it('never judges a holder on another host, or an unreadable one', () => {

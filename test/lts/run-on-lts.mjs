@@ -66,9 +66,13 @@ if (platform() !== 'linux' || arch() !== 'x64')
   skip(`the registry's Node.js binary package used here is for Linux x64, not ${platform()} ${arch()}`);
 const binary = ltsBinary();
 console.log(`Engine, report and command-line tests on Node.js ${LTS_VERSION} (LTS):`);
-const run = spawnSync(binary, [`${root}node_modules/vitest/vitest.mjs`, 'run', '--config', 'test/lts/vitest.config.ts'], {
-  cwd: root,
-  stdio: 'inherit',
-  env: { ...process.env, MVLEDGER_TEST_BROWSER: 'off' },
-});
+const run = spawnSync(
+  binary,
+  [`${root}node_modules/vitest/vitest.mjs`, 'run', '--config', 'test/lts/vitest.config.ts'],
+  {
+    cwd: root,
+    stdio: 'inherit',
+    env: { ...process.env, MVLEDGER_TEST_BROWSER: 'off' },
+  },
+);
 process.exit(run.status ?? 1);

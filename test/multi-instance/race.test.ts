@@ -17,7 +17,15 @@ import { openStore, type Store } from '../../src/store/connect.js';
 import { verifyAllAuditChains, verifyAuditChain } from '../../src/store/audit.js';
 import { dropTestDatabase, freshTestDatabaseUrl, testDialect } from '../support/database.js';
 import { CLIMATES, SAMPLE_BUILDING, dailyWeather, monthlyReadings, seededRandom } from '../support/synthetic.js';
-import { clientOf, describeOutputs, startInstance, stopInstance, type Answer, type Client, type Instance } from './support.js';
+import {
+  clientOf,
+  describeOutputs,
+  startInstance,
+  stopInstance,
+  type Answer,
+  type Client,
+  type Instance,
+} from './support.js';
 
 // synthetic: the test sets the truth (matches the bootstrap key pattern of src/config.ts).
 const BOOTSTRAP_KEY = 'mvl_racetest_HR1u0COStvcbKuf3IlnBWoUd9MJdfhX9CpGIgb7e'; // synthetic: a secret drawn once by crypto.randomBytes
@@ -29,9 +37,13 @@ const onPostgres = testDialect() === 'postgres';
 /** On a failed test: the 5xx answers (the first few) and what the services logged. */
 function reportFailure(instances: readonly Instance[], answers: readonly Answer[]): void {
   const failures = answers.filter((a) => a.status >= 500);
-  const listed = failures.slice(0, 10).map((a) => `${a.instance} ${a.method} ${a.path} → ${a.status}: ${a.text.slice(0, 300)}`);
+  const listed = failures
+    .slice(0, 10)
+    .map((a) => `${a.instance} ${a.method} ${a.path} → ${a.status}: ${a.text.slice(0, 300)}`);
   const more = failures.length > listed.length ? `\n(and ${failures.length - listed.length} more)` : '';
-  console.error(`${listed.length > 0 ? `5xx answers:\n${listed.join('\n')}${more}\n` : ''}service output:\n${describeOutputs(instances)}`);
+  console.error(
+    `${listed.length > 0 ? `5xx answers:\n${listed.join('\n')}${more}\n` : ''}service output:\n${describeOutputs(instances)}`,
+  );
 }
 
 describe.skipIf(!onPostgres)(
@@ -97,7 +109,9 @@ describe.skipIf(!onPostgres)(
     /** One station with its weather for every meter of the test, made on first use. */
     async function sharedStation(): Promise<string> {
       if (stationId) return stationId;
-      const station = await created(via(0)('POST', '/v1/weather-stations', { name: 'Invented ridge station', temperatureUnit: 'F' }));
+      const station = await created(
+        via(0)('POST', '/v1/weather-stations', { name: 'Invented ridge station', temperatureUnit: 'F' }),
+      );
       const observed = await via(1)('PUT', `/v1/weather-stations/${station.id}/observations`, {
         observations: weather.map((d) => ({ date: d.date, temp: d.temp })),
       });
@@ -135,7 +149,9 @@ describe.skipIf(!onPostgres)(
             return { start, end: addDays(start, 30), quantity: 1000 + 10 * i + k };
           }),
         );
-        const results = await Promise.all(batches.map((readings, i) => via(i)('POST', `/v1/meters/${meterId}/readings`, { readings })));
+        const results = await Promise.all(
+          batches.map((readings, i) => via(i)('POST', `/v1/meters/${meterId}/readings`, { readings })),
+        );
         expectNo5xx(results);
         const winners = results.flatMap((a, i) => (a.status === 201 ? [i] : []));
         expect(winners).toHaveLength(1); // the API contract: one batch wins, the rest overlap it
@@ -147,7 +163,9 @@ describe.skipIf(!onPostgres)(
         const stored = await via(round + 1)('GET', `/v1/meters/${meterId}/readings`);
         expect(stored.status).toBe(200);
         const winner = batches[winners[0]!]!;
-        expect(stored.json.readings.map((r: any) => ({ start: r.start, end: r.end, quantity: r.quantity }))).toEqual(winner); // synthetic: exactly the winning batch
+        expect(stored.json.readings.map((r: any) => ({ start: r.start, end: r.end, quantity: r.quantity }))).toEqual(
+          winner,
+        ); // synthetic: exactly the winning batch
       }
     });
 
@@ -165,7 +183,9 @@ describe.skipIf(!onPostgres)(
       const sent = batches.flat();
       const sentTotal = sent.reduce((sum, r) => sum + r.quantity, 0);
 
-      const results = await Promise.all(batches.map((readings, b) => via(b)('POST', `/v1/meters/${meterId}/readings`, { readings })));
+      const results = await Promise.all(
+        batches.map((readings, b) => via(b)('POST', `/v1/meters/${meterId}/readings`, { readings })),
+      );
       expectNo5xx(results);
       expect(results.map((a) => a.status)).toEqual(Array(40).fill(201)); // synthetic: disjoint batches never conflict
       expect(results.map((a) => a.json.created)).toEqual(Array(40).fill(50));
@@ -199,12 +219,16 @@ describe.skipIf(!onPostgres)(
         await created(via(round)('POST', `/v1/meters/${meterId}/readings`, { readings: bills }));
         // The two drafts are fitted at once too: their versions must still come out 1 and 2.
         const window = { start: '2023-01-01', end: '2025-01-01' };
-        const drafts = await Promise.all([0, 1].map((i) => created(via(i)('POST', `/v1/meters/${meterId}/baselines`, window))));
+        const drafts = await Promise.all(
+          [0, 1].map((i) => created(via(i)('POST', `/v1/meters/${meterId}/baselines`, window))),
+        );
         expect(drafts.map((d) => d.version).sort()).toEqual([1, 2]); // synthetic: two drafts of a new meter
 
         // Which instance sends first alternates by round, so either may win.
         const results = await Promise.all(
-          drafts.map((draft, i) => via(i + round)('POST', `/v1/baselines/${draft.id}/freeze`, { note: 'agreed at the race-test meeting' })),
+          drafts.map((draft, i) =>
+            via(i + round)('POST', `/v1/baselines/${draft.id}/freeze`, { note: 'agreed at the race-test meeting' }),
+          ),
         );
         expectNo5xx(results);
         expect(results.map((a) => a.status).sort()).toEqual([200, 409]); // the API contract: the second needs a supersedeReason
@@ -225,7 +249,9 @@ describe.skipIf(!onPostgres)(
         const name = `Idempotent hall ${round} (invented)`;
         const key = `race-key-${round}`;
         const results = await Promise.all(
-          Array.from({ length: 6 }, (_, i) => via(i + round)('POST', '/v1/facilities', { name }, { 'idempotency-key': key })),
+          Array.from({ length: 6 }, (_, i) =>
+            via(i + round)('POST', '/v1/facilities', { name }, { 'idempotency-key': key }),
+          ),
         );
         expectNo5xx(results);
         const listed = await via(round)('GET', '/v1/facilities');

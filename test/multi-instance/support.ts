@@ -127,10 +127,19 @@ export interface Answer {
 
 /** A JSON client of one instance that records every answer (so a test can check none was a 5xx). */
 export function clientOf(instance: Instance, key: string, log: Answer[]) {
-  return async (method: string, path: string, body?: unknown, headers: Record<string, string> = {}): Promise<Answer> => {
+  return async (
+    method: string,
+    path: string,
+    body?: unknown,
+    headers: Record<string, string> = {},
+  ): Promise<Answer> => {
     const response = await fetch(`${instance.base}${path}`, {
       method,
-      headers: { authorization: `Bearer ${key}`, ...(body === undefined ? {} : { 'content-type': 'application/json' }), ...headers },
+      headers: {
+        authorization: `Bearer ${key}`,
+        ...(body === undefined ? {} : { 'content-type': 'application/json' }),
+        ...headers,
+      },
       ...(body === undefined ? {} : { body: JSON.stringify(body) }),
       signal: AbortSignal.timeout(20_000),
     });
@@ -141,7 +150,15 @@ export function clientOf(instance: Instance, key: string, log: Answer[]) {
     } catch {
       json = undefined;
     }
-    const answer: Answer = { instance: instance.name, method, path, status: response.status, headers: response.headers, text, json };
+    const answer: Answer = {
+      instance: instance.name,
+      method,
+      path,
+      status: response.status,
+      headers: response.headers,
+      text,
+      json,
+    };
     log.push(answer);
     return answer;
   };

@@ -1,6 +1,13 @@
 import { readFileSync } from 'node:fs';
 import { describe, it, expect } from 'vitest';
-import { chooseBaseline, computeSavings, fitShape, type Period, type ShapeFit, type ShapeFitResult } from '../../src/engine/index.js';
+import {
+  chooseBaseline,
+  computeSavings,
+  fitShape,
+  type Period,
+  type ShapeFit,
+  type ShapeFitResult,
+} from '../../src/engine/index.js';
 import { periodsFromPoints } from '../support/synthetic.js';
 
 /**
@@ -90,11 +97,15 @@ const NUMERIC_CHANGEPOINT = 1e-6; // °C: R's optimize() places a changepoint on
 
 function expectRelativelyClose(actual: number, expected: number, tolerance: number, what = ''): void {
   const scale = Math.max(Math.abs(expected), Number.MIN_VALUE);
-  expect(Math.abs(actual - expected) / scale, `${what} actual ${actual}, expected ${expected}`).toBeLessThanOrEqual(tolerance);
+  expect(Math.abs(actual - expected) / scale, `${what} actual ${actual}, expected ${expected}`).toBeLessThanOrEqual(
+    tolerance,
+  );
 }
 
 function weeks(group: 'Before' | 'After'): { temp: number; usePerDay: number; days: number }[] {
-  return fixture.rows.filter((row) => row.insul === group).map((row) => ({ temp: row.temp, usePerDay: row.gas / DAYS, days: DAYS }));
+  return fixture.rows
+    .filter((row) => row.insul === group)
+    .map((row) => ({ temp: row.temp, usePerDay: row.gas / DAYS, days: DAYS }));
 }
 
 const before: Period[] = periodsFromPoints(weeks('Before'), '2001-01-01');
@@ -124,13 +135,28 @@ describe('the Before fit (2P) against R lm(Gas ~ Temp)', () => {
     expectRelativelyClose(line.parameters.intercept!, intercept / DAYS, LEAST_SQUARES, 'intercept');
     expectRelativelyClose(line.parameters.slope!, slope / DAYS, LEAST_SQUARES, 'slope');
     // R's weighted per-day fit, lm(I(Gas/7) ~ Temp, weights = 7), states the same directly.
-    expectRelativelyClose(line.rawCoefficients[0]!, fixture.before.perDay.coefficients[0], LEAST_SQUARES, 'intercept per day');
-    expectRelativelyClose(line.rawCoefficients[1]!, fixture.before.perDay.coefficients[1], LEAST_SQUARES, 'slope per day');
+    expectRelativelyClose(
+      line.rawCoefficients[0]!,
+      fixture.before.perDay.coefficients[0],
+      LEAST_SQUARES,
+      'intercept per day',
+    );
+    expectRelativelyClose(
+      line.rawCoefficients[1]!,
+      fixture.before.perDay.coefficients[1],
+      LEAST_SQUARES,
+      'slope per day',
+    );
   });
 
   it('coefficient standard errors and t values', () => {
     line.coefficients.forEach((coefficient, j) => {
-      expectRelativelyClose(coefficient.standardError, fixture.before.standardErrors[j]! / DAYS, LEAST_SQUARES, `SE ${coefficient.name}`); // R: summary(fit) Std. Error
+      expectRelativelyClose(
+        coefficient.standardError,
+        fixture.before.standardErrors[j]! / DAYS,
+        LEAST_SQUARES,
+        `SE ${coefficient.name}`,
+      ); // R: summary(fit) Std. Error
       expectRelativelyClose(
         coefficient.standardError,
         fixture.before.perDay.standardErrors[j]!,
@@ -145,7 +171,12 @@ describe('the Before fit (2P) against R lm(Gas ~ Temp)', () => {
     const sigma = fixture.before.residualStandardError; // R: summary(fit)$sigma, on fit$df.residual = 24
     expect(line.n - line.p).toBe(fixture.before.dfResidual);
     expectRelativelyClose(line.residualVariance, sigma ** 2 / DAYS, LEAST_SQUARES, 'σ² per day');
-    expectRelativelyClose(line.residualVariance, fixture.before.perDay.residualVariance, LEAST_SQUARES, 'σ² per day (R weighted)');
+    expectRelativelyClose(
+      line.residualVariance,
+      fixture.before.perDay.residualVariance,
+      LEAST_SQUARES,
+      'σ² per day (R weighted)',
+    );
     expectRelativelyClose(line.sse, fixture.before.sse / DAYS, LEAST_SQUARES, 'SSE'); // R: deviance(fit)
     // Energy residuals are R's residuals (Gas − fitted Gas), so the energy RMSE is R's σ.
     expectRelativelyClose(line.stats.rmse, sigma, LEAST_SQUARES, 'RMSE');
@@ -173,9 +204,19 @@ describe('the projection onto the After weeks against R predict()', () => {
       const single = computeSavings(line, [after[j]!], { ...noCorrection, confidence: 0.9 });
       const variance = (single.totals.uncertainty.exact.absolute / single.uncertaintyInputs.t) ** 2;
       expectRelativelyClose(Math.sqrt(variance - sigma2), week.seFit, LEAST_SQUARES, `week ${j} se.fit`); // R: predict(..., se.fit = TRUE)$se.fit
-      expectRelativelyClose(single.totals.uncertainty.exact.absolute, week.predictionHalfWidth90, T_QUANTILE, `week ${j} 90%`); // R: predict(..., interval = "prediction", level = 0.9)
+      expectRelativelyClose(
+        single.totals.uncertainty.exact.absolute,
+        week.predictionHalfWidth90,
+        T_QUANTILE,
+        `week ${j} 90%`,
+      ); // R: predict(..., interval = "prediction", level = 0.9)
       const at68 = computeSavings(line, [after[j]!], { ...noCorrection, confidence: 0.68 });
-      expectRelativelyClose(at68.totals.uncertainty.exact.absolute, week.predictionHalfWidth68, T_QUANTILE, `week ${j} 68%`); // R: the same at level = 0.68
+      expectRelativelyClose(
+        at68.totals.uncertainty.exact.absolute,
+        week.predictionHalfWidth68,
+        T_QUANTILE,
+        `week ${j} 68%`,
+      ); // R: the same at level = 0.68
     });
   });
 
@@ -192,14 +233,24 @@ describe('the projection onto the After weeks against R predict()', () => {
     expectRelativelyClose(variance, fixture.after.exactSavingsVariance, LEAST_SQUARES, 'Var(S)'); // R: see the script (checked there two ways)
     // Its model part alone: R's standard error of the summed predictions.
     const modelPart = variance - fixture.after.m * fixture.before.residualStandardError ** 2;
-    expectRelativelyClose(Math.sqrt(modelPart), fixture.after.sumPredictionsStandardError, LEAST_SQUARES, 'SE of Σ predictions'); // R: sqrt(c₀ᵀ vcov(fit) c₀)
+    expectRelativelyClose(
+      Math.sqrt(modelPart),
+      fixture.after.sumPredictionsStandardError,
+      LEAST_SQUARES,
+      'SE of Σ predictions',
+    ); // R: sqrt(c₀ᵀ vcov(fit) c₀)
   });
 
   it('the exact-variance band at 68% and 90%: R’s t quantile on 24 degrees of freedom times √Var', () => {
     for (const band of fixture.after.bands) {
       const at = computeSavings(line, after, { ...noCorrection, confidence: band.confidence });
       expectRelativelyClose(at.uncertaintyInputs.t, band.tCritical, T_QUANTILE, `t at ${band.confidence}`); // R: qt(1 − (1 − level)/2, 24)
-      expectRelativelyClose(at.totals.uncertainty.exact.absolute, band.halfWidth, T_QUANTILE, `band at ${band.confidence}`); // R: qt(…) · sqrt(Var)
+      expectRelativelyClose(
+        at.totals.uncertainty.exact.absolute,
+        band.halfWidth,
+        T_QUANTILE,
+        `band at ${band.confidence}`,
+      ); // R: qt(…) · sqrt(Var)
     }
   });
 });
@@ -242,11 +293,21 @@ describe('the shape choice on the Before weeks', () => {
     expectRelativelyClose(hinge.sse, heatingHinge.sse / DAYS, LEAST_SQUARES, '3PH SSE');
     expectRelativelyClose(hinge.parameters.base!, heatingHinge.coefficients[0] / DAYS, LEAST_SQUARES, '3PH base');
     // R's coefficient multiplies (c − Temp)₊, so dy/dx is its negative.
-    expectRelativelyClose(hinge.parameters.heatingSlope!, -heatingHinge.coefficients[1] / DAYS, LEAST_SQUARES, '3PH slope');
+    expectRelativelyClose(
+      hinge.parameters.heatingSlope!,
+      -heatingHinge.coefficients[1] / DAYS,
+      LEAST_SQUARES,
+      '3PH slope',
+    );
     // The engine counts the changepoint as a parameter (σ² = SSE/(n − 3)); lm() at a fixed c leaves
     // n − 2 df. The script states R's standard errors both ways.
     hinge.coefficients.forEach((c, j) => {
-      expectRelativelyClose(c.standardError, heatingHinge.standardErrorsChangepointCounted[j]! / DAYS, LEAST_SQUARES, `3PH SE ${c.name}`);
+      expectRelativelyClose(
+        c.standardError,
+        heatingHinge.standardErrorsChangepointCounted[j]! / DAYS,
+        LEAST_SQUARES,
+        `3PH SE ${c.name}`,
+      );
       expectRelativelyClose(
         c.standardError,
         (heatingHinge.standardErrors[j]! / DAYS) * Math.sqrt((hinge.n - 2) / (hinge.n - 3)),
@@ -260,7 +321,12 @@ describe('the shape choice on the Before weeks', () => {
     const broken = candidate('4P');
     expect(Math.abs(broken.changepoints.heating! - brokenLine.changepoint)).toBeLessThanOrEqual(NUMERIC_CHANGEPOINT); // R: optimize() on the SSE profile
     expect(brokenLine.changepointByIntersection).not.toBeNull();
-    expectRelativelyClose(broken.changepoints.heating!, brokenLine.changepointByIntersection!, LEAST_SQUARES, '4P changepoint'); // R: the two side lines' intersection
+    expectRelativelyClose(
+      broken.changepoints.heating!,
+      brokenLine.changepointByIntersection!,
+      LEAST_SQUARES,
+      '4P changepoint',
+    ); // R: the two side lines' intersection
     expectRelativelyClose(broken.sse, brokenLine.sse / DAYS, LEAST_SQUARES, '4P SSE');
     expectRelativelyClose(broken.parameters.slopeBelow!, brokenLine.slopeBelow / DAYS, LEAST_SQUARES, '4P slope below');
     expectRelativelyClose(broken.parameters.slopeAbove!, brokenLine.slopeAbove / DAYS, LEAST_SQUARES, '4P slope above');

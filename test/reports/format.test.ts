@@ -4,7 +4,14 @@
  * (ECMAScript: the nearer of the two candidates, the larger on a tie).
  */
 import { describe, it, expect } from 'vitest';
-import { decimalsFor, formatNumber, formatPercent, formatSigned, NO_VALUE, rateDecimals } from '../../src/reports/format.js';
+import {
+  decimalsFor,
+  formatNumber,
+  formatPercent,
+  formatSigned,
+  NO_VALUE,
+  rateDecimals,
+} from '../../src/reports/format.js';
 
 const MINUS = '\u2212';
 
@@ -32,7 +39,9 @@ describe('formatNumber', () => {
 
   it('is independent of the machine locale', () => {
     // hand-worked: a locale-aware formatter would give "1.234,6" in many European locales.
-    expect(formatNumber(1234.56, 1)).toBe((1234.56).toLocaleString('en-US', { minimumFractionDigits: 1, maximumFractionDigits: 1 }));
+    expect(formatNumber(1234.56, 1)).toBe(
+      (1234.56).toLocaleString('en-US', { minimumFractionDigits: 1, maximumFractionDigits: 1 }),
+    );
   });
 });
 

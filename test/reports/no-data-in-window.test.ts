@@ -18,10 +18,24 @@ const REASON = 'no reporting readings in 2026-04-01..2026-07-01';
 function reportWithEmptyHall() {
   const facilities: FacilityInput[] = SAMPLE_REPORT.facilities.map((f) => {
     if (f.id !== IDS.hall)
-      return { id: f.id, name: f.name, address: f.address, contract: f.contract, meters: f.meters, guarantees: f.guarantees };
+      return {
+        id: f.id,
+        name: f.name,
+        address: f.address,
+        contract: f.contract,
+        meters: f.meters,
+        guarantees: f.guarantees,
+      };
     const meters = f.meters.map((m) =>
       missingMeterReport(
-        { id: m.id, name: m.name, fuel: m.fuel, unit: m.unit, weatherStationId: m.weatherStationId, temperatureUnit: m.temperatureUnit },
+        {
+          id: m.id,
+          name: m.name,
+          fuel: m.fuel,
+          unit: m.unit,
+          weatherStationId: m.weatherStationId,
+          temperatureUnit: m.temperatureUnit,
+        },
         m.baseline,
         REASON,
         [],
@@ -65,8 +79,14 @@ describe('facilities and meters with no reporting data showed "0.0 ± 0.0" and l
     expect(report.notices).toContain(
       `${hall.name}: no data in this window: no meter has reporting figures; the facility is left out of the portfolio's sums`,
     );
-    expect(report.notices.some((n) => n.includes('no data in this window, left out of the sums: ' + REASON))).toBe(true);
-    expect(report.notices.some((n) => n.includes(`contract year ${hall.guarantees[0]!.contractYear}: no data in this window`))).toBe(true);
+    expect(report.notices.some((n) => n.includes('no data in this window, left out of the sums: ' + REASON))).toBe(
+      true,
+    );
+    expect(
+      report.notices.some((n) =>
+        n.includes(`contract year ${hall.guarantees[0]!.contractYear}: no data in this window`),
+      ),
+    ).toBe(true);
   });
 
   it('shows "no data in this window" in the HTML, never 0.0 ± 0.0 or a verdict for the empty facility', () => {

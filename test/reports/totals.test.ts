@@ -11,7 +11,14 @@ const on = <T>(total: T, station = 'wst_a') => ({ total, station });
 import { mergeRanges } from '../../src/reports/meter-report.js';
 
 const total = (savings: number, uncertainty: number, unit = 'MMBtu') =>
-  energyTotal(unit, { actual: 100 - savings, modelBaseline: 100, adjustments: 0, adjustedBaseline: 100, savings, uncertainty });
+  energyTotal(unit, {
+    actual: 100 - savings,
+    modelBaseline: 100,
+    adjustments: 0,
+    adjustedBaseline: 100,
+    savings,
+    uncertainty,
+  });
 
 describe('sumTotals', () => {
   it('adds the figures and combines the ± in quadrature', () => {
@@ -24,10 +31,9 @@ describe('sumTotals', () => {
   it('combines the ± with the roll-up’s correlation: within a station and across stations (hand-worked)', () => {
     const parts = [on(total(10, 3), 'a'), on(total(20, 4), 'a'), on(total(5, 12), 'b')];
     // 9 + 16 + 144 + 2·0.5·3·4 (within a) + 2·0.25·(3·12 + 4·12) (across) = 169 + 12 + 42 = 223
-    expect(sumTotals('MMBtu', parts, { correlation: { withinGroup: 0.5, acrossGroups: 0.25 } }).uncertainty).toBeCloseTo(
-      Math.sqrt(223),
-      12,
-    );
+    expect(
+      sumTotals('MMBtu', parts, { correlation: { withinGroup: 0.5, acrossGroups: 0.25 } }).uncertainty,
+    ).toBeCloseTo(Math.sqrt(223), 12);
   });
   it('gives zeros and no fraction for nothing', () => {
     expect(sumTotals('GJ', [])).toMatchObject({ savings: 0, uncertainty: 0, fractionSaved: null });

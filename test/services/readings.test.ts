@@ -29,10 +29,18 @@ let meterId: string;
 
 async function addMeter(station: string, name: string): Promise<string> {
   const facility = await createFacility(ctx, { name: `${name} hall (invented)` });
-  return (await createMeter(ctx, facility.id, { name, fuel: 'electricity', unit: 'kWh', weatherStationId: station })).id;
+  return (await createMeter(ctx, facility.id, { name, fuel: 'electricity', unit: 'kWh', weatherStationId: station }))
+    .id;
 }
 
-async function addBaseline(meter: string, id: string, start: string, end: string, status: BaselineStatus, version = 1): Promise<void> {
+async function addBaseline(
+  meter: string,
+  id: string,
+  start: string,
+  end: string,
+  status: BaselineStatus,
+  version = 1,
+): Promise<void> {
   await insertBareBaseline(api.store.db, {
     id,
     organisationId: api.organisationId,
@@ -84,8 +92,16 @@ describe('postReadings', () => {
     expect(result).toEqual({ meterId, received: count, created: count, corrected: 0, unchanged: 0 });
     const stored = await listReadings(api.store.db, api.organisationId, meterId);
     expect(stored.readings).toHaveLength(count);
-    expect(stored.readings[count - 1]).toMatchObject({ start: addDays('2020-01-01', count - 1), days: 1, quantity: count - 1 });
-    const audits = await api.store.db.selectFrom('audit_log').select('after_json').where('action', '=', 'post-readings').execute();
+    expect(stored.readings[count - 1]).toMatchObject({
+      start: addDays('2020-01-01', count - 1),
+      days: 1,
+      quantity: count - 1,
+    });
+    const audits = await api.store.db
+      .selectFrom('audit_log')
+      .select('after_json')
+      .where('action', '=', 'post-readings')
+      .execute();
     expect(audits).toHaveLength(1); // one row per batch, never per reading
     // synthetic: the first reading sent, with named fields
     expect(JSON.parse(audits[0]!.after_json!).created[0]).toEqual({
@@ -121,7 +137,9 @@ describe('postReadings', () => {
         { start: '2024-02-10', end: '2024-02-20', quantity: 1 },
       ],
     });
-    const problem = await problemOf(postReadings(ctx, meterId, { readings: [{ start: '2024-01-01', end: '2024-03-01', quantity: 10 }] }));
+    const problem = await problemOf(
+      postReadings(ctx, meterId, { readings: [{ start: '2024-01-01', end: '2024-03-01', quantity: 10 }] }),
+    );
     expect(problem.detail).toContain('2024-02-01..2024-02-10, 2024-02-10..2024-02-20');
   });
 
@@ -139,7 +157,10 @@ describe('postReadings', () => {
   it('treats a blank correction reason as none', async () => {
     await postReadings(ctx, meterId, { readings: [{ start: '2024-01-01', end: '2024-02-01', quantity: 1 }] });
     const problem = await problemOf(
-      postReadings(ctx, meterId, { readings: [{ start: '2024-01-01', end: '2024-02-01', quantity: 2 }], correctionReason: '   ' }),
+      postReadings(ctx, meterId, {
+        readings: [{ start: '2024-01-01', end: '2024-02-01', quantity: 2 }],
+        correctionReason: '   ',
+      }),
     );
     expect(problem.kind).toBe('conflict');
   });
@@ -156,7 +177,9 @@ describe('postReadings', () => {
 
   it('refuses a cost that is not finite', async () => {
     const problem = await problemOf(
-      postReadings(ctx, meterId, { readings: [{ start: '2024-01-01', end: '2024-02-01', quantity: 1, cost: Number.NaN }] }),
+      postReadings(ctx, meterId, {
+        readings: [{ start: '2024-01-01', end: '2024-02-01', quantity: 1, cost: Number.NaN }],
+      }),
     );
     expect(problem.kind).toBe('invalid');
     expect(problem.errors?.[0]?.field).toBe('readings[0].cost');
@@ -170,11 +193,17 @@ describe('frozen windows', () => {
     await addBaseline(meterId, 'bsl_new', '2023-01-01', '2024-01-01', 'frozen', 2);
     await addBaseline(meterId, 'bsl_draft', '2024-01-01', '2025-01-01', 'draft', 3);
     await addBaseline(otherMeter, 'bsl_annexe', '2021-01-01', '2022-01-01', 'frozen', 1);
-    expect((await frozenWindowsForMeter(api.store.db, meterId)).map((w) => [w.baselineId, w.status, w.start, w.end])).toEqual([
+    expect(
+      (await frozenWindowsForMeter(api.store.db, meterId)).map((w) => [w.baselineId, w.status, w.start, w.end]),
+    ).toEqual([
       ['bsl_old', 'superseded', '2022-01-01', '2023-01-01'],
       ['bsl_new', 'frozen', '2023-01-01', '2024-01-01'],
     ]);
-    expect((await frozenWindowsForStation(api.store.db, stationId)).map((w) => w.baselineId)).toEqual(['bsl_annexe', 'bsl_old', 'bsl_new']);
+    expect((await frozenWindowsForStation(api.store.db, stationId)).map((w) => w.baselineId)).toEqual([
+      'bsl_annexe',
+      'bsl_old',
+      'bsl_new',
+    ]);
   });
 
   it('are empty for a station whose meters have no frozen baselines', async () => {
@@ -184,7 +213,9 @@ describe('frozen windows', () => {
   });
 
   it('refuse writes meeting [start, end) and let touching ones through', () => {
-    const windows: FrozenWindow[] = [{ baselineId: 'bsl_a', meterId: 'mtr_a', status: 'frozen', start: '2024-01-01', end: '2025-01-01' }];
+    const windows: FrozenWindow[] = [
+      { baselineId: 'bsl_a', meterId: 'mtr_a', status: 'frozen', start: '2024-01-01', end: '2025-01-01' },
+    ];
     const name = (write: { start: string }) => `write ${write.start}`;
     // hand-worked: periods ending on the window start, or starting on its end, do not meet it.
     expect(() =>
@@ -221,13 +252,18 @@ describe('frozen windows', () => {
 
   it('protect a superseded window from new readings', async () => {
     await addBaseline(meterId, 'bsl_history', '2022-01-01', '2023-01-01', 'superseded');
-    const problem = await problemOf(postReadings(ctx, meterId, { readings: [{ start: '2022-05-01', end: '2022-06-01', quantity: 1 }] }));
+    const problem = await problemOf(
+      postReadings(ctx, meterId, { readings: [{ start: '2022-05-01', end: '2022-06-01', quantity: 1 }] }),
+    );
     expect(problem.kind).toBe('frozen');
     expect(problem.detail).toContain('superseded baseline bsl_history');
   });
 
   it('leave a draft window open', async () => {
     await addBaseline(meterId, 'bsl_draft', '2022-01-01', '2023-01-01', 'draft');
-    expect((await postReadings(ctx, meterId, { readings: [{ start: '2022-05-01', end: '2022-06-01', quantity: 1 }] })).created).toBe(1);
+    expect(
+      (await postReadings(ctx, meterId, { readings: [{ start: '2022-05-01', end: '2022-06-01', quantity: 1 }] }))
+        .created,
+    ).toBe(1);
   });
 });

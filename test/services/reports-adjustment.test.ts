@@ -19,8 +19,9 @@ let meter = '';
 
 beforeAll(async () => {
   api = await makeTestApi();
-  const station = (await api.call('POST', '/v1/weather-stations', { body: { name: 'Invented fen station', temperatureUnit: 'F' } })).json
-    .id;
+  const station = (
+    await api.call('POST', '/v1/weather-stations', { body: { name: 'Invented fen station', temperatureUnit: 'F' } })
+  ).json.id;
   await api.call('PUT', `/v1/weather-stations/${station}/observations`, {
     body: { observations: WEATHER.map((d) => ({ date: d.date, temp: d.temp })) },
   });
@@ -32,8 +33,12 @@ beforeAll(async () => {
     const id = (await api.call('POST', `/v1/facilities/${facility}/meters`, { body })).json.id;
     const readings = BILLS.map((r) => ({ start: r.start, end: r.end, quantity: r.quantity }));
     await api.call('POST', `/v1/meters/${id}/readings`, { body: { readings } });
-    const draft = (await api.call('POST', `/v1/meters/${id}/baselines`, { body: { start: '2023-01-01', end: '2025-01-01' } })).json.id;
-    expect((await api.call('POST', `/v1/baselines/${draft}/freeze`, { body: { note: 'Agreed (test)' } })).status).toBe(200);
+    const draft = (
+      await api.call('POST', `/v1/meters/${id}/baselines`, { body: { start: '2023-01-01', end: '2025-01-01' } })
+    ).json.id;
+    expect((await api.call('POST', `/v1/baselines/${draft}/freeze`, { body: { note: 'Agreed (test)' } })).status).toBe(
+      200,
+    );
     meters.push(id);
   }
   meter = meters[0]!;

@@ -48,7 +48,9 @@ describe('NOAA daily normals CSV', () => {
   });
 
   it('converts °F once to a °C station (NIST SP 811)', () => {
-    const file = normalsAccessCsv({ change: (day, cells) => day === '01-01' && (cells['DLY-TAVG-NORMAL'] = '    50.0') });
+    const file = normalsAccessCsv({
+      change: (day, cells) => day === '01-01' && (cells['DLY-TAVG-NORMAL'] = '    50.0'),
+    });
     const year = readDailyNormalsCsv(file, { unit: 'C' });
     expect(year.days[0]).toEqual({ day: '01-01', temp: 10 }); // (50 − 32)/1.8 = 10 exactly
     expect(year.days[1]!.temp).toBeCloseTo((Number(normalsValues(1).tavg) - 32) / 1.8, 6);
@@ -71,7 +73,8 @@ describe('NOAA daily normals CSV', () => {
 
   it('keeps a value flagged X (a nonzero value rounded to zero) as a value', () => {
     const file = normalsArchiveCsv({
-      change: (day, cells) => day === '01-10' && Object.assign(cells, { 'DLY-TAVG-NORMAL': '0.0', 'meas_flag_DLY-TAVG-NORMAL': 'X' }),
+      change: (day, cells) =>
+        day === '01-10' && Object.assign(cells, { 'DLY-TAVG-NORMAL': '0.0', 'meas_flag_DLY-TAVG-NORMAL': 'X' }),
     });
     expect(readDailyNormalsCsv(file, F).days[9]).toEqual({ day: '01-10', temp: 0 });
   });
@@ -79,7 +82,8 @@ describe('NOAA daily normals CSV', () => {
   describe('refuses bad input with one error naming the line and column', () => {
     it('a day with no usable normal at all', () => {
       const file = normalsAccessCsv({
-        change: (day, cells) => day === '03-03' && Object.assign(cells, { 'DLY-TAVG-NORMAL': ' -9999.0', 'DLY-TMAX-NORMAL': ' -9999.0' }),
+        change: (day, cells) =>
+          day === '03-03' && Object.assign(cells, { 'DLY-TAVG-NORMAL': ' -9999.0', 'DLY-TMAX-NORMAL': ' -9999.0' }),
       });
       const error = formatError(() => readDailyNormalsCsv(file, F));
       expect(error.message).toBe(
@@ -88,7 +92,9 @@ describe('NOAA daily normals CSV', () => {
     });
 
     it('a value that is not a number', () => {
-      const file = normalsAccessCsv({ change: (day, cells) => day === '07-04' && (cells['DLY-TMAX-NORMAL'] = '  8x.1') });
+      const file = normalsAccessCsv({
+        change: (day, cells) => day === '07-04' && (cells['DLY-TMAX-NORMAL'] = '  8x.1'),
+      });
       expect(formatError(() => readDailyNormalsCsv(file, F)).message).toBe(
         `line ${lineOf('07-04')}, column 9 (DLY-TMAX-NORMAL): must be a number, got "8x.1"`,
       );
@@ -126,12 +132,15 @@ describe('NOAA daily normals CSV', () => {
     });
 
     it('another station than expected, or two stations in one file', () => {
-      expect(formatError(() => readDailyNormalsCsv(normalsAccessCsv(), { unit: 'F', expectedStationId: 'ZZC00099999' })).message).toBe(
-        `line 2, column 1 (STATION): station id ${NORMALS_ID} does not match the expected station ZZC00099999`,
-      );
+      expect(
+        formatError(() => readDailyNormalsCsv(normalsAccessCsv(), { unit: 'F', expectedStationId: 'ZZC00099999' }))
+          .message,
+      ).toBe(`line 2, column 1 (STATION): station id ${NORMALS_ID} does not match the expected station ZZC00099999`);
       const mixed = normalsAccessCsv({ change: (day, cells) => day === '05-05' && (cells.STATION = 'ZZC00011111') });
       expect(formatError(() => readDailyNormalsCsv(mixed, F)).message).toMatch(
-        new RegExp(`^line ${lineOf('05-05')}, column 1 \\(STATION\\): station id ZZC00011111 differs from ${NORMALS_ID}`),
+        new RegExp(
+          `^line ${lineOf('05-05')}, column 1 \\(STATION\\): station id ZZC00011111 differs from ${NORMALS_ID}`,
+        ),
       );
     });
 

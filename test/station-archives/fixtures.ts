@@ -91,7 +91,8 @@ export const NORMALS_ID = 'ZZC00054321';
 /** Every calendar day MM-DD of a leap year, 02-29 included (366). */
 export function normalsDays(): string[] {
   const days: string[] = [];
-  for (let t = Date.UTC(2024, 0, 1); t < Date.UTC(2025, 0, 1); t += 86_400_000) days.push(new Date(t).toISOString().slice(5, 10));
+  for (let t = Date.UTC(2024, 0, 1); t < Date.UTC(2025, 0, 1); t += 86_400_000)
+    days.push(new Date(t).toISOString().slice(5, 10));
   return days;
 }
 
@@ -153,7 +154,9 @@ export function normalsAccessCsv(
  * The by-station archive form of the readme: STATION, LATITUDE, LONGITUDE, ELEVATION, NAME, month, day,
  * hour, then per quantity four columns (value, meas_flag_, comp_flag_, years_); unquoted except the name.
  */
-export function normalsArchiveCsv(options: { change?: (day: string, cells: Record<string, string>) => void } = {}): string {
+export function normalsArchiveCsv(
+  options: { change?: (day: string, cells: Record<string, string>) => void } = {},
+): string {
   const quantities = ['DLY-TAVG-NORMAL', 'DLY-TMAX-NORMAL', 'DLY-TMIN-NORMAL'];
   const columns = [
     'STATION',
@@ -180,7 +183,12 @@ export function normalsArchiveCsv(options: { change?: (day: string, cells: Recor
     };
     const values = [v.tavg, v.tmax, v.tmin];
     quantities.forEach((q, i) =>
-      Object.assign(cells, { [q]: values[i]!.padStart(8), [`meas_flag_${q}`]: ' ', [`comp_flag_${q}`]: 'S', [`years_${q}`]: '30' }),
+      Object.assign(cells, {
+        [q]: values[i]!.padStart(8),
+        [`meas_flag_${q}`]: ' ',
+        [`comp_flag_${q}`]: 'S',
+        [`years_${q}`]: '30',
+      }),
     );
     options.change?.(day, cells);
     return columns.map((c) => cells[c] ?? '').join(',');

@@ -92,7 +92,9 @@ describe('GHCN-Daily .dly', () => {
   });
 
   it('refuses a station id that does not match, and a second station in one file', () => {
-    const wrong = formatError(() => readStationArchive('ghcn-dly', file, { unit: 'C', expectedStationId: 'ZZX00099999' }));
+    const wrong = formatError(() =>
+      readStationArchive('ghcn-dly', file, { unit: 'C', expectedStationId: 'ZZX00099999' }),
+    );
     expect([wrong.line, wrong.column]).toEqual([1, 1]);
     expect(wrong.detail).toMatch(/does not match the expected station ZZX00099999/);
     const mixed = `${file}\n${dlyLine('ZZX00099999', 2023, 5, 'TMAX', repeat(1, 31))}`;
@@ -104,7 +106,9 @@ describe('GHCN-Daily .dly', () => {
     const e1 = formatError(() => readStationArchive('ghcn-dly', dlyLine(GHCN_ID, 2023, 4, 'TMAX', bad), { unit: 'C' }));
     expect([e1.line, e1.column]).toEqual([1, 22 + 8 * 30]);
     const line = dlyLine(GHCN_ID, 2023, 4, 'TMAX', repeat(10, 30));
-    const e2 = formatError(() => readStationArchive('ghcn-dly', `${line.slice(0, 29)}  1x0${line.slice(34)}`, { unit: 'C' }));
+    const e2 = formatError(() =>
+      readStationArchive('ghcn-dly', `${line.slice(0, 29)}  1x0${line.slice(34)}`, { unit: 'C' }),
+    );
     expect([e2.line, e2.column]).toEqual([1, 30]);
     const e3 = formatError(() => readStationArchive('ghcn-dly', `${line}\n${line}`, { unit: 'C' }));
     expect(e3.detail).toMatch(/repeats line 1/);
@@ -112,7 +116,9 @@ describe('GHCN-Daily .dly', () => {
 
   it('refuses a file in another format with a clear message', () => {
     const csv = `${GHCN_ID},20240101,TMAX,100,,,S,`;
-    expect(formatError(() => readStationArchive('ghcn-dly', csv, { unit: 'C' })).detail).toMatch(/looks like a CSV file/);
+    expect(formatError(() => readStationArchive('ghcn-dly', csv, { unit: 'C' })).detail).toMatch(
+      /looks like a CSV file/,
+    );
   });
 });
 
@@ -133,13 +139,22 @@ describe('GHCN-Daily by-station CSV', () => {
     expect(days.get('2024-02-28')).toMatchObject({ tmin: -2, tmax: 10, line: 1 });
     expect(days.has('2024-02-29')).toBe(false);
     expect(days.get('2024-03-01')).toMatchObject({ temp: 5.5 });
-    expect(result.counts).toEqual({ daysRead: 4, imported: 2, droppedByFlag: 1, missing: 2, droppedFlags: { I: 1 }, otherElements: 1 });
+    expect(result.counts).toEqual({
+      daysRead: 4,
+      imported: 2,
+      droppedByFlag: 1,
+      missing: 2,
+      droppedFlags: { I: 1 },
+      otherElements: 1,
+    });
   });
 
   it('names line and field of a bad value, an unknown element and a wrong station', () => {
     const e1 = formatError(() => readStationArchive('ghcn-csv', `${GHCN_ID},20240230,TMAX,1,,,S,`, { unit: 'C' }));
     expect(e1.message).toBe('line 1, column 2 (YEAR/MONTH/DAY): must be a real date as YYYYMMDD, got "20240230"');
-    const e2 = formatError(() => readStationArchive('ghcn-csv', `${file}\n${GHCN_ID},20240303,XTMP,1,,,S,`, { unit: 'C' }));
+    const e2 = formatError(() =>
+      readStationArchive('ghcn-csv', `${file}\n${GHCN_ID},20240303,XTMP,1,,,S,`, { unit: 'C' }),
+    );
     expect(e2.place).toBe('line 8, column 3 (ELEMENT)');
     const e3 = formatError(() => readStationArchive('ghcn-csv', file, { unit: 'C', expectedStationId: 'ZZX00000001' }));
     expect(e3.place).toBe('line 1, column 1 (ID)');
@@ -164,7 +179,14 @@ describe('GSOD CSV', () => {
     expect(days.get('2024-02-29')!.temp).toBe(0); // 32 °F = 0 °C
     expect(days.get('2024-03-01')).toMatchObject({ tmin: 10, tmax: 20 }); // 50 °F, 68 °F
     expect(days.has('2024-03-02')).toBe(false);
-    expect(result.counts).toEqual({ daysRead: 4, imported: 3, droppedByFlag: 0, missing: 1, droppedFlags: {}, otherElements: 0 });
+    expect(result.counts).toEqual({
+      daysRead: 4,
+      imported: 3,
+      droppedByFlag: 0,
+      missing: 1,
+      droppedFlags: {},
+      otherElements: 0,
+    });
     expect(byDate(readStationArchive('gsod-csv', file, { unit: 'F' })).get('2024-02-28')!.temp).toBe(50);
   });
 
@@ -173,7 +195,9 @@ describe('GSOD CSV', () => {
     expect(formatError(() => readStationArchive('gsod-csv', bad, { unit: 'F' })).place).toBe('line 3, column 7 (TEMP)');
     const cut = `${file}\n"${GSOD_ID}","2024-03-03","10.0"`;
     expect(formatError(() => readStationArchive('gsod-csv', cut, { unit: 'F' })).place).toBe('line 6, column 4');
-    const other = formatError(() => readStationArchive('gsod-csv', file, { unit: 'F', expectedStationId: '99999954321' }));
+    const other = formatError(() =>
+      readStationArchive('gsod-csv', file, { unit: 'F', expectedStationId: '99999954321' }),
+    );
     expect(other.place).toBe('line 2, column 1 (STATION)');
     const dly = formatError(() => readStationArchive('gsod-csv', `${GHCN_ID}202402TMAX  100  S`, { unit: 'F' }));
     expect(dly.detail).toMatch(/the header lacks/);

@@ -18,7 +18,13 @@ import type { FastifyInstance } from 'fastify';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runDemo, type DemoSeed } from '../../src/demo/main.js';
 import { buildApp } from '../../src/http/app.js';
-import { BackupInputError, backupSqlite, postgresGuidance, restoreSqlite, verifyLedger } from '../../src/store/backup/index.js';
+import {
+  BackupInputError,
+  backupSqlite,
+  postgresGuidance,
+  restoreSqlite,
+  verifyLedger,
+} from '../../src/store/backup/index.js';
 import { openStore, type Store } from '../../src/store/connect.js';
 import { testDialect } from '../support/database.js';
 
@@ -153,7 +159,9 @@ describe.skipIf(testDialect() !== 'sqlite')('backup and restore of a SQLite ledg
   });
 
   it('refuses to restore over a database the service has open', async () => {
-    await expect(restoreSqlite(file('backup.sqlite'), file('source.sqlite'), { force: true })).rejects.toThrow(BackupInputError);
+    await expect(restoreSqlite(file('backup.sqlite'), file('source.sqlite'), { force: true })).rejects.toThrow(
+      BackupInputError,
+    );
     await expect(restoreSqlite(file('backup.sqlite'), file('source.sqlite'), { force: true })).rejects.toThrow(
       /is in use .*stop the service/,
     );

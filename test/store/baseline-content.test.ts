@@ -19,7 +19,13 @@ let row: BaselineRow;
 beforeAll(async () => {
   store = openStore('sqlite::memory:');
   await migrateToLatest(store.db);
-  await generatePortfolio(store.db, { facilities: 1, metersPerFacility: 1, stations: 1, archetypesPerStation: 1, seed: 5 });
+  await generatePortfolio(store.db, {
+    facilities: 1,
+    metersPerFacility: 1,
+    stations: 1,
+    archetypesPerStation: 1,
+    seed: 5,
+  });
   row = (await store.db.selectFrom('baselines').selectAll().executeTakeFirstOrThrow()) as BaselineRow;
 }, 60_000);
 

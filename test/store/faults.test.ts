@@ -13,12 +13,16 @@ const withCode = (code: string, message = 'failed') => Object.assign(new Error(m
 
 describe('databaseFault', () => {
   it('names a lost connection', () => {
-    expect(databaseFault(withCode('57P01', 'terminating connection due to administrator command'))).toBe('connection-lost');
+    expect(databaseFault(withCode('57P01', 'terminating connection due to administrator command'))).toBe(
+      'connection-lost',
+    );
     expect(databaseFault(withCode('57P02'))).toBe('connection-lost');
     expect(databaseFault(withCode('08006'))).toBe('connection-lost');
     expect(databaseFault(withCode('ECONNRESET'))).toBe('connection-lost');
     expect(databaseFault(new Error('Connection terminated unexpectedly'))).toBe('connection-lost');
-    expect(databaseFault(new Error('Client has encountered a connection error and is not queryable'))).toBe('connection-lost');
+    expect(databaseFault(new Error('Client has encountered a connection error and is not queryable'))).toBe(
+      'connection-lost',
+    );
   });
 
   it('names a database that cannot be reached', () => {
@@ -58,7 +62,9 @@ describe('databaseFault', () => {
   });
 
   it('makes log records without a connection string', () => {
-    const record = faultRecord(withCode('28P01', 'password authentication failed for postgres://ledger:hunter2@db:5432/ledger'));
+    const record = faultRecord(
+      withCode('28P01', 'password authentication failed for postgres://ledger:hunter2@db:5432/ledger'),
+    );
     expect(record).toEqual({ fault: null, code: '28P01', message: 'password authentication failed for (url)' });
     expect(JSON.stringify(record)).not.toContain('hunter2');
   });

@@ -52,7 +52,10 @@ describe('migrations', () => {
 
       const db = store.db;
       const at = '2026-01-01T00:00:00.000Z';
-      await db.insertInto('organisations').values({ id: 'org_m', name: 'Migration test org', created_at: at }).execute();
+      await db
+        .insertInto('organisations')
+        .values({ id: 'org_m', name: 'Migration test org', created_at: at })
+        .execute();
       await db
         .insertInto('weather_stations')
         .values({ id: 'wst_m', organisation_id: 'org_m', name: 'S', temperature_unit: 'F', created_at: at })
@@ -122,7 +125,10 @@ describe('migrations', () => {
       const formMigration = '0004_baseline_form_and_overrides';
       for (const name of names.slice(0, names.indexOf(formMigration))) await migrations[name]!.up(db);
       const at = '2026-01-01T00:00:00.000Z';
-      await db.insertInto('organisations').values({ id: 'org_m', name: 'Migration test org', created_at: at }).execute();
+      await db
+        .insertInto('organisations')
+        .values({ id: 'org_m', name: 'Migration test org', created_at: at })
+        .execute();
       await db
         .insertInto('weather_stations')
         .values({ id: 'wst_m', organisation_id: 'org_m', name: 'S', temperature_unit: 'F', created_at: at })
@@ -168,7 +174,13 @@ describe('migrations', () => {
         .execute();
       await db
         .insertInto('baselines')
-        .values(oldRow('bsl_day', 2, '{"candidates":[],"selected":"3PH","settings":{"temperatureForm":"daily"},"temperatureForm":"daily"}'))
+        .values(
+          oldRow(
+            'bsl_day',
+            2,
+            '{"candidates":[],"selected":"3PH","settings":{"temperatureForm":"daily"},"temperatureForm":"daily"}',
+          ),
+        )
         .execute();
       await db
         .insertInto('adjustments')
@@ -198,7 +210,9 @@ describe('migrations', () => {
         { id: 'bsl_day', temperature_form: 'daily', short_baseline_override: null, extrapolation_override: null },
         { id: 'bsl_old', temperature_form: 'mean', short_baseline_override: null, extrapolation_override: null },
       ]);
-      expect(await db.selectFrom('adjustments').select('uncertainty').executeTakeFirstOrThrow()).toEqual({ uncertainty: null });
+      expect(await db.selectFrom('adjustments').select('uncertainty').executeTakeFirstOrThrow()).toEqual({
+        uncertainty: null,
+      });
     } finally {
       await store.close();
       await dropTestDatabase(url);
@@ -210,7 +224,9 @@ describe('migrations', () => {
     const store = openStore(url);
     try {
       // A database migrated by a build that had 0010 but not yet 0009 (the migrator's own bookkeeping, as migrate.ts names it).
-      const without = Object.fromEntries(Object.entries(migrations).filter(([name]) => name !== '0009_idempotency_holder'));
+      const without = Object.fromEntries(
+        Object.entries(migrations).filter(([name]) => name !== '0009_idempotency_holder'),
+      );
       const schema = url.startsWith('postgres') ? new URL(url).searchParams.get('schema') : null;
       const earlier = new Migrator({
         db: store.db,

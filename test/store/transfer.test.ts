@@ -105,7 +105,9 @@ describe('exportOrganisation', () => {
     expect(document.version).toBe(6);
     expect(document.exportedAt).toBe(EXPORTED_AT);
     expect(Object.keys(document.tables)).toEqual([...TRANSFER_TABLES]);
-    expect(document.organisation).toEqual(await source.db.selectFrom('organisations').selectAll().executeTakeFirstOrThrow());
+    expect(document.organisation).toEqual(
+      await source.db.selectFrom('organisations').selectAll().executeTakeFirstOrThrow(),
+    );
     for (const table of TRANSFER_TABLES) {
       // The source holds one organisation, so its whole tables are the organisation's rows.
       const { count } = await source.db
@@ -119,7 +121,9 @@ describe('exportOrganisation', () => {
   it('keeps every value exactly as stored, ordered by primary key, and states the audit head', async () => {
     const audit = await verifyAuditChain(source.db, organisationId);
     expect(document.auditHead).toEqual({ seq: audit.headSeq, hash: audit.headHash });
-    expect(document.tables.audit_log.map((row) => row.seq)).toEqual(Array.from({ length: audit.headSeq }, (_, i) => i + 1));
+    expect(document.tables.audit_log.map((row) => row.seq)).toEqual(
+      Array.from({ length: audit.headSeq }, (_, i) => i + 1),
+    );
     const readings = (await tableRows(source.db, 'readings')).map((text) => JSON.parse(text));
     expect(document.tables.readings).toEqual(readings);
     const baseline = await source.db
@@ -131,7 +135,9 @@ describe('exportOrganisation', () => {
   });
 
   it('gives the same text twice, and refuses an unknown organisation', async () => {
-    expect(JSON.stringify(await exportOrganisation(source.db, organisationId, EXPORTED_AT))).toBe(JSON.stringify(document));
+    expect(JSON.stringify(await exportOrganisation(source.db, organisationId, EXPORTED_AT))).toBe(
+      JSON.stringify(document),
+    );
     await expect(exportOrganisation(source.db, 'org_missing', EXPORTED_AT)).rejects.toThrow(TransferInputError);
   });
 });
@@ -139,7 +145,11 @@ describe('exportOrganisation', () => {
 describe('checkDocument refuses a document that is not a faithful export', () => {
   const cases: { what: string; change: (copy: any) => void; says: RegExp }[] = [
     { what: 'another format', change: (d) => (d.format = 'ledger-dump'), says: /^format: must be "mvledger-export"/ },
-    { what: 'another version', change: (d) => (d.version = 7), says: /^version: this mvledger reads versions 1, 2, 3, 4, 5 and 6, got 7/ },
+    {
+      what: 'another version',
+      change: (d) => (d.version = 7),
+      says: /^version: this mvledger reads versions 1, 2, 3, 4, 5 and 6, got 7/,
+    },
     {
       what: 'a version 1 document with a table of version 2',
       change: (d) => (d.version = 1),
@@ -162,10 +172,18 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
     },
     {
       what: 'an edited frozen baseline',
-      change: (d) => (d.tables.baselines[0].inputs_json = d.tables.baselines[0].inputs_json.replace(/"quantity":(\d)/, '"quantity":9$1')),
+      change: (d) =>
+        (d.tables.baselines[0].inputs_json = d.tables.baselines[0].inputs_json.replace(
+          /"quantity":(\d)/,
+          '"quantity":9$1',
+        )),
       says: /^tables\.baselines\[0\]: baseline bsl_\S+ \(frozen\) does not match its content hash/,
     },
-    { what: 'a missing column', change: (d) => delete d.tables.readings[3].cost, says: /^tables\.readings\[3\]\.cost: missing/ },
+    {
+      what: 'a missing column',
+      change: (d) => delete d.tables.readings[3].cost,
+      says: /^tables\.readings\[3\]\.cost: missing/,
+    },
     {
       what: 'an unknown column',
       change: (d) => (d.tables.meters[0].colour = 'red'),
@@ -179,7 +197,8 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
         delete d.tables.statements;
         delete d.tables.statement_copies;
         for (const row of d.tables.contracts) for (const column of CONTRACT_COLUMNS_SINCE_4) delete row[column];
-        for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
+        for (const row of d.tables.weather_observations)
+          for (const column of ['fill_method', 'fill_note']) delete row[column];
       },
       says: /^tables\.adjustments\[0\]\.uncertainty: not a column of format version 2/,
     },
@@ -245,7 +264,8 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
     // Keys must have been issued on the audit trail (issue 17 item 4): a hand-added admin key is refused by its id.
     {
       what: 'an admin key with no audit record of its issue',
-      change: (d) => d.tables.api_keys.push({ ...d.tables.api_keys[0], id: 'Zz9Zz9Zz', role: 'admin', revoked_at: null }),
+      change: (d) =>
+        d.tables.api_keys.push({ ...d.tables.api_keys[0], id: 'Zz9Zz9Zz', role: 'admin', revoked_at: null }),
       says: /^tables\.api_keys\[\d+\]: key Zz9Zz9Zz has no audit record of its issue/,
     },
     {
@@ -261,7 +281,11 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
       change: (d) => (d.tables.api_keys[0].revoked_at = '2031-01-01T00:00:00.000Z'),
       says: /^tables\.api_keys\[0\]\.revoked_at: key \S+ has no audit record of its revocation/,
     },
-    { what: 'a missing table', change: (d) => delete d.tables.baselines, says: /^tables\.baselines: must be a list of rows, got nothing/ },
+    {
+      what: 'a missing table',
+      change: (d) => delete d.tables.baselines,
+      says: /^tables\.baselines: must be a list of rows, got nothing/,
+    },
     // The API's own rules on each row (src/store/transfer-rules.ts), not only the column types.
     {
       what: 'an adjustment with both quantity and perDay',
@@ -293,12 +317,15 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
     const input = edited(document, (d) => {
       d.version = 1;
       withoutTablesOfVersion6(d);
-      for (const table of ['adjustments', 'rates', 'contracts', 'normal_years', 'statements', 'statement_copies']) delete d.tables[table];
+      for (const table of ['adjustments', 'rates', 'contracts', 'normal_years', 'statements', 'statement_copies'])
+        delete d.tables[table];
       for (const table of ['adjustments', 'rates', 'contracts', 'normal_years']) delete d.tables[table];
-      for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
+      for (const row of d.tables.weather_observations)
+        for (const column of ['fill_method', 'fill_note']) delete row[column];
     });
     for (const row of (input as any).tables.baselines)
-      for (const column of ['temperature_form', 'short_baseline_override', 'extrapolation_override']) delete row[column];
+      for (const column of ['temperature_form', 'short_baseline_override', 'extrapolation_override'])
+        delete row[column];
     const checked = checkDocument(input);
     expect(checked.version).toBe(6);
     expect(checked.tables.rates).toEqual([]);
@@ -314,17 +341,23 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
       delete d.tables.statements;
       delete d.tables.statement_copies;
       for (const row of d.tables.contracts) for (const column of CONTRACT_COLUMNS_SINCE_4) delete row[column];
-      for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
+      for (const row of d.tables.weather_observations)
+        for (const column of ['fill_method', 'fill_note']) delete row[column];
       for (const row of d.tables.baselines)
-        for (const column of ['temperature_form', 'short_baseline_override', 'extrapolation_override']) delete row[column];
+        for (const column of ['temperature_form', 'short_baseline_override', 'extrapolation_override'])
+          delete row[column];
       for (const row of d.tables.adjustments) delete row.uncertainty;
     });
     const checked = checkDocument(input);
     expect(checked.version).toBe(6);
     // The demo's baselines are day-resolved (its bills have daily weather) and carry no override: the source's own rows.
-    expect(checked.tables.baselines.map((row) => row.temperature_form)).toEqual(document.tables.baselines.map(() => 'daily'));
+    expect(checked.tables.baselines.map((row) => row.temperature_form)).toEqual(
+      document.tables.baselines.map(() => 'daily'),
+    );
     expect(checked.tables.baselines).toEqual(document.tables.baselines);
-    expect(checked.tables.adjustments.map((row) => row.uncertainty)).toEqual(document.tables.adjustments.map(() => null));
+    expect(checked.tables.adjustments.map((row) => row.uncertainty)).toEqual(
+      document.tables.adjustments.map(() => null),
+    );
   });
 
   it('still reads a version 3 document (from before statements), each contract with no identification and the 90% default', () => {
@@ -334,14 +367,21 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
       delete d.tables.statements;
       delete d.tables.statement_copies;
       for (const row of d.tables.contracts) for (const column of CONTRACT_COLUMNS_SINCE_4) delete row[column];
-      for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
+      for (const row of d.tables.weather_observations)
+        for (const column of ['fill_method', 'fill_note']) delete row[column];
     });
     const checked = checkDocument(input);
     expect(checked.version).toBe(6);
     expect(checked.tables.statements).toEqual([]);
     expect(checked.tables.statement_copies).toEqual([]);
     for (const row of checked.tables.contracts)
-      expect(row).toMatchObject({ reference: null, parties_json: '[]', mv_plan_reference: null, mv_option: null, confidence: 0.9 });
+      expect(row).toMatchObject({
+        reference: null,
+        parties_json: '[]',
+        mv_plan_reference: null,
+        mv_option: null,
+        confidence: 0.9,
+      });
   });
 
   it('refuses a version 3 document that carries statements', () => {
@@ -349,7 +389,8 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
       d.version = 3;
       withoutTablesOfVersion6(d);
       for (const row of d.tables.contracts) for (const column of CONTRACT_COLUMNS_SINCE_4) delete row[column];
-      for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
+      for (const row of d.tables.weather_observations)
+        for (const column of ['fill_method', 'fill_note']) delete row[column];
     });
     expect(() => checkDocument(input)).toThrow(/^tables\.statements: not a table of format version 3/);
   });
@@ -358,12 +399,15 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
     const input = edited(document, (d) => {
       d.version = 4;
       withoutTablesOfVersion6(d);
-      for (const row of d.tables.weather_observations) for (const column of ['fill_method', 'fill_note']) delete row[column];
+      for (const row of d.tables.weather_observations)
+        for (const column of ['fill_method', 'fill_note']) delete row[column];
     });
     const checked = checkDocument(input);
     expect(checked.version).toBe(6);
     expect(checked.tables.weather_observations.length).toBeGreaterThan(0);
-    expect(checked.tables.weather_observations.every((row) => row.fill_method === null && row.fill_note === null)).toBe(true);
+    expect(checked.tables.weather_observations.every((row) => row.fill_method === null && row.fill_note === null)).toBe(
+      true,
+    );
   });
 
   it('still reads a version 5 document, with no variables or calendars', () => {
@@ -443,7 +487,10 @@ for (const target of targets) {
     });
 
     it('lets the source’s keys in, and answers every meter’s savings byte for byte as the source does', async () => {
-      expect(await authenticate(store.db, seed.analystKey)).toMatchObject({ organisation_id: organisationId, role: 'analyst' });
+      expect(await authenticate(store.db, seed.analystKey)).toMatchObject({
+        organisation_id: organisationId,
+        role: 'analyst',
+      });
       const targetApp = await buildApp({ store });
       const sourceApp = await buildApp({ store: source });
       try {
@@ -481,7 +528,10 @@ describe('importOrganisation stores all or nothing', () => {
     try {
       await migrateToLatest(store.db);
       const facility = document.tables.facilities[0]!;
-      await store.db.insertInto('organisations').values({ id: 'org_other', name: 'Other (invented)', created_at: EXPORTED_AT }).execute();
+      await store.db
+        .insertInto('organisations')
+        .values({ id: 'org_other', name: 'Other (invented)', created_at: EXPORTED_AT })
+        .execute();
       await store.db
         .insertInto('facilities')
         .values({

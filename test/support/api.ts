@@ -61,7 +61,8 @@ export function steppingClock(start = Date.parse('2026-01-01T00:00:00.000Z')): (
 export async function makeTestApi(
   options: { databaseUrl?: string; now?: () => string; checkpointSigner?: CheckpointSigner } = {},
 ): Promise<TestApi> {
-  const acquired = options.databaseUrl === undefined ? acquireTestDatabase() : { url: options.databaseUrl, migrated: false };
+  const acquired =
+    options.databaseUrl === undefined ? acquireTestDatabase() : { url: options.databaseUrl, migrated: false };
   const databaseUrl = acquired.url;
   const store = openStore(databaseUrl);
   if (!acquired.migrated) await migrateToLatest(store.db);
@@ -72,7 +73,9 @@ export async function makeTestApi(
   for (const role of ['admin', 'engineer', 'analyst', 'integration'] as const) {
     keys[role] = (await createKey(store.db, { organisationId: org.id, name: `${role} key`, role, at: now() })).token;
   }
-  const otherKey = (await createKey(store.db, { organisationId: other.id, name: 'other admin', role: 'admin', at: now() })).token;
+  const otherKey = (
+    await createKey(store.db, { organisationId: other.id, name: 'other admin', role: 'admin', at: now() })
+  ).token;
   const app = await buildApp({ store, now, checkpointSigner: options.checkpointSigner });
   await app.ready();
 

@@ -35,9 +35,10 @@ export async function dropRunSchemas(): Promise<number> {
   const client = new pg.Client({ connectionString: testPostgresUrl() });
   await client.connect();
   try {
-    const { rows } = await client.query<{ nspname: string }>('select nspname from pg_namespace where starts_with(nspname, $1)', [
-      schemaPrefix(),
-    ]);
+    const { rows } = await client.query<{ nspname: string }>(
+      'select nspname from pg_namespace where starts_with(nspname, $1)',
+      [schemaPrefix()],
+    );
     for (const row of rows) await client.query(`drop schema if exists ${row.nspname} cascade`);
     return rows.length;
   } finally {

@@ -3,7 +3,12 @@
  * plain references that polish a grid's best point. Finds a local minimum
  * only; the references use it within one grid step of the grid's best.
  */
-export function goldenMinimum(f: (x: number) => number, low: number, high: number, iterations: number): { x: number; value: number } {
+export function goldenMinimum(
+  f: (x: number) => number,
+  low: number,
+  high: number,
+  iterations: number,
+): { x: number; value: number } {
   const ratio = (Math.sqrt(5) - 1) / 2;
   let a = low;
   let b = high;

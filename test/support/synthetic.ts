@@ -98,7 +98,8 @@ export function seasonalTemperature(climate: Climate, dayOfYear: number): number
  * length + 1 normals from `random` (the last one unused), in order.
  */
 export function ar1Series(length: number, sd: number, persistence: number, random: Random): number[] {
-  if (!(persistence > -1 && persistence < 1)) throw new RangeError(`persistence must lie in (−1, 1), got ${persistence}`);
+  if (!(persistence > -1 && persistence < 1))
+    throw new RangeError(`persistence must lie in (−1, 1), got ${persistence}`);
   const innovation = sd * Math.sqrt(1 - persistence * persistence);
   const series: number[] = [];
   let current = sd * random.normal();

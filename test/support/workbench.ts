@@ -52,14 +52,21 @@ export async function accessibilityViolations(page: Page): Promise<AxeViolation[
           run: (
             context: unknown,
             options: unknown,
-          ) => Promise<{ violations: { id: string; impact: string | null; help: string; nodes: { target: string[] }[] }[] }>;
+          ) => Promise<{
+            violations: { id: string; impact: string | null; help: string; nodes: { target: string[] }[] }[];
+          }>;
         };
       }
     ).axe;
     const result = await axe.run((globalThis as unknown as { document: unknown }).document, {
       runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'] },
     });
-    return result.violations.map((v) => ({ id: v.id, impact: v.impact, help: v.help, targets: v.nodes.map((n) => n.target.join(' ')) }));
+    return result.violations.map((v) => ({
+      id: v.id,
+      impact: v.impact,
+      help: v.help,
+      targets: v.nodes.map((n) => n.target.join(' ')),
+    }));
   });
 }
 

@@ -19,7 +19,14 @@ import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { runDemo, type DemoSeed } from '../../src/demo/main.js';
-import { BASELINE_END, BASELINE_START, DEMO_FACILITIES, demoBills, demoWeather, REPORTING_END } from '../../src/demo/scenario.js';
+import {
+  BASELINE_END,
+  BASELINE_START,
+  DEMO_FACILITIES,
+  demoBills,
+  demoWeather,
+  REPORTING_END,
+} from '../../src/demo/scenario.js';
 import type { RunningService } from '../../src/server.js';
 import { browserAvailable, launchBrowser } from '../support/browser.js';
 import { buildWorkbench, seriousViolations, signIn } from '../support/workbench.js';
@@ -43,7 +50,10 @@ describe.skipIf(!available)('the workbench at /app', () => {
   const api = async (method: string, path: string, token: string, body?: unknown) => {
     const response = await fetch(`${base}${path}`, {
       method,
-      headers: { authorization: `Bearer ${token}`, ...(body === undefined ? {} : { 'content-type': 'application/json' }) },
+      headers: {
+        authorization: `Bearer ${token}`,
+        ...(body === undefined ? {} : { 'content-type': 'application/json' }),
+      },
       body: body === undefined ? undefined : JSON.stringify(body),
     });
     return { status: response.status, json: (await response.json()) as Record<string, unknown> };
@@ -55,7 +65,8 @@ describe.skipIf(!available)('the workbench at /app', () => {
       if (message.type() !== 'error') return;
       // Chromium logs every refused request; an API refusal the page shows as a problem is the flow under test, not an error.
       const refusedApiCall =
-        message.text().startsWith('Failed to load resource') && new URL(message.location().url).pathname.startsWith('/v1/');
+        message.text().startsWith('Failed to load resource') &&
+        new URL(message.location().url).pathname.startsWith('/v1/');
       if (!refusedApiCall) problems.push(`console: ${message.text()} at ${message.location().url}`);
     });
     page.on('pageerror', (error) => problems.push(`page: ${error.message}`));
@@ -84,7 +95,12 @@ describe.skipIf(!available)('the workbench at /app', () => {
   beforeAll(async () => {
     buildWorkbench();
     folder = mkdtempSync(join(tmpdir(), 'mvledger-workbench-'));
-    ({ service, seed, base } = await runDemo({ seedOnly: false, databaseFile: join(folder, 'demo.sqlite'), port: 0, print: () => {} }));
+    ({ service, seed, base } = await runDemo({
+      seedOnly: false,
+      databaseFile: join(folder, 'demo.sqlite'),
+      port: 0,
+      print: () => {},
+    }));
     // A new meter at the demo's first school, on the demo's station, awaiting its bills (set-up through the API).
     const facility = seed.facilities[0]!;
     const meter = await api('POST', `/v1/facilities/${facility.id}/meters`, seed.engineerKey, {
@@ -185,7 +201,9 @@ describe.skipIf(!available)('the workbench at /app', () => {
       await page.locator('.status-line', { hasText: 'Draft (v2)' }).waitFor();
       expect(await page.textContent('main')).toContain('Meter fault reported by the site (invented)');
     } else {
-      console.warn('workbench test: this build of the API takes no exclusions with a fit: the page must show its refusal');
+      console.warn(
+        'workbench test: this build of the API takes no exclusions with a fit: the page must show its refusal',
+      );
       const refusal = page.locator('form.fit .notice-error');
       await refusal.waitFor();
       expect(await refusal.textContent()).toContain('exclusions');
@@ -197,7 +215,9 @@ describe.skipIf(!available)('the workbench at /app', () => {
     // Pick a shape other than the current one.
     const current = (await page.locator('input[name="shape"]:checked').getAttribute('value'))!;
     const other = (
-      await page.locator('input[name="shape"]').evaluateAll((inputs) => inputs.map((i) => (i as unknown as { value: string }).value))
+      await page
+        .locator('input[name="shape"]')
+        .evaluateAll((inputs) => inputs.map((i) => (i as unknown as { value: string }).value))
     ).find((m) => m !== current)!;
     await page.locator(`input[name="shape"][value="${other}"]`).check();
     await page.getByLabel(/^Why this shape/).fill('The simpler shape is easier to defend (invented)');
@@ -249,7 +269,9 @@ describe.skipIf(!available)('the workbench at /app', () => {
     await page.locator('figure[data-chart="candidates"] svg').waitFor();
     await checkScreen(page, 'bench-analyst-tablet');
     // And the API agrees: the analyst's freeze is refused.
-    const refused = await api('POST', `/v1/baselines/${meter.baselineId}/freeze`, seed.analystKey, { note: 'not allowed' });
+    const refused = await api('POST', `/v1/baselines/${meter.baselineId}/freeze`, seed.analystKey, {
+      note: 'not allowed',
+    });
     expect(refused.status).toBe(403);
     await page.close();
   });

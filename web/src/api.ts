@@ -68,7 +68,11 @@ export async function call<T>(path: string, options: CallOptions = {}): Promise<
   try {
     response = await fetch(path, { method: options.method ?? 'GET', headers, body, cache: 'no-store' });
   } catch {
-    return { ok: false, status: 0, problem: { status: 0, title: 'No answer', detail: 'the service did not answer', errors: [] } };
+    return {
+      ok: false,
+      status: 0,
+      problem: { status: 0, title: 'No answer', detail: 'the service did not answer', errors: [] },
+    };
   }
   const raw = await response.text();
   if (!response.ok) {

@@ -27,7 +27,9 @@ export function h<K extends keyof HTMLElementTagNameMap>(
 export function append(parent: Node, ...children: Child[]): void {
   for (const child of children) {
     if (child === null || child === undefined || child === false) continue;
-    parent.appendChild(typeof child === 'string' || typeof child === 'number' ? document.createTextNode(String(child)) : child);
+    parent.appendChild(
+      typeof child === 'string' || typeof child === 'number' ? document.createTextNode(String(child)) : child,
+    );
   }
 }
 
@@ -51,12 +53,22 @@ export function newId(prefix: string): string {
 }
 
 /** A labelled form field: the label is always visible and tied to the control. */
-export function field(label: string, control: HTMLInputElement | HTMLSelectElement | HTMLTextAreaElement, hint?: string): HTMLElement {
+export function field(
+  label: string,
+  control: HTMLInputElement | HTMLSelectElement | HTMLTextAreaElement,
+  hint?: string,
+): HTMLElement {
   const id = control.id || newId('field');
   control.id = id;
   const hintId = hint ? `${id}-hint` : null;
   if (hintId) control.setAttribute('aria-describedby', hintId);
-  return h('div', { class: 'field' }, h('label', { for: id }, label), control, hint ? h('p', { class: 'hint', id: hintId }, hint) : null);
+  return h(
+    'div',
+    { class: 'field' },
+    h('label', { for: id }, label),
+    control,
+    hint ? h('p', { class: 'hint', id: hintId }, hint) : null,
+  );
 }
 
 /** A table with a caption, header row and body rows. */
@@ -74,7 +86,9 @@ export function table(
     h(
       'tbody',
       {},
-      ...rows.map((cells) => h('tr', {}, ...cells.map((cell) => (cell instanceof HTMLTableCellElement ? cell : h('td', {}, cell))))),
+      ...rows.map((cells) =>
+        h('tr', {}, ...cells.map((cell) => (cell instanceof HTMLTableCellElement ? cell : h('td', {}, cell)))),
+      ),
     ),
   );
 }

@@ -25,12 +25,22 @@ const app = document.getElementById('app')!;
 
 function signInForm(message?: string): void {
   document.title = 'Sign in · mvledger workbench';
-  const input = h('input', { type: 'password', name: 'api-key', autocomplete: 'off', spellcheck: 'false', required: true });
+  const input = h('input', {
+    type: 'password',
+    name: 'api-key',
+    autocomplete: 'off',
+    spellcheck: 'false',
+    required: true,
+  });
   const form = h(
     'form',
     { class: 'sign-in', 'aria-labelledby': 'sign-in-title' },
     h('h1', { id: 'sign-in-title' }, 'mvledger workbench'),
-    h('p', {}, 'Paste an API key. It stays in this browser tab only (sessionStorage) and is forgotten when the tab closes.'),
+    h(
+      'p',
+      {},
+      'Paste an API key. It stays in this browser tab only (sessionStorage) and is forgotten when the tab closes.',
+    ),
     message ? notice('error', message) : null,
     field('API key', input, 'A key looks like mvl_<id>_<secret>; ask your administrator for one.'),
     h('button', { type: 'submit' }, 'Sign in'),
@@ -66,7 +76,12 @@ function navigation(caller: Caller): HTMLElement {
     h(
       'nav',
       { 'aria-label': 'Screens' },
-      h('ul', {}, h('li', {}, link('#/', 'Facilities and meters')), h('li', {}, link('#/reports', 'Reports and statements'))),
+      h(
+        'ul',
+        {},
+        h('li', {}, link('#/', 'Facilities and meters')),
+        h('li', {}, link('#/reports', 'Reports and statements')),
+      ),
     ),
     h(
       'p',
@@ -133,7 +148,9 @@ async function route(context: ScreenContext): Promise<void> {
   } catch (error) {
     if (!current()) return;
     const detail =
-      error instanceof ScreenError ? `${error.problem.title}: ${error.problem.detail}` : 'something went wrong drawing this screen';
+      error instanceof ScreenError
+        ? `${error.problem.title}: ${error.problem.detail}`
+        : 'something went wrong drawing this screen';
     replace(context.main, h('h1', {}, 'This screen could not be shown'), notice('error', detail));
     if (!(error instanceof ScreenError)) throw error;
   } finally {
@@ -167,7 +184,9 @@ async function start(): Promise<void> {
   if (!me.ok) {
     opening = null;
     forgetKey();
-    return signInForm(me.status === 401 ? 'That key was not accepted: check it and paste it again.' : me.problem.detail);
+    return signInForm(
+      me.status === 401 ? 'That key was not accepted: check it and paste it again.' : me.problem.detail,
+    );
   }
   const caller = me.body;
   // Opening on a bench: draw the masthead with the bench in one layout, not a frame of its own first.

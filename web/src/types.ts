@@ -158,7 +158,14 @@ export interface Savings {
   };
   significance: { rule: string };
   baselineTemperatureRange: { min: number | null; max: number | null };
-  extrapolation: { share: number | null; outsideDays: number; days: number; limit: number; exceedsLimit: boolean; summary: string };
+  extrapolation: {
+    share: number | null;
+    outsideDays: number;
+    days: number;
+    limit: number;
+    exceedsLimit: boolean;
+    summary: string;
+  };
   adjustments: { reason: string; start: string; end: string }[];
   baselineVersion: number;
   baselineContentHash: string;

@@ -5,7 +5,13 @@
  * store/backup/; this module reads the arguments and prints one line.
  */
 import { DatabaseUrlError, parseDatabaseUrl, splitPostgresUrl } from '../../store/database-url.js';
-import { BackupInputError, backupSqlite, describeVerdict, postgresGuidance, restoreSqlite } from '../../store/backup/index.js';
+import {
+  BackupInputError,
+  backupSqlite,
+  describeVerdict,
+  postgresGuidance,
+  restoreSqlite,
+} from '../../store/backup/index.js';
 import { EXIT_BAD_INPUT, UsageError } from '../errors.js';
 import { BACKUP_USAGE, RESTORE_USAGE } from '../usage.js';
 import { parseOptions, type OptionValues } from '../shared.js';
@@ -19,19 +25,28 @@ export interface BackupOutput {
 }
 
 const BACKUP_SPEC = { out: { type: 'string' }, help: { type: 'boolean', short: 'h' } } as const;
-const RESTORE_SPEC = { in: { type: 'string' }, force: { type: 'boolean' }, help: { type: 'boolean', short: 'h' } } as const;
+const RESTORE_SPEC = {
+  in: { type: 'string' },
+  force: { type: 'boolean' },
+  help: { type: 'boolean', short: 'h' },
+} as const;
 
 export async function runBackup(args: readonly string[], env: NodeJS.ProcessEnv = process.env): Promise<BackupOutput> {
   const values = parseStrict(args, BACKUP_SPEC);
   if (values.help) return { stdout: BACKUP_USAGE };
   const out = requiredText(values, 'out', '--out FILE is required (where to write the backup)');
   const database = sqliteFileOf(env, 'back up');
-  if (database.postgres !== undefined) return { stdout: '', note: postgresGuidance(database.postgres, out), code: EXIT_BAD_INPUT };
+  if (database.postgres !== undefined)
+    return { stdout: '', note: postgresGuidance(database.postgres, out), code: EXIT_BAD_INPUT };
   const summary = await backupSqlite(database.file, out).catch(asUsage);
   const line = `backed up sqlite file ${summary.source} to ${summary.out} (${summary.bytes} bytes)`;
   if (!summary.verdict.ok) {
     // The copy is faithful and kept; the ledger it copied is damaged.
-    return { stdout: '', note: `mvledger: ${line}, but the ledger ${describeVerdict(summary.verdict)}\n`, code: EXIT_BAD_INPUT };
+    return {
+      stdout: '',
+      note: `mvledger: ${line}, but the ledger ${describeVerdict(summary.verdict)}\n`,
+      code: EXIT_BAD_INPUT,
+    };
   }
   return { stdout: `${line}; ${describeVerdict(summary.verdict)}\n` };
 }
@@ -41,7 +56,8 @@ export async function runRestore(args: readonly string[], env: NodeJS.ProcessEnv
   if (values.help) return { stdout: RESTORE_USAGE };
   const input = requiredText(values, 'in', '--in FILE is required (a file written by mvledger backup)');
   const database = sqliteFileOf(env, 'restore into');
-  if (database.postgres !== undefined) return { stdout: '', note: postgresGuidance(database.postgres, input), code: EXIT_BAD_INPUT };
+  if (database.postgres !== undefined)
+    return { stdout: '', note: postgresGuidance(database.postgres, input), code: EXIT_BAD_INPUT };
   const summary = await restoreSqlite(input, database.file, { force: values.force === true }).catch(asUsage);
   const replaced =
     summary.replacedOrganisations > 0

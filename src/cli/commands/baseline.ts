@@ -29,7 +29,8 @@ export function fitBaseline(
       ...(options.temperatureForm === null ? {} : { temperatureForm: options.temperatureForm }),
     });
   } catch (error) {
-    if (error instanceof MissingVariableValuesError) throw explainMissingValues(error, variables, `baseline readings ${readings.file}`);
+    if (error instanceof MissingVariableValuesError)
+      throw explainMissingValues(error, variables, `baseline readings ${readings.file}`);
     throw error instanceof TooFewPeriodsError ? explainTooFewPeriods(readings, weather, error) : error;
   }
 }

@@ -37,7 +37,10 @@ export function fitMeter(item: MeterTable, weather: WeatherFile, options: FitOpt
   try {
     const readings = readingsFromTable(table);
     const analysis = fitBaseline(readings, weather, options);
-    return { ok: true, line: options.json ? jsonLine(meter, station, analysis) : csvRow(meter, station, analysis.document) };
+    return {
+      ok: true,
+      line: options.json ? jsonLine(meter, station, analysis) : csvRow(meter, station, analysis.document),
+    };
   } catch (error) {
     if (!(error instanceof InputFileError || error instanceof RangeError)) throw error;
     const message = oneLine(error.message);

@@ -30,7 +30,8 @@ export interface ThreadAnswer {
  * the thread registers first.
  */
 function startThread(workerData: ThreadWork): Worker {
-  if (!import.meta.url.endsWith('.ts')) return new Worker(new URL('./fit-batch-thread.js', import.meta.url), { workerData });
+  if (!import.meta.url.endsWith('.ts'))
+    return new Worker(new URL('./fit-batch-thread.js', import.meta.url), { workerData });
   const source = new URL('./fit-batch-thread.ts', import.meta.url).href;
   const start = `import('tsx/esm/api').then((tsx) => { tsx.register(); return import(${JSON.stringify(source)}); })`;
   return new Worker(start, { eval: true, workerData });
@@ -66,7 +67,9 @@ export async function fitInWorkers(
       new Promise<void>((resolve, reject) => {
         worker.on('message', receive);
         worker.on('error', reject);
-        worker.on('exit', (code) => (code === 0 ? resolve() : reject(new Error(`a fitting thread stopped with exit code ${code}`))));
+        worker.on('exit', (code) =>
+          code === 0 ? resolve() : reject(new Error(`a fitting thread stopped with exit code ${code}`)),
+        );
       }),
   );
   try {

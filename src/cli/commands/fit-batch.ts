@@ -48,9 +48,12 @@ export async function runFitBatch(options: FitOptions, io: CliIO, threads?: numb
     const { fitInWorkers } = await import('./fit-batch-threads.js');
     await fitInWorkers(meters, weatherByStation, options, workers, write);
   } else {
-    for (const item of meters) write(fitMeter(item, stationWeather(weatherByStation, item.station, item.meter, options), options));
+    for (const item of meters)
+      write(fitMeter(item, stationWeather(weatherByStation, item.station, item.meter, options), options));
   }
-  io.stderr(`mvledger: fitted ${outcome.fitted} of ${meters.length} meter(s)${outcome.failed > 0 ? `; ${outcome.failed} failed` : ''}\n`);
+  io.stderr(
+    `mvledger: fitted ${outcome.fitted} of ${meters.length} meter(s)${outcome.failed > 0 ? `; ${outcome.failed} failed` : ''}\n`,
+  );
   return outcome;
 }
 

@@ -28,7 +28,12 @@ export interface KeysOutput {
 type Values = Record<string, string | boolean | undefined>;
 
 const SPECS = {
-  create: { 'org-name': { type: 'string' }, org: { type: 'string' }, role: { type: 'string' }, name: { type: 'string' } },
+  create: {
+    'org-name': { type: 'string' },
+    org: { type: 'string' },
+    role: { type: 'string' },
+    name: { type: 'string' },
+  },
   list: { org: { type: 'string' } },
   revoke: {},
 } as const;
@@ -121,7 +126,12 @@ async function create(store: Store, input: CreateInput, at: string): Promise<Key
   } else {
     organisation = await createOrganisation(store.db, input.organisation.newName, at);
   }
-  const { token, key } = await createKey(store.db, { organisationId: organisation.id, name: input.name, role: input.role, at });
+  const { token, key } = await createKey(store.db, {
+    organisationId: organisation.id,
+    name: input.name,
+    role: input.role,
+    at,
+  });
   return {
     stdout: `${token}\n`,
     note: `created ${key.role} key ${key.id} (${JSON.stringify(key.name)}) in organisation ${organisation.id} (${JSON.stringify(organisation.name)}); the token above is shown only this once\n`,
@@ -151,7 +161,9 @@ async function list(store: Store, organisationId: string | undefined): Promise<K
 async function revoke(store: Store, id: string, at: string): Promise<KeysOutput> {
   const result = await revokeKeyAsOperator(store.db, id, at).catch((error: unknown) => {
     // Say which database was searched: the operator may have more than one.
-    throw isDomainError(error) && error.kind === 'not-found' ? new DomainError('not-found', `${error.detail} in ${store.location}`) : error;
+    throw isDomainError(error) && error.kind === 'not-found'
+      ? new DomainError('not-found', `${error.detail} in ${store.location}`)
+      : error;
   });
   const { key } = result;
   return {

@@ -25,7 +25,10 @@ import { loadVariables, explainMissingValues, type VariablesFile } from '../inpu
 import { explainTooFewPeriods } from './too-few-periods.js';
 
 /** The option that passes each check over, for the refusal's hint. */
-const OVERRIDE_OPTION = { shortBaseline: '--allow-short-baseline REASON', extrapolation: '--allow-extrapolation REASON' } as const;
+const OVERRIDE_OPTION = {
+  shortBaseline: '--allow-short-baseline REASON',
+  extrapolation: '--allow-extrapolation REASON',
+} as const;
 
 /** The command's whole stdout text; throws on bad input so nothing is printed halfway. */
 export async function runSavings(options: SavingsCommandOptions): Promise<string> {
@@ -87,7 +90,9 @@ function checkProjection(
   const refusals = projectionRefusals(checks, { requireSufficiency: true });
   if (refusals.length > 0) {
     const hints = refusals.map((r) => OVERRIDE_OPTION[r.check]).join(' and ');
-    throw new UsageError(`savings refused: ${refusals.map((r) => r.reason).join('; ')}; give ${hints} to project anyway`);
+    throw new UsageError(
+      `savings refused: ${refusals.map((r) => r.reason).join('; ')}; give ${hints} to project anyway`,
+    );
   }
   return withProjectionChecks(document, checks);
 }
@@ -108,7 +113,8 @@ function computeSavingsDocument(
       variableSeries: variables?.series ?? [],
     });
   } catch (error) {
-    if (error instanceof MissingVariableValuesError) throw explainMissingValues(error, variables, `reporting readings ${reporting.file}`);
+    if (error instanceof MissingVariableValuesError)
+      throw explainMissingValues(error, variables, `reporting readings ${reporting.file}`);
     throw error instanceof TooFewPeriodsError ? explainTooFewPeriods(reporting, weather, error) : error;
   }
 }

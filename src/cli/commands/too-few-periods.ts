@@ -9,10 +9,19 @@ import type { ReadingsFile } from '../input/readings-file.js';
 import type { WeatherFile } from '../input/weather-file.js';
 
 /** The engine's refusal as an InputFileError naming the file, the row and the reason. */
-export function explainTooFewPeriods(readings: ReadingsFile, weather: WeatherFile, error: TooFewPeriodsError): InputFileError {
+export function explainTooFewPeriods(
+  readings: ReadingsFile,
+  weather: WeatherFile,
+  error: TooFewPeriodsError,
+): InputFileError {
   const { excluded, message: engineMessage } = error;
   if (readings.readings.length === 0) {
-    return new InputFileError(readings.file, readings.headerLine, 'start', `no readings below the header; ${engineMessage}`);
+    return new InputFileError(
+      readings.file,
+      readings.headerLine,
+      'start',
+      `no readings below the header; ${engineMessage}`,
+    );
   }
   const first = excluded[0];
   if (first) {

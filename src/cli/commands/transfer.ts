@@ -29,7 +29,11 @@ export interface TransferOutput {
 
 type Values = Record<string, string | boolean | undefined>;
 
-const EXPORT_SPEC = { org: { type: 'string' }, out: { type: 'string' }, help: { type: 'boolean', short: 'h' } } as const;
+const EXPORT_SPEC = {
+  org: { type: 'string' },
+  out: { type: 'string' },
+  help: { type: 'boolean', short: 'h' },
+} as const;
 const IMPORT_SPEC = { in: { type: 'string' }, help: { type: 'boolean', short: 'h' } } as const;
 
 export async function runExport(
@@ -52,7 +56,10 @@ export async function runExport(
     const lines = [
       `exported organisation ${document.organisation.id} (${JSON.stringify(document.organisation.name)}) from ${store.location} to ${out ?? 'stdout'}: ${Buffer.byteLength(text)} bytes`,
       ...tableLines(
-        Object.fromEntries(TRANSFER_TABLES.map((table) => [table, document.tables[table].length])) as Record<TransferTable, number>,
+        Object.fromEntries(TRANSFER_TABLES.map((table) => [table, document.tables[table].length])) as Record<
+          TransferTable,
+          number
+        >,
       ),
       `audit head: seq ${document.auditHead.seq}, hash ${document.auditHead.hash}`,
     ];
@@ -60,7 +67,10 @@ export async function runExport(
   });
 }
 
-export async function runImport(args: readonly string[], env: NodeJS.ProcessEnv = process.env): Promise<TransferOutput> {
+export async function runImport(
+  args: readonly string[],
+  env: NodeJS.ProcessEnv = process.env,
+): Promise<TransferOutput> {
   const values = parseStrict(args, IMPORT_SPEC);
   if (values.help) return { stdout: IMPORT_USAGE };
   const file = requiredText(values, 'in', '--in FILE is required (a document written by mvledger export)');

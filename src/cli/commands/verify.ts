@@ -94,10 +94,14 @@ function verifyExport(values: Record<string, string | boolean | undefined>): Ver
     throw new UsageError(
       '--checkpoints FILE is required with --export (a statement’s JSON copy, or the answer of GET /v1/audit/checkpoints)',
     );
-  const document = readJson('export', exportPath) as { organisation?: { id?: unknown }; tables?: { audit_log?: unknown } };
+  const document = readJson('export', exportPath) as {
+    organisation?: { id?: unknown };
+    tables?: { audit_log?: unknown };
+  };
   const organisationId = document.organisation?.id;
   const rows = document.tables?.audit_log;
-  if (typeof organisationId !== 'string' || !Array.isArray(rows)) throw new UsageError(`--export: ${exportPath} is not an mvledger export`);
+  if (typeof organisationId !== 'string' || !Array.isArray(rows))
+    throw new UsageError(`--export: ${exportPath} is not an mvledger export`);
   const checkpoints = checkpointsIn(readJson('checkpoints', String(values.checkpoints)));
   if (checkpoints === null || checkpoints.length === 0)
     throw new UsageError(`--checkpoints: ${String(values.checkpoints)} holds no signed checkpoint`);
@@ -105,7 +109,9 @@ function verifyExport(values: Record<string, string | boolean | undefined>): Ver
   try {
     publicKeyPem = readFileSync(String(values['public-key']), 'utf8');
   } catch (error) {
-    throw new UsageError(`--public-key: cannot read ${String(values['public-key'])} (${(error as NodeJS.ErrnoException).code ?? 'error'})`);
+    throw new UsageError(
+      `--public-key: cannot read ${String(values['public-key'])} (${(error as NodeJS.ErrnoException).code ?? 'error'})`,
+    );
   }
   const proof = proveAgainstCheckpoints(organisationId, rows as AuditRow[], checkpoints, publicKeyPem);
   const lines = [

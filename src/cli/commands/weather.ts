@@ -43,12 +43,16 @@ export interface WeatherOutput {
 /** The API key for --url: --key, or MVLEDGER_API_KEY (kept out of the process list). */
 const KEY_VARIABLE = 'MVLEDGER_API_KEY';
 
-export async function runWeather(args: readonly string[], env: NodeJS.ProcessEnv = process.env): Promise<WeatherOutput> {
+export async function runWeather(
+  args: readonly string[],
+  env: NodeJS.ProcessEnv = process.env,
+): Promise<WeatherOutput> {
   const [sub, ...rest] = args;
   if (sub !== 'import' && sub !== 'check' && sub !== 'normals')
     throw new UsageError(`weather: give import, check or normals (got ${JSON.stringify(sub ?? '')})`);
   const { values, positionals } = parseOptions(rest, SPEC, true);
-  if (positionals.length !== 1) throw new UsageError(`weather ${sub}: give exactly one FILE (got ${positionals.length})`);
+  if (positionals.length !== 1)
+    throw new UsageError(`weather ${sub}: give exactly one FILE (got ${positionals.length})`);
   const file = positionals[0]!;
   if (sub === 'normals') return printNormals(file, values);
   const format = values.format;
@@ -65,7 +69,10 @@ export async function runWeather(args: readonly string[], env: NodeJS.ProcessEnv
   }
   let archive: ArchiveImport;
   try {
-    archive = readStationArchive(format as ArchiveFormat, text, { unit, ...(station !== undefined ? { expectedStationId: station } : {}) });
+    archive = readStationArchive(format as ArchiveFormat, text, {
+      unit,
+      ...(station !== undefined ? { expectedStationId: station } : {}),
+    });
   } catch (error) {
     if (error instanceof ArchiveFormatError) throw new InputFileError(file, null, null, error.message);
     throw error;
@@ -90,7 +97,10 @@ function unitOption(name: string, value: string | boolean | undefined): Temperat
 }
 
 /** `weather normals FILE`: the published daily normals read into a 365-day normal year, printed as day,temp (or JSON). */
-async function printNormals(file: string, values: Record<string, string | boolean | undefined>): Promise<WeatherOutput> {
+async function printNormals(
+  file: string,
+  values: Record<string, string | boolean | undefined>,
+): Promise<WeatherOutput> {
   const format = values.format ?? NORMALS_FORMATS[0];
   if (typeof format !== 'string' || !(NORMALS_FORMATS as readonly string[]).includes(format)) {
     throw new UsageError(`--format: ${NORMALS_FORMATS.join(', ')} for weather normals (got ${JSON.stringify(format)})`);
@@ -101,13 +111,18 @@ async function printNormals(file: string, values: Record<string, string | boolea
   const text = await readArchiveFile(file);
   let year;
   try {
-    year = readDailyNormalsCsv(text, { unit, fileUnit, ...(station !== undefined ? { expectedStationId: station } : {}) });
+    year = readDailyNormalsCsv(text, {
+      unit,
+      fileUnit,
+      ...(station !== undefined ? { expectedStationId: station } : {}),
+    });
   } catch (error) {
     if (error instanceof ArchiveFormatError) throw new InputFileError(file, null, null, error.message);
     throw error;
   }
   const source = publishedNormalsSource(year, unit);
-  if (values.json) return { stdout: `${JSON.stringify({ temperatureUnit: unit, source, days: year.days }, null, 2)}\n` };
+  if (values.json)
+    return { stdout: `${JSON.stringify({ temperatureUnit: unit, source, days: year.days }, null, 2)}\n` };
   const csv = ['day,temp', ...year.days.map((d) => `${d.day},${d.temp}`)].join('\n');
   return { stdout: `${csv}\n`, note: `${file}: ${source}\n` };
 }
@@ -117,7 +132,12 @@ async function readArchiveFile(file: string): Promise<string> {
   try {
     size = (await stat(file)).size;
   } catch (error) {
-    throw new InputFileError(file, null, null, `cannot read the file (${(error as NodeJS.ErrnoException).code ?? 'error'})`);
+    throw new InputFileError(
+      file,
+      null,
+      null,
+      `cannot read the file (${(error as NodeJS.ErrnoException).code ?? 'error'})`,
+    );
   }
   if (size > MAX_ARCHIVE_CHARACTERS) {
     throw new InputFileError(
@@ -142,7 +162,11 @@ export function describeCounts(stationId: string, counts: ArchiveCounts): string
   );
 }
 
-function describeSummary(archive: ArchiveImport, summary: ReturnType<typeof summariseStationRecord>, unit: TemperatureUnit): string {
+function describeSummary(
+  archive: ArchiveImport,
+  summary: ReturnType<typeof summariseStationRecord>,
+  unit: TemperatureUnit,
+): string {
   const symbol = unitSymbol(unit);
   const pct = (x: number) => `${(x * 100).toFixed(1)}%`;
   const lines = [
@@ -153,7 +177,8 @@ function describeSummary(archive: ArchiveImport, summary: ReturnType<typeof summ
     '',
     'year   days  observed  missing',
     ...summary.years.map(
-      (y) => `${y.year}  ${String(y.days).padStart(5)}  ${String(y.observed).padStart(8)}  ${String(y.missing).padStart(7)}`,
+      (y) =>
+        `${y.year}  ${String(y.days).padStart(5)}  ${String(y.observed).padStart(8)}  ${String(y.missing).padStart(7)}`,
     ),
   ];
   return `${lines.join('\n')}\n`;
@@ -168,7 +193,8 @@ async function postToService(
   env: NodeJS.ProcessEnv,
 ): Promise<WeatherOutput> {
   const stationId = values['station-id'];
-  if (typeof stationId !== 'string') throw new UsageError('--station-id: the ledger station (wst_…) to import into is needed with --url');
+  if (typeof stationId !== 'string')
+    throw new UsageError('--station-id: the ledger station (wst_…) to import into is needed with --url');
   const key = typeof values.key === 'string' ? values.key : env[KEY_VARIABLE];
   if (!key) throw new UsageError(`--key or ${KEY_VARIABLE}: an API key is needed with --url`);
   let base: URL;
@@ -188,11 +214,28 @@ async function postToService(
       body: text,
     });
   } catch (error) {
-    throw new InputFileError(file, null, null, `the service at ${base.origin} did not answer (${(error as Error).message})`);
+    throw new InputFileError(
+      file,
+      null,
+      null,
+      `the service at ${base.origin} did not answer (${(error as Error).message})`,
+    );
   }
-  const body = (await response.json().catch(() => null)) as { detail?: string; counts?: ArchiveCounts; archiveStationId?: string } | null;
+  const body = (await response.json().catch(() => null)) as {
+    detail?: string;
+    counts?: ArchiveCounts;
+    archiveStationId?: string;
+  } | null;
   if (!response.ok)
-    throw new InputFileError(file, null, null, `the service refused the import (${response.status}): ${body?.detail ?? 'no detail'}`);
-  const note = body?.counts && body.archiveStationId ? `${file}: ${describeCounts(body.archiveStationId, body.counts)}\n` : undefined;
+    throw new InputFileError(
+      file,
+      null,
+      null,
+      `the service refused the import (${response.status}): ${body?.detail ?? 'no detail'}`,
+    );
+  const note =
+    body?.counts && body.archiveStationId
+      ? `${file}: ${describeCounts(body.archiveStationId, body.counts)}\n`
+      : undefined;
   return { stdout: `${JSON.stringify(body, null, 2)}\n`, ...(note ? { note } : {}) };
 }

@@ -113,7 +113,9 @@ export function renderFitReport(document: FitDocument, context: FitReportContext
   if (excluded.length === 0) lines.push('  none');
   const rowWidth = Math.max(0, ...excluded.map((period) => String(context.lineOf(period.index)).length));
   for (const period of excluded) {
-    lines.push(`  row ${String(context.lineOf(period.index)).padStart(rowWidth)}  ${period.start} to ${period.end}: ${period.reason}`);
+    lines.push(
+      `  row ${String(context.lineOf(period.index)).padStart(rowWidth)}  ${period.start} to ${period.end}: ${period.reason}`,
+    );
   }
   const exclusions = document.exclusions ?? [];
   if (exclusions.length > 0) {
@@ -141,7 +143,10 @@ export function renderFitReport(document: FitDocument, context: FitReportContext
   const selected = document.candidates.find((c) => c.model === document.selected);
   lines.push(
     '',
-    ...guideline14Lines(selected?.guideline14 ?? null, `Guideline 14 acceptance of the selected shape (${document.selected})`),
+    ...guideline14Lines(
+      selected?.guideline14 ?? null,
+      `Guideline 14 acceptance of the selected shape (${document.selected})`,
+    ),
     '  The CV(RMSE) limit here is the one for under 12 reporting months; `mvledger savings` applies the limit for the reporting length.',
     '',
     CAUTION,

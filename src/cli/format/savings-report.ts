@@ -4,7 +4,14 @@
  * significance verdict, the extrapolation share and the baseline's
  * Guideline 14 acceptance.
  */
-import type { CheckedSavingsDocument, ExcludedPeriod, ModelName, TemperatureForm, TemperatureUnit, Verdict } from '../../engine/index.js';
+import type {
+  CheckedSavingsDocument,
+  ExcludedPeriod,
+  ModelName,
+  TemperatureForm,
+  TemperatureUnit,
+  Verdict,
+} from '../../engine/index.js';
 import { unitSymbol } from '../../engine/index.js';
 import { CAUTION } from './caution.js';
 import { guideline14Lines } from './guideline14-lines.js';
@@ -64,7 +71,15 @@ export function renderSavingsReport(document: CheckedSavingsDocument, context: S
     amount(p.savings),
   ]);
   const totalDays = document.periods.reduce((days, p) => days + p.days, 0);
-  rows.push(['Total', '', String(totalDays), '', amount(totals.actual), amount(totals.adjustedBaseline), amount(totals.savings)]);
+  rows.push([
+    'Total',
+    '',
+    String(totalDays),
+    '',
+    amount(totals.actual),
+    amount(totals.adjustedBaseline),
+    amount(totals.savings),
+  ]);
   lines.push(
     ...renderTable(
       [
@@ -89,7 +104,9 @@ export function renderSavingsReport(document: CheckedSavingsDocument, context: S
   const inputs = document.uncertaintyInputs;
   const at68 = document.significance.fractionalAt68;
   const width = Math.max(
-    ...[totals.adjustedBaseline, totals.actual, totals.savings, g14.absolute, exact.absolute].map((v) => amount(v).length),
+    ...[totals.adjustedBaseline, totals.actual, totals.savings, g14.absolute, exact.absolute].map(
+      (v) => amount(v).length,
+    ),
   );
   const column = (value: number) => amount(value).padStart(width);
   lines.push(
@@ -149,13 +166,19 @@ function checkLines(document: CheckedSavingsDocument): string[] {
   return lines;
 }
 
-function excludedLines(label: string, excluded: readonly ExcludedPeriod[], file: string, lineOf: (index: number) => number): string[] {
+function excludedLines(
+  label: string,
+  excluded: readonly ExcludedPeriod[],
+  file: string,
+  lineOf: (index: number) => number,
+): string[] {
   if (excluded.length === 0) return [`  ${label}: none`];
   const rowWidth = Math.max(...excluded.map((period) => String(lineOf(period.index)).length));
   return [
     `  ${label} (${file}):`,
     ...excluded.map(
-      (period) => `    row ${String(lineOf(period.index)).padStart(rowWidth)}  ${period.start} to ${period.end}: ${period.reason}`,
+      (period) =>
+        `    row ${String(lineOf(period.index)).padStart(rowWidth)}  ${period.start} to ${period.end}: ${period.reason}`,
     ),
   ];
 }

@@ -24,9 +24,11 @@ export function splitReadingsByMeter(table: CsvTable): MeterTable[] {
   const meters = new Map<string, { station: string | null; stationLine: number; rows: CsvRow[] }>();
   for (const row of table.rows) {
     const meter = cell(row, 'meter');
-    if (meter === '') throw new InputFileError(table.file, row.line, 'meter', 'the meter is empty: every row names its meter');
+    if (meter === '')
+      throw new InputFileError(table.file, row.line, 'meter', 'the meter is empty: every row names its meter');
     const station = hasStation ? cell(row, 'station') : null;
-    if (station === '') throw new InputFileError(table.file, row.line, 'station', `meter ${JSON.stringify(meter)}: the station is empty`);
+    if (station === '')
+      throw new InputFileError(table.file, row.line, 'station', `meter ${JSON.stringify(meter)}: the station is empty`);
     const entry = meters.get(meter);
     if (!entry) {
       meters.set(meter, { station, stationLine: row.line, rows: [row] });
@@ -55,7 +57,8 @@ export function splitWeatherByStation(table: CsvTable): Map<string | null, CsvTa
   const stations = new Map<string, CsvRow[]>();
   for (const row of table.rows) {
     const station = cell(row, 'station');
-    if (station === '') throw new InputFileError(table.file, row.line, 'station', 'the station is empty: every row names its station');
+    if (station === '')
+      throw new InputFileError(table.file, row.line, 'station', 'the station is empty: every row names its station');
     const rows = stations.get(station);
     if (rows) rows.push(row);
     else stations.set(station, [row]);

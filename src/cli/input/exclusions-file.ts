@@ -35,6 +35,11 @@ export function checkExclusions(exclusions: ExclusionsFile, readings: readonly R
     const index = /^exclusions\[(\d+)\]/.exec(error.field);
     const line = index ? (exclusions.lines[Number(index[1])] ?? null) : null;
     const field = error.field.endsWith('.reason') ? 'reason' : index ? 'start' : null;
-    throw new InputFileError(exclusions.file, line, field, error.message.replace(/^exclusions(\[\d+\](\.reason)?)?: /, ''));
+    throw new InputFileError(
+      exclusions.file,
+      line,
+      field,
+      error.message.replace(/^exclusions(\[\d+\](\.reason)?)?: /, ''),
+    );
   }
 }

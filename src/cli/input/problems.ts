@@ -31,7 +31,11 @@ export function locateProblems(
  * Throw the first problem (by line, then by column order). Where the file
  * reader and the engine both flag the same cell, the first report wins.
  */
-export function throwFirstProblem(file: string, problems: readonly LocatedProblem[], columnOrder: readonly string[]): void {
+export function throwFirstProblem(
+  file: string,
+  problems: readonly LocatedProblem[],
+  columnOrder: readonly string[],
+): void {
   const unique = new Map<string, LocatedProblem>();
   for (const problem of problems) {
     const key = `${problem.line}\u0000${problem.field}`;

@@ -31,7 +31,11 @@ export function readingsFromTable(table: CsvTable): ReadingsFile {
   for (const row of table.rows) {
     const quantity = parseNumberCell(cell(row, 'quantity'));
     if (!quantity.ok) problems.push({ line: row.line, field: 'quantity', message: quantity.message });
-    const reading: Reading = { start: cell(row, 'start'), end: cell(row, 'end'), quantity: quantity.ok ? quantity.value : Number.NaN };
+    const reading: Reading = {
+      start: cell(row, 'start'),
+      end: cell(row, 'end'),
+      quantity: quantity.ok ? quantity.value : Number.NaN,
+    };
     if (hasEstimated) {
       const estimated = parseFlagCell(cell(row, 'estimated'));
       if (estimated.ok) reading.estimated = estimated.value;

@@ -34,7 +34,8 @@ export async function loadVariables(file: string): Promise<VariablesFile> {
   }
   const keys = daily ? ['date'] : ['start', 'end'];
   const columns = table.columns.filter((c) => c !== '' && !keys.includes(c));
-  if (columns.length === 0) throw new InputFileError(table.file, table.headerLine, null, 'no variable columns beside ' + keys.join(','));
+  if (columns.length === 0)
+    throw new InputFileError(table.file, table.headerLine, null, 'no variable columns beside ' + keys.join(','));
   const series = columns.map((column) => ({
     column,
     name: column.endsWith(TOTAL_SUFFIX) ? column.slice(0, -TOTAL_SUFFIX.length) : column,
@@ -48,7 +49,12 @@ export async function loadVariables(file: string): Promise<VariablesFile> {
       throw new InputFileError(table.file, row.line, daily ? 'date' : 'start', `not a calendar date: "${start}"`);
     const end = daily ? addDays(start, 1) : cell(row, 'end');
     if (!daily && (parseIsoDate(end) === null || !(end > start))) {
-      throw new InputFileError(table.file, row.line, 'end', `must be a calendar date after start (${start}), got "${end}"`);
+      throw new InputFileError(
+        table.file,
+        row.line,
+        'end',
+        `must be a calendar date after start (${start}), got "${end}"`,
+      );
     }
     spans.push({ start, end, line: row.line });
     for (const s of series) {
@@ -74,6 +80,10 @@ export async function loadVariables(file: string): Promise<VariablesFile> {
 }
 
 /** A model's missing values as the command line tells it: the file, and the periods and variables without values. */
-export function explainMissingValues(error: MissingVariableValuesError, file: VariablesFile | null, what: string): UsageError {
+export function explainMissingValues(
+  error: MissingVariableValuesError,
+  file: VariablesFile | null,
+  what: string,
+): UsageError {
   return new UsageError(`${file ? `${file.file}: ` : ''}${error.message} (${what})`);
 }

@@ -7,7 +7,14 @@
  * second-station, as the service lists them; empty for an observed day), so
  * `fit` can say which periods rest on filled days.
  */
-import { checkWeather, FILL_METHODS, isIsoDate, type DailyTemperature, type FillMethod, type TemperatureUnit } from '../../engine/index.js';
+import {
+  checkWeather,
+  FILL_METHODS,
+  isIsoDate,
+  type DailyTemperature,
+  type FillMethod,
+  type TemperatureUnit,
+} from '../../engine/index.js';
 import { cell, readCsvTable, requireColumns, type CsvRow, type CsvTable } from '../../lib/csv/csv-table.js';
 import { parseNumberCell } from '../../lib/csv/cells.js';
 import { locateProblems, throwFirstProblem, type LocatedProblem } from './problems.js';
@@ -42,7 +49,11 @@ export function weatherFromTable(table: CsvTable, unit: TemperatureUnit): Weathe
     const values = readTemperatures(row, temperatureColumns, problems);
     if (values) days.push({ date, values, line: row.line });
     else if (!isIsoDate(date))
-      problems.push({ line: row.line, field: 'date', message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(date)}` });
+      problems.push({
+        line: row.line,
+        field: 'date',
+        message: `not a valid date (YYYY-MM-DD): ${JSON.stringify(date)}`,
+      });
   }
   const lines = days.map((d) => d.line);
   // The engine's plausibility check runs on each column as read, so a problem names that column.

@@ -46,7 +46,11 @@ function lineFit(W: number, X: number, XX: number, Y: number, XY: number, YY: nu
 }
 
 function prefixLines(s: SortedSums): LineFits {
-  const fits = { slope: new Float64Array(s.n + 1), intercept: new Float64Array(s.n + 1), sse: new Float64Array(s.n + 1) };
+  const fits = {
+    slope: new Float64Array(s.n + 1),
+    intercept: new Float64Array(s.n + 1),
+    sse: new Float64Array(s.n + 1),
+  };
   for (let k = 0; k <= s.n; k++) {
     const [slope, intercept, sse] = lineFit(s.W[k]!, s.X[k]!, s.XX[k]!, s.Y[k]!, s.XY[k]!, s.YY[k]!);
     fits.slope[k] = slope;
@@ -82,7 +86,13 @@ function suffixLines(s: SortedSums): LineFits {
  * segment too narrow for a line gets its constant fit, which a line cannot
  * beat there). Used only to skip placements that cannot win.
  */
-function separateFitBound(s: SortedSums, prefix: LineFits, suffix: LineFits, heatingEnd: number, coolingStart: number): number {
+function separateFitBound(
+  s: SortedSums,
+  prefix: LineFits,
+  suffix: LineFits,
+  heatingEnd: number,
+  coolingStart: number,
+): number {
   return (
     boundOfLine(prefix.sse[heatingEnd]!, s, 0, heatingEnd) +
     constantSse(s, heatingEnd, coolingStart) +
@@ -108,7 +118,13 @@ function boundOfLine(lineSse: number, s: SortedSums, from: number, to: number): 
  * have a zero hinge value, so either side may hold them). Pass null for an
  * absent column. All in centred coordinates.
  */
-export function fixedHingeSse(s: SortedSums, cH: number | null, heatingEnd: number, cC: number | null, coolingStart: number): number {
+export function fixedHingeSse(
+  s: SortedSums,
+  cH: number | null,
+  heatingEnd: number,
+  cC: number | null,
+  coolingStart: number,
+): number {
   const n = s.n;
   const W = s.W[n]!;
   const Y = s.Y[n]!;
@@ -203,7 +219,8 @@ function searchOneChangepoint(s: SortedSums, shape: '3PC' | '3PH' | '4P', k: num
   const best = new Best();
   const prefix = prefixLines(s);
   const suffix = suffixLines(s);
-  const label = (c: number): [number | null, number | null] => (shape === '3PC' ? [null, c] : shape === '3PH' ? [c, null] : [c, c]);
+  const label = (c: number): [number | null, number | null] =>
+    shape === '3PC' ? [null, c] : shape === '3PH' ? [c, null] : [c, c];
 
   // Joins exactly at a data point.
   const groups = s.groupStarts;

@@ -13,7 +13,13 @@ import { searchDayResolved } from './day-resolved/search.js';
 import { billDaysOf, withExtraColumns, type BillDays } from './day-resolved/bill-days.js';
 import { checkVariableValues, designRowWithVariables, fitVariables, variableValues } from './variable-columns.js';
 
-import { changepointDerivatives, changepointNames, coefficientNames, slopeSign, type Changepoints } from './shape-model.js';
+import {
+  changepointDerivatives,
+  changepointNames,
+  coefficientNames,
+  slopeSign,
+  type Changepoints,
+} from './shape-model.js';
 import { energyResiduals, goodnessOfFit } from '../stats/goodness-of-fit.js';
 import { durbinWatson, lagOneAutocorrelation } from '../stats/autocorrelation.js';
 import { ar1VarianceInflation } from '../stats/autocorrelation-inflation.js';
@@ -120,7 +126,9 @@ export interface ShapeFitFailure {
 export type ShapeFitResult = ShapeFit | ShapeFitFailure;
 
 /** The form of a fit; fits stored before the day-resolved form existed are mean-form fits. */
-export function fitTemperatureForm(fit: Pick<ShapeFit, 'temperatureForm'> | { temperatureForm?: TemperatureForm }): TemperatureForm {
+export function fitTemperatureForm(
+  fit: Pick<ShapeFit, 'temperatureForm'> | { temperatureForm?: TemperatureForm },
+): TemperatureForm {
   return fit.temperatureForm ?? 'mean';
 }
 
@@ -148,7 +156,9 @@ export function fitShape(
   const p = PARAMETER_COUNT[model] + variables.length;
   const fail = (reason: string): ShapeFitFailure => ({ ok: false, model, n, p, reason });
   if (form === 'daily' && !periodsHaveDays(ordered)) {
-    throw new RangeError('the day-resolved form needs the daily temperatures of every period (align the readings with alignPeriods)');
+    throw new RangeError(
+      'the day-resolved form needs the daily temperatures of every period (align the readings with alignPeriods)',
+    );
   }
   if (n <= p) return fail(`needs more than ${p} periods, has ${n}`);
   if (new Set(variables).size !== variables.length) throw new RangeError('a variable is named twice');
@@ -174,7 +184,12 @@ export function fitShape(
         : 'the regression is singular (too little spread in temperature)',
     );
 
-  const residuals = energyResiduals({ quantity: ordered.map((q) => q.quantity), days: w, fittedPerDay: regression.fitted, p });
+  const residuals = energyResiduals({
+    quantity: ordered.map((q) => q.quantity),
+    days: w,
+    fittedPerDay: regression.fitted,
+    p,
+  });
   const autocorrelation = lagOneAutocorrelation(residuals);
   const inflation = ar1VarianceInflation(design, w, autocorrelation);
   const shapeColumns = coefficientNames(model).length;
@@ -189,8 +204,17 @@ export function fitShape(
       tStatAdjusted: (sign * regression.tStats[j]!) / Math.sqrt(inflation[j]!),
     };
   });
-  const derivatives = ordered.map((period) => changepointDerivatives(model, changepoints, regression.coefficients, period, form));
-  const changepointEstimates = estimateChangepointErrors(model, changepoints, w, design, derivatives, regression.residualVariance);
+  const derivatives = ordered.map((period) =>
+    changepointDerivatives(model, changepoints, regression.coefficients, period, form),
+  );
+  const changepointEstimates = estimateChangepointErrors(
+    model,
+    changepoints,
+    w,
+    design,
+    derivatives,
+    regression.residualVariance,
+  );
 
   const parameters: Record<string, number> = {};
   for (const c of coefficients) parameters[c.name] = c.estimate;
@@ -263,13 +287,19 @@ function searchShape(
  * search carries the extra columns (basis-sweep.ts, five-point-basis.ts).
  */
 export function searchView(periods: readonly Period[], form: TemperatureForm, variables: readonly string[]): BillDays {
-  const base = form === 'daily' ? billDaysOf(periods) : billDaysOf(periods.map((period) => ({ ...period, dayTemps: [period.meanTemp] })));
+  const base =
+    form === 'daily'
+      ? billDaysOf(periods)
+      : billDaysOf(periods.map((period) => ({ ...period, dayTemps: [period.meanTemp] })));
   if (variables.length === 0) return base;
   const columns = variables.map((_, k) => periods.map((period) => variableValues(period, variables)[k]!));
   return withExtraColumns(base, variables.join('\u0000'), columns);
 }
 
-function variableRanges(periods: readonly Period[], variables: readonly string[]): Record<string, { min: number; max: number }> {
+function variableRanges(
+  periods: readonly Period[],
+  variables: readonly string[],
+): Record<string, { min: number; max: number }> {
   const ranges: Record<string, { min: number; max: number }> = {};
   variables.forEach((name, k) => {
     const values = periods.map((period) => variableValues(period, variables)[k]!);
@@ -296,7 +326,12 @@ function dayRange(periods: readonly Period[]): { min: number; max: number } {
  * its days that fall in it (for one-day readings the same). A reading or day
  * on a changepoint counts in both segments it touches.
  */
-function segmentCounts(model: ModelName, cp: Changepoints, periods: readonly Period[], form: TemperatureForm): Record<string, number> {
+function segmentCounts(
+  model: ModelName,
+  cp: Changepoints,
+  periods: readonly Period[],
+  form: TemperatureForm,
+): Record<string, number> {
   const measure = (test: (temp: number) => boolean): number => {
     let total = 0;
     for (const period of periods) {
@@ -325,7 +360,11 @@ function segmentCounts(model: ModelName, cp: Changepoints, periods: readonly Per
     case '4P':
       return { below: measure((v) => v <= cH), above: measure((v) => v >= cH) };
     case '5P':
-      return { heating: measure((v) => v <= cH), flat: measure((v) => v >= cH && v <= cC), cooling: measure((v) => v >= cC) };
+      return {
+        heating: measure((v) => v <= cH),
+        flat: measure((v) => v >= cH && v <= cC),
+        cooling: measure((v) => v >= cC),
+      };
   }
 }
 
@@ -373,7 +412,9 @@ function estimateChangepointErrors(
 export function withAutocorrelation(fit: ShapeFit, periods: readonly Period[], rho: number): ShapeFit {
   const ordered = [...periods].sort((a, b) => (a.start < b.start ? -1 : a.start > b.start ? 1 : 0));
   const form = fitTemperatureForm(fit);
-  const design = ordered.map((period) => designRowWithVariables(fit.model, fit.changepoints, period, form, fitVariables(fit)));
+  const design = ordered.map((period) =>
+    designRowWithVariables(fit.model, fit.changepoints, period, form, fitVariables(fit)),
+  );
   const inflation = ar1VarianceInflation(
     design,
     ordered.map((period) => period.days),

@@ -89,7 +89,12 @@ export function changepointNames(model: ModelName): string[] {
 }
 
 /** Predicted use per day at temperature x. */
-export function predictPerDay(model: ModelName, changepoints: Changepoints, rawCoefficients: readonly number[], x: number): number {
+export function predictPerDay(
+  model: ModelName,
+  changepoints: Changepoints,
+  rawCoefficients: readonly number[],
+  x: number,
+): number {
   return designRow(model, changepoints, x).reduce((sum, value, j) => sum + value * rawCoefficients[j]!, 0);
 }
 
@@ -98,13 +103,20 @@ export type PeriodWeather = Pick<Period, 'meanTemp' | 'dayTemps'>;
 
 function dayTempsOf(period: PeriodWeather): readonly number[] {
   if (!period.dayTemps || period.dayTemps.length === 0) {
-    throw new RangeError('the day-resolved form needs the daily temperatures of every period (align the readings with alignPeriods)');
+    throw new RangeError(
+      'the day-resolved form needs the daily temperatures of every period (align the readings with alignPeriods)',
+    );
   }
   return period.dayTemps;
 }
 
 /** The design row of `model` for a whole period, in the given temperature form. */
-export function periodDesignRow(model: ModelName, changepoints: Changepoints, period: PeriodWeather, form: TemperatureForm): number[] {
+export function periodDesignRow(
+  model: ModelName,
+  changepoints: Changepoints,
+  period: PeriodWeather,
+  form: TemperatureForm,
+): number[] {
   if (form === 'mean' || model === '1P' || model === '2P') return designRow(model, changepoints, period.meanTemp);
   const temps = dayTempsOf(period);
   const cH = changepoints.heating ?? Number.NaN;
@@ -128,7 +140,10 @@ export function predictPeriodPerDay(
   period: PeriodWeather,
   form: TemperatureForm,
 ): number {
-  return periodDesignRow(model, changepoints, period, form).reduce((sum, value, j) => sum + value * rawCoefficients[j]!, 0);
+  return periodDesignRow(model, changepoints, period, form).reduce(
+    (sum, value, j) => sum + value * rawCoefficients[j]!,
+    0,
+  );
 }
 
 /**
@@ -147,8 +162,10 @@ export function changepointDerivatives(
 ): number[] {
   const cH = changepoints.heating ?? Number.NaN;
   const cC = changepoints.cooling ?? Number.NaN;
-  const below = (c: number): number => (form === 'mean' ? (period.meanTemp < c ? 1 : 0) : shareBelow(dayTempsOf(period), c));
-  const above = (c: number): number => (form === 'mean' ? (period.meanTemp > c ? 1 : 0) : shareAbove(dayTempsOf(period), c));
+  const below = (c: number): number =>
+    form === 'mean' ? (period.meanTemp < c ? 1 : 0) : shareBelow(dayTempsOf(period), c);
+  const above = (c: number): number =>
+    form === 'mean' ? (period.meanTemp > c ? 1 : 0) : shareAbove(dayTempsOf(period), c);
   switch (model) {
     case '3PC':
       return [-rawCoefficients[1]! * above(cC)];

@@ -37,7 +37,9 @@ export function variableValues(period: PeriodInputs, names: readonly string[]): 
     const value = period.variables?.[name];
     if (value === undefined || !Number.isFinite(value)) {
       const when = period.start !== undefined ? ` for the period ${period.start} to ${period.end}` : '';
-      throw new RangeError(`no value of the variable "${name}"${when}: a model with variables needs every period's values`);
+      throw new RangeError(
+        `no value of the variable "${name}"${when}: a model with variables needs every period's values`,
+      );
     }
     return value;
   });
@@ -62,7 +64,12 @@ export function fitVariables(fit: { variables?: readonly string[] }): readonly s
 
 /** Predicted use per day over a period by a fitted model, variables included. */
 export function predictWithVariables(
-  fit: { model: ModelName; changepoints: Changepoints; rawCoefficients: readonly number[]; variables?: readonly string[] },
+  fit: {
+    model: ModelName;
+    changepoints: Changepoints;
+    rawCoefficients: readonly number[];
+    variables?: readonly string[];
+  },
   period: PeriodInputs,
   form: TemperatureForm,
 ): number {

@@ -54,5 +54,14 @@ export function weightedLeastSquares(
   const residualVariance = df > 0 ? sse / df : Number.NaN;
   const standardErrors = inverse.map((row, j) => Math.sqrt(residualVariance * row[j]!));
   const tStats = coefficients.map((value, j) => value / standardErrors[j]!);
-  return { coefficients, unscaledCovariance: inverse, sse, degreesOfFreedom: df, residualVariance, standardErrors, tStats, fitted };
+  return {
+    coefficients,
+    unscaledCovariance: inverse,
+    sse,
+    degreesOfFreedom: df,
+    residualVariance,
+    standardErrors,
+    tStats,
+    fitted,
+  };
 }

@@ -25,7 +25,11 @@ import { invertMatrix } from '../fit/matrix.js';
  * design is singular.
  * @example ar1VarianceInflation([[1], [1]], [1, 1], 0.5) // [1.5] — the variance of a mean of two AR(1) values is (1 + ρ)/2 of σ², not 1/2 (source: by hand, common practice)
  */
-export function ar1VarianceInflation(design: readonly (readonly number[])[], weights: readonly number[], rho: number): number[] {
+export function ar1VarianceInflation(
+  design: readonly (readonly number[])[],
+  weights: readonly number[],
+  rho: number,
+): number[] {
   const n = design.length;
   const k = design[0]?.length ?? 0;
   const ones = new Array<number>(k).fill(1);
@@ -54,7 +58,8 @@ export function ar1VarianceInflation(design: readonly (readonly number[])[], wei
   return ones.map((_, j) => {
     // [A⁻¹ M A⁻¹]ⱼⱼ = aⱼᵀ M aⱼ with aⱼ the j-th column of A⁻¹.
     let sandwich = 0;
-    for (let a = 0; a < k; a++) for (let b = 0; b < k; b++) sandwich += inverse[a]![j]! * meat[a]![b]! * inverse[b]![j]!;
+    for (let a = 0; a < k; a++)
+      for (let b = 0; b < k; b++) sandwich += inverse[a]![j]! * meat[a]![b]! * inverse[b]![j]!;
     const plain = inverse[j]![j]!;
     return plain > 0 && sandwich > 0 ? Math.max(1, sandwich / plain) : 1;
   });

@@ -51,10 +51,14 @@ const SINGULAR = 1e-9;
  * The blocks for a set of periods in time order, and the method they stand for.
  * @example outOfSampleBlocks([{ start: '2024-01-01', days: 31 }, { start: '2024-02-01', days: 29 }]).method // "leave-one-period-out" — bills of 29 days and more are left out one by one (source: the rule above, set by this engine)
  */
-export function outOfSampleBlocks(periods: readonly { start: string; days: number }[]): { method: OutOfSampleMethod; blocks: string[] } {
+export function outOfSampleBlocks(periods: readonly { start: string; days: number }[]): {
+  method: OutOfSampleMethod;
+  blocks: string[];
+} {
   const lengths = periods.map((p) => p.days).sort((a, b) => a - b);
   const median = lengths[Math.floor(lengths.length / 2)] ?? 1;
-  if (median >= BILL_DAYS_FOR_LEAVE_ONE_OUT) return { method: 'leave-one-period-out', blocks: periods.map((p) => p.start) };
+  if (median >= BILL_DAYS_FOR_LEAVE_ONE_OUT)
+    return { method: 'leave-one-period-out', blocks: periods.map((p) => p.start) };
   return { method: 'blocked-by-month', blocks: periods.map((p) => p.start.slice(0, 7)) };
 }
 
@@ -151,7 +155,8 @@ function solveInPlace(matrix: Float64Array, rhs: Float64Array, m: number): boole
   }
   for (let col = 0; col < m; col++) {
     let pivotRow = col;
-    for (let r = col + 1; r < m; r++) if (Math.abs(matrix[r * m + col]!) > Math.abs(matrix[pivotRow * m + col]!)) pivotRow = r;
+    for (let r = col + 1; r < m; r++)
+      if (Math.abs(matrix[r * m + col]!) > Math.abs(matrix[pivotRow * m + col]!)) pivotRow = r;
     const pivot = matrix[pivotRow * m + col]!;
     if (!(Math.abs(pivot) > SINGULAR)) return false;
     if (pivotRow !== col) {

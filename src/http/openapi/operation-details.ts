@@ -18,7 +18,8 @@ export const RESPONSE_DESCRIPTIONS: Readonly<Record<string, string>> = {
   '401': 'No valid API key: missing, malformed, unknown or revoked',
   '403': "The key's role lacks the permission this operation needs",
   '404': "Not found in the caller's organisation",
-  '409': 'Conflicts with stored data (an overlap, a frozen baseline, a changed reading without a reason); nothing was stored',
+  '409':
+    'Conflicts with stored data (an overlap, a frozen baseline, a changed reading without a reason); nothing was stored',
   '413': 'The body is larger than the service accepts',
   '415': 'The body is not of a media type this operation takes',
   '422': 'Well-formed, but cannot be done with the stored data (the problem says why); nothing was stored',

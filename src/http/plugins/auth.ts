@@ -45,7 +45,9 @@ export const authPlugin = fp<AuthOptions>(
       // The scheme is case-insensitive (RFC 9110 §11.1). Two Authorization lines are
       // ambiguous (node keeps only the first), so they authenticate nothing.
       const token =
-        typeof header === 'string' && authorizationLines(request.raw.rawHeaders) === 1 ? (BEARER.exec(header)?.[1] ?? null) : null;
+        typeof header === 'string' && authorizationLines(request.raw.rawHeaders) === 1
+          ? (BEARER.exec(header)?.[1] ?? null)
+          : null;
       const key = token ? await authenticate(store.db, token) : null;
       if (!key) {
         failures?.recordFailure(request.ip);
@@ -54,7 +56,10 @@ export const authPlugin = fp<AuthOptions>(
       }
       request.principal = { keyId: key.id, organisationId: key.organisation_id, role: key.role };
       if (!allows(key.role, permission)) {
-        throw new Problem('forbidden', `the ${key.role} role does not have the "${permission}" permission this route needs`);
+        throw new Problem(
+          'forbidden',
+          `the ${key.role} role does not have the "${permission}" permission this route needs`,
+        );
       }
     });
   },

@@ -81,9 +81,11 @@ export function csvToBody(collection: CsvCollection, text: string): { body: Reco
   const allowed = new Set([...spec.required.flat(), ...spec.optional]);
   const unknown = [...present].filter((c) => !allowed.has(c));
   if (unknown.length > 0) {
-    throw new Problem('validation', `row ${table.headerLine}: unknown column ${unknown.map((c) => `"${c}"`).join(', ')}`, [
-      { field: `row ${table.headerLine}`, message: `unknown column ${unknown.join(', ')}` },
-    ]);
+    throw new Problem(
+      'validation',
+      `row ${table.headerLine}: unknown column ${unknown.map((c) => `"${c}"`).join(', ')}`,
+      [{ field: `row ${table.headerLine}`, message: `unknown column ${unknown.join(', ')}` }],
+    );
   }
   const records = table.rows.map((row) => {
     const record: Record<string, unknown> = {};

@@ -42,7 +42,9 @@ function requestHash(request: FastifyRequest): string {
   } catch (error) {
     // A body no route schema looked at (a DELETE's) can nest deeper than the stack allows.
     if (error instanceof RangeError)
-      throw new Problem('validation', 'the body is nested too deeply', [{ field: '(body)', message: 'nested too deeply' }]);
+      throw new Problem('validation', 'the body is nested too deeply', [
+        { field: '(body)', message: 'nested too deeply' },
+      ]);
     throw error;
   }
   return sha256Hex(`${request.method} ${path} ${canonical}`);
@@ -89,8 +91,15 @@ export const idempotencyPlugin = fp<IdempotencyOptions>(
         const gone = existing.holder !== null && existing.holder !== holder && isGone(existing.holder);
         const takenOver =
           (gone || age >= STALE_AFTER_MS) &&
-          (await renewIdempotencyKey(store.db, id, { holder: existing.holder, createdAt: existing.created_at }, now(), holder));
-        if (!takenOver) throw new Problem('idempotency-in-flight', 'the first request with this key has not finished; retry shortly');
+          (await renewIdempotencyKey(
+            store.db,
+            id,
+            { holder: existing.holder, createdAt: existing.created_at },
+            now(),
+            holder,
+          ));
+        if (!takenOver)
+          throw new Problem('idempotency-in-flight', 'the first request with this key has not finished; retry shortly');
         request.idempotency = id;
         return;
       }
@@ -106,7 +115,11 @@ export const idempotencyPlugin = fp<IdempotencyOptions>(
       if (!pending) return payload;
       request.idempotency = undefined;
       try {
-        if (reply.statusCode >= 200 && reply.statusCode < 300 && (typeof payload === 'string' || Buffer.isBuffer(payload))) {
+        if (
+          reply.statusCode >= 200 &&
+          reply.statusCode < 300 &&
+          (typeof payload === 'string' || Buffer.isBuffer(payload))
+        ) {
           await recordIdempotentAnswer(store.db, pending, {
             statusCode: reply.statusCode,
             body: payload.toString(),
@@ -119,7 +132,10 @@ export const idempotencyPlugin = fp<IdempotencyOptions>(
         // The answer stands: a write already committed is not undone by losing its key's record. The key
         // stays in flight and is freed after STALE_AFTER_MS; a replay before then is told to retry.
         if (databaseFault(error) === null) throw error;
-        request.log.warn({ database: faultRecord(error) }, 'idempotency key not recorded: the database is not available');
+        request.log.warn(
+          { database: faultRecord(error) },
+          'idempotency key not recorded: the database is not available',
+        );
       }
       return payload;
     });

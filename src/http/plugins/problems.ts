@@ -50,7 +50,8 @@ function validationProblem(
   const context = (error as { validationContext?: string }).validationContext ?? 'body';
   const where = context === 'querystring' ? 'query' : context === 'params' ? 'path' : context;
   const errors: FieldError[] = error.validation.map((issue) => ({
-    field: where === 'body' ? describePath(issue.instancePath, request) : `${where}.${describePath(issue.instancePath)}`,
+    field:
+      where === 'body' ? describePath(issue.instancePath, request) : `${where}.${describePath(issue.instancePath)}`,
     message: issue.message ?? 'invalid',
   }));
   return new Problem('validation', summarise(errors), errors);
@@ -66,7 +67,8 @@ const RETRY_AFTER_SECONDS: Record<DatabaseFault, number> = { busy: 1, 'connectio
  */
 function unavailableProblem(fault: DatabaseFault, request: FastifyRequest): Problem {
   request.log.warn({ database: fault }, 'database not available: answered 503');
-  if (fault === 'busy') return new Problem('unavailable', 'the database is busy with another writer; nothing was stored, retry shortly');
+  if (fault === 'busy')
+    return new Problem('unavailable', 'the database is busy with another writer; nothing was stored, retry shortly');
   const what = fault === 'unreachable' ? 'cannot be reached' : 'connection was lost';
   const write =
     request.method === 'GET' || request.method === 'HEAD'
@@ -83,22 +85,33 @@ export const problemsPlugin = fp(
     app.setErrorHandler((error: FastifyError, request, reply) => {
       if (error instanceof Problem) return sendProblem(request, reply, error);
       if (error instanceof DomainError) return sendProblem(request, reply, problemFromDomain(error));
-      if (hasZodFastifySchemaValidationErrors(error)) return sendProblem(request, reply, validationProblem(error, request));
+      if (hasZodFastifySchemaValidationErrors(error))
+        return sendProblem(request, reply, validationProblem(error, request));
       switch (error.code) {
         case 'FST_ERR_CTP_INVALID_MEDIA_TYPE':
           return sendProblem(
             request,
             reply,
-            new Problem('unsupported-media-type', `send application/json${request.routeOptions.config?.csvBody ? ' or text/csv' : ''}`),
+            new Problem(
+              'unsupported-media-type',
+              `send application/json${request.routeOptions.config?.csvBody ? ' or text/csv' : ''}`,
+            ),
           );
         case 'FST_ERR_CTP_BODY_TOO_LARGE':
           return sendProblem(
             request,
             reply,
-            new Problem('payload-too-large', `the body exceeds ${app.initialConfig.bodyLimit} bytes; send smaller batches`),
+            new Problem(
+              'payload-too-large',
+              `the body exceeds ${app.initialConfig.bodyLimit} bytes; send smaller batches`,
+            ),
           );
         case 'FST_ERR_CTP_EMPTY_JSON_BODY':
-          return sendProblem(request, reply, new Problem('validation', 'the JSON body is empty', [{ field: '(body)', message: 'empty' }]));
+          return sendProblem(
+            request,
+            reply,
+            new Problem('validation', 'the JSON body is empty', [{ field: '(body)', message: 'empty' }]),
+          );
         case 'FST_ERR_CTP_INVALID_CONTENT_LENGTH':
           return sendProblem(request, reply, new Problem('validation', 'the Content-Length does not match the body'));
         default:
@@ -113,12 +126,20 @@ export const problemsPlugin = fp(
       }
       const fault = databaseFault(error);
       if (fault !== null)
-        return sendProblem(request, reply.header('retry-after', String(RETRY_AFTER_SECONDS[fault])), unavailableProblem(fault, request));
+        return sendProblem(
+          request,
+          reply.header('retry-after', String(RETRY_AFTER_SECONDS[fault])),
+          unavailableProblem(fault, request),
+        );
       if (typeof error.statusCode === 'number' && error.statusCode >= 400 && error.statusCode < 500) {
         return sendProblem(request, reply, new Problem('validation', error.message.replace(/\s+/g, ' ').slice(0, 300)));
       }
       request.log.error({ err: { type: error.name, message: error.message, code: error.code } }, 'unexpected error');
-      return sendProblem(request, reply, new Problem('internal', `unexpected error; quote request id ${request.id} when reporting it`));
+      return sendProblem(
+        request,
+        reply,
+        new Problem('internal', `unexpected error; quote request id ${request.id} when reporting it`),
+      );
     });
 
     app.setNotFoundHandler((request, reply) =>

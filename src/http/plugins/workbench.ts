@@ -158,7 +158,12 @@ export const workbenchPlugin = fp<WorkbenchOptions>(
       async (request, reply) => {
         secure(reply);
         const file = request.params.build === files.build ? files.assets.get(request.params['*']) : undefined;
-        if (!file) return reply.code(404).header('cache-control', 'no-store').type('text/plain; charset=utf-8').send('not found\n');
+        if (!file)
+          return reply
+            .code(404)
+            .header('cache-control', 'no-store')
+            .type('text/plain; charset=utf-8')
+            .send('not found\n');
         reply.header('cache-control', 'public, max-age=31536000, immutable');
         return send(reply, file, request.headers['if-none-match']);
       },

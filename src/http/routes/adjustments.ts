@@ -3,7 +3,12 @@ import { z } from 'zod';
 import type { RouteDeps } from '../route-deps.js';
 import { createAdjustment, listAdjustments, withdrawAdjustment } from '../../services/adjustments.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageQuery } from '../schemas/common.js';
-import { adjustmentList, adjustmentSchema, createAdjustmentBody, withdrawAdjustmentBody } from '../schemas/adjustments.js';
+import {
+  adjustmentList,
+  adjustmentSchema,
+  createAdjustmentBody,
+  withdrawAdjustmentBody,
+} from '../schemas/adjustments.js';
 import { requestContext } from '../request-context.js';
 import { PAGE_SIZES } from '../../services/paging.js';
 import type { ApiApp } from './types.js';
@@ -26,7 +31,9 @@ export function adjustmentsRoutes(app: ApiApp, deps: RouteDeps): void {
       },
     },
     async (request, reply) =>
-      reply.code(201).send(await createAdjustment(requestContext(request, deps).service, request.params.id, request.body)),
+      reply
+        .code(201)
+        .send(await createAdjustment(requestContext(request, deps).service, request.params.id, request.body)),
   );
 
   app.post(
@@ -62,6 +69,7 @@ export function adjustmentsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: adjustmentList, ...authProblems },
       },
     },
-    async (request) => listAdjustments(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
+    async (request) =>
+      listAdjustments(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
   );
 }

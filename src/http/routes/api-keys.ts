@@ -27,9 +27,11 @@ import type { ApiApp } from './types.js';
 /** A preValidation hook: it runs before the idempotency plugin's preHandler, so no replay row is ever written. */
 async function refuseIdempotencyKey(request: FastifyRequest): Promise<void> {
   if (request.headers[IDEMPOTENCY_HEADER] !== undefined) {
-    throw new Problem('validation', 'Idempotency-Key is not accepted on API-key routes: the response holds a secret that is never stored', [
-      { field: 'header.idempotency-key', message: 'not accepted here' },
-    ]);
+    throw new Problem(
+      'validation',
+      'Idempotency-Key is not accepted on API-key routes: the response holds a secret that is never stored',
+      [{ field: 'header.idempotency-key', message: 'not accepted here' }],
+    );
   }
 }
 
@@ -49,7 +51,8 @@ export function apiKeysRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 201: createdApiKeySchema, ...writeProblems },
       },
     },
-    async (request, reply) => reply.code(201).send(await createApiKey(requestContext(request, deps).service, request.body)),
+    async (request, reply) =>
+      reply.code(201).send(await createApiKey(requestContext(request, deps).service, request.body)),
   );
 
   app.get(

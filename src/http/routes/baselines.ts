@@ -47,7 +47,9 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
       },
     },
     async (request, reply) =>
-      reply.code(201).send(await createBaseline(requestContext(request, deps).service, request.params.id, request.body)),
+      reply
+        .code(201)
+        .send(await createBaseline(requestContext(request, deps).service, request.params.id, request.body)),
   );
 
   app.get(
@@ -64,7 +66,8 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: baselineHistorySchema, ...authProblems },
       },
     },
-    async (request) => listBaselines(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
+    async (request) =>
+      listBaselines(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
   );
 
   app.get(
@@ -81,7 +84,8 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: verifiedBaselineSchema, ...authProblems },
       },
     },
-    async (request) => getNewestBaseline(deps.store.db, requestContext(request, deps).organisationId, request.params.id),
+    async (request) =>
+      getNewestBaseline(deps.store.db, requestContext(request, deps).organisationId, request.params.id),
   );
 
   app.get(
@@ -98,7 +102,8 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: baselinePointsSchema, ...authProblems },
       },
     },
-    async (request) => newestBaselinePoints(deps.store.db, requestContext(request, deps).organisationId, request.params.id),
+    async (request) =>
+      newestBaselinePoints(deps.store.db, requestContext(request, deps).organisationId, request.params.id),
   );
 
   app.get(
@@ -123,7 +128,8 @@ export function baselinesRoutes(app: ApiApp, deps: RouteDeps): void {
       schema: {
         tags: ['baselines'],
         summary: 'Choose the shape of a draft',
-        description: 'Any fitted shape may be chosen; a shape that failed screening is allowed but noted in warnings. 409 once frozen.',
+        description:
+          'Any fitted shape may be chosen; a shape that failed screening is allowed but noted in warnings. 409 once frozen.',
         security: bearer,
         headers: idempotencyHeaders,
         params: idParams,

@@ -2,7 +2,15 @@
 import { z } from 'zod';
 import type { RouteDeps } from '../route-deps.js';
 import { createFacility, getFacilityRow, listFacilities, toFacility } from '../../services/facilities.js';
-import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageFields, pageQuery } from '../schemas/common.js';
+import {
+  authProblems,
+  bearer,
+  idParams,
+  idempotencyHeaders,
+  writeProblems,
+  pageFields,
+  pageQuery,
+} from '../schemas/common.js';
 import { createFacilityBody, facilitySchema } from '../schemas/facilities.js';
 import { requestContext } from '../request-context.js';
 import { PAGE_SIZES } from '../../services/paging.js';
@@ -22,7 +30,8 @@ export function facilitiesRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 201: facilitySchema, ...writeProblems },
       },
     },
-    async (request, reply) => reply.code(201).send(await createFacility(requestContext(request, deps).service, request.body)),
+    async (request, reply) =>
+      reply.code(201).send(await createFacility(requestContext(request, deps).service, request.body)),
   );
 
   app.get(
@@ -53,6 +62,7 @@ export function facilitiesRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: facilitySchema, ...authProblems },
       },
     },
-    async (request) => toFacility(await getFacilityRow(deps.store.db, requestContext(request, deps).organisationId, request.params.id)),
+    async (request) =>
+      toFacility(await getFacilityRow(deps.store.db, requestContext(request, deps).organisationId, request.params.id)),
   );
 }

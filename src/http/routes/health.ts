@@ -26,7 +26,11 @@ export function healthRoutes(app: ApiApp, deps: RouteDeps): void {
     '/healthz',
     {
       config: { rateLimit: false },
-      schema: { tags: ['health'], summary: 'The process is up', response: { 200: z.object({ status: z.literal('ok') }) } },
+      schema: {
+        tags: ['health'],
+        summary: 'The process is up',
+        response: { 200: z.object({ status: z.literal('ok') }) },
+      },
     },
     async () => ({ status: 'ok' as const }),
   );

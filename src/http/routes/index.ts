@@ -62,6 +62,14 @@ export const routesPlugin = fp<RouteDeps>(
   {
     name: PLUGIN.routes,
     fastify: FASTIFY_VERSION,
-    dependencies: [PLUGIN.problems, PLUGIN.auth, PLUGIN.rateLimit, PLUGIN.csvBodies, PLUGIN.textInput, PLUGIN.idempotency, PLUGIN.swagger],
+    dependencies: [
+      PLUGIN.problems,
+      PLUGIN.auth,
+      PLUGIN.rateLimit,
+      PLUGIN.csvBodies,
+      PLUGIN.textInput,
+      PLUGIN.idempotency,
+      PLUGIN.swagger,
+    ],
   },
 );

@@ -2,7 +2,15 @@
 import { z } from 'zod';
 import type { RouteDeps } from '../route-deps.js';
 import { createMeter, getMeterRow, listMeters, listOrganisationMeters, toMeter } from '../../services/meters.js';
-import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageFields, pageQuery } from '../schemas/common.js';
+import {
+  authProblems,
+  bearer,
+  idParams,
+  idempotencyHeaders,
+  writeProblems,
+  pageFields,
+  pageQuery,
+} from '../schemas/common.js';
 import { createMeterBody, listMetersQuery, meterSchema } from '../schemas/meters.js';
 import { requestContext } from '../request-context.js';
 import { PAGE_SIZES } from '../../services/paging.js';
@@ -41,7 +49,8 @@ export function metersRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: z.object({ meters: z.array(meterSchema), ...pageFields }), ...authProblems },
       },
     },
-    async (request) => listMeters(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
+    async (request) =>
+      listMeters(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
   );
 
   app.get(
@@ -54,10 +63,14 @@ export function metersRoutes(app: ApiApp, deps: RouteDeps): void {
         description: `Every meter of every facility (optionally one facility), oldest first, in pages (default ${PAGE_SIZES.records.default}, at most ${PAGE_SIZES.records.max}): what a billing system needs to map its accounts to meter ids. Open to every role, the integration role included.`,
         security: bearer,
         querystring: listMetersQuery.extend(pageQuery(PAGE_SIZES.records, 'Meters')),
-        response: { 200: z.object({ meters: z.array(meterSchema), ...pageFields }).meta({ id: 'MeterList' }), ...authProblems },
+        response: {
+          200: z.object({ meters: z.array(meterSchema), ...pageFields }).meta({ id: 'MeterList' }),
+          ...authProblems,
+        },
       },
     },
-    async (request) => listOrganisationMeters(deps.store.db, requestContext(request, deps).organisationId, request.query),
+    async (request) =>
+      listOrganisationMeters(deps.store.db, requestContext(request, deps).organisationId, request.query),
   );
 
   app.get(
@@ -72,6 +85,7 @@ export function metersRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: meterSchema, ...authProblems },
       },
     },
-    async (request) => toMeter(await getMeterRow(deps.store.db, requestContext(request, deps).organisationId, request.params.id)),
+    async (request) =>
+      toMeter(await getMeterRow(deps.store.db, requestContext(request, deps).organisationId, request.params.id)),
   );
 }

@@ -1,6 +1,11 @@
 /** /v1/weather-stations/{id}/normal-year: the station's normal year for normalised savings (JSON or CSV). */
 import type { RouteDeps } from '../route-deps.js';
-import { getNormalYear, normalYearFromPublishedNormals, normalYearFromStationHistory, putNormalYear } from '../../services/normal-years.js';
+import {
+  getNormalYear,
+  normalYearFromPublishedNormals,
+  normalYearFromStationHistory,
+  putNormalYear,
+} from '../../services/normal-years.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
 import {
   normalYearFromHistoryBody,
@@ -31,7 +36,12 @@ export function normalYearsRoutes(app: ApiApp, deps: RouteDeps): void {
       },
     },
     async (request) =>
-      putNormalYear(requestContext(request, deps).service, request.params.id, request.body, recordLocator(request, 'days')),
+      putNormalYear(
+        requestContext(request, deps).service,
+        request.params.id,
+        request.body,
+        recordLocator(request, 'days'),
+      ),
   );
 
   app.post(
@@ -50,7 +60,8 @@ export function normalYearsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: normalYearSchema, ...writeProblems },
       },
     },
-    async (request) => normalYearFromStationHistory(requestContext(request, deps).service, request.params.id, request.body),
+    async (request) =>
+      normalYearFromStationHistory(requestContext(request, deps).service, request.params.id, request.body),
   );
 
   app.post(

@@ -27,7 +27,12 @@ export function observationsRoutes(app: ApiApp, deps: RouteDeps): void {
       },
     },
     async (request) =>
-      putObservations(requestContext(request, deps).service, request.params.id, request.body, recordLocator(request, 'observations')),
+      putObservations(
+        requestContext(request, deps).service,
+        request.params.id,
+        request.body,
+        recordLocator(request, 'observations'),
+      ),
   );
 
   app.get(
@@ -44,6 +49,7 @@ export function observationsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: observationsList, ...authProblems },
       },
     },
-    async (request) => listObservations(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
+    async (request) =>
+      listObservations(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
   );
 }

@@ -4,7 +4,13 @@ import type { RouteDeps } from '../route-deps.js';
 import { listReadings, postReadings, type RecordLocator } from '../../services/readings.js';
 import { describePath } from '../plugins/problems.js';
 import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems } from '../schemas/common.js';
-import { postReadingsBody, seriesQuery, postReadingsQuery, postReadingsResult, readingsList } from '../schemas/readings.js';
+import {
+  postReadingsBody,
+  seriesQuery,
+  postReadingsQuery,
+  postReadingsResult,
+  readingsList,
+} from '../schemas/readings.js';
 import { requestContext } from '../request-context.js';
 import { PAGE_SIZES } from '../../services/paging.js';
 import type { ApiApp } from './types.js';
@@ -59,6 +65,7 @@ export function readingsRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: readingsList, ...authProblems },
       },
     },
-    async (request) => listReadings(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
+    async (request) =>
+      listReadings(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
   );
 }

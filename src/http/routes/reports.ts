@@ -55,7 +55,11 @@ export function reportsRoutes(app: ApiApp, deps: RouteDeps): void {
       if (format === 'html') await checkHtmlReportSize(deps.store.db, organisationId, query);
       const report = await savingsReport(deps.store.db, organisationId, query);
       const body =
-        format === 'csv' ? renderReportCsv(report) : format === 'html' ? renderReportHtml(report) : `${JSON.stringify(report, null, 2)}\n`;
+        format === 'csv'
+          ? renderReportCsv(report)
+          : format === 'html'
+            ? renderReportHtml(report)
+            : `${JSON.stringify(report, null, 2)}\n`;
       return reply.type(CONTENT_TYPES[format]).header('x-report-content-hash', report.contentHash).send(body);
     },
   );
@@ -97,7 +101,10 @@ export function reportsRoutes(app: ApiApp, deps: RouteDeps): void {
       streamSavingsReport(deps.store.db, organisationId, query, format, write).then(
         () => body.end(),
         (error: unknown) => {
-          request.log.warn({ err: { message: error instanceof Error ? error.message : String(error) } }, 'streamed report stopped');
+          request.log.warn(
+            { err: { message: error instanceof Error ? error.message : String(error) } },
+            'streamed report stopped',
+          );
           body.destroy();
         },
       );

@@ -24,7 +24,10 @@ export function savingsRoutes(app: ApiApp, deps: RouteDeps): void {
         params: idParams,
         querystring: savingsQuery,
         headers: z.object({
-          'if-none-match': z.string().optional().describe('An ETag of an earlier answer: 304 while the figures have not changed'),
+          'if-none-match': z
+            .string()
+            .optional()
+            .describe('An ETag of an earlier answer: 304 while the figures have not changed'),
         }),
         response: {
           200: savingsSchema,

@@ -58,7 +58,9 @@ export function statementsRoutes(app: ApiApp, deps: RouteDeps): void {
           : window.contractYear !== undefined
             ? { contractYear: window.contractYear }
             : { from: window.from!, to: window.to! };
-      return reply.code(201).send(await issueStatement(requestContext(request, deps).service, { ...rest, window: resolved }));
+      return reply
+        .code(201)
+        .send(await issueStatement(requestContext(request, deps).service, { ...rest, window: resolved }));
     },
   );
 
@@ -109,7 +111,9 @@ export function statementsRoutes(app: ApiApp, deps: RouteDeps): void {
             content: {
               'application/json': { schema: z.object({ format: z.literal('mvledger-savings-statement') }).loose() },
               'text/csv': { schema: z.string().describe('The report’s table with the statement’s rows first') },
-              'text/html': { schema: z.string().describe('A printable document with page numbers and the approval block') },
+              'text/html': {
+                schema: z.string().describe('A printable document with page numbers and the approval block'),
+              },
             },
           },
           ...authProblems,

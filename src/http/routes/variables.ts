@@ -36,7 +36,9 @@ export function variablesRoutes(app: ApiApp, deps: RouteDeps): void {
       },
     },
     async (request, reply) =>
-      reply.code(201).send(await createVariable(requestContext(request, deps).service, request.params.id, request.body)),
+      reply
+        .code(201)
+        .send(await createVariable(requestContext(request, deps).service, request.params.id, request.body)),
   );
 
   app.get(
@@ -53,7 +55,8 @@ export function variablesRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: variableListSchema, ...authProblems },
       },
     },
-    async (request) => listVariables(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
+    async (request) =>
+      listVariables(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
   );
 
   app.post(
@@ -99,6 +102,7 @@ export function variablesRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: variableValuesList, ...authProblems },
       },
     },
-    async (request) => listVariableValues(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
+    async (request) =>
+      listVariableValues(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
   );
 }

@@ -2,7 +2,15 @@
 import { z } from 'zod';
 import type { RouteDeps } from '../route-deps.js';
 import { createStation, getStationRow, listStations, toStation } from '../../services/weather-stations.js';
-import { authProblems, bearer, idParams, idempotencyHeaders, writeProblems, pageFields, pageQuery } from '../schemas/common.js';
+import {
+  authProblems,
+  bearer,
+  idParams,
+  idempotencyHeaders,
+  writeProblems,
+  pageFields,
+  pageQuery,
+} from '../schemas/common.js';
 import { createStationBody, stationRecordSchema, stationSchema } from '../schemas/weather-stations.js';
 import { dateRangeQuery } from '../schemas/readings.js';
 import { stationRecordSummary } from '../../services/station-records.js';
@@ -24,7 +32,8 @@ export function weatherStationRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 201: stationSchema, ...writeProblems },
       },
     },
-    async (request, reply) => reply.code(201).send(await createStation(requestContext(request, deps).service, request.body)),
+    async (request, reply) =>
+      reply.code(201).send(await createStation(requestContext(request, deps).service, request.body)),
   );
 
   app.get(
@@ -55,7 +64,8 @@ export function weatherStationRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: stationSchema, ...authProblems },
       },
     },
-    async (request) => toStation(await getStationRow(deps.store.db, requestContext(request, deps).organisationId, request.params.id)),
+    async (request) =>
+      toStation(await getStationRow(deps.store.db, requestContext(request, deps).organisationId, request.params.id)),
   );
 
   app.get(
@@ -73,6 +83,12 @@ export function weatherStationRoutes(app: ApiApp, deps: RouteDeps): void {
         response: { 200: stationRecordSchema, ...authProblems },
       },
     },
-    async (request) => stationRecordSummary(deps.store.db, requestContext(request, deps).organisationId, request.params.id, request.query),
+    async (request) =>
+      stationRecordSummary(
+        deps.store.db,
+        requestContext(request, deps).organisationId,
+        request.params.id,
+        request.query,
+      ),
   );
 }

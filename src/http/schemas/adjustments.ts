@@ -32,10 +32,13 @@ export const createAdjustmentBody = z
     message: 'give either quantity or perDay',
   })
   .superRefine((body, ctx) => {
-    const beyond = body.quantity === undefined ? null : beyondBoundPerDay(body.quantity, body.start, body.end, MAX_USE_PER_DAY);
+    const beyond =
+      body.quantity === undefined ? null : beyondBoundPerDay(body.quantity, body.start, body.end, MAX_USE_PER_DAY);
     if (beyond) ctx.addIssue({ code: 'custom', path: ['quantity'], message: beyond });
     const beyondUncertainty =
-      body.uncertainty === undefined ? null : beyondBoundPerDay(body.uncertainty, body.start, body.end, MAX_USE_PER_DAY);
+      body.uncertainty === undefined
+        ? null
+        : beyondBoundPerDay(body.uncertainty, body.start, body.end, MAX_USE_PER_DAY);
     if (beyondUncertainty) ctx.addIssue({ code: 'custom', path: ['uncertainty'], message: beyondUncertainty });
   })
   .describe(
@@ -54,15 +57,25 @@ export const adjustmentSchema = z
     uncertainty: z
       .number()
       .nullable()
-      .describe('Standard uncertainty (one standard deviation) of the total, in the meter’s unit; null when none was stated'),
+      .describe(
+        'Standard uncertainty (one standard deviation) of the total, in the meter’s unit; null when none was stated',
+      ),
     recordedAt: z.string(),
     recordedBy: z.string(),
-    withdrawn: z.object({ at: z.string(), by: z.string(), reason: z.string() }).nullable().describe('Null while the adjustment counts'),
+    withdrawn: z
+      .object({ at: z.string(), by: z.string(), reason: z.string() })
+      .nullable()
+      .describe('Null while the adjustment counts'),
   })
   .meta({ id: 'Adjustment' });
 
 export const withdrawAdjustmentBody = z
-  .object({ reason: plainText().trim().min(3, 'must say why (at least 3 characters)').max(2000, 'must be at most 2000 characters') })
+  .object({
+    reason: plainText()
+      .trim()
+      .min(3, 'must say why (at least 3 characters)')
+      .max(2000, 'must be at most 2000 characters'),
+  })
   .strict();
 
 export const adjustmentList = z

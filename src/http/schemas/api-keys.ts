@@ -3,7 +3,9 @@ import { name } from './common.js';
 
 export const role = z
   .enum(['admin', 'engineer', 'analyst', 'integration'])
-  .describe('admin: everything, keys included; engineer: read, savings, data, ledger; analyst: read, savings; integration: savings, data');
+  .describe(
+    'admin: everything, keys included; engineer: read, savings, data, ledger; analyst: read, savings; integration: savings, data',
+  );
 
 export const createApiKeyBody = z.object({ name, role }).strict();
 
@@ -17,7 +19,9 @@ export const createdApiKeySchema = z
     key: apiKeySchema,
     token: z
       .string()
-      .describe('The whole key, mvl_<id>_<secret>. Shown only in this response: it is not stored and cannot be shown again.'),
+      .describe(
+        'The whole key, mvl_<id>_<secret>. Shown only in this response: it is not stored and cannot be shown again.',
+      ),
   })
   .meta({ id: 'CreatedApiKey' });
 
@@ -30,4 +34,7 @@ export const callerSchema = z
       .describe('What the role may do (every route states the one it needs); the API checks it again on every call'),
     organisation: z.object({ id: z.string(), name: z.string() }),
   })
-  .meta({ id: 'Caller', description: 'The calling API key (never its secret), its role’s permissions and its organisation' });
+  .meta({
+    id: 'Caller',
+    description: 'The calling API key (never its secret), its role’s permissions and its organisation',
+  });

@@ -16,7 +16,10 @@ export const auditQuery = z
   .object({
     entity: z
       .string()
-      .regex(/^[a-z][a-z-]{0,49}$/, 'must be an entity type such as facility, meter, weather-station, baseline, api-key')
+      .regex(
+        /^[a-z][a-z-]{0,49}$/,
+        'must be an entity type such as facility, meter, weather-station, baseline, api-key',
+      )
       .optional()
       .describe(
         'Only rows about this kind of entity: facility, meter, weather-station, baseline, adjustment, api-key, or one filed under another entity: reading (rows of its meter), rate (its meter), observation (its weather station), normal-year (its weather station), contract (its facility); plurals are accepted',
@@ -69,15 +72,22 @@ export const auditPageSchema = z
     entries: z.array(auditEntrySchema),
     next: z.number().int().optional().describe('Pass as `after` to get the next page; absent on the last page'),
     limit: z.number().int().describe('The page size used (the limit asked for, or the default 100)'),
-    nextCursor: z.string().nullable().describe('Pass as cursor to get the next page (the same place as `next`); null on the last page'),
+    nextCursor: z
+      .string()
+      .nullable()
+      .describe('Pass as cursor to get the next page (the same place as `next`); null on the last page'),
   })
   .meta({ id: 'AuditPage' });
 
 const stateDifferenceSchema = z
   .object({
-    table: z.string().describe('readings, observations, rates, contracts, normal-years, adjustments, api-keys or baselines'),
+    table: z
+      .string()
+      .describe('readings, observations, rates, contracts, normal-years, adjustments, api-keys or baselines'),
     key: z.string().describe('Which row: its meter or station and period or date, or the entity id'),
-    difference: z.string().describe('What differs, in words: the stored value against the one the audit trail recorded'),
+    difference: z
+      .string()
+      .describe('What differs, in words: the stored value against the one the audit trail recorded'),
   })
   .meta({ id: 'AuditStateDifference' });
 
@@ -92,14 +102,21 @@ export const verifyQuery = z.object({
 
 export const chainVerdictSchema = z
   .object({
-    ok: z.boolean().describe('True only when the chain, the frozen baselines and (depth=full) every table agree with the trail'),
+    ok: z
+      .boolean()
+      .describe('True only when the chain, the frozen baselines and (depth=full) every table agree with the trail'),
     checked: z.number().int().describe('Rows checked'),
     headSeq: z.number().int(),
     headHash: z.string().describe('Hash of the last row: keep it outside the database to detect a cut-off tail later'),
-    broken: z.object({ seq: z.number().int(), reason: z.string() }).optional().describe('The first row where the chain breaks'),
+    broken: z
+      .object({ seq: z.number().int(), reason: z.string() })
+      .optional()
+      .describe('The first row where the chain breaks'),
     baselines: z
       .object({ ok: z.boolean(), checked: z.number().int(), differences: z.array(stateDifferenceSchema) })
-      .describe('Each frozen or superseded baseline: its stored content against the content hash its freeze row recorded'),
+      .describe(
+        'Each frozen or superseded baseline: its stored content against the content hash its freeze row recorded',
+      ),
     replay: z
       .object({
         ok: z.boolean(),
@@ -124,7 +141,9 @@ export const signedCheckpointSchema = z
       .describe(
         'Ed25519 signature (base64) of "mvledger audit checkpoint v1\\n" + canonical JSON of {headHash, organisationId, seq, signedAt}',
       ),
-    reason: z.enum(['interval', 'statement', 'request']).describe('What made it: the periodic signer, an issued statement, or a request'),
+    reason: z
+      .enum(['interval', 'statement', 'request'])
+      .describe('What made it: the periodic signer, an issued statement, or a request'),
   })
   .meta({ id: 'AuditCheckpoint' });
 

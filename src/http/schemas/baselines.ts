@@ -17,7 +17,8 @@ export const temperatureForm = z
 /** Most variables one fit may be offered: each adds a column and a parameter (our own limit). */
 export const MAX_FIT_VARIABLES = 10;
 
-const text = (max: number) => plainText().trim().min(1, 'must not be empty').max(max, `must be at most ${max} characters`);
+const text = (max: number) =>
+  plainText().trim().min(1, 'must not be empty').max(max, `must be at most ${max} characters`);
 
 export const baselineOptions = z
   .object({
@@ -40,7 +41,10 @@ export const baselineOptions = z
       .max(MAX_POINTS_PER_SEGMENT, `must be at most ${MAX_POINTS_PER_SEGMENT}`)
       .optional()
       .describe('Fewest periods in each segment of a changepoint shape (default 3)'),
-    allowSameSignFourPoint: z.boolean().optional().describe('Accept a 4P whose two slopes have the same sign (default false)'),
+    allowSameSignFourPoint: z
+      .boolean()
+      .optional()
+      .describe('Accept a 4P whose two slopes have the same sign (default false)'),
     temperature: temperatureForm
       .optional()
       .describe(
@@ -80,7 +84,9 @@ export const exclusionInput = z
     readingId: z.string().min(1).max(100).optional().describe('The reading’s id, as the readings API returns it'),
     start: isoDate.optional().describe('Or the reading’s period: its first day …'),
     end: isoDate.optional().describe('… and the day after it (end exclusive)'),
-    reason: text(2000).describe('Why the reading is left out (kept with the baseline, frozen with it and shown in reports)'),
+    reason: text(2000).describe(
+      'Why the reading is left out (kept with the baseline, frozen with it and shown in reports)',
+    ),
   })
   .strict()
   .refine((e) => e.readingId !== undefined || (e.start !== undefined && e.end !== undefined), {
@@ -122,7 +128,9 @@ const overrideReason = z
 export const freezeBody = z
   .object({
     note: text(2000).describe('What the freeze rests on, e.g. the M&V plan clause'),
-    supersedeReason: text(2000).optional().describe('Required when the meter already has a frozen baseline: why it is replaced'),
+    supersedeReason: text(2000)
+      .optional()
+      .describe('Required when the meter already has a frozen baseline: why it is replaced'),
     overrides: z
       .object({
         shortBaseline: overrideReason
@@ -130,7 +138,9 @@ export const freezeBody = z
           .describe('Freeze a baseline shorter than a full cycle of seasons (refused otherwise: 422)'),
         extrapolation: overrideReason
           .optional()
-          .describe('Let savings project onto reporting weather beyond the extrapolation limit (refused otherwise: 422)'),
+          .describe(
+            'Let savings project onto reporting weather beyond the extrapolation limit (refused otherwise: 422)',
+          ),
       })
       .strict()
       .optional()
@@ -155,7 +165,10 @@ export const sufficiencySchema = z
 const overrideSchema = z.object({ reason: z.string() }).nullable();
 export const overridesSchema = z
   .object({ shortBaseline: overrideSchema, extrapolation: overrideSchema })
-  .meta({ id: 'BaselineOverrides', description: 'Checks passed over when the baseline was frozen, each with its reason; null where none' });
+  .meta({
+    id: 'BaselineOverrides',
+    description: 'Checks passed over when the baseline was frozen, each with its reason; null where none',
+  });
 
 const limitCheck = z.object({ value: stat, limit: stat, pass: z.boolean() });
 export const guideline14CheckSchema = z
@@ -173,7 +186,10 @@ export const guideline14CheckSchema = z
       ),
     note: z.string().optional().describe('What the in-sample check can and cannot show'),
   })
-  .meta({ id: 'Guideline14Check', description: 'ASHRAE Guideline 14 acceptance of a model (limits from memory; see source)' });
+  .meta({
+    id: 'Guideline14Check',
+    description: 'ASHRAE Guideline 14 acceptance of a model (limits from memory; see source)',
+  });
 
 export const excludedPeriodSchema = z
   .object({ start: z.string(), end: z.string(), index: z.number().int(), reason: z.string() })
@@ -192,7 +208,9 @@ const candidateSchema = z
         estimate: stat,
         standardError: stat,
         tStat: stat,
-        tStatAdjusted: stat.optional().describe('t with the residuals’ lag-1 autocorrelation allowed for (what screening uses)'),
+        tStatAdjusted: stat
+          .optional()
+          .describe('t with the residuals’ lag-1 autocorrelation allowed for (what screening uses)'),
       }),
     ),
     changepoints: z.array(z.object({ name: z.string(), estimate: stat, standardError: stat })),
@@ -263,13 +281,19 @@ export const fitDocumentSchema = z
     exclusions: z
       .array(exclusionSchema)
       .optional()
-      .describe('Readings the engineer left out, each with its reason (apart from periods.excluded, left out for weather coverage)'),
+      .describe(
+        'Readings the engineer left out, each with its reason (apart from periods.excluded, left out for weather coverage)',
+      ),
     variables: z.array(z.string()).optional().describe('Independent variables in the selected model'),
-    variableDecisions: z.array(variableDecisionSchema).optional().describe('Each candidate variable’s decision and reasons'),
+    variableDecisions: z
+      .array(variableDecisionSchema)
+      .optional()
+      .describe('Each candidate variable’s decision and reasons'),
   })
   .meta({
     id: 'FitDocument',
-    description: 'Every candidate shape, the selection and the settings: the same document as the command line’s fit --json',
+    description:
+      'Every candidate shape, the selection and the settings: the same document as the command line’s fit --json',
   });
 
 const baselineFields = {
@@ -285,7 +309,9 @@ const baselineFields = {
   ),
   sufficiency: sufficiencySchema
     .nullable()
-    .describe('Whether it covers a full cycle of seasons; a draft that does not is refused at freeze without overrides.shortBaseline'),
+    .describe(
+      'Whether it covers a full cycle of seasons; a draft that does not is refused at freeze without overrides.shortBaseline',
+    ),
   overrides: overridesSchema,
   selected: modelName.describe('The shape the engine selected'),
   chosen: modelName.describe('The shape savings use: the selection unless an engineer chose another'),
@@ -301,7 +327,9 @@ const baselineFields = {
   createdBy: z.string(),
   exclusions: z
     .array(exclusionSchema)
-    .describe('Readings the engineer left out of this baseline, each with its reason (frozen with it); empty when none'),
+    .describe(
+      'Readings the engineer left out of this baseline, each with its reason (frozen with it); empty when none',
+    ),
 };
 
 export const baselineSummarySchema = z
@@ -335,11 +363,15 @@ export const verifiedBaselineSchema = z
     ...baselineFields,
     fit: fitDocumentSchema,
     weatherFills: baselineWeatherFills,
-    verified: z.boolean().describe('The stored content still hashes to contentHash (false for a draft, which has no hash)'),
+    verified: z
+      .boolean()
+      .describe('The stored content still hashes to contentHash (false for a draft, which has no hash)'),
   })
   .meta({ id: 'VerifiedBaseline' });
 
-export const baselineHistorySchema = z.object({ baselines: z.array(baselineSummarySchema), ...pageFields }).meta({ id: 'BaselineHistory' });
+export const baselineHistorySchema = z
+  .object({ baselines: z.array(baselineSummarySchema), ...pageFields })
+  .meta({ id: 'BaselineHistory' });
 
 const point = z.object({ temp: z.number(), usePerDay: z.number() });
 
@@ -370,13 +402,20 @@ export const baselinePointsSchema = z
     candidates: z.array(
       z.object({
         model: modelName,
-        line: z.array(point).describe('Vertices of the shape’s line over the temperatures it saw (the daily ones for a day-resolved fit)'),
-        expectedPerDay: z.array(stat).describe('The shape’s expected use per day of each period, in the order of periods'),
+        line: z
+          .array(point)
+          .describe(
+            'Vertices of the shape’s line over the temperatures it saw (the daily ones for a day-resolved fit)',
+          ),
+        expectedPerDay: z
+          .array(stat)
+          .describe('The shape’s expected use per day of each period, in the order of periods'),
         residuals: z.array(stat).describe('Each period’s energy residual, quantity − days × expected use per day'),
       }),
     ),
   })
   .meta({
     id: 'BaselinePoints',
-    description: 'The numbers behind the energy signature and residual charts of every fitted shape, for drawing and tabulating them',
+    description:
+      'The numbers behind the energy signature and residual charts of every fitted shape, for drawing and tabulating them',
   });

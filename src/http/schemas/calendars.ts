@@ -9,8 +9,13 @@ export const putCalendarBody = z
       .array(name)
       .min(1, 'name at least one day type')
       .max(20, 'at most 20 day types')
-      .describe('The day types, the reference first (e.g. working, weekend, holiday, break): fits give every other type an indicator'),
-    weekly: z.array(dayType).length(7, 'needs 7 day types, Monday first').describe('The day type of each weekday, Monday first'),
+      .describe(
+        'The day types, the reference first (e.g. working, weekend, holiday, break): fits give every other type an indicator',
+      ),
+    weekly: z
+      .array(dayType)
+      .length(7, 'needs 7 day types, Monday first')
+      .describe('The day type of each weekday, Monday first'),
     exceptions: z
       .array(
         z
@@ -32,7 +37,9 @@ export const calendarSchema = z
     facilityId: z.string(),
     dayTypes: z.array(z.string()),
     weekly: z.array(z.string()),
-    exceptions: z.array(z.object({ start: z.string(), end: z.string(), dayType: z.string(), note: z.string().optional() })),
+    exceptions: z.array(
+      z.object({ start: z.string(), end: z.string(), dayType: z.string(), note: z.string().optional() }),
+    ),
     updatedAt: z.string(),
     updatedBy: z.string(),
   })

@@ -33,7 +33,8 @@ export function boundedNumber(bound: InputBound, options: { nonNegative?: boolea
  * Text a client may send. PostgreSQL text cannot hold U+0000, so no text input
  * may carry it (refused on SQLite too, so both databases answer alike).
  */
-export const plainText = () => z.string().refine((text) => !text.includes('\u0000'), 'must not contain the NUL character (U+0000)');
+export const plainText = () =>
+  z.string().refine((text) => !text.includes('\u0000'), 'must not contain the NUL character (U+0000)');
 
 export const name = plainText().trim().min(1, 'must not be empty').max(200, 'must be at most 200 characters');
 

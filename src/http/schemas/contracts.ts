@@ -8,8 +8,14 @@ import { currency } from './rates.js';
 const guarantee = z
   .object({
     year: z.number().int().min(1, 'contract years count from 1'),
-    energy: boundedNumber(MAX_GUARANTEE_ENERGY).nullable().optional().describe('Guaranteed avoided energy in the contract’s energyUnit'),
-    cost: boundedNumber(MAX_GUARANTEE_COST).nullable().optional().describe('Guaranteed cost avoided in the contract currency'),
+    energy: boundedNumber(MAX_GUARANTEE_ENERGY)
+      .nullable()
+      .optional()
+      .describe('Guaranteed avoided energy in the contract’s energyUnit'),
+    cost: boundedNumber(MAX_GUARANTEE_COST)
+      .nullable()
+      .optional()
+      .describe('Guaranteed cost avoided in the contract currency'),
   })
   .strict();
 
@@ -23,12 +29,22 @@ export const putContractBody = z
       .max(20)
       .describe('Unit of the energy guarantees: a standard energy unit such as MMBtu, GJ, kWh or therm'),
     guarantees: z.array(guarantee).max(50),
-    reference: plainText().trim().min(1).max(200).nullable().optional().describe('The contract’s own reference (number or title)'),
+    reference: plainText()
+      .trim()
+      .min(1)
+      .max(200)
+      .nullable()
+      .optional()
+      .describe('The contract’s own reference (number or title)'),
     parties: z
       .array(
         z
           .object({
-            role: plainText().trim().min(1, 'must not be empty').max(100).describe('e.g. customer, energy service company'),
+            role: plainText()
+              .trim()
+              .min(1, 'must not be empty')
+              .max(100)
+              .describe('e.g. customer, energy service company'),
             name: plainText().trim().min(1, 'must not be empty').max(200),
           })
           .strict(),
@@ -44,7 +60,10 @@ export const putContractBody = z
       .describe('The IPMVP option of the M&V plan (C: whole facility)'),
     confidence: z
       .number()
-      .refine((value) => (CONFIDENCE_LEVELS as readonly number[]).includes(value), `must be one of ${CONFIDENCE_LEVELS.join(', ')}`)
+      .refine(
+        (value) => (CONFIDENCE_LEVELS as readonly number[]).includes(value),
+        `must be one of ${CONFIDENCE_LEVELS.join(', ')}`,
+      )
       .optional()
       .describe(
         `Two-sided confidence of every ± in the contract’s reports and statements unless a request names another: ${CONFIDENCE_LEVELS.join(', ')} (default ${DEFAULT_CONTRACT_CONFIDENCE})`,
@@ -60,7 +79,9 @@ export const contractSchema = z
     years: z.number().int(),
     currency: z.string().nullable(),
     energyUnit: z.string(),
-    guarantees: z.array(z.object({ year: z.number().int(), energy: z.number().nullable(), cost: z.number().nullable() })),
+    guarantees: z.array(
+      z.object({ year: z.number().int(), energy: z.number().nullable(), cost: z.number().nullable() }),
+    ),
     updatedAt: z.string(),
     reference: z.string().nullable(),
     parties: z.array(z.object({ role: z.string(), name: z.string() })),

@@ -1,7 +1,16 @@
 import { z } from 'zod';
 import { name, plainText } from './common.js';
 
-export const FUELS = ['electricity', 'natural-gas', 'fuel-oil', 'propane', 'district-heat', 'district-cooling', 'water', 'other'] as const;
+export const FUELS = [
+  'electricity',
+  'natural-gas',
+  'fuel-oil',
+  'propane',
+  'district-heat',
+  'district-cooling',
+  'water',
+  'other',
+] as const;
 
 export const fuel = z.enum(FUELS).describe('What the meter measures');
 

@@ -41,8 +41,18 @@ export const normalYearSchema = z
 
 export const normalYearFromHistoryBody = z
   .object({
-    fromYear: z.number().int().min(1800, 'must be 1800 to 2200').max(2200, 'must be 1800 to 2200').describe('First calendar year'),
-    toYear: z.number().int().min(1800, 'must be 1800 to 2200').max(2200, 'must be 1800 to 2200').describe('Last calendar year, included'),
+    fromYear: z
+      .number()
+      .int()
+      .min(1800, 'must be 1800 to 2200')
+      .max(2200, 'must be 1800 to 2200')
+      .describe('First calendar year'),
+    toYear: z
+      .number()
+      .int()
+      .min(1800, 'must be 1800 to 2200')
+      .max(2200, 'must be 1800 to 2200')
+      .describe('Last calendar year, included'),
     windowDays: z
       .number()
       .int()
@@ -56,7 +66,9 @@ export const normalYearFromHistoryBody = z
 
 export const normalsFormat = z
   .enum(NORMALS_FORMATS)
-  .describe('noaa-daily-normals-csv: NOAA daily climate normals, one station per file (the access CSV or the by-station archive CSV)');
+  .describe(
+    'noaa-daily-normals-csv: NOAA daily climate normals, one station per file (the access CSV or the by-station archive CSV)',
+  );
 
 export const publishedNormalsQuery = z
   .object({
@@ -67,7 +79,9 @@ export const publishedNormalsQuery = z
       .max(40)
       .optional()
       .describe('The archive’s station id every row must carry (the GHCN-Daily id of the normals file)'),
-    fileUnit: temperatureUnit.optional().describe('The unit of the file’s values (default F, as the published files are)'),
+    fileUnit: temperatureUnit
+      .optional()
+      .describe('The unit of the file’s values (default F, as the published files are)'),
   })
   .strict();
 

@@ -8,8 +8,13 @@ export const currency = z.string().regex(/^[A-Z]{3}$/, 'must be a three-letter I
 const rateEntry = z
   .object({
     from: isoDate.describe('First day the rate applies'),
-    to: isoDate.nullable().optional().describe('Day after the last (exclusive); omit or null for the open-ended last entry'),
-    price: boundedNumber(MAX_PRICE, { nonNegative: true }).describe(`Currency per unit of the meter (at most ${boundText(MAX_PRICE.max)})`),
+    to: isoDate
+      .nullable()
+      .optional()
+      .describe('Day after the last (exclusive); omit or null for the open-ended last entry'),
+    price: boundedNumber(MAX_PRICE, { nonNegative: true }).describe(
+      `Currency per unit of the meter (at most ${boundText(MAX_PRICE.max)})`,
+    ),
     escalation: finite
       .optional()
       .describe(
@@ -33,6 +38,8 @@ export const rateScheduleSchema = z
     meterId: z.string(),
     unit: z.string(),
     currency: z.string().nullable(),
-    rates: z.array(z.object({ from: z.string(), to: z.string().nullable(), price: z.number(), escalation: z.number() })),
+    rates: z.array(
+      z.object({ from: z.string(), to: z.string().nullable(), price: z.number(), escalation: z.number() }),
+    ),
   })
   .meta({ id: 'RateSchedule' });

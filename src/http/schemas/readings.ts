@@ -29,7 +29,9 @@ export const postReadingsBody = z
       .array(readingInput)
       .min(1, 'at least one reading is needed')
       .max(MAX_RECORDS_PER_BATCH, `at most ${MAX_RECORDS_PER_BATCH} readings per request`),
-    correctionReason: correctionReason.optional().describe('Why stored readings are being changed; required when the batch changes any'),
+    correctionReason: correctionReason
+      .optional()
+      .describe('Why stored readings are being changed; required when the batch changes any'),
   })
   .strict()
   .describe(
@@ -58,7 +60,9 @@ export const dateRangeQuery = z.object({
 
 export const storedReading = z
   .object({
-    id: z.string().describe('The reading’s id within its meter: its period, start..end (what a baseline’s exclusions name)'),
+    id: z
+      .string()
+      .describe('The reading’s id within its meter: its period, start..end (what a baseline’s exclusions name)'),
     start: z.string(),
     end: z.string(),
     days: z.number().int(),
@@ -73,4 +77,5 @@ export const readingsList = z
   .meta({ id: 'Readings' });
 
 /** A date range and a page of a series (readings, observations). */
-export const seriesQuery = (what: string) => z.object({ ...dateRangeQuery.shape, ...pageQuery(PAGE_SIZES.series, what) });
+export const seriesQuery = (what: string) =>
+  z.object({ ...dateRangeQuery.shape, ...pageQuery(PAGE_SIZES.series, what) });

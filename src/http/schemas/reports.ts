@@ -32,7 +32,9 @@ export const reportQuery = z
       .number()
       .refine((value) => (CONFIDENCE_LEVELS as readonly number[]).includes(value), `must be one of ${confidenceText}`)
       .optional()
-      .describe(`Two-sided confidence of every ±: ${confidenceText} (default: the level the contract names, 0.9 without one)`),
+      .describe(
+        `Two-sided confidence of every ±: ${confidenceText} (default: the level the contract names, 0.9 without one)`,
+      ),
   })
   .strict();
 

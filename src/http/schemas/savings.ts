@@ -56,7 +56,9 @@ export const savingsSchema = z
         outsideVariableRanges: z
           .array(z.string())
           .optional()
-          .describe('Variables whose value in this period lies outside the range the baseline saw (models with variables only)'),
+          .describe(
+            'Variables whose value in this period lies outside the range the baseline saw (models with variables only)',
+          ),
       }),
     ),
     totals: z.object({
@@ -71,9 +73,13 @@ export const savingsSchema = z
         guideline14: uncertainty,
         exact: uncertainty,
         adjustments: z.object({
-          absolute: stat.describe('The non-routine adjustments’ own ± at the confidence, in the meter’s unit (0 when none states one)'),
+          absolute: stat.describe(
+            'The non-routine adjustments’ own ± at the confidence, in the meter’s unit (0 when none states one)',
+          ),
         }),
-        combined: uncertainty.describe('The larger of the model’s two ± combined in quadrature with the adjustments’ ±'),
+        combined: uncertainty.describe(
+          'The larger of the model’s two ± combined in quadrature with the adjustments’ ±',
+        ),
       }),
       significant: z.boolean(),
       outsideRangeShare: stat,
@@ -117,7 +123,9 @@ export const savingsSchema = z
         limit: z.number(),
         exceedsLimit: z
           .boolean()
-          .describe('Above the limit: savings are refused (422) unless the baseline was frozen with overrides.extrapolation'),
+          .describe(
+            'Above the limit: savings are refused (422) unless the baseline was frozen with overrides.extrapolation',
+          ),
         summary: z.string(),
       })
       .meta({ id: 'ReportingExtrapolation' }),
@@ -127,7 +135,9 @@ export const savingsSchema = z
     baselineId: z.string(),
     baselineVersion: z.number().int(),
     baselineContentHash: z.string(),
-    weatherFills: weatherFillsSchema.describe('Reporting periods whose weather includes days filled on record, by method'),
+    weatherFills: weatherFillsSchema.describe(
+      'Reporting periods whose weather includes days filled on record, by method',
+    ),
   })
   .meta({
     id: 'Savings',

@@ -49,7 +49,12 @@ import type {
 } from './variables.js';
 import type { calendarSchema, putCalendarBody } from './calendars.js';
 import type { getCalendar, putCalendar } from '../../services/calendars.js';
-import type { createVariable, listVariableValues, listVariables, postVariableValues } from '../../services/variables.js';
+import type {
+  createVariable,
+  listVariableValues,
+  listVariables,
+  postVariableValues,
+} from '../../services/variables.js';
 import type { PageRequest } from '../../services/paging.js';
 import type { createFacility, listFacilities, toFacility } from '../../services/facilities.js';
 import type { createMeter, listMeters, listOrganisationMeters, toMeter } from '../../services/meters.js';
@@ -100,7 +105,9 @@ type Identical<A, B> = (<T>() => T extends A ? 1 : 2) extends <T>() => T extends
 type Expect<T extends true> = T;
 
 /** An object's named keys (an index signature's `string` is no name). */
-type Named<T> = keyof { [K in keyof T as K extends string ? (string extends K ? never : K) : never]: 0 } & keyof T & string;
+type Named<T> = keyof { [K in keyof T as K extends string ? (string extends K ? never : K) : never]: 0 } &
+  keyof T &
+  string;
 /**
  * Every field's path ("fit.candidates.model"), through arrays, null and
  * each member of a union; nine levels deep at most (the deepest document,
@@ -150,7 +157,9 @@ export type MeterRoutes = [
   Expect<Agree<Gives<typeof listMeters>['meters'], Answer<typeof meterSchema>[]>>,
   Expect<Agree<Gives<typeof listOrganisationMeters>['meters'], Answer<typeof meterSchema>[]>>,
   // The route extends the query with the page fields (checked with the paging below).
-  Expect<Agree<Parsed<typeof listMetersQuery>, Omit<NonNullable<Takes<typeof listOrganisationMeters, 2>>, keyof PageRequest>>>,
+  Expect<
+    Agree<Parsed<typeof listMetersQuery>, Omit<NonNullable<Takes<typeof listOrganisationMeters, 2>>, keyof PageRequest>>
+  >,
 ];
 
 export type WeatherStationRoutes = [
@@ -256,7 +265,10 @@ export type ReadingRoutes = [
  * lets the request's own form ({quarter}, {contractYear}) through as it was
  * sent (a loose object), so those two fields are not named there.
  */
-type WindowAsDescribed<T extends { window: { from: string; to: string; kind: string; label: string } }> = Omit<T, 'window'> & {
+type WindowAsDescribed<T extends { window: { from: string; to: string; kind: string; label: string } }> = Omit<
+  T,
+  'window'
+> & {
   window: Pick<T['window'], 'from' | 'to' | 'kind' | 'label'>;
 };
 /** Deliberate: the audit verdict names the broken row but not its organisation (the caller's own). */
@@ -268,7 +280,12 @@ export type StatementRoutes = [
   // The route resolves the window's one form ({quarter}, {contractYear} or {from, to}) itself.
   Expect<Agree<Omit<Parsed<typeof issueStatementBody>, 'window'>, Omit<Takes<typeof issueStatement, 1>, 'window'>>>,
   Expect<Agree<WindowAsDescribed<Gives<typeof issueStatement>>, Answer<typeof statementSchema>>>,
-  Expect<Agree<{ statements: WindowAsDescribed<Gives<typeof listStatements>['statements'][number]>[] }, Answer<typeof statementList>>>,
+  Expect<
+    Agree<
+      { statements: WindowAsDescribed<Gives<typeof listStatements>['statements'][number]>[] },
+      Answer<typeof statementList>
+    >
+  >,
   Expect<Agree<WindowAsDescribed<Gives<typeof getStatement>>, Answer<typeof statementSchema>>>,
   Expect<Agree<WindowAsDescribed<Gives<typeof approveStatement>>, Answer<typeof statementSchema>>>,
   Expect<Agree<Parsed<typeof reasonBody>, Takes<typeof rejectStatement, 2>>>,
@@ -297,7 +314,9 @@ export type ReportRoutes = [
   // The route takes the format for itself and hands the rest to the service.
   Expect<Agree<Omit<Parsed<typeof reportQuery>, 'format'>, NonNullable<Takes<typeof savingsReport, 2>>>>,
   // The schema describes the report's head only (a loose object: the rest goes out as the service built it).
-  Expect<Agree<Pick<Gives<typeof savingsReport>, Named<Answer<typeof reportJsonSchema>>>, Answer<typeof reportJsonSchema>>>,
+  Expect<
+    Agree<Pick<Gives<typeof savingsReport>, Named<Answer<typeof reportJsonSchema>>>, Answer<typeof reportJsonSchema>>
+  >,
   // The streamed report takes the same window and options; its format goes to the service as its own argument.
   Expect<Agree<Omit<Parsed<typeof streamedReportQuery>, 'format'>, Takes<typeof streamSavingsReport, 2>>>,
 ];

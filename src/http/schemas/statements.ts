@@ -19,12 +19,23 @@ export const statementWindow = z
   })
   .strict()
   .superRefine((w, ctx) => {
-    const forms = [w.quarter !== undefined, w.contractYear !== undefined, w.from !== undefined || w.to !== undefined].filter(
-      Boolean,
-    ).length;
-    if (forms !== 1) ctx.addIssue({ code: 'custom', message: 'give exactly one of {quarter}, {contractYear} or {from, to}', path: [] });
+    const forms = [
+      w.quarter !== undefined,
+      w.contractYear !== undefined,
+      w.from !== undefined || w.to !== undefined,
+    ].filter(Boolean).length;
+    if (forms !== 1)
+      ctx.addIssue({
+        code: 'custom',
+        message: 'give exactly one of {quarter}, {contractYear} or {from, to}',
+        path: [],
+      });
     else if ((w.from === undefined) !== (w.to === undefined))
-      ctx.addIssue({ code: 'custom', message: 'a date window needs both from and to', path: [w.from === undefined ? 'from' : 'to'] });
+      ctx.addIssue({
+        code: 'custom',
+        message: 'a date window needs both from and to',
+        path: [w.from === undefined ? 'from' : 'to'],
+      });
   })
   .describe('{quarter: "2026-Q3"}, {contractYear: N} or {from, to}');
 
@@ -59,7 +70,13 @@ export const documentQuery = z
       .enum(REPORT_FORMATS, { message: `must be one of ${REPORT_FORMATS.join(', ')}` })
       .optional()
       .describe('json (default), csv or html'),
-    copy: z.coerce.number().int().min(1).max(100).optional().describe('A stored copy by number (1: as issued); default the latest'),
+    copy: z.coerce
+      .number()
+      .int()
+      .min(1)
+      .max(100)
+      .optional()
+      .describe('A stored copy by number (1: as issued); default the latest'),
   })
   .strict();
 
@@ -81,7 +98,9 @@ export const statementSchema = z
     reportHash: z.string().describe('Content hash of the savings report inside the statement'),
     dataThrough: z.string().nullable().describe('Last day (inclusive) of the latest reporting reading counted'),
     contentHashes: hashes.describe('SHA-256 of the current copy’s stored bytes, per format'),
-    copies: z.array(z.object({ copy: z.number().int(), kind: z.string(), createdAt: z.string(), contentHashes: hashes })),
+    copies: z.array(
+      z.object({ copy: z.number().int(), kind: z.string(), createdAt: z.string(), contentHashes: hashes }),
+    ),
     steps: z.array(
       z.object({
         step: z.string(),
@@ -116,7 +135,11 @@ export const statementComparison = z
       dataThrough: z.string().nullable(),
     }),
     today: z
-      .object({ reportHash: z.string(), auditHead: z.object({ seq: z.number(), hash: z.string() }), dataThrough: z.string().nullable() })
+      .object({
+        reportHash: z.string(),
+        auditHead: z.object({ seq: z.number(), hash: z.string() }),
+        dataThrough: z.string().nullable(),
+      })
       .nullable(),
     problem: z.string().nullable(),
     unchanged: z.boolean(),
@@ -131,7 +154,14 @@ export const statementComparison = z
       }),
     ),
     auditSince: z.array(
-      z.object({ seq: z.number(), at: z.string(), actor: z.string(), action: z.string(), entityType: z.string(), entityId: z.string() }),
+      z.object({
+        seq: z.number(),
+        at: z.string(),
+        actor: z.string(),
+        action: z.string(),
+        entityType: z.string(),
+        entityId: z.string(),
+      }),
     ),
   })
   .meta({ id: 'StatementComparison' });

@@ -8,8 +8,14 @@ const variableAggregation = z.enum(['mean', 'total'] as const satisfies readonly
 
 export const createVariableBody = z
   .object({
-    name: name.describe('How fits name it (options.variables); unique among the facility’s own variables, or the meter’s'),
-    unit: plainText().trim().min(1, 'must not be empty').max(50, 'must be at most 50 characters').describe('e.g. people, units, share'),
+    name: name.describe(
+      'How fits name it (options.variables); unique among the facility’s own variables, or the meter’s',
+    ),
+    unit: plainText()
+      .trim()
+      .min(1, 'must not be empty')
+      .max(50, 'must be at most 50 characters')
+      .describe('e.g. people, units, share'),
     kind: variableKind.describe('daily: one value per date; per-period: values over [start, end) periods'),
     aggregation: variableAggregation.describe(
       'mean: a level holding on each day of its period (occupancy, people); total: an amount spread evenly over its days (units produced)',
@@ -57,7 +63,9 @@ export const postVariableValuesBody = z
       .array(variableValueInput)
       .min(1, 'at least one value is needed')
       .max(MAX_RECORDS_PER_BATCH, `at most ${MAX_RECORDS_PER_BATCH} values per request`),
-    correctionReason: correctionReason.optional().describe('Why stored values are being changed; required when the batch changes any'),
+    correctionReason: correctionReason
+      .optional()
+      .describe('Why stored values are being changed; required when the batch changes any'),
   })
   .strict()
   .describe(

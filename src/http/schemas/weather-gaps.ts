@@ -13,7 +13,9 @@ export const gapFillBody = z
       .max(31, 'must be 0 to 31 (longer gaps want a second station)')
       .optional()
       .describe('Longest gap filled by linear interpolation between its observed neighbours (default 2; 0: none)'),
-    secondStationId: idParams.shape.id.optional().describe('Fill longer gaps from this station by a line fitted on the days both observed'),
+    secondStationId: idParams.shape.id
+      .optional()
+      .describe('Fill longer gaps from this station by a line fitted on the days both observed'),
     minOverlapDays: z
       .number()
       .int()

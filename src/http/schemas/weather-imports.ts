@@ -5,7 +5,9 @@ import { plainText } from './common.js';
 
 export const archiveFormat = z
   .enum(ARCHIVE_FORMATS)
-  .describe('ghcn-dly: GHCN-Daily fixed-width .dly; ghcn-csv: GHCN-Daily by-station CSV; gsod-csv: Global Summary of the Day CSV');
+  .describe(
+    'ghcn-dly: GHCN-Daily fixed-width .dly; ghcn-csv: GHCN-Daily by-station CSV; gsod-csv: Global Summary of the Day CSV',
+  );
 
 export const importQuery = z
   .object({

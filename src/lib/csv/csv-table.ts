@@ -117,7 +117,12 @@ export function requireColumns(table: CsvTable, names: readonly string[]): void 
   for (const name of names) {
     if (!table.columns.includes(name)) {
       const found = table.columns.filter((c) => c !== '').join(', ') || 'no named columns';
-      throw new InputFileError(table.file, table.headerLine, name, `missing column "${name}" (the header has: ${found})`);
+      throw new InputFileError(
+        table.file,
+        table.headerLine,
+        name,
+        `missing column "${name}" (the header has: ${found})`,
+      );
     }
   }
 }

@@ -11,10 +11,17 @@ import { guaranteeBlock } from './guarantee.js';
 import { meterSection } from './meter.js';
 
 /** The facility's section element. */
-export function facilitySection(facility: FacilityReport, context: { confidenceLabel: string; from: string; to: string }): string {
+export function facilitySection(
+  facility: FacilityReport,
+  context: { confidenceLabel: string; from: string; to: string },
+): string {
   const heading = [
     tag('h2', {}, text(facility.name)),
-    tag('p', { class: 'note' }, `${facility.address === null ? '' : `${text(facility.address)} &#183; `}facility ${code(facility.id)}`),
+    tag(
+      'p',
+      { class: 'note' },
+      `${facility.address === null ? '' : `${text(facility.address)} &#183; `}facility ${code(facility.id)}`,
+    ),
   ];
   const parts = [
     ...heading,
@@ -23,7 +30,11 @@ export function facilitySection(facility: FacilityReport, context: { confidenceL
     ...guaranteeBlocks(facility, context.confidenceLabel),
     tag('h3', {}, text('Facility totals')),
     ...(facility.metersWithData === 0
-      ? [noDataInWindow('No meter of this facility has reporting figures in this window; it is left out of the portfolio’s sums.')]
+      ? [
+          noDataInWindow(
+            'No meter of this facility has reporting figures in this window; it is left out of the portfolio’s sums.',
+          ),
+        ]
       : [
           energyHeadline(facility.totals, context.confidenceLabel),
           energyTotalsTable(`facility-${facility.id}`, facility.totals, context.confidenceLabel),
@@ -33,18 +44,30 @@ export function facilitySection(facility: FacilityReport, context: { confidenceL
     meterOverview(facility.meters),
     ...facility.meters.map((meter) => meterSection(facility, meter, context)),
   ];
-  return tag('section', { class: 'facility', id: `facility-${facility.id}`, 'data-facility-id': facility.id }, parts.join('\n'));
+  return tag(
+    'section',
+    { class: 'facility', id: `facility-${facility.id}`, 'data-facility-id': facility.id },
+    parts.join('\n'),
+  );
 }
 
 /** The words a reader sees where a facility or contract year has nothing to sum: never 0.0 ± 0.0. */
 export function noDataInWindow(detail: string): string {
-  return tag('div', { class: 'missing', 'data-no-data': 'true' }, `${tag('strong', {}, text('No data in this window. '))}${text(detail)}`);
+  return tag(
+    'div',
+    { class: 'missing', 'data-no-data': 'true' },
+    `${tag('strong', {}, text('No data in this window. '))}${text(detail)}`,
+  );
 }
 
 function contractBlock(facility: FacilityReport): string {
   const contract = facility.contract;
   if (contract === null)
-    return tag('p', {}, text('No performance contract is recorded for this facility: its savings are reported without a guarantee.'));
+    return tag(
+      'p',
+      {},
+      text('No performance contract is recorded for this facility: its savings are reported without a guarantee.'),
+    );
   const schedule =
     contract.guarantees.length === 0
       ? tag('p', { class: 'note' }, text('The contract lists no guaranteed figures.'))
@@ -79,7 +102,10 @@ function contractIdentification(contract: NonNullable<FacilityReport['contract']
   rows.push(['Contract reference', text(contract.reference ?? 'not stated on the contract')]);
   for (const party of contract.parties ?? []) rows.push([`Party (${party.role})`, text(party.name)]);
   const option = contract.mvOption ? `, IPMVP option ${contract.mvOption}` : '';
-  rows.push(['M&V plan', text(contract.mvPlanReference ? `${contract.mvPlanReference}${option}` : `not stated on the contract${option}`)]);
+  rows.push([
+    'M&V plan',
+    text(contract.mvPlanReference ? `${contract.mvPlanReference}${option}` : `not stated on the contract${option}`),
+  ]);
   if (contract.confidence !== undefined)
     rows.push(['Confidence level of the contract', text(`${Math.round(contract.confidence * 100)}% two-sided`)]);
   return rows;
@@ -103,7 +129,11 @@ function meterOverview(meters: readonly MeterReport[]): string {
     tag('td', {}, code(m.id)),
     cell(m.fuel),
     cell(m.unit),
-    cell(m.baseline === null ? 'none' : `${m.baseline.model}, version ${m.baseline.version}, ${m.baseline.start} to ${m.baseline.end}`),
+    cell(
+      m.baseline === null
+        ? 'none'
+        : `${m.baseline.model}, version ${m.baseline.version}, ${m.baseline.start} to ${m.baseline.end}`,
+    ),
     cell(m.baseline === null ? NO_VALUE : formatPercent(m.baseline.cvrmse), 'num'),
     cell(m.baseline === null ? NO_VALUE : g14Label(m.baseline.meetsGuideline14)),
     cell(
@@ -114,7 +144,16 @@ function meterOverview(meters: readonly MeterReport[]): string {
   ]);
   return table({
     className: 'meter-overview',
-    head: ['Meter', 'Id', 'Fuel', 'Unit', 'Frozen baseline', { label: 'CV(RMSE)', numeric: true }, 'Guideline 14 check', 'In this window'],
+    head: [
+      'Meter',
+      'Id',
+      'Fuel',
+      'Unit',
+      'Frozen baseline',
+      { label: 'CV(RMSE)', numeric: true },
+      'Guideline 14 check',
+      'In this window',
+    ],
     rows,
   });
 }

@@ -29,7 +29,8 @@ interface Line {
 export function guaranteeVerdict(line: GuaranteeLine, complete: boolean): { label: string; className: string } {
   const ahead = line.difference >= 0;
   const withinBand = Math.abs(line.difference) <= line.uncertainty;
-  if (!complete) return { label: `${ahead ? 'Ahead' : 'Behind'} so far (year not complete)`, className: 'verdict-band' };
+  if (!complete)
+    return { label: `${ahead ? 'Ahead' : 'Behind'} so far (year not complete)`, className: 'verdict-band' };
   return {
     label: withinBand ? `${ahead ? 'Surplus' : 'Shortfall'}, within the ± band` : ahead ? 'Surplus' : 'Shortfall',
     className: withinBand ? 'verdict-band' : ahead ? 'verdict-surplus' : 'verdict-shortfall',
@@ -39,9 +40,21 @@ export function guaranteeVerdict(line: GuaranteeLine, complete: boolean): { labe
 function linesOf(status: GuaranteeStatus, keyPrefix: string): Line[] {
   const lines: Line[] = [];
   if (status.energy)
-    lines.push({ measure: 'Energy', unit: status.energy.unit, digits: DIGITS, line: status.energy, key: `${keyPrefix}-energy` });
+    lines.push({
+      measure: 'Energy',
+      unit: status.energy.unit,
+      digits: DIGITS,
+      line: status.energy,
+      key: `${keyPrefix}-energy`,
+    });
   if (status.cost)
-    lines.push({ measure: 'Cost', unit: status.cost.currency, digits: COST_DIGITS, line: status.cost, key: `${keyPrefix}-cost` });
+    lines.push({
+      measure: 'Cost',
+      unit: status.cost.currency,
+      digits: COST_DIGITS,
+      line: status.cost,
+      key: `${keyPrefix}-cost`,
+    });
   return lines;
 }
 
@@ -135,7 +148,11 @@ export function guaranteesSummary(report: SavingsReport, confidenceLabel: string
             cell(facility.name),
             cell(`${status.contractYear}`, 'num'),
             cell(`${measure} (${unit})`),
-            tag('td', { colspan: 5, class: 'no-data', 'data-no-data': 'true' }, text('no data in this window: not measured, not judged')),
+            tag(
+              'td',
+              { colspan: 5, class: 'no-data', 'data-no-data': 'true' },
+              text('no data in this window: not measured, not judged'),
+            ),
             cell(status.complete ? 'complete' : `year not complete (through ${status.measuredThrough})`),
           ]);
           continue;
@@ -156,7 +173,11 @@ export function guaranteesSummary(report: SavingsReport, confidenceLabel: string
     }
   }
   if (rows.length === 0)
-    return tag('p', { class: 'note' }, text('No facility in this report has a guaranteed figure for a contract year in this window.'));
+    return tag(
+      'p',
+      { class: 'note' },
+      text('No facility in this report has a guaranteed figure for a contract year in this window.'),
+    );
   return table({
     className: 'guarantees-summary',
     head: [

@@ -28,7 +28,11 @@ export function numberCell(value: number | null, shown: string, extra: Record<st
 
 /** A total cell: `data-total` names it, `data-value` is String() of the exact number in the report. */
 export function totalCell(key: string, value: number | null, shown: string, name: 'td' | 'th' = 'td'): string {
-  return tag(name, { class: 'num total', 'data-total': key, 'data-value': value === null ? undefined : String(value) }, text(shown));
+  return tag(
+    name,
+    { class: 'num total', 'data-total': key, 'data-value': value === null ? undefined : String(value) },
+    text(shown),
+  );
 }
 
 /** A header cell: plain text, or text with a numeric (right-aligned) column. */
@@ -54,9 +58,15 @@ export function table(options: {
     .join('');
   const body = options.rows.map((row) => (typeof row === 'string' ? row : tag('tr', {}, row.join('')))).join('\n');
   const foot =
-    options.foot && options.foot.length > 0 ? tag('tfoot', {}, options.foot.map((cells) => tag('tr', {}, cells.join(''))).join('\n')) : '';
+    options.foot && options.foot.length > 0
+      ? tag('tfoot', {}, options.foot.map((cells) => tag('tr', {}, cells.join(''))).join('\n'))
+      : '';
   const caption = options.caption === undefined ? '' : tag('caption', {}, text(options.caption));
-  return tag('table', { class: options.className }, `${caption}${tag('thead', {}, tag('tr', {}, head))}\n${tag('tbody', {}, body)}${foot}`);
+  return tag(
+    'table',
+    { class: options.className },
+    `${caption}${tag('thead', {}, tag('tr', {}, head))}\n${tag('tbody', {}, body)}${foot}`,
+  );
 }
 
 /** A plain cell with escaped text. */
@@ -66,7 +76,11 @@ export function cell(value: string, className?: string): string {
 
 /** A definition list of label → already-safe value markup. */
 export function facts(items: readonly [string, string][], className = 'facts'): string {
-  return tag('dl', { class: className }, items.map(([label, value]) => `${tag('dt', {}, text(label))}${tag('dd', {}, value)}`).join(''));
+  return tag(
+    'dl',
+    { class: className },
+    items.map(([label, value]) => `${tag('dt', {}, text(label))}${tag('dd', {}, value)}`).join(''),
+  );
 }
 
 /** A `<code>` span for ids and hashes; class "hash" lets a long hash wrap anywhere. */

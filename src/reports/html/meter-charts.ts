@@ -13,7 +13,11 @@ import { chartFigure } from './figure.js';
 
 /** The charts of a meter with figures, each in its figure. */
 export function meterCharts(meter: MeterReport, window: { from: string; to: string }): string {
-  return tag('div', { class: 'charts' }, [periodComparison(meter), cumulative(meter, window), signature(meter)].join('\n'));
+  return tag(
+    'div',
+    { class: 'charts' },
+    [periodComparison(meter), cumulative(meter, window), signature(meter)].join('\n'),
+  );
 }
 
 function periodComparison(meter: MeterReport): string {
@@ -60,7 +64,11 @@ function signature(meter: MeterReport): string {
   const s = meter.signature;
   const b = meter.baseline;
   if (s === null || b === null)
-    return tag('p', { class: 'note', 'data-figure': 'signature-missing' }, text('No energy-signature data for this meter.'));
+    return tag(
+      'p',
+      { class: 'note', 'data-figure': 'signature-missing' },
+      text('No energy-signature data for this meter.'),
+    );
   const svg = renderSignatureSvg({
     meterName: meter.name,
     model: b.model,

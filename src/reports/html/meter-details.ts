@@ -16,7 +16,8 @@ export function meterFindings(meter: MeterReport): string {
     parts.push(tag('h4', {}, text('Normalised savings')), normalised(meter.normalised, meter.unit));
     parts.push(tag('h4', {}, text('Days without a contract rate')), missingRates(meter));
   }
-  if (meter.missing === null || meter.excluded.length > 0) parts.push(tag('h4', {}, text('Readings left out')), excluded(meter));
+  if (meter.missing === null || meter.excluded.length > 0)
+    parts.push(tag('h4', {}, text('Readings left out')), excluded(meter));
   if (meter.missing === null || meter.adjustments.length > 0)
     parts.push(tag('h4', {}, text('Non-routine adjustments')), adjustments(meter.adjustments, meter.unit));
   return parts.join('\n');
@@ -49,24 +50,36 @@ function normalised(n: NormalisedSavings, unit: string): string {
       tag('th', { scope: 'row' }, text(`Reporting-period ${n.reportingModel} model over the normal year (${unit})`)),
       numberCell(n.reportingUse, formatNumber(n.reportingUse, digits)),
     ],
-    [tag('th', { scope: 'row' }, text(`Normalised savings (${unit})`)), numberCell(n.savings, formatNumber(n.savings, digits))],
+    [
+      tag('th', { scope: 'row' }, text(`Normalised savings (${unit})`)),
+      numberCell(n.savings, formatNumber(n.savings, digits)),
+    ],
     ...(n.uncertainty
       ? [
           [
             tag(
               'th',
               { scope: 'row' },
-              text(`± at ${Math.round(n.uncertainty.confidence * 100)}% (both models’ prediction variance on the normal year, ${unit})`),
+              text(
+                `± at ${Math.round(n.uncertainty.confidence * 100)}% (both models’ prediction variance on the normal year, ${unit})`,
+              ),
             ),
             numberCell(n.uncertainty.absolute, formatNumber(n.uncertainty.absolute, digits)),
           ],
         ]
       : []),
     [tag('th', { scope: 'row' }, text('Fraction saved')), numberCell(n.fractionSaved, formatPercent(n.fractionSaved))],
-    [tag('th', { scope: 'row' }, text('Reporting periods fitted')), numberCell(n.reportingPeriods, String(n.reportingPeriods))],
+    [
+      tag('th', { scope: 'row' }, text('Reporting periods fitted')),
+      numberCell(n.reportingPeriods, String(n.reportingPeriods)),
+    ],
     [
       tag('th', { scope: 'row' }, text('Normal year applied as')),
-      tag('td', { class: 'num' }, text(n.normalYearAs === 'months' ? 'calendar months (the model was fitted on bills)' : 'single days')),
+      tag(
+        'td',
+        { class: 'num' },
+        text(n.normalYearAs === 'months' ? 'calendar months (the model was fitted on bills)' : 'single days'),
+      ),
     ],
     [
       tag('th', { scope: 'row' }, text('Normal-year days outside either model’s range')),
@@ -77,7 +90,8 @@ function normalised(n: NormalisedSavings, unit: string): string {
 }
 
 function missingRates(meter: MeterReport): string {
-  if (meter.missingRates.length === 0) return tag('p', {}, text('None: every day of the reporting periods has a contract rate.'));
+  if (meter.missingRates.length === 0)
+    return tag('p', {}, text('None: every day of the reporting periods has a contract rate.'));
   const items = meter.missingRates.map((r) => tag('li', {}, text(`${r.start} to ${r.end} (end exclusive)`)));
   return (
     tag('p', {}, text('No contract rate on these days; the periods touching them carry no cost avoided:')) +

@@ -31,7 +31,11 @@ export function meterSection(facility: FacilityReport, meter: MeterReport, conte
   if (meter.missing !== null || meter.energy === null) {
     const reason = meter.missing ?? 'the report carries no totals for this meter';
     parts.push(
-      tag('div', { class: 'missing', 'data-missing': 'true' }, `${tag('strong', {}, text('No data in this window: '))}${text(reason)}`),
+      tag(
+        'div',
+        { class: 'missing', 'data-missing': 'true' },
+        `${tag('strong', {}, text('No data in this window: '))}${text(reason)}`,
+      ),
     );
   } else {
     parts.push(
@@ -77,7 +81,9 @@ function baselineFacts(meter: MeterReport): string {
     ['Temperature form', tag('span', { 'data-temperature-form': b.temperatureForm }, text(form))],
     [
       'Baseline temperature range',
-      text(`${formatNumber(b.temperatureRange.min, 1)} to ${formatNumber(b.temperatureRange.max, 1)}${degree === '' ? '' : ` ${degree}`}`),
+      text(
+        `${formatNumber(b.temperatureRange.min, 1)} to ${formatNumber(b.temperatureRange.max, 1)}${degree === '' ? '' : ` ${degree}`}`,
+      ),
     ],
     ['CV(RMSE)', text(`${formatPercent(b.cvrmse)}; ASHRAE Guideline 14: ${g14}`)],
     ...(b.nmbe !== undefined ? [['NMBE', text(formatPercent(b.nmbe, 3))] as [string, string]] : []),
@@ -86,7 +92,11 @@ function baselineFacts(meter: MeterReport): string {
   if (meter.notes.length > 0) {
     rows.push([
       'Baseline notes',
-      tag('ul', { class: 'plain baseline-notes' }, meter.notes.map((n) => tag('li', { 'data-baseline-note': 'true' }, text(n))).join('')),
+      tag(
+        'ul',
+        { class: 'plain baseline-notes' },
+        meter.notes.map((n) => tag('li', { 'data-baseline-note': 'true' }, text(n))).join(''),
+      ),
     ]);
   }
   if (meter.weatherFills.length > 0) {
@@ -95,7 +105,9 @@ function baselineFacts(meter: MeterReport): string {
       tag(
         'ul',
         { class: 'plain weather-fills' },
-        meter.weatherFills.map((f) => tag('li', { 'data-weather-fill': 'true' }, text(`${f.start} to ${f.end}: ${f.summary}`))).join(''),
+        meter.weatherFills
+          .map((f) => tag('li', { 'data-weather-fill': 'true' }, text(`${f.start} to ${f.end}: ${f.summary}`)))
+          .join(''),
       ),
     ]);
   }
@@ -170,7 +182,10 @@ function periodTable(meter: MeterReport): string {
     ];
     return tag(
       'tr',
-      { class: p.outsideBaselineRange ? 'outside' : undefined, 'data-outside': p.outsideBaselineRange ? 'true' : undefined },
+      {
+        class: p.outsideBaselineRange ? 'outside' : undefined,
+        'data-outside': p.outsideBaselineRange ? 'true' : undefined,
+      },
       cells.join(''),
     );
   });
@@ -252,7 +267,8 @@ function meterTotals(meter: MeterReport, confidenceLabel: string): string {
     ]);
   }
   const notes: string[] = [];
-  if (meter.common === null && meter.commonNote !== null) notes.push(`Not in the MMBtu and GJ roll-up: ${meter.commonNote}.`);
+  if (meter.common === null && meter.commonNote !== null)
+    notes.push(`Not in the MMBtu and GJ roll-up: ${meter.commonNote}.`);
   if (meter.cost !== null && meter.cost.periodsWithoutRate > 0)
     notes.push(
       `${meter.cost.periodsWithoutRate} period${meter.cost.periodsWithoutRate === 1 ? '' : 's'} without a contract rate left out of the cost.`,
@@ -270,5 +286,8 @@ function meterTotals(meter: MeterReport, confidenceLabel: string): string {
     { label: `± (${confidenceLabel})`, numeric: true },
     { label: 'Fraction saved', numeric: true },
   ];
-  return table({ className: 'summary meter-totals', head, rows }) + notes.map((n) => tag('p', { class: 'note' }, text(n))).join('');
+  return (
+    table({ className: 'summary meter-totals', head, rows }) +
+    notes.map((n) => tag('p', { class: 'note' }, text(n))).join('')
+  );
 }

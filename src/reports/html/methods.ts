@@ -80,7 +80,11 @@ function normalYears(report: SavingsReport): string {
   return table({
     className: 'normal-years',
     head: ['Weather station', 'Source', 'Content hash'],
-    rows: report.normalYears.map((n) => [tag('td', {}, code(n.stationId)), cell(n.source), tag('td', {}, code(n.contentHash, 'hash'))]),
+    rows: report.normalYears.map((n) => [
+      tag('td', {}, code(n.stationId)),
+      cell(n.source),
+      tag('td', {}, code(n.contentHash, 'hash')),
+    ]),
   });
 }
 

@@ -51,7 +51,13 @@ function facilityBreakdown(report: SavingsReport): string {
 
 /** A facility without reporting figures: words, not 0.0 ± 0.0 (it adds nothing to the sums). */
 function noData(): string[] {
-  return [tag('td', { colspan: 4, class: 'no-data', 'data-no-data': 'true' }, text('no data in this window (left out of the sums)'))];
+  return [
+    tag(
+      'td',
+      { colspan: 4, class: 'no-data', 'data-no-data': 'true' },
+      text('no data in this window (left out of the sums)'),
+    ),
+  ];
 }
 
 function figures(f: SavingsReport['facilities'][number]): string[] {
@@ -59,6 +65,9 @@ function figures(f: SavingsReport['facilities'][number]): string[] {
     numberCell(f.totals.MMBtu.savings, formatNumber(f.totals.MMBtu.savings, 1)),
     numberCell(f.totals.MMBtu.uncertainty, `± ${formatNumber(f.totals.MMBtu.uncertainty, 1)}`),
     numberCell(f.totals.MMBtu.fractionSaved, formatPercent(f.totals.MMBtu.fractionSaved)),
-    cell(f.cost.length === 0 ? '—' : f.cost.map((c) => `${c.currency} ${formatNumber(c.avoided, 2)}`).join('; '), 'num'),
+    cell(
+      f.cost.length === 0 ? '—' : f.cost.map((c) => `${c.currency} ${formatNumber(c.avoided, 2)}`).join('; '),
+      'num',
+    ),
   ];
 }

@@ -34,12 +34,17 @@ export function titleBlock(report: SavingsReport): string {
           `${formatPercent(report.confidence, 0)} two-sided${CONFIDENCE_SOURCES[report.confidenceSource ?? 'request']}; the ASHRAE Guideline 14 significance verdict is always judged at 68%`,
         ),
       ],
-      ['Data as of', `audit sequence ${text(String(report.dataAsOf.auditSeq))}, hash ${code(report.dataAsOf.auditHash, 'hash')}`],
+      [
+        'Data as of',
+        `audit sequence ${text(String(report.dataAsOf.auditSeq))}, hash ${code(report.dataAsOf.auditHash, 'hash')}`,
+      ],
       ['Report content hash', code(report.contentHash, 'hash')],
       ['Format', text(`${report.format}, version ${report.version}`)],
     ]),
   ];
-  return [tag('header', { class: 'title-block' }, header.join('\n')), caution(report.caution), contents(report)].join('\n');
+  return [tag('header', { class: 'title-block' }, header.join('\n')), caution(report.caution), contents(report)].join(
+    '\n',
+  );
 }
 
 /** The caution, boxed so nobody can miss it. */
@@ -53,5 +58,9 @@ function contents(report: SavingsReport): string {
     ...report.facilities.map((f) => tag('li', {}, tag('a', { href: `#facility-${f.id}` }, text(f.name)))),
     tag('li', {}, tag('a', { href: '#methods' }, text('Methods, notices and frozen baselines'))),
   ];
-  return tag('nav', { class: 'contents', 'aria-label': 'Contents' }, `${tag('h4', {}, text('Contents'))}${tag('ol', {}, items.join(''))}`);
+  return tag(
+    'nav',
+    { class: 'contents', 'aria-label': 'Contents' },
+    `${tag('h4', {}, text('Contents'))}${tag('ol', {}, items.join(''))}`,
+  );
 }

@@ -26,9 +26,13 @@ const ROWS: readonly { label: string; key: string; field: EnergyField | 'fractio
 /** A headline sentence: savings ± uncertainty in MMBtu and GJ, and the fraction saved. */
 export function energyHeadline(totals: Record<CommonEnergyUnit, EnergyTotal>, confidenceLabel: string): string {
   const parts = UNITS.map(
-    (unit) => `${formatNumber(totals[unit].savings, ENERGY_DIGITS)} ± ${formatNumber(totals[unit].uncertainty, ENERGY_DIGITS)} ${unit}`,
+    (unit) =>
+      `${formatNumber(totals[unit].savings, ENERGY_DIGITS)} ± ${formatNumber(totals[unit].uncertainty, ENERGY_DIGITS)} ${unit}`,
   );
-  const fraction = totals.MMBtu.fractionSaved === null ? '' : ` (${formatPercent(totals.MMBtu.fractionSaved)} of the adjusted baseline)`;
+  const fraction =
+    totals.MMBtu.fractionSaved === null
+      ? ''
+      : ` (${formatPercent(totals.MMBtu.fractionSaved)} of the adjusted baseline)`;
   return tag(
     'p',
     { class: 'headline' },
@@ -37,7 +41,11 @@ export function energyHeadline(totals: Record<CommonEnergyUnit, EnergyTotal>, co
 }
 
 /** The common-unit totals, one column per unit. */
-export function energyTotalsTable(prefix: string, totals: Record<CommonEnergyUnit, EnergyTotal>, confidenceLabel: string): string {
+export function energyTotalsTable(
+  prefix: string,
+  totals: Record<CommonEnergyUnit, EnergyTotal>,
+  confidenceLabel: string,
+): string {
   const rows = ROWS.map((row) => {
     const label = row.field === 'uncertainty' ? `± uncertainty (${confidenceLabel})` : row.label;
     const cells = UNITS.map((unit) => {
@@ -48,13 +56,21 @@ export function energyTotalsTable(prefix: string, totals: Record<CommonEnergyUni
     });
     return [tag('th', { scope: 'row' }, text(label)), ...cells];
   });
-  return table({ className: 'summary energy-totals', head: ['', ...UNITS.map((u) => ({ label: u, numeric: true }))], rows });
+  return table({
+    className: 'summary energy-totals',
+    head: ['', ...UNITS.map((u) => ({ label: u, numeric: true }))],
+    rows,
+  });
 }
 
 /** Cost avoided by currency; an empty list says so in words. */
 export function costTotalsTable(prefix: string, costs: readonly CostTotal[], confidenceLabel: string): string {
   if (costs.length === 0)
-    return tag('p', { class: 'note' }, text('No cost avoided: no contract rates apply to these meters in this window.'));
+    return tag(
+      'p',
+      { class: 'note' },
+      text('No cost avoided: no contract rates apply to these meters in this window.'),
+    );
   const rows = costs.map((c) => [
     tag('th', { scope: 'row' }, text(c.currency)),
     totalCell(`${prefix}-cost-${c.currency}`, c.avoided, formatNumber(c.avoided, COST_DIGITS)),

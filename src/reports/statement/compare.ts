@@ -76,8 +76,12 @@ export function compareReports(issued: SavingsReport, today: SavingsReport): Sta
   for (const [id, { facilityId, meter: old }] of before) {
     const current = after.get(id);
     const where = old.name;
-    const push = (kind: ChangeKind, description: string, b: StatementChange['before'] = null, a: StatementChange['after'] = null) =>
-      changes.push({ kind, facilityId, meterId: id, description: `${where}: ${description}`, before: b, after: a });
+    const push = (
+      kind: ChangeKind,
+      description: string,
+      b: StatementChange['before'] = null,
+      a: StatementChange['after'] = null,
+    ) => changes.push({ kind, facilityId, meterId: id, description: `${where}: ${description}`, before: b, after: a });
     if (!current) {
       push('meter-removed', 'the meter is no longer in the report');
       continue;
@@ -109,14 +113,16 @@ export function compareReports(issued: SavingsReport, today: SavingsReport): Sta
         );
     }
     for (const [key, q] of nowPeriods) {
-      if (!periods.has(key)) push('reading-added', `reading ${q.start}..${q.end} (${q.actual} ${meter.unit}) now counts`, null, q.actual);
+      if (!periods.has(key))
+        push('reading-added', `reading ${q.start}..${q.end} (${q.actual} ${meter.unit}) now counts`, null, q.actual);
     }
 
     const adjustments = new Map(old.adjustments.map((a) => [a.id, a]));
     const nowAdjustments = new Map(meter.adjustments.map((a) => [a.id, a]));
     for (const [key, a] of adjustments) {
       const b = nowAdjustments.get(key);
-      if (!b) push('adjustment-withdrawn', `adjustment ${a.id} (${a.reason}) no longer applies`, a.appliedInWindow, null);
+      if (!b)
+        push('adjustment-withdrawn', `adjustment ${a.id} (${a.reason}) no longer applies`, a.appliedInWindow, null);
       else if (differ(a.appliedInWindow, b.appliedInWindow))
         push(
           'adjustment-changed',
@@ -126,12 +132,14 @@ export function compareReports(issued: SavingsReport, today: SavingsReport): Sta
         );
     }
     for (const [key, b] of nowAdjustments) {
-      if (!adjustments.has(key)) push('adjustment-added', `adjustment ${b.id} (${b.reason}) was added`, null, b.appliedInWindow);
+      if (!adjustments.has(key))
+        push('adjustment-added', `adjustment ${b.id} (${b.reason}) was added`, null, b.appliedInWindow);
     }
 
     const s0 = old.energy?.savings ?? null;
     const s1 = meter.energy?.savings ?? null;
-    if (differ(s0, s1)) push('savings-changed', `avoided energy moved from ${s0 ?? 'none'} to ${s1 ?? 'none'} ${meter.unit}`, s0, s1);
+    if (differ(s0, s1))
+      push('savings-changed', `avoided energy moved from ${s0 ?? 'none'} to ${s1 ?? 'none'} ${meter.unit}`, s0, s1);
     const c0 = old.cost?.avoided ?? null;
     const c1 = meter.cost?.avoided ?? null;
     if (differ(c0, c1)) push('cost-changed', `cost avoided moved from ${c0 ?? 'none'} to ${c1 ?? 'none'}`, c0, c1);

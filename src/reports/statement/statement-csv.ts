@@ -29,13 +29,17 @@ export function renderStatementCsv(document: StatementDocument): string {
         `data through ${s.dataThrough ?? 'no reporting data'}`,
         `report content hash ${document.report.contentHash}`,
         `audit head ${document.report.dataAsOf.auditSeq} ${document.report.dataAsOf.auditHash}`,
-        ...(s.issuedCopy ? [`issued copy hashes json ${s.issuedCopy.json} csv ${s.issuedCopy.csv} html ${s.issuedCopy.html}`] : []),
+        ...(s.issuedCopy
+          ? [`issued copy hashes json ${s.issuedCopy.json} csv ${s.issuedCopy.csv} html ${s.issuedCopy.html}`]
+          : []),
         ...(s.checkpoint ? [checkpointWords(s.checkpoint)] : []),
         ...(s.note ? [`note: ${s.note}`] : []),
       ].join('; '),
     }),
     ...s.steps.map((step) => row({ record: 'statement-step', note: stepLine(step) })),
-    ...(s.status === 'prepared' ? [row({ record: 'statement-step', note: 'Approval: awaiting (not yet approved by an analyst)' })] : []),
+    ...(s.status === 'prepared'
+      ? [row({ record: 'statement-step', note: 'Approval: awaiting (not yet approved by an analyst)' })]
+      : []),
   ];
   return `${header}\r\n${rows.join('\r\n')}\r\n${reportCsv.slice(firstBreak + 2)}`;
 }

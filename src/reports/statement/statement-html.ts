@@ -67,12 +67,19 @@ function approvalBlock(document: StatementDocument): string {
       tag(
         'tr',
         { 'data-step': 'awaiting-approval' },
-        [cell('Approval'), cell('awaiting approval by an analyst other than the preparer'), cell(''), cell(''), cell(''), cell('')].join(
-          '',
-        ),
+        [
+          cell('Approval'),
+          cell('awaiting approval by an analyst other than the preparer'),
+          cell(''),
+          cell(''),
+          cell(''),
+          cell(''),
+        ].join(''),
       ),
     );
-  const head = row(['Step', 'Name', 'Role', 'Key', 'Time (UTC)', 'Reason'].map((h) => tag('th', { scope: 'col' }, text(h))));
+  const head = row(
+    ['Step', 'Name', 'Role', 'Key', 'Time (UTC)', 'Reason'].map((h) => tag('th', { scope: 'col' }, text(h))),
+  );
   return tag(
     'section',
     { class: 'approval', id: 'approval', 'aria-label': 'Approval' },
@@ -95,7 +102,9 @@ function statementHead(document: StatementDocument): string {
       text(`${c.reference ?? 'reference not stated'}; ${plan}${option}${parties ? `; parties: ${parties}` : ''}`),
     ];
   });
-  const shapes = [...new Set(r.facilities.flatMap((f) => f.meters.flatMap((m) => (m.baseline ? [m.baseline.model] : []))))].sort();
+  const shapes = [
+    ...new Set(r.facilities.flatMap((f) => f.meters.flatMap((m) => (m.baseline ? [m.baseline.model] : [])))),
+  ].sort();
   const body = [
     tag('h1', {}, text('Savings statement')),
     tag(
@@ -114,7 +123,10 @@ function statementHead(document: StatementDocument): string {
       ['Data through', text(s.dataThrough ?? 'no reporting data')],
       ['Data as of', text(`audit sequence ${r.dataAsOf.auditSeq}`)],
       ...contractFacts,
-      ['Confidence of every ±', text(`${Math.round(r.confidence * 100)}% two-sided; the Guideline 14 significance verdict at 68%`)],
+      [
+        'Confidence of every ±',
+        text(`${Math.round(r.confidence * 100)}% two-sided; the Guideline 14 significance verdict at 68%`),
+      ],
       ['Models', text(shapes.length === 0 ? 'none' : shapes.map(shapeName).join('; '))],
       ['Report content hash', code(r.contentHash, 'hash')],
       ...(s.checkpoint ? [['Signed audit checkpoint', text(checkpointWords(s.checkpoint))] as [string, string]] : []),

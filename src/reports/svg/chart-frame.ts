@@ -49,7 +49,11 @@ export function chartOpen(options: {
     element('title', {}, escapeXml(options.title)),
     element('desc', {}, escapeXml(options.description)),
     element('rect', { x: 0, y: 0, width, height, fill: PALETTE.paper }),
-    element('text', { x: 24, y: 32, 'font-size': 18, 'font-weight': '600', fill: PALETTE.ink }, escapeXml(options.title)),
+    element(
+      'text',
+      { x: 24, y: 32, 'font-size': 18, 'font-weight': '600', fill: PALETTE.ink },
+      escapeXml(options.title),
+    ),
     element('text', { x: 24, y: 54, 'font-size': 12.5, fill: PALETTE.frame }, escapeXml(options.subtitle)),
   ].join('\n');
 }
@@ -75,7 +79,10 @@ export function valueAxis(scale: AxisScale, box: PlotBox, py: (v: number) => num
   const middleY = (box.top + box.bottom) / 2;
   return [
     `<g class="axes" stroke="${PALETTE.frame}" stroke-width="1.2" font-size="12">`,
-    element('path', { d: `M${coord(box.left)} ${coord(box.top)}V${coord(box.bottom)}H${coord(box.right)}`, fill: 'none' }),
+    element('path', {
+      d: `M${coord(box.left)} ${coord(box.top)}V${coord(box.bottom)}H${coord(box.right)}`,
+      fill: 'none',
+    }),
     ...ticks,
     element(
       'text',
@@ -108,7 +115,13 @@ export function legendRow(items: readonly LegendItem[], x: number, y: number): s
   const parts: string[] = [];
   for (const item of items) {
     parts.push(item.swatch(cursor, y));
-    parts.push(element('text', { x: cursor + 22, y, dy: '0.32em', fill: PALETTE.label, 'font-size': fontSize }, escapeXml(item.label)));
+    parts.push(
+      element(
+        'text',
+        { x: cursor + 22, y, dy: '0.32em', fill: PALETTE.label, 'font-size': fontSize },
+        escapeXml(item.label),
+      ),
+    );
     cursor += 22 + [...item.label].length * fontSize * 0.56 + 26;
   }
   return `<g class="legend">${parts.join('')}</g>`;

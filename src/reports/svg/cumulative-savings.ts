@@ -7,7 +7,16 @@
  */
 import { coord, element, escapeXml, truncate } from './xml.js';
 import { axisFraction, axisScale, finiteExtent, tickLabel } from './ticks.js';
-import { chartOpen, legendRow, plotNote, PALETTE, valueAxis, valueGrid, type LegendItem, type PlotBox } from './chart-frame.js';
+import {
+  chartOpen,
+  legendRow,
+  plotNote,
+  PALETTE,
+  valueAxis,
+  valueGrid,
+  type LegendItem,
+  type PlotBox,
+} from './chart-frame.js';
 import { dateTicks, dayOf, type DateTick } from './date-axis.js';
 
 export interface CumulativeSavingsData {
@@ -38,12 +47,14 @@ export function renderCumulativeSavingsSvg(data: CumulativeSavingsData): string 
   const span = xSpan(data, points);
   const last = points[points.length - 1] ?? null;
   const guaranteed = data.guaranteed !== null && Number.isFinite(data.guaranteed) ? data.guaranteed : null;
-  const uncertainty = last !== null && data.uncertainty !== null && Number.isFinite(data.uncertainty) ? Math.abs(data.uncertainty) : null;
+  const uncertainty =
+    last !== null && data.uncertainty !== null && Number.isFinite(data.uncertainty) ? Math.abs(data.uncertainty) : null;
 
   const values = [0, ...points.map((p) => p.value)];
   if (guaranteed !== null) values.push(guaranteed);
   // A band reaching past the largest double is drawn to the axis's end.
-  if (last !== null && uncertainty !== null) values.push(held(last.value - uncertainty), held(last.value + uncertainty));
+  if (last !== null && uncertainty !== null)
+    values.push(held(last.value - uncertainty), held(last.value + uncertainty));
   // With nothing but zeros to show, a 0..1 axis reads better than one centred on zero.
   // Headroom above the highest value keeps the guarantee's label inside the plot.
   const { min: low, max: high } = finiteExtent(values) ?? { min: 0, max: 0 };
@@ -69,7 +80,15 @@ export function renderCumulativeSavingsSvg(data: CumulativeSavingsData): string 
     valueAxis(y, BOX, py, `Cumulative savings (${data.unit})`),
     dateAxis(ticks, px),
     y.min < 0
-      ? element('line', { class: 'zero-line', x1: BOX.left, y1: py(0), x2: BOX.right, y2: py(0), stroke: PALETTE.frame, 'stroke-width': 1 })
+      ? element('line', {
+          class: 'zero-line',
+          x1: BOX.left,
+          y1: py(0),
+          x2: BOX.right,
+          y2: py(0),
+          stroke: PALETTE.frame,
+          'stroke-width': 1,
+        })
       : '',
     guaranteeLine(guaranteed, data.unit, py),
     last !== null && uncertainty !== null ? band(last, uncertainty, data.unit, px, py) : '',
@@ -156,7 +175,11 @@ function guaranteeLine(guaranteed: number | null, unit: string, py: (v: number) 
       'stroke-width': 1.8,
       'stroke-dasharray': '7 5',
     }),
-    element('text', { x: BOX.left + 8, y: y - 7, fill: PALETTE.reportingDark, 'font-size': 12, 'font-weight': '600' }, escapeXml(label)),
+    element(
+      'text',
+      { x: BOX.left + 8, y: y - 7, fill: PALETTE.reportingDark, 'font-size': 12, 'font-weight': '600' },
+      escapeXml(label),
+    ),
   ].join('');
 }
 
@@ -204,7 +227,9 @@ function curve(
   unit: string,
 ): string {
   if (points.length === 0) return '';
-  const vertices = [{ day: startDay, value: 0 }, ...points].map((p) => `${coord(px(p.day))},${coord(py(p.value))}`).join(' ');
+  const vertices = [{ day: startDay, value: 0 }, ...points]
+    .map((p) => `${coord(px(p.day))},${coord(py(p.value))}`)
+    .join(' ');
   const line = element('polyline', {
     class: 'cumulative-line',
     points: vertices,
@@ -229,14 +254,28 @@ function legend(withGuarantee: boolean, withBand: boolean): string {
       label: 'Cumulative measured savings',
       swatch: (x, y) =>
         element('line', { x1: x, y1: y, x2: x + 16, y2: y, stroke: PALETTE.line, 'stroke-width': 2.4 }) +
-        element('circle', { cx: x + 8, cy: y, r: MARK_RADIUS, fill: PALETTE.baselineFill, stroke: PALETTE.baselineStroke }),
+        element('circle', {
+          cx: x + 8,
+          cy: y,
+          r: MARK_RADIUS,
+          fill: PALETTE.baselineFill,
+          stroke: PALETTE.baselineStroke,
+        }),
     },
   ];
   if (withGuarantee)
     items.push({
       label: 'Guaranteed',
       swatch: (x, y) =>
-        element('line', { x1: x, y1: y, x2: x + 16, y2: y, stroke: PALETTE.reportingDark, 'stroke-width': 1.8, 'stroke-dasharray': '5 3' }),
+        element('line', {
+          x1: x,
+          y1: y,
+          x2: x + 16,
+          y2: y,
+          stroke: PALETTE.reportingDark,
+          'stroke-width': 1.8,
+          'stroke-dasharray': '5 3',
+        }),
     });
   if (withBand)
     items.push({

@@ -7,7 +7,16 @@
  */
 import { coord, element, escapeXml, truncate } from './xml.js';
 import { axisFraction, axisScale, finiteExtent, tickLabel } from './ticks.js';
-import { chartOpen, legendRow, plotNote, PALETTE, valueAxis, valueGrid, type LegendItem, type PlotBox } from './chart-frame.js';
+import {
+  chartOpen,
+  legendRow,
+  plotNote,
+  PALETTE,
+  valueAxis,
+  valueGrid,
+  type LegendItem,
+  type PlotBox,
+} from './chart-frame.js';
 import { dayOf } from './date-axis.js';
 import { formatDayNumber } from '../../engine/dates.js';
 
@@ -109,7 +118,15 @@ function outsideBands(data: PeriodComparisonData): string {
 function zeroLine(y: number | null): string {
   return y === null
     ? ''
-    : element('line', { class: 'zero-line', x1: BOX.left, y1: y, x2: BOX.right, y2: y, stroke: PALETTE.frame, 'stroke-width': 1 });
+    : element('line', {
+        class: 'zero-line',
+        x1: BOX.left,
+        y1: y,
+        x2: BOX.right,
+        y2: y,
+        stroke: PALETTE.frame,
+        'stroke-width': 1,
+      });
 }
 
 function bars(data: PeriodComparisonData, py: (v: number) => number): string {
@@ -160,13 +177,24 @@ function periodLabels(data: PeriodComparisonData): string {
     const first = day === null ? truncate(p.start, 12) : `${Number(dayOfMonth)} ${MONTHS[Number(month) - 1]}`;
     labels.push(element('line', { x1: cx, y1: BOX.bottom, x2: cx, y2: BOX.bottom + 5 }));
     labels.push(
-      element('text', { x: cx, y: BOX.bottom + 19, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.label }, escapeXml(first)),
+      element(
+        'text',
+        { x: cx, y: BOX.bottom + 19, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.label },
+        escapeXml(first),
+      ),
     );
     if (year !== undefined && year !== '' && year !== lastYear) {
       labels.push(
         element(
           'text',
-          { x: cx, y: BOX.bottom + 34, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.frame, 'font-weight': '600' },
+          {
+            x: cx,
+            y: BOX.bottom + 34,
+            'text-anchor': 'middle',
+            stroke: 'none',
+            fill: PALETTE.frame,
+            'font-weight': '600',
+          },
           escapeXml(year),
         ),
       );
@@ -206,7 +234,8 @@ function legend(withOutside: boolean): string {
     },
     {
       label: 'Actual use',
-      swatch: (x, y) => element('rect', { x, y: y - 6, width: 16, height: 12, fill: PALETTE.reporting, stroke: PALETTE.reportingDark }),
+      swatch: (x, y) =>
+        element('rect', { x, y: y - 6, width: 16, height: 12, fill: PALETTE.reporting, stroke: PALETTE.reportingDark }),
     },
   ];
   if (withOutside) {
@@ -214,7 +243,10 @@ function legend(withOutside: boolean): string {
       label: "Outside the baseline's temperature range",
       swatch: (x, y) =>
         element('rect', { x, y: y - 8, width: 16, height: 16, fill: PALETTE.outside }) +
-        element('path', { d: `M${coord(x + 3)} ${coord(y - 5)}H${coord(x + 13)}L${coord(x + 8)} ${coord(y + 3)}Z`, fill: PALETTE.frame }),
+        element('path', {
+          d: `M${coord(x + 3)} ${coord(y - 5)}H${coord(x + 13)}L${coord(x + 8)} ${coord(y + 3)}Z`,
+          fill: PALETTE.frame,
+        }),
     });
   }
   return legendRow(items, BOX.left, HEIGHT - 20);

@@ -59,7 +59,11 @@ export function chartPoint(period: ChartPeriod, unit: TemperatureUnit, useUnit: 
   const where = `${period.start} to ${period.end}: ${period.meanTemp.toFixed(1)} ${degreeOf(unit)}`;
   const adjustment = period.adjustment ?? 0;
   if (adjustment === 0)
-    return { temp: period.meanTemp, usePerDay: period.usePerDay, label: `${where}, ${period.usePerDay.toPrecision(4)} ${useUnit}/day` };
+    return {
+      temp: period.meanTemp,
+      usePerDay: period.usePerDay,
+      label: `${where}, ${period.usePerDay.toPrecision(4)} ${useUnit}/day`,
+    };
   const net = period.usePerDay - adjustment / period.days;
   return {
     temp: period.meanTemp,
@@ -78,11 +82,17 @@ export function anyAdjusted(periods: readonly ChartPeriod[]): boolean {
  * saw, else over the range of the baseline's period means.
  */
 export function fittedVertices(fit: ShapeFit): SignaturePoint[] {
-  const range = fitTemperatureForm(fit) === 'daily' && fit.dayTemperatureRange ? fit.dayTemperatureRange : fit.temperatureRange;
+  const range =
+    fitTemperatureForm(fit) === 'daily' && fit.dayTemperatureRange ? fit.dayTemperatureRange : fit.temperatureRange;
   const { min, max } = range;
-  const inside = [fit.changepoints.heating, fit.changepoints.cooling].filter((c): c is number => c !== null && c > min && c < max);
+  const inside = [fit.changepoints.heating, fit.changepoints.cooling].filter(
+    (c): c is number => c !== null && c > min && c < max,
+  );
   const temps = [...new Set([min, ...inside, max])].sort((a, b) => a - b);
-  return temps.map((temp) => ({ temp, usePerDay: predictPerDay(fit.model, fit.changepoints, fit.rawCoefficients, temp) }));
+  return temps.map((temp) => ({
+    temp,
+    usePerDay: predictPerDay(fit.model, fit.changepoints, fit.rawCoefficients, temp),
+  }));
 }
 
 /** A bill's expected use per day in the model's own form, or null when it cannot be known (no days' temperatures). */

@@ -114,7 +114,9 @@ type Project = (value: number) => number;
 
 /** The note under the legend: the day-resolved tick's meaning and/or that reporting marks are net of adjustments. */
 function chartNote(dayResolved: boolean, netOfAdjustments: boolean): string {
-  const texts = [dayResolved ? DAY_RESOLVED_NOTE : '', netOfAdjustments ? NET_OF_ADJUSTMENTS_NOTE : ''].filter((t) => t !== '');
+  const texts = [dayResolved ? DAY_RESOLVED_NOTE : '', netOfAdjustments ? NET_OF_ADJUSTMENTS_NOTE : ''].filter(
+    (t) => t !== '',
+  );
   // One line each, the last at the foot of the chart.
   return texts.map((t, i) => note(t, HEIGHT - 6 - 13 * (texts.length - 1 - i))).join('');
 }
@@ -151,12 +153,23 @@ function axes(x: AxisScale, y: AxisScale, px: Project, py: Project, xTitle: stri
   const middleY = (PLOT.top + PLOT.bottom) / 2;
   return [
     `<g class="axes" stroke="${PALETTE.frame}" stroke-width="1.2" font-size="12">`,
-    element('path', { d: `M${coord(PLOT.left)} ${coord(PLOT.top)}V${coord(PLOT.bottom)}H${coord(PLOT.right)}`, fill: 'none' }),
+    element('path', {
+      d: `M${coord(PLOT.left)} ${coord(PLOT.top)}V${coord(PLOT.bottom)}H${coord(PLOT.right)}`,
+      fill: 'none',
+    }),
     ...xTicks,
     ...yTicks,
     element(
       'text',
-      { class: 'axis-title', x: middleX, y: PLOT.bottom + 46, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.ink, 'font-size': 13 },
+      {
+        class: 'axis-title',
+        x: middleX,
+        y: PLOT.bottom + 46,
+        'text-anchor': 'middle',
+        stroke: 'none',
+        fill: PALETTE.ink,
+        'font-size': 13,
+      },
       escapeXml(xTitle),
     ),
     element(
@@ -225,7 +238,11 @@ function expectedMarks(points: readonly SignaturePoint[], px: Project, py: Proje
   const marks = points.map((p) => {
     const x = px(p.temp);
     const y = py(p.usePerDay);
-    return element('path', { class: 'mark-expected', d: `M${coord(x - TICK_HALF)} ${coord(y)}H${coord(x + TICK_HALF)}` }, tooltip(p));
+    return element(
+      'path',
+      { class: 'mark-expected', d: `M${coord(x - TICK_HALF)} ${coord(y)}H${coord(x + TICK_HALF)}` },
+      tooltip(p),
+    );
   });
   return `<g fill="none" stroke="${PALETTE.ink}" stroke-width="2.2" stroke-linecap="round">${marks.join('')}</g>`;
 }
@@ -233,7 +250,11 @@ function expectedMarks(points: readonly SignaturePoint[], px: Project, py: Proje
 /** The note on a day-resolved chart, on the bottom line, its size fitted to the width (about 0.52 em per character of running text). */
 function note(text: string, y: number = HEIGHT - 6): string {
   const fontSize = Math.min(11, (WIDTH - 48) / (text.length * 0.52));
-  return element('text', { class: 'chart-note', x: 24, y, fill: PALETTE.frame, 'font-size': Number(fontSize.toFixed(2)) }, escapeXml(text));
+  return element(
+    'text',
+    { class: 'chart-note', x: 24, y, fill: PALETTE.frame, 'font-size': Number(fontSize.toFixed(2)) },
+    escapeXml(text),
+  );
 }
 
 /** The day-resolved chart's legend: four items from the left edge, a little smaller. */
@@ -243,16 +264,37 @@ function dailyLegend(data: SignatureChartData, expected: number): string {
   let cursor = 24;
   const items: string[] = [];
   const label = (text: string) => {
-    items.push(element('text', { x: cursor + 22, y: rowY, dy: '0.32em', fill: PALETTE.label, 'font-size': fontSize }, escapeXml(text)));
+    items.push(
+      element(
+        'text',
+        { x: cursor + 22, y: rowY, dy: '0.32em', fill: PALETTE.label, 'font-size': fontSize },
+        escapeXml(text),
+      ),
+    );
     cursor += 22 + text.length * fontSize * 0.56 + 22;
   };
-  items.push(element('circle', { cx: cursor + 8, cy: rowY, r: MARK_RADIUS, fill: PALETTE.baselineFill, stroke: PALETTE.baselineStroke }));
+  items.push(
+    element('circle', {
+      cx: cursor + 8,
+      cy: rowY,
+      r: MARK_RADIUS,
+      fill: PALETTE.baselineFill,
+      stroke: PALETTE.baselineStroke,
+    }),
+  );
   label(`Baseline periods (${data.baseline.length})`);
-  items.push(element('line', { x1: cursor, y1: rowY, x2: cursor + 16, y2: rowY, stroke: PALETTE.line, 'stroke-width': 2.4 }));
+  items.push(
+    element('line', { x1: cursor, y1: rowY, x2: cursor + 16, y2: rowY, stroke: PALETTE.line, 'stroke-width': 2.4 }),
+  );
   label(`${data.model} daily response`);
   if (data.reporting.length > 0) {
     items.push(
-      element('path', { d: diamondPath(cursor + 8, rowY, DIAMOND), fill: PALETTE.paper, stroke: PALETTE.reporting, 'stroke-width': 1.8 }),
+      element('path', {
+        d: diamondPath(cursor + 8, rowY, DIAMOND),
+        fill: PALETTE.paper,
+        stroke: PALETTE.reporting,
+        'stroke-width': 1.8,
+      }),
     );
     label(reportingLabel(data));
   }
@@ -280,16 +322,37 @@ function legend(data: SignatureChartData): string {
   let cursor = PLOT.left;
   const items: string[] = [];
   const label = (text: string) => {
-    items.push(element('text', { x: cursor + 22, y: rowY, dy: '0.32em', fill: PALETTE.label, 'font-size': fontSize }, escapeXml(text)));
+    items.push(
+      element(
+        'text',
+        { x: cursor + 22, y: rowY, dy: '0.32em', fill: PALETTE.label, 'font-size': fontSize },
+        escapeXml(text),
+      ),
+    );
     cursor += 22 + text.length * fontSize * 0.56 + 26;
   };
-  items.push(element('circle', { cx: cursor + 8, cy: rowY, r: MARK_RADIUS, fill: PALETTE.baselineFill, stroke: PALETTE.baselineStroke }));
+  items.push(
+    element('circle', {
+      cx: cursor + 8,
+      cy: rowY,
+      r: MARK_RADIUS,
+      fill: PALETTE.baselineFill,
+      stroke: PALETTE.baselineStroke,
+    }),
+  );
   label(baseline);
-  items.push(element('line', { x1: cursor, y1: rowY, x2: cursor + 16, y2: rowY, stroke: PALETTE.line, 'stroke-width': 2.4 }));
+  items.push(
+    element('line', { x1: cursor, y1: rowY, x2: cursor + 16, y2: rowY, stroke: PALETTE.line, 'stroke-width': 2.4 }),
+  );
   label(line);
   if (data.reporting.length > 0) {
     items.push(
-      element('path', { d: diamondPath(cursor + 8, rowY, DIAMOND), fill: PALETTE.paper, stroke: PALETTE.reporting, 'stroke-width': 1.8 }),
+      element('path', {
+        d: diamondPath(cursor + 8, rowY, DIAMOND),
+        fill: PALETTE.paper,
+        stroke: PALETTE.reporting,
+        'stroke-width': 1.8,
+      }),
     );
     label(reporting);
   }

@@ -77,7 +77,8 @@ function evenScale(low: number, high: number, wanted: number): AxisScale {
   const intervals = wanted - 1;
   const ticks: number[] = [];
   // low·(1 − f) + high·f never overflows where (high − low) would.
-  for (let i = 0; i <= intervals; i++) ticks.push(i === intervals ? high : low * (1 - i / intervals) + high * (i / intervals));
+  for (let i = 0; i <= intervals; i++)
+    ticks.push(i === intervals ? high : low * (1 - i / intervals) + high * (i / intervals));
   return { min: low, max: high, step: high / intervals - low / intervals, ticks, decimals: MAX_FIXED_DECIMALS + 1 };
 }
 
@@ -90,7 +91,9 @@ export function axisFraction(scale: AxisScale, value: number): number {
   if (!Number.isFinite(value)) return 0;
   const span = scale.max - scale.min;
   const fraction =
-    Number.isFinite(span) && span > 0 ? (value - scale.min) / span : (value / 2 - scale.min / 2) / (scale.max / 2 - scale.min / 2);
+    Number.isFinite(span) && span > 0
+      ? (value - scale.min) / span
+      : (value / 2 - scale.min / 2) / (scale.max / 2 - scale.min / 2);
   if (!Number.isFinite(fraction)) return 0;
   return Math.min(Math.max(fraction, -1), 2);
 }

@@ -20,7 +20,11 @@ export function assertDraft(row: BaselineRow): void {
 }
 
 /** The engineer's choice of shape on a draft: any fitted shape, its verdict recorded beside it. */
-export async function chooseModel(ctx: ServiceContext, baselineId: string, input: { model: ModelName; reason: string }): Promise<Baseline> {
+export async function chooseModel(
+  ctx: ServiceContext,
+  baselineId: string,
+  input: { model: ModelName; reason: string },
+): Promise<Baseline> {
   return inTransaction(ctx, async (trx) => {
     const row = await getBaselineRow(trx, ctx.principal.organisationId, baselineId);
     assertDraft(row);

@@ -57,14 +57,23 @@ function analyseWindow(
   }
   const problems = checkReadings(readings);
   if (problems.length > 0) {
-    const errors = problems.map((p) => ({ field: describeReading(readings[p.index]!), message: `${p.field}: ${p.message}` }));
-    throw new DomainError('unprocessable', `${summarise(errors)}; the stored readings in ${span} must be fixed before a fit`, errors);
+    const errors = problems.map((p) => ({
+      field: describeReading(readings[p.index]!),
+      message: `${p.field}: ${p.message}`,
+    }));
+    throw new DomainError(
+      'unprocessable',
+      `${summarise(errors)}; the stored readings in ${span} must be fixed before a fit`,
+      errors,
+    );
   }
   const { temperature, ...rest } = options;
   // The schema admits any level in (0, 1); one so small that 1 − α rounds to 1 cannot be tested at.
   if (rest.significanceLevel !== undefined && !isUsableSignificanceLevel(rest.significanceLevel)) {
     const message = `${rest.significanceLevel} is too small to test at: 1 − α rounds to 1 in double precision (the smallest usable level is about 1.1e-16)`;
-    throw new DomainError('unprocessable', `options.significanceLevel: ${message}`, [{ field: 'options.significanceLevel', message }]);
+    throw new DomainError('unprocessable', `options.significanceLevel: ${message}`, [
+      { field: 'options.significanceLevel', message },
+    ]);
   }
   try {
     return analyseBaseline(readings, weather, { ...rest, temperatureForm: temperature, exclusions, variableSeries });
@@ -73,7 +82,10 @@ function analyseWindow(
       throw new DomainError('unprocessable', error.message, [{ field: error.field, message: error.message }]);
     }
     if (error instanceof MissingVariableValuesError) {
-      const errors = error.periods.map((p) => ({ field: describeReading(p), message: `no value of ${p.missing.join(', ')}` }));
+      const errors = error.periods.map((p) => ({
+        field: describeReading(p),
+        message: `no value of ${p.missing.join(', ')}`,
+      }));
       throw new DomainError('unprocessable', error.message, errors);
     }
     if (!(error instanceof TooFewPeriodsError)) throw error;
@@ -116,7 +128,8 @@ async function resolveExclusions(
         ? rows.find((r) => readingId(r.period_start, r.period_end) === request.readingId)
         : rows.find((r) => r.period_start === request.start && r.period_end === request.end);
     if (!row) {
-      const what = request.readingId !== undefined ? `reading ${request.readingId}` : `a reading ${request.start}..${request.end}`;
+      const what =
+        request.readingId !== undefined ? `reading ${request.readingId}` : `a reading ${request.start}..${request.end}`;
       const message = `${what} is not one of this meter's readings inside ${window.start}..${window.end} (end exclusive)`;
       throw new DomainError('unprocessable', `${field}: ${message}`, [{ field, message }]);
     }
@@ -128,7 +141,12 @@ async function resolveExclusions(
       const message = `reading ${request.readingId} covers ${row.period_start}..${row.period_end}, not ${request.start}..${request.end}`;
       throw new DomainError('unprocessable', `${field}: ${message}`, [{ field, message }]);
     }
-    return { readingId: readingId(row.period_start, row.period_end), start: row.period_start, end: row.period_end, reason: request.reason };
+    return {
+      readingId: readingId(row.period_start, row.period_end),
+      start: row.period_start,
+      end: row.period_end,
+      reason: request.reason,
+    };
   });
 }
 
@@ -152,23 +170,33 @@ export async function createBaseline(
   const offered = [...new Set([...(options.variables ?? []), ...(options.variableOverrides ?? []).map((o) => o.name)])];
   const stored = await variableSeriesForMeter(db, meter, offered, { from: input.start, to: input.end });
   const days = options.dayTypes
-    ? (await calendarSeries(db, meter.facility_id, { from: input.start, to: input.end }, 'options.dayTypes')).map((s) => ({
-        ...s,
-        id: meter.facility_id,
-        unit: 'share of days',
-        source: 'calendar' as const,
-      }))
+    ? (await calendarSeries(db, meter.facility_id, { from: input.start, to: input.end }, 'options.dayTypes')).map(
+        (s) => ({
+          ...s,
+          id: meter.facility_id,
+          unit: 'share of days',
+          source: 'calendar' as const,
+        }),
+      )
     : [];
   const series: StoredVariableSeries[] = [...stored.series, ...days];
   const { dayTypes: _dayTypes, ...fitOptions } = options;
-  const withDays = days.length > 0 ? { ...fitOptions, variables: [...(options.variables ?? []), ...days.map((d) => d.name)] } : fitOptions;
+  const withDays =
+    days.length > 0
+      ? { ...fitOptions, variables: [...(options.variables ?? []), ...days.map((d) => d.name)] }
+      : fitOptions;
   const analysis = analyseWindow(meterId, input, readings, weather, withDays, exclusions, series);
 
   const fits: Partial<Record<ModelName, ShapeFit>> = {};
   for (const candidate of analysis.choice.candidates) if (candidate.fit) fits[candidate.model] = candidate.fit;
   // What the fit saw: the readings the engineer left out stay out of the stored inputs (they are recorded in the document's exclusions).
   const kept = readings.filter((r) => !exclusions.some((e) => e.start === r.start && e.end === r.end));
-  const inputs: BaselineInputs = { readings: kept, weather, temperatureUnit, ...(series.length > 0 ? { variables: series } : {}) };
+  const inputs: BaselineInputs = {
+    readings: kept,
+    weather,
+    temperatureUnit,
+    ...(series.length > 0 ? { variables: series } : {}),
+  };
 
   return inTransaction(ctx, async (trx) => {
     const last = await trx

@@ -15,11 +15,18 @@ import { loadFilledDays } from '../weather-gaps.js';
 import type { BaselineInputs } from './types.js';
 
 /** The periods of the baseline's readings with at least one filled day (empty for a row without its inputs). */
-export async function baselineWeatherFills(db: Executor, row: Pick<BaselineRow, 'meter_id' | 'inputs_json'>): Promise<PeriodFills[]> {
+export async function baselineWeatherFills(
+  db: Executor,
+  row: Pick<BaselineRow, 'meter_id' | 'inputs_json'>,
+): Promise<PeriodFills[]> {
   const inputs = fromStoredJson<Partial<BaselineInputs>>(row.inputs_json);
   const readings = Array.isArray(inputs.readings) ? inputs.readings : [];
   if (readings.length === 0) return [];
-  const meter = await db.selectFrom('meters').select('weather_station_id').where('id', '=', row.meter_id).executeTakeFirst();
+  const meter = await db
+    .selectFrom('meters')
+    .select('weather_station_id')
+    .where('id', '=', row.meter_id)
+    .executeTakeFirst();
   if (!meter) return [];
   let from = readings[0]!.start;
   let to = readings[0]!.end;

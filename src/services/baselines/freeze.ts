@@ -73,9 +73,11 @@ export async function freezeBaseline(ctx: ServiceContext, baselineId: string, in
       );
     }
     if (!current && input.supersedeReason !== undefined) {
-      throw new DomainError('invalid', `supersedeReason: meter ${row.meter_id} has no frozen baseline to supersede; leave it out`, [
-        { field: 'supersedeReason', message: 'nothing to supersede' },
-      ]);
+      throw new DomainError(
+        'invalid',
+        `supersedeReason: meter ${row.meter_id} has no frozen baseline to supersede; leave it out`,
+        [{ field: 'supersedeReason', message: 'nothing to supersede' }],
+      );
     }
     checkSufficiency(row, input);
     const frozen: BaselineRow = {

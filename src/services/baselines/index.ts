@@ -5,7 +5,14 @@
  * model that was agreed. A frozen baseline is never changed again: a new
  * version supersedes it and the history keeps both.
  */
-export type { Baseline, BaselineFitOptions, BaselineInputs, BaselineOverrides, BaselineSummary, FreezeInput } from './types.js';
+export type {
+  Baseline,
+  BaselineFitOptions,
+  BaselineInputs,
+  BaselineOverrides,
+  BaselineSummary,
+  FreezeInput,
+} from './types.js';
 export { overridesOf, storedBaselinePeriods, toBaselineSummary } from './views.js';
 export { getBaseline, getBaselineRow, listBaselines } from './reads.js';
 export { createBaseline } from './create.js';

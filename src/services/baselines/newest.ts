@@ -26,11 +26,19 @@ async function newestBaselineId(db: Executor, organisationId: string, meterId: s
 }
 
 /** The meter's newest baseline version (draft, frozen or superseded), as GET /v1/baselines/{id} shows it. */
-export async function getNewestBaseline(db: Executor, organisationId: string, meterId: string): Promise<Baseline & { verified: boolean }> {
+export async function getNewestBaseline(
+  db: Executor,
+  organisationId: string,
+  meterId: string,
+): Promise<Baseline & { verified: boolean }> {
   return getBaseline(db, organisationId, await newestBaselineId(db, organisationId, meterId));
 }
 
 /** The points of the meter's newest baseline version, as GET /v1/baselines/{id}/points gives them. */
-export async function newestBaselinePoints(db: Executor, organisationId: string, meterId: string): Promise<BaselinePoints> {
+export async function newestBaselinePoints(
+  db: Executor,
+  organisationId: string,
+  meterId: string,
+): Promise<BaselinePoints> {
   return baselinePoints(db, organisationId, await newestBaselineId(db, organisationId, meterId));
 }

@@ -59,7 +59,11 @@ export interface BaselinePoints {
 const finiteOrNull = (value: number): number | null => (Number.isFinite(value) ? value : null);
 
 /** Every fitted shape's line, expected use and residuals over the baseline's usable periods (404 across organisations). */
-export async function baselinePoints(db: Executor, organisationId: string, baselineId: string): Promise<BaselinePoints> {
+export async function baselinePoints(
+  db: Executor,
+  organisationId: string,
+  baselineId: string,
+): Promise<BaselinePoints> {
   const row = await getBaselineRow(db, organisationId, baselineId);
   const meter = await getMeterRow(db, organisationId, row.meter_id);
   const inputs = fromStoredJson<Partial<BaselineInputs>>(row.inputs_json);

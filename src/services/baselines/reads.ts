@@ -21,7 +21,11 @@ export async function getBaselineRow(db: Executor, organisationId: string, id: s
   return row;
 }
 
-export async function getBaseline(db: Executor, organisationId: string, id: string): Promise<Baseline & { verified: boolean }> {
+export async function getBaseline(
+  db: Executor,
+  organisationId: string,
+  id: string,
+): Promise<Baseline & { verified: boolean }> {
   const row = await getBaselineRow(db, organisationId, id);
   return { ...viewOf(row), weatherFills: await baselineWeatherFills(db, row), verified: verifyBaselineContent(row) };
 }

@@ -15,13 +15,18 @@ import { getBaselineRow } from './reads.js';
 import type { BaselineFitOptions, BaselineInputs } from './types.js';
 
 /** What the baseline's energy signature is drawn from; reporting periods are added once it has been frozen. */
-export async function baselineSignatureData(db: Executor, organisationId: string, baselineId: string): Promise<BaselineSignatureInput> {
+export async function baselineSignatureData(
+  db: Executor,
+  organisationId: string,
+  baselineId: string,
+): Promise<BaselineSignatureInput> {
   const row = await getBaselineRow(db, organisationId, baselineId);
   const meter = await getMeterRow(db, organisationId, row.meter_id);
   const inputs = fromStoredJson<BaselineInputs>(row.inputs_json);
   const options = fromStoredJson<BaselineFitOptions>(row.options_json);
   const fit = fromStoredJson<Partial<Record<ModelName, ShapeFit>>>(row.fits_json)[row.chosen_model as ModelName];
-  if (!fit) throw new DomainError('unprocessable', `baseline ${row.id} holds no fit of its chosen shape ${row.chosen_model}`);
+  if (!fit)
+    throw new DomainError('unprocessable', `baseline ${row.id} holds no fit of its chosen shape ${row.chosen_model}`);
   const alignment = { minCoverage: options.minCoverage };
   const baseline = alignPeriods(inputs.readings, inputs.weather, alignment).periods;
 
@@ -35,9 +40,14 @@ export async function baselineSignatureData(db: Executor, organisationId: string
   const adjustments =
     reporting.length === 0
       ? []
-      : (await db.selectFrom('adjustments').selectAll().where('meter_id', '=', meter.id).where('withdrawn_at', 'is', null).execute()).map(
-          toEngineAdjustment,
-        );
+      : (
+          await db
+            .selectFrom('adjustments')
+            .selectAll()
+            .where('meter_id', '=', meter.id)
+            .where('withdrawn_at', 'is', null)
+            .execute()
+        ).map(toEngineAdjustment);
   const charted = reporting.map((p) => ({
     ...p,
     adjustment: adjustments.length > 0 ? adjustmentsForPeriod(adjustments, p.start, p.end) : 0,

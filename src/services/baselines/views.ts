@@ -26,7 +26,9 @@ function choiceWarnings(row: BaselineRow, document: FitDocument, sufficiency: Ba
     warnings.push(`the baseline does not cover a full cycle of seasons (${sufficiency.reasons.join('; ')}): ${how}`);
   }
   if (row.chosen_model !== row.selected_model) {
-    warnings.push(`the chosen shape ${row.chosen_model} is an engineer's choice; the engine selected ${row.selected_model}`);
+    warnings.push(
+      `the chosen shape ${row.chosen_model} is an engineer's choice; the engine selected ${row.selected_model}`,
+    );
   }
   const chosen = document.candidates.find((c) => c.model === row.chosen_model);
   if (chosen?.verdict === 'rejected') {
@@ -36,7 +38,9 @@ function choiceWarnings(row: BaselineRow, document: FitDocument, sufficiency: Ba
 }
 
 /** The baseline's own usable periods, re-aligned from its stored inputs (null for a row without inputs). */
-export function storedBaselinePeriods(row: Pick<BaselineRow, 'inputs_json' | 'options_json' | 'document_json'>): Period[] | null {
+export function storedBaselinePeriods(
+  row: Pick<BaselineRow, 'inputs_json' | 'options_json' | 'document_json'>,
+): Period[] | null {
   const inputs = fromStoredJson<Partial<BaselineInputs>>(row.inputs_json);
   if (!Array.isArray(inputs.readings) || !Array.isArray(inputs.weather)) return null;
   const options = fromStoredJson<BaselineFitOptions>(row.options_json);
@@ -47,7 +51,9 @@ export function storedBaselinePeriods(row: Pick<BaselineRow, 'inputs_json' | 'op
   }).periods;
 }
 
-export function overridesOf(row: Pick<BaselineRow, 'short_baseline_override' | 'extrapolation_override'>): BaselineOverrides {
+export function overridesOf(
+  row: Pick<BaselineRow, 'short_baseline_override' | 'extrapolation_override'>,
+): BaselineOverrides {
   return {
     shortBaseline: row.short_baseline_override === null ? null : { reason: row.short_baseline_override },
     extrapolation: row.extrapolation_override === null ? null : { reason: row.extrapolation_override },

@@ -7,7 +7,14 @@
 import { renameSync, statSync, existsSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { verifyLedger, type LedgerVerdict } from './verify-ledger.js';
-import { BackupInputError, errorCode, mustBeWritableFileSpot, openLedgerFile, removeDatabaseFiles, withFileStore } from './sqlite-files.js';
+import {
+  BackupInputError,
+  errorCode,
+  mustBeWritableFileSpot,
+  openLedgerFile,
+  removeDatabaseFiles,
+  withFileStore,
+} from './sqlite-files.js';
 
 export interface BackupSummary {
   source: string;

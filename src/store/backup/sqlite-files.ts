@@ -21,8 +21,11 @@ export function openLedgerFile(path: string, what: string): SQLite.Database {
   const connection = new SQLite(path, { fileMustExist: true });
   try {
     connection.pragma(`busy_timeout = ${SQLITE_BUSY_TIMEOUT_MS}`);
-    const table = connection.prepare("select 1 from sqlite_master where type = 'table' and name = 'organisations'").get();
-    if (!table) throw new BackupInputError(`${what}: ${path} is not an mvledger database (it has no organisations table)`);
+    const table = connection
+      .prepare("select 1 from sqlite_master where type = 'table' and name = 'organisations'")
+      .get();
+    if (!table)
+      throw new BackupInputError(`${what}: ${path} is not an mvledger database (it has no organisations table)`);
     return connection;
   } catch (error) {
     connection.close();
@@ -32,8 +35,11 @@ export function openLedgerFile(path: string, what: string): SQLite.Database {
 }
 
 export async function mustBeLedger(db: Kysely<Database>, what: string): Promise<void> {
-  const found = await sql<{ name: string }>`select name from sqlite_master where type = 'table' and name = 'organisations'`.execute(db);
-  if (found.rows.length === 0) throw new BackupInputError(`${what}: not an mvledger backup (it has no organisations table)`);
+  const found = await sql<{
+    name: string;
+  }>`select name from sqlite_master where type = 'table' and name = 'organisations'`.execute(db);
+  if (found.rows.length === 0)
+    throw new BackupInputError(`${what}: not an mvledger backup (it has no organisations table)`);
 }
 
 /** Open a SQLite file as a store, run `work`, close (which folds and removes its -wal). */
@@ -57,7 +63,8 @@ export class NotADatabase extends Error {}
 
 export function notADatabase(what: string): (error: unknown) => never {
   return (error) => {
-    if (error instanceof NotADatabase || isNotADatabase(error)) throw new BackupInputError(`${what}: not an SQLite database`);
+    if (error instanceof NotADatabase || isNotADatabase(error))
+      throw new BackupInputError(`${what}: not an SQLite database`);
     throw error;
   };
 }
@@ -77,7 +84,8 @@ export function mustBeWritableFileSpot(option: string, given: string, path: stri
   const folder = dirname(path);
   if (!existsSync(folder)) throw new BackupInputError(`${option} ${given}: cannot write it (ENOENT)`);
   if (!statSync(folder).isDirectory()) throw new BackupInputError(`${option} ${given}: cannot write it (ENOTDIR)`);
-  if (existsSync(path) && statSync(path).isDirectory()) throw new BackupInputError(`${option} ${given}: cannot write it (EISDIR)`);
+  if (existsSync(path) && statSync(path).isDirectory())
+    throw new BackupInputError(`${option} ${given}: cannot write it (EISDIR)`);
 }
 
 export function nonEmpty(path: string): boolean {

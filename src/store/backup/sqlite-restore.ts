@@ -32,7 +32,11 @@ export interface RestoreSummary {
   verdict: LedgerVerdict;
 }
 
-export async function restoreSqlite(inFile: string, targetFile: string, options: { force: boolean }): Promise<RestoreSummary> {
+export async function restoreSqlite(
+  inFile: string,
+  targetFile: string,
+  options: { force: boolean },
+): Promise<RestoreSummary> {
   const input = resolve(inFile);
   const target = resolve(targetFile);
   if (input === target) throw new BackupInputError(`--in ${inFile}: that is the database itself`);
@@ -51,14 +55,17 @@ export async function restoreSqlite(inFile: string, targetFile: string, options:
     try {
       copyFileSync(input, partial);
     } catch (error) {
-      throw new BackupInputError(`--in ${inFile}: cannot copy it beside the database (${errorCode(error, 'unreadable')})`);
+      throw new BackupInputError(
+        `--in ${inFile}: cannot copy it beside the database (${errorCode(error, 'unreadable')})`,
+      );
     }
     const checked = await withFileStore(partial, async (db) => {
       await mustBeLedger(db, `--in ${inFile}`);
       const migrations = await migrateToLatest(db);
       return { migrations, verdict: await verifyLedger(db) };
     }).catch(notADatabase(`--in ${inFile}`));
-    if (!checked.verdict.ok) throw new BackupInputError(`--in ${inFile} ${describeVerdict(checked.verdict)}; ${target} is left as it was`);
+    if (!checked.verdict.ok)
+      throw new BackupInputError(`--in ${inFile} ${describeVerdict(checked.verdict)}; ${target} is left as it was`);
     // A stale -wal beside the target would be replayed into the restored file.
     for (const suffix of ['-wal', '-shm']) rmSync(`${target}${suffix}`, { force: true });
     renameSync(partial, target);
@@ -81,17 +88,24 @@ function inspectTarget(target: string, force: boolean): number {
   const connection = new SQLite(target, { fileMustExist: true });
   try {
     connection.pragma(`busy_timeout = ${SQLITE_BUSY_TIMEOUT_MS}`);
-    const table = connection.prepare("select 1 from sqlite_master where type = 'table' and name = 'organisations'").get();
-    organisations = table ? (connection.prepare('select count(*) as n from organisations').get() as { n: number }).n : 0;
+    const table = connection
+      .prepare("select 1 from sqlite_master where type = 'table' and name = 'organisations'")
+      .get();
+    organisations = table
+      ? (connection.prepare('select count(*) as n from organisations').get() as { n: number }).n
+      : 0;
   } catch (error) {
     if (!isNotADatabase(error)) throw error;
-    if (!force) throw new BackupInputError(`DATABASE_URL: ${target} is not an SQLite database; add --force to replace it`);
+    if (!force)
+      throw new BackupInputError(`DATABASE_URL: ${target} is not an SQLite database; add --force to replace it`);
     return 0;
   } finally {
     connection.close();
   }
   if (existsSync(`${target}-wal`)) {
-    throw new BackupInputError(`DATABASE_URL: ${target} is in use (its -wal file stays open); stop the service before restoring`);
+    throw new BackupInputError(
+      `DATABASE_URL: ${target} is in use (its -wal file stays open); stop the service before restoring`,
+    );
   }
   if (organisations > 0 && !force) {
     throw new BackupInputError(

@@ -25,7 +25,8 @@ import {
 /** The document if it is a well-formed, self-consistent export; else a TransferInputError naming the place. */
 export function checkDocument(value: unknown): ExportDocument {
   if (!isObject(value)) fail('document', `must be a JSON object, got ${shown(value)}`);
-  if (value.format !== EXPORT_FORMAT) fail('format', `must be ${JSON.stringify(EXPORT_FORMAT)}, got ${shown(value.format)}`);
+  if (value.format !== EXPORT_FORMAT)
+    fail('format', `must be ${JSON.stringify(EXPORT_FORMAT)}, got ${shown(value.format)}`);
   if (!(READABLE_VERSIONS as readonly unknown[]).includes(value.version)) {
     fail(
       'version',
@@ -34,7 +35,13 @@ export function checkDocument(value: unknown): ExportDocument {
   }
   if (typeof value.exportedAt !== 'string') fail('exportedAt', `must be text, got ${shown(value.exportedAt)}`);
   const version = value.version as number;
-  const organisation = checkRow('organisation', value.organisation, ORGANISATION_RULE, null, version) as unknown as OrganisationRecord;
+  const organisation = checkRow(
+    'organisation',
+    value.organisation,
+    ORGANISATION_RULE,
+    null,
+    version,
+  ) as unknown as OrganisationRecord;
   const head = value.auditHead;
   if (!isObject(head)) fail('auditHead', `must be an object { seq, hash }, got ${shown(head)}`);
   checkCell('auditHead.seq', head.seq, INTEGER);
@@ -60,5 +67,12 @@ export function checkDocument(value: unknown): ExportDocument {
   checkKeysIssuedOnRecord(tables.api_keys, tables.audit_log);
   checkBaselineHashes(tables.baselines);
   checkStatementCopies(tables.statement_copies);
-  return { format: EXPORT_FORMAT, version: EXPORT_VERSION, exportedAt: value.exportedAt, organisation, auditHead, tables };
+  return {
+    format: EXPORT_FORMAT,
+    version: EXPORT_VERSION,
+    exportedAt: value.exportedAt,
+    organisation,
+    auditHead,
+    tables,
+  };
 }

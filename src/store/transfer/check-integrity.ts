@@ -18,7 +18,8 @@ export function checkReferences(tables: Record<TransferTable, ExportRow[]>): voi
   const meters = ids('meters');
   const refer = (table: TransferTable, column: string, targets: Set<Cell | undefined>, what: string) => {
     tables[table].forEach((row, index) => {
-      if (!targets.has(row[column])) fail(`tables.${table}[${index}].${column}`, `${shown(row[column])} is not a ${what} in the document`);
+      if (!targets.has(row[column]))
+        fail(`tables.${table}[${index}].${column}`, `${shown(row[column])} is not a ${what} in the document`);
     });
   };
   refer('weather_observations', 'station_id', stations, 'weather station');
@@ -62,11 +63,18 @@ export function checkReferences(tables: Record<TransferTable, ExportRow[]>): voi
   });
 }
 
-export function checkAuditTrail(organisationId: string, rows: readonly ExportRow[], head: { seq: number; hash: string }): void {
+export function checkAuditTrail(
+  organisationId: string,
+  rows: readonly ExportRow[],
+  head: { seq: number; hash: string },
+): void {
   const verdict = verifyAuditRows(organisationId, rows as unknown as AuditRow[]);
   if (!verdict.ok) {
     const index = rows.findIndex((row) => row.seq === verdict.broken!.seq);
-    fail(`tables.audit_log[${index}]`, `the audit chain breaks at seq ${verdict.broken!.seq}: ${verdict.broken!.reason}`);
+    fail(
+      `tables.audit_log[${index}]`,
+      `the audit chain breaks at seq ${verdict.broken!.seq}: ${verdict.broken!.reason}`,
+    );
   }
   if (verdict.headSeq !== head.seq || verdict.headHash !== head.hash) {
     fail(
@@ -84,7 +92,10 @@ export function mustVerify(row: ExportRow): boolean {
 export function checkBaselineHashes(rows: readonly ExportRow[]): void {
   rows.forEach((row, index) => {
     if (mustVerify(row) && !verifyBaselineContent(row as unknown as BaselineRow)) {
-      fail(`tables.baselines[${index}]`, `baseline ${row.id} (${row.status}) does not match its content hash ${shown(row.content_hash)}`);
+      fail(
+        `tables.baselines[${index}]`,
+        `baseline ${row.id} (${row.status}) does not match its content hash ${shown(row.content_hash)}`,
+      );
     }
   });
 }

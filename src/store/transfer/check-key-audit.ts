@@ -43,7 +43,11 @@ export function checkKeysIssuedOnRecord(keys: readonly ExportRow[], audit: reado
     const issue = (created.get(id) ?? []).find(
       (r) => r.id === key.id && r.name === key.name && r.role === key.role && r.createdAt === key.created_at,
     );
-    if (!issue) fail(path, `key ${id} has no audit record of its issue with this name, role and time; the import refuses unrecorded keys`);
+    if (!issue)
+      fail(
+        path,
+        `key ${id} has no audit record of its issue with this name, role and time; the import refuses unrecorded keys`,
+      );
     if (key.revoked_at !== null && !(revoked.get(id) ?? []).some((r) => r.revokedAt === key.revoked_at))
       fail(`${path}.revoked_at`, `key ${id} has no audit record of its revocation at ${String(key.revoked_at)}`);
   });

@@ -29,19 +29,32 @@ export function checkCell(path: string, value: unknown, rule: ColumnRule): void 
   if (rule.type === 'text' && typeof value !== 'string') fail(path, `must be text, got ${shown(value)}`);
   if (rule.type === 'real' && !(typeof value === 'number' && Number.isFinite(value)))
     fail(path, `must be a finite number, got ${shown(value)}`);
-  if (rule.type === 'integer' && !Number.isSafeInteger(value)) fail(path, `must be a whole number, got ${shown(value)}`);
-  if (rule.min !== undefined && (value as number) < rule.min) fail(path, `must be at least ${rule.min}, got ${shown(value)}`);
-  if (rule.oneOf && !rule.oneOf.includes(value as Cell)) fail(path, `must be one of ${rule.oneOf.join(', ')}, got ${shown(value)}`);
+  if (rule.type === 'integer' && !Number.isSafeInteger(value))
+    fail(path, `must be a whole number, got ${shown(value)}`);
+  if (rule.min !== undefined && (value as number) < rule.min)
+    fail(path, `must be at least ${rule.min}, got ${shown(value)}`);
+  if (rule.oneOf && !rule.oneOf.includes(value as Cell))
+    fail(path, `must be one of ${rule.oneOf.join(', ')}, got ${shown(value)}`);
 }
 
-export function checkRow(path: string, value: unknown, rule: TableRule, organisationId: string | null, version: number): ExportRow {
+export function checkRow(
+  path: string,
+  value: unknown,
+  rule: TableRule,
+  organisationId: string | null,
+  version: number,
+): ExportRow {
   if (!isObject(value)) fail(path, `must be an object, got ${shown(value)}`);
-  for (const [column, columnRule] of Object.entries(rule.columns)) checkCell(`${path}.${column}`, value[column], columnRule);
+  for (const [column, columnRule] of Object.entries(rule.columns))
+    checkCell(`${path}.${column}`, value[column], columnRule);
   for (const column of Object.keys(value)) {
     if (!Object.hasOwn(rule.columns, column)) fail(`${path}.${column}`, `not a column of format version ${version}`);
   }
   if (organisationId !== null && 'organisation_id' in value && value.organisation_id !== organisationId) {
-    fail(`${path}.organisation_id`, `must be the exported organisation ${organisationId}, got ${shown(value.organisation_id)}`);
+    fail(
+      `${path}.organisation_id`,
+      `must be the exported organisation ${organisationId}, got ${shown(value.organisation_id)}`,
+    );
   }
   return value as ExportRow;
 }

@@ -45,7 +45,13 @@ export const TABLE_RULES: Record<TransferTable, TableRule> = {
   },
   weather_stations: {
     key: ['id'],
-    columns: { id: TEXT, organisation_id: TEXT, name: TEXT, temperature_unit: { type: 'text', oneOf: ['F', 'C'] }, created_at: TEXT },
+    columns: {
+      id: TEXT,
+      organisation_id: TEXT,
+      name: TEXT,
+      temperature_unit: { type: 'text', oneOf: ['F', 'C'] },
+      created_at: TEXT,
+    },
   },
   weather_observations: {
     key: ['station_id', 'date'],
@@ -62,7 +68,14 @@ export const TABLE_RULES: Record<TransferTable, TableRule> = {
   },
   facilities: {
     key: ['id'],
-    columns: { id: TEXT, organisation_id: TEXT, name: TEXT, address: TEXT_OR_NULL, floor_area: REAL_OR_NULL, created_at: TEXT },
+    columns: {
+      id: TEXT,
+      organisation_id: TEXT,
+      name: TEXT,
+      address: TEXT_OR_NULL,
+      floor_area: REAL_OR_NULL,
+      created_at: TEXT,
+    },
   },
   meters: {
     key: ['id'],
@@ -294,7 +307,10 @@ const COLUMNS_SINCE_VERSION: Record<number, AddedColumns> = {
 };
 
 /** The columns of `table` that a document of `version` lacks, with their defaults. */
-export function columnsAddedAfter(table: TransferTable, version: number): Record<string, (row: ExportRow) => Cell> | undefined {
+export function columnsAddedAfter(
+  table: TransferTable,
+  version: number,
+): Record<string, (row: ExportRow) => Cell> | undefined {
   const added = Object.entries(COLUMNS_SINCE_VERSION)
     .filter(([since]) => Number(since) > version)
     .flatMap(([, tables]) => Object.entries(tables[table] ?? {}));
@@ -314,7 +330,10 @@ export function ruleFor(table: TransferTable, version: number): TableRule {
   const rule = TABLE_RULES[table];
   const added = columnsAddedAfter(table, version);
   if (!added) return rule;
-  return { key: rule.key, columns: Object.fromEntries(Object.entries(rule.columns).filter(([column]) => !Object.hasOwn(added, column))) };
+  return {
+    key: rule.key,
+    columns: Object.fromEntries(Object.entries(rule.columns).filter(([column]) => !Object.hasOwn(added, column))),
+  };
 }
 
 /** Tables whose id is unique across the whole database, not only within the organisation. */

@@ -24,7 +24,11 @@ import {
  * PostgreSQL) and checked exactly as an import would check it, so a source
  * whose audit chain or frozen baselines no longer verify is not exported.
  */
-export async function exportOrganisation(db: Kysely<Database>, organisationId: string, exportedAt: string): Promise<ExportDocument> {
+export async function exportOrganisation(
+  db: Kysely<Database>,
+  organisationId: string,
+  exportedAt: string,
+): Promise<ExportDocument> {
   const document = await readSnapshot(db, (trx) => readOrganisation(trx, organisationId, exportedAt));
   try {
     return checkDocument(document);
@@ -35,32 +39,64 @@ export async function exportOrganisation(db: Kysely<Database>, organisationId: s
   }
 }
 
-async function readOrganisation(trx: Transaction<Database>, organisationId: string, exportedAt: string): Promise<ExportDocument> {
-  const organisation = await trx.selectFrom('organisations').selectAll().where('id', '=', organisationId).executeTakeFirst();
+async function readOrganisation(
+  trx: Transaction<Database>,
+  organisationId: string,
+  exportedAt: string,
+): Promise<ExportDocument> {
+  const organisation = await trx
+    .selectFrom('organisations')
+    .selectAll()
+    .where('id', '=', organisationId)
+    .executeTakeFirst();
   if (!organisation) throw new TransferInputError(`no organisation ${organisationId}`);
   const stations = trx.selectFrom('weather_stations').select('id').where('organisation_id', '=', organisationId);
   const meters = trx.selectFrom('meters').select('id').where('organisation_id', '=', organisationId);
   const raw: Record<TransferTable, unknown[]> = {
     api_keys: await trx.selectFrom('api_keys').selectAll().where('organisation_id', '=', organisationId).execute(),
-    weather_stations: await trx.selectFrom('weather_stations').selectAll().where('organisation_id', '=', organisationId).execute(),
-    weather_observations: await trx.selectFrom('weather_observations').selectAll().where('station_id', 'in', stations).execute(),
+    weather_stations: await trx
+      .selectFrom('weather_stations')
+      .selectAll()
+      .where('organisation_id', '=', organisationId)
+      .execute(),
+    weather_observations: await trx
+      .selectFrom('weather_observations')
+      .selectAll()
+      .where('station_id', 'in', stations)
+      .execute(),
     facilities: await trx.selectFrom('facilities').selectAll().where('organisation_id', '=', organisationId).execute(),
     meters: await trx.selectFrom('meters').selectAll().where('organisation_id', '=', organisationId).execute(),
     readings: await trx.selectFrom('readings').selectAll().where('meter_id', 'in', meters).execute(),
     normal_years: await trx.selectFrom('normal_years').selectAll().where('station_id', 'in', stations).execute(),
     contracts: await trx.selectFrom('contracts').selectAll().where('organisation_id', '=', organisationId).execute(),
     rates: await trx.selectFrom('rates').selectAll().where('meter_id', 'in', meters).execute(),
-    adjustments: await trx.selectFrom('adjustments').selectAll().where('organisation_id', '=', organisationId).execute(),
+    adjustments: await trx
+      .selectFrom('adjustments')
+      .selectAll()
+      .where('organisation_id', '=', organisationId)
+      .execute(),
     baselines: await trx.selectFrom('baselines').selectAll().where('organisation_id', '=', organisationId).execute(),
     statements: await trx.selectFrom('statements').selectAll().where('organisation_id', '=', organisationId).execute(),
-    statement_copies: await trx.selectFrom('statement_copies').selectAll().where('organisation_id', '=', organisationId).execute(),
+    statement_copies: await trx
+      .selectFrom('statement_copies')
+      .selectAll()
+      .where('organisation_id', '=', organisationId)
+      .execute(),
     variables: await trx.selectFrom('variables').selectAll().where('organisation_id', '=', organisationId).execute(),
     variable_values: await trx
       .selectFrom('variable_values')
       .selectAll()
-      .where('variable_id', 'in', trx.selectFrom('variables').select('id').where('organisation_id', '=', organisationId))
+      .where(
+        'variable_id',
+        'in',
+        trx.selectFrom('variables').select('id').where('organisation_id', '=', organisationId),
+      )
       .execute(),
-    facility_calendars: await trx.selectFrom('facility_calendars').selectAll().where('organisation_id', '=', organisationId).execute(),
+    facility_calendars: await trx
+      .selectFrom('facility_calendars')
+      .selectAll()
+      .where('organisation_id', '=', organisationId)
+      .execute(),
     audit_log: await trx.selectFrom('audit_log').selectAll().where('organisation_id', '=', organisationId).execute(),
   };
   const tables = {} as Record<TransferTable, ExportRow[]>;

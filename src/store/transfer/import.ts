@@ -112,7 +112,9 @@ async function checkTarget(trx: Transaction<Database>, document: ExportDocument)
     );
   for (const row of baselines) {
     if (mustVerify(row as unknown as ExportRow) && !verifyBaselineContent(row)) {
-      throw new Error(`after the import baseline ${row.id} in the target does not match its content hash; nothing was stored`);
+      throw new Error(
+        `after the import baseline ${row.id} in the target does not match its content hash; nothing was stored`,
+      );
     }
   }
 }

@@ -50,7 +50,10 @@ export function firstRuleBroken(tables: {
     end: String(row.period_end),
     quantity: row.quantity as number,
   }));
-  const readingProblem = firstProblem('readings', readings, checkReadings, { start: 'period_start', end: 'period_end' });
+  const readingProblem = firstProblem('readings', readings, checkReadings, {
+    start: 'period_start',
+    end: 'period_end',
+  });
   if (readingProblem) return readingProblem;
   const rates = perMeter(tables.rates, (row) => ({
     from: String(row.effective_from),
@@ -58,10 +61,15 @@ export function firstRuleBroken(tables: {
     price: row.price as number,
     escalation: row.escalation as number,
   }));
-  return firstProblem('rates', rates, (entries: RateEntry[]) => [...checkRateSchedule(entries), ...checkRateBounds(entries)], {
-    from: 'effective_from',
-    to: 'effective_to',
-  });
+  return firstProblem(
+    'rates',
+    rates,
+    (entries: RateEntry[]) => [...checkRateSchedule(entries), ...checkRateBounds(entries)],
+    {
+      from: 'effective_from',
+      to: 'effective_to',
+    },
+  );
 }
 
 const COLUMN_OF = {
@@ -92,7 +100,8 @@ function firstProblem<T>(
 ): string | null {
   for (const { items, indexes } of groups.values()) {
     const problem = check(items).sort((a, b) => a.index - b.index)[0];
-    if (problem) return `tables.${table}[${indexes[problem.index]}].${columns[problem.field] ?? problem.field}: ${problem.message}`;
+    if (problem)
+      return `tables.${table}[${indexes[problem.index]}].${columns[problem.field] ?? problem.field}: ${problem.message}`;
   }
   return null;
 }
@@ -113,14 +122,16 @@ function firstVariableValueBroken(variables: readonly Row[], values: readonly Ro
     const start = String(row.period_start);
     const end = String(row.period_end);
     if (parseIsoDate(start) === null) return `${path}.period_start: not a calendar date: ${start}`;
-    if (parseIsoDate(end) === null || !(end > start)) return `${path}.period_end: must be a calendar date after period_start (${start})`;
+    if (parseIsoDate(end) === null || !(end > start))
+      return `${path}.period_end: must be a calendar date after period_start (${start})`;
     if (kinds.get(row.variable_id!) === 'daily' && addDays(start, 1) !== end)
       return `${path}.period_end: a daily variable's value covers one day`;
     const value = row.value as number;
     if (!Number.isFinite(value) || Math.abs(value) > MAX_VARIABLE_MAGNITUDE)
       return `${path}.value: not a finite number within ±${MAX_VARIABLE_MAGNITUDE}`;
     const previous = lastEnd.get(row.variable_id!);
-    if (previous !== undefined && start < previous) return `${path}.period_start: overlaps another value of variable ${row.variable_id}`;
+    if (previous !== undefined && start < previous)
+      return `${path}.period_start: overlaps another value of variable ${row.variable_id}`;
     lastEnd.set(row.variable_id!, end);
   }
   return null;

@@ -79,7 +79,13 @@ function meterYear(
   seed: number,
   form: TemperatureForm,
 ): MeterYear | null {
-  const study = simulateMeterStudy({ archetype, climate: INVENTED_CLIMATES[climate], noise, design: TWO_YEARS_THEN_ONE, seed });
+  const study = simulateMeterStudy({
+    archetype,
+    climate: INVENTED_CLIMATES[climate],
+    noise,
+    design: TWO_YEARS_THEN_ONE,
+    seed,
+  });
   let analysis;
   try {
     analysis = baselineInForm(study.baseline, study.weather, form);
@@ -184,10 +190,12 @@ export function pooledRows(rows: readonly FalseSavingsRow[]): Omit<FalseSavingsR
   return keys.map((key) => {
     const part = rows.filter((r) => `${r.noise}|${r.form}` === key);
     const meters = part.reduce((sum, r) => sum + r.meters, 0);
-    const weighted = (value: (r: FalseSavingsRow) => number): number => part.reduce((sum, r) => sum + r.meters * value(r), 0) / meters;
+    const weighted = (value: (r: FalseSavingsRow) => number): number =>
+      part.reduce((sum, r) => sum + r.meters * value(r), 0) / meters;
     const selected: Partial<Record<ModelName, number>> = {};
     for (const r of part)
-      for (const [model, count] of Object.entries(r.selected) as [ModelName, number][]) selected[model] = (selected[model] ?? 0) + count;
+      for (const [model, count] of Object.entries(r.selected) as [ModelName, number][])
+        selected[model] = (selected[model] ?? 0) + count;
     return {
       group: 'all groups',
       noise: part[0]!.noise,

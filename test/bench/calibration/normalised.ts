@@ -79,10 +79,18 @@ export function normalisedWithoutRetrofit(settings: NormalisedSettings): Normali
           const result = normalisedSavings(fit, study.reporting, study.weather, normalYear, options);
           if (result.available && result.fractionSaved !== null) {
             fractions.push(result.fractionSaved);
-            const at90 = normalisedSavings(fit, study.reporting, study.weather, normalYear, { ...options, confidence: 0.9 });
+            const at90 = normalisedSavings(fit, study.reporting, study.weather, normalYear, {
+              ...options,
+              confidence: 0.9,
+            });
             const band = (r: typeof result): number =>
-              r.available && 'uncertainty' in r ? (r as { uncertainty: { absolute: number } }).uncertainty.absolute : Number.NaN;
-            covered.push({ at68: Math.abs(result.savings) <= band(result), at90: at90.available && Math.abs(at90.savings) <= band(at90) });
+              r.available && 'uncertainty' in r
+                ? (r as { uncertainty: { absolute: number } }).uncertainty.absolute
+                : Number.NaN;
+            covered.push({
+              at68: Math.abs(result.savings) <= band(result),
+              at90: at90.available && Math.abs(at90.savings) <= band(at90),
+            });
           }
         }
         const { mean, standardError } = meanWithError(fractions);

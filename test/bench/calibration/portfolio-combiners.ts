@@ -27,7 +27,11 @@ export interface PortfolioMeterResult {
 export interface PortfolioCombiner {
   name: string;
   /** Half-width of the portfolio's savings band at `confidence`, from the meters' `formula` bands. */
-  halfWidth(meters: readonly PortfolioMeterResult[], confidence: PortfolioConfidence, formula: UncertaintyFormula): number;
+  halfWidth(
+    meters: readonly PortfolioMeterResult[],
+    confidence: PortfolioConfidence,
+    formula: UncertaintyFormula,
+  ): number;
 }
 
 /** The engine's roll-up: the meters' half-widths in quadrature, as if the meters were independent. */

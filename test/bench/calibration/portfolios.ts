@@ -21,7 +21,13 @@ import {
   type Archetype,
   type ClimateName,
 } from '../../support/simulation/index.js';
-import { FORMS, baselineInForm, savingsAt, selectedFit, type TemperatureForm } from '../../support/temperature-forms.js';
+import {
+  FORMS,
+  baselineInForm,
+  savingsAt,
+  selectedFit,
+  type TemperatureForm,
+} from '../../support/temperature-forms.js';
 import {
   PORTFOLIO_COMBINERS,
   PORTFOLIO_CONFIDENCES,
@@ -90,7 +96,10 @@ function meanPairwiseCorrelation(residuals: readonly (readonly number[])[]): num
   return pairs > 0 ? sum / pairs : Number.NaN;
 }
 
-function portfolioOutcome(meters: readonly PortfolioMeterResult[], combiners: readonly PortfolioCombiner[]): PortfolioOutcome {
+function portfolioOutcome(
+  meters: readonly PortfolioMeterResult[],
+  combiners: readonly PortfolioCombiner[],
+): PortfolioOutcome {
   const total = meters.reduce((sum, m) => sum + m.savings[0.68].totals.savings, 0);
   const outside: PortfolioOutcome['outside'] = {};
   const ratio68: PortfolioOutcome['ratio68'] = {};

@@ -55,7 +55,11 @@ export const WEATHER_FREE_DATA: readonly WeatherFreeData[] = [
   { label: 'daily, 1 year (365 readings)', design: () => ({ baseline: { days: 365 }, reporting: null }), daily: true },
   { label: 'daily, 2 years (730 readings)', design: () => ({ baseline: { days: 730 }, reporting: null }), daily: true },
   // 24 to 36 bills, evenly over the meters.
-  { label: 'bills, 24–36 of 28–33 days', design: (i) => ({ baseline: { bills: 24 + (i % 13) }, reporting: null }), daily: false },
+  {
+    label: 'bills, 24–36 of 28–33 days',
+    design: (i) => ({ baseline: { bills: 24 + (i % 13) }, reporting: null }),
+    daily: false,
+  },
 ];
 
 export interface WeatherFreeRow {
@@ -112,7 +116,9 @@ export function weatherFreeChoice(settings: WeatherFreeSettings): WeatherFreeRow
       );
       const forms: readonly (TemperatureForm | 'both')[] = data.daily ? ['both'] : FORMS;
       for (const form of forms) {
-        const analyses = studies.map((study) => baselineInForm(study.baseline, study.weather, form === 'both' ? 'daily' : form));
+        const analyses = studies.map((study) =>
+          baselineInForm(study.baseline, study.weather, form === 'both' ? 'daily' : form),
+        );
         const tests = analyses.map((analysis) => fTestsAgainstFlat(analysis, DEFAULT_SIGNIFICANCE_LEVEL));
         const fTestPasses: Partial<Record<ModelName, number>> = {};
         for (const model of WEATHER_SHAPES) fTestPasses[model] = share(tests, (t) => t[model] === true);
@@ -226,7 +232,12 @@ export interface ChoiceTimingRow {
  * weather, fitting all six shapes, choosing) in each form, over a few
  * invented 5P meters in the continental climate, each timed call on its own.
  */
-export function choiceTiming(settings: { seed: number; meters: number; runsPerMeter: number; warmUp: number }): ChoiceTimingRow[] {
+export function choiceTiming(settings: {
+  seed: number;
+  meters: number;
+  runsPerMeter: number;
+  warmUp: number;
+}): ChoiceTimingRow[] {
   const studies = Array.from({ length: settings.meters }, (_, i) =>
     simulateMeterStudy({
       archetype: 'fivePoint',

@@ -1,7 +1,11 @@
 import { describe, it, expect } from 'vitest';
 import fc from 'fast-check';
 import { buildSortedSums } from '../../../src/engine/fit/sorted-sums.js';
-import { searchChangepoints, type ChangepointOptimum, type HingeShape } from '../../../src/engine/fit/changepoint-search.js';
+import {
+  searchChangepoints,
+  type ChangepointOptimum,
+  type HingeShape,
+} from '../../../src/engine/fit/changepoint-search.js';
 import { weightedLeastSquares } from '../../../src/engine/fit/wls.js';
 import { designRow } from '../../../src/engine/fit/shape-model.js';
 import { gridSearch, type GridOptimum } from '../../support/grid-search.js';
@@ -33,7 +37,13 @@ function tolerance(reference: number, scale: number): number {
   return 1e-9 * Math.abs(reference) + 1e-12 * scale;
 }
 
-function exactOptimum(shape: HingeShape, x: number[], y: number[], w: number[], minPoints: number): ChangepointOptimum | null {
+function exactOptimum(
+  shape: HingeShape,
+  x: number[],
+  y: number[],
+  w: number[],
+  minPoints: number,
+): ChangepointOptimum | null {
   return searchChangepoints(buildSortedSums(x, y, w), shape, minPoints);
 }
 
@@ -77,7 +87,11 @@ interface RandomDataset {
  * 1–31, and use per day from a random hinge model (slopes of either sign,
  * changepoints sometimes on a data point) plus scaled noise, or pure noise.
  */
-function datasetArbitrary(shape: HingeShape, unitsPerDegree: number, maxSpanDegrees: number): fc.Arbitrary<RandomDataset> {
+function datasetArbitrary(
+  shape: HingeShape,
+  unitsPerDegree: number,
+  maxSpanDegrees: number,
+): fc.Arbitrary<RandomDataset> {
   const top = 100 * unitsPerDegree;
   return fc
     .record({
@@ -115,7 +129,9 @@ function datasetArbitrary(shape: HingeShape, unitsPerDegree: number, maxSpanDegr
         const signal =
           kind === 'pure-noise'
             ? base
-            : base + (cH === null ? 0 : slopeH * Math.max(cH - v, 0)) + (cC === null ? 0 : slopeC * Math.max(v - cC, 0));
+            : base +
+              (cH === null ? 0 : slopeH * Math.max(cH - v, 0)) +
+              (cC === null ? 0 : slopeC * Math.max(v - cC, 0));
         return signal + noise * random.normal();
       });
       return { units, unitsPerDegree, x, y, w, minPoints };
@@ -150,7 +166,8 @@ function fivePointGrid(
         y,
         w,
       )?.sse;
-      if (sse !== undefined && Number.isFinite(sse) && (!best || sse < best.sse)) best = { heating: cH, cooling: cC, sse };
+      if (sse !== undefined && Number.isFinite(sse) && (!best || sse < best.sse))
+        best = { heating: cH, cooling: cC, sse };
     }
   }
   return best;
@@ -163,7 +180,9 @@ function checkAgainstGrid(shape: HingeShape, data: RandomDataset, gridPerDegree:
   const grid = gridFromUnits(Math.min(...units) * factor, Math.max(...units) * factor, gridPerDegree);
   const exact = exactOptimum(shape, x, y, w, minPoints);
   const reference =
-    shape === '5P' ? fivePointGrid(x, y, w, grid, minPoints) : finiteGrid(gridSearch(shape, x, y, w, 1 / gridPerDegree, minPoints, grid));
+    shape === '5P'
+      ? fivePointGrid(x, y, w, grid, minPoints)
+      : finiteGrid(gridSearch(shape, x, y, w, 1 / gridPerDegree, minPoints, grid));
   if (exact === null) {
     expect(reference, 'grid found a feasible point where the exact search found none').toBeNull();
     return { onGrid: false };
@@ -172,7 +191,10 @@ function checkAgainstGrid(shape: HingeShape, data: RandomDataset, gridPerDegree:
   const gridSse = reference!.sse;
   expect(exact.sse, `exact ${exact.sse} vs grid ${gridSse}`).toBeLessThanOrEqual(gridSse + tolerance(gridSse, scale));
   const onGrid = isOnGrid(exact.heatingChangepoint, gridPerDegree) && isOnGrid(exact.coolingChangepoint, gridPerDegree);
-  if (onGrid) expect(Math.abs(exact.sse - gridSse), `exact ${exact.sse} vs grid ${gridSse}`).toBeLessThanOrEqual(tolerance(gridSse, scale));
+  if (onGrid)
+    expect(Math.abs(exact.sse - gridSse), `exact ${exact.sse} vs grid ${gridSse}`).toBeLessThanOrEqual(
+      tolerance(gridSse, scale),
+    );
   return { onGrid };
 }
 
@@ -232,7 +254,9 @@ interface Truth {
  * strictly inside each region (below cH, between, above cC), so the hinge is
  * the only zero-SSE fit.
  */
-function noiselessArbitrary(shape: HingeShape): fc.Arbitrary<{ x: number[]; y: number[]; w: number[]; truth: Truth; minPoints: number }> {
+function noiselessArbitrary(
+  shape: HingeShape,
+): fc.Arbitrary<{ x: number[]; y: number[]; w: number[]; truth: Truth; minPoints: number }> {
   return fc
     .record({
       c1: fc.integer({ min: 200, max: 500 }),
@@ -251,7 +275,8 @@ function noiselessArbitrary(shape: HingeShape): fc.Arbitrary<{ x: number[]; y: n
       const distinct = (from: number, to: number): number[] => {
         // `perRegion` distinct tenths strictly between from and to (in tenths).
         const values = new Set<number>();
-        while (values.size < Math.min(perRegion, to - from - 1)) values.add(from + 1 + random.integer(0, to - from - 2));
+        while (values.size < Math.min(perRegion, to - from - 1))
+          values.add(from + 1 + random.integer(0, to - from - 2));
         return [...values].map((t) => t / 10);
       };
       const lowEdge = Math.max(0, c1 - 200);
@@ -264,7 +289,9 @@ function noiselessArbitrary(shape: HingeShape): fc.Arbitrary<{ x: number[]; y: n
         [x[i], x[j]] = [x[j]!, x[i]!];
       }
       // 4P needs a bend: falling below (heating) and rising above (cooling) is the physical case.
-      const y = x.map((v) => base + (cH === null ? 0 : rateH * Math.max(cH - v, 0)) + (cC === null ? 0 : rateC * Math.max(v - cC, 0)));
+      const y = x.map(
+        (v) => base + (cH === null ? 0 : rateH * Math.max(cH - v, 0)) + (cC === null ? 0 : rateC * Math.max(v - cC, 0)),
+      );
       const w = x.map(() => random.integer(1, 31));
       return { x, y, w, truth: { heating: cH, cooling: cC }, minPoints };
     });
@@ -345,8 +372,12 @@ describe('feasibility: every segment keeps minPoints points, a point on a change
         const low = exact.heatingChangepoint ?? exact.coolingChangepoint!;
         const high = exact.coolingChangepoint ?? exact.heatingChangepoint!;
         const eps = 1e-9; // the search works in centred units, so a changepoint on a point may be off by rounding
-        expect(x.filter((v) => v <= low + eps).length, `${shape} k=${minPoints} lower`).toBeGreaterThanOrEqual(minPoints);
-        expect(x.filter((v) => v >= high - eps).length, `${shape} k=${minPoints} upper`).toBeGreaterThanOrEqual(minPoints);
+        expect(x.filter((v) => v <= low + eps).length, `${shape} k=${minPoints} lower`).toBeGreaterThanOrEqual(
+          minPoints,
+        );
+        expect(x.filter((v) => v >= high - eps).length, `${shape} k=${minPoints} upper`).toBeGreaterThanOrEqual(
+          minPoints,
+        );
         if (shape === '5P') {
           expect(x.filter((v) => v >= low - eps && v <= high + eps).length).toBeGreaterThanOrEqual(minPoints);
         }

@@ -112,7 +112,11 @@ describe('what every shape reports', () => {
   it('segment counts of a 5P fit with changepoints inside gaps (hand-worked)', () => {
     // synthetic: 100 + 4·(49 − x)₊ + 6·(x − 71)₊: changepoints 49 and 71 fall between data points.
     const temps = [30, 35, 40, 45, 50, 55, 60, 65, 70, 75, 80, 85];
-    const points = temps.map((temp) => ({ temp, usePerDay: 100 + 4 * Math.max(49 - temp, 0) + 6 * Math.max(temp - 71, 0), days: 30 }));
+    const points = temps.map((temp) => ({
+      temp,
+      usePerDay: 100 + 4 * Math.max(49 - temp, 0) + 6 * Math.max(temp - 71, 0),
+      days: 30,
+    }));
     const fit = fitted(fitShape(periodsFromPoints(points), '5P', 3));
     expect(fit.changepoints.heating).toBeCloseTo(49, 8);
     expect(fit.changepoints.cooling).toBeCloseTo(71, 8);
@@ -126,7 +130,9 @@ describe('what every shape reports', () => {
     expect(result.ok).toBe(false);
     if (!result.ok) expect(result.reason).toBe('needs more than 3 periods, has 3');
 
-    const flatTemps = periodsFromPoints([50, 50, 50, 50, 50].map((temp, i) => ({ temp, usePerDay: 100 + i, days: 30 })));
+    const flatTemps = periodsFromPoints(
+      [50, 50, 50, 50, 50].map((temp, i) => ({ temp, usePerDay: 100 + i, days: 30 })),
+    );
     const line = fitShape(flatTemps, '2P', 1);
     expect(line.ok).toBe(false);
     if (!line.ok) expect(line.reason).toMatch(/singular/);
@@ -198,7 +204,9 @@ describe('Guideline 14 statistics on hand-worked examples', () => {
   it('positively autocorrelated residuals give ρ > 0 and DW < 2 (hand-worked)', () => {
     // A 1P on equal-day periods with use 10, 10, 10, 14, 14, 14 (mean 12): residuals
     // −2, −2, −2, 2, 2, 2 per day (days 1). ρ = (4 + 4 − 4 + 4 + 4)/24 = 0.5; DW = 16/24 = 0.666…
-    const periods = periodsFromPoints([10, 10, 10, 14, 14, 14].map((usePerDay, i) => ({ temp: 40 + i, usePerDay, days: 1 })));
+    const periods = periodsFromPoints(
+      [10, 10, 10, 14, 14, 14].map((usePerDay, i) => ({ temp: 40 + i, usePerDay, days: 1 })),
+    );
     const fit = fitted(fitShape(periods, '1P', 3));
     expect(fit.stats.autocorrelation).toBeCloseTo(0.5, 12);
     expect(fit.stats.durbinWatson).toBeCloseTo(2 / 3, 12);
@@ -271,7 +279,9 @@ describe('a changepoint on a data point keeps that point in its segment count', 
     // found by random search (synthetic data); hand-checked counts above
     const temps = [84.3, 56.2, 15.9, 11, 50.8, 15];
     const uses = [104, 93, 104, 96, 90, 109];
-    const fit = fitted(fitShape(periodsFromPoints(temps.map((temp, i) => ({ temp, usePerDay: uses[i]!, days: 30 }))), '3PC', 3));
+    const fit = fitted(
+      fitShape(periodsFromPoints(temps.map((temp, i) => ({ temp, usePerDay: uses[i]!, days: 30 }))), '3PC', 3),
+    );
     expect(fit.changepoints.cooling).toBe(15.9);
     expect(fit.segmentCounts.flat).toBe(3);
   });

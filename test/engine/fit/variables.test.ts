@@ -36,7 +36,9 @@ interface VariableCase {
   partialF: { variable: string; f: number; pValue: number; dfDiff: number }[];
 }
 
-const fixture = JSON.parse(readFileSync(new URL('../../reference/variables-fixtures.json', import.meta.url), 'utf8')) as {
+const fixture = JSON.parse(
+  readFileSync(new URL('../../reference/variables-fixtures.json', import.meta.url), 'utf8'),
+) as {
   cases: VariableCase[];
 };
 
@@ -117,7 +119,8 @@ function billsWithVariables(seed: number, count: number): Period[] {
     const production = 80 + random.uniform() * 60;
     const heating = temps.reduce((s, t) => s + Math.max(55 - t, 0), 0) / length;
     const cooling = temps.reduce((s, t) => s + Math.max(t - 68, 0), 0) / length;
-    const usePerDay = 250 + 9 * heating + 13 * cooling + 200 * occupied + 1.5 * production + (random.uniform() - 0.5) * 30;
+    const usePerDay =
+      250 + 9 * heating + 13 * cooling + 200 * occupied + 1.5 * production + (random.uniform() - 0.5) * 30;
     periods.push({
       start: date(day),
       end: date(day + length),

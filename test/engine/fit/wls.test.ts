@@ -41,12 +41,22 @@ const TOLERANCE = 1e-9;
 
 describe('weightedLeastSquares against statsmodels WLS (reference library: test/reference/make-wls-fixtures.py)', () => {
   it('fixture holds the expected datasets', () => {
-    expect(fixture.datasets.map((d) => d.name)).toEqual(['monthly-hinge', 'monthly-hinge-cp-dof', 'monthly-line', 'daily-hinge']);
+    expect(fixture.datasets.map((d) => d.name)).toEqual([
+      'monthly-hinge',
+      'monthly-hinge-cp-dof',
+      'monthly-line',
+      'daily-hinge',
+    ]);
   });
 
   for (const dataset of fixture.datasets) {
     describe(dataset.name, () => {
-      const result = weightedLeastSquares(dataset.design, dataset.y, dataset.weights, dataset.dfResidOverride ?? undefined);
+      const result = weightedLeastSquares(
+        dataset.design,
+        dataset.y,
+        dataset.weights,
+        dataset.dfResidOverride ?? undefined,
+      );
 
       it('fits (design has full rank)', () => {
         expect(result).not.toBeNull();

@@ -14,7 +14,8 @@ function plainSandwich(design: number[][], weights: number[], rho: number): numb
     Array.from({ length: k }, (_, b) => {
       let sum = 0;
       for (let t = 0; t < n; t++)
-        for (let s = 0; s < n; s++) sum += rho ** Math.abs(t - s) * Math.sqrt(weights[t]! * weights[s]!) * design[t]![a]! * design[s]![b]!;
+        for (let s = 0; s < n; s++)
+          sum += rho ** Math.abs(t - s) * Math.sqrt(weights[t]! * weights[s]!) * design[t]![a]! * design[s]![b]!;
       return sum;
     }),
   );
@@ -46,7 +47,11 @@ describe('ar1VarianceInflation', () => {
 
   it('agrees with the sandwich built element by element, weighted rows and all (reference: the definition)', () => {
     const random = seededRandom(4);
-    const design = Array.from({ length: 30 }, (_, t) => [1, 40 + 20 * Math.sin(t / 5) + random.normal(), Math.max(0, 55 - (40 + t))]);
+    const design = Array.from({ length: 30 }, (_, t) => [
+      1,
+      40 + 20 * Math.sin(t / 5) + random.normal(),
+      Math.max(0, 55 - (40 + t)),
+    ]);
     const weights = Array.from({ length: 30 }, () => 28 + Math.floor(6 * random.uniform()));
     for (const rho of [0.2, 0.6, 0.9]) {
       const fast = ar1VarianceInflation(design, weights, rho);

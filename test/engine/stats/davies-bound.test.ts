@@ -34,7 +34,9 @@ describe('searchedChangepointPValue (Davies 1987)', () => {
     let rejectedNaive = 0;
     const replicates = 2000;
     for (let r = 0; r < replicates; r++) {
-      const periods = periodsFromPoints(temps.map((temp) => ({ temp, usePerDay: 100 + 10 * random.normal(), days: 30 })));
+      const periods = periodsFromPoints(
+        temps.map((temp) => ({ temp, usePerDay: 100 + 10 * random.normal(), days: 30 })),
+      );
       const days = billDaysForForm(periods, 'mean');
       const profile = hingeProfile(days, 'heating', null, bothSidesFeasible(days, 3));
       const df2 = 24 - 3;

@@ -12,7 +12,10 @@ const fixture = JSON.parse(readFileSync(new URL('../../reference/wls-fixtures.js
 };
 
 function expectRelativelyClose(actual: number, expected: number, tolerance: number): void {
-  expect(Math.abs(actual - expected) / Math.abs(expected), `actual ${actual}, expected ${expected}`).toBeLessThanOrEqual(tolerance);
+  expect(
+    Math.abs(actual - expected) / Math.abs(expected),
+    `actual ${actual}, expected ${expected}`,
+  ).toBeLessThanOrEqual(tolerance);
 }
 
 // NIST/SEMATECH e-Handbook of Statistical Methods, section 1.3.6.7.2, "Critical

@@ -19,7 +19,11 @@ describe('outOfSampleFit', () => {
   it('equals refitting without each block from scratch (reference: weightedLeastSquares on the rest)', () => {
     const random = seededRandom(12);
     const n = 40;
-    const design = Array.from({ length: n }, (_, i) => [1, Math.max(0, 55 - (20 + i * 1.5)), Math.max(0, 20 + i * 1.5 - 65)]);
+    const design = Array.from({ length: n }, (_, i) => [
+      1,
+      Math.max(0, 55 - (20 + i * 1.5)),
+      Math.max(0, 20 + i * 1.5 - 65),
+    ]);
     const days = Array.from({ length: n }, () => 28 + Math.floor(6 * random.uniform()));
     const usePerDay = design.map((row) => 300 + 8 * row[1]! + 10 * row[2]! + 15 * random.normal());
     const quantity = usePerDay.map((u, i) => u * days[i]!);

@@ -92,11 +92,20 @@ describe('exactSavingsVariance against statsmodels (reference library: test/refe
       });
 
       it('end to end: the engine fit feeds the same variance', () => {
-        const fit = weightedLeastSquares(dataset.design, dataset.y, dataset.weights, dataset.dfResidOverride ?? undefined)!;
+        const fit = weightedLeastSquares(
+          dataset.design,
+          dataset.y,
+          dataset.weights,
+          dataset.dfResidOverride ?? undefined,
+        )!;
         const last = dataset.multiPeriodVariances[dataset.multiPeriodVariances.length - 1]!;
         const rows = last.rows.map((i) => dataset.reportingRows[i]!);
         // statsmodels cov_params and scale, combined in the fixture script
-        expectRelativelyClose(exactSavingsVariance(fit.unscaledCovariance, fit.residualVariance, rows), last.variance, 1e-9);
+        expectRelativelyClose(
+          exactSavingsVariance(fit.unscaledCovariance, fit.residualVariance, rows),
+          last.variance,
+          1e-9,
+        );
       });
     });
   }
@@ -111,7 +120,11 @@ describe('exactSavingsVariance: hand-worked properties', () => {
     // hand-worked: Var(S) carries n/n′ as a plain factor
     expectRelativelyClose(exactSavingsVariance(dataset.normalizedCovParams, dataset.scale, rows, 2), 2 * base, 1e-14);
     expectRelativelyClose(exactSavingsVariance(dataset.normalizedCovParams, dataset.scale, rows, 3), 3 * base, 1e-14);
-    expectRelativelyClose(exactSavingsVariance(dataset.normalizedCovParams, dataset.scale, rows, 36 / 12), 3 * base, 1e-14);
+    expectRelativelyClose(
+      exactSavingsVariance(dataset.normalizedCovParams, dataset.scale, rows, 36 / 12),
+      3 * base,
+      1e-14,
+    );
   });
 
   it('tiny case by hand', () => {
@@ -154,13 +167,27 @@ describe('guideline14FractionalUncertainty (ASHRAE Guideline 14 Annex B form)', 
   it('round-number case: t = 1.5, CV = 0.2, n = n′ = 18, m = 10, F = 0.1 → 1.26', () => {
     // Hand-worked: (1 + 2/18)·(1/10) = (10/9)/10 = 1/9, sqrt = 1/3;
     //   1.5 · 1.26 · 0.2 · (1/3) = 0.126; ÷ 0.1 = 1.26
-    const value = guideline14FractionalUncertainty({ t: 1.5, cvrmse: 0.2, n: 18, nPrime: 18, m: 10, fractionSaved: 0.1 });
+    const value = guideline14FractionalUncertainty({
+      t: 1.5,
+      cvrmse: 0.2,
+      n: 18,
+      nPrime: 18,
+      m: 10,
+      fractionSaved: 0.1,
+    });
     expect(value).toBeCloseTo(1.26, 12); // hand-worked
   });
 
   it('autocorrelation: n′ = n/4 doubles the uncertainty; a negative saving gives a positive uncertainty', () => {
     // Hand-worked: n/n′ = 4 → sqrt(4 · 1/9) = 2/3, twice the 1/3 above → 2.52
-    const value = guideline14FractionalUncertainty({ t: 1.5, cvrmse: 0.2, n: 18, nPrime: 4.5, m: 10, fractionSaved: -0.1 });
+    const value = guideline14FractionalUncertainty({
+      t: 1.5,
+      cvrmse: 0.2,
+      n: 18,
+      nPrime: 4.5,
+      m: 10,
+      fractionSaved: -0.1,
+    });
     expect(value).toBeCloseTo(2.52, 12); // hand-worked
   });
 });

@@ -31,7 +31,8 @@ describe.skipIf(!available)('the HTML report in headless Chromium', () => {
     browser = await launchBrowser();
     page = await browser.newPage({ viewport: { width: 1100, height: 900 } });
     page.on('console', (message) => {
-      if (message.type() === 'error' || message.type() === 'warning') problems.push(`${message.type()}: ${message.text()}`);
+      if (message.type() === 'error' || message.type() === 'warning')
+        problems.push(`${message.type()}: ${message.text()}`);
     });
     page.on('pageerror', (error) => problems.push(`page error: ${error.message}`));
     page.on('request', (request) => requests.push(request.url()));
@@ -57,7 +58,9 @@ describe.skipIf(!available)('the HTML report in headless Chromium', () => {
   it('draws every chart with a nonzero box', async () => {
     const charts = page.locator('figure.chart svg');
     const guarantees = SAMPLE_REPORT.facilities.reduce((n, f) => n + f.guarantees.length, 0);
-    const metersWithFigures = SAMPLE_REPORT.facilities.flatMap((f) => f.meters).filter((m) => m.missing === null).length;
+    const metersWithFigures = SAMPLE_REPORT.facilities
+      .flatMap((f) => f.meters)
+      .filter((m) => m.missing === null).length;
     expect(await charts.count()).toBe(guarantees + 3 * metersWithFigures);
     for (let i = 0; i < (await charts.count()); i++) {
       const box = await charts.nth(i).boundingBox();

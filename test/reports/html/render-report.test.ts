@@ -109,7 +109,9 @@ describe('renderReportHtml', () => {
   });
 
   it('shows each facility guarantee with its cumulative chart, and "year not complete" for a partial year', () => {
-    expect(count(html, 'data-figure="guarantee-cumulative"')).toBe(report.facilities.reduce((n, f) => n + f.guarantees.length, 0));
+    expect(count(html, 'data-figure="guarantee-cumulative"')).toBe(
+      report.facilities.reduce((n, f) => n + f.guarantees.length, 0),
+    );
     const hall = elementAt(html, `<section class="facility" id="facility-${IDS.hall}"`, 'section');
     expect(hall).toContain('Year not complete'); // synthetic: the hall's year 1 runs to 2026-10-01
     expect(hall).toContain('Behind so far (year not complete)');
@@ -127,7 +129,9 @@ describe('renderReportHtml', () => {
     }
     expect(html).not.toContain(HOSTILE_REASON);
     // common practice: the five XML/HTML special characters as entities.
-    expect(html).toContain('Temporary &lt;script&gt;alert(&quot;x&quot;)&lt;/script&gt; server room &amp; &#39;overflow&#39; racks added');
+    expect(html).toContain(
+      'Temporary &lt;script&gt;alert(&quot;x&quot;)&lt;/script&gt; server room &amp; &#39;overflow&#39; racks added',
+    );
   });
 
   it('escapes names and shows the reason for a meter without figures', () => {

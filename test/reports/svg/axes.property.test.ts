@@ -12,7 +12,14 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { axisFraction, axisScale, finiteExtent, MAX_TICKS, tickLabel, type AxisScale } from '../../../src/reports/svg/ticks.js';
+import {
+  axisFraction,
+  axisScale,
+  finiteExtent,
+  MAX_TICKS,
+  tickLabel,
+  type AxisScale,
+} from '../../../src/reports/svg/ticks.js';
 import { dateTicks, MAX_DATE_TICKS } from '../../../src/reports/svg/date-axis.js';
 import { coord } from '../../../src/reports/svg/xml.js';
 import { renderSignatureSvg } from '../../../src/reports/svg/signature.js';
@@ -80,8 +87,20 @@ function checkScale(scale: AxisScale, low: number, high: number): void {
 
 describe('axisScale over the whole double range', () => {
   it('keeps the hand-worked round axes of ordinary data', () => {
-    expect(axisScale(31.2, 88.9)).toMatchObject({ min: 20, max: 100, step: 20, ticks: [20, 40, 60, 80, 100], decimals: 0 }); // hand-worked
-    expect(axisScale(0, 2.4)).toMatchObject({ min: 0, max: 2.5, step: 0.5, ticks: [0, 0.5, 1, 1.5, 2, 2.5], decimals: 1 }); // hand-worked: 2.4/5 = 0.48 → 0.5
+    expect(axisScale(31.2, 88.9)).toMatchObject({
+      min: 20,
+      max: 100,
+      step: 20,
+      ticks: [20, 40, 60, 80, 100],
+      decimals: 0,
+    }); // hand-worked
+    expect(axisScale(0, 2.4)).toMatchObject({
+      min: 0,
+      max: 2.5,
+      step: 0.5,
+      ticks: [0, 0.5, 1, 1.5, 2, 2.5],
+      decimals: 1,
+    }); // hand-worked: 2.4/5 = 0.48 → 0.5
     expect(axisScale(0, 11)).toMatchObject({ step: 2.5, ticks: [0, 2.5, 5, 7.5, 10, 12.5], decimals: 1 }); // hand-worked: 11/5 = 2.2 → 2.5
   });
 
@@ -93,9 +112,14 @@ describe('axisScale over the whole double range', () => {
 
   it('gives a bounded, finite axis for any two doubles and any tick target', () => {
     fc.assert(
-      fc.property(anyDouble, anyDouble, fc.oneof(fc.constant(6), fc.integer({ min: -5, max: 1000 }), fc.double()), (a, b, target) => {
-        checkScale(axisScale(a, b, target), a, b);
-      }),
+      fc.property(
+        anyDouble,
+        anyDouble,
+        fc.oneof(fc.constant(6), fc.integer({ min: -5, max: 1000 }), fc.double()),
+        (a, b, target) => {
+          checkScale(axisScale(a, b, target), a, b);
+        },
+      ),
       { seed: SEED, numRuns: 1500 },
     );
   });
@@ -127,16 +151,21 @@ describe('axisScale over the whole double range', () => {
 describe('dateTicks over the whole double range', () => {
   it('gives at most MAX_DATE_TICKS month starts inside the span, for any two doubles', () => {
     fc.assert(
-      fc.property(anyDouble, anyDouble, fc.oneof(fc.constant(7), fc.integer({ min: -5, max: 1000 }), fc.double()), (start, end, target) => {
-        const ticks = dateTicks(start, end, target);
-        expect(ticks.length).toBeLessThanOrEqual(MAX_DATE_TICKS);
-        for (const tick of ticks) {
-          expect(Number.isInteger(tick.day)).toBe(true);
-          expect(tick.day).toBeGreaterThanOrEqual(start);
-          expect(tick.day).toBeLessThanOrEqual(end);
-          expect(tick.label).toMatch(/^[A-Z][a-z]{2}( \d{4})?$/);
-        }
-      }),
+      fc.property(
+        anyDouble,
+        anyDouble,
+        fc.oneof(fc.constant(7), fc.integer({ min: -5, max: 1000 }), fc.double()),
+        (start, end, target) => {
+          const ticks = dateTicks(start, end, target);
+          expect(ticks.length).toBeLessThanOrEqual(MAX_DATE_TICKS);
+          for (const tick of ticks) {
+            expect(Number.isInteger(tick.day)).toBe(true);
+            expect(tick.day).toBeGreaterThanOrEqual(start);
+            expect(tick.day).toBeLessThanOrEqual(end);
+            expect(tick.label).toMatch(/^[A-Z][a-z]{2}( \d{4})?$/);
+          }
+        },
+      ),
       { seed: SEED, numRuns: 1500 },
     );
   });

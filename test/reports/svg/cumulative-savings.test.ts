@@ -113,7 +113,11 @@ describe('date axis', () => {
 
   it('ticks every month across a quarter and starts at the next month start', () => {
     // hand-worked: 2026-01-15..2026-04-01 holds the month starts Feb, Mar, Apr.
-    expect(dateTicks(dayOf('2026-01-15')!, dayOf('2026-04-01')!).map((t) => t.label)).toEqual(['Feb 2026', 'Mar', 'Apr']);
+    expect(dateTicks(dayOf('2026-01-15')!, dayOf('2026-04-01')!).map((t) => t.label)).toEqual([
+      'Feb 2026',
+      'Mar',
+      'Apr',
+    ]);
     expect(dateTicks(10, 5)).toEqual([]);
   });
 

@@ -45,7 +45,14 @@ describe('fittedVertices', () => {
 describe('signatureChartPoints', () => {
   it('marks a bill straddling the changepoint above the line at its mean (hand-worked)', () => {
     // Days at 50 and 70: mean 60, where the line gives 20; the bill expects 20 + 6·mean(10, 0) = 50.
-    const bill: ChartPeriod = { start: '2030-01-01', end: '2030-01-03', days: 2, meanTemp: 60, usePerDay: 48, dayTemps: [50, 70] };
+    const bill: ChartPeriod = {
+      start: '2030-01-01',
+      end: '2030-01-03',
+      days: 2,
+      meanTemp: 60,
+      usePerDay: 48,
+      dayTemps: [50, 70],
+    };
     const series = signatureChartPoints(DAILY_3PH, [bill], [], 'F', 'therm');
     expect(series.temperatureForm).toBe('daily');
     expect(series.expected).toHaveLength(1);
@@ -55,8 +62,22 @@ describe('signatureChartPoints', () => {
   });
 
   it('takes a reporting period’s expected use as given, and marks no one-day reading or mean-form model', () => {
-    const reporting: ChartPeriod = { start: '2031-01-01', end: '2031-02-01', days: 31, meanTemp: 45, usePerDay: 90, expectedPerDay: 123.5 };
-    const day: ChartPeriod = { start: '2031-02-01', end: '2031-02-02', days: 1, meanTemp: 45, usePerDay: 100, dayTemps: [45] };
+    const reporting: ChartPeriod = {
+      start: '2031-01-01',
+      end: '2031-02-01',
+      days: 31,
+      meanTemp: 45,
+      usePerDay: 90,
+      expectedPerDay: 123.5,
+    };
+    const day: ChartPeriod = {
+      start: '2031-02-01',
+      end: '2031-02-02',
+      days: 1,
+      meanTemp: 45,
+      usePerDay: 100,
+      dayTemps: [45],
+    };
     const series = signatureChartPoints(DAILY_3PH, [day], [reporting], 'C', 'kWh');
     expect(series.expected).toEqual([expect.objectContaining({ temp: 45, usePerDay: 123.5 })]);
     const mean = { ...DAILY_3PH, temperatureForm: 'mean' } as unknown as ShapeFit;
@@ -74,7 +95,10 @@ describe('signatureChartPoints', () => {
     expect(series.expected).toHaveLength(12);
     series.expected.forEach((point, i) => {
       // The engine itself.
-      expect(point.usePerDay).toBeCloseTo(predictPeriodPerDay(fit.model, fit.changepoints, fit.rawCoefficients, periods[i]!, 'daily'), 9);
+      expect(point.usePerDay).toBeCloseTo(
+        predictPeriodPerDay(fit.model, fit.changepoints, fit.rawCoefficients, periods[i]!, 'daily'),
+        9,
+      );
     });
     expect(series.fittedLine[0]!.temp).toBe(fit.dayTemperatureRange!.min);
     expect(series.fittedLine.at(-1)!.temp).toBe(fit.dayTemperatureRange!.max);
@@ -86,7 +110,14 @@ describe('the signature chart contradicted the table when a non-routine adjustme
     const mean = { ...DAILY_3PH, temperatureForm: 'mean', dayTemperatureRange: null } as unknown as ShapeFit;
     // At 50 degrees the line gives 20 + 6·10 = 80 a day. The period used 90 a day, but 620 over its 31 days (20 a day)
     // is added load the adjustment accounts for: adjusted baseline 100 a day, 10 a day saved; net of it, 70 < 80.
-    const period: ChartPeriod = { start: '2031-01-01', end: '2031-02-01', days: 31, meanTemp: 50, usePerDay: 90, adjustment: 620 };
+    const period: ChartPeriod = {
+      start: '2031-01-01',
+      end: '2031-02-01',
+      days: 31,
+      meanTemp: 50,
+      usePerDay: 90,
+      adjustment: 620,
+    };
     const plain: ChartPeriod = { start: '2031-02-01', end: '2031-03-01', days: 28, meanTemp: 50, usePerDay: 75 };
     const series = signatureChartPoints(mean, [], [period, plain], 'F', 'kWh');
     expect(series.reporting[0]!.usePerDay).toBeCloseTo(70, 12); // hand-worked: 90 − 620/31

@@ -78,7 +78,13 @@ describe('renderSignatureSvg', () => {
   });
 
   it('leaves out the reporting mark and legend entry when there are no reporting periods, and shows °C', () => {
-    const draft = renderSignatureSvg({ ...CHART, status: 'draft', reporting: [], temperatureUnit: 'C', useUnit: 'kWh' });
+    const draft = renderSignatureSvg({
+      ...CHART,
+      status: 'draft',
+      reporting: [],
+      temperatureUnit: 'C',
+      useUnit: 'kWh',
+    });
     expect(wellFormedProblems(draft)).toEqual([]);
     expect(count(draft, 'class="mark-reporting"')).toBe(0);
     expect(draft).not.toContain('Reporting periods');
@@ -125,7 +131,8 @@ describe('renderSignatureSvg of a day-resolved model', () => {
     const numbers = [...svg.matchAll(/ (?:x|y|x1|y1|x2|y2|cx|cy|r)="([^"]*)"/g)].map((m) => Number(m[1]));
     expect(numbers.length).toBeGreaterThan(20);
     for (const value of numbers) expect(Number.isFinite(value)).toBe(true);
-    for (const path of [...svg.matchAll(/ (?:d|points)="([^"]*)"/g)].map((m) => m[1]!)) expect(path).not.toMatch(/NaN|Infinity/);
+    for (const path of [...svg.matchAll(/ (?:d|points)="([^"]*)"/g)].map((m) => m[1]!))
+      expect(path).not.toMatch(/NaN|Infinity/);
   });
 
   it('marks each bill’s expected use with a tick of its own, beside the period marks', () => {
@@ -164,7 +171,13 @@ describe('renderSignatureSvg of a day-resolved model', () => {
 describe('axis ticks', () => {
   it('picks round steps that cover the data', () => {
     // hand-worked: a span of 57.7 over ~6 ticks → rough step 11.5 → step 20 (1, 2, 2.5, 5 × 10^k).
-    expect(axisScale(31.2, 88.9)).toMatchObject({ min: 20, max: 100, step: 20, ticks: [20, 40, 60, 80, 100], decimals: 0 });
+    expect(axisScale(31.2, 88.9)).toMatchObject({
+      min: 20,
+      max: 100,
+      step: 20,
+      ticks: [20, 40, 60, 80, 100],
+      decimals: 0,
+    });
     // hand-worked: 0..0.9 → rough 0.18 → step 0.2, one decimal.
     expect(axisScale(0, 0.9)).toMatchObject({ min: 0, max: 1, step: 0.2, decimals: 1 });
     // hand-worked: a single value is widened by 10% each side.

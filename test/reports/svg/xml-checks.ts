@@ -36,7 +36,8 @@ export function wellFormedProblems(xml: string): string[] {
       for (const [, attrName, value] of attributes!.matchAll(attribute)) {
         if (seen.has(attrName!)) problems.push(`duplicate attribute ${attrName} on <${name}>`);
         seen.add(attrName!);
-        if (value!.includes('<') || badAmpersand.test(value!)) problems.push(`unescaped value in ${attrName} on <${name}>`);
+        if (value!.includes('<') || badAmpersand.test(value!))
+          problems.push(`unescaped value in ${attrName} on <${name}>`);
       }
       if (stack.length === 0) roots++;
       if (!selfClosing) stack.push(name!);

@@ -16,7 +16,12 @@ export interface BillLengths {
 export const BILL_LENGTHS: BillLengths = { min: 28, max: 33 };
 
 /** `bills` + 1 read dates from `start`, each bill 28–33 days (uniform whole days). */
-export function billReadDates(start: string, bills: number, random: Random, lengths: BillLengths = BILL_LENGTHS): string[] {
+export function billReadDates(
+  start: string,
+  bills: number,
+  random: Random,
+  lengths: BillLengths = BILL_LENGTHS,
+): string[] {
   const dates = [start];
   let current = start;
   for (let i = 0; i < bills; i++) {
@@ -35,7 +40,11 @@ export function dailyReadDates(start: string, days: number): string[] {
  * Readings between consecutive read dates, each the sum of `dailyUse` over
  * its days; `dailyUse[0]` is the use on `firstDay`.
  */
-export function readingsFromDailyUse(readDates: readonly string[], firstDay: string, dailyUse: readonly number[]): Reading[] {
+export function readingsFromDailyUse(
+  readDates: readonly string[],
+  firstDay: string,
+  dailyUse: readonly number[],
+): Reading[] {
   const readings: Reading[] = [];
   for (let i = 0; i + 1 < readDates.length; i++) {
     const start = readDates[i]!;

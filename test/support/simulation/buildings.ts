@@ -76,19 +76,36 @@ export const RELATIVE_NOISE_RANGE = { min: 0.06, max: 0.15 } as const;
  * fixed order, the noise spread last, so the same random state gives the
  * same building whatever the noise spec.
  */
-export function drawBuilding(archetype: Archetype, climate: Climate, noise: NoiseSpec, random: Random): SimulatedBuilding {
+export function drawBuilding(
+  archetype: Archetype,
+  climate: Climate,
+  noise: NoiseSpec,
+  random: Random,
+): SimulatedBuilding {
   const between = (min: number, max: number): number => min + (max - min) * random.uniform();
   let response: Pick<Building, 'base' | 'heatingBelow' | 'heatingRate' | 'coolingAbove' | 'coolingRate'>;
   switch (archetype) {
     case 'heating': {
       // Gas-like units (say therms/day): base 10–30, 3–8 per °F below 55–60 °F.
-      response = { base: between(10, 30), heatingRate: between(3, 8), heatingBelow: between(55, 60), coolingRate: 0, coolingAbove: 65 };
+      response = {
+        base: between(10, 30),
+        heatingRate: between(3, 8),
+        heatingBelow: between(55, 60),
+        coolingRate: 0,
+        coolingAbove: 65,
+      };
       break;
     }
     case 'cooling': {
       // Electric-like units (kWh/day): base 400–1,500, 2–5% of base per °F above 58–66 °F.
       const base = between(400, 1500);
-      response = { base, heatingRate: 0, heatingBelow: 55, coolingRate: base * between(0.02, 0.05), coolingAbove: between(58, 66) };
+      response = {
+        base,
+        heatingRate: 0,
+        heatingBelow: 55,
+        coolingRate: base * between(0.02, 0.05),
+        coolingAbove: between(58, 66),
+      };
       break;
     }
     case 'fivePoint': {
@@ -110,7 +127,8 @@ export function drawBuilding(archetype: Archetype, climate: Climate, noise: Nois
   }
   const relativeNoise = between(RELATIVE_NOISE_RANGE.min, RELATIVE_NOISE_RANGE.max);
   const stationShare = noise.stationShare ?? 0;
-  if (!(stationShare >= 0 && stationShare <= 1)) throw new RangeError(`stationShare must lie in [0, 1], got ${stationShare}`);
+  if (!(stationShare >= 0 && stationShare <= 1))
+    throw new RangeError(`stationShare must lie in [0, 1], got ${stationShare}`);
   const shell: Building = { ...response, dailyNoise: 0, noisePersistence: noise.persistence };
   const normalUse = meanNormalYearUse(shell, climate);
   return {

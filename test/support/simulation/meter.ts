@@ -43,7 +43,8 @@ export function simulateMeter(
   options: MeterOptions = {},
 ): SimulatedMeter {
   const offset = daysBetween(station.start, plan.start);
-  if (offset < 0 || offset + plan.days > station.weather.length) throw new RangeError('the station weather does not cover the study');
+  if (offset < 0 || offset + plan.days > station.weather.length)
+    throw new RangeError('the station weather does not cover the study');
   const temps = station.weather.slice(offset, offset + plan.days).map((day) => day.temp);
   const shocks = station.shocks ? station.shocks.slice(offset, offset + plan.days) : null;
   const noise = meterNoise(building, plan.days, random, shocks);

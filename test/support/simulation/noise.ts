@@ -25,7 +25,12 @@ export function stationShocks(days: number, persistence: number, random: Random)
  * shared shocks over the same days, needed when the building has a station
  * share; their persistence should equal the building's.
  */
-export function meterNoise(building: SimulatedBuilding, days: number, random: Random, shocks: readonly number[] | null): number[] {
+export function meterNoise(
+  building: SimulatedBuilding,
+  days: number,
+  random: Random,
+  shocks: readonly number[] | null,
+): number[] {
   const share = building.stationShare;
   if (share > 0 && (shocks === null || shocks.length < days)) {
     throw new RangeError(`a building with a station share of ${share} needs ${days} days of station shocks`);
@@ -33,5 +38,7 @@ export function meterNoise(building: SimulatedBuilding, days: number, random: Ra
   const own = ar1Series(days, 1, building.noisePersistence, random);
   const ownWeight = Math.sqrt(1 - share);
   const sharedWeight = Math.sqrt(share);
-  return own.map((value, d) => building.dailyNoise * (ownWeight * value + (share > 0 ? sharedWeight * shocks![d]! : 0)));
+  return own.map(
+    (value, d) => building.dailyNoise * (ownWeight * value + (share > 0 ? sharedWeight * shocks![d]! : 0)),
+  );
 }

@@ -54,7 +54,14 @@ function xAxis(
   );
   return `<g stroke="${PALETTE.frame}" stroke-width="1.2" font-size="12">${ticks.join('')}${element(
     'text',
-    { x: (BOX.left + BOX.right) / 2, y: BOX.bottom + 44, 'text-anchor': 'middle', stroke: 'none', fill: PALETTE.ink, 'font-size': 13 },
+    {
+      x: (BOX.left + BOX.right) / 2,
+      y: BOX.bottom + 44,
+      'text-anchor': 'middle',
+      stroke: 'none',
+      fill: PALETTE.ink,
+      'font-size': 13,
+    },
     escapeXml(title),
   )}</g>`;
 }
@@ -62,7 +69,10 @@ function xAxis(
 /** Every fitted shape on the energy signature; `chosen` drawn solid and heavier, `viewed` given a halo. */
 export function candidatesSignatureSvg(points: BaselinePoints, chosen: ModelName): string {
   const degree = points.temperatureUnit === 'F' ? '°F' : '°C';
-  const all = [...points.periods.map((p) => ({ temp: p.meanTemp, usePerDay: p.usePerDay })), ...points.candidates.flatMap((c) => c.line)];
+  const all = [
+    ...points.periods.map((p) => ({ temp: p.meanTemp, usePerDay: p.usePerDay })),
+    ...points.candidates.flatMap((c) => c.line),
+  ];
   const temps = finiteExtent(all.map((p) => p.temp));
   const uses = finiteExtent(all.map((p) => p.usePerDay));
   const x = axisScale(temps?.min ?? 0, temps?.max ?? 1);
@@ -75,7 +85,9 @@ export function candidatesSignatureSvg(points: BaselinePoints, chosen: ModelName
     .filter((l) => l.drawn.length >= 2);
   // Labels at the lines' right ends, pushed apart vertically so none hides another.
   const labelY = new Map<ModelName, number>();
-  const byEnd = [...drawnLines].sort((a, b) => py(a.drawn[a.drawn.length - 1]!.usePerDay) - py(b.drawn[b.drawn.length - 1]!.usePerDay));
+  const byEnd = [...drawnLines].sort(
+    (a, b) => py(a.drawn[a.drawn.length - 1]!.usePerDay) - py(b.drawn[b.drawn.length - 1]!.usePerDay),
+  );
   let previous = Number.NEGATIVE_INFINITY;
   for (const { c, drawn } of byEnd) {
     const y0 = Math.max(py(drawn[drawn.length - 1]!.usePerDay), previous + 14);
@@ -117,7 +129,9 @@ export function candidatesSignatureSvg(points: BaselinePoints, chosen: ModelName
       element(
         'title',
         {},
-        escapeXml(`${p.start} to ${p.end}: ${p.meanTemp.toFixed(1)} ${degree}, ${p.usePerDay.toPrecision(4)} ${points.useUnit}/day`),
+        escapeXml(
+          `${p.start} to ${p.end}: ${p.meanTemp.toFixed(1)} ${degree}, ${p.usePerDay.toPrecision(4)} ${points.useUnit}/day`,
+        ),
       ),
     ),
   );
@@ -141,7 +155,9 @@ function legend(points: BaselinePoints, chosen: ModelName): string {
   const y = HEIGHT - 22;
   let cursor = 24;
   const parts: string[] = [];
-  parts.push(element('circle', { cx: cursor + 8, cy: y, r: 4.2, fill: PALETTE.baselineFill, stroke: PALETTE.baselineStroke }));
+  parts.push(
+    element('circle', { cx: cursor + 8, cy: y, r: 4.2, fill: PALETTE.baselineFill, stroke: PALETTE.baselineStroke }),
+  );
   parts.push(
     element(
       'text',
@@ -166,7 +182,14 @@ function legend(points: BaselinePoints, chosen: ModelName): string {
     parts.push(
       element(
         'text',
-        { x: cursor + 34, y, dy: '0.32em', 'font-size': 12, 'font-weight': isChosen ? '700' : '400', fill: PALETTE.label },
+        {
+          x: cursor + 34,
+          y,
+          dy: '0.32em',
+          'font-size': 12,
+          'font-weight': isChosen ? '700' : '400',
+          fill: PALETTE.label,
+        },
         escapeXml(c.model),
       ),
     );
@@ -192,7 +215,9 @@ export function residualsSvg(points: BaselinePoints, model: ModelName, against: 
         label: `${p.start} to ${p.end}`,
       };
     })
-    .filter((r): r is { x: number; residual: number; label: string } => r.residual !== null && Number.isFinite(r.residual));
+    .filter(
+      (r): r is { x: number; residual: number; label: string } => r.residual !== null && Number.isFinite(r.residual),
+    );
   const xs = finiteExtent(rows.map((r) => r.x));
   const rs = finiteExtent(rows.map((r) => r.residual));
   const bound = Math.max(Math.abs(rs?.min ?? 1), Math.abs(rs?.max ?? 1));

@@ -33,7 +33,9 @@ function problemNotice(problem: Problem): HTMLElement {
     'error',
     h('strong', {}, `${problem.title}: `),
     problem.detail,
-    problem.errors.length > 1 ? h('ul', {}, ...problem.errors.map((e) => h('li', {}, `${e.field}: ${e.message}`))) : null,
+    problem.errors.length > 1
+      ? h('ul', {}, ...problem.errors.map((e) => h('li', {}, `${e.field}: ${e.message}`)))
+      : null,
   );
 }
 
@@ -41,7 +43,19 @@ function statisticsTable(baseline: Baseline): HTMLElement {
   const candidates = baseline.fit?.candidates ?? [];
   return table(
     'Every candidate shape: verdict and statistics (ASHRAE Guideline 14 definitions; limits from memory of the Guideline)',
-    ['Shape', 'Verdict', 'n', 'p', 'R²', 'CV(RMSE)', 'NMBE', 'CV(RMSE) out of sample', 'Lag-1 ρ', 'Guideline 14', 'Changepoints'],
+    [
+      'Shape',
+      'Verdict',
+      'n',
+      'p',
+      'R²',
+      'CV(RMSE)',
+      'NMBE',
+      'CV(RMSE) out of sample',
+      'Lag-1 ρ',
+      'Guideline 14',
+      'Changepoints',
+    ],
     candidates.map((c) => [
       h('th', { scope: 'row' }, c.model === baseline.chosen ? `${c.model} ✔ chosen` : c.model),
       VERDICT_WORDS[c.verdict] + (c.overFitted ? '; over-fitted out of sample' : ''),
@@ -69,7 +83,11 @@ function reasonsList(baseline: Baseline): HTMLElement {
       {},
       ...candidates.flatMap((c) => [
         h('dt', {}, `${c.model}: ${VERDICT_WORDS[c.verdict]}`),
-        h('dd', {}, c.reasons.length === 0 ? 'No reason recorded.' : h('ul', {}, ...c.reasons.map((r) => h('li', {}, r)))),
+        h(
+          'dd',
+          {},
+          c.reasons.length === 0 ? 'No reason recorded.' : h('ul', {}, ...c.reasons.map((r) => h('li', {}, r))),
+        ),
       ]),
     ),
   );
@@ -118,7 +136,12 @@ function fitForm(
   current: Baseline | null,
   rerender: () => Promise<void>,
 ): HTMLElement {
-  const start = h('input', { type: 'date', name: 'start', required: true, value: current?.start ?? readings[0]?.start ?? '' });
+  const start = h('input', {
+    type: 'date',
+    name: 'start',
+    required: true,
+    value: current?.start ?? readings[0]?.start ?? '',
+  });
   const end = h('input', {
     type: 'date',
     name: 'end',
@@ -129,7 +152,11 @@ function fitForm(
   const exclusions = pending.get(meter.id) ?? (current ? exclusionsOf(current) : []);
   const list =
     exclusions.length === 0
-      ? h('p', { class: 'sub' }, 'No bill excluded. Use “Exclude…” beside a bill in the table below to leave it out, with your reason.')
+      ? h(
+          'p',
+          { class: 'sub' },
+          'No bill excluded. Use “Exclude…” beside a bill in the table below to leave it out, with your reason.',
+        )
       : h(
           'div',
           {},
@@ -137,7 +164,9 @@ function fitForm(
           h(
             'ul',
             { class: 'exclusions' },
-            ...exclusions.map((e) => h('li', {}, `${e.start && e.end ? span(e.start, e.end) : e.readingId}: ${e.reason}`)),
+            ...exclusions.map((e) =>
+              h('li', {}, `${e.start && e.end ? span(e.start, e.end) : e.readingId}: ${e.reason}`),
+            ),
           ),
           h(
             'button',
@@ -161,7 +190,12 @@ function fitForm(
       {},
       'Fits every changepoint shape to the bills lying fully inside the window against the station’s daily weather, and keeps the result as a new draft.',
     ),
-    h('div', { class: 'row' }, field('First day of the baseline', start), field('Day after the baseline (end exclusive)', end)),
+    h(
+      'div',
+      { class: 'row' },
+      field('First day of the baseline', start),
+      field('Day after the baseline (end exclusive)', end),
+    ),
     list,
     h('button', { type: 'submit' }, exclusions.length > 0 ? 'Fit with these exclusions' : 'Fit'),
     outcome,
@@ -175,7 +209,10 @@ function fitForm(
         body.exclusions = exclusions.map((e) =>
           e.readingId ? { readingId: e.readingId, reason: e.reason } : { start: e.start, end: e.end, reason: e.reason },
         );
-      const answer = await call<Baseline>(`/v1/meters/${encodeURIComponent(meter.id)}/baselines`, { method: 'POST', json: body });
+      const answer = await call<Baseline>(`/v1/meters/${encodeURIComponent(meter.id)}/baselines`, {
+        method: 'POST',
+        json: body,
+      });
       if (!answer.ok) return replace(outcome, problemNotice(answer.problem));
       pending.delete(meter.id);
       await rerender();
@@ -277,7 +314,10 @@ function freezeControls(baseline: Baseline, hasFrozen: boolean, rerender: () => 
       const body: Record<string, unknown> = { note: note.value };
       if (hasFrozen) body.supersedeReason = supersede.value;
       if (short && shortReason.value.trim()) body.overrides = { shortBaseline: { reason: shortReason.value } };
-      const answer = await call<Baseline>(`/v1/baselines/${encodeURIComponent(baseline.id)}/freeze`, { method: 'POST', json: body });
+      const answer = await call<Baseline>(`/v1/baselines/${encodeURIComponent(baseline.id)}/freeze`, {
+        method: 'POST',
+        json: body,
+      });
       if (!answer.ok) return replace(outcome, problemNotice(answer.problem));
       dialog.close();
       await rerender();
@@ -356,7 +396,8 @@ async function draw(context: ScreenContext, meterId: string, loading?: Promise<B
       baseline.contentHash ? h('span', { class: 'hash' }, ` Content hash ${baseline.contentHash}.`) : null,
     ),
   );
-  if (baseline.warnings.length > 0) parts.push(notice('info', h('ul', {}, ...baseline.warnings.map((w) => h('li', {}, w)))));
+  if (baseline.warnings.length > 0)
+    parts.push(notice('info', h('ul', {}, ...baseline.warnings.map((w) => h('li', {}, w)))));
   const excluded = exclusionsOf(baseline);
   if (excluded.length > 0) {
     parts.push(
@@ -388,7 +429,8 @@ async function draw(context: ScreenContext, meterId: string, loading?: Promise<B
   const excludeButton =
     ledger && isDraft
       ? (reading: Reading): HTMLElement | null => {
-          if (pendingHere.some((e) => e.start === reading.start && e.end === reading.end)) return h('span', {}, 'to be excluded');
+          if (pendingHere.some((e) => e.start === reading.start && e.end === reading.end))
+            return h('span', {}, 'to be excluded');
           const button = h(
             'button',
             { type: 'button', class: 'small', 'aria-label': `Exclude the bill ${span(reading.start, reading.end)}…` },
@@ -397,13 +439,23 @@ async function draw(context: ScreenContext, meterId: string, loading?: Promise<B
           button.addEventListener('click', () => {
             const input = h('input', { type: 'text', name: 'exclusion-reason', required: true, maxlength: 2000 });
             const add = h('button', { type: 'submit', class: 'small' }, 'Add');
-            const form = h('form', { class: 'inline' }, field(`Why leave out ${reading.start}..${reading.end}`, input), add);
+            const form = h(
+              'form',
+              { class: 'inline' },
+              field(`Why leave out ${reading.start}..${reading.end}`, input),
+              add,
+            );
             form.addEventListener('submit', (event) => {
               event.preventDefault();
               if (!input.value.trim()) return;
               pending.set(meter.id, [
                 ...(pending.get(meter.id) ?? exclusionsOf(baseline)),
-                { ...(reading.id ? { readingId: reading.id } : {}), reason: input.value.trim(), start: reading.start, end: reading.end },
+                {
+                  ...(reading.id ? { readingId: reading.id } : {}),
+                  reason: input.value.trim(),
+                  start: reading.start,
+                  end: reading.end,
+                },
               ]);
               void rerender().then(() => document.querySelector<HTMLElement>('#fit-title')?.scrollIntoView());
             });
@@ -422,13 +474,21 @@ async function draw(context: ScreenContext, meterId: string, loading?: Promise<B
         'figure',
         {},
         svg(residualsSvg(points, model, 'time')),
-        h('figcaption', {}, `Residuals of ${model} against time: a run of one sign or a drift means something the model does not explain.`),
+        h(
+          'figcaption',
+          {},
+          `Residuals of ${model} against time: a run of one sign or a drift means something the model does not explain.`,
+        ),
       ),
       h(
         'figure',
         {},
         svg(residualsSvg(points, model, 'temperature')),
-        h('figcaption', {}, `Residuals of ${model} against temperature: a bend means the shape misses the building’s response.`),
+        h(
+          'figcaption',
+          {},
+          `Residuals of ${model} against temperature: a bend means the shape misses the building’s response.`,
+        ),
       ),
     );
     replace(tableHolder, periodsTable(points, model, readings, excludeButton));
@@ -457,7 +517,14 @@ async function draw(context: ScreenContext, meterId: string, loading?: Promise<B
       tableHolder,
     ),
   );
-  parts.push(h('section', { 'aria-labelledby': 'stats-title' }, h('h2', { id: 'stats-title' }, 'Statistics'), statisticsTable(baseline)));
+  parts.push(
+    h(
+      'section',
+      { 'aria-labelledby': 'stats-title' },
+      h('h2', { id: 'stats-title' }, 'Statistics'),
+      statisticsTable(baseline),
+    ),
+  );
   parts.push(reasonsList(baseline));
   if (ledger) {
     if (isDraft) {
@@ -480,6 +547,10 @@ async function draw(context: ScreenContext, meterId: string, loading?: Promise<B
 }
 
 /** The bench of a meter; `loading` is its data when main.ts started reading it early. */
-export async function benchScreen(context: ScreenContext, meterId: string, loading?: Promise<BenchData>): Promise<void> {
+export async function benchScreen(
+  context: ScreenContext,
+  meterId: string,
+  loading?: Promise<BenchData>,
+): Promise<void> {
   await draw(context, meterId, loading);
 }

@@ -32,7 +32,10 @@ export function meterHeading(context: ScreenContext, meter: Meter, current: Mete
             {},
             h(
               'a',
-              { href: `#/meter/${encodeURIComponent(meter.id)}/${t.tab}`, 'aria-current': t.tab === current ? 'page' : null },
+              {
+                href: `#/meter/${encodeURIComponent(meter.id)}/${t.tab}`,
+                'aria-current': t.tab === current ? 'page' : null,
+              },
               t.label,
             ),
           ),

@@ -61,12 +61,18 @@ export async function facilitiesScreen(context: ScreenContext): Promise<void> {
   const { facilities } = await fetchOrThrow<{ facilities: Facility[] }>('/v1/facilities');
   const sections = await Promise.all(
     facilities.map(async (facility) => {
-      const { meters } = await fetchOrThrow<{ meters: Meter[] }>(`/v1/facilities/${encodeURIComponent(facility.id)}/meters`);
+      const { meters } = await fetchOrThrow<{ meters: Meter[] }>(
+        `/v1/facilities/${encodeURIComponent(facility.id)}/meters`,
+      );
       const rows = await Promise.all(meters.map((meter) => meterRow(context, meter)));
       const body =
         meters.length === 0
           ? h('p', {}, 'No meters yet.')
-          : table(`Meters of ${facility.name}`, ['Meter', 'Fuel and unit', 'Baseline', 'Avoided energy to date', 'Screens'], []);
+          : table(
+              `Meters of ${facility.name}`,
+              ['Meter', 'Fuel and unit', 'Baseline', 'Avoided energy to date', 'Screens'],
+              [],
+            );
       if (body instanceof HTMLTableElement) body.tBodies[0]!.append(...rows);
       return h(
         'section',

@@ -57,7 +57,9 @@ function coverage(reading: Reading, days: ReadonlySet<string>): number {
 }
 
 async function readingsTable(meter: Meter): Promise<HTMLElement> {
-  const { readings } = await fetchOrThrow<{ readings: Reading[] }>(`/v1/meters/${encodeURIComponent(meter.id)}/readings`);
+  const { readings } = await fetchOrThrow<{ readings: Reading[] }>(
+    `/v1/meters/${encodeURIComponent(meter.id)}/readings`,
+  );
   if (readings.length === 0) return notice('info', 'No readings yet: upload a CSV of bills below.');
   const from = readings[0]!.start;
   const to = readings[readings.length - 1]!.end;
@@ -114,7 +116,11 @@ function refusedFile(text: string, errors: readonly FieldError[]): HTMLElement {
   }
   const header = rows[0];
   const width = Math.max(...rows.map((r) => r.cells.length));
-  const headings = ['Row', ...Array.from({ length: width }, (_, i) => header?.cells[i] ?? `column ${i + 1}`), 'Problem'];
+  const headings = [
+    'Row',
+    ...Array.from({ length: width }, (_, i) => header?.cells[i] ?? `column ${i + 1}`),
+    'Problem',
+  ];
   const body = rows.slice(1).map((row) => {
     const problems = byLine.get(row.line) ?? [];
     const tr = h(
@@ -126,7 +132,12 @@ function refusedFile(text: string, errors: readonly FieldError[]): HTMLElement {
         'td',
         { class: 'row-problem' },
         problems.length > 0
-          ? h('span', {}, h('span', { 'aria-hidden': 'true' }, '✖ '), problems.map((p) => `${p.field}: ${p.message}`).join('; '))
+          ? h(
+              'span',
+              {},
+              h('span', { 'aria-hidden': 'true' }, '✖ '),
+              problems.map((p) => `${p.field}: ${p.message}`).join('; '),
+            )
           : h('span', { class: 'sub' }, 'ok'),
       ),
     );
@@ -181,10 +192,13 @@ function uploadForm(context: ScreenContext, meter: Meter, refresh: () => Promise
               `/v1/meters/${encodeURIComponent(meter.id)}/readings${query}`,
               { method: 'POST', csv: text },
             )
-          : await call<{ received?: number }>(`/v1/weather-stations/${encodeURIComponent(meter.weatherStationId)}/observations`, {
-              method: 'PUT',
-              csv: text,
-            });
+          : await call<{ received?: number }>(
+              `/v1/weather-stations/${encodeURIComponent(meter.weatherStationId)}/observations`,
+              {
+                method: 'PUT',
+                csv: text,
+              },
+            );
       if (!answer.ok) {
         replace(
           outcome,
@@ -208,7 +222,11 @@ function uploadForm(context: ScreenContext, meter: Meter, refresh: () => Promise
 
 export async function meterDataScreen(context: ScreenContext, meterId: string): Promise<void> {
   const meter = await getMeter(meterId);
-  const holder = h('section', { 'aria-labelledby': 'readings-title' }, h('h2', { id: 'readings-title' }, 'Bills and weather coverage'));
+  const holder = h(
+    'section',
+    { 'aria-labelledby': 'readings-title' },
+    h('h2', { id: 'readings-title' }, 'Bills and weather coverage'),
+  );
   const list = h('div', { id: newId('readings') });
   holder.append(list);
   const refresh = async () => replace(list, await readingsTable(meter));

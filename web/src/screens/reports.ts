@@ -115,7 +115,9 @@ function reportSection(): HTMLElement {
       ...(['html', 'csv', 'json'] as const).map((format) => {
         const button = h('button', { type: 'button', class: 'secondary' }, `Download ${format.toUpperCase()}`);
         button.addEventListener('click', () => {
-          void request(format).then((got) => got && saveFile(got.text, TYPES[format], `savings-report-${got.label}.${format}`));
+          void request(format).then(
+            (got) => got && saveFile(got.text, TYPES[format], `savings-report-${got.label}.${format}`),
+          );
         });
         return button;
       }),
@@ -165,10 +167,16 @@ function statementWindow(s: Statement): string {
 }
 
 async function statementsSection(context: ScreenContext): Promise<HTMLElement> {
-  const section = h('section', { 'aria-labelledby': 'statements-title' }, h('h2', { id: 'statements-title' }, 'Statements'));
+  const section = h(
+    'section',
+    { 'aria-labelledby': 'statements-title' },
+    h('h2', { id: 'statements-title' }, 'Statements'),
+  );
   const list = await call<{ statements: Statement[] }>('/v1/statements');
   if (!list.ok) {
-    section.append(list.status === 404 ? notice('info', 'This service does not offer statements yet.') : problemNotice(list.problem));
+    section.append(
+      list.status === 404 ? notice('info', 'This service does not offer statements yet.') : problemNotice(list.problem),
+    );
     return section;
   }
   const output = h('div', { 'aria-live': 'polite', class: 'statement-output' });
@@ -180,14 +188,19 @@ async function statementsSection(context: ScreenContext): Promise<HTMLElement> {
       if (!reason) return;
       body = { reason };
     }
-    const answer = await call<Statement>(`/v1/statements/${encodeURIComponent(statement.id)}/${action}`, { method: 'POST', json: body });
+    const answer = await call<Statement>(`/v1/statements/${encodeURIComponent(statement.id)}/${action}`, {
+      method: 'POST',
+      json: body,
+    });
     if (!answer.ok) return replace(output, problemNotice(answer.problem));
     await redraw();
   };
   const openStatement = async (statement: Statement) => {
     const answer = await call<Record<string, unknown>>(`/v1/statements/${encodeURIComponent(statement.id)}`);
     if (!answer.ok) return replace(output, problemNotice(answer.problem));
-    const fields = Object.entries(answer.body).filter(([, v]) => v === null || ['string', 'number', 'boolean'].includes(typeof v));
+    const fields = Object.entries(answer.body).filter(
+      ([, v]) => v === null || ['string', 'number', 'boolean'].includes(typeof v),
+    );
     replace(
       output,
       h('h3', {}, `Statement ${statement.id}`),
@@ -199,7 +212,9 @@ async function statementsSection(context: ScreenContext): Promise<HTMLElement> {
     );
   };
   const download = async (statement: Statement, format: 'json' | 'csv' | 'html') => {
-    const answer = await call<string>(`/v1/statements/${encodeURIComponent(statement.id)}/document?format=${format}`, { text: true });
+    const answer = await call<string>(`/v1/statements/${encodeURIComponent(statement.id)}/document?format=${format}`, {
+      text: true,
+    });
     if (!answer.ok) return replace(output, problemNotice(answer.problem));
     saveFile(answer.body, TYPES[format], `statement-${statement.id}.${format}`);
   };
@@ -222,9 +237,15 @@ async function statementsSection(context: ScreenContext): Promise<HTMLElement> {
       ...(['html', 'csv', 'json'] as const).map((f) =>
         button(f.toUpperCase(), `Download statement ${s.id} as ${f.toUpperCase()}`, () => void download(s, f)),
       ),
-      s.status === 'prepared' && mayDecide ? button('Approve', `Approve statement ${s.id}`, () => void act(s, 'approve')) : null,
-      s.status === 'prepared' && mayDecide ? button('Reject…', `Reject statement ${s.id}`, () => void act(s, 'reject')) : null,
-      s.status === 'approved' && context.can('ledger') ? button('Void…', `Void statement ${s.id}`, () => void act(s, 'void')) : null,
+      s.status === 'prepared' && mayDecide
+        ? button('Approve', `Approve statement ${s.id}`, () => void act(s, 'approve'))
+        : null,
+      s.status === 'prepared' && mayDecide
+        ? button('Reject…', `Reject statement ${s.id}`, () => void act(s, 'reject'))
+        : null,
+      s.status === 'approved' && context.can('ledger')
+        ? button('Void…', `Void statement ${s.id}`, () => void act(s, 'void'))
+        : null,
     ),
   ]);
   section.append(
@@ -285,7 +306,11 @@ async function prepareForm(redraw: () => Promise<void>): Promise<HTMLElement> {
 export async function reportsScreen(context: ScreenContext): Promise<void> {
   context.title('Reports and statements');
   if (!context.can('savings')) {
-    replace(context.main, h('h1', {}, 'Reports and statements'), notice('info', 'Reports need the savings permission.'));
+    replace(
+      context.main,
+      h('h1', {}, 'Reports and statements'),
+      notice('info', 'Reports need the savings permission.'),
+    );
     return;
   }
   replace(context.main, h('h1', {}, 'Reports and statements'), reportSection(), await statementsSection(context));

@@ -24,7 +24,9 @@ export async function savingsScreen(context: ScreenContext, meterId: string): Pr
   );
   const body = h('div', {});
   const load = async () => {
-    const answer = await call<Savings>(`/v1/meters/${encodeURIComponent(meter.id)}/savings?confidence=${confidence.value}`);
+    const answer = await call<Savings>(
+      `/v1/meters/${encodeURIComponent(meter.id)}/savings?confidence=${confidence.value}`,
+    );
     if (!answer.ok) return replace(body, notice('error', answer.problem.detail));
     const s = answer.body;
     const t = s.totals;
@@ -44,7 +46,11 @@ export async function savingsScreen(context: ScreenContext, meterId: string): Pr
         h('dt', {}, 'Avoided energy'),
         h('dd', { 'data-total': 'savings', 'data-value': t.savings ?? '' }, `${num(t.savings)} ${meter.unit}`),
         h('dt', {}, `Combined uncertainty (${level})`),
-        h('dd', {}, `± ${num(t.uncertainty.combined.absolute)} ${meter.unit} (± ${pct(t.uncertainty.combined.fractional)})`),
+        h(
+          'dd',
+          {},
+          `± ${num(t.uncertainty.combined.absolute)} ${meter.unit} (± ${pct(t.uncertainty.combined.fractional)})`,
+        ),
         h('dt', {}, 'Share saved'),
         h('dd', {}, pct(t.fractionSaved)),
         h('dt', {}, 'Adjusted baseline / actual'),
@@ -58,7 +64,12 @@ export async function savingsScreen(context: ScreenContext, meterId: string): Pr
           h('span', { class: 'sub' }, ` (${s.significance.rule})`),
         ),
         h('dt', {}, 'Extrapolation'),
-        h('dd', {}, h('span', { 'aria-hidden': 'true' }, s.extrapolation.exceedsLimit ? '⚠ ' : ''), s.extrapolation.summary),
+        h(
+          'dd',
+          {},
+          h('span', { 'aria-hidden': 'true' }, s.extrapolation.exceedsLimit ? '⚠ ' : ''),
+          s.extrapolation.summary,
+        ),
         h('dt', {}, 'Baseline'),
         h('dd', {}, `version ${s.baselineVersion}, ${s.model}, content hash ${s.baselineContentHash}`),
       ),

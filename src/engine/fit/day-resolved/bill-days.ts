@@ -116,7 +116,8 @@ export function buildBillDays(periods: readonly Period[]): BillDays {
   for (let b = 0; b < n; b++) {
     const period = periods[b]!;
     const temps = period.dayTemps;
-    if (!temps || temps.length === 0) throw new RangeError('the day-resolved form needs the daily temperatures of every period');
+    if (!temps || temps.length === 0)
+      throw new RangeError('the day-resolved form needs the daily temperatures of every period');
     w[b] = period.days;
     rawY[b] = period.usePerDay;
     dayCount[b] = temps.length;

@@ -18,7 +18,11 @@ import { bothSidesFeasible, fixedColumnsSse, hingeColumn, sweepHinge, type Side 
 import { fixedFivePointSse, type FivePointOptimum } from './five-point.js';
 
 /** The best one-changepoint placement that sits exactly on a reading's mean where no interval beside it is allowed. */
-export function boundaryOnlyOneChangepoint(days: BillDays, shape: '3PC' | '3PH' | '4P', k: number): { tau: number; sse: number } | null {
+export function boundaryOnlyOneChangepoint(
+  days: BillDays,
+  shape: '3PC' | '3PH' | '4P',
+  k: number,
+): { tau: number; sse: number } | null {
   const allowed = bothSidesFeasible(days, k);
   const count = days.breakpoints.length;
   let best: { tau: number; sse: number } | null = null;
@@ -82,13 +86,23 @@ export function boundaryOnlyFivePoint(days: BillDays, k: number): FivePointOptim
   const flatBetween = (a: number, b: number): number => (a > b ? 0 : atOrBelow[b]! - (n - atOrAbove[a]!));
   // Open rectangle (heating interval i, cooling interval j > i) and open lines, as the pair search sees them.
   const rect = (i: number, j: number): boolean =>
-    i >= 0 && j > i && j + 1 < count && enough(atOrBelow[i]!, k) && enough(atOrAbove[j + 1]!, k) && enough(flatBetween(i + 1, j), k);
+    i >= 0 &&
+    j > i &&
+    j + 1 < count &&
+    enough(atOrBelow[i]!, k) &&
+    enough(atOrAbove[j + 1]!, k) &&
+    enough(flatBetween(i + 1, j), k);
   // τc on breakpoint t, τh inside heating interval i.
   const coolingLine = (i: number, t: number): boolean =>
     i >= 0 && i + 1 <= t && enough(atOrBelow[i]!, k) && enough(flatBetween(i + 1, t), k) && enough(atOrAbove[t]!, k);
   // τh on breakpoint t, τc inside cooling interval j.
   const heatingLine = (t: number, j: number): boolean =>
-    t >= 0 && j >= t && j + 1 < count && enough(atOrBelow[t]!, k) && enough(flatBetween(t, j), k) && enough(atOrAbove[j + 1]!, k);
+    t >= 0 &&
+    j >= t &&
+    j + 1 < count &&
+    enough(atOrBelow[t]!, k) &&
+    enough(flatBetween(t, j), k) &&
+    enough(atOrAbove[j + 1]!, k);
 
   let best: FivePointOptimum | null = null;
   const offer = (candidate: FivePointOptimum | null): void => {
@@ -121,7 +135,11 @@ export function boundaryOnlyFivePoint(days: BillDays, k: number): FivePointOptim
   if (a <= b && enough(atOrBelow[a]!, k) && enough(flatBetween(a, b), k) && enough(atOrAbove[b]!, k)) {
     const lineNearby = heatingLine(a, b) || heatingLine(a, b - 1) || coolingLine(a - 1, b) || coolingLine(a, b);
     if (!lineNearby)
-      offer({ heating: breakpoints[a]!, cooling: breakpoints[b]!, sse: fixedFivePointSse(days, breakpoints[a]!, breakpoints[b]!) });
+      offer({
+        heating: breakpoints[a]!,
+        cooling: breakpoints[b]!,
+        sse: fixedFivePointSse(days, breakpoints[a]!, breakpoints[b]!),
+      });
   }
   return best;
 }

@@ -53,7 +53,8 @@ export function searchFivePointWithBasis(days: BillDays, k: number): FivePointOp
 
 /** Every open rectangle the segment rule admits: the free fit, taken when its implied changepoints fall inside. */
 function interiors(days: BillDays, k: number, offer: (heating: number, cooling: number, sse: number) => void): void {
-  const { n, w, y, mean, breakpoints, dayStart, dayBill, dayShare, dayTempShare, weightAtOrBelow, weightAtOrAbove } = days;
+  const { n, w, y, mean, breakpoints, dayStart, dayBill, dayShare, dayTempShare, weightAtOrBelow, weightAtOrAbove } =
+    days;
   const count = breakpoints.length;
   const fixed: Float64Array[] = [new Float64Array(n).fill(1), ...days.extras];
   const f = fixed.length;

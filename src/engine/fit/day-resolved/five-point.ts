@@ -14,7 +14,13 @@
 import { searchChangepoints } from '../changepoint-search.js';
 import { buildSortedSums } from '../sorted-sums.js';
 import { bestHingeOnInterval, gramLeastSquares, type HingeOptimum } from '../gram.js';
-import { enough, weightAtOrAboveTemperature, weightAtOrBelowTemperature, weightBetween, type BillDays } from './bill-days.js';
+import {
+  enough,
+  weightAtOrAboveTemperature,
+  weightAtOrBelowTemperature,
+  weightBetween,
+  type BillDays,
+} from './bill-days.js';
 import { bothSidesFeasible, fixedColumnsSse, hingeColumn, sweepHinge, type Side } from './hinge-sweep.js';
 
 /** Relative slack when comparing a lower bound with the incumbent: rounding must never prune the optimum. */
@@ -59,11 +65,17 @@ function coordinateDescent(days: BillDays, k: number): FivePointOptimum | null {
   const heatingOnly = sweepHinge(days, 'heating', null, allowed);
   const coolingOnly = sweepHinge(days, 'cooling', null, allowed);
   if (heatingOnly && coolingOnly && heatingOnly.tau <= coolingOnly.tau) starts.push([heatingOnly.tau, coolingOnly.tau]);
-  const meanForm = searchChangepoints(buildSortedSums(Array.from(days.mean), Array.from(days.y), Array.from(days.w)), '5P', k);
+  const meanForm = searchChangepoints(
+    buildSortedSums(Array.from(days.mean), Array.from(days.y), Array.from(days.w)),
+    '5P',
+    k,
+  );
   if (meanForm) starts.push([meanForm.heatingChangepoint!, meanForm.coolingChangepoint!]);
   let start: FivePointOptimum | null = null;
   for (const [heating, cooling] of starts) {
-    const sse = fivePointFeasible(days, heating, cooling, k) ? fixedFivePointSse(days, heating, cooling) : Number.POSITIVE_INFINITY;
+    const sse = fivePointFeasible(days, heating, cooling, k)
+      ? fixedFivePointSse(days, heating, cooling)
+      : Number.POSITIVE_INFINITY;
     if (start === null || sse < start.sse) start = { heating, cooling, sse };
   }
   if (start === null) return null;
@@ -90,21 +102,33 @@ export function movingHingeMask(days: BillDays, side: Side, heating: number, coo
     const coolWeight = weightAtOrAboveTemperature(days, cooling);
     for (let j = 0; j + 1 < breakpoints.length; j++) {
       const flat = atOrBelowCooling - (n - weightAtOrAbove[j + 1]!);
-      allowed[j] = breakpoints[j + 1]! <= cooling && enough(weightAtOrBelow[j]!, k) && enough(flat, k) && enough(coolWeight, k) ? 1 : 0;
+      allowed[j] =
+        breakpoints[j + 1]! <= cooling && enough(weightAtOrBelow[j]!, k) && enough(flat, k) && enough(coolWeight, k)
+          ? 1
+          : 0;
     }
   } else {
     const heatWeight = weightAtOrBelowTemperature(days, heating);
     const belowHeating = n - weightAtOrAboveTemperature(days, heating);
     for (let j = 0; j + 1 < breakpoints.length; j++) {
       const flat = weightAtOrBelow[j]! - belowHeating;
-      allowed[j] = breakpoints[j]! >= heating && enough(weightAtOrAbove[j + 1]!, k) && enough(flat, k) && enough(heatWeight, k) ? 1 : 0;
+      allowed[j] =
+        breakpoints[j]! >= heating && enough(weightAtOrAbove[j + 1]!, k) && enough(flat, k) && enough(heatWeight, k)
+          ? 1
+          : 0;
     }
   }
   return allowed;
 }
 
 /** The best position of one changepoint of a 5P with the other held where it is. */
-export function moveOneHinge(days: BillDays, side: Side, heating: number, cooling: number, k: number): HingeOptimum | null {
+export function moveOneHinge(
+  days: BillDays,
+  side: Side,
+  heating: number,
+  cooling: number,
+  k: number,
+): HingeOptimum | null {
   const allowed = movingHingeMask(days, side, heating, cooling, k);
   const fixed = side === 'heating' ? hingeColumn(days, 'cooling', cooling) : hingeColumn(days, 'heating', heating);
   return sweepHinge(days, side, fixed, allowed);
@@ -275,7 +299,10 @@ function solvePair(
     const fixed = e === 0 ? heatLow : e === 1 ? heatHigh : e === 2 ? coolLow : coolHigh;
     const edge = e < 2 ? pair.heatingEdge(fixed, coolLow, coolHigh) : pair.coolingEdge(fixed, heatLow, heatHigh);
     if (edge && (best === null || edge.sse < best.sse)) {
-      best = e < 2 ? { heating: fixed, cooling: edge.tau, sse: edge.sse } : { heating: edge.tau, cooling: fixed, sse: edge.sse };
+      best =
+        e < 2
+          ? { heating: fixed, cooling: edge.tau, sse: edge.sse }
+          : { heating: edge.tau, cooling: fixed, sse: edge.sse };
     }
   }
   return best;
@@ -340,7 +367,20 @@ class RowBound {
  * free five-column fit costs a 2×2 Schur complement.
  */
 export function searchFivePoint(days: BillDays, k: number): FivePointOptimum | null {
-  const { n, w, y, mean, breakpoints, dayStart, dayBill, dayShare, dayTempShare, weightAtOrBelow, weightAtOrAbove, totalSquares } = days;
+  const {
+    n,
+    w,
+    y,
+    mean,
+    breakpoints,
+    dayStart,
+    dayBill,
+    dayShare,
+    dayTempShare,
+    weightAtOrBelow,
+    weightAtOrAbove,
+    totalSquares,
+  } = days;
   const count = breakpoints.length;
   let best = coordinateDescent(days, k);
   let bestSse = best?.sse ?? Number.POSITIVE_INFINITY;

@@ -129,7 +129,10 @@ export function sweepHinge(
     gram[iv * m + iv] = gvv;
     gram[iu * m + iy] = gram[iy * m + iu] = guy;
     gram[iv * m + iy] = gram[iy * m + iv] = gvy;
-    if (bestHingeOnInterval(gram, f, breakpoints[j]!, breakpoints[j + 1]!, candidate, onPoint) && candidate.sse < best.sse) {
+    if (
+      bestHingeOnInterval(gram, f, breakpoints[j]!, breakpoints[j + 1]!, candidate, onPoint) &&
+      candidate.sse < best.sse
+    ) {
       best.tau = candidate.tau;
       best.sse = candidate.sse;
       found = true;
