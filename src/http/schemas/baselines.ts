@@ -163,12 +163,10 @@ export const sufficiencySchema = z
   });
 
 const overrideSchema = z.object({ reason: z.string() }).nullable();
-export const overridesSchema = z
-  .object({ shortBaseline: overrideSchema, extrapolation: overrideSchema })
-  .meta({
-    id: 'BaselineOverrides',
-    description: 'Checks passed over when the baseline was frozen, each with its reason; null where none',
-  });
+export const overridesSchema = z.object({ shortBaseline: overrideSchema, extrapolation: overrideSchema }).meta({
+  id: 'BaselineOverrides',
+  description: 'Checks passed over when the baseline was frozen, each with its reason; null where none',
+});
 
 const limitCheck = z.object({ value: stat, limit: stat, pass: z.boolean() });
 export const guideline14CheckSchema = z
