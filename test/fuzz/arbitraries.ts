@@ -396,7 +396,8 @@ function validValue(schema: JsonSchema, name: string, ctx: SchemaContext, hostil
       const item = schema.items ?? {};
       return fc.array(valueFor(item, name, ctx, hostility), {
         minLength: schema.minItems ?? 0,
-        maxLength: Math.min(schema.maxItems ?? 3, 3),
+        // Short arrays keep runs quick, but never shorter than the schema's minimum (a week's seven day types).
+        maxLength: Math.max(schema.minItems ?? 0, Math.min(schema.maxItems ?? 3, 3)),
       });
     }
     case 'object':

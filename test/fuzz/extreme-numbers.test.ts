@@ -34,6 +34,7 @@ import {
   type DailyTemperature,
 } from '../../src/engine/index.js';
 import { PLAUSIBLE_TEMPERATURE_F } from '../../src/engine/units.js';
+import { MAX_VARIABLE_MAGNITUDE } from '../../src/domain/limits.js';
 import { makeTestApi, type ApiResponse, type TestApi } from '../support/api.js';
 import { databaseDigest } from '../support/db-digest.js';
 import { testDialect } from '../support/database.js';
@@ -55,6 +56,7 @@ const DRIVEN = [
   'POST /v1/meters/{id}/adjustments',
   'PUT /v1/facilities/{id}/contract',
   'POST /v1/statements',
+  'POST /v1/variables/{id}/values',
   // Small whole-number settings (days, years) with their own bounds; at and beyond them in test/http/weather-imports.test.ts.
   'POST /v1/weather-stations/{id}/gap-fills',
   'POST /v1/weather-stations/{id}/normal-year/from-history',
@@ -315,6 +317,21 @@ async function runScenario(s: Scenario, run: number): Promise<void> {
     },
   });
 
+  // An independent variable with values at both edges of its bound (domain/limits.ts), after the frozen window.
+  const variable = await stored(`${tag} variable`, 'POST', `/v1/facilities/${facility.id}/variables`, {
+    body: { name: `output ${run}`, unit: 'units', kind: 'per-period', aggregation: 'total' },
+  });
+  const valuesUrl = `/v1/variables/${variable.id}/values`;
+  await stored(`${tag} variable values at the edges`, 'POST', valuesUrl, {
+    body: {
+      values: [
+        { start: '2025-01-01', end: '2025-02-01', value: MAX_VARIABLE_MAGNITUDE },
+        { start: '2025-02-01', end: '2025-03-01', value: -MAX_VARIABLE_MAGNITUDE },
+        { start: '2025-03-01', end: '2025-04-01', value: Number.MIN_VALUE },
+      ],
+    },
+  });
+
   // Just beyond every bound: refused, naming the field, and nothing stored.
   const before = await databaseDigest(api.store.db);
   await refused(
@@ -478,6 +495,13 @@ async function runScenario(s: Scenario, run: number): Promise<void> {
     { body: { window: { quarter: '2025-Q1' }, facilityId: facility.id, confidence: Number.MAX_VALUE } },
     /^confidence$/,
   );
+  await refused(
+    `${tag} variable value beyond`,
+    'POST',
+    valuesUrl,
+    { body: { values: [{ start: '2025-04-01', end: '2025-05-01', value: nextUp(MAX_VARIABLE_MAGNITUDE) }] } },
+    /^values\[0\]\.value$/,
+  );
   expect(await databaseDigest(api.store.db), `${tag}: a refused request stored something`).toBe(before);
 
   // Every reading of what was stored: lists, savings, the signature chart, the reports.
@@ -487,6 +511,7 @@ async function runScenario(s: Scenario, run: number): Promise<void> {
     readingsUrl,
     `/v1/meters/${meter.id}/rates`,
     `/v1/meters/${meter.id}/adjustments`,
+    valuesUrl,
     observationsUrl,
     normalUrl,
     `/v1/meters/${meter.id}/baselines`,

@@ -122,9 +122,11 @@ function conventionalPermission(op: Operation): Permission {
   if (/\/savings(\/|$)/.test(op.path)) return 'savings';
   // What a billing system reads back to reconcile: the meters and a meter's readings.
   if (op.method === 'get' && /^\/v1\/meters(\/\{id\}(\/readings)?)?$/.test(op.path)) return 'reconcile';
+  // A variable's values are posted and read back like readings (a production or occupancy system feeds them).
+  if (op.method === 'get' && op.path === '/v1/variables/{id}/values') return 'reconcile';
   if (op.method === 'get') return 'read';
   // Station files posted as published are weather data, like observations.
-  if (/\/(readings|observations|imports)(\/|$)/.test(op.path)) return 'data';
+  if (/\/(readings|observations|imports|values)(\/|$)/.test(op.path)) return 'data';
   return 'ledger';
 }
 
