@@ -23,7 +23,7 @@
  * normals). Values are in the file's unit (°F in the published files;
  * `fileUnit` says otherwise) and converted once to the station's.
  */
-import { parse } from 'csv-parse/sync';
+import { readArchiveCsv } from './archive-csv.js';
 import { celsiusToFahrenheit, fahrenheitToCelsius, NORMAL_YEAR_DAYS, type TemperatureUnit } from '../engine/index.js';
 import { ArchiveFormatError, MAX_ARCHIVE_CHARACTERS } from './types.js';
 
@@ -68,11 +68,6 @@ export interface PublishedNormalYear {
   method: string;
 }
 
-interface Parsed {
-  record: string[];
-  info: { lines: number };
-}
-
 function convert(value: number, from: TemperatureUnit, to: TemperatureUnit): number {
   if (from === to) return value;
   // NIST SP 811: t/°C = (t/°F − 32)/1.8; rounded to 1e-6 so the stored year does not carry binary noise.
@@ -90,21 +85,7 @@ export function readDailyNormalsCsv(text: string, options: NormalsOptions): Publ
     );
   }
   const fileUnit = options.fileUnit ?? 'F';
-  let records: Parsed[];
-  try {
-    records = parse(text, {
-      bom: true,
-      relax_column_count: true,
-      skip_empty_lines: true,
-      info: true,
-    }) as unknown as Parsed[];
-  } catch (error) {
-    const failure = error as { lines?: number; message?: string };
-    throw new ArchiveFormatError(failure.lines ?? 1, null, `not readable as CSV: ${failure.message ?? 'syntax error'}`);
-  }
-  const [header, ...rows] = records;
-  if (!header)
-    throw new ArchiveFormatError(1, null, 'the file is empty: a daily normals CSV file starts with its header');
+  const { header, rows } = readArchiveCsv(text, 'a daily normals CSV file');
   const names = header.record.map((name) => name.trim());
   const position = new Map(names.map((name, i) => [name, i]));
   const stationColumn = position.has('STATION') ? 'STATION' : position.has('GHCN_ID') ? 'GHCN_ID' : null;

@@ -16,7 +16,7 @@
  * failed, so nothing is dropped by flag; the daily mean is TEMP (the mean of
  * the day's observations), or (MAX + MIN)/2 where TEMP is missing.
  */
-import { parse } from 'csv-parse/sync';
+import { readArchiveCsv } from './archive-csv.js';
 import { fahrenheitToCelsius, isIsoDate, type TemperatureUnit } from '../engine/index.js';
 import { ArchiveFormatError, emptyCounts, type ArchiveDay, type ArchiveImport, type ArchiveOptions } from './types.js';
 
@@ -26,11 +26,6 @@ const DECIMAL = /^-?\d+(\.\d+)?$/;
 
 export const GSOD_METHOD =
   'daily mean = TEMP (the mean of the day’s observations), else (MAX + MIN)/2; 9999.9 is missing; GSOD has no failing quality flag; °F converted once to the station unit';
-
-interface Parsed {
-  record: string[];
-  info: { lines: number };
-}
 
 /** °F → the station's unit (NIST SP 811: t/°C = (t/°F − 32)/1.8, exact). */
 function fahrenheitTo(value: number, unit: TemperatureUnit): number {
@@ -43,20 +38,7 @@ function normaliseId(id: string): string {
 }
 
 export function readGsodCsv(text: string, options: ArchiveOptions): ArchiveImport {
-  let records: Parsed[];
-  try {
-    records = parse(text, {
-      bom: true,
-      relax_column_count: true,
-      skip_empty_lines: true,
-      info: true,
-    }) as unknown as Parsed[];
-  } catch (error) {
-    const failure = error as { lines?: number; message?: string };
-    throw new ArchiveFormatError(failure.lines ?? 1, null, `not readable as CSV: ${failure.message ?? 'syntax error'}`);
-  }
-  const [header, ...rows] = records;
-  if (!header) throw new ArchiveFormatError(1, null, 'the file is empty: a GSOD CSV file starts with its header');
+  const { header, rows } = readArchiveCsv(text, 'a GSOD CSV file');
   const columns = header.record.map((name) => name.trim().toUpperCase());
   const position = new Map(columns.map((name, i) => [name, i]));
   const absent = REQUIRED.filter((name) => !position.has(name));
