@@ -17,7 +17,7 @@
  *    same savings computed in-process by the engine alone.
  * Invented data only. Prints a table and writes results/service-latest.json.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
@@ -35,8 +35,8 @@ import {
 } from '../../src/demo/scenario.js';
 import { median, quantile } from './timing.js';
 import { postgresReachable, testPostgresUrl } from '../support/database.js';
-import { freePort } from '../support/ports.js';
-import { REPO_ROOT, RESULTS_DIR, serverArguments } from './paths.js';
+import { REPO_ROOT, RESULTS_DIR } from './paths.js';
+import { startBenchService } from './service-process.js';
 import { benchBootstrapKey } from './bench-key.js';
 
 const ROOT = REPO_ROOT;
@@ -48,35 +48,11 @@ const BATCH = 2_500;
 const LOAD_SECONDS = 10;
 const CONNECTIONS = 10;
 
-async function startServer(
+function startServer(
   databaseUrl: string,
   extraEnv: Record<string, string> = {},
 ): Promise<{ child: ChildProcess; base: string }> {
-  const port = await freePort();
-  const child = spawn(process.execPath, serverArguments(), {
-    env: {
-      ...process.env,
-      ...extraEnv,
-      PORT: String(port),
-      HOST: '127.0.0.1',
-      DATABASE_URL: databaseUrl,
-      LOG_LEVEL: 'warn',
-      MVLEDGER_BOOTSTRAP_KEY: BOOTSTRAP_KEY,
-      RATE_LIMIT_PER_MINUTE: '0',
-    },
-    stdio: ['ignore', 'inherit', 'inherit'],
-  });
-  const base = `http://127.0.0.1:${port}`;
-  for (let attempt = 0; attempt < 200; attempt++) {
-    try {
-      if ((await fetch(`${base}/readyz`)).ok) return { child, base };
-    } catch {
-      // not listening yet
-    }
-    await new Promise((r) => setTimeout(r, 100));
-  }
-  child.kill('SIGKILL');
-  throw new Error('the service did not become ready');
+  return startBenchService({ databaseUrl, bootstrapKey: BOOTSTRAP_KEY, extraEnv });
 }
 
 async function api(base: string, method: string, path: string, body?: unknown): Promise<any> {

@@ -13,15 +13,15 @@
  * PostgreSQL schema. Medians of RUNS runs each. Target: ≤ 1 s per import.
  * Prints a table and writes results/weather-import-latest.json.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { addDays } from '../../src/engine/index.js';
 import { median } from './timing.js';
 import { dropTestDatabase, freshTestDatabaseUrl, postgresReachable } from '../support/database.js';
-import { freePort } from '../support/ports.js';
-import { REPO_ROOT, RESULTS_DIR, RUNTIME, serverArguments } from './paths.js';
+import { REPO_ROOT, RESULTS_DIR, RUNTIME } from './paths.js';
+import { startBenchService } from './service-process.js';
 import { benchBootstrapKey } from './bench-key.js';
 
 const WORK = join(REPO_ROOT, 'var', 'bench-weather');
@@ -80,31 +80,8 @@ function dlyFile(days: readonly (Day | null)[]): string {
   return `${lines.join('\n')}\n`;
 }
 
-async function startServer(databaseUrl: string): Promise<{ child: ChildProcess; base: string }> {
-  const port = await freePort();
-  const child = spawn(process.execPath, serverArguments(), {
-    env: {
-      ...process.env,
-      PORT: String(port),
-      HOST: '127.0.0.1',
-      DATABASE_URL: databaseUrl,
-      LOG_LEVEL: 'warn',
-      MVLEDGER_BOOTSTRAP_KEY: KEY,
-      RATE_LIMIT_PER_MINUTE: '0',
-    },
-    stdio: ['ignore', 'inherit', 'inherit'],
-  });
-  const base = `http://127.0.0.1:${port}`;
-  for (let attempt = 0; attempt < 300; attempt++) {
-    try {
-      if ((await fetch(`${base}/readyz`)).ok) return { child, base };
-    } catch {
-      // not listening yet
-    }
-    await new Promise((r) => setTimeout(r, 100));
-  }
-  child.kill('SIGKILL');
-  throw new Error('the service did not become ready');
+function startServer(databaseUrl: string): Promise<{ child: ChildProcess; base: string }> {
+  return startBenchService({ databaseUrl, bootstrapKey: KEY, attempts: 300 });
 }
 
 async function send(base: string, method: string, path: string, body: string, contentType: string): Promise<any> {
