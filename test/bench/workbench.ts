@@ -4,6 +4,9 @@
  * of the demo district (three years of invented monthly bills, all six shapes
  * fitted as a draft), timed from navigation start to the mark the bench sets
  * two animation frames after it has drawn (the frame is painted by then).
+ * The bench draws its first screenful (status and every shape on the
+ * signature chart) first and the rest below it in the frame after; the time
+ * until that rest is drawn too is reported beside it ("complete").
  * Target (the issue): ≤ 300 ms.
  *
  * Two visits, interleaved rep by rep so both see the same machine load:
@@ -13,7 +16,7 @@
  * - first: a new browser context each time (empty cache: page, styles and
  *   script fetched).
  * Each is split into phases from the page's own marks: navigation to the
- * script running, to the bench's data in hand, to drawn, to painted.
+ * script running, to the bench's data in hand, to drawn, to painted, to complete.
  *
  * Reference beside it, in the same page and run: the API answers the bench
  * reads (the key check, meter, baseline history, readings, baseline,
@@ -34,7 +37,13 @@ import { RESULTS_DIR, RUNTIME } from './paths.js';
 
 const REPS = 25;
 const WARM_UP = 3;
-const MARKS = ['workbench:script', 'workbench:bench-data', 'workbench:bench-drawn', 'workbench:bench-painted'] as const;
+const MARKS = [
+  'workbench:script',
+  'workbench:bench-data',
+  'workbench:bench-drawn',
+  'workbench:bench-painted',
+  'workbench:bench-complete',
+] as const;
 
 interface Visit {
   /** Navigation start → response of the page. */
@@ -45,8 +54,10 @@ interface Visit {
   data: number;
   /** → drawn (the DOM built). */
   drawn: number;
-  /** → painted (first paint of the bench). */
+  /** → painted (first paint of the bench: its first screenful). */
   painted: number;
+  /** → everything below the first screenful drawn too (residuals, bills, statistics, forms). */
+  complete: number;
   /** Requests the page made before its data was in hand. */
   requests: number;
 }
@@ -54,7 +65,7 @@ interface Visit {
 async function openBench(page: Page, url: string): Promise<Visit> {
   await page.goto('about:blank');
   await page.goto(url);
-  await page.waitForFunction(() => performance.getEntriesByName('workbench:bench-painted').length > 0);
+  await page.waitForFunction(() => performance.getEntriesByName('workbench:bench-complete').length > 0);
   return page.evaluate((names) => {
     const at = (name: string) => performance.getEntriesByName(name)[0]!.startTime;
     // The page's own navigation entry (a DOM type; the benchmark compiles against Node's types).
@@ -68,6 +79,7 @@ async function openBench(page: Page, url: string): Promise<Visit> {
       data: dataAt,
       drawn: at(names[2]),
       painted: at(names[3]),
+      complete: at(names[4]),
       requests: 1 + performance.getEntriesByType('resource').filter((r) => r.startTime < dataAt).length,
     };
   }, MARKS);
@@ -84,6 +96,7 @@ function summary(visits: readonly Visit[]) {
       dataInHand: median(of('data')),
       drawn: median(of('drawn')),
       painted: median(of('painted')),
+      complete: median(of('complete')),
     },
     requestsBeforeData: median(of('requests')),
   };

@@ -88,6 +88,14 @@ describe.skipIf(!available)('the workbench at /app', () => {
 
   async function checkScreen(page: Page, name: string): Promise<void> {
     mkdirSync(ARTIFACTS, { recursive: true });
+    // The bench draws what lies below its first screenful a frame later: check the whole screen.
+    await page.waitForFunction(() => {
+      // A DOM global in the page; this file compiles against Node's types.
+      const below = (
+        globalThis as unknown as { document: { querySelector(s: string): { childElementCount: number } | null } }
+      ).document.querySelector('.bench-below');
+      return !below || below.childElementCount > 0;
+    });
     await page.screenshot({ path: join(ARTIFACTS, `workbench-${name}.png`), fullPage: true });
     expect(await seriousViolations(page), `accessibility of ${name}`).toEqual([]);
   }

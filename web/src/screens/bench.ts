@@ -371,10 +371,25 @@ export async function loadBench(meterId: string): Promise<BenchData> {
   return { meter, history, readings: readings.readings, baseline, points };
 }
 
-async function draw(context: ScreenContext, meterId: string, loading?: Promise<BenchData>): Promise<void> {
+/**
+ * Draw the bench in two steps: the first screenful (the status and every
+ * shape on the signature chart) at once, and what lies below it (residuals,
+ * the bills, statistics, reasons and forms) in the frame after that one is
+ * painted, so the first paint waits only for what is in view. Resolves when
+ * the first step is drawn; `complete` when everything is.
+ */
+async function draw(
+  context: ScreenContext,
+  meterId: string,
+  loading?: Promise<BenchData>,
+): Promise<{ complete: Promise<void> }> {
   const { meter, history, readings, baseline, points } = await (loading ?? loadBench(meterId));
   performance.mark('workbench:bench-data');
-  const rerender = () => draw(context, meterId);
+  const rerender = async () => {
+    await (
+      await draw(context, meterId)
+    ).complete;
+  };
   const ledger = context.can('ledger');
   const isDraft = baseline?.status === 'draft';
   const hasFrozen = history.some((b) => b.status === 'frozen');
@@ -384,7 +399,7 @@ async function draw(context: ScreenContext, meterId: string, loading?: Promise<B
     parts.push(notice('info', 'This meter has no baseline yet.'));
     if (ledger) parts.push(fitForm(context, meter, readings, null, rerender));
     replace(context.main, ...parts);
-    return;
+    return { complete: Promise.resolve() };
   }
 
   parts.push(
@@ -494,7 +509,6 @@ async function draw(context: ScreenContext, meterId: string, loading?: Promise<B
     replace(tableHolder, periodsTable(points, model, readings, excludeButton));
   };
   viewSelect.addEventListener('change', showResiduals);
-  showResiduals();
 
   parts.push(
     h(
@@ -511,39 +525,63 @@ async function draw(context: ScreenContext, meterId: string, loading?: Promise<B
           `Use per day against mean outdoor temperature; the chosen shape (${baseline.chosen}) is the heavy solid line, the others dashed and labelled.`,
         ),
       ),
-      h('h2', {}, 'Residuals'),
-      field('Shape whose residuals are shown', viewSelect),
-      residualHolder,
-      tableHolder,
     ),
   );
-  parts.push(
-    h(
-      'section',
-      { 'aria-labelledby': 'stats-title' },
-      h('h2', { id: 'stats-title' }, 'Statistics'),
-      statisticsTable(baseline),
-    ),
-  );
-  parts.push(reasonsList(baseline));
-  if (ledger) {
-    if (isDraft) {
-      parts.push(chooseForm(baseline, rerender));
-      parts.push(freezeControls(baseline, hasFrozen, rerender));
-    }
-    parts.push(fitForm(context, meter, readings, baseline, rerender));
-  } else {
-    parts.push(
-      notice(
-        'info',
-        `The ${context.caller.key.role} role can look at the bench; fitting, choosing and freezing need the ledger permission.`,
+  const below = h('div', { class: 'bench-below' });
+  replace(context.main, ...parts, below);
+  performance.mark('workbench:bench-drawn');
+
+  // What lies below the first screenful, built once that screen is painted.
+  const drawBelow = (): void => {
+    showResiduals();
+    const rest: (Node | null)[] = [];
+    rest.push(
+      h(
+        'section',
+        { class: 'bench-residuals', 'aria-labelledby': 'residuals-title' },
+        h('h2', { id: 'residuals-title' }, 'Residuals'),
+        field('Shape whose residuals are shown', viewSelect),
+        residualHolder,
+        tableHolder,
       ),
     );
-  }
-  replace(context.main, ...parts);
-  performance.mark('workbench:bench-drawn');
-  // Two frames later the browser has painted what was drawn (the benchmark reads this mark).
-  requestAnimationFrame(() => requestAnimationFrame(() => performance.mark('workbench:bench-painted')));
+    rest.push(
+      h(
+        'section',
+        { 'aria-labelledby': 'stats-title' },
+        h('h2', { id: 'stats-title' }, 'Statistics'),
+        statisticsTable(baseline),
+      ),
+    );
+    rest.push(reasonsList(baseline));
+    if (ledger) {
+      if (isDraft) {
+        rest.push(chooseForm(baseline, rerender));
+        rest.push(freezeControls(baseline, hasFrozen, rerender));
+      }
+      rest.push(fitForm(context, meter, readings, baseline, rerender));
+    } else {
+      rest.push(
+        notice(
+          'info',
+          `The ${context.caller.key.role} role can look at the bench; fitting, choosing and freezing need the ledger permission.`,
+        ),
+      );
+    }
+    replace(below, ...rest);
+  };
+  // Two frames later the browser has painted the first screenful (the benchmark reads this mark).
+  const complete = new Promise<void>((resolve) =>
+    requestAnimationFrame(() =>
+      requestAnimationFrame(() => {
+        performance.mark('workbench:bench-painted');
+        drawBelow();
+        performance.mark('workbench:bench-complete');
+        resolve();
+      }),
+    ),
+  );
+  return { complete };
 }
 
 /** The bench of a meter; `loading` is its data when main.ts started reading it early. */
