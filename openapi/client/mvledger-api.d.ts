@@ -315,7 +315,7 @@ export interface paths {
         get: operations["getFacilitiesByIdCalendar"];
         /**
          * Replace a facility's calendar
-         * @description Replaced whole, all or nothing: an unknown day type or overlapping exceptions are refused (400 naming the field); a change to the day type of any day inside a frozen baseline window of one of the facility’s meters is refused (409). Fits use it with options.dayTypes.
+         * @description Replaced whole, all or nothing: an unknown day type or overlapping exceptions are refused (400 naming the field, or the CSV row); a change to the day type of any day inside a frozen baseline window of one of the facility’s meters is refused (409). Fits use it with options.dayTypes.
          */
         put: operations["putFacilitiesByIdCalendar"];
         post?: never;
@@ -3556,7 +3556,12 @@ export interface operations {
     };
     putFacilitiesByIdCalendar: {
         parameters: {
-            query?: never;
+            query?: {
+                /** @description For text/csv bodies: the day types, the reference first, separated by commas */
+                dayTypes?: string;
+                /** @description For text/csv bodies: the day type of each weekday, Monday first (7 names), separated by commas */
+                weekly?: string;
+            };
             header?: {
                 /** @description Replays return the first response; a different request with the same key is refused (422). */
                 "idempotency-key"?: string;
@@ -3566,6 +3571,7 @@ export interface operations {
             };
             cookie?: never;
         };
+        /** @description Also accepted as text/csv: one exception per row under the header start,end,dayType (note optional); the day types and the weekly pattern then come as the dayTypes and weekly query parameters, or, when those are absent, are kept from the stored calendar (so a new year of term dates is one file). */
         requestBody: {
             content: {
                 "application/json": {
@@ -6315,6 +6321,8 @@ export interface operations {
             query?: {
                 /** @description For text/csv bodies: why stored values are being changed */
                 correctionReason?: string;
+                /** @description For text/csv bodies: the unit the values are in (checked as in a JSON body) */
+                unit?: string;
             };
             header?: {
                 /** @description Replays return the first response; a different request with the same key is refused (422). */
@@ -6325,12 +6333,14 @@ export interface operations {
             };
             cookie?: never;
         };
-        /** @description Also accepted as text/csv with the header date,value (daily) or start,end,value (per-period); the correction reason then comes as the correctionReason query parameter. */
+        /** @description Also accepted as text/csv with the header date,value (daily) or start,end,value (per-period); the correction reason and the unit then come as query parameters. */
         requestBody: {
             content: {
                 "application/json": {
                     /** @description Why stored values are being changed; required when the batch changes any */
                     correctionReason?: string;
+                    /** @description The unit the values are in, as the sender understands it; when given it must be the variable's unit (a batch in another unit is refused with nothing stored, never converted) */
+                    unit?: string;
                     values: {
                         /**
                          * Format: date

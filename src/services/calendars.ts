@@ -20,6 +20,7 @@ import { DomainError, fieldErrors, MAX_LISTED_ERRORS } from '../domain/errors.js
 import { audit, inTransaction, type Executor, type ServiceContext } from './context.js';
 import { getFacilityRow } from './facilities.js';
 import { PROTECTING_STATUSES } from './frozen-windows.js';
+import { jsonLocator, type RecordLocator } from './readings.js';
 
 export interface StoredCalendar extends FacilityCalendar {
   facilityId: string;
@@ -54,11 +55,18 @@ export async function getCalendar(db: Executor, organisationId: string, facility
   return calendar;
 }
 
+/** "exceptions[3].end" as the caller sent it ("row 5, field end" for a CSV body); other fields as they are. */
+function exceptionField(field: string, locate: RecordLocator): string {
+  const match = /^exceptions\[(\d+)\](?:\.(\w+))?$/.exec(field);
+  return match ? locate(Number(match[1]), match[2]) : field;
+}
+
 /** Replace the facility's calendar, all or nothing. */
 export async function putCalendar(
   ctx: ServiceContext,
   facilityId: string,
   input: FacilityCalendar,
+  locate: RecordLocator = jsonLocator('exceptions'),
 ): Promise<StoredCalendar> {
   const calendar: FacilityCalendar = {
     dayTypes: [...input.dayTypes],
@@ -70,7 +78,10 @@ export async function putCalendar(
       ...(e.note !== undefined ? { note: e.note } : {}),
     })),
   };
-  const problems = checkCalendar(calendar);
+  const problems = checkCalendar(calendar).map((problem) => ({
+    ...problem,
+    field: exceptionField(problem.field, locate),
+  }));
   if (problems.length > 0) throw fieldErrors('invalid', problems, MAX_LISTED_ERRORS);
   return inTransaction(ctx, async (trx) => {
     await getFacilityRow(trx, ctx.principal.organisationId, facilityId);

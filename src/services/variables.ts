@@ -128,6 +128,18 @@ export async function createVariable(ctx: ServiceContext, facilityId: string, in
   });
 }
 
+/**
+ * A batch that states its unit must be in the variable's: values in another
+ * unit (hours posted to a variable in days) would silently rescale its
+ * coefficient, so they are refused, never converted. Compared as written,
+ * ignoring case and surrounding spaces.
+ */
+function assertSameUnit(variable: VariableRow, unit: string | undefined): void {
+  if (unit === undefined || unit.trim().toLowerCase() === variable.unit.trim().toLowerCase()) return;
+  const message = `the values are in "${unit.trim()}" but variable ${variable.id} ("${variable.name}") is in "${variable.unit}"; convert them or define a variable in that unit`;
+  throw new DomainError('unprocessable', `unit: ${message}`, [{ field: 'unit', message }]);
+}
+
 /** The organisation's variable, or a 404 (another organisation's id included). */
 export async function getVariableRow(db: Executor, organisationId: string, id: string): Promise<VariableRow> {
   const row = await db
@@ -261,13 +273,14 @@ function periodsOfBatch(
 export async function postVariableValues(
   ctx: ServiceContext,
   variableId: string,
-  input: { values: readonly VariableValueInput[]; correctionReason?: string },
+  input: { values: readonly VariableValueInput[]; correctionReason?: string; unit?: string },
   locate: RecordLocator = jsonLocator('values'),
 ): Promise<PostVariableValuesResult> {
   const organisationId = ctx.principal.organisationId;
   const reason = input.correctionReason?.trim() || undefined;
   return inTransaction(ctx, async (trx) => {
     const variable = await getVariableRow(trx, organisationId, variableId);
+    assertSameUnit(variable, input.unit);
     const batch = periodsOfBatch(variable, input.values, locate);
     const stored = await storedAround(trx, variableId, batch);
     const created: { index: number; start: string; end: string; value: number }[] = [];

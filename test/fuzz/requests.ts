@@ -318,7 +318,9 @@ const MULTIPART_BODY =
 
 /** The columns a CSV route takes, read from the body schema's collection items. */
 function csvColumns(route: FuzzRoute): { collection: string; columns: string[] } | null {
-  const [collection, array] = Object.entries(route.body?.properties ?? {}).find(([, s]) => s.type === 'array') ?? [];
+  // The records' array (a calendar's body also holds arrays of plain names, which a CSV does not carry).
+  const [collection, array] =
+    Object.entries(route.body?.properties ?? {}).find(([, s]) => s.type === 'array' && s.items?.properties) ?? [];
   if (!collection || !array?.items?.properties) return null;
   return { collection, columns: Object.keys(array.items.properties) };
 }
@@ -369,7 +371,9 @@ function csvCell(column: string): fc.Arbitrary<string> {
       ? plausibleDate
       : column === 'estimated'
         ? fc.constantFrom('true', 'false', 'yes', 'no', '1', '0')
-        : fc.double({ min: -50, max: 5000, noNaN: true }).map((v) => String(Math.round(v * 10) / 10));
+        : column === 'dayType' || column === 'note'
+          ? fc.constantFrom('working', 'weekend', 'break', 'holiday')
+          : fc.double({ min: -50, max: 5000, noNaN: true }).map((v) => String(Math.round(v * 10) / 10));
   return fc.oneof(
     { weight: 5, arbitrary: plausible },
     { weight: 2, arbitrary: fc.constantFrom(...HOSTILE_CELLS) },

@@ -114,7 +114,7 @@ describe('every route, fuzzed', () => {
     // The API contract: the documented surface (health, keys, audit, stations, facilities, meters, readings, baselines, savings,
     // adjustments, rates, contracts, normal years, reports).
     expect(routes.length).toBeGreaterThanOrEqual(37);
-    // The API contract: the four routes documented as also taking text/csv.
+    // The API contract: the five routes documented as also taking text/csv.
     expect(
       routes
         .filter((r) => r.takesCsv)
@@ -123,6 +123,7 @@ describe('every route, fuzzed', () => {
     ).toEqual([
       'POST /v1/meters/{id}/readings',
       'POST /v1/variables/{id}/values',
+      'PUT /v1/facilities/{id}/calendar',
       'PUT /v1/weather-stations/{id}/normal-year',
       'PUT /v1/weather-stations/{id}/observations',
     ]);

@@ -164,4 +164,58 @@ describe('facility calendars (PUT/GET /v1/facilities/{id}/calendar) and day type
     // No retrofit: the saving is noise, within a few of its standard errors (the truth the test set).
     expect(Math.abs(savings.json.totals.savings)).toBeLessThan(3 * savings.json.totals.uncertainty.exact.absolute);
   });
+
+  it('takes the exceptions as a CSV file, day types and week from the query or kept from the stored calendar', async () => {
+    const facility = await api.call('POST', '/v1/facilities', {
+      as: 'engineer',
+      body: { name: 'Upper school (invented)' },
+    });
+    const facilityId = facility.json.id;
+    const url = `/v1/facilities/${facilityId}/calendar`;
+    const file = (rows: string[]) => ['start,end,dayType,note', ...rows].join('\n') + '\n';
+    const terms2032 = file(['2032-07-01,2032-09-01,break,summer break (invented)', '2032-12-20,2033-01-04,break,']);
+    const before = await databaseDigest(api.store.db);
+    // No calendar yet and no day types in the query: refused naming the query field.
+    const bare = await api.call('PUT', url, { as: 'engineer', csv: terms2032 });
+    expect(bare.status).toBe(400);
+    expect(bare.json.errors[0].field).toBe('query.dayTypes');
+    // Overlapping rows: refused naming the CSV row (header is row 1); an unknown day type likewise.
+    const week = 'weekly=term,term,term,term,term,weekend,weekend';
+    const overlapping = await api.call('PUT', `${url}?dayTypes=term,weekend,break&${week}`, {
+      as: 'engineer',
+      csv: file(['2032-07-01,2032-09-01,break,', '2032-08-30,2032-09-03,term,']),
+    });
+    expect(overlapping.status).toBe(400);
+    expect(overlapping.json.detail).toMatch(/^row 3: 2032-08-30\.\.2032-09-03 overlaps/);
+    const unknown = await api.call('PUT', `${url}?dayTypes=term,weekend,break&${week}`, {
+      as: 'engineer',
+      csv: file(['2032-07-01,2032-09-01,holidays,']),
+    });
+    expect(unknown.status).toBe(400);
+    expect(unknown.json.errors[0].field).toBe('row 2, field dayType');
+    expect(await databaseDigest(api.store.db)).toBe(before);
+
+    const first = await api.call('PUT', `${url}?dayTypes=term,weekend,break&${week}`, {
+      as: 'engineer',
+      csv: terms2032,
+    });
+    expect(first.status).toBe(200);
+    expect(first.json).toMatchObject({
+      dayTypes: ['term', 'weekend', 'break'],
+      weekly: ['term', 'term', 'term', 'term', 'term', 'weekend', 'weekend'],
+      exceptions: [
+        { start: '2032-07-01', end: '2032-09-01', dayType: 'break', note: 'summer break (invented)' },
+        { start: '2032-12-20', end: '2033-01-04', dayType: 'break' },
+      ],
+    });
+    // Next year's term dates: one file, the day types and week kept from the stored calendar.
+    const next = await api.call('PUT', url, {
+      as: 'engineer',
+      csv: file(['2032-07-01,2032-09-01,break,', '2033-07-01,2033-09-02,break,summer break 2033 (invented)']),
+    });
+    expect(next.status).toBe(200);
+    expect(next.json.dayTypes).toEqual(['term', 'weekend', 'break']);
+    expect(next.json.weekly[5]).toBe('weekend');
+    expect(next.json.exceptions.map((e: { start: string }) => e.start)).toEqual(['2032-07-01', '2033-07-01']);
+  });
 });

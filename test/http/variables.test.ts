@@ -165,7 +165,7 @@ describe('independent variables (POST/GET /v1/facilities/{id}/variables, /v1/var
     expect((await verifyAuditChain(api.store.db, api.organisationId)).ok).toBe(true);
   });
 
-  it('refuses bad values naming the row, a gap in the baseline values naming the dates, and an unknown name; nothing stored', async () => {
+  it('refuses bad values naming the row, values in another unit, a gap in the baseline values naming the dates, and an unknown name; nothing stored', async () => {
     const { facilityId, meterId } = await seed();
     const daily = await api.call('POST', `/v1/facilities/${facilityId}/variables`, {
       as: 'engineer',
@@ -185,7 +185,27 @@ describe('independent variables (POST/GET /v1/facilities/{id}/variables, /v1/var
     });
     expect(period.status).toBe(400);
     expect(period.json.detail).toMatch(/^values\[0\]\.date: a daily variable's value names its date/);
+    // Values that say they are in another unit than the variable's are refused, not converted (JSON and CSV).
+    const hours = await api.call('POST', `/v1/variables/${daily.json.id}/values`, {
+      as: 'integration',
+      body: { unit: 'hours', values: [{ date: '2023-01-01', value: 9 }] },
+    });
+    expect(hours.status).toBe(422);
+    expect(hours.json.errors).toEqual([
+      { field: 'unit', message: expect.stringContaining('are in "hours" but variable') },
+    ]);
+    const hoursCsv = await api.call('POST', `/v1/variables/${daily.json.id}/values?unit=hours`, {
+      as: 'integration',
+      csv: 'date,value\n2023-01-01,9\n',
+    });
+    expect(hoursCsv.status).toBe(422);
+    expect(hoursCsv.json.detail).toMatch(/^unit: the values are in "hours" but variable .* is in "share"/);
     expect(await databaseDigest(api.store.db)).toBe(before);
+    const sameUnit = await api.call('POST', `/v1/variables/${daily.json.id}/values?unit=Share`, {
+      as: 'integration',
+      csv: 'date,value\n2022-12-31,1\n',
+    });
+    expect(sameUnit.status).toBe(201); // the unit compared ignoring case
 
     // Every day of the baseline but one.
     const values = [];

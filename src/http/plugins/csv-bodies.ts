@@ -12,7 +12,7 @@ import { InputFileError } from '../../lib/csv/input-error.js';
 import { Problem } from '../problem.js';
 import { FASTIFY_VERSION, PLUGIN } from './names.js';
 
-export type CsvCollection = 'readings' | 'observations' | 'days' | 'values';
+export type CsvCollection = 'readings' | 'observations' | 'days' | 'values' | 'exceptions';
 
 /** A CSV normal year carries its source in this header (the CSV itself holds only day,temp). */
 export const NORMAL_YEAR_SOURCE_HEADER = 'x-normal-year-source';
@@ -47,7 +47,16 @@ const COLUMNS: Record<CsvCollection, { required: string[][]; optional: string[];
     optional: [],
     flags: [],
   },
+  // A calendar's dated exceptions; its day types and weekly pattern come beside them (the route says how).
+  // Header names are compared in lower case; `daytype` becomes the body's `dayType`.
+  exceptions: { required: [['start', 'end', 'daytype']], optional: ['note'], flags: [] },
 };
+
+/** Columns whose body field is not the column's lower-case name. */
+const BODY_FIELD: Readonly<Record<string, string>> = { daytype: 'dayType' };
+
+/** Columns taken as text whatever they hold (dates, names). */
+const TEXT_COLUMNS = new Set(['date', 'day', 'start', 'end', 'daytype', 'note']);
 
 const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 const BODY = 'request body';
@@ -91,10 +100,9 @@ export function csvToBody(collection: CsvCollection, text: string): { body: Reco
     const record: Record<string, unknown> = {};
     for (const [column, text] of row.cells) {
       if (text === '' || !allowed.has(column)) continue;
-      record[column] =
-        column === 'date' || column === 'day' || column === 'start' || column === 'end'
-          ? text
-          : cellValue(text, spec.flags.includes(column));
+      record[BODY_FIELD[column] ?? column] = TEXT_COLUMNS.has(column)
+        ? text
+        : cellValue(text, spec.flags.includes(column));
     }
     return record;
   });

@@ -78,10 +78,15 @@ export function variablesRoutes(app: ApiApp, deps: RouteDeps): void {
     },
     async (request, reply) => {
       const correctionReason = request.body.correctionReason ?? request.query.correctionReason;
+      const unit = request.body.unit ?? request.query.unit;
       const result = await postVariableValues(
         requestContext(request, deps).service,
         request.params.id,
-        { values: request.body.values, ...(correctionReason !== undefined ? { correctionReason } : {}) },
+        {
+          values: request.body.values,
+          ...(correctionReason !== undefined ? { correctionReason } : {}),
+          ...(unit !== undefined ? { unit } : {}),
+        },
         recordLocator(request, 'values'),
       );
       return reply.code(result.created + result.corrected > 0 ? 201 : 200).send(result);

@@ -30,7 +30,21 @@ export const putCalendarBody = z
       .max(2000, 'at most 2000 exceptions')
       .describe('Dated exceptions overriding the weekly pattern (terms, breaks, holidays); they never overlap'),
   })
-  .strict();
+  .strict()
+  .describe(
+    'Also accepted as text/csv: one exception per row under the header start,end,dayType (note optional); the day types and the weekly pattern then come as the dayTypes and weekly query parameters, or, when those are absent, are kept from the stored calendar (so a new year of term dates is one file).',
+  );
+
+const commaList = (what: string) =>
+  plainText()
+    .max(1000, 'must be at most 1000 characters')
+    .optional()
+    .describe(`For text/csv bodies: ${what}, separated by commas`);
+
+export const putCalendarQuery = z.object({
+  dayTypes: commaList('the day types, the reference first'),
+  weekly: commaList('the day type of each weekday, Monday first (7 names)'),
+});
 
 export const calendarSchema = z
   .object({

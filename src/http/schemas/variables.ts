@@ -55,6 +55,14 @@ export const variableValueInput = z
   })
   .strict();
 
+const valuesUnit = plainText()
+  .trim()
+  .min(1, 'must not be empty')
+  .max(50, 'must be at most 50 characters')
+  .describe(
+    "The unit the values are in, as the sender understands it; when given it must be the variable's unit (a batch in another unit is refused with nothing stored, never converted)",
+  );
+
 const correctionReason = plainText().trim().min(1, 'must not be empty').max(1000, 'must be at most 1000 characters');
 
 export const postVariableValuesBody = z
@@ -66,14 +74,16 @@ export const postVariableValuesBody = z
     correctionReason: correctionReason
       .optional()
       .describe('Why stored values are being changed; required when the batch changes any'),
+    unit: valuesUnit.optional(),
   })
   .strict()
   .describe(
-    'Also accepted as text/csv with the header date,value (daily) or start,end,value (per-period); the correction reason then comes as the correctionReason query parameter.',
+    'Also accepted as text/csv with the header date,value (daily) or start,end,value (per-period); the correction reason and the unit then come as query parameters.',
   );
 
 export const postVariableValuesQuery = z.object({
   correctionReason: correctionReason.optional().describe('For text/csv bodies: why stored values are being changed'),
+  unit: valuesUnit.optional().describe('For text/csv bodies: the unit the values are in (checked as in a JSON body)'),
 });
 
 export const postVariableValuesResult = z
