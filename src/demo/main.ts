@@ -29,6 +29,7 @@ import {
   demoBills,
   demoWeather,
 } from './scenario.js';
+import { describeCalendarCase, seedCalendarCase, type CalendarCase } from './calendar-case.js';
 
 export const DEMO_DATABASE = join('var', 'demo', 'mvledger-demo.sqlite');
 
@@ -43,6 +44,8 @@ export interface DemoSeed {
     name: string;
     meters: { id: string; name: string; unit: string; baselineId: string; model: string }[];
   }[];
+  /** The early-years centre fitted without and with its calendar (calendar-case.ts). */
+  calendarCase: CalendarCase;
   /** HTML reports fetched from the API and saved next to the demo database. */
   reports: { quarter: string; contractYear: string };
 }
@@ -166,6 +169,7 @@ export async function seedDemo(
     });
     facilities.push({ id: facility.id, name: plan.name, meters });
   }
+  const calendarCase = await seedCalendarCase(client(base, engineer.token), billing, station.id, weatherByDate);
   const reports = {
     quarter: await saveReport(
       base,
@@ -187,6 +191,7 @@ export async function seedDemo(
     integrationKey: integration.token,
     stationId: station.id,
     facilities,
+    calendarCase,
     reports,
   };
 }
@@ -208,7 +213,7 @@ export function describeDemo(base: string, seed: DemoSeed): string {
   const first = seed.facilities[0]!.meters[0]!;
   const lines = [
     '',
-    'mvledger demo: the invented Quillfen School District (three schools, electricity and gas,',
+    'mvledger demo: the invented Quillfen School District (three schools, electricity and gas, and an early-years centre,',
     `baseline ${BASELINE_START}..${BASELINE_END}, reporting year 2025)`,
     '',
     `  admin key:        ${seed.adminKey}`,
@@ -236,6 +241,9 @@ export function describeDemo(base: string, seed: DemoSeed): string {
       lines.push(`    signature:      ${base}/v1/baselines/${meter.baselineId}/signature.svg`);
     }
   }
+  lines.push('');
+  lines.push(...describeCalendarCase(base, seed.calendarCase));
+  lines.push('');
   lines.push(`  audit check:      ${base}/v1/audit/verify`);
   lines.push('');
   lines.push('Try:');

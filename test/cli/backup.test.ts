@@ -21,7 +21,7 @@ const folder = makeTempFolder();
 const source = folder.path('source.sqlite');
 const backup = folder.path('backup.sqlite');
 const VERIFIED =
-  /verified: 1 organisation, \d+ audit rows in unbroken chains, 6 frozen or superseded baselines match their content hashes\n$/; // the demo: one organisation, six meters
+  /verified: 1 organisation, \d+ audit rows in unbroken chains, 8 frozen or superseded baselines match their content hashes\n$/; // the demo: one organisation, seven meters, one of them with a superseded baseline
 
 function cli(url: string, args: string[]): Promise<CliRun> {
   vi.stubEnv('DATABASE_URL', url);

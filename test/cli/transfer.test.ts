@@ -144,7 +144,7 @@ describe('mvledger import', () => {
         expect(run.code, run.stderr).toBe(0);
         expect(run.stdout).toBe('');
         expect(run.stderr).toMatch(new RegExp(`^imported organisation ${organisationId} `));
-        expect(run.stderr).toContain('  baselines: 6 rows\n'); // synthetic: the demo freezes one baseline on each of six meters
+        expect(run.stderr).toContain('  baselines: 8 rows\n'); // synthetic: the demo freezes one baseline on each of seven meters, and the early-years centre's first one is superseded
         expect(run.stderr).toContain('(verified in the target)');
         const again = await cli(url, ['export', '--org', organisationId]);
         expect(again.code).toBe(0);

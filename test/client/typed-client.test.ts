@@ -53,7 +53,7 @@ describe('a typed client generated from the OpenAPI document drives the demo', (
     const listed = await api.GET('/v1/meters');
     expect(listed.response.status).toBe(200);
     const meters = listed.data!.meters;
-    expect(meters).toHaveLength(seed.facilities.flatMap((f) => f.meters).length); // the scenario's six meters
+    expect(meters).toHaveLength(seed.facilities.flatMap((f) => f.meters).length + 1); // the scenario's six school meters and the early-years centre's
     const meter = meters[0]!;
 
     const bill = { start: '2026-01-01', end: '2026-02-01', quantity: 1234.5, cost: 180.25 };

@@ -64,6 +64,17 @@ describe('npm run demo', () => {
     }
   });
 
+  it('prints the calendar case: weather alone books the longer break as savings, the calendar does not', () => {
+    const { weatherOnly, withCalendar, trueSavings } = seed.calendarCase;
+    expect(printed).toContain('Why a calendar matters');
+    expect(printed).toContain(`/v1/meters/${seed.calendarCase.meterId}/savings`);
+    // synthetic: the scenario sets the truth (an 8% saving; a 2025 summer break two weeks longer than the baseline's)
+    expect(withCalendar.model).toContain('day type: break');
+    expect(withCalendar.guideline14).toBe(true);
+    expect(Math.abs(withCalendar.savings - trueSavings)).toBeLessThan(withCalendar.uncertainty);
+    expect(weatherOnly.savings).toBeGreaterThan(1.5 * trueSavings);
+  });
+
   it('serves a signature chart and a verifying audit chain', async () => {
     const meter = seed.facilities[0]!.meters[0]!;
     const chart = await get(`/v1/baselines/${meter.baselineId}/signature.svg`, seed.analystKey);

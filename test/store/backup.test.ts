@@ -6,8 +6,8 @@
  *
  * Check values: the source database itself (synthetic: the demo scenario sets
  * the truth, and the copy must agree with it row for row and byte for byte);
- * the demo's own counts (one organisation, six meters, each with one frozen
- * baseline); the hash chain and content hashes of src/store/audit.ts and
+ * the demo's own counts (one organisation, six school meters each with one
+ * frozen baseline, and the early-years centre's frozen and superseded pair); the hash chain and content hashes of src/store/audit.ts and
  * baseline-content.ts (an edited row must be named).
  */
 import { copyFileSync, mkdtempSync, rmSync } from 'node:fs';
@@ -28,7 +28,9 @@ import {
 import { openStore, type Store } from '../../src/store/connect.js';
 import { testDialect } from '../support/database.js';
 
-const DEMO_METERS = 6; // three schools × electricity and gas (src/demo/scenario.ts)
+const DEMO_SCHOOL_METERS = 6; // three schools × electricity and gas (src/demo/scenario.ts)
+// Frozen or superseded: one per school meter, and the early-years centre's weather-only baseline superseded by its calendar one.
+const DEMO_SEALED_BASELINES = 8;
 
 describe.skipIf(testDialect() !== 'sqlite')('backup and restore of a SQLite ledger', () => {
   const folder = mkdtempSync(join(tmpdir(), 'mvledger-backup-'));
@@ -88,7 +90,7 @@ describe.skipIf(testDialect() !== 'sqlite')('backup and restore of a SQLite ledg
     const summary = await backingUp;
     const written = statuses.length;
     expect(statuses.every((status) => status === 201)).toBe(true); // every write went through
-    expect(summary.verdict).toMatchObject({ ok: true, organisations: 1, baselines: DEMO_METERS });
+    expect(summary.verdict).toMatchObject({ ok: true, organisations: 1, baselines: DEMO_SEALED_BASELINES });
 
     const copied = await onFile(file('backup.sqlite'), async (copy) => ({
       facilities: await facilityCount(copy),
@@ -108,13 +110,13 @@ describe.skipIf(testDialect() !== 'sqlite')('backup and restore of a SQLite ledg
     expect(summary).toMatchObject({
       replacedOrganisations: 0,
       migrations: [],
-      verdict: { ok: true, organisations: 1, baselines: DEMO_METERS },
+      verdict: { ok: true, organisations: 1, baselines: DEMO_SEALED_BASELINES },
     });
     await onFile(file('restored.sqlite'), async (restored) => {
       const app = await buildApp({ store: restored });
       try {
         const meters = seed.facilities.flatMap((facility) => facility.meters);
-        expect(meters).toHaveLength(DEMO_METERS);
+        expect(meters).toHaveLength(DEMO_SCHOOL_METERS);
         for (const meter of meters) {
           const url = `/v1/meters/${meter.id}/savings?confidence=0.9`;
           const headers = { authorization: `Bearer ${seed.analystKey}` };

@@ -482,7 +482,7 @@ for (const target of targets) {
       const verdict = await verifyAuditChain(store.db, organisationId);
       expect(verdict).toMatchObject({ ok: true, headSeq: document.auditHead.seq, headHash: document.auditHead.hash });
       const frozen = await store.db.selectFrom('baselines').selectAll().where('status', '=', 'frozen').execute();
-      expect(frozen).toHaveLength(6); // synthetic: the demo freezes one baseline per meter, six meters
+      expect(frozen).toHaveLength(7); // synthetic: the demo freezes one baseline per meter, seven meters (src/demo/scenario.ts)
       for (const row of frozen) expect(verifyBaselineContent(row), row.id).toBe(true);
     });
 
