@@ -22,36 +22,66 @@ const PIVOT = 1e-9;
 
 type Side = 'heating' | 'cooling';
 
-/** A factored set of fixed columns: L (row-major f×f), the columns' values, and y projected on them. */
+/** A factored set of fixed columns: L (row-major f×f), the columns, and y projected on them. */
 interface FixedBasis {
   f: number;
-  /** Column c's value for reading b at values[c·n + b]. */
-  values: Float64Array;
+  /** Column c's value for reading b at columns[c][b]. */
+  columns: readonly Float64Array[];
   l: Float64Array;
   zY: Float64Array;
   /** Σw·y² − |L⁻¹r_y|²: the SSE of the fixed columns alone. */
   sst: number;
 }
 
-/** Factor the intercept, the view's extras and `more` (null when they are collinear). */
-export function factorBasis(days: BillDays, more: readonly Float64Array[]): FixedBasis | null {
+/** The intercept and the view's extras, with their weighted inner products (the part every sweep shares). */
+interface BaseColumns {
+  columns: Float64Array[];
+  /** Row-major Gram of `columns`. */
+  gram: Float64Array;
+  /** ⟨column, y⟩ per column. */
+  rY: Float64Array;
+}
+
+/** Base columns per view: a 5P search sweeps once per breakpoint, all beside the same intercept and extras. */
+const baseColumnsOf = new WeakMap<BillDays, BaseColumns>();
+
+function weightedDot(w: Float64Array, a: Float64Array, b: Float64Array): number {
+  let sum = 0;
+  for (let i = 0; i < w.length; i++) sum += w[i]! * a[i]! * b[i]!;
+  return sum;
+}
+
+function baseColumns(days: BillDays): BaseColumns {
+  const cached = baseColumnsOf.get(days);
+  if (cached) return cached;
   const { n, w, y } = days;
-  const columns: Float64Array[] = [new Float64Array(n).fill(1), ...days.extras, ...more];
+  const columns: Float64Array[] = [new Float64Array(n).fill(1), ...days.extras];
   const f = columns.length;
-  const values = new Float64Array(f * n);
-  for (let c = 0; c < f; c++) values.set(columns[c]!, c * n);
   const gram = new Float64Array(f * f);
   const rY = new Float64Array(f);
   for (let a = 0; a < f; a++) {
-    for (let c = 0; c <= a; c++) {
-      let sum = 0;
-      for (let b = 0; b < n; b++) sum += w[b]! * values[a * n + b]! * values[c * n + b]!;
-      gram[a * f + c] = sum;
-      gram[c * f + a] = sum;
-    }
-    let sum = 0;
-    for (let b = 0; b < n; b++) sum += w[b]! * values[a * n + b]! * y[b]!;
-    rY[a] = sum;
+    for (let c = 0; c <= a; c++) gram[a * f + c] = gram[c * f + a] = weightedDot(w, columns[a]!, columns[c]!);
+    rY[a] = weightedDot(w, columns[a]!, y);
+  }
+  const base = { columns, gram, rY };
+  baseColumnsOf.set(days, base);
+  return base;
+}
+
+/** Factor the intercept, the view's extras and `more` (null when they are collinear). */
+export function factorBasis(days: BillDays, more: readonly Float64Array[]): FixedBasis | null {
+  const { w, y } = days;
+  const base = baseColumns(days);
+  const columns = more.length === 0 ? base.columns : [...base.columns, ...more];
+  const f0 = base.columns.length;
+  const f = columns.length;
+  // The base block's inner products are shared; only those of `more` are computed here.
+  const gram = new Float64Array(f * f);
+  const rY = new Float64Array(f);
+  for (let a = 0; a < f; a++) {
+    for (let c = 0; c <= a; c++)
+      gram[a * f + c] = gram[c * f + a] = a < f0 ? base.gram[a * f0 + c]! : weightedDot(w, columns[a]!, columns[c]!);
+    rY[a] = a < f0 ? base.rY[a]! : weightedDot(w, columns[a]!, y);
   }
   const l = new Float64Array(f * f);
   for (let a = 0; a < f; a++) {
@@ -70,7 +100,7 @@ export function factorBasis(days: BillDays, more: readonly Float64Array[]): Fixe
   forward(l, f, rY, zY);
   let explained = 0;
   for (let a = 0; a < f; a++) explained += zY[a]! * zY[a]!;
-  return { f, values, l, zY, sst: days.totalSquares - explained };
+  return { f, columns, l, zY, sst: days.totalSquares - explained };
 }
 
 /** Solve L·z = r (forward substitution). */
@@ -98,7 +128,11 @@ export function sweepHingeWithBasis(
   const basis = factorBasis(days, more);
   if (!basis) return null;
   const { n, w, y, mean, breakpoints, dayStart, dayBill, dayShare, dayTempShare } = days;
-  const { f, values, l, zY, sst } = basis;
+  const { f, columns, l, zY, sst } = basis;
+  // The sweep runs from the first interval whatever the mask, so every evaluated point has the same inner products
+  // (to the last bit) whichever intervals are allowed; it stops after the last allowed one.
+  let last = breakpoints.length - 2;
+  while (last >= 0 && allowed[last] === 0) last--;
   const us = new Float64Array(n);
   const vs = new Float64Array(n);
   const rU = new Float64Array(f);
@@ -117,8 +151,9 @@ export function sweepHingeWithBasis(
     vs[b] = v;
     const wb = w[b]!;
     for (let c = 0; c < f; c++) {
-      rU[c]! += wb * values[c * n + b]! * u;
-      rV[c]! += wb * values[c * n + b]! * v;
+      const value = columns[c]![b]!;
+      rU[c]! += wb * value * u;
+      rV[c]! += wb * value * v;
     }
     guu += wb * u * u;
     guv += wb * u * v;
@@ -129,7 +164,7 @@ export function sweepHingeWithBasis(
 
   let found = false;
   const best: HingeOptimum = { tau: Number.NaN, sse: Number.POSITIVE_INFINITY };
-  for (let j = 0; j + 1 < breakpoints.length; j++) {
+  for (let j = 0; j <= last; j++) {
     for (let d = dayStart[j]!; d < dayStart[j + 1]!; d++) {
       const b = dayBill[d]!;
       const uOld = us[b]!;
@@ -142,7 +177,7 @@ export function sweepHingeWithBasis(
       const du = wb * (uNew - uOld);
       const dv = wb * (vNew - vOld);
       for (let c = 0; c < f; c++) {
-        const value = values[c * n + b]!;
+        const value = columns[c]![b]!;
         rU[c]! += value * du;
         rV[c]! += value * dv;
       }
