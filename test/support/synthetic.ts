@@ -201,3 +201,30 @@ export function hinge(
   const cooling = shape.coolingAbove === undefined ? 0 : (shape.coolingRate ?? 0) * Math.max(x - shape.coolingAbove, 0);
   return shape.base + heating + cooling;
 }
+
+/**
+ * A fully covered period over `temps` (one per day, starting `startOffset`
+ * days after 2030-01-01 unless `origin` says otherwise) with the given use
+ * per day and variables: the engine's Period as the search and fits see it.
+ */
+export function periodOfDays(
+  startOffset: number,
+  temps: number[],
+  usePerDay: number,
+  variables?: Record<string, number>,
+  origin = '2030-01-01',
+): Period {
+  const days = temps.length;
+  return {
+    start: addDays(origin, startOffset),
+    end: addDays(origin, startOffset + days),
+    days,
+    quantity: usePerDay * days,
+    usePerDay,
+    meanTemp: temps.reduce((sum, t) => sum + t, 0) / days,
+    coverage: 1,
+    estimated: false,
+    dayTemps: temps,
+    ...(variables ? { variables } : {}),
+  };
+}

@@ -4,7 +4,7 @@ import { fitShape } from '../../../src/engine/fit/fit-shape.js';
 import { fPValue } from '../../../src/engine/stats/distributions.js';
 import type { Period } from '../../../src/engine/types.js';
 import { dayResolvedGridSearch, dayResolvedSse } from '../../support/day-resolved-grid.js';
-import { seededRandom } from '../../support/synthetic.js';
+import { periodOfDays, seededRandom } from '../../support/synthetic.js';
 
 /**
  * Changepoint shapes with linear terms in independent variables.
@@ -121,18 +121,7 @@ function billsWithVariables(seed: number, count: number): Period[] {
     const cooling = temps.reduce((s, t) => s + Math.max(t - 68, 0), 0) / length;
     const usePerDay =
       250 + 9 * heating + 13 * cooling + 200 * occupied + 1.5 * production + (random.uniform() - 0.5) * 30;
-    periods.push({
-      start: date(day),
-      end: date(day + length),
-      days: length,
-      quantity: usePerDay * length,
-      usePerDay,
-      meanTemp: temps.reduce((s, t) => s + t, 0) / length,
-      coverage: 1,
-      estimated: false,
-      dayTemps: temps,
-      variables: { occupied, production },
-    });
+    periods.push(periodOfDays(day, temps, usePerDay, { occupied, production }));
     day += length;
   }
   return periods;
@@ -168,18 +157,7 @@ describe('a simulated building with a known occupancy effect (synthetic: the tes
       const occupied = d % 7 < 5 ? 1 : 0;
       const noise = 40 * random.normal();
       const use = 400 + 12 * Math.max(56 - temp, 0) + 180 * occupied + noise;
-      return {
-        start: date(d),
-        end: date(d + 1),
-        days: 1,
-        quantity: use,
-        usePerDay: use,
-        meanTemp: temp,
-        coverage: 1,
-        estimated: false,
-        dayTemps: [temp],
-        variables: { occupied },
-      };
+      return periodOfDays(d, [temp], use, { occupied });
     });
   }
   it('recovers the effect within its standard error about as often as it should (40 seeded years)', () => {

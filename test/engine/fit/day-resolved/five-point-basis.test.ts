@@ -3,7 +3,7 @@ import fc from 'fast-check';
 import { fitShape, searchView } from '../../../../src/engine/fit/fit-shape.js';
 import { searchFivePointWithBasis } from '../../../../src/engine/fit/day-resolved/five-point-basis.js';
 import { dayResolvedGridSearch, dayResolvedSse } from '../../../support/day-resolved-grid.js';
-import { seededRandom } from '../../../support/synthetic.js';
+import { periodOfDays, seededRandom } from '../../../support/synthetic.js';
 import type { Period, TemperatureForm } from '../../../../src/engine/types.js';
 
 /**
@@ -20,10 +20,6 @@ import type { Period, TemperatureForm } from '../../../../src/engine/types.js';
  */
 
 const NAMES = ['occupied', 'output'];
-
-function date(offset: number): string {
-  return new Date(Date.UTC(2031, 0, 1 + offset)).toISOString().slice(0, 10);
-}
 
 /** 10–18 readings of 1 day (daily meters) or 2–9 days, two invented variables, use from a random 5P plus noise. */
 function readingsArbitrary(): fc.Arbitrary<Period[]> {
@@ -50,18 +46,7 @@ function readingsArbitrary(): fc.Arbitrary<Period[]> {
         const hdd = temps.reduce((a, t) => a + Math.max(52 - t, 0), 0) / length;
         const cdd = temps.reduce((a, t) => a + Math.max(t - 66, 0), 0) / length;
         const use = 100 + heating * hdd + cooling * cdd + effect * occupied + 0.8 * output + noise * random.normal();
-        periods.push({
-          start: date(day),
-          end: date(day + length),
-          days: length,
-          quantity: use * length,
-          usePerDay: use,
-          meanTemp: temps.reduce((a, t) => a + t, 0) / length,
-          coverage: 1,
-          estimated: false,
-          dayTemps: temps,
-          variables: { occupied, output },
-        });
+        periods.push(periodOfDays(day, temps, use, { occupied, output }, '2031-01-01'));
         day += length;
       }
       return periods;
