@@ -49,7 +49,9 @@ interface ContactRow {
  * Stored readings and protected windows that the batch's periods meet, in
  * one statement. Stored periods never overlap one another, so those meeting
  * [s, e) start at or after the last one starting on or before s, and before
- * e: two probes of the primary key per reading, whatever the meter holds.
+ * e: two probes of the primary key per reading, whatever the meter holds;
+ * and none meets the batch at all when the last one starting before the
+ * batch's last end ends by its first start, which one probe decides first.
  */
 export async function batchContacts(
   trx: Tx,
@@ -60,7 +62,12 @@ export async function batchContacts(
   const starts = periods.map((p) => p.start);
   const ends = periods.map((p) => p.end);
   const { rows } = await sql<ContactRow>`
-    with batch as (select * from unnest(${starts}::text[], ${ends}::text[]) with ordinality as b(s, e, i))
+    with batch as (select * from unnest(${starts}::text[], ${ends}::text[]) with ordinality as b(s, e, i)),
+    span as (select min(s) as lo, max(e) as hi from batch),
+    latest as (
+      select r.period_end from readings r, span
+      where r.meter_id = ${meterId} and r.period_start < span.hi
+      order by r.period_start desc limit 1)
     select 'stored' as kind, batch.i, r.period_start, r.period_end, r.quantity, r.estimated, r.cost, r.created_at, r.updated_at,
            null as baseline_id, null as status
     from batch
@@ -72,6 +79,9 @@ export async function batchContacts(
           (select p.period_start from readings p where p.meter_id = ${meterId} and p.period_start <= batch.s order by p.period_start desc limit 1),
           batch.s)
     ) r on r.period_end > batch.s
+    -- Stored readings never overlap, so when the last one starting before the batch's end ends by its start, none
+    -- meets the batch (the usual case: new bills after the last): one probe instead of two per reading.
+    where exists (select 1 from latest, span where latest.period_end > span.lo)
     union all
     select 'frozen', batch.i, w.period_start, w.period_end, null, null, null, null, null, w.id, w.status
     from batch
