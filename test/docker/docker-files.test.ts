@@ -192,6 +192,23 @@ describe('docker/Dockerfile', () => {
     expect(finalSources).toContain('/app/dist');
   });
 
+  it('bundles the command line that bin/mvledger.js runs and ships both', () => {
+    const builder = dockerfile.find((s) =>
+      s.body.some((i) => i.keyword === 'RUN' && i.args.includes('src/cli/build.mjs')),
+    );
+    expect(builder, 'a stage running node src/cli/build.mjs').toBeDefined();
+    const copied = copiesOf(builder!)
+      .filter((c) => c.from === null)
+      .flatMap((c) => c.sources.map((s) => s.replace(/^\.\//, '').replace(/\/$/, '')));
+    expect(copied).toContain('src'); // the bundle is built from the sources (repository layout)
+    const finalSources = copiesOf(finalStage).flatMap((c) =>
+      c.sources.map((s) => s.replace(/^\.\//, '').replace(/\/$/, '')),
+    );
+    // bin/mvledger.js imports ../dist/cli/main.js (repository layout)
+    expect(finalSources).toContain('bin');
+    expect(finalSources).toContain('/app/dist');
+  });
+
   it('installs dependencies reproducibly from the lockfile, production only in the final image', () => {
     const runs = dockerfile.flatMap((s) => s.body.filter((i) => i.keyword === 'RUN').map((i) => i.args));
     expect(runs.some((r) => r.includes('npm ci --omit=dev'))).toBe(true); // issue 5: runtime dependencies only
