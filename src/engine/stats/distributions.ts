@@ -1,11 +1,30 @@
-import { createRequire } from 'node:module';
-import type jstatModule from 'jstat';
+import { incompleteBeta, inverseErfc, inverseIncompleteBeta } from './special-functions.js';
 
-// jstat is CommonJS. Loaded by require rather than import: an ESM import of a
-// CommonJS file first scans its whole source for export names, which costs a
-// command-line run more than all the rest of jstat's loading.
-const loaded = createRequire(import.meta.url)('jstat') as typeof jstatModule & { jStat?: typeof jstatModule };
-const jStat = loaded.jStat ?? loaded;
+// The distribution functions as jstat 1.9.6 defines them, on its special
+// functions ported to special-functions.ts (same operations, same results).
+
+/** Student t quantile (jstat's studentt.inv). */
+function studentTQuantile(p: number, dof: number): number {
+  let x = inverseIncompleteBeta(2 * Math.min(p, 1 - p), 0.5 * dof, 0.5);
+  x = Math.sqrt((dof * (1 - x)) / x);
+  return p > 0.5 ? x : -x;
+}
+
+/** F distribution function (jstat's centralF.cdf). */
+function fDistribution(x: number, df1: number, df2: number): number {
+  if (x < 0) return 0;
+  return incompleteBeta((df1 * x) / (df1 * x + df2), df1 / 2, df2 / 2);
+}
+
+/** F quantile (jstat's centralF.inv). */
+function fQuantile(p: number, df1: number, df2: number): number {
+  return df2 / (df1 * (1 / inverseIncompleteBeta(p, df1 / 2, df2 / 2) - 1));
+}
+
+/** Normal quantile (jstat's normal.inv). */
+function normalQuantile(p: number, mean: number, sd: number): number {
+  return -1.41421356237309505 * sd * inverseErfc(2 * p) + mean;
+}
 
 /**
  * Two-sided Student t critical value: P(|T| ≤ t) = confidence with `dof` degrees of freedom.
@@ -14,7 +33,7 @@ const jStat = loaded.jStat ?? loaded;
 export function twoSidedTCritical(confidence: number, dof: number): number {
   if (!(confidence > 0 && confidence < 1)) throw new RangeError(`confidence must lie in (0, 1), got ${confidence}`);
   if (!(dof > 0)) return Number.POSITIVE_INFINITY;
-  return jStat.studentt.inv((1 + confidence) / 2, dof);
+  return studentTQuantile((1 + confidence) / 2, dof);
 }
 
 /**
@@ -22,7 +41,7 @@ export function twoSidedTCritical(confidence: number, dof: number): number {
  * @example fCritical(0.05, 1, 10) // 4.9646… — F₀.₉₅(1, 10), 4.96 in printed F tables (source: common practice)
  */
 export function fCritical(level: number, df1: number, df2: number): number {
-  return jStat.centralF.inv(1 - level, df1, df2);
+  return fQuantile(1 - level, df1, df2);
 }
 
 /**
@@ -31,7 +50,7 @@ export function fCritical(level: number, df1: number, df2: number): number {
  */
 export function fPValue(f: number, df1: number, df2: number): number {
   if (!Number.isFinite(f)) return f > 0 ? 0 : Number.NaN;
-  return 1 - jStat.centralF.cdf(f, df1, df2);
+  return 1 - fDistribution(f, df1, df2);
 }
 
 /**
@@ -43,7 +62,7 @@ export function fPValue(f: number, df1: number, df2: number): number {
  */
 export function twoSidedNormalQuantile(confidence: number): number {
   if (!(confidence > 0 && confidence < 1)) throw new RangeError(`confidence must lie in (0, 1), got ${confidence}`);
-  return jStat.normal.inv((1 + confidence) / 2, 0, 1);
+  return normalQuantile((1 + confidence) / 2, 0, 1);
 }
 
 /**
@@ -55,6 +74,6 @@ export function twoSidedNormalQuantile(confidence: number): number {
 export function chiSquareOneForTail(p: number): number {
   if (!(p > 1e-15)) return Number.POSITIVE_INFINITY;
   if (p >= 1) return 0;
-  const z = jStat.normal.inv(1 - p / 2, 0, 1);
+  const z = normalQuantile(1 - p / 2, 0, 1);
   return z * z;
 }
