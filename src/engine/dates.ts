@@ -61,7 +61,34 @@ export function dayNumber(date: string): number {
   return value;
 }
 
+/** 1000-01-01 and 9999-12-31: the years whose text is four digits without padding. */
+const FIRST_FAST_DAY = daysFromCivil(1000, 1, 1);
+const LAST_FAST_DAY = daysFromCivil(9999, 12, 31);
+/** "00" to "31": the two-digit month and day texts, built once. */
+const TWO_DIGITS = Array.from({ length: 32 }, (_, n) => (n < 10 ? `0${n}` : String(n)));
+
+/**
+ * The ISO date of a day number. Whole days in years 1000–9999 by integer
+ * arithmetic (the inverse of daysFromCivil, same source): no Date object and
+ * no ISO string to cut, since this runs for every day of weather a fit or a
+ * savings request walks. Anything else through Date, as before (it throws a
+ * RangeError where there is no such date).
+ */
 export function formatDayNumber(day: number): string {
+  if (Number.isInteger(day) && day >= FIRST_FAST_DAY && day <= LAST_FAST_DAY) {
+    const z = day + 719468;
+    const era = Math.floor(z / 146097);
+    const dayOfEra = z - era * 146097;
+    const yearOfEra = Math.floor(
+      (dayOfEra - Math.floor(dayOfEra / 1460) + Math.floor(dayOfEra / 36524) - Math.floor(dayOfEra / 146096)) / 365,
+    );
+    const dayOfYear = dayOfEra - (365 * yearOfEra + Math.floor(yearOfEra / 4) - Math.floor(yearOfEra / 100));
+    const shiftedMonth = Math.floor((5 * dayOfYear + 2) / 153);
+    const dayOfMonth = dayOfYear - Math.floor((153 * shiftedMonth + 2) / 5) + 1;
+    const month = shiftedMonth < 10 ? shiftedMonth + 3 : shiftedMonth - 9;
+    const year = yearOfEra + era * 400 + (month <= 2 ? 1 : 0);
+    return `${year}-${TWO_DIGITS[month]}-${TWO_DIGITS[dayOfMonth]}`;
+  }
   return new Date(day * MS_PER_DAY).toISOString().slice(0, 10);
 }
 

@@ -54,6 +54,20 @@ describe('parseIsoDate: calendar dates as whole days since 1970-01-01', () => {
     }
   });
 
+  it('formatDayNumber gives what Date gives: every day of 1600–2499, every 7th from 0999-12-25 to 10000-01-07, and beyond (reference: ECMAScript Date.prototype.toISOString)', () => {
+    const byDate = (day: number) => new Date(day * 86_400_000).toISOString().slice(0, 10);
+    const dayOf = (year: number, month: number, date: number) => Date.UTC(year, month - 1, date) / 86_400_000;
+    const days: number[] = [];
+    for (let day = dayOf(1600, 1, 1); day < dayOf(2500, 1, 1); day++) days.push(day);
+    for (let day = dayOf(999, 12, 25); day <= dayOf(10000, 1, 7); day += 7) days.push(day);
+    for (const edge of [dayOf(1000, 1, 1), dayOf(10000, 1, 1)]) for (let k = -5; k <= 5; k++) days.push(edge + k);
+    const wrong = days.filter((day) => formatDayNumber(day) !== byDate(day));
+    expect(wrong).toEqual([]);
+    // Outside the fast range, and parts of a day, Date itself answers: the same text as before.
+    for (const day of [-719_529, -800_000, 3_000_000, 19_000.5, -0.25]) expect(formatDayNumber(day)).toBe(byDate(day));
+    expect(() => formatDayNumber(Number.NaN)).toThrow(RangeError);
+  });
+
   // Known defect (see report): Date.UTC maps years 0–99 to 1900–1999, so real dates in those years
   // are refused. Harmless for meter data; `fails` until parseIsoDate builds the date with setUTCFullYear.
   it('accepts years before 100 (ISO 8601 proleptic Gregorian calendar)', () => {
