@@ -1,6 +1,6 @@
 #!/usr/bin/env node
-// Thin launcher: the compiled CLI lives in dist/src/ (built by `npm run build`, which `npm ci` runs via "prepare").
-import { main } from '../dist/src/cli/main.js';
+// Thin launcher: the command line bundled by `npm run build` (src/cli/bundle.mjs; `npm ci` runs it via "prepare").
+import { main } from '../dist/cli/main.js';
 
 process.exitCode = await main(process.argv.slice(2), {
   stdout: (text) => process.stdout.write(text),

@@ -1,0 +1,83 @@
+/**
+ * The shipped launcher: `bin/mvledger.js` runs the command line bundled by
+ * src/cli/bundle.mjs (rebuilt here from the sources, as `npm run build`
+ * does). In a fresh process, with every module it loads recorded
+ * (test/support/record-loads.mjs): `fit` answers as the in-process tests
+ * expect and loads a handful of bundle files and no database driver, query
+ * builder, HTTP or validation package; `fit --batch` on worker threads finds
+ * its thread's entry beside the chunks. Check values: the example files'
+ * own fit (examples/README.md) and the API contract of the commands.
+ */
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+// @ts-expect-error: a plain ES module of the build, without types
+import { buildCliBundle } from '../../src/cli/bundle.mjs';
+
+const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '../..');
+const BIN = join(ROOT, 'bin', 'mvledger.js');
+const EXAMPLES = join(ROOT, 'examples');
+
+let folder: string;
+
+function run(
+  argv: string[],
+  env: Record<string, string> = {},
+): { status: number | null; stdout: string; loaded: string[] } {
+  const record = join(folder, `loads-${Math.random().toString(36).slice(2)}.txt`);
+  const result = spawnSync(process.execPath, ['--import', join(ROOT, 'test/support/record-loads.mjs'), BIN, ...argv], {
+    cwd: ROOT,
+    encoding: 'utf8',
+    env: { ...process.env, ...env, MVLEDGER_RECORD_LOADS: record },
+  });
+  expect(result.error).toBeUndefined();
+  const loaded = readFileSync(record, 'utf8')
+    .split('\n')
+    .filter((line) => line !== '');
+  return { status: result.status, stdout: result.stdout, loaded };
+}
+
+describe('bin/mvledger.js runs the bundled command line', () => {
+  beforeAll(async () => {
+    folder = mkdtempSync(join(tmpdir(), 'mvledger-bundle-'));
+    await buildCliBundle();
+  }, 60_000);
+  afterAll(() => rmSync(folder, { recursive: true, force: true }));
+
+  it('fit: the example fit, from a few bundle files and no database, HTTP or validation package', () => {
+    const { status, stdout, loaded } = run([
+      'fit',
+      '--readings',
+      join(EXAMPLES, 'baseline.csv'),
+      '--weather',
+      join(EXAMPLES, 'weather.csv'),
+    ]);
+    expect(status).toBe(0);
+    expect(stdout).toMatch(/^Baseline fit\n/);
+    const bundleFiles = loaded.filter((url) => url.includes('/dist/cli/'));
+    expect(bundleFiles.length).toBeGreaterThan(1); // the launcher's entry and the fit's chunks
+    expect(bundleFiles.length).toBeLessThanOrEqual(12); // one chunk per command and shared code, not a file per module
+    expect(loaded.filter((url) => url.includes('/src/'))).toEqual([]);
+    expect(
+      loaded.filter((url) => /\/node_modules\/(kysely|pg|pg-pool|better-sqlite3|fastify|pino|zod)\//.test(url)),
+    ).toEqual([]);
+  });
+
+  it('fit --batch on worker threads: every meter fitted, one CSV row each', () => {
+    const rows = readFileSync(join(EXAMPLES, 'baseline.csv'), 'utf8').trimEnd().split('\n');
+    const batch = [`meter,${rows[0]}`, ...['a', 'b', 'c'].flatMap((m) => rows.slice(1).map((row) => `${m},${row}`))];
+    writeFileSync(join(folder, 'batch.csv'), `${batch.join('\n')}\n`);
+    const { status, stdout, loaded } = run(
+      ['fit', '--batch', '--readings', join(folder, 'batch.csv'), '--weather', join(EXAMPLES, 'weather.csv')],
+      { MVLEDGER_FIT_THREADS: '2' },
+    );
+    expect(status).toBe(0);
+    const lines = stdout.trimEnd().split('\n');
+    expect(lines).toHaveLength(4); // a header and the three invented meters
+    expect(lines.slice(1).every((line) => /^[abc],.*,ok,/.test(line))).toBe(true);
+    expect(loaded.some((url) => url.endsWith('/dist/cli/fit-batch-thread.js'))).toBe(true);
+  });
+});
