@@ -8,7 +8,7 @@
  * its thread's entry beside the chunks. Check values: the example files'
  * own fit (examples/README.md) and the API contract of the commands.
  */
-import { spawnSync } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
@@ -79,5 +79,27 @@ describe('bin/mvledger.js runs the bundled command line', () => {
     expect(lines).toHaveLength(4); // a header and the three invented meters
     expect(lines.slice(1).every((line) => /^[abc],.*,ok,/.test(line))).toBe(true);
     expect(loaded.some((url) => url.endsWith('/dist/cli/fit-batch-thread.js'))).toBe(true);
+  });
+
+  it('stops quietly when its reader closes the pipe early (as `| head` does): exit 0, nothing on stderr', async () => {
+    // Enough meters that output is still being written when the reader goes (synthetic: the example's bills, renamed).
+    const rows = readFileSync(join(EXAMPLES, 'baseline.csv'), 'utf8').trimEnd().split('\n');
+    const many = Array.from({ length: 300 }, (_, m) => rows.slice(1).map((row) => `meter-${m},${row}`)).flat();
+    writeFileSync(join(folder, 'many.csv'), `meter,${rows[0]}\n${many.join('\n')}\n`);
+    const child = spawn(process.execPath, [
+      BIN,
+      'fit',
+      '--batch',
+      '--readings',
+      join(folder, 'many.csv'),
+      '--weather',
+      join(EXAMPLES, 'weather.csv'),
+    ]);
+    let stderr = '';
+    child.stderr.on('data', (chunk: Buffer) => (stderr += chunk.toString()));
+    child.stdout.once('data', () => child.stdout.destroy()); // the reader has seen enough
+    const code = await new Promise<number | null>((done) => child.on('close', done));
+    expect(stderr).not.toMatch(/EPIPE|Error|at /);
+    expect(code).toBe(0);
   });
 });
