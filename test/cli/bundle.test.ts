@@ -1,118 +1,132 @@
 /**
- * The command line as it ships: src/cli bundled by src/cli/build.mjs (what
- * `npm run build` writes to dist/cli and bin/mvledger.js runs). Built here
- * into a folder of its own, then run in fresh processes: the bundle gives
- * the same output as the sources, and `fit` still loads no database driver,
- * query builder, store, service or HTTP code (the chunks it loads are mapped
- * back to their source files through esbuild's metafile).
+ * The shipped launcher: `bin/mvledger.js` runs the command line bundled by
+ * src/cli/bundle.mjs (rebuilt here from the sources, as `npm run build`
+ * does). In a fresh process, with every module it loads recorded
+ * (test/support/record-loads.mjs): `fit` answers as the in-process tests
+ * expect and loads a handful of bundle files and no database driver, query
+ * builder, HTTP or validation package; `fit --batch` on worker threads finds
+ * its thread's entry beside the chunks. Check values: the example files'
+ * own fit (examples/README.md) and the API contract of the commands.
  */
-import { spawnSync } from 'node:child_process';
-import { mkdirSync, mkdtempSync, readFileSync, realpathSync, rmSync } from 'node:fs';
-import { join, relative, resolve } from 'node:path';
-import { fileURLToPath, pathToFileURL } from 'node:url';
+import { spawn, spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join, relative, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { runCli } from './helpers.js';
+// @ts-expect-error: a plain ES module of the build, without types
+import { buildCliBundle } from '../../src/cli/bundle.mjs';
 
-const ROOT = resolve(fileURLToPath(new URL('../../', import.meta.url)));
+const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '../..');
+const BIN = join(ROOT, 'bin', 'mvledger.js');
 const EXAMPLES = join(ROOT, 'examples');
-const FIT_ARGS = ['fit', '--readings', join(EXAMPLES, 'baseline.csv'), '--weather', join(EXAMPLES, 'weather.csv')];
 
-interface Metafile {
-  outputs: Record<string, { inputs: Record<string, unknown>; imports: { path: string; external?: boolean }[] }>;
-}
+let folder: string;
+/** Which source files each bundle output holds, by output path from the root (esbuild's metafile). */
+let outputs: Record<string, { inputs: Record<string, unknown> }>;
 
-let outdir = '';
-let runs = 0;
-let metafile: Metafile;
-
-beforeAll(async () => {
-  // Under node_modules so the bundle's packages resolve as they do from dist/cli.
-  const cache = join(ROOT, 'node_modules', '.cache');
-  mkdirSync(cache, { recursive: true });
-  outdir = mkdtempSync(join(cache, 'mvledger-cli-bundle-'));
-  const { buildCli } = (await import(pathToFileURL(join(ROOT, 'src/cli/build.mjs')).href)) as {
-    buildCli: (outdir: string) => Promise<{ metafile: Metafile }>;
-  };
-  metafile = (await buildCli(outdir)).metafile;
-}, 60_000);
-
-afterAll(() => {
-  if (outdir) rmSync(outdir, { recursive: true, force: true });
-});
-
-/** Run the bundle's main() in a fresh process, recording every module URL it loads. */
-function runBundle(argv: string[]): { status: number | null; stdout: string; loaded: string[] } {
-  const record = join(outdir, `loads-${++runs}.txt`);
-  const script = `import { main } from ${JSON.stringify(pathToFileURL(join(outdir, 'main.js')).href)};
-process.exitCode = await main(${JSON.stringify(argv)}, { stdout: (t) => process.stdout.write(t), stderr: (t) => process.stderr.write(t) });`;
-  const run = spawnSync(
-    process.execPath,
-    ['--import', join(ROOT, 'test/support/record-loads.mjs'), '--input-type=module', '-e', script],
-    {
-      cwd: ROOT,
-      env: { ...process.env, MVLEDGER_RECORD_LOADS: record, DATABASE_URL: 'sqlite::memory:' },
-      encoding: 'utf8',
-    },
-  );
-  expect(run.error).toBeUndefined();
+function run(
+  argv: string[],
+  env: Record<string, string> = {},
+): { status: number | null; stdout: string; loaded: string[] } {
+  const record = join(folder, `loads-${Math.random().toString(36).slice(2)}.txt`);
+  const result = spawnSync(process.execPath, ['--import', join(ROOT, 'test/support/record-loads.mjs'), BIN, ...argv], {
+    cwd: ROOT,
+    encoding: 'utf8',
+    env: { ...process.env, ...env, MVLEDGER_RECORD_LOADS: record },
+  });
+  expect(result.error).toBeUndefined();
   const loaded = readFileSync(record, 'utf8')
     .split('\n')
     .filter((line) => line !== '');
-  return { status: run.status, stdout: run.stdout, loaded };
+  return { status: result.status, stdout: result.stdout, loaded };
 }
 
-/** The source files and external packages inside the bundle's outputs that the process loaded. */
-function sourcesLoaded(urls: readonly string[]): { sources: string[]; packages: string[] } {
-  // The loader reports real paths (node_modules may be a link); the metafile names outputs from the root.
-  const bundleDir = realpathSync(outdir);
-  const sources = new Set<string>();
-  const packages = new Set<string>();
-  for (const url of urls) {
-    if (!url.startsWith('file:')) continue;
-    const file = fileURLToPath(url);
-    if (!file.startsWith(`${bundleDir}/`)) {
-      if (file.includes('/node_modules/')) packages.add(file.split('/node_modules/').at(-1)!.split('/')[0]!);
-      continue;
-    }
-    const output = metafile.outputs[relative(ROOT, join(outdir, relative(bundleDir, file)))];
-    expect(output, file).toBeDefined();
-    if (!output) continue;
-    for (const input of Object.keys(output.inputs)) sources.add(input);
-    for (const imported of output.imports) if (imported.external) packages.add(imported.path.split('/')[0]!);
-  }
-  return { sources: [...sources], packages: [...packages] };
-}
+describe('bin/mvledger.js runs the bundled command line', () => {
+  beforeAll(async () => {
+    folder = mkdtempSync(join(tmpdir(), 'mvledger-bundle-'));
+    ({
+      metafile: { outputs },
+    } = await buildCliBundle());
+  }, 60_000);
+  afterAll(() => rmSync(folder, { recursive: true, force: true }));
 
-const HEAVY_PACKAGES = ['kysely', 'pg', 'pg-pool', 'better-sqlite3', 'fastify', 'pino', 'zod'];
-const heavySources = (sources: readonly string[]) =>
-  sources.filter((s) => /^src\/(store|services|http|demo)\//.test(s));
-
-describe('the bundled command line (src/cli/build.mjs)', () => {
-  it('fit prints what the sources print', async () => {
-    const bundled = runBundle(FIT_ARGS);
-    expect(bundled.status).toBe(0);
-    const fromSource = await runCli(FIT_ARGS);
-    expect(fromSource.code).toBe(0);
-    expect(bundled.stdout).toBe(fromSource.stdout);
-  });
-
-  it('fit loads a few chunks and no database driver, query builder, store, service or HTTP code', () => {
-    const { loaded } = runBundle(FIT_ARGS);
-    const chunks = loaded.filter((url) => url.startsWith(pathToFileURL(realpathSync(outdir)).href));
-    // main, the options, the command and the chunks it shares with others: about ten files, where the
-    // unbundled build loaded one file per module (79 on these files: a recorded run before bundling).
-    expect(chunks.length).toBeLessThan(16);
-    const { sources, packages } = sourcesLoaded(loaded);
-    expect(sources.some((s) => s.startsWith('src/engine/'))).toBe(true);
-    expect(heavySources(sources)).toEqual([]);
-    expect(packages.filter((p) => HEAVY_PACKAGES.includes(p))).toEqual([]);
-  });
-
-  it('the record sees them where they are loaded (keys list opens the database: the check can fail)', () => {
-    const { status, loaded } = runBundle(['keys', 'list']);
+  it('fit: the example fit, from a few bundle files and no database, HTTP or validation package', () => {
+    const { status, stdout, loaded } = run([
+      'fit',
+      '--readings',
+      join(EXAMPLES, 'baseline.csv'),
+      '--weather',
+      join(EXAMPLES, 'weather.csv'),
+    ]);
     expect(status).toBe(0);
-    const { sources, packages } = sourcesLoaded(loaded);
-    expect(heavySources(sources).some((s) => s.startsWith('src/store/'))).toBe(true);
-    expect(packages).toContain('kysely');
+    expect(stdout).toMatch(/^Baseline fit\n/);
+    const bundleFiles = loaded.filter((url) => url.includes('/dist/cli/'));
+    expect(bundleFiles.length).toBeGreaterThan(1); // the launcher's entry and the fit's chunks
+    expect(bundleFiles.length).toBeLessThanOrEqual(12); // one chunk per command and shared code, not a file per module
+    expect(loaded.filter((url) => url.includes('/src/'))).toEqual([]);
+    expect(
+      loaded.filter((url) => /\/node_modules\/(kysely|pg|pg-pool|better-sqlite3|fastify|pino|zod)\//.test(url)),
+    ).toEqual([]);
+  });
+
+  it("fit: the bundle files it loads hold no store, service, HTTP or demo source (esbuild's metafile)", () => {
+    const { status, loaded } = run([
+      'fit',
+      '--readings',
+      join(EXAMPLES, 'baseline.csv'),
+      '--weather',
+      join(EXAMPLES, 'weather.csv'),
+    ]);
+    expect(status).toBe(0);
+    const sources = loaded
+      .filter((url) => url.includes('/dist/cli/'))
+      .flatMap((url) => {
+        const output = outputs[relative(ROOT, fileURLToPath(url))];
+        expect(output, url).toBeDefined();
+        return Object.keys(output?.inputs ?? {});
+      });
+    expect(sources.some((s) => s.startsWith('src/engine/'))).toBe(true);
+    expect(sources.filter((s) => /^src\/(store|services|http|demo)\//.test(s))).toEqual([]);
+    // The check can fail: the keys command's chunks do hold the store (repository layout).
+    const everything = Object.values(outputs).flatMap((o) => Object.keys(o.inputs));
+    expect(everything.some((s) => s.startsWith('src/store/'))).toBe(true);
+  });
+
+  it('fit --batch on worker threads: every meter fitted, one CSV row each', () => {
+    const rows = readFileSync(join(EXAMPLES, 'baseline.csv'), 'utf8').trimEnd().split('\n');
+    const batch = [`meter,${rows[0]}`, ...['a', 'b', 'c'].flatMap((m) => rows.slice(1).map((row) => `${m},${row}`))];
+    writeFileSync(join(folder, 'batch.csv'), `${batch.join('\n')}\n`);
+    const { status, stdout, loaded } = run(
+      ['fit', '--batch', '--readings', join(folder, 'batch.csv'), '--weather', join(EXAMPLES, 'weather.csv')],
+      { MVLEDGER_FIT_THREADS: '2' },
+    );
+    expect(status).toBe(0);
+    const lines = stdout.trimEnd().split('\n');
+    expect(lines).toHaveLength(4); // a header and the three invented meters
+    expect(lines.slice(1).every((line) => /^[abc],.*,ok,/.test(line))).toBe(true);
+    expect(loaded.some((url) => url.endsWith('/dist/cli/fit-batch-thread.js'))).toBe(true);
+  });
+
+  it('stops quietly when its reader closes the pipe early (as `| head` does): exit 0, nothing on stderr', async () => {
+    // Enough meters that output is still being written when the reader goes (synthetic: the example's bills, renamed).
+    const rows = readFileSync(join(EXAMPLES, 'baseline.csv'), 'utf8').trimEnd().split('\n');
+    const many = Array.from({ length: 300 }, (_, m) => rows.slice(1).map((row) => `meter-${m},${row}`)).flat();
+    writeFileSync(join(folder, 'many.csv'), `meter,${rows[0]}\n${many.join('\n')}\n`);
+    const child = spawn(process.execPath, [
+      BIN,
+      'fit',
+      '--batch',
+      '--readings',
+      join(folder, 'many.csv'),
+      '--weather',
+      join(EXAMPLES, 'weather.csv'),
+    ]);
+    let stderr = '';
+    child.stderr.on('data', (chunk: Buffer) => (stderr += chunk.toString()));
+    child.stdout.once('data', () => child.stdout.destroy()); // the reader has seen enough
+    const code = await new Promise<number | null>((done) => child.on('close', done));
+    expect(stderr).not.toMatch(/EPIPE|Error|at /);
+    expect(code).toBe(0);
   });
 });

@@ -194,9 +194,9 @@ describe('docker/Dockerfile', () => {
 
   it('bundles the command line that bin/mvledger.js runs and ships both', () => {
     const builder = dockerfile.find((s) =>
-      s.body.some((i) => i.keyword === 'RUN' && i.args.includes('src/cli/build.mjs')),
+      s.body.some((i) => i.keyword === 'RUN' && i.args.includes('src/cli/bundle.mjs')),
     );
-    expect(builder, 'a stage running node src/cli/build.mjs').toBeDefined();
+    expect(builder, 'a stage running node src/cli/bundle.mjs').toBeDefined();
     const copied = copiesOf(builder!)
       .filter((c) => c.from === null)
       .flatMap((c) => c.sources.map((s) => s.replace(/^\.\//, '').replace(/\/$/, '')));
