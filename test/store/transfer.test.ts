@@ -177,7 +177,7 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
           /"quantity":(\d)/,
           '"quantity":9$1',
         )),
-      says: /^tables\.baselines\[0\]: baseline bsl_\S+ \(frozen\) does not match its content hash/,
+      says: /^tables\.baselines\[0\]: baseline bsl_\S+ \((frozen|superseded)\) does not match its content hash/,
     },
     {
       what: 'a missing column',
@@ -214,12 +214,12 @@ describe('checkDocument refuses a document that is not a faithful export', () =>
     {
       what: 'a frozen baseline whose temperature form was edited',
       change: (d) => (d.tables.baselines[0].temperature_form = 'mean'),
-      says: /^tables\.baselines\[0\]: baseline bsl_\S+ \(frozen\) does not match its content hash/,
+      says: /^tables\.baselines\[0\]: baseline bsl_\S+ \((frozen|superseded)\) does not match its content hash/,
     },
     {
       what: 'an override added to a frozen baseline',
       change: (d) => (d.tables.baselines[0].extrapolation_override = 'added later'),
-      says: /^tables\.baselines\[0\]: baseline bsl_\S+ \(frozen\) does not match its content hash/,
+      says: /^tables\.baselines\[0\]: baseline bsl_\S+ \((frozen|superseded)\) does not match its content hash/,
     },
     {
       what: 'an unknown temperature form',
