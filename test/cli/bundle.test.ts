@@ -22,6 +22,17 @@ const BIN = join(ROOT, 'bin', 'mvledger.js');
 const EXAMPLES = join(ROOT, 'examples');
 
 let folder: string;
+/** The example files' fit, run once in a fresh process for the tests that look at it. */
+let exampleFit: ReturnType<typeof run>;
+
+/** A batch readings file: the example's bills for each named (invented) meter. */
+function writeBatch(name: string, meters: readonly string[]): string {
+  const rows = readFileSync(join(EXAMPLES, 'baseline.csv'), 'utf8').trimEnd().split('\n');
+  const file = join(folder, name);
+  const lines = meters.flatMap((m) => rows.slice(1).map((row) => `${m},${row}`));
+  writeFileSync(file, `meter,${rows[0]}\n${lines.join('\n')}\n`);
+  return file;
+}
 /** Which source files each bundle output holds, by output path from the root (esbuild's metafile). */
 let outputs: Record<string, { inputs: Record<string, unknown> }>;
 
@@ -48,17 +59,12 @@ describe('bin/mvledger.js runs the bundled command line', () => {
     ({
       metafile: { outputs },
     } = await buildCliBundle());
+    exampleFit = run(['fit', '--readings', join(EXAMPLES, 'baseline.csv'), '--weather', join(EXAMPLES, 'weather.csv')]);
   }, 60_000);
   afterAll(() => rmSync(folder, { recursive: true, force: true }));
 
   it('fit: the example fit, from a few bundle files and no database, HTTP or validation package', () => {
-    const { status, stdout, loaded } = run([
-      'fit',
-      '--readings',
-      join(EXAMPLES, 'baseline.csv'),
-      '--weather',
-      join(EXAMPLES, 'weather.csv'),
-    ]);
+    const { status, stdout, loaded } = exampleFit;
     expect(status).toBe(0);
     expect(stdout).toMatch(/^Baseline fit\n/);
     const bundleFiles = loaded.filter((url) => url.includes('/dist/cli/'));
@@ -71,13 +77,7 @@ describe('bin/mvledger.js runs the bundled command line', () => {
   });
 
   it("fit: the bundle files it loads hold no store, service, HTTP or demo source (esbuild's metafile)", () => {
-    const { status, loaded } = run([
-      'fit',
-      '--readings',
-      join(EXAMPLES, 'baseline.csv'),
-      '--weather',
-      join(EXAMPLES, 'weather.csv'),
-    ]);
+    const { status, loaded } = exampleFit;
     expect(status).toBe(0);
     const sources = loaded
       .filter((url) => url.includes('/dist/cli/'))
@@ -94,11 +94,9 @@ describe('bin/mvledger.js runs the bundled command line', () => {
   });
 
   it('fit --batch on worker threads: every meter fitted, one CSV row each', () => {
-    const rows = readFileSync(join(EXAMPLES, 'baseline.csv'), 'utf8').trimEnd().split('\n');
-    const batch = [`meter,${rows[0]}`, ...['a', 'b', 'c'].flatMap((m) => rows.slice(1).map((row) => `${m},${row}`))];
-    writeFileSync(join(folder, 'batch.csv'), `${batch.join('\n')}\n`);
+    const batch = writeBatch('batch.csv', ['a', 'b', 'c']);
     const { status, stdout, loaded } = run(
-      ['fit', '--batch', '--readings', join(folder, 'batch.csv'), '--weather', join(EXAMPLES, 'weather.csv')],
+      ['fit', '--batch', '--readings', batch, '--weather', join(EXAMPLES, 'weather.csv')],
       { MVLEDGER_FIT_THREADS: '2' },
     );
     expect(status).toBe(0);
@@ -110,15 +108,16 @@ describe('bin/mvledger.js runs the bundled command line', () => {
 
   it('stops quietly when its reader closes the pipe early (as `| head` does): exit 0, nothing on stderr', async () => {
     // Enough meters that output is still being written when the reader goes (synthetic: the example's bills, renamed).
-    const rows = readFileSync(join(EXAMPLES, 'baseline.csv'), 'utf8').trimEnd().split('\n');
-    const many = Array.from({ length: 300 }, (_, m) => rows.slice(1).map((row) => `meter-${m},${row}`)).flat();
-    writeFileSync(join(folder, 'many.csv'), `meter,${rows[0]}\n${many.join('\n')}\n`);
+    const many = writeBatch(
+      'many.csv',
+      Array.from({ length: 300 }, (_, m) => `meter-${m}`),
+    );
     const child = spawn(process.execPath, [
       BIN,
       'fit',
       '--batch',
       '--readings',
-      join(folder, 'many.csv'),
+      many,
       '--weather',
       join(EXAMPLES, 'weather.csv'),
     ]);

@@ -176,34 +176,31 @@ describe('docker/Dockerfile', () => {
     }
   });
 
+  /** The stage whose RUN calls `script`, the paths it copies from the build context, and what the final stage copies. */
+  function buildOf(script: string): { copied: string[]; finalSources: string[] } {
+    const builder = dockerfile.find((s) => s.body.some((i) => i.keyword === 'RUN' && i.args.includes(script)));
+    expect(builder, `a stage running node ${script}`).toBeDefined();
+    const tidy = (source: string) => source.replace(/^\.\//, '').replace(/\/$/, '');
+    return {
+      copied: copiesOf(builder!)
+        .filter((c) => c.from === null)
+        .flatMap((c) => c.sources.map(tidy)),
+      finalSources: copiesOf(finalStage).flatMap((c) => c.sources.map(tidy)),
+    };
+  }
+
   it('builds the /app workbench and ships its page with the service', () => {
-    const builder = dockerfile.find((s) => s.body.some((i) => i.keyword === 'RUN' && i.args.includes('web/build.mjs')));
-    expect(builder, 'a stage running node web/build.mjs').toBeDefined();
-    const copied = copiesOf(builder!)
-      .filter((c) => c.from === null)
-      .flatMap((c) => c.sources.map((s) => s.replace(/^\.\//, '').replace(/\/$/, '')));
+    const { copied, finalSources } = buildOf('web/build.mjs');
     // web/build.mjs bundles web/src, which imports the report charts under src/
     for (const needed of ['web', 'src']) expect(copied, needed).toContain(needed);
     // src/http/plugins/workbench.ts reads web/public and dist/web under the package root
-    const finalSources = copiesOf(finalStage).flatMap((c) =>
-      c.sources.map((s) => s.replace(/^\.\//, '').replace(/\/$/, '')),
-    );
     expect(finalSources).toContain('web/public');
     expect(finalSources).toContain('/app/dist');
   });
 
   it('bundles the command line that bin/mvledger.js runs and ships both', () => {
-    const builder = dockerfile.find((s) =>
-      s.body.some((i) => i.keyword === 'RUN' && i.args.includes('src/cli/bundle.mjs')),
-    );
-    expect(builder, 'a stage running node src/cli/bundle.mjs').toBeDefined();
-    const copied = copiesOf(builder!)
-      .filter((c) => c.from === null)
-      .flatMap((c) => c.sources.map((s) => s.replace(/^\.\//, '').replace(/\/$/, '')));
+    const { copied, finalSources } = buildOf('src/cli/bundle.mjs');
     expect(copied).toContain('src'); // the bundle is built from the sources (repository layout)
-    const finalSources = copiesOf(finalStage).flatMap((c) =>
-      c.sources.map((s) => s.replace(/^\.\//, '').replace(/\/$/, '')),
-    );
     // bin/mvledger.js imports ../dist/cli/main.js (repository layout)
     expect(finalSources).toContain('bin');
     expect(finalSources).toContain('/app/dist');
