@@ -13,6 +13,7 @@ import * as weatherFills0007 from './0007_weather_fills.js';
 import * as meterDataVersions0008 from './0008_meter_data_versions.js';
 import * as idempotencyHolder0009 from './0009_idempotency_holder.js';
 import * as auditCheckpoints0010 from './0010_audit_checkpoints.js';
+import * as frozenModels0011 from './0011_frozen_models.js';
 
 export const migrations: Record<string, Migration> = {
   '0001_ledger': ledger0001,
@@ -25,4 +26,5 @@ export const migrations: Record<string, Migration> = {
   '0008_meter_data_versions': meterDataVersions0008,
   '0009_idempotency_holder': idempotencyHolder0009,
   '0010_audit_checkpoints': auditCheckpoints0010,
+  '0011_frozen_models': frozenModels0011,
 };

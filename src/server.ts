@@ -10,6 +10,7 @@ import { loadConfig, type Config } from './config.js';
 import { openStore, type Store } from './store/connect.js';
 import { keepRunningThroughDatabaseFaults } from './process-guard.js';
 import { migrateToLatest } from './store/migrate.js';
+import { storeMissingFrozenModels } from './services/frozen-models.js';
 import { releaseKeysOfGoneHolders } from './store/idempotency-keys.js';
 import { holderIsGone } from './lib/process-holder.js';
 import { bootstrapIfEmpty } from './services/organisations.js';
@@ -39,6 +40,8 @@ export async function startService(config: Config): Promise<RunningService> {
     },
   });
   await migrateToLatest(store.db);
+  // Frozen baselines from before compact stored models (or imported) get theirs once, before the first report.
+  const derivedModels = await storeMissingFrozenModels(store.db);
   const bootstrapped = await bootstrapIfEmpty(
     store.db,
     config.bootstrapKey,
@@ -60,6 +63,8 @@ export async function startService(config: Config): Promise<RunningService> {
   // Keys a process of this host left in flight when it died: a retry is served at once, not after a minute.
   const released = await releaseKeysOfGoneHolders(store.db, holderIsGone);
   if (released > 0) app.log.info({ released }, 'released idempotency keys left in flight by a process that died');
+  if (derivedModels > 0)
+    app.log.info({ derivedModels }, 'derived the compact models of frozen baselines that had none');
   if (bootstrapped) app.log.info('new database: created the bootstrap organisation and its admin key');
   const address = await app.listen({ port: config.port, host: config.host });
   app.log.info({ database: store.location }, 'mvledger is listening');

@@ -14,8 +14,8 @@
  * (own id, meter and content hash) holding the archetype's fit. Reporting
  * bills are the meter's own: the archetype's daily response with the meter's
  * saving and noise. A report therefore does the same work per meter as on
- * real data: every meter's frozen baseline is read, checked and parsed on
- * its own.
+ * real data: every meter's frozen model is read, checked and parsed on its
+ * own (its compact stored form, written here as a freeze writes it).
  */
 import type { Kysely } from 'kysely';
 import {
@@ -29,7 +29,8 @@ import {
 import { canonicalJson, sha256Hex } from '../lib/canonical-json.js';
 import { seededRandom, type Random } from '../lib/seeded-random.js';
 import { baselineContentHash, toStoredJson } from '../store/baseline-content.js';
-import type { BaselineRow, Database } from '../store/schema.js';
+import type { BaselineRow, Database, FrozenModelRow } from '../store/schema.js';
+import { deriveFrozenModel, storedModelRow, type FrozenModel } from '../services/frozen-models.js';
 
 export interface PortfolioOptions {
   facilities: number;
@@ -86,6 +87,8 @@ interface Archetype {
   usePerDay: (temp: number) => number;
   baselineBills: Reading[];
   fit?: { row: Omit<BaselineRow, 'id' | 'meter_id' | 'content_hash'> };
+  /** The frozen model every meter of this archetype stores (the content it derives from differs only in ids). */
+  model?: FrozenModel;
 }
 
 /** Generate the portfolio into `db` (migrated, without this organisation), in one transaction. */
@@ -173,6 +176,7 @@ async function generate(db: Kysely<Database>, options: PortfolioOptions): Promis
   let readingRows: Database['readings'][] = [];
   let rateRows: Database['rates'][] = [];
   let baselineRows: BaselineRow[] = [];
+  let modelRows: FrozenModelRow[] = [];
   const flush = async (force: boolean) => {
     if (!force && readingRows.length < 20_000) return;
     await insertChunks(db, 'facilities', facilityRows);
@@ -185,12 +189,18 @@ async function generate(db: Kysely<Database>, options: PortfolioOptions): Promis
         .insertInto('baselines')
         .values(baselineRows.slice(i, i + 50))
         .execute();
+    for (let i = 0; i < modelRows.length; i += 200)
+      await db
+        .insertInto('frozen_models')
+        .values(modelRows.slice(i, i + 200))
+        .execute();
     facilityRows = [];
     contractRows = [];
     meterRows = [];
     readingRows = [];
     rateRows = [];
     baselineRows = [];
+    modelRows = [];
   };
 
   for (let f = 0; f < options.facilities; f++) {
@@ -278,6 +288,8 @@ async function generate(db: Kysely<Database>, options: PortfolioOptions): Promis
       };
       row.content_hash = baselineContentHash(row);
       baselineRows.push(row);
+      archetype.model ??= deriveFrozenModel(row, row.content_hash);
+      modelRows.push(storedModelRow(row.id, row.content_hash, archetype.model));
       meters++;
     }
     await flush(false);

@@ -7,8 +7,8 @@
  *   const baseline = analyseBaseline(readings, weather);
  *   const savings = analyseSavings(baseline, reportingReadings, weather, { confidence: 0.9 });
  */
-import type { AlignedPeriods, DailyTemperature, ExcludedPeriod, ModelName, Period, Reading } from './types.js';
-import { alignPeriods, DEFAULT_MIN_COVERAGE, type AlignmentOptions } from './periods.js';
+import type { AlignedPeriods, ExcludedPeriod, ModelName, Period, Reading } from './types.js';
+import { alignPeriods, DEFAULT_MIN_COVERAGE, type AlignmentOptions, type DailyWeather } from './periods.js';
 import { chooseBaseline, type BaselineChoice, type SelectionOptions } from './choose.js';
 import { computeSavings, type SavingsOptions } from './savings.js';
 import { calendarMonths } from './calendar-months.js';
@@ -25,7 +25,9 @@ export {
   DEFAULT_MIN_COVERAGE,
   missingWeatherDates,
   describeDateRanges,
+  DayIndexedWeather,
   type AlignmentOptions,
+  type DailyWeather,
 } from './periods.js';
 export { checkReadings, checkWeather } from './validate.js';
 export type { InputProblem } from './input-problem.js';
@@ -121,7 +123,7 @@ export type BaselineOptions = AlignmentOptions &
  */
 export function analyseBaseline(
   readings: readonly Reading[],
-  weather: readonly DailyTemperature[] | ReadonlyMap<string, number>,
+  weather: DailyWeather,
   options: BaselineOptions = {},
 ): BaselineAnalysis {
   const { kept, applied } = applyExclusions(readings, options.exclusions ?? []);
@@ -157,7 +159,7 @@ export interface ReportingOptions extends SavingsOptions, AlignmentOptions {
 export function analyseSavings(
   baseline: BaselineAnalysis,
   reportingReadings: readonly Reading[],
-  weather: readonly DailyTemperature[] | ReadonlyMap<string, number>,
+  weather: DailyWeather,
   options: ReportingOptions = {},
 ): SavingsDocument {
   const model = options.model ?? baseline.choice.selected;
@@ -187,7 +189,7 @@ export function savingsFromFit(
   fit: ShapeFit,
   baseline: StoredBaselineContext,
   reportingReadings: readonly Reading[],
-  weather: readonly DailyTemperature[] | ReadonlyMap<string, number>,
+  weather: DailyWeather,
   options: SavingsOptions & AlignmentOptions & { cvrmseLimit?: number } = {},
 ): SavingsDocument {
   return savingsFromAligned(fit, baseline, alignPeriods(reportingReadings, weather, options), options);

@@ -10,9 +10,9 @@
  * meets it as calendar months.
  */
 import { TooFewPeriodsError } from './errors.js';
-import type { DailyTemperature, Reading } from './types.js';
+import type { Reading } from './types.js';
 import { fitTemperatureForm, type ShapeFit } from './fit/fit-shape.js';
-import { alignPeriods } from './periods.js';
+import { alignPeriods, type DailyWeather } from './periods.js';
 import { chooseBaseline } from './choose.js';
 import { normalPeriodsUse, normalYearMonths, type NormalPeriod } from './normal-year.js';
 import { designRow } from './fit/shape-model.js';
@@ -55,7 +55,7 @@ export type NormalisedResult =
 export function normalisedSavings(
   baseline: ShapeFit,
   reportingReadings: readonly Reading[],
-  weather: readonly DailyTemperature[] | ReadonlyMap<string, number>,
+  weather: DailyWeather,
   normalTemps: readonly number[],
   options: { minCoverage?: number; confidence?: number } = {},
 ): NormalisedResult {

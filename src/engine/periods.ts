@@ -36,7 +36,7 @@ export function indexWeather(weather: readonly DailyTemperature[]): Map<string, 
  */
 export function alignPeriods(
   readings: readonly Reading[],
-  weather: readonly DailyTemperature[] | ReadonlyMap<string, number>,
+  weather: DailyWeather,
   options: AlignmentOptions = {},
 ): AlignedPeriods {
   const minCoverage = options.minCoverage ?? DEFAULT_MIN_COVERAGE;
@@ -86,8 +86,26 @@ export function alignPeriods(
   return { periods, excluded };
 }
 
+/**
+ * Daily temperatures indexed by day number once: many meters' readings at
+ * one station are aligned without indexing its weather again for each. An
+ * alignment reads only its periods' own days, so an index that holds more
+ * days than they span aligns exactly as their own days would.
+ */
+export class DayIndexedWeather {
+  readonly byDay: ReadonlyMap<number, number>;
+
+  constructor(weather: readonly DailyTemperature[] | ReadonlyMap<string, number>) {
+    this.byDay = indexByDayNumber(weather);
+  }
+}
+
+/** Daily weather as the alignment takes it: a list, a map by date, or an index built once. */
+export type DailyWeather = readonly DailyTemperature[] | ReadonlyMap<string, number> | DayIndexedWeather;
+
 /** Daily temperatures keyed by day number, so a period's days are looked up without building date strings. */
-function indexByDayNumber(weather: readonly DailyTemperature[] | ReadonlyMap<string, number>): Map<number, number> {
+function indexByDayNumber(weather: DailyWeather): ReadonlyMap<number, number> {
+  if (weather instanceof DayIndexedWeather) return weather.byDay;
   const byDay = new Map<number, number>();
   const add = (date: string, temp: number) => {
     const day = parseIsoDate(date);
@@ -109,7 +127,7 @@ function formatPercent(fraction: number): string {
  */
 export function missingWeatherDates(
   periods: readonly { start: string; end: string }[],
-  weather: readonly DailyTemperature[] | ReadonlyMap<string, number>,
+  weather: DailyWeather,
 ): { start: string; end: string; days: number }[] {
   const byDay = indexByDayNumber(weather);
   const missing = new Set<number>();

@@ -29,6 +29,12 @@ export class BoundedCache<T> {
     return value;
   }
 
+  /** Drop every value. */
+  clear(): void {
+    this.entries.clear();
+    this.total = 0;
+  }
+
   /** How many values are held. */
   get size(): number {
     return this.entries.size;

@@ -31,6 +31,8 @@ import {
   ENERGY_FACTOR_SOURCE,
   PooledResidualCorrelation,
   type DailyTemperature,
+  type DailyWeather,
+  DayIndexedWeather,
   type Reading,
   type TemperatureUnit,
 } from '../engine/index.js';
@@ -55,7 +57,6 @@ import {
   type Rollup,
   type StationTotal,
 } from '../reports/totals.js';
-import { nonFiniteToNull } from '../lib/non-finite.js';
 import { readSnapshotOnce } from '../store/transactions.js';
 import type { BaselineRow, Database, FillMethod, MeterRow } from '../store/schema.js';
 import type { Executor } from './context.js';
@@ -72,7 +73,7 @@ import {
   type ReportQuery,
   type ReportReads,
 } from './reports.js';
-import { cachedFrozenModel, frozenModelOfRow, type FrozenModel } from './savings.js';
+import { cachedProjectionModel, frozenModelOfRow, usableStoredModel, type ProjectionModel } from './frozen-models.js';
 import { reportingSeries } from './variables.js';
 
 export type StreamFormat = 'json' | 'csv';
@@ -144,12 +145,17 @@ async function writeReport(
 
   // Pass 1: the pooled correlation of every meter's baseline residuals, in the report's meter order.
   const pooled = new PooledResidualCorrelation();
-  for (const facilities of chunks) {
+  const residualReads = async (facilities: readonly FacilityRow[]) => {
     const meters = await metersOf(db, facilities);
-    const baselines = await frozenBaselines(
-      db,
-      meters.flatMap((m) => m.meters),
-    );
+    return {
+      meters,
+      baselines: await frozenBaselines(
+        db,
+        meters.flatMap((m) => m.meters),
+      ),
+    };
+  };
+  for await (const { meters, baselines } of readAhead(chunks, residualReads)) {
     for (const { meters: list } of meters) {
       for (const meter of list) {
         const baseline = baselines.get(meter.id);
@@ -167,13 +173,18 @@ async function writeReport(
   // Pass 2: each facility computed as the whole-document report computes it, written, and let go.
   const kept = new RollupParts();
   const normalYears = new Map<string, SavingsReport['normalYears'][number]>();
-  for (const facilities of chunks) {
+  const chunkData = async (facilities: readonly FacilityRow[]) => {
     const meters = await metersOf(db, facilities);
     const allMeters = meters.flatMap((m) => m.meters);
-    const baselines = await frozenBaselines(db, allMeters);
-    const schedules = await ratesOf(db, allMeters);
-    const adjustments = await adjustmentsOf(db, allMeters);
-    const reads = await chunkReads(db, allMeters, readingsFrom(frame, facilities), frame.window.to, stations);
+    return {
+      meters,
+      baselines: await frozenBaselines(db, allMeters),
+      schedules: await ratesOf(db, allMeters),
+      adjustments: await adjustmentsOf(db, allMeters),
+      reads: await chunkReads(db, allMeters, readingsFrom(frame, facilities), frame.window.to, stations),
+    };
+  };
+  for await (const { meters, baselines, schedules, adjustments, reads } of readAhead(chunks, chunkData)) {
     for (const { facility, meters: list } of meters) {
       const contexts: MeterContext[] = list.map((meter) => {
         const baseline = baselines.get(meter.id);
@@ -204,6 +215,8 @@ async function writeReport(
       kept.add(report);
       for (const used of usedNormalYears) normalYears.set(used.stationId, used);
       await writer.facility(report);
+      // Let the next chunk's queries and other requests move on between facilities.
+      await new Promise<void>((resolve) => setImmediate(resolve));
     }
   }
 
@@ -303,7 +316,8 @@ class HashingWriter {
   }
 }
 
-const json = (value: unknown) => JSON.stringify(nonFiniteToNull(value));
+// JSON.stringify writes NaN and ±Infinity as null, as nonFiniteToNull would, without copying the document first.
+const json = (value: unknown) => JSON.stringify(value);
 
 /** The JSON document: one facility per line inside "facilities". */
 class JsonReportWriter {
@@ -396,6 +410,26 @@ class CsvReportWriter {
 // ---------------------------------------------------------------------------
 // Reading a chunk of facilities at once.
 
+/**
+ * Each item's reads, the next item's started before this one's are handed
+ * over: the database answers the next chunk's queries while this process
+ * computes the current one. At most two chunks are held at once.
+ */
+async function* readAhead<I, T>(items: readonly I[], read: (item: I) => Promise<T>): AsyncGenerator<T> {
+  // A read left pending when the consumer stops early must not become an unhandled rejection.
+  const started = (item: I) => {
+    const promise = read(item);
+    promise.catch(() => undefined);
+    return promise;
+  };
+  let next = items.length > 0 ? started(items[0]!) : null;
+  for (let i = 0; i < items.length; i++) {
+    const current = next!;
+    next = i + 1 < items.length ? started(items[i + 1]!) : null;
+    yield await current;
+  }
+}
+
 function chunk<T>(items: readonly T[], size: number): T[][] {
   const out: T[][] = [];
   for (let i = 0; i < items.length; i += size) out.push(items.slice(i, i + size));
@@ -433,12 +467,16 @@ type BaselineSummaryRow = Pick<
   'id' | 'version' | 'content_hash' | 'period_start' | 'period_end' | 'temperature_form'
 >;
 
-/** Each meter's frozen baseline and its model; the stored documents are read only for models not parsed lately. */
+/**
+ * Each meter's frozen baseline and its model: from memory, else from its
+ * stored compact form (frozen_models, about 3 KB), else (no usable stored
+ * form) from the baseline's whole content, read and checked as before.
+ */
 async function frozenBaselines(
   db: Executor,
   meters: readonly MeterRow[],
-): Promise<Map<string, { row: BaselineSummaryRow; model: FrozenModel | null }>> {
-  const out = new Map<string, { row: BaselineSummaryRow; model: FrozenModel | null }>();
+): Promise<Map<string, { row: BaselineSummaryRow; model: ProjectionModel | null }>> {
+  const out = new Map<string, { row: BaselineSummaryRow; model: ProjectionModel | null }>();
   if (meters.length === 0) return out;
   const rows = await db
     .selectFrom('baselines')
@@ -450,25 +488,43 @@ async function frozenBaselines(
     )
     .where('status', '=', 'frozen')
     .execute();
-  const missing = rows.filter((r) => r.content_hash !== null && !cachedFrozenModel(r.id, r.content_hash));
-  const full = new Map<string, BaselineRow>();
-  if (missing.length > 0) {
-    for (const row of await db
+  const models = new Map<string, ProjectionModel>();
+  const notHeld = (r: (typeof rows)[number]) => r.content_hash !== null && !models.has(r.id);
+  for (const row of rows) {
+    const held = row.content_hash === null ? undefined : cachedProjectionModel(row.id, row.content_hash);
+    if (held) models.set(row.id, held);
+  }
+  const unread = rows.filter(notHeld);
+  if (unread.length > 0) {
+    const hashes = new Map(unread.map((r) => [r.id, r.content_hash!]));
+    const stored = await db
+      .selectFrom('frozen_models')
+      .select(['baseline_id', 'content_hash', 'format', 'model_json', 'model_hash'])
+      .where(
+        'baseline_id',
+        'in',
+        unread.map((r) => r.id),
+      )
+      .execute();
+    for (const entry of stored) {
+      const model = usableStoredModel(entry.baseline_id, hashes.get(entry.baseline_id)!, entry);
+      if (model) models.set(entry.baseline_id, model);
+    }
+  }
+  const underived = rows.filter(notHeld);
+  if (underived.length > 0) {
+    const full = await db
       .selectFrom('baselines')
       .selectAll()
       .where(
         'id',
         'in',
-        missing.map((r) => r.id),
+        underived.map((r) => r.id),
       )
-      .execute())
-      full.set(row.id, row as BaselineRow);
+      .execute();
+    for (const row of full) models.set(row.id, frozenModelOfRow(row as BaselineRow, row.content_hash!));
   }
-  for (const row of rows) {
-    const hash = row.content_hash;
-    const model = hash === null ? null : (cachedFrozenModel(row.id, hash) ?? frozenModelOfRow(full.get(row.id)!, hash));
-    out.set(row.meter_id, { row, model });
-  }
+  for (const row of rows) out.set(row.meter_id, { row, model: models.get(row.id) ?? null });
   return out;
 }
 
@@ -625,7 +681,7 @@ async function chunkReads(
           r.end > window.endAfter!,
       );
     },
-    weather: (stationId, readings) => stations.weather.covering(stationId, readings),
+    weather: (stationId, readings) => stations.weather.indexed(stationId, readings),
     filledDays: async (stationId, dayFrom, dayTo) => {
       // Exactly what loadFilledDays answers: the station's filled days on [dayFrom, dayTo).
       const out = new Map<string, FillMethod>();
@@ -643,12 +699,18 @@ const WEATHER_MARGIN_DAYS = 400;
 
 /** Each station's daily weather, read once over a span wide enough for many meters and sliced per request. */
 class StationWeather {
-  private readonly spans = new Map<string, { from: string; to: string; days: DailyTemperature[] }>();
+  private readonly spans = new Map<
+    string,
+    { from: string; to: string; days: DailyTemperature[]; index?: DayIndexedWeather }
+  >();
 
   constructor(private readonly db: Executor) {}
 
-  /** Exactly what loadWeatherFor answers: the station's days from the readings' first start to their last end. */
-  async covering(stationId: string, readings: readonly Reading[]): Promise<DailyTemperature[]> {
+  /**
+   * The station's days over every day of `readings`, indexed once per span
+   * read (it holds more days than they span: an alignment reads only its own).
+   */
+  async indexed(stationId: string, readings: readonly Reading[]): Promise<DailyWeather> {
     if (readings.length === 0) return [];
     let from = readings[0]!.start;
     let to = readings[0]!.end;
@@ -663,20 +725,9 @@ class StationWeather {
       span = { from: wideFrom, to: wideTo, days: await loadDailyWeather(this.db, stationId, wideFrom, wideTo) };
       this.spans.set(stationId, span);
     }
-    const days = span.days;
-    return days.slice(lowerBound(days, from), lowerBound(days, to));
+    span.index ??= new DayIndexedWeather(span.days);
+    return span.index;
   }
-}
-
-function lowerBound(days: readonly DailyTemperature[], date: string): number {
-  let lo = 0;
-  let hi = days.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (days[mid]!.date < date) lo = mid + 1;
-    else hi = mid;
-  }
-  return lo;
 }
 
 function shiftDays(date: string, days: number): string {

@@ -23,7 +23,7 @@ import {
   describeFills,
   filledDaysByPeriod,
   type MeterResiduals,
-  type DailyTemperature,
+  type DailyWeather,
   type DateWindow,
   type RateEntry,
   type Reading,
@@ -56,7 +56,7 @@ import { getFacilityRow } from './facilities.js';
 import { loadReadings, loadWeatherFor, type ReadingWindow } from './meter-data.js';
 import { loadFilledDays } from './weather-gaps.js';
 import { loadSchedule } from './rates.js';
-import { frozenModel, type FrozenModel } from './savings.js';
+import { frozenModel, type FrozenModel, type ProjectionModel } from './frozen-models.js';
 
 export interface ReportQuery {
   from?: string;
@@ -80,7 +80,8 @@ export interface MeterContext {
     end: string;
     temperatureForm: 'daily' | 'mean';
   } | null;
-  model: FrozenModel | null;
+  /** The whole model where the report draws charts (signature), else at least what projections need. */
+  model: ProjectionModel | FrozenModel | null;
   rates: { currency: string | null; entries: RateEntry[] };
   adjustments: StoredAdjustment[];
   normalYear: { temps: number[]; contentHash: string; source: string } | null;
@@ -94,7 +95,8 @@ export interface MeterContext {
  */
 export interface ReportReads {
   readings(meterId: string, window: ReadingWindow): Promise<Reading[]>;
-  weather(stationId: string, readings: readonly Reading[]): Promise<DailyTemperature[]>;
+  /** The station's daily weather over the readings' days (it may hold more days: an alignment reads only its periods' own). */
+  weather(stationId: string, readings: readonly Reading[]): Promise<DailyWeather>;
   filledDays(stationId: string, from: string, to: string): Promise<Map<string, FillMethod>>;
   /** The reporting values of a frozen model's independent variables over the window. */
   variableSeries(
@@ -300,8 +302,8 @@ export function nothingToReport(
 export function baselineResiduals(ctx: Pick<MeterContext, 'model' | 'meter'>): MeterResiduals[] {
   const model = ctx.model;
   if (!model) return [];
-  // The fit's residuals are in start-date order; its periods are the aligned baseline readings.
-  const periods = [...model.baselinePeriods].sort((a, b) => (a.start < b.start ? -1 : a.start > b.start ? 1 : 0));
+  // The fit's residuals are in start-date order, as are the periods' dates.
+  const periods = model.residualPeriods;
   if (periods.length !== model.fit.residuals.length) return [];
   return [
     {
@@ -499,7 +501,7 @@ export function meterContextOf(rows: {
     BaselineRow,
     'id' | 'version' | 'content_hash' | 'period_start' | 'period_end' | 'temperature_form'
   > | null;
-  model: FrozenModel | null;
+  model: ProjectionModel | FrozenModel | null;
   schedule: { currency: string | null; rates: RateEntry[] };
   adjustmentRows: readonly Selectable<Database['adjustments']>[];
   normal: { temps_json: string; content_hash: string; source: string } | null;
@@ -536,6 +538,12 @@ export function meterContextOf(rows: {
       ? { temps: JSON.parse(normal.temps_json) as number[], contentHash: normal.content_hash, source: normal.source }
       : null,
   };
+}
+
+/** The whole model a chart needs: a report that draws charts reads whole models (meterContext). */
+function withBaselinePeriods(model: ProjectionModel | FrozenModel): FrozenModel {
+  if (!('baselinePeriods' in model)) throw new Error('a report with charts needs the whole frozen model');
+  return model;
 }
 
 /** One meter's figures over `window`, or the reason it has none. */
@@ -663,7 +671,7 @@ async function meterInWindow(
     rates: ctx.rates,
     adjustments: overlapping,
     normalised,
-    signature: options.signature ? signatureData(model, savings, meter.unit) : null,
+    signature: options.signature ? signatureData(withBaselinePeriods(model), savings, meter.unit) : null,
     extrapolation,
     weatherFills: filledDaysByPeriod(savings.periods, filled),
   });

@@ -9,42 +9,27 @@
 import {
   TooFewPeriodsError,
   MissingVariableValuesError,
-  type VariableAggregation,
   InvalidAdjustmentError,
   alignPeriods,
-  baselineSufficiency,
   projectionRefusals,
   reportingExtrapolation,
   savingsFromAligned,
   withProjectionChecks,
   describeDateRanges,
   missingWeatherDates,
-  type BaselineSufficiency,
   type CheckedSavingsDocument,
-  type ExcludedPeriod,
-  type FitDocument,
-  type Guideline14Limits,
-  type ModelName,
-  type Period,
-  type ProjectionOverrides,
   type SavingsDocument,
-  type TemperatureUnit,
-  type ShapeFit,
   filledDaysByPeriod,
   type PeriodFills,
-  type AppliedExclusion,
 } from '../engine/index.js';
 import { DomainError } from '../domain/errors.js';
-import { BoundedCache } from '../lib/bounded-cache.js';
-import type { BaselineRow } from '../store/schema.js';
-import { fromStoredJson, verifyParsedBaselineContent } from '../store/baseline-content.js';
 import { nonFiniteToNull } from '../lib/non-finite.js';
-import { overridesOf, type BaselineFitOptions, type BaselineInputs } from './baselines/index.js';
 import type { Executor } from './context.js';
 import { getMeterRow } from './meters.js';
 import { loadFilledDays } from './weather-gaps.js';
 import { loadReadings, loadWeatherFor } from './meter-data.js';
 import { reportingSeries } from './variables.js';
+import { frozenModel, type ProjectionModel } from './frozen-models.js';
 import { adjustmentProblem, toAdjustment, toEngineAdjustment, type Adjustment } from './adjustments.js';
 
 export interface SavingsQuery {
@@ -64,129 +49,10 @@ export interface MeterSavings extends CheckedSavingsDocument {
   weatherFills: PeriodFills[];
 }
 
-export interface FrozenModel {
-  fit: ShapeFit;
-  /** The baseline's own periods as fitted (for the energy signature). */
-  baselinePeriods: Period[];
-  temperatureUnit: TemperatureUnit;
-  limits: Guideline14Limits;
-  excluded: ExcludedPeriod[];
-  /** Baseline readings the engineer left out, each with its reason (frozen in the fit document). */
-  exclusions: AppliedExclusion[];
-  minCoverage: number;
-  /** Whether the baseline covers a full cycle of seasons. */
-  sufficiency: BaselineSufficiency;
-  /** What was allowed when it was frozen (kept under its content hash). */
-  overrides: ProjectionOverrides;
-  /** The stored variables the chosen fit carries (ids fixed when it was fitted), in its order; empty for a weather-only fit. */
-  variables: { id: string; name: string; unit: string; aggregation: VariableAggregation; source?: 'calendar' }[];
-}
-
-/**
- * Parsed frozen models, by baseline id and content hash (a frozen row never
- * changes), up to about MODEL_CACHE_BYTES of memory. Parsing one (its
- * content hash checked, its baseline realigned) costs a few milliseconds, so
- * a report of 10,000 meters is only quick while their models stay here: the
- * budget holds that many models of three years of monthly bills.
- */
-export const MODEL_CACHE_BYTES = 256 * 2 ** 20;
-
-/** A model's memory, roughly (measured: about 16 KiB for 24 monthly bills in the daily form, 730 days): fixed part, per period, per day. */
-function modelBytes(model: FrozenModel): number {
-  let days = 0;
-  for (const period of model.baselinePeriods) days += period.dayTemps?.length ?? 0;
-  return 4096 + 400 * model.baselinePeriods.length + 8 * days;
-}
-
-const modelCache = new BoundedCache<FrozenModel>(MODEL_CACHE_BYTES, modelBytes);
-
-/** Parse (and check against its hash) the frozen baseline's chosen fit, once per baseline. */
-export async function frozenModel(db: Executor, baselineId: string, contentHash: string): Promise<FrozenModel> {
-  const cached = modelCache.get(`${baselineId}:${contentHash}`);
-  if (cached) return cached;
-  const row = (await db
-    .selectFrom('baselines')
-    .selectAll()
-    .where('id', '=', baselineId)
-    .executeTakeFirstOrThrow()) as BaselineRow;
-  return frozenModelOfRow(row, contentHash);
-}
-
-/** The cached model of a frozen baseline, if it has been parsed lately (no database read). */
-export function cachedFrozenModel(baselineId: string, contentHash: string): FrozenModel | undefined {
-  return modelCache.get(`${baselineId}:${contentHash}`);
-}
-
-/** The frozen model of a baseline row already read (checked against its hash, parsed, cached). */
-export function frozenModelOfRow(row: BaselineRow, contentHash: string): FrozenModel {
-  const key = `${row.id}:${contentHash}`;
-  const cached = modelCache.get(key);
-  if (cached) return cached;
-  const baselineId = row.id;
-  const tampered = () =>
-    new DomainError(
-      'unprocessable',
-      `baseline ${baselineId}: its stored content no longer matches its content hash ${contentHash}; savings are refused until this is investigated (see the audit trail)`,
-    );
-  // Every column parsed first (one that no longer parses has been tampered with), then checked against the hash.
-  let document: FitDocument;
-  let options: BaselineFitOptions;
-  let fits: Partial<Record<ModelName, ShapeFit>>;
-  let inputs: BaselineInputs;
-  try {
-    document = fromStoredJson<FitDocument>(row.document_json);
-    options = fromStoredJson<BaselineFitOptions>(row.options_json);
-    fits = fromStoredJson<Partial<Record<ModelName, ShapeFit>>>(row.fits_json);
-    inputs = fromStoredJson<BaselineInputs>(row.inputs_json);
-  } catch {
-    throw tampered();
-  }
-  if (!verifyParsedBaselineContent(row)) throw tampered();
-  const fit = fits[row.chosen_model as ModelName];
-  if (!fit)
-    throw new DomainError(
-      'unprocessable',
-      `baseline ${baselineId} holds no fit of its chosen shape ${row.chosen_model}`,
-    );
-  const minCoverage = options.minCoverage ?? document.settings.minCoverage;
-  const baselinePeriods = alignPeriods(inputs.readings, inputs.weather, {
-    minCoverage,
-    variableSeries: inputs.variables ?? [],
-  }).periods;
-  const variables = (fit.variables ?? []).map((name) => {
-    const stored = inputs.variables?.find((v) => v.name === name);
-    if (!stored)
-      throw new DomainError(
-        'unprocessable',
-        `baseline ${baselineId}: its fit carries the variable "${name}" but its inputs do not`,
-      );
-    return {
-      id: stored.id,
-      name: stored.name,
-      unit: stored.unit,
-      aggregation: stored.aggregation,
-      ...(stored.source ? { source: stored.source } : {}),
-    };
-  });
-  const model: FrozenModel = {
-    fit,
-    baselinePeriods,
-    temperatureUnit: inputs.temperatureUnit,
-    limits: document.settings.guideline14,
-    excluded: document.periods.excluded,
-    exclusions: document.exclusions ?? [],
-    minCoverage,
-    sufficiency: baselineSufficiency(baselinePeriods),
-    overrides: overridesOf(row),
-    variables,
-  };
-  return modelCache.set(key, model);
-}
-
 /** Reporting periods without their variables' values: a 422 naming each period's dates and the variables to post. */
 export function missingVariablesProblem(
   error: MissingVariableValuesError,
-  variables: FrozenModel['variables'],
+  variables: ProjectionModel['variables'],
 ): DomainError {
   const ids = variables.map((v) => `${v.name} (${v.id})`).join(', ');
   return new DomainError(

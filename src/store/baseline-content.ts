@@ -36,6 +36,15 @@ export function toStoredJson(value: unknown): string {
   return canonicalJson(tagNonFinite(value));
 }
 
+/**
+ * Stored JSON in the value's own key order (not canonical): parsed back it
+ * gives an object whose keys come in the same order, so a document written
+ * from it is byte for byte the one written from the original.
+ */
+export function toOrderedStoredJson(value: unknown): string {
+  return JSON.stringify(tagNonFinite(value));
+}
+
 /** Parse stored JSON back to the exact values, non-finite numbers restored. */
 export function fromStoredJson<T>(text: string): T {
   // Most stored documents hold no non-finite number: parsing without a reviver is several times quicker.

@@ -270,6 +270,17 @@ export interface MeterDataVersionsTable {
   version: string;
 }
 
+/** A frozen baseline's model in the compact form projections read, derived from its content (src/services/frozen-models.ts). */
+export interface FrozenModelsTable {
+  baseline_id: string;
+  /** The content hash it was derived from. */
+  content_hash: string;
+  format: number;
+  model_json: string;
+  /** SHA-256 of the content hash, the format and model_json. */
+  model_hash: string;
+}
+
 /** A named independent variable of a facility (meter_id null) or of one of its meters. */
 export interface VariablesTable {
   id: string;
@@ -337,9 +348,11 @@ export interface Database {
   variable_values: VariableValuesTable;
   facility_calendars: FacilityCalendarsTable;
   audit_checkpoints: AuditCheckpointsTable;
+  frozen_models: FrozenModelsTable;
 }
 
 export type VariableRow = Selectable<VariablesTable>;
+export type FrozenModelRow = Selectable<FrozenModelsTable>;
 
 export type ReadingRow = Selectable<ReadingsTable>;
 export type NewReadingRow = Insertable<ReadingsTable>;

@@ -332,6 +332,14 @@ describe('choosing and freezing', () => {
     expect(read.json.verified).toBe(true);
     expect(read.json.fit).toEqual(engineFitJson()); // the engine itself
     expect((await auditActions(baselineId)).map((a) => a.action)).toEqual(['create', 'choose', 'choose', 'freeze']);
+    // The freeze stored the compact model reports project with, bound to the same content hash.
+    const stored = await api.store.db
+      .selectFrom('frozen_models')
+      .selectAll()
+      .where('baseline_id', '=', baselineId)
+      .executeTakeFirstOrThrow();
+    expect(stored.content_hash).toBe(response.json.contentHash);
+    expect(JSON.parse(stored.model_json).fit).toEqual(JSON.parse(row.fits_json)[row.chosen_model]);
   });
 
   it('keeps a frozen baseline out of reach of every route', async () => {

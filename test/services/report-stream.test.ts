@@ -13,6 +13,7 @@ import { generatePortfolio } from '../../src/demo/portfolio.js';
 import { renderReportCsv } from '../../src/reports/csv.js';
 import type { SavingsReport } from '../../src/reports/savings-report.js';
 import { checkStreamedReport, streamSavingsReport, type StreamFormat } from '../../src/services/report-stream.js';
+import { forgetFrozenModels } from '../../src/services/frozen-models.js';
 import { savingsReport, type ReportQuery } from '../../src/services/reports.js';
 import { openStore, type Store } from '../../src/store/connect.js';
 import { migrateToLatest } from '../../src/store/migrate.js';
@@ -54,6 +55,8 @@ beforeAll(async () => {
     })
     .execute();
   await store.db.deleteFrom('rates').where('meter_id', '=', meters[3]!.id).execute();
+  const unfrozen = store.db.selectFrom('baselines').select('id').where('meter_id', '=', meters[6]!.id);
+  await store.db.deleteFrom('frozen_models').where('baseline_id', 'in', unfrozen).execute();
   await store.db.deleteFrom('baselines').where('meter_id', '=', meters[6]!.id).execute();
   // Filled days at the first meter's station: one in the baseline, two in the reporting quarter.
   const station = await store.db
@@ -142,6 +145,21 @@ describe.each([
 
   it('the chunk size changes nothing: one chunk and one facility per chunk give the same bytes', async () => {
     expect(await streamed(query, 'json', 1)).toBe(await streamed(query, 'json', 100));
+  });
+
+  it('the stored compact models change nothing: the same bytes when every model is derived from its baseline’s content', async () => {
+    forgetFrozenModels();
+    const fromStored = await streamed(query, 'json', 100);
+    const stored = await store.db.selectFrom('frozen_models').selectAll().execute();
+    expect(stored.length).toBe(14); // every frozen baseline of the fifteen meters but the one planted without
+    await store.db.deleteFrom('frozen_models').execute();
+    forgetFrozenModels();
+    try {
+      expect(await streamed(query, 'json', 100)).toBe(fromStored);
+    } finally {
+      await store.db.insertInto('frozen_models').values(stored).execute();
+      forgetFrozenModels();
+    }
   });
 
   it('CSV: the whole report’s rows, facilities first and the portfolio after them, ending with the digest', async () => {

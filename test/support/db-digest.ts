@@ -27,6 +27,8 @@ const TABLES = [
   'variables',
   'variable_values',
   'facility_calendars',
+  'audit_checkpoints',
+  'frozen_models',
 ] as const;
 
 export async function databaseDigest(db: Kysely<Database>): Promise<string> {

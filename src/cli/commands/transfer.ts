@@ -6,6 +6,7 @@
  * reports one line per table on stderr (row counts only, never a secret).
  */
 import { existsSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { storeMissingFrozenModels } from '../../services/frozen-models.js';
 import type { Store } from '../../store/connect.js';
 import { findOrganisation } from '../../store/organisations.js';
 import { DatabaseUrlError, parseDatabaseUrl } from '../../store/database-url.js';
@@ -78,10 +79,13 @@ export async function runImport(
   const input = readDocument(file);
   return withStore(env.DATABASE_URL ?? DEFAULT_DATABASE_URL, async (store) => {
     const summary = await importOrganisation(store.db, input).catch(asUsage(`${file}: `));
+    // Derived bookkeeping is not carried by the document: the imported frozen baselines' compact models are derived here.
+    const models = await storeMissingFrozenModels(store.db);
     const lines = [
       `imported organisation ${summary.organisation.id} (${JSON.stringify(summary.organisation.name)}) into ${store.location}`,
       ...tableLines(summary.rows),
       `audit head: seq ${summary.auditHead.seq}, hash ${summary.auditHead.hash} (verified in the target)`,
+      `frozen models derived from their baselines' content: ${models}`,
     ];
     return { stdout: '', note: `${lines.join('\n')}\n` };
   });

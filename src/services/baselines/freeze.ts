@@ -2,6 +2,7 @@
  * Freezing a draft under its content hash: the short-baseline rule and its
  * override, and superseding the meter's frozen baseline with a reason.
  */
+import { storeFrozenModel } from '../frozen-models.js';
 import { baselineSufficiency } from '../../engine/index.js';
 import { baselineContentHash } from '../../store/baseline-content.js';
 import { bumpMeterVersions } from '../../store/data-versions.js';
@@ -127,6 +128,8 @@ export async function freezeBaseline(ctx: ServiceContext, baselineId: string, in
       .where('id', '=', row.id)
       .where('status', '=', 'draft')
       .execute();
+    // The compact model reports project with, derived now from the content just hashed.
+    await storeFrozenModel(trx, frozen, frozen.content_hash);
     await audit(trx, ctx, {
       action: 'freeze',
       entityType: 'baseline',
