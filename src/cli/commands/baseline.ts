@@ -20,7 +20,7 @@ export function fitBaseline(
   variables: VariablesFile | null = null,
 ): BaselineAnalysis {
   try {
-    return analyseBaseline(readings.readings, weather.weather, {
+    return analyseBaseline(readings.readings, weather.indexed ?? weather.weather, {
       exclusions,
       ...(variables ? { variableSeries: variables.series, variables: variables.series.map((s) => s.name) } : {}),
       minCoverage: options.minCoverage,

@@ -1,5 +1,5 @@
 /** One meter of a batch fit: its output line (a CSV row or a JSON line), on the main thread or a worker thread. */
-import type { BaselineAnalysis, FitDocument } from '../../engine/index.js';
+import { DayIndexedWeather, type BaselineAnalysis, type FitDocument } from '../../engine/index.js';
 import { csvNumber, csvText } from '../../reports/csv.js';
 import { InputFileError, oneLine } from '../errors.js';
 import type { MeterTable } from '../input/batch-files.js';
@@ -7,6 +7,11 @@ import { readingsFromTable } from '../input/readings-file.js';
 import type { WeatherFile } from '../input/weather-file.js';
 import type { FitOptions } from '../options.js';
 import { fitBaseline } from './baseline.js';
+
+/** A weather file with its days indexed once for every meter of a batch that uses it (each thread builds its own). */
+export function withDayIndex(file: WeatherFile): WeatherFile {
+  return { ...file, indexed: new DayIndexedWeather(file.weather) };
+}
 
 /** The CSV columns of a batch fit, one row per meter. Columns are only ever added at the end. */
 export const BATCH_CSV_COLUMNS = [

@@ -1,27 +1,48 @@
 /**
- * A batch's meters fitted on worker threads: meter k goes to thread k mod n,
- * each thread answers its meters in turn, and the lines are written in the
- * file's order as soon as every earlier one is in (so the output is the same
- * bytes as on one thread). A failure that is not a meter's own (a bug)
- * stops the batch, as it does on one thread.
+ * A batch's meters fitted on several threads: the main thread and
+ * `threads − 1` worker threads take the next unfitted meter from one shared
+ * counter (so a slow meter holds up no one), and the lines are written in
+ * the file's order as soon as every earlier one is in (so the output is the
+ * same bytes as on one thread). The main thread fits too: a thread of its
+ * own would only wait, and each extra thread compiles the engine again. A
+ * failure that is not a meter's own (a bug) stops the batch, as it does on
+ * one thread.
  */
 import { Worker } from 'node:worker_threads';
 import type { MeterTable } from '../input/batch-files.js';
 import type { FitOptions } from '../options.js';
 import type { WeatherFile } from '../input/weather-file.js';
-import type { MeterResult } from './fit-batch-meter.js';
+import { fitMeter, withDayIndex, type MeterResult } from './fit-batch-meter.js';
 
-/** What one thread is given: its meters (with their place in the file), every station's weather, the options. */
+/** What a worker thread is given: every meter, every station's weather, the options and the shared counter. */
 export interface ThreadWork {
-  items: { index: number; meter: MeterTable }[];
+  meters: readonly MeterTable[];
   weather: [string | null, WeatherFile][];
   options: FitOptions;
+  /** One Int32: the index of the next meter to take (Atomics.add). */
+  next: SharedArrayBuffer;
 }
 
 /** A thread's answer for one meter. */
 export interface ThreadAnswer {
   index: number;
   result: MeterResult;
+}
+
+/** Take meters from the shared counter until none is left, answering each. */
+export function fitFromCounter(work: ThreadWork, answer: (a: ThreadAnswer) => void, stopAfter = Infinity): boolean {
+  const counter = new Int32Array(work.next);
+  const weather = new Map(work.weather.map(([station, file]) => [station, withDayIndex(file)]));
+  for (let taken = 0; taken < stopAfter; taken++) {
+    const index = Atomics.add(counter, 0, 1);
+    if (index >= work.meters.length) return false;
+    const meter = work.meters[index]!;
+    const stationDays = weather.get(meter.station) ?? weather.get(null);
+    // The main thread checked that every meter has its weather before starting the threads.
+    if (!stationDays) throw new Error(`meter ${meter.meter}: no weather`);
+    answer({ index, result: fitMeter(meter, stationDays, work.options) });
+  }
+  return true;
 }
 
 /**
@@ -54,14 +75,8 @@ export async function fitInWorkers(
       next++;
     }
   };
-  const workers = Array.from({ length: threads }, (_, t) => {
-    const work: ThreadWork = {
-      items: meters.flatMap((meter, index) => (index % threads === t ? [{ index, meter }] : [])),
-      weather: [...weather],
-      options,
-    };
-    return startThread(work);
-  });
+  const work: ThreadWork = { meters, weather: [...weather], options, next: new SharedArrayBuffer(4) };
+  const workers = Array.from({ length: threads - 1 }, () => startThread(work));
   const finished = workers.map(
     (worker) =>
       new Promise<void>((resolve, reject) => {
@@ -72,11 +87,23 @@ export async function fitInWorkers(
         );
       }),
   );
+  // A worker's failure is seen between the main thread's meters, and stops the batch.
+  let failed: unknown = null;
+  const watched = Promise.all(finished).catch((error: unknown) => {
+    failed = error;
+  });
   try {
-    await Promise.all(finished);
+    // The main thread fits a few meters at a time, then lets the workers' answers in.
+    while (failed === null && fitFromCounter(work, receive, MAIN_THREAD_RUN))
+      await new Promise<void>((resolve) => setImmediate(resolve));
+    await watched;
+    if (failed !== null) throw failed;
   } catch (error) {
-    // One thread failed: stop the others rather than fit meters whose lines will never be written.
+    // Stop the others rather than fit meters whose lines will never be written.
     await Promise.all(workers.map((worker) => worker.terminate()));
     throw error;
   }
 }
+
+/** Meters the main thread fits before it takes in the workers' answers. */
+const MAIN_THREAD_RUN = 4;

@@ -16,7 +16,7 @@ import type { CliIO } from '../io.js';
 import type { FitOptions } from '../options.js';
 import { splitReadingsByMeter, splitWeatherByStation } from '../input/batch-files.js';
 import { weatherFromTable, type WeatherFile } from '../input/weather-file.js';
-import { BATCH_CSV_COLUMNS, fitMeter, type MeterResult } from './fit-batch-meter.js';
+import { BATCH_CSV_COLUMNS, fitMeter, withDayIndex, type MeterResult } from './fit-batch-meter.js';
 
 export { BATCH_CSV_COLUMNS } from './fit-batch-meter.js';
 
@@ -48,8 +48,9 @@ export async function runFitBatch(options: FitOptions, io: CliIO, threads?: numb
     const { fitInWorkers } = await import('./fit-batch-threads.js');
     await fitInWorkers(meters, weatherByStation, options, workers, write);
   } else {
+    const indexed = new Map([...weatherByStation].map(([station, file]) => [station, withDayIndex(file)]));
     for (const item of meters)
-      write(fitMeter(item, stationWeather(weatherByStation, item.station, item.meter, options), options));
+      write(fitMeter(item, stationWeather(indexed, item.station, item.meter, options), options));
   }
   io.stderr(
     `mvledger: fitted ${outcome.fitted} of ${meters.length} meter(s)${outcome.failed > 0 ? `; ${outcome.failed} failed` : ''}\n`,

@@ -12,6 +12,7 @@ import {
   FILL_METHODS,
   isIsoDate,
   type DailyTemperature,
+  type DayIndexedWeather,
   type FillMethod,
   type TemperatureUnit,
 } from '../../engine/index.js';
@@ -29,6 +30,8 @@ export interface WeatherFile {
   lines: number[];
   /** Days the file's `filled` column marks as filled on record, by method (empty without the column). */
   filled: Map<string, FillMethod>;
+  /** The days indexed once, where many meters are fitted against this file (a batch); built in each thread. */
+  indexed?: DayIndexedWeather;
 }
 
 export async function loadWeather(file: string, unit: TemperatureUnit): Promise<WeatherFile> {

@@ -204,19 +204,35 @@ function coolingSumsByInterval(days: BillDays): CoolingSums {
 
 /**
  * The Gram matrix of one pair of intervals over the basis [1, s, S, Q, r, y]
- * (index 0–5), row-major 6×6: the five-column relaxation's data, and every
- * edge problem's by linear combination.
+ * (its upper triangle, by name: c = constant, s, S, q = Q, r, y): the
+ * five-column relaxation's data, and every edge problem's by linear
+ * combination. Fields rather than a 6×6 array: a pair that needs its edges
+ * sets each once, and the edges read the ones they combine.
  */
 class PairGram {
-  readonly g = new Float64Array(36);
+  cc = 0;
+  cs = 0;
+  cS = 0;
+  cq = 0;
+  cr = 0;
+  ss = 0;
+  sS = 0;
+  sq = 0;
+  sr = 0;
+  sy = 0;
+  SS = 0;
+  Sq = 0;
+  Sr = 0;
+  Sy = 0;
+  qq = 0;
+  qr = 0;
+  qy = 0;
+  rr = 0;
+  ry = 0;
+  yy = 0;
   /** The edge problem's Gram matrix, [1, fixed hinge, u, v, y]. */
   private readonly edge = new Float64Array(25);
   private readonly edgeResult: HingeOptimum = { tau: Number.NaN, sse: Number.POSITIVE_INFINITY };
-
-  set(a: number, c: number, value: number): void {
-    this.g[a * 6 + c] = value;
-    this.g[c * 6 + a] = value;
-  }
 
   private setEdge(a: number, c: number, value: number): void {
     this.edge[a * 5 + c] = value;
@@ -228,45 +244,119 @@ class PairGram {
    * hinge Q − τ·r moves over [low, high] (u = Q, v = −r).
    */
   heatingEdge(t: number, low: number, high: number): HingeOptimum | null {
-    const g = this.g;
-    this.setEdge(0, 0, g[0]!);
-    this.setEdge(0, 1, t * g[1]! - g[2]!);
-    this.setEdge(1, 1, t * t * g[7]! - 2 * t * g[8]! + g[14]!);
-    this.setEdge(0, 2, g[3]!);
-    this.setEdge(0, 3, -g[4]!);
-    this.setEdge(1, 2, t * g[9]! - g[15]!);
-    this.setEdge(1, 3, -(t * g[10]! - g[16]!));
-    this.setEdge(2, 2, g[21]!);
-    this.setEdge(2, 3, -g[22]!);
-    this.setEdge(3, 3, g[28]!);
-    this.setEdge(0, 4, g[5]!);
-    this.setEdge(1, 4, t * g[11]! - g[17]!);
-    this.setEdge(2, 4, g[23]!);
-    this.setEdge(3, 4, -g[29]!);
-    this.setEdge(4, 4, g[35]!);
+    this.setEdge(0, 0, this.cc);
+    this.setEdge(0, 1, t * this.cs - this.cS);
+    this.setEdge(1, 1, t * t * this.ss - 2 * t * this.sS + this.SS);
+    this.setEdge(0, 2, this.cq);
+    this.setEdge(0, 3, -this.cr);
+    this.setEdge(1, 2, t * this.sq - this.Sq);
+    this.setEdge(1, 3, -(t * this.sr - this.Sr));
+    this.setEdge(2, 2, this.qq);
+    this.setEdge(2, 3, -this.qr);
+    this.setEdge(3, 3, this.rr);
+    this.setEdge(0, 4, 0); // Σw·y = 0: y is centred
+    this.setEdge(1, 4, t * this.sy - this.Sy);
+    this.setEdge(2, 4, this.qy);
+    this.setEdge(3, 4, -this.ry);
+    this.setEdge(4, 4, this.yy);
     return bestHingeOnInterval(this.edge, 2, low, high, this.edgeResult) ? this.edgeResult : null;
   }
 
   /** The edge τc = t: the cooling hinge Q − t·r is fixed and the heating hinge −S + τ·s moves over [low, high]. */
   coolingEdge(t: number, low: number, high: number): HingeOptimum | null {
-    const g = this.g;
-    this.setEdge(0, 0, g[0]!);
-    this.setEdge(0, 1, g[3]! - t * g[4]!);
-    this.setEdge(1, 1, g[21]! - 2 * t * g[22]! + t * t * g[28]!);
-    this.setEdge(0, 2, -g[2]!);
-    this.setEdge(0, 3, g[1]!);
-    this.setEdge(1, 2, -(g[15]! - t * g[16]!));
-    this.setEdge(1, 3, g[9]! - t * g[10]!);
-    this.setEdge(2, 2, g[14]!);
-    this.setEdge(2, 3, -g[8]!);
-    this.setEdge(3, 3, g[7]!);
-    this.setEdge(0, 4, g[5]!);
-    this.setEdge(1, 4, g[23]! - t * g[29]!);
-    this.setEdge(2, 4, -g[17]!);
-    this.setEdge(3, 4, g[11]!);
-    this.setEdge(4, 4, g[35]!);
+    this.setEdge(0, 0, this.cc);
+    this.setEdge(0, 1, this.cq - t * this.cr);
+    this.setEdge(1, 1, this.qq - 2 * t * this.qr + t * t * this.rr);
+    this.setEdge(0, 2, -this.cS);
+    this.setEdge(0, 3, this.cs);
+    this.setEdge(1, 2, -(this.Sq - t * this.Sr));
+    this.setEdge(1, 3, this.sq - t * this.sr);
+    this.setEdge(2, 2, this.SS);
+    this.setEdge(2, 3, -this.sS);
+    this.setEdge(3, 3, this.ss);
+    this.setEdge(0, 4, 0);
+    this.setEdge(1, 4, this.qy - t * this.ry);
+    this.setEdge(2, 4, -this.Sy);
+    this.setEdge(3, 4, this.sy);
+    this.setEdge(4, 4, this.yy);
     return bestHingeOnInterval(this.edge, 2, low, high, this.edgeResult) ? this.edgeResult : null;
   }
+}
+
+/**
+ * Lower bounds of a pair's four edges (heating low, heating high, cooling
+ * low, cooling high), from its free five-column fit: an edge fixes one
+ * changepoint, the linear constraint a·β = 0 on the fit's coefficients
+ * (β₁ + τh·β₂ = 0, or τc·β₃ + β₄ = 0), and the least-squares fit under one
+ * such constraint has SSE relaxed + (a·β)²/|L⁻¹a|² (L the Cholesky factor of
+ * the pair's Gram matrix), which no point of the edge can beat.
+ */
+class EdgeBounds {
+  readonly bound = new Float64Array(4);
+
+  /**
+   * L's heating block (l10, l20, l21 and reciprocal diagonals i11, i22),
+   * the cooling rows' projections (zq1, zq2, zr1, zr2) and the Schur
+   * complement [a11 a12; a12 a22] with determinant det.
+   */
+  set(
+    relaxed: number,
+    coefficients: Float64Array,
+    l21: number,
+    i11: number,
+    i22: number,
+    zq1: number,
+    zq2: number,
+    zr1: number,
+    zr2: number,
+    a11: number,
+    a12: number,
+    det: number,
+    heat: readonly [number, number],
+    cool: readonly [number, number],
+  ): void {
+    const m11 = Math.sqrt(a11);
+    const m21 = a12 / m11;
+    const m22 = Math.sqrt(det / a11);
+    for (let e = 0; e < 2; e++) {
+      // a = (0, 1, t, 0, 0): forward substitution through L.
+      const t = heat[e]!;
+      const z1 = i11;
+      const z2 = (t - l21 * z1) * i22;
+      const z3 = -(zq1 * z1 + zq2 * z2) / m11;
+      const z4 = -(zr1 * z1 + zr2 * z2 + m21 * z3) / m22;
+      const ab = coefficients[1]! + t * coefficients[2]!;
+      this.bound[e] = relaxed + (ab * ab) / (z1 * z1 + z2 * z2 + z3 * z3 + z4 * z4);
+    }
+    for (let e = 0; e < 2; e++) {
+      // a = (0, 0, 0, t, 1).
+      const t = cool[e]!;
+      const z3 = t / m11;
+      const z4 = (1 - m21 * z3) / m22;
+      const ab = t * coefficients[3]! + coefficients[4]!;
+      this.bound[2 + e] = relaxed + (ab * ab) / (z3 * z3 + z4 * z4);
+    }
+  }
+
+  /** Could some edge reach `limit`? */
+  anyAtOrBelow(limit: number): boolean {
+    const b = this.bound;
+    return b[0]! <= limit || b[1]! <= limit || b[2]! <= limit || b[3]! <= limit;
+  }
+}
+
+/** Do the free fit's implied changepoints fall inside the pair's intervals (then the free fit is the pair's optimum)? */
+function relaxationInside(
+  coefficients: Float64Array,
+  heat: readonly [number, number],
+  cool: readonly [number, number],
+): boolean {
+  const bh = -coefficients[2]!;
+  const bq = coefficients[3]!;
+  if (bh === 0 || bq === 0) return false;
+  const heating = coefficients[1]! / bh;
+  const cooling = -coefficients[4]! / bq;
+  return heating >= heat[0] && heating <= heat[1] && cooling >= cool[0] && cooling <= cool[1];
 }
 
 /**
@@ -274,7 +364,8 @@ class PairGram {
  * its free five-column fit: that fit if its changepoints fall inside the
  * intervals, else the best of the four edges (a convex quadratic minimised
  * over a closed set that excludes its unconstrained minimum attains the
- * minimum on the set's boundary).
+ * minimum on the set's boundary). With `bounds`, an edge whose lower bound
+ * cannot beat `incumbent` (+ slack) is not swept: it cannot hold the optimum.
  */
 function solvePair(
   pair: PairGram,
@@ -284,18 +375,19 @@ function solvePair(
   coolHigh: number,
   relaxedSse: number,
   coefficients: Float64Array,
+  bounds: EdgeBounds | null,
+  incumbent: number,
 ): FivePointOptimum | null {
-  const bh = -coefficients[2]!;
-  const bq = coefficients[3]!;
-  if (bh !== 0 && bq !== 0) {
-    const heating = coefficients[1]! / bh;
-    const cooling = -coefficients[4]! / bq;
-    if (heating >= heatLow && heating <= heatHigh && cooling >= coolLow && cooling <= coolHigh) {
-      return { heating, cooling, sse: relaxedSse };
-    }
+  if (relaxationInside(coefficients, [heatLow, heatHigh], [coolLow, coolHigh])) {
+    return {
+      heating: coefficients[1]! / -coefficients[2]!,
+      cooling: -coefficients[4]! / coefficients[3]!,
+      sse: relaxedSse,
+    };
   }
   let best: FivePointOptimum | null = null;
   for (let e = 0; e < 4; e++) {
+    if (bounds !== null && bounds.bound[e]! > incumbent) continue;
     const fixed = e === 0 ? heatLow : e === 1 ? heatHigh : e === 2 ? coolLow : coolHigh;
     const edge = e < 2 ? pair.heatingEdge(fixed, coolLow, coolHigh) : pair.coolingEdge(fixed, heatLow, heatHigh);
     if (edge && (best === null || edge.sse < best.sse)) {
@@ -366,7 +458,11 @@ class RowBound {
  * heating block's Cholesky factor is computed once per row, so a pair's
  * free five-column fit costs a 2×2 Schur complement.
  */
-export function searchFivePoint(days: BillDays, k: number): FivePointOptimum | null {
+export function searchFivePoint(
+  days: BillDays,
+  k: number,
+  options: { pruneEdges?: boolean } = {},
+): FivePointOptimum | null {
   const {
     n,
     w,
@@ -402,12 +498,19 @@ export function searchFivePoint(days: BillDays, k: number): FivePointOptimum | n
   }
   const { q: coolQ, r: coolR, qq: coolQQ, qr: coolQR, rr: coolRR, qy: coolQY, ry: coolRY } = cooling;
 
+  // The first cooling interval with too little weight above it: no row goes beyond it.
+  let endJ = 0;
+  while (endJ + 1 < count && enough(weightAtOrAbove[endJ + 1]!, k)) endJ++;
+
   // Heating state: share and summed temperature of each reading's days at or below breakpoint i.
   const sI = new Float64Array(n);
   const SI = new Float64Array(n);
   const pair = new PairGram();
   const coefficients = new Float64Array(5);
   const bound = new RowBound();
+  const edgeBounds = options.pruneEdges === false ? null : new EdgeBounds();
+  const heatEnds: [number, number] = [0, 0];
+  const coolEnds: [number, number] = [0, 0];
   let totalWeight = 0;
   for (let b = 0; b < n; b++) totalWeight += w[b]!;
   let ss = 0,
@@ -478,7 +581,11 @@ export function searchFivePoint(days: BillDays, k: number): FivePointOptimum | n
     bound.reset();
     let included = 0;
 
-    for (let j = i + 1; j + 1 < count; j++) {
+    // The cooling intervals the segment rule admits with this heating interval: the weight between the
+    // changepoints grows with j and the weight above shrinks, so they are one run [firstJ, endJ).
+    let firstJ = i + 1;
+    while (firstJ < endJ && !enough(weightAtOrBelow[firstJ]! - weightBelowRow, k)) firstJ++;
+    for (let j = i + 1; j < endJ; j++) {
       for (let d = dayStart[j]!, end = dayStart[j + 1]!; d < end; d++) {
         const b = dayBill[d]!;
         const wq = dayWeightedTemp[d]!;
@@ -490,8 +597,7 @@ export function searchFivePoint(days: BillDays, k: number): FivePointOptimum | n
         xSQ -= Sb * wq;
         xSR -= Sb * wr;
       }
-      if (!enough(weightAtOrAbove[j + 1]!, k)) break;
-      if (!enough(weightAtOrBelow[j]! - weightBelowRow, k)) continue;
+      if (j < firstJ) continue;
 
       // Row bound: readings whose every day is at or below the cooling interval see only the heating hinge.
       if (best !== null) {
@@ -534,28 +640,46 @@ export function searchFivePoint(days: BillDays, k: number): FivePointOptimum | n
       coefficients[0] = (-zq0 * betaQ - zr0 * betaR - l10 * coefficients[1]! - l20 * coefficients[2]!) * i00;
       coefficients[3] = betaQ;
       coefficients[4] = betaR;
-      pair.set(0, 0, totalWeight);
-      pair.set(0, 1, ss);
-      pair.set(0, 2, sS);
-      pair.set(0, 3, coolQ[j]!);
-      pair.set(0, 4, coolR[j]!);
-      pair.set(0, 5, 0);
-      pair.set(1, 1, sss);
-      pair.set(1, 2, ssS);
-      pair.set(1, 3, xsQ);
-      pair.set(1, 4, xsR);
-      pair.set(1, 5, ssy);
-      pair.set(2, 2, sSS);
-      pair.set(2, 3, xSQ);
-      pair.set(2, 4, xSR);
-      pair.set(2, 5, sSy);
-      pair.set(3, 3, qq);
-      pair.set(3, 4, coolQR[j]!);
-      pair.set(3, 5, coolQY[j]!);
-      pair.set(4, 4, rr);
-      pair.set(4, 5, coolRY[j]!);
-      pair.set(5, 5, totalSquares);
-      const solved = solvePair(pair, heatLow, heatHigh, breakpoints[j]!, breakpoints[j + 1]!, relaxed, coefficients);
+      heatEnds[0] = heatLow;
+      heatEnds[1] = heatHigh;
+      coolEnds[0] = breakpoints[j]!;
+      coolEnds[1] = breakpoints[j + 1]!;
+      if (edgeBounds) {
+        edgeBounds.set(relaxed, coefficients, l21, i11, i22, zq1, zq2, zr1, zr2, a11, a12, det, heatEnds, coolEnds);
+        // No edge can win and the free fit's changepoints are outside: the pair's Gram matrix is not even needed.
+        if (!edgeBounds.anyAtOrBelow(bestSse + slack) && !relaxationInside(coefficients, heatEnds, coolEnds)) continue;
+      }
+      pair.cc = totalWeight;
+      pair.cs = ss;
+      pair.cS = sS;
+      pair.cq = coolQ[j]!;
+      pair.cr = coolR[j]!;
+      pair.ss = sss;
+      pair.sS = ssS;
+      pair.sq = xsQ;
+      pair.sr = xsR;
+      pair.sy = ssy;
+      pair.SS = sSS;
+      pair.Sq = xSQ;
+      pair.Sr = xSR;
+      pair.Sy = sSy;
+      pair.qq = qq;
+      pair.qr = coolQR[j]!;
+      pair.qy = coolQY[j]!;
+      pair.rr = rr;
+      pair.ry = coolRY[j]!;
+      pair.yy = totalSquares;
+      const solved = solvePair(
+        pair,
+        heatLow,
+        heatHigh,
+        coolEnds[0],
+        coolEnds[1],
+        relaxed,
+        coefficients,
+        edgeBounds,
+        bestSse + slack,
+      );
       if (solved && solved.sse < bestSse) {
         best = solved;
         bestSse = solved.sse;

@@ -3,6 +3,7 @@ import fc from 'fast-check';
 import { fitShape } from '../../../../src/engine/fit/fit-shape.js';
 import { buildBillDays } from '../../../../src/engine/fit/day-resolved/bill-days.js';
 import { searchDayResolved } from '../../../../src/engine/fit/day-resolved/search.js';
+import { searchFivePoint } from '../../../../src/engine/fit/day-resolved/five-point.js';
 import { heatingDegreeDaysPerDay, coolingDegreeDaysPerDay } from '../../../../src/engine/fit/degree-days.js';
 import { alignPeriods } from '../../../../src/engine/periods.js';
 import type { Period } from '../../../../src/engine/types.js';
@@ -116,6 +117,22 @@ describe('exact day-resolved changepoints against a grid-and-polish reference (f
         checkAgainstReference('5P', periods, minPoints),
       ),
       { numRuns: 25, seed: 20261203 },
+    );
+  });
+});
+
+describe('the 5P search’s edge pruning (fast-check)', () => {
+  // Synthetic: the optimum is the search's own with every admitted edge swept; pruning by each edge's constrained-fit bound must keep it.
+  it('gives the same optimum as the search that sweeps every edge', () => {
+    fc.assert(
+      fc.property(readingsArbitrary(), fc.integer({ min: 1, max: 3 }), (periods, minPoints) => {
+        const days = buildBillDays(periods);
+        const pruned = searchFivePoint(days, minPoints);
+        const full = searchFivePoint(days, minPoints, { pruneEdges: false });
+        expect(pruned === null).toBe(full === null);
+        if (pruned && full) expect(Math.abs(pruned.sse - full.sse)).toBeLessThanOrEqual(tolerance(full.sse, periods));
+      }),
+      { numRuns: 80, seed: 20261204 },
     );
   });
 });
