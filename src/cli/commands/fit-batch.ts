@@ -5,9 +5,10 @@
  * a problem in it stops the command before any output. A meter whose own
  * rows are bad, or that cannot be fitted, gets a row with status "error" and
  * the one-line reason, and the others go on; the exit code is then 2.
- * From MIN_METERS_FOR_THREADS meters on, the meters are fitted on worker
- * threads (fit-batch-threads.ts) and written in the file's order all the
- * same: the output does not depend on the number of threads.
+ * From MIN_METERS_FOR_THREADS meters on, the meters are fitted on the main
+ * thread and worker threads together (fit-batch-threads.ts) and written in
+ * the file's order all the same: the output does not depend on the number
+ * of threads.
  */
 import { availableParallelism } from 'node:os';
 import { readCsvTable, requireColumns } from '../../lib/csv/csv-table.js';
@@ -62,9 +63,9 @@ export async function runFitBatch(options: FitOptions, io: CliIO, threads?: numb
 export const MIN_METERS_FOR_THREADS = 64;
 
 /**
- * Threads for a batch of `meters`: MVLEDGER_FIT_THREADS when set (1 keeps
- * everything on the main thread), else one per core up to four from
- * MIN_METERS_FOR_THREADS meters on.
+ * Threads for a batch of `meters`, the main thread counted: MVLEDGER_FIT_THREADS
+ * when set (1 keeps everything on the main thread), else one per core up to
+ * four from MIN_METERS_FOR_THREADS meters on.
  */
 export function batchThreads(meters: number): number {
   const asked = process.env.MVLEDGER_FIT_THREADS;
