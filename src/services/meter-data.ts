@@ -4,7 +4,7 @@
  * asked for, so a savings request touches the reporting period and nothing
  * else.
  */
-import type { DailyTemperature, Reading, TemperatureUnit } from '../engine/index.js';
+import type { DailyTemperature, FillMethod, Reading, TemperatureUnit } from '../engine/index.js';
 import { notFound } from '../domain/errors.js';
 import type { Executor } from './context.js';
 
@@ -70,6 +70,40 @@ export async function loadWeatherFor(
     if (reading.end > to) to = reading.end;
   }
   return loadDailyWeather(db, stationId, from, to);
+}
+
+/**
+ * What loadWeatherFor and loadFilledDays answer over the same days, in one
+ * query: the station's daily weather over every day of `readings`, and the
+ * days of it filled on record, by method.
+ */
+export async function loadWeatherWithFillsFor(
+  db: Executor,
+  stationId: string,
+  readings: readonly Reading[],
+): Promise<{ weather: DailyTemperature[]; filled: Map<string, FillMethod> }> {
+  const weather: DailyTemperature[] = [];
+  const filled = new Map<string, FillMethod>();
+  if (readings.length === 0) return { weather, filled };
+  let from = readings[0]!.start;
+  let to = readings[0]!.end;
+  for (const reading of readings) {
+    if (reading.start < from) from = reading.start;
+    if (reading.end > to) to = reading.end;
+  }
+  const rows = await db
+    .selectFrom('weather_observations')
+    .select(['date', 'temp', 'fill_method'])
+    .where('station_id', '=', stationId)
+    .where('date', '>=', from)
+    .where('date', '<', to)
+    .orderBy('date')
+    .execute();
+  for (const row of rows) {
+    weather.push({ date: row.date, temp: row.temp });
+    if (row.fill_method !== null) filled.set(row.date, row.fill_method);
+  }
+  return { weather, filled };
 }
 
 /** The temperature unit of a station of the organisation. */

@@ -22,12 +22,11 @@ import {
   filledDaysByPeriod,
   type PeriodFills,
 } from '../engine/index.js';
-import { DomainError } from '../domain/errors.js';
+import { DomainError, notFound } from '../domain/errors.js';
+import type { MeterRow } from '../store/schema.js';
 import { nonFiniteToNull } from '../lib/non-finite.js';
 import type { Executor } from './context.js';
-import { getMeterRow } from './meters.js';
-import { loadFilledDays } from './weather-gaps.js';
-import { loadReadings, loadWeatherFor } from './meter-data.js';
+import { loadReadings, loadWeatherWithFillsFor } from './meter-data.js';
 import { reportingSeries } from './variables.js';
 import { frozenModel, type ProjectionModel } from './frozen-models.js';
 import { adjustmentProblem, toAdjustment, toEngineAdjustment, type Adjustment } from './adjustments.js';
@@ -68,19 +67,64 @@ function windowText(start: string, to: string | undefined): string {
   return to === undefined ? `starting on or after ${start}` : `lying in ${start}..${to}`;
 }
 
+/** What a savings request reads first: the meter, its data version (null: none yet) and its frozen baseline. */
+export interface SavingsSubject {
+  meter: MeterRow;
+  version: string | null;
+  baseline: { id: string; version: number; content_hash: string | null; period_end: string } | null;
+}
+
+/** The meter of the organisation with its data version and frozen baseline, in one query (undefined: no such meter). */
+export async function savingsSubject(
+  db: Executor,
+  organisationId: string,
+  meterId: string,
+): Promise<SavingsSubject | undefined> {
+  const row = await db
+    .selectFrom('meters')
+    .leftJoin('meter_data_versions', 'meter_data_versions.meter_id', 'meters.id')
+    .leftJoin('baselines', (join) =>
+      join.onRef('baselines.meter_id', '=', 'meters.id').on('baselines.status', '=', 'frozen'),
+    )
+    .selectAll('meters')
+    .select([
+      'meter_data_versions.version as data_version',
+      'baselines.id as baseline_id',
+      'baselines.version as baseline_version',
+      'baselines.content_hash as baseline_content_hash',
+      'baselines.period_end as baseline_period_end',
+    ])
+    .where('meters.id', '=', meterId)
+    .where('meters.organisation_id', '=', organisationId)
+    .executeTakeFirst();
+  if (!row) return undefined;
+  const { data_version, baseline_id, baseline_version, baseline_content_hash, baseline_period_end, ...meter } = row;
+  return {
+    meter,
+    version: data_version,
+    baseline:
+      baseline_id === null
+        ? null
+        : {
+            id: baseline_id,
+            version: baseline_version!,
+            content_hash: baseline_content_hash,
+            period_end: baseline_period_end!,
+          },
+  };
+}
+
+/** The meter's savings; `subject` when the caller has read it already (savingsSubject). */
 export async function meterSavings(
   db: Executor,
   organisationId: string,
   meterId: string,
   query: SavingsQuery,
+  subject?: SavingsSubject,
 ): Promise<MeterSavings> {
-  const meter = await getMeterRow(db, organisationId, meterId);
-  const baseline = await db
-    .selectFrom('baselines')
-    .select(['id', 'version', 'content_hash', 'period_end'])
-    .where('meter_id', '=', meter.id)
-    .where('status', '=', 'frozen')
-    .executeTakeFirst();
+  const read = subject ?? (await savingsSubject(db, organisationId, meterId));
+  if (!read) throw notFound('meter', meterId);
+  const { meter, baseline } = read;
   if (!baseline || baseline.content_hash === null) {
     throw new DomainError(
       'unprocessable',
@@ -97,7 +141,7 @@ export async function meterSavings(
       `meter ${meterId} has no reporting readings ${windowText(start, query.to)}; reporting readings start on or after the baseline's end ${baseline.period_end}`,
     );
   }
-  const weather = await loadWeatherFor(db, meter.weather_station_id, readings);
+  const { weather, filled } = await loadWeatherWithFillsFor(db, meter.weather_station_id, readings);
   const last = readings.reduce((end, r) => (r.end > end ? r.end : end), start);
   const adjustmentRows = await db
     .selectFrom('adjustments')
@@ -160,9 +204,7 @@ export async function meterSavings(
     baselineId: baseline.id,
     baselineVersion: baseline.version,
     baselineContentHash: baseline.content_hash,
-    weatherFills: filledDaysByPeriod(
-      document.periods,
-      await loadFilledDays(db, meter.weather_station_id, readings[0]!.start, last),
-    ),
+    // The filled days of [first start, last end): the days the weather was read over.
+    weatherFills: filledDaysByPeriod(document.periods, filled),
   });
 }
