@@ -19,7 +19,7 @@ import { notFound } from '../domain/errors.js';
 import { BoundedCache } from '../lib/bounded-cache.js';
 import { meterVersion } from '../store/data-versions.js';
 import type { Executor } from './context.js';
-import { meterSavings, savingsSubject, type MeterSavings, type SavingsQuery } from './savings.js';
+import { meterSavings, type MeterSavings, type SavingsQuery } from './savings.js';
 
 /** A savings document as sent: its bytes and their entity tag. */
 export interface SavingsRepresentation {
@@ -53,10 +53,9 @@ export class SavingsCache {
     query: SavingsQuery,
     render: (document: MeterSavings) => string,
   ): Promise<SavingsRepresentation> {
-    // The meter, its data version and its frozen baseline in one read; the savings start from it.
-    const subject = await savingsSubject(db, organisationId, meterId);
-    if (subject === undefined) throw notFound('meter', meterId);
-    const version = subject.version;
+    // The version alone first (a light query): a kept document needs nothing more.
+    const version = await meterVersion(db, organisationId, meterId);
+    if (version === undefined) throw notFound('meter', meterId);
     const key = version === null ? null : cacheKey(organisationId, meterId, version, query);
     const cached = key === null ? undefined : this.documents.get(key);
     if (cached) {
@@ -64,7 +63,7 @@ export class SavingsCache {
       return cached;
     }
     this.stats.misses++;
-    const body = render(await meterSavings(db, organisationId, meterId, query, subject));
+    const body = render(await meterSavings(db, organisationId, meterId, query));
     const representation: SavingsRepresentation = {
       body,
       etag: `"${createHash('sha256').update(body).digest('base64url')}"`,
