@@ -121,6 +121,33 @@ describe('exact day-resolved changepoints against a grid-and-polish reference (f
   });
 });
 
+/** 12–40 readings of 1–6 days on a 0.5° lattice through a whole year's temperatures (more breakpoints, optima on edges more often). */
+function yearArbitrary(): fc.Arbitrary<Period[]> {
+  return fc
+    .record({
+      count: fc.integer({ min: 12, max: 40 }),
+      seed: fc.integer({ min: 1, max: 1_000_000 }),
+      heating: fc.double({ min: 0, max: 10, noNaN: true }),
+      cooling: fc.double({ min: 0, max: 10, noNaN: true }),
+      noise: fc.double({ min: 0.5, max: 40, noNaN: true }),
+    })
+    .map(({ count, seed, heating, cooling, noise }) => {
+      const random = seededRandom(seed);
+      const periods: Period[] = [];
+      let day = 0;
+      for (let i = 0; i < count; i++) {
+        const length = 1 + Math.floor(random.uniform() * 6);
+        const centre = 55 - 25 * Math.cos((2 * Math.PI * i) / count);
+        const temps = Array.from({ length }, () => Math.round((centre + 16 * (random.uniform() - 0.5)) * 2) / 2);
+        const response =
+          100 + heating * heatingDegreeDaysPerDay(temps, 55) + cooling * coolingDegreeDaysPerDay(temps, 68);
+        periods.push(periodFromDays(day, temps, response + noise * random.normal()));
+        day += length;
+      }
+      return periods;
+    });
+}
+
 describe('the 5P search’s edge pruning (fast-check)', () => {
   // Synthetic: the optimum is the search's own with every admitted edge swept; pruning by each edge's constrained-fit bound must keep it.
   it('gives the same optimum as the search that sweeps every edge', () => {
@@ -133,6 +160,19 @@ describe('the 5P search’s edge pruning (fast-check)', () => {
         if (pruned && full) expect(Math.abs(pruned.sse - full.sse)).toBeLessThanOrEqual(tolerance(full.sse, periods));
       }),
       { numRuns: 80, seed: 20261204 },
+    );
+  });
+
+  it('the same over a year of short readings', () => {
+    fc.assert(
+      fc.property(yearArbitrary(), fc.integer({ min: 1, max: 3 }), (periods, minPoints) => {
+        const days = buildBillDays(periods);
+        const pruned = searchFivePoint(days, minPoints);
+        const full = searchFivePoint(days, minPoints, { pruneEdges: false });
+        expect(pruned === null).toBe(full === null);
+        if (pruned && full) expect(Math.abs(pruned.sse - full.sse)).toBeLessThanOrEqual(tolerance(full.sse, periods));
+      }),
+      { numRuns: 150, seed: 20261205 },
     );
   });
 });
