@@ -13,7 +13,7 @@
  */
 import { searchChangepoints } from '../changepoint-search.js';
 import { buildSortedSums } from '../sorted-sums.js';
-import { bestHingeOnInterval, gramLeastSquares, type HingeOptimum } from '../gram.js';
+import { bestHingeOnInterval, type HingeOptimum } from '../gram.js';
 import {
   enough,
   weightAtOrAboveTemperature,
@@ -403,33 +403,42 @@ function solvePair(
 /**
  * The heating relaxation [1, s, S] fitted to a growing set of readings: its
  * SSE only grows as readings are added, so once it exceeds the incumbent the
- * rest of the row cannot win.
+ * rest of the row cannot win. Its 3×3 least squares is written out (a
+ * Cholesky factor by hand): it is solved every time a reading joins.
  */
 class RowBound {
-  private readonly gram = new Float64Array(16);
+  private w = 0;
+  private s = 0;
+  private S = 0;
+  private y = 0;
+  private ss = 0;
+  private sS = 0;
+  private sy = 0;
+  private SS = 0;
+  private Sy = 0;
+  private yy = 0;
   private count = 0;
   private cached = 0;
   private stale = false;
 
   reset(): void {
-    this.gram.fill(0);
+    this.w = this.s = this.S = this.y = this.ss = this.sS = this.sy = this.SS = this.Sy = this.yy = 0;
     this.count = 0;
     this.cached = 0;
     this.stale = false;
   }
 
   add(weight: number, s: number, S: number, y: number): void {
-    const g = this.gram;
-    g[0]! += weight;
-    g[1]! += weight * s;
-    g[2]! += weight * S;
-    g[3]! += weight * y;
-    g[5]! += weight * s * s;
-    g[6]! += weight * s * S;
-    g[7]! += weight * s * y;
-    g[10]! += weight * S * S;
-    g[11]! += weight * S * y;
-    g[15]! += weight * y * y;
+    this.w += weight;
+    this.s += weight * s;
+    this.S += weight * S;
+    this.y += weight * y;
+    this.ss += weight * s * s;
+    this.sS += weight * s * S;
+    this.sy += weight * s * y;
+    this.SS += weight * S * S;
+    this.Sy += weight * S * y;
+    this.yy += weight * y * y;
     this.count++;
     this.stale = true;
   }
@@ -437,17 +446,28 @@ class RowBound {
   sse(): number {
     if (this.stale) {
       this.stale = false;
-      const g = this.gram;
-      g[4] = g[1]!;
-      g[8] = g[2]!;
-      g[12] = g[3]!;
-      g[9] = g[6]!;
-      g[13] = g[7]!;
-      g[14] = g[11]!;
-      // Three or fewer readings are fitted exactly; a collinear set bounds nothing.
-      this.cached = this.count > 3 ? (gramLeastSquares(g, 4) ?? 0) : 0;
+      this.cached = this.count > 3 ? this.solve() : 0;
     }
     return this.cached;
+  }
+
+  /** yy − bᵀG⁻¹b through G's Cholesky factor; a collinear set bounds nothing (0), as gramLeastSquares would say (null). */
+  private solve(): number {
+    const l00 = Math.sqrt(this.w);
+    if (!(this.w > 0)) return 0;
+    const l10 = this.s / l00;
+    const l20 = this.S / l00;
+    const d11 = this.ss - l10 * l10;
+    if (!(d11 > PIVOT * this.ss)) return 0;
+    const l11 = Math.sqrt(d11);
+    const l21 = (this.sS - l20 * l10) / l11;
+    const d22 = this.SS - l20 * l20 - l21 * l21;
+    if (!(d22 > PIVOT * this.SS)) return 0;
+    const l22 = Math.sqrt(d22);
+    const z0 = this.y / l00;
+    const z1 = (this.sy - l10 * z0) / l11;
+    const z2 = (this.Sy - l20 * z0 - l21 * z1) / l22;
+    return Math.max(0, this.yy - (z0 * z0 + z1 * z1 + z2 * z2));
   }
 }
 
