@@ -1032,7 +1032,7 @@ export interface components {
             role: "admin" | "engineer" | "analyst" | "integration";
         };
         AuditChainVerdict: {
-            /** @description Each frozen or superseded baseline: its stored content against the content hash its freeze row recorded */
+            /** @description Each frozen or superseded baseline: its stored content against the content hash its freeze row recorded, and its compact stored model (the one reports project with) against the model derived again from that content */
             baselines: {
                 checked: number;
                 differences: components["schemas"]["AuditStateDifference"][];
@@ -1122,7 +1122,7 @@ export interface components {
             difference: string;
             /** @description Which row: its meter or station and period or date, or the entity id */
             key: string;
-            /** @description readings, observations, rates, contracts, normal-years, adjustments, api-keys or baselines */
+            /** @description readings, observations, rates, contracts, normal-years, adjustments, api-keys, baselines or frozen_models (a baseline’s compact stored model) */
             table: string;
         };
         Baseline: {
@@ -2809,7 +2809,7 @@ export interface operations {
     getAuditVerify: {
         parameters: {
             query?: {
-                /** @description chain: the hash chain and every frozen baseline against the hash its freeze recorded; full: also replay the trail and compare every result-bearing table with it */
+                /** @description chain: the hash chain, every frozen baseline against the hash its freeze recorded, and each one’s compact stored model against the model its content gives; full: also replay the trail and compare every result-bearing table with it */
                 depth?: "chain" | "full";
             };
             header?: never;

@@ -7,6 +7,7 @@
  * before the next. Check values: the service's own writes (synthetic data,
  * the test sets the truth) and the edit each case makes.
  */
+import { storedModelHash } from '../../src/services/frozen-models.js';
 import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { NORMAL_YEAR_DAYS } from '../../src/engine/index.js';
@@ -326,6 +327,48 @@ describe('full verification', () => {
         .updateTable('baselines')
         .set({ choice_reason: row.choice_reason, content_hash: row.content_hash })
         .where('id', '=', baselineId)
+        .execute();
+    }
+    expect((await verify()).ok).toBe(true);
+  });
+
+  it('names a frozen baseline’s compact stored model edited behind the API, with or without its hash recomputed', async () => {
+    const stored = await api.store.db
+      .selectFrom('frozen_models')
+      .selectAll()
+      .where('baseline_id', '=', baselineId)
+      .executeTakeFirstOrThrow();
+    const text = stored.model_json.replace('"minCoverage":', '"minCoverage":0.5,"was":');
+    expect(text).not.toBe(stored.model_json);
+    try {
+      await api.store.db
+        .updateTable('frozen_models')
+        .set({ model_json: text })
+        .where('baseline_id', '=', baselineId)
+        .execute();
+      let verdict = await verify('chain');
+      expect(verdict.ok).toBe(false);
+      expect(verdict.baselines.differences).toEqual([
+        {
+          table: 'frozen_models',
+          key: `baseline ${baselineId}`,
+          difference: expect.stringMatching(/no longer matches its own hash/),
+        },
+      ]);
+      await api.store.db
+        .updateTable('frozen_models')
+        .set({ model_hash: storedModelHash(stored.content_hash, stored.format, text) })
+        .where('baseline_id', '=', baselineId)
+        .execute();
+      verdict = await verify('chain');
+      expect(verdict.baselines.differences[0].difference).toMatch(
+        /hash was recomputed to match: reports project with it/,
+      );
+    } finally {
+      await api.store.db
+        .updateTable('frozen_models')
+        .set({ model_json: stored.model_json, model_hash: stored.model_hash })
+        .where('baseline_id', '=', baselineId)
         .execute();
     }
     expect((await verify()).ok).toBe(true);

@@ -83,7 +83,9 @@ const stateDifferenceSchema = z
   .object({
     table: z
       .string()
-      .describe('readings, observations, rates, contracts, normal-years, adjustments, api-keys or baselines'),
+      .describe(
+        'readings, observations, rates, contracts, normal-years, adjustments, api-keys, baselines or frozen_models (a baseline’s compact stored model)',
+      ),
     key: z.string().describe('Which row: its meter or station and period or date, or the entity id'),
     difference: z
       .string()
@@ -96,7 +98,7 @@ export const verifyQuery = z.object({
     .enum(['chain', 'full'])
     .default('chain')
     .describe(
-      'chain: the hash chain and every frozen baseline against the hash its freeze recorded; full: also replay the trail and compare every result-bearing table with it',
+      'chain: the hash chain, every frozen baseline against the hash its freeze recorded, and each one’s compact stored model against the model its content gives; full: also replay the trail and compare every result-bearing table with it',
     ),
 });
 
@@ -115,7 +117,7 @@ export const chainVerdictSchema = z
     baselines: z
       .object({ ok: z.boolean(), checked: z.number().int(), differences: z.array(stateDifferenceSchema) })
       .describe(
-        'Each frozen or superseded baseline: its stored content against the content hash its freeze row recorded',
+        'Each frozen or superseded baseline: its stored content against the content hash its freeze row recorded, and its compact stored model (the one reports project with) against the model derived again from that content',
       ),
     replay: z
       .object({
