@@ -15,11 +15,13 @@ import { bareBaselineRow } from '../support/baseline-rows.js';
 const TABLES = [
   'adjustments',
   'api_keys',
+  'audit_checkpoints',
   'audit_log',
   'baselines',
   'contracts',
   'facilities',
   'facility_calendars',
+  'frozen_models',
   'idempotency_keys',
   'meter_data_versions',
   'meters',
