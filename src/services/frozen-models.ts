@@ -39,7 +39,8 @@ import { sha256Hex } from '../lib/canonical-json.js';
 import { fromStoredJson, toOrderedStoredJson, verifyParsedBaselineContent } from '../store/baseline-content.js';
 import type { Kysely } from 'kysely';
 import type { BaselineRow, Database, FrozenModelRow } from '../store/schema.js';
-import { overridesOf, type BaselineFitOptions, type BaselineInputs } from './baselines/index.js';
+import type { BaselineFitOptions, BaselineInputs } from './baselines/types.js';
+import { overridesOf } from './baselines/views.js';
 import type { Executor } from './context.js';
 
 /** What a projection needs of a frozen baseline. */
