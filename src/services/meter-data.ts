@@ -62,14 +62,32 @@ export async function loadWeatherFor(
   stationId: string,
   readings: readonly Reading[],
 ): Promise<DailyTemperature[]> {
-  if (readings.length === 0) return [];
-  let from = readings[0]!.start;
-  let to = readings[0]!.end;
-  for (const reading of readings) {
-    if (reading.start < from) from = reading.start;
-    if (reading.end > to) to = reading.end;
+  const span = spanOf(readings);
+  return span === null ? [] : loadDailyWeather(db, stationId, span.from, span.to);
+}
+
+/** The days [from, to) that `periods` cover together: the first start and the last end (null for none). */
+export function spanOf(periods: readonly { start: string; end: string }[]): { from: string; to: string } | null {
+  if (periods.length === 0) return null;
+  let from = periods[0]!.start;
+  let to = periods[0]!.end;
+  for (const period of periods) {
+    if (period.start < from) from = period.start;
+    if (period.end > to) to = period.end;
   }
-  return loadDailyWeather(db, stationId, from, to);
+  return { from, to };
+}
+
+/** The station's observations on [from, to), in date order: each day's temperature and how it was filled, if it was. */
+export function stationObservations(db: Executor, stationId: string, from: string, to: string) {
+  return db
+    .selectFrom('weather_observations')
+    .select(['date', 'temp', 'fill_method'])
+    .where('station_id', '=', stationId)
+    .where('date', '>=', from)
+    .where('date', '<', to)
+    .orderBy('date')
+    .execute();
 }
 
 /**
@@ -84,21 +102,9 @@ export async function loadWeatherWithFillsFor(
 ): Promise<{ weather: DailyTemperature[]; filled: Map<string, FillMethod> }> {
   const weather: DailyTemperature[] = [];
   const filled = new Map<string, FillMethod>();
-  if (readings.length === 0) return { weather, filled };
-  let from = readings[0]!.start;
-  let to = readings[0]!.end;
-  for (const reading of readings) {
-    if (reading.start < from) from = reading.start;
-    if (reading.end > to) to = reading.end;
-  }
-  const rows = await db
-    .selectFrom('weather_observations')
-    .select(['date', 'temp', 'fill_method'])
-    .where('station_id', '=', stationId)
-    .where('date', '>=', from)
-    .where('date', '<', to)
-    .orderBy('date')
-    .execute();
+  const span = spanOf(readings);
+  if (span === null) return { weather, filled };
+  const rows = await stationObservations(db, stationId, span.from, span.to);
   for (const row of rows) {
     weather.push({ date: row.date, temp: row.temp });
     if (row.fill_method !== null) filled.set(row.date, row.fill_method);

@@ -20,6 +20,7 @@ import {
 import { batchContacts, correctReadings, insertReadings } from './readings-postgres.js';
 import { bumpMeterVersions } from '../store/data-versions.js';
 import { decodeCursor, PAGE_SIZES, pageOf, type PageInfo, type PageRequest } from './paging.js';
+import { spanOf } from './meter-data.js';
 
 /**
  * Rows per insert statement (8 parameters each, far below SQLite's 32,766):
@@ -258,12 +259,7 @@ function checkBatch(readings: readonly ReadingInput[], locate: RecordLocator): v
  * Both lookups run on the primary key.
  */
 async function storedAround(trx: Tx, meterId: string, readings: readonly ReadingInput[]): Promise<ReadingRow[]> {
-  let first = readings[0]!.start;
-  let last = readings[0]!.end;
-  for (const reading of readings) {
-    if (reading.start < first) first = reading.start;
-    if (reading.end > last) last = reading.end;
-  }
+  const { from: first, to: last } = spanOf(readings)!;
   const before = await trx
     .selectFrom('readings')
     .selectAll()

@@ -60,7 +60,7 @@ import {
 import { readSnapshotOnce } from '../store/transactions.js';
 import type { BaselineRow, Database, FillMethod, MeterRow } from '../store/schema.js';
 import type { Executor } from './context.js';
-import { loadDailyWeather, loadReadings, type ReadingWindow } from './meter-data.js';
+import { loadDailyWeather, loadReadings, spanOf, type ReadingWindow } from './meter-data.js';
 import { scheduleOfRows } from './rates.js';
 import {
   baselineResiduals,
@@ -711,13 +711,9 @@ class StationWeather {
    * read (it holds more days than they span: an alignment reads only its own).
    */
   async indexed(stationId: string, readings: readonly Reading[]): Promise<DailyWeather> {
-    if (readings.length === 0) return [];
-    let from = readings[0]!.start;
-    let to = readings[0]!.end;
-    for (const reading of readings) {
-      if (reading.start < from) from = reading.start;
-      if (reading.end > to) to = reading.end;
-    }
+    const wanted = spanOf(readings);
+    if (wanted === null) return [];
+    const { from, to } = wanted;
     let span = this.spans.get(stationId);
     if (!span || from < span.from || to > span.to) {
       const wideFrom = shiftDays(span && span.from < from ? span.from : from, -WEATHER_MARGIN_DAYS);

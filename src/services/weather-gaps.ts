@@ -25,6 +25,7 @@ import { assertOutsideFrozenWindows, frozenWindowsForStation } from './frozen-wi
 import { upsertChunked } from './observations.js';
 import { MAX_RECORDS_PER_BATCH } from '../domain/limits.js';
 import { getStationRow } from './weather-stations.js';
+import { stationObservations } from './meter-data.js';
 
 export interface GapFillInput {
   from: string;
@@ -83,11 +84,11 @@ export async function fillWeatherGaps(
     const second =
       input.secondStationId === undefined ? null : await getStationRow(trx, organisationId, input.secondStationId);
     const around = { from: addDays(input.from, -OVERLAP_MARGIN_DAYS), to: addDays(input.to, OVERLAP_MARGIN_DAYS) };
-    const rows = await stationDays(trx, stationId, around.from, around.to);
+    const rows = await stationObservations(trx, stationId, around.from, around.to);
     const observed = rows.filter((r) => r.fill_method === null);
     const filledBefore = new Set(rows.filter((r) => r.fill_method !== null).map((r) => r.date));
     const secondDays = second
-      ? (await stationDays(trx, second.id, around.from, around.to))
+      ? (await stationObservations(trx, second.id, around.from, around.to))
           .filter((r) => r.fill_method === null)
           .map((r) => ({ date: r.date, temp: convert(r.temp, second.temperature_unit, station.temperature_unit) }))
       : undefined;
@@ -163,17 +164,6 @@ export async function fillWeatherGaps(
       days,
     };
   });
-}
-
-async function stationDays(db: Executor, stationId: string, from: string, to: string) {
-  return db
-    .selectFrom('weather_observations')
-    .select(['date', 'temp', 'fill_method'])
-    .where('station_id', '=', stationId)
-    .where('date', '>=', from)
-    .where('date', '<', to)
-    .orderBy('date')
-    .execute();
 }
 
 /** A second station in the other unit is converted once (NIST SP 811 relations, exact). */

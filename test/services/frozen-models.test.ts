@@ -8,7 +8,6 @@
  * Synthetic: a small seeded generated portfolio, so the test sets the truth.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { generatePortfolio } from '../../src/demo/portfolio.js';
 import { checkFrozenBaselines } from '../../src/services/frozen-baselines-check.js';
 import {
   deriveFrozenModel,
@@ -20,31 +19,26 @@ import {
   storeMissingFrozenModels,
   usableStoredModel,
 } from '../../src/services/frozen-models.js';
-import { openStore, type Store } from '../../src/store/connect.js';
-import { migrateToLatest } from '../../src/store/migrate.js';
+import type { Store } from '../../src/store/connect.js';
 import type { BaselineRow, FrozenModelRow } from '../../src/store/schema.js';
-import { dropTestDatabase, freshTestDatabaseUrl } from '../support/database.js';
+import { openGeneratedPortfolio, type GeneratedPortfolioStore } from '../support/generated-portfolio.js';
 
-const url = freshTestDatabaseUrl();
+let portfolio: GeneratedPortfolioStore;
 let store: Store;
 let organisationId: string;
 
 beforeAll(async () => {
-  store = openStore(url);
-  await migrateToLatest(store.db);
-  ({ organisationId } = await generatePortfolio(store.db, {
+  portfolio = await openGeneratedPortfolio({
     facilities: 3,
     metersPerFacility: 2,
     stations: 2,
     archetypesPerStation: 2,
     seed: 7,
-  }));
+  });
+  ({ store, organisationId } = portfolio);
 }, 120_000);
 
-afterAll(async () => {
-  await store.close();
-  await dropTestDatabase(url);
-});
+afterAll(async () => portfolio.close());
 
 const baselines = async () =>
   (await store.db

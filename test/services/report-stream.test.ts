@@ -9,30 +9,27 @@
  */
 import { createHash } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { generatePortfolio } from '../../src/demo/portfolio.js';
 import { renderReportCsv } from '../../src/reports/csv.js';
 import type { SavingsReport } from '../../src/reports/savings-report.js';
 import { checkStreamedReport, streamSavingsReport, type StreamFormat } from '../../src/services/report-stream.js';
 import { forgetFrozenModels } from '../../src/services/frozen-models.js';
 import { savingsReport, type ReportQuery } from '../../src/services/reports.js';
-import { openStore, type Store } from '../../src/store/connect.js';
-import { migrateToLatest } from '../../src/store/migrate.js';
-import { dropTestDatabase, freshTestDatabaseUrl } from '../support/database.js';
+import type { Store } from '../../src/store/connect.js';
+import { openGeneratedPortfolio, type GeneratedPortfolioStore } from '../support/generated-portfolio.js';
 
-const url = freshTestDatabaseUrl();
+let portfolio: GeneratedPortfolioStore;
 let store: Store;
 let organisationId: string;
 
 beforeAll(async () => {
-  store = openStore(url);
-  await migrateToLatest(store.db);
-  ({ organisationId } = await generatePortfolio(store.db, {
+  portfolio = await openGeneratedPortfolio({
     facilities: 5,
     metersPerFacility: 3,
     stations: 2,
     archetypesPerStation: 2,
     seed: 11,
-  }));
+  });
+  ({ store, organisationId } = portfolio);
   const meters = await store.db.selectFrom('meters').select(['id']).orderBy('created_at').execute();
   // An adjustment on the second meter, no rate on the fourth, no frozen baseline on the seventh.
   await store.db
@@ -72,10 +69,7 @@ beforeAll(async () => {
     .execute();
 }, 120_000);
 
-afterAll(async () => {
-  await store.close();
-  await dropTestDatabase(url);
-});
+afterAll(async () => portfolio.close());
 
 async function streamed(query: ReportQuery, format: StreamFormat, chunk: number): Promise<string> {
   let text = '';
