@@ -254,8 +254,23 @@ export function usableStoredModel(
 export async function storeFrozenModel(db: Executor, row: BaselineRow, contentHash: string): Promise<void> {
   // Not cached: the transaction may yet roll back, and the first savings request checks the content again.
   const stored = storedModelRow(row.id, contentHash, deriveFrozenModel(row, contentHash));
-  await db.deleteFrom('frozen_models').where('baseline_id', '=', row.id).execute();
-  await db.insertInto('frozen_models').values(stored).execute();
+  await upsertStoredModel(db, stored);
+}
+
+/** Write a stored model, replacing one already there for its baseline (two instances deriving the same one at start both succeed). */
+function upsertStoredModel(db: Executor, stored: FrozenModelRow): Promise<unknown> {
+  return db
+    .insertInto('frozen_models')
+    .values(stored)
+    .onConflict((conflict) =>
+      conflict.column('baseline_id').doUpdateSet({
+        content_hash: stored.content_hash,
+        format: stored.format,
+        model_json: stored.model_json,
+        model_hash: stored.model_hash,
+      }),
+    )
+    .execute();
 }
 
 /**
@@ -306,11 +321,7 @@ export async function storeMissingFrozenModels(db: Kysely<Database>, batch = 200
         } catch {
           continue;
         }
-        await trx.deleteFrom('frozen_models').where('baseline_id', '=', row.id).execute();
-        await trx
-          .insertInto('frozen_models')
-          .values(storedModelRow(row.id, row.content_hash!, model))
-          .execute();
+        await upsertStoredModel(trx, storedModelRow(row.id, row.content_hash!, model));
         stored++;
       }
     });

@@ -113,6 +113,14 @@ describe('deriving missing stored models', () => {
     expect(await storeMissingFrozenModels(store.db)).toBe(0);
   });
 
+  it('lets two instances starting together derive them side by side', async () => {
+    const before = await storedModels();
+    await store.db.deleteFrom('frozen_models').execute();
+    const counts = await Promise.all([storeMissingFrozenModels(store.db, 2), storeMissingFrozenModels(store.db, 2)]);
+    expect(counts.every((n) => n >= 0 && n <= 6)).toBe(true);
+    expect(await storedModels()).toEqual(before);
+  });
+
   it('replaces one of another format, and leaves a baseline whose content no longer matches its hash without one', async () => {
     const [first, second] = await baselines();
     await store.db.updateTable('frozen_models').set({ format: 0 }).where('baseline_id', '=', first!.id).execute();
