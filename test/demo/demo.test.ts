@@ -9,6 +9,7 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runDemo, type DemoSeed } from '../../src/demo/main.js';
 import type { RunningService } from '../../src/server.js';
+import { forgetFrozenModels } from '../../src/services/frozen-models.js';
 
 describe('npm run demo', () => {
   const folder = mkdtempSync(join(tmpdir(), 'mvledger-demo-'));
@@ -84,6 +85,28 @@ describe('npm run demo', () => {
     const verify = (await (await get('/v1/audit/verify', seed.analystKey)).json()) as { ok: boolean; checked: number };
     expect(verify.ok).toBe(true);
     expect(verify.checked).toBeGreaterThan(20);
+  });
+
+  it('streams the same report from the stored compact models as from the baselines’ content', async () => {
+    // The demo's baselines carry what the generated portfolio's do not: variables, a calendar, a superseded one.
+    const report = async () => {
+      const response = await get('/v1/reports/savings/stream?quarter=2025-Q3', seed.analystKey);
+      expect(response.status).toBe(200);
+      return response.text();
+    };
+    const db = service.store.db;
+    forgetFrozenModels();
+    const fromStored = await report();
+    const stored = await db.selectFrom('frozen_models').selectAll().execute();
+    expect(stored.length).toBeGreaterThanOrEqual(7); // one per frozen baseline, at least
+    await db.deleteFrom('frozen_models').execute();
+    forgetFrozenModels();
+    try {
+      expect(await report()).toBe(fromStored);
+    } finally {
+      await db.insertInto('frozen_models').values(stored).execute();
+      forgetFrozenModels();
+    }
   });
 
   it('serves the OpenAPI document and the docs page', async () => {
