@@ -116,13 +116,13 @@ export async function frozenModel(db: Executor, baselineId: string, contentHash:
 }
 
 /** A model held in memory for this baseline, if any (no database read). */
-export function cachedProjectionModel(baselineId: string, contentHash: string): ProjectionModel | undefined {
+function cachedProjectionModel(baselineId: string, contentHash: string): ProjectionModel | undefined {
   const key = cacheKey(baselineId, contentHash);
   return projectionModels.get(key) ?? fullModels.get(key);
 }
 
 /** The whole model of a baseline row already read: its content checked against its hash, parsed, realigned and cached. */
-export function frozenModelOfRow(row: BaselineRow, contentHash: string): FrozenModel {
+function frozenModelOfRow(row: BaselineRow, contentHash: string): FrozenModel {
   const key = cacheKey(row.id, contentHash);
   const cached = fullModels.get(key);
   if (cached) return cached;
@@ -248,6 +248,50 @@ export function usableStoredModel(
     return null;
   }
   return projectionModels.set(cacheKey(baselineId, contentHash), model);
+}
+
+/**
+ * The models of frozen baselines, by baseline id, for many at once (a
+ * report's chunk): from memory, else from their stored compact form where
+ * it checks out (one query), else derived from their whole content, read and
+ * checked against its hash (one more query). A baseline without a content
+ * hash has none.
+ */
+export async function projectionModelsOf(
+  db: Executor,
+  baselines: readonly { id: string; content_hash: string | null }[],
+): Promise<Map<string, ProjectionModel>> {
+  const models = new Map<string, ProjectionModel>();
+  const hashes = new Map<string, string>();
+  for (const { id, content_hash } of baselines) {
+    if (content_hash === null) continue;
+    const held = cachedProjectionModel(id, content_hash);
+    if (held) models.set(id, held);
+    else hashes.set(id, content_hash);
+  }
+  if (hashes.size > 0) {
+    const stored = await db
+      .selectFrom('frozen_models')
+      .select(['baseline_id', 'content_hash', 'format', 'model_json', 'model_hash'])
+      .where('baseline_id', 'in', [...hashes.keys()])
+      .execute();
+    for (const entry of stored) {
+      const model = usableStoredModel(entry.baseline_id, hashes.get(entry.baseline_id)!, entry);
+      if (model) {
+        models.set(entry.baseline_id, model);
+        hashes.delete(entry.baseline_id);
+      }
+    }
+  }
+  if (hashes.size > 0) {
+    const rows = await db
+      .selectFrom('baselines')
+      .selectAll()
+      .where('id', 'in', [...hashes.keys()])
+      .execute();
+    for (const row of rows) models.set(row.id, frozenModelOfRow(row as BaselineRow, hashes.get(row.id)!));
+  }
+  return models;
 }
 
 /** Store the model of a baseline just frozen (in the freeze's transaction); a row already there for it is replaced. */

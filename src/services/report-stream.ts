@@ -73,7 +73,7 @@ import {
   type ReportQuery,
   type ReportReads,
 } from './reports.js';
-import { cachedProjectionModel, frozenModelOfRow, usableStoredModel, type ProjectionModel } from './frozen-models.js';
+import { projectionModelsOf, type ProjectionModel } from './frozen-models.js';
 import { reportingSeries } from './variables.js';
 
 export type StreamFormat = 'json' | 'csv';
@@ -467,11 +467,7 @@ type BaselineSummaryRow = Pick<
   'id' | 'version' | 'content_hash' | 'period_start' | 'period_end' | 'temperature_form'
 >;
 
-/**
- * Each meter's frozen baseline and its model: from memory, else from its
- * stored compact form (frozen_models, about 3 KB), else (no usable stored
- * form) from the baseline's whole content, read and checked as before.
- */
+/** Each meter's frozen baseline and its model (projectionModelsOf: the compact stored form where it checks out). */
 async function frozenBaselines(
   db: Executor,
   meters: readonly MeterRow[],
@@ -488,42 +484,7 @@ async function frozenBaselines(
     )
     .where('status', '=', 'frozen')
     .execute();
-  const models = new Map<string, ProjectionModel>();
-  const notHeld = (r: (typeof rows)[number]) => r.content_hash !== null && !models.has(r.id);
-  for (const row of rows) {
-    const held = row.content_hash === null ? undefined : cachedProjectionModel(row.id, row.content_hash);
-    if (held) models.set(row.id, held);
-  }
-  const unread = rows.filter(notHeld);
-  if (unread.length > 0) {
-    const hashes = new Map(unread.map((r) => [r.id, r.content_hash!]));
-    const stored = await db
-      .selectFrom('frozen_models')
-      .select(['baseline_id', 'content_hash', 'format', 'model_json', 'model_hash'])
-      .where(
-        'baseline_id',
-        'in',
-        unread.map((r) => r.id),
-      )
-      .execute();
-    for (const entry of stored) {
-      const model = usableStoredModel(entry.baseline_id, hashes.get(entry.baseline_id)!, entry);
-      if (model) models.set(entry.baseline_id, model);
-    }
-  }
-  const underived = rows.filter(notHeld);
-  if (underived.length > 0) {
-    const full = await db
-      .selectFrom('baselines')
-      .selectAll()
-      .where(
-        'id',
-        'in',
-        underived.map((r) => r.id),
-      )
-      .execute();
-    for (const row of full) models.set(row.id, frozenModelOfRow(row as BaselineRow, row.content_hash!));
-  }
+  const models = await projectionModelsOf(db, rows);
   for (const row of rows) out.set(row.meter_id, { row, model: models.get(row.id) ?? null });
   return out;
 }

@@ -130,7 +130,7 @@ export function verifyBaselineContent(row: HashedBaseline): boolean {
 
 /**
  * verifyBaselineContent for a row whose options, inputs, document and fits
- * columns the caller has already parsed without error (frozenModelOfRow):
+ * columns the caller has already parsed without error (deriveFrozenModel):
  * first the hash of the content written with those columns' own text in
  * place of their re-serialised form (they are canonical JSON as stored, so
  * this is the same text without parsing and writing 50 KB again), and only
