@@ -67,28 +67,25 @@ function windowText(start: string, to: string | undefined): string {
   return to === undefined ? `starting on or after ${start}` : `lying in ${start}..${to}`;
 }
 
-/** What a savings request reads first: the meter, its data version (null: none yet) and its frozen baseline. */
-export interface SavingsSubject {
-  meter: MeterRow;
-  version: string | null;
-  baseline: { id: string; version: number; content_hash: string | null; period_end: string } | null;
-}
-
-/** The meter of the organisation with its data version and frozen baseline, in one query (undefined: no such meter). */
-export async function savingsSubject(
+/** The meter of the organisation with its frozen baseline, in one query (undefined: no such meter). */
+async function meterWithFrozenBaseline(
   db: Executor,
   organisationId: string,
   meterId: string,
-): Promise<SavingsSubject | undefined> {
+): Promise<
+  | {
+      meter: MeterRow;
+      baseline: { id: string; version: number; content_hash: string | null; period_end: string } | null;
+    }
+  | undefined
+> {
   const row = await db
     .selectFrom('meters')
-    .leftJoin('meter_data_versions', 'meter_data_versions.meter_id', 'meters.id')
     .leftJoin('baselines', (join) =>
       join.onRef('baselines.meter_id', '=', 'meters.id').on('baselines.status', '=', 'frozen'),
     )
     .selectAll('meters')
     .select([
-      'meter_data_versions.version as data_version',
       'baselines.id as baseline_id',
       'baselines.version as baseline_version',
       'baselines.content_hash as baseline_content_hash',
@@ -98,10 +95,9 @@ export async function savingsSubject(
     .where('meters.organisation_id', '=', organisationId)
     .executeTakeFirst();
   if (!row) return undefined;
-  const { data_version, baseline_id, baseline_version, baseline_content_hash, baseline_period_end, ...meter } = row;
+  const { baseline_id, baseline_version, baseline_content_hash, baseline_period_end, ...meter } = row;
   return {
     meter,
-    version: data_version,
     baseline:
       baseline_id === null
         ? null
@@ -114,15 +110,13 @@ export async function savingsSubject(
   };
 }
 
-/** The meter's savings; `subject` when the caller has read it already (savingsSubject). */
 export async function meterSavings(
   db: Executor,
   organisationId: string,
   meterId: string,
   query: SavingsQuery,
-  subject?: SavingsSubject,
 ): Promise<MeterSavings> {
-  const read = subject ?? (await savingsSubject(db, organisationId, meterId));
+  const read = await meterWithFrozenBaseline(db, organisationId, meterId);
   if (!read) throw notFound('meter', meterId);
   const { meter, baseline } = read;
   if (!baseline || baseline.content_hash === null) {
