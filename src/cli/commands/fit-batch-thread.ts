@@ -1,5 +1,5 @@
 /** One worker thread of a batch fit (fit-batch-threads.ts): takes meters from the shared counter and posts each line back. */
 import { parentPort, workerData } from 'node:worker_threads';
-import { fitFromCounter, type ThreadWork } from './fit-batch-threads.js';
+import { counterFitter, type ThreadWork } from './fit-batch-threads.js';
 
-fitFromCounter(workerData as ThreadWork, (answer) => parentPort!.postMessage(answer));
+counterFitter(workerData as ThreadWork)((answer) => parentPort!.postMessage(answer));

@@ -29,20 +29,26 @@ export interface ThreadAnswer {
   result: MeterResult;
 }
 
-/** Take meters from the shared counter until none is left, answering each. */
-export function fitFromCounter(work: ThreadWork, answer: (a: ThreadAnswer) => void, stopAfter = Infinity): boolean {
+/**
+ * A thread's fitter: each call takes meters from the shared counter and
+ * answers each, until none is left (false) or `stopAfter` were taken (true).
+ * The stations' weather is indexed once, when the fitter is made.
+ */
+export function counterFitter(work: ThreadWork): (answer: (a: ThreadAnswer) => void, stopAfter?: number) => boolean {
   const counter = new Int32Array(work.next);
   const weather = new Map(work.weather.map(([station, file]) => [station, withDayIndex(file)]));
-  for (let taken = 0; taken < stopAfter; taken++) {
-    const index = Atomics.add(counter, 0, 1);
-    if (index >= work.meters.length) return false;
-    const meter = work.meters[index]!;
-    const stationDays = weather.get(meter.station) ?? weather.get(null);
-    // The main thread checked that every meter has its weather before starting the threads.
-    if (!stationDays) throw new Error(`meter ${meter.meter}: no weather`);
-    answer({ index, result: fitMeter(meter, stationDays, work.options) });
-  }
-  return true;
+  return (answer, stopAfter = Infinity) => {
+    for (let taken = 0; taken < stopAfter; taken++) {
+      const index = Atomics.add(counter, 0, 1);
+      if (index >= work.meters.length) return false;
+      const meter = work.meters[index]!;
+      const stationDays = weather.get(meter.station) ?? weather.get(null);
+      // The main thread checked that every meter has its weather before starting the threads.
+      if (!stationDays) throw new Error(`meter ${meter.meter}: no weather`);
+      answer({ index, result: fitMeter(meter, stationDays, work.options) });
+    }
+    return true;
+  };
 }
 
 /**
@@ -94,7 +100,8 @@ export async function fitInWorkers(
   });
   try {
     // The main thread fits a few meters at a time, then lets the workers' answers in.
-    while (failed === null && fitFromCounter(work, receive, MAIN_THREAD_RUN))
+    const fitSome = counterFitter(work);
+    while (failed === null && fitSome(receive, MAIN_THREAD_RUN))
       await new Promise<void>((resolve) => setImmediate(resolve));
     await watched;
     if (failed !== null) throw failed;
