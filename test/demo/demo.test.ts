@@ -98,7 +98,7 @@ describe('npm run demo', () => {
     forgetFrozenModels();
     const fromStored = await report();
     const stored = await db.selectFrom('frozen_models').selectAll().execute();
-    expect(stored.length).toBeGreaterThanOrEqual(7); // one per frozen baseline, at least
+    expect(stored.length).toBeGreaterThanOrEqual(7); // synthetic: the scenario freezes a baseline for each of its seven meters
     await db.deleteFrom('frozen_models').execute();
     forgetFrozenModels();
     try {

@@ -369,22 +369,22 @@ function relaxationInside(
  */
 function solvePair(
   pair: PairGram,
-  heatLow: number,
-  heatHigh: number,
-  coolLow: number,
-  coolHigh: number,
+  heat: readonly [number, number],
+  cool: readonly [number, number],
   relaxedSse: number,
   coefficients: Float64Array,
   bounds: EdgeBounds | null,
   incumbent: number,
 ): FivePointOptimum | null {
-  if (relaxationInside(coefficients, [heatLow, heatHigh], [coolLow, coolHigh])) {
+  if (relaxationInside(coefficients, heat, cool)) {
     return {
       heating: coefficients[1]! / -coefficients[2]!,
       cooling: -coefficients[4]! / coefficients[3]!,
       sse: relaxedSse,
     };
   }
+  const [heatLow, heatHigh] = heat;
+  const [coolLow, coolHigh] = cool;
   let best: FivePointOptimum | null = null;
   for (let e = 0; e < 4; e++) {
     if (bounds !== null && bounds.bound[e]! > incumbent) continue;
@@ -689,17 +689,7 @@ export function searchFivePoint(
       pair.rr = rr;
       pair.ry = coolRY[j]!;
       pair.yy = totalSquares;
-      const solved = solvePair(
-        pair,
-        heatLow,
-        heatHigh,
-        coolEnds[0],
-        coolEnds[1],
-        relaxed,
-        coefficients,
-        edgeBounds,
-        bestSse + slack,
-      );
+      const solved = solvePair(pair, heatEnds, coolEnds, relaxed, coefficients, edgeBounds, bestSse + slack);
       if (solved && solved.sse < bestSse) {
         best = solved;
         bestSse = solved.sse;
